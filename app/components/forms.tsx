@@ -1,0 +1,47 @@
+import type { InputHTMLAttributes, ReactNode, SelectHTMLAttributes } from "react";
+
+type FieldProps = InputHTMLAttributes<HTMLInputElement> & { label: string; name: string; error?: string; hint?: ReactNode };
+
+/** A labelled input with its error message tied to it for screen readers. */
+export function Field({ label, name, error, hint, id, ...rest }: FieldProps) {
+  const fieldId = id ?? `f-${name}`;
+  return (
+    <div>
+      <label htmlFor={fieldId} className="label">{label}</label>
+      <input
+        id={fieldId}
+        name={name}
+        className="field"
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${fieldId}-error` : undefined}
+        {...rest}
+      />
+      {hint && !error && <p className="mt-1 text-sm text-graphite-soft">{hint}</p>}
+      {error && <p id={`${fieldId}-error`} className="field-error" role="alert">{error}</p>}
+    </div>
+  );
+}
+
+type SelectProps = SelectHTMLAttributes<HTMLSelectElement> & { label: string; name: string; error?: string; children: ReactNode };
+
+export function SelectField({ label, name, error, id, children, ...rest }: SelectProps) {
+  const fieldId = id ?? `f-${name}`;
+  return (
+    <div>
+      <label htmlFor={fieldId} className="label">{label}</label>
+      <select id={fieldId} name={name} className="field" aria-invalid={error ? true : undefined} {...rest}>
+        {children}
+      </select>
+      {error && <p className="field-error" role="alert">{error}</p>}
+    </div>
+  );
+}
+
+export function FormError({ message }: { message?: string }) {
+  if (!message) return null;
+  return (
+    <div role="alert" className="rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-3 text-sm text-spec-red">
+      {message}
+    </div>
+  );
+}

@@ -1,0 +1,227 @@
+import { hash, verify } from "@node-rs/argon2";
+import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
+import { and, eq, gt, sql } from "drizzle-orm";
+import { Lucia, TimeSpan, type Session } from "lucia";
+import { data, redirect } from "react-router";
+import { sessions, signInAttempts, users } from "~/db/schema";
+import { db, isDatabaseDown } from "./db.server";
+import { env } from "./env.server";
+import { can, type Permission, type Role } from "./permissions";
+
+const ARGON2 = { memoryCost: 19456, timeCost: 2, outputLen: 32, parallelism: 1 } as const;
+
+export function hashPassword(password: string): Promise<string> {
+  return hash(password, ARGON2);
+}
+
+export async function verifyPassword(passwordHash: string, password: string): Promise<boolean> {
+  try {
+    return await verify(passwordHash, password);
+  } catch {
+    return false;
+  }
+}
+
+function createLucia() {
+  const adapter = new DrizzlePostgreSQLAdapter(db(), sessions, users);
+  return new Lucia(adapter, {
+    sessionExpiresIn: new TimeSpan(30, "d"),
+    sessionCookie: {
+      name: "br_session",
+      expires: true,
+      attributes: { secure: env().PUBLIC_URL.startsWith("https://"), sameSite: "lax", path: "/" },
+    },
+    getUserAttributes: (a) => ({
+      email: a.email,
+      name: a.name,
+      role: a.role,
+      unitSystem: a.unitSystem,
+      deactivatedAt: a.deactivatedAt,
+    }),
+  });
+}
+
+let luciaInstance: ReturnType<typeof createLucia> | undefined;
+export function lucia() {
+  luciaInstance ??= createLucia();
+  return luciaInstance;
+}
+
+declare module "lucia" {
+  interface Register {
+    Lucia: ReturnType<typeof createLucia>;
+    DatabaseUserAttributes: {
+      email: string;
+      name: string;
+      role: Role;
+      unitSystem: "metric" | "inch";
+      deactivatedAt: Date | null;
+    };
+  }
+}
+
+export type SessionUser = {
+  id: string;
+  email: string;
+  name: string;
+  role: Role;
+  unitSystem: "metric" | "inch";
+};
+
+type Validated = { user: SessionUser; session: Session } | null;
+const cache = new WeakMap<Request, Promise<Validated>>();
+
+function readSessionId(request: Request): string | null {
+  return lucia().readSessionCookie(request.headers.get("cookie") ?? "");
+}
+
+async function validate(request: Request): Promise<Validated> {
+  const id = readSessionId(request);
+  if (!id) return null;
+  const { session, user } = await lucia().validateSession(id);
+  if (!session || !user) return null;
+  if (user.deactivatedAt) {
+    await lucia().invalidateUserSessions(user.id);
+    return null;
+  }
+  return {
+    session,
+    user: { id: user.id, email: user.email, name: user.name, role: user.role, unitSystem: user.unitSystem },
+  };
+}
+
+/** A 503 the ErrorBoundary shows as "database unavailable" instead of a stack trace. */
+export function databaseUnavailable() {
+  return data({ message: "The shop database is not answering. Try again in a minute; if it persists, tell the admin." }, { status: 503 });
+}
+
+/** The signed-in person for this request, or null. Validated once per request. */
+export function getSession(request: Request): Promise<Validated> {
+  let p = cache.get(request);
+  if (!p) {
+    p = validate(request).catch((err) => {
+      if (isDatabaseDown(err)) throw databaseUnavailable();
+      throw err;
+    });
+    cache.set(request, p);
+  }
+  return p;
+}
+
+export async function getUser(request: Request): Promise<SessionUser | null> {
+  return (await getSession(request))?.user ?? null;
+}
+
+function isApi(request: Request) {
+  return new URL(request.url).pathname.startsWith("/api/");
+}
+
+/** Throws 401 (API) or a redirect to sign-in with a return path (pages). */
+export async function requireUser(request: Request): Promise<SessionUser> {
+  const user = await getUser(request);
+  if (user) return user;
+  if (isApi(request)) throw Response.json({ error: "sign-in required" }, { status: 401 });
+  const url = new URL(request.url);
+  const next = url.pathname.replace(/\.data$/, "") + url.search;
+  throw redirect(`/signin?next=${encodeURIComponent(next)}`);
+}
+
+export function forbidden(request: Request, reason: string): never {
+  if (isApi(request)) throw Response.json({ error: "forbidden", reason }, { status: 403 });
+  throw data({ message: reason }, { status: 403 });
+}
+
+export function assertCan(request: Request, user: SessionUser, permission: Permission): void {
+  if (!can(user.role, permission)) {
+    forbidden(request, `Your role cannot do this (needs “${permission}”).`);
+  }
+}
+
+/** The guard at the top of every loader and action: signed in, and allowed. */
+export async function requirePermission(request: Request, permission: Permission): Promise<SessionUser> {
+  const user = await requireUser(request);
+  assertCan(request, user, permission);
+  return user;
+}
+
+// ---- sign-in with throttling ---------------------------------------------------------------
+
+export const THROTTLE = { maxFailures: 5, windowMs: 15 * 60 * 1000 };
+
+/** Minutes until the address may try again, or 0 when it may try now. */
+export async function throttleWait(email: string, now = new Date()): Promise<number> {
+  const since = new Date(now.getTime() - THROTTLE.windowMs);
+  const address = email.trim().toLowerCase();
+  const [lastOk] = await db()
+    .select({ at: sql<Date>`max(${signInAttempts.at})` })
+    .from(signInAttempts)
+    .where(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, true)));
+  const from = lastOk?.at && new Date(lastOk.at) > since ? new Date(lastOk.at) : since;
+  const failures = await db()
+    .select({ at: signInAttempts.at })
+    .from(signInAttempts)
+    .where(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, from)))
+    .orderBy(signInAttempts.at);
+  if (failures.length < THROTTLE.maxFailures) return 0;
+  const unlockAt = failures[failures.length - THROTTLE.maxFailures].at.getTime() + THROTTLE.windowMs;
+  return Math.max(1, Math.ceil((unlockAt - now.getTime()) / 60000));
+}
+
+export type SignInResult =
+  | { ok: true; user: SessionUser; cookie: string }
+  | { ok: false; reason: "throttled"; minutes: number }
+  | { ok: false; reason: "invalid" | "deactivated" };
+
+let dummyHash: Promise<string> | undefined;
+
+export async function signIn(request: Request, emailInput: string, password: string): Promise<SignInResult> {
+  const email = emailInput.trim().toLowerCase();
+  const wait = await throttleWait(email);
+  if (wait > 0) return { ok: false, reason: "throttled", minutes: wait };
+
+  const [row] = await db().select().from(users).where(sql`lower(${users.email}) = ${email}`).limit(1);
+  if (!row || !row.passwordHash) {
+    dummyHash ??= hashPassword("not-a-real-password");
+    await verifyPassword(await dummyHash, password); // same cost as a real check
+    await db().insert(signInAttempts).values({ email, succeeded: false });
+    return { ok: false, reason: "invalid" };
+  }
+  if (!(await verifyPassword(row.passwordHash, password))) {
+    await db().insert(signInAttempts).values({ email, succeeded: false });
+    return { ok: false, reason: "invalid" };
+  }
+  if (row.deactivatedAt) return { ok: false, reason: "deactivated" };
+
+  await db().insert(signInAttempts).values({ email, succeeded: true });
+  const cookie = await startSession(request, row.id);
+  return {
+    ok: true,
+    cookie,
+    user: { id: row.id, email: row.email, name: row.name, role: row.role, unitSystem: row.unitSystem },
+  };
+}
+
+/** A fresh session id for the user; any session the request carried is ended (rotation). */
+export async function startSession(request: Request, userId: string): Promise<string> {
+  const previous = readSessionId(request);
+  if (previous) await lucia().invalidateSession(previous);
+  const session = await lucia().createSession(userId, {});
+  return lucia().createSessionCookie(session.id).serialize();
+}
+
+export async function signOut(request: Request): Promise<string> {
+  const id = readSessionId(request);
+  if (id) await lucia().invalidateSession(id);
+  return lucia().createBlankSessionCookie().serialize();
+}
+
+export async function endAllSessions(userId: string): Promise<void> {
+  await lucia().invalidateUserSessions(userId);
+}
+
+/** Cookie to set when lucia extended the session, for the root middleware. */
+export async function refreshedCookie(request: Request): Promise<string | null> {
+  const v = await getSession(request);
+  if (v?.session.fresh) return lucia().createSessionCookie(v.session.id).serialize();
+  return null;
+}

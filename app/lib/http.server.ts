@@ -1,0 +1,64 @@
+import { env } from "./env.server";
+import { refreshedCookie } from "./auth.server";
+
+export const SECURITY_HEADERS: Record<string, string> = {
+  "X-Content-Type-Options": "nosniff",
+  "Referrer-Policy": "strict-origin-when-cross-origin",
+  "X-Frame-Options": "DENY",
+  "Content-Security-Policy": "frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'",
+  "Cross-Origin-Opener-Policy": "same-origin",
+  "Permissions-Policy": "camera=(), microphone=(), geolocation=()",
+};
+
+const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+/** The origins a state-changing request may come from: the app's own. */
+export function allowedOrigins(request: Request): Set<string> {
+  const own = new Set<string>([new URL(request.url).origin]);
+  try {
+    own.add(new URL(env().PUBLIC_URL).origin);
+  } catch {
+    /* env is validated elsewhere */
+  }
+  return own;
+}
+
+/** CSRF: a non-GET request must carry an Origin header naming the app itself. */
+export function csrfRefusal(request: Request): Response | null {
+  if (SAFE_METHODS.has(request.method)) return null;
+  const origin = request.headers.get("origin");
+  if (origin && allowedOrigins(request).has(origin)) return null;
+  const reason = origin ? `cross-site request from ${origin} refused` : "request without an Origin header refused";
+  const wantsJson = new URL(request.url).pathname.startsWith("/api/") || !request.headers.get("accept")?.includes("text/html");
+  return wantsJson
+    ? Response.json({ error: "forbidden", reason }, { status: 403 })
+    : new Response(`Forbidden: ${reason}`, { status: 403, headers: { "content-type": "text/plain; charset=utf-8" } });
+}
+
+function withHeaders(res: Response, extra: Record<string, string>, cookie: string | null): Response {
+  try {
+    for (const [k, v] of Object.entries(extra)) if (!res.headers.has(k)) res.headers.set(k, v);
+    if (cookie) res.headers.append("Set-Cookie", cookie);
+    return res;
+  } catch {
+    // Immutable headers (a fetched response passed through): copy it.
+    const copy = new Response(res.body, res);
+    for (const [k, v] of Object.entries(extra)) if (!copy.headers.has(k)) copy.headers.set(k, v);
+    if (cookie) copy.headers.append("Set-Cookie", cookie);
+    return copy;
+  }
+}
+
+/** Root middleware: CSRF refusal, security headers, and lucia's session extension. */
+export async function securityMiddleware({ request }: { request: Request }, next: () => Promise<Response>) {
+  const refused = csrfRefusal(request);
+  if (refused) return withHeaders(refused, SECURITY_HEADERS, null);
+  const res = await next();
+  let cookie: string | null = null;
+  try {
+    cookie = await refreshedCookie(request);
+  } catch {
+    cookie = null;
+  }
+  return withHeaders(res, SECURITY_HEADERS, cookie);
+}

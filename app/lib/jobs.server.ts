@@ -1,0 +1,45 @@
+import { env } from "./env.server";
+import { createTransport, drainOutbox } from "./mail.server";
+import { pool } from "./db.server";
+
+/**
+ * A periodic task of the worker: it is called every `everyMs`, never twice at once, and an
+ * error is logged and retried on the next tick (rows stay pending until done).
+ */
+export type PeriodicTask = { name: string; everyMs: number; run: () => Promise<unknown> };
+
+export function periodicTasks(): PeriodicTask[] {
+  const transport = createTransport(env().SMTP_URL);
+  const retryBaseMs = Number(process.env.MAIL_RETRY_BASE_MS ?? 5000);
+  return [
+    { name: "mail-outbox", everyMs: Number(process.env.MAIL_POLL_MS ?? 1000), run: () => drainOutbox({ transport, retryBaseMs }) },
+  ];
+}
+
+export async function startWorker(tasks: PeriodicTask[] = periodicTasks()) {
+  let stopped = false;
+  const timers: NodeJS.Timeout[] = [];
+  const running = new Set<Promise<unknown>>();
+  for (const task of tasks) {
+    let busy = false;
+    const tick = async () => {
+      if (busy || stopped) return;
+      busy = true;
+      const p = task.run().catch((err) => console.error(`[worker] ${task.name}:`, (err as Error).message));
+      running.add(p);
+      await p;
+      running.delete(p);
+      busy = false;
+    };
+    void tick();
+    timers.push(setInterval(tick, task.everyMs));
+  }
+  return {
+    async stop() {
+      stopped = true;
+      for (const t of timers) clearInterval(t);
+      await Promise.all(running);
+      await pool().end();
+    },
+  };
+}

@@ -1,0 +1,45 @@
+import { type RouteConfig, index, layout, prefix, route } from "@react-router/dev/routes";
+
+// Every route here needs an entry in tests/integration/route-matrix.test.ts (statuses per role).
+export default [
+  // ---- public: sign-in, invitations, password reset, monitoring -------------------------------
+  route("signin", "routes/auth/signin.tsx"),
+  route("signout", "routes/auth/signout.tsx"),
+  route("invite/:token", "routes/auth/invite.tsx"),
+  route("reset", "routes/auth/reset-request.tsx"),
+  route("reset/:token", "routes/auth/reset.tsx"),
+  route("healthz", "routes/healthz.ts"),
+
+  // ---- the signed-in shell ------------------------------------------------------------------
+  layout("routes/shell.tsx", [
+    index("routes/shop-floor.tsx"),
+    route("account", "routes/account.tsx"),
+
+    // procedures
+    route("procedures", "routes/procedures/index.tsx"),
+
+    // recordings
+    route("recordings", "routes/recordings/index.tsx"),
+
+    // test records
+    route("test-records", "routes/test-records/index.tsx"),
+
+    // calculators
+    route("calculators", "routes/calculators/index.tsx"),
+
+    // search
+    route("search", "routes/search.tsx"),
+
+    // administration
+    ...prefix("admin", [
+      index("routes/admin/index.tsx"),
+      route("people", "routes/admin/people.tsx"),
+      route("outbox", "routes/admin/outbox.tsx"),
+    ]),
+  ]),
+
+  // ---- JSON API (resource routes) -----------------------------------------------------------
+  ...prefix("api", [
+    route("me", "routes/api/me.ts"),
+  ]),
+] satisfies RouteConfig;

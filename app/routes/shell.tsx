@@ -1,0 +1,24 @@
+import { Outlet } from "react-router";
+import type { Route } from "./+types/shell";
+import { AppHeader, FlashBanner } from "~/components/AppHeader";
+import { requirePermission } from "~/lib/auth.server";
+import { useRootData } from "~/root";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  // Guards only the shell's own data; every child route guards itself as well.
+  const user = await requirePermission(request, "shop:read");
+  return { user };
+}
+
+export default function Shell({ loaderData }: Route.ComponentProps) {
+  const root = useRootData();
+  return (
+    <>
+      <AppHeader user={loaderData.user} />
+      <main className="mx-auto max-w-6xl px-5 py-8">
+        <FlashBanner flash={root?.flash ?? null} />
+        <Outlet />
+      </main>
+    </>
+  );
+}

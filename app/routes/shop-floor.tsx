@@ -1,0 +1,43 @@
+import { Link } from "react-router";
+import type { Route } from "./+types/shop-floor";
+import { PageHeader } from "~/components/page";
+import { requirePermission } from "~/lib/auth.server";
+import { can, ROLE_LABELS } from "~/lib/permissions";
+
+export const meta: Route.MetaFunction = () => [{ title: "Shop floor · Benchreel" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requirePermission(request, "shop:read");
+  return { user };
+}
+
+type Tile = { to: string; title: string; body: string; show: boolean };
+
+export default function ShopFloor({ loaderData }: Route.ComponentProps) {
+  const { user } = loaderData;
+  const first = user.name.split(" ")[0];
+  const tiles: Tile[] = [
+    { to: "/procedures", title: "Procedures", body: "How each job is done and why, with its specs.", show: true },
+    { to: "/recordings", title: "Recordings", body: "Bench-test and procedure videos with marks and readings.", show: true },
+    { to: "/test-records", title: "Test records", body: "QC results filed against the procedure in force.", show: true },
+    { to: "/calculators", title: "Calculators", body: "Preload, Bore distortion, Clearances.", show: can(user.role, "calc:use") },
+    { to: "/admin/people", title: "People", body: "Invite staff, set roles, deactivate accounts.", show: can(user.role, "user:manage") },
+  ];
+  return (
+    <>
+      <PageHeader title={`Good to see you, ${first}`} kicker="Shop floor">
+        Signed in as {ROLE_LABELS[user.role]}.
+      </PageHeader>
+      <section aria-label="Sections" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+        {tiles
+          .filter((t) => t.show)
+          .map((t) => (
+            <Link key={t.to} to={t.to} className="card block text-graphite no-underline transition hover:border-brass">
+              <h2 className="text-lg">{t.title}</h2>
+              <p className="mt-1 text-sm text-graphite-soft">{t.body}</p>
+            </Link>
+          ))}
+      </section>
+    </>
+  );
+}

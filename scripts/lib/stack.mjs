@@ -1,0 +1,221 @@
+// Orchestration shared by `npm start` and `npm test`. Plain Node (no packages): it runs
+// before `npm ci` may have happened.
+import { execFileSync, spawn, spawnSync } from "node:child_process";
+import { createHash } from "node:crypto";
+import fs from "node:fs";
+import net from "node:net";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+
+export const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
+export const PG_BIN = process.env.PG_BIN ?? "/usr/lib/postgresql/15/bin";
+const isRoot = process.getuid?.() === 0;
+
+export function log(msg) {
+  console.log(`\x1b[33m[benchreel]\x1b[0m ${msg}`);
+}
+
+function run(cmd, args, opts = {}) {
+  const r = spawnSync(cmd, args, { stdio: "inherit", cwd: ROOT, ...opts });
+  if (r.status !== 0) throw new Error(`${cmd} ${args.join(" ")} exited with ${r.status ?? r.signal}`);
+}
+
+// ---- installs -----------------------------------------------------------------------------
+
+export function ensureNpmPackages() {
+  const marker = path.join(ROOT, "node_modules/.package-lock.json");
+  const lock = path.join(ROOT, "package-lock.json");
+  if (fs.existsSync(marker) && fs.statSync(marker).mtimeMs >= fs.statSync(lock).mtimeMs) return;
+  log("installing npm packages (npm ci)…");
+  run("npm", ["ci", "--no-audit", "--no-fund"]);
+}
+
+let aptUpdated = false;
+function aptInstall(pkgs) {
+  if (!isRoot) throw new Error(`missing ${pkgs.join(", ")}: install with apt-get as root`);
+  if (!aptUpdated) {
+    log("apt-get update…");
+    run("apt-get", ["update", "-qq"]);
+    aptUpdated = true;
+  }
+  log(`apt-get install ${pkgs.join(" ")}…`);
+  run("apt-get", ["install", "-y", "-qq", "--no-install-recommends", ...pkgs], {
+    env: { ...process.env, DEBIAN_FRONTEND: "noninteractive" },
+  });
+}
+
+/** Installs Debian's packages for whichever of the named tools are missing. */
+export function ensureDebianTools({ postgres = true, ffmpeg = true, chromium = false } = {}) {
+  const missing = [];
+  if (postgres && !fs.existsSync(path.join(PG_BIN, "postgres"))) missing.push("postgresql");
+  if (ffmpeg && !fs.existsSync("/usr/bin/ffprobe")) missing.push("ffmpeg");
+  if (chromium && !fs.existsSync("/usr/bin/chromium")) missing.push("chromium");
+  if (missing.length) aptInstall(missing);
+}
+
+// ---- ports --------------------------------------------------------------------------------
+
+export function portFree(port) {
+  return new Promise((resolve) => {
+    const s = net.createServer();
+    s.once("error", () => resolve(false));
+    s.listen(port, "127.0.0.1", () => s.close(() => resolve(true)));
+  });
+}
+
+export function freePort() {
+  return new Promise((resolve, reject) => {
+    const s = net.createServer();
+    s.once("error", reject);
+    s.listen(0, "127.0.0.1", () => {
+      const { port } = s.address();
+      s.close(() => resolve(port));
+    });
+  });
+}
+
+export async function waitForPort(port, timeoutMs = 60_000, label = `port ${port}`) {
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    const ok = await new Promise((resolve) => {
+      const sock = net.connect(port, "127.0.0.1");
+      sock.once("connect", () => (sock.destroy(), resolve(true)));
+      sock.once("error", () => resolve(false));
+    });
+    if (ok) return;
+    await new Promise((r) => setTimeout(r, 150));
+  }
+  throw new Error(`${label} did not open within ${timeoutMs} ms`);
+}
+
+// ---- PostgreSQL ---------------------------------------------------------------------------
+
+function asPostgres(cmd, args, opts = {}) {
+  return isRoot ? ["runuser", ["-u", "postgres", "--", cmd, ...args], opts] : [cmd, args, opts];
+}
+
+function postgresCanEnter(dir) {
+  if (!isRoot) return true;
+  const r = spawnSync("runuser", ["-u", "postgres", "--", "test", "-x", dir]);
+  return r.status === 0;
+}
+
+/**
+ * The folder for a cluster. Inside the checkout (`.data/<name>`, git-ignored) when the
+ * postgres user can reach it; otherwise under /var/lib/postgresql, keyed by a hash of the
+ * checkout path so that two checkouts never share one.
+ */
+export function clusterDir(name) {
+  const parent = path.join(ROOT, ".data");
+  fs.mkdirSync(parent, { recursive: true });
+  if (postgresCanEnter(parent)) return path.join(parent, name, "pg");
+  const key = createHash("sha1").update(ROOT).digest("hex").slice(0, 12);
+  return path.join("/var/lib/postgresql", `benchreel-${key}`, name, "pg");
+}
+
+function chownPostgres(dir) {
+  if (isRoot) execFileSync("chown", ["-R", "postgres:postgres", dir]);
+}
+
+export async function startPostgres(dir, port) {
+  fs.mkdirSync(dir, { recursive: true });
+  chownPostgres(path.dirname(dir));
+  fs.chmodSync(dir, 0o700);
+  if (!fs.existsSync(path.join(dir, "PG_VERSION"))) {
+    log(`creating a PostgreSQL cluster in ${dir}`);
+    run(...asPostgres(path.join(PG_BIN, "initdb"), ["-D", dir, "-A", "trust", "-U", "postgres", "-E", "UTF8", "--no-locale"], { stdio: "ignore" }));
+  }
+  const logFile = path.join(path.dirname(dir), "postgres.log");
+  if (!fs.existsSync(logFile)) fs.writeFileSync(logFile, "");
+  chownPostgres(logFile);
+  run(
+    ...asPostgres(path.join(PG_BIN, "pg_ctl"), [
+      "-D", dir, "-w", "-t", "60", "-l", logFile,
+      "-o", `-p ${port} -c listen_addresses=127.0.0.1 -k ${dir} -c fsync=on`,
+      "start",
+    ], { stdio: "ignore" }),
+  );
+  log(`PostgreSQL on 127.0.0.1:${port}`);
+}
+
+export function stopPostgres(dir) {
+  if (!fs.existsSync(path.join(dir, "postmaster.pid"))) return;
+  const [cmd, args, opts] = asPostgres(path.join(PG_BIN, "pg_ctl"), ["-D", dir, "-m", "fast", "-w", "stop"], { stdio: "ignore" });
+  spawnSync(cmd, args, { cwd: ROOT, ...opts });
+  log("PostgreSQL stopped");
+}
+
+export function createDatabase(port, name, { dropFirst = false } = {}) {
+  const psql = (sql) =>
+    spawnSync(path.join(PG_BIN, "psql"), ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", "-d", "postgres", "-tAc", sql], {
+      encoding: "utf8",
+    });
+  if (dropFirst) psql(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`);
+  const exists = psql(`SELECT 1 FROM pg_database WHERE datname = '${name}'`).stdout.trim() === "1";
+  if (!exists) {
+    const r = psql(`CREATE DATABASE "${name}"`);
+    if (r.status !== 0) throw new Error(`could not create database ${name}: ${r.stderr}`);
+  }
+}
+
+// ---- processes ----------------------------------------------------------------------------
+
+const children = new Set();
+
+export function tsx(script, args = [], env = {}) {
+  return spawnChild(path.join(ROOT, "node_modules/.bin/tsx"), [script, ...args], env);
+}
+
+export function spawnChild(cmd, args, env = {}, label = path.basename(args[0] ?? cmd)) {
+  const child = spawn(cmd, args, { cwd: ROOT, env: { ...process.env, ...env }, stdio: ["ignore", "inherit", "inherit"] });
+  child.label = label;
+  children.add(child);
+  child.on("exit", () => children.delete(child));
+  return child;
+}
+
+/** Runs a command to completion with extra env; resolves to its exit code. */
+export function runWith(cmd, args, env = {}) {
+  return new Promise((resolve) => {
+    const child = spawn(cmd, args, { cwd: ROOT, env: { ...process.env, ...env }, stdio: "inherit" });
+    children.add(child);
+    child.on("exit", (code, signal) => {
+      children.delete(child);
+      resolve(code ?? (signal ? 1 : 0));
+    });
+  });
+}
+
+export async function stopChildren() {
+  const waits = [...children].map(
+    (c) =>
+      new Promise((resolve) => {
+        if (c.exitCode != null) return resolve();
+        const t = setTimeout(() => c.kill("SIGKILL"), 6000);
+        c.once("exit", () => (clearTimeout(t), resolve()));
+        c.kill("SIGTERM");
+      }),
+  );
+  await Promise.all(waits);
+}
+
+export function bin(name) {
+  return path.join(ROOT, "node_modules/.bin", name);
+}
+
+/** The environment the app, the worker and the scripts share. */
+export function appEnv({ dbPort, dbName, appPort, smtpPort, meiliPort, dataDir, nodeEnv }) {
+  return {
+    NODE_ENV: nodeEnv,
+    DATABASE_URL: `postgres://postgres@127.0.0.1:${dbPort}/${dbName}`,
+    SESSION_SECRET: process.env.SESSION_SECRET ?? "local-only-session-secret-change-me",
+    PUBLIC_URL: process.env.PUBLIC_URL ?? `http://127.0.0.1:${appPort}`,
+    SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
+    MAIL_FAKE_DIR: path.join(dataDir, "mail"),
+    MEILI_HOST: `http://127.0.0.1:${meiliPort}`,
+    MEILI_API_KEY: "local-only-meili-key",
+    UPLOAD_DIR: process.env.UPLOAD_DIR ?? path.join(dataDir, "uploads"),
+    PORT: String(appPort),
+    HOST: "127.0.0.1",
+  };
+}

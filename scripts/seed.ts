@@ -1,0 +1,15 @@
+// Seeds the invented demo scenario of PRODUCT.md. Idempotent: each part checks what is
+// already there, so a second run adds nothing twice.
+import { drizzle } from "drizzle-orm/node-postgres";
+import pg from "pg";
+import * as schema from "../app/db/schema";
+import { seedUsers } from "./seed/users";
+
+const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL });
+const db = drizzle(pool, { schema });
+try {
+  const n = await seedUsers(db);
+  console.log(`[seed] demo people: ${n ? `${n} added` : "already there"}`);
+} finally {
+  await pool.end();
+}
