@@ -1,0 +1,134 @@
+/**
+ * Clearances: piston-to-wall (optionally hot, with thermal growth ΔD = D·α·ΔT of each part),
+ * bearing oil clearance (direct, or housing bore − 2 × shell thickness) and ring end gap from
+ * a gap factor (shop guidance), each checked against an optional spec.
+ */
+import { OIL_CLEARANCE_RULE, materialById, resolveMaterialId } from "./materials";
+import { clearanceInputSchema, type ClearanceInput } from "./schemas";
+import { toSI } from "./units";
+
+/** Result of calculateClearance (lengths in mm). */
+export interface ClearanceResult {
+  /** Cold clearance: bore − piston, bearing bore − journal, or (ring gap) the measured gap when given, else the recommended gap. */
+  clearance_mm: number;
+  /** Piston-to-wall with thermal input: grown bore minus grown piston. */
+  hotClearance_mm?: number;
+  /** Clearance per unit of diameter (inch per inch, dimensionless): piston-to-wall and bearing. */
+  perInchOfDiameter?: number;
+  /** Ring gap: bore in inches × gap factor, in mm. */
+  recommendedGap_mm?: number;
+  /** Against the spec (or, for a measured ring gap without spec, against the recommended gap). */
+  verdict?: "within" | "below" | "above";
+  warnings: string[];
+}
+
+type Q = { value: number; unit: string };
+const mm = (q: Q) => toSI(q.value, q.unit as never) * 1000;
+const fmt = (x: number) => `${Number(x.toPrecision(5))} mm (${Number((x / 25.4).toPrecision(4))} in)`;
+
+/** Upper end of the default ring-gap band without a spec: recommended gap × this factor (shop guidance). */
+export const RING_GAP_BAND_FACTOR = 1.25;
+
+function alphaOf(ref: string | { alphaPerK: number }): number {
+  if (typeof ref === "string") return materialById(resolveMaterialId(ref)!).alphaPerK;
+  return ref.alphaPerK;
+}
+
+function verdictFor(
+  value_mm: number,
+  spec: { min?: Q; max?: Q } | undefined,
+  what: string,
+  warnings: string[],
+): "within" | "below" | "above" | undefined {
+  if (!spec) return undefined;
+  const min = spec.min ? mm(spec.min) : undefined;
+  const max = spec.max ? mm(spec.max) : undefined;
+  if (min !== undefined && value_mm < min - 1e-12) {
+    warnings.push(`The ${what} (${fmt(value_mm)}) is below the spec minimum (${fmt(min)}).`);
+    return "below";
+  }
+  if (max !== undefined && value_mm > max + 1e-12) {
+    warnings.push(`The ${what} (${fmt(value_mm)}) is above the spec maximum (${fmt(max)}).`);
+    return "above";
+  }
+  return "within";
+}
+
+/**
+ * Piston-to-wall, bearing oil clearance or ring end gap, with a verdict against an optional
+ * spec. A negative clearance is returned with a warning. Throws the ZodError on invalid input.
+ */
+export function calculateClearance(input: ClearanceInput): ClearanceResult {
+  const v = clearanceInputSchema.parse(input);
+  const warnings: string[] = [];
+
+  if (v.kind === "piston-to-wall") {
+    const bore = mm(v.bore);
+    const piston = mm(v.piston);
+    const clearance_mm = bore - piston;
+    const result: ClearanceResult = { clearance_mm, perInchOfDiameter: clearance_mm / bore, warnings };
+    if (clearance_mm < 0) warnings.push(`The piston is larger than the bore: interference of ${fmt(-clearance_mm)}.`);
+    else if (clearance_mm === 0) warnings.push("The piston is the same size as the bore: no clearance.");
+    if (Math.abs(clearance_mm) > 0.05 * bore) warnings.push("The clearance is more than 5 % of the bore; check the units of bore and piston.");
+    if (v.thermal) {
+      const t = v.thermal;
+      const ambient = toSI(t.ambient.value, t.ambient.unit);
+      const dTb = toSI(t.boreTemperature.value, t.boreTemperature.unit) - ambient;
+      const dTp = toSI(t.pistonTemperature.value, t.pistonTemperature.unit) - ambient;
+      const hotBore = bore * (1 + alphaOf(t.boreMaterial) * dTb);
+      const hotPiston = piston * (1 + alphaOf(t.pistonMaterial) * dTp);
+      result.hotClearance_mm = hotBore - hotPiston;
+      if (result.hotClearance_mm < 0)
+        warnings.push(`Hot clearance is negative (${fmt(result.hotClearance_mm)}): the piston would seize at these temperatures.`);
+      if (dTp < 0 || dTb < 0) warnings.push("A part is colder than ambient; check the temperatures.");
+    }
+    result.verdict = verdictFor(clearance_mm, v.spec, "piston-to-wall clearance", warnings);
+    if (result.verdict === undefined) delete result.verdict;
+    return result;
+  }
+
+  if (v.kind === "bearing") {
+    const journal = mm(v.journal);
+    const bearingBore = v.bearingBore ? mm(v.bearingBore) : mm(v.housingBore!) - 2 * mm(v.shellThickness!);
+    const clearance_mm = bearingBore - journal;
+    const perInch = clearance_mm / journal;
+    const result: ClearanceResult = { clearance_mm, perInchOfDiameter: perInch, warnings };
+    if (!v.bearingBore && bearingBore <= 0) warnings.push("Two shells are thicker than the housing bore is wide; check the inputs.");
+    if (clearance_mm < 0) warnings.push(`The journal is larger than the bearing bore: interference of ${fmt(-clearance_mm)}.`);
+    else if (clearance_mm === 0) warnings.push("The journal is the same size as the bearing bore: no oil clearance.");
+    else if (perInch < OIL_CLEARANCE_RULE.perInchOfDiameter / 3 || perInch > OIL_CLEARANCE_RULE.perInchOfDiameter * 3)
+      warnings.push(
+        `The oil clearance is ${Number((perInch * 1000).toPrecision(3))} thou per inch of journal, far from the usual about 1 thou per inch (shop guidance); check the readings.`,
+      );
+    result.verdict = verdictFor(clearance_mm, v.spec, "oil clearance", warnings);
+    if (result.verdict === undefined) delete result.verdict;
+    return result;
+  }
+
+  // ring-gap
+  const bore = mm(v.bore);
+  const recommendedGap_mm = (bore / 25.4) * v.gapPerBore * 25.4;
+  const result: ClearanceResult = { clearance_mm: recommendedGap_mm, recommendedGap_mm, warnings };
+  if (v.gapPerBore < 0.002 || v.gapPerBore > 0.01)
+    warnings.push(`A gap factor of ${v.gapPerBore} in per in of bore is outside the usual 0.002–0.010 (shop guidance); check it.`);
+  if (v.measuredGap) {
+    const measured = mm(v.measuredGap);
+    result.clearance_mm = measured;
+    if (v.spec) {
+      result.verdict = verdictFor(measured, v.spec, "measured ring gap", warnings);
+    } else if (measured < recommendedGap_mm - 1e-9) {
+      result.verdict = "below";
+      warnings.push(
+        `The measured gap (${fmt(measured)}) is smaller than the recommended ${fmt(recommendedGap_mm)}: the ring ends could butt when hot; file the ring.`,
+      );
+    } else if (measured > recommendedGap_mm * RING_GAP_BAND_FACTOR + 1e-9) {
+      result.verdict = "above";
+      warnings.push(
+        `The measured gap (${fmt(measured)}) is more than ${Math.round((RING_GAP_BAND_FACTOR - 1) * 100)} % over the recommended ${fmt(recommendedGap_mm)} (shop guidance).`,
+      );
+    } else result.verdict = "within";
+  } else if (v.spec) {
+    result.verdict = verdictFor(recommendedGap_mm, v.spec, "recommended ring gap", warnings);
+  }
+  return result;
+}
