@@ -162,12 +162,17 @@ export function createDatabase(port, name, { dropFirst = false } = {}) {
 
 const children = new Set();
 
-export function tsx(script, args = [], env = {}) {
-  return spawnChild(path.join(ROOT, "node_modules/.bin/tsx"), [script, ...args], env);
+export function tsx(script, args = [], env = {}, logFile = null) {
+  return spawnChild(path.join(ROOT, "node_modules/.bin/tsx"), [script, ...args], env, path.basename(script), logFile);
 }
 
-export function spawnChild(cmd, args, env = {}, label = path.basename(args[0] ?? cmd)) {
-  const child = spawn(cmd, args, { cwd: ROOT, env: { ...process.env, ...env }, stdio: ["ignore", "inherit", "inherit"] });
+export function spawnChild(cmd, args, env = {}, label = path.basename(args[0] ?? cmd), logFile = null) {
+  let stdio = ["ignore", "inherit", "inherit"];
+  if (logFile) {
+    const fd = fs.openSync(logFile, "a");
+    stdio = ["ignore", fd, fd];
+  }
+  const child = spawn(cmd, args, { cwd: ROOT, env: { ...process.env, ...env }, stdio });
   child.label = label;
   children.add(child);
   child.on("exit", () => children.delete(child));

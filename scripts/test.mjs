@@ -1,0 +1,134 @@
+// `npm test`: the same set-up as `npm start`, on a throw-away PostgreSQL cluster, database,
+// ports and build folder of its own; then typecheck, Vitest (unit + integration) and
+// Playwright (Debian's chromium). Stops everything it started; exits non-zero on failure.
+//
+//   npm test                          everything
+//   npm test -- --only unit           unit tests only (no services)
+//   npm test -- --only integration tests/integration/auth.test.ts
+//   npm test -- --only e2e tests/e2e/auth.spec.ts
+//   npm test -- --keep                leave the services running (prints their URLs) for debugging
+import fs from "node:fs";
+import path from "node:path";
+import {
+  ROOT, appEnv, bin, clusterDir, createDatabase, ensureDebianTools, ensureNpmPackages, freePort, log,
+  runWith, spawnChild, startPostgres, stopChildren, stopPostgres, tsx, waitForPort,
+} from "./lib/stack.mjs";
+
+const argv = process.argv.slice(2);
+const only = new Set();
+const filters = [];
+let keep = false;
+for (let i = 0; i < argv.length; i++) {
+  if (argv[i] === "--only") only.add(argv[++i]);
+  else if (argv[i].startsWith("--only=")) only.add(argv[i].slice(7));
+  else if (argv[i] === "--keep") keep = true;
+  else filters.push(argv[i]);
+}
+const wants = (phase) => only.size === 0 || only.has(phase);
+const needsServices = wants("integration") || wants("e2e");
+
+const results = [];
+let pgDir = null;
+let runDir = null;
+let exiting = false;
+const logsToShow = [];
+
+async function teardown(code) {
+  if (exiting) return;
+  exiting = true;
+  await stopChildren();
+  const failedAny = results.some((r) => r.code !== 0) || (code ?? 0) !== 0;
+  if (failedAny) {
+    for (const f of logsToShow) {
+      if (!fs.existsSync(f)) continue;
+      const lines = fs.readFileSync(f, "utf8").split("\n").filter((l) => !/^(GET|POST|HEAD|PATCH|OPTIONS|DELETE|PUT) \//.test(l));
+      console.log(`\n--- last lines of ${path.basename(f)} (request lines left out) ---\n${lines.slice(-60).join("\n")}`);
+    }
+  }
+  if (pgDir) stopPostgres(pgDir);
+  if (pgDir) fs.rmSync(path.dirname(pgDir), { recursive: true, force: true });
+  if (runDir) fs.rmSync(runDir, { recursive: true, force: true });
+  console.log("\n" + "-".repeat(60));
+  for (const r of results) console.log(`${r.code === 0 ? "ok  " : "FAIL"}  ${r.phase}`);
+  const failed = results.filter((r) => r.code !== 0).length;
+  console.log(`phases: ${results.length - failed} passed, ${failed} failed`);
+  process.exit(code ?? (failed ? 1 : 0));
+}
+process.on("SIGINT", () => teardown(130));
+process.on("SIGTERM", () => teardown(143));
+
+async function phase(name, fn) {
+  log(`── ${name}`);
+  const code = await fn();
+  results.push({ phase: name, code });
+  return code;
+}
+
+try {
+  ensureNpmPackages();
+  ensureDebianTools({ postgres: needsServices, ffmpeg: needsServices, chromium: wants("e2e") });
+
+  if (wants("typecheck")) await phase("typecheck", () => runWith("npm", ["run", "-s", "typecheck"]));
+  if (wants("unit")) {
+    await phase("unit (vitest)", () => runWith(bin("vitest"), ["run", "--project", "unit", ...(only.has("unit") ? filters : [])], { NODE_ENV: "test" }));
+  }
+
+  if (needsServices) {
+    const id = `test-${process.pid}-${Date.now().toString(36)}`;
+    pgDir = clusterDir(id);
+    runDir = path.join(ROOT, ".data", id, "run");
+    fs.mkdirSync(runDir, { recursive: true });
+    const [dbPort, appPort, smtpPort, smtpControlPort, meiliPort] = await Promise.all([freePort(), freePort(), freePort(), freePort(), freePort()]);
+    await startPostgres(pgDir, dbPort);
+    createDatabase(dbPort, "benchreel_test", { dropFirst: true });
+    const buildDir = path.join(runDir, "build");
+    const env = {
+      ...appEnv({ dbPort, dbName: "benchreel_test", appPort, smtpPort, meiliPort, dataDir: runDir, nodeEnv: "production" }),
+      UPLOAD_DIR: path.join(runDir, "uploads"),
+      BENCHREEL_BUILD_DIR: buildDir,
+      MAIL_RETRY_BASE_MS: "300",
+      MAIL_POLL_MS: "250",
+      BENCHREEL_URL: `http://127.0.0.1:${appPort}`,
+      SMTP_CONTROL_URL: `http://127.0.0.1:${smtpControlPort}`,
+      BENCHREEL_RUN_DIR: runDir,
+    };
+    if ((await runWith(bin("tsx"), ["scripts/migrate.ts"], env)) !== 0) throw new Error("migrations failed");
+    if ((await runWith(bin("tsx"), ["scripts/seed.ts"], env)) !== 0) throw new Error("seeding failed");
+    tsx("scripts/fakes/smtp/server.ts", ["--port", String(smtpPort), "--control", String(smtpControlPort), "--dir", env.MAIL_FAKE_DIR], env);
+    if (fs.existsSync(path.join(ROOT, "scripts/fakes/meili/server.ts"))) {
+      tsx("scripts/fakes/meili/server.ts", ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY], env);
+    }
+    log("building the app…");
+    if ((await runWith(bin("react-router"), ["build"], env)) !== 0) throw new Error("build failed");
+    // The app's request log and the worker's output go to files; they are printed on failure.
+    const appLog = path.join(runDir, "app.log");
+    const workerLog = path.join(runDir, "worker.log");
+    spawnChild(bin("react-router-serve"), [path.join(buildDir, "server/index.js")], env, "app", appLog);
+    tsx("scripts/worker.ts", [], env, workerLog);
+    logsToShow.push(appLog, workerLog);
+    await waitForPort(appPort, 60_000, "app");
+    await waitForPort(smtpPort, 30_000, "fake SMTP");
+    fs.writeFileSync(path.join(runDir, "env.json"), JSON.stringify(env, null, 2));
+
+    if (keep) {
+      log(`services are up; env in ${path.join(runDir, "env.json")}; Ctrl-C to stop`);
+      console.log(env);
+    }
+    if (wants("integration")) {
+      await phase("integration (vitest)", () =>
+        runWith(bin("vitest"), ["run", "--project", "integration", ...(only.has("integration") ? filters : [])], env),
+      );
+    }
+    if (wants("e2e")) {
+      await phase("browser (playwright)", () =>
+        runWith(bin("playwright"), ["test", "-c", "tests/playwright.config.ts", ...(only.has("e2e") ? filters : [])], env),
+      );
+    }
+    if (keep) await new Promise(() => {});
+  }
+  await teardown();
+} catch (err) {
+  console.error(`\n[benchreel] test run failed: ${err.message}`);
+  results.push({ phase: "set-up", code: 1 });
+  await teardown(1);
+}

@@ -1,0 +1,92 @@
+// Walks every route of app/routes.ts with every role and anonymous, and asserts the status
+// each must get. A route without an entry here fails the first test.
+import { describe, expect, it, beforeAll } from "vitest";
+import routes from "~/routes";
+import { ROLES, type Role } from "~/lib/permissions";
+import { createUser, http } from "../support/app";
+
+type Who = Role | "anon";
+type Expect = Record<Who, number>;
+
+const ALL = (status: number): Expect => ({ anon: status, admin: status, editor: status, builder: status, qc: status, apprentice: status });
+/** Signed-in page every role may open; anonymous goes to sign-in. */
+const SIGNED_IN = { ...ALL(200), anon: 302 };
+/** Signed-in API every role may use; anonymous gets 401. */
+const SIGNED_IN_API = { ...ALL(200), anon: 401 };
+const only = (roles: Role[], ok = 200, anon = 302): Expect =>
+  ({ anon, ...Object.fromEntries(ROLES.map((r) => [r, roles.includes(r) ? ok : 403])) }) as Expect;
+const STAFF: Role[] = ["admin", "editor", "builder", "qc"];
+
+type Entry = { path: string; sample?: string; get: Expect; post?: Expect; note?: string };
+
+export const MATRIX: Entry[] = [
+  // ---- public ----
+  { path: "/signin", get: { ...ALL(302), anon: 200 }, note: "signed-in people are sent on" },
+  { path: "/signout", get: ALL(302) },
+  { path: "/invite/:token", sample: "/invite/not-a-real-token", get: ALL(200), note: "shows 'not valid'" },
+  { path: "/reset", get: ALL(200) },
+  { path: "/reset/:token", sample: "/reset/not-a-real-token", get: ALL(200) },
+  { path: "/healthz", get: ALL(200) },
+
+  // ---- shell ----
+  { path: "/", get: SIGNED_IN },
+  { path: "/account", get: SIGNED_IN },
+  { path: "/procedures", get: SIGNED_IN },
+  { path: "/recordings", get: SIGNED_IN },
+  { path: "/test-records", get: SIGNED_IN },
+  { path: "/calculators", get: SIGNED_IN },
+  { path: "/search", get: SIGNED_IN },
+  { path: "/admin", get: only(["admin"]), post: undefined },
+  { path: "/admin/people", get: only(["admin"]), post: only(["admin"], 400) },
+  { path: "/admin/outbox", get: only(["admin"]) },
+
+  // ---- API ----
+  { path: "/api/me", get: SIGNED_IN_API },
+];
+
+function flatten(rs: typeof routes, parent = ""): string[] {
+  const out: string[] = [];
+  for (const r of rs) {
+    const p = r.path != null ? `${parent.replace(/\/$/, "")}/${r.path}` : r.index ? parent || "/" : parent;
+    if (r.index || r.path != null) out.push(p === "" ? "/" : p);
+    if (r.children) out.push(...flatten(r.children as typeof routes, r.path != null ? p : parent));
+  }
+  return [...new Set(out)];
+}
+
+describe("route × role matrix", () => {
+  const cookies: Partial<Record<Who, string>> = {};
+  beforeAll(async () => {
+    for (const role of ROLES) cookies[role] = (await createUser(role)).cookie;
+  });
+
+  it("has an entry for every route of the route config, and none for routes that are gone", () => {
+    const configured = flatten(routes).sort();
+    const listed = MATRIX.map((e) => e.path).sort();
+    expect(listed).toEqual(configured);
+  });
+
+  const who: Who[] = ["anon", ...ROLES];
+  for (const entry of MATRIX) {
+    it(`GET ${entry.sample ?? entry.path}`, async () => {
+      const got: Record<string, number> = {};
+      for (const w of who) {
+        const res = await http(entry.sample ?? entry.path, { cookie: cookies[w as Role] });
+        got[w] = res.status;
+        await res.body?.cancel();
+      }
+      expect(got).toEqual(entry.get);
+    });
+    if (entry.post) {
+      it(`POST ${entry.sample ?? entry.path} (empty form)`, async () => {
+        const got: Record<string, number> = {};
+        for (const w of who) {
+          const res = await http(entry.sample ?? entry.path, { method: "POST", form: {}, cookie: cookies[w as Role] });
+          got[w] = res.status;
+          await res.body?.cancel();
+        }
+        expect(got).toEqual(entry.post);
+      });
+    }
+  }
+});

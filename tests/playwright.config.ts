@@ -1,0 +1,22 @@
+import { defineConfig } from "@playwright/test";
+
+// Run through `npm test`, which starts the app and sets BASE_URL. Debian's chromium only.
+export default defineConfig({
+  testDir: "./e2e",
+  workers: 1,
+  retries: process.env.CI ? 1 : 0,
+  timeout: 60_000,
+  expect: { timeout: 10_000 },
+  reporter: [["list"]],
+  outputDir: "../test-results",
+  use: {
+    baseURL: process.env.BENCHREEL_URL,
+    trace: "retain-on-failure",
+    screenshot: "only-on-failure",
+    launchOptions: {
+      executablePath: "/usr/bin/chromium",
+      args: ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
+    },
+  },
+  projects: [{ name: "chromium", use: { browserName: "chromium", viewport: { width: 1280, height: 860 } } }],
+});
