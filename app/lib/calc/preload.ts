@@ -98,6 +98,8 @@ export function calculatePreload(input: PreloadInput): PreloadResult {
 
   const stress_MPa = preload_N / thread.stressArea_mm2;
   const result: PreloadResult = { preload_N, torque_Nm, thread, stress_MPa, warnings };
+  if (stress_MPa > 2000)
+    warnings.push(`The stress (${Math.round(stress_MPa)} MPa) is beyond the tensile strength of any bolt steel; check the inputs and their units.`);
 
   if (v.material) {
     let yield_MPa: number;

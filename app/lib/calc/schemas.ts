@@ -54,18 +54,24 @@ function kindQuantity<K extends UnitKind>(kind: K, bounds: Bounds) {
       else if (bounds.gt !== undefined && !(si > bounds.gt))
         fail(bounds.gt === 0 ? `${bounds.what} must be greater than zero` : `${bounds.what} must be above ${fmt(bounds.gt, bounds.show)}`);
       else if (bounds.ge !== undefined && !(si >= bounds.ge))
-        fail(bounds.ge === 0 ? `${bounds.what} must not be negative` : `${bounds.what} must be at least ${fmt(bounds.ge, bounds.show)}`);
+        fail(
+          bounds.gt !== undefined
+            ? `${bounds.what} below ${fmt(bounds.ge, bounds.show)} is not plausible`
+            : bounds.ge === 0
+              ? `${bounds.what} must not be negative`
+              : `${bounds.what} must be at least ${fmt(bounds.ge, bounds.show)}`,
+        );
       else if (!(si <= bounds.le)) fail(`${bounds.what} above ${fmt(bounds.le, bounds.show)} is not plausible`);
     });
 }
 
-/** A length quantity (units m, mm, um, in, thou), any finite value. */
+/** A length quantity (units m, mm, um, in, thou), finite, within ±1 km. */
 export const lengthSchema = kindQuantity("length", { what: "length", ge: -1e3, le: 1e3, show: "m" });
-/** A force quantity (units N, kN, lbf), any finite value. */
+/** A force quantity (units N, kN, lbf), finite, within ±1 GN. */
 export const forceSchema = kindQuantity("force", { what: "force", ge: -1e9, le: 1e9, show: "N" });
-/** A torque quantity (units N.m, ft.lbf, in.lbf), any finite value. */
+/** A torque quantity (units N.m, ft.lbf, in.lbf), finite, within ±10 MN·m. */
 export const torqueSchema = kindQuantity("torque", { what: "torque", ge: -1e7, le: 1e7, show: "N.m" });
-/** A stress or pressure quantity (units Pa, kPa, MPa, GPa, psi, ksi, bar), any finite value. */
+/** A stress or pressure quantity (units Pa, kPa, MPa, GPa, psi, ksi, bar), finite, within ±1 TPa. */
 export const stressSchema = kindQuantity("stress", { what: "stress", ge: -1e12, le: 1e12, show: "MPa" });
 /** A temperature quantity (units degC, degF, K) above absolute zero and at most 2000 K. */
 export const temperatureSchema = kindQuantity("temperature", { what: "temperature", gt: 0, le: 2000, show: "degC" });
@@ -88,10 +94,10 @@ export const threadDesignationSchema = z
 // Preload
 // ---------------------------------------------------------------------------------------------
 
-const torqueInput = kindQuantity("torque", { what: "torque", gt: 0, le: 1e5, show: "N.m" });
-const preloadForce = kindQuantity("force", { what: "preload", gt: 0, le: 1e7, show: "kN" });
-const headDiameter = kindQuantity("length", { what: "head bearing diameter", gt: 0, le: 1, show: "mm" });
-const gripLength = kindQuantity("length", { what: "grip length", gt: 0, le: 10, show: "mm" });
+const torqueInput = kindQuantity("torque", { what: "torque", gt: 0, ge: 1e-3, le: 1e5, show: "N.m" });
+const preloadForce = kindQuantity("force", { what: "preload", gt: 0, ge: 1e-3, le: 1e7, show: "N" });
+const headDiameter = kindQuantity("length", { what: "head bearing diameter", gt: 0, ge: 1e-4, le: 1, show: "mm" });
+const gripLength = kindQuantity("length", { what: "grip length", gt: 0, ge: 1e-5, le: 10, show: "mm" });
 const modulus = kindQuantity("stress", { what: "modulus", ge: 1e9, le: 1e12, show: "GPa" });
 const yieldStrength = kindQuantity("stress", { what: "yield strength", ge: 1e6, le: 1e10, show: "MPa" });
 
@@ -127,7 +133,10 @@ const propertyClassSchema = z
 /** The nut-factor model: T = K·F·d. */
 export const nutFactorMethodSchema = z.object({
   kind: z.literal("nut-factor"),
-  k: finiteNumber.gt(0, { error: "nut factor K must be greater than zero" }).lte(1, { error: "nut factor K above 1 is not plausible" }),
+  k: finiteNumber
+    .gt(0, { error: "nut factor K must be greater than zero" })
+    .gte(0.01, { error: "nut factor K below 0.01 is not plausible" })
+    .lte(1, { error: "nut factor K above 1 is not plausible" }),
 });
 
 const mu = (what: string) =>
@@ -188,8 +197,8 @@ export const fitNutFactorInputSchema = z.object({
 // ---------------------------------------------------------------------------------------------
 
 const depthQ = kindQuantity("length", { what: "depth", ge: 0, le: 10, show: "mm" });
-const diameterQ = kindQuantity("length", { what: "diameter", gt: 0, le: 10, show: "mm" });
-const radiusQ = kindQuantity("length", { what: "radius", gt: 0, le: 5, show: "mm" });
+const diameterQ = kindQuantity("length", { what: "diameter", gt: 0, ge: 1e-4, le: 10, show: "mm" });
+const radiusQ = kindQuantity("length", { what: "radius", gt: 0, ge: 5e-5, le: 5, show: "mm" });
 
 /** One bore reading: depth, angle (degrees, in the direction the readings go) and a diameter (diametral) or a radius (radial). */
 export const boreReadingSchema = z.object({
@@ -244,7 +253,7 @@ export const distortionInputSchema = z
 // Clearances
 // ---------------------------------------------------------------------------------------------
 
-const partDiameter = (what: string) => kindQuantity("length", { what, gt: 0, le: 10, show: "mm" });
+const partDiameter = (what: string) => kindQuantity("length", { what, gt: 0, ge: 1e-4, le: 10, show: "mm" });
 const specLimit = kindQuantity("length", { what: "spec limit", ge: -1, le: 1, show: "mm" });
 
 /** Optional spec band for a clearance: min and/or max (lengths). */
@@ -294,7 +303,7 @@ export const bearingInputSchema = z
     journal: partDiameter("journal diameter"),
     bearingBore: partDiameter("bearing bore").optional(),
     housingBore: partDiameter("housing bore").optional(),
-    shellThickness: kindQuantity("length", { what: "shell thickness", gt: 0, le: 0.5, show: "mm" }).optional(),
+    shellThickness: kindQuantity("length", { what: "shell thickness", gt: 0, ge: 1e-6, le: 0.5, show: "mm" }).optional(),
     spec: specSchema.optional(),
   })
   .superRefine((b, ctx) => {
@@ -318,6 +327,7 @@ export const ringGapInputSchema = z.object({
   bore: partDiameter("bore"),
   gapPerBore: finiteNumber
     .gt(0, { error: "gapPerBore must be greater than zero" })
+    .gte(1e-4, { error: "gapPerBore below 0.0001 in per in is not plausible" })
     .lte(0.05, { error: "gapPerBore is inch per inch of bore (e.g. 0.0045); above 0.05 is not plausible" }),
   measuredGap: kindQuantity("length", { what: "measured gap", ge: 0, le: 1, show: "mm" }).optional(),
   spec: specSchema.optional(),
