@@ -1,0 +1,106 @@
+import { sql } from "drizzle-orm";
+import { bigint, boolean, doublePrecision, index, integer, jsonb, pgEnum, pgTable, real, text, timestamp, uuid } from "drizzle-orm/pg-core";
+import { users } from "./auth";
+import { procedures } from "./procedures";
+
+// The recordings area: uploads (tus), recordings, marks and readings.
+
+export const recordingStateEnum = pgEnum("recording_state", ["processing", "ready", "rejected", "failed"]);
+
+/** One row per tus upload; the id is the tus upload id (random, never from the client). */
+export const uploads = pgTable(
+  "uploads",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id").references(() => users.id, { onDelete: "set null" }),
+    fileName: text("file_name").notNull(),
+    fileType: text("file_type"),
+    size: bigint("size", { mode: "number" }).notNull(),
+    title: text("title").notNull(),
+    description: text("description").notNull().default(""),
+    tags: text("tags").array().notNull().default(sql`'{}'::text[]`),
+    recordingId: uuid("recording_id"),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    finishedAt: timestamp("finished_at", { withTimezone: true }),
+  },
+  (t) => [index("uploads_user_idx").on(t.userId)],
+);
+
+export const recordings = pgTable(
+  "recordings",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    title: text("title").notNull(),
+    description: text("description").notNull().default(""),
+    tags: text("tags").array().notNull().default(sql`'{}'::text[]`),
+    state: recordingStateEnum("state").notNull().default("processing"),
+    /** Why a recording was rejected or failed, in words for the page. */
+    stateReason: text("state_reason"),
+    /** Processing progress 0..1 while state is "processing". */
+    progress: real("progress").notNull().default(0),
+    attempts: integer("attempts").notNull().default(0),
+    uploadId: text("upload_id"),
+    originalName: text("original_name").notNull(),
+    originalSize: bigint("original_size", { mode: "number" }).notNull(),
+    /** Whether the original bytes are still stored (removed for a rejected file). */
+    hasOriginal: boolean("has_original").notNull().default(true),
+    hasRendition: boolean("has_rendition").notNull().default(false),
+    hasPoster: boolean("has_poster").notNull().default(false),
+    container: text("container"),
+    videoCodec: text("video_codec"),
+    audioCodec: text("audio_codec"),
+    width: integer("width"),
+    height: integer("height"),
+    frameRate: doublePrecision("frame_rate"),
+    durationS: doublePrecision("duration_s"),
+    uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+    readyAt: timestamp("ready_at", { withTimezone: true }),
+  },
+  (t) => [index("recordings_created_idx").on(t.createdAt), index("recordings_uploader_idx").on(t.uploadedBy)],
+);
+
+/** A time-stamped note: a point (t_end null) or a span. Procedures link to /recordings/:id?t=<t_start>. */
+export const marks = pgTable(
+  "marks",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    recordingId: uuid("recording_id")
+      .notNull()
+      .references(() => recordings.id, { onDelete: "cascade" }),
+    procedureId: uuid("procedure_id").references(() => procedures.id, { onDelete: "set null" }),
+    tStart: doublePrecision("t_start").notNull(),
+    tEnd: doublePrecision("t_end"),
+    text: text("text").notNull(),
+    tags: text("tags").array().notNull().default(sql`'{}'::text[]`),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("marks_recording_idx").on(t.recordingId, t.tStart), index("marks_procedure_idx").on(t.procedureId)],
+);
+
+export type ReadingConditions = { lube?: string; tool?: string; pass?: string; note?: string };
+
+/** A measured value at a moment: SI value plus what was typed, for display. */
+export const readings = pgTable(
+  "readings",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    recordingId: uuid("recording_id")
+      .notNull()
+      .references(() => recordings.id, { onDelete: "cascade" }),
+    quantity: text("quantity").notNull(),
+    label: text("label").notNull().default(""),
+    valueSi: doublePrecision("value_si").notNull(),
+    valueEntered: doublePrecision("value_entered").notNull(),
+    unitEntered: text("unit_entered").notNull(),
+    conditions: jsonb("conditions").$type<ReadingConditions>().notNull().default({}),
+    t: doublePrecision("t"),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("readings_recording_idx").on(t.recordingId, t.t)],
+);
