@@ -1,3 +1,4 @@
 export * from "./auth";
 export * from "./procedures";
 export * from "./recordings";
+export * from "./search";
