@@ -1,0 +1,146 @@
+import { describe, expect, test } from "vitest";
+import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_FACTORS, calculateClearance, convert, materialById } from "./index";
+
+describe("thermal expansion coefficients against named handbook tables", () => {
+  test("Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (10⁻⁶ /°C)", () => {
+    // Table B.6, room-temperature linear coefficients: steel alloy 4340 12.3; gray irons
+    // G1800/G3000/G4000 11.4; aluminium alloy 356.0 21.5; Ti-6Al-4V 8.6.
+    expect(materialById("steel-4340").alphaPerK).toBeCloseTo(12.3e-6, 12);
+    expect(materialById("grey-cast-iron").alphaPerK).toBeCloseTo(11.4e-6, 12);
+    expect(materialById("a356-t6").alphaPerK).toBeCloseTo(21.5e-6, 12);
+    expect(materialById("ti-6al-4v").alphaPerK).toBeCloseTo(8.6e-6, 12);
+  });
+
+  test("ASM Handbook Vol. 2, wrought aluminium alloys: 2618 22.3 and 4032 19.4 µm/m·K (20–100 °C; from memory of the table)", () => {
+    expect(materialById("forged-2618").alphaPerK).toBeCloseTo(22.3e-6, 12);
+    expect(materialById("forged-4032").alphaPerK).toBeCloseTo(19.4e-6, 12);
+  });
+
+  test("every material names its handbook", () => {
+    for (const m of MATERIALS) expect(m.source).toMatch(/Callister|ASM Handbook/);
+  });
+});
+
+describe("piston-to-wall", () => {
+  test("cold clearance is bore minus piston; per inch of diameter", () => {
+    const r = calculateClearance({ kind: "piston-to-wall", bore: { value: 4.03, unit: "in" }, piston: { value: 4.0265, unit: "in" } });
+    expect(convert(r.clearance_mm, "mm", "thou")).toBeCloseTo(3.5, 9);
+    expect(r.perInchOfDiameter).toBeCloseTo(0.0035 / 4.03, 12);
+    expect(r.hotClearance_mm).toBeUndefined();
+    expect(r.verdict).toBeUndefined();
+    expect(r.warnings).toEqual([]);
+  });
+
+  test("hot clearance from ΔD = D·α·ΔT for each part, by hand with the handbook values", () => {
+    // grey iron liner (Callister B.6: 11.4e-6) at 100 °C, 2618 piston (ASM: 22.3e-6) at 150 °C, from 20 °C
+    // hot bore   = 88.000 × (1 + 11.4e-6 × 80)  = 88.080256 mm
+    // hot piston = 87.930 × (1 + 22.3e-6 × 130) = 88.184906… mm
+    const hotBore = 88 * (1 + 11.4e-6 * 80);
+    const hotPiston = 87.93 * (1 + 22.3e-6 * 130);
+    const thermal = {
+      ambient: { value: 20, unit: "degC" as const },
+      boreTemperature: { value: 100, unit: "degC" as const },
+      pistonTemperature: { value: 150, unit: "degC" as const },
+      boreMaterial: "grey-cast-iron",
+      pistonMaterial: "forged-2618",
+    };
+    const r = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, thermal });
+    expect(r.clearance_mm).toBeCloseTo(0.07, 12);
+    expect(r.hotClearance_mm).toBeCloseTo(hotBore - hotPiston, 12);
+    expect(r.warnings.join(" ")).toMatch(/negative/);
+    // the same in °F and with the coefficients given directly
+    const f = calculateClearance({
+      kind: "piston-to-wall",
+      bore: { value: 88, unit: "mm" },
+      piston: { value: 87.93, unit: "mm" },
+      thermal: {
+        ambient: { value: 68, unit: "degF" },
+        boreTemperature: { value: 212, unit: "degF" },
+        pistonTemperature: { value: 302, unit: "degF" },
+        boreMaterial: { alphaPerK: 11.4e-6 },
+        pistonMaterial: { alphaPerK: 22.3e-6 },
+      },
+    });
+    expect(f.hotClearance_mm).toBeCloseTo(hotBore - hotPiston, 9);
+    // common spellings of the table's ids are accepted
+    const alias = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, thermal: { ...thermal, pistonMaterial: "2618" } });
+    expect(alias.hotClearance_mm).toBeCloseTo(hotBore - hotPiston, 12);
+  });
+
+  test("a piston larger than its bore gives a negative clearance with a warning", () => {
+    const r = calculateClearance({ kind: "piston-to-wall", bore: { value: 94, unit: "mm" }, piston: { value: 94.01, unit: "mm" } });
+    expect(r.clearance_mm).toBeCloseTo(-0.01, 12);
+    expect(r.warnings.join(" ")).toMatch(/larger than the bore/);
+  });
+
+  test("verdicts against a spec, with a warning outside it", () => {
+    const base = { kind: "piston-to-wall" as const, bore: { value: 94, unit: "mm" as const } };
+    const spec = { min: { value: 40, unit: "um" as const }, max: { value: 0.06, unit: "mm" as const } };
+    const within = calculateClearance({ ...base, piston: { value: 93.95, unit: "mm" }, spec });
+    expect(within.verdict).toBe("within");
+    expect(within.warnings).toEqual([]);
+    const below = calculateClearance({ ...base, piston: { value: 93.97, unit: "mm" }, spec });
+    expect(below.verdict).toBe("below");
+    expect(below.warnings.join(" ")).toMatch(/below the spec minimum/);
+    const above = calculateClearance({ ...base, piston: { value: 93.93, unit: "mm" }, spec });
+    expect(above.verdict).toBe("above");
+    expect(calculateClearance({ ...base, piston: { value: 93.93, unit: "mm" }, spec: { min: { value: 0.04, unit: "mm" } } }).verdict).toBe("within");
+  });
+});
+
+describe("bearing oil clearance", () => {
+  test("direct: bearing bore minus journal", () => {
+    const r = calculateClearance({ kind: "bearing", journal: { value: 2.0, unit: "in" }, bearingBore: { value: 2.0025, unit: "in" } });
+    expect(convert(r.clearance_mm, "mm", "in")).toBeCloseTo(0.0025, 12);
+    expect(r.perInchOfDiameter).toBeCloseTo(0.00125, 12);
+  });
+
+  test("housing bore minus two shells minus journal", () => {
+    // 2.1500 − 2 × 0.0735 − 2.0000 = 0.0030 in
+    const r = calculateClearance({
+      kind: "bearing",
+      journal: { value: 2.0, unit: "in" },
+      housingBore: { value: 2.15, unit: "in" },
+      shellThickness: { value: 0.0735, unit: "in" },
+      spec: { min: { value: 0.002, unit: "in" }, max: { value: 0.0025, unit: "in" } },
+    });
+    expect(convert(r.clearance_mm, "mm", "in")).toBeCloseTo(0.003, 12);
+    expect(r.verdict).toBe("above");
+  });
+
+  test("the oil clearance rule of thumb is marked as shop guidance", () => {
+    expect(OIL_CLEARANCE_RULE.perInchOfDiameter).toBe(0.001);
+    expect(OIL_CLEARANCE_RULE.guidance).toMatch(/shop guidance/);
+  });
+});
+
+describe("ring end gap", () => {
+  test("recommended gap = bore (in) × gap factor: 4.000 in × 0.0045 = 0.018 in", () => {
+    const r = calculateClearance({ kind: "ring-gap", bore: { value: 4, unit: "in" }, gapPerBore: 0.0045 });
+    expect(convert(r.recommendedGap_mm!, "mm", "in")).toBeCloseTo(0.018, 12);
+    expect(r.verdict).toBeUndefined();
+    const metric = calculateClearance({ kind: "ring-gap", bore: { value: 88, unit: "mm" }, gapPerBore: 0.005 });
+    expect(metric.recommendedGap_mm).toBeCloseTo(88 * 0.005, 12); // the factor is dimensionless
+  });
+
+  test("a measured gap is checked against the recommended one", () => {
+    const base = { kind: "ring-gap" as const, bore: { value: 4, unit: "in" as const }, gapPerBore: 0.0045 };
+    const small = calculateClearance({ ...base, measuredGap: { value: 12, unit: "thou" } });
+    expect(small.verdict).toBe("below");
+    expect(small.warnings.length).toBeGreaterThan(0);
+    expect(calculateClearance({ ...base, measuredGap: { value: 20, unit: "thou" } }).verdict).toBe("within");
+    expect(calculateClearance({ ...base, measuredGap: { value: 30, unit: "thou" } }).verdict).toBe("above");
+    // with a spec, the spec decides
+    const spec = { min: { value: 0.016, unit: "in" as const }, max: { value: 0.02, unit: "in" as const } };
+    expect(calculateClearance({ ...base, measuredGap: { value: 17, unit: "thou" }, spec }).verdict).toBe("within");
+  });
+
+  test("gap factors by application are marked as shop guidance", () => {
+    expect(RING_GAP_FACTORS.length).toBeGreaterThan(2);
+    for (const f of RING_GAP_FACTORS) {
+      expect(f.guidance).toMatch(/shop guidance/);
+      expect(f.gapPerBore).toBeGreaterThan(0.002);
+      expect(f.gapPerBore).toBeLessThan(0.01);
+    }
+  });
+});
