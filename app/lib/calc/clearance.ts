@@ -5,7 +5,7 @@
  */
 import { OIL_CLEARANCE_RULE, materialById, resolveMaterialId } from "./materials";
 import { clearanceInputSchema, type ClearanceInput } from "./schemas";
-import { toSI } from "./units";
+import { toSI, type UnitCode } from "./units";
 
 /** Result of calculateClearance (lengths in mm). */
 export interface ClearanceResult {
@@ -22,8 +22,8 @@ export interface ClearanceResult {
   warnings: string[];
 }
 
-type Q = { value: number; unit: string };
-const mm = (q: Q) => toSI(q.value, q.unit as never) * 1000;
+type Q = { value: number; unit: UnitCode };
+const mm = (q: Q) => toSI(q.value, q.unit) * 1000;
 const fmt = (x: number) => `${Number(x.toPrecision(5))} mm (${Number((x / 25.4).toPrecision(4))} in)`;
 
 /** Upper end of the default ring-gap band without a spec: recommended gap × this factor (shop guidance). */

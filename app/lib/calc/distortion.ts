@@ -4,8 +4,9 @@
  * (diametral mode) or radial readings; optionally compared with another state (e.g. free
  * versus torque plate).
  */
-import { distortionInputSchema, type DistortionInput } from "./schemas";
-import { toSI } from "./units";
+import type { z } from "zod";
+import { boreReadingSchema, distortionInputSchema, type DistortionInput } from "./schemas";
+import { toSI, type UnitCode } from "./units";
 
 /** One Fourier order of the radial deviation r(θ) = R0 + Σ A_k·cos(k·(θ − φ_k)). */
 export interface BoreOrder {
@@ -227,15 +228,15 @@ function analyseLevel(
 
 function analyseState(
   mode: Mode,
-  readings: { depth: { value: number; unit: string }; angleDeg: number; diameter?: { value: number; unit: string }; radius?: { value: number; unit: string } }[],
-  reference: { value: number; unit: string } | undefined,
+  readings: z.output<typeof boreReadingSchema>[],
+  reference: { value: number; unit: UnitCode } | undefined,
 ): BoreStateResult {
   const raw: RawReading[] = readings.map((r) => {
     const q = (mode === "radial" ? r.radius : r.diameter)!;
     return {
-      depth_mm: toSI(r.depth.value, r.depth.unit as never) * 1000,
+      depth_mm: toSI(r.depth.value, r.depth.unit) * 1000,
       angleDeg: r.angleDeg,
-      value_mm: toSI(q.value, q.unit as never) * 1000,
+      value_mm: toSI(q.value, q.unit) * 1000,
     };
   });
   const groups = new Map<number, { depth: number; items: RawReading[] }>();
@@ -259,7 +260,7 @@ function analyseState(
   const taperTopToBottom_mm = means[0] - means[means.length - 1];
   if (levels.length < 2) warnings.push("Readings at one depth only: taper needs two or more depths (reported as 0).");
   if (reference) {
-    const ref_mm = toSI(reference.value, reference.unit as never) * 1000;
+    const ref_mm = toSI(reference.value, reference.unit) * 1000;
     for (const l of levels) {
       if (Math.abs(l.meanDiameter_mm - ref_mm) > 0.02 * ref_mm) {
         warnings.push(

@@ -197,8 +197,8 @@ export const fitNutFactorInputSchema = z.object({
 // ---------------------------------------------------------------------------------------------
 
 const depthQ = kindQuantity("length", { what: "depth", ge: 0, le: 10, show: "mm" });
-const diameterQ = kindQuantity("length", { what: "diameter", gt: 0, ge: 1e-4, le: 10, show: "mm" });
-const radiusQ = kindQuantity("length", { what: "radius", gt: 0, ge: 5e-5, le: 5, show: "mm" });
+const diameterQ = kindQuantity("length", { what: "diameter", gt: 0, ge: 1e-9, le: 10, show: "mm" });
+const radiusQ = kindQuantity("length", { what: "radius", gt: 0, ge: 1e-9, le: 5, show: "mm" });
 
 /** One bore reading: depth, angle (degrees, in the direction the readings go) and a diameter (diametral) or a radius (radial). */
 export const boreReadingSchema = z.object({

@@ -1,0 +1,33 @@
+import { describe, expect, test } from "vitest";
+import * as calc from "./index";
+
+// calc-contract.md: the entry exports these functions and the schemas of their inputs.
+describe("the module's entry and purity", () => {
+  test("exports the contract's functions and schemas", () => {
+    for (const name of ["calculatePreload", "calculateDistortion", "calculateClearance", "convert", "threadGeometry", "fitNutFactor"] as const) {
+      expect(typeof calc[name]).toBe("function");
+    }
+    for (const name of ["preloadInputSchema", "distortionInputSchema", "clearanceInputSchema", "quantitySchema", "fitNutFactorInputSchema"] as const) {
+      expect(typeof calc[name].safeParse).toBe("function");
+    }
+  });
+
+  test("the tables the UI needs are there, each with a source", () => {
+    expect(calc.THREAD_PRESETS.length).toBeGreaterThan(10);
+    expect(calc.PROPERTY_CLASSES.map((p) => p.id)).toEqual(["8.8", "10.9", "12.9", "SAE-5", "SAE-8"]);
+    expect(calc.MATERIALS.map((m) => m.id)).toEqual([...calc.MATERIAL_IDS]);
+    for (const t of [calc.NUT_FACTOR_PRESETS, calc.MATERIALS, calc.PROPERTY_CLASSES]) {
+      for (const row of t) expect(row.source).toBeTruthy();
+    }
+  });
+
+  test("source files import only zod and each other: no DOM, no Node built-ins, no database", () => {
+    const sources = import.meta.glob(["./*.ts", "!./*.test.ts"], { query: "?raw", import: "default", eager: true }) as Record<string, string>;
+    expect(Object.keys(sources).length).toBeGreaterThan(5);
+    for (const [file, text] of Object.entries(sources)) {
+      const imports = [...text.matchAll(/\bfrom\s+"([^"]+)"/g)].map((m) => m[1]);
+      for (const spec of imports) expect(spec === "zod" || spec.startsWith("./"), `${file} imports ${spec}`).toBe(true);
+      expect(text, file).not.toMatch(/\b(window|document|localStorage|process|require)\s*[.(]/);
+    }
+  });
+});
