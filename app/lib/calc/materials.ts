@@ -235,7 +235,8 @@ export const MATERIALS: readonly Material[] = [
     label: "Compacted graphite iron (block)",
     alphaPerK: 11.0e-6,
     use: ["bore"],
-    source: "ASM Handbook, Vol. 1 (1990), Stefanescu, Compacted Graphite Iron, physical properties: about 11 µm/m·K near room temperature",
+    // From memory of the handbook's physical-properties table, not checked against it: verify.
+    source: "ASM Handbook, Vol. 1 (1990), Stefanescu, Compacted Graphite Iron, physical properties: about 11 µm/m·K near room temperature (approximate)",
   },
   {
     id: "steel-4340",

@@ -34,7 +34,7 @@ describe("nut-factor model against Shigley", () => {
   });
 
   test("nut-factor presets match Shigley 9th ed., Table 8-15 (torque factors K)", () => {
-    // Table 8-15, typed from the book: non-plated black finish 0.30, zinc-plated 0.20,
+    // Table 8-15, from memory of the book: non-plated black finish 0.30, zinc-plated 0.20,
     // lubricated 0.18, cadmium-plated 0.16, with an anti-seize compound 0.12. The text of
     // §8-8 uses K = 0.20 when the bolt condition is not stated.
     const k = (c: string) => NUT_FACTOR_PRESETS.find((p) => p.condition === c)?.k;

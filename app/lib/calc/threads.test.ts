@@ -10,8 +10,8 @@ function matchesTable(calculated: number, table: string, units = 0.5) {
 
 describe("ISO metric stress areas against ISO 898-1", () => {
   // ISO 898-1:2013, Table 4 (coarse thread) and Table 5 (fine thread): nominal stress area
-  // As,nom in mm², printed to three significant figures. Typed from the tables (the fine-thread
-  // values from memory of Table 5).
+  // As,nom in mm², printed to three significant figures. The coarse values were checked against a
+  // reproduction of Table 4; the fine-thread values are from memory of Table 5.
   const coarse: [string, string][] = [
     ["M6", "20.1"],
     ["M8", "36.6"],
@@ -72,7 +72,7 @@ describe("ISO metric stress areas against ISO 898-1", () => {
 
 describe("Unified stress areas against ASME B1.1 / FED-STD-H28", () => {
   // ASME B1.1-2003, Table 2A/3A "tensile stress area" column (the same values are in
-  // FED-STD-H28/2 Table II.B.1 and in Shigley 9th ed., Table 8-2), in in², typed from the table.
+  // FED-STD-H28/2 and in Shigley 9th ed., Table 8-2), in in², from memory of the table.
   const table: [string, string][] = [
     ["3/8-16", "0.0775"],
     ["3/8-24", "0.0878"],

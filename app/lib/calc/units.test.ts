@@ -5,8 +5,8 @@ import { ZodError } from "zod";
 import { UNIT_CODES, UNIT_OPTIONS, convert, fromSI, toSI, type UnitCode } from "./index";
 
 // NIST Special Publication 811 (2008 ed.), Appendix B.8 "Factors for units listed alphabetically"
-// and B.9 "by kind of quantity". Values typed here from that appendix; "exact" ones are marked
-// there in bold. Our codes use the exact definitions (1 in = 0.0254 m, 1 lbf = 4.4482216152605 N),
+// and B.9 "by kind of quantity". Values typed here from memory of that appendix; "exact" ones are
+// marked there in bold. Our codes use the exact definitions (1 in = 0.0254 m, 1 lbf = 4.4482216152605 N),
 // so they agree with the rounded SP 811 factors to the 7 significant figures SP 811 prints.
 describe("conversion factors against NIST SP 811 Appendix B", () => {
   const cases: [string, UnitCode, UnitCode, number, number][] = [
