@@ -8,6 +8,7 @@
 //   npm test -- --only e2e tests/e2e/auth.spec.ts
 //   npm test -- --keep                leave the services running (prints their URLs) for debugging
 import fs from "node:fs";
+import http from "node:http";
 import path from "node:path";
 import {
   ROOT, appEnv, bin, clusterDir, createDatabase, ensureDebianTools, ensureNpmPackages, freePort, log,
@@ -32,10 +33,12 @@ let pgDir = null;
 let runDir = null;
 let exiting = false;
 const logsToShow = [];
+let controlServer = null;
 
 async function teardown(code) {
   if (exiting) return;
   exiting = true;
+  controlServer?.close();
   await stopChildren();
   const failedAny = results.some((r) => r.code !== 0) || (code ?? 0) !== 0;
   if (failedAny) {
@@ -78,7 +81,7 @@ try {
     pgDir = clusterDir(id);
     runDir = path.join(ROOT, ".data", id, "run");
     fs.mkdirSync(runDir, { recursive: true });
-    const [dbPort, appPort, smtpPort, smtpControlPort, meiliPort] = await Promise.all([freePort(), freePort(), freePort(), freePort(), freePort()]);
+    const [dbPort, appPort, smtpPort, smtpControlPort, meiliPort, searchControlPort] = await Promise.all([freePort(), freePort(), freePort(), freePort(), freePort(), freePort()]);
     await startPostgres(pgDir, dbPort);
     createDatabase(dbPort, "benchreel_test", { dropFirst: true });
     const buildDir = path.join(runDir, "build");
@@ -90,14 +93,40 @@ try {
       MAIL_POLL_MS: "250",
       BENCHREEL_URL: `http://127.0.0.1:${appPort}`,
       SMTP_CONTROL_URL: `http://127.0.0.1:${smtpControlPort}`,
+      SEARCH_CONTROL_URL: `http://127.0.0.1:${searchControlPort}`,
+      SEARCH_RETRY_BASE_MS: "300",
       BENCHREEL_RUN_DIR: runDir,
     };
     if ((await runWith(bin("tsx"), ["scripts/migrate.ts"], env)) !== 0) throw new Error("migrations failed");
     if ((await runWith(bin("tsx"), ["scripts/seed.ts"], env)) !== 0) throw new Error("seeding failed");
     tsx("scripts/fakes/smtp/server.ts", ["--port", String(smtpPort), "--control", String(smtpControlPort), "--dir", env.MAIL_FAKE_DIR], env);
-    if (fs.existsSync(path.join(ROOT, "scripts/fakes/meili/server.ts"))) {
-      tsx("scripts/fakes/meili/server.ts", ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY], env);
-    }
+    // The search fake can be stopped and started by tests (outage simulation) through a
+    // small control server of this script's.
+    let meili = null;
+    const startMeili = async () => {
+      if (meili && meili.exitCode == null) return;
+      meili = tsx("scripts/fakes/meili/server.ts", ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY], env, path.join(runDir, "meili.log"));
+      await waitForPort(meiliPort, 30_000, "fake search");
+    };
+    const stopMeili = () =>
+      new Promise((resolve) => {
+        if (!meili || meili.exitCode != null) return resolve();
+        meili.once("exit", () => resolve());
+        meili.kill("SIGTERM");
+      });
+    await startMeili();
+    logsToShow.push(path.join(runDir, "meili.log"));
+    controlServer = http.createServer(async (req, res) => {
+      try {
+        if (req.method === "POST" && req.url === "/search/stop") await stopMeili();
+        else if (req.method === "POST" && req.url === "/search/start") await startMeili();
+        else return res.writeHead(404).end();
+        res.writeHead(200, { "content-type": "application/json" }).end("{}");
+      } catch (err) {
+        res.writeHead(500).end(String(err));
+      }
+    });
+    await new Promise((r) => controlServer.listen(searchControlPort, "127.0.0.1", r));
     log("building the app…");
     if ((await runWith(bin("react-router"), ["build"], env)) !== 0) throw new Error("build failed");
     // The app's request log and the worker's output go to files; they are printed on failure.

@@ -2,6 +2,7 @@ import { Form, Link, NavLink } from "react-router";
 import type { SessionUser } from "~/lib/auth.server";
 import { navFor } from "~/lib/nav";
 import { ROLE_LABELS } from "~/lib/permissions";
+import { HeaderSearch } from "./search/HeaderSearch";
 
 export function Wordmark() {
   return (
@@ -24,12 +25,7 @@ export function AppHeader({ user, searchSlot }: { user: SessionUser; searchSlot?
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-5 pt-3">
         <Wordmark />
         <div className="order-3 w-full md:order-none md:w-auto md:flex-1">
-          {searchSlot ?? (
-            <Form method="get" action="/search" role="search" className="max-w-md">
-              <label htmlFor="header-search" className="sr-only">Search the shop's knowledge</label>
-              <input id="header-search" name="q" type="search" placeholder="Search procedures, marks, specs…" className="field py-1.5 text-sm" />
-            </Form>
-          )}
+          {searchSlot ?? <HeaderSearch />}
         </div>
         <div className="ml-auto flex items-center gap-3 text-sm">
           <Link to="/account" className="text-right leading-tight text-graphite no-underline hover:underline">

@@ -1,6 +1,7 @@
 import { env } from "./env.server";
 import { createTransport, drainOutbox } from "./mail.server";
 import { pool } from "./db.server";
+import { drainSearchOutbox } from "./search/indexer.server";
 
 /**
  * A periodic task of the worker: it is called every `everyMs`, never twice at once, and an
@@ -13,6 +14,7 @@ export function periodicTasks(): PeriodicTask[] {
   const retryBaseMs = Number(process.env.MAIL_RETRY_BASE_MS ?? 5000);
   return [
     { name: "mail-outbox", everyMs: Number(process.env.MAIL_POLL_MS ?? 1000), run: () => drainOutbox({ transport, retryBaseMs }) },
+    ...(env().MEILI_HOST ? [{ name: "search-outbox", everyMs: Number(process.env.SEARCH_POLL_MS ?? 500), run: () => drainSearchOutbox() }] : []),
   ];
 }
 

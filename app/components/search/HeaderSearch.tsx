@@ -1,0 +1,97 @@
+import { useEffect, useId, useRef, useState } from "react";
+import { Form, Link, useFetcher, useNavigate } from "react-router";
+import { clock, KIND_LABELS } from "~/lib/search/highlight";
+import type { SearchHit } from "~/lib/search/query.server";
+import { Highlighted } from "./Highlighted";
+
+type Answer = { hits?: SearchHit[]; total?: number; error?: string; reason?: string; behind?: boolean };
+
+/** The header's search box: results as you type (debounced), grouped by kind; `/` focuses it. */
+export function HeaderSearch() {
+  const fetcher = useFetcher<Answer>();
+  const [q, setQ] = useState("");
+  const [open, setOpen] = useState(false);
+  const input = useRef<HTMLInputElement>(null);
+  const listId = useId();
+  const navigate = useNavigate();
+
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      const t = e.target as HTMLElement | null;
+      const typing = t && (t.isContentEditable || ["INPUT", "TEXTAREA", "SELECT"].includes(t.tagName));
+      if (e.key === "/" && !typing && !e.metaKey && !e.ctrlKey) {
+        e.preventDefault();
+        input.current?.focus();
+      }
+    };
+    window.addEventListener("keydown", onKey);
+    return () => window.removeEventListener("keydown", onKey);
+  }, []);
+
+  useEffect(() => {
+    const term = q.trim();
+    if (term.length < 2) return;
+    const timer = setTimeout(() => fetcher.load(`/api/search?limit=12&q=${encodeURIComponent(term)}`), 180);
+    return () => clearTimeout(timer);
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [q]);
+
+  const data = fetcher.data;
+  const hits = q.trim().length >= 2 ? (data?.hits ?? []) : [];
+  const groups = new Map<string, SearchHit[]>();
+  for (const h of hits) groups.set(h.kind, [...(groups.get(h.kind) ?? []), h]);
+
+  return (
+    <div className="relative max-w-md" onBlur={(e) => !e.currentTarget.contains(e.relatedTarget) && setOpen(false)}>
+      <Form method="get" action="/search" role="search" onSubmit={() => setOpen(false)}>
+        <label htmlFor="header-search" className="sr-only">Search the shop's knowledge</label>
+        <input
+          ref={input}
+          id="header-search"
+          name="q"
+          type="search"
+          autoComplete="off"
+          value={q}
+          onChange={(e) => {
+            setQ(e.target.value);
+            setOpen(true);
+          }}
+          onFocus={() => setOpen(true)}
+          onKeyDown={(e) => e.key === "Escape" && setOpen(false)}
+          placeholder="Search procedures, specs, marks…  ( / )"
+          className="field py-1.5 text-sm"
+          aria-controls={listId}
+          aria-expanded={open && hits.length > 0}
+        />
+      </Form>
+      {open && q.trim().length >= 2 && (
+        <div id={listId} className="absolute left-0 right-0 z-30 mt-1 max-h-[70vh] overflow-auto rounded-md border border-rule bg-card shadow-lg" data-testid="search-dropdown">
+          {data?.error && <p className="px-4 py-3 text-sm text-graphite-soft">{data.reason ?? "Search is unavailable."}</p>}
+          {!data?.error && hits.length === 0 && fetcher.state === "idle" && data && <p className="px-4 py-3 text-sm text-graphite-soft">No matches for “{q.trim()}”.</p>}
+          {[...groups.entries()].map(([kind, list]) => (
+            <section key={kind} className="border-b border-rule/70 last:border-0">
+              <h3 className="bg-paper-deep/60 px-4 py-1 font-sans text-xs font-semibold uppercase tracking-wide text-graphite-soft">{KIND_LABELS[kind] ?? kind}</h3>
+              <ul>
+                {list.map((h) => (
+                  <li key={h.id}>
+                    <Link to={h.url} className="block px-4 py-2 text-sm text-graphite no-underline hover:bg-paper" onClick={() => setOpen(false)} data-testid="search-hit">
+                      <span className="font-semibold"><Highlighted text={h.title} /></span>
+                      {h.t != null && <span className="num ml-2 text-xs text-teal">at {clock(h.t)}</span>}
+                      {h.context && <span className="ml-2 text-xs text-graphite-soft">· {h.context}</span>}
+                      {h.snippet && <span className="mt-0.5 block text-xs text-graphite-soft"><Highlighted text={h.snippet} /></span>}
+                    </Link>
+                  </li>
+                ))}
+              </ul>
+            </section>
+          ))}
+          {hits.length > 0 && (
+            <button type="button" className="block w-full px-4 py-2 text-left text-sm font-semibold text-teal hover:bg-paper" onClick={() => navigate(`/search?q=${encodeURIComponent(q.trim())}`)}>
+              All results for “{q.trim()}” →
+            </button>
+          )}
+        </div>
+      )}
+    </div>
+  );
+}

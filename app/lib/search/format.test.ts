@@ -1,0 +1,24 @@
+import { describe, expect, it } from "vitest";
+import { bothSystems, limitsBothSystems, otherUnit } from "./format";
+import { synonymsSetting } from "./synonyms";
+
+describe("search text in both unit systems", () => {
+  it("writes a spec's limits in the entered and the other system", () => {
+    // 0.0030 in × 25.4 = 0.0762 mm; 0.0035 in × 25.4 = 0.0889 mm (1 in = 25.4 mm exactly, NIST SP 811 B.8).
+    expect(limitsBothSystems({ min: 0.003, max: 0.0035, nominal: null, unit: "in" })).toBe("0.0030–0.0035 in (0.076–0.089 mm)");
+    expect(limitsBothSystems({ min: null, max: 0.0005, nominal: null, unit: "in" })).toBe("max 0.0005 in (max 0.013 mm)");
+  });
+
+  it("writes a reading's value in both systems", () => {
+    // 110 N·m ÷ 1.3558179483314004 N·m per ft·lbf = 81.13 ft·lbf (NIST SP 811 B.8).
+    expect(bothSystems(110, "N.m")).toBe("110.0 N·m (81.13 ft·lbf)");
+    // 51 kN = 51000 N ÷ 4.4482216152605 N/lbf = 11465 lbf.
+    expect(bothSystems(51, "kN")).toBe("51.00 kN (11465 lbf)");
+    expect(otherUnit("degF")).toBe("degC");
+  });
+
+  it("expands synonym groups both ways", () => {
+    const s = synonymsSetting([["ptw", "piston to wall"]]);
+    expect(s).toEqual({ ptw: ["piston to wall"], "piston to wall": ["ptw"] });
+  });
+});

@@ -1,0 +1,130 @@
+import { and, inArray, isNull, lte, sql } from "drizzle-orm";
+import { searchOutbox } from "~/db/schema";
+import { db, pool } from "~/lib/db.server";
+import { ensureIndex, searchIndex, type SearchDoc } from "./client.server";
+import { allDocuments, buildChange } from "./documents.server";
+
+const LOCK_KEY = 74_210_001; // one drainer at a time across workers
+
+let indexReady = false;
+
+async function check(task: { status: string; error?: { message?: string } | null }, what: string) {
+  if (task.status !== "succeeded") throw new Error(`${what}: ${task.error?.message ?? task.status}`);
+}
+
+/** Sends changes to the search service; resolves only after every task succeeded. */
+export async function applyChanges(upserts: SearchDoc[], deleteIds: string[], deleteGroups: string[]) {
+  const index = searchIndex();
+  if (deleteGroups.length) {
+    for (let i = 0; i < deleteGroups.length; i += 100) {
+      const list = deleteGroups.slice(i, i + 100).map((g) => JSON.stringify(g)).join(", ");
+      await check(await index.deleteDocuments({ filter: `group IN [${list}]` }).waitTask(), "delete by group");
+    }
+  }
+  if (deleteIds.length) await check(await index.deleteDocuments(deleteIds).waitTask(), "delete");
+  for (let i = 0; i < upserts.length; i += 1000) {
+    await check(await index.addDocuments(upserts.slice(i, i + 1000), { primaryKey: "id" }).waitTask(), "add documents");
+  }
+}
+
+export function retryDelayMs(attempts: number, baseMs = Number(process.env.SEARCH_RETRY_BASE_MS ?? 2000)): number {
+  return Math.min(baseMs * 2 ** Math.max(0, attempts - 1), 5 * 60 * 1000);
+}
+
+/**
+ * Drains due outbox rows: builds each changed record's documents from the database as it
+ * is now (so replays are harmless), sends them, and marks the rows done only after the
+ * service's tasks succeeded. On failure the rows stay pending with a later next attempt.
+ */
+export async function drainSearchOutbox(limit = 500): Promise<{ done: number; failed: number }> {
+  const client = await pool().connect();
+  try {
+    const { rows } = await client.query<{ locked: boolean }>("select pg_try_advisory_lock($1) as locked", [LOCK_KEY]);
+    if (!rows[0]?.locked) return { done: 0, failed: 0 };
+    try {
+      const pending = await db()
+        .select()
+        .from(searchOutbox)
+        .where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.nextAttemptAt, sql`now()`)))
+        .orderBy(searchOutbox.id)
+        .limit(limit);
+      if (!pending.length) return { done: 0, failed: 0 };
+      const ids = pending.map((p) => p.id);
+      try {
+        if (!indexReady) {
+          await ensureIndex();
+          indexReady = true;
+        }
+        const seen = new Set<string>();
+        const upserts = new Map<string, SearchDoc>();
+        const deleteIds = new Set<string>();
+        const deleteGroups = new Set<string>();
+        for (const row of pending) {
+          const key = `${row.kind}:${row.entityId}`;
+          if (seen.has(key)) continue;
+          seen.add(key);
+          const change = await buildChange(row.kind, row.entityId);
+          change.deleteGroups.forEach((g) => deleteGroups.add(g));
+          change.deleteIds.forEach((d) => deleteIds.add(d));
+          for (const d of change.upserts) upserts.set(d.id, d);
+        }
+        for (const id of upserts.keys()) deleteIds.delete(id);
+        await applyChanges([...upserts.values()], [...deleteIds], [...deleteGroups]);
+        await db().update(searchOutbox).set({ doneAt: new Date(), lastError: null }).where(inArray(searchOutbox.id, ids));
+        return { done: ids.length, failed: 0 };
+      } catch (err) {
+        indexReady = false;
+        const message = String((err as Error).message ?? err).slice(0, 500);
+        await db()
+          .update(searchOutbox)
+          .set({
+            attempts: sql`${searchOutbox.attempts} + 1`,
+            lastError: message,
+            nextAttemptAt: new Date(Date.now() + retryDelayMs((pending[0]?.attempts ?? 0) + 1)),
+          })
+          .where(inArray(searchOutbox.id, ids));
+        return { done: 0, failed: ids.length };
+      }
+    } finally {
+      await client.query("select pg_advisory_unlock($1)", [LOCK_KEY]);
+    }
+  } finally {
+    client.release();
+  }
+}
+
+/** How far the index is behind: rows not yet indexed, and the last error if any. */
+export async function searchBacklog(): Promise<{ pending: number; lastError: string | null }> {
+  const [r] = await db()
+    .select({
+      pending: sql<number>`count(*)::int`,
+      lastError: sql<string | null>`max(${searchOutbox.lastError})`,
+    })
+    .from(searchOutbox)
+    .where(isNull(searchOutbox.doneAt));
+  return { pending: r?.pending ?? 0, lastError: r?.lastError ?? null };
+}
+
+/**
+ * Full rebuild from PostgreSQL (idempotent): every document is written again and documents
+ * of records that no longer exist are removed. Outbox rows older than the rebuild are done.
+ */
+export async function reindexAll(): Promise<{ documents: number; removed: number }> {
+  const startedAt = new Date();
+  await ensureIndex();
+  indexReady = true;
+  const docs = await allDocuments();
+  const keep = new Set(docs.map((d) => d.id));
+  const index = searchIndex();
+  await applyChanges(docs, [], []);
+  // Remove what is in the index but no longer in the database.
+  const stale: string[] = [];
+  for (let offset = 0; ; offset += 1000) {
+    const page = await index.getDocuments({ fields: ["id"], limit: 1000, offset });
+    for (const d of page.results) if (!keep.has(String(d.id))) stale.push(String(d.id));
+    if (page.results.length < 1000) break;
+  }
+  if (stale.length) await check(await index.deleteDocuments(stale).waitTask(), "delete stale");
+  await db().update(searchOutbox).set({ doneAt: new Date() }).where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
+  return { documents: docs.length, removed: stale.length };
+}
