@@ -2,3 +2,4 @@ export * from "./auth";
 export * from "./procedures";
 export * from "./recordings";
 export * from "./search";
+export * from "./test-records";
