@@ -1,0 +1,98 @@
+import { describe, expect, it } from "vitest";
+import { evaluateRecord, readingVerdict, specVerdict, VerdictInputError, type SpecLimits } from "./verdict";
+
+const bore: SpecLimits = { id: "bore", label: "Bore diameter", quantity: "length", unit: "mm", min: 88.0, max: 88.012, nominal: 88.006 };
+const ringGap: SpecLimits = { id: "gap", label: "Top ring end gap", quantity: "length", unit: "mm", min: 0.45, max: null };
+const oor: SpecLimits = { id: "oor", label: "Out-of-round", quantity: "length", unit: "mm", min: null, max: 0.005 };
+const torque: SpecLimits = { id: "tq", label: "Head stud final torque", quantity: "torque", unit: "N.m", min: 105, max: 115 };
+
+describe("readingVerdict", () => {
+  it("treats both bounds as inclusive", () => {
+    expect(readingVerdict(bore, { value: 88.0, unit: "mm" }).verdict).toBe("within");
+    expect(readingVerdict(bore, { value: 88.012, unit: "mm" }).verdict).toBe("within");
+    expect(readingVerdict(bore, { value: 87.999, unit: "mm" }).verdict).toBe("below");
+    expect(readingVerdict(bore, { value: 88.013, unit: "mm" }).verdict).toBe("above");
+  });
+
+  it("converts the reading into the spec's unit before comparing", () => {
+    // 3.4650 in = 88.011 mm (1 in = 25.4 mm exactly): within; 3.4655 in = 88.0237 mm: above.
+    const r = readingVerdict(bore, { value: 3.465, unit: "in" });
+    expect(r.valueInSpecUnit).toBeCloseTo(88.011, 9);
+    expect(r.verdict).toBe("within");
+    expect(readingVerdict(bore, { value: 3.4655, unit: "in" }).verdict).toBe("above");
+    // 81.1 ft·lbf = 109.96 N·m (1 ft·lbf = 1.3558179483314004 N·m): within 105–115.
+    expect(readingVerdict(torque, { value: 81.1, unit: "ft.lbf" }).valueInSpecUnit).toBeCloseTo(109.9568, 3);
+    expect(readingVerdict(torque, { value: 81.1, unit: "ft.lbf" }).verdict).toBe("within");
+    expect(readingVerdict(torque, { value: 90, unit: "ft.lbf" }).verdict).toBe("above");
+  });
+
+  it("keeps a bound inclusive when the reading is typed in another unit (no rounding surprise)", () => {
+    const thouSpec: SpecLimits = { id: "ptw", label: "Piston-to-wall", quantity: "length", unit: "mm", min: 0.0254, max: 0.0762 };
+    expect(readingVerdict(thouSpec, { value: 1, unit: "thou" }).verdict).toBe("within");
+    expect(readingVerdict(thouSpec, { value: 3, unit: "thou" }).verdict).toBe("within");
+    expect(readingVerdict(thouSpec, { value: 3.01, unit: "thou" }).verdict).toBe("above");
+  });
+
+  it("checks a min-only spec against its min alone", () => {
+    expect(readingVerdict(ringGap, { value: 0.45, unit: "mm" }).verdict).toBe("within");
+    expect(readingVerdict(ringGap, { value: 2, unit: "mm" }).verdict).toBe("within");
+    expect(readingVerdict(ringGap, { value: 0.44, unit: "mm" }).verdict).toBe("below");
+  });
+
+  it("checks a max-only spec against its max alone", () => {
+    expect(readingVerdict(oor, { value: 0, unit: "mm" }).verdict).toBe("within");
+    expect(readingVerdict(oor, { value: 5, unit: "um" }).verdict).toBe("within");
+    expect(readingVerdict(oor, { value: 6, unit: "um" }).verdict).toBe("above");
+  });
+
+  it("leaves a spec without limits unchecked rather than passing it", () => {
+    const nominalOnly: SpecLimits = { id: "n", label: "Deck height", quantity: "length", unit: "mm", min: null, max: null, nominal: 210 };
+    expect(readingVerdict(nominalOnly, { value: 300, unit: "mm" }).verdict).toBe("unchecked");
+  });
+
+  it("refuses a unit of another kind and an unknown unit with a message for the field", () => {
+    expect(() => readingVerdict(bore, { value: 88, unit: "N.m" })).toThrow(VerdictInputError);
+    expect(() => readingVerdict(bore, { value: 88, unit: "furlong" })).toThrow(/not a unit/);
+    try {
+      readingVerdict(bore, { value: Number.NaN, unit: "mm" });
+      expect.unreachable();
+    } catch (err) {
+      expect((err as VerdictInputError).field).toBe("value");
+    }
+  });
+});
+
+describe("specVerdict and evaluateRecord", () => {
+  it("a spec is out when any one of its readings is out", () => {
+    expect(specVerdict(["within", "within", "above"])).toBe("out");
+    expect(specVerdict(["within", "within"])).toBe("within");
+    expect(specVerdict([])).toBe("not-measured");
+  });
+
+  it("is within only when every measured spec is within, and lists specs without readings as not measured", () => {
+    const e = evaluateRecord([bore, ringGap, oor], {
+      bore: [88.004, 88.006, 88.008, 88.011].map((value) => ({ value, unit: "mm" })),
+      gap: [{ value: 0.5, unit: "mm" }],
+    });
+    expect(e.verdict).toBe("within");
+    expect(e.notMeasured.map((s) => s.id)).toEqual(["oor"]);
+    expect(e.specs.find((s) => s.spec.id === "oor")!.verdict).toBe("not-measured");
+    expect(e.counts).toEqual({ within: 2, out: 0, notMeasured: 1 });
+  });
+
+  it("is out when one reading of one spec is out", () => {
+    const e = evaluateRecord([bore, ringGap], {
+      bore: [{ value: 88.006, unit: "mm" }, { value: 88.015, unit: "mm" }],
+      gap: [{ value: 0.5, unit: "mm" }],
+    });
+    expect(e.verdict).toBe("out");
+    expect(e.specs[0].readings.map((r) => r.verdict)).toEqual(["within", "above"]);
+    expect(e.counts.out).toBe(1);
+  });
+
+  it("has no verdict at all when nothing was measured", () => {
+    const e = evaluateRecord([bore, oor], {});
+    expect(e.verdict).toBeNull();
+    expect(e.notMeasured).toHaveLength(2);
+  });
+});

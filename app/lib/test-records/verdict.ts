@@ -1,0 +1,101 @@
+/**
+ * The verdict of a test record: each reading against its spec (within / below / above), each
+ * spec over its readings, and the record over its specs. Pure (no database), shared by the
+ * server and the form's live preview. Units are converted with the calc module; limits are
+ * inclusive; a spec may have only a min or only a max; a spec without readings is
+ * "not measured" and never counts as passed.
+ */
+import { convert, unitKind, type UnitKind } from "~/lib/calc";
+
+export type ReadingVerdict = "within" | "below" | "above" | "unchecked";
+export type SpecVerdict = "within" | "out" | "not-measured" | "unchecked";
+export type RecordVerdict = "within" | "out";
+
+export type SpecLimits = {
+  id: string;
+  label: string;
+  quantity: string;
+  /** The spec's own (entered) unit code; min/max/nominal are in it. */
+  unit: string;
+  min: number | null;
+  max: number | null;
+  nominal?: number | null;
+};
+
+export type ReadingInput = { value: number; unit: string };
+
+export class VerdictInputError extends Error {
+  constructor(
+    message: string,
+    readonly field: "value" | "unit",
+  ) {
+    super(message);
+  }
+}
+
+/**
+ * Rounding slack for inclusive bounds: a reading typed in another unit converts with a few
+ * ulps of error (0.0254 mm is 1 thou, but 1 thou converted back may be 0.0254000000000001).
+ */
+function slack(bound: number): number {
+  return Math.max(Math.abs(bound), 1) * 1e-9;
+}
+
+export function readingVerdict(spec: SpecLimits, reading: ReadingInput): { verdict: ReadingVerdict; valueInSpecUnit: number } {
+  if (typeof reading.value !== "number" || !Number.isFinite(reading.value)) throw new VerdictInputError("Enter a number.", "value");
+  const kind = unitKind(reading.unit);
+  if (!kind) throw new VerdictInputError(`“${reading.unit}” is not a unit Benchreel knows.`, "unit");
+  if (kind !== (spec.quantity as UnitKind) || unitKind(spec.unit) !== kind) {
+    throw new VerdictInputError(`${spec.label} is a ${spec.quantity} spec; ${reading.unit} is a ${kind} unit.`, "unit");
+  }
+  const v = convert(reading.value, reading.unit, spec.unit);
+  if (spec.min == null && spec.max == null) return { verdict: "unchecked", valueInSpecUnit: v };
+  if (spec.min != null && v < spec.min - slack(spec.min)) return { verdict: "below", valueInSpecUnit: v };
+  if (spec.max != null && v > spec.max + slack(spec.max)) return { verdict: "above", valueInSpecUnit: v };
+  return { verdict: "within", valueInSpecUnit: v };
+}
+
+export function specVerdict(verdicts: ReadingVerdict[]): SpecVerdict {
+  if (!verdicts.length) return "not-measured";
+  if (verdicts.some((v) => v === "below" || v === "above")) return "out";
+  if (verdicts.every((v) => v === "unchecked")) return "unchecked";
+  return "within";
+}
+
+export type EvaluatedSpec = {
+  spec: SpecLimits;
+  readings: { value: number; unit: string; verdict: ReadingVerdict; valueInSpecUnit: number }[];
+  verdict: SpecVerdict;
+};
+
+export type Evaluation = {
+  specs: EvaluatedSpec[];
+  /** null when nothing at all was measured: such a record cannot be filed. */
+  verdict: RecordVerdict | null;
+  notMeasured: SpecLimits[];
+  counts: { within: number; out: number; notMeasured: number };
+};
+
+/**
+ * The record: "within" only when every spec with readings is within; any reading outside its
+ * limits makes it "out". Specs left without readings are listed, never silently passed.
+ */
+export function evaluateRecord(specs: SpecLimits[], readingsBySpec: Record<string, ReadingInput[]>): Evaluation {
+  const evaluated: EvaluatedSpec[] = specs.map((spec) => {
+    const rs = (readingsBySpec[spec.id] ?? []).map((r) => ({ ...r, ...readingVerdict(spec, r) }));
+    return { spec, readings: rs, verdict: specVerdict(rs.map((r) => r.verdict)) };
+  });
+  const measured = evaluated.filter((e) => e.verdict !== "not-measured");
+  const out = evaluated.filter((e) => e.verdict === "out").length;
+  const notMeasured = evaluated.filter((e) => e.verdict === "not-measured").map((e) => e.spec);
+  return {
+    specs: evaluated,
+    verdict: measured.length === 0 ? null : out > 0 ? "out" : "within",
+    notMeasured,
+    counts: { within: evaluated.filter((e) => e.verdict === "within").length, out, notMeasured: notMeasured.length },
+  };
+}
+
+export const RECORD_VERDICT_LABELS: Record<RecordVerdict, string> = { within: "Within spec", out: "Out of spec" };
+export const READING_VERDICT_LABELS: Record<ReadingVerdict, string> = { within: "within", below: "below min", above: "above max", unchecked: "no limit" };
+export const SPEC_VERDICT_LABELS: Record<SpecVerdict, string> = { within: "Within spec", out: "Out of spec", "not-measured": "Not measured", unchecked: "Recorded (no limit)" };
