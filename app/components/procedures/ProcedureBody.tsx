@@ -1,0 +1,29 @@
+import { useEffect, useRef, useState } from "react";
+import { createPortal } from "react-dom";
+import type { CalculatorAttrs } from "~/lib/procedures/document";
+import { CalculatorWidget } from "./CalculatorWidget";
+
+type Widget = { kind: "calculator"; attrs: CalculatorAttrs };
+
+/**
+ * The server-rendered body of a procedure. React leaves the HTML alone; after hydration each
+ * calculator placeholder gets its interactive widget through a portal (the only parts that hydrate).
+ */
+export function ProcedureBody({ html, widgets }: { html: string; widgets: Widget[] }) {
+  const ref = useRef<HTMLDivElement>(null);
+  const [targets, setTargets] = useState<HTMLElement[]>([]);
+  useEffect(() => {
+    const els = Array.from(ref.current?.querySelectorAll<HTMLElement>("[data-widget='calculator']") ?? []);
+    for (const el of els) el.replaceChildren();
+    setTargets(els);
+  }, [html]);
+  return (
+    <>
+      <div ref={ref} className="proc-body prose-proc" data-testid="procedure-body" dangerouslySetInnerHTML={{ __html: html }} />
+      {targets.map((el, i) => {
+        const w = widgets[Number(el.dataset.widgetIndex ?? i)];
+        return w ? createPortal(<CalculatorWidget kind={w.attrs.kind} title={w.attrs.title} preset={w.attrs.preset} interactive index={i} />, el, `w${i}`) : null;
+      })}
+    </>
+  );
+}

@@ -1,0 +1,96 @@
+import type { ReactNode } from "react";
+import { Link } from "react-router";
+import { STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
+import { ProcedureBody } from "./ProcedureBody";
+import { specLimitsText } from "./spec-format";
+import type { CalculatorAttrs } from "~/lib/procedures/document";
+
+export type SpecRowView = { id: string; specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
+
+export const fmtDate = (d: Date | string | null | undefined) => (d ? new Date(d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" }) : "");
+
+export function StateBadge({ state }: { state: RevisionState }) {
+  const cls =
+    state === "published" ? "bg-ok-soft text-ok" : state === "in_review" ? "bg-brass-soft text-brass" : state === "superseded" ? "bg-paper-deep text-graphite-soft line-through decoration-1" : "bg-paper-deep text-graphite";
+  return <span className={`rounded px-1.5 py-0.5 text-xs font-semibold ${cls}`} data-testid="state-badge">{STATE_LABELS[state]}</span>;
+}
+
+export function SpecTable({ specs, caption = "Specs" }: { specs: SpecRowView[]; caption?: string }) {
+  if (!specs.length) return null;
+  return (
+    <section aria-labelledby="spec-table-h" className="spec-table card overflow-x-auto p-0">
+      <h2 id="spec-table-h" className="px-4 pt-3 text-lg">{caption}</h2>
+      <table className="mt-2 w-full text-left text-sm" data-testid="spec-table">
+        <thead className="border-y border-rule bg-paper-deep/60 text-xs uppercase tracking-wide text-graphite-soft">
+          <tr><th className="px-4 py-1.5">Spec</th><th className="px-3 py-1.5 text-right">Nominal</th><th className="px-3 py-1.5 text-right">Min</th><th className="px-3 py-1.5 text-right">Max</th><th className="px-3 py-1.5">Unit</th><th className="px-4 py-1.5">Note</th></tr>
+        </thead>
+        <tbody className="num">
+          {specs.map((s) => (
+            <tr key={s.id} className="border-b border-rule/60 last:border-0">
+              <td className="px-4 py-1.5 font-semibold">{s.label}</td>
+              <td className="px-3 py-1.5 text-right">{s.nominal ?? "—"}</td>
+              <td className="px-3 py-1.5 text-right">{s.min ?? "—"}</td>
+              <td className="px-3 py-1.5 text-right">{s.max ?? "—"}</td>
+              <td className="px-3 py-1.5">{specLimitsText.unit(s.unit)}</td>
+              <td className="px-4 py-1.5 text-graphite-soft">{s.note}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </section>
+  );
+}
+
+export function RevisionArticle({
+  title,
+  summary,
+  tags,
+  number,
+  state,
+  date,
+  author,
+  html,
+  widgets,
+  specs,
+  banner,
+  aside,
+}: {
+  title: string;
+  summary: string;
+  tags: string[];
+  number: number;
+  state: RevisionState;
+  date: Date | string | null;
+  author: string | null;
+  html: string;
+  widgets: { kind: "calculator"; attrs: CalculatorAttrs }[];
+  specs: SpecRowView[];
+  banner?: ReactNode;
+  aside?: ReactNode;
+}) {
+  return (
+    <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_17rem]">
+      <article className="min-w-0">
+        {banner}
+        <header className="mb-5 border-b border-rule pb-4">
+          <h1 className="text-3xl leading-tight" data-testid="procedure-title">{title}</h1>
+          {summary && <p className="mt-2 font-serif text-lg text-graphite-soft">{summary}</p>}
+          <p className="mt-3 flex flex-wrap items-center gap-x-3 gap-y-1 text-sm text-graphite-soft">
+            <span className="num font-semibold text-graphite" data-testid="revision-number">Revision {number}</span>
+            <StateBadge state={state} />
+            {date && <span>{state === "published" || state === "superseded" ? "published" : "saved"} {fmtDate(date)}</span>}
+            {author && <span>by {author}</span>}
+          </p>
+          {tags.length > 0 && (
+            <p className="mt-2 flex flex-wrap gap-1.5">
+              {tags.map((t) => <Link key={t} to={`/procedures?tag=${encodeURIComponent(t)}`} className="rounded bg-paper-deep px-1.5 py-0.5 text-xs text-graphite-soft no-underline hover:text-graphite">{t}</Link>)}
+            </p>
+          )}
+        </header>
+        {specs.length > 0 && <div className="mb-6"><SpecTable specs={specs} /></div>}
+        <ProcedureBody html={html} widgets={widgets} />
+      </article>
+      {aside && <aside className="no-print space-y-5 text-sm">{aside}</aside>}
+    </div>
+  );
+}

@@ -1,0 +1,279 @@
+import { Table, TableCell, TableHeader, TableRow } from "@tiptap/extension-table";
+import Placeholder from "@tiptap/extension-placeholder";
+import { EditorContent, useEditor, type Editor } from "@tiptap/react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { useBeforeUnload, useBlocker, useFetcher } from "react-router";
+import { DEFAULT_PRESETS, type CalcKind } from "~/lib/procedures/calc-presets";
+import { blockTexts, newSpecKey, type JSONNode } from "~/lib/procedures/document";
+import { starterKit } from "~/lib/procedures/extensions";
+import { AREA_OPTIONS } from "./areas";
+import { EditorSharedContext } from "./context";
+import { editorNodes } from "./nodeViews";
+
+export type DraftInitial = {
+  id: string;
+  procedureId: string;
+  number: number;
+  version: number;
+  title: string;
+  summary: string;
+  area: string;
+  tags: string[];
+  doc: unknown;
+  titles: Record<string, { title: string; slug: string }>;
+};
+
+type SaveReply =
+  | { ok: true; version: number; savedAt: string; warnings: { path: string; message: string }[] }
+  | { error: "conflict"; message: string; copyId: string; current: { version: number; title: string; summary: string; area: string; tags: string[]; doc: unknown; updatedAt: string; savedBy: string | null } }
+  | { error: "invalid input"; issues: { path: string; message: string }[] }
+  | { ok?: undefined; error: "forbidden" | "refused" | "not found"; reason?: string };
+
+type Status = { kind: "saved"; at: Date | null } | { kind: "dirty" } | { kind: "saving" } | { kind: "error"; message: string } | { kind: "conflict" };
+
+const AUTOSAVE_MS = 1200;
+
+function Btn({ onClick, active, label, children, disabled }: { onClick: () => void; active?: boolean; label: string; children: React.ReactNode; disabled?: boolean }) {
+  return (
+    <button type="button" onMouseDown={(e) => e.preventDefault()} onClick={onClick} aria-pressed={active} aria-label={label} title={label} disabled={disabled}
+      className={`rounded px-2 py-1 text-sm font-semibold ${active ? "bg-graphite text-paper" : "text-graphite hover:bg-paper-deep"} disabled:opacity-40`}>
+      {children}
+    </button>
+  );
+}
+
+function LinkPicker({ editor, procedureId, onPick, onClose }: { editor: Editor; procedureId: string; onPick: (r: { id: string; title: string; slug: string }) => void; onClose: () => void }) {
+  const [q, setQ] = useState("");
+  const [results, setResults] = useState<{ id: string; title: string; slug: string; areaLabel: string }[]>([]);
+  useEffect(() => {
+    const ctl = new AbortController();
+    const t = setTimeout(() => {
+      fetch(`/api/procedures/titles?q=${encodeURIComponent(q)}&except=${procedureId}`, { signal: ctl.signal }).then((r) => r.json()).then((j) => setResults(j.results)).catch(() => {});
+    }, 150);
+    return () => { clearTimeout(t); ctl.abort(); };
+  }, [q, procedureId]);
+  return (
+    <div className="absolute left-0 top-full z-20 mt-1 w-80 rounded-md border border-rule bg-card p-2 shadow-lg" role="dialog" aria-label="Link a procedure">
+      <input autoFocus className="field py-1 text-sm" placeholder="Search procedure titles…" value={q} onChange={(e) => setQ(e.target.value)} aria-label="Search procedure titles" onKeyDown={(e) => e.key === "Escape" && onClose()} />
+      <ul className="mt-1 max-h-60 overflow-auto text-sm">
+        {results.map((r) => (
+          <li key={r.id}>
+            <button type="button" className="w-full rounded px-2 py-1 text-left hover:bg-paper-deep" onClick={() => { onPick(r); editor.chain().focus().insertContent({ type: "procedureLink", attrs: { procedureId: r.id } }).insertContent(" ").run(); onClose(); }}>
+              {r.title} <span className="text-xs text-graphite-soft">· {r.areaLabel}</span>
+            </button>
+          </li>
+        ))}
+        {results.length === 0 && <li className="px-2 py-1 text-graphite-soft">No procedure matches.</li>}
+      </ul>
+    </div>
+  );
+}
+
+function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; procedureId: string; rememberTitle: (id: string, t: { title: string; slug: string }) => void }) {
+  const [picker, setPicker] = useState(false);
+  const [, force] = useState(0);
+  useEffect(() => {
+    const f = () => force((n) => n + 1);
+    editor.on("transaction", f);
+    return () => { editor.off("transaction", f); };
+  }, [editor]);
+  const c = () => editor.chain().focus();
+  const insertCalc = (kind: CalcKind) => c().insertContent({ type: "calculator", attrs: { kind, title: "", preset: DEFAULT_PRESETS[kind] } }).run();
+  const setLink = () => {
+    const prev = editor.getAttributes("link").href as string | undefined;
+    const href = window.prompt("Link address (https://…, mailto:…, or /path in Benchreel). Leave empty to remove.", prev ?? "https://");
+    if (href === null) return;
+    if (href.trim() === "") c().extendMarkRange("link").unsetLink().run();
+    else c().extendMarkRange("link").setLink({ href: href.trim() }).run();
+  };
+  return (
+    <div className="sticky top-0 z-10 flex flex-wrap items-center gap-0.5 border-b border-rule bg-card/95 px-2 py-1 backdrop-blur" role="toolbar" aria-label="Formatting and blocks">
+      <Btn label="Bold" active={editor.isActive("bold")} onClick={() => c().toggleBold().run()}><b>B</b></Btn>
+      <Btn label="Italic" active={editor.isActive("italic")} onClick={() => c().toggleItalic().run()}><i>I</i></Btn>
+      <Btn label="Strike through" active={editor.isActive("strike")} onClick={() => c().toggleStrike().run()}><s>S</s></Btn>
+      <Btn label="Inline code" active={editor.isActive("code")} onClick={() => c().toggleCode().run()}><code>{"{}"}</code></Btn>
+      <Btn label="Web link" active={editor.isActive("link")} onClick={setLink}>Link</Btn>
+      <span className="mx-1 h-5 w-px bg-rule" aria-hidden />
+      <Btn label="Section heading" active={editor.isActive("heading", { level: 2 })} onClick={() => c().toggleHeading({ level: 2 }).run()}>H2</Btn>
+      <Btn label="Sub-heading" active={editor.isActive("heading", { level: 3 })} onClick={() => c().toggleHeading({ level: 3 }).run()}>H3</Btn>
+      <Btn label="Bulleted list" active={editor.isActive("bulletList")} onClick={() => c().toggleBulletList().run()}>• List</Btn>
+      <Btn label="Numbered steps" active={editor.isActive("orderedList")} onClick={() => c().toggleOrderedList().run()}>1. Steps</Btn>
+      <Btn label="Quote" active={editor.isActive("blockquote")} onClick={() => c().toggleBlockquote().run()}>“ ”</Btn>
+      <Btn label="Table" onClick={() => c().insertTable({ rows: 3, cols: 3, withHeaderRow: true }).run()}>Table</Btn>
+      {editor.isActive("table") && (
+        <>
+          <Btn label="Add row" onClick={() => c().addRowAfter().run()}>+row</Btn>
+          <Btn label="Add column" onClick={() => c().addColumnAfter().run()}>+col</Btn>
+          <Btn label="Delete table" onClick={() => c().deleteTable().run()}>×table</Btn>
+        </>
+      )}
+      <Btn label="Undo" onClick={() => c().undo().run()} disabled={!editor.can().undo()}>↶</Btn>
+      <Btn label="Redo" onClick={() => c().redo().run()} disabled={!editor.can().redo()}>↷</Btn>
+      <span className="mx-1 h-5 w-px bg-rule" aria-hidden />
+      <span className="px-1 text-xs font-semibold uppercase tracking-wide text-brass">Insert</span>
+      <span className="relative">
+        <Btn label="Procedure link" onClick={() => setPicker((p) => !p)} active={picker}>Procedure link</Btn>
+        {picker && <LinkPicker editor={editor} procedureId={procedureId} onPick={(r) => rememberTitle(r.id, r)} onClose={() => setPicker(false)} />}
+      </span>
+      <Btn label="Spec" onClick={() => c().insertContent({ type: "spec", attrs: { id: newSpecKey(), label: "", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, note: "" } }).run()}>Spec</Btn>
+      <Btn label="Caution" active={editor.isActive("caution")} onClick={() => (editor.isActive("caution") ? c().lift("caution").run() : c().wrapIn("caution").run())}>Caution</Btn>
+      <Btn label="Preload calculator" onClick={() => insertCalc("preload")}>Preload</Btn>
+      <Btn label="Bore distortion calculator" onClick={() => insertCalc("distortion")}>Bore distortion</Btn>
+      <Btn label="Clearances calculator" onClick={() => insertCalc("clearance")}>Clearances</Btn>
+      <Btn label="Video moment" onClick={() => c().insertContent({ type: "videoMoment", attrs: { recordingId: null, start: 0, end: null, caption: "" } }).run()}>Video moment</Btn>
+    </div>
+  );
+}
+
+export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
+  const [title, setTitle] = useState(initial.title);
+  const [summary, setSummary] = useState(initial.summary);
+  const [area, setArea] = useState(initial.area);
+  const [tags, setTags] = useState(initial.tags.join(", "));
+  const [titles, setTitles] = useState(initial.titles);
+  const [status, setStatus] = useState<Status>({ kind: "saved", at: null });
+  const [issues, setIssues] = useState<{ path: string; message: string }[]>([]);
+  const [conflict, setConflict] = useState<Extract<SaveReply, { error: "conflict" }> | null>(null);
+  const version = useRef(initial.version);
+  const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
+  const pendingAgain = useRef(false);
+  const fetcher = useFetcher<SaveReply>();
+  const rememberTitle = useCallback((id: string, t: { title: string; slug: string }) => setTitles((m) => ({ ...m, [id]: t })), []);
+
+  const editor = useEditor({
+    immediatelyRender: false,
+    extensions: [starterKit, Table.configure({ resizable: false }), TableRow, TableHeader, TableCell, ...editorNodes, Placeholder.configure({ placeholder: "Write the step, or insert a block from the toolbar…" })],
+    content: initial.doc as JSONNode,
+    editorProps: { attributes: { class: "proc-body prose-proc", "aria-label": "Procedure text", "data-testid": "editor" } },
+    onUpdate: () => markDirty(),
+  });
+
+  const dirty = status.kind === "dirty" || status.kind === "saving" || status.kind === "error" || status.kind === "conflict";
+
+  const save = useCallback(() => {
+    if (!editor) return;
+    if (fetcher.state !== "idle") {
+      pendingAgain.current = true;
+      return;
+    }
+    setStatus({ kind: "saving" });
+    fetcher.submit(
+      { baseVersion: version.current, title, summary, area, tags, doc: editor.getJSON() } as never,
+      { method: "post", action: `/api/procedures/revisions/${initial.id}`, encType: "application/json" },
+    );
+  }, [editor, fetcher, title, summary, area, tags, initial.id]);
+
+  const saveRef = useRef(save);
+  saveRef.current = save;
+  function markDirty() {
+    setStatus((s) => (s.kind === "conflict" ? s : { kind: "dirty" }));
+    if (timer.current) clearTimeout(timer.current);
+    timer.current = setTimeout(() => saveRef.current(), AUTOSAVE_MS);
+  }
+
+  const first = useRef(true);
+  useEffect(() => {
+    if (first.current) { first.current = false; return; }
+    markDirty();
+  }, [title, summary, area, tags]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  useEffect(() => {
+    if (fetcher.state !== "idle" || !fetcher.data) return;
+    const d = fetcher.data;
+    if ("ok" in d && d.ok) {
+      version.current = d.version;
+      setIssues(d.warnings ?? []);
+      if (pendingAgain.current) { pendingAgain.current = false; saveRef.current(); }
+      else setStatus((s) => (s.kind === "saving" ? { kind: "saved", at: new Date(d.savedAt) } : s));
+    } else if (!("error" in d)) {
+      setStatus({ kind: "error", message: "Not saved: unexpected answer from the server." });
+    } else if (d.error === "conflict") {
+      setConflict(d as Extract<SaveReply, { error: "conflict" }>);
+      setStatus({ kind: "conflict" });
+    } else if (d.error === "invalid input") {
+      const iss = (d as { issues: { path: string; message: string }[] }).issues;
+      setIssues(iss);
+      setStatus({ kind: "error", message: "Not saved: fix the marked problems; your text stays here." });
+    } else {
+      setStatus({ kind: "error", message: `Not saved: ${(d as { reason?: string }).reason ?? d.error}` });
+    }
+  }, [fetcher.state, fetcher.data]);
+
+  useBeforeUnload(useCallback((e) => { if (dirty) { e.preventDefault(); e.returnValue = ""; } }, [dirty]));
+  const blocker = useBlocker(({ currentLocation, nextLocation }) => dirty && currentLocation.pathname !== nextLocation.pathname);
+  useEffect(() => {
+    if (blocker.state === "blocked") {
+      if (window.confirm("This draft has changes that are not saved yet. Leave anyway?")) blocker.proceed();
+      else blocker.reset();
+    }
+  }, [blocker]);
+
+  const theirs = useMemo(() => (conflict ? blockTexts(conflict.current.doc as JSONNode).slice(0, 40) : []), [conflict]);
+
+  const takeTheirs = () => {
+    if (!conflict || !editor) return;
+    const cur = conflict.current;
+    version.current = cur.version;
+    editor.commands.setContent(cur.doc as JSONNode, { emitUpdate: false });
+    first.current = true;
+    setTitle(cur.title); setSummary(cur.summary); setArea(cur.area); setTags(cur.tags.join(", "));
+    setConflict(null);
+    setStatus({ kind: "saved", at: new Date(cur.updatedAt) });
+  };
+  const keepMine = () => {
+    if (!conflict) return;
+    version.current = conflict.current.version;
+    setConflict(null);
+    setStatus({ kind: "dirty" });
+    setTimeout(() => saveRef.current(), 0);
+  };
+
+  const statusText =
+    status.kind === "saved" ? (status.at ? `Saved ${status.at.toLocaleTimeString("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit" })}` : "No changes yet")
+    : status.kind === "saving" ? "Saving…" : status.kind === "dirty" ? "Unsaved changes" : status.kind === "conflict" ? "Not saved: conflict" : status.message;
+
+  return (
+    <EditorSharedContext.Provider value={{ titles, rememberTitle, procedureId: initial.procedureId }}>
+      <div className="space-y-4">
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <p className={`text-sm font-semibold ${status.kind === "error" || status.kind === "conflict" ? "text-spec-red" : status.kind === "saved" ? "text-ok" : "text-brass"}`} role="status" aria-live="polite" data-testid="save-status">
+            {statusText}
+          </p>
+          <button type="button" className="btn py-1 text-sm" onClick={() => save()} disabled={!editor || status.kind === "saving" || status.kind === "conflict"}>Save now</button>
+        </div>
+        {conflict && (
+          <div role="alert" className="rounded-lg border border-spec-red/50 bg-spec-red-soft/60 p-4 text-sm" data-testid="conflict">
+            <p className="font-semibold text-spec-red">{conflict.message}</p>
+            <p className="mt-1">Your text is still in the editor below. Their version (saved {new Date(conflict.current.updatedAt).toLocaleTimeString("en-GB")}):</p>
+            <div className="mt-2 max-h-48 overflow-auto rounded border border-rule bg-card p-2 font-serif">
+              <p className="font-semibold">{conflict.current.title}</p>
+              {theirs.map((b) => <p key={b.index}>{b.text}</p>)}
+            </div>
+            <div className="mt-3 flex flex-wrap gap-2">
+              <button type="button" className="btn" onClick={keepMine}>Keep mine (save over theirs)</button>
+              <button type="button" className="btn" onClick={takeTheirs}>Load theirs (mine stays as a conflict copy)</button>
+            </div>
+          </div>
+        )}
+        <div className="card grid gap-3 p-4 md:grid-cols-[2fr_1fr]">
+          <label className="md:col-span-2"><span className="label">Title</span><input className="field font-serif text-lg" value={title} onChange={(e) => setTitle(e.target.value)} aria-invalid={issues.some((i) => i.path === "title") || undefined} /></label>
+          <label><span className="label">Summary</span><input className="field" value={summary} onChange={(e) => setSummary(e.target.value)} placeholder="One or two sentences for the list" /></label>
+          <label><span className="label">Shop area</span>
+            <select className="field" value={area} onChange={(e) => setArea(e.target.value)}>{AREA_OPTIONS.map((a) => <option key={a.value} value={a.value}>{a.label}</option>)}</select>
+          </label>
+          <label className="md:col-span-2"><span className="label">Tags</span><input className="field" value={tags} onChange={(e) => setTags(e.target.value)} placeholder="comma-separated" /></label>
+        </div>
+        {issues.length > 0 && (
+          <ul className="rounded-md border border-brass/60 bg-brass-soft/50 px-4 py-2 text-sm" data-testid="save-issues">
+            {issues.map((i, k) => <li key={k}><span className="font-mono text-xs">{i.path}</span> {i.message}</li>)}
+          </ul>
+        )}
+        <div className="proc-editor rounded-lg border border-rule bg-card shadow-sm">
+          {editor ? <Toolbar editor={editor} procedureId={initial.procedureId} rememberTitle={rememberTitle} /> : <div className="h-10 border-b border-rule" />}
+          <EditorContent editor={editor} />
+          {!editor && <p className="p-6 text-graphite-soft">Loading the editor…</p>}
+        </div>
+      </div>
+    </EditorSharedContext.Provider>
+  );
+}

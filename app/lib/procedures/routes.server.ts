@@ -1,0 +1,40 @@
+/** Shared pieces of the procedure routes: find by slug (following renames), revision guards, error mapping. */
+import { data, redirect } from "react-router";
+import type { SessionUser } from "~/lib/auth.server";
+import { forbidden } from "~/lib/auth.server";
+import { canOnOwned } from "~/lib/permissions";
+import { DocumentInvalid, findBySlug, ProcedureError, revisionByNumber, type Procedure, type Revision } from "./workflow.server";
+
+/** The procedure at :slug; an old slug redirects (301) to the same sub-page under the new one. */
+export async function procedureOr404(request: Request, slug: string): Promise<Procedure> {
+  const found = await findBySlug(slug);
+  if (!found) throw data({ message: "There is no procedure at this address." }, { status: 404 });
+  if ("movedTo" in found) {
+    const u = new URL(request.url);
+    const path = u.pathname.replace(/\.data$/, "");
+    const rest = path.slice(`/procedures/${slug}`.length);
+    throw redirect(`/procedures/${found.movedTo}${rest}${u.search}`, 301);
+  }
+  return found.procedure;
+}
+
+export function canSeeRevision(user: SessionUser, rev: Pick<Revision, "state" | "authorId">): boolean {
+  if (rev.state === "published" || rev.state === "superseded") return true;
+  return canOnOwned(user, "procedure:view-drafts", rev.authorId);
+}
+
+export async function revisionOr404(request: Request, user: SessionUser, procedure: Procedure, numberParam: string | undefined): Promise<Revision> {
+  const n = Number(numberParam);
+  if (!Number.isInteger(n) || n < 1) throw data({ message: "No such revision." }, { status: 404 });
+  const rev = await revisionByNumber(procedure.id, n);
+  if (!rev) throw data({ message: `Revision ${n} does not exist.` }, { status: 404 });
+  if (!canSeeRevision(user, rev)) forbidden(request, "Drafts are open to their author and the editors.");
+  return rev;
+}
+
+/** Turns domain errors into the { errors } a form shows; rethrows anything else. */
+export function formFailure(err: unknown, intent: string) {
+  if (err instanceof ProcedureError) return data({ intent, errors: { [err.field]: err.message } as Record<string, string> }, { status: err.status });
+  if (err instanceof DocumentInvalid) return data({ intent, errors: { form: err.message } as Record<string, string> }, { status: 422 });
+  throw err;
+}

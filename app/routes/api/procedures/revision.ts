@@ -1,0 +1,51 @@
+import { z } from "zod";
+import type { Route } from "./+types/revision";
+import { requirePermission } from "~/lib/auth.server";
+import { canSeeRevision } from "~/lib/procedures/routes.server";
+import { AREAS, DocumentInvalid, normalizeTags, ProcedureError, revisionById, saveDraft } from "~/lib/procedures/workflow.server";
+
+const saveSchema = z.object({
+  baseVersion: z.number().int().min(1),
+  title: z.string().trim().min(4, "The title needs at least 4 characters.").max(120, "Keep the title under 120 characters."),
+  summary: z.string().trim().max(300, "Keep the summary under 300 characters.").default(""),
+  area: z.enum(AREAS),
+  tags: z.union([z.array(z.string()), z.string()]).default([]),
+  doc: z.unknown(),
+});
+
+const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
+
+/** The draft as stored now (version, text), e.g. to reload after a conflict. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requirePermission(request, "procedure:view-drafts:own");
+  const rev = isUuid(params.id) ? await revisionById(params.id) : null;
+  if (!rev) return Response.json({ error: "not found" }, { status: 404 });
+  if (!canSeeRevision(user, rev)) return Response.json({ error: "forbidden", reason: "Drafts are open to their author and the editors." }, { status: 403 });
+  return Response.json({ id: rev.id, number: rev.number, state: rev.state, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, updatedAt: rev.updatedAt });
+}
+
+/** Autosave: JSON { baseVersion, title, summary, area, tags, doc }. 409 on a conflict (the loser's text is kept as a conflict copy). */
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requirePermission(request, "procedure:edit:own");
+  if (request.method !== "POST") return Response.json({ error: "method not allowed" }, { status: 405 });
+  if (!isUuid(params.id)) return Response.json({ error: "not found" }, { status: 404 });
+  let body: unknown;
+  try {
+    body = await request.json();
+  } catch {
+    return Response.json({ error: "invalid input", issues: [{ path: "", message: "the body must be JSON" }] }, { status: 422 });
+  }
+  const parsed = saveSchema.safeParse(body);
+  if (!parsed.success) {
+    return Response.json({ error: "invalid input", issues: parsed.error.issues.map((i) => ({ path: i.path.join("."), message: i.message })) }, { status: 422 });
+  }
+  try {
+    const r = await saveDraft(user, params.id, { ...parsed.data, tags: normalizeTags(parsed.data.tags) });
+    if (!r.ok) return Response.json({ error: "conflict", message: `${r.current.savedBy ?? "Someone"} saved this draft while you were editing. Your version was not lost: it is kept as a conflict copy.`, ...r }, { status: 409 });
+    return Response.json({ ok: true, version: r.version, savedAt: r.updatedAt, warnings: r.warnings });
+  } catch (err) {
+    if (err instanceof DocumentInvalid) return Response.json({ error: "invalid input", issues: err.issues }, { status: 422 });
+    if (err instanceof ProcedureError) return Response.json({ error: err.status === 403 ? "forbidden" : "refused", reason: err.message }, { status: err.status });
+    throw err;
+  }
+}

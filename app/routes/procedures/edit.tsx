@@ -1,0 +1,63 @@
+import { Form, Link, redirect, useNavigation, type ShouldRevalidateFunctionArgs } from "react-router";
+import type { Route } from "./+types/edit";
+import "~/components/procedures/procedures.css";
+import { PageHeader } from "~/components/page";
+import { ProcedureEditor } from "~/components/procedures/editor/ProcedureEditor";
+import { requirePermission } from "~/lib/auth.server";
+import { canOnOwned } from "~/lib/permissions";
+import { walk, type JSONNode } from "~/lib/procedures/document";
+import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
+import { titlesFor } from "~/lib/procedures/workflow.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Editing: ${data?.draft.title ?? ""} · Benchreel` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requirePermission(request, "procedure:edit:own");
+  const procedure = await procedureOr404(request, params.slug);
+  const rev = await revisionOr404(request, user, procedure, params.number);
+  if (rev.state !== "draft" || !canOnOwned(user, "procedure:edit", rev.authorId)) throw redirect(`/procedures/${procedure.slug}/r/${rev.number}`);
+  const ids = new Set<string>();
+  walk(rev.doc as JSONNode, (n) => n.type === "procedureLink" && ids.add(String(n.attrs?.procedureId)));
+  const titles = Object.fromEntries(await titlesFor([...ids]));
+  return {
+    slug: procedure.slug,
+    hasPublished: Boolean(procedure.publishedRevisionId),
+    draft: { id: rev.id, procedureId: procedure.id, number: rev.number, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, titles, returnReason: rev.returnReason },
+  };
+}
+
+// Autosaves go to the API route; they must not reload this page's data (the editor holds the truth while editing).
+export function shouldRevalidate({ formAction, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  if (formAction?.startsWith("/api/procedures/")) return false;
+  return defaultShouldRevalidate;
+}
+
+export default function EditDraft({ loaderData }: Route.ComponentProps) {
+  const { slug, draft, hasPublished } = loaderData;
+  const busy = useNavigation().state !== "idle";
+  return (
+    <>
+      <PageHeader
+        title={`Draft revision ${draft.number}`}
+        kicker="Editing"
+        actions={
+          <>
+            <Link className="btn no-underline" to={`/procedures/${slug}/r/${draft.number}`}>Preview</Link>
+            {hasPublished && <Link className="btn no-underline" to={`/procedures/${slug}/compare?to=${draft.number}`}>Compare</Link>}
+          </>
+        }
+      >
+        Changes save by themselves a moment after you stop typing.
+      </PageHeader>
+      {draft.returnReason && (
+        <p className="mb-4 rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason"><span className="font-semibold">Returned to Draft:</span> {draft.returnReason}</p>
+      )}
+      <ProcedureEditor initial={draft} />
+      <Form method="post" action={`/procedures/${slug}/r/${draft.number}`} className="card mt-6 flex flex-wrap items-end gap-3 p-4">
+        <input type="hidden" name="intent" value="submit" />
+        <label className="min-w-[16rem] flex-1"><span className="label">Change note (for the editor and the history)</span><input name="changeNote" className="field" placeholder="What changed and why" required minLength={3} /></label>
+        <button className="btn btn-primary" type="submit" disabled={busy}>Submit for review</button>
+      </Form>
+    </>
+  );
+}

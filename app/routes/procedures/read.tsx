@@ -1,0 +1,181 @@
+import { data, Form, Link, redirect } from "react-router";
+import type { Route } from "./+types/read";
+import "~/components/procedures/procedures.css";
+import { PageHeader } from "~/components/page";
+import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
+import { assertCan, requirePermission } from "~/lib/auth.server";
+import { redirectWithFlash } from "~/lib/flash.server";
+import { can, canOnOwned } from "~/lib/permissions";
+import { formatSeconds, type JSONNode } from "~/lib/procedures/document";
+import { renderBody } from "~/lib/procedures/render.server";
+import { procedureOr404 } from "~/lib/procedures/routes.server";
+import { STATE_LABELS } from "~/lib/procedures/state";
+import {
+  isWatching,
+  linkedFrom,
+  marksReferencing,
+  openRevisionOf,
+  ProcedureError,
+  revisionById,
+  setWatching,
+  specsOf,
+  startDraftFrom,
+} from "~/lib/procedures/workflow.server";
+import { db } from "~/lib/db.server";
+import { users } from "~/db/schema";
+import { eq } from "drizzle-orm";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.procedure.title ?? "Procedure"} · Benchreel` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requirePermission(request, "shop:read");
+  const procedure = await procedureOr404(request, params.slug);
+  const open = await openRevisionOf(procedure.id);
+  const openVisible = open && canOnOwned(user, "procedure:view-drafts", open.authorId) ? { number: open.number, state: open.state, authorId: open.authorId } : null;
+  const flags = {
+    canWatch: can(user.role, "procedure:watch"),
+    canDraft: can(user.role, "procedure:draft"),
+    canEditOpen: open ? canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft" : false,
+    canReview: can(user.role, "procedure:review"),
+  };
+  if (!procedure.publishedRevisionId) {
+    if (!openVisible) throw data({ message: "This procedure has not been published yet." }, { status: 404 });
+    return { procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title }, published: null, open: openVisible, flags, watching: false } as const;
+  }
+  const rev = (await revisionById(procedure.publishedRevisionId))!;
+  const [body, specs, from, marks, watching, author] = await Promise.all([
+    renderBody(rev.doc as JSONNode),
+    specsOf(rev.id),
+    linkedFrom(procedure.id),
+    marksReferencing(procedure.id),
+    isWatching(user.id, procedure.id),
+    rev.authorId ? db().select({ name: users.name }).from(users).where(eq(users.id, rev.authorId)) : Promise.resolve([]),
+  ]);
+  return {
+    procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title },
+    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author: author[0]?.name ?? null, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, specs, from, marks },
+    open: openVisible,
+    flags,
+    watching,
+  } as const;
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requirePermission(request, "shop:read");
+  const procedure = await procedureOr404(request, params.slug);
+  const form = await request.formData();
+  const intent = form.get("intent");
+  if (intent === "watch" || intent === "unwatch") {
+    assertCan(request, user, "procedure:watch");
+    await setWatching(user.id, procedure.id, intent === "watch");
+    return redirectWithFlash(`/procedures/${procedure.slug}`, { kind: "ok", message: intent === "watch" ? "You will get an e-mail when a new revision is published." : "You no longer watch this procedure." });
+  }
+  if (intent === "new-draft") {
+    assertCan(request, user, "procedure:draft");
+    const open = await openRevisionOf(procedure.id);
+    if (open) {
+      if (canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft") throw redirect(`/procedures/${procedure.slug}/r/${open.number}/edit`);
+      return data({ error: `Revision ${open.number} is already ${STATE_LABELS[open.state].toLowerCase()}; only one revision is open at a time.` }, { status: 409 });
+    }
+    if (!procedure.publishedRevisionId) return data({ error: "Nothing is published yet to start from." }, { status: 409 });
+    try {
+      const rev = await startDraftFrom(user, procedure.publishedRevisionId);
+      return redirectWithFlash(`/procedures/${procedure.slug}/r/${rev.number}/edit`, { kind: "ok", message: `Revision ${rev.number} started from the published page.` });
+    } catch (err) {
+      if (err instanceof ProcedureError) return data({ error: err.message }, { status: err.status });
+      throw err;
+    }
+  }
+  return data({ error: "Unknown action." }, { status: 400 });
+}
+
+export default function ReadProcedure({ loaderData, actionData }: Route.ComponentProps) {
+  const { procedure, published, open, flags, watching } = loaderData;
+  const slug = procedure.slug;
+  const openLink = open ? (flags.canEditOpen ? `/procedures/${slug}/r/${open.number}/edit` : `/procedures/${slug}/r/${open.number}`) : null;
+  const err = actionData && "error" in actionData ? actionData.error : null;
+  if (!published) {
+    return (
+      <>
+        <PageHeader title={procedure.title} kicker="Not published yet" />
+        <p className="card">
+          Revision {open!.number} is {STATE_LABELS[open!.state].toLowerCase()}. <Link to={openLink!}>Open it</Link> · <Link to={`/procedures/${slug}/history`}>History</Link>
+        </p>
+      </>
+    );
+  }
+  const aside = (
+    <>
+      <div className="card space-y-2 p-4">
+        {flags.canWatch && (
+          <Form method="post">
+            <input type="hidden" name="intent" value={watching ? "unwatch" : "watch"} />
+            <button className="btn w-full" type="submit" aria-pressed={watching} data-testid="watch-toggle">
+              {watching ? "★ Watching — stop" : "☆ Watch for new revisions"}
+            </button>
+          </Form>
+        )}
+        {flags.canDraft && !open && (
+          <Form method="post">
+            <input type="hidden" name="intent" value="new-draft" />
+            <button className="btn w-full" type="submit">Start a new draft</button>
+          </Form>
+        )}
+        {open && openLink && (
+          <p className="rounded-md bg-brass-soft/60 px-3 py-2">
+            Revision {open.number} is {STATE_LABELS[open.state].toLowerCase()}. <Link to={openLink}>{flags.canEditOpen ? "Continue the draft" : "Open it"}</Link>
+            {open.state === "in_review" && flags.canReview && <> · <Link to={`/procedures/${slug}/compare?to=${open.number}`}>Compare</Link></>}
+          </p>
+        )}
+        <p className="flex flex-wrap gap-x-3 gap-y-1 pt-1">
+          <Link to={`/procedures/${slug}/history`}>History</Link>
+          <Link to={`/procedures/${slug}/print`}>Print view</Link>
+        </p>
+        {err && <p role="alert" className="text-spec-red">{err}</p>}
+      </div>
+      <section className="card p-4" aria-labelledby="linked-h">
+        <h2 id="linked-h" className="text-base">Linked from</h2>
+        {published.from.length ? (
+          <ul className="mt-1 space-y-1">{published.from.map((f) => <li key={f.slug}><Link to={`/procedures/${f.slug}`}>{f.title}</Link></li>)}</ul>
+        ) : (
+          <p className="mt-1 text-graphite-soft">No published procedure links here yet.</p>
+        )}
+      </section>
+      <section className="card p-4" aria-labelledby="marks-h">
+        <h2 id="marks-h" className="text-base">Referenced in recordings</h2>
+        {published.marks.length ? (
+          <ul className="mt-1 space-y-1.5">
+            {published.marks.map((m) => (
+              <li key={m.id}>
+                <Link to={`/recordings/${m.recordingId}?t=${Math.floor(m.tStart)}`}><span className="num font-semibold">{formatSeconds(m.tStart)}</span> {m.text}</Link>
+                <div className="text-xs text-graphite-soft">{m.recordingTitle}</div>
+              </li>
+            ))}
+          </ul>
+        ) : (
+          <p className="mt-1 text-graphite-soft">No marks in recordings point to this procedure.</p>
+        )}
+      </section>
+      <section className="card p-4" aria-labelledby="tests-h">
+        <h2 id="tests-h" className="text-base">Test records</h2>
+        <p className="mt-1 text-graphite-soft">Test records filed against this procedure will be listed here.</p>
+      </section>
+    </>
+  );
+  return (
+    <RevisionArticle
+      title={published.title}
+      summary={published.summary}
+      tags={published.tags}
+      number={published.number}
+      state="published"
+      date={published.publishedAt}
+      author={published.author}
+      html={published.html}
+      widgets={published.widgets}
+      specs={published.specs}
+      aside={aside}
+      banner={published.changeNote ? <p className="no-print mb-3 text-sm text-graphite-soft">Latest change ({fmtDate(published.publishedAt)}): {published.changeNote}</p> : null}
+    />
+  );
+}

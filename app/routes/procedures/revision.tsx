@@ -1,0 +1,144 @@
+import { eq } from "drizzle-orm";
+import { data, Form, Link, useNavigation } from "react-router";
+import type { Route } from "./+types/revision";
+import "~/components/procedures/procedures.css";
+import { FormError } from "~/components/forms";
+import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
+import { users } from "~/db/schema";
+import { requirePermission } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import { redirectWithFlash } from "~/lib/flash.server";
+import type { JSONNode } from "~/lib/procedures/document";
+import { renderBody } from "~/lib/procedures/render.server";
+import { formFailure, procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
+import { available, STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
+import { discardDraft, openRevisionOf, publishRevision, returnRevision, specsOf, startDraftFrom, submitRevision, withdrawRevision } from "~/lib/procedures/workflow.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.rev.title ?? "Revision"} (rev. ${data?.rev.number ?? ""}) · Benchreel` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requirePermission(request, "shop:read");
+  const procedure = await procedureOr404(request, params.slug);
+  const rev = await revisionOr404(request, user, procedure, params.number);
+  const open = await openRevisionOf(procedure.id);
+  const [body, specs, author] = await Promise.all([
+    renderBody(rev.doc as JSONNode),
+    specsOf(rev.id),
+    rev.authorId ? db().select({ name: users.name }).from(users).where(eq(users.id, rev.authorId)) : Promise.resolve([]),
+  ]);
+  const actions = available({ state: rev.state, authorId: rev.authorId }, user, { openRevisionNumber: open && open.id !== rev.id ? open.number : null });
+  return {
+    slug: procedure.slug,
+    rev: { id: rev.id, number: rev.number, state: rev.state as RevisionState, title: rev.title, summary: rev.summary, tags: rev.tags, changeNote: rev.changeNote, returnReason: rev.returnReason, updatedAt: rev.updatedAt, publishedAt: rev.publishedAt, submittedAt: rev.submittedAt },
+    author: author[0]?.name ?? null,
+    html: body.html,
+    widgets: body.widgets,
+    specs,
+    actions,
+    openNumber: open?.number ?? null,
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requirePermission(request, "shop:read");
+  const procedure = await procedureOr404(request, params.slug);
+  const rev = await revisionOr404(request, user, procedure, params.number);
+  const form = await request.formData();
+  const intent = String(form.get("intent") ?? "");
+  const here = `/procedures/${procedure.slug}/r/${rev.number}`;
+  try {
+    switch (intent) {
+      case "submit":
+        await requirePermission(request, "procedure:draft");
+        await submitRevision(user, rev.id, String(form.get("changeNote") ?? ""));
+        return redirectWithFlash(here, { kind: "ok", message: "Submitted for review. The editors have been e-mailed." });
+      case "withdraw":
+        await withdrawRevision(user, rev.id);
+        return redirectWithFlash(`${here}/edit`, { kind: "ok", message: "Taken back from review; it is a draft again." });
+      case "publish": {
+        await requirePermission(request, "procedure:review");
+        const { slug } = await publishRevision(user, rev.id);
+        return redirectWithFlash(`/procedures/${slug}`, { kind: "ok", message: `Revision ${rev.number} is published.` });
+      }
+      case "return":
+        await requirePermission(request, "procedure:review");
+        await returnRevision(user, rev.id, String(form.get("reason") ?? ""));
+        return redirectWithFlash(here, { kind: "ok", message: "Returned to Draft; the author has been e-mailed the reason." });
+      case "discard":
+        await discardDraft(user, rev.id);
+        return redirectWithFlash(`/procedures/${procedure.slug}/history`, { kind: "ok", message: `Draft revision ${rev.number} discarded.` });
+      case "restore": {
+        await requirePermission(request, "procedure:draft");
+        const draft = await startDraftFrom(user, rev.id);
+        return redirectWithFlash(`/procedures/${procedure.slug}/r/${draft.number}/edit`, { kind: "ok", message: `Revision ${rev.number} restored as draft revision ${draft.number}.` });
+      }
+    }
+  } catch (err) {
+    return formFailure(err, intent);
+  }
+  return data({ intent, errors: { form: "Unknown action." } as Record<string, string> }, { status: 400 });
+}
+
+export default function RevisionPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { slug, rev, author, html, widgets, specs, actions } = loaderData;
+  const busy = useNavigation().state !== "idle";
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const has = (a: string) => actions.includes(a as never);
+  const banner = (
+    <div className="no-print mb-5 space-y-3">
+      <p className="rounded-md border border-rule bg-paper-deep/60 px-4 py-2 text-sm">
+        You are looking at revision {rev.number} ({STATE_LABELS[rev.state]}).{" "}
+        {rev.state !== "published" && <Link to={`/procedures/${slug}`}>Open the published page</Link>}
+        {" · "}<Link to={`/procedures/${slug}/history`}>History</Link>
+        {" · "}<Link to={`/procedures/${slug}/compare?to=${rev.number}`}>Compare with the published revision</Link>
+        {" · "}<Link to={`/procedures/${slug}/print?rev=${rev.number}`}>Print view</Link>
+      </p>
+      {rev.changeNote && rev.state !== "draft" && <p className="text-sm"><span className="font-semibold">Change note:</span> {rev.changeNote}</p>}
+      {rev.returnReason && rev.state === "draft" && (
+        <p className="rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason"><span className="font-semibold">Returned to Draft:</span> {rev.returnReason}</p>
+      )}
+      <FormError message={Object.values(errors)[0]} />
+      {actions.length > 0 && (
+        <div className="card flex flex-wrap items-start gap-4 p-4">
+          {has("edit") && <Link className="btn btn-primary no-underline" to={`/procedures/${slug}/r/${rev.number}/edit`}>Edit the draft</Link>}
+          {has("submit") && (
+            <Form method="post" className="flex min-w-[18rem] flex-1 flex-wrap items-end gap-2">
+              <input type="hidden" name="intent" value="submit" />
+              <label className="flex-1"><span className="label">Change note</span><input name="changeNote" className="field" placeholder="What changed and why" required /></label>
+              <button className="btn btn-primary" type="submit" disabled={busy}>Submit for review</button>
+            </Form>
+          )}
+          {has("publish") && (
+            <Form method="post"><input type="hidden" name="intent" value="publish" /><button className="btn btn-primary" type="submit" disabled={busy}>Publish revision {rev.number}</button></Form>
+          )}
+          {has("return") && (
+            <Form method="post" className="flex min-w-[18rem] flex-1 flex-wrap items-end gap-2">
+              <input type="hidden" name="intent" value="return" />
+              <label className="flex-1"><span className="label">Reason for returning</span><input name="reason" className="field" placeholder="What the author should change" required /></label>
+              <button className="btn" type="submit" disabled={busy}>Return to Draft</button>
+            </Form>
+          )}
+          {has("withdraw") && <Form method="post"><input type="hidden" name="intent" value="withdraw" /><button className="btn" type="submit" disabled={busy}>Take back from review</button></Form>}
+          {has("restore") && <Form method="post"><input type="hidden" name="intent" value="restore" /><button className="btn" type="submit" disabled={busy}>Restore as a new draft</button></Form>}
+          {has("discard") && <Form method="post" onSubmit={(e) => { if (!confirm("Discard this draft? Its text is deleted.")) e.preventDefault(); }}><input type="hidden" name="intent" value="discard" /><button className="btn btn-danger" type="submit" disabled={busy}>Discard draft</button></Form>}
+        </div>
+      )}
+    </div>
+  );
+  return (
+    <RevisionArticle
+      title={rev.title}
+      summary={rev.summary}
+      tags={rev.tags}
+      number={rev.number}
+      state={rev.state}
+      date={rev.publishedAt ?? rev.updatedAt}
+      author={author}
+      html={html}
+      widgets={widgets}
+      specs={specs}
+      banner={banner}
+    />
+  );
+}
+export { fmtDate };
