@@ -387,7 +387,8 @@ export function parseFilterExpression(input: string): FilterNode | null {
 }
 
 /** A parsed filter: each string keeps its own source, for error messages. */
-export type ParsedFilter = { node: FilterNode; source: string } | { and: ParsedFilter[] } | { or: ParsedFilter[] } | null;
+export type ParsedFilterNode = { node: FilterNode; source: string } | { and: ParsedFilterNode[] } | { or: ParsedFilterNode[] };
+export type ParsedFilter = ParsedFilterNode | null;
 
 /** The `filter` parameter: a string, or an array of strings / arrays of strings (outer AND, inner OR). */
 export function parseFilterParam(filter: unknown, depth = 0): ParsedFilter {
@@ -401,7 +402,7 @@ export function parseFilterParam(filter: unknown, depth = 0): ParsedFilter {
       if (typeof f !== "string" && !(Array.isArray(f) && depth === 0)) throw new FilterTypeError(f);
       return parseFilterParam(f, depth + 1);
     });
-    const kept = items.filter((x): x is Exclude<ParsedFilter, null> => x !== null);
+    const kept = items.filter((x): x is ParsedFilterNode => x !== null);
     if (kept.length === 0) return null;
     return depth === 0 ? { and: kept } : { or: kept };
   }

@@ -12,7 +12,16 @@
  */
 
 // letters/digits, then any number of (one joiner + letters/digits)
-const CHUNK_RE = /[\p{L}\p{N}]+(?:[.·⋅∙•\/\-‐‑_×][\p{L}\p{N}]+)*/gu;
+// (group 1 is non-empty when the chunk holds joiners)
+const CHUNK_RE = /[\p{L}\p{N}]+((?:[.·⋅∙•\/\-‐‑_×][\p{L}\p{N}]+)*)/gu;
+const DIGIT_X_DIGIT = /\d[xX]\d/;
+
+/** Whether a chunk can have parts: it holds a joiner, or an x between two digits. */
+function mayHaveParts(m: RegExpExecArray): boolean {
+  if (m[1] !== "") return true;
+  const raw = m[0];
+  return (raw.includes("x") || raw.includes("X")) && DIGIT_X_DIGIT.test(raw);
+}
 const JOINERS = new Set([".", "·", "⋅", "∙", "•", "/", "-", "‐", "‑", "_", "×"]);
 const NON_ASCII = /[^\x00-\x7f]/;
 const MARKS = /\p{M}+/gu;
@@ -54,13 +63,26 @@ function splitParts(text: string, offset: number): Part[] | null {
   return parts.length > 1 ? parts : null;
 }
 
+/**
+ * Calls cb(start, end, raw, term) for every chunk of a text without allocating per chunk
+ * (used to highlight and crop long texts); `parts` gives the parts of the current chunk.
+ */
+export function forEachChunk(text: string, cb: (start: number, end: number, raw: string, term: string, hasParts: boolean) => void) {
+  CHUNK_RE.lastIndex = 0;
+  for (let m = CHUNK_RE.exec(text); m !== null; m = CHUNK_RE.exec(text)) cb(m.index, m.index + m[0].length, m[0], normalizeTerm(m[0]), mayHaveParts(m));
+}
+
+export function partsOfChunk(raw: string, offset: number): Part[] | null {
+  return splitParts(raw, offset);
+}
+
 /** All chunks of a text with their offsets (used for queries, highlighting and cropping). */
 export function scanChunks(text: string): Chunk[] {
   const out: Chunk[] = [];
   CHUNK_RE.lastIndex = 0;
   for (let m = CHUNK_RE.exec(text); m !== null; m = CHUNK_RE.exec(text)) {
     const raw = m[0];
-    out.push({ start: m.index, end: m.index + raw.length, term: normalizeTerm(raw), parts: splitParts(raw, m.index) });
+    out.push({ start: m.index, end: m.index + raw.length, term: normalizeTerm(raw), parts: mayHaveParts(m) ? splitParts(raw, m.index) : null });
   }
   return out;
 }
@@ -85,8 +107,10 @@ export function indexTerms(text: string, emit: (term: string) => void): number {
     const raw = m[0];
     const term = normalizeTerm(raw);
     emit(term);
-    const parts = splitParts(raw, 0);
-    if (parts) for (const p of parts) emit(p.term);
+    if (mayHaveParts(m)) {
+      const parts = splitParts(raw, 0);
+      if (parts) for (const p of parts) emit(p.term);
+    }
     variants(term, emit);
   }
   return n;
