@@ -1,0 +1,170 @@
+import { useMemo, useState } from "react";
+import { THREAD_PRESETS, fitNutFactor, fromSI, isUnitCode, type NutFactorFit, type UnitCode } from "~/lib/calc";
+import { displayUnit, formatTime, quantityDef } from "~/lib/recordings/rules";
+import type { ReadingRow } from "./types";
+
+const W = 560;
+const H = 240;
+const PAD = { l: 56, r: 16, t: 14, b: 38 };
+
+function niceTicks(min: number, max: number, count = 5): number[] {
+  if (!(max > min)) return [min];
+  const span = max - min;
+  const step0 = span / count;
+  const mag = 10 ** Math.floor(Math.log10(step0));
+  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= step0) ?? step0;
+  const out: number[] = [];
+  for (let v = Math.ceil(min / step) * step; v <= max + step * 1e-9; v += step) out.push(Number(v.toPrecision(10)));
+  return out;
+}
+
+function fromStored(r: ReadingRow, unit: string): number {
+  if (unit === "%") return r.valueSi * 100;
+  if (isUnitCode(unit) && isUnitCode(r.unitEntered)) return fromSI(r.valueSi, unit as UnitCode);
+  return r.valueEntered;
+}
+
+function Axes({ x, y, xLabel, yLabel, sx, sy }: { x: number[]; y: number[]; xLabel: string; yLabel: string; sx: (v: number) => number; sy: (v: number) => number }) {
+  return (
+    <g fontSize="11" fill="#5d584f">
+      {y.map((v) => (
+        <g key={`y${v}`}>
+          <line x1={PAD.l} x2={W - PAD.r} y1={sy(v)} y2={sy(v)} stroke="#ddd2bd" strokeWidth="1" />
+          <text x={PAD.l - 6} y={sy(v) + 4} textAnchor="end">{Number(v.toPrecision(6))}</text>
+        </g>
+      ))}
+      {x.map((v) => (
+        <text key={`x${v}`} x={sx(v)} y={H - PAD.b + 16} textAnchor="middle">{xLabel.startsWith("Video time") ? formatTime(v).replace(/\.0$/, "") : Number(v.toPrecision(6))}</text>
+      ))}
+      <line x1={PAD.l} x2={W - PAD.r} y1={H - PAD.b} y2={H - PAD.b} stroke="#5d584f" />
+      <line x1={PAD.l} x2={PAD.l} y1={PAD.t} y2={H - PAD.b} stroke="#5d584f" />
+      <text x={(PAD.l + W - PAD.r) / 2} y={H - 6} textAnchor="middle" fill="#2b2a27">{xLabel}</text>
+      <text transform={`translate(12 ${(PAD.t + H - PAD.b) / 2}) rotate(-90)`} textAnchor="middle" fill="#2b2a27">{yLabel}</text>
+    </g>
+  );
+}
+
+/** Value against video time for one quantity. */
+function TimeChart({ readings, onSeek }: { readings: ReadingRow[]; onSeek: (t: number) => void }) {
+  const timed = readings.filter((r) => r.t != null);
+  const quantities = [...new Set(timed.map((r) => r.quantity))];
+  const [q, setQ] = useState(quantities[0] ?? "");
+  const active = quantities.includes(q) ? q : quantities[0];
+  if (!active) return <p className="text-sm text-graphite-soft">Readings with a time in the video are drawn here against the time.</p>;
+  const pts = timed.filter((r) => r.quantity === active);
+  const unit = pts[0].unitEntered;
+  const data = pts.map((r) => ({ t: r.t as number, v: fromStored(r, unit), r }));
+  const tMax = Math.max(...data.map((d) => d.t), 1);
+  const vMin = Math.min(...data.map((d) => d.v));
+  const vMax = Math.max(...data.map((d) => d.v));
+  const lo = vMin === vMax ? vMin - Math.abs(vMin || 1) * 0.1 : vMin - (vMax - vMin) * 0.08;
+  const hi = vMin === vMax ? vMax + Math.abs(vMax || 1) * 0.1 : vMax + (vMax - vMin) * 0.08;
+  const sx = (t: number) => PAD.l + (t / tMax) * (W - PAD.l - PAD.r);
+  const sy = (v: number) => H - PAD.b - ((v - lo) / (hi - lo)) * (H - PAD.t - PAD.b);
+  const label = quantityDef(active)?.label ?? active;
+  return (
+    <figure>
+      <div className="mb-2 flex items-center gap-2">
+        <label htmlFor="chart-q" className="text-sm font-semibold">Quantity</label>
+        <select id="chart-q" className="field w-auto py-1 text-sm" value={active} onChange={(e) => setQ(e.target.value)}>
+          {quantities.map((x) => <option key={x} value={x}>{quantityDef(x)?.label ?? x}</option>)}
+        </select>
+      </div>
+      <svg viewBox={`0 0 ${W} ${H}`} className="num w-full" role="img" aria-label={`${label} against video time, ${data.length} readings`}>
+        <Axes x={niceTicks(0, tMax)} y={niceTicks(lo, hi)} xLabel="Video time" yLabel={`${label} (${displayUnit(unit)})`} sx={sx} sy={sy} />
+        {data.map((d) => (
+          <circle key={d.r.id} cx={sx(d.t)} cy={sy(d.v)} r="4.5" fill="#1d6b67" stroke="#fffdf8" strokeWidth="1.5" className="cursor-pointer" onClick={() => onSeek(d.t)}>
+            <title>{`${formatTime(d.t)} · ${d.r.label || label}: ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}</title>
+          </circle>
+        ))}
+      </svg>
+      <figcaption className="text-xs text-graphite-soft">Click a point to play from its moment.</figcaption>
+    </figure>
+  );
+}
+
+/** Torque and clamp-load readings paired by label and pass. */
+export function pairTorqueClamp(readings: ReadingRow[]) {
+  const key = (r: ReadingRow) => `${r.label.trim().toLowerCase()}|${(r.conditions?.pass ?? "").trim().toLowerCase()}`;
+  const torque = new Map<string, ReadingRow>();
+  const clamp = new Map<string, ReadingRow>();
+  for (const r of readings) {
+    if (r.quantity === "torque") torque.set(key(r), r);
+    if (r.quantity === "clamp-load") clamp.set(key(r), r);
+  }
+  const pairs: { key: string; torque: ReadingRow; clamp: ReadingRow }[] = [];
+  for (const [k, t] of torque) {
+    const c = clamp.get(k);
+    if (c) pairs.push({ key: k, torque: t, clamp: c });
+  }
+  return pairs;
+}
+
+function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
+  const pairs = useMemo(() => pairTorqueClamp(readings), [readings]);
+  const [thread, setThread] = useState("M12x1.5");
+  let fit: NutFactorFit | null = null;
+  let problem: string | null = null;
+  if (pairs.length) {
+    try {
+      fit = fitNutFactor(pairs.map((p) => ({ torque: { value: p.torque.valueSi, unit: "N.m" }, preload: { value: p.clamp.valueSi, unit: "N" } })), thread);
+    } catch (err) {
+      const issues = (err as { issues?: { message: string }[] }).issues;
+      problem = issues?.[0]?.message ?? (err as Error).message;
+    }
+  }
+  if (!pairs.length) return null;
+  const pts = pairs.map((p) => ({ x: p.torque.valueSi, y: p.clamp.valueSi / 1000, p }));
+  const xMax = Math.max(...pts.map((d) => d.x)) * 1.1;
+  const yMax = Math.max(...pts.map((d) => d.y), fit ? (fit.slope_N_per_Nm * xMax) / 1000 : 0) * 1.08;
+  const sx = (v: number) => PAD.l + (v / xMax) * (W - PAD.l - PAD.r);
+  const sy = (v: number) => H - PAD.b - (v / yMax) * (H - PAD.t - PAD.b);
+  return (
+    <figure data-testid="nut-factor-chart">
+      <div className="mb-2 flex flex-wrap items-center gap-2">
+        <label htmlFor="chart-thread" className="text-sm font-semibold">Thread</label>
+        <select id="chart-thread" className="field w-auto py-1 text-sm" value={thread} onChange={(e) => setThread(e.target.value)}>
+          {THREAD_PRESETS.map((t) => <option key={t.designation} value={t.designation}>{t.designation}</option>)}
+        </select>
+        <span className="text-xs text-graphite-soft">{pairs.length} torque / clamp-load {pairs.length === 1 ? "pair" : "pairs"}, matched by label and pass</span>
+      </div>
+      <svg viewBox={`0 0 ${W} ${H}`} className="num w-full" role="img" aria-label="Clamp load against torque with the fitted nut-factor line">
+        <Axes x={niceTicks(0, xMax)} y={niceTicks(0, yMax)} xLabel="Torque (N·m)" yLabel="Clamp load (kN)" sx={sx} sy={sy} />
+        {fit && <line x1={sx(0)} y1={sy(0)} x2={sx(xMax)} y2={sy((fit.slope_N_per_Nm * xMax) / 1000)} stroke="#9a6f22" strokeWidth="2" strokeDasharray="6 4" />}
+        {pts.map((d) => (
+          <circle key={d.p.key} cx={sx(d.x)} cy={sy(d.y)} r="4.5" fill="#1d6b67" stroke="#fffdf8" strokeWidth="1.5">
+            <title>{`${d.p.torque.label || "–"}${d.p.torque.conditions?.pass ? `, pass ${d.p.torque.conditions.pass}` : ""}: ${Number(d.x.toPrecision(5))} N·m → ${Number(d.y.toPrecision(5))} kN`}</title>
+          </circle>
+        ))}
+      </svg>
+      {fit && (
+        <figcaption className="mt-1 space-y-1 text-sm">
+          <p data-testid="nut-factor-result">
+            Effective nut factor <span className="font-semibold">K = {fit.k.toFixed(3)}</span>
+            {fit.n > 1 && <> ± {fit.kStdDev.toFixed(3)} (1 s.d., {(fit.kCoefficientOfVariation * 100).toFixed(1)} % scatter)</>} · n = {fit.n} · R² = {fit.rSquared.toFixed(3)}
+          </p>
+          {fit.warnings.map((w) => <p key={w} className="text-graphite-soft">{w}</p>)}
+          <p className="text-xs text-graphite-soft">Least-squares line through the origin, F = T / (K·d). Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.</p>
+        </figcaption>
+      )}
+      {problem && <p className="field-error" role="alert">Cannot fit a nut factor: {problem}</p>}
+    </figure>
+  );
+}
+
+export function ReadingsChart({ readings, onSeek }: { readings: ReadingRow[]; onSeek: (t: number) => void }) {
+  if (!readings.length) return null;
+  const hasPairs = pairTorqueClamp(readings).length > 0;
+  return (
+    <section className="card space-y-6" aria-labelledby="chart-h">
+      <h2 id="chart-h" className="text-lg">Readings chart</h2>
+      <TimeChart readings={readings} onSeek={onSeek} />
+      {hasPairs && (
+        <div className="border-t border-rule pt-4">
+          <h3 className="mb-2 text-base">Torque against clamp load</h3>
+          <NutFactorChart readings={readings} />
+        </div>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,104 @@
+import { and, arrayContains, asc, desc, eq, sql } from "drizzle-orm";
+import { marks, procedures, readings, recordings, users } from "~/db/schema";
+import { db } from "../db.server";
+
+export type LibraryFilter = { tag?: string | null; uploader?: string | null; sort?: "newest" | "oldest"; q?: string | null };
+
+const markCount = sql<number>`(select count(*)::int from ${marks} where ${marks.recordingId} = ${recordings.id})`;
+const readingCount = sql<number>`(select count(*)::int from ${readings} where ${readings.recordingId} = ${recordings.id})`;
+
+export async function listRecordings(f: LibraryFilter = {}) {
+  const where = [];
+  if (f.tag) where.push(arrayContains(recordings.tags, [f.tag]));
+  if (f.uploader) where.push(eq(recordings.uploadedBy, f.uploader));
+  if (f.q) where.push(sql`${recordings.title} ilike ${"%" + f.q.replace(/[%_\\]/g, (c) => "\\" + c) + "%"}`);
+  return db()
+    .select({
+      id: recordings.id,
+      title: recordings.title,
+      tags: recordings.tags,
+      state: recordings.state,
+      stateReason: recordings.stateReason,
+      progress: recordings.progress,
+      durationS: recordings.durationS,
+      hasPoster: recordings.hasPoster,
+      createdAt: recordings.createdAt,
+      uploadedBy: recordings.uploadedBy,
+      uploaderName: users.name,
+      markCount,
+      readingCount,
+    })
+    .from(recordings)
+    .leftJoin(users, eq(users.id, recordings.uploadedBy))
+    .where(where.length ? and(...where) : undefined)
+    .orderBy(f.sort === "oldest" ? asc(recordings.createdAt) : desc(recordings.createdAt))
+    .limit(200);
+}
+
+/** Tags and uploaders that occur, for the library's filters. */
+export async function libraryFacets() {
+  const tags = await db().execute<{ tag: string; n: number }>(sql`select t as tag, count(*)::int as n from ${recordings}, unnest(${recordings.tags}) t group by t order by n desc, t limit 60`);
+  const uploaders = await db()
+    .selectDistinct({ id: users.id, name: users.name })
+    .from(recordings)
+    .innerJoin(users, eq(users.id, recordings.uploadedBy))
+    .orderBy(users.name);
+  return { tags: tags.rows, uploaders };
+}
+
+export async function getRecording(id: string) {
+  if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
+  const [row] = await db()
+    .select({ r: recordings, uploaderName: users.name })
+    .from(recordings)
+    .leftJoin(users, eq(users.id, recordings.uploadedBy))
+    .where(eq(recordings.id, id));
+  return row ? { ...row.r, uploaderName: row.uploaderName } : null;
+}
+
+export async function listMarks(recordingId: string) {
+  return db()
+    .select({
+      id: marks.id,
+      tStart: marks.tStart,
+      tEnd: marks.tEnd,
+      text: marks.text,
+      tags: marks.tags,
+      procedureId: marks.procedureId,
+      procedureTitle: procedures.title,
+      procedureSlug: procedures.slug,
+      createdBy: marks.createdBy,
+      authorName: users.name,
+      createdAt: marks.createdAt,
+    })
+    .from(marks)
+    .leftJoin(users, eq(users.id, marks.createdBy))
+    .leftJoin(procedures, eq(procedures.id, marks.procedureId))
+    .where(eq(marks.recordingId, recordingId))
+    .orderBy(asc(marks.tStart), asc(marks.createdAt));
+}
+
+export async function listReadings(recordingId: string) {
+  return db()
+    .select({
+      id: readings.id,
+      quantity: readings.quantity,
+      label: readings.label,
+      valueSi: readings.valueSi,
+      valueEntered: readings.valueEntered,
+      unitEntered: readings.unitEntered,
+      conditions: readings.conditions,
+      t: readings.t,
+      createdBy: readings.createdBy,
+      authorName: users.name,
+      createdAt: readings.createdAt,
+    })
+    .from(readings)
+    .leftJoin(users, eq(users.id, readings.createdBy))
+    .where(eq(readings.recordingId, recordingId))
+    .orderBy(sql`${readings.t} asc nulls last`, asc(readings.createdAt));
+}
+
+export async function procedureChoices() {
+  return db().select({ id: procedures.id, title: procedures.title, area: procedures.area }).from(procedures).orderBy(procedures.title).limit(500);
+}

@@ -1,0 +1,80 @@
+import fs from "node:fs";
+import { Readable } from "node:stream";
+
+/**
+ * Serves a file with HTTP Range (RFC 9110 §14): 206 with Content-Range for one satisfiable
+ * range, 416 for an unsatisfiable or malformed one, 200 for the whole file (also for several
+ * ranges, which a server may answer with the full body), If-Range and If-None-Match honoured.
+ * The body is streamed (Readable.toWeb of a ranged read stream, never a Node stream handed
+ * to Response: see STACK.md).
+ */
+export type ServeOptions = { contentType: string; download?: string; cacheSeconds?: number };
+
+type Range = { start: number; end: number } | "unsatisfiable" | null;
+
+/** Parses one "bytes=…" range against a size; null = ignore the header (serve it all). */
+export function parseRange(header: string | null, size: number): Range {
+  if (!header) return null;
+  const m = /^\s*bytes\s*=\s*(.+)$/i.exec(header);
+  if (!m) return "unsatisfiable";
+  const parts = m[1].split(",").map((s) => s.trim());
+  if (parts.length > 1) return null;
+  const r = /^(\d*)-(\d*)$/.exec(parts[0]);
+  if (!r || (r[1] === "" && r[2] === "")) return "unsatisfiable";
+  if (r[1] === "") {
+    const n = Number(r[2]);
+    if (n === 0 || size === 0) return "unsatisfiable";
+    return { start: Math.max(0, size - n), end: size - 1 };
+  }
+  const start = Number(r[1]);
+  const end = r[2] === "" ? size - 1 : Math.min(Number(r[2]), size - 1);
+  if (!Number.isSafeInteger(start) || start >= size || end < start) return "unsatisfiable";
+  return { start, end };
+}
+
+function asciiName(name: string) {
+  // eslint-disable-next-line no-control-regex
+  return name.replace(/[^\x20-\x7e]|["\\]/g, "_");
+}
+
+export async function serveFile(request: Request, file: string, opts: ServeOptions): Promise<Response> {
+  let stat: fs.Stats;
+  try {
+    stat = await fs.promises.stat(file);
+  } catch {
+    return Response.json({ error: "not found", reason: "The file is not stored (yet)." }, { status: 404 });
+  }
+  const size = stat.size;
+  const etag = `"${size.toString(16)}-${Math.floor(stat.mtimeMs).toString(16)}"`;
+  const headers = new Headers({
+    "Accept-Ranges": "bytes",
+    "Content-Type": opts.contentType,
+    ETag: etag,
+    "Last-Modified": stat.mtime.toUTCString(),
+    "Cache-Control": `private, max-age=${opts.cacheSeconds ?? 3600}`,
+    Vary: "Cookie",
+  });
+  if (opts.download) {
+    headers.set("Content-Disposition", `attachment; filename="${asciiName(opts.download)}"; filename*=UTF-8''${encodeURIComponent(opts.download)}`);
+  }
+  const inm = request.headers.get("if-none-match");
+  if (inm && inm.split(",").some((t) => t.trim() === etag || t.trim() === "*")) return new Response(null, { status: 304, headers });
+
+  let range = parseRange(request.headers.get("range"), size);
+  const ifRange = request.headers.get("if-range");
+  if (range && ifRange && ifRange.trim() !== etag) range = null;
+  if (range === "unsatisfiable") {
+    headers.set("Content-Range", `bytes */${size}`);
+    headers.delete("Content-Type");
+    return new Response(null, { status: 416, headers });
+  }
+  const start = range ? range.start : 0;
+  const end = range ? range.end : size - 1;
+  headers.set("Content-Length", String(size === 0 ? 0 : end - start + 1));
+  if (range) headers.set("Content-Range", `bytes ${start}-${end}/${size}`);
+  const status = range ? 206 : 200;
+  if (request.method === "HEAD" || size === 0) return new Response(null, { status, headers });
+  const stream = fs.createReadStream(file, { start, end, highWaterMark: 256 * 1024 });
+  request.signal?.addEventListener("abort", () => stream.destroy(), { once: true });
+  return new Response(Readable.toWeb(stream) as ReadableStream<Uint8Array>, { status, headers });
+}

@@ -1,0 +1,164 @@
+import { and, eq, inArray } from "drizzle-orm";
+import { z } from "zod";
+import { marks, procedures, readings } from "~/db/schema";
+import { assertCan, forbidden, type SessionUser } from "../auth.server";
+import { db } from "../db.server";
+import { canOnOwned } from "../permissions";
+import { invalid, notFound } from "./api.server";
+import { getRecording, listMarks, listReadings } from "./library.server";
+import { markInputSchema, markPatchSchema, readingInputSchema, toStoredSI } from "./rules";
+
+/**
+ * Marks and readings: the rules the JSON API applies (validation against the recording's
+ * duration, units that fit the quantity, ownership for edit and delete).
+ */
+
+export async function recordingOr404(request: Request, id: string) {
+  const rec = await getRecording(id);
+  if (!rec) notFound(request);
+  return rec;
+}
+
+async function procedureMissing(id: string | null | undefined): Promise<boolean> {
+  if (!id) return false;
+  const [p] = await db().select({ id: procedures.id }).from(procedures).where(eq(procedures.id, id));
+  return !p;
+}
+
+const unknownProcedure = () =>
+  Response.json({ error: "invalid input", issues: [{ path: "procedureId", message: "That procedure does not exist (any more)." }] }, { status: 422 });
+
+// ---- marks -----------------------------------------------------------------------------------
+
+export async function createMark(request: Request, user: SessionUser, recordingId: string, body: unknown) {
+  assertCan(request, user, "mark:create");
+  const rec = await recordingOr404(request, recordingId);
+  const parsed = markInputSchema(rec.durationS).safeParse(body);
+  if (!parsed.success) return invalid(parsed.error);
+  if (await procedureMissing(parsed.data.procedureId)) return unknownProcedure();
+  const [row] = await db()
+    .insert(marks)
+    .values({
+      recordingId,
+      tStart: parsed.data.tStart,
+      tEnd: parsed.data.tEnd ?? null,
+      text: parsed.data.text,
+      tags: parsed.data.tags,
+      procedureId: parsed.data.procedureId ?? null,
+      createdBy: user.id,
+    })
+    .returning();
+  return Response.json({ mark: row }, { status: 201 });
+}
+
+async function markOr404(request: Request, recordingId: string, markId: string) {
+  if (!z.string().uuid().safeParse(markId).success) notFound(request, "mark");
+  const [m] = await db().select().from(marks).where(and(eq(marks.id, markId), eq(marks.recordingId, recordingId)));
+  if (!m) notFound(request, "mark");
+  return m;
+}
+
+export async function updateMark(request: Request, user: SessionUser, recordingId: string, markId: string, body: unknown) {
+  const rec = await recordingOr404(request, recordingId);
+  const m = await markOr404(request, recordingId, markId);
+  if (!canOnOwned(user, "mark:edit", m.createdBy)) forbidden(request, "You can change only your own marks.");
+  const parsed = markPatchSchema(rec.durationS).safeParse(body);
+  if (!parsed.success) return invalid(parsed.error);
+  const next = { ...m, ...Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined)) };
+  if (next.tEnd != null && next.tEnd <= next.tStart) {
+    return Response.json({ error: "invalid input", issues: [{ path: "tEnd", message: "A span must end after it starts." }] }, { status: 422 });
+  }
+  if (await procedureMissing(parsed.data.procedureId)) return unknownProcedure();
+  const [row] = await db()
+    .update(marks)
+    .set({ tStart: next.tStart, tEnd: next.tEnd, text: next.text, tags: next.tags, procedureId: next.procedureId, updatedAt: new Date() })
+    .where(eq(marks.id, markId))
+    .returning();
+  return Response.json({ mark: row });
+}
+
+export async function deleteMark(request: Request, user: SessionUser, recordingId: string, markId: string) {
+  await recordingOr404(request, recordingId);
+  const m = await markOr404(request, recordingId, markId);
+  if (!canOnOwned(user, "mark:edit", m.createdBy)) forbidden(request, "You can delete only your own marks.");
+  await db().delete(marks).where(eq(marks.id, markId));
+  return new Response(null, { status: 204 });
+}
+
+export { listMarks, listReadings };
+
+// ---- readings --------------------------------------------------------------------------------
+
+/** One reading, or `{ readings: [...] }` for the "add several" grid (all or nothing). */
+export async function createReadings(request: Request, user: SessionUser, recordingId: string, body: unknown) {
+  assertCan(request, user, "reading:create");
+  const rec = await recordingOr404(request, recordingId);
+  const one = readingInputSchema(rec.durationS);
+  const isBatch = typeof body === "object" && body !== null && Array.isArray((body as { readings?: unknown }).readings);
+  const schema = isBatch ? z.object({ readings: z.array(one).min(1, "Add at least one reading.").max(500, "At most 500 readings at once.") }) : one;
+  const parsed = schema.safeParse(body);
+  if (!parsed.success) return invalid(parsed.error);
+  const items = isBatch ? (parsed.data as { readings: z.infer<typeof one>[] }).readings : [parsed.data as z.infer<typeof one>];
+  const rows = await db()
+    .insert(readings)
+    .values(
+      items.map((r) => ({
+        recordingId,
+        quantity: r.quantity,
+        label: r.label,
+        valueEntered: r.value,
+        unitEntered: r.unit,
+        valueSi: toStoredSI(r.quantity, r.value, r.unit),
+        conditions: r.conditions,
+        t: r.t ?? null,
+        createdBy: user.id,
+      })),
+    )
+    .returning();
+  return Response.json(isBatch ? { readings: rows } : { reading: rows[0] }, { status: 201 });
+}
+
+async function readingOr404(request: Request, recordingId: string, readingId: string) {
+  if (!z.string().uuid().safeParse(readingId).success) notFound(request, "reading");
+  const [r] = await db().select().from(readings).where(and(eq(readings.id, readingId), eq(readings.recordingId, recordingId)));
+  if (!r) notFound(request, "reading");
+  return r;
+}
+
+export async function updateReading(request: Request, user: SessionUser, recordingId: string, readingId: string, body: unknown) {
+  const rec = await recordingOr404(request, recordingId);
+  const r = await readingOr404(request, recordingId, readingId);
+  if (!canOnOwned(user, "reading:edit", r.createdBy)) forbidden(request, "You can change only your own readings.");
+  // A patch is checked as the whole reading it makes, so a unit change is checked against the quantity.
+  const merged = {
+    quantity: r.quantity,
+    value: r.valueEntered,
+    unit: r.unitEntered,
+    label: r.label,
+    conditions: r.conditions,
+    t: r.t,
+    ...(typeof body === "object" && body ? body : {}),
+  };
+  const parsed = readingInputSchema(rec.durationS).safeParse(merged);
+  if (!parsed.success) return invalid(parsed.error);
+  const v = parsed.data;
+  const [row] = await db()
+    .update(readings)
+    .set({ quantity: v.quantity, label: v.label, valueEntered: v.value, unitEntered: v.unit, valueSi: toStoredSI(v.quantity, v.value, v.unit), conditions: v.conditions, t: v.t ?? null, updatedAt: new Date() })
+    .where(eq(readings.id, readingId))
+    .returning();
+  return Response.json({ reading: row });
+}
+
+export async function deleteReading(request: Request, user: SessionUser, recordingId: string, readingId: string) {
+  await recordingOr404(request, recordingId);
+  const r = await readingOr404(request, recordingId, readingId);
+  if (!canOnOwned(user, "reading:edit", r.createdBy)) forbidden(request, "You can delete only your own readings.");
+  await db().delete(readings).where(eq(readings.id, readingId));
+  return new Response(null, { status: 204 });
+}
+
+export async function readingsById(ids: string[]) {
+  if (!ids.length) return [];
+  return db().select().from(readings).where(inArray(readings.id, ids));
+}

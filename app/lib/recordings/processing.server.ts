@@ -1,0 +1,301 @@
+import { spawn } from "node:child_process";
+import fs from "node:fs/promises";
+import { createReadStream } from "node:fs";
+import { eq, sql } from "drizzle-orm";
+import type PgBoss from "pg-boss";
+import { recordings } from "~/db/schema";
+import { db } from "../db.server";
+import { boss, enqueueProcessing, PROCESS_QUEUE } from "./queue.server";
+import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
+
+const FFPROBE = process.env.FFPROBE_PATH ?? "/usr/bin/ffprobe";
+const FFMPEG = process.env.FFMPEG_PATH ?? "/usr/bin/ffmpeg";
+
+export type Probe = {
+  formatName: string;
+  majorBrand: string | null;
+  durationS: number | null;
+  video: { codec: string; profile: string | null; pixFmt: string | null; width: number; height: number; frameRate: number | null } | null;
+  audio: { codec: string } | null;
+};
+
+type Run = { code: number | null; stdout: string; stderr: string };
+
+function run(cmd: string, args: string[], onStdout?: (chunk: string) => void): Promise<Run> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(cmd, args, { stdio: ["ignore", "pipe", "pipe"] });
+    let stdout = "";
+    let stderr = "";
+    child.stdout.setEncoding("utf8").on("data", (c: string) => {
+      if (onStdout) onStdout(c);
+      else stdout += c;
+    });
+    child.stderr.setEncoding("utf8").on("data", (c: string) => {
+      stderr = (stderr + c).slice(-8000);
+    });
+    child.on("error", reject);
+    child.on("close", (code) => resolve({ code, stdout, stderr }));
+  });
+}
+
+function rate(s: string | undefined): number | null {
+  if (!s) return null;
+  const [a, b] = s.split("/").map(Number);
+  const v = b ? a / b : a;
+  return Number.isFinite(v) && v > 0 && v < 1000 ? v : null;
+}
+
+/** ffprobe the file; null when ffprobe cannot read it as media at all. */
+export async function probe(file: string): Promise<Probe | null> {
+  const r = await run(FFPROBE, ["-v", "error", "-print_format", "json", "-show_format", "-show_streams", file]);
+  if (r.code !== 0) return null;
+  let j: { format?: { format_name?: string; duration?: string; tags?: Record<string, string> }; streams?: Record<string, unknown>[] };
+  try {
+    j = JSON.parse(r.stdout);
+  } catch {
+    return null;
+  }
+  const streams = j.streams ?? [];
+  const v = streams.find((s) => s.codec_type === "video" && !(s.disposition as { attached_pic?: number } | undefined)?.attached_pic) as Record<string, string & number> | undefined;
+  const a = streams.find((s) => s.codec_type === "audio") as Record<string, string> | undefined;
+  const duration = Number(j.format?.duration ?? v?.duration);
+  return {
+    formatName: j.format?.format_name ?? "",
+    majorBrand: j.format?.tags?.major_brand?.trim() ?? null,
+    durationS: Number.isFinite(duration) && duration > 0 ? duration : null,
+    video: v
+      ? {
+          codec: String(v.codec_name),
+          profile: v.profile ? String(v.profile) : null,
+          pixFmt: v.pix_fmt ? String(v.pix_fmt) : null,
+          width: Number(v.width) || 0,
+          height: Number(v.height) || 0,
+          frameRate: rate(v.avg_frame_rate as string) ?? rate(v.r_frame_rate as string),
+        }
+      : null,
+    audio: a ? { codec: String(a.codec_name) } : null,
+  };
+}
+
+/** Top-level MP4/MOV boxes in order, to see whether "moov" comes before "mdat" (faststart). */
+export async function topLevelBoxes(file: string, limit = 64): Promise<string[]> {
+  const fh = await fs.open(file, "r");
+  try {
+    const { size } = await fh.stat();
+    const out: string[] = [];
+    let pos = 0;
+    const head = Buffer.alloc(16);
+    while (pos + 8 <= size && out.length < limit) {
+      await fh.read(head, 0, 16, pos);
+      let boxSize = head.readUInt32BE(0);
+      const type = head.toString("latin1", 4, 8);
+      if (boxSize === 1) boxSize = Number(head.readBigUInt64BE(8));
+      else if (boxSize === 0) boxSize = size - pos;
+      if (boxSize < 8 || !/^[\x20-\x7e]{4}$/.test(type)) break;
+      out.push(type);
+      pos += boxSize;
+    }
+    return out;
+  } finally {
+    await fh.close();
+  }
+}
+
+export type Plan = "as-is" | "remux" | "transcode";
+
+/**
+ * The browser-safe rendition is H.264 (8-bit 4:2:0) with AAC or no audio, in MP4 with the
+ * index (moov) first. A file that is all that is served as it is; one that only lacks
+ * faststart is remuxed; anything else (HEVC, ProRes, QuickTime-only, 10-bit…) is transcoded.
+ */
+export function planFor(p: Probe, boxes: string[]): Plan {
+  const v = p.video!;
+  const isMp4 = p.formatName.split(",").includes("mp4") && p.majorBrand !== "qt";
+  const h264 = v.codec === "h264" && (v.pixFmt === "yuv420p" || v.pixFmt === "yuvj420p") && !/10|4:2:2|4:4:4/.test(v.profile ?? "");
+  const audioOk = !p.audio || p.audio.codec === "aac";
+  if (!(h264 && audioOk)) return "transcode";
+  if (!isMp4) return "remux";
+  const moov = boxes.indexOf("moov");
+  const mdat = boxes.indexOf("mdat");
+  return moov >= 0 && (mdat < 0 || moov < mdat) ? "as-is" : "remux";
+}
+
+async function setProgress(id: string, progress: number) {
+  await db().update(recordings).set({ progress, updatedAt: new Date() }).where(eq(recordings.id, id));
+}
+
+async function ffmpeg(args: string[], durationS: number | null, onFraction: (f: number) => void): Promise<void> {
+  let buf = "";
+  const r = await run(FFMPEG, ["-hide_banner", "-nostdin", "-y", "-progress", "pipe:1", "-nostats", ...args], (chunk) => {
+    buf += chunk;
+    const lines = buf.split("\n");
+    buf = lines.pop() ?? "";
+    for (const line of lines) {
+      const m = /^out_time_us=(\d+)/.exec(line);
+      if (m && durationS) onFraction(Math.min(1, Number(m[1]) / 1e6 / durationS));
+    }
+  });
+  if (r.code !== 0) {
+    const last = r.stderr.trim().split("\n").slice(-2).join(" ").slice(0, 400);
+    throw new Error(`ffmpeg failed: ${last || `exit code ${r.code}`}`);
+  }
+}
+
+async function exists(p: string) {
+  return fs.stat(p).then(() => true, () => false);
+}
+
+/** Reject: the bytes are not a video. The original is removed; the row keeps the reason. */
+async function reject(id: string, reason: string) {
+  await fs.rm(recordingDir(id), { recursive: true, force: true });
+  await db()
+    .update(recordings)
+    .set({ state: "rejected", stateReason: reason, hasOriginal: false, hasPoster: false, hasRendition: false, progress: 1, updatedAt: new Date() })
+    .where(eq(recordings.id, id));
+}
+
+/** The processing job: probe, poster, rendition when needed → ready (or rejected). Idempotent. */
+export async function processRecording(id: string): Promise<"ready" | "rejected" | "skipped"> {
+  const [rec] = await db().select().from(recordings).where(eq(recordings.id, id));
+  if (!rec || rec.state === "ready" || rec.state === "rejected") return "skipped";
+  await db().update(recordings).set({ attempts: sql`${recordings.attempts} + 1`, state: "processing", stateReason: null, progress: 0.02, updatedAt: new Date() }).where(eq(recordings.id, id));
+  const src = originalPath(id);
+  if (!(await exists(src))) {
+    await db().update(recordings).set({ state: "failed", stateReason: "The uploaded file is missing from the store.", hasOriginal: false, updatedAt: new Date() }).where(eq(recordings.id, id));
+    return "skipped";
+  }
+  const p = await probe(src);
+  if (!p) {
+    await reject(id, "This file is not a video the shop can read (ffprobe found no media in it). It may be another kind of file, or truncated.");
+    return "rejected";
+  }
+  if (!p.video || p.video.width === 0) {
+    await reject(id, p.audio ? "This file has sound but no picture; only videos can be recordings." : "This file has no video stream; only videos can be recordings.");
+    return "rejected";
+  }
+  if (!p.durationS || /^(image2|png_pipe|jpeg_pipe|gif|webp_pipe)/.test(p.formatName)) {
+    await reject(id, "This file is a still image or has no duration; only videos can be recordings.");
+    return "rejected";
+  }
+  await db()
+    .update(recordings)
+    .set({
+      container: p.majorBrand ? `${p.formatName} (${p.majorBrand})` : p.formatName,
+      videoCodec: p.video.codec,
+      audioCodec: p.audio?.codec ?? null,
+      width: p.video.width,
+      height: p.video.height,
+      frameRate: p.video.frameRate,
+      durationS: p.durationS,
+      progress: 0.08,
+      updatedAt: new Date(),
+    })
+    .where(eq(recordings.id, id));
+
+  // Poster: a frame a little way in (or the first), at most 640 px wide.
+  const posterTmp = `${posterPath(id)}.tmp.jpg`;
+  const at = Math.min(2, p.durationS / 10);
+  await ffmpeg(["-ss", at.toFixed(2), "-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp], null, () => {}).catch(() =>
+    ffmpeg(["-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp], null, () => {}),
+  );
+  await fs.rename(posterTmp, posterPath(id));
+  await db().update(recordings).set({ hasPoster: true, progress: 0.12, updatedAt: new Date() }).where(eq(recordings.id, id));
+
+  const plan = planFor(p, await topLevelBoxes(src).catch(() => []));
+  if (plan !== "as-is") {
+    const tmp = `${renditionPath(id)}.tmp.mp4`;
+    let last = 0;
+    const onFraction = (f: number) => {
+      const now = Date.now();
+      if (now - last < 1000) return;
+      last = now;
+      void setProgress(id, 0.12 + 0.86 * f);
+    };
+    const common = ["-movflags", "+faststart", "-f", "mp4", tmp];
+    if (plan === "remux") {
+      await ffmpeg(["-i", src, "-map", "0:v:0", "-map", "0:a:0?", "-c", "copy", ...common], p.durationS, onFraction);
+    } else {
+      await ffmpeg(
+        ["-i", src, "-map", "0:v:0", "-map", "0:a:0?", "-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-pix_fmt", "yuv420p",
+          "-vf", "scale='min(1920,iw)':-2", "-threads", "2", "-c:a", "aac", "-b:a", "128k", ...common],
+        p.durationS,
+        onFraction,
+      );
+    }
+    await fs.rename(tmp, renditionPath(id));
+  }
+  await db()
+    .update(recordings)
+    .set({ state: "ready", stateReason: null, progress: 1, hasRendition: plan !== "as-is", readyAt: new Date(), updatedAt: new Date() })
+    .where(eq(recordings.id, id));
+  return "ready";
+}
+
+/** The worker side: work the queue; a throw is retried by pg-boss, the last failure is shown. */
+export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> }> {
+  const b = await boss({ worker: true });
+  await b.work<{ recordingId: string }>(
+    PROCESS_QUEUE,
+    { batchSize: 1, pollingIntervalSeconds: 1, includeMetadata: true },
+    async ([job]: PgBoss.JobWithMetadata<{ recordingId: string }>[]) => {
+      const id = job.data.recordingId;
+      try {
+        const outcome = await processRecording(id);
+        console.log(`[recordings] ${id}: ${outcome}`);
+      } catch (err) {
+        const message = (err as Error).message;
+        const final = job.retryCount >= job.retryLimit;
+        console.error(`[recordings] ${id} attempt ${job.retryCount + 1} failed: ${message}`);
+        await db()
+          .update(recordings)
+          .set(
+            final
+              ? { state: "failed", stateReason: `Processing failed: ${message}`, updatedAt: new Date() }
+              : { stateReason: `Attempt ${job.retryCount + 1} failed; retrying shortly. (${message})`, updatedAt: new Date() },
+          )
+          .where(eq(recordings.id, id));
+        throw err;
+      }
+    },
+  );
+  // At start-up (one worker process), a recording left in "processing" with no waiting job
+  // (its worker died mid-job, or it was enqueued while the queue was down) gets a fresh job.
+  // Processing is idempotent and skips a recording that is already ready, so the orphaned
+  // active job, when pg-boss expires and retries it, costs nothing.
+  const { rows } = await db().execute<{ id: string }>(sql`
+    select r.id from recordings r
+    where r.state = 'processing'
+      and not exists (select 1 from pgboss.job j where j.name = ${PROCESS_QUEUE} and j.data->>'recordingId' = r.id::text and j.state in ('created','retry'))`);
+  for (const r of rows) await enqueueProcessing(r.id);
+  return {
+    async stop() {
+      await b.offWork(PROCESS_QUEUE);
+      const { stopBoss } = await import("./queue.server");
+      await stopBoss();
+    },
+  };
+}
+
+/** Editors' "retry" of a failed recording. */
+export async function retryRecording(id: string): Promise<void> {
+  await db().update(recordings).set({ state: "processing", stateReason: null, progress: 0, updatedAt: new Date() }).where(eq(recordings.id, id));
+  await enqueueProcessing(id);
+}
+
+/** sha256 of a file, streamed (tests and the benchmark). */
+export async function sha256File(file: string): Promise<string> {
+  const { createHash } = await import("node:crypto");
+  const h = createHash("sha256");
+  for await (const chunk of createReadStream(file)) h.update(chunk as Buffer);
+  return h.digest("hex");
+}
+
+let started: Promise<unknown> | null = null;
+/** The worker's periodic task: starts the queue worker once, and again after a failure. */
+export async function ensureRecordingJobs(): Promise<void> {
+  started ??= startRecordingJobs().catch((err) => {
+    started = null;
+    throw err;
+  });
+  await started;
+}

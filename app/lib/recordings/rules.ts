@@ -1,0 +1,214 @@
+/**
+ * Rules for marks and readings shared by the API, the pages and the tests: which quantities a
+ * reading can have, which unit codes (calc-contract.md) fit each, and the zod schemas of the
+ * JSON the API takes. Pure: no Node built-ins, safe in the browser.
+ */
+import { z } from "zod";
+import { UNIT_CODES, toSI, unitLabel, isUnitCode, type UnitCode, type UnitKind } from "~/lib/calc";
+
+export type QuantityId =
+  | "torque"
+  | "clamp-load"
+  | "bore-diameter"
+  | "out-of-round"
+  | "clearance"
+  | "ring-gap"
+  | "leak-down"
+  | "temperature"
+  | "length"
+  | "other";
+
+type QuantityDef = { id: QuantityId; label: string; kind: UnitKind | "percent" | "any"; defaultUnit: string };
+
+export const QUANTITIES: QuantityDef[] = [
+  { id: "torque", label: "Torque", kind: "torque", defaultUnit: "N.m" },
+  { id: "clamp-load", label: "Clamp load", kind: "force", defaultUnit: "kN" },
+  { id: "bore-diameter", label: "Bore diameter", kind: "length", defaultUnit: "mm" },
+  { id: "out-of-round", label: "Out-of-round", kind: "length", defaultUnit: "mm" },
+  { id: "clearance", label: "Clearance", kind: "length", defaultUnit: "mm" },
+  { id: "ring-gap", label: "Ring end gap", kind: "length", defaultUnit: "mm" },
+  { id: "leak-down", label: "Leak-down", kind: "percent", defaultUnit: "%" },
+  { id: "temperature", label: "Temperature", kind: "temperature", defaultUnit: "degC" },
+  { id: "length", label: "Length", kind: "length", defaultUnit: "mm" },
+  { id: "other", label: "Other (free-form)", kind: "any", defaultUnit: "" },
+];
+
+export const QUANTITY_IDS = QUANTITIES.map((q) => q.id) as [QuantityId, ...QuantityId[]];
+
+export function quantityDef(id: string): QuantityDef | undefined {
+  return QUANTITIES.find((q) => q.id === id);
+}
+
+/** The unit codes a quantity accepts (empty for free-form, which takes any short unit text). */
+export function unitsFor(id: string): string[] {
+  const q = quantityDef(id);
+  if (!q) return [];
+  if (q.kind === "percent") return ["%"];
+  if (q.kind === "any") return [];
+  return [...UNIT_CODES[q.kind]];
+}
+
+export function displayUnit(code: string): string {
+  if (isUnitCode(code)) return unitLabel(code);
+  return code;
+}
+
+/**
+ * The SI value of a typed reading: contract units go through `toSI` (m, N, N·m, Pa, K),
+ * a percentage is kept as a fraction (40 % → 0.4), a free-form unit is stored as typed.
+ */
+export function toStoredSI(quantity: string, value: number, unit: string): number {
+  if (unit === "%") return value / 100;
+  if (isUnitCode(unit)) return toSI(value, unit as UnitCode);
+  return value;
+}
+
+const FREE_UNIT = /^[\p{L}\p{N}%/.·°²³ -]{1,16}$/u;
+
+export const tagsSchema = z
+  .array(z.string().trim().min(1).max(40, "A tag is at most 40 characters."))
+  .max(12, "At most 12 tags.")
+  .default([])
+  .transform((tags) => [...new Set(tags.map((t) => t.toLowerCase()))]);
+
+/** "a, b ,c" → ["a","b","c"] for form fields. */
+export function splitTags(s: string | null | undefined): string[] {
+  return (s ?? "")
+    .split(",")
+    .map((t) => t.trim())
+    .filter(Boolean);
+}
+
+const seconds = z.number({ error: "Enter a time in seconds." }).finite("Enter a time in seconds.");
+
+export function markInputSchema(durationS: number | null) {
+  return z
+    .object({
+      tStart: seconds.min(0, "A mark cannot be before the start of the video."),
+      tEnd: seconds.nullable().optional(),
+      text: z.string().trim().min(1, "Write what happens at this moment.").max(2000, "Keep a mark under 2000 characters."),
+      tags: tagsSchema,
+      procedureId: z.string().uuid("Choose a procedure from the list.").nullable().optional(),
+    })
+    .superRefine((m, ctx) => {
+      const limit = durationS ?? Infinity;
+      if (m.tStart > limit + 0.001)
+        ctx.addIssue({ code: "custom", path: ["tStart"], message: `The video is only ${formatTime(limit)} long.` });
+      if (m.tEnd != null) {
+        if (m.tEnd <= m.tStart) ctx.addIssue({ code: "custom", path: ["tEnd"], message: "A span must end after it starts." });
+        else if (m.tEnd > limit + 0.001) ctx.addIssue({ code: "custom", path: ["tEnd"], message: `The video is only ${formatTime(limit)} long.` });
+      }
+    });
+}
+
+export const markPatchSchema = (durationS: number | null) =>
+  z.object({
+    tStart: seconds.min(0, "A mark cannot be before the start of the video.").optional(),
+    tEnd: seconds.nullable().optional(),
+    text: z.string().trim().min(1, "Write what happens at this moment.").max(2000).optional(),
+    tags: tagsSchema.optional(),
+    procedureId: z.string().uuid("Choose a procedure from the list.").nullable().optional(),
+  }).superRefine((m, ctx) => {
+    const limit = durationS ?? Infinity;
+    if (m.tStart != null && m.tStart > limit + 0.001)
+      ctx.addIssue({ code: "custom", path: ["tStart"], message: `The video is only ${formatTime(limit)} long.` });
+    if (m.tEnd != null && m.tEnd > limit + 0.001)
+      ctx.addIssue({ code: "custom", path: ["tEnd"], message: `The video is only ${formatTime(limit)} long.` });
+  });
+
+const conditionsSchema = z
+  .object({
+    lube: z.string().trim().max(80).optional(),
+    tool: z.string().trim().max(80).optional(),
+    pass: z.union([z.string().trim().max(20), z.number().int().min(0).max(999).transform(String)]).optional(),
+    note: z.string().trim().max(300).optional(),
+  })
+  .default({})
+  .transform((c) => Object.fromEntries(Object.entries(c).filter(([, v]) => v !== undefined && v !== "")) as Record<string, string>);
+
+export function readingInputSchema(durationS: number | null) {
+  return z
+    .object({
+      quantity: z.enum(QUANTITY_IDS, { error: "Choose what was measured." }),
+      value: z.number({ error: "Enter the value as a number." }).finite("Enter the value as a number."),
+      unit: z.string().trim().min(1, "Choose a unit."),
+      label: z.string().trim().max(120, "Keep the label under 120 characters.").default(""),
+      conditions: conditionsSchema,
+      t: seconds.min(0, "A reading cannot be before the start of the video.").nullable().optional(),
+    })
+    .superRefine((r, ctx) => {
+      const allowed = unitsFor(r.quantity);
+      if (r.quantity === "other") {
+        if (!FREE_UNIT.test(r.unit)) ctx.addIssue({ code: "custom", path: ["unit"], message: "Type a short unit (letters, digits, % / ·)." });
+      } else if (!allowed.includes(r.unit)) {
+        const q = quantityDef(r.quantity)!;
+        ctx.addIssue({
+          code: "custom",
+          path: ["unit"],
+          message: `${r.unit} is not a unit of ${q.label.toLowerCase()}; use ${allowed.map(displayUnit).join(", ")}.`,
+        });
+      }
+      if (r.quantity === "leak-down" && (r.value < 0 || r.value > 100))
+        ctx.addIssue({ code: "custom", path: ["value"], message: "Leak-down is a percentage from 0 to 100." });
+      if (["bore-diameter", "ring-gap", "length"].includes(r.quantity) && r.value <= 0)
+        ctx.addIssue({ code: "custom", path: ["value"], message: "This measurement must be greater than zero." });
+      if (["out-of-round", "clamp-load"].includes(r.quantity) && r.value < 0)
+        ctx.addIssue({ code: "custom", path: ["value"], message: "This measurement cannot be negative." });
+      if (r.quantity === "temperature" && allowed.includes(r.unit) && toStoredSI(r.quantity, r.value, r.unit) <= 0)
+        ctx.addIssue({ code: "custom", path: ["value"], message: "That is below absolute zero." });
+      if (r.t != null && durationS != null && r.t > durationS + 0.001)
+        ctx.addIssue({ code: "custom", path: ["t"], message: `The video is only ${formatTime(durationS)} long.` });
+    });
+}
+
+export type ReadingInput = z.infer<ReturnType<typeof readingInputSchema>>;
+export type MarkInput = z.infer<ReturnType<typeof markInputSchema>>;
+
+/** 83.5 → "1:23.5"; 3725 → "1:02:05.0". */
+export function formatTime(s: number | null | undefined): string {
+  if (s == null || !Number.isFinite(s)) return "–";
+  const neg = s < 0;
+  const a = Math.abs(s);
+  const h = Math.floor(a / 3600);
+  const m = Math.floor((a % 3600) / 60);
+  const sec = a % 60;
+  const ss = sec.toFixed(1).padStart(4, "0");
+  return `${neg ? "-" : ""}${h ? `${h}:${String(m).padStart(2, "0")}` : m}:${ss}`;
+}
+
+export function formatDuration(s: number | null | undefined): string {
+  if (s == null || !Number.isFinite(s)) return "–";
+  const a = Math.round(s);
+  const h = Math.floor(a / 3600);
+  const m = Math.floor((a % 3600) / 60);
+  const sec = a % 60;
+  return h ? `${h}:${String(m).padStart(2, "0")}:${String(sec).padStart(2, "0")}` : `${m}:${String(sec).padStart(2, "0")}`;
+}
+
+export function formatBytes(n: number): string {
+  if (n < 1024) return `${n} B`;
+  const units = ["kB", "MB", "GB", "TB"];
+  let v = n / 1024;
+  let i = 0;
+  while (v >= 1024 && i < units.length - 1) {
+    v /= 1024;
+    i++;
+  }
+  return `${v.toFixed(v < 10 ? 1 : 0)} ${units[i]}`;
+}
+
+/** An upload's file name must be a plain name: no path separators, no control characters. */
+export function fileNameProblem(name: string): string | null {
+  if (!name || !name.trim()) return "The file has no name.";
+  if (name.length > 255) return "The file name is longer than 255 characters.";
+  if (/[/\\]/.test(name)) return "The file name contains a path separator (/ or \\); rename the file and try again.";
+  // eslint-disable-next-line no-control-regex
+  if (/[\u0000-\u001f\u007f]/.test(name)) return "The file name contains control characters; rename the file and try again.";
+  if (name === "." || name === "..") return "That is not a file name.";
+  return null;
+}
+
+/** "Bench test 2 - moly.mov" → "Bench test 2 - moly" */
+export function titleFromFileName(name: string): string {
+  return name.replace(/\.[A-Za-z0-9]{1,5}$/, "").replace(/[_]+/g, " ").trim().slice(0, 200) || "Untitled recording";
+}

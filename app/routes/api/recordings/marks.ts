@@ -1,0 +1,19 @@
+import type { Route } from "./+types/marks";
+import { requirePermission } from "~/lib/auth.server";
+import { methodNotAllowed, readJson } from "~/lib/recordings/api.server";
+import { createMark, listMarks, recordingOr404 } from "~/lib/recordings/notes.server";
+
+/** GET lists a recording's marks by time; POST adds one ({ tStart, tEnd?, text, tags?, procedureId? }). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requirePermission(request, "shop:read");
+  await recordingOr404(request, params.id);
+  return Response.json({ marks: await listMarks(params.id) });
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requirePermission(request, "mark:create");
+  if (request.method !== "POST") return methodNotAllowed("GET, POST");
+  const body = await readJson(request);
+  if (!body.ok) return body.res;
+  return createMark(request, user, params.id, body.body);
+}

@@ -1,0 +1,46 @@
+import { stringify } from "csv-stringify/sync";
+import type { Route } from "./+types/readings";
+import { requirePermission } from "~/lib/auth.server";
+import { methodNotAllowed, readJson } from "~/lib/recordings/api.server";
+import { createReadings, listReadings, recordingOr404 } from "~/lib/recordings/notes.server";
+import { quantityDef } from "~/lib/recordings/rules";
+
+/**
+ * GET lists a recording's readings (JSON, or CSV with ?format=csv); POST adds one reading or
+ * `{ readings: [...] }` at once.
+ */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requirePermission(request, "shop:read");
+  const rec = await recordingOr404(request, params.id);
+  const rows = await listReadings(params.id);
+  if (new URL(request.url).searchParams.get("format") !== "csv") return Response.json({ readings: rows });
+  const csv = stringify(
+    rows.map((r) => ({
+      time_s: r.t ?? "",
+      quantity: quantityDef(r.quantity)?.label ?? r.quantity,
+      label: r.label,
+      value: r.valueEntered,
+      unit: r.unitEntered,
+      value_si: r.valueSi,
+      lube: r.conditions?.lube ?? "",
+      tool: r.conditions?.tool ?? "",
+      pass: r.conditions?.pass ?? "",
+      note: r.conditions?.note ?? "",
+      entered_by: r.authorName ?? "",
+      entered_at: new Date(r.createdAt).toISOString(),
+    })),
+    { header: true, columns: ["time_s", "quantity", "label", "value", "unit", "value_si", "lube", "tool", "pass", "note", "entered_by", "entered_at"] },
+  );
+  const name = `${rec.title.replace(/[^A-Za-z0-9 _-]+/g, "").trim().replace(/\s+/g, "-").slice(0, 60) || "recording"}-readings.csv`;
+  return new Response(csv, {
+    headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${name}"`, "Cache-Control": "private, no-store" },
+  });
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requirePermission(request, "reading:create");
+  if (request.method !== "POST") return methodNotAllowed("GET, POST");
+  const body = await readJson(request);
+  if (!body.ok) return body.res;
+  return createReadings(request, user, params.id, body.body);
+}

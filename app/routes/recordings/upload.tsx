@@ -1,0 +1,78 @@
+import { and, desc, eq, isNull } from "drizzle-orm";
+import { Link, useFetcher } from "react-router";
+import type { Route } from "./+types/upload";
+import { PageHeader } from "~/components/page";
+import { UploadQueue } from "~/components/recordings/UploadQueue";
+import { uploads } from "~/db/schema";
+import { requirePermission } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import { env } from "~/lib/env.server";
+import { redirectWithFlash } from "~/lib/flash.server";
+import { discardUpload, receivedBytes } from "~/lib/recordings/tus.server";
+import { formatBytes } from "~/lib/recordings/rules";
+
+export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Recordings · Benchreel" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requirePermission(request, "recording:upload");
+  const rows = await db()
+    .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, createdAt: uploads.createdAt })
+    .from(uploads)
+    .where(and(eq(uploads.userId, user.id), isNull(uploads.recordingId)))
+    .orderBy(desc(uploads.createdAt))
+    .limit(20);
+  const unfinished = await Promise.all(rows.map(async (r) => ({ ...r, received: await receivedBytes(r.id) })));
+  return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requirePermission(request, "recording:upload");
+  const form = await request.formData();
+  const id = String(form.get("uploadId") ?? "");
+  if (form.get("intent") !== "discard" || !id) return { error: "Unknown action." };
+  const [row] = await db().select().from(uploads).where(and(eq(uploads.id, id), isNull(uploads.recordingId)));
+  if (!row || (row.userId !== user.id && user.role !== "admin")) return { error: "That unfinished upload is gone or not yours." };
+  await discardUpload(id);
+  return redirectWithFlash("/recordings/upload", { kind: "ok", message: `Discarded the partial upload of ${row.fileName}.` });
+}
+
+const fmt = (d: Date | string) => new Date(d).toLocaleString("en-GB", { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
+
+export default function UploadPage({ loaderData }: Route.ComponentProps) {
+  const discard = useFetcher();
+  return (
+    <>
+      <PageHeader title="Upload videos" kicker="Recordings" actions={<Link to="/recordings" className="btn no-underline">Back to recordings</Link>} />
+      <div className="grid gap-6 lg:grid-cols-[1fr_18rem]">
+        <UploadQueue maxBytes={loaderData.maxBytes} />
+        <aside className="space-y-4">
+          <section className="card text-sm">
+            <h2 className="text-lg">After the upload</h2>
+            <p className="mt-2 text-graphite-soft">The shop server checks that the file really is a video, grabs a poster frame and, for HEVC or QuickTime files, makes a copy every browser can play. The original is kept for download.</p>
+          </section>
+          <section className="card text-sm" aria-labelledby="unfinished-h">
+            <h2 id="unfinished-h" className="text-lg">Unfinished uploads</h2>
+            {loaderData.unfinished.length === 0 ? (
+              <p className="mt-2 text-graphite-soft">None. An upload interrupted by a reload or a closed browser shows here until you finish or discard it.</p>
+            ) : (
+              <ul className="mt-2 space-y-3" data-testid="unfinished-uploads">
+                {loaderData.unfinished.map((u) => (
+                  <li key={u.id}>
+                    <p className="break-all font-semibold">{u.fileName}</p>
+                    <p className="num text-graphite-soft">{formatBytes(u.received)} of {formatBytes(u.size)} on the server · started {fmt(u.createdAt)}</p>
+                    <p className="text-graphite-soft">Choose the same file above to continue.</p>
+                    <discard.Form method="post" className="mt-1">
+                      <input type="hidden" name="intent" value="discard" />
+                      <input type="hidden" name="uploadId" value={u.id} />
+                      <button type="submit" className="btn btn-danger py-1 text-xs">Discard</button>
+                    </discard.Form>
+                  </li>
+                ))}
+              </ul>
+            )}
+          </section>
+        </aside>
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,414 @@
+// Recordings: tus uploads from Node against the running app (chunks, abort, resume, sha256),
+// permissions on every tus request, size / name / content refusals, the processing job with
+// ffprobe/ffmpeg, media with Range, and the marks and readings JSON APIs.
+import { execFileSync } from "node:child_process";
+import { createHash } from "node:crypto";
+import fs from "node:fs";
+import path from "node:path";
+import * as tus from "tus-js-client";
+import { beforeAll, describe, expect, it } from "vitest";
+import { BASE_URL, createUser, http, waitFor, type TestUser } from "../support/app";
+
+const runDir = process.env.BENCHREEL_RUN_DIR ?? fs.mkdtempSync("/tmp/br-rec-");
+const work = path.join(runDir, "recordings-test");
+fs.mkdirSync(work, { recursive: true });
+
+function ffmpeg(args: string[]) {
+  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args]);
+}
+const sha = (b: Buffer) => createHash("sha256").update(b).digest("hex");
+
+type UploadResult = { url: string; recordingId: string | null };
+
+/** One tus upload from Node; resolves when done. */
+function upload(
+  data: Buffer,
+  user: TestUser,
+  opts: { name: string; title?: string; chunkSize?: number; fingerprint?: string; storage?: tus.UrlStorage; onProgress?: (sent: number, u: tus.Upload) => void; tags?: string } = { name: "clip.mp4" },
+): { promise: Promise<UploadResult>; upload: tus.Upload } {
+  let recordingId: string | null = null;
+  let resolve!: (v: UploadResult) => void;
+  let reject!: (e: unknown) => void;
+  const promise = new Promise<UploadResult>((res, rej) => {
+    resolve = res;
+    reject = rej;
+  });
+  const u: tus.Upload = new tus.Upload(data, {
+    endpoint: `${BASE_URL}/api/uploads`,
+    chunkSize: opts.chunkSize ?? 512 * 1024,
+    retryDelays: [],
+    headers: { Origin: BASE_URL, Cookie: user.cookie },
+    metadata: { filename: opts.name, filetype: "video/mp4", title: opts.title ?? opts.name, tags: opts.tags ?? "" },
+    fingerprint: opts.fingerprint ? async () => opts.fingerprint! : undefined,
+    urlStorage: opts.storage,
+    storeFingerprintForResuming: Boolean(opts.storage),
+    removeFingerprintOnSuccess: true,
+    onProgress: (sent) => opts.onProgress?.(sent, u),
+    onAfterResponse: (_req, res) => {
+      recordingId = res.getHeader("Benchreel-Recording") ?? recordingId;
+    },
+    onSuccess: () => resolve({ url: u.url!, recordingId }),
+    onError: reject,
+  });
+  return { promise, upload: u };
+}
+
+async function waitState(id: string, cookie: string, timeoutMs = 45_000) {
+  return waitFor(async () => {
+    const res = await http(`/api/recordings/${id}`, { cookie });
+    const { recording } = (await res.json()) as { recording: Record<string, unknown> & { state: string } };
+    return recording.state !== "processing" ? recording : null;
+  }, timeoutMs, 300);
+}
+
+let builder: TestUser;
+let builder2: TestUser;
+let editor: TestUser;
+let apprentice: TestUser;
+let clip: Buffer;
+let readyId: string;
+
+beforeAll(async () => {
+  [builder, builder2, editor, apprentice] = await Promise.all([createUser("builder"), createUser("builder"), createUser("editor"), createUser("apprentice")]);
+  const clipPath = path.join(work, "clip.mp4");
+  ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=10:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", clipPath]);
+  clip = fs.readFileSync(clipPath);
+});
+
+describe("tus upload", () => {
+  it("uploads in chunks, survives an abort half-way, resumes from the stored URL, and keeps the bytes identical", async () => {
+    const bigPath = path.join(work, "big.mp4");
+    ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=1:size=480x270:rate=25", "-vf", "noise=alls=80:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", bigPath]);
+    const big = fs.readFileSync(bigPath);
+    expect(big.length).toBeGreaterThan(2 * 1024 * 1024);
+    const storage = new tus.FileUrlStorage(path.join(work, `tus-urls-${Date.now()}.json`));
+    const fingerprint = `big-${sha(big)}`;
+
+    // First attempt: abort once half the bytes are out.
+    const first = upload(big, builder, {
+      name: "big.mp4",
+      chunkSize: 256 * 1024,
+      fingerprint,
+      storage,
+      onProgress: (sent, u) => {
+        if (sent >= big.length / 2) void u.abort();
+      },
+    });
+    await waitFor(async () => first.upload.url && (await storage.findUploadsByFingerprint(fingerprint)).length > 0);
+    await waitFor(async () => {
+      const res = await http(first.upload.url!.replace(BASE_URL, ""), { cookie: builder.cookie });
+      const body = (await res.json()) as { upload: { received: number } };
+      return body.upload.received >= big.length / 2 - 256 * 1024 ? body.upload : null;
+    });
+    const uploadId = path.basename(first.upload.url!);
+    const half = ((await (await http(`/api/uploads/${uploadId}`, { cookie: builder.cookie })).json()) as { upload: { received: number } }).upload.received;
+    expect(half).toBeGreaterThan(0);
+    expect(half).toBeLessThan(big.length);
+
+    // The builder's unfinished uploads list it.
+    const list = (await (await http("/api/uploads", { cookie: builder.cookie })).json()) as { unfinished: { id: string }[] };
+    expect(list.unfinished.map((u) => u.id)).toContain(uploadId);
+
+    // Second attempt: a new client finds the stored URL and continues from the server's offset.
+    const offsets: string[] = [];
+    const second = upload(big, builder, { name: "big.mp4", chunkSize: 1024 * 1024, fingerprint, storage });
+    second.upload.options.onBeforeRequest = (req) => {
+      if (req.getMethod() === "PATCH") offsets.push(req.getHeader("Upload-Offset") ?? "");
+    };
+    const previous = await second.upload.findPreviousUploads();
+    expect(previous).toHaveLength(1);
+    second.upload.resumeFromPreviousUpload(previous[0]);
+    second.upload.start();
+    const done = await second.promise;
+    expect(path.basename(done.url)).toBe(uploadId);
+    expect(Number(offsets[0])).toBeGreaterThanOrEqual(half);
+    expect(done.recordingId).toBeTruthy();
+
+    const rec = await waitState(done.recordingId!, builder.cookie);
+    expect(rec.state).toBe("ready");
+    const original = await http(`/api/recordings/${done.recordingId}/original`, { cookie: builder.cookie });
+    expect(original.status).toBe(200);
+    expect(original.headers.get("content-disposition")).toContain("big.mp4");
+    expect(sha(Buffer.from(await original.arrayBuffer()))).toBe(sha(big));
+  });
+
+  it("refuses an apprentice, a signed-out caller, and someone else continuing an upload", async () => {
+    const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "10", "Upload-Metadata": `filename ${Buffer.from("x.mp4").toString("base64")}` };
+    const anon = await http("/api/uploads", { method: "POST", headers: tusHeaders });
+    expect(anon.status).toBe(401);
+    const appr = await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: apprentice.cookie });
+    expect(appr.status).toBe(403);
+    expect(((await appr.json()) as { error: string }).error).toBe("forbidden");
+
+    const created = await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie });
+    expect(created.status).toBe(201);
+    const location = created.headers.get("location")!;
+    const id = path.basename(location);
+    const head = (cookie: string) => http(`/api/uploads/${id}`, { method: "HEAD", headers: { "Tus-Resumable": "1.0.0" }, cookie });
+    expect((await head(builder.cookie)).status).toBe(200);
+    expect((await head(builder2.cookie)).status).toBe(403);
+    expect((await head(apprentice.cookie)).status).toBe(403);
+    const patch = await http(`/api/uploads/${id}`, {
+      method: "PATCH",
+      headers: { "Tus-Resumable": "1.0.0", "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" },
+      body: "0123456789",
+      cookie: builder2.cookie,
+    });
+    expect(patch.status).toBe(403);
+    // Cancel: the owner terminates it and it is gone.
+    const del = await http(`/api/uploads/${id}`, { method: "DELETE", headers: { "Tus-Resumable": "1.0.0" }, cookie: builder.cookie });
+    expect(del.status).toBe(204);
+    expect((await http(`/api/uploads/${id}`, { cookie: builder.cookie })).status).toBe(404);
+  });
+
+  it("refuses a file over the size limit before a byte is sent, an empty file, and bad file names", async () => {
+    const post = (length: string, name: string) =>
+      http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { "Tus-Resumable": "1.0.0", "Upload-Length": length, "Upload-Metadata": `filename ${Buffer.from(name).toString("base64")}` } });
+    const huge = await post(String(21 * 1024 ** 3), "whole-day.mov");
+    expect(huge.status).toBe(413);
+    expect(await huge.text()).toMatch(/larger than the shop's limit of 20\.0 GB/);
+    const empty = await post("0", "empty.mp4");
+    expect(empty.status).toBe(400);
+    expect(await empty.text()).toMatch(/empty/);
+    const traversal = await post("100", "../../etc/passwd.mp4");
+    expect(traversal.status).toBe(400);
+    expect(await traversal.text()).toMatch(/path separator/);
+    const control = await post("100", "clip\u0007.mp4");
+    expect(control.status).toBe(400);
+    expect(await control.text()).toMatch(/control characters/);
+  });
+});
+
+describe("processing", () => {
+  it("probes a small video, grabs a poster and marks it ready", async () => {
+    const { promise, upload: u } = upload(clip, builder, { name: "stud test 4.mp4", title: "Stud 4 clamp-load test", tags: "head studs, Clamp load" });
+    u.start();
+    const done = await promise;
+    readyId = done.recordingId!;
+    const rec = await waitState(readyId, builder.cookie);
+    expect(rec).toMatchObject({ state: "ready", width: 320, height: 240, videoCodec: "h264", hasPoster: true, hasRendition: false, title: "Stud 4 clamp-load test" });
+    expect(rec.durationS as number).toBeCloseTo(10, 0);
+    expect(rec.frameRate as number).toBeCloseTo(25, 3);
+    const poster = await http(`/api/recordings/${readyId}/poster`, { cookie: apprentice.cookie });
+    expect(poster.status).toBe(200);
+    expect(poster.headers.get("content-type")).toBe("image/jpeg");
+    const jpeg = Buffer.from(await poster.arrayBuffer());
+    expect(jpeg.subarray(0, 2).toString("hex")).toBe("ffd8");
+    // It is in the library with its tags (lower-cased) and uploader filter.
+    const lib = (await (await http(`/api/recordings?uploader=${builder.id}&tag=clamp%20load`, { cookie: apprentice.cookie })).json()) as { recordings: { id: string }[] };
+    expect(lib.recordings.map((r) => r.id)).toContain(readyId);
+  });
+
+  it("makes a browser-safe H.264 MP4 rendition of an HEVC QuickTime file and keeps the original", async () => {
+    const movPath = path.join(work, "hevc.mov");
+    ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=2:size=320x240:rate=25", "-c:v", "libx265", "-preset", "ultrafast", "-x265-params", "log-level=error", "-tag:v", "hvc1", "-pix_fmt", "yuv420p", movPath]);
+    const mov = fs.readFileSync(movPath);
+    const { promise, upload: u } = upload(mov, builder, { name: "IMG_2231.MOV" });
+    u.start();
+    const rec = await waitState((await promise).recordingId!, builder.cookie, 60_000);
+    expect(rec).toMatchObject({ state: "ready", videoCodec: "hevc", hasRendition: true });
+    const media = await http(`/api/recordings/${rec.id}/media`, { cookie: builder.cookie });
+    const bytes = Buffer.from(await media.arrayBuffer());
+    const out = path.join(work, "rendition.mp4");
+    fs.writeFileSync(out, bytes);
+    const probe = JSON.parse(execFileSync("/usr/bin/ffprobe", ["-v", "error", "-print_format", "json", "-show_streams", "-show_format", out]).toString());
+    expect(probe.streams[0].codec_name).toBe("h264");
+    expect(probe.format.format_name).toContain("mp4");
+    // moov before mdat (faststart)
+    expect(bytes.indexOf("moov")).toBeLessThan(bytes.indexOf("mdat"));
+    const original = await http(`/api/recordings/${rec.id}/original`, { cookie: builder.cookie });
+    expect(sha(Buffer.from(await original.arrayBuffer()))).toBe(sha(mov));
+  });
+
+  it("rejects a renamed text file by its content and removes its bytes", async () => {
+    const text = Buffer.from("Torque sequence notes\nstud 1: 110 N.m\nstud 2: 110 N.m\n".repeat(200));
+    const { promise, upload: u } = upload(text, builder, { name: "notes.mp4" });
+    u.start();
+    const rec = await waitState((await promise).recordingId!, builder.cookie);
+    expect(rec.state).toBe("rejected");
+    expect(rec.stateReason).toMatch(/not a video/);
+    expect((await http(`/api/recordings/${rec.id}/original`, { cookie: builder.cookie })).status).toBe(404);
+    expect((await http(`/api/recordings/${rec.id}/media`, { cookie: builder.cookie })).status).toBe(409);
+  });
+
+  it("rejects a truncated video (its index never arrived)", async () => {
+    const p = path.join(work, "no-faststart.mp4");
+    ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=4:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", p]);
+    const whole = fs.readFileSync(p);
+    const { promise, upload: u } = upload(whole.subarray(0, Math.floor(whole.length / 2)), builder, { name: "cut-off.mp4" });
+    u.start();
+    const rec = await waitState((await promise).recordingId!, builder.cookie);
+    expect(rec.state).toBe("rejected");
+    expect(rec.stateReason).toMatch(/truncated/);
+  });
+});
+
+describe("media with Range", () => {
+  const url = () => `/api/recordings/${readyId}/media`;
+  it("answers first bytes, a middle slice and a suffix with 206 and the right bytes", async () => {
+    const full = await http(url(), { cookie: apprentice.cookie });
+    expect(full.status).toBe(200);
+    expect(full.headers.get("accept-ranges")).toBe("bytes");
+    expect(full.headers.get("content-type")).toBe("video/mp4");
+    expect(full.headers.get("cache-control")).toMatch(/^private/);
+    const etag = full.headers.get("etag");
+    expect(etag).toMatch(/^"[0-9a-f]+-[0-9a-f]+"$/);
+    const body = Buffer.from(await full.arrayBuffer());
+    expect(sha(body)).toBe(sha(clip));
+    const size = clip.length;
+
+    const first = await http(url(), { cookie: apprentice.cookie, headers: { Range: "bytes=0-99" } });
+    expect(first.status).toBe(206);
+    expect(first.headers.get("content-range")).toBe(`bytes 0-99/${size}`);
+    expect(first.headers.get("content-length")).toBe("100");
+    expect(Buffer.from(await first.arrayBuffer()).equals(clip.subarray(0, 100))).toBe(true);
+
+    const mid = Math.floor(size / 2);
+    const middle = await http(url(), { cookie: apprentice.cookie, headers: { Range: `bytes=${mid}-${mid + 4095}` } });
+    expect(middle.status).toBe(206);
+    expect(Buffer.from(await middle.arrayBuffer()).equals(clip.subarray(mid, mid + 4096))).toBe(true);
+
+    const suffix = await http(url(), { cookie: apprentice.cookie, headers: { Range: "bytes=-500" } });
+    expect(suffix.status).toBe(206);
+    expect(suffix.headers.get("content-range")).toBe(`bytes ${size - 500}-${size - 1}/${size}`);
+    expect(Buffer.from(await suffix.arrayBuffer()).equals(clip.subarray(size - 500))).toBe(true);
+
+    const open = await http(url(), { cookie: apprentice.cookie, headers: { Range: `bytes=${size - 10}-` } });
+    expect(open.status).toBe(206);
+    expect((await open.arrayBuffer()).byteLength).toBe(10);
+
+    const bad = await http(url(), { cookie: apprentice.cookie, headers: { Range: `bytes=${size}-${size + 10}` } });
+    expect(bad.status).toBe(416);
+    expect(bad.headers.get("content-range")).toBe(`bytes */${size}`);
+    await bad.body?.cancel();
+    const garbage = await http(url(), { cookie: apprentice.cookie, headers: { Range: "bytes=abc" } });
+    expect(garbage.status).toBe(416);
+    await garbage.body?.cancel();
+
+    const stale = await http(url(), { cookie: apprentice.cookie, headers: { Range: "bytes=0-9", "If-Range": '"not-the-etag"' } });
+    expect(stale.status).toBe(200);
+    await stale.body?.cancel();
+    const cached = await http(url(), { cookie: apprentice.cookie, headers: { "If-None-Match": etag! } });
+    expect(cached.status).toBe(304);
+  });
+
+  it("checks the session on every request", async () => {
+    const res = await http(url(), { headers: { Range: "bytes=0-99" } });
+    expect(res.status).toBe(401);
+    expect((await http(`/api/recordings/${readyId}/original`, { cookie: apprentice.cookie })).status).toBe(403);
+  });
+});
+
+describe("marks API", () => {
+  const marksUrl = () => `/api/recordings/${readyId}/marks`;
+  const issues = async (res: Response) => ((await res.json()) as { issues: { path: string; message: string }[] }).issues;
+
+  it("adds point and span marks, lists them by time, and refuses bad times with field messages", async () => {
+    const a = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 7.5, text: "Final pass on stud 4", tags: ["Torque"] } });
+    expect(a.status).toBe(201);
+    const b = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 2, tEnd: 4.5, text: "Lube applied" } });
+    expect(b.status).toBe(201);
+    const list = (await (await http(marksUrl(), { cookie: apprentice.cookie })).json()) as { marks: { tStart: number; tEnd: number | null; tags: string[] }[] };
+    const mine = list.marks.filter((m) => [7.5, 2].includes(m.tStart));
+    expect(mine.map((m) => m.tStart)).toEqual([2, 7.5]);
+    expect(mine[1].tags).toEqual(["torque"]);
+
+    const negative = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: -1, text: "x" } });
+    expect(negative.status).toBe(422);
+    expect(await issues(negative)).toEqual([{ path: "tStart", message: "A mark cannot be before the start of the video." }]);
+    const beyond = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 60, text: "x" } });
+    expect(beyond.status).toBe(422);
+    expect((await issues(beyond))[0]).toMatchObject({ path: "tStart", message: expect.stringMatching(/only 0:10\.0 long/) });
+    const backwards = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 5, tEnd: 3, text: "x" } });
+    expect((await issues(backwards))[0].path).toBe("tEnd");
+    const noText = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 1, text: "  " } });
+    expect((await issues(noText))[0]).toEqual({ path: "text", message: "Write what happens at this moment." });
+    const badProc = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 1, text: "x", procedureId: "00000000-0000-4000-8000-0000000000aa" } });
+    expect((await issues(badProc))[0].path).toBe("procedureId");
+    const notJson = await http(marksUrl(), { method: "POST", cookie: builder.cookie, headers: { "content-type": "application/json" }, body: "{nope" });
+    expect(notJson.status).toBe(422);
+  });
+
+  it("lets only the author (or an editor) change or delete a mark; apprentices add none", async () => {
+    const res = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 3, text: "Wrench clicks" } });
+    const { mark } = (await res.json()) as { mark: { id: string } };
+    const one = `${marksUrl()}/${mark.id}`;
+    expect((await http(marksUrl(), { cookie: apprentice.cookie, json: { tStart: 1, text: "x" } })).status).toBe(403);
+    expect((await http(one, { method: "PATCH", cookie: builder2.cookie, json: { text: "mine now" } })).status).toBe(403);
+    expect((await http(one, { method: "DELETE", cookie: builder2.cookie })).status).toBe(403);
+    expect((await http(one, { method: "DELETE", cookie: apprentice.cookie })).status).toBe(403);
+    const own = await http(one, { method: "PATCH", cookie: builder.cookie, json: { text: "Wrench clicks at 110 N·m", tEnd: 3.8 } });
+    expect(own.status).toBe(200);
+    expect(((await own.json()) as { mark: { text: string; tEnd: number } }).mark).toMatchObject({ text: "Wrench clicks at 110 N·m", tEnd: 3.8 });
+    const bad = await http(one, { method: "PATCH", cookie: builder.cookie, json: { tEnd: 1 } });
+    expect(bad.status).toBe(422);
+    expect((await http(one, { method: "PATCH", cookie: editor.cookie, json: { tags: ["checked"] } })).status).toBe(200);
+    expect((await http(one, { method: "DELETE", cookie: builder.cookie })).status).toBe(204);
+    expect((await http(one, { cookie: builder.cookie })).status).toBe(404);
+  });
+});
+
+describe("readings API", () => {
+  const url = () => `/api/recordings/${readyId}/readings`;
+  const issues = async (res: Response) => ((await res.json()) as { issues: { path: string; message: string }[] }).issues;
+
+  it("stores SI with the unit entered, refuses a unit that does not fit, and saves a batch all or nothing", async () => {
+    const one = await http(url(), { cookie: builder.cookie, json: { quantity: "torque", value: 81, unit: "ft.lbf", label: "stud 4", conditions: { pass: 3, lube: "moly" }, t: 7.5 } });
+    expect(one.status).toBe(201);
+    const { reading } = (await one.json()) as { reading: { valueSi: number; valueEntered: number; unitEntered: string; conditions: Record<string, string> } };
+    expect(reading.valueSi).toBeCloseTo(81 * 1.3558179483314004, 9);
+    expect(reading).toMatchObject({ valueEntered: 81, unitEntered: "ft.lbf", conditions: { pass: "3", lube: "moly" } });
+
+    const wrongUnit = await http(url(), { cookie: builder.cookie, json: { quantity: "torque", value: 110, unit: "mm" } });
+    expect(wrongUnit.status).toBe(422);
+    expect((await issues(wrongUnit))[0]).toEqual({ path: "unit", message: "mm is not a unit of torque; use N·m, ft·lbf, in·lbf." });
+    const leak = await http(url(), { cookie: builder.cookie, json: { quantity: "leak-down", value: 140, unit: "%" } });
+    expect((await issues(leak))[0].path).toBe("value");
+    const late = await http(url(), { cookie: builder.cookie, json: { quantity: "clamp-load", value: 51, unit: "kN", t: 99 } });
+    expect((await issues(late))[0].path).toBe("t");
+
+    const before = ((await (await http(url(), { cookie: builder.cookie })).json()) as { readings: unknown[] }).readings.length;
+    const batchBad = await http(url(), {
+      cookie: builder.cookie,
+      json: { readings: [{ quantity: "clamp-load", value: 51, unit: "kN", label: "stud 4", conditions: { pass: "3" } }, { quantity: "bore-diameter", value: "88.01", unit: "mm" }] },
+    });
+    expect(batchBad.status).toBe(422);
+    expect((await issues(batchBad))[0].path).toBe("readings.1.value");
+    const after = ((await (await http(url(), { cookie: builder.cookie })).json()) as { readings: unknown[] }).readings.length;
+    expect(after).toBe(before);
+
+    const batch = await http(url(), {
+      cookie: builder.cookie,
+      json: { readings: [{ quantity: "clamp-load", value: 51, unit: "kN", label: "stud 4", conditions: { pass: "3" }, t: 7.9 }, { quantity: "bore-diameter", value: 88.012, unit: "mm", label: "cyl 2, 20 mm down, 90°" }, { quantity: "leak-down", value: 6, unit: "%" }] },
+    });
+    expect(batch.status).toBe(201);
+    const rows = ((await batch.json()) as { readings: { valueSi: number }[] }).readings;
+    expect(rows.map((r) => r.valueSi)).toEqual([51000, expect.closeTo(0.088012, 12), 0.06]);
+  });
+
+  it("exports CSV, and lets only the author or an editor change a reading", async () => {
+    const csv = await http(`${url()}?format=csv`, { cookie: apprentice.cookie });
+    expect(csv.status).toBe(200);
+    expect(csv.headers.get("content-type")).toMatch(/^text\/csv/);
+    expect(csv.headers.get("content-disposition")).toMatch(/attachment; filename="Stud-4-clamp-load-test-readings\.csv"/);
+    const text = await csv.text();
+    const lines = text.trim().split("\n");
+    expect(lines[0]).toBe("time_s,quantity,label,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
+    expect(text).toContain('"cyl 2, 20 mm down, 90°"');
+    expect(text).toMatch(/7\.5,Torque,stud 4,81,ft\.lbf,/);
+
+    const { readings } = (await (await http(url(), { cookie: builder.cookie })).json()) as { readings: { id: string; quantity: string }[] };
+    const torque = readings.find((r) => r.quantity === "torque")!;
+    const one = `${url()}/${torque.id}`;
+    expect((await http(url(), { cookie: apprentice.cookie, json: { quantity: "torque", value: 1, unit: "N.m" } })).status).toBe(403);
+    expect((await http(one, { method: "PATCH", cookie: builder2.cookie, json: { value: 1 } })).status).toBe(403);
+    const unitChange = await http(one, { method: "PATCH", cookie: builder.cookie, json: { unit: "kN" } });
+    expect(unitChange.status).toBe(422);
+    expect((await issues(unitChange))[0].path).toBe("unit");
+    const ok = await http(one, { method: "PATCH", cookie: editor.cookie, json: { value: 110, unit: "N.m" } });
+    expect(ok.status).toBe(200);
+    expect(((await ok.json()) as { reading: { valueSi: number; label: string } }).reading).toMatchObject({ valueSi: 110, label: "stud 4" });
+    expect((await http(one, { method: "DELETE", cookie: builder2.cookie })).status).toBe(403);
+    expect((await http(one, { method: "DELETE", cookie: builder.cookie })).status).toBe(204);
+  });
+});
