@@ -1,0 +1,492 @@
+/**
+ * Contract suite: every endpoint the app uses, exercised through the real `meilisearch` SDK.
+ * It always runs against the fake (on a random loopback port) and, when MEILI_HOST is set
+ * (with MEILI_API_KEY if that server needs a key), also against that real Meilisearch, so
+ * that the fake is held to the same shapes. It asserts only what a real server satisfies.
+ */
+import { Meilisearch, MeilisearchApiError, type Index } from "meilisearch";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { startMeiliFake } from "./server";
+
+type Doc = { id: string; kind: string; title: string; body: string; tags: string[]; state: string; year: number; hours: number };
+
+// invented shop data
+const DOCS: Doc[] = [
+  {
+    id: "p1",
+    kind: "procedure",
+    title: "Piston to wall clearance for forged 4032 pistons",
+    body: "Measure piston-to-wall 0.0030–0.0035 in below the oil ring, bore gauge zeroed at 20 °C.",
+    tags: ["pistons", "bore"],
+    state: "published",
+    year: 2021,
+    hours: 1.5,
+  },
+  {
+    id: "p2",
+    kind: "procedure",
+    title: "Head stud installation",
+    body: "Lubricate the threads with moly paste, then torque the M12x1.5 studs to 110 N·m in three even steps, centre out.",
+    tags: ["head", "studs"],
+    state: "draft",
+    year: 2023,
+    hours: 2,
+  },
+  { id: "m1", kind: "mark", title: "Ring gap check", body: "Top ring gap measured at 0.018 in on cylinder 3.", tags: ["rings"], state: "published", year: 2022, hours: 0.25 },
+  { id: "m2", kind: "mark", title: "PTW re-check after honing", body: "Clearance grew by a tenth after the final hone.", tags: ["pistons"], state: "published", year: 2024, hours: 0.5 },
+  { id: "r1", kind: "reading", title: "Bore diameter", body: "Cylinder 2 bore 4.0005 in, taper within limits.", tags: ["bore"], state: "published", year: 2020, hours: 0.1 },
+  ...Array.from({ length: 30 }, (_, i) => ({
+    id: `f${i}`,
+    kind: "mark",
+    title: `Valve train audit ${i}`,
+    body: `Audit entry ${i}: rocker torque sheet signed.`,
+    tags: ["audit"],
+    state: "published",
+    year: 1990 + i,
+    hours: i,
+  })),
+];
+
+async function apiError(p: Promise<unknown>): Promise<{ status: number; body: { message: string; code: string; type: string; link: string } }> {
+  try {
+    await p;
+  } catch (e) {
+    expect(e).toBeInstanceOf(MeilisearchApiError);
+    const err = e as MeilisearchApiError;
+    const body = err.cause as { message: string; code: string; type: string; link: string };
+    expect(body).toEqual({ message: expect.any(String), code: expect.any(String), type: expect.any(String), link: expect.any(String) });
+    return { status: err.response.status, body };
+  }
+  throw new Error("expected the request to fail");
+}
+
+type Target = { name: string; connect(): Promise<{ client: Meilisearch; stop(): Promise<void> }> };
+
+const targets: Target[] = [
+  {
+    name: "the fake",
+    async connect() {
+      const fake = await startMeiliFake({ port: 0 });
+      return { client: new Meilisearch({ host: fake.url }), stop: () => fake.close() };
+    },
+  },
+];
+if (process.env.MEILI_HOST) {
+  targets.push({
+    name: `real Meilisearch at ${process.env.MEILI_HOST}`,
+    async connect() {
+      return { client: new Meilisearch({ host: process.env.MEILI_HOST!, apiKey: process.env.MEILI_API_KEY }), stop: async () => {} };
+    },
+  });
+} else {
+  describe.skip("contract against a real Meilisearch: skipped, set MEILI_HOST (and MEILI_API_KEY) to run it", () => {
+    it("runs only when MEILI_HOST is set", () => {});
+  });
+}
+
+for (const target of targets) {
+  describe(`Meilisearch contract against ${target.name}`, () => {
+    let client: Meilisearch;
+    let stop: () => Promise<void>;
+    const run = `c${Date.now().toString(36)}${Math.floor(Math.random() * 1e6).toString(36)}`;
+    const uid = `${run}_items`;
+    let index: Index<Doc>;
+
+    beforeAll(async () => {
+      ({ client, stop } = await target.connect());
+      console.info(`[meili contract] running against ${target.name} (indexes prefixed ${run}_)`);
+      index = client.index<Doc>(uid);
+      const created = await client.createIndex(uid, { primaryKey: "id" }).waitTask();
+      expect(created.status).toBe("succeeded");
+      const settings = await index
+        .updateSettings({
+          searchableAttributes: ["title", "tags", "body"],
+          filterableAttributes: ["kind", "tags", "state", "year"],
+          sortableAttributes: ["year", "title"],
+          synonyms: { ptw: ["piston to wall"], "piston to wall": ["ptw"] },
+        })
+        .waitTask();
+      expect(settings.status).toBe("succeeded");
+      const added = await index.addDocuments(DOCS).waitTask();
+      expect(added.status).toBe("succeeded");
+    });
+
+    afterAll(async () => {
+      const { results } = await client.getRawIndexes({ limit: 1000 });
+      for (const i of results.filter((r) => r.uid.startsWith(`${run}_`))) await client.deleteIndex(i.uid).waitTask();
+      await stop();
+    });
+
+    describe("health and version", () => {
+      it("GET /health and /version", async () => {
+        expect(await client.health()).toEqual({ status: "available" });
+        expect(await client.isHealthy()).toBe(true);
+        const v = await client.getVersion();
+        expect(v).toEqual(expect.objectContaining({ commitSha: expect.any(String), commitDate: expect.any(String), pkgVersion: expect.any(String) }));
+      });
+    });
+
+    describe("indexes", () => {
+      it("creates, gets, lists, updates and deletes an index through tasks", async () => {
+        const name = `${run}_tmp`;
+        const enqueued = await client.createIndex(name);
+        expect(enqueued).toEqual({ taskUid: expect.any(Number), indexUid: name, status: "enqueued", type: "indexCreation", enqueuedAt: expect.any(String) });
+        const task = await client.tasks.waitForTask(enqueued.taskUid);
+        expect(task).toEqual(
+          expect.objectContaining({
+            uid: enqueued.taskUid,
+            indexUid: name,
+            status: "succeeded",
+            type: "indexCreation",
+            canceledBy: null,
+            error: null,
+            duration: expect.stringMatching(/^PT\d+(\.\d+)?S$/),
+            enqueuedAt: expect.any(String),
+            startedAt: expect.any(String),
+            finishedAt: expect.any(String),
+          }),
+        );
+        expect(task.details).toEqual(expect.objectContaining({ primaryKey: null }));
+
+        const raw = await client.getRawIndex(name);
+        expect(raw).toEqual(expect.objectContaining({ uid: name, primaryKey: null, createdAt: expect.any(String), updatedAt: expect.any(String) }));
+        const fetched = await client.getIndex(name);
+        expect(fetched.uid).toBe(name);
+
+        const list = await client.getRawIndexes({ limit: 1000 });
+        expect(list).toEqual(expect.objectContaining({ offset: 0, limit: 1000, total: expect.any(Number) }));
+        expect(list.results.map((r) => r.uid)).toEqual(expect.arrayContaining([name, uid]));
+
+        const upd = await client.updateIndex(name, { primaryKey: "ref" }).waitTask();
+        expect(upd.status).toBe("succeeded");
+        expect((await client.getRawIndex(name)).primaryKey).toBe("ref");
+
+        const dup = await client.createIndex(name).waitTask();
+        expect(dup.status).toBe("failed");
+        expect(dup.error).toEqual({ message: expect.any(String), code: "index_already_exists", type: "invalid_request", link: expect.any(String) });
+
+        const del = await client.deleteIndex(name).waitTask();
+        expect(del).toEqual(expect.objectContaining({ status: "succeeded", type: "indexDeletion" }));
+        const missing = await apiError(client.getIndex(name));
+        expect(missing.status).toBe(404);
+        expect(missing.body.code).toBe("index_not_found");
+
+        const again = await client.deleteIndex(name).waitTask();
+        expect(again.status).toBe("failed");
+        expect(again.error?.code).toBe("index_not_found");
+      });
+
+      it("answers 400 invalid_index_uid for a bad uid", async () => {
+        const r = await apiError(client.createIndex("not a valid uid!"));
+        expect(r.status).toBe(400);
+        expect(r.body.code).toBe("invalid_index_uid");
+      });
+    });
+
+    describe("settings", () => {
+      it("GET /settings reflects PATCH, with the default ranking rules", async () => {
+        const s = await index.getSettings();
+        expect(s).toEqual(
+          expect.objectContaining({
+            searchableAttributes: ["title", "tags", "body"],
+            sortableAttributes: expect.arrayContaining(["year", "title"]),
+            displayedAttributes: ["*"],
+            rankingRules: ["words", "typo", "proximity", "attribute", "sort", "exactness"],
+            synonyms: { ptw: ["piston to wall"], "piston to wall": ["ptw"] },
+            stopWords: [],
+            distinctAttribute: null,
+          }),
+        );
+        expect([...(s.filterableAttributes as string[])].sort()).toEqual(["kind", "state", "tags", "year"]);
+        expect(s.typoTolerance).toEqual(expect.objectContaining({ enabled: true, minWordSizeForTypos: { oneTypo: 5, twoTypos: 9 } }));
+        expect(s.pagination).toEqual({ maxTotalHits: 1000 });
+      });
+
+      it("sub-routes: get, update and reset single settings", async () => {
+        const name = `${run}_settings`;
+        const idx = client.index(name);
+        const t = await idx.updateSearchableAttributes(["title"]).waitTask();
+        expect(t).toEqual(expect.objectContaining({ status: "succeeded", type: "settingsUpdate", indexUid: name }));
+        expect(t.details).toEqual(expect.objectContaining({ searchableAttributes: ["title"] }));
+        expect(await idx.getSearchableAttributes()).toEqual(["title"]);
+        await idx.updateFilterableAttributes(["kind"]).waitTask();
+        expect(await idx.getFilterableAttributes()).toEqual(["kind"]);
+        await idx.updateSortableAttributes(["year"]).waitTask();
+        expect(await idx.getSortableAttributes()).toEqual(["year"]);
+        await idx.updateDisplayedAttributes(["title", "kind"]).waitTask();
+        expect(await idx.getDisplayedAttributes()).toEqual(["title", "kind"]);
+        await idx.updateSynonyms({ moly: ["molybdenum disulfide"] }).waitTask();
+        expect(await idx.getSynonyms()).toEqual({ moly: ["molybdenum disulfide"] });
+        await idx.updateRankingRules(["words", "typo", "sort", "attribute", "proximity", "exactness", "year:desc"]).waitTask();
+        expect(await idx.getRankingRules()).toEqual(["words", "typo", "sort", "attribute", "proximity", "exactness", "year:desc"]);
+        await idx.updateTypoTolerance({ disableOnNumbers: true }).waitTask();
+        expect((await idx.getTypoTolerance())?.disableOnNumbers).toBe(true);
+        await idx.resetSynonyms().waitTask();
+        expect(await idx.getSynonyms()).toEqual({});
+        await idx.resetRankingRules().waitTask();
+        expect(await idx.getRankingRules()).toEqual(["words", "typo", "proximity", "attribute", "sort", "exactness"]);
+        await idx.resetSettings().waitTask();
+        const s = await idx.getSettings();
+        expect(s.searchableAttributes).toEqual(["*"]);
+        expect(s.filterableAttributes).toEqual([]);
+        expect(s.displayedAttributes).toEqual(["*"]);
+      });
+
+      it("rejects an invalid settings payload with 400", async () => {
+        const r = await apiError(index.updateSettings({ filterableAttributes: "kind" as unknown as string[] }));
+        expect(r.status).toBe(400);
+        expect(r.body.code).toBe("invalid_settings_filterable_attributes");
+      });
+    });
+
+    describe("documents", () => {
+      it("gets one document and lists documents with offset, limit and fields", async () => {
+        expect(await index.getDocument("p1")).toEqual(DOCS[0]);
+        expect(await index.getDocument("p1", { fields: ["id", "title"] })).toEqual({ id: "p1", title: DOCS[0].title });
+        const page = await index.getDocuments({ offset: 2, limit: 3, fields: ["id"] });
+        expect(page).toEqual({ results: expect.any(Array), offset: 2, limit: 3, total: DOCS.length });
+        expect(page.results).toHaveLength(3);
+        for (const r of page.results) expect(Object.keys(r)).toEqual(["id"]);
+        const missing = await apiError(index.getDocument("nope"));
+        expect(missing.status).toBe(404);
+        expect(missing.body.code).toBe("document_not_found");
+      });
+
+      it("fetches documents with a filter (POST /documents/fetch)", async () => {
+        const r = await index.getDocuments({ filter: "kind = reading OR tags = rings", fields: ["id"], limit: 10 });
+        expect(r.results.map((d) => d.id).sort()).toEqual(["m1", "r1"]);
+        expect(r.total).toBe(2);
+      });
+
+      it("adds, partially updates and deletes documents (one, batch, by filter, all)", async () => {
+        const name = `${run}_docs`;
+        const idx = client.index<Doc>(name);
+        const add = await idx.addDocuments(DOCS.slice(0, 5), { primaryKey: "id" }).waitTask();
+        expect(add).toEqual(expect.objectContaining({ status: "succeeded", type: "documentAdditionOrUpdate", indexUid: name }));
+        expect(add.details).toEqual(expect.objectContaining({ receivedDocuments: 5, indexedDocuments: 5 }));
+        expect((await client.getRawIndex(name)).primaryKey).toBe("id");
+
+        const upd = await idx.updateDocuments([{ id: "p1", state: "archived" }]).waitTask();
+        expect(upd.status).toBe("succeeded");
+        expect(await idx.getDocument("p1")).toEqual({ ...DOCS[0], state: "archived" });
+
+        const replaced = await idx.addDocuments([{ ...DOCS[1], title: "Head stud installation, revised" }]).waitTask();
+        expect(replaced.status).toBe("succeeded");
+        expect((await idx.getDocument("p2")).title).toBe("Head stud installation, revised");
+
+        const one = await idx.deleteDocument("m1").waitTask();
+        expect(one).toEqual(expect.objectContaining({ status: "succeeded", type: "documentDeletion" }));
+        expect(one.details).toEqual(expect.objectContaining({ deletedDocuments: 1 }));
+        expect((await apiError(idx.getDocument("m1"))).status).toBe(404);
+
+        const batch = await idx.deleteDocuments(["m2", "nope"]).waitTask();
+        expect(batch.details).toEqual(expect.objectContaining({ providedIds: 2, deletedDocuments: 1 }));
+
+        await idx.updateFilterableAttributes(["kind"]).waitTask();
+        const byFilter = await idx.deleteDocuments({ filter: "kind = reading" }).waitTask();
+        expect(byFilter.status).toBe("succeeded");
+        expect(byFilter.details).toEqual(expect.objectContaining({ deletedDocuments: 1, originalFilter: '"kind = reading"' }));
+        expect((await idx.getDocuments()).total).toBe(2);
+
+        const all = await idx.deleteAllDocuments().waitTask();
+        expect(all).toEqual(expect.objectContaining({ status: "succeeded", type: "documentDeletion" }));
+        expect(all.details).toEqual(expect.objectContaining({ deletedDocuments: 2 }));
+        expect((await idx.getDocuments()).total).toBe(0);
+      });
+
+      it("fails the task for an invalid document id, and for a filter on a non-filterable attribute", async () => {
+        const t = await index.addDocuments([{ ...DOCS[0], id: "bad id!" }]).waitTask();
+        expect(t.status).toBe("failed");
+        expect(t.error).toEqual({ message: expect.any(String), code: "invalid_document_id", type: "invalid_request", link: expect.any(String) });
+        const f = await index.deleteDocuments({ filter: "title = x" }).waitTask();
+        expect(f.status).toBe("failed");
+        expect(f.error?.code).toBe("invalid_document_filter");
+        const syntax = await apiError(index.deleteDocuments({ filter: "kind = " }));
+        expect(syntax.status).toBe(400);
+        expect(syntax.body.code).toBe("invalid_document_filter");
+      });
+    });
+
+    describe("search", () => {
+      it("answers the response shape for POST and GET", async () => {
+        const r = await index.search("piston");
+        expect(r).toEqual(
+          expect.objectContaining({ hits: expect.any(Array), query: "piston", processingTimeMs: expect.any(Number), limit: 20, offset: 0, estimatedTotalHits: expect.any(Number) }),
+        );
+        expect(r.hits.map((h) => h.id)).toContain("p1");
+        expect(r.hits[0]).not.toHaveProperty("_formatted");
+        const g = await index.searchGet("piston", { filter: "kind = procedure", facets: ["kind"] });
+        expect(g.hits.map((h) => h.id)).toEqual(["p1"]);
+        expect(g.facetDistribution).toEqual({ kind: { procedure: 1 } });
+      });
+
+      it("ranks documents holding every query word first", async () => {
+        const r = await index.search("torque moly");
+        expect(r.hits[0].id).toBe("p2");
+        expect(r.hits.length).toBeGreaterThan(1);
+        // with the default `last` strategy the first word is required: only p2 holds "head"
+        expect((await index.search("head stud torque")).hits.map((h) => h.id)).toEqual(["p2"]);
+        const all = await index.search("torque moly", { matchingStrategy: "all" });
+        expect(all.hits.map((h) => h.id)).toEqual(["p2"]);
+      });
+
+      it("forgives a typo and completes the last word as a prefix", async () => {
+        expect((await index.search("lubricat")).hits.map((h) => h.id)).toEqual(["p2"]);
+        expect((await index.search("honnig")).hits.map((h) => h.id)).toEqual(["m2"]);
+        expect((await index.search("cylindr")).hits.map((h) => h.id).sort()).toEqual(["m1", "r1"]);
+      });
+
+      it("applies synonyms from the settings, multi-word ones too", async () => {
+        expect((await index.search("ptw")).hits.map((h) => h.id)).toEqual(expect.arrayContaining(["p1", "m2"]));
+        expect((await index.search("piston to wall")).hits.map((h) => h.id)).toEqual(expect.arrayContaining(["p1", "m2"]));
+      });
+
+      it("filters with strings and nested arrays (outer AND, inner OR)", async () => {
+        const ids = async (filter: string | (string | string[])[], q = "") =>
+          (await index.search(q, { filter, limit: 100 })).hits.map((h) => h.id).sort();
+        expect(await ids("kind = procedure AND state = published")).toEqual(["p1"]);
+        expect(await ids([["kind = mark", "kind = reading"], "tags = bore"])).toEqual(["r1"]);
+        expect(await ids("tags IN [rings, bore] AND NOT kind = procedure")).toEqual(["m1", "r1"]);
+        expect(await ids("kind != mark")).toEqual(["p1", "p2", "r1"]);
+        expect(await ids("tags NOT IN [audit, bore, pistons]")).toEqual(["m1", "p2"]);
+        expect(await ids("year > 2020 AND (kind = procedure OR kind = reading)")).toEqual(["p1", "p2"]);
+        expect(await ids("year 2020 TO 2022 AND kind != mark")).toEqual(["p1", "r1"]);
+        expect(await ids("state = 'draft'", "head")).toEqual(["p2"]);
+      });
+
+      it("rejects a malformed filter with 400 invalid_search_filter", async () => {
+        const r = await apiError(index.search("", { filter: "kind = procedure AND" }));
+        expect(r.status).toBe(400);
+        expect(r.body).toEqual({
+          message: expect.stringMatching(/^Was expecting an operation .*\n21:21 kind = procedure AND$/s),
+          code: "invalid_search_filter",
+          type: "invalid_request",
+          link: "https://docs.meilisearch.com/errors#invalid_search_filter",
+        });
+        const quote = await apiError(index.search("", { filter: ["kind = 'procedure"] }));
+        expect(quote.body.message).toBe("Expression `\\'procedure` is missing the following closing delimiter: `'`.\n8:18 kind = 'procedure");
+      });
+
+      it("rejects a filter on a non-filterable attribute", async () => {
+        const r = await apiError(index.search("", { filter: "title = x" }));
+        expect(r.status).toBe(400);
+        expect(r.body.code).toBe("invalid_search_filter");
+        expect(r.body.message).toMatch(/Attribute `title` is not filterable/);
+      });
+
+      it("counts facets over every match", async () => {
+        const r = await index.search("", { facets: ["kind", "tags", "year"], limit: 0 });
+        const count = (f: (d: Doc) => string[]) => {
+          const out: Record<string, number> = {};
+          for (const d of DOCS) for (const v of f(d)) out[v] = (out[v] ?? 0) + 1;
+          return out;
+        };
+        expect(r.hits).toEqual([]);
+        expect(r.facetDistribution?.kind).toEqual(count((d) => [d.kind]));
+        expect(r.facetDistribution?.tags).toEqual(count((d) => d.tags));
+        expect(r.facetStats?.year).toEqual({ min: 1990, max: 2024 });
+        const q = await index.search("bore", { facets: ["kind"] });
+        expect(q.facetDistribution).toEqual({ kind: { procedure: 1, reading: 1 } });
+        const bad = await apiError(index.search("", { facets: ["title"] }));
+        expect(bad.body.code).toBe("invalid_search_facets");
+      });
+
+      it("highlights with custom tags and crops with a marker", async () => {
+        const r = await index.search("moly", { attributesToHighlight: ["body"], highlightPreTag: "<mark>", highlightPostTag: "</mark>" });
+        expect(r.hits[0].id).toBe("p2");
+        expect(r.hits[0]._formatted?.body).toContain("<mark>moly</mark>");
+        expect(r.hits[0]._formatted?.title).toBe(DOCS[1].title);
+
+        const c = await index.search("torque", { filter: "kind = procedure", attributesToCrop: ["body"], cropLength: 5, cropMarker: "[…]", attributesToHighlight: ["body"] });
+        const body = c.hits[0]._formatted?.body as string;
+        expect(body).toContain("<em>torque</em>");
+        expect(body.startsWith("[…]") || body.endsWith("[…]")).toBe(true);
+        expect(body.replace(/<\/?em>/g, "").replace(/\[…\]/g, "").trim().split(/\s+/).length).toBeLessThanOrEqual(6);
+
+        const whole = await index.search("ring", { attributesToHighlight: ["*"], filter: "kind = mark AND tags = rings" });
+        expect(whole.hits[0]._formatted?.title).toBe("<em>Ring</em> gap check");
+        expect(whole.hits[0]._formatted?.year).toBe("2022");
+      });
+
+      it("retrieves only the requested attributes", async () => {
+        const r = await index.search("bore", { attributesToRetrieve: ["id", "title"] });
+        for (const h of r.hits) expect(Object.keys(h).sort()).toEqual(["id", "title"]);
+      });
+
+      it("paginates with limit/offset and with page/hitsPerPage", async () => {
+        const a = await index.search("audit", { limit: 10, offset: 0 });
+        const b = await index.search("audit", { limit: 10, offset: 10 });
+        expect(b).toEqual(expect.objectContaining({ limit: 10, offset: 10 }));
+        expect(a.hits).toHaveLength(10);
+        expect(b.hits).toHaveLength(10);
+        expect(a.estimatedTotalHits).toBeGreaterThanOrEqual(30);
+        const seen = new Set(a.hits.map((h) => h.id));
+        for (const h of b.hits) expect(seen.has(h.id)).toBe(false);
+        const p = await index.search("audit", { hitsPerPage: 7, page: 5 });
+        expect(p).toEqual(expect.objectContaining({ hitsPerPage: 7, page: 5, totalHits: 30, totalPages: 5 }));
+        expect(p.hits).toHaveLength(2);
+        expect(p).not.toHaveProperty("estimatedTotalHits");
+      });
+
+      it("sorts on sortable attributes and rejects others", async () => {
+        const r = await index.search("", { filter: "tags = audit", sort: ["year:desc"], limit: 5 });
+        expect(r.hits.map((h) => h.year)).toEqual([2019, 2018, 2017, 2016, 2015]);
+        const t = await index.search("", { filter: "kind = procedure", sort: ["title:asc"] });
+        expect(t.hits.map((h) => h.id)).toEqual(["p2", "p1"]);
+        const bad = await apiError(index.search("", { sort: ["hours:asc"] }));
+        expect(bad.status).toBe(400);
+        expect(bad.body.code).toBe("invalid_search_sort");
+      });
+
+      it("counts every document in a placeholder search", async () => {
+        const r = await index.search("", { limit: 1 });
+        expect(r.estimatedTotalHits).toBe(DOCS.length);
+        expect(r.query).toBe("");
+      });
+
+      it("answers 404 index_not_found for an unknown index", async () => {
+        const r = await apiError(client.index(`${run}_missing`).search("x"));
+        expect(r.status).toBe(404);
+        expect(r.body).toEqual({ message: `Index \`${run}_missing\` not found.`, code: "index_not_found", type: "invalid_request", link: "https://docs.meilisearch.com/errors#index_not_found" });
+      });
+
+      it("multi-search answers one result per query", async () => {
+        const r = await client.multiSearch({
+          queries: [
+            { indexUid: uid, q: "bore", limit: 1 },
+            { indexUid: uid, q: "", filter: "kind = procedure" },
+          ],
+        });
+        expect(r.results).toHaveLength(2);
+        expect(r.results[0]).toEqual(expect.objectContaining({ indexUid: uid, query: "bore", limit: 1 }));
+        expect(r.results[1].hits.map((h) => h.id).sort()).toEqual(["p1", "p2"]);
+      });
+    });
+
+    describe("tasks", () => {
+      it("lists tasks with filters and paging", async () => {
+        const r = await client.tasks.getTasks({ indexUids: [uid], limit: 2 });
+        expect(r).toEqual({ results: expect.any(Array), total: expect.any(Number), limit: 2, from: expect.any(Number), next: expect.any(Number) });
+        expect(r.results).toHaveLength(2);
+        expect(r.results[0].uid).toBeGreaterThan(r.results[1].uid);
+        for (const t of r.results) expect(t.indexUid).toBe(uid);
+        const next = await client.tasks.getTasks({ indexUids: [uid], limit: 2, from: r.next! });
+        expect(next.results[0].uid).toBe(r.next);
+        const failed = await client.tasks.getTasks({ statuses: ["failed"], indexUids: [uid] });
+        expect(failed.results.length).toBeGreaterThan(0);
+        for (const t of failed.results) {
+          expect(t.status).toBe("failed");
+          expect(t.error).toEqual({ message: expect.any(String), code: expect.any(String), type: expect.any(String), link: expect.any(String) });
+        }
+        const types = await client.tasks.getTasks({ types: ["settingsUpdate"], indexUids: [uid] });
+        for (const t of types.results) expect(t.type).toBe("settingsUpdate");
+      });
+
+      it("answers 404 task_not_found for an unknown task", async () => {
+        const r = await apiError(client.tasks.getTask(2 ** 31));
+        expect(r.status).toBe(404);
+        expect(r.body.code).toBe("task_not_found");
+      });
+    });
+  });
+}
