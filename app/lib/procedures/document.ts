@@ -62,6 +62,7 @@ export function safeHref(raw: unknown): string | null {
   // eslint-disable-next-line no-control-regex
   const s = raw.replace(/[\u0000-\u0020\u007f-\u009f]/g, "");
   if (s.length === 0 || s.length > 2000) return null;
+  if (/["'<>`\s]/.test(raw.trim())) return null; // quotes, angle brackets or spaces have no business in a link target
   if (s.startsWith("//") || s.startsWith("\\") || s.startsWith("/\\")) return null;
   if (s.startsWith("/") || s.startsWith("#")) return raw.trim();
   const m = /^([a-zA-Z][a-zA-Z0-9+.-]*):/.exec(s);

@@ -25,16 +25,8 @@ import { structureProblem } from "./schema-check.server";
 import { slugify } from "./slug";
 import { decide, type Actor, type RevisionState, type Transition } from "./state";
 
-export const AREAS = ["block", "heads", "fasteners", "rotating-assembly", "assembly", "qc"] as const;
-export type Area = (typeof AREAS)[number];
-export const AREA_LABELS: Record<Area, string> = {
-  block: "Block",
-  heads: "Heads",
-  fasteners: "Fasteners",
-  "rotating-assembly": "Rotating assembly",
-  assembly: "Assembly",
-  qc: "QC",
-};
+import { AREA_LABELS, AREAS, type Area } from "./areas";
+export { AREA_LABELS, AREAS, type Area };
 
 export class ProcedureError extends Error {
   constructor(

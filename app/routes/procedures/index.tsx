@@ -4,7 +4,8 @@ import { EmptyState, PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
 import { can } from "~/lib/permissions";
 import { STATE_LABELS } from "~/lib/procedures/state";
-import { allTags, AREA_LABELS, AREAS, listPublished, openRevisionsFor, type Area } from "~/lib/procedures/workflow.server";
+import { AREA_LABELS, AREAS, type Area } from "~/lib/procedures/areas";
+import { allTags, listPublished, openRevisionsFor } from "~/lib/procedures/workflow.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Procedures · Benchreel" }];
 

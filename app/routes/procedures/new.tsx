@@ -7,7 +7,8 @@ import { requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { starterDocument } from "~/lib/procedures/starter";
-import { AREA_LABELS, AREAS, createProcedure, normalizeTags } from "~/lib/procedures/workflow.server";
+import { AREA_LABELS, AREAS } from "~/lib/procedures/areas";
+import { createProcedure, normalizeTags } from "~/lib/procedures/workflow.server";
 import { formFailure } from "~/lib/procedures/routes.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New procedure · Benchreel" }];

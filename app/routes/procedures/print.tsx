@@ -8,7 +8,7 @@ import type { JSONNode } from "~/lib/procedures/document";
 import { renderBody } from "~/lib/procedures/render.server";
 import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { revisionById, specsOf } from "~/lib/procedures/workflow.server";
-import { AREA_LABELS } from "~/lib/procedures/workflow.server";
+import { AREA_LABELS } from "~/lib/procedures/areas";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Print: ${data?.rev.title ?? ""}` }];
 

@@ -3,7 +3,7 @@ import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/revision";
 import "~/components/procedures/procedures.css";
 import { FormError } from "~/components/forms";
-import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
+import { RevisionArticle } from "~/components/procedures/RevisionView";
 import { users } from "~/db/schema";
 import { requirePermission } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
@@ -141,4 +141,3 @@ export default function RevisionPage({ loaderData, actionData }: Route.Component
     />
   );
 }
-export { fmtDate };

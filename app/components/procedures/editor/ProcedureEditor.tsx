@@ -6,7 +6,8 @@ import { useBeforeUnload, useBlocker, useFetcher } from "react-router";
 import { DEFAULT_PRESETS, type CalcKind } from "~/lib/procedures/calc-presets";
 import { blockTexts, newSpecKey, type JSONNode } from "~/lib/procedures/document";
 import { starterKit } from "~/lib/procedures/extensions";
-import { AREA_OPTIONS } from "./areas";
+import { AREA_LABELS, AREAS } from "~/lib/procedures/areas";
+const AREA_OPTIONS = AREAS.map((value) => ({ value, label: AREA_LABELS[value] }));
 import { EditorSharedContext } from "./context";
 import { editorNodes } from "./nodeViews";
 

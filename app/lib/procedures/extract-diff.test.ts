@@ -1,0 +1,75 @@
+import { describe, expect, it } from "vitest";
+import type { JSONNode } from "./document";
+import { blockTexts } from "./document";
+import { diffBlocks, diffSpecs, summarize, type SpecRow } from "./diff";
+import { extract } from "./extract";
+import { slugify } from "./slug";
+
+const A = "0b7f3d5e-1c44-4f7b-9a34-6f8d2e1a0c11";
+const REC = "5eed0000-0000-4000-8000-00000000c1a9";
+
+describe("extract", () => {
+  it("pulls links (once each), specs with SI values, and video moments", () => {
+    const doc: JSONNode = {
+      type: "doc",
+      content: [
+        { type: "paragraph", content: [{ type: "procedureLink", attrs: { procedureId: A } }, { type: "procedureLink", attrs: { procedureId: A } }] },
+        { type: "spec", attrs: { id: "s1", label: "Torque", quantity: "torque", unit: "ft.lbf", nominal: 80, min: null, max: 85, note: "" } },
+        { type: "spec", attrs: { id: "s2", label: "Piston-to-wall", quantity: "length", unit: "thou", nominal: null, min: 2.5, max: 3.0, note: "2618" } },
+        { type: "caution", content: [{ type: "videoMoment", attrs: { recordingId: REC, start: 42, end: null, caption: "third pass" } }] },
+      ],
+    };
+    const x = extract(doc);
+    expect(x.links).toEqual([A]);
+    expect(x.specs).toHaveLength(2);
+    expect(x.specs[0]).toMatchObject({ specKey: "s1", unit: "ft.lbf", siUnit: "N.m", nominal: 80, minSi: null });
+    expect(x.specs[0].nominalSi).toBeCloseTo(80 * 1.3558179483314004, 9);
+    expect(x.specs[1].minSi).toBeCloseTo(2.5 * 0.0000254, 12);
+    expect(x.specs[1].siUnit).toBe("m");
+    expect(x.moments).toEqual([{ position: 0, recordingId: REC, startS: 42, endS: null, caption: "third pass" }]);
+  });
+});
+
+const spec = (k: string, over: Partial<SpecRow> = {}): SpecRow => ({ specKey: k, label: `Spec ${k}`, quantity: "torque", unit: "N.m", nominal: 100, min: 95, max: 105, note: "", ...over });
+
+describe("diffSpecs", () => {
+  it("reports added, removed, changed (with the fields) and unchanged specs", () => {
+    const before = [spec("a"), spec("b"), spec("c")];
+    const after = [spec("a"), spec("b", { max: 108, note: "moly" }), spec("d")];
+    const d = diffSpecs(before, after);
+    expect(d.find((x) => x.kind === "unchanged")).toMatchObject({ after: { specKey: "a" } });
+    expect(d.find((x) => x.kind === "changed")).toMatchObject({ fields: ["max", "note"] });
+    expect(d.find((x) => x.kind === "added")).toMatchObject({ after: { specKey: "d" } });
+    expect(d.find((x) => x.kind === "removed")).toMatchObject({ before: { specKey: "c" } });
+  });
+
+  it("matches a re-created spec by its label", () => {
+    const d = diffSpecs([spec("old", { label: "Final torque" })], [spec("new", { label: "final torque ", unit: "ft.lbf" })]);
+    expect(d).toHaveLength(1);
+    expect(d[0]).toMatchObject({ kind: "changed", fields: ["label", "unit"] });
+  });
+});
+
+describe("diffBlocks", () => {
+  const doc = (...texts: string[]): JSONNode => ({ type: "doc", content: texts.map((t) => ({ type: "paragraph", content: [{ type: "text", text: t }] })) });
+  it("shows word changes inside a changed block, and whole added or removed blocks", () => {
+    const d = diffBlocks(blockTexts(doc("Clean the threads.", "Torque to 100 N·m in three passes.", "Check the gasket.")), blockTexts(doc("Clean the threads.", "Torque to 110 N·m in three passes.", "Mark each stud.")));
+    expect(d[0]).toEqual({ op: "same", type: "paragraph", text: "Clean the threads." });
+    expect(d[1].op).toBe("change");
+    if (d[1].op === "change") {
+      expect(d[1].pieces.filter((p) => p.op === "del").map((p) => p.text.trim())).toContain("100");
+      expect(d[1].pieces.filter((p) => p.op === "add").map((p) => p.text.trim())).toContain("110");
+    }
+    expect(summarize(d)).toEqual({ added: 0, removed: 0, changed: 2 });
+    const add = diffBlocks(blockTexts(doc("A.")), blockTexts(doc("A.", "B.")));
+    expect(add).toEqual([{ op: "same", type: "paragraph", text: "A." }, { op: "add", type: "paragraph", text: "B." }]);
+  });
+});
+
+describe("slugify", () => {
+  it("makes stable ASCII slugs", () => {
+    expect(slugify("Head stud installation — M12×1.5, moly")).toBe("head-stud-installation-m12x1-5-moly");
+    expect(slugify("Tomás' piston-to-wall check")).toBe("tomas-piston-to-wall-check");
+    expect(slugify("!!!")).toBe("procedure");
+  });
+});
