@@ -1,0 +1,78 @@
+/** What a calculator form gives back: the input it built, the result, and errors by field. */
+export type FormValues = Record<string, string>;
+export type FieldErrors = Record<string, string>;
+
+export interface Outcome<R> {
+  /** The function's input JSON, when the form could be read. */
+  input?: unknown;
+  /** The function's result, when the input was valid. */
+  result?: R;
+  /** Messages by form field name ("form" for the whole form). */
+  errors: FieldErrors;
+}
+
+export interface Issue {
+  path: string;
+  message: string;
+}
+
+/** The issues of a ZodError (paths joined with dots), or null for any other error. */
+export function zodIssues(err: unknown): Issue[] | null {
+  if (!err || typeof err !== "object") return null;
+  const e = err as { name?: unknown; issues?: unknown };
+  if (e.name !== "ZodError" || !Array.isArray(e.issues)) return null;
+  return (e.issues as { path?: unknown[]; message?: unknown }[]).map((i) => ({
+    path: (i.path ?? []).map(String).join("."),
+    message: String(i.message ?? "invalid"),
+  }));
+}
+
+/** Runs `fn(input)`, turning a ZodError into field errors through `fieldOf` (path → field name). */
+export function runChecked<R>(
+  fn: (input: never) => R,
+  input: unknown,
+  errors: FieldErrors,
+  fieldOf: (path: string) => string,
+): Outcome<R> {
+  if (Object.keys(errors).length > 0) return { input, errors };
+  try {
+    return { input, result: fn(input as never), errors };
+  } catch (err) {
+    const issues = zodIssues(err);
+    if (!issues) throw err;
+    const out: FieldErrors = {};
+    for (const i of issues) out[fieldOf(i.path) || "form"] ??= capitalise(i.message);
+    return { input, errors: out };
+  }
+}
+
+export function capitalise(s: string): string {
+  return s ? s[0].toUpperCase() + s.slice(1) : s;
+}
+
+/** Reads `name.value` / `name.unit` into a quantity; a blank value is an error only when required. */
+export function readQuantity(
+  values: FormValues,
+  name: string,
+  errors: FieldErrors,
+  required = true,
+  parse: (s: string | undefined) => number | undefined,
+): { value: number; unit: string } | undefined {
+  const n = parse(values[`${name}.value`]);
+  if (n === undefined) {
+    if (required) errors[`${name}.value`] = "Enter a number.";
+    return undefined;
+  }
+  if (Number.isNaN(n)) {
+    errors[`${name}.value`] = "That is not a number.";
+    return undefined;
+  }
+  return { value: n, unit: values[`${name}.unit`] ?? "" };
+}
+
+/** The string fields of a submitted form. */
+export function formValues(form: FormData): FormValues {
+  const out: FormValues = {};
+  for (const [k, v] of form.entries()) if (typeof v === "string") out[k] = v;
+  return out;
+}

@@ -1,0 +1,90 @@
+// The three calculator pages in the browser: results as the person types, unit switches that
+// agree with the contract's factors, the chart (svg) and the caution. Expected numbers are
+// worked out here from the formulas (T = K·F·d, out-of-round = max − min, bore − piston).
+import { expect, test, type Page } from "@playwright/test";
+
+const LBF = 4.4482216152605; // N per lbf (NIST SP 811)
+const CAUTION = "Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence";
+
+async function signIn(page: Page, email: string, path: string) {
+  await page.goto(`/signin?next=${encodeURIComponent(path)}`);
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill("larkspur-demo");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL((u) => u.pathname === path);
+  // Hydrated: the no-JS "Calculate" button is gone.
+  await expect(page.getByRole("button", { name: "Calculate" })).toHaveCount(0);
+}
+
+const num = async (page: Page, testId: string) => Number((await page.getByTestId(testId).innerText()).replace(/,/g, ""));
+
+test("Preload computes as you type, switches units consistently, marks past 90 % of yield", async ({ page }) => {
+  await signIn(page, "dana@larkspur.example", "/calculators/preload");
+  await expect(page.getByTestId("calc-caution")).toContainText(CAUTION);
+  await expect(page.getByTestId("preload-chart")).toBeVisible();
+
+  await page.getByLabel("Thread condition").selectOption("custom");
+  await page.getByLabel("Nut factor K").fill("0.15");
+  await page.getByLabel("Tightening torque", { exact: true }).fill("100");
+  const F = 100 / (0.15 * 0.012); // N, M12: d = 12 mm
+  await expect(page.getByTestId("result-preload")).toHaveText((F / 1000).toFixed(2));
+
+  await page.getByLabel("Show clamp load in").selectOption("lbf");
+  await expect.poll(() => num(page, "result-preload")).toBe(Math.round(F / LBF));
+
+  // The same number in ft·lbf is 1.3558… times the torque.
+  await page.getByLabel("Tightening torque: unit").selectOption("ft.lbf");
+  await expect.poll(() => num(page, "result-preload")).toBe(Math.round((100 * 0.3048 * LBF) / (0.15 * 0.012) / LBF));
+
+  // Class 8.8 (640 MPa) at 200 N·m is far past 90 % of yield: red, with the reason.
+  await page.getByLabel("Tightening torque: unit").selectOption("N.m");
+  await page.getByLabel("Property class or material").selectOption("8.8");
+  await page.getByLabel("Tightening torque", { exact: true }).fill("200");
+  await expect(page.getByTestId("yield-alert")).toContainText("past the 90 % limit");
+  await expect(page.getByTestId("calc-result")).toHaveAttribute("data-state", "out-of-spec");
+
+  // Bench readings give a fitted K on the chart: points made with K = 0.2 exactly (F = T/(0.2·0.012)).
+  await page.getByLabel("Torque and measured clamp load, one pair a line").fill(["60, 25", "90, 37.5", "120, 50"].join("\n"));
+  await expect(page.getByTestId("fit-summary")).toContainText("K = 0.200");
+});
+
+test("Preload opens in inch units for a person who prefers them", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example", "/calculators/preload");
+  await expect(page.getByLabel("Tightening torque: unit")).toHaveValue("ft.lbf");
+  await expect(page.getByLabel("Show clamp load in")).toHaveValue("lbf");
+  await expect(page.getByTestId("preload-chart")).toBeVisible();
+});
+
+test("Bore distortion updates out-of-round as readings are typed and converts µm to thou", async ({ page }) => {
+  await signIn(page, "dana@larkspur.example", "/calculators/distortion");
+  await expect(page.getByTestId("calc-caution")).toContainText(CAUTION);
+  await expect(page.getByTestId("bore-polar")).toHaveCount(3);
+  await expect(page.getByTestId("exaggeration").first()).toContainText("deviation ×");
+  await expect(page.getByTestId("bore-profile").locator("svg")).toBeVisible();
+  await expect(page.getByText("Why a two-point gauge cannot see order 3.")).toBeVisible();
+
+  // Make the top level of the measured state 88.030 at 0°: out-of-round there = 88.030 − 87.997 = 33 µm.
+  await page.getByLabel("Measured state, 12 mm deep, 0°").fill("88.030");
+  await expect(page.getByTestId("result-oor")).toHaveText("33.0");
+  await page.getByLabel("Show deviations in").selectOption("thou");
+  await expect(page.getByTestId("result-oor")).toHaveText((33 / 25.4).toFixed(2));
+});
+
+test("Clearances: cold and hot against the spec, out of spec in red, units switch", async ({ page }) => {
+  await signIn(page, "dana@larkspur.example", "/calculators/clearance");
+  await expect(page.getByTestId("calc-caution")).toContainText(CAUTION);
+  await expect(page.getByTestId("clearance-chart").locator("svg")).toBeVisible();
+  await expect(page.getByTestId("result-hot")).toBeVisible();
+
+  await page.getByLabel("Piston at the gauge point", { exact: true }).fill("87.912");
+  await expect(page.getByTestId("result-clearance")).toHaveText("0.0880");
+  await expect(page.getByTestId("clearance-verdict")).toHaveText("Within spec");
+  await page.getByLabel("Piston at the gauge point", { exact: true }).fill("87.950");
+  await expect(page.getByTestId("clearance-verdict")).toContainText("Out of spec");
+  await page.getByLabel("Show clearances in").selectOption("thou");
+  await expect(page.getByTestId("result-clearance")).toHaveText(((0.05 / 25.4) * 1000).toFixed(3));
+
+  await page.getByText("Ring end gap", { exact: true }).click();
+  await expect(page.getByTestId("clearance-chart").locator("svg")).toBeVisible();
+  await expect(page.getByText("Shop guidance (common practice, no standard)")).toBeVisible();
+});
