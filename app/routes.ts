@@ -26,6 +26,9 @@ export default [
 
     // calculators
     route("calculators", "routes/calculators/index.tsx"),
+    route("calculators/preload", "routes/calculators/preload.tsx"),
+    route("calculators/distortion", "routes/calculators/distortion.tsx"),
+    route("calculators/clearance", "routes/calculators/clearance.tsx"),
 
     // search
     route("search", "routes/search.tsx"),
@@ -41,5 +44,8 @@ export default [
   // ---- JSON API (resource routes) -----------------------------------------------------------
   ...prefix("api", [
     route("me", "routes/api/me.ts"),
+    route("calc/preload", "routes/api/calc.preload.ts"),
+    route("calc/distortion", "routes/api/calc.distortion.ts"),
+    route("calc/clearance", "routes/api/calc.clearance.ts"),
   ]),
 ] satisfies RouteConfig;

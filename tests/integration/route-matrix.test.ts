@@ -35,6 +35,9 @@ export const MATRIX: Entry[] = [
   { path: "/recordings", get: SIGNED_IN },
   { path: "/test-records", get: SIGNED_IN },
   { path: "/calculators", get: SIGNED_IN },
+  { path: "/calculators/preload", get: SIGNED_IN, post: { ...ALL(400), anon: 302 }, note: "empty form: field errors" },
+  { path: "/calculators/distortion", get: SIGNED_IN, post: { ...ALL(400), anon: 302 } },
+  { path: "/calculators/clearance", get: SIGNED_IN, post: { ...ALL(400), anon: 302 } },
   { path: "/search", get: SIGNED_IN },
   { path: "/admin", get: only(["admin"]), post: undefined },
   { path: "/admin/people", get: only(["admin"]), post: only(["admin"], 400) },
@@ -42,6 +45,9 @@ export const MATRIX: Entry[] = [
 
   // ---- API ----
   { path: "/api/me", get: SIGNED_IN_API },
+  { path: "/api/calc/preload", get: ALL(400), post: { ...ALL(400), anon: 401 }, note: "action only: GET gets the framework's 400 (no loader); an empty form is not JSON" },
+  { path: "/api/calc/distortion", get: ALL(400), post: { ...ALL(400), anon: 401 } },
+  { path: "/api/calc/clearance", get: ALL(400), post: { ...ALL(400), anon: 401 } },
 ];
 
 function flatten(rs: typeof routes, parent = ""): string[] {
