@@ -79,7 +79,12 @@ function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; proce
     return () => { editor.off("transaction", f); };
   }, [editor]);
   const c = () => editor.chain().focus();
-  const insertCalc = (kind: CalcKind) => c().insertContent({ type: "calculator", attrs: { kind, title: "", preset: DEFAULT_PRESETS[kind] } }).run();
+  // A selected block (spec, calculator…) is not replaced by a new one: the new block goes after it.
+  const insertBlock = (content: Record<string, unknown>) => {
+    const sel = editor.state.selection as { node?: unknown; to: number };
+    return sel.node ? c().insertContentAt(sel.to, content).run() : c().insertContent(content).run();
+  };
+  const insertCalc = (kind: CalcKind) => insertBlock({ type: "calculator", attrs: { kind, title: "", preset: DEFAULT_PRESETS[kind] } });
   const setLink = () => {
     const prev = editor.getAttributes("link").href as string | undefined;
     const href = window.prompt("Link address (https://…, mailto:…, or /path in Benchreel). Leave empty to remove.", prev ?? "https://");
@@ -116,12 +121,12 @@ function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; proce
         <Btn label="Procedure link" onClick={() => setPicker((p) => !p)} active={picker}>Procedure link</Btn>
         {picker && <LinkPicker editor={editor} procedureId={procedureId} onPick={(r) => rememberTitle(r.id, r)} onClose={() => setPicker(false)} />}
       </span>
-      <Btn label="Spec" onClick={() => c().insertContent({ type: "spec", attrs: { id: newSpecKey(), label: "", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, note: "" } }).run()}>Spec</Btn>
+      <Btn label="Spec" onClick={() => insertBlock({ type: "spec", attrs: { id: newSpecKey(), label: "", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, note: "" } })}>Spec</Btn>
       <Btn label="Caution" active={editor.isActive("caution")} onClick={() => (editor.isActive("caution") ? c().lift("caution").run() : c().wrapIn("caution").run())}>Caution</Btn>
       <Btn label="Preload calculator" onClick={() => insertCalc("preload")}>Preload</Btn>
       <Btn label="Bore distortion calculator" onClick={() => insertCalc("distortion")}>Bore distortion</Btn>
       <Btn label="Clearances calculator" onClick={() => insertCalc("clearance")}>Clearances</Btn>
-      <Btn label="Video moment" onClick={() => c().insertContent({ type: "videoMoment", attrs: { recordingId: null, start: 0, end: null, caption: "" } }).run()}>Video moment</Btn>
+      <Btn label="Video moment" onClick={() => insertBlock({ type: "videoMoment", attrs: { recordingId: null, start: 0, end: null, caption: "" } })}>Video moment</Btn>
     </div>
   );
 }

@@ -1,0 +1,96 @@
+// A builder writes a procedure with a link, a calculator and a spec and submits it; the editor
+// compares and publishes; the apprentice reads it and the calculator computes; mail reaches the fake.
+import { expect, test, type Page } from "@playwright/test";
+
+const SHOTS = "/tmp/shots-procedures";
+const stamp = Date.now().toString(36);
+
+async function signIn(page: Page, email: string) {
+  await page.goto("/signin");
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill("larkspur-demo");
+  await page.getByRole("button", { name: /sign in/i }).click();
+  await expect(page.getByTestId("user-name")).toBeVisible();
+}
+
+test("write, submit, compare, publish, read", async ({ browser }) => {
+  const title = `Ring end gap check ${stamp}`;
+  const builder = await (await browser.newContext()).newPage();
+  await signIn(builder, "marcus@larkspur.example");
+  await builder.goto("/procedures/new");
+  await builder.getByLabel("Title").fill(title);
+  await builder.getByLabel("Shop area").selectOption("rotating-assembly");
+  await builder.getByLabel("Tags").fill("ring gap, e2e");
+  await builder.getByRole("button", { name: "Start the draft" }).click();
+  await expect(builder).toHaveURL(/\/r\/1\/edit$/);
+  const editor = builder.getByTestId("editor");
+  await expect(editor).toBeVisible();
+  await editor.locator("p").first().click();
+  await builder.keyboard.type("File the top ring to the gap below before fitting. ");
+  // Procedure link through the picker.
+  await builder.getByRole("button", { name: "Procedure link" }).click();
+  await builder.getByLabel("Search procedure titles").fill("piston-to-wall");
+  await builder.getByRole("button", { name: /Checking piston-to-wall/ }).click();
+  await expect(builder.getByTestId("procedure-link-chip")).toContainText("Checking piston-to-wall");
+  // A spec and a calculator block.
+  await builder.getByRole("button", { name: "Spec", exact: true }).click();
+  await builder.getByLabel("Spec label").fill("Top ring end gap");
+  await builder.getByLabel("Spec quantity").selectOption("length");
+  await builder.getByLabel("Spec unit").selectOption("mm");
+  await builder.getByLabel("Spec min").fill("0.45");
+  await builder.getByLabel("Spec max").fill("0.55");
+  await builder.getByRole("button", { name: "Preload calculator" }).click();
+  await expect(builder.getByTestId("save-status")).toHaveText(/Saved/, { timeout: 15_000 });
+  await builder.setViewportSize({ width: 1280, height: 1400 });
+  await builder.screenshot({ path: `${SHOTS}/editor-1280.png`, fullPage: true });
+  await builder.setViewportSize({ width: 768, height: 1024 });
+  await builder.screenshot({ path: `${SHOTS}/editor-768.png`, fullPage: true });
+  await builder.getByLabel(/Change note/).fill("First version of the ring gap check");
+  await builder.getByRole("button", { name: "Submit for review" }).click();
+  await expect(builder.getByTestId("state-badge")).toHaveText("In review");
+
+  const ed = await (await browser.newContext()).newPage();
+  await signIn(ed, "priya@larkspur.example");
+  await ed.goto("/");
+  await expect(ed.getByTestId("awaiting-review")).toContainText(title);
+  await ed.getByTestId("awaiting-review").getByRole("link", { name: new RegExp(title) }).click();
+  await expect(ed.getByTestId("text-diff")).toContainText("File the top ring");
+  await ed.screenshot({ path: `${SHOTS}/compare-1280.png`, fullPage: true });
+  await ed.getByRole("button", { name: /Publish revision 1/ }).click();
+  await expect(ed.getByTestId("procedure-title")).toHaveText(title);
+
+  const app = await (await browser.newContext()).newPage();
+  await signIn(app, "jamie@larkspur.example");
+  await app.goto("/procedures");
+  await app.getByRole("link", { name: title }).click();
+  await expect(app.getByTestId("spec-table")).toContainText("Top ring end gap");
+  const calc = app.locator("[data-calc-kind='preload']");
+  await expect(calc.getByTestId("calc-result")).toContainText("kN");
+  await calc.getByRole("button", { name: "Try your numbers" }).click();
+  await calc.getByLabel("torque").fill("80");
+  await expect(calc).toContainText("Your numbers");
+  await expect(calc.getByTestId("calc-result")).toContainText("80 N·m");
+
+  // The seeded procedure with three revisions, on desktop, tablet and print.
+  await app.goto("/procedures/head-stud-installation-and-torque-sequence");
+  await app.setViewportSize({ width: 1280, height: 900 });
+  await app.screenshot({ path: `${SHOTS}/read-1280.png`, fullPage: true });
+  await app.setViewportSize({ width: 768, height: 1024 });
+  await app.screenshot({ path: `${SHOTS}/read-768.png`, fullPage: true });
+  await app.goto("/procedures");
+  await app.screenshot({ path: `${SHOTS}/list-768.png`, fullPage: true });
+  await app.goto("/procedures/head-stud-installation-and-torque-sequence/history");
+  await app.screenshot({ path: `${SHOTS}/history-768.png`, fullPage: true });
+  await app.goto("/procedures/head-stud-installation-and-torque-sequence/print");
+  await app.emulateMedia({ media: "print" });
+  await app.setViewportSize({ width: 800, height: 1100 });
+  await app.screenshot({ path: `${SHOTS}/print.png`, fullPage: true });
+
+  // The author's publish e-mail shows in the fake's outbox (admin page).
+  const admin = await (await browser.newContext()).newPage();
+  await signIn(admin, "dana@larkspur.example");
+  await expect(async () => {
+    await admin.goto("/admin/outbox");
+    await expect(admin.getByText(`Published: ${title}`).first()).toBeVisible({ timeout: 2000 });
+  }).toPass({ timeout: 30_000 });
+});
