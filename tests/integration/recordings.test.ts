@@ -39,8 +39,8 @@ function upload(
     retryDelays: [],
     headers: { Origin: BASE_URL, Cookie: user.cookie },
     metadata: { filename: opts.name, filetype: "video/mp4", title: opts.title ?? opts.name, tags: opts.tags ?? "" },
-    fingerprint: opts.fingerprint ? async () => opts.fingerprint! : undefined,
-    urlStorage: opts.storage,
+    ...(opts.fingerprint ? { fingerprint: async () => opts.fingerprint! } : {}),
+    ...(opts.storage ? { urlStorage: opts.storage } : {}),
     storeFingerprintForResuming: Boolean(opts.storage),
     removeFingerprintOnSuccess: true,
     onProgress: (sent) => opts.onProgress?.(sent, u),
@@ -94,6 +94,7 @@ describe("tus upload", () => {
         if (sent >= big.length / 2) void u.abort();
       },
     });
+    first.upload.start();
     await waitFor(async () => first.upload.url && (await storage.findUploadsByFingerprint(fingerprint)).length > 0);
     await waitFor(async () => {
       const res = await http(first.upload.url!.replace(BASE_URL, ""), { cookie: builder.cookie });
@@ -166,7 +167,7 @@ describe("tus upload", () => {
       http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { "Tus-Resumable": "1.0.0", "Upload-Length": length, "Upload-Metadata": `filename ${Buffer.from(name).toString("base64")}` } });
     const huge = await post(String(21 * 1024 ** 3), "whole-day.mov");
     expect(huge.status).toBe(413);
-    expect(await huge.text()).toMatch(/larger than the shop's limit of 20\.0 GB/);
+    expect(await huge.text()).toMatch(/larger than the shop's limit of 20 GB/);
     const empty = await post("0", "empty.mp4");
     expect(empty.status).toBe(400);
     expect(await empty.text()).toMatch(/empty/);
