@@ -17,6 +17,13 @@ export default [
 
     // procedures
     route("procedures", "routes/procedures/index.tsx"),
+    route("procedures/new", "routes/procedures/new.tsx"),
+    route("procedures/:slug", "routes/procedures/read.tsx"),
+    route("procedures/:slug/history", "routes/procedures/history.tsx"),
+    route("procedures/:slug/compare", "routes/procedures/compare.tsx"),
+    route("procedures/:slug/print", "routes/procedures/print.tsx"),
+    route("procedures/:slug/r/:number", "routes/procedures/revision.tsx"),
+    route("procedures/:slug/r/:number/edit", "routes/procedures/edit.tsx"),
 
     // recordings
     route("recordings", "routes/recordings/index.tsx"),
@@ -44,6 +51,9 @@ export default [
   // ---- JSON API (resource routes) -----------------------------------------------------------
   ...prefix("api", [
     route("me", "routes/api/me.ts"),
+    route("procedures/titles", "routes/api/procedures/titles.ts"),
+    route("procedures/recordings", "routes/api/procedures/recordings.ts"),
+    route("procedures/revisions/:id", "routes/api/procedures/revision.ts"),
     route("calc/preload", "routes/api/calc.preload.ts"),
     route("calc/distortion", "routes/api/calc.distortion.ts"),
     route("calc/clearance", "routes/api/calc.clearance.ts"),

@@ -3,18 +3,20 @@ import type { Route } from "./+types/shop-floor";
 import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
 import { can, ROLE_LABELS } from "~/lib/permissions";
+import { awaitingReview } from "~/lib/procedures/workflow.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Shop floor · Benchreel" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  return { user };
+  const review = can(user.role, "procedure:review") ? await awaitingReview() : null;
+  return { user, review };
 }
 
 type Tile = { to: string; title: string; body: string; show: boolean };
 
 export default function ShopFloor({ loaderData }: Route.ComponentProps) {
-  const { user } = loaderData;
+  const { user, review } = loaderData;
   const first = user.name.split(" ")[0];
   const tiles: Tile[] = [
     { to: "/procedures", title: "Procedures", body: "How each job is done and why, with its specs.", show: true },
@@ -28,6 +30,23 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
       <PageHeader title={`Good to see you, ${first}`} kicker="Shop floor">
         Signed in as {ROLE_LABELS[user.role]}.
       </PageHeader>
+      {review && (
+        <section aria-labelledby="awaiting-review-h" className="card mb-6" data-testid="awaiting-review">
+          <h2 id="awaiting-review-h" className="text-lg">Awaiting review</h2>
+          {review.length === 0 ? (
+            <p className="mt-1 text-sm text-graphite-soft">No procedure revision is waiting for review.</p>
+          ) : (
+            <ul className="mt-2 divide-y divide-rule/70 text-sm">
+              {review.map((r) => (
+                <li key={`${r.slug}-${r.number}`} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
+                  <Link to={`/procedures/${r.slug}/compare?to=${r.number}`} className="font-semibold">{r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span></Link>
+                  <span className="text-graphite-soft">{r.author ?? "former staff"}{r.changeNote ? ` — ${r.changeNote}` : ""}</span>
+                </li>
+              ))}
+            </ul>
+          )}
+        </section>
+      )}
       <section aria-label="Sections" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
         {tiles
           .filter((t) => t.show)

@@ -32,6 +32,13 @@ export const MATRIX: Entry[] = [
   { path: "/", get: SIGNED_IN },
   { path: "/account", get: SIGNED_IN },
   { path: "/procedures", get: SIGNED_IN },
+  { path: "/procedures/new", get: only(["admin", "editor", "builder"]), post: only(["admin", "editor", "builder"], 400) },
+  { path: "/procedures/:slug", sample: "/procedures/no-such-procedure", get: { ...ALL(404), anon: 302 } },
+  { path: "/procedures/:slug/history", sample: "/procedures/no-such-procedure/history", get: { ...ALL(404), anon: 302 } },
+  { path: "/procedures/:slug/compare", sample: "/procedures/no-such-procedure/compare", get: { ...ALL(404), anon: 302 } },
+  { path: "/procedures/:slug/print", sample: "/procedures/no-such-procedure/print", get: { ...ALL(404), anon: 302 } },
+  { path: "/procedures/:slug/r/:number", sample: "/procedures/no-such-procedure/r/1", get: { ...ALL(404), anon: 302 } },
+  { path: "/procedures/:slug/r/:number/edit", sample: "/procedures/no-such-procedure/r/1/edit", get: only(["admin", "editor", "builder"], 404) },
   { path: "/recordings", get: SIGNED_IN },
   { path: "/test-records", get: SIGNED_IN },
   { path: "/calculators", get: SIGNED_IN },
@@ -45,6 +52,14 @@ export const MATRIX: Entry[] = [
 
   // ---- API ----
   { path: "/api/me", get: SIGNED_IN_API },
+  { path: "/api/procedures/titles", sample: "/api/procedures/titles?q=stud", get: SIGNED_IN_API },
+  { path: "/api/procedures/recordings", get: SIGNED_IN_API },
+  {
+    path: "/api/procedures/revisions/:id",
+    sample: "/api/procedures/revisions/00000000-0000-4000-8000-000000000000",
+    get: only(["admin", "editor", "builder"], 404, 401),
+    post: only(["admin", "editor", "builder"], 422, 401),
+  },
   { path: "/api/calc/preload", get: ALL(400), post: { ...ALL(400), anon: 401 }, note: "action only: GET gets the framework's 400 (no loader); an empty form is not JSON" },
   { path: "/api/calc/distortion", get: ALL(400), post: { ...ALL(400), anon: 401 } },
   { path: "/api/calc/clearance", get: ALL(400), post: { ...ALL(400), anon: 401 } },
