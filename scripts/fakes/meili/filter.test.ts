@@ -16,8 +16,8 @@ function show(n: FilterNode | null): string {
     case "cond": {
       const c = n.cond;
       if (c.op === "TO") return `${n.fid.value} ${c.from.value} TO ${c.to.value}`;
-      if (c.op === "EXISTS" || c.op === "NULL" || c.op === "EMPTY") return `${n.fid.value} ${c.op}`;
-      return `${n.fid.value} ${c.op} ${c.value.value}`;
+      if ("value" in c) return `${n.fid.value} ${c.op} ${c.value.value}`;
+      return `${n.fid.value} ${c.op}`;
     }
   }
 }
