@@ -60,7 +60,7 @@ test("Bore distortion updates out-of-round as readings are typed and converts µ
   await expect(page.getByTestId("calc-caution")).toContainText(CAUTION);
   await expect(page.getByTestId("bore-polar")).toHaveCount(3);
   await expect(page.getByTestId("exaggeration").first()).toContainText("deviation ×");
-  await expect(page.getByTestId("bore-profile").locator("svg")).toBeVisible();
+  await expect(page.getByTestId("bore-profile").getByRole("img")).toBeVisible();
   await expect(page.getByText("Why a two-point gauge cannot see order 3.")).toBeVisible();
 
   // Make the top level of the measured state 88.030 at 0°: out-of-round there = 88.030 − 87.997 = 33 µm.
@@ -73,7 +73,7 @@ test("Bore distortion updates out-of-round as readings are typed and converts µ
 test("Clearances: cold and hot against the spec, out of spec in red, units switch", async ({ page }) => {
   await signIn(page, "dana@larkspur.example", "/calculators/clearance");
   await expect(page.getByTestId("calc-caution")).toContainText(CAUTION);
-  await expect(page.getByTestId("clearance-chart").locator("svg")).toBeVisible();
+  await expect(page.getByTestId("clearance-chart").getByRole("img")).toBeVisible();
   await expect(page.getByTestId("result-hot")).toBeVisible();
 
   await page.getByLabel("Piston at the gauge point", { exact: true }).fill("87.912");
@@ -85,6 +85,6 @@ test("Clearances: cold and hot against the spec, out of spec in red, units switc
   await expect(page.getByTestId("result-clearance")).toHaveText(((0.05 / 25.4) * 1000).toFixed(3));
 
   await page.getByText("Ring end gap", { exact: true }).click();
-  await expect(page.getByTestId("clearance-chart").locator("svg")).toBeVisible();
+  await expect(page.getByTestId("clearance-chart").getByRole("img")).toBeVisible();
   await expect(page.getByText("Shop guidance (common practice, no standard)")).toBeVisible();
 });

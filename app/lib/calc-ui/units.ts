@@ -45,7 +45,7 @@ const DECIMALS: Partial<Record<UnitCode, number>> = {
 
 /** Decimals shown for a value in this unit (tabular, so columns line up). */
 export function decimalsFor(unit: UnitCode, extra = 0): number {
-  return (DECIMALS[unit] ?? 3) + extra;
+  return Math.max(0, (DECIMALS[unit] ?? 3) + extra);
 }
 
 /** A number with a fixed count of decimals and thousands separators ("76,389"). */
