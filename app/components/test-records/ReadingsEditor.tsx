@@ -1,0 +1,200 @@
+import { useMemo, useState } from "react";
+import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
+import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
+import { fmtNum, limitsText, ReadingVerdictTag, SpecVerdictTag, unitText, VerdictBadge } from "./parts";
+
+export type EditorSpec = SpecLimits & { note: string };
+type Row = { value: string; unit: string; note: string; src: string };
+export type PullReading = { id: string; quantity: string; label: string; valueEntered: number; unitEntered: string; t: number | null };
+
+/** Rows from posted values (r.<specId>.<i>.value …) or from stored readings. */
+export function rowsFromValues(specs: EditorSpec[], values: Record<string, string> | undefined): Record<string, Row[]> {
+  const out: Record<string, Row[]> = {};
+  if (!values) return out;
+  const idx = new Map<string, Set<number>>();
+  for (const k of Object.keys(values)) {
+    const m = /^r\.([0-9a-f-]{36})\.(\d+)\.value$/.exec(k);
+    if (m) idx.set(m[1], (idx.get(m[1]) ?? new Set()).add(Number(m[2])));
+  }
+  for (const s of specs) {
+    const is = [...(idx.get(s.id) ?? [])].sort((a, b) => a - b);
+    out[s.id] = is.map((i) => ({ value: values[`r.${s.id}.${i}.value`] ?? "", unit: values[`r.${s.id}.${i}.unit`] || s.unit, note: values[`r.${s.id}.${i}.note`] ?? "", src: values[`r.${s.id}.${i}.src`] ?? "" }));
+  }
+  return out;
+}
+
+const clock = (t: number) => `${Math.floor(t / 60)}:${String(Math.floor(t % 60)).padStart(2, "0")}`;
+
+export function ReadingsEditor({
+  specs,
+  initial,
+  errors,
+  pull,
+}: {
+  specs: EditorSpec[];
+  initial: Record<string, Row[]>;
+  errors: Record<string, string>;
+  pull?: PullReading[];
+}) {
+  const [rows, setRows] = useState<Record<string, Row[]>>(() =>
+    Object.fromEntries(specs.map((s) => [s.id, initial[s.id]?.length ? initial[s.id] : [{ value: "", unit: s.unit, note: "", src: "" }]])),
+  );
+  const [used, setUsed] = useState<Set<string>>(() => new Set(Object.values(initial).flat().map((r) => r.src).filter(Boolean)));
+
+  const set = (specId: string, i: number, patch: Partial<Row>) =>
+    setRows((prev) => ({ ...prev, [specId]: prev[specId].map((r, j) => (j === i ? { ...r, ...patch } : r)) }));
+  const add = (specId: string, row?: Partial<Row>) =>
+    setRows((prev) => {
+      const s = specs.find((x) => x.id === specId)!;
+      const list = prev[specId].filter((r) => r.value.trim() !== "" || r.note.trim() !== "");
+      return { ...prev, [specId]: [...list, { value: "", unit: list.at(-1)?.unit ?? s.unit, note: "", src: "", ...row }] };
+    });
+  const remove = (specId: string, i: number) =>
+    setRows((prev) => {
+      const gone = prev[specId][i];
+      if (gone?.src) setUsed((u) => new Set([...u].filter((x) => x !== gone.src)));
+      const next = prev[specId].filter((_, j) => j !== i);
+      return { ...prev, [specId]: next.length ? next : [{ value: "", unit: specs.find((x) => x.id === specId)!.unit, note: "", src: "" }] };
+    });
+
+  const evaluation = useMemo(() => {
+    const typed: Record<string, { value: number; unit: string }[]> = {};
+    for (const s of specs) {
+      for (const r of rows[s.id] ?? []) {
+        const v = Number(r.value.replace(",", "."));
+        if (r.value.trim() === "" || !Number.isFinite(v)) continue;
+        try {
+          readingVerdict(s, { value: v, unit: r.unit });
+          (typed[s.id] ??= []).push({ value: v, unit: r.unit });
+        } catch {
+          /* shown at the field on submit */
+        }
+      }
+    }
+    return evaluateRecord(specs, typed);
+  }, [rows, specs]);
+
+  return (
+    <div className="space-y-4">
+      {pull && pull.length > 0 && (
+        <section className="card p-4" aria-labelledby="pull-h">
+          <h3 id="pull-h" className="text-base">Readings typed on the recording</h3>
+          <p className="text-sm text-graphite-soft">Pull a reading into the spec it belongs to; it keeps a link to its moment.</p>
+          <ul className="mt-2 divide-y divide-rule/60 text-sm">
+            {pull.map((p) => {
+              const fits = specs.filter((s) => s.quantity === p.quantity);
+              return (
+                <li key={p.id} className="flex flex-wrap items-center gap-2 py-1.5" data-testid="pull-reading">
+                  <span className="num w-14 text-graphite-soft">{p.t != null ? clock(p.t) : "—"}</span>
+                  <span className="num font-semibold">{fmtNum(p.valueEntered)} {unitText(p.unitEntered)}</span>
+                  <span className="min-w-0 flex-1 truncate">{p.label}</span>
+                  {used.has(p.id) ? (
+                    <span className="text-graphite-soft">pulled in</span>
+                  ) : fits.length ? (
+                    <select
+                      className="field w-auto py-1 text-sm"
+                      aria-label={`Pull ${p.label || "reading"} into spec`}
+                      value=""
+                      onChange={(e) => {
+                        if (!e.target.value) return;
+                        add(e.target.value, { value: String(p.valueEntered), unit: p.unitEntered, note: p.label, src: p.id });
+                        setUsed((u) => new Set(u).add(p.id));
+                      }}
+                    >
+                      <option value="">Pull into…</option>
+                      {fits.map((s) => <option key={s.id} value={s.id}>{s.label}</option>)}
+                    </select>
+                  ) : (
+                    <span className="text-graphite-soft">no {p.quantity} spec</span>
+                  )}
+                </li>
+              );
+            })}
+          </ul>
+        </section>
+      )}
+
+      {specs.map((s) => {
+        const ev = evaluation.specs.find((e) => e.spec.id === s.id)!;
+        const kind = s.quantity as UnitKind;
+        return (
+          <fieldset key={s.id} className="card p-4" data-testid="spec-readings" data-spec={s.label}>
+            <legend className="sr-only">{s.label}</legend>
+            <div className="flex flex-wrap items-baseline justify-between gap-2">
+              <div>
+                <h3 className="text-base" aria-hidden="true">{s.label}</h3>
+                <p className="num text-sm text-graphite-soft">
+                  Spec {limitsText(s)}
+                  {s.note && <> · {s.note}</>}
+                </p>
+              </div>
+              <SpecVerdictTag verdict={ev.verdict} />
+            </div>
+            <div className="mt-2 space-y-2">
+              {(rows[s.id] ?? []).map((r, i) => {
+                const base = `r.${s.id}.${i}`;
+                const v = Number(r.value.replace(",", "."));
+                let verdict: ReturnType<typeof readingVerdict> | null = null;
+                if (r.value.trim() !== "" && Number.isFinite(v)) {
+                  try {
+                    verdict = readingVerdict(s, { value: v, unit: r.unit });
+                  } catch {
+                    verdict = null;
+                  }
+                }
+                const err = errors[`${base}.value`] ?? errors[`${base}.unit`];
+                return (
+                  <div key={i}>
+                    <div className="grid grid-cols-[minmax(6rem,9rem)_6.5rem_minmax(0,1fr)_auto] items-center gap-2 max-sm:grid-cols-[1fr_6rem_auto]">
+                      <input
+                        name={`${base}.value`}
+                        inputMode="decimal"
+                        autoComplete="off"
+                        className="field num text-right"
+                        aria-label={`${s.label} reading ${i + 1}`}
+                        aria-invalid={err ? true : undefined}
+                        value={r.value}
+                        onChange={(e) => set(s.id, i, { value: e.target.value })}
+                      />
+                      <select name={`${base}.unit`} className="field" aria-label={`${s.label} reading ${i + 1} unit`} value={r.unit} onChange={(e) => set(s.id, i, { unit: e.target.value })}>
+                        {(UNIT_OPTIONS[kind] ?? []).map((u) => <option key={u.code} value={u.code}>{u.label}</option>)}
+                      </select>
+                      <input
+                        name={`${base}.note`}
+                        className="field max-sm:col-span-2 max-sm:row-start-2"
+                        placeholder="where: cyl 2, 20 mm down, 90°"
+                        aria-label={`${s.label} reading ${i + 1} where`}
+                        value={r.note}
+                        onChange={(e) => set(s.id, i, { note: e.target.value })}
+                      />
+                      <div className="flex items-center gap-2 whitespace-nowrap max-sm:row-start-2">
+                        <span className="inline-block w-20 text-right">{verdict ? <ReadingVerdictTag verdict={verdict.verdict} /> : <span className="text-sm text-graphite-soft">—</span>}</span>
+                        <button type="button" className="text-sm text-graphite-soft underline-offset-2 hover:underline" onClick={() => remove(s.id, i)} aria-label={`Remove ${s.label} reading ${i + 1}`}>
+                          Remove
+                        </button>
+                      </div>
+                      {r.src && <input type="hidden" name={`${base}.src`} value={r.src} />}
+                    </div>
+                    {err && <p className="field-error" role="alert">{err}</p>}
+                  </div>
+                );
+              })}
+            </div>
+            <button type="button" className="btn mt-2 py-1 text-sm" onClick={() => add(s.id)}>+ Another reading</button>
+          </fieldset>
+        );
+      })}
+
+      <div className="card flex flex-wrap items-center justify-between gap-3 border-brass/40 bg-brass-soft/30 p-4" aria-live="polite" data-testid="verdict-preview">
+        <div>
+          <p className="text-sm font-semibold">Verdict as typed</p>
+          <p className="num text-sm text-graphite-soft">
+            {evaluation.counts.within} within · {evaluation.counts.out} out · {evaluation.counts.notMeasured} not measured
+            {evaluation.notMeasured.length > 0 && <> ({evaluation.notMeasured.map((s) => s.label).join(", ")})</>}
+          </p>
+        </div>
+        <VerdictBadge verdict={evaluation.verdict} size="lg" />
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,90 @@
+import { Link } from "react-router";
+import type { SpecVerdict } from "~/lib/test-records/verdict";
+import { fmtDay, fmtNum, limitsText, ReadingVerdictTag, SpecVerdictTag, unitText } from "./parts";
+
+type Spec = { id: string; specKey: string; label: string; unit: string; min: number | null; max: number | null; nominal: number | null; note: string };
+type Reading = { id: string; specId: string; position: number; valueEntered: number; unitEntered: string; valueInSpecUnit: number; verdict: "within" | "below" | "above" | "unchecked"; note: string; sourceReadingId: string | null };
+
+/** Readings grouped by spec, each with its verdict; specs without readings say "Not measured". */
+export function ReadingsTable({
+  specs,
+  readings,
+  specVerdicts,
+  currentSpecs,
+  currentNumber,
+  recording,
+}: {
+  specs: Spec[];
+  readings: Reading[];
+  specVerdicts: { specId: string; verdict: SpecVerdict }[];
+  currentSpecs?: Spec[] | null;
+  currentNumber?: number | null;
+  recording?: { id: string } | null;
+}) {
+  return (
+    <table className="readings-table w-full text-left text-sm" data-testid="readings-table">
+      <thead className="border-y border-rule bg-paper-deep/60 text-xs uppercase tracking-wide text-graphite-soft">
+        <tr>
+          <th className="px-3 py-1.5">Spec</th>
+          <th className="px-3 py-1.5">Limits (filed revision)</th>
+          {currentSpecs && <th className="px-3 py-1.5">Limits now (rev. {currentNumber})</th>}
+          <th className="px-3 py-1.5 text-right">Reading</th>
+          <th className="px-3 py-1.5 text-right">In spec unit</th>
+          <th className="px-3 py-1.5">Verdict</th>
+          <th className="px-3 py-1.5">Where</th>
+        </tr>
+      </thead>
+      {specs.map((s) => {
+        const rs = readings.filter((r) => r.specId === s.id).sort((a, b) => a.position - b.position);
+        const sv = specVerdicts.find((v) => v.specId === s.id)?.verdict ?? "not-measured";
+        const now = currentSpecs?.find((c) => c.specKey === s.specKey);
+        const changed = now && (now.min !== s.min || now.max !== s.max || now.unit !== s.unit);
+        const head = (
+          <>
+            <td className="px-3 py-1.5 align-top font-semibold" rowSpan={Math.max(rs.length, 1)}>
+              {s.label}
+              <div className="font-normal"><SpecVerdictTag verdict={sv} /></div>
+            </td>
+            <td className="num px-3 py-1.5 align-top" rowSpan={Math.max(rs.length, 1)}>{limitsText(s)}</td>
+            {currentSpecs && (
+              <td className={`num px-3 py-1.5 align-top ${changed ? "font-semibold text-brass" : "text-graphite-soft"}`} rowSpan={Math.max(rs.length, 1)}>
+                {now ? `${limitsText(now)}${changed ? " (changed)" : ""}` : "no longer in the procedure"}
+              </td>
+            )}
+          </>
+        );
+        return (
+          <tbody key={s.id} className="num border-b border-rule/70" data-testid="spec-row" data-spec={s.label}>
+            {rs.length ? (
+              rs.map((r, i) => (
+                <tr key={r.id}>
+                  {i === 0 && head}
+                  <td className="px-3 py-1 text-right">{fmtNum(r.valueEntered)} {unitText(r.unitEntered)}</td>
+                  <td className="px-3 py-1 text-right text-graphite-soft">{r.unitEntered === s.unit ? "" : `${fmtNum(r.valueInSpecUnit)} ${unitText(s.unit)}`}</td>
+                  <td className="px-3 py-1"><ReadingVerdictTag verdict={r.verdict} /></td>
+                  <td className="px-3 py-1 font-sans text-graphite-soft">
+                    {r.note}
+                    {r.sourceReadingId && recording && <> · <Link to={`/recordings/${recording.id}`} className="no-print">from the recording</Link></>}
+                  </td>
+                </tr>
+              ))
+            ) : (
+              <tr>
+                {head}
+                <td className="px-3 py-1 text-right italic text-brass" colSpan={4}>not measured</td>
+              </tr>
+            )}
+          </tbody>
+        );
+      })}
+    </table>
+  );
+}
+
+export function FiledLine({ testedOn, by, createdAt }: { testedOn: string; by: string | null; createdAt: string | Date }) {
+  return (
+    <span className="num">
+      Tested {fmtDay(testedOn)} · filed by {by ?? "a former member of staff"} on {fmtDay(createdAt)}
+    </span>
+  );
+}

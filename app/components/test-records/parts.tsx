@@ -1,0 +1,119 @@
+import { Link } from "react-router";
+import { unitLabel, type UnitCode } from "~/lib/calc";
+import { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/verdict";
+
+export function unitText(u: string): string {
+  try {
+    return unitLabel(u as UnitCode) ?? u;
+  } catch {
+    return u;
+  }
+}
+
+export const fmtDay = (d: string | Date | null | undefined) =>
+  d ? new Date(typeof d === "string" && d.length === 10 ? `${d}T12:00:00Z` : d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }) : "";
+
+/** A number as typed in the shop: no float noise (88.00600000000001 → 88.006). */
+export function fmtNum(n: number | null | undefined, digits = 6): string {
+  if (n == null || !Number.isFinite(n)) return "—";
+  return String(Number(n.toPrecision(digits + 4)));
+}
+
+export function limitsText(s: { min: number | null; max: number | null; nominal?: number | null; unit: string }): string {
+  const u = unitText(s.unit);
+  if (s.min != null && s.max != null) return `${fmtNum(s.min)} – ${fmtNum(s.max)} ${u}`;
+  if (s.min != null) return `≥ ${fmtNum(s.min)} ${u}`;
+  if (s.max != null) return `≤ ${fmtNum(s.max)} ${u}`;
+  return s.nominal != null ? `nominal ${fmtNum(s.nominal)} ${u} (no limit)` : "no limit";
+}
+
+/** The record's verdict: calm for within; red is kept for "Out of spec". */
+export function VerdictBadge({ verdict, size = "sm" }: { verdict: RecordVerdict | null; size?: "sm" | "lg" }) {
+  const big = size === "lg" ? "px-3 py-1 text-base" : "px-1.5 py-0.5 text-xs";
+  if (!verdict) return <span className={`inline-block rounded border border-dashed border-rule font-semibold text-graphite-soft ${big}`} data-testid="verdict">No readings yet</span>;
+  const cls = verdict === "out" ? "border-spec-red bg-spec-red-soft text-spec-red" : "border-ok/30 bg-ok-soft text-ok";
+  return (
+    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded border font-semibold ${cls} ${big}`} data-testid="verdict">
+      <span aria-hidden="true">{verdict === "out" ? "✕" : "✓"}</span>
+      {RECORD_VERDICT_LABELS[verdict]}
+    </span>
+  );
+}
+
+export function SpecVerdictTag({ verdict }: { verdict: SpecVerdict }) {
+  const cls =
+    verdict === "out" ? "text-spec-red" : verdict === "within" ? "text-ok" : verdict === "not-measured" ? "text-brass italic" : "text-graphite-soft";
+  return <span className={`text-sm font-semibold ${cls}`} data-testid="spec-verdict">{SPEC_VERDICT_LABELS[verdict]}</span>;
+}
+
+export function ReadingVerdictTag({ verdict }: { verdict: ReadingVerdict }) {
+  const cls = verdict === "below" || verdict === "above" ? "font-semibold text-spec-red" : verdict === "within" ? "text-ok" : "text-graphite-soft";
+  return <span className={`text-sm ${cls}`} data-testid="reading-verdict">{READING_VERDICT_LABELS[verdict]}</span>;
+}
+
+export type RecordRow = {
+  id: string;
+  title: string;
+  workOrder: string;
+  testedOn: string;
+  verdict: RecordVerdict;
+  currentVersion: number;
+  procedureTitle: string;
+  slug: string;
+  revisionNumber: number;
+  revisionState: string;
+  by: string | null;
+};
+
+/** The compact list used on a procedure page and the Shop floor. */
+export function RecordMiniList({ rows, showProcedure = false }: { rows: RecordRow[]; showProcedure?: boolean }) {
+  return (
+    <ul className="divide-y divide-rule/70" data-testid="test-record-list">
+      {rows.map((r) => (
+        <li key={r.id} className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-0.5 py-1.5">
+          <span className="min-w-0">
+            <Link to={`/test-records/${r.id}`} className="num font-semibold">{r.workOrder}</Link>{" "}
+            <span className="num text-sm text-graphite-soft">
+              {fmtDay(r.testedOn)} · rev. {r.revisionNumber}
+              {r.revisionState === "superseded" && " (superseded)"}
+            </span>
+            {showProcedure && <span className="block truncate text-sm text-graphite-soft">{r.procedureTitle}</span>}
+          </span>
+          <VerdictBadge verdict={r.verdict} />
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+/** The procedure page's "Test records" section. */
+export function ProcedureTestRecords({ rows, slug, canFile }: { rows: RecordRow[]; slug: string; canFile: boolean }) {
+  const out = rows.filter((r) => r.verdict === "out").length;
+  return (
+    <section className="card p-4" aria-labelledby="tests-h" data-testid="procedure-test-records">
+      <h2 id="tests-h" className="text-base">Test records</h2>
+      {rows.length ? (
+        <>
+          <p className="num mt-0.5 text-sm text-graphite-soft">
+            {rows.length} filed{out ? `, ${out} out of spec` : ""}
+          </p>
+          <RecordMiniList rows={rows} />
+          <p className="mt-1 text-sm"><Link to={`/test-records?procedure=${encodeURIComponent(slug)}`}>All records for this procedure</Link></p>
+        </>
+      ) : (
+        <p className="mt-1 text-graphite-soft">No test record has been filed against this procedure yet.</p>
+      )}
+      {canFile && (
+        <Link to={`/test-records/new?procedure=${encodeURIComponent(slug)}`} className="btn mt-2 w-full no-underline">File a test record</Link>
+      )}
+    </section>
+  );
+}
+
+export function SafetyNote() {
+  return (
+    <p className="text-xs text-graphite-soft">
+      Limits are the procedure revision's own. For torque, fastener and machining values the fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.
+    </p>
+  );
+}

@@ -1,0 +1,108 @@
+/**
+ * Reading fields of the test record form (shared by the new-record and amend forms and their
+ * server actions). Field names: r.<specId>.<i>.value / .unit / .note / .src (a recording
+ * reading pulled in). Pure: no database.
+ */
+import { z } from "zod";
+import { unitKind } from "~/lib/calc";
+import type { FieldErrors } from "~/lib/forms";
+import { readingVerdict, VerdictInputError, type SpecLimits } from "./verdict";
+
+export type TypedReading = { value: number; unit: string; note: string; sourceReadingId: string | null };
+
+export const WORK_ORDER_PATTERN = /^[A-Z]{2,5}-\d{2}-\d{3,5}$/;
+
+const optionalSeconds = z
+  .string()
+  .trim()
+  .default("")
+  .transform((s) => (s === "" ? null : Number(s.replace(",", "."))))
+  .refine((n) => n === null || (Number.isFinite(n) && n >= 0), { message: "Seconds from the start of the recording, 0 or more." });
+
+export const headerSchema = z
+  .object({
+    title: z.string().trim().min(3, { message: "Give the record a title of at least 3 characters." }).max(200, { message: "At most 200 characters." }),
+    testedOn: z
+      .string()
+      .trim()
+      .regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Enter the date of the test." })
+      .refine((s) => !Number.isNaN(Date.parse(s)) && Date.parse(s) <= Date.now() + 36 * 3600 * 1000, { message: "The test date cannot be in the future." }),
+    engineSerial: z.string().trim().max(80, { message: "At most 80 characters." }).default(""),
+    notes: z.string().trim().max(5000, { message: "At most 5000 characters." }).default(""),
+    recordingStartS: optionalSeconds,
+    recordingEndS: optionalSeconds,
+  })
+  .refine((h) => h.recordingStartS == null || h.recordingEndS == null || h.recordingEndS >= h.recordingStartS, {
+    message: "The span must end after it starts.",
+    path: ["recordingEndS"],
+  });
+
+export const newRecordSchema = z
+  .object({
+    workOrder: z
+      .string()
+      .trim()
+      .transform((s) => s.toUpperCase())
+      .pipe(z.string().regex(WORK_ORDER_PATTERN, { message: "Work orders look like LEW-24-0117." })),
+    revisionId: z.string().uuid({ message: "Choose a procedure first." }),
+    recordingId: z
+      .string()
+      .trim()
+      .default("")
+      .refine((s) => s === "" || z.string().uuid().safeParse(s).success, { message: "Unknown recording." }),
+  })
+  .and(headerSchema);
+
+export const amendSchema = z
+  .object({
+    reason: z.string().trim().min(5, { message: "Say why the record is amended (at least 5 characters)." }).max(2000, { message: "At most 2000 characters." }),
+  })
+  .and(headerSchema);
+
+/** Reads the reading rows from the form; blank rows are ignored; bad rows get field errors. */
+export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: Record<string, TypedReading[]>; errors: FieldErrors; count: number } {
+  const readings: Record<string, TypedReading[]> = {};
+  const errors: FieldErrors = {};
+  let count = 0;
+  const byId = new Map(specs.map((s) => [s.id, s]));
+  const rows = new Map<string, { specId: string; i: number }>();
+  for (const key of form.keys()) {
+    const m = /^r\.([0-9a-f-]{36})\.(\d{1,3})\.value$/.exec(key);
+    if (m) rows.set(`${m[1]}.${m[2]}`, { specId: m[1], i: Number(m[2]) });
+  }
+  const sorted = [...rows.values()].sort((a, b) => (a.specId === b.specId ? a.i - b.i : 0));
+  for (const { specId, i } of sorted) {
+    const base = `r.${specId}.${i}`;
+    const spec = byId.get(specId);
+    const raw = String(form.get(`${base}.value`) ?? "").trim();
+    const unit = String(form.get(`${base}.unit`) ?? "").trim();
+    const note = String(form.get(`${base}.note`) ?? "").trim().slice(0, 200);
+    const src = String(form.get(`${base}.src`) ?? "").trim();
+    if (raw === "") continue;
+    if (!spec) {
+      errors[`${base}.value`] = "This spec is not in the revision the record is filed against.";
+      continue;
+    }
+    const value = Number(raw.replace(",", "."));
+    if (!/^[-+]?(\d+([.,]\d*)?|[.,]\d+)(e[-+]?\d+)?$/i.test(raw) || !Number.isFinite(value)) {
+      errors[`${base}.value`] = "Enter a number, e.g. 88.006.";
+      continue;
+    }
+    if (!unitKind(unit)) {
+      errors[`${base}.unit`] = "Choose a unit.";
+      continue;
+    }
+    try {
+      readingVerdict(spec, { value, unit });
+    } catch (err) {
+      if (err instanceof VerdictInputError) {
+        errors[`${base}.${err.field}`] = err.message;
+        continue;
+      }
+      throw err;
+    }
+    (readings[specId] ??= []).push({ value, unit, note, sourceReadingId: /^[0-9a-f-]{36}$/.test(src) ? src : null });
+    count++;
+  }
+  return { readings, errors, count };
+}

@@ -1,0 +1,424 @@
+/**
+ * The test record workflow: file a record pinned to the revision published at that moment,
+ * amend it (a new version of the readings; the earlier ones stay; audit log), run a calculator
+ * on its readings, and the queries behind the list, the procedure page and the Shop floor.
+ */
+import { and, asc, desc, eq, gte, ilike, inArray, lte, sql, type SQL } from "drizzle-orm";
+import {
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  readings as recordingReadings,
+  recordings,
+  testRecordAmendments,
+  testRecordCalcs,
+  testRecordReadings,
+  testRecords,
+  users,
+  type AmendmentChange,
+} from "~/db/schema";
+import { audit } from "~/lib/audit.server";
+import { db, type DbOrTx } from "~/lib/db.server";
+import { toSI, type UnitCode } from "~/lib/calc";
+import type { TypedReading } from "./form";
+import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
+import { evaluateRecord, readingVerdict, type RecordVerdict, type SpecLimits } from "./verdict";
+
+export class TestRecordError extends Error {
+  constructor(
+    message: string,
+    readonly status: number,
+    readonly field?: string,
+  ) {
+    super(message);
+  }
+}
+
+type Actor = { id: string; name?: string };
+export type SpecRow = typeof procedureSpecs.$inferSelect;
+
+export function limitsOf(s: SpecRow): SpecLimits {
+  return { id: s.id, label: s.label, quantity: s.quantity, unit: s.unit, min: s.min, max: s.max, nominal: s.nominal };
+}
+
+async function specsOfRevision(tx: DbOrTx, revisionId: string): Promise<SpecRow[]> {
+  return tx.select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position));
+}
+
+// ---- filing -----------------------------------------------------------------------------------
+
+/** What the new-record form needs: the procedure, its revision in force now, and its specs. */
+export async function procedureForFiling(slugOrId: string) {
+  const isId = /^[0-9a-f-]{36}$/.test(slugOrId);
+  const [p] = await db()
+    .select()
+    .from(procedures)
+    .where(isId ? eq(procedures.id, slugOrId) : eq(procedures.slug, slugOrId));
+  if (!p || !p.publishedRevisionId) return null;
+  const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, p.publishedRevisionId));
+  if (!rev) return null;
+  const specs = await specsOfRevision(db(), rev.id);
+  return { procedure: p, revision: rev, specs };
+}
+
+export async function publishedProcedureOptions() {
+  return db()
+    .select({ id: procedures.id, slug: procedures.slug, title: procedures.title })
+    .from(procedures)
+    .where(sql`${procedures.publishedRevisionId} is not null`)
+    .orderBy(asc(procedures.title));
+}
+
+export async function recordingForFiling(id: string) {
+  if (!/^[0-9a-f-]{36}$/.test(id)) return null;
+  const [r] = await db().select({ id: recordings.id, title: recordings.title, durationS: recordings.durationS }).from(recordings).where(eq(recordings.id, id));
+  if (!r) return null;
+  const rs = await db()
+    .select({ id: recordingReadings.id, quantity: recordingReadings.quantity, label: recordingReadings.label, valueEntered: recordingReadings.valueEntered, unitEntered: recordingReadings.unitEntered, t: recordingReadings.t })
+    .from(recordingReadings)
+    .where(eq(recordingReadings.recordingId, id))
+    .orderBy(asc(recordingReadings.t));
+  return { ...r, readings: rs };
+}
+
+export type NewRecordInput = HeaderFields & { workOrder: string; revisionId: string; recordingId: string | null; readings: Record<string, TypedReading[]> };
+
+function rowsFor(recordId: string, version: number, specs: SpecRow[], typed: Record<string, TypedReading[]>) {
+  const rows: (typeof testRecordReadings.$inferInsert)[] = [];
+  for (const s of specs) {
+    (typed[s.id] ?? []).forEach((r, i) => {
+      const v = readingVerdict(limitsOf(s), r);
+      rows.push({
+        recordId,
+        version,
+        specId: s.id,
+        specKey: s.specKey,
+        position: i,
+        valueEntered: r.value,
+        unitEntered: r.unit,
+        valueSi: toSI(r.value, r.unit as UnitCode),
+        valueInSpecUnit: v.valueInSpecUnit,
+        verdict: v.verdict,
+        note: r.note,
+        sourceReadingId: r.sourceReadingId,
+      });
+    });
+  }
+  return rows;
+}
+
+/**
+ * Files a record. The revision is the one published when the transaction runs; if another
+ * revision was published since the form was opened, the inspector is told and nothing is lost.
+ */
+export async function createTestRecord(actor: Actor, input: NewRecordInput): Promise<{ id: string; verdict: RecordVerdict }> {
+  return db().transaction(async (tx) => {
+    const [rev] = await tx.select().from(procedureRevisions).where(eq(procedureRevisions.id, input.revisionId));
+    if (!rev) throw new TestRecordError("That procedure revision does not exist.", 400, "revisionId");
+    const [proc] = await tx.select().from(procedures).where(eq(procedures.id, rev.procedureId)).for("share");
+    if (!proc || proc.publishedRevisionId !== rev.id) {
+      const [now] = proc?.publishedRevisionId ? await tx.select({ number: procedureRevisions.number }).from(procedureRevisions).where(eq(procedureRevisions.id, proc.publishedRevisionId)) : [];
+      throw new TestRecordError(
+        now
+          ? `Revision ${now.number} of this procedure was published while the form was open; reload the form to check the readings against its specs.`
+          : "This procedure has no published revision to file against.",
+        409,
+        "revisionId",
+      );
+    }
+    const specs = await specsOfRevision(tx, rev.id);
+    const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
+    if (!evaluation.verdict) throw new TestRecordError("Type at least one reading.", 400, "readings");
+    if (input.recordingId) {
+      const [r] = await tx.select({ id: recordings.id }).from(recordings).where(eq(recordings.id, input.recordingId));
+      if (!r) throw new TestRecordError("That recording does not exist.", 400, "recordingId");
+    }
+    const [rec] = await tx
+      .insert(testRecords)
+      .values({
+        procedureId: proc.id,
+        revisionId: rev.id,
+        title: input.title,
+        workOrder: input.workOrder,
+        engineSerial: input.engineSerial,
+        testedOn: input.testedOn,
+        recordingId: input.recordingId,
+        recordingStartS: input.recordingId ? input.recordingStartS : null,
+        recordingEndS: input.recordingId ? input.recordingEndS : null,
+        notes: input.notes,
+        verdict: evaluation.verdict,
+        createdBy: actor.id,
+      })
+      .returning({ id: testRecords.id });
+    await tx.insert(testRecordReadings).values(rowsFor(rec.id, 0, specs, input.readings));
+    await audit(tx, actor.id, "create", "test_record", rec.id, {
+      workOrder: input.workOrder,
+      revisionId: rev.id,
+      revision: rev.number,
+      verdict: evaluation.verdict,
+      readings: Object.values(input.readings).flat().length,
+    });
+    return { id: rec.id, verdict: evaluation.verdict };
+  });
+}
+
+// ---- amending ---------------------------------------------------------------------------------
+
+export type AmendInput = HeaderFields & { reason: string; readings: Record<string, TypedReading[]> };
+
+export async function amendTestRecord(actor: Actor, recordId: string, input: AmendInput): Promise<{ version: number; verdict: RecordVerdict; changes: AmendmentChange[] }> {
+  return db().transaction(async (tx) => {
+    const [rec] = await tx.select().from(testRecords).where(eq(testRecords.id, recordId)).for("update");
+    if (!rec) throw new TestRecordError("No such test record.", 404);
+    const specs = await specsOfRevision(tx, rec.revisionId);
+    const current = await tx
+      .select()
+      .from(testRecordReadings)
+      .where(and(eq(testRecordReadings.recordId, rec.id), eq(testRecordReadings.version, rec.currentVersion)))
+      .orderBy(asc(testRecordReadings.position));
+    const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
+    if (!evaluation.verdict) throw new TestRecordError("An amended record still needs at least one reading.", 400, "readings");
+    const order = new Map(specs.map((s, i) => [s.id, i]));
+    const sortReadings = <T extends { specId: string }>(rs: T[]) => [...rs].sort((a, b) => (order.get(a.specId) ?? 0) - (order.get(b.specId) ?? 0));
+    const changes = diffAmendment(
+      {
+        header: { title: rec.title, engineSerial: rec.engineSerial, testedOn: rec.testedOn, notes: rec.notes, recordingStartS: rec.recordingStartS, recordingEndS: rec.recordingEndS },
+        readings: sortReadings(current).map((r) => ({ specId: r.specId, value: r.valueEntered, unit: r.unitEntered, note: r.note })),
+      },
+      {
+        header: { title: input.title, engineSerial: input.engineSerial, testedOn: input.testedOn, notes: input.notes, recordingStartS: rec.recordingId ? input.recordingStartS : null, recordingEndS: rec.recordingId ? input.recordingEndS : null },
+        readings: specs.flatMap((s) => (input.readings[s.id] ?? []).map((r) => ({ specId: s.id, value: r.value, unit: r.unit, note: r.note }))),
+      },
+      new Map(specs.map((s) => [s.id, s.label])),
+    );
+    if (!changes.length) throw new TestRecordError("Nothing was changed: the amendment would be the same as the record.", 400, "form");
+    const version = rec.currentVersion + 1;
+    const readingsChanged = changes.some((c) => c.kind === "spec");
+    if (readingsChanged) {
+      await tx.insert(testRecordReadings).values(rowsFor(rec.id, version, specs, input.readings));
+    } else {
+      // Same readings: carry the set over unchanged so each version is complete on its own.
+      await tx.insert(testRecordReadings).values(
+        current.map((r) => ({ recordId: r.recordId, version, specId: r.specId, specKey: r.specKey, position: r.position, valueEntered: r.valueEntered, unitEntered: r.unitEntered, valueSi: r.valueSi, valueInSpecUnit: r.valueInSpecUnit, verdict: r.verdict, note: r.note, sourceReadingId: r.sourceReadingId })),
+      );
+    }
+    await tx.insert(testRecordAmendments).values({ recordId: rec.id, version, reason: input.reason, changes, verdictBefore: rec.verdict, verdictAfter: evaluation.verdict, createdBy: actor.id });
+    await tx
+      .update(testRecords)
+      .set({
+        title: input.title,
+        engineSerial: input.engineSerial,
+        testedOn: input.testedOn,
+        notes: input.notes,
+        recordingStartS: rec.recordingId ? input.recordingStartS : null,
+        recordingEndS: rec.recordingId ? input.recordingEndS : null,
+        verdict: evaluation.verdict,
+        currentVersion: version,
+        amendedAt: new Date(),
+      })
+      .where(eq(testRecords.id, rec.id));
+    await audit(tx, actor.id, "amend", "test_record", rec.id, { version, reason: input.reason, changes, verdictBefore: rec.verdict, verdictAfter: evaluation.verdict });
+    return { version, verdict: evaluation.verdict, changes };
+  });
+}
+
+// ---- calculators ------------------------------------------------------------------------------
+
+export async function saveCalcRun(actor: Actor, recordId: string, run: { version: number; kind: "distortion" | "piston-to-wall"; label: string; input: unknown; result: unknown }) {
+  return db().transaction(async (tx) => {
+    const [c] = await tx
+      .insert(testRecordCalcs)
+      .values({ recordId, version: run.version, kind: run.kind, label: run.label, input: run.input as object, result: run.result as object, createdBy: actor.id })
+      .returning({ id: testRecordCalcs.id });
+    await audit(tx, actor.id, "calculate", "test_record", recordId, { kind: run.kind, calcId: c.id, version: run.version });
+    return c.id;
+  });
+}
+
+// ---- reading ----------------------------------------------------------------------------------
+
+export async function getTestRecord(id: string, opts: { version?: number } = {}) {
+  if (!/^[0-9a-f-]{36}$/.test(id)) return null;
+  const [row] = await db()
+    .select({ rec: testRecords, procTitle: procedures.title, slug: procedures.slug, publishedRevisionId: procedures.publishedRevisionId, rev: procedureRevisions, by: users.name })
+    .from(testRecords)
+    .innerJoin(procedures, eq(procedures.id, testRecords.procedureId))
+    .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
+    .leftJoin(users, eq(users.id, testRecords.createdBy))
+    .where(eq(testRecords.id, id));
+  if (!row) return null;
+  const { rec, rev } = row;
+  const version = opts.version != null && opts.version >= 0 && opts.version <= rec.currentVersion ? opts.version : rec.currentVersion;
+  const [specs, allReadings, amendments, calcs, recording] = await Promise.all([
+    specsOfRevision(db(), rev.id),
+    db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, rec.id)).orderBy(asc(testRecordReadings.version), asc(testRecordReadings.position)),
+    db()
+      .select({ a: testRecordAmendments, by: users.name })
+      .from(testRecordAmendments)
+      .leftJoin(users, eq(users.id, testRecordAmendments.createdBy))
+      .where(eq(testRecordAmendments.recordId, rec.id))
+      .orderBy(asc(testRecordAmendments.version)),
+    db()
+      .select({ c: testRecordCalcs, by: users.name })
+      .from(testRecordCalcs)
+      .leftJoin(users, eq(users.id, testRecordCalcs.createdBy))
+      .where(eq(testRecordCalcs.recordId, rec.id))
+      .orderBy(desc(testRecordCalcs.createdAt)),
+    rec.recordingId ? db().select({ id: recordings.id, title: recordings.title }).from(recordings).where(eq(recordings.id, rec.recordingId)) : Promise.resolve([]),
+  ]);
+  const inForce = readingsAtVersion(allReadings, version);
+  const typed: Record<string, { value: number; unit: string }[]> = {};
+  for (const r of inForce) (typed[r.specId] ??= []).push({ value: r.valueEntered, unit: r.unitEntered });
+  const evaluation = evaluateRecord(specs.map(limitsOf), typed);
+
+  // A revision superseded since filing: show the limits now in force beside the pinned ones.
+  let current: { number: number; specs: SpecRow[] } | null = null;
+  if (row.publishedRevisionId && row.publishedRevisionId !== rev.id) {
+    const [now] = await db().select({ id: procedureRevisions.id, number: procedureRevisions.number }).from(procedureRevisions).where(eq(procedureRevisions.id, row.publishedRevisionId));
+    if (now) current = { number: now.number, specs: await specsOfRevision(db(), now.id) };
+  }
+  return {
+    record: rec,
+    filedBy: row.by,
+    procedure: { id: rec.procedureId, title: row.procTitle, slug: row.slug },
+    revision: { id: rev.id, number: rev.number, title: rev.title, state: rev.state, publishedAt: rev.publishedAt, supersededAt: rev.supersededAt },
+    current,
+    specs,
+    version,
+    readings: inForce,
+    evaluation: { verdict: evaluation.verdict, specs: evaluation.specs.map((e) => ({ specId: e.spec.id, verdict: e.verdict })), notMeasured: evaluation.notMeasured.map((s) => s.id) },
+    amendments: amendments.map(({ a, by }) => ({ ...a, by })),
+    calcs: calcs.map(({ c, by }) => ({ ...c, by })),
+    recording: recording[0] ?? null,
+  };
+}
+
+export type TestRecordView = NonNullable<Awaited<ReturnType<typeof getTestRecord>>>;
+
+// ---- lists ------------------------------------------------------------------------------------
+
+export type ListFilters = { procedure?: string | null; verdict?: string | null; workOrder?: string | null; from?: string | null; to?: string | null };
+
+export function filtersFrom(url: URL): ListFilters {
+  const g = (k: string) => url.searchParams.get(k)?.trim() || null;
+  const date = (s: string | null) => (s && /^\d{4}-\d{2}-\d{2}$/.test(s) && !Number.isNaN(Date.parse(s)) ? s : null);
+  const verdict = g("verdict");
+  return { procedure: g("procedure"), verdict: verdict === "within" || verdict === "out" ? verdict : null, workOrder: g("workOrder")?.slice(0, 40) ?? null, from: date(g("from")), to: date(g("to")) };
+}
+
+function whereOf(f: ListFilters): SQL | undefined {
+  const w: SQL[] = [];
+  if (f.procedure) w.push(eq(procedures.slug, f.procedure));
+  if (f.verdict === "within" || f.verdict === "out") w.push(eq(testRecords.verdict, f.verdict));
+  if (f.workOrder) w.push(ilike(testRecords.workOrder, `%${f.workOrder.replace(/[%_\\]/g, (c) => `\\${c}`)}%`));
+  if (f.from) w.push(gte(testRecords.testedOn, f.from));
+  if (f.to) w.push(lte(testRecords.testedOn, f.to));
+  return w.length ? and(...w) : undefined;
+}
+
+const listColumns = {
+  id: testRecords.id,
+  title: testRecords.title,
+  workOrder: testRecords.workOrder,
+  engineSerial: testRecords.engineSerial,
+  testedOn: testRecords.testedOn,
+  verdict: testRecords.verdict,
+  currentVersion: testRecords.currentVersion,
+  procedureTitle: procedures.title,
+  slug: procedures.slug,
+  revisionNumber: procedureRevisions.number,
+  revisionState: procedureRevisions.state,
+  by: users.name,
+};
+
+export async function listTestRecords(f: ListFilters, limit = 200) {
+  return db()
+    .select(listColumns)
+    .from(testRecords)
+    .innerJoin(procedures, eq(procedures.id, testRecords.procedureId))
+    .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
+    .leftJoin(users, eq(users.id, testRecords.createdBy))
+    .where(whereOf(f))
+    .orderBy(desc(testRecords.testedOn), desc(testRecords.createdAt))
+    .limit(limit);
+}
+
+export type TestRecordListRow = Awaited<ReturnType<typeof listTestRecords>>[number];
+
+/** For the procedure page's "Test records" section. */
+export async function testRecordsForProcedure(procedureId: string, limit = 25) {
+  return db()
+    .select(listColumns)
+    .from(testRecords)
+    .innerJoin(procedures, eq(procedures.id, testRecords.procedureId))
+    .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
+    .leftJoin(users, eq(users.id, testRecords.createdBy))
+    .where(eq(testRecords.procedureId, procedureId))
+    .orderBy(desc(testRecords.testedOn), desc(testRecords.createdAt))
+    .limit(limit);
+}
+
+/** For the Shop floor: out-of-spec records first, then the most recent. */
+export async function recentTestRecords(limit = 6) {
+  return db()
+    .select(listColumns)
+    .from(testRecords)
+    .innerJoin(procedures, eq(procedures.id, testRecords.procedureId))
+    .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
+    .leftJoin(users, eq(users.id, testRecords.createdBy))
+    .where(gte(testRecords.testedOn, sql`(current_date - interval '120 days')::date`))
+    .orderBy(sql`${testRecords.verdict} = 'out' desc`, desc(testRecords.testedOn), desc(testRecords.createdAt))
+    .limit(limit);
+}
+
+// ---- CSV --------------------------------------------------------------------------------------
+
+export const CSV_COLUMNS = [
+  "record_id",
+  "work_order",
+  "engine_serial",
+  "tested_on",
+  "title",
+  "procedure",
+  "revision",
+  "record_verdict",
+  "amendments",
+  "spec",
+  "spec_unit",
+  "spec_min",
+  "spec_max",
+  "reading",
+  "reading_unit",
+  "reading_in_spec_unit",
+  "reading_verdict",
+  "reading_note",
+  "filed_by",
+] as const;
+
+/** One row per reading in force (records' current versions), plus one per spec not measured. */
+export async function csvRows(f: ListFilters): Promise<(string | number | null)[][]> {
+  const recs = await listTestRecords(f, 5000);
+  if (!recs.length) return [];
+  const ids = recs.map((r) => r.id);
+  const fullRecs = await db().select({ id: testRecords.id, revisionId: testRecords.revisionId, currentVersion: testRecords.currentVersion }).from(testRecords).where(inArray(testRecords.id, ids));
+  const revOf = new Map(fullRecs.map((r) => [r.id, r]));
+  const revIds = [...new Set(fullRecs.map((r) => r.revisionId))];
+  const specs = await db().select().from(procedureSpecs).where(inArray(procedureSpecs.revisionId, revIds)).orderBy(asc(procedureSpecs.position));
+  const rs = await db()
+    .select()
+    .from(testRecordReadings)
+    .where(and(inArray(testRecordReadings.recordId, ids), sql`${testRecordReadings.version} = (select current_version from test_records t where t.id = ${testRecordReadings.recordId})`))
+    .orderBy(asc(testRecordReadings.position));
+  const out: (string | number | null)[][] = [];
+  for (const r of recs) {
+    const meta = revOf.get(r.id)!;
+    const base = [r.id, r.workOrder, r.engineSerial, r.testedOn, r.title, r.procedureTitle, r.revisionNumber, r.verdict === "out" ? "Out of spec" : "Within spec", r.currentVersion];
+    for (const s of specs.filter((x) => x.revisionId === meta.revisionId)) {
+      const mine = rs.filter((x) => x.recordId === r.id && x.specId === s.id);
+      const specCols = [s.label, s.unit, s.min, s.max];
+      if (!mine.length) out.push([...base, ...specCols, null, null, null, "not measured", null, r.by ?? ""]);
+      for (const x of mine) out.push([...base, ...specCols, x.valueEntered, x.unitEntered, Number(x.valueInSpecUnit.toPrecision(12)), x.verdict, x.note, r.by ?? ""]);
+    }
+  }
+  return out;
+}

@@ -1,0 +1,19 @@
+import { stringify } from "csv-stringify/sync";
+import type { Route } from "./+types/export";
+import { requirePermission } from "~/lib/auth.server";
+import { CSV_COLUMNS, csvRows, filtersFrom } from "~/lib/test-records/records.server";
+
+/** CSV of the filtered records: one row per reading in force, one per spec not measured. */
+export async function loader({ request }: Route.LoaderArgs) {
+  await requirePermission(request, "shop:read");
+  const rows = await csvRows(filtersFrom(new URL(request.url)));
+  const body = stringify([[...CSV_COLUMNS], ...rows], { bom: true });
+  const day = new Date().toISOString().slice(0, 10);
+  return new Response(body, {
+    headers: {
+      "content-type": "text/csv; charset=utf-8",
+      "content-disposition": `attachment; filename="test-records-${day}.csv"`,
+      "cache-control": "no-store",
+    },
+  });
+}

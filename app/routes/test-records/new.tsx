@@ -1,0 +1,161 @@
+import { data, Form, Link, useNavigation } from "react-router";
+import type { Route } from "./+types/new";
+import { Field, FormError, SelectField } from "~/components/forms";
+import { PageHeader } from "~/components/page";
+import { SafetyNote } from "~/components/test-records/parts";
+import { ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
+import { procedureSpecs } from "~/db/schema";
+import { requirePermission } from "~/lib/auth.server";
+import { db } from "~/lib/db.server";
+import { redirectWithFlash } from "~/lib/flash.server";
+import { parseForm, type FieldErrors } from "~/lib/forms";
+import { newRecordSchema, parseReadings } from "~/lib/test-records/form";
+import { createTestRecord, limitsOf, procedureForFiling, publishedProcedureOptions, recordingForFiling, TestRecordError } from "~/lib/test-records/records.server";
+import { RECORD_VERDICT_LABELS } from "~/lib/test-records/verdict";
+import { asc, eq } from "drizzle-orm";
+
+export const meta: Route.MetaFunction = () => [{ title: "File a test record · Benchreel" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requirePermission(request, "testrecord:create");
+  const url = new URL(request.url);
+  const slug = url.searchParams.get("procedure")?.trim() || null;
+  const recordingId = url.searchParams.get("recording")?.trim() || null;
+  const recording = recordingId ? await recordingForFiling(recordingId) : null;
+  if (recordingId && !recording) throw data({ message: "That recording does not exist." }, { status: 404 });
+  if (!slug) return { filing: null, options: await publishedProcedureOptions(), recording, today: new Date().toISOString().slice(0, 10) };
+  const f = await procedureForFiling(slug);
+  if (!f) throw data({ message: "No published procedure by that name: a test record is filed against a published revision." }, { status: 404 });
+  return {
+    filing: {
+      procedure: { id: f.procedure.id, slug: f.procedure.slug, title: f.procedure.title },
+      revision: { id: f.revision.id, number: f.revision.number, publishedAt: f.revision.publishedAt },
+      specs: f.specs.map((s) => ({ ...limitsOf(s), note: s.note })),
+    },
+    options: [],
+    recording,
+    today: new Date().toISOString().slice(0, 10),
+  };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requirePermission(request, "testrecord:create");
+  const form = await request.formData();
+  const parsed = parseForm(newRecordSchema, form);
+  const revisionId = String(form.get("revisionId") ?? "");
+  const specs = /^[0-9a-f-]{36}$/.test(revisionId)
+    ? await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position))
+    : [];
+  const r = parseReadings(form, specs.map(limitsOf));
+  const errors: FieldErrors = { ...(parsed.ok ? {} : parsed.errors), ...r.errors };
+  if (!Object.keys(r.errors).length && r.count === 0) errors.readings = "Type at least one reading: the verdict is computed from them.";
+  if (!parsed.ok || Object.keys(errors).length) return data({ errors, values: parsed.values }, { status: 400 });
+  const d = parsed.data;
+  try {
+    const rec = await createTestRecord(user, {
+      title: d.title,
+      workOrder: d.workOrder,
+      engineSerial: d.engineSerial,
+      testedOn: d.testedOn,
+      notes: d.notes,
+      revisionId: d.revisionId,
+      recordingId: d.recordingId || null,
+      recordingStartS: d.recordingStartS,
+      recordingEndS: d.recordingEndS,
+      readings: r.readings,
+    });
+    return redirectWithFlash(`/test-records/${rec.id}`, { kind: "ok", message: `Test record filed for ${d.workOrder}: ${RECORD_VERDICT_LABELS[rec.verdict]}.` });
+  } catch (err) {
+    if (err instanceof TestRecordError) return data({ errors: { [err.field ?? "form"]: err.message, ...(err.field === "revisionId" ? { form: err.message } : {}) }, values: parsed.values }, { status: err.status });
+    throw err;
+  }
+}
+
+export default function NewTestRecord({ loaderData, actionData }: Route.ComponentProps) {
+  const { filing, options, recording, today } = loaderData;
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const values: Record<string, string> = actionData?.values ?? {};
+  const busy = useNavigation().state === "submitting";
+  const v = (k: string, d = "") => values[k] ?? d;
+
+  if (!filing) {
+    return (
+      <>
+        <PageHeader title="File a test record" kicker="Test records">
+          A test record is filed against a procedure's published revision.{recording && <> From the recording “{recording.title}”.</>}
+        </PageHeader>
+        <Form method="get" className="card max-w-xl space-y-3">
+          {recording && <input type="hidden" name="recording" value={recording.id} />}
+          {options.length ? (
+            <>
+              <SelectField label="Procedure" name="procedure" required defaultValue="">
+                <option value="" disabled>Choose a published procedure…</option>
+                {options.map((o) => <option key={o.id} value={o.slug}>{o.title}</option>)}
+              </SelectField>
+              <button className="btn btn-primary" type="submit">Continue</button>
+            </>
+          ) : (
+            <p className="text-graphite-soft">No procedure is published yet, so there is nothing to file a test record against.</p>
+          )}
+        </Form>
+      </>
+    );
+  }
+
+  const { procedure, revision, specs } = filing;
+  const initial = rowsFromValues(specs, actionData?.values);
+  return (
+    <>
+      <PageHeader title="File a test record" kicker="Test records">
+        Against <Link to={`/procedures/${procedure.slug}`}>{procedure.title}</Link>, <span className="num">revision {revision.number}</span> (the published one). The revision is recorded with the test and never changes afterwards.
+      </PageHeader>
+      <Form method="post" className="space-y-5" noValidate>
+        <input type="hidden" name="revisionId" value={revision.id} />
+        {recording && <input type="hidden" name="recordingId" value={recording.id} />}
+        <FormError message={errors.form ?? (errors.revisionId && !errors.form ? errors.revisionId : undefined)} />
+        <div className="card grid gap-4 sm:grid-cols-2">
+          <div className="sm:col-span-2">
+            <Field label="Title" name="title" required defaultValue={v("title", procedure.title)} error={errors.title} />
+          </div>
+          <Field label="Work order" name="workOrder" required placeholder="LEW-24-0117" defaultValue={v("workOrder")} error={errors.workOrder} hint="As on the job card, e.g. LEW-24-0117." className="field num uppercase" autoComplete="off" />
+          <Field label="Engine serial" name="engineSerial" defaultValue={v("engineSerial")} error={errors.engineSerial} autoComplete="off" />
+          <Field label="Test date" name="testedOn" type="date" required defaultValue={v("testedOn", today)} max={today} error={errors.testedOn} />
+          {recording && (
+            <div className="sm:col-span-2">
+              <p className="label">Recording</p>
+              <p className="text-sm">
+                <Link to={`/recordings/${recording.id}`}>{recording.title}</Link>
+                {recording.durationS != null && <span className="num text-graphite-soft"> · {Math.round(recording.durationS)} s long</span>}
+              </p>
+              <div className="mt-2 grid grid-cols-2 gap-3">
+                <Field label="Test from (s)" name="recordingStartS" inputMode="decimal" defaultValue={v("recordingStartS")} error={errors.recordingStartS} />
+                <Field label="Test to (s)" name="recordingEndS" inputMode="decimal" defaultValue={v("recordingEndS")} error={errors.recordingEndS} />
+              </div>
+            </div>
+          )}
+          <div className="sm:col-span-2">
+            <label htmlFor="f-notes" className="label">Notes</label>
+            <textarea id="f-notes" name="notes" rows={3} className="field" defaultValue={v("notes")} aria-invalid={errors.notes ? true : undefined} />
+            {errors.notes && <p className="field-error" role="alert">{errors.notes}</p>}
+          </div>
+        </div>
+
+        <h2 className="text-xl">Readings</h2>
+        {specs.length ? (
+          <>
+            <p className="text-sm text-graphite-soft">Type each reading in the unit you measured in; it is converted to the spec's unit and checked against its limits (inclusive). Specs left empty are listed as not measured.</p>
+            {errors.readings && <p className="field-error" role="alert">{errors.readings}</p>}
+            <ReadingsEditor specs={specs} initial={initial} errors={errors} pull={recording?.readings} />
+          </>
+        ) : (
+          <p className="card text-graphite-soft">Revision {revision.number} of this procedure has no specs, so there is nothing to check readings against.</p>
+        )}
+        <SafetyNote />
+        <div className="flex gap-2">
+          <button className="btn btn-primary" type="submit" disabled={busy || !specs.length}>{busy ? "Filing…" : "File the test record"}</button>
+          <Link to={`/procedures/${procedure.slug}`} className="btn no-underline">Cancel</Link>
+        </div>
+      </Form>
+    </>
+  );
+}
