@@ -5,7 +5,7 @@ import { eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { recordings } from "~/db/schema";
 import { db } from "../db.server";
-import { boss, enqueueProcessing, PROCESS_QUEUE } from "./queue.server";
+import { boss, enqueueProcessing, PROCESS_QUEUE, stopBoss } from "./queue.server";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
 
 const FFPROBE = process.env.FFPROBE_PATH ?? "/usr/bin/ffprobe";
@@ -270,7 +270,6 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
   return {
     async stop() {
       await b.offWork(PROCESS_QUEUE);
-      const { stopBoss } = await import("./queue.server");
       await stopBoss();
     },
   };

@@ -1,0 +1,135 @@
+// Recordings in the browser: upload a generated video through the page (progress to 100 %,
+// state to ready), open it, drop a mark with the keyboard, seek by clicking the mark, type
+// readings (with the nut-factor fit) and export CSV. Set RECORDINGS_SHOTS=<dir> to also save
+// screenshots at 1280 px and 768 px.
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import path from "node:path";
+import { expect, test, type Page } from "@playwright/test";
+
+const shots = process.env.RECORDINGS_SHOTS;
+const work = path.join(process.env.BENCHREEL_RUN_DIR ?? "/tmp", "recordings-e2e");
+
+async function signIn(page: Page, email = "marcus@larkspur.example") {
+  await page.goto("/signin");
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill("larkspur-demo");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page.getByTestId("user-name")).toBeVisible();
+}
+
+async function shot(page: Page, name: string) {
+  if (!shots) return;
+  fs.mkdirSync(shots, { recursive: true });
+  for (const [w, h, tag] of [[1280, 900, "desktop"], [768, 1024, "tablet"]] as const) {
+    await page.setViewportSize({ width: w, height: h });
+    await page.waitForTimeout(300);
+    await page.screenshot({ path: path.join(shots, `${name}-${tag}.png`), fullPage: true });
+  }
+  await page.setViewportSize({ width: 1280, height: 860 });
+}
+
+const videoTime = (page: Page) => page.locator("video").first().evaluate((v: HTMLVideoElement) => v.currentTime);
+
+test("a builder uploads a video, marks a moment with the keyboard, seeks by the mark, types readings and exports CSV", async ({ page }) => {
+  test.setTimeout(120_000);
+  fs.mkdirSync(work, { recursive: true });
+  const clip = path.join(work, "bench-clip.mp4");
+  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc2=duration=12:size=640x360:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-preset", "veryfast", "-movflags", "+faststart", clip]);
+  const title = `Stud stretch check ${Date.now().toString(36)}`;
+
+  await signIn(page);
+  await page.goto("/recordings");
+  await shot(page, "library");
+  await page.getByRole("link", { name: "Upload videos" }).click();
+  await expect(page.getByRole("heading", { name: "Upload videos" })).toBeVisible();
+  await page.getByTestId("file-input").setInputFiles(clip);
+  const item = page.getByTestId("upload-item");
+  await expect(item.getByLabel("Title")).toHaveValue("bench-clip");
+  await item.getByLabel("Title").fill(title);
+  await item.getByLabel(/^Tags/).fill("head studs, e2e");
+  await shot(page, "upload-chosen");
+  await item.getByRole("button", { name: "Upload" }).click();
+  await expect(item.getByTestId("upload-progress")).toHaveAttribute("aria-valuenow", "100", { timeout: 30_000 });
+  await expect(item.getByTestId("upload-done")).toContainText("Uploaded");
+  await expect(item.getByTestId("recording-state")).toHaveAttribute("data-state", "ready", { timeout: 60_000 });
+  await shot(page, "upload-done");
+  await item.getByTestId("open-recording").click();
+
+  // Watch page: the player loads (video.js, client only).
+  await expect(page.getByRole("heading", { level: 1 })).toHaveText(title);
+  const video = page.locator("video").first();
+  await expect(video).toBeAttached({ timeout: 15_000 });
+  await expect.poll(() => video.evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 15_000 }).toBeGreaterThanOrEqual(1);
+  await page.locator("body").click({ position: { x: 5, y: 5 } });
+
+  // → jumps 5 s; M opens the mark form at that time.
+  await page.keyboard.press("ArrowRight");
+  await expect.poll(() => videoTime(page)).toBeCloseTo(5, 0);
+  await page.keyboard.press("m");
+  const text = page.getByTestId("mark-text");
+  await expect(text).toBeFocused();
+  await text.fill("Nut seats; start of final pass");
+  await text.press("Enter");
+  const mark = page.getByTestId("mark").filter({ hasText: "Nut seats" });
+  await expect(mark).toBeVisible();
+  await expect(mark.getByTestId("mark-time")).toHaveText("0:05.0");
+
+  // Back to the start, then click the mark: the player seeks to it.
+  await page.locator("body").click({ position: { x: 5, y: 5 } });
+  await page.keyboard.press("ArrowLeft");
+  await expect.poll(() => videoTime(page)).toBeLessThan(1);
+  await mark.getByRole("button", { name: /Play from 0:05\.0/ }).click();
+  await expect.poll(() => videoTime(page)).toBeCloseTo(5, 1);
+  await expect(mark).toHaveAttribute("aria-current", "true");
+  // A tick on the progress bar.
+  await expect(page.locator(".br-mark-ticks .br-tick")).toHaveCount(1);
+
+  // Readings: a torque / clamp-load pair by label and pass; a bad line keeps what was typed.
+  const grid = page.getByTestId("readings-grid");
+  await grid.getByLabel("Line 1 value").fill("110");
+  await grid.getByLabel("Line 1 label").fill("stud 4");
+  await grid.getByLabel("Line 1 pass").fill("3");
+  await grid.getByRole("button", { name: "Line 1: use current time" }).click();
+  await grid.getByLabel("Line 2 quantity").selectOption("clamp-load");
+  await grid.getByLabel("Line 2 label").fill("stud 4");
+  await grid.getByLabel("Line 2 pass").fill("3");
+  await page.getByTestId("save-readings").click();
+  await expect(grid.getByRole("alert")).toContainText("Enter the value as a number.");
+  await expect(grid.getByLabel("Line 1 value")).toHaveValue("110");
+  await grid.getByLabel("Line 2 value").fill("51");
+  await page.getByTestId("save-readings").click();
+  await expect(page.getByTestId("reading-row")).toHaveCount(2);
+  await expect(page.getByTestId("readings-table")).toContainText("110 N·m");
+  await expect(page.getByTestId("readings-table")).toContainText("51 kN");
+  await expect(page.getByTestId("nut-factor-result")).toContainText("K = 0.180");
+  await expect(grid.getByLabel("Line 1 value")).toHaveValue("");
+  await shot(page, "watch");
+
+  const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("readings-csv").click()]);
+  const csv = fs.readFileSync(await download.path(), "utf8");
+  expect(csv.split("\n")[0]).toBe("time_s,quantity,label,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
+  expect(csv).toContain("Torque,stud 4,110,N.m,110");
+  expect(csv).toContain("Clamp load,stud 4,51,kN,51000");
+
+  // ?t= opens the player at that second.
+  await page.goto(`${new URL(page.url()).pathname}?t=8.5`);
+  await expect.poll(() => videoTime(page), { timeout: 15_000 }).toBeCloseTo(8.5, 0);
+});
+
+test("an apprentice watches but cannot upload or mark", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  await page.goto("/recordings");
+  await expect(page.getByRole("link", { name: "Upload videos" })).toHaveCount(0);
+  const res = await page.goto("/recordings/upload");
+  expect(res?.status()).toBe(403);
+  await page.goto("/recordings");
+  const card = page.getByTestId("recording-card").filter({ hasText: "Head stud clamp-load test" });
+  await card.getByRole("link").first().click();
+  await expect(page.getByRole("heading", { level: 1 })).toContainText("Head stud clamp-load test");
+  await expect(page.getByTestId("mark").first()).toBeVisible();
+  await expect(page.getByRole("button", { name: /^Mark at/ })).toHaveCount(0);
+  await expect(page.getByTestId("readings-grid")).toHaveCount(0);
+  await expect(page.getByTestId("nut-factor-result")).toContainText("K = ");
+  await shot(page, "watch-apprentice");
+});
