@@ -25,8 +25,9 @@ for (let i = 0; i < argv.length; i++) {
   else if (argv[i] === "--keep") keep = true;
   else filters.push(argv[i]);
 }
-const wants = (phase) => only.size === 0 || only.has(phase);
-const needsServices = wants("integration") || wants("e2e");
+// The benchmark is not a test: it runs only when asked for (`npm run bench`).
+const wants = (phase) => (phase === "bench" ? only.has("bench") : only.size === 0 || only.has(phase));
+const needsServices = wants("integration") || wants("e2e") || wants("bench");
 
 const results = [];
 let pgDir = null;
@@ -152,6 +153,9 @@ try {
       await phase("browser (playwright)", () =>
         runWith(bin("playwright"), ["test", "-c", "tests/playwright.config.ts", ...(only.has("e2e") ? filters : [])], env),
       );
+    }
+    if (wants("bench")) {
+      await phase("benchmark", () => runWith(bin("tsx"), ["scripts/bench/run.ts", ...(only.has("bench") ? filters : [])], env));
     }
     if (keep) await new Promise(() => {});
   }

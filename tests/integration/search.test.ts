@@ -69,7 +69,8 @@ describe("search", () => {
     await indexed();
     const { body } = await search(builder.cookie, term);
     const hit = body.hits.find((h) => h.kind === "procedure")!;
-    expect(hit.url).toBe(`/procedures/${procedure.slug}#block-1`);
+    // Block 1 (the second paragraph) matched: the URL scrolls to its first words.
+    expect(hit.url).toBe(`/procedures/${procedure.slug}#:~:text=${encodeURIComponent(`Torque the studs with ${term} lube`)}`);
     expect(hit.snippet).toContain(`${HL_PRE}${term}`);
   });
 

@@ -64,6 +64,24 @@ export function buildFilter(user: SessionUser, p: SearchParams): string[] {
   return filter;
 }
 
+/**
+ * A text fragment (the WICG "scroll to text" URL fragment) that makes the browser scroll to
+ * and mark the block that matched; the block's first words, without our text prefixes.
+ */
+export function blockFragment(block: string): string {
+  const words = block
+    .replaceAll(HL_PRE, "")
+    .replaceAll(HL_POST, "")
+    .replace(/^…\s*/, "")
+    .replace(/\s*…$/, "")
+    .replace(/^(#+ |• |Caution: |Spec: |Calculator: |Video moment at [^:]+: )/, "")
+    .split(/\s+/)
+    .filter(Boolean)
+    .slice(0, 6)
+    .join(" ");
+  return words ? `#:~:text=${encodeURIComponent(words).replace(/-/g, "%2D")}` : "";
+}
+
 export async function runSearch(user: SessionUser, p: SearchParams): Promise<SearchResponse> {
   const res = await searchIndex().search(p.q, {
     filter: buildFilter(user, p),
@@ -85,7 +103,7 @@ export async function runSearch(user: SessionUser, p: SearchParams): Promise<Sea
     const blocks = Array.isArray(f.blocks) ? (f.blocks as string[]) : [];
     const matched = blocks.findIndex((b) => typeof b === "string" && b.includes(HL_PRE));
     if (matched >= 0) {
-      url = `${h.url}#block-${matched}`;
+      url = `${h.url}${blockFragment(blocks[matched])}`;
       snippet = blocks[matched];
     } else if (!snippet && blocks.length) snippet = blocks[0];
     if (h.kind === "mark" || h.kind === "reading") context = h.recordingTitle;

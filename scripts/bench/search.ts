@@ -1,0 +1,126 @@
+/**
+ * Search benchmark (run by `npm run bench`, against the stack that script starts):
+ *   - indexes 20,000 synthetic documents (Zipf words; a quarter long procedures, the rest
+ *     short marks and readings) into the app's index through the SDK, timed;
+ *   - p50/p95 of GET /api/search (session, visibility filter, facets, highlight, crop) and
+ *     of the same query on an in-process copy of the fake's engine (the raw query), per case;
+ *   - a full reindex of 20,000 marks stored in PostgreSQL.
+ */
+import { randomUUID } from "node:crypto";
+import { sql } from "drizzle-orm";
+import { marks, recordings, searchOutbox } from "~/db/schema";
+import { db } from "~/lib/db.server";
+import { SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
+import { reindexAll } from "~/lib/search/indexer.server";
+import { HL_POST, HL_PRE } from "~/lib/search/highlight";
+import { benchQueries, generateCorpus } from "../fakes/meili/bench";
+import { MeiliIndex } from "../fakes/meili/engine";
+import { createUser, http } from "../../tests/support/app";
+
+type Stat = { p50: number; p95: number; samples: number };
+const stat = (xs: number[]): Stat => {
+  const s = [...xs].sort((a, b) => a - b);
+  const at = (q: number) => s[Math.min(s.length - 1, Math.floor(q * s.length))];
+  return { p50: +at(0.5).toFixed(2), p95: +at(0.95).toFixed(2), samples: s.length };
+};
+
+export async function benchSearch(opts: { docs?: number; samples?: number; log?: (s: string) => void } = {}) {
+  const log = opts.log ?? console.log;
+  const N = opts.docs ?? 20_000;
+  const corpus = generateCorpus({ docs: N });
+  const queries = benchQueries(corpus, opts.samples ?? 40);
+  const now = Date.now();
+  const docs: SearchDoc[] = corpus.docs.map((d) => ({
+    id: `bench-${d.id}`,
+    kind: d.kind,
+    title: d.title,
+    text: d.kind === "procedure" ? "" : d.body,
+    blocks: d.kind === "procedure" ? d.body.match(/(?:\S+\s+){0,80}\S+/g) ?? [d.body] : undefined,
+    tags: d.tags,
+    visibility: ["all"],
+    url: "/",
+    date: now,
+  }));
+
+  // Indexing through the SDK into the app's index, timed until every task succeeded.
+  const index = searchIndex();
+  const t0 = performance.now();
+  for (let i = 0; i < docs.length; i += 1000) {
+    const task = await index.addDocuments(docs.slice(i, i + 1000), { primaryKey: "id" }).waitTask({ timeout: 600_000, interval: 20 });
+    if (task.status !== "succeeded") throw new Error(`indexing failed: ${task.error?.message}`);
+  }
+  const indexingMs = performance.now() - t0;
+  log(`indexed ${N} documents through the SDK in ${(indexingMs / 1000).toFixed(1)} s`);
+
+  // The same documents in an in-process engine: the raw query without HTTP or the app.
+  const raw = new MeiliIndex("raw", "id");
+  raw.updateSettings(SEARCH_SETTINGS as unknown as Record<string, unknown>);
+  raw.addDocuments(docs as unknown as Record<string, unknown>[], { primaryKey: "id" });
+
+  const apprentice = await createUser("apprentice");
+  const params = (q: string) => ({
+    q,
+    filter: [`visibility IN ["all", "user:${apprentice.id}"]`],
+    facets: ["kind", "tags", "state", "uploader"],
+    limit: 20,
+    offset: 0,
+    attributesToHighlight: ["title", "text", "blocks"],
+    highlightPreTag: HL_PRE,
+    highlightPostTag: HL_POST,
+    attributesToCrop: ["text", "blocks"],
+    cropLength: 28,
+    cropMarker: "…",
+  });
+
+  const cases: Record<string, { api: Stat; raw: Stat; ratioP50: number; ratioP95: number }> = {};
+  for (const [name, list] of Object.entries(queries)) {
+    const apiTimes: number[] = [];
+    const rawTimes: number[] = [];
+    for (const q of list.slice(0, 5)) await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie }).then((r) => r.arrayBuffer()); // warm-up
+    for (const q of list) {
+      const a = performance.now();
+      const res = await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie });
+      await res.arrayBuffer();
+      apiTimes.push(performance.now() - a);
+      if (res.status !== 200) throw new Error(`/api/search answered ${res.status} for "${q}"`);
+      const b = performance.now();
+      raw.search(params(q) as never);
+      rawTimes.push(performance.now() - b);
+    }
+    const api = stat(apiTimes);
+    const r = stat(rawTimes);
+    cases[name] = { api, raw: r, ratioP50: +(api.p50 / Math.max(r.p50, 0.01)).toFixed(2), ratioP95: +(api.p95 / Math.max(r.p95, 0.01)).toFixed(2) };
+    log(`${name.padEnd(22)} /api/search p50 ${api.p50} ms p95 ${api.p95} ms | raw p50 ${r.p50} ms p95 ${r.p95} ms | ratio p95 ${cases[name].ratioP95}`);
+  }
+
+  // Full reindex from PostgreSQL of 20,000 stored marks.
+  const [rec] = await db().insert(recordings).values({ title: "Benchmark recording", originalName: "bench.mp4", originalSize: 1, state: "ready", uploadedBy: apprentice.id, durationS: 3600 }).returning();
+  const short = corpus.docs.filter((d) => d.kind !== "procedure");
+  for (let i = 0; i < N; i += 2000) {
+    await db().insert(marks).values(
+      Array.from({ length: Math.min(2000, N - i) }, (_, j) => ({ id: randomUUID(), recordingId: rec.id, tStart: (i + j) % 3600, text: short[(i + j) % short.length].body, createdBy: apprentice.id })),
+    );
+  }
+  await db().update(searchOutbox).set({ doneAt: new Date() }).where(sql`${searchOutbox.doneAt} is null`); // the rebuild below covers them
+  const r0 = performance.now();
+  const rebuilt = await reindexAll();
+  const reindexMs = performance.now() - r0;
+  log(`full reindex: ${rebuilt.documents} documents written, ${rebuilt.removed} stale removed in ${(reindexMs / 1000).toFixed(1)} s`);
+
+  const mid = Object.keys(cases).filter((c) => c.includes("mid"));
+  const common = Object.keys(cases).filter((c) => c.includes("common"));
+  const worst = (keys: string[]) => Math.max(0, ...keys.map((k) => cases[k].api.p95));
+  const ratio = Math.max(0, ...Object.values(cases).map((c) => c.ratioP95));
+  return {
+    docs: N,
+    indexingMs: Math.round(indexingMs),
+    cases,
+    reindex: { documents: rebuilt.documents, ms: Math.round(reindexMs) },
+    targets: {
+      "api p95 mid-frequency ≤ 25 ms": { value: worst(mid), ok: worst(mid) <= 25 },
+      "api p95 commonest term ≤ 60 ms": { value: worst(common), ok: worst(common) <= 60 },
+      "api ≤ 1.5× raw query (p95)": { value: ratio, ok: ratio <= 1.5 },
+      "full reindex of 20,000 ≤ 15 s": { value: +(reindexMs / 1000).toFixed(1), ok: reindexMs <= 15_000 },
+    },
+  };
+}
