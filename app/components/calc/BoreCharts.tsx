@@ -159,12 +159,13 @@ export function BoreProfile({
         title={`Diameter against depth: ${shape}`}
         height={H}
         xDomain={[lo, hi]}
-        yDomain={[-depthBottom, -depthTop]}
+        yDomain={[depthTop, depthBottom]}
+        yDown
         xTitle={`Diameter minus ${formatNumber(reference_mm, 3)} mm (${unitLabel(smallUnit)})`}
         yTitle="Depth below the deck (mm)"
       >
         {(f) => {
-          const y = (depth: number) => f.y(-depth);
+          const y = (depth: number) => f.y(depth);
           const band = (ls: BoreLevel[]) =>
             [...ls.map((l) => `${f.x(dx(l.minDiameter_mm))},${y(l.depth_mm)}`), ...[...ls].reverse().map((l) => `${f.x(dx(l.maxDiameter_mm))},${y(l.depth_mm)}`)].join(" ");
           const mean = (ls: BoreLevel[]) => ls.map((l) => `${f.x(dx(l.meanDiameter_mm))},${y(l.depth_mm)}`).join(" ");
@@ -173,11 +174,11 @@ export function BoreProfile({
               <line x1={f.x(0)} x2={f.x(0)} y1={f.top} y2={f.bottom} className="stroke-graphite-soft" strokeDasharray="2 3" />
               {compared && compared.length > 0 && (
                 <>
-                  <polygon points={band(compared)} className="fill-teal-soft/60 stroke-teal" strokeWidth={0.8} strokeDasharray="4 3" />
+                  <polygon points={band(compared)} className="fill-teal-soft/30 stroke-teal" strokeWidth={1} strokeDasharray="4 3" />
                   <polyline points={mean(compared)} className="fill-none stroke-teal" strokeWidth={1.8} strokeDasharray="6 3" />
                 </>
               )}
-              <polygon points={band(levels)} className="fill-brass-soft/70 stroke-brass" strokeWidth={0.8} />
+              <polygon points={band(levels)} className="fill-brass-soft/50 stroke-brass" strokeWidth={1} />
               <polyline points={mean(levels)} className="fill-none stroke-graphite" strokeWidth={2} />
               {levels.map((l) => (
                 <circle key={l.depth_mm} cx={f.x(dx(l.meanDiameter_mm))} cy={y(l.depth_mm)} r={3.5} className="fill-graphite" />

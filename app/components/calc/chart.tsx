@@ -46,6 +46,7 @@ export function Plot({
   children,
   margin = { l: 64, r: 16, t: 16, b: 48 },
   testId,
+  yDown = false,
 }: {
   width?: number;
   height?: number;
@@ -57,6 +58,8 @@ export function Plot({
   children: (f: Frame) => ReactNode;
   margin?: { l: number; r: number; t: number; b: number };
   testId?: string;
+  /** Values grow downwards (depth below the deck). */
+  yDown?: boolean;
 }) {
   const f: Frame = {
     left: margin.l,
@@ -64,7 +67,10 @@ export function Plot({
     top: margin.t,
     bottom: height - margin.b,
     x: (v) => margin.l + ((v - xDomain[0]) / (xDomain[1] - xDomain[0] || 1)) * (width - margin.l - margin.r),
-    y: (v) => height - margin.b - ((v - yDomain[0]) / (yDomain[1] - yDomain[0] || 1)) * (height - margin.t - margin.b),
+    y: (v) =>
+      yDown
+        ? margin.t + ((v - yDomain[0]) / (yDomain[1] - yDomain[0] || 1)) * (height - margin.t - margin.b)
+        : height - margin.b - ((v - yDomain[0]) / (yDomain[1] - yDomain[0] || 1)) * (height - margin.t - margin.b),
   };
   const xt = niceTicks(xDomain[0], xDomain[1], 6);
   const yt = niceTicks(yDomain[0], yDomain[1], 5);

@@ -18,6 +18,7 @@ export function clearanceDefaults(system: UnitSystem): FormValues {
   const u = DEFAULT_UNITS[system];
   const L = (mm: number, extra = 1) => fieldValue(mm, "mm", u.length, extra);
   const S = (mm: number) => fieldValue(mm, "mm", u.small, 1);
+  const Spec = (mm: number) => fieldValue(mm, "mm", u.small, system === "inch" ? -1 : 0);
   const T = (c: number) => fieldValue(c, "degC", u.temperature, 0);
   const boosted = RING_GAP_FACTORS.find((r) => r.application === "boosted-street") ?? RING_GAP_FACTORS[0];
   return {
@@ -37,9 +38,9 @@ export function clearanceDefaults(system: UnitSystem): FormValues {
     "thermal.boreAlpha": "",
     "thermal.pistonMaterial": "forged-2618",
     "thermal.pistonAlpha": "",
-    "spec.piston-to-wall.min.value": S(0.08),
+    "spec.piston-to-wall.min.value": Spec(0.08),
     "spec.piston-to-wall.min.unit": u.small,
-    "spec.piston-to-wall.max.value": S(0.1),
+    "spec.piston-to-wall.max.value": Spec(0.1),
     "spec.piston-to-wall.max.unit": u.small,
     bearingMode: "direct",
     "journal.value": L(52),
@@ -50,9 +51,9 @@ export function clearanceDefaults(system: UnitSystem): FormValues {
     "housingBore.unit": u.length,
     "shellThickness.value": S(1.725),
     "shellThickness.unit": u.small,
-    "spec.bearing.min.value": S(0.04),
+    "spec.bearing.min.value": Spec(0.04),
     "spec.bearing.min.unit": u.small,
-    "spec.bearing.max.value": S(0.065),
+    "spec.bearing.max.value": Spec(0.065),
     "spec.bearing.max.unit": u.small,
     application: boosted.application,
     gapPerBore: String(boosted.gapPerBore),

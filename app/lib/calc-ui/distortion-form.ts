@@ -41,7 +41,7 @@ export function distortionDefaults(system: UnitSystem): FormValues {
     "depth.unit": u.length,
     angles: DEFAULT_ANGLES.diametral,
     "reading.unit": u.length,
-    "reference.value": fieldValue(88, "mm", u.length, 1),
+    "reference.value": fieldValue(88, "mm", u.length, system === "inch" ? 1 : 0, true),
     "reference.unit": u.length,
     "compare.on": "on",
     "label.main": "Torque plate on",
@@ -49,8 +49,8 @@ export function distortionDefaults(system: UnitSystem): FormValues {
     "out.small": system === "inch" ? "thou" : "um",
     "out.length": u.length,
   };
-  DEMO_PLATE.forEach((row, i) => row.forEach((d, j) => (v[`m.${i}.${j}`] = fieldValue(d, "mm", u.length, 1))));
-  DEMO_FREE.forEach((row, i) => row.forEach((d, j) => (v[`c.${i}.${j}`] = fieldValue(d, "mm", u.length, 1))));
+  DEMO_PLATE.forEach((row, i) => row.forEach((d, j) => (v[`m.${i}.${j}`] = fieldValue(d, "mm", u.length, system === "inch" ? 1 : 0, true))));
+  DEMO_FREE.forEach((row, i) => row.forEach((d, j) => (v[`c.${i}.${j}`] = fieldValue(d, "mm", u.length, system === "inch" ? 1 : 0, true))));
   return v;
 }
 

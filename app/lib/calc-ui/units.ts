@@ -66,10 +66,10 @@ export function formatQ(value: number, from: UnitCode, to: UnitCode, extraDecima
 }
 
 /** A value given in `from`, rounded for a form field in `to` (defaults in the person's units). */
-export function fieldValue(value: number, from: UnitCode, to: UnitCode, extraDecimals = 1): string {
+export function fieldValue(value: number, from: UnitCode, to: UnitCode, extraDecimals = 1, keepZeros = false): string {
   const v = convert(value, from, to);
   const d = decimalsFor(to, extraDecimals);
-  return String(Number(v.toFixed(d)));
+  return keepZeros ? v.toFixed(d) : String(Number(v.toFixed(d)));
 }
 
 /**

@@ -64,8 +64,8 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
               set={set}
               errors={e}
               options={[
-                { value: "diametral", label: "Two-point bore gauge (diameters over 180°)" },
-                { value: "radial", label: "Radial readings about a fixed centre (over 360°)" },
+                { value: "diametral", label: "Two-point gauge: diameters" },
+                { value: "radial", label: "Radial: radii about a centre" },
               ]}
               hint={radial ? "Radial readings see every order, odd ones included." : "A two-point gauge cannot see odd orders such as the three-lobed shape (see below)."}
             />
