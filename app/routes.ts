@@ -27,6 +27,8 @@ export default [
 
     // recordings
     route("recordings", "routes/recordings/index.tsx"),
+    route("recordings/upload", "routes/recordings/upload.tsx"),
+    route("recordings/:id", "routes/recordings/watch.tsx"),
 
     // test records
     route("test-records", "routes/test-records/index.tsx"),
@@ -51,6 +53,16 @@ export default [
   // ---- JSON API (resource routes) -----------------------------------------------------------
   ...prefix("api", [
     route("me", "routes/api/me.ts"),
+    route("uploads/*", "routes/api/uploads.ts"),
+    route("recordings", "routes/api/recordings/index.ts"),
+    route("recordings/:id", "routes/api/recordings/recording.ts"),
+    route("recordings/:id/media", "routes/api/recordings/media.ts"),
+    route("recordings/:id/poster", "routes/api/recordings/poster.ts"),
+    route("recordings/:id/original", "routes/api/recordings/original.ts"),
+    route("recordings/:id/marks", "routes/api/recordings/marks.ts"),
+    route("recordings/:id/marks/:markId", "routes/api/recordings/mark.ts"),
+    route("recordings/:id/readings", "routes/api/recordings/readings.ts"),
+    route("recordings/:id/readings/:readingId", "routes/api/recordings/reading.ts"),
     route("procedures/titles", "routes/api/procedures/titles.ts"),
     route("procedures/recordings", "routes/api/procedures/recordings.ts"),
     route("procedures/revisions/:id", "routes/api/procedures/revision.ts"),

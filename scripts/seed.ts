@@ -4,6 +4,7 @@ import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import * as schema from "../app/db/schema";
 import { seedUsers } from "./seed/users";
+import { seedRecordings } from "./seed/recordings";
 import { seedProcedures } from "./seed/procedures";
 
 const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL });
@@ -11,6 +12,8 @@ const db = drizzle(pool, { schema });
 try {
   const n = await seedUsers(db);
   console.log(`[seed] demo people: ${n ? `${n} added` : "already there"}`);
+  const r = await seedRecordings(db);
+  console.log(`[seed] demo recordings: ${r ? `${r} added` : "already there"}`);
   const pr = await seedProcedures(db);
   console.log(`[seed] demo procedures: ${pr ? `${pr} added` : "already there"}`);
 } finally {

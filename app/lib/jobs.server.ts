@@ -1,6 +1,7 @@
 import { env } from "./env.server";
 import { createTransport, drainOutbox } from "./mail.server";
 import { pool } from "./db.server";
+import { ensureRecordingJobs } from "./recordings/processing.server";
 import { drainSearchOutbox } from "./search/indexer.server";
 
 /**
@@ -14,6 +15,8 @@ export function periodicTasks(): PeriodicTask[] {
   const retryBaseMs = Number(process.env.MAIL_RETRY_BASE_MS ?? 5000);
   return [
     { name: "mail-outbox", everyMs: Number(process.env.MAIL_POLL_MS ?? 1000), run: () => drainOutbox({ transport, retryBaseMs }) },
+    // recordings: starts the pg-boss worker for the processing queue (once; again after a failure)
+    { name: "recordings-queue", everyMs: 5000, run: ensureRecordingJobs },
     ...(env().MEILI_HOST ? [{ name: "search-outbox", everyMs: Number(process.env.SEARCH_POLL_MS ?? 500), run: () => drainSearchOutbox() }] : []),
   ];
 }

@@ -40,6 +40,9 @@ export const MATRIX: Entry[] = [
   { path: "/procedures/:slug/r/:number", sample: "/procedures/no-such-procedure/r/1", get: { ...ALL(404), anon: 302 } },
   { path: "/procedures/:slug/r/:number/edit", sample: "/procedures/no-such-procedure/r/1/edit", get: only(["admin", "editor", "builder"], 404) },
   { path: "/recordings", get: SIGNED_IN },
+  // recordings
+  { path: "/recordings/upload", get: only(STAFF) },
+  { path: "/recordings/:id", sample: "/recordings/00000000-0000-4000-8000-000000000000", get: { ...ALL(404), anon: 302 }, post: { ...only(STAFF, 404), apprentice: 403 }, note: "unknown id: guard first, then 404" },
   { path: "/test-records", get: SIGNED_IN },
   { path: "/calculators", get: SIGNED_IN },
   { path: "/calculators/preload", get: SIGNED_IN, post: { ...ALL(400), anon: 302 }, note: "empty form: field errors" },
@@ -52,6 +55,17 @@ export const MATRIX: Entry[] = [
 
   // ---- API ----
   { path: "/api/me", get: SIGNED_IN_API },
+  // recordings (unknown ids: the guard answers first, then 404)
+  { path: "/api/uploads/*", sample: "/api/uploads", get: only(STAFF, 200, 401), note: "GET lists the caller's unfinished uploads; tus verbs are in recordings.test.ts" },
+  { path: "/api/recordings", get: SIGNED_IN_API },
+  { path: "/api/recordings/:id", sample: "/api/recordings/00000000-0000-4000-8000-000000000000", get: { ...ALL(404), anon: 401 } },
+  { path: "/api/recordings/:id/media", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/media", get: { ...ALL(404), anon: 401 } },
+  { path: "/api/recordings/:id/poster", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/poster", get: { ...ALL(404), anon: 401 } },
+  { path: "/api/recordings/:id/original", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/original", get: only(STAFF, 404, 401) },
+  { path: "/api/recordings/:id/marks", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/marks", get: { ...ALL(404), anon: 401 }, post: only(STAFF, 404, 401), note: "unknown recording: 404 after the guard" },
+  { path: "/api/recordings/:id/marks/:markId", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/marks/00000000-0000-4000-8000-000000000001", get: { ...ALL(404), anon: 401 }, post: only(STAFF, 405, 401) },
+  { path: "/api/recordings/:id/readings", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/readings", get: { ...ALL(404), anon: 401 }, post: only(STAFF, 404, 401) },
+  { path: "/api/recordings/:id/readings/:readingId", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/readings/00000000-0000-4000-8000-000000000001", get: { ...ALL(404), anon: 401 }, post: only(STAFF, 405, 401) },
   { path: "/api/procedures/titles", sample: "/api/procedures/titles?q=stud", get: SIGNED_IN_API },
   { path: "/api/procedures/recordings", get: SIGNED_IN_API },
   {
