@@ -181,8 +181,15 @@ export class Store {
       this.lastUpdate = task.finishedAt;
       const final: Task = { ...task, status: ok ? "succeeded" : "failed" };
       // durable first, visible second
-      this.journal(ok ? { task: final, op } : { task: final });
-      task.status = final.status;
+      try {
+        this.journal(ok ? { task: final, op } : { task: final });
+        task.status = final.status;
+      } catch (e) {
+        // the effect is applied in memory but not on disk: say so rather than claim success
+        console.error(`[meili-fake] could not write the journal: ${(e as Error).message}`);
+        task.status = "failed";
+        task.error = new MeiliError(500, "io_error", `The search fake could not persist this task: ${(e as Error).message}`, "system").toJSON();
+      }
       this.trimTasks();
     }
   }
