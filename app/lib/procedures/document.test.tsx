@@ -50,6 +50,25 @@ describe("sanitizeDocument", () => {
     expect(spec({ label: "", nominal: 1 }).ok).toBe(false);
   });
 
+  it("drops list items never filled in, and lists left empty, but keeps filled ones", () => {
+    const item = (...content: JSONNode[]) => ({ type: "listItem", content });
+    const r = sanitizeDocument(
+      docOf(
+        { type: "heading", attrs: { level: 2 }, content: [{ type: "text", text: "Tools and parts" }] },
+        { type: "bulletList", content: [item({ type: "paragraph" })] },
+        { type: "orderedList", attrs: { start: 1 }, content: [item(para("Chase the threads.")), item({ type: "paragraph" }), item(para("Blow out."), { type: "bulletList", content: [item({ type: "paragraph" })] })] },
+      ),
+    );
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.doc.content!.map((c) => c.type)).toEqual(["heading", "orderedList"]);
+    const steps = r.doc.content![1].content!;
+    expect(steps).toHaveLength(2);
+    expect(steps[1].content!.map((c) => c.type)).toEqual(["paragraph"]);
+    expect(structureProblem(r.doc)).toBeNull();
+    expect(render(r.doc)).not.toMatch(/<li><p><\/p><\/li>/);
+  });
+
   it("gives pasted duplicate spec ids a new id", () => {
     const s = { type: "spec", attrs: { id: "dup", label: "A", quantity: "torque", unit: "N.m", nominal: 1 } };
     let n = 0;

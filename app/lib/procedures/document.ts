@@ -328,8 +328,23 @@ export function sanitizeDocument(input: unknown, opts: { newKey?: () => string }
   }
   const doc = sanitizeNode(input, ctx, "doc", 0) as ProcedureDoc | null;
   if (!doc || ctx.errors.length) return { ok: false, errors: ctx.errors.slice(0, 20), warnings: ctx.warnings };
+  dropEmptyListItems(doc);
   if (!doc.content?.length) doc.content = [{ type: "paragraph" }];
   return { ok: true, doc, warnings: ctx.warnings };
+}
+
+const LISTS = new Set(["bulletList", "orderedList"]);
+/** A list item that holds nothing but empty paragraphs (a bullet never filled in). */
+function isEmptyItem(n: JSONNode): boolean {
+  return n.type === "listItem" && (n.content ?? []).every((c) => c.type === "paragraph" && !(c.content ?? []).length);
+}
+/** Removes empty list items, then lists left with no items, at every depth; the stored page never shows a blank bullet. */
+function dropEmptyListItems(node: JSONNode): void {
+  if (!node.content) return;
+  for (const c of node.content) dropEmptyListItems(c);
+  if (LISTS.has(node.type)) node.content = node.content.filter((c) => !isEmptyItem(c));
+  node.content = node.content.filter((c) => !(LISTS.has(c.type) && !(c.content ?? []).length));
+  if (!node.content.length) delete node.content;
 }
 
 // ---- walking ---------------------------------------------------------------------------------
