@@ -45,7 +45,7 @@ function Axes({ x, y, xLabel, yLabel, sx, sy }: { x: number[]; y: number[]; xLab
 }
 
 /** Value against video time for one quantity. */
-function TimeChart({ readings, onSeek }: { readings: ReadingRow[]; onSeek: (t: number) => void }) {
+function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; onSeek: (t: number) => void; durationS: number | null }) {
   const timed = readings.filter((r) => r.t != null);
   const quantities = [...new Set(timed.map((r) => r.quantity))];
   const [q, setQ] = useState(quantities[0] ?? "");
@@ -54,7 +54,7 @@ function TimeChart({ readings, onSeek }: { readings: ReadingRow[]; onSeek: (t: n
   const pts = timed.filter((r) => r.quantity === active);
   const unit = pts[0].unitEntered;
   const data = pts.map((r) => ({ t: r.t as number, v: fromStored(r, unit), r }));
-  const tMax = Math.max(...data.map((d) => d.t), 1);
+  const tMax = Math.max(durationS ?? 0, ...data.map((d) => d.t * 1.05), 1);
   const vMin = Math.min(...data.map((d) => d.v));
   const vMax = Math.max(...data.map((d) => d.v));
   const lo = vMin === vMax ? vMin - Math.abs(vMin || 1) * 0.1 : vMin - (vMax - vMin) * 0.08;
@@ -152,19 +152,24 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
   );
 }
 
-export function ReadingsChart({ readings, onSeek }: { readings: ReadingRow[]; onSeek: (t: number) => void }) {
+export function ReadingsChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; onSeek: (t: number) => void; durationS: number | null }) {
   if (!readings.length) return null;
   const hasPairs = pairTorqueClamp(readings).length > 0;
   return (
-    <section className="card space-y-6" aria-labelledby="chart-h">
-      <h2 id="chart-h" className="text-lg">Readings chart</h2>
-      <TimeChart readings={readings} onSeek={onSeek} />
-      {hasPairs && (
-        <div className="border-t border-rule pt-4">
-          <h3 className="mb-2 text-base">Torque against clamp load</h3>
-          <NutFactorChart readings={readings} />
+    <section className="card" aria-labelledby="chart-h">
+      <h2 id="chart-h" className="mb-4 text-lg">Readings chart</h2>
+      <div className={`grid gap-8 ${hasPairs ? "lg:grid-cols-2" : ""}`}>
+        <div>
+          <h3 className="mb-2 text-base">Against video time</h3>
+          <TimeChart readings={readings} onSeek={onSeek} durationS={durationS} />
         </div>
-      )}
+        {hasPairs && (
+          <div>
+            <h3 className="mb-2 text-base">Torque against clamp load</h3>
+            <NutFactorChart readings={readings} />
+          </div>
+        )}
+      </div>
     </section>
   );
 }

@@ -149,9 +149,9 @@ function ReadingLine({ recordingId, reading: r, canEdit, onEdit }: { recordingId
 
 function UnitSelect({ quantity, value, onChange, id, invalid }: { quantity: string; value: string; onChange: (u: string) => void; id: string; invalid?: boolean }) {
   const units = unitsFor(quantity);
-  if (quantity === "other") return <input id={id} className="field py-1 text-sm" value={value} onChange={(e) => onChange(e.target.value)} placeholder="rpm" aria-invalid={invalid || undefined} />;
+  if (quantity === "other") return <input id={id} className="field min-w-[5.5rem] py-1 text-sm" value={value} onChange={(e) => onChange(e.target.value)} placeholder="rpm" aria-invalid={invalid || undefined} />;
   return (
-    <select id={id} className="field py-1 text-sm" value={units.includes(value) ? value : ""} onChange={(e) => onChange(e.target.value)} aria-invalid={invalid || undefined}>
+    <select id={id} className="field min-w-[5.5rem] py-1 text-sm" value={units.includes(value) ? value : ""} onChange={(e) => onChange(e.target.value)} aria-invalid={invalid || undefined}>
       {!units.includes(value) && <option value="">Unit…</option>}
       {units.map((u) => <option key={u} value={u}>{displayUnit(u)}</option>)}
     </select>
@@ -238,7 +238,7 @@ function AddGrid({ recordingId, currentTime }: { recordingId: string; currentTim
         <p className="text-xs text-graphite-soft">One reading per line; empty lines are skipped. Values are stored in SI with the unit you typed kept for display.</p>
       </div>
       <div className="overflow-x-auto">
-        <table className="num w-full min-w-[44rem] text-sm" data-testid="readings-grid">
+        <table className="num w-full min-w-[46rem] text-sm" data-testid="readings-grid">
           <thead className="text-left text-xs text-graphite-soft">
             <tr>
               <th className="pb-1 pr-2 font-semibold">Time (s)</th>

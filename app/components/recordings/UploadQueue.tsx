@@ -265,7 +265,7 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
         <p className="text-sm"><span className="font-semibold">{item.title}</span>{item.tags && <span className="text-graphite-soft"> · {item.tags}</span>}</p>
       )}
 
-      {!blocked && item.status !== "cancelled" && (
+      {!blocked && item.status !== "cancelled" && item.status !== "waiting" && (
         <div>
           <div
             role="progressbar"

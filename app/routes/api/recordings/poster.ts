@@ -1,13 +1,15 @@
 import type { Route } from "./+types/poster";
 import { requirePermission } from "~/lib/auth.server";
 import { serveFile } from "~/lib/recordings/media.server";
-import { recordingOr404 } from "~/lib/recordings/notes.server";
+import { notFound } from "~/lib/recordings/api.server";
+import { mediaFacts } from "~/lib/recordings/library.server";
 import { posterPath } from "~/lib/recordings/storage.server";
 
 /** GET /api/recordings/:id/poster — the poster frame (JPEG). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
-  const r = await recordingOr404(request, params.id);
+  const r = await mediaFacts(params.id);
+  if (!r) notFound(request);
   if (!r.hasPoster) return Response.json({ error: "not found", reason: "No poster frame yet." }, { status: 404 });
   return serveFile(request, posterPath(r.id), { contentType: "image/jpeg", cacheSeconds: 600 });
 }
