@@ -277,9 +277,9 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
               durationS={r.durationS}
             />
           </div>
-          <div className="mt-6 grid gap-5 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+          <div className="mt-6 space-y-5">
             <ReadingsPanel recordingId={r.id} readings={readings} currentTime={() => api.current?.currentTime() ?? time} canCreate={perms.read} canEdit={canEditReading} />
-            <ReadingsChart readings={readings} onSeek={seek} />
+            <ReadingsChart readings={readings} onSeek={seek} durationS={r.durationS} />
           </div>
         </>
       ) : (
