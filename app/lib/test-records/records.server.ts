@@ -22,7 +22,7 @@ import { db, type DbOrTx } from "~/lib/db.server";
 import { toSI, type UnitCode } from "~/lib/calc";
 import type { TypedReading } from "./form";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
-import { evaluateRecord, readingVerdict, type RecordVerdict, type SpecLimits } from "./verdict";
+import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
 
 export class TestRecordError extends Error {
   constructor(
@@ -37,9 +37,8 @@ export class TestRecordError extends Error {
 type Actor = { id: string; name?: string };
 export type SpecRow = typeof procedureSpecs.$inferSelect;
 
-export function limitsOf(s: SpecRow): SpecLimits {
-  return { id: s.id, label: s.label, quantity: s.quantity, unit: s.unit, min: s.min, max: s.max, nominal: s.nominal };
-}
+export { limitsOf } from "./limits";
+import { limitsOf } from "./limits";
 
 async function specsOfRevision(tx: DbOrTx, revisionId: string): Promise<SpecRow[]> {
   return tx.select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position));

@@ -9,7 +9,8 @@ import { assertCan, requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { can } from "~/lib/permissions";
 import { isBoreSpec, isClearanceSpec, isPistonSpec, positionFromNote, runDistortion, runPistonToWall } from "~/lib/test-records/calcs";
-import { getTestRecord, limitsOf, saveCalcRun } from "~/lib/test-records/records.server";
+import { limitsOf } from "~/lib/test-records/limits";
+import { getTestRecord, saveCalcRun } from "~/lib/test-records/records.server";
 import { RECORD_VERDICT_LABELS } from "~/lib/test-records/verdict";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.record.workOrder ?? "Test record"} · Test records · Benchreel` }];

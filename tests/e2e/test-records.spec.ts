@@ -1,0 +1,128 @@
+// QC files a test record from a procedure page, types readings, sees the verdict as typed and
+// on the filed record, and the procedure page lists the record. With SHOTS_TR=<dir> it also
+// saves screenshots (desktop, tablet, print emulation of the record sheet).
+import fs from "node:fs";
+import { randomUUID } from "node:crypto";
+import { expect, test, type Page } from "@playwright/test";
+import pg from "pg";
+
+const DOC = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Hone with the plate fitted; measure each bore at two depths and four angles." }] }] };
+
+async function makeProcedure(): Promise<{ slug: string; title: string }> {
+  const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+  await client.connect();
+  try {
+    const slug = `honing-check-${randomUUID().slice(0, 8)}`;
+    const title = `Torque-plate honing check ${slug.slice(-4)}`;
+    const p = await client.query(`insert into procedures (slug, title, area) values ($1, $2, 'block') returning id`, [slug, title]);
+    const pid = p.rows[0].id;
+    const r = await client.query(
+      `insert into procedure_revisions (procedure_id, number, state, title, area, doc, published_at) values ($1, 1, 'published', $2, 'block', $3, now()) returning id`,
+      [pid, title, JSON.stringify(DOC)],
+    );
+    const rid = r.rows[0].id;
+    const specs = [
+      ["bore-dia", "Bore diameter, plate fitted", "length", "mm", 88.0, 87.995, 88.01, "m"],
+      ["bore-oor", "Out-of-round at any depth", "length", "mm", null, null, 0.008, "m"],
+      ["ptw", "Piston-to-wall, forged 2618", "length", "mm", 0.07, 0.06, 0.08, "m"],
+    ];
+    for (const [i, s] of specs.entries()) {
+      await client.query(
+        `insert into procedure_specs (revision_id, procedure_id, spec_key, position, label, quantity, unit, nominal, min, max, si_unit) values ($1,$2,$3,$4,$5,$6,$7,$8,$9,$10,$11)`,
+        [rid, pid, s[0], i, s[1], s[2], s[3], s[4], s[5], s[6], s[7]],
+      );
+    }
+    await client.query(`update procedures set published_revision_id = $1, published_at = now() where id = $2`, [rid, pid]);
+    return { slug, title };
+  } finally {
+    await client.end();
+  }
+}
+
+async function signIn(page: Page, email: string) {
+  await page.goto("/signin");
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill("larkspur-demo");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith("/signin"));
+}
+
+test("QC files a test record from a procedure, sees the verdict, and the procedure lists it", async ({ page }) => {
+  const proc = await makeProcedure();
+  const wo = `LEW-24-${String(2000 + Math.floor(Math.random() * 7000))}`;
+  await signIn(page, "tomas@larkspur.example");
+  await page.goto(`/procedures/${proc.slug}`);
+  const section = page.getByTestId("procedure-test-records");
+  await expect(section).toContainText("No test record has been filed");
+  await section.getByRole("link", { name: "File a test record" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: "File a test record" })).toBeVisible();
+  await expect(page.getByText("revision 1")).toBeVisible();
+
+  await page.getByLabel("Work order").fill(wo.toLowerCase());
+  await page.getByLabel("Engine serial").fill("LX23-0412");
+  const bore = page.getByTestId("spec-readings").filter({ hasText: "Bore diameter, plate fitted" });
+  await bore.getByLabel("Bore diameter, plate fitted reading 1", { exact: true }).fill("88.004");
+  await bore.getByLabel("Bore diameter, plate fitted reading 1 where").fill("cyl 1, 10 mm down, 0°");
+  await bore.getByRole("button", { name: "+ Another reading" }).click();
+  await bore.getByLabel("Bore diameter, plate fitted reading 2", { exact: true }).fill("3.4655");
+  await bore.getByLabel("Bore diameter, plate fitted reading 2 unit").selectOption("in");
+  await expect(bore.getByTestId("reading-verdict").nth(1)).toHaveText("above max");
+  await expect(page.getByTestId("verdict-preview").getByTestId("verdict")).toHaveText(/Out of spec/);
+  // 3.4645 in = 87.9983 mm: within 87.995–88.010.
+  await bore.getByLabel("Bore diameter, plate fitted reading 2", { exact: true }).fill("3.4645");
+  await expect(bore.getByTestId("reading-verdict").nth(1)).toHaveText("within");
+  const oor = page.getByTestId("spec-readings").filter({ hasText: "Out-of-round" });
+  await oor.getByLabel("Out-of-round at any depth reading 1", { exact: true }).fill("4");
+  await oor.getByLabel("Out-of-round at any depth reading 1 unit").selectOption("um");
+  await expect(page.getByTestId("verdict-preview")).toContainText("2 within · 0 out · 1 not measured (Piston-to-wall, forged 2618)");
+  await expect(page.getByTestId("verdict-preview").getByTestId("verdict")).toHaveText(/Within spec/);
+  await page.getByRole("button", { name: "File the test record" }).click();
+
+  await expect(page.getByTestId("flash")).toContainText(`Test record filed for ${wo}: Within spec.`);
+  await expect(page.getByRole("region", { name: "Verdict" }).getByTestId("verdict")).toHaveText(/Within spec/);
+  await expect(page.getByText("Not measured: Piston-to-wall, forged 2618.")).toBeVisible();
+  const rows = page.getByTestId("spec-row").filter({ hasText: "Bore diameter" });
+  await expect(rows).toContainText("3.4645 in");
+  await expect(rows).toContainText("87.9983 mm");
+
+  await page.getByRole("link", { name: proc.title }).first().click();
+  await expect(page.getByTestId("procedure-test-records")).toContainText(wo);
+  await expect(page.getByTestId("procedure-test-records").getByTestId("verdict")).toHaveText(/Within spec/);
+
+  if (process.env.SHOTS_TR) {
+    const dir = process.env.SHOTS_TR;
+    fs.mkdirSync(dir, { recursive: true });
+    const recordUrl = await page.getByTestId("procedure-test-records").getByRole("link", { name: wo }).getAttribute("href");
+    const shots: [string, string][] = [
+      ["list", "/test-records"],
+      ["new", `/test-records/new?procedure=${proc.slug}`],
+      ["record", recordUrl!],
+      ["amend", `${recordUrl}/amend`],
+      ["print", `${recordUrl}/print`],
+      ["procedure", `/procedures/${proc.slug}`],
+      ["shop-floor", "/"],
+    ];
+    for (const [w, width] of [["desktop", 1280], ["tablet", 768]] as const) {
+      await page.setViewportSize({ width, height: 1000 });
+      for (const [name, path] of shots) {
+        await page.goto(path);
+        await page.waitForLoadState("networkidle");
+        await page.screenshot({ path: `${dir}/${name}-${w}.png`, fullPage: true });
+      }
+    }
+    await page.setViewportSize({ width: 900, height: 1200 });
+    await page.emulateMedia({ media: "print" });
+    await page.goto(`${recordUrl}/print`);
+    await page.screenshot({ path: `${dir}/print-emulated.png`, fullPage: true });
+    await page.emulateMedia({ media: "screen" });
+  }
+});
+
+test("an apprentice reads test records but cannot file or amend one", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  await page.goto("/test-records");
+  await expect(page.getByRole("heading", { level: 1, name: "Test records" })).toBeVisible();
+  await expect(page.getByRole("link", { name: "File a test record" })).toHaveCount(0);
+  const res = await page.goto("/test-records/new");
+  expect(res?.status()).toBe(403);
+});

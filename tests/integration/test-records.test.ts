@@ -1,0 +1,314 @@
+// Test records over HTTP: filing per role, verdicts, field errors, revision pinning,
+// amendments with the audit log, calculator runs, CSV export and the procedure page.
+import { randomUUID } from "node:crypto";
+import { and, eq, sql } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { auditLog, procedureRevisions, procedures, procedureSpecs, testRecordAmendments, testRecordCalcs, testRecordReadings, testRecords } from "~/db/schema";
+import { db } from "~/lib/db.server";
+import { createUser, http, type TestUser } from "../support/app";
+
+/** RFC 4180 reading, enough for the export: quoted fields, doubled quotes, CRLF or LF. */
+function parse(text: string, _opts: { columns: true; bom: true }): Record<string, string>[] {
+  const rows: string[][] = [];
+  let row: string[] = [];
+  let cell = "";
+  let quoted = false;
+  const t = text.replace(/^\uFEFF/, "");
+  for (let i = 0; i < t.length; i++) {
+    const ch = t[i];
+    if (quoted) {
+      if (ch === '"' && t[i + 1] === '"') (cell += '"'), i++;
+      else if (ch === '"') quoted = false;
+      else cell += ch;
+    } else if (ch === '"') quoted = true;
+    else if (ch === ",") row.push(cell), (cell = "");
+    else if (ch === "\n" || ch === "\r") {
+      if (ch === "\r" && t[i + 1] === "\n") i++;
+      row.push(cell), rows.push(row), (row = []), (cell = "");
+    } else cell += ch;
+  }
+  if (cell || row.length) row.push(cell), rows.push(row);
+  const [head, ...body] = rows;
+  return body.map((r) => Object.fromEntries(head.map((h, i) => [h, r[i] ?? ""])));
+}
+
+type SpecDef = { key: string; label: string; quantity: string; unit: string; min: number | null; max: number | null; nominal?: number | null };
+const DOC = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Measure and record." }] }] };
+
+async function publishRevision(procedureId: string, number: number, specs: SpecDef[]) {
+  await db().update(procedureRevisions).set({ state: "superseded", supersededAt: new Date() }).where(and(eq(procedureRevisions.procedureId, procedureId), eq(procedureRevisions.state, "published")));
+  const [rev] = await db()
+    .insert(procedureRevisions)
+    .values({ procedureId, number, state: "published", title: `Bore check ${procedureId.slice(0, 6)}`, area: "block", doc: DOC, publishedAt: new Date() })
+    .returning();
+  const rows = await db()
+    .insert(procedureSpecs)
+    .values(
+      specs.map((s, i) => ({
+        revisionId: rev.id,
+        procedureId,
+        specKey: s.key,
+        position: i,
+        label: s.label,
+        quantity: s.quantity,
+        unit: s.unit,
+        nominal: s.nominal ?? null,
+        min: s.min,
+        max: s.max,
+        siUnit: s.quantity === "length" ? "m" : "N.m",
+        minSi: s.min == null ? null : s.min / 1000,
+        maxSi: s.max == null ? null : s.max / 1000,
+      })),
+    )
+    .returning();
+  await db().update(procedures).set({ publishedRevisionId: rev.id, publishedAt: new Date() }).where(eq(procedures.id, procedureId));
+  return { rev, specs: Object.fromEntries(rows.map((r) => [r.specKey, r])) };
+}
+
+async function makeProcedure(specs: SpecDef[]) {
+  const slug = `tr-test-${randomUUID().slice(0, 8)}`;
+  const [p] = await db().insert(procedures).values({ slug, title: `Bore check ${slug}`, area: "block" }).returning();
+  const { rev, specs: s } = await publishRevision(p.id, 1, specs);
+  return { procedure: p, rev, specs: s };
+}
+
+const BORE: SpecDef[] = [
+  { key: "bore", label: "Bore diameter", quantity: "length", unit: "mm", min: 88.0, max: 88.012, nominal: 88.006 },
+  { key: "oor", label: "Out-of-round", quantity: "length", unit: "mm", min: null, max: 0.008 },
+  { key: "gap", label: "Top ring end gap", quantity: "length", unit: "mm", min: 0.45, max: null },
+];
+
+const workOrder = () => `LEW-24-${String(1000 + Math.floor(Math.random() * 8999))}`;
+
+function form(revisionId: string, extra: Record<string, string>) {
+  return { revisionId, title: "Bore finish after honing", workOrder: workOrder(), engineSerial: "LX23-0412", testedOn: new Date().toISOString().slice(0, 10), notes: "", ...extra };
+}
+
+/** Posts the form to the page it is on, as the browser does (/test-records/new?procedure=…). */
+async function file(user: TestUser, body: Record<string, string>) {
+  const [p] = await db()
+    .select({ slug: procedures.slug })
+    .from(procedureRevisions)
+    .innerJoin(procedures, eq(procedures.id, procedureRevisions.procedureId))
+    .where(eq(procedureRevisions.id, body.revisionId));
+  return http(`/test-records/new?procedure=${p.slug}`, { form: body, cookie: user.cookie });
+}
+
+/** Page text without React's text-joining comments. */
+const textOf = async (res: Response) => (await res.text()).replaceAll("<!-- -->", "");
+
+async function dbError(p: Promise<unknown>): Promise<string> {
+  try {
+    await p;
+    return "no error";
+  } catch (err) {
+    const e = err as { message: string; cause?: { message?: string } };
+    return `${e.message} ${e.cause?.message ?? ""}`;
+  }
+}
+
+const idFrom = (res: Response) => /\/test-records\/([0-9a-f-]{36})/.exec(res.headers.get("location") ?? "")?.[1] ?? "";
+
+describe("test records", () => {
+  let qc: TestUser;
+  let fx: Awaited<ReturnType<typeof makeProcedure>>;
+  beforeAll(async () => {
+    qc = await createUser("qc");
+    fx = await makeProcedure(BORE);
+  });
+
+  it("staff file a record through the form; an apprentice is refused", async () => {
+    for (const role of ["admin", "editor", "builder", "qc"] as const) {
+      const u = role === "qc" ? qc : await createUser(role);
+      const res = await file(u, form(fx.rev.id, { [`r.${fx.specs.bore.id}.0.value`]: "88.006", [`r.${fx.specs.bore.id}.0.unit`]: "mm" }));
+      expect(res.status, role).toBe(302);
+      const id = idFrom(res);
+      const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+      expect(rec.createdBy).toBe(u.id);
+      expect(rec.revisionId).toBe(fx.rev.id);
+      expect(rec.verdict).toBe("within");
+    }
+    const apprentice = await createUser("apprentice");
+    const res = await file(apprentice, form(fx.rev.id, { [`r.${fx.specs.bore.id}.0.value`]: "88.006", [`r.${fx.specs.bore.id}.0.unit`]: "mm" }));
+    expect(res.status).toBe(403);
+    expect((await http("/test-records/new", { cookie: apprentice.cookie })).status).toBe(403);
+  });
+
+  it("computes per-reading verdicts with unit conversion and lists specs left empty as not measured", async () => {
+    const b = fx.specs.bore.id;
+    const res = await file(
+      qc,
+      form(fx.rev.id, {
+        [`r.${b}.0.value`]: "88.004", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 1, 10 mm down, 0°",
+        [`r.${b}.1.value`]: "3.4655", [`r.${b}.1.unit`]: "in", [`r.${b}.1.note`]: "cyl 1, 10 mm down, 90°",
+        [`r.${fx.specs.gap.id}.0.value`]: "0.45", [`r.${fx.specs.gap.id}.0.unit`]: "mm",
+      }),
+    );
+    expect(res.status).toBe(302);
+    const id = idFrom(res);
+    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.position);
+    const bore = rows.filter((r) => r.specId === b);
+    expect(bore.map((r) => r.verdict)).toEqual(["within", "above"]);
+    expect(bore[1].valueInSpecUnit).toBeCloseTo(88.0237, 4);
+    expect(rows.find((r) => r.specId === fx.specs.gap.id)!.verdict).toBe("within");
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    expect(rec.verdict).toBe("out");
+    const page = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
+    expect(page).toContain("Out of spec");
+    expect(page).toContain("Not measured: Out-of-round");
+    expect(page).toContain("above max");
+  });
+
+  it("answers bad input with field messages and keeps what was typed", async () => {
+    const b = fx.specs.bore.id;
+    const res = await file(qc, { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88,0x6", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "88", [`r.${b}.1.unit`]: "N.m" }), workOrder: "job 17", testedOn: "" });
+    expect(res.status).toBe(400);
+    const html = await textOf(res);
+    expect(html).toContain("Work orders look like LEW-24-0117.");
+    expect(html).toContain("Enter the date of the test.");
+    expect(html).toContain("Enter a number, e.g. 88.006.");
+    expect(html).toContain("Bore diameter is a length spec; N.m is a torque unit.");
+    expect(html).toContain('value="88,0x6"');
+    expect(html).toContain('value="job 17"');
+    const none = await file(qc, form(fx.rev.id, {}));
+    expect(none.status).toBe(400);
+    expect(await textOf(none)).toContain("Type at least one reading");
+  });
+
+  it("pins the record to the revision in force; a later revision supersedes it and both limits show", async () => {
+    const p = await makeProcedure(BORE);
+    const res = await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.011", [`r.${p.specs.bore.id}.0.unit`]: "mm" }));
+    const id = idFrom(res);
+    const next = await publishRevision(p.procedure.id, 2, [{ ...BORE[0], max: 88.01 }, BORE[1], BORE[2]]);
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    expect(rec.revisionId).toBe(p.rev.id);
+    expect(rec.verdict).toBe("within");
+    const html = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
+    expect(html).toContain("superseded by revision 2");
+    expect(html).toContain("88 – 88.012 mm");
+    expect(html).toContain("88 – 88.01 mm (changed)");
+    // A form opened before the new revision was published is refused, with what was typed kept.
+    const stale = await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.005", [`r.${p.specs.bore.id}.0.unit`]: "mm" }));
+    expect(stale.status).toBe(409);
+    expect(await textOf(stale)).toContain("Revision 2 of this procedure was published while the form was open");
+    // New records go to revision 2.
+    const fresh = await file(qc, form(next.rev.id, { [`r.${next.specs.bore.id}.0.value`]: "88.011", [`r.${next.specs.bore.id}.0.unit`]: "mm" }));
+    const [rec2] = await db().select().from(testRecords).where(eq(testRecords.id, idFrom(fresh)));
+    expect(rec2.revisionId).toBe(next.rev.id);
+    expect(rec2.verdict).toBe("out");
+    // And the database itself refuses to move a record to another revision.
+    expect(await dbError(db().update(testRecords).set({ revisionId: next.rev.id }).where(eq(testRecords.id, id)))).toContain("stays pinned to the revision");
+  });
+
+  it("amends by a new version: the original stays, the change and its reason are in the history and the audit log", async () => {
+    const b = fx.specs.bore.id;
+    const wo = workOrder();
+    const id = idFrom(await file(qc, { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.015", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" }), workOrder: wo }));
+    const builder = await createUser("builder");
+    expect((await http(`/test-records/${id}/amend`, { cookie: builder.cookie })).status).toBe(403);
+    const base = { title: "Bore finish after honing", engineSerial: "LX23-0412", testedOn: new Date().toISOString().slice(0, 10), notes: "" };
+    const noReason = await http(`/test-records/${id}/amend`, { form: { ...base, reason: "", [`r.${b}.0.value`]: "88.009", [`r.${b}.0.unit`]: "mm" }, cookie: qc.cookie });
+    expect(noReason.status).toBe(400);
+    expect(await textOf(noReason)).toContain("Say why the record is amended");
+    const same = await http(`/test-records/${id}/amend`, { form: { ...base, reason: "checking", [`r.${b}.0.value`]: "88.015", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" }, cookie: qc.cookie });
+    expect(same.status).toBe(400);
+    expect(await textOf(same)).toContain("Nothing was changed");
+
+    const editor = await createUser("editor");
+    const ok = await http(`/test-records/${id}/amend`, { form: { ...base, reason: "gauge re-zeroed on the ring, cyl 3 re-measured", [`r.${b}.0.value`]: "88.009", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" }, cookie: editor.cookie });
+    expect(ok.status).toBe(302);
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    expect(rec.currentVersion).toBe(1);
+    expect(rec.verdict).toBe("within");
+    expect(rec.workOrder).toBe(wo);
+    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.version);
+    expect(rows.map((r) => [r.version, r.valueEntered, r.verdict])).toEqual([[0, 88.015, "above"], [1, 88.009, "within"]]);
+    const [a] = await db().select().from(testRecordAmendments).where(eq(testRecordAmendments.recordId, id));
+    expect(a.createdBy).toBe(editor.id);
+    expect(a.verdictBefore).toBe("out");
+    expect(a.changes).toEqual([{ kind: "spec", key: b, label: "Bore diameter", before: "88.015 mm (cyl 3)", after: "88.009 mm (cyl 3)" }]);
+    const logs = await db().select().from(auditLog).where(and(eq(auditLog.entity, "test_record"), eq(auditLog.entityId, id)));
+    expect(logs.map((l) => l.action).sort()).toEqual(["amend", "create"]);
+    expect(logs.find((l) => l.action === "amend")!.actorId).toBe(editor.id);
+    expect((logs.find((l) => l.action === "amend")!.detail as { reason: string }).reason).toBe("gauge re-zeroed on the ring, cyl 3 re-measured");
+
+    const now = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
+    expect(now).toContain("gauge re-zeroed on the ring");
+    expect(now).toContain("Within spec");
+    const original = await textOf(await http(`/test-records/${id}?v=0`, { cookie: qc.cookie }));
+    expect(original).toContain("the record as originally filed");
+    expect(original).toContain("88.015");
+    // Filed readings cannot be changed in place, not even from the database.
+    expect(await dbError(db().update(testRecordReadings).set({ valueEntered: 1 }).where(eq(testRecordReadings.recordId, id)))).toContain("readings are immutable");
+  });
+
+  it("runs Bore distortion on the readings and keeps the result with the record", async () => {
+    const b = fx.specs.bore.id;
+    const vals = [88.01, 88.005, 88.0, 88.005, 88.004, 88.004, 88.004, 88.004];
+    const f: Record<string, string> = {};
+    vals.forEach((v, i) => {
+      f[`r.${b}.${i}.value`] = String(v);
+      f[`r.${b}.${i}.unit`] = "mm";
+      f[`r.${b}.${i}.note`] = `${i < 4 ? 10 : 60} mm, ${(i % 4) * 45}°`;
+    });
+    const id = idFrom(await file(qc, form(fx.rev.id, f)));
+    const rs = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.position);
+    const body: Record<string, string> = { intent: "distortion", specId: b };
+    rs.forEach((r, i) => {
+      body[`depth.${r.id}`] = String(i < 4 ? 10 : 60);
+      body[`angle.${r.id}`] = i === 2 ? "" : String((i % 4) * 45);
+    });
+    const bad = await http(`/test-records/${id}`, { form: body, cookie: qc.cookie });
+    expect(bad.status).toBe(400);
+    expect(await textOf(bad)).toContain("Give every reading its depth and angle.");
+    body[`angle.${rs[2].id}`] = "90";
+    const res = await http(`/test-records/${id}`, { form: body, cookie: qc.cookie });
+    expect(res.status).toBe(302);
+    const [c] = await db().select().from(testRecordCalcs).where(eq(testRecordCalcs.recordId, id));
+    const result = c.result as { levels: { outOfRound_mm: number }[] };
+    expect(result.levels.map((l) => Number(l.outOfRound_mm.toFixed(6)))).toEqual([0.01, 0]);
+    const apprentice = await createUser("apprentice");
+    expect((await http(`/test-records/${id}`, { form: body, cookie: apprentice.cookie })).status).toBe(403);
+  });
+
+  it("exports the filtered records with one row per reading and one per spec not measured", async () => {
+    const wo = workOrder();
+    const b = fx.specs.bore.id;
+    await file(qc, { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.002", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "0.2", [`r.${b}.1.unit`]: "thou" }), workOrder: wo });
+    const apprentice = await createUser("apprentice");
+    const res = await http(`/test-records/export.csv?workOrder=${wo}`, { cookie: apprentice.cookie });
+    expect(res.status).toBe(200);
+    expect(res.headers.get("content-type")).toContain("text/csv");
+    const rows = parse(await res.text(), { columns: true, bom: true }) as Record<string, string>[];
+    expect(rows).toHaveLength(4);
+    expect(rows.every((r) => r.work_order === wo && r.record_verdict === "Out of spec" && r.revision === "1")).toBe(true);
+    expect(rows.map((r) => [r.spec, r.reading, r.reading_unit, r.reading_verdict])).toEqual([
+      ["Bore diameter", "88.002", "mm", "within"],
+      ["Bore diameter", "0.2", "thou", "below"],
+      ["Out-of-round", "", "", "not measured"],
+      ["Top ring end gap", "", "", "not measured"],
+    ]);
+    expect(Number(rows[1].reading_in_spec_unit)).toBeCloseTo(0.00508, 9);
+    const none = parse(await (await http(`/test-records/export.csv?workOrder=NOPE-00-0000`, { cookie: apprentice.cookie })).text(), { columns: true, bom: true });
+    expect(none).toHaveLength(0);
+  });
+
+  it("lists with filters, and the procedure page lists the records that back it", async () => {
+    const p = await makeProcedure(BORE);
+    const within = idFrom(await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.006", [`r.${p.specs.bore.id}.0.unit`]: "mm" })));
+    const out = idFrom(await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.02", [`r.${p.specs.bore.id}.0.unit`]: "mm" })));
+    const list = await textOf(await http(`/test-records?procedure=${p.procedure.slug}&verdict=out`, { cookie: qc.cookie }));
+    expect(list).toContain(`/test-records/${out}`);
+    expect(list).not.toContain(`/test-records/${within}`);
+    const old = await textOf(await http(`/test-records?procedure=${p.procedure.slug}&to=2000-01-01`, { cookie: qc.cookie }));
+    expect(old).toContain("No test record matches these filters");
+    const page = await http(`/procedures/${p.procedure.slug}`, { cookie: qc.cookie });
+    expect(page.status).toBe(200);
+    const html = await textOf(page);
+    expect(html).toContain(`/test-records/${within}`);
+    expect(html).toContain(`/test-records/${out}`);
+    expect(html).toContain("File a test record");
+    const count = await db().select({ n: sql<number>`count(*)::int` }).from(testRecords).where(eq(testRecords.procedureId, p.procedure.id));
+    expect(count[0].n).toBe(2);
+  });
+});
