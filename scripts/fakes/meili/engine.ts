@@ -54,6 +54,8 @@ class Postings {
   ids = new Int32Array(2);
   meta = new Int32Array(2);
   len = 0;
+  /** The document being indexed when this term was last seen (its entry is the last one). */
+  lastDoc = -1;
   push(id: number, meta: number) {
     if (this.len === this.ids.length) {
       const n = this.ids.length * 2;
@@ -287,6 +289,8 @@ export class MeiliIndex {
   private totalLen = 0;
 
   private terms = new SearchableMap<Postings>();
+  /** The same postings by term, for the indexing hot path (a plain Map is faster to probe). */
+  private postingsByTerm = new Map<string, Postings>();
   private fieldOrder: string[] = [];
   private fieldSeen = new Set<string>();
   private topFieldCounts = new Map<string, number>();
@@ -385,19 +389,31 @@ export class MeiliIndex {
   }
 
   private indexDoc(id: number, doc: Doc) {
-    const tf = new Map<string, number>();
     let len = 0;
+    const byTerm = this.postingsByTerm;
+    const terms = this.terms;
     flatten(doc, "", (path, v) => {
       if (v === null || v === EMPTY) return;
       const rank = this.searchRank(path);
       if (rank < 0) return;
-      const bit = 1 << Math.min(rank, 14);
+      const bit = (1 << Math.min(rank, 14)) << 16;
       len += indexTerms(String(v), (t) => {
-        const m = tf.get(t) ?? 0;
-        tf.set(t, (((m >>> 16) | bit) << 16) | Math.min((m & 0xffff) + 1, 0xffff));
+        let p = byTerm.get(t);
+        if (p === undefined) {
+          p = new Postings();
+          byTerm.set(t, p);
+          terms.set(t, p);
+        }
+        if (p.lastDoc === id) {
+          // this document's entry is the last one: count one more occurrence
+          const m = p.meta[p.len - 1];
+          p.meta[p.len - 1] = (m | bit) + ((m & 0xffff) < 0xffff ? 1 : 0);
+        } else {
+          p.lastDoc = id;
+          p.push(id, bit | 1);
+        }
       });
     });
-    for (const [t, meta] of tf) this.terms.fetch(t, () => new Postings()).push(id, meta);
     this.docLen[id] = len;
     this.totalLen += len;
     this.facetDoc(id, doc);
@@ -482,7 +498,10 @@ export class MeiliIndex {
       p.len = j;
       if (j === 0) empty.push(term);
     }
-    for (const t of empty) this.terms.delete(t);
+    for (const t of empty) {
+      this.terms.delete(t);
+      this.postingsByTerm.delete(t);
+    }
     const keep = (id: number) => alive[id] === 1;
     for (const f of this.facets.values()) {
       f.sorted = null;
@@ -514,6 +533,7 @@ export class MeiliIndex {
     this.deadCount = 0;
     this.totalLen = 0;
     this.terms = new SearchableMap<Postings>();
+    this.postingsByTerm = new Map();
     this.facets.clear();
     this.topFieldCounts.clear();
     this.rankCache.clear();

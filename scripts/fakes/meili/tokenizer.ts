@@ -88,11 +88,14 @@ export function scanChunks(text: string): Chunk[] {
 }
 
 /** Extra terms a chunk is indexed under besides itself and its parts. */
-function variants(term: string, emit: (t: string) => void) {
+function variants(term: string, hasParts: boolean, emit: (t: string) => void) {
+  if (!hasParts) return;
   if (term.includes("·")) emit(term.replace(/·/g, ""));
   // "0.0035" is also found when typed as ".0035"
-  const dec = /^0\.(\d+)$/.exec(term);
-  if (dec) emit(dec[1]);
+  if (term.charCodeAt(0) === 48 && term[1] === ".") {
+    const dec = /^0\.(\d+)$/.exec(term);
+    if (dec) emit(dec[1]);
+  }
 }
 
 /**
@@ -107,11 +110,12 @@ export function indexTerms(text: string, emit: (term: string) => void): number {
     const raw = m[0];
     const term = normalizeTerm(raw);
     emit(term);
-    if (mayHaveParts(m)) {
+    const joined = mayHaveParts(m);
+    if (joined) {
       const parts = splitParts(raw, 0);
       if (parts) for (const p of parts) emit(p.term);
     }
-    variants(term, emit);
+    variants(term, joined, emit);
   }
   return n;
 }
