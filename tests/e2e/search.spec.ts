@@ -1,0 +1,48 @@
+import { expect, test } from "@playwright/test";
+
+async function signIn(page: import("@playwright/test").Page, email: string) {
+  await page.goto("/signin");
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill("larkspur-demo");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith("/signin"));
+}
+
+test("the header box shows grouped results as you type; a mark hit opens the player at its second", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  // "/" focuses the header search box (once the page has hydrated).
+  await expect(async () => {
+    await page.keyboard.press("/");
+    await expect(page.locator("#header-search")).toBeFocused({ timeout: 500 });
+  }).toPass({ timeout: 10_000 });
+  await page.keyboard.type("stud 4 reads 51");
+  const dropdown = page.getByTestId("search-dropdown");
+  await expect(dropdown.getByRole("heading", { name: "Marks in recordings" })).toBeVisible({ timeout: 20_000 });
+  const hit = dropdown.getByTestId("search-hit").filter({ hasText: "Final pass 110" }).first();
+  await expect(hit).toContainText("at 0:18");
+  await expect(hit.locator("mark").first()).toBeVisible(); // highlighted words
+  await hit.click();
+  await expect(page).toHaveURL(/\/recordings\/[0-9a-f-]+\?t=18\.4/);
+  // The demo clip is processed by the worker after seeding; the player then starts at 18.4 s.
+  await expect
+    .poll(async () => page.evaluate(() => document.querySelector("video")?.currentTime ?? -1), { timeout: 45_000 })
+    .toBeGreaterThan(18.3);
+  expect(await page.evaluate(() => document.querySelector("video")!.currentTime)).toBeLessThan(18.6);
+});
+
+test("Enter opens the search page with facets and counts; a facet filters", async ({ page }) => {
+  await signIn(page, "marcus@larkspur.example");
+  await page.locator("#header-search").fill("torque");
+  await page.locator("#header-search").press("Enter");
+  await expect(page).toHaveURL(/\/search\?q=torque/);
+  await expect(page.getByTestId("search-total")).toContainText("match");
+  const kindFacets = page.getByTestId("facet-kind");
+  await expect(kindFacets.first()).toBeVisible();
+  const marks = kindFacets.filter({ hasText: "Marks in recordings" });
+  const count = Number((await marks.locator("span").last().textContent()) ?? "0");
+  expect(count).toBeGreaterThan(0);
+  await marks.click();
+  await expect(page).toHaveURL(/type=mark/);
+  await expect(page.getByTestId("search-result")).toHaveCount(Math.min(count, 20));
+  for (const r of await page.getByTestId("search-result").all()) await expect(r).toContainText("Marks in recordings");
+});
