@@ -133,3 +133,43 @@ test("an apprentice watches but cannot upload or mark", async ({ page }) => {
   await expect(page.getByTestId("nut-factor-result")).toContainText("K = ");
   await shot(page, "watch-apprentice");
 });
+
+test("an upload interrupted by a page reload continues when the same file is chosen again", async ({ page }) => {
+  test.setTimeout(120_000);
+  fs.mkdirSync(work, { recursive: true });
+  const big = path.join(work, "long-take.mp4");
+  // ~20-30 MB: more than one 16 MiB chunk.
+  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc2=duration=2:size=640x360:rate=25", "-vf", "noise=alls=80:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", "-movflags", "+faststart", big]);
+  const size = fs.statSync(big).size;
+  expect(size).toBeGreaterThan(17 * 1024 * 1024);
+
+  await signIn(page, "tomas@larkspur.example");
+  await page.goto("/recordings/upload");
+  // Let the first chunk through, then drop the connection for every later one (the client
+  // retries); the page is reloaded in the middle of that.
+  let patches = 0;
+  await page.route("**/api/uploads/*", async (route) => {
+    if (route.request().method() === "PATCH" && ++patches >= 2) return route.abort("connectionreset");
+    return route.continue();
+  });
+  await page.getByTestId("file-input").setInputFiles(big);
+  await page.getByTestId("upload-item").getByRole("button", { name: "Upload" }).click();
+  await expect.poll(() => patches, { timeout: 30_000 }).toBeGreaterThanOrEqual(2);
+  await expect(page.getByTestId("upload-item")).toContainText("retrying");
+  await page.reload();
+  await page.unrouteAll({ behavior: "ignoreErrors" });
+
+  const unfinished = page.getByTestId("unfinished-uploads");
+  await expect(unfinished).toContainText("long-take.mp4");
+  await expect(unfinished).toContainText(/16 MB of \d+ MB on the server/);
+  await shot(page, "upload-unfinished");
+
+  await page.getByTestId("file-input").setInputFiles(big);
+  const item = page.getByTestId("upload-item");
+  await item.getByRole("button", { name: "Upload" }).click();
+  await expect(item).toContainText("Continuing an earlier upload");
+  await expect(item.getByTestId("upload-progress")).toHaveAttribute("aria-valuenow", "100", { timeout: 30_000 });
+  await expect(item.getByTestId("recording-state")).toHaveAttribute("data-state", "ready", { timeout: 60_000 });
+  await page.reload();
+  await expect(page.getByTestId("unfinished-uploads")).toHaveCount(0);
+});

@@ -37,8 +37,8 @@ function fmtValue(v: number) {
   return Number(v.toPrecision(6)).toString();
 }
 
-type Draft = { t: string; quantity: string; value: string; unit: string; label: string; pass: string; lube: string };
-const emptyDraft = (prev?: Draft): Draft => ({ t: "", quantity: prev?.quantity ?? "torque", value: "", unit: prev?.unit ?? "N.m", label: "", pass: prev?.pass ?? "", lube: prev?.lube ?? "" });
+type Draft = { t: string; quantity: string; value: string; unit: string; label: string; pass: string; lube: string; tool: string };
+const emptyDraft = (prev?: Draft): Draft => ({ t: "", quantity: prev?.quantity ?? "torque", value: "", unit: prev?.unit ?? "N.m", label: "", pass: prev?.pass ?? "", lube: prev?.lube ?? "", tool: prev?.tool ?? "" });
 
 function draftToBody(d: Draft) {
   const t = d.t.trim() === "" ? null : Number(d.t);
@@ -48,7 +48,7 @@ function draftToBody(d: Draft) {
     unit: d.unit,
     label: d.label,
     t: t != null && Number.isFinite(t) ? t : t == null ? null : Number.NaN,
-    conditions: { pass: d.pass || undefined, lube: d.lube || undefined },
+    conditions: { pass: d.pass || undefined, lube: d.lube || undefined, tool: d.tool || undefined },
   };
 }
 
@@ -160,7 +160,7 @@ function UnitSelect({ quantity, value, onChange, id, invalid }: { quantity: stri
 
 function EditRow({ recordingId, reading: r, onDone }: { recordingId: string; reading: ReadingRow; onDone: () => void }) {
   const fetcher = useFetcher({ key: `reading-edit-${r.id}` });
-  const [d, setD] = useState<Draft>({ t: r.t != null ? String(r.t) : "", quantity: r.quantity, value: String(r.valueEntered), unit: r.unitEntered, label: r.label, pass: r.conditions?.pass ?? "", lube: r.conditions?.lube ?? "" });
+  const [d, setD] = useState<Draft>({ t: r.t != null ? String(r.t) : "", quantity: r.quantity, value: String(r.valueEntered), unit: r.unitEntered, label: r.label, pass: r.conditions?.pass ?? "", lube: r.conditions?.lube ?? "", tool: r.conditions?.tool ?? "" });
   const submitted = useRef(false);
   const errors = fetcher.state === "idle" ? issuesByPath(fetcher.data) : {};
   useEffect(() => {
@@ -169,7 +169,7 @@ function EditRow({ recordingId, reading: r, onDone }: { recordingId: string; rea
   const save = () => {
     submitted.current = true;
     const body = draftToBody(d);
-    fetcher.submit({ ...body, conditions: { ...r.conditions, pass: d.pass || undefined, lube: d.lube || undefined } } as never, { method: "PATCH", action: `/api/recordings/${recordingId}/readings/${r.id}`, encType: "application/json" });
+    fetcher.submit({ ...body, conditions: { ...r.conditions, pass: d.pass || undefined, lube: d.lube || undefined, tool: d.tool || undefined } } as never, { method: "PATCH", action: `/api/recordings/${recordingId}/readings/${r.id}`, encType: "application/json" });
   };
   const err = Object.values(errors)[0];
   return (
@@ -189,7 +189,12 @@ function EditRow({ recordingId, reading: r, onDone }: { recordingId: string; rea
         {err && <p className="field-error" role="alert">{err}</p>}
       </td>
       <td className="px-2 py-2"><input aria-label="Pass" className="field w-16 py-1 text-sm" value={d.pass} onChange={(e) => setD({ ...d, pass: e.target.value })} /></td>
-      <td className="px-2 py-2"><input aria-label="Lube" className="field py-1 text-sm" value={d.lube} onChange={(e) => setD({ ...d, lube: e.target.value })} /></td>
+      <td className="px-2 py-2">
+        <div className="flex gap-1">
+          <input aria-label="Lube" className="field w-24 py-1 text-sm" value={d.lube} onChange={(e) => setD({ ...d, lube: e.target.value })} />
+          <input aria-label="Tool" className="field w-24 py-1 text-sm" value={d.tool} onChange={(e) => setD({ ...d, tool: e.target.value })} />
+        </div>
+      </td>
       <td className="whitespace-nowrap px-2 py-2 text-right">
         <button type="button" className="btn btn-primary py-1 text-xs" onClick={save}>Save</button>
         <button type="button" className="btn ml-1 py-1 text-xs" onClick={onDone}>Cancel</button>
@@ -238,7 +243,7 @@ function AddGrid({ recordingId, currentTime }: { recordingId: string; currentTim
         <p className="text-xs text-graphite-soft">One reading per line; empty lines are skipped. Values are stored in SI with the unit you typed kept for display.</p>
       </div>
       <div className="overflow-x-auto">
-        <table className="num w-full min-w-[46rem] text-sm" data-testid="readings-grid">
+        <table className="num w-full min-w-[54rem] text-sm" data-testid="readings-grid">
           <thead className="text-left text-xs text-graphite-soft">
             <tr>
               <th className="pb-1 pr-2 font-semibold">Time (s)</th>
@@ -248,6 +253,7 @@ function AddGrid({ recordingId, currentTime }: { recordingId: string; currentTim
               <th className="pb-1 pr-2 font-semibold">Label</th>
               <th className="pb-1 pr-2 font-semibold">Pass</th>
               <th className="pb-1 pr-2 font-semibold">Lube</th>
+              <th className="pb-1 pr-2 font-semibold">Tool</th>
             </tr>
           </thead>
           <tbody>
@@ -274,6 +280,7 @@ function AddGrid({ recordingId, currentTime }: { recordingId: string; currentTim
                   </td>
                   <td className="pb-2 pr-2"><input aria-label={`Line ${i + 1} pass`} className="field w-14 py-1 text-sm" value={r.pass} onChange={(e) => set(i, { pass: e.target.value })} /></td>
                   <td className="pb-2 pr-2"><input aria-label={`Line ${i + 1} lube`} className="field w-28 py-1 text-sm" value={r.lube} placeholder="moly" onChange={(e) => set(i, { lube: e.target.value })} /></td>
+                  <td className="pb-2 pr-2"><input aria-label={`Line ${i + 1} tool`} className="field w-32 py-1 text-sm" value={r.tool} placeholder="click wrench #3" onChange={(e) => set(i, { tool: e.target.value })} /></td>
                 </tr>
               );
             })}
