@@ -17,6 +17,7 @@
  * `benchQueries` are exported so that the app's benchmark can send the same documents and
  * queries through /api/search.
  */
+import os from "node:os";
 import v8 from "node:v8";
 import { Meilisearch } from "meilisearch";
 import MiniSearch from "minisearch";
@@ -34,6 +35,8 @@ export type BenchResult = {
   totalWords: number;
   indexing: { ms: number; docsPerSecond: number; minisearchMs?: number };
   memory: { heapUsedMB: number; fakeHeapDeltaMB: number; rssMB: number };
+  /** Load average (1 min) at the start and the end, and CPUs: latencies on a busy machine are inflated. */
+  machine: { cpus: number; loadBefore: number; loadAfter: number };
   cases: Record<string, BenchCase>;
   targets: Record<string, { limit: number; value: number; ok: boolean }>;
 };
@@ -157,6 +160,7 @@ export async function runMeiliBench(
   log(`corpus: ${N} documents, ${totalWords} words, vocabulary ${corpus.vocabulary.length}`);
   const queries = benchQueries(corpus, opts.samples ?? 60);
 
+  const loadBefore = Math.round(os.loadavg()[0] * 100) / 100;
   const heapBefore = v8.getHeapStatistics().used_heap_size;
   const fake = await startMeiliFake({ port: 0, host: "127.0.0.1" });
   try {
@@ -252,6 +256,7 @@ export async function runMeiliBench(
       totalWords,
       indexing: { ms: Math.round(indexMs), docsPerSecond: Math.round(N / (indexMs / 1000)), minisearchMs: minisearchMs && Math.round(minisearchMs) },
       memory,
+      machine: { cpus: os.cpus().length, loadBefore, loadAfter: Math.round(os.loadavg()[0] * 100) / 100 },
       cases,
       targets,
     };
@@ -275,7 +280,8 @@ if (import.meta.url === `file://${process.argv[1]}`) {
   });
   if (asJson) console.log(JSON.stringify(result, null, 2));
   else {
-    console.log(`\nindexing: ${result.indexing.ms} ms (${result.indexing.docsPerSecond} docs/s); heap ${result.memory.heapUsedMB} MB (fake ≈ ${result.memory.fakeHeapDeltaMB} MB), rss ${result.memory.rssMB} MB`);
+    console.log(`\nmachine: ${result.machine.cpus} CPUs, load average ${result.machine.loadBefore} → ${result.machine.loadAfter}`);
+    console.log(`indexing: ${result.indexing.ms} ms (${result.indexing.docsPerSecond} docs/s); heap ${result.memory.heapUsedMB} MB (fake ≈ ${result.memory.fakeHeapDeltaMB} MB), rss ${result.memory.rssMB} MB`);
     console.table(
       Object.fromEntries(
         Object.entries(result.cases).map(([k, c]) => [
