@@ -22,3 +22,20 @@ describe("search text in both unit systems", () => {
     expect(s).toEqual({ ptw: ["piston to wall"], "piston to wall": ["ptw"] });
   });
 });
+
+import { bestBlock, blockFragment } from "./query.server";
+
+describe("pointing a procedure hit at its block", () => {
+  const H = (w: string) => `\uE000${w}\uE001`;
+  it("picks the block with the most distinct matched words", () => {
+    expect(bestBlock([`Caution: ${H("torque")} values`, `Run ${H("head")} ${H("stud")} ${H("torque")} in passes`, "no match"])).toBe(1);
+    expect(bestBlock(["none", "here"])).toBe(-1);
+    expect(bestBlock([`${H("a")} ${H("a")} ${H("a")}`, `${H("a")} ${H("b")}`])).toBe(1);
+  });
+
+  it("builds a text fragment from the block's first words, without markers or prefixes", () => {
+    expect(blockFragment(`• Torque ${H("stud")} 4 to 110 N·m in three passes`)).toBe(`#:~:text=${encodeURIComponent("Torque stud 4 to 110 N·m")}`);
+    expect(blockFragment("…plate-honed bore checked")).toBe("#:~:text=plate%2Dhoned%20bore%20checked");
+    expect(blockFragment("")).toBe("");
+  });
+});

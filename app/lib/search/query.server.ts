@@ -82,6 +82,22 @@ export function blockFragment(block: string): string {
   return words ? `#:~:text=${encodeURIComponent(words).replace(/-/g, "%2D")}` : "";
 }
 
+/** The block holding the most distinct highlighted words (the first of equals); -1 if none. */
+export function bestBlock(blocks: unknown[]): number {
+  let best = -1;
+  let bestScore = 0;
+  blocks.forEach((b, i) => {
+    if (typeof b !== "string") return;
+    const words = new Set<string>();
+    for (const m of b.matchAll(new RegExp(`${HL_PRE}([^${HL_POST}]*)${HL_POST}`, "g"))) words.add(m[1].toLowerCase());
+    if (words.size > bestScore) {
+      best = i;
+      bestScore = words.size;
+    }
+  });
+  return best;
+}
+
 export async function runSearch(user: SessionUser, p: SearchParams): Promise<SearchResponse> {
   const res = await searchIndex().search(p.q, {
     filter: buildFilter(user, p),
@@ -101,7 +117,7 @@ export async function runSearch(user: SessionUser, p: SearchParams): Promise<Sea
     let snippet = String(f.text ?? h.text ?? "");
     let context: string | undefined;
     const blocks = Array.isArray(f.blocks) ? (f.blocks as string[]) : [];
-    const matched = blocks.findIndex((b) => typeof b === "string" && b.includes(HL_PRE));
+    const matched = bestBlock(blocks);
     if (matched >= 0) {
       url = `${h.url}${blockFragment(blocks[matched])}`;
       snippet = blocks[matched];
