@@ -110,6 +110,25 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
         await page.screenshot({ path: `${dir}/${name}-${w}.png`, fullPage: true });
       }
     }
+    // The demo data: the out-of-spec record, and Bore distortion run on the honing record.
+    await page.setViewportSize({ width: 1280, height: 1000 });
+    await page.goto("/test-records?verdict=out");
+    const outLink = page.getByTestId("records-table").getByRole("link").first();
+    if (await outLink.count()) {
+      await outLink.click();
+      await page.waitForLoadState("networkidle");
+      await page.screenshot({ path: `${dir}/record-out-desktop.png`, fullPage: true });
+    }
+    await page.goto("/test-records?workOrder=LEW-24-0117");
+    const honing = page.getByRole("link", { name: /Bore finish after torque-plate honing/ });
+    if (await honing.count()) {
+      await honing.first().click();
+      const d = page.locator("details").filter({ has: page.locator("summary", { hasText: /Bore distortion from the 8 readings of .*, cyl 1$/ }) });
+      await d.locator("summary").click();
+      await d.getByRole("button", { name: "Run Bore distortion" }).click();
+      await expect(page.getByTestId("flash")).toContainText("Bore distortion computed");
+      await page.screenshot({ path: `${dir}/record-calc-desktop.png`, fullPage: true });
+    }
     await page.setViewportSize({ width: 900, height: 1200 });
     await page.emulateMedia({ media: "print" });
     await page.goto(`${recordUrl}/print`);

@@ -45,7 +45,7 @@ export function ReadingsTable({
               {s.label}
               <div className="font-normal"><SpecVerdictTag verdict={sv} /></div>
             </td>
-            <td className="num px-3 py-1.5 align-top" rowSpan={Math.max(rs.length, 1)}>{limitsText(s)}</td>
+            <td className="num whitespace-nowrap px-3 py-1.5 align-top" rowSpan={Math.max(rs.length, 1)}>{limitsText(s)}</td>
             {currentSpecs && (
               <td className={`num px-3 py-1.5 align-top ${changed ? "font-semibold text-brass" : "text-graphite-soft"}`} rowSpan={Math.max(rs.length, 1)}>
                 {now ? `${limitsText(now)}${changed ? " (changed)" : ""}` : "no longer in the procedure"}
@@ -59,8 +59,8 @@ export function ReadingsTable({
               rs.map((r, i) => (
                 <tr key={r.id}>
                   {i === 0 && head}
-                  <td className="px-3 py-1 text-right">{fmtNum(r.valueEntered)} {unitText(r.unitEntered)}</td>
-                  <td className="px-3 py-1 text-right text-graphite-soft">{r.unitEntered === s.unit ? "" : `${fmtNum(r.valueInSpecUnit)} ${unitText(s.unit)}`}</td>
+                  <td className="whitespace-nowrap px-3 py-1 text-right">{fmtNum(r.valueEntered)} {unitText(r.unitEntered)}</td>
+                  <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">{r.unitEntered === s.unit ? "" : `${fmtNum(r.valueInSpecUnit)} ${unitText(s.unit)}`}</td>
                   <td className="px-3 py-1"><ReadingVerdictTag verdict={r.verdict} /></td>
                   <td className="px-3 py-1 font-sans text-graphite-soft">
                     {r.note}

@@ -16,6 +16,17 @@ export function positionFromNote(note: string): { depthMm: number | null; angleD
   return { depthMm: num(depth), angleDeg: num(angle) };
 }
 
+/** What a reading's note says besides its position: "cyl 2, 20 mm down, 90°" → "cyl 2". */
+export function groupOfNote(note: string): string {
+  return note
+    .replace(/(\d+(?:[.,]\d+)?)\s*mm\b(\s*(down|deep|below( the)? deck))?/gi, "")
+    .replace(/(-?\d+(?:[.,]\d+)?)\s*(?:°|deg\b|degrees?\b)/gi, "")
+    .replace(/[\s,;·–-]+$/g, "")
+    .replace(/^[\s,;·–-]+/g, "")
+    .replace(/\s*[,;]\s*[,;]\s*/g, ", ")
+    .trim();
+}
+
 export const isBoreSpec = (s: SpecLimits) => s.quantity === "length" && /bore/i.test(s.label) && !/clearance|wall|gap/i.test(s.label);
 export const isPistonSpec = (s: SpecLimits) => s.quantity === "length" && /piston/i.test(s.label) && !/clearance|wall/i.test(s.label);
 export const isClearanceSpec = (s: SpecLimits) => s.quantity === "length" && /clearance|to-wall|to wall/i.test(s.label) && (s.min != null || s.max != null);

@@ -49,13 +49,15 @@ describe("amendment history", () => {
   });
 });
 
-import { positionFromNote, runDistortion, runPistonToWall } from "./calcs";
+import { groupOfNote, positionFromNote, runDistortion, runPistonToWall } from "./calcs";
 
 describe("calculators on a record's readings", () => {
   it("reads depth and angle from a reading's note", () => {
     expect(positionFromNote("cyl 2, 20 mm down, 90°")).toEqual({ depthMm: 20, angleDeg: 90 });
     expect(positionFromNote("top 10mm 45 deg")).toEqual({ depthMm: 10, angleDeg: 45 });
     expect(positionFromNote("cyl 1")).toEqual({ depthMm: null, angleDeg: null });
+    expect(groupOfNote("cyl 2, 20 mm down, 90°")).toBe("cyl 2");
+    expect(groupOfNote("10 mm, 45°")).toBe("");
   });
 
   it("runs bore distortion on the diameters and piston-to-wall on a bore and a piston reading", () => {

@@ -19,7 +19,7 @@ export default function RecordSheetPrint({ loaderData }: Route.ComponentProps) {
   const { record, procedure, revision, current, specs, readings, evaluation, amendments, recording, version, filedBy, printedAt, calcs } = loaderData;
   const shown = amendments.filter((a) => a.version <= version);
   return (
-    <div className="record-sheet mx-auto max-w-3xl bg-card p-6 shadow-sm print:p-0 print:shadow-none" data-testid="record-sheet">
+    <div className="record-sheet mx-auto max-w-3xl bg-card p-6 shadow-sm print:max-w-none print:bg-white print:p-0 print:shadow-none" data-testid="record-sheet">
       <div className="no-print mb-4 flex gap-2">
         <button type="button" className="btn btn-primary" onClick={() => window.print()}>Print</button>
         <Link className="btn no-underline" to={`/test-records/${record.id}`}>Back to the record</Link>

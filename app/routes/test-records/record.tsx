@@ -8,7 +8,7 @@ import { TWO_POINT_GAUGE_NOTE, type ClearanceResult, type DistortionResult } fro
 import { assertCan, requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { can } from "~/lib/permissions";
-import { isBoreSpec, isClearanceSpec, isPistonSpec, positionFromNote, runDistortion, runPistonToWall } from "~/lib/test-records/calcs";
+import { groupOfNote, isBoreSpec, isClearanceSpec, isPistonSpec, positionFromNote, runDistortion, runPistonToWall } from "~/lib/test-records/calcs";
 import { limitsOf } from "~/lib/test-records/limits";
 import { getTestRecord, saveCalcRun } from "~/lib/test-records/records.server";
 import { RECORD_VERDICT_LABELS } from "~/lib/test-records/verdict";
@@ -38,7 +38,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (intent === "distortion") {
     const spec = specs.find((s) => s.id === form.get("specId") && isBoreSpec(s));
     if (!spec) return data({ intent, errors: { calc: "Choose a bore spec with readings." } }, { status: 400 });
-    const rs = current.filter((r) => r.specId === spec.id);
+    const group = form.has("group") ? String(form.get("group")) : null;
+    const rs = current.filter((r) => r.specId === spec.id && (group === null || groupOfNote(r.note) === group));
+    if (rs.length < 3) return data({ intent, errors: { calc: "Bore distortion needs at least three diameters." } }, { status: 400 });
     const positions = new Map<string, { depthMm: number; angleDeg: number }>();
     const errors: Record<string, string> = {};
     for (const r of rs) {
@@ -52,7 +54,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const nominal = view.specs.find((s) => s.id === spec.id)?.nominal;
     const out = runDistortion(rs, positions, nominal != null ? { value: nominal, unit: spec.unit } : null);
     if (!out.ok) return data({ intent, errors: out.errors, values: Object.fromEntries([...form.entries()].map(([k, v]) => [k, String(v)])) }, { status: 400 });
-    await saveCalcRun(user, view.record.id, { version: view.record.currentVersion, kind: "distortion", label: `Bore distortion: ${spec.label}`, input: out.input, result: out.result });
+    await saveCalcRun(user, view.record.id, { version: view.record.currentVersion, kind: "distortion", label: `Bore distortion: ${spec.label}${group ? ` (${group})` : ""}`, input: out.input, result: out.result });
     return redirectWithFlash(`/test-records/${view.record.id}#calcs`, { kind: "ok", message: "Bore distortion computed and kept with the record." });
   }
   if (intent === "piston-to-wall") {
@@ -75,7 +77,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 function mm(x: number | undefined) {
-  return x == null ? "—" : `${fmtNum(x, 4)} mm`;
+  return x == null || !Number.isFinite(x) ? "—" : `${Number(x.toFixed(4))} mm`;
 }
 
 function CalcResult({ kind, result }: { kind: string; result: unknown }) {
@@ -95,7 +97,7 @@ function CalcResult({ kind, result }: { kind: string; result: unknown }) {
                 <td className="pr-3 text-right">{mm(l.minDiameter_mm)}</td>
                 <td className="pr-3 text-right">{mm(l.maxDiameter_mm)}</td>
                 <td className="pr-3 text-right font-semibold">{mm(l.outOfRound_mm)}</td>
-                <td className="text-right">{(() => { const o = l.orders.find((x) => x.order === 2); return o ? `${mm(o.radialAmplitude_mm)} at ${fmtNum(o.phaseDeg, 3)}°` : "—"; })()}</td>
+                <td className="text-right">{(() => { const o = l.orders.find((x) => x.order === 2); return o ? `${mm(o.radialAmplitude_mm)} at ${Math.round(o.phaseDeg)}°` : "—"; })()}</td>
               </tr>
             ))}
           </tbody>
@@ -214,14 +216,18 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
             {flags.canCalc && !historical && (boreSpecs.length > 0 || lengthReadings.length >= 2) && (
               <div className="space-y-3 border-t border-rule pt-3">
                 {actionData && errors.calc && <FormError message={errors.calc} />}
-                {boreSpecs.map((s) => {
-                  const rs = readings.filter((r) => r.specId === s.id);
+                {boreSpecs.flatMap((s) => {
+                  const all = readings.filter((r) => r.specId === s.id);
+                  const groups = [...new Set(all.map((r) => groupOfNote(r.note)))];
+                  return groups.map((g) => ({ s, g: groups.length > 1 ? g : null, rs: groups.length > 1 ? all.filter((r) => groupOfNote(r.note) === g) : all }));
+                }).filter((x) => x.rs.length >= 3).map(({ s, g, rs }) => {
                   return (
-                    <details key={s.id} className="rounded-md border border-rule p-3" open={actionData?.intent === "distortion"}>
-                      <summary className="cursor-pointer font-semibold">Bore distortion from the {rs.length} readings of “{s.label}”</summary>
+                    <details key={`${s.id}-${g}`} className="rounded-md border border-rule p-3" open={actionData?.intent === "distortion"}>
+                      <summary className="cursor-pointer font-semibold">Bore distortion from the {rs.length} readings of “{s.label}”{g ? `, ${g}` : ""}</summary>
                       <Form method="post" className="mt-2 space-y-2">
                         <input type="hidden" name="intent" value="distortion" />
                         <input type="hidden" name="specId" value={s.id} />
+                        {g !== null && <input type="hidden" name="group" value={g} />}
                         <p className="text-sm text-graphite-soft">Depth below the deck and gauge angle for each diameter (taken from the reading's note where it says, e.g., “20 mm, 90°”).</p>
                         <table className="num text-sm">
                           <thead className="text-xs uppercase text-graphite-soft"><tr><th className="pr-3 text-left">Diameter</th><th className="pr-3 text-left">Depth (mm)</th><th className="text-left">Angle (°)</th></tr></thead>
