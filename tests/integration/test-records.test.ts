@@ -3,7 +3,7 @@
 import { randomUUID } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { auditLog, procedureRevisions, procedures, procedureSpecs, testRecordAmendments, testRecordCalcs, testRecordReadings, testRecords } from "~/db/schema";
+import { auditLog, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecordAmendments, testRecordCalcs, testRecordReadings, testRecords } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { createUser, http, type TestUser } from "../support/app";
 
@@ -269,6 +269,33 @@ describe("test records", () => {
     expect(result.levels.map((l) => Number(l.outOfRound_mm.toFixed(6)))).toEqual([0.01, 0]);
     const apprentice = await createUser("apprentice");
     expect((await http(`/test-records/${id}`, { form: body, cookie: apprentice.cookie })).status).toBe(403);
+  });
+
+  it("files from a recording: its readings are offered, pulled in with a link to their moment, and the span is kept", async () => {
+    const [rec] = await db().insert(recordings).values({ title: "Cyl 3 bore check after honing", state: "ready", originalName: "bore.mp4", originalSize: 1000, durationS: 240 }).returning();
+    const [rd] = await db().insert(readings).values({ recordingId: rec.id, quantity: "length", label: "cyl 3 bore, 10 mm down, 0°", valueSi: 0.088007, valueEntered: 88.007, unitEntered: "mm", t: 42 }).returning();
+    const page = await textOf(await http(`/test-records/new?procedure=${fx.procedure.slug}&recording=${rec.id}`, { cookie: qc.cookie }));
+    expect(page).toContain("Readings typed on the recording");
+    expect(page).toContain("cyl 3 bore, 10 mm down, 0°");
+    const b = fx.specs.bore.id;
+    const res = await http(`/test-records/new?procedure=${fx.procedure.slug}&recording=${rec.id}`, {
+      form: { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.007", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: rd.label, [`r.${b}.0.src`]: rd.id }), recordingId: rec.id, recordingStartS: "30", recordingEndS: "95.5" },
+      cookie: qc.cookie,
+    });
+    expect(res.status).toBe(302);
+    const id = idFrom(res);
+    const [row] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    expect([row.recordingId, row.recordingStartS, row.recordingEndS]).toEqual([rec.id, 30, 95.5]);
+    const [r] = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id));
+    expect(r.sourceReadingId).toBe(rd.id);
+    const html = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
+    expect(html).toContain(`/recordings/${rec.id}?t=30`);
+    const backwards = await http(`/test-records/new?procedure=${fx.procedure.slug}&recording=${rec.id}`, {
+      form: { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.007", [`r.${b}.0.unit`]: "mm" }), recordingId: rec.id, recordingStartS: "95", recordingEndS: "30" },
+      cookie: qc.cookie,
+    });
+    expect(backwards.status).toBe(400);
+    expect(await textOf(backwards)).toContain("The span must end after it starts.");
   });
 
   it("exports the filtered records with one row per reading and one per spec not measured", async () => {
