@@ -4,8 +4,9 @@ import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import * as schema from "../app/db/schema";
 import { seedUsers } from "./seed/users";
-import { seedRecordings } from "./seed/recordings";
 import { seedProcedures } from "./seed/procedures";
+import { seedRecordings } from "./seed/recordings";
+import { seedTestRecords } from "./seed/test-records";
 
 const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL });
 const db = drizzle(pool, { schema });
@@ -16,6 +17,8 @@ try {
   console.log(`[seed] demo recordings: ${r ? `${r} added` : "already there"}`);
   const pr = await seedProcedures(db);
   console.log(`[seed] demo procedures: ${pr ? `${pr} added` : "already there"}`);
+  const tr = await seedTestRecords(db);
+  console.log(`[seed] demo test records: ${tr === "skipped" ? "skipped (no demo procedures)" : tr ? `${tr} added` : "already there"}`);
 } finally {
   await pool.end();
 }

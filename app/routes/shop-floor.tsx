@@ -4,13 +4,15 @@ import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
 import { can, ROLE_LABELS } from "~/lib/permissions";
 import { awaitingReview } from "~/lib/procedures/workflow.server";
+import { RecordMiniList } from "~/components/test-records/parts";
+import { recentTestRecords } from "~/lib/test-records/records.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Shop floor · Benchreel" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const review = can(user.role, "procedure:review") ? await awaitingReview() : null;
-  return { user, review };
+  return { user, review, testRecords: await recentTestRecords() };
 }
 
 type Tile = { to: string; title: string; body: string; show: boolean };
@@ -45,6 +47,13 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
               ))}
             </ul>
           )}
+        </section>
+      )}
+      {loaderData.testRecords.length > 0 && (
+        <section aria-labelledby="recent-tests-h" className="card mb-6" data-testid="recent-test-records">
+          <h2 id="recent-tests-h" className="text-lg">Recent test records</h2>
+          <p className="text-sm text-graphite-soft">Out of spec first, then the latest. <Link to="/test-records">All test records</Link></p>
+          <RecordMiniList rows={loaderData.testRecords} showProcedure />
         </section>
       )}
       <section aria-label="Sections" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">

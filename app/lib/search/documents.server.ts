@@ -1,5 +1,5 @@
 import { eq, inArray } from "drizzle-orm";
-import { marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, users } from "~/db/schema";
+import { marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { blockTexts, type JSONNode } from "~/lib/procedures/document";
 import type { SearchDoc } from "./client.server";
@@ -193,9 +193,38 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
       const docs = await readingDocs({ readingId: entityId });
       return { upserts: docs, deleteIds: docs.length ? [] : [`reading-${entityId}`], deleteGroups: [] };
     }
+    case "test_record": {
+      const docs = await testRecordDocs(entityId);
+      return { upserts: docs, deleteIds: docs.length ? [] : [`test_record-${entityId}`], deleteGroups: [] };
+    }
     default:
       return empty();
   }
+}
+
+async function testRecordDocs(id?: string): Promise<SearchDoc[]> {
+  const rows = await db()
+    .select({ r: testRecords, procedureTitle: procedures.title, revision: procedureRevisions.number, by: users.name })
+    .from(testRecords)
+    .innerJoin(procedures, eq(procedures.id, testRecords.procedureId))
+    .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
+    .leftJoin(users, eq(users.id, testRecords.createdBy))
+    .where(id ? eq(testRecords.id, id) : undefined);
+  return rows.map(({ r, procedureTitle, revision, by }) => {
+    const verdict = r.verdict === "out" ? "Out of spec" : "Within spec";
+    return {
+      id: `test_record-${r.id}`,
+      kind: "test_record" as const,
+      title: `${r.workOrder}: ${r.title}`,
+      text: `${r.workOrder} ${verdict} ${procedureTitle} revision ${revision}${r.engineSerial ? ` engine ${r.engineSerial}` : ""}${r.notes ? ` — ${r.notes}` : ""}`,
+      tags: [],
+      visibility: ["all"],
+      url: `/test-records/${r.id}`,
+      procedureTitle,
+      uploader: by ?? "",
+      date: Date.parse(`${r.testedOn}T12:00:00Z`),
+    };
+  });
 }
 
 /** Every document, for a full reindex. */
@@ -203,5 +232,6 @@ export async function allDocuments(): Promise<SearchDoc[]> {
   const out: SearchDoc[] = [];
   for (const p of await db().select({ id: procedures.id }).from(procedures)) out.push(...(await procedureDocs(p.id)).upserts);
   for (const r of await db().select({ id: recordings.id }).from(recordings)) out.push(...(await recordingDocs(r.id)).upserts);
+  out.push(...(await testRecordDocs()));
   return out;
 }

@@ -24,6 +24,8 @@ import {
 import { db } from "~/lib/db.server";
 import { users } from "~/db/schema";
 import { eq } from "drizzle-orm";
+import { ProcedureTestRecords } from "~/components/test-records/parts";
+import { testRecordsForProcedure } from "~/lib/test-records/records.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.procedure.title ?? "Procedure"} · Benchreel` }];
 
@@ -57,6 +59,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     open: openVisible,
     flags,
     watching,
+    testRecords: await testRecordsForProcedure(procedure.id),
+    canFileTest: can(user.role, "testrecord:create"),
   } as const;
 }
 
@@ -156,10 +160,7 @@ export default function ReadProcedure({ loaderData, actionData }: Route.Componen
           <p className="mt-1 text-graphite-soft">No marks in recordings point to this procedure.</p>
         )}
       </section>
-      <section className="card p-4" aria-labelledby="tests-h">
-        <h2 id="tests-h" className="text-base">Test records</h2>
-        <p className="mt-1 text-graphite-soft">Test records filed against this procedure will be listed here.</p>
-      </section>
+      {"testRecords" in loaderData && <ProcedureTestRecords rows={loaderData.testRecords} slug={slug} canFile={loaderData.canFileTest} />}
     </>
   );
   return (

@@ -44,6 +44,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       edit: canOnOwned(user, "recording:edit", recording.uploadedBy),
       download: can(user.role, "recording:download"),
       retry: can(user.role, "recording:retry"),
+      fileTestRecord: can(user.role, "testrecord:create"),
       mark: can(user.role, "mark:create"),
       read: can(user.role, "reading:create"),
     },
@@ -212,6 +213,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
           <>
             {perms.download && r.hasOriginal && <a className="btn no-underline" href={`/api/recordings/${r.id}/original`} download>Download original</a>}
             {perms.edit && <button type="button" className="btn" onClick={() => setShowDetails((v) => !v)} aria-expanded={showDetails}>Edit details</button>}
+            {perms.fileTestRecord && <Link className="btn no-underline" to={`/test-records/new?recording=${r.id}`}>File a test record from this recording</Link>}
           </>
         }
       >
