@@ -5,7 +5,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { auditLog, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecordAmendments, testRecordCalcs, testRecordReadings, testRecords } from "~/db/schema";
 import { db } from "~/lib/db.server";
-import { createUser, http, type TestUser } from "../support/app";
+import { createUser, http, waitFor, type TestUser } from "../support/app";
 
 /** RFC 4180 reading, enough for the export: quoted fields, doubled quotes, CRLF or LF. */
 function parse(text: string, _opts: { columns: true; bom: true }): Record<string, string>[] {
@@ -318,6 +318,20 @@ describe("test records", () => {
     expect(Number(rows[1].reading_in_spec_unit)).toBeCloseTo(0.00508, 9);
     const none = parse(await (await http(`/test-records/export.csv?workOrder=NOPE-00-0000`, { cookie: apprentice.cookie })).text(), { columns: true, bom: true });
     expect(none).toHaveLength(0);
+  });
+
+  it("is found by search: work order, verdict and notes, opening the record", async () => {
+    const word = `zq${randomUUID().replace(/-/g, "").slice(0, 10)}`;
+    const b = fx.specs.bore.id;
+    const id = idFrom(await file(qc, form(fx.rev.id, { [`r.${b}.0.value`]: "88.02", [`r.${b}.0.unit`]: "mm", notes: `bore 2 tight at the top ${word}` })));
+    const apprentice = await createUser("apprentice");
+    const hit = await waitFor(async () => {
+      const res = await http(`/api/search?q=${word}`, { cookie: apprentice.cookie });
+      const body = (await res.json()) as { hits: { kind: string; url: string; title: string; snippet: string }[] };
+      return body.hits.find((h) => h.url === `/test-records/${id}`);
+    }, 20_000);
+    expect(hit.kind).toBe("test_record");
+    expect(hit.snippet.replace(/<[^>]+>/g, "")).toContain("Out of spec");
   });
 
   it("lists with filters, and the procedure page lists the records that back it", async () => {
