@@ -91,8 +91,10 @@ async function validate(request: Request): Promise<Validated> {
 }
 
 /** A 503 the ErrorBoundary shows as "database unavailable" instead of a stack trace. */
-export function databaseUnavailable() {
-  return data({ message: "The shop database is not answering. Try again in a minute; if it persists, tell the admin." }, { status: 503 });
+export function databaseUnavailable(request?: Request) {
+  const reason = "The shop database is not answering. Try again in a minute; if it persists, tell the admin.";
+  if (request && isApi(request)) return Response.json({ error: "database unavailable", reason }, { status: 503 });
+  return data({ message: reason }, { status: 503 });
 }
 
 /** The signed-in person for this request, or null. Validated once per request. */
@@ -100,7 +102,7 @@ export function getSession(request: Request): Promise<Validated> {
   let p = cache.get(request);
   if (!p) {
     p = validate(request).catch((err) => {
-      if (isDatabaseDown(err)) throw databaseUnavailable();
+      if (isDatabaseDown(err)) throw databaseUnavailable(request);
       throw err;
     });
     cache.set(request, p);
