@@ -135,6 +135,8 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
   const defBore = lengthReadings.find((r) => isBoreSpec(lim.find((s) => s.id === r.specId)!));
   const defPiston = lengthReadings.find((r) => isPistonSpec(lim.find((s) => s.id === r.specId)!));
   const defClearance = lim.find(isClearanceSpec);
+  // Piston-to-wall needs a bore and a piston diameter among the readings.
+  const canPtw = Boolean(defBore && defPiston);
 
   return (
     <>
@@ -211,9 +213,13 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
                 ))}
               </ul>
             ) : (
-              <p className="text-sm text-graphite-soft">No calculator has been run on these readings.</p>
+              <p className="text-sm text-graphite-soft">
+                {boreSpecs.length > 0 || canPtw
+                  ? "No calculator has been run on these readings."
+                  : "No calculator applies to these specs: Bore distortion needs three or more bore diameters, piston-to-wall a bore and a piston reading."}
+              </p>
             )}
-            {flags.canCalc && !historical && (boreSpecs.length > 0 || lengthReadings.length >= 2) && (
+            {flags.canCalc && !historical && (boreSpecs.length > 0 || canPtw) && (
               <div className="space-y-3 border-t border-rule pt-3">
                 {actionData && errors.calc && <FormError message={errors.calc} />}
                 {boreSpecs.flatMap((s) => {
@@ -249,7 +255,7 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
                     </details>
                   );
                 })}
-                {lengthReadings.length >= 2 && (
+                {canPtw && (
                   <details className="rounded-md border border-rule p-3" open={actionData?.intent === "piston-to-wall"}>
                     <summary className="cursor-pointer font-semibold">Piston-to-wall from a bore and a piston reading</summary>
                     <Form method="post" className="mt-2 grid gap-2 sm:grid-cols-2">
