@@ -298,6 +298,29 @@ describe("test records", () => {
     expect(await textOf(backwards)).toContain("The span must end after it starts.");
   });
 
+  it("runs piston-to-wall from a bore and a piston reading against the clearance spec", async () => {
+    const p = await makeProcedure([
+      { key: "bore", label: "Bore diameter", quantity: "length", unit: "mm", min: 88.0, max: 88.012 },
+      { key: "piston", label: "Piston diameter at the gauge point", quantity: "length", unit: "mm", min: null, max: null, nominal: 87.935 },
+      { key: "ptw", label: "Piston-to-wall clearance", quantity: "length", unit: "mm", min: 0.06, max: 0.08 },
+    ]);
+    const id = idFrom(await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.006", [`r.${p.specs.bore.id}.0.unit`]: "mm", [`r.${p.specs.piston.id}.0.value`]: "3.4620", [`r.${p.specs.piston.id}.0.unit`]: "in" })));
+    const rs = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id));
+    const bore = rs.find((r) => r.specId === p.specs.bore.id)!;
+    const piston = rs.find((r) => r.specId === p.specs.piston.id)!;
+    expect(piston.verdict).toBe("unchecked");
+    const same = await http(`/test-records/${id}`, { form: { intent: "piston-to-wall", boreReading: bore.id, pistonReading: bore.id, clearanceSpec: p.specs.ptw.id }, cookie: qc.cookie });
+    expect(same.status).toBe(400);
+    expect(await textOf(same)).toContain("Choose two different readings.");
+    const res = await http(`/test-records/${id}`, { form: { intent: "piston-to-wall", boreReading: bore.id, pistonReading: piston.id, clearanceSpec: p.specs.ptw.id }, cookie: qc.cookie });
+    expect(res.status).toBe(302);
+    const [c] = await db().select().from(testRecordCalcs).where(eq(testRecordCalcs.recordId, id));
+    // 88.006 mm − 3.4620 in (87.9348 mm) = 0.0712 mm, inside 0.06–0.08.
+    expect((c.result as { clearance_mm: number }).clearance_mm).toBeCloseTo(0.0712, 6);
+    expect((c.result as { verdict: string }).verdict).toBe("within");
+    expect(await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }))).toContain("within the clearance spec");
+  });
+
   it("exports the filtered records with one row per reading and one per spec not measured", async () => {
     const wo = workOrder();
     const b = fx.specs.bore.id;
