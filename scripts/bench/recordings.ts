@@ -32,6 +32,9 @@ export type RecordingsBenchResult = {
   uploadToDiskRatio: number;
   serverMemory: { pid: number | null; baselineMB: number | null; peakMB: number | null; growthMB: number | null };
   rangeTTFB: { n: number; medianMs: number; p95Ms: number; maxMs: number };
+  /** The same measure for GET /api/me (session check, no file): what any request costs on this machine now. */
+  baselineTTFB: { n: number; medianMs: number; p95Ms: number; maxMs: number };
+  loadAverage: number[];
   targets: { uploadRatio: boolean; memory: boolean | null; rangeP95: boolean };
 };
 
@@ -120,21 +123,28 @@ async function tusUpload(opts: RecordingsBenchOptions, file: string): Promise<{ 
   return { seconds: (performance.now() - t0) / 1000, recordingId };
 }
 
-async function rangeTTFB(opts: RecordingsBenchOptions, recordingId: string, size: number, n: number) {
-  const url = `${opts.baseUrl}/api/recordings/${recordingId}/media`;
+async function ttfb(opts: RecordingsBenchOptions, n: number, request: () => { url: string; headers: Record<string, string>; status: number }) {
   const times: number[] = [];
   for (let i = 0; i < n + 5; i++) {
-    const start = Math.floor(size * (0.25 + 0.5 * Math.random()));
+    const r = request();
     const t0 = performance.now();
-    const res = await fetch(url, { headers: { Cookie: opts.cookie, Range: `bytes=${start}-${start + 65535}` } });
+    const res = await fetch(r.url, { headers: { Cookie: opts.cookie, ...r.headers } });
     const reader = res.body!.getReader();
     await reader.read();
     const ms = performance.now() - t0;
     await reader.cancel();
-    if (res.status !== 206) throw new Error(`Range request answered ${res.status}`);
+    if (res.status !== r.status) throw new Error(`${r.url} answered ${res.status}`);
     if (i >= 5) times.push(ms); // the first few warm the connection and caches
   }
   return { n: times.length, medianMs: quantile(times, 0.5), p95Ms: quantile(times, 0.95), maxMs: Math.max(...times) };
+}
+
+function rangeTTFB(opts: RecordingsBenchOptions, recordingId: string, size: number, n: number) {
+  const url = `${opts.baseUrl}/api/recordings/${recordingId}/media`;
+  return ttfb(opts, n, () => {
+    const start = Math.floor(size * (0.25 + 0.5 * Math.random()));
+    return { url, headers: { Range: `bytes=${start}-${start + 65535}` }, status: 206 };
+  });
 }
 
 export async function benchRecordings(opts: RecordingsBenchOptions): Promise<RecordingsBenchResult> {
@@ -148,15 +158,15 @@ export async function benchRecordings(opts: RecordingsBenchOptions): Promise<Rec
   log(`raw disk write (dd conv=fdatasync): ${disk.MBps.toFixed(0)} MB/s`);
 
   const pid = serverPid(Number(new URL(opts.baseUrl).port));
-  const baseline = pid ? rssMB(pid) : null;
-  let peak = baseline;
+  const rssBefore = pid ? rssMB(pid) : null;
+  let peak = rssBefore;
   const sampler = setInterval(() => {
     const v = pid ? rssMB(pid) : null;
     if (v != null && (peak == null || v > peak)) peak = v;
   }, 100);
   const up = await tusUpload(opts, file).finally(() => clearInterval(sampler));
   const uploadMBps = size / MB / up.seconds;
-  log(`tus upload: ${uploadMBps.toFixed(0)} MB/s (${up.seconds.toFixed(1)} s); server RSS ${baseline?.toFixed(0)} → peak ${peak?.toFixed(0)} MB`);
+  log(`tus upload: ${uploadMBps.toFixed(0)} MB/s (${up.seconds.toFixed(1)} s); server RSS ${rssBefore?.toFixed(0)} → peak ${peak?.toFixed(0)} MB`);
   if (!up.recordingId) throw new Error("the upload finished without a recording id");
 
   // Wait for processing (probe + poster; the padded file is served as it is).
@@ -170,18 +180,21 @@ export async function benchRecordings(opts: RecordingsBenchOptions): Promise<Rec
     await new Promise((r) => setTimeout(r, 500));
   }
   const ranges = await rangeTTFB(opts, up.recordingId, size, opts.ranges ?? 200);
-  log(`Range TTFB over ${ranges.n} requests: median ${ranges.medianMs.toFixed(2)} ms, p95 ${ranges.p95Ms.toFixed(2)} ms`);
+  const baseline = await ttfb(opts, opts.ranges ?? 200, () => ({ url: `${opts.baseUrl}/api/me`, headers: {}, status: 200 }));
+  log(`Range TTFB over ${ranges.n} requests: median ${ranges.medianMs.toFixed(2)} ms, p95 ${ranges.p95Ms.toFixed(2)} ms (GET /api/me: median ${baseline.medianMs.toFixed(2)} ms, p95 ${baseline.p95Ms.toFixed(2)} ms)`);
   fs.rmSync(workDir, { recursive: true, force: true });
 
-  const growth = baseline != null && peak != null ? peak - baseline : null;
+  const growth = rssBefore != null && peak != null ? peak - rssBefore : null;
   const ratio = uploadMBps / disk.MBps;
   return {
     sizeBytes: size,
     upload: { seconds: up.seconds, MBps: uploadMBps },
     rawDisk: disk,
     uploadToDiskRatio: ratio,
-    serverMemory: { pid, baselineMB: baseline, peakMB: peak, growthMB: growth },
+    serverMemory: { pid, baselineMB: rssBefore, peakMB: peak, growthMB: growth },
     rangeTTFB: ranges,
+    baselineTTFB: baseline,
+    loadAverage: (await import("node:os")).loadavg().map((x) => Number(x.toFixed(2))),
     targets: { uploadRatio: ratio >= 0.6, memory: growth == null ? null : growth < 150, rangeP95: ranges.p95Ms <= 10 },
   };
 }
