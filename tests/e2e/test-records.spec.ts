@@ -110,6 +110,28 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
         await page.screenshot({ path: `${dir}/${name}-${w}.png`, fullPage: true });
       }
     }
+    // A later revision supersedes the one the record was filed against: both limits show.
+    const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+    await client.connect();
+    try {
+      const { rows } = await client.query(`select p.id, p.published_revision_id as rid from procedures p where p.slug = $1`, [proc.slug]);
+      await client.query(`update procedure_revisions set state = 'superseded', superseded_at = now() where id = $1`, [rows[0].rid]);
+      const r2 = await client.query(`insert into procedure_revisions (procedure_id, number, state, title, area, doc, published_at) values ($1, 2, 'published', $2, 'block', $3, now()) returning id`, [rows[0].id, proc.title, JSON.stringify(DOC)]);
+      await client.query(
+        `insert into procedure_specs (revision_id, procedure_id, spec_key, position, label, quantity, unit, nominal, min, max, si_unit, note)
+         select $1, procedure_id, spec_key, position, label, quantity, unit, nominal, min, case when spec_key = 'bore-dia' then 88.008 else max end, si_unit, note from procedure_specs where revision_id = $2`,
+        [r2.rows[0].id, rows[0].rid],
+      );
+      await client.query(`update procedures set published_revision_id = $1 where id = $2`, [r2.rows[0].id, rows[0].id]);
+    } finally {
+      await client.end();
+    }
+    for (const [w, width] of [["desktop", 1280], ["tablet", 768]] as const) {
+      await page.setViewportSize({ width, height: 1000 });
+      await page.goto(recordUrl!);
+      await expect(page.getByTestId("superseded-note")).toContainText("superseded by revision 2");
+      await page.screenshot({ path: `${dir}/record-superseded-${w}.png`, fullPage: true });
+    }
     // The demo data: the out-of-spec record, and Bore distortion run on the honing record.
     await page.setViewportSize({ width: 1280, height: 1000 });
     await page.goto("/test-records?verdict=out");
