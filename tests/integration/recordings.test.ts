@@ -1,7 +1,8 @@
 // Recordings: tus uploads from Node against the running app (chunks, abort, resume, sha256),
 // permissions on every tus request, size / name / content refusals, the processing job with
 // ffprobe/ffmpeg, media with Range, and the marks and readings JSON APIs.
-import { execFileSync } from "node:child_process";
+import { execFileSync, spawn, type ChildProcess } from "node:child_process";
+import net from "node:net";
 import { createHash } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
@@ -130,6 +131,66 @@ describe("tus upload", () => {
     const original = await http(`/api/recordings/${done.recordingId}/original`, { cookie: builder.cookie });
     expect(original.status).toBe(200);
     expect(original.headers.get("content-disposition")).toContain("big.mp4");
+    expect(sha(Buffer.from(await original.arrayBuffer()))).toBe(sha(big));
+  });
+
+  it("resumes after the server is killed mid-upload and started again, byte-identical", async () => {
+    // A second app process on the same database and upload folder, which this test may kill.
+    const build = process.env.BENCHREEL_BUILD_DIR;
+    expect(build, "BENCHREEL_BUILD_DIR is set by npm test").toBeTruthy();
+    const port = await new Promise<number>((resolve) => {
+      const srv = net.createServer().listen(0, "127.0.0.1", () => {
+        const p = (srv.address() as net.AddressInfo).port;
+        srv.close(() => resolve(p));
+      });
+    });
+    const base = `http://127.0.0.1:${port}`;
+    const start = async (): Promise<ChildProcess> => {
+      const child = spawn(process.execPath, ["node_modules/@react-router/serve/bin.js", path.join(build!, "server/index.js")], {
+        env: { ...process.env, PORT: String(port), HOST: "127.0.0.1" },
+        stdio: "ignore",
+      });
+      await waitFor(async () => (await fetch(`${base}/healthz`).catch(() => null))?.ok, 20_000, 100);
+      return child;
+    };
+    const bigPath = path.join(work, "killed.mp4");
+    ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=1:size=480x270:rate=25", "-vf", "noise=alls=60:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", bigPath]);
+    const big = fs.readFileSync(bigPath);
+    let server = await start();
+    let killedAt = 0;
+    let recordingId: string | null = null;
+    try {
+      const done = new Promise<void>((resolve, reject) => {
+        const u = new tus.Upload(big, {
+          endpoint: `${base}/api/uploads`,
+          chunkSize: 256 * 1024,
+          retryDelays: [300, 600, 1000, 1000, 1500, 2000, 2000, 3000, 3000, 3000],
+          headers: { Origin: base, Cookie: builder.cookie },
+          metadata: { filename: "killed.mp4", filetype: "video/mp4", title: "Survives a server restart" },
+          onProgress: (sent) => {
+            if (!killedAt && sent > big.length * 0.4) {
+              killedAt = sent;
+              server.kill("SIGKILL");
+              setTimeout(() => void start().then((s) => (server = s)), 800);
+            }
+          },
+          onAfterResponse: (_req, res) => {
+            recordingId = res.getHeader("Benchreel-Recording") ?? recordingId;
+          },
+          onSuccess: () => resolve(),
+          onError: reject,
+        });
+        u.start();
+      });
+      await done;
+    } finally {
+      server.kill("SIGTERM");
+    }
+    expect(killedAt).toBeGreaterThan(0);
+    expect(recordingId).toBeTruthy();
+    const rec = await waitState(recordingId!, builder.cookie);
+    expect(rec.state).toBe("ready");
+    const original = await http(`/api/recordings/${recordingId}/original`, { cookie: builder.cookie });
     expect(sha(Buffer.from(await original.arrayBuffer()))).toBe(sha(big));
   });
 
