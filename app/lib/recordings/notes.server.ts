@@ -1,4 +1,4 @@
-import { and, eq, inArray } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { z } from "zod";
 import { marks, procedures, readings } from "~/db/schema";
 import { assertCan, forbidden, type SessionUser } from "../auth.server";
@@ -156,9 +156,4 @@ export async function deleteReading(request: Request, user: SessionUser, recordi
   if (!canOnOwned(user, "reading:edit", r.createdBy)) forbidden(request, "You can delete only your own readings.");
   await db().delete(readings).where(eq(readings.id, readingId));
   return new Response(null, { status: 204 });
-}
-
-export async function readingsById(ids: string[]) {
-  if (!ids.length) return [];
-  return db().select().from(readings).where(inArray(readings.id, ids));
 }
