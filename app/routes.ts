@@ -32,6 +32,11 @@ export default [
 
     // test records
     route("test-records", "routes/test-records/index.tsx"),
+    route("test-records/new", "routes/test-records/new.tsx"),
+    route("test-records/export.csv", "routes/test-records/export.ts"),
+    route("test-records/:id", "routes/test-records/record.tsx"),
+    route("test-records/:id/amend", "routes/test-records/amend.tsx"),
+    route("test-records/:id/print", "routes/test-records/print.tsx"),
 
     // calculators
     route("calculators", "routes/calculators/index.tsx"),
@@ -53,6 +58,13 @@ export default [
   // ---- JSON API (resource routes) -----------------------------------------------------------
   ...prefix("api", [
     route("me", "routes/api/me.ts"),
+    route("calc/preload", "routes/api/calc.preload.ts"),
+    route("calc/distortion", "routes/api/calc.distortion.ts"),
+    route("calc/clearance", "routes/api/calc.clearance.ts"),
+    route("search", "routes/api/search.ts"),
+    route("procedures/titles", "routes/api/procedures/titles.ts"),
+    route("procedures/recordings", "routes/api/procedures/recordings.ts"),
+    route("procedures/revisions/:id", "routes/api/procedures/revision.ts"),
     route("uploads/*", "routes/api/uploads.ts"),
     route("recordings", "routes/api/recordings/index.ts"),
     route("recordings/:id", "routes/api/recordings/recording.ts"),
@@ -63,11 +75,5 @@ export default [
     route("recordings/:id/marks/:markId", "routes/api/recordings/mark.ts"),
     route("recordings/:id/readings", "routes/api/recordings/readings.ts"),
     route("recordings/:id/readings/:readingId", "routes/api/recordings/reading.ts"),
-    route("procedures/titles", "routes/api/procedures/titles.ts"),
-    route("procedures/recordings", "routes/api/procedures/recordings.ts"),
-    route("procedures/revisions/:id", "routes/api/procedures/revision.ts"),
-    route("calc/preload", "routes/api/calc.preload.ts"),
-    route("calc/distortion", "routes/api/calc.distortion.ts"),
-    route("calc/clearance", "routes/api/calc.clearance.ts"),
   ]),
 ] satisfies RouteConfig;

@@ -44,6 +44,11 @@ export const MATRIX: Entry[] = [
   { path: "/recordings/upload", get: only(STAFF) },
   { path: "/recordings/:id", sample: "/recordings/00000000-0000-4000-8000-000000000000", get: { ...ALL(404), anon: 302 }, post: { ...only(STAFF, 404), apprentice: 403 }, note: "unknown id: guard first, then 404" },
   { path: "/test-records", get: SIGNED_IN },
+  { path: "/test-records/new", get: only(STAFF), post: only(STAFF, 400) },
+  { path: "/test-records/export.csv", get: SIGNED_IN },
+  { path: "/test-records/:id", sample: "/test-records/00000000-0000-4000-8000-000000000000", get: { ...ALL(404), anon: 302 }, post: only(STAFF, 404), note: "unknown id" },
+  { path: "/test-records/:id/amend", sample: "/test-records/00000000-0000-4000-8000-000000000000/amend", get: only(["admin", "editor", "qc"], 404), post: only(["admin", "editor", "qc"], 404), note: "unknown id" },
+  { path: "/test-records/:id/print", sample: "/test-records/00000000-0000-4000-8000-000000000000/print", get: { ...ALL(404), anon: 302 }, note: "unknown id" },
   { path: "/calculators", get: SIGNED_IN },
   { path: "/calculators/preload", get: SIGNED_IN, post: { ...ALL(400), anon: 302 }, note: "empty form: field errors" },
   { path: "/calculators/distortion", get: SIGNED_IN, post: { ...ALL(400), anon: 302 } },
@@ -55,6 +60,17 @@ export const MATRIX: Entry[] = [
 
   // ---- API ----
   { path: "/api/me", get: SIGNED_IN_API },
+  { path: "/api/calc/preload", get: ALL(400), post: { ...ALL(400), anon: 401 }, note: "action only: GET gets the framework's 400 (no loader); an empty form is not JSON" },
+  { path: "/api/calc/distortion", get: ALL(400), post: { ...ALL(400), anon: 401 } },
+  { path: "/api/calc/clearance", get: ALL(400), post: { ...ALL(400), anon: 401 } },
+  { path: "/api/procedures/titles", sample: "/api/procedures/titles?q=stud", get: SIGNED_IN_API },
+  { path: "/api/procedures/recordings", get: SIGNED_IN_API },
+  {
+    path: "/api/procedures/revisions/:id",
+    sample: "/api/procedures/revisions/00000000-0000-4000-8000-000000000000",
+    get: only(["admin", "editor", "builder"], 404, 401),
+    post: only(["admin", "editor", "builder"], 422, 401),
+  },
   // recordings (unknown ids: the guard answers first, then 404)
   { path: "/api/uploads/*", sample: "/api/uploads", get: only(STAFF, 200, 401), note: "GET lists the caller's unfinished uploads; tus verbs are in recordings.test.ts" },
   { path: "/api/recordings", get: SIGNED_IN_API },
@@ -66,17 +82,7 @@ export const MATRIX: Entry[] = [
   { path: "/api/recordings/:id/marks/:markId", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/marks/00000000-0000-4000-8000-000000000001", get: { ...ALL(404), anon: 401 }, post: only(STAFF, 405, 401) },
   { path: "/api/recordings/:id/readings", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/readings", get: { ...ALL(404), anon: 401 }, post: only(STAFF, 404, 401) },
   { path: "/api/recordings/:id/readings/:readingId", sample: "/api/recordings/00000000-0000-4000-8000-000000000000/readings/00000000-0000-4000-8000-000000000001", get: { ...ALL(404), anon: 401 }, post: only(STAFF, 405, 401) },
-  { path: "/api/procedures/titles", sample: "/api/procedures/titles?q=stud", get: SIGNED_IN_API },
-  { path: "/api/procedures/recordings", get: SIGNED_IN_API },
-  {
-    path: "/api/procedures/revisions/:id",
-    sample: "/api/procedures/revisions/00000000-0000-4000-8000-000000000000",
-    get: only(["admin", "editor", "builder"], 404, 401),
-    post: only(["admin", "editor", "builder"], 422, 401),
-  },
-  { path: "/api/calc/preload", get: ALL(400), post: { ...ALL(400), anon: 401 }, note: "action only: GET gets the framework's 400 (no loader); an empty form is not JSON" },
-  { path: "/api/calc/distortion", get: ALL(400), post: { ...ALL(400), anon: 401 } },
-  { path: "/api/calc/clearance", get: ALL(400), post: { ...ALL(400), anon: 401 } },
+  { path: "/api/search", sample: "/api/search?q=torque", get: SIGNED_IN_API },
 ];
 
 function flatten(rs: typeof routes, parent = ""): string[] {
