@@ -85,6 +85,20 @@ test("a builder uploads a video, marks a moment with the keyboard, seeks by the 
   // A tick on the progress bar.
   await expect(page.locator(".br-mark-ticks .br-tick")).toHaveCount(1);
 
+  // S … S marks a span: from here (5 s) to 5 s later.
+  await page.locator("body").click({ position: { x: 5, y: 5 } });
+  await page.keyboard.press("s");
+  await expect(page.getByRole("status").filter({ hasText: "Span started at" })).toBeVisible();
+  await page.keyboard.press("ArrowRight");
+  await expect.poll(() => videoTime(page)).toBeCloseTo(10, 0);
+  await page.keyboard.press("s");
+  await expect(page.getByTestId("mark-text")).toBeFocused();
+  await page.getByTestId("mark-text").fill("Final pass, all four studs");
+  await page.getByTestId("mark-text").press("Enter");
+  const span = page.getByTestId("mark").filter({ hasText: "all four studs" });
+  await expect(span.getByTestId("mark-time")).toHaveText("0:05.0 – 0:10.0");
+  await expect(page.locator(".br-mark-ticks .br-tick")).toHaveCount(2);
+
   // Readings: a torque / clamp-load pair by label and pass; a bad line keeps what was typed.
   const grid = page.getByTestId("readings-grid");
   await grid.getByLabel("Line 1 value").fill("110");
