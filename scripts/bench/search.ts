@@ -30,8 +30,10 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   const corpus = generateCorpus({ docs: N });
   const queries = benchQueries(corpus, opts.samples ?? 40);
   const now = Date.now();
+  // Procedure documents get revision-shaped ids, so that /api/search also pays for its
+  // PostgreSQL look-up of their blocks (which finds no rows here).
   const docs: SearchDoc[] = corpus.docs.map((d) => ({
-    id: `bench-${d.id}`,
+    id: d.kind === "procedure" ? `rev-${randomUUID()}` : `bench-${d.id}`,
     kind: d.kind,
     title: d.title,
     text: d.kind === "procedure" ? "" : d.body,
@@ -64,17 +66,18 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     facets: ["kind", "tags", "state", "uploader"],
     limit: 20,
     offset: 0,
-    attributesToHighlight: ["title", "text", "blocks"],
+    attributesToHighlight: ["title", "text"],
     highlightPreTag: HL_PRE,
     highlightPostTag: HL_POST,
-    attributesToCrop: ["text", "blocks"],
+    attributesToCrop: ["text"],
     cropLength: 28,
     cropMarker: "…",
   });
 
-  const cases: Record<string, { api: Stat; raw: Stat; ratioP50: number; ratioP95: number }> = {};
+  const cases: Record<string, { api: Stat; sdk: Stat; raw: Stat; ratioP50: number; ratioP95: number; apiToSdkP95: number }> = {};
   for (const [name, list] of Object.entries(queries)) {
     const apiTimes: number[] = [];
+    const sdkTimes: number[] = [];
     const rawTimes: number[] = [];
     for (const q of list.slice(0, 5)) await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie }).then((r) => r.arrayBuffer()); // warm-up
     for (const q of list) {
@@ -83,14 +86,25 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
       await res.arrayBuffer();
       apiTimes.push(performance.now() - a);
       if (res.status !== 200) throw new Error(`/api/search answered ${res.status} for "${q}"`);
+      const c = performance.now();
+      await index.search(q, params(q) as never);
+      sdkTimes.push(performance.now() - c);
       const b = performance.now();
       raw.search(params(q) as never);
       rawTimes.push(performance.now() - b);
     }
     const api = stat(apiTimes);
+    const sdk = stat(sdkTimes);
     const r = stat(rawTimes);
-    cases[name] = { api, raw: r, ratioP50: +(api.p50 / Math.max(r.p50, 0.01)).toFixed(2), ratioP95: +(api.p95 / Math.max(r.p95, 0.01)).toFixed(2) };
-    log(`${name.padEnd(22)} /api/search p50 ${api.p50} ms p95 ${api.p95} ms | raw p50 ${r.p50} ms p95 ${r.p95} ms | ratio p95 ${cases[name].ratioP95}`);
+    cases[name] = {
+      api,
+      sdk,
+      raw: r,
+      ratioP50: +(api.p50 / Math.max(r.p50, 0.01)).toFixed(2),
+      ratioP95: +(api.p95 / Math.max(r.p95, 0.01)).toFixed(2),
+      apiToSdkP95: +(api.p95 / Math.max(sdk.p95, 0.01)).toFixed(2),
+    };
+    log(`${name.padEnd(18)} /api/search p50 ${api.p50} p95 ${api.p95} ms | SDK→fake p50 ${sdk.p50} p95 ${sdk.p95} ms | in-process p50 ${r.p50} p95 ${r.p95} ms | api/raw p95 ${cases[name].ratioP95}, api/sdk p95 ${cases[name].apiToSdkP95}`);
   }
 
   // Full reindex from PostgreSQL of 20,000 stored marks.
@@ -111,6 +125,7 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   const common = Object.keys(cases).filter((c) => c.includes("common"));
   const worst = (keys: string[]) => Math.max(0, ...keys.map((k) => cases[k].api.p95));
   const ratio = Math.max(0, ...Object.values(cases).map((c) => c.ratioP95));
+  const sdkRatio = Math.max(0, ...Object.values(cases).map((c) => c.apiToSdkP95));
   return {
     docs: N,
     indexingMs: Math.round(indexingMs),
@@ -119,7 +134,8 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     targets: {
       "api p95 mid-frequency ≤ 25 ms": { value: worst(mid), ok: worst(mid) <= 25 },
       "api p95 commonest term ≤ 60 ms": { value: worst(common), ok: worst(common) <= 60 },
-      "api ≤ 1.5× raw query (p95)": { value: ratio, ok: ratio <= 1.5 },
+      "api ≤ 1.5× raw in-process query (p95)": { value: ratio, ok: ratio <= 1.5 },
+      "api ≤ 1.5× SDK query to the fake (p95)": { value: sdkRatio, ok: sdkRatio <= 1.5 },
       "full reindex of 20,000 ≤ 15 s": { value: +(reindexMs / 1000).toFixed(1), ok: reindexMs <= 15_000 },
     },
   };

@@ -60,9 +60,9 @@ export const MATRIX: Entry[] = [
 
   // ---- API ----
   { path: "/api/me", get: SIGNED_IN_API },
-  { path: "/api/calc/preload", get: ALL(400), post: { ...ALL(400), anon: 401 }, note: "action only: GET gets the framework's 400 (no loader); an empty form is not JSON" },
-  { path: "/api/calc/distortion", get: ALL(400), post: { ...ALL(400), anon: 401 } },
-  { path: "/api/calc/clearance", get: ALL(400), post: { ...ALL(400), anon: 401 } },
+  { path: "/api/calc/preload", get: { ...ALL(405), anon: 401 }, post: { ...ALL(400), anon: 401 }, note: "GET: 405 with Allow: POST; an empty form is not JSON" },
+  { path: "/api/calc/distortion", get: { ...ALL(405), anon: 401 }, post: { ...ALL(400), anon: 401 } },
+  { path: "/api/calc/clearance", get: { ...ALL(405), anon: 401 }, post: { ...ALL(400), anon: 401 } },
   { path: "/api/procedures/titles", sample: "/api/procedures/titles?q=stud", get: SIGNED_IN_API },
   { path: "/api/procedures/recordings", get: SIGNED_IN_API },
   {

@@ -73,3 +73,12 @@ export async function calcApi(request: Request, compute: (input: never) => unkno
     return json({ error: "invalid input", issues }, 422);
   }
 }
+
+/** GET on a calculation address: signed in, then 405 naming the method that works. */
+export async function calcApiGet(request: Request): Promise<Response> {
+  await requirePermission(request, "calc:use");
+  return Response.json(
+    { error: "method not allowed", reason: "POST the calculator's input as JSON to this address (see the calculation contract)." },
+    { status: 405, headers: { Allow: "POST" } },
+  );
+}

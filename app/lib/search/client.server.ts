@@ -45,7 +45,9 @@ export const SEARCH_SETTINGS = {
   searchableAttributes: ["title", "text", "tags", "blocks", "procedureTitle", "recordingTitle", "uploader"],
   filterableAttributes: ["kind", "visibility", "tags", "state", "uploader", "area", "group"],
   sortableAttributes: ["date"],
-  displayedAttributes: ["*"],
+  // Block texts are searchable but never returned: they can be long, and the app finds the
+  // matching block itself (app/lib/search/snippet.ts).
+  displayedAttributes: ["id", "kind", "title", "text", "tags", "visibility", "url", "state", "uploader", "procedureTitle", "recordingTitle", "area", "t", "date", "group"],
   synonyms: synonymsSetting(),
 };
 

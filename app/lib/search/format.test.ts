@@ -23,17 +23,32 @@ describe("search text in both unit systems", () => {
   });
 });
 
-import { bestBlock, blockFragment } from "./query.server";
+import { blockFragment } from "./query.server";
+import { markSnippet, pickBlock, queryTerms } from "./snippet";
 
 describe("pointing a procedure hit at its block", () => {
   const H = (w: string) => `\uE000${w}\uE001`;
-  it("picks the block with the most distinct matched words", () => {
-    expect(bestBlock([`Caution: ${H("torque")} values`, `Run ${H("head")} ${H("stud")} ${H("torque")} in passes`, "no match"])).toBe(1);
-    expect(bestBlock(["none", "here"])).toBe(-1);
-    expect(bestBlock([`${H("a")} ${H("a")} ${H("a")}`, `${H("a")} ${H("b")}`])).toBe(1);
+  it("splits a query into terms, keeping sizes and numbers whole", () => {
+    expect(queryTerms("Head stud M12x1.5 torque 0.0035 in")).toEqual(["head", "stud", "m12x1.5", "torque", "0.0035", "in"]);
   });
 
-  it("builds a text fragment from the block's first words, without markers or prefixes", () => {
+  it("picks the block holding the most distinct query words", () => {
+    const blocks = ["Caution: torque values are planning figures", "Run head studs to torque in three passes", "No match here"];
+    expect(pickBlock(blocks, queryTerms("head stud torque"))).toEqual({ index: 1, score: 3 });
+    expect(pickBlock(blocks, queryTerms("gasket"))).toEqual({ index: -1, score: 0 });
+  });
+
+  it("marks matched words and crops around the first one", () => {
+    expect(markSnippet("Run head studs to torque in passes", queryTerms("stud torque"))).toBe(`Run head ${H("studs")} to ${H("torque")} in passes`);
+    const long = Array.from({ length: 60 }, (_, i) => (i === 40 ? "moly" : `w${i}`)).join(" ");
+    const s = markSnippet(long, ["moly"], 10);
+    expect(s.startsWith("…")).toBe(true);
+    expect(s.endsWith("…")).toBe(true);
+    expect(s).toContain(H("moly"));
+    expect(s.split(" ").length).toBe(10);
+  });
+
+  it("builds a text fragment from the snippet's first words, without markers or prefixes", () => {
     expect(blockFragment(`• Torque ${H("stud")} 4 to 110 N·m in three passes`)).toBe(`#:~:text=${encodeURIComponent("Torque stud 4 to 110 N·m")}`);
     expect(blockFragment("…plate-honed bore checked")).toBe("#:~:text=plate%2Dhoned%20bore%20checked");
     expect(blockFragment("")).toBe("");

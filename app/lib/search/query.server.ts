@@ -1,12 +1,14 @@
-import { and, isNull, lt, sql } from "drizzle-orm";
+import { and, inArray, isNull, lt, sql } from "drizzle-orm";
 import { z } from "zod";
-import { searchOutbox } from "~/db/schema";
+import { procedureRevisions, searchOutbox } from "~/db/schema";
+import { blockTexts, type JSONNode } from "~/lib/procedures/document";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { can } from "~/lib/permissions";
 import { searchIndex, type SearchKind } from "./client.server";
 
 import { HL_POST, HL_PRE } from "./highlight";
+import { markSnippet, pickBlock, queryTerms } from "./snippet";
 
 export const KINDS: SearchKind[] = ["procedure", "spec", "mark", "reading", "recording", "test_record"];
 
@@ -82,20 +84,12 @@ export function blockFragment(block: string): string {
   return words ? `#:~:text=${encodeURIComponent(words).replace(/-/g, "%2D")}` : "";
 }
 
-/** The block holding the most distinct highlighted words (the first of equals); -1 if none. */
-export function bestBlock(blocks: unknown[]): number {
-  let best = -1;
-  let bestScore = 0;
-  blocks.forEach((b, i) => {
-    if (typeof b !== "string") return;
-    const words = new Set<string>();
-    for (const m of b.matchAll(new RegExp(`${HL_PRE}([^${HL_POST}]*)${HL_POST}`, "g"))) words.add(m[1].toLowerCase());
-    if (words.size > bestScore) {
-      best = i;
-      bestScore = words.size;
-    }
-  });
-  return best;
+/** Plain text per block of the given revisions, from PostgreSQL (the source of truth). */
+async function revisionBlocks(ids: string[]): Promise<Map<string, string[]>> {
+  const valid = ids.filter((id) => /^[0-9a-f-]{36}$/.test(id));
+  if (!valid.length) return new Map();
+  const rows = await db().select({ id: procedureRevisions.id, doc: procedureRevisions.doc }).from(procedureRevisions).where(inArray(procedureRevisions.id, valid));
+  return new Map(rows.map((r) => [r.id, blockTexts(r.doc as JSONNode).map((b) => b.text)]));
 }
 
 export async function runSearch(user: SessionUser, p: SearchParams): Promise<SearchResponse> {
@@ -104,24 +98,28 @@ export async function runSearch(user: SessionUser, p: SearchParams): Promise<Sea
     facets: ["kind", "tags", "state", "uploader"],
     limit: p.limit,
     offset: (p.page - 1) * p.limit,
-    attributesToHighlight: ["title", "text", "blocks"],
+    attributesToHighlight: ["title", "text"],
     highlightPreTag: HL_PRE,
     highlightPostTag: HL_POST,
-    attributesToCrop: ["text", "blocks"],
+    attributesToCrop: ["text"],
     cropLength: 28,
     cropMarker: "…",
   });
+  const blocksByRevision = await revisionBlocks(res.hits.filter((h) => h.kind === "procedure").map((h) => h.id.replace(/^rev-/, "")));
+  const terms = queryTerms(p.q);
   const hits: SearchHit[] = res.hits.map((h) => {
     const f = (h._formatted ?? {}) as Partial<Record<string, unknown>>;
     let url = h.url;
     let snippet = String(f.text ?? h.text ?? "");
     let context: string | undefined;
-    const blocks = Array.isArray(f.blocks) ? (f.blocks as string[]) : [];
-    const matched = bestBlock(blocks);
-    if (matched >= 0) {
-      url = `${h.url}${blockFragment(blocks[matched])}`;
-      snippet = blocks[matched];
-    } else if (!snippet && blocks.length) snippet = blocks[0];
+    if (h.kind === "procedure") {
+      const blocks = blocksByRevision.get(h.id.replace(/^rev-/, "")) ?? [];
+      const best = terms.length ? pickBlock(blocks, terms) : { index: -1, score: 0 };
+      if (best.index >= 0) {
+        snippet = markSnippet(blocks[best.index], terms);
+        url = `${h.url}${blockFragment(snippet)}`;
+      } else if (!snippet && blocks.length) snippet = markSnippet(blocks[0], terms);
+    }
     if (h.kind === "mark" || h.kind === "reading") context = h.recordingTitle;
     if (h.kind === "spec") context = h.procedureTitle;
     return { id: h.id, kind: h.kind, title: String(f.title ?? h.title), snippet, url, tags: h.tags ?? [], state: h.state, t: h.t, context };

@@ -1,8 +1,12 @@
 import type { Route } from "./+types/calc.preload";
 import { calculatePreload } from "~/lib/calc";
-import { calcApi } from "~/lib/calc-ui/api.server";
+import { calcApi, calcApiGet } from "~/lib/calc-ui/api.server";
 
 /** POST /api/calc/preload: the input JSON of calculatePreload in, its result out (see calc-contract.md). */
 export async function action({ request }: Route.ActionArgs) {
   return calcApi(request, calculatePreload);
+}
+
+export async function loader({ request }: Route.LoaderArgs) {
+  return calcApiGet(request);
 }

@@ -12,9 +12,9 @@ export async function loader({ request }: Route.LoaderArgs) {
       { status: 422 },
     );
   }
-  const behind = await indexIsBehind().catch(() => false);
+  const behindP = indexIsBehind().catch(() => false);
   try {
-    const result = await runSearch(user, parsed.data);
+    const [result, behind] = await Promise.all([runSearch(user, parsed.data), behindP]);
     return Response.json({ ...result, behind }, { headers: { "Cache-Control": "private, no-store" } });
   } catch (err) {
     console.error("[search]", (err as Error).message);
