@@ -8,6 +8,9 @@ import fs from "node:fs";
 import path from "node:path";
 import * as tus from "tus-js-client";
 import { beforeAll, describe, expect, it } from "vitest";
+import { eq } from "drizzle-orm";
+import { recordings } from "~/db/schema";
+import { db } from "~/lib/db.server";
 import { BASE_URL, createUser, http, waitFor, type TestUser } from "../support/app";
 
 const runDir = process.env.BENCHREEL_RUN_DIR ?? fs.mkdtempSync("/tmp/br-rec-");
@@ -280,6 +283,22 @@ describe("processing", () => {
     expect(bytes.indexOf("moov")).toBeLessThan(bytes.indexOf("mdat"));
     const original = await http(`/api/recordings/${rec.id}/original`, { cookie: builder.cookie });
     expect(sha(Buffer.from(await original.arrayBuffer()))).toBe(sha(mov));
+  });
+
+  it("lets an editor (not a builder) retry a failed recording, which processes again", async () => {
+    const { promise, upload: u } = upload(clip, builder, { name: "retry-me.mp4" });
+    u.start();
+    const id = (await promise).recordingId!;
+    await waitState(id, builder.cookie);
+    // As if the last attempt had failed.
+    await db().update(recordings).set({ state: "failed", stateReason: "Processing failed: ffmpeg failed: test", hasPoster: false }).where(eq(recordings.id, id));
+    const page = await http(`/recordings/${id}`, { cookie: editor.cookie });
+    expect(await page.text()).toContain("Retry processing");
+    expect((await http(`/recordings/${id}`, { cookie: builder.cookie, form: { intent: "retry" } })).status).toBe(403);
+    const retried = await http(`/recordings/${id}`, { cookie: editor.cookie, form: { intent: "retry" } });
+    expect(retried.status).toBe(302);
+    const rec = await waitState(id, editor.cookie);
+    expect(rec).toMatchObject({ state: "ready", hasPoster: true, stateReason: null });
   });
 
   it("rejects a renamed text file by its content and removes its bytes", async () => {

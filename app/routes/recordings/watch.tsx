@@ -192,8 +192,9 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
   }, [r.state, fps, perms.mark, spanStart]);
 
   const errors: Record<string, string> = actionData?.errors ?? {};
-  const canEditMark = (m: MarkRow) => m.createdBy === me.id ? ["admin", "editor", "builder", "qc"].includes(me.role) : ["admin", "editor"].includes(me.role);
-  const canEditReading = (x: ReadingRow) => x.createdBy === me.id ? ["admin", "editor", "builder", "qc"].includes(me.role) : ["admin", "editor"].includes(me.role);
+  // The same permission table as the server (app/lib/permissions.ts) decides what to offer.
+  const canEditMark = (m: MarkRow) => canOnOwned(me, "mark:edit", m.createdBy);
+  const canEditReading = (x: ReadingRow) => canOnOwned(me, "reading:edit", x.createdBy);
 
   const facts = [
     r.durationS != null && formatDuration(r.durationS),
