@@ -1,30 +1,56 @@
-import { useMemo, useState } from "react";
-import { unitLabel, type UnitCode } from "~/lib/calc";
-import { CALC_CAUTION, numericLeaves, runCalculator, setAtPath, type CalcKind } from "~/lib/procedures/calc-presets";
-import { calcLabel } from "~/lib/procedures/document";
+import { useEffect, useMemo, useState } from "react";
+import { CALC_CAUTION, calcLabel, numericLeaves, setAtPath, tidyNumber, type CalcKind, type CalcOutcome } from "~/lib/procedures/calc-shared";
 
-const label = (u?: string) => {
-  if (!u) return "";
-  try {
-    return unitLabel(u as UnitCode);
-  } catch {
-    return u;
-  }
-};
+
+// The math (app/lib/calc with its zod schemas) loads only when a reader changes a number.
+let math: Promise<typeof import("~/lib/procedures/calc-presets")> | undefined;
+const loadMath = () => (math ??= import("~/lib/procedures/calc-presets"));
 
 /**
- * A calculator embedded in a procedure: the author's preset inputs, the result computed with
- * the shared math module, and "try your numbers" for the reader (changes stay on this screen).
- * Rendered statically on the server; hydrated on the read page.
+ * A calculator embedded in a procedure: the author's preset inputs, the result (computed on the
+ * server with the shared math module and passed in as `outcome`), and "try your numbers" for the
+ * reader (changes stay on this screen; the math module is fetched on the first "Try your numbers").
  */
-export function CalculatorWidget({ kind, title, preset, interactive = false, index = 0 }: { kind: CalcKind; title?: string; preset: Record<string, unknown>; interactive?: boolean; index?: number }) {
+export function CalculatorWidget({
+  kind,
+  title,
+  preset,
+  outcome: presetOutcome,
+  units = {},
+  interactive = false,
+  index = 0,
+}: {
+  kind: CalcKind;
+  title?: string;
+  preset: Record<string, unknown>;
+  outcome: CalcOutcome;
+  /** Unit code → label (from the server's unit table); a code without a label shows as is. */
+  units?: Record<string, string>;
+  interactive?: boolean;
+  index?: number;
+}) {
   const [values, setValues] = useState(preset);
   const [open, setOpen] = useState(false);
   const leaves = useMemo(() => numericLeaves(values), [values]);
-  const outcome = useMemo(() => runCalculator(kind, values), [kind, values]);
-  const changed = JSON.stringify(values) !== JSON.stringify(preset);
+  const key = JSON.stringify(values);
+  const changed = key !== JSON.stringify(preset);
+  const [live, setLive] = useState<{ key: string; outcome: CalcOutcome } | null>(null);
+  useEffect(() => {
+    if (!changed) return;
+    let stale = false;
+    loadMath()
+      .then((m) => !stale && setLive({ key, outcome: m.runCalculator(kind, values) }))
+      .catch(() => !stale && setLive({ key, outcome: { ok: false, message: "the calculator could not be loaded; reload the page" } }));
+    return () => {
+      stale = true;
+    };
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [kind, key, changed]);
+  const computing = changed && live?.key !== key;
+  const outcome = changed ? (live?.outcome ?? presetOutcome) : presetOutcome;
   const thread = typeof values.thread === "string" ? values.thread : null;
   const method = values.method as { kind?: string } | undefined;
+  const label = (u?: string) => (u ? (units[u] ?? u) : "");
   const idp = `calc-${index}`;
   return (
     <section className="calc-block not-prose my-5 rounded-lg border border-brass/50 bg-card shadow-sm" aria-label={`${calcLabel(kind)} calculator`} data-calc-kind={kind}>
@@ -55,14 +81,14 @@ export function CalculatorWidget({ kind, title, preset, interactive = false, ind
                       className="field num w-28 px-2 py-0.5 text-right text-sm"
                       type="number"
                       step="any"
-                      defaultValue={l.value}
+                      defaultValue={tidyNumber(l.value)}
                       onChange={(e) => {
                         const v = e.currentTarget.valueAsNumber;
                         if (Number.isFinite(v)) setValues((prev) => setAtPath(prev, l.path, v));
                       }}
                     />
                   ) : (
-                    <span id={`${idp}-${l.path.join("-")}`} className="num font-semibold">{l.value}</span>
+                    <span id={`${idp}-${l.path.join("-")}`} className="num font-semibold">{tidyNumber(l.value)}</span>
                   )}
                   <span className="w-10 text-graphite-soft">{label(l.unit)}</span>
                 </dd>
@@ -71,7 +97,7 @@ export function CalculatorWidget({ kind, title, preset, interactive = false, ind
           </dl>
           {interactive && (
             <div className="no-print mt-3 flex gap-2">
-              <button type="button" className="btn py-1 text-xs" onClick={() => setOpen((o) => !o)} aria-expanded={open}>
+              <button type="button" className="btn py-1 text-xs" onClick={() => { if (!open) void loadMath(); setOpen((o) => !o); }} aria-expanded={open}>
                 {open ? "Done" : "Try your numbers"}
               </button>
               {changed && (
@@ -82,11 +108,11 @@ export function CalculatorWidget({ kind, title, preset, interactive = false, ind
             </div>
           )}
         </div>
-        <div aria-live="polite">
-          <p className="text-xs font-semibold uppercase tracking-wide text-graphite-soft">Result</p>
+        <div aria-live="polite" aria-busy={computing}>
+          <p className="text-xs font-semibold uppercase tracking-wide text-graphite-soft">Result{computing && <span className="ml-2 normal-case tracking-normal">computing…</span>}</p>
           {outcome.ok ? (
             <>
-              <dl className="mt-1 space-y-0.5 text-sm" data-testid="calc-result">
+              <dl className={`mt-1 space-y-0.5 text-sm ${computing ? "opacity-50" : ""}`} data-testid="calc-result">
                 {outcome.rows.map((r) => (
                   <div key={r.label} className="flex justify-between gap-3">
                     <dt className="text-graphite-soft">{r.label}</dt>
@@ -95,7 +121,7 @@ export function CalculatorWidget({ kind, title, preset, interactive = false, ind
                 ))}
               </dl>
               {outcome.warnings.length > 0 && (
-                <ul className="mt-2 space-y-1 text-xs text-graphite">
+                <ul className="mt-2 list-none space-y-1 p-0 text-xs text-graphite">
                   {outcome.warnings.map((w) => <li key={w} className="border-l-2 border-brass pl-2">{w}</li>)}
                 </ul>
               )}

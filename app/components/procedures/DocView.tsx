@@ -6,6 +6,7 @@ import type { ReactNode } from "react";
 import { renderJSONContentToReactElement } from "@tiptap/static-renderer/json/react";
 import { unitLabel, type UnitCode } from "~/lib/calc";
 import { formatSeconds, safeHref, type CalculatorAttrs, type JSONNode, type MomentAttrs, type SpecAttrs } from "~/lib/procedures/document";
+import { numericLeaves, runCalculator } from "~/lib/procedures/calc-presets";
 import { CalculatorWidget } from "./CalculatorWidget";
 
 export type RenderContext = {
@@ -31,6 +32,10 @@ export function specLimits(a: Pick<SpecAttrs, "nominal" | "min" | "max" | "unit"
   else if (a.min != null) parts.push(`min ${a.min} ${u}`);
   else if (a.max != null) parts.push(`max ${a.max} ${u}`);
   return parts.join(" ");
+}
+
+function unitLabels(preset: unknown): Record<string, string> {
+  return Object.fromEntries(numericLeaves(preset).flatMap((l) => (l.unit ? [[l.unit, ul(l.unit)]] : [])));
 }
 
 export function renderDoc(doc: JSONNode, ctx: RenderContext) {
@@ -85,7 +90,7 @@ export function renderDoc(doc: JSONNode, ctx: RenderContext) {
         const i = calcIndex++;
         return (
           <div data-widget="calculator" data-widget-index={i}>
-            <CalculatorWidget kind={a.kind} title={a.title} preset={a.preset} index={i} />
+            <CalculatorWidget kind={a.kind} title={a.title} preset={a.preset} outcome={runCalculator(a.kind, a.preset)} units={unitLabels(a.preset)} index={i} />
           </div>
         );
       },

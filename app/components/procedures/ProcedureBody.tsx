@@ -1,15 +1,17 @@
 import { useEffect, useRef, useState } from "react";
 import { createPortal } from "react-dom";
+import type { CalcOutcome } from "~/lib/procedures/calc-shared";
 import type { CalculatorAttrs } from "~/lib/procedures/document";
 import { CalculatorWidget } from "./CalculatorWidget";
 
-type Widget = { kind: "calculator"; attrs: CalculatorAttrs };
+/** A calculator block of the body, with its preset's result computed on the server. */
+export type Widget = { kind: "calculator"; attrs: CalculatorAttrs; outcome: CalcOutcome };
 
 /**
  * The server-rendered body of a procedure. React leaves the HTML alone; after hydration each
  * calculator placeholder gets its interactive widget through a portal (the only parts that hydrate).
  */
-export function ProcedureBody({ html, widgets }: { html: string; widgets: Widget[] }) {
+export function ProcedureBody({ html, widgets, units }: { html: string; widgets: Widget[]; units?: Record<string, string> }) {
   const ref = useRef<HTMLDivElement>(null);
   const [targets, setTargets] = useState<HTMLElement[]>([]);
   useEffect(() => {
@@ -22,7 +24,7 @@ export function ProcedureBody({ html, widgets }: { html: string; widgets: Widget
       <div ref={ref} className="proc-body prose-proc" data-testid="procedure-body" dangerouslySetInnerHTML={{ __html: html }} />
       {targets.map((el, i) => {
         const w = widgets[Number(el.dataset.widgetIndex ?? i)];
-        return w ? createPortal(<CalculatorWidget kind={w.attrs.kind} title={w.attrs.title} preset={w.attrs.preset} interactive index={i} />, el, `w${i}`) : null;
+        return w ? createPortal(<CalculatorWidget kind={w.attrs.kind} title={w.attrs.title} preset={w.attrs.preset} outcome={w.outcome} units={units} interactive index={i} />, el, `w${i}`) : null;
       })}
     </>
   );

@@ -1,9 +1,7 @@
 import type { ReactNode } from "react";
 import { Link } from "react-router";
 import { STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
-import { ProcedureBody } from "./ProcedureBody";
-import { specLimitsText } from "./spec-format";
-import type { CalculatorAttrs } from "~/lib/procedures/document";
+import { ProcedureBody, type Widget } from "./ProcedureBody";
 
 export type SpecRowView = { id: string; specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
 
@@ -15,7 +13,8 @@ export function StateBadge({ state }: { state: RevisionState }) {
   return <span className={`rounded px-1.5 py-0.5 text-xs font-semibold ${cls}`} data-testid="state-badge">{STATE_LABELS[state]}</span>;
 }
 
-export function SpecTable({ specs, caption = "Specs" }: { specs: SpecRowView[]; caption?: string }) {
+/** `units`: unit code → label, from the server (renderBody); the client ships no unit tables. */
+export function SpecTable({ specs, caption = "Specs", units = {} }: { specs: SpecRowView[]; caption?: string; units?: Record<string, string> }) {
   if (!specs.length) return null;
   return (
     <section aria-labelledby="spec-table-h" className="spec-table card overflow-x-auto p-0">
@@ -31,7 +30,7 @@ export function SpecTable({ specs, caption = "Specs" }: { specs: SpecRowView[]; 
               <td className="px-3 py-1.5 text-right">{s.nominal ?? "—"}</td>
               <td className="px-3 py-1.5 text-right">{s.min ?? "—"}</td>
               <td className="px-3 py-1.5 text-right">{s.max ?? "—"}</td>
-              <td className="px-3 py-1.5">{specLimitsText.unit(s.unit)}</td>
+              <td className="px-3 py-1.5">{units[s.unit] ?? s.unit}</td>
               <td className="px-4 py-1.5 text-graphite-soft">{s.note}</td>
             </tr>
           ))}
@@ -52,6 +51,7 @@ export function RevisionArticle({
   html,
   widgets,
   specs,
+  units,
   banner,
   aside,
 }: {
@@ -63,8 +63,9 @@ export function RevisionArticle({
   date: Date | string | null;
   author: string | null;
   html: string;
-  widgets: { kind: "calculator"; attrs: CalculatorAttrs }[];
+  widgets: Widget[];
   specs: SpecRowView[];
+  units?: Record<string, string>;
   banner?: ReactNode;
   aside?: ReactNode;
 }) {
@@ -87,8 +88,8 @@ export function RevisionArticle({
             </p>
           )}
         </header>
-        {specs.length > 0 && <div className="mb-6"><SpecTable specs={specs} /></div>}
-        <ProcedureBody html={html} widgets={widgets} />
+        {specs.length > 0 && <div className="mb-6"><SpecTable specs={specs} units={units} /></div>}
+        <ProcedureBody html={html} widgets={widgets} units={units} />
       </article>
       {aside && <aside className="no-print space-y-5 text-sm">{aside}</aside>}
     </div>

@@ -14,11 +14,8 @@ import {
   type PreloadInput,
 } from "~/lib/calc";
 
-export const CALC_KINDS = ["preload", "distortion", "clearance"] as const;
-export type CalcKind = (typeof CALC_KINDS)[number];
-
-export const CALC_CAUTION =
-  "Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.";
+import { CALC_KINDS, type CalcKind, type CalcOutcome, type ResultRow } from "./calc-shared";
+export { CALC_CAUTION, CALC_KINDS, calcLabel, numericLeaves, setAtPath, type CalcKind, type CalcOutcome, type NumericLeaf, type ResultRow } from "./calc-shared";
 
 export const DEFAULT_PRESETS: Record<CalcKind, Record<string, unknown>> = {
   preload: {
@@ -57,8 +54,6 @@ export function checkCalculatorPreset(kind: CalcKind, preset: unknown): string |
   return `${i.path.join(".") || "input"}: ${i.message}`;
 }
 
-export type ResultRow = { label: string; value: string; tone?: "warn" | "bad" | "ok" };
-export type CalcOutcome = { ok: true; rows: ResultRow[]; warnings: string[] } | { ok: false; message: string };
 
 const f = (v: number, digits = 3) => (Number.isFinite(v) ? Number(v.toFixed(digits)).toLocaleString("en-GB", { maximumFractionDigits: digits }) : "—");
 
@@ -95,64 +90,4 @@ export function runCalculator(kind: CalcKind, preset: unknown): CalcOutcome {
   } catch (err) {
     return { ok: false, message: (err as Error).message };
   }
-}
-
-/** The numbers in a preset a reader may change ("try your numbers"): every numeric leaf with a readable label. */
-export type NumericLeaf = { path: (string | number)[]; label: string; value: number; unit?: string };
-
-export function numericLeaves(preset: unknown): NumericLeaf[] {
-  const out: NumericLeaf[] = [];
-  const visit = (v: unknown, path: (string | number)[]) => {
-    if (typeof v === "number") {
-      out.push({ path, label: leafLabel(path), value: v });
-      return;
-    }
-    if (Array.isArray(v)) v.forEach((x, i) => visit(x, [...path, i]));
-    else if (v && typeof v === "object") {
-      const o = v as Record<string, unknown>;
-      if (typeof o.value === "number" && typeof o.unit === "string") {
-        out.push({ path: [...path, "value"], label: leafLabel(path), value: o.value, unit: o.unit });
-        return;
-      }
-      for (const [k, x] of Object.entries(o)) visit(x, [...path, k]);
-    }
-  };
-  visit(preset, []);
-  return out;
-}
-
-const WORDS: Record<string, string> = {
-  k: "nut factor K",
-  muThread: "thread friction μ",
-  muHead: "head friction μ",
-  headDiameter: "head bearing diameter",
-  angleDeg: "angle (°)",
-  gapPerBore: "gap per inch of bore",
-  housingBore: "housing bore",
-  bearingBore: "bearing bore",
-  shellThickness: "shell thickness",
-  measuredGap: "measured gap",
-  boreTemperature: "bore temperature",
-  pistonTemperature: "piston temperature",
-  alphaPerK: "expansion coefficient (1/K)",
-  yieldStrength: "yield strength",
-};
-
-function leafLabel(path: (string | number)[]): string {
-  const parts: string[] = [];
-  for (let i = 0; i < path.length; i++) {
-    const p = path[i];
-    if (typeof p === "number") parts.push(`#${p + 1}`);
-    else if (p !== "value" && p !== "method" && p !== "material" && p !== "thermal" && p !== "spec" && p !== "grip") parts.push(WORDS[p] ?? p);
-    else if ((p === "spec" || p === "grip") && i === path.length - 2) parts.push(p);
-  }
-  return parts.join(" ") || "value";
-}
-
-export function setAtPath<T>(obj: T, path: (string | number)[], value: unknown): T {
-  const clone = JSON.parse(JSON.stringify(obj)) as T;
-  let cur = clone as unknown as Record<string | number, unknown>;
-  for (let i = 0; i < path.length - 1; i++) cur = cur[path[i]] as Record<string | number, unknown>;
-  cur[path[path.length - 1]] = value;
-  return clone;
 }

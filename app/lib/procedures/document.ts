@@ -6,6 +6,9 @@
  */
 import { UNIT_CODES, unitKind, type UnitKind } from "~/lib/calc";
 import { CALC_KINDS, checkCalculatorPreset, type CalcKind } from "./calc-presets";
+import { calcLabel, presetText } from "./calc-shared";
+import { formatSeconds } from "./format";
+export { calcLabel, formatSeconds };
 
 export type JSONNode = {
   type: string;
@@ -365,13 +368,6 @@ export function inlineText(node: JSONNode, titleOf?: (id: string) => string | un
   return (node.content ?? []).map((c) => inlineText(c, titleOf)).join("");
 }
 
-export function formatSeconds(s: number): string {
-  const t = Math.max(0, Math.floor(s));
-  const h = Math.floor(t / 3600);
-  const m = Math.floor((t % 3600) / 60);
-  const sec = String(t % 60).padStart(2, "0");
-  return h ? `${h}:${String(m).padStart(2, "0")}:${sec}` : `${m}:${sec}`;
-}
 
 export function specText(a: Partial<SpecAttrs>): string {
   const parts: string[] = [];
@@ -421,7 +417,7 @@ export function blockTexts(doc: JSONNode, titleOf?: (id: string) => string | und
         push("spec", specText(n.attrs as SpecAttrs), String(n.attrs?.id ?? ""));
         break;
       case "calculator":
-        push("calculator", `Calculator: ${calcLabel(n.attrs?.kind as CalcKind)}${n.attrs?.title ? ` — ${n.attrs.title}` : ""} ${JSON.stringify(n.attrs?.preset ?? {})}`);
+        push("calculator", `Calculator: ${calcLabel(n.attrs?.kind as CalcKind)}${n.attrs?.title ? ` — ${n.attrs.title}` : ""}: ${presetText(n.attrs?.preset ?? {})}`);
         break;
       case "videoMoment": {
         const a = n.attrs as MomentAttrs;
@@ -433,9 +429,6 @@ export function blockTexts(doc: JSONNode, titleOf?: (id: string) => string | und
   return out;
 }
 
-export function calcLabel(kind: CalcKind | undefined): string {
-  return kind === "preload" ? "Preload" : kind === "distortion" ? "Bore distortion" : kind === "clearance" ? "Clearances" : "Calculator";
-}
 
 export function countWords(doc: JSONNode): number {
   let n = 0;

@@ -19,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const rev = n ? await revisionOr404(request, user, procedure, n) : procedure.publishedRevisionId ? await revisionById(procedure.publishedRevisionId) : null;
   if (!rev) throw data({ message: "Nothing is published yet to print." }, { status: 404 });
   const [body, specs] = await Promise.all([renderBody(rev.doc as JSONNode), specsOf(rev.id)]);
-  return { slug: procedure.slug, rev: { number: rev.number, title: rev.title, summary: rev.summary, area: rev.area, state: rev.state, publishedAt: rev.publishedAt, updatedAt: rev.updatedAt }, html: body.html, specs, printedAt: new Date().toISOString() };
+  return { slug: procedure.slug, rev: { number: rev.number, title: rev.title, summary: rev.summary, area: rev.area, state: rev.state, publishedAt: rev.publishedAt, updatedAt: rev.updatedAt }, html: body.html, units: body.units, specs, printedAt: new Date().toISOString() };
 }
 
 export default function Print({ loaderData }: Route.ComponentProps) {
@@ -39,7 +39,7 @@ export default function Print({ loaderData }: Route.ComponentProps) {
         {rev.state !== "published" && <p className="mt-1 text-sm font-semibold text-spec-red">Not the published revision: do not work to this copy.</p>}
         {rev.summary && <p className="mt-1 font-serif text-sm">{rev.summary}</p>}
       </header>
-      {specs.length > 0 && <div className="mb-4"><SpecTable specs={specs} /></div>}
+      {specs.length > 0 && <div className="mb-4"><SpecTable specs={specs} units={loaderData.units} /></div>}
       <div className="proc-body" dangerouslySetInnerHTML={{ __html: html }} />
     </div>
   );

@@ -6,7 +6,8 @@ import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
 import { assertCan, requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { can, canOnOwned } from "~/lib/permissions";
-import { formatSeconds, type JSONNode } from "~/lib/procedures/document";
+import type { JSONNode } from "~/lib/procedures/document";
+import { formatSeconds } from "~/lib/procedures/format";
 import { renderBody } from "~/lib/procedures/render.server";
 import { procedureOr404 } from "~/lib/procedures/routes.server";
 import { STATE_LABELS } from "~/lib/procedures/state";
@@ -55,7 +56,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   ]);
   return {
     procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title },
-    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author: author[0]?.name ?? null, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, specs, from, marks },
+    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author: author[0]?.name ?? null, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, units: body.units, specs, from, marks },
     open: openVisible,
     flags,
     watching,
@@ -174,6 +175,7 @@ export default function ReadProcedure({ loaderData, actionData }: Route.Componen
       author={published.author}
       html={published.html}
       widgets={published.widgets}
+      units={published.units}
       specs={published.specs}
       aside={aside}
       banner={published.changeNote ? <p className="no-print mb-3 text-sm text-graphite-soft">Latest change ({fmtDate(published.publishedAt)}): {published.changeNote}</p> : null}

@@ -33,6 +33,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     author: author[0]?.name ?? null,
     html: body.html,
     widgets: body.widgets,
+    units: body.units,
     specs,
     actions,
     openNumber: open?.number ?? null,
@@ -136,6 +137,7 @@ export default function RevisionPage({ loaderData, actionData }: Route.Component
       author={author}
       html={html}
       widgets={widgets}
+      units={loaderData.units}
       specs={specs}
       banner={banner}
     />
