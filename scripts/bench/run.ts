@@ -9,6 +9,7 @@ type Bench = { name: string; run: () => Promise<unknown> };
 
 const benches: Bench[] = [
   { name: "search", run: async () => (await import("./search")).benchSearch() },
+  { name: "procedures", run: async () => (await import("./procedures")).benchProcedures() },
   { name: "search-fake", run: async () => (await import("../fakes/meili/bench")).runMeiliBench({ docs: 20_000, log: console.log }) },
 ];
 
