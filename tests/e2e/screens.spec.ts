@@ -4,7 +4,8 @@ import fs from "node:fs";
 import { test } from "@playwright/test";
 
 const dir = process.env.SCREENSHOTS;
-const SCREENS: { name: string; path: string; as?: string }[] = [
+type Screen = { name: string; path: string; as?: string; type?: string };
+const SCREENS: Screen[] = [
   { name: "signin", path: "/signin" },
   { name: "reset", path: "/reset" },
   { name: "shop-floor-admin", path: "/", as: "dana@larkspur.example" },
@@ -14,7 +15,8 @@ const SCREENS: { name: string; path: string; as?: string }[] = [
   { name: "outbox", path: "/admin/outbox", as: "dana@larkspur.example" },
   { name: "forbidden", path: "/admin/people", as: "jamie@larkspur.example" },
   { name: "not-found", path: "/no-such-page", as: "jamie@larkspur.example" },
-  ...(process.env.SCREENS_EXTRA ? (JSON.parse(process.env.SCREENS_EXTRA) as { name: string; path: string; as?: string }[]) : []),
+  { name: "search-dropdown", path: "/", as: "jamie@larkspur.example", type: "head stud torque" },
+  ...(process.env.SCREENS_EXTRA ? (JSON.parse(process.env.SCREENS_EXTRA) as Screen[]) : []),
 ];
 
 test.skip(!dir, "set SCREENSHOTS=<dir> to take screenshots");
@@ -34,6 +36,10 @@ for (const s of SCREENS) {
       }
       await page.goto(s.path);
       await page.waitForLoadState("networkidle");
+      if (s.type) {
+        await page.locator("#header-search").pressSequentially(s.type);
+        await page.getByTestId("search-hit").first().waitFor();
+      }
       await page.screenshot({ path: `${dir}/${s.name}-${label}.png`, fullPage: true });
       await ctx.close();
     }

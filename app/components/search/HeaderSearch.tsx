@@ -38,8 +38,10 @@ export function HeaderSearch() {
 
   const data = fetcher.data;
   const hits = q.trim().length >= 2 ? (data?.hits ?? []) : [];
-  const groups = new Map<string, SearchHit[]>();
+  // Groups in a fixed order (procedures and their specs first), hits in rank order inside each.
+  const groups = new Map<string, SearchHit[]>(Object.keys(KIND_LABELS).map((k) => [k, []]));
   for (const h of hits) groups.set(h.kind, [...(groups.get(h.kind) ?? []), h]);
+  for (const [k, list] of groups) if (!list.length) groups.delete(k);
 
   return (
     <div className="relative max-w-md" onBlur={(e) => !e.currentTarget.contains(e.relatedTarget) && setOpen(false)}>
