@@ -1,7 +1,8 @@
 import { useMemo, useState } from "react";
 import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
 import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
-import { fmtNum, limitsText, ReadingVerdictTag, SpecVerdictTag, unitText, VerdictBadge } from "./parts";
+import { fmtNum, ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
+import { limitsText, unitText } from "./units";
 
 export type EditorSpec = SpecLimits & { note: string };
 type Row = { value: string; unit: string; note: string; src: string };

@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import type { SpecVerdict } from "~/lib/test-records/verdict";
-import { fmtDay, fmtNum, limitsText, ReadingVerdictTag, SpecVerdictTag, unitText } from "./parts";
+import { fmtDay, fmtNum, ReadingVerdictTag, SpecVerdictTag } from "./parts";
+import { limitsText, unitText } from "./units";
 
 type Spec = { id: string; specKey: string; label: string; unit: string; min: number | null; max: number | null; nominal: number | null; note: string };
 type Reading = { id: string; specId: string; position: number; valueEntered: number; unitEntered: string; valueInSpecUnit: number; verdict: "within" | "below" | "above" | "unchecked"; note: string; sourceReadingId: string | null };

@@ -1,14 +1,5 @@
 import { Link } from "react-router";
-import { unitLabel, type UnitCode } from "~/lib/calc";
 import { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/verdict";
-
-export function unitText(u: string): string {
-  try {
-    return unitLabel(u as UnitCode) ?? u;
-  } catch {
-    return u;
-  }
-}
 
 export const fmtDay = (d: string | Date | null | undefined) =>
   d ? new Date(typeof d === "string" && d.length === 10 ? `${d}T12:00:00Z` : d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }) : "";
@@ -17,14 +8,6 @@ export const fmtDay = (d: string | Date | null | undefined) =>
 export function fmtNum(n: number | null | undefined, digits = 6): string {
   if (n == null || !Number.isFinite(n)) return "—";
   return String(Number(n.toPrecision(digits + 4)));
-}
-
-export function limitsText(s: { min: number | null; max: number | null; nominal?: number | null; unit: string }): string {
-  const u = unitText(s.unit);
-  if (s.min != null && s.max != null) return `${fmtNum(s.min)} – ${fmtNum(s.max)} ${u}`;
-  if (s.min != null) return `≥ ${fmtNum(s.min)} ${u}`;
-  if (s.max != null) return `≤ ${fmtNum(s.max)} ${u}`;
-  return s.nominal != null ? `nominal ${fmtNum(s.nominal)} ${u} (no limit)` : "no limit";
 }
 
 /** The record's verdict: calm for within; red is kept for "Out of spec". */
