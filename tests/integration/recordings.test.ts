@@ -9,7 +9,8 @@ import path from "node:path";
 import * as tus from "tus-js-client";
 import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
-import { recordings } from "~/db/schema";
+import { recordings, uploads } from "~/db/schema";
+import { cleanUpStaleUploads, receivedBytes } from "~/lib/recordings/tus.server";
 import { db } from "~/lib/db.server";
 import { BASE_URL, createUser, http, waitFor, type TestUser } from "../support/app";
 
@@ -223,6 +224,18 @@ describe("tus upload", () => {
     // Cancel: the owner terminates it and it is gone.
     const del = await http(`/api/uploads/${id}`, { method: "DELETE", headers: { "Tus-Resumable": "1.0.0" }, cookie: builder.cookie });
     expect(del.status).toBe(204);
+    expect((await http(`/api/uploads/${id}`, { cookie: builder.cookie })).status).toBe(404);
+  });
+
+  it("discards unfinished uploads after two weeks, bytes and row", async () => {
+    const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "100", "Upload-Metadata": `filename ${Buffer.from("old.mp4").toString("base64")}` };
+    const created = await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie });
+    const id = path.basename(created.headers.get("location")!);
+    await http(`/api/uploads/${id}`, { method: "PATCH", cookie: builder.cookie, headers: { "Tus-Resumable": "1.0.0", "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" }, body: "x".repeat(40) });
+    expect(await receivedBytes(id)).toBe(40);
+    await db().update(uploads).set({ createdAt: new Date(Date.now() - 15 * 24 * 3600 * 1000) }).where(eq(uploads.id, id));
+    expect(await cleanUpStaleUploads()).toBeGreaterThanOrEqual(1);
+    expect(await receivedBytes(id)).toBe(0);
     expect((await http(`/api/uploads/${id}`, { cookie: builder.cookie })).status).toBe(404);
   });
 

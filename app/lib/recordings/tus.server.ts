@@ -6,7 +6,7 @@ import { pipeline } from "node:stream/promises";
 import { randomBytes } from "node:crypto";
 import { FileStore } from "@tus/file-store";
 import { Server, type Upload } from "@tus/server";
-import { eq } from "drizzle-orm";
+import { and, eq, isNull, lt } from "drizzle-orm";
 import { recordings, uploads } from "~/db/schema";
 import type { SessionUser } from "../auth.server";
 import { db } from "../db.server";
@@ -165,4 +165,18 @@ export async function discardUpload(uploadId: string): Promise<void> {
   await fs.rm(tusFilePath(uploadId), { force: true });
   await fs.rm(`${tusFilePath(uploadId)}.json`, { force: true });
   await db().delete(uploads).where(eq(uploads.id, uploadId));
+}
+
+/** Unfinished uploads older than this are discarded by the worker (bytes and row). */
+export const STALE_UPLOAD_DAYS = 14;
+
+export async function cleanUpStaleUploads(now = new Date()): Promise<number> {
+  const before = new Date(now.getTime() - STALE_UPLOAD_DAYS * 24 * 3600 * 1000);
+  const stale = await db()
+    .select({ id: uploads.id })
+    .from(uploads)
+    .where(and(isNull(uploads.recordingId), lt(uploads.createdAt, before)))
+    .limit(200);
+  for (const u of stale) await discardUpload(u.id);
+  return stale.length;
 }
