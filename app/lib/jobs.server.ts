@@ -2,6 +2,7 @@ import { env } from "./env.server";
 import { createTransport, drainOutbox } from "./mail.server";
 import { pool } from "./db.server";
 import { ensureRecordingJobs } from "./recordings/processing.server";
+import { cleanUpStaleUploads } from "./recordings/tus.server";
 import { drainSearchOutbox } from "./search/indexer.server";
 
 /**
@@ -17,6 +18,8 @@ export function periodicTasks(): PeriodicTask[] {
     { name: "mail-outbox", everyMs: Number(process.env.MAIL_POLL_MS ?? 1000), run: () => drainOutbox({ transport, retryBaseMs }) },
     // recordings: starts the pg-boss worker for the processing queue (once; again after a failure)
     { name: "recordings-queue", everyMs: 5000, run: ensureRecordingJobs },
+    // recordings: unfinished uploads older than 14 days are discarded
+    { name: "recordings-stale-uploads", everyMs: 3_600_000, run: () => cleanUpStaleUploads() },
     ...(env().MEILI_HOST ? [{ name: "search-outbox", everyMs: Number(process.env.SEARCH_POLL_MS ?? 500), run: () => drainSearchOutbox() }] : []),
   ];
 }
