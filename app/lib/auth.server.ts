@@ -7,6 +7,7 @@ import { sessions, signInAttempts, users } from "~/db/schema";
 import { db, isDatabaseDown } from "./db.server";
 import { env } from "./env.server";
 import { can, type Permission, type Role } from "./permissions";
+import { memoForRequest } from "./request-store.server";
 
 const ARGON2 = { memoryCost: 19456, timeCost: 2, outputLen: 32, parallelism: 1 } as const;
 
@@ -101,10 +102,13 @@ export function databaseUnavailable(request?: Request) {
 export function getSession(request: Request): Promise<Validated> {
   let p = cache.get(request);
   if (!p) {
-    p = validate(request).catch((err) => {
-      if (isDatabaseDown(err)) throw databaseUnavailable(request);
-      throw err;
-    });
+    const run = () =>
+      validate(request).catch((err) => {
+        if (isDatabaseDown(err)) throw databaseUnavailable(request);
+        throw err;
+      });
+    const id = readSessionId(request);
+    p = id ? memoForRequest(`session:${id}`, run) : run();
     cache.set(request, p);
   }
   return p;

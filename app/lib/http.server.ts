@@ -1,5 +1,6 @@
 import { env } from "./env.server";
 import { refreshedCookie } from "./auth.server";
+import { requestStore } from "./request-store.server";
 
 export const SECURITY_HEADERS: Record<string, string> = {
   "X-Content-Type-Options": "nosniff",
@@ -53,6 +54,10 @@ function withHeaders(res: Response, extra: Record<string, string>, cookie: strin
 export async function securityMiddleware({ request }: { request: Request }, next: () => Promise<Response>) {
   const refused = csrfRefusal(request);
   if (refused) return withHeaders(refused, SECURITY_HEADERS, null);
+  return requestStore.run(new Map(), () => inRequest(request, next));
+}
+
+async function inRequest(request: Request, next: () => Promise<Response>) {
   const res = await next();
   let cookie: string | null = null;
   try {
