@@ -8,6 +8,18 @@ import { pool } from "../../app/lib/db.server";
 type Bench = { name: string; run: () => Promise<unknown> };
 
 const benches: Bench[] = [
+  {
+    // BENCH_UPLOAD_SIZE (default 1G; the memory target is stated for 2G) sets the upload size.
+    name: "recordings",
+    run: async () => {
+      const r = await import("./recordings");
+      const size = process.env.BENCH_UPLOAD_SIZE ?? "1G";
+      const m = /^(\d+(?:\.\d+)?)([KMG]?)$/i.exec(size);
+      if (!m) throw new Error(`BENCH_UPLOAD_SIZE=${size}: use e.g. 512M, 1G, 2G`);
+      const sizeBytes = Math.round(Number(m[1]) * 1024 ** ({ "": 0, K: 1, M: 2, G: 3 } as Record<string, number>)[m[2].toUpperCase()]);
+      return r.benchRecordings({ baseUrl: process.env.BENCHREEL_URL!, cookie: await r.benchSession(), uploadDir: process.env.UPLOAD_DIR!, sizeBytes });
+    },
+  },
   { name: "search", run: async () => (await import("./search")).benchSearch() },
   { name: "procedures", run: async () => (await import("./procedures")).benchProcedures() },
   { name: "search-fake", run: async () => (await import("../fakes/meili/bench")).runMeiliBench({ docs: 20_000, log: console.log }) },

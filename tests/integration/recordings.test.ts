@@ -7,6 +7,9 @@ import { createHash } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import * as tus from "tus-js-client";
+
+// The Node build exports FileUrlStorage; the package's type definitions describe the browser build only.
+const { FileUrlStorage } = tus as unknown as { FileUrlStorage: new (path: string) => tus.UrlStorage };
 import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { recordings, uploads } from "~/db/schema";
@@ -86,7 +89,7 @@ describe("tus upload", () => {
     ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=1:size=480x270:rate=25", "-vf", "noise=alls=80:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", bigPath]);
     const big = fs.readFileSync(bigPath);
     expect(big.length).toBeGreaterThan(2 * 1024 * 1024);
-    const storage = new tus.FileUrlStorage(path.join(work, `tus-urls-${Date.now()}.json`));
+    const storage = new FileUrlStorage(path.join(work, `tus-urls-${Date.now()}.json`));
     const fingerprint = `big-${sha(big)}`;
 
     // First attempt: abort once half the bytes are out.

@@ -56,7 +56,13 @@ export async function calcApi(request: Request, compute: (input: never) => unkno
   try {
     text = await readLimited(request, MAX_BODY_BYTES);
   } catch (err) {
-    if (err instanceof TooLarge) return json({ error: "request body too large", limitBytes: MAX_BODY_BYTES }, 413);
+    if (err instanceof TooLarge) {
+      // The rest of the body was not read: close the connection so that the client does not
+      // reuse it for its next request (which would then meet a reset).
+      const res = json({ error: "request body too large", limitBytes: MAX_BODY_BYTES }, 413);
+      res.headers.set("connection", "close");
+      return res;
+    }
     return json({ error: "could not read the request body" }, 400);
   }
   let input: unknown;
