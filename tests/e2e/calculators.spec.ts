@@ -88,3 +88,30 @@ test("Clearances: cold and hot against the spec, out of spec in red, units switc
   await expect(page.getByTestId("clearance-chart").getByRole("img")).toBeVisible();
   await expect(page.getByText("Shop guidance (common practice, no standard)")).toBeVisible();
 });
+
+test("Preload: bench points are saved as readings on a recording, paired for its nut-factor chart", async ({ page }) => {
+  await signIn(page, "marcus@larkspur.example", "/calculators/preload");
+  await page.getByLabel("Unit of the readings' torque").selectOption("N.m");
+  await page.getByLabel("Unit of the readings' clamp load").selectOption("kN");
+  // Points made with K = 0.2 exactly on M12 (F = T/(0.2·0.012 m)).
+  await page.getByLabel("Torque and measured clamp load, one pair a line").fill(["60, 25", "90, 37.5", "120, 50"].join("\n"));
+  await expect(page.getByTestId("fit-summary")).toContainText("K = 0.200");
+  await page.getByTestId("save-readings-open").click();
+  const panel = page.getByTestId("save-readings");
+  await panel.getByLabel("Recording").selectOption({ label: "Head stud clamp-load test, M12×1.5, moly lube (LEW-24-0117)" });
+  const label = `calc point ${Date.now().toString(36)}`;
+  await panel.getByLabel("Label (numbered)").fill(label);
+  await panel.getByRole("button", { name: "Save 6 readings" }).click();
+  await expect(page.getByTestId("save-readings-done")).toContainText("Saved 6 readings");
+  await page.getByTestId("save-readings-done").getByRole("link").click();
+  await expect(page).toHaveURL(/\/recordings\/[0-9a-f-]+$/);
+  await expect(page.getByText(`${label} 3`).first()).toBeVisible();
+  await expect(page.getByTestId("nut-factor-chart")).toBeVisible();
+});
+
+test("Preload: an apprentice is not offered to save readings", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example", "/calculators/preload");
+  await page.getByLabel("Torque and measured clamp load, one pair a line").fill(["45, 5900", "63, 8200"].join("\n"));
+  await expect(page.getByTestId("fit-summary")).toBeVisible();
+  await expect(page.getByTestId("save-readings-open")).toHaveCount(0);
+});

@@ -7,6 +7,8 @@ import { FigureTable, NoResult, ResultPanel } from "~/components/calc/ResultPane
 import { PageHeader } from "~/components/page";
 import { NUT_FACTOR_PRESETS, PROPERTY_CLASSES, THREAD_PRESETS, unitLabel, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
+import { can } from "~/lib/permissions";
+import { SaveAsReadings } from "~/components/calc/SaveAsReadings";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
 import { DEFAULT_MODULUS_GPA, preloadDefaults, runPreloadForm, type PreloadOutcome } from "~/lib/calc-ui/preload-form";
 import { formatIn, formatNumber, formatQ } from "~/lib/calc-ui/units";
@@ -15,7 +17,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Preload · Calculators 
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "calc:use");
-  return { unitSystem: user.unitSystem };
+  return { unitSystem: user.unitSystem, canSaveReadings: can(user.role, "reading:create") };
 }
 
 /** Without JavaScript the form posts here: computed with the same module, typed values kept. */
@@ -187,7 +189,7 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
           )}
         </div>
 
-        <PreloadResultView outcome={outcome} values={values} set={set} />
+        <PreloadResultView outcome={outcome} values={values} set={set} canSaveReadings={hydrated && loaderData.canSaveReadings} />
       </Form>
 
       <Method>
@@ -221,7 +223,7 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
   );
 }
 
-function PreloadResultView({ outcome, values, set }: { outcome: PreloadOutcome; values: FormValues; set: SetValue }) {
+function PreloadResultView({ outcome, values, set, canSaveReadings }: { outcome: PreloadOutcome; values: FormValues; set: SetValue; canSaveReadings: boolean }) {
   const r = outcome.result;
   const fu = (values["out.force"] ?? "kN") as UnitCode;
   const tu = (values["out.torque"] ?? "N.m") as UnitCode;
@@ -295,6 +297,14 @@ function PreloadResultView({ outcome, values, set }: { outcome: PreloadOutcome; 
             <p key={w} className="text-graphite-soft">{w}</p>
           ))}
         </div>
+      )}
+      {canSaveReadings && outcome.points && outcome.points.length > 0 && (
+        <SaveAsReadings
+          points={outcome.points}
+          torqueUnit={values["points.torqueUnit"] ?? "N.m"}
+          forceUnit={values["points.forceUnit"] ?? "kN"}
+          lube={NUT_FACTOR_PRESETS.find((p) => p.condition === values.nutCondition && p.condition !== "custom")?.label ?? ""}
+        />
       )}
       <div className="grid gap-5 sm:grid-cols-2">
         <FigureTable
