@@ -91,7 +91,8 @@ export function RevisionArticle({
         {specs.length > 0 && <div className="mb-6"><SpecTable specs={specs} units={units} /></div>}
         <ProcedureBody html={html} widgets={widgets} units={units} />
       </article>
-      {aside && <aside className="no-print space-y-5 text-sm">{aside}</aside>}
+      {/* On a tablet the side cards follow the body, two abreast. */}
+      {aside && <aside className="no-print grid gap-5 text-sm sm:grid-cols-2 lg:block lg:space-y-5">{aside}</aside>}
     </div>
   );
 }
