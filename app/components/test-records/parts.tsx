@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/verdict";
+import { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/labels";
 
 export const fmtDay = (d: string | Date | null | undefined) =>
   d ? new Date(typeof d === "string" && d.length === 10 ? `${d}T12:00:00Z` : d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }) : "";

@@ -7,9 +7,9 @@
  */
 import { convert, unitKind, type UnitKind } from "~/lib/calc";
 
-export type ReadingVerdict = "within" | "below" | "above" | "unchecked";
-export type SpecVerdict = "within" | "out" | "not-measured" | "unchecked";
-export type RecordVerdict = "within" | "out";
+import type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
+export type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
+export { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS } from "./labels";
 
 export type SpecLimits = {
   id: string;
@@ -96,6 +96,3 @@ export function evaluateRecord(specs: SpecLimits[], readingsBySpec: Record<strin
   };
 }
 
-export const RECORD_VERDICT_LABELS: Record<RecordVerdict, string> = { within: "Within spec", out: "Out of spec" };
-export const READING_VERDICT_LABELS: Record<ReadingVerdict, string> = { within: "within", below: "below min", above: "above max", unchecked: "no limit" };
-export const SPEC_VERDICT_LABELS: Record<SpecVerdict, string> = { within: "Within spec", out: "Out of spec", "not-measured": "Not measured", unchecked: "Recorded (no limit)" };
