@@ -84,12 +84,37 @@ export function blockFragment(block: string): string {
   return words ? `#:~:text=${encodeURIComponent(words).replace(/-/g, "%2D")}` : "";
 }
 
-/** Plain text per block of the given revisions, from PostgreSQL (the source of truth). */
-async function revisionBlocks(ids: string[]): Promise<Map<string, string[]>> {
-  const valid = ids.filter((id) => /^[0-9a-f-]{36}$/.test(id));
-  if (!valid.length) return new Map();
-  const rows = await db().select({ id: procedureRevisions.id, doc: procedureRevisions.doc }).from(procedureRevisions).where(inArray(procedureRevisions.id, valid));
-  return new Map(rows.map((r) => [r.id, blockTexts(r.doc as JSONNode).map((b) => b.text)]));
+/**
+ * Plain text per block of the given revisions, from PostgreSQL (the source of truth), kept in
+ * a small in-process cache keyed by revision and its indexed date (a saved draft has a new
+ * date, so its entry is simply not found again).
+ */
+const blockCache = new Map<string, string[]>();
+const BLOCK_CACHE_MAX = 300;
+
+async function revisionBlocks(hits: { id: string; date: number }[]): Promise<Map<string, string[]>> {
+  const out = new Map<string, string[]>();
+  const missing = new Map<string, string>();
+  for (const h of hits) {
+    const id = h.id.replace(/^rev-/, "");
+    if (!/^[0-9a-f-]{36}$/.test(id)) continue;
+    const cached = blockCache.get(`${id}:${h.date}`);
+    if (cached) out.set(id, cached);
+    else missing.set(id, `${id}:${h.date}`);
+  }
+  if (missing.size) {
+    const rows = await db()
+      .select({ id: procedureRevisions.id, doc: procedureRevisions.doc })
+      .from(procedureRevisions)
+      .where(inArray(procedureRevisions.id, [...missing.keys()]));
+    for (const r of rows) {
+      const blocks = blockTexts(r.doc as JSONNode).map((b) => b.text);
+      out.set(r.id, blocks);
+      if (blockCache.size >= BLOCK_CACHE_MAX) blockCache.delete(blockCache.keys().next().value!);
+      blockCache.set(missing.get(r.id)!, blocks);
+    }
+  }
+  return out;
 }
 
 export async function runSearch(user: SessionUser, p: SearchParams): Promise<SearchResponse> {
@@ -105,7 +130,7 @@ export async function runSearch(user: SessionUser, p: SearchParams): Promise<Sea
     cropLength: 28,
     cropMarker: "…",
   });
-  const blocksByRevision = await revisionBlocks(res.hits.filter((h) => h.kind === "procedure").map((h) => h.id.replace(/^rev-/, "")));
+  const blocksByRevision = await revisionBlocks(res.hits.filter((h) => h.kind === "procedure"));
   const terms = queryTerms(p.q);
   const hits: SearchHit[] = res.hits.map((h) => {
     const f = (h._formatted ?? {}) as Partial<Record<string, unknown>>;
@@ -136,8 +161,17 @@ export async function runSearch(user: SessionUser, p: SearchParams): Promise<Sea
   };
 }
 
-/** True when changes older than a few seconds are still waiting to be indexed. */
-export async function indexIsBehind(): Promise<boolean> {
+let behindCache: { at: number; value: Promise<boolean> } | null = null;
+
+/** True when changes older than a few seconds are still waiting to be indexed (asked at most once a second). */
+export function indexIsBehind(): Promise<boolean> {
+  if (behindCache && Date.now() - behindCache.at < 1000) return behindCache.value;
+  const value = countBehind().catch(() => false);
+  behindCache = { at: Date.now(), value };
+  return value;
+}
+
+async function countBehind(): Promise<boolean> {
   const [r] = await db()
     .select({ n: sql<number>`count(*)::int` })
     .from(searchOutbox)
