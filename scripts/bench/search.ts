@@ -12,7 +12,7 @@ import { marks, recordings, searchOutbox } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
 import { reindexAll } from "~/lib/search/indexer.server";
-import { HL_POST, HL_PRE } from "~/lib/search/highlight";
+import { searchParamsSchema, searchRequest } from "~/lib/search/query.server";
 import { benchQueries, generateCorpus } from "../fakes/meili/bench";
 import { MeiliIndex } from "../fakes/meili/engine";
 import { createUser, http } from "../../tests/support/app";
@@ -60,19 +60,7 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   raw.addDocuments(docs as unknown as Record<string, unknown>[], { primaryKey: "id" });
 
   const apprentice = await createUser("apprentice");
-  const params = (q: string) => ({
-    q,
-    filter: [`visibility IN ["all", "user:${apprentice.id}"]`],
-    facets: ["kind", "tags", "state", "uploader"],
-    limit: 20,
-    offset: 0,
-    attributesToHighlight: ["title", "text"],
-    highlightPreTag: HL_PRE,
-    highlightPostTag: HL_POST,
-    attributesToCrop: ["text"],
-    cropLength: 28,
-    cropMarker: "…",
-  });
+  const params = (q: string) => ({ q, ...searchRequest({ ...apprentice, unitSystem: "inch" }, searchParamsSchema.parse({ q })) });
 
   const cases: Record<string, { api: Stat; sdk: Stat; raw: Stat; ratioP50: number; ratioP95: number; apiToSdkP95: number }> = {};
   for (const [name, list] of Object.entries(queries)) {

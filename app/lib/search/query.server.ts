@@ -117,8 +117,9 @@ async function revisionBlocks(hits: { id: string; date: number }[]): Promise<Map
   return out;
 }
 
-export async function runSearch(user: SessionUser, p: SearchParams): Promise<SearchResponse> {
-  const res = await searchIndex().search(p.q, {
+/** The search request the app sends for a person and parameters (the benchmark sends the same). */
+export function searchRequest(user: SessionUser, p: SearchParams) {
+  return {
     filter: buildFilter(user, p),
     facets: ["kind", "tags", "state", "uploader"],
     limit: p.limit,
@@ -129,7 +130,11 @@ export async function runSearch(user: SessionUser, p: SearchParams): Promise<Sea
     attributesToCrop: ["text"],
     cropLength: 28,
     cropMarker: "…",
-  });
+  };
+}
+
+export async function runSearch(user: SessionUser, p: SearchParams): Promise<SearchResponse> {
+  const res = await searchIndex().search(p.q, searchRequest(user, p));
   const blocksByRevision = await revisionBlocks(res.hits.filter((h) => h.kind === "procedure"));
   const terms = queryTerms(p.q);
   const hits: SearchHit[] = res.hits.map((h) => {
