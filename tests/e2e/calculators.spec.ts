@@ -115,3 +115,16 @@ test("Preload: an apprentice is not offered to save readings", async ({ page }) 
   await expect(page.getByTestId("fit-summary")).toBeVisible();
   await expect(page.getByTestId("save-readings-open")).toHaveCount(0);
 });
+
+test("on a tablet the main figures stay in view at the bottom while one types", async ({ page }) => {
+  await page.setViewportSize({ width: 768, height: 1000 });
+  await signIn(page, "dana@larkspur.example", "/calculators/preload");
+  await page.getByLabel("Thread condition").selectOption("custom");
+  await page.getByLabel("Nut factor K").fill("0.15");
+  await page.getByLabel("Tightening torque", { exact: true }).fill("100");
+  const peek = page.getByTestId("result-peek");
+  await expect(peek).toBeVisible();
+  await expect(peek).toContainText(`${(100 / (0.15 * 0.012) / 1000).toFixed(2)} kN`); // T = K·F·d, M12
+  await page.setViewportSize({ width: 1280, height: 900 });
+  await expect(peek).toBeHidden(); // beside the form on a wide screen
+});

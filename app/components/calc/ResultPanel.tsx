@@ -44,3 +44,28 @@ export function NoResult({ errors }: { errors: Record<string, string> }) {
     </div>
   );
 }
+
+/**
+ * On a tablet the form and the result stack, so the result is out of sight while one types:
+ * this strip keeps the main figures at the bottom of the screen (hidden on wide screens,
+ * where the result panel sits beside the form).
+ */
+export function ResultPeek({ items, bad, note }: { items: [string, string][]; bad?: boolean; note?: string }) {
+  if (!items.length) return null;
+  return (
+    <div
+      data-testid="result-peek"
+      aria-hidden
+      className={`no-print sticky bottom-0 z-20 -mx-1 flex flex-wrap items-baseline gap-x-5 gap-y-1 rounded-t-md border border-b-0 px-4 py-2 text-sm shadow-lg lg:hidden ${
+        bad ? "border-spec-red/50 bg-spec-red-soft text-spec-red" : "border-rule bg-card text-graphite"
+      }`}
+    >
+      {items.map(([k, v]) => (
+        <span key={k}>
+          <span className="text-graphite-soft">{k}</span> <span className="num font-semibold">{v}</span>
+        </span>
+      ))}
+      {note && <span className="font-semibold">{note}</span>}
+    </div>
+  );
+}

@@ -3,13 +3,13 @@ import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/clearance";
 import { ClearanceChart, type Marker } from "~/components/calc/ClearanceChart";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Figure, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
-import { NoResult, ResultPanel } from "~/components/calc/ResultPanel";
+import { NoResult, ResultPanel, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
 import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_BAND_FACTOR, RING_GAP_FACTORS, toSI, unitLabel, type ClearanceResult, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
 import { BORE_MATERIALS, CLEARANCE_KINDS, PISTON_MATERIALS, clearanceDefaults, runClearanceForm, type ClearanceKind } from "~/lib/calc-ui/clearance-form";
 import { formValues, type FormValues, type Outcome } from "~/lib/calc-ui/outcome";
-import { formatIn, formatNumber } from "~/lib/calc-ui/units";
+import { formatIn, formatNumber, formatQ } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Clearances · Calculators · Benchreel" }];
 
@@ -158,6 +158,21 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
             </Fieldset>
           )}
           {!hydrated && <button type="submit" className="btn btn-primary justify-self-start">Calculate</button>}
+          {hydrated && outcome.result && (() => {
+            const r = outcome.result as ClearanceResult;
+            const su = (values["out.small"] ?? "mm") as UnitCode;
+            const out = r.verdict === "below" || r.verdict === "above";
+            return (
+              <ResultPeek
+                bad={out || (r.hotClearance_mm ?? 0) < 0}
+                note={out ? `Out of spec (${r.verdict})` : r.verdict === "within" ? "Within spec" : undefined}
+                items={[
+                  ["Clearance", formatQ(r.clearance_mm, "mm", su, 1)],
+                  ...(r.hotClearance_mm !== undefined ? [["Hot", formatQ(r.hotClearance_mm, "mm", su, 1)] as [string, string]] : []),
+                ]}
+              />
+            );
+          })()}
         </div>
         <ClearanceResultView outcome={outcome} values={values} set={set} />
       </Form>

@@ -3,7 +3,7 @@ import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/preload";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Figure, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { PreloadChart } from "~/components/calc/PreloadChart";
-import { FigureTable, NoResult, ResultPanel } from "~/components/calc/ResultPanel";
+import { FigureTable, NoResult, ResultPanel, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
 import { NUT_FACTOR_PRESETS, PROPERTY_CLASSES, THREAD_PRESETS, unitLabel, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
@@ -186,6 +186,17 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
           </Fieldset>
           {!hydrated && (
             <button type="submit" className="btn btn-primary justify-self-start">Calculate</button>
+          )}
+          {hydrated && outcome.result && (
+            <ResultPeek
+              bad={(outcome.result.percentOfYield ?? 0) > 90}
+              note={(outcome.result.percentOfYield ?? 0) > 90 ? "past 90 % of yield" : undefined}
+              items={[
+                ["Clamp load", formatQ(outcome.result.preload_N, "N", (values["out.force"] ?? "kN") as UnitCode)],
+                ["Torque", formatQ(outcome.result.torque_Nm, "N.m", (values["out.torque"] ?? "N.m") as UnitCode)],
+                ...(outcome.result.percentOfYield !== undefined ? [["Of yield", `${formatNumber(outcome.result.percentOfYield, 1)} %`] as [string, string]] : []),
+              ]}
+            />
           )}
         </div>
 
