@@ -107,11 +107,14 @@ async function revisionBlocks(hits: { id: string; date: number }[]): Promise<Map
       .select({ id: procedureRevisions.id, doc: procedureRevisions.doc })
       .from(procedureRevisions)
       .where(inArray(procedureRevisions.id, [...missing.keys()]));
-    for (const r of rows) {
-      const blocks = blockTexts(r.doc as JSONNode).map((b) => b.text);
-      out.set(r.id, blocks);
+    const found = new Map(rows.map((r) => [r.id, blockTexts(r.doc as JSONNode).map((b) => b.text)]));
+    // A revision the index has but the database has not (about to be removed from the index)
+    // is remembered as having no blocks, so it is not looked up on every search.
+    for (const [id, key] of missing) {
+      const blocks = found.get(id) ?? [];
+      out.set(id, blocks);
       if (blockCache.size >= BLOCK_CACHE_MAX) blockCache.delete(blockCache.keys().next().value!);
-      blockCache.set(missing.get(r.id)!, blocks);
+      blockCache.set(key, blocks);
     }
   }
   return out;
