@@ -127,4 +127,9 @@ test("on a tablet the main figures stay in view at the bottom while one types", 
   await expect(peek).toContainText(`${(100 / (0.15 * 0.012) / 1000).toFixed(2)} kN`); // T = K·F·d, M12
   await page.setViewportSize({ width: 1280, height: 900 });
   await expect(peek).toBeHidden(); // beside the form on a wide screen
+
+  await page.setViewportSize({ width: 768, height: 1000 });
+  await page.goto("/calculators/distortion");
+  await expect(page.getByTestId("result-peek")).toContainText("Worst out-of-round");
+  await expect(page.getByTestId("result-peek")).toContainText(await page.getByTestId("result-oor").first().innerText());
 });

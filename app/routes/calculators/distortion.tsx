@@ -3,13 +3,13 @@ import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/distortion";
 import { BorePolar, BoreProfile, exaggerationFor, type LevelDots } from "~/components/calc/BoreCharts";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
-import { NoResult } from "~/components/calc/ResultPanel";
+import { NoResult, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
 import { TWO_POINT_GAUGE_NOTE, toSI, unitLabel, type BoreLevel, type BoreStateResult, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
 import { DEFAULT_ANGLES, distortionDefaults, profileShape, runDistortionForm, type DistortionOutcome } from "~/lib/calc-ui/distortion-form";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
-import { formatIn, formatNumber } from "~/lib/calc-ui/units";
+import { formatIn, formatNumber, formatQ } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Bore distortion · Calculators · Benchreel" }];
 
@@ -90,6 +90,14 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
             </div>
             {e.grid && <p className="field-error" role="alert">{e.grid}</p>}
             {!hydrated && <button type="submit" className="btn btn-primary justify-self-start">Calculate</button>}
+            {hydrated && outcome.result && outcome.result.levels.length > 0 && (
+              <ResultPeek
+                items={[
+                  ["Worst out-of-round", formatQ(Math.max(...outcome.result.levels.map((l) => l.outOfRound_mm)), "mm", (values["out.small"] ?? "um") as UnitCode)],
+                  ["Taper", formatQ(outcome.result.taper_mm, "mm", (values["out.small"] ?? "um") as UnitCode)],
+                ]}
+              />
+            )}
           </div>
         </div>
         <DistortionResultView outcome={outcome} values={values} set={set} />
