@@ -3,6 +3,8 @@ import { defineConfig } from "@playwright/test";
 // Run through `npm test`, which starts the app and sets BASE_URL. Debian's chromium only.
 export default defineConfig({
   testDir: "./e2e",
+  // screens.spec.ts takes screenshots for people to look at; it joins only when asked for.
+  testIgnore: process.env.SCREENSHOTS ? [] : ["**/screens.spec.ts"],
   workers: 1,
   retries: process.env.CI ? 1 : 0,
   timeout: 60_000,
