@@ -203,7 +203,7 @@ export async function seedProcedures(db: Db): Promise<number> {
         let doc = r.doc;
         if (!recordingsThere.r) doc = { ...doc, content: doc.content!.filter((n) => n.type !== "videoMoment") };
         const clean = sanitizeDocument(doc);
-        if (!clean.ok) throw new Error(`seed document ${d.slug} r${r.number} is invalid: ${JSON.stringify(clean.errors)}`);
+        if (!clean.ok) throw new Error(`demo procedure ${d.slug} r${r.number} is invalid: ${JSON.stringify(clean.errors)}`);
         const at = day(r.daysAgo);
         const [row] = await tx
           .insert(procedureRevisions)
