@@ -1,10 +1,10 @@
-import { useEffect, useMemo, useState } from "react";
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/clearance";
 import { ClearanceChart, type Marker } from "~/components/calc/ClearanceChart";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Figure, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { NoResult, ResultPanel, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
+import { useCalcForm } from "~/components/calc/useCalcForm";
 import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_BAND_FACTOR, RING_GAP_FACTORS, toSI, unitLabel, type ClearanceResult, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
 import { BORE_MATERIALS, CLEARANCE_KINDS, PISTON_MATERIALS, clearanceDefaults, runClearanceForm, type ClearanceKind } from "~/lib/calc-ui/clearance-form";
@@ -29,24 +29,18 @@ type ClearanceOutcome = Outcome<ClearanceResult> & { kind: ClearanceKind };
 
 export default function ClearancePage({ loaderData, actionData }: Route.ComponentProps) {
   const hydrated = useHydrated();
-  const [values, setValues] = useState<FormValues>(() => actionData?.values ?? clearanceDefaults(loaderData.unitSystem));
-  useEffect(() => {
-    if (actionData) setValues(actionData.values);
-  }, [actionData]);
-  const outcome: ClearanceOutcome = useMemo(
-    () => (actionData && values === actionData.values ? (actionData.outcome as ClearanceOutcome) : runClearanceForm(values)),
-    [values, actionData],
-  );
-  const set: SetValue = (name, value) =>
-    setValues((v) => {
-      const next = { ...v, [name]: value };
+  const { values, outcome, set } = useCalcForm<ClearanceOutcome>({
+    actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
+    defaults: () => clearanceDefaults(loaderData.unitSystem),
+    run: runClearanceForm,
+    derive: (next, name, value) => {
       if (name === "application") {
         const f = RING_GAP_FACTORS.find((r) => r.application === value);
         if (f) next.gapPerBore = String(f.gapPerBore);
       }
       if (name === "gapPerBore") next.application = "custom";
-      return next;
-    });
+    },
+  });
   const show = (cond: boolean) => cond || !hydrated;
   const e = outcome.errors;
   const kind = outcome.kind;

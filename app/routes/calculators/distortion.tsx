@@ -1,10 +1,10 @@
-import { useEffect, useMemo, useState } from "react";
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/distortion";
 import { BorePolar, BoreProfile, exaggerationFor, type LevelDots } from "~/components/calc/BoreCharts";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { NoResult, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
+import { useCalcForm } from "~/components/calc/useCalcForm";
 import { TWO_POINT_GAUGE_NOTE, toSI, unitLabel, type BoreLevel, type BoreStateResult, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
 import { DEFAULT_ANGLES, distortionDefaults, profileShape, runDistortionForm, type DistortionOutcome } from "~/lib/calc-ui/distortion-form";
@@ -27,23 +27,17 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function DistortionPage({ loaderData, actionData }: Route.ComponentProps) {
   const hydrated = useHydrated();
-  const [values, setValues] = useState<FormValues>(() => actionData?.values ?? distortionDefaults(loaderData.unitSystem));
-  useEffect(() => {
-    if (actionData) setValues(actionData.values);
-  }, [actionData]);
-  const outcome: DistortionOutcome = useMemo(
-    () => (actionData && values === actionData.values ? (actionData.outcome as DistortionOutcome) : runDistortionForm(values)),
-    [values, actionData],
-  );
-  const set: SetValue = (name, value) =>
-    setValues((v) => {
-      const next = { ...v, [name]: value };
+  const { values, outcome, set } = useCalcForm<DistortionOutcome>({
+    actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
+    defaults: () => distortionDefaults(loaderData.unitSystem),
+    run: runDistortionForm,
+    derive: (next, name, value, v) => {
       if (name === "mode") {
         const other = value === "radial" ? DEFAULT_ANGLES.diametral : DEFAULT_ANGLES.radial;
         if (v.angles?.replace(/\s/g, "") === other.replace(/\s/g, "")) next.angles = value === "radial" ? DEFAULT_ANGLES.radial : DEFAULT_ANGLES.diametral;
       }
-      return next;
-    });
+    },
+  });
   const e = outcome.errors;
   const radial = values.mode === "radial";
   const compare = values["compare.on"] === "on";

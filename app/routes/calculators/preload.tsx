@@ -1,10 +1,10 @@
-import { useEffect, useMemo, useState } from "react";
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/preload";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Figure, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { PreloadChart } from "~/components/calc/PreloadChart";
 import { FigureTable, NoResult, ResultPanel, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
+import { useCalcForm } from "~/components/calc/useCalcForm";
 import { NUT_FACTOR_PRESETS, PROPERTY_CLASSES, THREAD_PRESETS, unitLabel, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
 import { can } from "~/lib/permissions";
@@ -30,24 +30,18 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function PreloadPage({ loaderData, actionData }: Route.ComponentProps) {
   const hydrated = useHydrated();
-  const [values, setValues] = useState<FormValues>(() => actionData?.values ?? preloadDefaults(loaderData.unitSystem));
-  useEffect(() => {
-    if (actionData) setValues(actionData.values);
-  }, [actionData]);
-  const outcome: PreloadOutcome = useMemo(
-    () => (actionData && values === actionData.values ? (actionData.outcome as PreloadOutcome) : runPreloadForm(values)),
-    [values, actionData],
-  );
-  const set: SetValue = (name, value) =>
-    setValues((v) => {
-      const next = { ...v, [name]: value };
+  const { values, outcome, set } = useCalcForm<PreloadOutcome>({
+    actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
+    defaults: () => preloadDefaults(loaderData.unitSystem),
+    run: runPreloadForm,
+    derive: (next, name, value) => {
       if (name === "nutCondition") {
         const p = NUT_FACTOR_PRESETS.find((x) => x.condition === value);
         if (p?.k !== undefined) next["method.k"] = String(p.k);
       }
       if (name === "method.k") next.nutCondition = "custom";
-      return next;
-    });
+    },
+  });
   const show = (cond: boolean) => cond || !hydrated;
   const e = outcome.errors;
   const friction = values["method.kind"] === "friction";
