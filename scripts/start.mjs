@@ -72,7 +72,7 @@ try {
   log("building the app…");
   if ((await runWith(bin("react-router"), ["build"], env)) !== 0) throw new Error("build failed");
 
-  spawnChild(bin("react-router-serve"), ["build/server/index.js"], env, "app");
+  spawnChild(process.execPath, ["server.js", "build/server/index.js"], env, "app");
   tsx("scripts/worker.ts", [], env);
   await waitForPort(appPort, 60_000, "app");
 

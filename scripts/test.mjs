@@ -133,7 +133,7 @@ try {
     // The app's request log and the worker's output go to files; they are printed on failure.
     const appLog = path.join(runDir, "app.log");
     const workerLog = path.join(runDir, "worker.log");
-    spawnChild(bin("react-router-serve"), [path.join(buildDir, "server/index.js")], env, "app", appLog);
+    spawnChild(process.execPath, ["server.js", path.join(buildDir, "server/index.js")], env, "app", appLog);
     tsx("scripts/worker.ts", [], env, workerLog);
     logsToShow.push(appLog, workerLog);
     await waitForPort(appPort, 60_000, "app");

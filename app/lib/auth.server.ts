@@ -1,10 +1,10 @@
 import { hash, verify } from "@node-rs/argon2";
 import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
 import { and, eq, gt, sql } from "drizzle-orm";
-import { Lucia, TimeSpan, type Session } from "lucia";
+import { Lucia, TimeSpan, type DatabaseSession, type DatabaseUser, type Session } from "lucia";
 import { data, redirect } from "react-router";
 import { sessions, signInAttempts, users } from "~/db/schema";
-import { db, isDatabaseDown } from "./db.server";
+import { db, isDatabaseDown, pool } from "./db.server";
 import { env } from "./env.server";
 import { can, type Permission, type Role } from "./permissions";
 import { memoForRequest } from "./request-store.server";
@@ -23,8 +23,32 @@ export async function verifyPassword(passwordHash: string, password: string): Pr
   }
 }
 
+/**
+ * lucia's Drizzle adapter, with the one query every request makes (session and person by the
+ * cookie's id) as a named prepared statement: PostgreSQL plans it once per connection, and no
+ * query is built per request.
+ */
+class SessionAdapter extends DrizzlePostgreSQLAdapter {
+  override async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
+    const { rows } = await pool().query<{
+      id: string; user_id: string; expires_at: Date; email: string; name: string; role: Role; unit_system: "metric" | "inch"; deactivated_at: Date | null;
+    }>({
+      name: "benchreel-session-and-user",
+      text: `select s.id, s.user_id, s.expires_at, u.email, u.name, u.role, u.unit_system, u.deactivated_at
+             from sessions s join users u on u.id = s.user_id where s.id = $1`,
+      values: [sessionId],
+    });
+    const r = rows[0];
+    if (!r) return [null, null];
+    return [
+      { id: r.id, userId: r.user_id, expiresAt: r.expires_at, attributes: {} },
+      { id: r.user_id, attributes: { email: r.email, name: r.name, role: r.role, unitSystem: r.unit_system, deactivatedAt: r.deactivated_at } },
+    ];
+  }
+}
+
 function createLucia() {
-  const adapter = new DrizzlePostgreSQLAdapter(db(), sessions, users);
+  const adapter = new SessionAdapter(db(), sessions, users);
   return new Lucia(adapter, {
     sessionExpiresIn: new TimeSpan(30, "d"),
     sessionCookie: {

@@ -1,5 +1,6 @@
 import { env } from "./env.server";
-import { refreshedCookie } from "./auth.server";
+import { getUser, refreshedCookie } from "./auth.server";
+import { beginRender, cachedPage, forgetPerson, isCacheablePage, rememberPage } from "./page-cache.server";
 import { requestStore } from "./request-store.server";
 
 export const SECURITY_HEADERS: Record<string, string> = {
@@ -58,7 +59,7 @@ export async function securityMiddleware({ request }: { request: Request }, next
 }
 
 async function inRequest(request: Request, next: () => Promise<Response>) {
-  const res = await next();
+  const res = await throughPageCache(request, next);
   let cookie: string | null = null;
   try {
     cookie = await refreshedCookie(request);
@@ -66,4 +67,23 @@ async function inRequest(request: Request, next: () => Promise<Response>) {
     cookie = null;
   }
   return withHeaders(res, SECURITY_HEADERS, cookie);
+}
+
+/** The read pages' rendered-page cache (app/lib/page-cache.server.ts); other requests pass through. */
+async function throughPageCache(request: Request, next: () => Promise<Response>): Promise<Response> {
+  if (!SAFE_METHODS.has(request.method)) {
+    try {
+      return await next();
+    } finally {
+      const user = await getUser(request).catch(() => null);
+      if (user) forgetPerson(user.id);
+    }
+  }
+  if (!isCacheablePage(request)) return next();
+  const user = await getUser(request).catch(() => null);
+  if (!user) return next();
+  const hit = cachedPage(user.id, request);
+  if (hit) return hit;
+  const started = beginRender();
+  return rememberPage(user.id, request, started, await next());
 }

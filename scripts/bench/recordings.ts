@@ -52,7 +52,7 @@ const quantile = (xs: number[], q: number) => {
   return s[Math.min(s.length - 1, Math.max(0, Math.ceil(q * s.length) - 1))];
 };
 
-/** The pid listening on the app's port (the react-router-serve process). */
+/** The pid listening on the app's port (the `node server.js` process). */
 function serverPid(port: number): number | null {
   const out = spawnSync("ss", ["-Hltnp", `sport = :${port}`], { encoding: "utf8" }).stdout ?? "";
   const m = /pid=(\d+)/.exec(out);

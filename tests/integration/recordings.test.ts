@@ -153,7 +153,7 @@ describe("tus upload", () => {
     });
     const base = `http://127.0.0.1:${port}`;
     const start = async (): Promise<ChildProcess> => {
-      const child = spawn(process.execPath, ["node_modules/@react-router/serve/bin.js", path.join(build!, "server/index.js")], {
+      const child = spawn(process.execPath, ["server.js", path.join(build!, "server/index.js")], {
         env: { ...process.env, PORT: String(port), HOST: "127.0.0.1" },
         stdio: "ignore",
       });

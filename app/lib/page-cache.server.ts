@@ -1,0 +1,209 @@
+/**
+ * Rendered-page cache for the hottest read pages (docs/decisions/006).
+ *
+ * A procedure's read page is read far more often than anything on it changes, yet rendering it
+ * costs about ten queries and several milliseconds of CPU. This cache keeps the finished response
+ * per person and URL, and drops everything it holds whenever PostgreSQL reports a change to what
+ * pages show (triggers of migration 0008 notify on the `benchreel_content` channel).
+ *
+ * What makes it safe:
+ * - The key holds the signed-in person's id, and the session is validated on every request
+ *   before the cache is asked: a signed-out or deactivated person gets nothing from it.
+ * - An entry is stored under the generation that was current when its request began; any
+ *   notification moves the generation on, so a page rendered from data older than a change is
+ *   never served after the change.
+ * - While the listening connection is down (or not yet up) the cache neither serves nor stores;
+ *   coming back moves the generation on, since notifications may have been missed.
+ * - A person's own state-changing request drops that person's entries at once (their next page
+ *   shows what they just did even before the notification arrives); the notification drops the
+ *   rest.
+ * - Responses that set a cookie, and requests that carry a flash message, are never cached.
+ *   `Cache-Control: no-cache` on the request (a hard reload) renders anew.
+ */
+import pg from "pg";
+import { env } from "./env.server";
+
+export const CONTENT_CHANNEL = "benchreel_content";
+
+type Entry = { body: Uint8Array<ArrayBuffer>; status: number; headers: [string, string][] };
+
+export type CacheLimits = { maxEntries: number; maxBytes: number };
+
+/** The store itself: LRU by entries and bytes, and a generation that every invalidation moves on. */
+export class PageStore {
+  private entries = new Map<string, Entry>(); // insertion order = least recently used first
+  private bytes = 0;
+  generation = 0;
+
+  constructor(private readonly limits: CacheLimits = { maxEntries: 500, maxBytes: 64 * 1024 * 1024 }) {}
+
+  get size() {
+    return this.entries.size;
+  }
+
+  get byteSize() {
+    return this.bytes;
+  }
+
+  /** Everything goes; entries being rendered under the old generation will not be stored. */
+  invalidateAll() {
+    this.generation++;
+    this.entries.clear();
+    this.bytes = 0;
+  }
+
+  /** Drops the entries whose key starts with `prefix` (one person's pages) and moves the generation on. */
+  invalidatePrefix(prefix: string) {
+    this.generation++;
+    for (const [key, e] of this.entries) {
+      if (!key.startsWith(prefix)) continue;
+      this.entries.delete(key);
+      this.bytes -= e.body.byteLength;
+    }
+  }
+
+  get(key: string): Entry | undefined {
+    const e = this.entries.get(key);
+    if (!e) return undefined;
+    this.entries.delete(key); // refresh its place
+    this.entries.set(key, e);
+    return e;
+  }
+
+  /** Stores `entry` if nothing changed since `generation`; false when it was refused. */
+  set(key: string, generation: number, entry: Entry): boolean {
+    if (generation !== this.generation) return false;
+    if (entry.body.byteLength > this.limits.maxBytes / 4) return false;
+    const old = this.entries.get(key);
+    if (old) {
+      this.entries.delete(key);
+      this.bytes -= old.body.byteLength;
+    }
+    this.entries.set(key, entry);
+    this.bytes += entry.body.byteLength;
+    while (this.entries.size > this.limits.maxEntries || this.bytes > this.limits.maxBytes) {
+      const [oldestKey, oldest] = this.entries.entries().next().value as [string, Entry];
+      this.entries.delete(oldestKey);
+      this.bytes -= oldest.body.byteLength;
+    }
+    return true;
+  }
+}
+
+/** Keeps one connection LISTENing; the store only works while it is up. */
+class ContentListener {
+  up = false;
+  private client: pg.Client | null = null;
+  private starting = false;
+  private retryMs = 250;
+
+  constructor(private readonly store: PageStore) {}
+
+  ensure() {
+    if (this.up || this.starting) return;
+    this.starting = true;
+    void this.connect();
+  }
+
+  private async connect() {
+    const client = new pg.Client({ connectionString: env().DATABASE_URL, application_name: "benchreel-page-cache" });
+    const down = () => {
+      if (this.client !== client) return;
+      this.client = null;
+      this.up = false;
+      this.store.invalidateAll();
+      client.removeAllListeners("notification");
+      void client.end().catch(() => {});
+      setTimeout(() => this.ensure(), this.retryMs).unref();
+      this.retryMs = Math.min(this.retryMs * 2, 10_000);
+    };
+    client.on("error", down);
+    client.on("end", down);
+    client.on("notification", (n) => {
+      if (n.channel === CONTENT_CHANNEL) this.store.invalidateAll();
+    });
+    this.client = client;
+    try {
+      await client.connect();
+      await client.query(`LISTEN ${CONTENT_CHANNEL}`);
+      this.store.invalidateAll(); // anything may have changed while nobody listened
+      this.up = true;
+      this.retryMs = 250;
+    } catch {
+      down();
+    } finally {
+      this.starting = false;
+    }
+  }
+}
+
+const store = new PageStore();
+const listener = new ContentListener(store);
+
+/** The pages worth caching: a procedure's read page (document and client-navigation data). */
+const CACHED_PAGES = [/^\/procedures\/(?!new(?:\.data)?$)[^/]+$/];
+
+export function enabled(): boolean {
+  return process.env.PAGE_CACHE !== "off";
+}
+
+export function isCacheablePage(request: Request): boolean {
+  if (request.method !== "GET" || !enabled()) return false;
+  const url = new URL(request.url);
+  if (!CACHED_PAGES.some((re) => re.test(url.pathname.replace(/\.data$/, "")))) return false;
+  if (request.headers.get("cookie")?.includes("br_flash=")) return false;
+  return true;
+}
+
+const keyOf = (userId: string, request: Request) => {
+  const url = new URL(request.url);
+  return `${userId}\n${url.pathname}${url.search}`;
+};
+
+/** A stored response for this person and URL, or null (the header says which). */
+export function cachedPage(userId: string, request: Request): Response | null {
+  listener.ensure();
+  if (!listener.up) return null;
+  const noCache = /no-cache/i.test(request.headers.get("cache-control") ?? "") || /no-cache/i.test(request.headers.get("pragma") ?? "");
+  if (noCache) return null;
+  const hit = store.get(keyOf(userId, request));
+  if (!hit) return null;
+  const headers = new Headers(hit.headers);
+  headers.set("X-Page-Cache", "hit");
+  return new Response(hit.body, { status: hit.status, headers });
+}
+
+/** Call before rendering: the generation the render will be stored under. */
+export function beginRender(): { generation: number; up: boolean } {
+  return { generation: store.generation, up: listener.up };
+}
+
+/** Keeps a copy of `res` for the next identical request; returns the response to send. */
+export function rememberPage(userId: string, request: Request, started: { generation: number; up: boolean }, res: Response): Response {
+  if (!started.up || res.status !== 200 || res.headers.has("set-cookie") || !res.body) return res;
+  const key = keyOf(userId, request);
+  const copy = res.clone();
+  void copy
+    .arrayBuffer()
+    .then((buf) => {
+      if (!listener.up) return;
+      const headers = [...copy.headers.entries()].filter(([k]) => k.toLowerCase() !== "x-page-cache");
+      store.set(key, started.generation, { body: new Uint8Array(buf), status: res.status, headers });
+    })
+    .catch(() => {});
+  try {
+    res.headers.set("X-Page-Cache", "miss");
+  } catch {
+    /* immutable headers: no marker */
+  }
+  return res;
+}
+
+/** A person's own write: their pages go now; everyone else's go when the notification arrives. */
+export function forgetPerson(userId: string) {
+  store.invalidatePrefix(`${userId}\n`);
+}
+
+export function pageCacheStats() {
+  return { up: listener.up, entries: store.size, bytes: store.byteSize, generation: store.generation };
+}
