@@ -26,7 +26,11 @@ const clientDir = path.join(path.dirname(serverBuild), "..", "client");
 
 const app = express();
 app.disable("x-powered-by");
-app.use(compression());
+// A response that states a length under 16 kB (the JSON APIs the header search calls as one
+// types) goes uncompressed: on the shop's network, gzip and gunzip of a few kilobytes cost
+// more time than the bytes they save. Pages (streamed) and larger bodies are compressed.
+const SMALL = 16 * 1024;
+app.use(compression({ filter: (req, res) => !(Number(res.getHeader("Content-Length")) < SMALL) && compression.filter(req, res) }));
 app.use(`${build.publicPath}assets`, express.static(path.join(clientDir, "assets"), { immutable: true, maxAge: "1y", fallthrough: false }));
 
 const topLevelFiles = new Set(

@@ -1,5 +1,5 @@
 import { env } from "./env.server";
-import { getUser, refreshedCookie } from "./auth.server";
+import { forgetValidatedSessions, getUser, refreshedCookie } from "./auth.server";
 import { beginRender, cachedPage, forgetPerson, isCacheablePage, rememberPage } from "./page-cache.server";
 import { requestStore } from "./request-store.server";
 
@@ -75,6 +75,8 @@ async function throughPageCache(request: Request, next: () => Promise<Response>)
     try {
       return await next();
     } finally {
+      // This process's own writes take effect here at once; other processes hear the notification.
+      forgetValidatedSessions();
       const user = await getUser(request).catch(() => null);
       if (user) forgetPerson(user.id);
     }

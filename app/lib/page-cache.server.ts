@@ -4,7 +4,8 @@
  * A procedure's read page is read far more often than anything on it changes, yet rendering it
  * costs about ten queries and several milliseconds of CPU. This cache keeps the finished response
  * per person and URL, and drops everything it holds whenever PostgreSQL reports a change to what
- * pages show (triggers of migration 0008 notify on the `benchreel_content` channel).
+ * pages show (triggers of migration 0008 notify on the `benchreel_content` channel, heard by
+ * `notify.server.ts`).
  *
  * What makes it safe:
  * - The key holds the signed-in person's id, and the session is validated on every request
@@ -20,10 +21,7 @@
  * - Responses that set a cookie, and requests that carry a flash message, are never cached.
  *   `Cache-Control: no-cache` on the request (a hard reload) renders anew.
  */
-import pg from "pg";
-import { env } from "./env.server";
-
-export const CONTENT_CHANNEL = "benchreel_content";
+import { CONTENT_CHANNEL, listening, onListenerReset, onNotify } from "./notify.server";
 
 type Entry = { body: Uint8Array<ArrayBuffer>; status: number; headers: [string, string][] };
 
@@ -90,55 +88,9 @@ export class PageStore {
   }
 }
 
-/** Keeps one connection LISTENing; the store only works while it is up. */
-class ContentListener {
-  up = false;
-  private client: pg.Client | null = null;
-  private starting = false;
-  private retryMs = 250;
-
-  constructor(private readonly store: PageStore) {}
-
-  ensure() {
-    if (this.up || this.starting) return;
-    this.starting = true;
-    void this.connect();
-  }
-
-  private async connect() {
-    const client = new pg.Client({ connectionString: env().DATABASE_URL, application_name: "benchreel-page-cache" });
-    const down = () => {
-      if (this.client !== client) return;
-      this.client = null;
-      this.up = false;
-      this.store.invalidateAll();
-      client.removeAllListeners("notification");
-      void client.end().catch(() => {});
-      setTimeout(() => this.ensure(), this.retryMs).unref();
-      this.retryMs = Math.min(this.retryMs * 2, 10_000);
-    };
-    client.on("error", down);
-    client.on("end", down);
-    client.on("notification", (n) => {
-      if (n.channel === CONTENT_CHANNEL) this.store.invalidateAll();
-    });
-    this.client = client;
-    try {
-      await client.connect();
-      await client.query(`LISTEN ${CONTENT_CHANNEL}`);
-      this.store.invalidateAll(); // anything may have changed while nobody listened
-      this.up = true;
-      this.retryMs = 250;
-    } catch {
-      down();
-    } finally {
-      this.starting = false;
-    }
-  }
-}
-
 const store = new PageStore();
-const listener = new ContentListener(store);
+onNotify(CONTENT_CHANNEL, () => store.invalidateAll());
+onListenerReset(() => store.invalidateAll());
 
 /** The pages worth caching: a procedure's read page (document and client-navigation data). */
 const CACHED_PAGES = [/^\/procedures\/(?!new(?:\.data)?$)[^/]+$/];
@@ -162,8 +114,7 @@ const keyOf = (userId: string, request: Request) => {
 
 /** A stored response for this person and URL, or null (the header says which). */
 export function cachedPage(userId: string, request: Request): Response | null {
-  listener.ensure();
-  if (!listener.up) return null;
+  if (!listening()) return null;
   const noCache = /no-cache/i.test(request.headers.get("cache-control") ?? "") || /no-cache/i.test(request.headers.get("pragma") ?? "");
   if (noCache) return null;
   const hit = store.get(keyOf(userId, request));
@@ -175,7 +126,7 @@ export function cachedPage(userId: string, request: Request): Response | null {
 
 /** Call before rendering: the generation the render will be stored under. */
 export function beginRender(): { generation: number; up: boolean } {
-  return { generation: store.generation, up: listener.up };
+  return { generation: store.generation, up: listening() };
 }
 
 /** Keeps a copy of `res` for the next identical request; returns the response to send. */
@@ -186,7 +137,7 @@ export function rememberPage(userId: string, request: Request, started: { genera
   void copy
     .arrayBuffer()
     .then((buf) => {
-      if (!listener.up) return;
+      if (!listening()) return;
       const headers = [...copy.headers.entries()].filter(([k]) => k.toLowerCase() !== "x-page-cache");
       store.set(key, started.generation, { body: new Uint8Array(buf), status: res.status, headers });
     })
@@ -205,5 +156,5 @@ export function forgetPerson(userId: string) {
 }
 
 export function pageCacheStats() {
-  return { up: listener.up, entries: store.size, bytes: store.byteSize, generation: store.generation };
+  return { up: listening(), entries: store.size, bytes: store.byteSize, generation: store.generation };
 }

@@ -173,10 +173,10 @@ async function ttfbLoop(url: string, cookie: string, n: number): Promise<Stat> {
 }
 
 /** 20 clients for 10 s; every response's latency (request written → response complete) is kept. */
-async function cannon(url: string, cookie: string): Promise<{ result: autocannon.Result; times: number[] }> {
+async function cannon(url: string, cookie: string, extra: Record<string, string> = {}): Promise<{ result: autocannon.Result; times: number[] }> {
   const times: number[] = [];
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const inst = autocannon({ url, connections: 20, duration: 10, headers: { cookie }, timeout: 20 }, (err, r) => (err ? reject(err) : resolve(r)));
+    const inst = autocannon({ url, connections: 20, duration: 10, headers: { cookie, ...extra }, timeout: 20 }, (err, r) => (err ? reject(err) : resolve(r)));
     inst.on("response", (_client: unknown, _status: number, _bytes: number, responseTime: number) => times.push(responseTime));
   });
   return { result, times };
@@ -266,6 +266,19 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
   const p95 = concurrent.p95;
   log(`read page, 20 clients (autocannon, per response): p50 ${concurrent.p50} ms, p95 ${p95} ms, p99 ${concurrent.p99} ms, ${concurrent.requestsPerSec} req/s`);
 
+  // What a repeat visit costs is the page cache's (docs/decisions/006); say so, and measure the
+  // render it saves: the same load with Cache-Control: no-cache renders every response.
+  const probe = await fetch(readUrl, { headers: { cookie: s.apprentice.cookie } });
+  await probe.arrayBuffer();
+  const servedFrom = probe.headers.get("x-page-cache") ?? "none";
+  log(`a probe right after the 20-client run: X-Page-Cache ${servedFrom} (hit = the run was answered from the page cache)`);
+  const { result: nc, times: nct } = await cannon(readUrl, s.apprentice.cookie, { "cache-control": "no-cache" });
+  if (nc.non2xx) throw new Error(`autocannon (no-cache) saw ${nc.non2xx} non-2xx answers`);
+  const ns = [...nct].sort((x, y) => x - y);
+  const nq = (f: number) => +ns[Math.min(ns.length - 1, Math.floor(f * ns.length))].toFixed(2);
+  const rendered = { p50: nq(0.5), p95: nq(0.95), p99: nq(0.99), requestsPerSec: +nc.requests.average.toFixed(1) };
+  log(`read page rendered on every request (Cache-Control: no-cache), 20 clients: p50 ${rendered.p50} ms, p95 ${rendered.p95} ms, ${rendered.requestsPerSec} req/s`);
+
   // The floor of this stack: the same load on a light page (the calculators index, no procedure data).
   const { result: b, times: bt } = await cannon(`${origin}/calculators`, s.apprentice.cookie);
   const bs = [...bt].sort((x, y) => x - y);
@@ -283,6 +296,9 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
     revisions: 40,
     ttfbSequential: seq,
     ttfb20Clients: concurrent,
+    servedFrom,
+    rendered20Clients: rendered,
+    cachedToRenderedP95: +(p95 / Math.max(rendered.p95, 0.01)).toFixed(3),
     baseline20Clients: baseline,
     readToBaselineP95: +(p95 / Math.max(baseline.p95, 0.01)).toFixed(2),
     readJs,

@@ -62,17 +62,22 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   const apprentice = await createUser("apprentice");
   const params = (q: string) => ({ q, ...searchRequest({ ...apprentice, unitSystem: "inch" }, searchParamsSchema.parse({ q })) });
 
-  const cases: Record<string, { api: Stat; sdk: Stat; raw: Stat; ratioP50: number; ratioP95: number; apiToSdkP95: number }> = {};
+  const cases: Record<string, { api: Stat; sdk: Stat; raw: Stat; ratioP50: number; ratioP95: number; apiToSdkP50: number; apiToSdkP95: number; server: Record<string, number> }> = {};
   for (const [name, list] of Object.entries(queries)) {
     const apiTimes: number[] = [];
     const sdkTimes: number[] = [];
     const rawTimes: number[] = [];
+    const serverTimes: Record<string, number[]> = {}; // the app's own Server-Timing parts
     for (const q of list.slice(0, 5)) await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie }).then((r) => r.arrayBuffer()); // warm-up
     for (const q of list) {
       const a = performance.now();
       const res = await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie });
       await res.arrayBuffer();
       apiTimes.push(performance.now() - a);
+      for (const part of (res.headers.get("server-timing") ?? "").split(",")) {
+        const m = /(\w+);dur=([\d.]+)/.exec(part);
+        if (m) (serverTimes[m[1]] ??= []).push(Number(m[2]));
+      }
       if (res.status !== 200) throw new Error(`/api/search answered ${res.status} for "${q}"`);
       const c = performance.now();
       await index.search(q, params(q) as never);
@@ -90,9 +95,11 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
       raw: r,
       ratioP50: +(api.p50 / Math.max(r.p50, 0.01)).toFixed(2),
       ratioP95: +(api.p95 / Math.max(r.p95, 0.01)).toFixed(2),
+      apiToSdkP50: +(api.p50 / Math.max(sdk.p50, 0.01)).toFixed(2),
       apiToSdkP95: +(api.p95 / Math.max(sdk.p95, 0.01)).toFixed(2),
+      server: Object.fromEntries(Object.entries(serverTimes).map(([k, v]) => [`${k}P50`, stat(v).p50])),
     };
-    log(`${name.padEnd(18)} /api/search p50 ${api.p50} p95 ${api.p95} ms | SDK→fake p50 ${sdk.p50} p95 ${sdk.p95} ms | in-process p50 ${r.p50} p95 ${r.p95} ms | api/raw p95 ${cases[name].ratioP95}, api/sdk p95 ${cases[name].apiToSdkP95}`);
+    log(`${name.padEnd(18)} /api/search p50 ${api.p50} p95 ${api.p95} ms | SDK→fake p50 ${sdk.p50} p95 ${sdk.p95} ms | in-process p50 ${r.p50} p95 ${r.p95} ms | api/raw p95 ${cases[name].ratioP95}, api/sdk p50 ${cases[name].apiToSdkP50} p95 ${cases[name].apiToSdkP95} | server p50 ${JSON.stringify(cases[name].server)}`);
   }
 
   // Full reindex from PostgreSQL of 20,000 stored marks.

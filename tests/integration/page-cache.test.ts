@@ -24,7 +24,7 @@ const page = async (user: TestUser, headers: Record<string, string> = {}) => {
 const cachedVisit = (user: TestUser) => waitFor(async () => { const p = await page(user); return p.cache === "hit" ? p : null; }, 10_000, 50);
 
 const listenerPid = async () => {
-  const r = await db().execute<{ pid: number }>(sql`select pid from pg_stat_activity where application_name = 'benchreel-page-cache'`);
+  const r = await db().execute<{ pid: number }>(sql`select pid from pg_stat_activity where application_name = 'benchreel-listener'`);
   return r.rows.map((x) => x.pid);
 };
 
@@ -128,7 +128,7 @@ describe("read-page cache", () => {
   it("serves nothing from the cache while the listening connection is down, and resumes when it is back", async () => {
     await cachedVisit(reader);
     const [pid] = await listenerPid();
-    expect(pid, "the app keeps a LISTEN connection named benchreel-page-cache").toBeTruthy();
+    expect(pid, "the app keeps a LISTEN connection named benchreel-listener").toBeTruthy();
     await db().execute(sql`select pg_terminate_backend(${pid})`);
     await waitFor(async () => !(await listenerPid()).includes(pid), 3_000, 20);
     const renamed = `Author while deaf ${tag}`;

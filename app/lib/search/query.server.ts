@@ -136,9 +136,15 @@ export function searchRequest(user: SessionUser, p: SearchParams) {
   };
 }
 
-export async function runSearch(user: SessionUser, p: SearchParams): Promise<SearchResponse> {
+/** Where a search's time went, in milliseconds (sent as Server-Timing by /api/search). */
+export type SearchTimings = { service: number; blocks: number; shaping: number };
+
+export async function runSearch(user: SessionUser, p: SearchParams, timings?: SearchTimings): Promise<SearchResponse> {
+  const t0 = performance.now();
   const res = await searchIndex().search(p.q, searchRequest(user, p));
+  const t1 = performance.now();
   const blocksByRevision = await revisionBlocks(res.hits.filter((h) => h.kind === "procedure"));
+  const t2 = performance.now();
   const terms = queryTerms(p.q);
   const hits: SearchHit[] = res.hits.map((h) => {
     const f = (h._formatted ?? {}) as Partial<Record<string, unknown>>;
@@ -158,6 +164,7 @@ export async function runSearch(user: SessionUser, p: SearchParams): Promise<Sea
     return { id: h.id, kind: h.kind, title: String(f.title ?? h.title), snippet, url, tags: h.tags ?? [], state: h.state, t: h.t, context };
   });
   const total = res.estimatedTotalHits ?? hits.length;
+  if (timings) Object.assign(timings, { service: t1 - t0, blocks: t2 - t1, shaping: performance.now() - t2 });
   return {
     query: p.q,
     hits,
