@@ -94,3 +94,23 @@ test("write, submit, compare, publish, read", async ({ browser }) => {
     await expect(admin.getByText(`Published: ${title}`).first()).toBeVisible({ timeout: 2000 });
   }).toPass({ timeout: 30_000 });
 });
+
+test("a bore distortion block shows its readings as depth × angle, and a reader can change one", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  await page.goto("/procedures/torque-plate-honing-iron-lined-block");
+  const calc = page.locator("[data-calc-kind='distortion']");
+  const grid = calc.getByTestId("readings-grid");
+  await expect(grid.getByRole("columnheader")).toHaveText(["depth", "0°", "45°", "90°", "135°"]);
+  await expect(grid.getByRole("rowheader")).toHaveText(["10 mm", "50 mm"]);
+  await expect(grid.getByRole("cell")).toHaveCount(8);
+  const before = (await calc.getByTestId("calc-result").textContent()) ?? "";
+  await calc.getByRole("button", { name: "Try your numbers" }).click();
+  await calc.getByLabel("Bore diameter at 10 mm depth, 90°").fill("88.03");
+  await expect(calc).toContainText("Your numbers");
+  await expect(calc.getByTestId("calc-result")).not.toHaveText(before);
+  for (const width of [1280, 768]) {
+    await page.setViewportSize({ width, height: 1000 });
+    await calc.scrollIntoViewIfNeeded();
+    await calc.screenshot({ path: `${SHOTS}/distortion-block-${width}.png` });
+  }
+});

@@ -32,6 +32,9 @@ export function CalculatorWidget({
   const [values, setValues] = useState(preset);
   const [open, setOpen] = useState(false);
   const leaves = useMemo(() => numericLeaves(values), [values]);
+  // Bore readings read as a depth × angle grid, like the bore log, not as one row per number.
+  const grid = kind === "distortion" ? readingsGrid(values.readings) : null;
+  const listed = grid ? leaves.filter((l) => l.path[0] !== "readings") : leaves;
   const key = JSON.stringify(values);
   const changed = key !== JSON.stringify(preset);
   const [live, setLive] = useState<{ key: string; outcome: CalcOutcome } | null>(null);
@@ -69,7 +72,7 @@ export function CalculatorWidget({
             )}
             {method?.kind && <div className="flex justify-between gap-3"><dt className="text-graphite-soft">method</dt><dd>{method.kind === "nut-factor" ? "nut factor" : "friction (ISO 16047)"}</dd></div>}
             {typeof values.kind === "string" && <div className="flex justify-between gap-3"><dt className="text-graphite-soft">check</dt><dd>{String(values.kind)}</dd></div>}
-            {leaves.map((l) => (
+            {listed.map((l) => (
               <div key={l.path.join(".")} className="flex items-center justify-between gap-3">
                 <dt className="text-graphite-soft">
                   <label htmlFor={`${idp}-${l.path.join("-")}`}>{l.label}</label>
@@ -131,7 +134,119 @@ export function CalculatorWidget({
           )}
         </div>
       </div>
+      {grid && (
+        <div className="px-4 pb-4">
+          <ReadingsTable
+            grid={grid}
+            editing={interactive && open}
+            unitLabel={label}
+            idp={idp}
+            onChange={(i, v) => setValues((prev) => setAtPath(prev, ["readings", i, grid.field, "value"], v))}
+          />
+        </div>
+      )}
       <p className="border-t border-rule px-4 py-2 text-xs text-graphite-soft">{CALC_CAUTION}</p>
     </section>
+  );
+}
+
+type Quantity = { value: number; unit: string };
+type Grid = {
+  field: "diameter" | "radius";
+  unit: string;
+  depthUnit: string;
+  depths: (number | null)[];
+  angles: number[];
+  /** `${depth}|${angle}` → index in preset.readings */
+  cells: Map<string, number>;
+  values: number[];
+};
+
+const isQuantity = (q: unknown): q is Quantity => !!q && typeof (q as Quantity).value === "number" && typeof (q as Quantity).unit === "string";
+
+/** The preset's bore readings as depths × angles, or null when they do not form one. */
+export function readingsGrid(readings: unknown): Grid | null {
+  if (!Array.isArray(readings) || readings.length === 0) return null;
+  const field = readings.every((r) => isQuantity(r?.radius)) ? "radius" : readings.every((r) => isQuantity(r?.diameter)) ? "diameter" : null;
+  if (!field || !readings.every((r) => typeof r?.angleDeg === "number")) return null;
+  const depthOf = (r: { depth?: unknown }) => (isQuantity(r.depth) ? r.depth.value : null);
+  const depths = [...new Set(readings.map(depthOf))].sort((a, b) => (a ?? -Infinity) - (b ?? -Infinity));
+  const angles = [...new Set(readings.map((r) => r.angleDeg as number))].sort((a, b) => a - b);
+  const cells = new Map<string, number>();
+  readings.forEach((r, i) => {
+    const k = `${depthOf(r)}|${r.angleDeg}`;
+    if (!cells.has(k)) cells.set(k, i);
+  });
+  if (cells.size !== readings.length) return null; // two readings in one cell: the plain list shows them all
+  const withDepth = readings.find((r) => isQuantity(r.depth));
+  return {
+    field,
+    unit: readings[0][field].unit,
+    depthUnit: withDepth ? withDepth.depth.unit : "",
+    depths,
+    angles,
+    cells,
+    values: readings.map((r) => r[field].value as number),
+  };
+}
+
+function ReadingsTable({ grid, editing, unitLabel, idp, onChange }: {
+  grid: Grid;
+  editing: boolean;
+  unitLabel: (u?: string) => string;
+  idp: string;
+  onChange: (index: number, value: number) => void;
+}) {
+  const what = grid.field === "radius" ? "Radius" : "Bore diameter";
+  const depthText = (d: number | null) => (d == null ? "—" : `${tidyNumber(d)} ${unitLabel(grid.depthUnit)}`);
+  return (
+    <div className="mt-3">
+      <p className="text-xs text-graphite-soft">
+        {what} readings, {unitLabel(grid.unit)}: depth down the bore × gauge angle
+      </p>
+      <div className="mt-1 overflow-x-auto">
+        <table className="readings-grid num w-auto border-collapse text-sm" data-testid="readings-grid">
+          <thead>
+            <tr>
+              <th scope="col" className="px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">depth</th>
+              {grid.angles.map((a) => (
+                <th key={a} scope="col" className="px-1.5 py-0.5 text-right text-xs font-semibold text-graphite-soft">{tidyNumber(a)}°</th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {grid.depths.map((d) => (
+              <tr key={String(d)} className="border-t border-rule">
+                <th scope="row" className="whitespace-nowrap px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">{depthText(d)}</th>
+                {grid.angles.map((a) => {
+                  const i = grid.cells.get(`${d}|${a}`);
+                  if (i == null) return <td key={a} className="px-1.5 py-0.5 text-right text-graphite-soft">·</td>;
+                  return (
+                    <td key={a} className="px-1 py-0.5 text-right">
+                      {editing ? (
+                        <input
+                          id={`${idp}-readings-${i}`}
+                          aria-label={`${what} at ${depthText(d)} depth, ${tidyNumber(a)}°`}
+                          className="field num w-[5.5rem] px-1.5 py-0.5 text-right text-sm"
+                          type="number"
+                          step="any"
+                          defaultValue={tidyNumber(grid.values[i])}
+                          onChange={(e) => {
+                            const v = e.currentTarget.valueAsNumber;
+                            if (Number.isFinite(v)) onChange(i, v);
+                          }}
+                        />
+                      ) : (
+                        <span className="font-semibold">{tidyNumber(grid.values[i])}</span>
+                      )}
+                    </td>
+                  );
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </div>
   );
 }
