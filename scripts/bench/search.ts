@@ -102,6 +102,17 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     log(`${name.padEnd(18)} /api/search p50 ${api.p50} p95 ${api.p95} ms | SDK→fake p50 ${sdk.p50} p95 ${sdk.p95} ms | in-process p50 ${r.p50} p95 ${r.p95} ms | api/raw p95 ${cases[name].ratioP95}, api/sdk p50 ${cases[name].apiToSdkP50} p95 ${cases[name].apiToSdkP95} | server p50 ${JSON.stringify(cases[name].server)}`);
   }
 
+  // The app's floor in the same run: a signed-in GET /api/me (HTTP, routing, session, JSON).
+  const floorTimes: number[] = [];
+  for (let i = 0; i < 250; i++) {
+    const a = performance.now();
+    const res = await http("/api/me", { cookie: apprentice.cookie });
+    await res.arrayBuffer();
+    if (i >= 10) floorTimes.push(performance.now() - a);
+  }
+  const floor = stat(floorTimes);
+  log(`floor: signed-in GET /api/me p50 ${floor.p50} p95 ${floor.p95} ms`);
+
   // Full reindex from PostgreSQL of 20,000 stored marks.
   const [rec] = await db().insert(recordings).values({ title: "Benchmark recording", originalName: "bench.mp4", originalSize: 1, state: "ready", uploadedBy: apprentice.id, durationS: 3600 }).returning();
   const short = corpus.docs.filter((d) => d.kind !== "procedure");
@@ -125,6 +136,7 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     docs: N,
     indexingMs: Math.round(indexingMs),
     cases,
+    apiMeFloor: floor,
     reindex: { documents: rebuilt.documents, ms: Math.round(reindexMs) },
     targets: {
       "api p95 mid-frequency ≤ 25 ms": { value: worst(mid), ok: worst(mid) <= 25 },
