@@ -1,9 +1,9 @@
-import { and, inArray, isNull, lt, sql } from "drizzle-orm";
+import { and, isNull, lt, sql } from "drizzle-orm";
 import { z } from "zod";
-import { procedureRevisions, searchOutbox } from "~/db/schema";
+import { searchOutbox } from "~/db/schema";
 import { blockTexts, type JSONNode } from "~/lib/procedures/document";
 import type { SessionUser } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { db, pool } from "~/lib/db.server";
 import { can } from "~/lib/permissions";
 import { searchIndex, type SearchKind } from "./client.server";
 
@@ -103,10 +103,12 @@ async function revisionBlocks(hits: { id: string; date: number }[]): Promise<Map
     else missing.set(id, `${id}:${h.date}`);
   }
   if (missing.size) {
-    const rows = await db()
-      .select({ id: procedureRevisions.id, doc: procedureRevisions.doc })
-      .from(procedureRevisions)
-      .where(inArray(procedureRevisions.id, [...missing.keys()]));
+    // A named prepared statement: this runs on the search path whenever hits are new to the cache.
+    const { rows } = await pool().query<{ id: string; doc: unknown }>({
+      name: "benchreel-search-revision-docs",
+      text: "select id, doc from procedure_revisions where id = any($1::uuid[])",
+      values: [[...missing.keys()]],
+    });
     const found = new Map(rows.map((r) => [r.id, blockTexts(r.doc as JSONNode).map((b) => b.text)]));
     // A revision the index has but the database has not (about to be removed from the index)
     // is remembered as having no blocks, so it is not looked up on every search.
