@@ -2,10 +2,11 @@ import type { ReactNode } from "react";
 import { Link } from "react-router";
 import { STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
 import { ProcedureBody, type Widget } from "./ProcedureBody";
+import { formatDay } from "~/lib/dates";
 
 export type SpecRowView = { id: string; specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
 
-export const fmtDate = (d: Date | string | null | undefined) => (d ? new Date(d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" }) : "");
+export const fmtDate = formatDay;
 
 export function StateBadge({ state }: { state: RevisionState }) {
   const cls =

@@ -1,8 +1,8 @@
 import { Link } from "react-router";
 import { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/labels";
+import { formatCalendarDay } from "~/lib/dates";
 
-export const fmtDay = (d: string | Date | null | undefined) =>
-  d ? new Date(typeof d === "string" && d.length === 10 ? `${d}T12:00:00Z` : d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }) : "";
+export const fmtDay = formatCalendarDay;
 
 /** A number as typed in the shop: no float noise (88.00600000000001 → 88.006). */
 export function fmtNum(n: number | null | undefined, digits = 6): string {

@@ -7,6 +7,7 @@ import { requirePermission } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { readFakeMailbox } from "~/lib/fake-mailbox.server";
+import { formatDayTime } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Outbox · Benchreel" }];
 
@@ -25,7 +26,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-const when = (d: string | Date) => new Date(d).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
+const when = formatDayTime;
 
 export default function Outbox({ loaderData }: Route.ComponentProps) {
   const pending = loaderData.queue.filter((q) => !q.sentAt);

@@ -11,6 +11,7 @@ import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { changeRole, invite, PeopleError, setActive } from "~/lib/people.server";
 import { ROLE_LABELS, ROLES } from "~/lib/permissions";
+import { formatDay } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "People · Benchreel" }];
 
@@ -69,7 +70,7 @@ export async function action({ request }: Route.ActionArgs) {
   return data({ intent: "unknown", errors: { form: "Unknown action." } as Record<string, string>, values: {} as Record<string, string> }, { status: 400 });
 }
 
-const fmt = (d: Date | string) => new Date(d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
+const fmt = formatDay;
 
 export default function People({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";

@@ -6,6 +6,7 @@ import { can } from "~/lib/permissions";
 import { STATE_LABELS } from "~/lib/procedures/state";
 import { AREA_LABELS, AREAS, type Area } from "~/lib/procedures/areas";
 import { allTags, listPublished, openRevisionsFor } from "~/lib/procedures/workflow.server";
+import { formatDay } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Procedures · Benchreel" }];
 
@@ -20,7 +21,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { rows, tags, tag, open, canDraft: can(user.role, "procedure:draft") };
 }
 
-const fmt = (d: Date | string | null) => (d ? new Date(d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" }) : "");
+const fmt = formatDay;
 
 export default function Procedures({ loaderData }: Route.ComponentProps) {
   const { rows, tags, tag, open, canDraft } = loaderData;

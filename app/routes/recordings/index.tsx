@@ -7,6 +7,7 @@ import { requirePermission } from "~/lib/auth.server";
 import { can } from "~/lib/permissions";
 import { libraryFacets, listRecordings } from "~/lib/recordings/library.server";
 import { formatDuration } from "~/lib/recordings/rules";
+import { formatDay } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Recordings · Benchreel" }];
 
@@ -22,7 +23,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { rows, facets, filter, canUpload: can(user.role, "recording:upload") };
 }
 
-const fmtDate = (d: Date | string) => new Date(d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
+const fmtDate = formatDay;
 
 export default function Library({ loaderData }: Route.ComponentProps) {
   const { rows, facets, filter, canUpload } = loaderData;

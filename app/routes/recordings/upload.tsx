@@ -10,6 +10,7 @@ import { env } from "~/lib/env.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { discardUpload, receivedBytes } from "~/lib/recordings/tus.server";
 import { formatBytes } from "~/lib/recordings/rules";
+import { formatDayMonthTime } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Recordings · Benchreel" }];
 
@@ -36,7 +37,7 @@ export async function action({ request }: Route.ActionArgs) {
   return redirectWithFlash("/recordings/upload", { kind: "ok", message: `Discarded the partial upload of ${row.fileName}.` });
 }
 
-const fmt = (d: Date | string) => new Date(d).toLocaleString("en-GB", { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
+const fmt = formatDayMonthTime;
 
 export default function UploadPage({ loaderData }: Route.ComponentProps) {
   const discard = useFetcher();

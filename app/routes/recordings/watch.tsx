@@ -24,6 +24,7 @@ import { getRecording, listMarks, listReadings, procedureChoices } from "~/lib/r
 import { retryRecording } from "~/lib/recordings/processing.server";
 import { formatBytes, formatDuration, formatTime, splitTags } from "~/lib/recordings/rules";
 import { recordingDir } from "~/lib/recordings/storage.server";
+import { formatDay } from "~/lib/dates";
 
 const Player = lazy(() => import("~/components/recordings/Player.client"));
 
@@ -94,7 +95,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   return data({ intent: "unknown", errors: { form: "Unknown action." } as Record<string, string>, values: {} as Record<string, string> }, { status: 400 });
 }
 
-const fmtDate = (d: Date | string) => new Date(d).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
+const fmtDate = formatDay;
 
 function isTyping(el: EventTarget | null) {
   const e = el as HTMLElement | null;
