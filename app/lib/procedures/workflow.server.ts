@@ -517,6 +517,16 @@ export async function openRevisionOf(procedureId: string) {
   return openRevision(db(), procedureId);
 }
 
+/** The open revision's number, state and author only (the read page shows no more of it; its document can be large). */
+export async function openRevisionSummary(procedureId: string) {
+  const [r] = await db()
+    .select({ id: procedureRevisions.id, number: procedureRevisions.number, state: procedureRevisions.state, authorId: procedureRevisions.authorId })
+    .from(procedureRevisions)
+    .where(and(eq(procedureRevisions.procedureId, procedureId), inArray(procedureRevisions.state, ["draft", "in_review"])))
+    .limit(1);
+  return r ?? null;
+}
+
 export async function listPublished(tag?: string | null) {
   return db()
     .select({

@@ -16,6 +16,7 @@ import {
   linkedFrom,
   marksReferencing,
   openRevisionOf,
+  openRevisionSummary,
   ProcedureError,
   revisionById,
   setWatching,
@@ -33,7 +34,11 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.procedu
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const procedure = await procedureOr404(request, params.slug);
-  const open = await openRevisionOf(procedure.id);
+  // The open revision and the published one are independent look-ups: ask for both at once.
+  const [open, rev] = await Promise.all([
+    openRevisionSummary(procedure.id),
+    procedure.publishedRevisionId ? revisionById(procedure.publishedRevisionId) : Promise.resolve(null),
+  ]);
   const openVisible = open && canOnOwned(user, "procedure:view-drafts", open.authorId) ? { number: open.number, state: open.state, authorId: open.authorId } : null;
   const flags = {
     canWatch: can(user.role, "procedure:watch"),
@@ -41,18 +46,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     canEditOpen: open ? canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft" : false,
     canReview: can(user.role, "procedure:review"),
   };
-  if (!procedure.publishedRevisionId) {
+  if (!procedure.publishedRevisionId || !rev) {
     if (!openVisible) throw data({ message: "This procedure has not been published yet." }, { status: 404 });
     return { procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title }, published: null, open: openVisible, flags, watching: false } as const;
   }
-  const rev = (await revisionById(procedure.publishedRevisionId))!;
-  const [body, specs, from, marks, watching, author] = await Promise.all([
+  const [body, specs, from, marks, watching, author, testRecords] = await Promise.all([
     renderBody(rev.doc as JSONNode),
     specsOf(rev.id),
     linkedFrom(procedure.id),
     marksReferencing(procedure.id),
     isWatching(user.id, procedure.id),
     rev.authorId ? db().select({ name: users.name }).from(users).where(eq(users.id, rev.authorId)) : Promise.resolve([]),
+    testRecordsForProcedure(procedure.id),
   ]);
   return {
     procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title },
@@ -60,7 +65,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     open: openVisible,
     flags,
     watching,
-    testRecords: await testRecordsForProcedure(procedure.id),
+    testRecords,
     canFileTest: can(user.role, "testrecord:create"),
   } as const;
 }
