@@ -5,8 +5,8 @@
 //
 // It does what `react-router-serve` did (compression, fingerprinted assets cached for a year,
 // a request log line), with one difference: page requests never touch the disk. The few
-// files at the top of build/client (favicon…) are listed once at start-up, so a request for
-// a page goes straight to React Router instead of through two failed file lookups.
+// files of build/client outside assets/ (favicon…) are listed once at start-up, so a request
+// for a page goes straight to React Router instead of through two failed file lookups.
 import fs from "node:fs";
 import path from "node:path";
 import url from "node:url";
@@ -34,12 +34,24 @@ app.use(compression({ filter: (req, res) => !(Number(res.getHeader("Content-Leng
 app.use(`${build.publicPath}assets`, express.static(path.join(clientDir, "assets"), { immutable: true, maxAge: "1y", fallthrough: false }));
 
 const topLevelFiles = new Set(
-  fs.readdirSync(clientDir, { withFileTypes: true }).filter((d) => d.isFile()).map((d) => `${build.publicPath}${d.name}`),
+  fs
+    .readdirSync(clientDir, { recursive: true, withFileTypes: true })
+    .filter((d) => d.isFile())
+    .map((d) => path.relative(clientDir, path.join(d.parentPath ?? d.path, d.name)).split(path.sep).join("/"))
+    .filter((rel) => !rel.startsWith("assets/"))
+    .map((rel) => `${build.publicPath}${rel}`),
 );
 const topLevel = express.static(clientDir, { maxAge: "1h", index: false });
 app.use((req, res, next) => (topLevelFiles.has(req.path) ? topLevel(req, res, next) : next()));
 
 app.use(morgan("tiny"));
+// React Router hands route middleware the URL with a data request's ".data" taken off; the
+// read-page cache (app/lib/page-cache.server.ts) must tell a page from its data, so the URL as
+// requested travels in a header of ours, always overwritten here (a client cannot set it).
+app.use((req, _res, next) => {
+  req.headers["x-benchreel-request-url"] = req.originalUrl;
+  next();
+});
 app.use(createRequestHandler({ build, mode: process.env.NODE_ENV ?? "production" }));
 
 const port = Number(process.env.PORT ?? 3000);

@@ -75,17 +75,21 @@ async function throughPageCache(request: Request, next: () => Promise<Response>)
     try {
       return await next();
     } finally {
-      // This process's own writes take effect here at once; other processes hear the notification.
-      forgetValidatedSessions();
+      // This process's own writes take effect here at once; other processes hear the
+      // notification. People and sessions change only through pages (sign-in and out,
+      // account, admin, invitations, resets), never through /api.
+      if (!new URL(request.url).pathname.startsWith("/api/")) forgetValidatedSessions();
       const user = await getUser(request).catch(() => null);
       if (user) forgetPerson(user.id);
     }
   }
   if (!isCacheablePage(request)) return next();
+  // The generation is taken before the session is read: the person's name and role on the page
+  // come from that read, so a change landing after it must keep this render out of the cache.
+  const started = beginRender();
   const user = await getUser(request).catch(() => null);
   if (!user) return next();
   const hit = cachedPage(user.id, request);
   if (hit) return hit;
-  const started = beginRender();
   return rememberPage(user.id, request, started, await next());
 }

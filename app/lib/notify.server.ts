@@ -46,7 +46,7 @@ export function listening(): boolean {
 }
 
 async function connect() {
-  const c = new pg.Client({ connectionString: env().DATABASE_URL, application_name: "benchreel-listener" });
+  const c = new pg.Client({ connectionString: env().DATABASE_URL, application_name: "benchreel-listener", keepAlive: true });
   const down = () => {
     if (client !== c) return;
     client = null;
@@ -67,9 +67,30 @@ async function connect() {
     reset(); // anything may have changed while nobody listened
     up = true;
     retryMs = 250;
+    heartbeat(c, down);
   } catch {
     down();
   } finally {
     starting = false;
   }
+}
+
+/**
+ * A connection can go quiet without closing (a half-open socket, a network partition): ask it
+ * something every 15 s and count it down when the answer takes over 5 s. The caches also expire
+ * their entries (page-cache.server.ts), which bounds the damage in between.
+ */
+function heartbeat(c: pg.Client, down: () => void) {
+  const timer = setInterval(() => {
+    if (client !== c) return clearInterval(timer);
+    const late = setTimeout(down, 5_000);
+    c.query("select 1").then(
+      () => clearTimeout(late),
+      () => {
+        clearTimeout(late);
+        down();
+      },
+    );
+  }, 15_000);
+  timer.unref();
 }

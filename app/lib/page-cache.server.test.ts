@@ -35,7 +35,7 @@ describe("PageStore", () => {
   });
 
   it("evicts the least recently used entry past its entry and byte limits", () => {
-    const s = new PageStore({ maxEntries: 2, maxBytes: 1000 });
+    const s = new PageStore({ maxEntries: 2, maxBytes: 1000, maxAgeMs: 60_000 });
     s.set("a", s.generation, entry("1"));
     s.set("b", s.generation, entry("2"));
     s.get("a"); // a is now the most recent
@@ -44,7 +44,7 @@ describe("PageStore", () => {
     expect(text(s.get("a"))).toBe("1");
     expect(text(s.get("c"))).toBe("3");
 
-    const bytes = new PageStore({ maxEntries: 100, maxBytes: 1000 });
+    const bytes = new PageStore({ maxEntries: 100, maxBytes: 1000, maxAgeMs: 60_000 });
     for (let i = 0; i < 10; i++) bytes.set(`k${i}`, bytes.generation, entry("x".repeat(200)));
     expect(bytes.byteSize).toBeLessThanOrEqual(1000);
     expect(bytes.size).toBe(5);
@@ -53,11 +53,25 @@ describe("PageStore", () => {
   });
 
   it("keeps the byte count right when a key is stored again, and refuses a body over a quarter of the budget", () => {
-    const s = new PageStore({ maxEntries: 10, maxBytes: 1000 });
+    const s = new PageStore({ maxEntries: 10, maxBytes: 1000, maxAgeMs: 60_000 });
     s.set("a", s.generation, entry("x".repeat(100)));
     s.set("a", s.generation, entry("x".repeat(50)));
     expect(s.byteSize).toBe(50);
     expect(s.set("big", s.generation, entry("x".repeat(300)))).toBe(false);
     expect(s.size).toBe(1);
+  });
+});
+
+describe("PageStore expiry", () => {
+  it("renders anew once an entry is older than the maximum age (a change may have gone unheard)", () => {
+    let now = 1_000;
+    const s = new PageStore({ maxEntries: 10, maxBytes: 1000, maxAgeMs: 60_000 }, () => now);
+    s.set("a", s.generation, entry("A"));
+    now += 59_000;
+    expect(text(s.get("a"))).toBe("A");
+    now += 2_000;
+    expect(s.get("a")).toBeUndefined();
+    expect(s.size).toBe(0);
+    expect(s.byteSize).toBe(0);
   });
 });

@@ -24,16 +24,20 @@
 import { CONTENT_CHANNEL, listening, onListenerReset, onNotify } from "./notify.server";
 
 type Entry = { body: Uint8Array<ArrayBuffer>; status: number; headers: [string, string][] };
+type Stored = Entry & { at: number };
 
-export type CacheLimits = { maxEntries: number; maxBytes: number };
+export type CacheLimits = { maxEntries: number; maxBytes: number; maxAgeMs: number };
 
 /** The store itself: LRU by entries and bytes, and a generation that every invalidation moves on. */
 export class PageStore {
-  private entries = new Map<string, Entry>(); // insertion order = least recently used first
+  private entries = new Map<string, Stored>(); // insertion order = least recently used first
   private bytes = 0;
   generation = 0;
 
-  constructor(private readonly limits: CacheLimits = { maxEntries: 500, maxBytes: 64 * 1024 * 1024 }) {}
+  constructor(
+    private readonly limits: CacheLimits = { maxEntries: 500, maxBytes: 64 * 1024 * 1024, maxAgeMs: 60_000 },
+    private readonly now: () => number = Date.now,
+  ) {}
 
   get size() {
     return this.entries.size;
@@ -63,7 +67,12 @@ export class PageStore {
   get(key: string): Entry | undefined {
     const e = this.entries.get(key);
     if (!e) return undefined;
-    this.entries.delete(key); // refresh its place
+    this.entries.delete(key);
+    if (this.now() - e.at > this.limits.maxAgeMs) {
+      // Old enough that a change may have gone unheard (a connection that went quiet): render anew.
+      this.bytes -= e.body.byteLength;
+      return undefined;
+    }
     this.entries.set(key, e);
     return e;
   }
@@ -77,10 +86,10 @@ export class PageStore {
       this.entries.delete(key);
       this.bytes -= old.body.byteLength;
     }
-    this.entries.set(key, entry);
+    this.entries.set(key, { ...entry, at: this.now() });
     this.bytes += entry.body.byteLength;
     while (this.entries.size > this.limits.maxEntries || this.bytes > this.limits.maxBytes) {
-      const [oldestKey, oldest] = this.entries.entries().next().value as [string, Entry];
+      const [oldestKey, oldest] = this.entries.entries().next().value as [string, Stored];
       this.entries.delete(oldestKey);
       this.bytes -= oldest.body.byteLength;
     }
@@ -99,18 +108,24 @@ export function enabled(): boolean {
   return process.env.PAGE_CACHE !== "off";
 }
 
+/**
+ * The URL as the browser asked for it, set by server.js. React Router gives middleware a data
+ * request's URL without its ".data", so without this a page and its data would share a key.
+ * Under another server (the dev server) the header is missing and nothing is cached.
+ */
+const requestedUrl = (request: Request) => request.headers.get("x-benchreel-request-url");
+
 export function isCacheablePage(request: Request): boolean {
   if (request.method !== "GET" || !enabled()) return false;
-  const url = new URL(request.url);
-  if (!CACHED_PAGES.some((re) => re.test(url.pathname.replace(/\.data$/, "")))) return false;
+  const raw = requestedUrl(request);
+  if (!raw) return false;
+  const pathname = new URL(raw, "http://x").pathname;
+  if (!CACHED_PAGES.some((re) => re.test(pathname.replace(/\.data$/, "")))) return false;
   if (request.headers.get("cookie")?.includes("br_flash=")) return false;
   return true;
 }
 
-const keyOf = (userId: string, request: Request) => {
-  const url = new URL(request.url);
-  return `${userId}\n${url.pathname}${url.search}`;
-};
+const keyOf = (userId: string, request: Request) => `${userId}\n${requestedUrl(request)}`;
 
 /** A stored response for this person and URL, or null (the header says which). */
 export function cachedPage(userId: string, request: Request): Response | null {
