@@ -3,7 +3,7 @@
 import { randomUUID } from "node:crypto";
 import { eq, isNull, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
-import { marks, procedureRevisions, procedures, procedureSpecs, recordings, searchOutbox } from "~/db/schema";
+import { marks, procedureRevisions, procedures, procedureSpecs, recordings, searchOutbox, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { searchIndex } from "~/lib/search/client.server";
 import { HL_PRE } from "~/lib/search/highlight";
@@ -147,6 +147,22 @@ describe("search", () => {
     // Idempotent: again, same result.
     await reindexAll();
     expect(await dump()).toEqual(incremental);
+  });
+
+  it("re-indexes what shows a person's name when they are renamed (uploader, marker, author)", async () => {
+    const before = word();
+    const after = word();
+    const u = await createUser("builder", { name: `Pat ${before}` });
+    const [rec] = await db().insert(recordings).values({ title: `Rename check ${word()}`, originalName: "r.mp4", originalSize: 1, state: "ready", uploadedBy: u.id, durationS: 60 }).returning();
+    await db().insert(marks).values({ recordingId: rec.id, tStart: 12, text: `Gauge zeroed ${word()}`, createdBy: u.id });
+    await makeProcedure({ state: "published", authorId: u.id, title: `Renamed author ${word()}`, body: "Torque in three passes." });
+    await indexed();
+    const kinds = async (q: string) => new Set((await search(u.cookie, q)).body.hits.map((h) => h.kind));
+    expect(await kinds(before)).toEqual(new Set(["recording", "mark", "procedure"]));
+    await db().update(users).set({ name: `Pat ${after}` }).where(eq(users.id, u.id));
+    await indexed();
+    expect(await kinds(after)).toEqual(new Set(["recording", "mark", "procedure"]));
+    expect((await search(u.cookie, before)).body.hits).toEqual([]);
   });
 
   it("refuses bad parameters with 422 and a path", async () => {

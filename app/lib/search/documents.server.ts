@@ -193,6 +193,8 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
       const docs = await readingDocs({ readingId: entityId });
       return { upserts: docs, deleteIds: docs.length ? [] : [`reading-${entityId}`], deleteGroups: [] };
     }
+    case "person":
+      return personDocs(entityId);
     case "test_record": {
       const docs = await testRecordDocs(entityId);
       return { upserts: docs, deleteIds: docs.length ? [] : [`test_record-${entityId}`], deleteGroups: [] };
@@ -200,6 +202,30 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
     default:
       return empty();
   }
+}
+
+/**
+ * A person was renamed: every document that shows their name (as author, uploader, or the one
+ * who marked, read or filed) is rebuilt: their procedures' revisions, the recordings they
+ * uploaded or marked or read in (each with its marks and readings), the test records they filed.
+ */
+async function personDocs(userId: string): Promise<IndexChange> {
+  const change = empty();
+  const merge = (c: IndexChange) => {
+    change.upserts.push(...c.upserts);
+    change.deleteIds.push(...c.deleteIds);
+    change.deleteGroups.push(...c.deleteGroups);
+  };
+  const procs = await db().selectDistinct({ id: procedureRevisions.procedureId }).from(procedureRevisions).where(eq(procedureRevisions.authorId, userId));
+  for (const p of procs) merge(await procedureDocs(p.id));
+  const recIds = new Set<string>();
+  for (const r of await db().select({ id: recordings.id }).from(recordings).where(eq(recordings.uploadedBy, userId))) recIds.add(r.id);
+  for (const r of await db().selectDistinct({ id: marks.recordingId }).from(marks).where(eq(marks.createdBy, userId))) recIds.add(r.id);
+  for (const r of await db().selectDistinct({ id: readings.recordingId }).from(readings).where(eq(readings.createdBy, userId))) recIds.add(r.id);
+  for (const id of recIds) merge(await recordingDocs(id));
+  const filed = await db().select({ id: testRecords.id }).from(testRecords).where(eq(testRecords.createdBy, userId));
+  for (const t of filed) change.upserts.push(...(await testRecordDocs(t.id)));
+  return change;
 }
 
 async function testRecordDocs(id?: string): Promise<SearchDoc[]> {
