@@ -5,7 +5,9 @@ import { eq, isNull, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { marks, procedureRevisions, procedures, procedureSpecs, recordings, searchOutbox, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
-import { searchIndex } from "~/lib/search/client.server";
+import { Meilisearch, MeilisearchApiError, MeilisearchRequestError } from "meilisearch";
+import { env } from "~/lib/env.server";
+import { INDEX_UID, searchIndex } from "~/lib/search/client.server";
 import { HL_PRE } from "~/lib/search/highlight";
 import { reindexAll } from "~/lib/search/indexer.server";
 import { createUser, http, waitFor } from "../support/app";
@@ -163,6 +165,24 @@ describe("search", () => {
     await indexed();
     expect(await kinds(after)).toEqual(new Set(["recording", "mark", "procedure"]));
     expect((await search(u.cookie, before)).body.hits).toEqual([]);
+  });
+
+  it("the app's transport to the search service gives the SDK's own results and errors", async () => {
+    const plain = new Meilisearch({ host: env().MEILI_HOST!, apiKey: env().MEILI_API_KEY }).index(INDEX_UID); // the SDK's fetch
+    const q = { filter: "kind = mark", limit: 5, facets: ["kind"] };
+    const ours = await searchIndex().search("torque", q);
+    const theirs = await plain.search("torque", q);
+    expect({ ...ours, processingTimeMs: 0 }).toEqual({ ...theirs, processingTimeMs: 0 });
+    // A refusal by the service: the SDK's request error, carrying the service's error object.
+    const err = await searchIndex().search("x", { filter: "kind = (" }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(MeilisearchRequestError);
+    const cause = (err as MeilisearchRequestError).cause as MeilisearchApiError;
+    expect(cause).toBeInstanceOf(MeilisearchApiError);
+    expect(cause.response.status).toBe(400);
+    expect(cause.cause?.code).toBe("invalid_search_filter");
+    // Nobody listening: a request error too (the header box then shows its 503 message).
+    const down = new Meilisearch({ host: "http://127.0.0.1:9", httpClient: (await import("~/lib/search/client.server")).nodeHttpClient });
+    await expect(down.index(INDEX_UID).search("x")).rejects.toBeInstanceOf(MeilisearchRequestError);
   });
 
   it("refuses bad parameters with 422 and a path", async () => {
