@@ -5,7 +5,7 @@ import { randomUUID } from "node:crypto";
 import { eq, sql } from "drizzle-orm";
 import pg from "pg";
 import { beforeAll, describe, expect, it } from "vitest";
-import { recordings, users } from "~/db/schema";
+import { marks, readings, recordings, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { createProcedure, publishRevision, saveDraft, startDraftFrom, submitRevision } from "~/lib/procedures/workflow.server";
@@ -166,6 +166,20 @@ describe("read-page cache", () => {
     expect(quiet).not.toContain("recordings");
     const renamed = await notificationsDuring(() => db().update(recordings).set({ title: `Cache rec renamed ${tag}` }).where(eq(recordings.id, rec.id)));
     expect(renamed).toContain("recordings");
+  });
+
+  it("is emptied by marks that point at a procedure, not by other marks or readings", async () => {
+    const [rec] = await db().insert(recordings).values({ title: `Marks rec ${tag}`, originalName: "m.mp4", originalSize: 1, state: "ready", uploadedBy: author.id }).returning();
+    const procedureId = (await db().execute<{ id: string }>(sql`select id from procedures where slug = ${path.split("/").pop()}`)).rows[0].id;
+    const quiet = await notificationsDuring(async () => {
+      await db().insert(marks).values({ recordingId: rec.id, tStart: 3, text: "Plain mark", createdBy: author.id });
+      await db().insert(readings).values({ recordingId: rec.id, quantity: "torque", valueSi: 110, valueEntered: 110, unitEntered: "N.m", t: 3, createdBy: author.id });
+    });
+    expect(quiet.filter((t) => t === "marks" || t === "readings")).toEqual([]);
+    const linked = await notificationsDuring(() => db().insert(marks).values({ recordingId: rec.id, tStart: 9, text: "Points at the page", procedureId, createdBy: author.id }));
+    expect(linked).toContain("marks");
+    const seen = await waitFor(async () => { const p = await page(reader); return p.html.includes("Points at the page") ? p : null; }, 3_000, 20);
+    expect(seen.cache).not.toBe("hit");
   });
 
   it("serves nothing from the cache while the listening connection is down, and resumes when it is back", async () => {
