@@ -7,7 +7,7 @@ import { marks, procedureRevisions, procedures, procedureSpecs, recordings, sear
 import { db } from "~/lib/db.server";
 import { Meilisearch, MeilisearchApiError, MeilisearchRequestError } from "meilisearch";
 import { env } from "~/lib/env.server";
-import { INDEX_UID, searchIndex } from "~/lib/search/client.server";
+import { INDEX_UID, searchErrorMessage, searchIndex } from "~/lib/search/client.server";
 import { HL_PRE } from "~/lib/search/highlight";
 import { reindexAll } from "~/lib/search/indexer.server";
 import { createUser, http, waitFor } from "../support/app";
@@ -167,7 +167,7 @@ describe("search", () => {
     expect((await search(u.cookie, before)).body.hits).toEqual([]);
   });
 
-  it("the app's transport to the search service gives the SDK's own results and errors", async () => {
+  it("the app's transport to the search service gives the SDK's results, and the service's errors", async () => {
     const plain = new Meilisearch({ host: env().MEILI_HOST!, apiKey: env().MEILI_API_KEY }).index(INDEX_UID); // the SDK's fetch
     const q = { filter: "kind = mark", limit: 5, facets: ["kind"] };
     const ours = await searchIndex().search("torque", q);
@@ -180,6 +180,9 @@ describe("search", () => {
     expect(cause).toBeInstanceOf(MeilisearchApiError);
     expect(cause.response.status).toBe(400);
     expect(cause.cause?.code).toBe("invalid_search_filter");
+    const theirErr = (await plain.search("x", { filter: "kind = (" }).catch((e: unknown) => e)) as MeilisearchApiError;
+    expect(theirErr).toBeInstanceOf(MeilisearchApiError);
+    expect(searchErrorMessage(err)).toBe(`${theirErr.message} (invalid_search_filter)`); // what logs and the outbox record
     // Nobody listening: a request error too (the header box then shows its 503 message).
     const down = new Meilisearch({ host: "http://127.0.0.1:9", httpClient: (await import("~/lib/search/client.server")).nodeHttpClient });
     await expect(down.index(INDEX_UID).search("x")).rejects.toBeInstanceOf(MeilisearchRequestError);

@@ -208,14 +208,12 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
  * A person was renamed: every document that shows their name (as author, uploader, or the one
  * who marked, read or filed) is rebuilt: their procedures' revisions, the recordings they
  * uploaded or marked or read in (each with its marks and readings), the test records they filed.
+ * Only upserts: a rename changes no document's id or visibility, and deleting the groups first
+ * would leave a gap in search until the new documents are in.
  */
 async function personDocs(userId: string): Promise<IndexChange> {
   const change = empty();
-  const merge = (c: IndexChange) => {
-    change.upserts.push(...c.upserts);
-    change.deleteIds.push(...c.deleteIds);
-    change.deleteGroups.push(...c.deleteGroups);
-  };
+  const merge = (c: IndexChange) => change.upserts.push(...c.upserts);
   const procs = await db().selectDistinct({ id: procedureRevisions.procedureId }).from(procedureRevisions).where(eq(procedureRevisions.authorId, userId));
   for (const p of procs) merge(await procedureDocs(p.id));
   const recIds = new Set<string>();

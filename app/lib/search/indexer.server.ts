@@ -1,7 +1,7 @@
 import { and, inArray, isNull, lte, sql } from "drizzle-orm";
 import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
-import { ensureIndex, searchIndex, type SearchDoc } from "./client.server";
+import { ensureIndex, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
 import { allDocuments, buildChange } from "./documents.server";
 
 const LOCK_KEY = 74_210_001; // one drainer at a time across workers
@@ -74,7 +74,7 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
         return { done: ids.length, failed: 0 };
       } catch (err) {
         indexReady = false;
-        const message = String((err as Error).message ?? err).slice(0, 500);
+        const message = searchErrorMessage(err).slice(0, 500);
         await db()
           .update(searchOutbox)
           .set({

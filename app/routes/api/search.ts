@@ -1,5 +1,6 @@
 import type { Route } from "./+types/search";
 import { requirePermission } from "~/lib/auth.server";
+import { searchErrorMessage } from "~/lib/search/client.server";
 import { indexIsBehind, runSearch, searchParamsSchema, type SearchTimings } from "~/lib/search/query.server";
 
 /** GET /api/search?q=&type=&tag=&state=&uploader=&page= — what the header box and search page use. */
@@ -23,7 +24,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     const timing = [`session;dur=${(signedIn - started).toFixed(2)}`, `search;dur=${t.service.toFixed(2)}`, `blocks;dur=${t.blocks.toFixed(2)}`, `shape;dur=${t.shaping.toFixed(2)}`, `loader;dur=${(performance.now() - started).toFixed(2)}`].join(", ");
     return new Response(body, { headers: { "Content-Type": "application/json", "Content-Length": String(Buffer.byteLength(body)), "Cache-Control": "private, no-store", "Server-Timing": timing } });
   } catch (err) {
-    console.error("[search]", (err as Error).message);
+    console.error("[search]", searchErrorMessage(err));
     return Response.json(
       { error: "search unavailable", reason: "The search service is not answering. Your changes are saved and will be searchable when it is back.", behind: true },
       { status: 503 },
