@@ -105,7 +105,7 @@ test("a bore distortion block shows its readings as depth × angle, and a reader
   await expect(grid.getByRole("cell")).toHaveCount(8);
   const before = (await calc.getByTestId("calc-result").textContent()) ?? "";
   await calc.getByRole("button", { name: "Try your numbers" }).click();
-  await calc.getByLabel("Bore diameter at 10 mm depth, 90°").fill("88.03");
+  await calc.getByLabel("Bore diameter, mm, at 10 mm depth, 90°").fill("88.03");
   await expect(calc).toContainText("Your numbers");
   await expect(calc.getByTestId("calc-result")).not.toHaveText(before);
   for (const width of [1280, 768]) {

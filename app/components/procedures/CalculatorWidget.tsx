@@ -33,7 +33,7 @@ export function CalculatorWidget({
   const [open, setOpen] = useState(false);
   const leaves = useMemo(() => numericLeaves(values), [values]);
   // Bore readings read as a depth × angle grid, like the bore log, not as one row per number.
-  const grid = kind === "distortion" ? readingsGrid(values.readings) : null;
+  const grid = kind === "distortion" ? readingsGrid(values.readings, values.mode === "radial" ? "radius" : "diameter") : null;
   const listed = grid ? leaves.filter((l) => l.path[0] !== "readings") : leaves;
   const key = JSON.stringify(values);
   const changed = key !== JSON.stringify(preset);
@@ -164,11 +164,16 @@ type Grid = {
 
 const isQuantity = (q: unknown): q is Quantity => !!q && typeof (q as Quantity).value === "number" && typeof (q as Quantity).unit === "string";
 
-/** The preset's bore readings as depths × angles, or null when they do not form one. */
-export function readingsGrid(readings: unknown): Grid | null {
+/**
+ * The preset's bore readings as depths × angles, or null when they do not form one (then the
+ * plain list shows every number): `field` is the value the calculation uses (its mode), and
+ * every reading must give it, an angle, and the same units as the others.
+ */
+export function readingsGrid(readings: unknown, field: "diameter" | "radius"): Grid | null {
   if (!Array.isArray(readings) || readings.length === 0) return null;
-  const field = readings.every((r) => isQuantity(r?.radius)) ? "radius" : readings.every((r) => isQuantity(r?.diameter)) ? "diameter" : null;
-  if (!field || !readings.every((r) => typeof r?.angleDeg === "number")) return null;
+  if (!readings.every((r) => isQuantity(r?.[field]) && typeof r?.angleDeg === "number")) return null;
+  if (new Set(readings.map((r) => r[field].unit)).size !== 1) return null;
+  if (new Set(readings.map((r) => (isQuantity(r.depth) ? r.depth.unit : ""))).size !== 1) return null;
   const depthOf = (r: { depth?: unknown }) => (isQuantity(r.depth) ? r.depth.value : null);
   const depths = [...new Set(readings.map(depthOf))].sort((a, b) => (a ?? -Infinity) - (b ?? -Infinity));
   const angles = [...new Set(readings.map((r) => r.angleDeg as number))].sort((a, b) => a - b);
@@ -199,13 +204,15 @@ function ReadingsTable({ grid, editing, unitLabel, idp, onChange }: {
 }) {
   const what = grid.field === "radius" ? "Radius" : "Bore diameter";
   const depthText = (d: number | null) => (d == null ? "—" : `${tidyNumber(d)} ${unitLabel(grid.depthUnit)}`);
+  const depthWords = (d: number | null) => (d == null ? "no depth given" : `${depthText(d)} depth`);
+  const captionId = `${idp}-readings-caption`;
   return (
     <div className="mt-3">
-      <p className="text-xs text-graphite-soft">
+      <p id={captionId} className="text-xs text-graphite-soft">
         {what} readings, {unitLabel(grid.unit)}: depth down the bore × gauge angle
       </p>
       <div className="mt-1 overflow-x-auto">
-        <table className="readings-grid num w-auto border-collapse text-sm" data-testid="readings-grid">
+        <table className="readings-grid num w-auto border-collapse text-sm" data-testid="readings-grid" aria-describedby={captionId}>
           <thead>
             <tr>
               <th scope="col" className="px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">depth</th>
@@ -220,13 +227,19 @@ function ReadingsTable({ grid, editing, unitLabel, idp, onChange }: {
                 <th scope="row" className="whitespace-nowrap px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">{depthText(d)}</th>
                 {grid.angles.map((a) => {
                   const i = grid.cells.get(`${d}|${a}`);
-                  if (i == null) return <td key={a} className="px-1.5 py-0.5 text-right text-graphite-soft">·</td>;
+                  if (i == null)
+                    return (
+                      <td key={a} className="px-1.5 py-0.5 text-right text-graphite-soft">
+                        <span aria-hidden="true">·</span>
+                        <span className="sr-only">no reading</span>
+                      </td>
+                    );
                   return (
                     <td key={a} className="px-1 py-0.5 text-right">
                       {editing ? (
                         <input
                           id={`${idp}-readings-${i}`}
-                          aria-label={`${what} at ${depthText(d)} depth, ${tidyNumber(a)}°`}
+                          aria-label={`${what}, ${unitLabel(grid.unit)}, at ${depthWords(d)}, ${tidyNumber(a)}°`}
                           className="field num w-[5.5rem] px-1.5 py-0.5 text-right text-sm"
                           type="number"
                           step="any"
