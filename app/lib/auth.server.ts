@@ -117,10 +117,9 @@ export function forgetValidatedSessions() {
   sessionGeneration++;
   validated.clear();
 }
-const forgetSessions = forgetValidatedSessions;
-onNotify(SESSIONS_CHANNEL, forgetSessions);
-onNotify(CONTENT_CHANNEL, forgetSessions); // people's names, roles and deactivation live in users
-onListenerReset(forgetSessions);
+onNotify(SESSIONS_CHANNEL, forgetValidatedSessions);
+onNotify(CONTENT_CHANNEL, forgetValidatedSessions); // people's names, roles and deactivation live in users
+onListenerReset(forgetValidatedSessions);
 
 async function validate(request: Request): Promise<Validated> {
   const id = readSessionId(request);

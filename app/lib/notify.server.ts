@@ -1,6 +1,6 @@
 /**
  * One LISTEN connection per process, for the in-process caches that must forget what they hold
- * when PostgreSQL reports a change (triggers of migrations 0008 and 0009; docs/decisions/006).
+ * when PostgreSQL reports a change (triggers of migrations 0008–0010 and 0012; docs/decisions/006).
  *
  * While the connection is down (or not yet up) `listening()` is false and the caches neither
  * serve nor store. Every drop and every (re)connect calls the reset handlers, since
@@ -9,7 +9,7 @@
 import pg from "pg";
 import { env } from "./env.server";
 
-/** Changes to what pages show (people, procedures and their rows, recordings, marks, readings, test records). */
+/** Changes to what the read page shows (people, procedures and their rows, recording titles, marks that point at a procedure, test records). */
 export const CONTENT_CHANNEL = "benchreel_content";
 /** Sign-ins, sign-outs, session extensions and ends. */
 export const SESSIONS_CHANNEL = "benchreel_sessions";

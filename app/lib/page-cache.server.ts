@@ -14,7 +14,8 @@
  *   notification moves the generation on, so a page rendered from data older than a change is
  *   never served after the change.
  * - While the listening connection is down (or not yet up) the cache neither serves nor stores;
- *   coming back moves the generation on, since notifications may have been missed.
+ *   coming back moves the generation on, since notifications may have been missed. Whatever
+ *   happens, an entry is served for 60 s at most.
  * - A person's own state-changing request drops that person's entries at once (their next page
  *   shows what they just did even before the notification arrives); the notification drops the
  *   rest.
@@ -102,9 +103,9 @@ onNotify(CONTENT_CHANNEL, () => store.invalidateAll());
 onListenerReset(() => store.invalidateAll());
 
 /** The pages worth caching: a procedure's read page (document and client-navigation data). */
-const CACHED_PAGES = [/^\/procedures\/(?!new(?:\.data)?$)[^/]+$/];
+const CACHED_PAGES = [/^\/procedures\/(?!new$)[^/]+$/];
 
-export function enabled(): boolean {
+function enabled(): boolean {
   return process.env.PAGE_CACHE !== "off";
 }
 
@@ -168,8 +169,4 @@ export function rememberPage(userId: string, request: Request, started: { genera
 /** A person's own write: their pages go now; everyone else's go when the notification arrives. */
 export function forgetPerson(userId: string) {
   store.invalidatePrefix(`${userId}\n`);
-}
-
-export function pageCacheStats() {
-  return { up: listening(), entries: store.size, bytes: store.byteSize, generation: store.generation };
 }
