@@ -1,16 +1,12 @@
 import { env } from "./env.server";
+import securityHeaders from "./security-headers.json";
 import { forgetValidatedSessions, getUser, refreshedCookie } from "./auth.server";
 import { beginRender, cachedPage, forgetPerson, isCacheablePage, rememberPage } from "./page-cache.server";
 import { requestStore } from "./request-store.server";
 
-export const SECURITY_HEADERS: Record<string, string> = {
-  "X-Content-Type-Options": "nosniff",
-  "Referrer-Policy": "strict-origin-when-cross-origin",
-  "X-Frame-Options": "DENY",
-  "Content-Security-Policy": "frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'",
-  "Cross-Origin-Opener-Policy": "same-origin",
-  "Permissions-Policy": "camera=(), microphone=(), geolocation=()",
-};
+// One list for both places that send it: this middleware (every React Router response) and
+// server.js (every response, static files and their 404s included).
+export const SECURITY_HEADERS: Record<string, string> = securityHeaders;
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 

@@ -1,0 +1,80 @@
+// The HTTP server around React Router (server.js): static files, compression, security
+// headers on everything, request bodies and HEAD.
+import { describe, expect, it } from "vitest";
+import { createUser, http } from "../support/app";
+
+function expectSecurityHeaders(res: Response) {
+  expect(res.headers.get("x-content-type-options")).toBe("nosniff");
+  expect(res.headers.get("x-frame-options")).toBe("DENY");
+  expect(res.headers.get("content-security-policy")).toContain("frame-ancestors 'none'");
+  expect(res.headers.get("referrer-policy")).toBe("strict-origin-when-cross-origin");
+}
+
+async function someAsset(): Promise<string> {
+  const page = await (await http("/signin")).text();
+  const m = /(?:src|href)="(\/assets\/[^"]+\.(?:js|css))"/.exec(page);
+  if (!m) throw new Error("the sign-in page links no asset");
+  return m[1];
+}
+
+describe("server.js", () => {
+  it("serves fingerprinted assets for a year, with the security headers", async () => {
+    const asset = await someAsset();
+    const res = await http(asset);
+    expect(res.status).toBe(200);
+    expect(res.headers.get("cache-control")).toContain("immutable");
+    expect(res.headers.get("cache-control")).toContain("max-age=31536000");
+    expect((await res.arrayBuffer()).byteLength).toBeGreaterThan(0);
+    expectSecurityHeaders(res);
+    const head = await http(asset, { method: "HEAD" });
+    expect(head.status).toBe(200);
+    expect(Number(head.headers.get("content-length"))).toBeGreaterThan(0);
+  });
+
+  it("answers a missing asset with a plain 404 (never a page), with the security headers", async () => {
+    const res = await http("/assets/no-such-file-1234.js");
+    expect(res.status).toBe(404);
+    expect(res.headers.get("content-type")).toContain("text/plain");
+    expect(await res.text()).toBe("Not found");
+    expectSecurityHeaders(res);
+  });
+
+  it("serves the files beside assets/ (the icon) with the security headers", async () => {
+    const res = await http("/favicon.svg");
+    expect(res.status).toBe(200);
+    expect(res.headers.get("content-type")).toContain("image/svg+xml");
+    expect(res.headers.get("cache-control")).toContain("max-age=3600");
+    expectSecurityHeaders(res);
+  });
+
+  it("compresses pages but not small JSON that states its length", async () => {
+    const page = await http("/signin", { headers: { "accept-encoding": "gzip" } });
+    expect(page.headers.get("content-encoding")).toBe("gzip");
+    expect(await page.text()).toContain("</html>");
+    const person = await createUser("apprentice");
+    const search = await http("/api/search?q=torque", { cookie: person.cookie, headers: { "accept-encoding": "gzip" } });
+    expect(search.status).toBe(200);
+    expect(search.headers.get("content-encoding")).toBeNull();
+    expect(Number(search.headers.get("content-length"))).toBeGreaterThan(0);
+    expect((await search.json()).query).toBe("torque");
+  });
+
+  it("passes request bodies through to React Router (a JSON API call)", async () => {
+    const person = await createUser("builder");
+    const res = await http("/api/calc/preload", {
+      cookie: person.cookie,
+      json: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } },
+    });
+    expect(res.status).toBe(200);
+    // T = K·F·d: F = 110 / (0.15 × 0.012 m) — the body arrived whole, or the numbers would differ.
+    expect((await res.json()).preload_N).toBeCloseTo(110 / (0.15 * 0.012), 6);
+    expectSecurityHeaders(res);
+  });
+
+  it("answers HEAD for a page with its status, the security headers and no body", async () => {
+    const res = await http("/signin", { method: "HEAD" });
+    expect(res.status).toBe(200);
+    expect(await res.text()).toBe("");
+    expectSecurityHeaders(res);
+  });
+});
