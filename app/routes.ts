@@ -46,6 +46,7 @@ export default [
 
     // search
     route("search", "routes/search.tsx"),
+    route("search/words", "routes/search-words.tsx"),
 
     // administration
     ...prefix("admin", [

@@ -23,6 +23,7 @@ export const PERMISSIONS = {
   "shop:read": everyone,
   "calc:use": everyone,
   "search:use": everyone,
+  "search:words:edit": ["admin", "editor"],
   "account:edit-own": everyone,
 
   // Recordings, marks and readings.

@@ -5,7 +5,8 @@ import { Highlighted } from "~/components/search/Highlighted";
 import { requirePermission } from "~/lib/auth.server";
 import { clock, KIND_LABELS, STATE_LABELS } from "~/lib/search/highlight";
 import { indexIsBehind, runSearch, searchParamsSchema, type SearchResponse } from "~/lib/search/query.server";
-import { SYNONYM_GROUPS } from "~/lib/search/synonyms";
+import { can } from "~/lib/permissions";
+import { wordGroupLists } from "~/lib/search/words.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.q ? `“${data.q}” · ` : ""}Search · Benchreel` }];
 
@@ -14,15 +15,19 @@ export async function loader({ request }: Route.LoaderArgs) {
   const raw = Object.fromEntries(new URL(request.url).searchParams);
   const parsed = searchParamsSchema.safeParse(raw);
   const behind = await indexIsBehind().catch(() => true);
+  const canEditWords = can(user.role, "search:words:edit");
   if (!parsed.success) {
-    return { q: String(raw.q ?? ""), result: null as SearchResponse | null, error: parsed.error.issues[0]?.message ?? "Bad query.", behind };
+    return { q: String(raw.q ?? ""), result: null as SearchResponse | null, error: parsed.error.issues[0]?.message ?? "Bad query.", behind, canEditWords, examples: [] as string[][] };
   }
   const p = parsed.data;
-  if (!p.q && !p.type && !p.tag && !p.state && !p.uploader) return { q: "", result: null, error: null, behind };
+  if (!p.q && !p.type && !p.tag && !p.state && !p.uploader) {
+    const examples = (await wordGroupLists()).slice(0, 3).map((g) => g.slice(0, 2));
+    return { q: "", result: null, error: null, behind, examples, canEditWords };
+  }
   try {
-    return { q: p.q, result: await runSearch(user, p), error: null, behind };
+    return { q: p.q, result: await runSearch(user, p), error: null, behind, canEditWords, examples: [] };
   } catch {
-    return { q: p.q, result: null, error: "The search service is not answering right now. Your changes are saved and will be searchable when it is back.", behind: true };
+    return { q: p.q, result: null, error: "The search service is not answering right now. Your changes are saved and will be searchable when it is back.", behind: true, canEditWords, examples: [] };
   }
 }
 
@@ -50,7 +55,10 @@ export default function Search({ loaderData }: Route.ComponentProps) {
   };
   return (
     <>
-      <PageHeader title="Search" />
+      <PageHeader
+        title="Search"
+        actions={loaderData.canEditWords && <Link to="/search/words" className="btn no-underline">Search words</Link>}
+      />
       <Form method="get" className="mb-6 flex max-w-2xl gap-2" role="search">
         <label htmlFor="search-page-q" className="sr-only">Search</label>
         <input id="search-page-q" name="q" type="search" defaultValue={q} className="field" placeholder="e.g. head stud torque moly, piston to wall 4032, M12x1.5" />
@@ -65,8 +73,13 @@ export default function Search({ loaderData }: Route.ComponentProps) {
       {error && <p role="alert" className="mb-4 rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-2 text-sm text-spec-red">{error}</p>}
       {!result && !error && (
         <EmptyState title="Search the shop's knowledge">
-          Procedures, specs, marks in recordings, readings and recordings. Typos and word starts are fine; numbers and sizes too (“0.0035”, “M12x1.5”). Trade words match each other, e.g.{" "}
-          {SYNONYM_GROUPS.slice(0, 3).map((g) => g.slice(0, 2).join(" ↔ ")).join("; ")}.
+          Procedures, specs, marks in recordings, readings and recordings. Typos and word starts are fine; numbers and sizes too (“0.0035”, “M12x1.5”).
+          {loaderData.examples.length ? <> Trade words match each other, e.g. {loaderData.examples.map((g) => g.join(" ↔ ")).join("; ")}.</> : null}
+          {loaderData.canEditWords && (
+            <p className="mt-3">
+              <Link to="/search/words">Edit the shop's search words</Link>
+            </p>
+          )}
         </EmptyState>
       )}
       {result && (

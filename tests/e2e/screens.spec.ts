@@ -17,6 +17,8 @@ const SCREENS: Screen[] = [
   { name: "forbidden", path: "/admin/people", as: "jamie@larkspur.example" },
   { name: "not-found", path: "/no-such-page", as: "jamie@larkspur.example" },
   { name: "search-dropdown", path: "/", as: "jamie@larkspur.example", type: "head stud torque" },
+  { name: "search-words", path: "/search/words", as: "priya@larkspur.example" },
+  { name: "search-empty-editor", path: "/search", as: "priya@larkspur.example" },
   ...(process.env.SCREENS_EXTRA ? (JSON.parse(process.env.SCREENS_EXTRA) as Screen[]) : []),
 ];
 

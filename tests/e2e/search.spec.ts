@@ -46,3 +46,28 @@ test("Enter opens the search page with facets and counts; a facet filters", asyn
   await expect(page.getByTestId("search-result")).toHaveCount(Math.min(count, 20));
   for (const r of await page.getByTestId("search-result").all()) await expect(r).toContainText("Marks in recordings");
 });
+
+test("an editor adds a group of search words (a lone word is refused with a field error) and changes it", async ({ page }) => {
+  await signIn(page, "priya@larkspur.example");
+  await page.goto("/search");
+  await page.getByRole("link", { name: "Edit the shop's search words" }).click();
+  await expect(page.getByRole("heading", { name: "Search words", level: 1 })).toBeVisible();
+  const add = page.locator("form").filter({ has: page.getByRole("heading", { name: "Add a group" }) });
+  // A word on its own is not a group: the field says so and keeps what was typed.
+  await add.getByLabel("Words that mean the same").fill("crank snout");
+  await add.getByRole("button", { name: "Add the group" }).click();
+  await expect(add.getByRole("alert")).toContainText("at least two words");
+  await expect(add.getByLabel("Words that mean the same")).toHaveValue("crank snout");
+  await add.getByLabel("Words that mean the same").fill("Crank snout, crankshaft nose");
+  await add.getByRole("button", { name: "Add the group" }).click();
+  await expect(page.getByText("Added: crank snout, crankshaft nose.")).toBeVisible();
+  const group = page.getByTestId("word-group").filter({ hasText: "crankshaft nose" });
+  await expect(group.getByRole("listitem")).toHaveText(["crank snout", "crankshaft nose"]);
+  await expect(group).toContainText("Changed by Priya");
+
+  await group.getByText("Change these words").click();
+  await group.getByLabel("Words that mean the same").fill("crank snout, crankshaft nose, nose of the crank");
+  await group.getByRole("button", { name: "Save the group" }).click();
+  await expect(page.getByText("Saved: crank snout, crankshaft nose, nose of the crank.")).toBeVisible();
+  await expect(page.getByTestId("word-group").filter({ hasText: "nose of the crank" }).getByRole("listitem")).toHaveCount(3);
+});

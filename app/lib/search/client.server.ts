@@ -3,6 +3,7 @@ import https from "node:https";
 import { Meilisearch, MeilisearchApiError } from "meilisearch";
 import { env } from "~/lib/env.server";
 import { synonymsSetting } from "./synonyms";
+import { wordGroupLists } from "./words.server";
 
 /** One index holds every kind of document; `kind` tells them apart and is a facet. */
 export const INDEX_UID = process.env.SEARCH_INDEX ?? "benchreel";
@@ -120,10 +121,12 @@ export const SEARCH_SETTINGS = {
   // Block texts are searchable but never returned: they can be long, and the app finds the
   // matching block itself (app/lib/search/snippet.ts).
   displayedAttributes: ["id", "kind", "title", "text", "tags", "visibility", "url", "state", "uploader", "procedureTitle", "recordingTitle", "area", "t", "date", "group"],
-  synonyms: synonymsSetting(),
 };
 
-/** Creates the index (if missing) and applies the settings; waits for both tasks. */
+/**
+ * Creates the index (if missing) and applies the settings with the shop's search words as its
+ * synonyms (app/lib/search/words.server.ts); waits for both tasks.
+ */
 export async function ensureIndex(): Promise<void> {
   const c = searchClient();
   try {
@@ -134,6 +137,7 @@ export async function ensureIndex(): Promise<void> {
       throw new Error(`search index could not be created: ${created.error?.message}`);
     }
   }
-  const task = await searchIndex().updateSettings(SEARCH_SETTINGS).waitTask();
+  const synonyms = synonymsSetting(await wordGroupLists());
+  const task = await searchIndex().updateSettings({ ...SEARCH_SETTINGS, synonyms }).waitTask();
   if (task.status !== "succeeded") throw new Error(`search settings failed: ${task.error?.message ?? task.status}`);
 }

@@ -1,6 +1,5 @@
 import { describe, expect, it } from "vitest";
 import { bothSystems, limitsBothSystems, otherUnit } from "./format";
-import { synonymsSetting } from "./synonyms";
 
 describe("search text in both unit systems", () => {
   it("writes a spec's limits in the entered and the other system", () => {
@@ -15,11 +14,6 @@ describe("search text in both unit systems", () => {
     // 51 kN = 51000 N ÷ 4.4482216152605 N/lbf = 11465 lbf.
     expect(bothSystems(51, "kN")).toBe("51.00 kN (11465 lbf)");
     expect(otherUnit("degF")).toBe("degC");
-  });
-
-  it("expands synonym groups both ways", () => {
-    const s = synonymsSetting([["ptw", "piston to wall"]]);
-    expect(s).toEqual({ ptw: ["piston to wall"], "piston to wall": ["ptw"] });
   });
 });
 

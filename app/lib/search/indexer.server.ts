@@ -3,6 +3,8 @@ import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
 import { ensureIndex, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
 import { allDocuments, buildChange } from "./documents.server";
+import { synonymsSetting } from "./synonyms";
+import { wordGroupLists } from "./words.server";
 
 const LOCK_KEY = 74_210_001; // one drainer at a time across workers
 
@@ -59,10 +61,15 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
         const upserts = new Map<string, SearchDoc>();
         const deleteIds = new Set<string>();
         const deleteGroups = new Set<string>();
+        let words = false;
         for (const row of pending) {
           const key = `${row.kind}:${row.entityId}`;
           if (seen.has(key)) continue;
           seen.add(key);
+          if (row.kind === "search_words") {
+            words = true;
+            continue;
+          }
           const change = await buildChange(row.kind, row.entityId);
           change.deleteGroups.forEach((g) => deleteGroups.add(g));
           change.deleteIds.forEach((d) => deleteIds.add(d));
@@ -70,6 +77,8 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
         }
         for (const id of upserts.keys()) deleteIds.delete(id);
         await applyChanges([...upserts.values()], [...deleteIds], [...deleteGroups]);
+        // The search words as they are now, the whole list (a replay sends the same).
+        if (words) await check(await searchIndex().updateSynonyms(synonymsSetting(await wordGroupLists())).waitTask(), "synonyms");
         await db().update(searchOutbox).set({ doneAt: new Date(), lastError: null }).where(inArray(searchOutbox.id, ids));
         return { done: ids.length, failed: 0 };
       } catch (err) {
