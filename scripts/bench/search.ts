@@ -34,14 +34,14 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   const corpus = generateCorpus({ docs: N });
   const queries = benchQueries(corpus, opts.samples ?? 40);
   const now = Date.now();
-  // Procedure documents get revision-shaped ids, so that /api/search also pays for its
-  // PostgreSQL look-up of their blocks (which finds no rows here).
+  // Procedure documents are shaped as the app writes a revision's: the summary in `text`, the
+  // blocks (about 80 words each here) one per line in `body`.
   const docs: SearchDoc[] = corpus.docs.map((d) => ({
     id: d.kind === "procedure" ? `rev-${randomUUID()}` : `bench-${d.id}`,
     kind: d.kind,
     title: d.title,
     text: d.kind === "procedure" ? "" : d.body,
-    blocks: d.kind === "procedure" ? d.body.match(/(?:\S+\s+){0,80}\S+/g) ?? [d.body] : undefined,
+    body: d.kind === "procedure" ? (d.body.match(/(?:\S+\s+){0,80}\S+/g) ?? [d.body]).join("\n") : undefined,
     tags: d.tags,
     visibility: ["all"],
     url: "/",

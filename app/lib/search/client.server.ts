@@ -28,8 +28,8 @@ export type SearchDoc = {
   /** Seconds into the recording, for marks and readings. */
   t?: number;
   date: number;
-  /** Procedure revisions: plain text of each block, in order; a hit names its block. */
-  blocks?: string[];
+  /** Procedure revisions: the plain text of their blocks, one block per line, in order. */
+  body?: string;
 };
 
 // Idle sockets are closed after 4 s, before the service closes them (Meilisearch and the fake
@@ -115,12 +115,12 @@ export function searchIndex() {
 }
 
 export const SEARCH_SETTINGS = {
-  searchableAttributes: ["title", "text", "tags", "blocks", "procedureTitle", "recordingTitle", "uploader"],
+  searchableAttributes: ["title", "text", "tags", "body", "procedureTitle", "recordingTitle", "uploader"],
   filterableAttributes: ["kind", "visibility", "tags", "state", "uploader", "area", "group"],
   sortableAttributes: ["date"],
-  // Block texts are searchable but never returned: they can be long, and the app finds the
-  // matching block itself (app/lib/search/snippet.ts).
-  displayedAttributes: ["id", "kind", "title", "text", "tags", "visibility", "url", "state", "uploader", "procedureTitle", "recordingTitle", "area", "t", "date", "group"],
+  // `body` (a procedure's blocks) is displayed so that the service can crop and highlight it;
+  // searches ask for its crop only, never the whole text (RETURNED in query.server.ts).
+  displayedAttributes: ["id", "kind", "title", "text", "body", "tags", "visibility", "url", "state", "uploader", "procedureTitle", "recordingTitle", "area", "t", "date", "group"],
 };
 
 /**

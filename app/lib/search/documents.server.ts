@@ -49,7 +49,11 @@ async function revisionDocs(revisionId: string): Promise<IndexChange> {
   if (!visibility) return change;
   const author = (await names([rev.authorId])).get(rev.authorId ?? "") ?? "";
   const url = procedureUrl(slug, rev.number, rev.state);
-  const blocks = blockTexts(rev.doc as JSONNode).map((b) => b.text);
+  // One block per line: the service crops around the best matches, and the app points the
+  // hit at the line (block) that holds most of them (app/lib/search/query.server.ts).
+  const body = blockTexts(rev.doc as JSONNode)
+    .map((b) => b.text.replace(/\s*\n\s*/g, " "))
+    .join("\n");
   const date = (rev.publishedAt ?? rev.updatedAt).getTime();
   const docs: WithGroup[] = [
     {
@@ -64,7 +68,7 @@ async function revisionDocs(revisionId: string): Promise<IndexChange> {
       state: rev.state,
       area: rev.area,
       uploader: author,
-      blocks,
+      body,
       date,
     },
   ];

@@ -17,29 +17,15 @@ describe("search text in both unit systems", () => {
   });
 });
 
-import { blockFragment } from "./query.server";
-import { markSnippet, pickBlock, queryTerms } from "./snippet";
+import { bestLine, blockFragment } from "./query.server";
 
 describe("pointing a procedure hit at its block", () => {
   const H = (w: string) => `\uE000${w}\uE001`;
-  it("splits a query into terms, keeping sizes and numbers whole", () => {
-    expect(queryTerms("Head stud M12x1.5 torque 0.0035 in")).toEqual(["head", "stud", "m12x1.5", "torque", "0.0035", "in"]);
-  });
-
-  it("picks the block holding the most distinct query words", () => {
-    const blocks = ["Caution: torque values are planning figures", "Run head studs to torque in three passes", "No match here"];
-    expect(pickBlock(blocks, queryTerms("head stud torque"))).toEqual({ index: 1, score: 3 });
-    expect(pickBlock(blocks, queryTerms("gasket"))).toEqual({ index: -1, score: 0 });
-  });
-
-  it("marks matched words and crops around the first one", () => {
-    expect(markSnippet("Run head studs to torque in passes", queryTerms("stud torque"))).toBe(`Run head ${H("studs")} to ${H("torque")} in passes`);
-    const long = Array.from({ length: 60 }, (_, i) => (i === 40 ? "moly" : `w${i}`)).join(" ");
-    const s = markSnippet(long, ["moly"], 10);
-    expect(s.startsWith("…")).toBe(true);
-    expect(s.endsWith("…")).toBe(true);
-    expect(s).toContain(H("moly"));
-    expect(s.split(" ").length).toBe(10);
+  it("picks the line (block) of a cropped body with the most highlighted words, the first of equals", () => {
+    const crop = `…values are ${H("torque")} figures\nRun head ${H("studs")} to ${H("torque")} in three passes\nCheck ${H("torque")} again…`;
+    expect(bestLine(crop)).toBe(`Run head ${H("studs")} to ${H("torque")} in three passes`);
+    expect(bestLine(`a ${H("x")}\nb ${H("y")}`)).toBe(`a ${H("x")}`);
+    expect(bestLine("nothing highlighted\nhere")).toBeNull();
   });
 
   it("builds a text fragment from the snippet's first words, without markers or prefixes", () => {

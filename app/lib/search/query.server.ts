@@ -1,14 +1,11 @@
 import { and, isNull, lt, sql } from "drizzle-orm";
 import { z } from "zod";
 import { searchOutbox } from "~/db/schema";
-import { blockTexts, type JSONNode } from "~/lib/procedures/document";
 import type { SessionUser } from "~/lib/auth.server";
-import { db, pool } from "~/lib/db.server";
+import { db } from "~/lib/db.server";
 import { can } from "~/lib/permissions";
 import { searchIndex, type SearchKind } from "./client.server";
-
 import { HL_POST, HL_PRE } from "./highlight";
-import { markSnippet, pickBlock, queryTerms } from "./snippet";
 
 export const KINDS: SearchKind[] = ["procedure", "spec", "mark", "reading", "recording", "test_record"];
 
@@ -85,42 +82,21 @@ export function blockFragment(block: string): string {
 }
 
 /**
- * Plain text per block of the given revisions, from PostgreSQL (the source of truth), kept in
- * a small in-process cache keyed by revision and its indexed date (a saved draft has a new
- * date, so its entry is simply not found again).
+ * The line of a cropped procedure body (one block per line) holding the most highlighted
+ * words; the first of equals. Null when nothing in it is highlighted.
  */
-const blockCache = new Map<string, string[]>();
-const BLOCK_CACHE_MAX = 300;
-
-async function revisionBlocks(hits: { id: string; date: number }[]): Promise<Map<string, string[]>> {
-  const out = new Map<string, string[]>();
-  const missing = new Map<string, string>();
-  for (const h of hits) {
-    const id = h.id.replace(/^rev-/, "");
-    if (!/^[0-9a-f-]{36}$/.test(id)) continue;
-    const cached = blockCache.get(`${id}:${h.date}`);
-    if (cached) out.set(id, cached);
-    else missing.set(id, `${id}:${h.date}`);
+export function bestLine(cropped: string): string | null {
+  let best: string | null = null;
+  let most = 0;
+  for (const line of cropped.split("\n")) {
+    const n = line.split(HL_PRE).length - 1;
+    if (n > most) [best, most] = [line, n];
   }
-  if (missing.size) {
-    // A named prepared statement: this runs on the search path whenever hits are new to the cache.
-    const { rows } = await pool().query<{ id: string; doc: unknown }>({
-      name: "benchreel-search-revision-docs",
-      text: "select id, doc from procedure_revisions where id = any($1::uuid[])",
-      values: [[...missing.keys()]],
-    });
-    const found = new Map(rows.map((r) => [r.id, blockTexts(r.doc as JSONNode).map((b) => b.text)]));
-    // A revision the index has but the database has not (about to be removed from the index)
-    // is remembered as having no blocks, so it is not looked up on every search.
-    for (const [id, key] of missing) {
-      const blocks = found.get(id) ?? [];
-      out.set(id, blocks);
-      if (blockCache.size >= BLOCK_CACHE_MAX) blockCache.delete(blockCache.keys().next().value!);
-      blockCache.set(key, blocks);
-    }
-  }
-  return out;
+  return best;
 }
+
+/** What a search hit needs from a document; the long texts come back only as crops. */
+const RETURNED = ["id", "kind", "title", "tags", "url", "state", "t", "procedureTitle", "recordingTitle"];
 
 /** The search request the app sends for a person and parameters (the benchmark sends the same). */
 export function searchRequest(user: SessionUser, p: SearchParams) {
@@ -129,44 +105,44 @@ export function searchRequest(user: SessionUser, p: SearchParams) {
     facets: ["kind", "tags", "state", "uploader"],
     limit: p.limit,
     offset: (p.page - 1) * p.limit,
-    attributesToHighlight: ["title", "text"],
+    attributesToRetrieve: RETURNED,
+    attributesToHighlight: ["title", "text", "body"],
     highlightPreTag: HL_PRE,
     highlightPostTag: HL_POST,
-    attributesToCrop: ["text"],
+    attributesToCrop: ["text", "body"],
     cropLength: 28,
     cropMarker: "…",
   };
 }
 
 /** Where a search's time went, in milliseconds (sent as Server-Timing by /api/search). */
-export type SearchTimings = { service: number; blocks: number; shaping: number };
+export type SearchTimings = { service: number; shaping: number };
 
 export async function runSearch(user: SessionUser, p: SearchParams, timings?: SearchTimings): Promise<SearchResponse> {
   const t0 = performance.now();
   const res = await searchIndex().search(p.q, searchRequest(user, p));
   const t1 = performance.now();
-  const blocksByRevision = await revisionBlocks(res.hits.filter((h) => h.kind === "procedure"));
-  const t2 = performance.now();
-  const terms = queryTerms(p.q);
   const hits: SearchHit[] = res.hits.map((h) => {
     const f = (h._formatted ?? {}) as Partial<Record<string, unknown>>;
     let url = h.url;
-    let snippet = String(f.text ?? h.text ?? "");
+    let snippet = String(f.text ?? "");
     let context: string | undefined;
     if (h.kind === "procedure") {
-      const blocks = blocksByRevision.get(h.id.replace(/^rev-/, "")) ?? [];
-      const best = terms.length ? pickBlock(blocks, terms) : { index: -1, score: 0 };
-      if (best.index >= 0) {
-        snippet = markSnippet(blocks[best.index], terms);
-        url = `${h.url}${blockFragment(snippet)}`;
-      } else if (!snippet && blocks.length) snippet = markSnippet(blocks[0], terms);
+      // The service cropped the body around its best matches; the hit points at the block
+      // (line) holding most of them, and shows the crop.
+      const body = String(f.body ?? "");
+      const line = bestLine(body);
+      if (line) {
+        snippet = body.replace(/\s*\n\s*/g, " ");
+        url = `${h.url}${blockFragment(line)}`;
+      } else if (!snippet) snippet = body.replace(/\s*\n\s*/g, " ");
     }
     if (h.kind === "mark" || h.kind === "reading") context = h.recordingTitle;
     if (h.kind === "spec") context = h.procedureTitle;
     return { id: h.id, kind: h.kind, title: String(f.title ?? h.title), snippet, url, tags: h.tags ?? [], state: h.state, t: h.t, context };
   });
   const total = res.estimatedTotalHits ?? hits.length;
-  if (timings) Object.assign(timings, { service: t1 - t0, blocks: t2 - t1, shaping: performance.now() - t2 });
+  if (timings) Object.assign(timings, { service: t1 - t0, shaping: performance.now() - t1 });
   return {
     query: p.q,
     hits,

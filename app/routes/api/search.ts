@@ -17,11 +17,11 @@ export async function loader({ request }: Route.LoaderArgs) {
   }
   const behindP = indexIsBehind().catch(() => false);
   try {
-    const t: SearchTimings = { service: 0, blocks: 0, shaping: 0 };
+    const t: SearchTimings = { service: 0, shaping: 0 };
     const [result, behind] = await Promise.all([runSearch(user, parsed.data, t), behindP]);
     const body = JSON.stringify({ ...result, behind });
     // Server-Timing (W3C): where the time went, for the browser's network panel and the benchmark.
-    const timing = [`session;dur=${(signedIn - started).toFixed(2)}`, `search;dur=${t.service.toFixed(2)}`, `blocks;dur=${t.blocks.toFixed(2)}`, `shape;dur=${t.shaping.toFixed(2)}`, `loader;dur=${(performance.now() - started).toFixed(2)}`].join(", ");
+    const timing = [`session;dur=${(signedIn - started).toFixed(2)}`, `search;dur=${t.service.toFixed(2)}`, `shape;dur=${t.shaping.toFixed(2)}`, `loader;dur=${(performance.now() - started).toFixed(2)}`].join(", ");
     return new Response(body, { headers: { "Content-Type": "application/json", "Content-Length": String(Buffer.byteLength(body)), "Cache-Control": "private, no-store", "Server-Timing": timing } });
   } catch (err) {
     console.error("[search]", searchErrorMessage(err));
