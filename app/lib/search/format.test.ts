@@ -17,7 +17,7 @@ describe("search text in both unit systems", () => {
   });
 });
 
-import { bestLine, blockFragment } from "./query.server";
+import { bestLine, blockFragment, bodySnippet } from "./query.server";
 
 describe("pointing a procedure hit at its block", () => {
   const H = (w: string) => `\uE000${w}\uE001`;
@@ -26,6 +26,11 @@ describe("pointing a procedure hit at its block", () => {
     expect(bestLine(crop)).toBe(`Run head ${H("studs")} to ${H("torque")} in three passes`);
     expect(bestLine(`a ${H("x")}\nb ${H("y")}`)).toBe(`a ${H("x")}`);
     expect(bestLine("nothing highlighted\nhere")).toBeNull();
+  });
+
+  it("shows a cropped body as one run of text, without the heading marks of its blocks", () => {
+    expect(bodySnippet(`…the heads leak.\n## Steps\n• Check that every case ${H("stud")} is…`)).toBe(`…the heads leak. Steps • Check that every case ${H("stud")} is…`);
+    expect(bodySnippet("# Why\n\nplain")).toBe("Why plain");
   });
 
   it("builds a text fragment from the snippet's first words, without markers or prefixes", () => {

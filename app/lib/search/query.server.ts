@@ -95,6 +95,15 @@ export function bestLine(cropped: string): string | null {
   return best;
 }
 
+/** A cropped body as one run of text: its lines (blocks) joined, without heading marks. */
+export function bodySnippet(cropped: string): string {
+  return cropped
+    .split("\n")
+    .map((line) => line.trim().replace(/^#+ /, ""))
+    .filter(Boolean)
+    .join(" ");
+}
+
 /** What a search hit needs from a document; the long texts come back only as crops. */
 const RETURNED = ["id", "kind", "title", "tags", "url", "state", "t", "procedureTitle", "recordingTitle"];
 
@@ -133,9 +142,9 @@ export async function runSearch(user: SessionUser, p: SearchParams, timings?: Se
       const body = String(f.body ?? "");
       const line = bestLine(body);
       if (line) {
-        snippet = body.replace(/\s*\n\s*/g, " ");
+        snippet = bodySnippet(body);
         url = `${h.url}${blockFragment(line)}`;
-      } else if (!snippet) snippet = body.replace(/\s*\n\s*/g, " ");
+      } else if (!snippet) snippet = bodySnippet(body);
     }
     if (h.kind === "mark" || h.kind === "reading") context = h.recordingTitle;
     if (h.kind === "spec") context = h.procedureTitle;
