@@ -59,11 +59,15 @@ const topLevel = serveStatic(clientDir, { maxAge: "1h", index: false });
 const handleRequest = createRequestHandler(build, process.env.NODE_ENV ?? "production");
 const toReactRouter = createRequestListener((request) => handleRequest(request));
 
-/** A static file's answer when the file is missing or the method is not GET/HEAD (serve-static's errors). */
+/**
+ * A static file's error in plain text: missing (404), outside the folder (403), a method other
+ * than GET or HEAD (405). A read that fails after the headers went out ends the connection.
+ */
 function staticError(res, err) {
+  if (res.headersSent) return res.destroy(err instanceof Error ? err : undefined);
   res.statusCode = err?.statusCode ?? err?.status ?? 500;
   res.setHeader("Content-Type", "text/plain; charset=utf-8");
-  res.end(res.statusCode === 404 ? "Not found" : "Error");
+  res.end(res.statusCode === 404 ? "Not found" : (http.STATUS_CODES[res.statusCode] ?? "Error"));
 }
 
 function handle(req, res) {
@@ -76,7 +80,9 @@ function handle(req, res) {
       req.url = full.slice(assetsPrefix.length - 1);
       return assets(req, res, (err) => staticError(res, err));
     }
-    if (topLevelFiles.has(pathname)) return topLevel(req, res, (err) => staticError(res, err ?? { statusCode: 404 }));
+    if (topLevelFiles.has(pathname) && (req.method === "GET" || req.method === "HEAD")) {
+      return topLevel(req, res, (err) => staticError(res, err ?? { statusCode: 404 }));
+    }
     log(req, res, () => {
       // React Router hands route middleware the URL with a data request's ".data" taken off; the
       // read-page cache (app/lib/page-cache.server.ts) must tell a page from its data, so the URL

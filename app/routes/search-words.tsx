@@ -17,7 +17,14 @@ const addSchema = z.object({ intent: z.literal("add"), words: wordsField });
 const changeSchema = z.object({ intent: z.literal("change"), id: z.string().uuid(), loadedAt: z.coerce.number().int(), words: wordsField });
 const removeSchema = z.object({ intent: z.literal("remove"), id: z.string().uuid() });
 
-type Failure = { intent: string; id?: string; errors: Record<string, string>; values: Record<string, string>; current?: string[] };
+type Failure = {
+  intent: string;
+  id?: string;
+  errors: Record<string, string>;
+  values: Record<string, string>;
+  /** On a conflict: the group as it is now, and its time (a second save replaces it). */
+  current?: { words: string[]; loadedAt: number };
+};
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requirePermission(request, "search:words:edit");
@@ -38,7 +45,7 @@ export async function action({ request }: Route.ActionArgs) {
       const problem = groupProblem(words, []);
       if (problem) return fail({ intent, errors: { words: problem }, values: parsed.values });
       await addWordGroup(actor, words);
-      return redirectWithFlash("/search/words", { kind: "ok", message: `Added: ${words.join(", ")}. Search uses the group within a few seconds.` });
+      return redirectWithFlash("/search/words", { kind: "ok", message: `Added: ${words.join(", ")}.` });
     }
     if (intent === "change") {
       const parsed = parseForm(changeSchema, form);
@@ -52,13 +59,14 @@ export async function action({ request }: Route.ActionArgs) {
     if (intent === "remove") {
       const parsed = parseForm(removeSchema, form);
       if (!parsed.ok) return fail({ intent, errors: { form: "Choose a group to remove." }, values: parsed.values });
-      const removed = await removeWordGroup(parsed.data.id);
+      const removed = await removeWordGroup(actor, parsed.data.id);
       return redirectWithFlash("/search/words", removed ? { kind: "ok", message: "Group removed." } : { kind: "ok", message: "That group was already gone." });
     }
   } catch (err) {
     if (err instanceof WordGroupError) {
       const values = Object.fromEntries([...form].filter(([, v]) => typeof v === "string")) as Record<string, string>;
-      return fail({ intent, id: String(form.get("id") ?? "") || undefined, errors: { [err.field]: err.message }, values, current: err.current?.words }, 409);
+      const current = err.current && { words: err.current.words, loadedAt: err.current.updatedAt.getTime() };
+      return fail({ intent, id: String(form.get("id") ?? "") || undefined, errors: { [err.field]: err.message }, values, current }, 409);
     }
     throw err;
   }
@@ -129,17 +137,21 @@ export default function SearchWords({ loaderData, actionData }: Route.ComponentP
                       </Form>
                     </div>
                     <p className="mt-1 text-xs text-graphite-soft">
-                      {g.updatedBy ? `Changed by ${g.updatedBy}, ${formatDay(g.updatedAt)}` : "Came with Benchreel"}
+                      {g.updatedBy
+                        ? `Changed by ${g.updatedBy}, ${formatDay(g.updatedAt)}`
+                        : g.updatedAt.getTime() === g.createdAt.getTime()
+                          ? "Came with Benchreel"
+                          : `Changed ${formatDay(g.updatedAt)}`}
                     </p>
                     <details className="mt-2" open={Boolean(mine)}>
                       <summary className="cursor-pointer text-sm text-teal">Change these words</summary>
                       <Form method="post" className="mt-2 space-y-2" noValidate>
                         <input type="hidden" name="intent" value="change" />
                         <input type="hidden" name="id" value={g.id} />
-                        <input type="hidden" name="loadedAt" value={mine?.current ? mine.values.loadedAt : g.loadedAt} />
+                        <input type="hidden" name="loadedAt" value={mine?.current ? mine.current.loadedAt : g.loadedAt} />
                         {mine?.current && (
                           <p className="text-sm">
-                            Now reads: <strong>{mine.current.join(", ")}</strong>
+                            Now reads: <strong>{mine.current.words.join(", ")}</strong>
                           </p>
                         )}
                         <FormError message={mine?.errors.form} />

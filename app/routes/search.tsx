@@ -57,7 +57,7 @@ export default function Search({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader
         title="Search"
-        actions={loaderData.canEditWords && <Link to="/search/words" className="btn no-underline">Search words</Link>}
+        actions={loaderData.canEditWords && <Link to="/search/words" className="btn no-underline">Edit search words</Link>}
       />
       <Form method="get" className="mb-6 flex max-w-2xl gap-2" role="search">
         <label htmlFor="search-page-q" className="sr-only">Search</label>

@@ -14,8 +14,7 @@ import { Meilisearch } from "meilisearch";
 import { env } from "~/lib/env.server";
 import { INDEX_UID, SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
 import { reindexAll } from "~/lib/search/indexer.server";
-import { synonymsSetting } from "~/lib/search/synonyms";
-import { wordGroupLists } from "~/lib/search/words.server";
+import { currentSynonyms } from "~/lib/search/words.server";
 import { searchParamsSchema, searchRequest } from "~/lib/search/query.server";
 import { benchQueries, generateCorpus } from "../fakes/meili/bench";
 import { MeiliIndex } from "../fakes/meili/engine";
@@ -60,7 +59,7 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
 
   // The same documents in an in-process engine: the raw query without HTTP or the app.
   const raw = new MeiliIndex("raw", "id");
-  raw.updateSettings({ ...SEARCH_SETTINGS, synonyms: synonymsSetting(await wordGroupLists()) } as unknown as Record<string, unknown>);
+  raw.updateSettings({ ...SEARCH_SETTINGS, synonyms: await currentSynonyms() } as unknown as Record<string, unknown>);
   raw.addDocuments(docs as unknown as Record<string, unknown>[], { primaryKey: "id" });
 
   // The raw query goes through the SDK as anyone would set it up (its own fetch), not through

@@ -54,7 +54,7 @@ export const MATRIX: Entry[] = [
   { path: "/calculators/distortion", get: SIGNED_IN, post: { ...ALL(400), anon: 302 } },
   { path: "/calculators/clearance", get: SIGNED_IN, post: { ...ALL(400), anon: 302 } },
   { path: "/search", get: SIGNED_IN },
-  { path: "/search/words", get: only(["admin", "editor"]), post: only(["admin", "editor"], 400), note: "empty form: field error" },
+  { path: "/search/words", get: only(["admin", "editor"]), post: only(["admin", "editor"], 400), note: "empty form: unknown action" },
   { path: "/admin", get: only(["admin"]), post: undefined },
   { path: "/admin/people", get: only(["admin"]), post: only(["admin"], 400) },
   { path: "/admin/outbox", get: only(["admin"]) },

@@ -3,7 +3,7 @@
 import { randomUUID } from "node:crypto";
 import { eq, isNull, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
-import { marks, recordings, searchOutbox, searchWordGroups } from "~/db/schema";
+import { auditLog, marks, recordings, searchOutbox, searchWordGroups } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { createUser, http, waitFor } from "../support/app";
 
@@ -38,8 +38,10 @@ describe("search words", () => {
     const apprentice = await createUser("apprentice");
     const [a, b] = [word(), word()];
     const mark = await markSaying(`checked ${b} on the bench`);
+    const other = await markSaying(`noted ${a} at the stand`);
     await indexed();
     expect(await findsMark(apprentice.cookie, a, mark.id)).toBe(false);
+    expect(await findsMark(apprentice.cookie, b, other.id)).toBe(false);
 
     const added = await post(editor.cookie, { intent: "add", words: `${a.toUpperCase()}, ${b}` });
     expect(added.status).toBe(302);
@@ -48,6 +50,7 @@ describe("search words", () => {
     expect(group.updatedBy).toBe(editor.id);
     await indexed();
     expect(await findsMark(apprentice.cookie, a, mark.id)).toBe(true);
+    expect(await findsMark(apprentice.cookie, b, other.id)).toBe(true);
 
     const page = await (await http("/search/words", { cookie: editor.cookie })).text();
     expect(page).toContain(a);
@@ -57,6 +60,9 @@ describe("search words", () => {
     expect(await groupWith(a)).toBeUndefined();
     await indexed();
     expect(await findsMark(apprentice.cookie, a, mark.id)).toBe(false);
+    const [removal] = await db().select().from(auditLog).where(sql`${auditLog.entity} = 'search_words' and ${auditLog.entityId} = ${group.id} and ${auditLog.action} = 'remove'`);
+    expect(removal.actorId).toBe(editor.id);
+    expect(removal.detail).toEqual({ words: [a, b] });
   });
 
   it("says what is wrong with a group and saves nothing", async () => {
@@ -93,6 +99,11 @@ describe("search words", () => {
     const [now] = await db().select().from(searchWordGroups).where(eq(searchWordGroups.id, group.id));
     expect(now.words).toEqual([a, b, c]);
     expect(now.updatedBy).toBe(second.id);
+    // The page now carries the group's current time: saving again replaces it on purpose.
+    expect(html).toContain(`name="loadedAt" value="${now.updatedAt.getTime()}"`);
+    const again = await post(first.cookie, { intent: "change", id: group.id, loadedAt: String(now.updatedAt.getTime()), words: `${a}, ${d}` });
+    expect(again.status).toBe(302);
+    expect((await groupWith(a)).words).toEqual([a, d]);
   });
 
   it("keeps a change made while the search service is down and applies it when it is back", async () => {

@@ -26,14 +26,14 @@ async function indexed() {
   }, 20_000);
 }
 
-async function makeProcedure(opts: { state: "published" | "draft" | "in_review"; authorId: string; title: string; body: string; spec?: { label: string; unit: string; min: number; max: number } }) {
+async function makeProcedure(opts: { state: "published" | "draft" | "in_review"; authorId: string; title: string; body: string; summary?: string; spec?: { label: string; unit: string; min: number; max: number } }) {
   const slug = `p-${randomUUID().slice(0, 8)}`;
   return db().transaction(async (tx) => {
     const [p] = await tx.insert(procedures).values({ slug, title: opts.title, area: "assembly", createdBy: opts.authorId }).returning();
     const doc = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Intro paragraph." }] }, { type: "paragraph", content: [{ type: "text", text: opts.body }] }] };
     const [rev] = await tx
       .insert(procedureRevisions)
-      .values({ procedureId: p.id, number: 1, state: opts.state, title: opts.title, area: "assembly", doc, authorId: opts.authorId, publishedAt: opts.state === "published" ? new Date() : null })
+      .values({ procedureId: p.id, number: 1, state: opts.state, title: opts.title, summary: opts.summary ?? "", area: "assembly", doc, authorId: opts.authorId, publishedAt: opts.state === "published" ? new Date() : null })
       .returning();
     if (opts.spec) {
       await tx.insert(procedureSpecs).values({ revisionId: rev.id, procedureId: p.id, specKey: "s1", position: 0, label: opts.spec.label, quantity: "length", unit: opts.spec.unit, min: opts.spec.min, max: opts.spec.max, siUnit: "m" });
@@ -74,6 +74,17 @@ describe("search", () => {
     // Block 1 (the second paragraph) matched: the URL scrolls to its first words.
     expect(hit.url).toBe(`/procedures/${procedure.slug}#:~:text=${encodeURIComponent(`Torque the studs with ${term} lube`)}`);
     expect(hit.snippet).toContain(`${HL_PRE}${term}`);
+  });
+
+  it("a procedure found by its title alone opens at the top and shows its summary", async () => {
+    const builder = await createUser("builder");
+    const term = word();
+    const { procedure } = await makeProcedure({ state: "published", authorId: builder.id, title: `Valve lash ${term}`, summary: "Cold engine, feeler gauge, both banks.", body: "Set each rocker to the figure on the sheet." });
+    await indexed();
+    const hit = (await search(builder.cookie, term)).body.hits.find((h) => h.kind === "procedure")!;
+    expect(hit.url).toBe(`/procedures/${procedure.slug}`);
+    expect(hit.snippet).toBe("Cold engine, feeler gauge, both banks.");
+    expect(hit.title).toContain(`${HL_PRE}${term}`);
   });
 
   it("a mark hit carries its time and opens the recording at that second", async () => {

@@ -26,7 +26,7 @@ export const searchOutbox = pgTable(
  * The shop's search words: each row is a group of words and phrases that mean the same on
  * this floor ("ptw", "piston to wall"). Editors keep the list on /search/words; the worker
  * applies it as the search service's synonyms setting (a trigger queues a 'search_words' row
- * in the outbox in the same transaction). The first groups come with migration 0013.
+ * in the outbox in the same transaction). The first groups come with migration 0014.
  */
 export const searchWordGroups = pgTable("search_word_groups", {
   id: uuid("id").primaryKey().defaultRandom(),

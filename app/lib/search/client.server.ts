@@ -2,8 +2,7 @@ import http from "node:http";
 import https from "node:https";
 import { Meilisearch, MeilisearchApiError } from "meilisearch";
 import { env } from "~/lib/env.server";
-import { synonymsSetting } from "./synonyms";
-import { wordGroupLists } from "./words.server";
+import { currentSynonyms } from "./words.server";
 
 /** One index holds every kind of document; `kind` tells them apart and is a facet. */
 export const INDEX_UID = process.env.SEARCH_INDEX ?? "benchreel";
@@ -137,7 +136,6 @@ export async function ensureIndex(): Promise<void> {
       throw new Error(`search index could not be created: ${created.error?.message}`);
     }
   }
-  const synonyms = synonymsSetting(await wordGroupLists());
-  const task = await searchIndex().updateSettings({ ...SEARCH_SETTINGS, synonyms }).waitTask();
+  const task = await searchIndex().updateSettings({ ...SEARCH_SETTINGS, synonyms: await currentSynonyms() }).waitTask();
   if (task.status !== "succeeded") throw new Error(`search settings failed: ${task.error?.message ?? task.status}`);
 }

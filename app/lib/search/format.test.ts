@@ -21,9 +21,12 @@ import { bestLine, blockFragment, bodySnippet } from "./query.server";
 
 describe("pointing a procedure hit at its block", () => {
   const H = (w: string) => `\uE000${w}\uE001`;
-  it("picks the line (block) of a cropped body with the most highlighted words, the first of equals", () => {
+  it("picks the line (block) of a cropped body with the most distinct highlighted words, the first of equals", () => {
     const crop = `…values are ${H("torque")} figures\nRun head ${H("studs")} to ${H("torque")} in three passes\nCheck ${H("torque")} again…`;
     expect(bestLine(crop)).toBe(`Run head ${H("studs")} to ${H("torque")} in three passes`);
+    // One word said three times loses to two different words; among equals, more marks win.
+    expect(bestLine(`${H("torque")} ${H("torque")} ${H("Torque")}\n${H("stud")} ${H("torque")}`)).toBe(`${H("stud")} ${H("torque")}`);
+    expect(bestLine(`${H("stud")} once\n${H("stud")} and ${H("stud")}`)).toBe(`${H("stud")} and ${H("stud")}`);
     expect(bestLine(`a ${H("x")}\nb ${H("y")}`)).toBe(`a ${H("x")}`);
     expect(bestLine("nothing highlighted\nhere")).toBeNull();
   });

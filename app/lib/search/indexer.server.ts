@@ -3,8 +3,7 @@ import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
 import { ensureIndex, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
 import { allDocuments, buildChange } from "./documents.server";
-import { synonymsSetting } from "./synonyms";
-import { wordGroupLists } from "./words.server";
+import { currentSynonyms } from "./words.server";
 
 const LOCK_KEY = 74_210_001; // one drainer at a time across workers
 
@@ -78,7 +77,7 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
         for (const id of upserts.keys()) deleteIds.delete(id);
         await applyChanges([...upserts.values()], [...deleteIds], [...deleteGroups]);
         // The search words as they are now, the whole list (a replay sends the same).
-        if (words) await check(await searchIndex().updateSynonyms(synonymsSetting(await wordGroupLists())).waitTask(), "synonyms");
+        if (words) await check(await searchIndex().updateSynonyms(await currentSynonyms()).waitTask(), "synonyms");
         await db().update(searchOutbox).set({ doneAt: new Date(), lastError: null }).where(inArray(searchOutbox.id, ids));
         return { done: ids.length, failed: 0 };
       } catch (err) {

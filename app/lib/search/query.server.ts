@@ -82,15 +82,17 @@ export function blockFragment(block: string): string {
 }
 
 /**
- * The line of a cropped procedure body (one block per line) holding the most highlighted
- * words; the first of equals. Null when nothing in it is highlighted.
+ * The line of a cropped procedure body (one block per line) holding the most distinct
+ * highlighted words, then the most highlights; the first of equals. Null when nothing in it
+ * is highlighted.
  */
 export function bestLine(cropped: string): string | null {
   let best: string | null = null;
-  let most = 0;
+  let most = [0, 0];
   for (const line of cropped.split("\n")) {
-    const n = line.split(HL_PRE).length - 1;
-    if (n > most) [best, most] = [line, n];
+    const marked = line.split(HL_PRE).slice(1).map((part) => part.split(HL_POST)[0].toLowerCase());
+    const score = [new Set(marked).size, marked.length];
+    if (score[0] > most[0] || (score[0] === most[0] && score[1] > most[1])) [best, most] = [line, score];
   }
   return best;
 }

@@ -1,39 +1,47 @@
-import { and, asc, eq, isNull, sql } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import { searchOutbox, searchWordGroups, users } from "~/db/schema";
+import { audit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
-import { groupProblem } from "./synonyms";
+import { db, type Tx } from "~/lib/db.server";
+import { groupProblem, synonymsSetting } from "./synonyms";
 
-export type WordGroup = { id: string; words: string[]; updatedAt: Date; updatedBy: string | null };
+export type WordGroup = { id: string; words: string[]; createdAt: Date; updatedAt: Date; updatedBy: string | null };
 
 /** A change that cannot be saved, with the field it belongs to and what is wrong. */
 export class WordGroupError extends Error {
   constructor(
     readonly field: "words" | "form",
     message: string,
-    readonly current?: WordGroup,
+    /** On a conflict: the group as it is now. */
+    readonly current?: { words: string[]; updatedAt: Date },
   ) {
     super(message);
   }
 }
 
-/** Every group, in the order of its first word, with who changed it last. */
+/** In the order of each group's first word (the list people read, and the examples on /search). */
+const byFirstWord = [sql`${searchWordGroups.words}[1]`, searchWordGroups.id];
+
+/** Every group, with who changed it last. */
 export async function wordGroups(): Promise<WordGroup[]> {
-  const rows = await db()
-    .select({ id: searchWordGroups.id, words: searchWordGroups.words, updatedAt: searchWordGroups.updatedAt, updatedBy: users.name })
+  return db()
+    .select({ id: searchWordGroups.id, words: searchWordGroups.words, createdAt: searchWordGroups.createdAt, updatedAt: searchWordGroups.updatedAt, updatedBy: users.name })
     .from(searchWordGroups)
     .leftJoin(users, eq(users.id, searchWordGroups.updatedBy))
-    .orderBy(sql`${searchWordGroups.words}[1]`, asc(searchWordGroups.id));
-  return rows;
+    .orderBy(...byFirstWord);
 }
 
-/** The groups as the search service's synonyms setting wants them. */
 export async function wordGroupLists(): Promise<string[][]> {
-  const rows = await db().select({ words: searchWordGroups.words }).from(searchWordGroups).orderBy(asc(searchWordGroups.createdAt), asc(searchWordGroups.id));
+  const rows = await db().select({ words: searchWordGroups.words }).from(searchWordGroups).orderBy(...byFirstWord);
   return rows.map((r) => r.words);
 }
 
-/** True while a change to the words waits for the search service (it was down, or is about to be asked). */
+/** The search words as the search service's synonyms setting. */
+export async function currentSynonyms(): Promise<Record<string, string[]>> {
+  return synonymsSetting(await wordGroupLists());
+}
+
+/** Whether a change to the words still waits for the search service, and why if it failed. */
 export async function wordsPending(): Promise<{ pending: boolean; lastError: string | null }> {
   const rows = await db()
     .select({ lastError: searchOutbox.lastError })
@@ -42,7 +50,8 @@ export async function wordsPending(): Promise<{ pending: boolean; lastError: str
   return { pending: rows.length > 0, lastError: rows.find((r) => r.lastError)?.lastError ?? null };
 }
 
-type Tx = Parameters<Parameters<ReturnType<typeof db>["transaction"]>[0]>[0];
+// One writer at a time, so that two people cannot put the same word into two groups at once.
+const lockGroups = (tx: Tx) => tx.execute(sql`lock table search_word_groups in share row exclusive mode`);
 
 async function check(tx: Tx, words: string[], selfId?: string) {
   const others = await tx.select({ id: searchWordGroups.id, words: searchWordGroups.words }).from(searchWordGroups);
@@ -52,37 +61,41 @@ async function check(tx: Tx, words: string[], selfId?: string) {
 
 export async function addWordGroup(actor: SessionUser, words: string[]): Promise<void> {
   await db().transaction(async (tx) => {
-    // One writer at a time, so two people cannot put the same word into two new groups.
-    await tx.execute(sql`lock table search_word_groups in share row exclusive mode`);
+    await lockGroups(tx);
     await check(tx, words);
-    await tx.insert(searchWordGroups).values({ words, updatedBy: actor.id });
+    const [row] = await tx.insert(searchWordGroups).values({ words, updatedBy: actor.id }).returning({ id: searchWordGroups.id });
+    await audit(tx, actor.id, "add", "search_words", row.id, { words });
   });
 }
 
 /**
- * Saves a group's new words, unless someone changed the group since the editor loaded it
- * (`loadedAt`): then nothing is saved and the error carries the group as it is now, so the
- * page can show both.
+ * Saves a group's new words, unless someone changed the group after the editor loaded it
+ * (`loadedAt`, the group's updatedAt then): nothing is saved, and the error carries the group
+ * as it is now. Saving again with that group's time overwrites it on purpose.
  */
 export async function updateWordGroup(actor: SessionUser, id: string, words: string[], loadedAt: number): Promise<void> {
   await db().transaction(async (tx) => {
-    await tx.execute(sql`lock table search_word_groups in share row exclusive mode`);
+    await lockGroups(tx);
     const [current] = await tx.select().from(searchWordGroups).where(eq(searchWordGroups.id, id));
     if (!current) throw new WordGroupError("form", "That group was removed while you were editing it. Add your words as a new group.");
     if (current.updatedAt.getTime() !== loadedAt) {
-      throw new WordGroupError("words", "Someone changed this group while you were editing it. It now reads as shown; your words are still in the field.", {
-        id: current.id,
-        words: current.words,
-        updatedAt: current.updatedAt,
-        updatedBy: null,
-      });
+      throw new WordGroupError(
+        "words",
+        "Someone changed this group while you were editing it. It now reads as shown above; your words are still in the field. Save again to replace theirs.",
+        { words: current.words, updatedAt: current.updatedAt },
+      );
     }
     await check(tx, words, id);
     await tx.update(searchWordGroups).set({ words, updatedBy: actor.id, updatedAt: new Date() }).where(eq(searchWordGroups.id, id));
+    await audit(tx, actor.id, "change", "search_words", id, { from: current.words, to: words });
   });
 }
 
-export async function removeWordGroup(id: string): Promise<boolean> {
-  const removed = await db().delete(searchWordGroups).where(eq(searchWordGroups.id, id)).returning({ id: searchWordGroups.id });
-  return removed.length > 0;
+export async function removeWordGroup(actor: SessionUser, id: string): Promise<boolean> {
+  return db().transaction(async (tx) => {
+    await lockGroups(tx);
+    const [removed] = await tx.delete(searchWordGroups).where(eq(searchWordGroups.id, id)).returning({ words: searchWordGroups.words });
+    if (removed) await audit(tx, actor.id, "remove", "search_words", id, { words: removed.words });
+    return Boolean(removed);
+  });
 }
