@@ -1,4 +1,4 @@
-import { data, Form, Link, useNavigation } from "react-router";
+import { data, Form, Link, useNavigation, type ShouldRevalidateFunction } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/search-words";
 import { Field, FormError } from "~/components/forms";
@@ -11,6 +11,10 @@ import { groupProblem, MAX_WORDS, parseWordList } from "~/lib/search/synonyms";
 import { addWordGroup, removeWordGroup, updateWordGroup, WordGroupError, wordGroups, wordsPending } from "~/lib/search/words.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Search words · Benchreel" }];
+
+// After any change, refused ones included (a conflict answers 409), show the list as it is now.
+export const shouldRevalidate: ShouldRevalidateFunction = ({ formMethod, defaultShouldRevalidate }) =>
+  formMethod && formMethod.toUpperCase() !== "GET" ? true : defaultShouldRevalidate;
 
 const wordsField = z.string().trim().min(1, "Type the words or phrases that mean the same, separated by commas.").max(600, "Keep the group under 600 characters.");
 const addSchema = z.object({ intent: z.literal("add"), words: wordsField });

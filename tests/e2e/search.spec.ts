@@ -74,3 +74,35 @@ test("an editor adds a group of search words (a lone word is refused with a fiel
   await expect(page.getByText(`Saved: crank ${snout}, crankshaft ${nose}, crank ${third}.`)).toBeVisible();
   await expect(page.getByTestId("word-group").filter({ hasText: `crank ${third}` }).getByRole("listitem")).toHaveCount(3);
 });
+
+test("two editors change one group: the later save shows the group as it is now and keeps the typed words", async ({ browser }) => {
+  const tag = Date.now().toString(36).replace(/[0-9]/g, (d) => "abcdefghij"[Number(d)]);
+  const open = async (email: string) => {
+    const page = await (await browser.newContext()).newPage();
+    await signIn(page, email);
+    await page.goto("/search/words");
+    return page;
+  };
+  const first = await open("priya@larkspur.example");
+  const add = first.locator("form").filter({ has: first.getByRole("heading", { name: "Add a group" }) });
+  await add.getByLabel("Words that mean the same").fill(`sump${tag}, oil pan${tag}`);
+  await add.getByRole("button", { name: "Add the group" }).click();
+  await expect(first.getByText(`Added: sump${tag}, oil pan${tag}.`)).toBeVisible();
+  const second = await open("dana@larkspur.example");
+
+  const mine = first.getByTestId("word-group").filter({ hasText: `sump${tag}` });
+  await mine.getByText("Change these words").click();
+  await mine.getByLabel("Words that mean the same").fill(`sump${tag}, oil pan${tag}, drip tray${tag}`);
+  const theirs = second.getByTestId("word-group").filter({ hasText: `sump${tag}` });
+  await theirs.getByText("Change these words").click();
+  await theirs.getByLabel("Words that mean the same").fill(`sump${tag}, oil pan${tag}, crankcase bottom${tag}`);
+  await theirs.getByRole("button", { name: "Save the group" }).click();
+  await expect(second.getByText("Saved:")).toBeVisible();
+
+  await mine.getByRole("button", { name: "Save the group" }).click();
+  await expect(mine.getByRole("alert")).toContainText("Someone changed this group while you were editing it");
+  await expect(mine.getByRole("listitem")).toHaveText([`sump${tag}`, `oil pan${tag}`, `crankcase bottom${tag}`]); // the list as it is now
+  await expect(mine.getByLabel("Words that mean the same")).toHaveValue(`sump${tag}, oil pan${tag}, drip tray${tag}`);
+  await mine.getByRole("button", { name: "Save the group" }).click(); // on purpose this time
+  await expect(first.getByText(`Saved: sump${tag}, oil pan${tag}, drip tray${tag}.`)).toBeVisible();
+});
