@@ -76,8 +76,7 @@ function handle(req, res) {
     const pathname = (req.url ?? "/").split("?")[0];
     if (pathname.startsWith(assetsPrefix)) {
       // serve-static resolves against the folder it was given: hand it the path below assets/.
-      const full = req.url;
-      req.url = full.slice(assetsPrefix.length - 1);
+      req.url = req.url.slice(assetsPrefix.length - 1);
       return assets(req, res, (err) => staticError(res, err));
     }
     if (topLevelFiles.has(pathname) && (req.method === "GET" || req.method === "HEAD")) {

@@ -75,11 +75,6 @@ export default function Search({ loaderData }: Route.ComponentProps) {
         <EmptyState title="Search the shop's knowledge">
           Procedures, specs, marks in recordings, readings and recordings. Typos and word starts are fine; numbers and sizes too (“0.0035”, “M12x1.5”).
           {loaderData.examples.length ? <> Trade words match each other, e.g. {loaderData.examples.map((g) => g.join(" ↔ ")).join("; ")}.</> : null}
-          {loaderData.canEditWords && (
-            <p className="mt-3">
-              <Link to="/search/words">Edit the shop's search words</Link>
-            </p>
-          )}
         </EmptyState>
       )}
       {result && (

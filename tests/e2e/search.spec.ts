@@ -53,7 +53,7 @@ test("an editor adds a group of search words (a lone word is refused with a fiel
   const tag = Date.now().toString(36).replace(/[0-9]/g, (d) => "abcdefghij"[Number(d)]);
   const [snout, nose, third] = [`snout${tag}`, `nose${tag}`, `front${tag}`];
   await page.goto("/search");
-  await page.getByRole("link", { name: "Edit the shop's search words" }).click();
+  await page.getByRole("link", { name: "Edit search words" }).click();
   await expect(page.getByRole("heading", { name: "Search words", level: 1 })).toBeVisible();
   const add = page.locator("form").filter({ has: page.getByRole("heading", { name: "Add a group" }) });
   // A word on its own is not a group: the field says so and keeps what was typed.
