@@ -94,10 +94,16 @@ export type SessionUser = {
   unitSystem: "metric" | "inch";
 };
 
-type Validated = { user: SessionUser; session: Session } | null;
-const cache = new WeakMap<Request, Promise<Validated>>();
+/**
+ * What the session checks read of a request: its URL and its headers (the cookie). A fetch
+ * Request is one; server.js hands the search API a plain one (docs/decisions/008).
+ */
+export type RequestLike = { readonly url: string; readonly headers: Pick<Headers, "get"> };
 
-function readSessionId(request: Request): string | null {
+type Validated = { user: SessionUser; session: Session } | null;
+const cache = new WeakMap<RequestLike, Promise<Validated>>();
+
+function readSessionId(request: RequestLike): string | null {
   return lucia().readSessionCookie(request.headers.get("cookie") ?? "");
 }
 
@@ -121,7 +127,7 @@ onNotify(SESSIONS_CHANNEL, forgetValidatedSessions);
 onNotify(CONTENT_CHANNEL, forgetValidatedSessions); // people's names, roles and deactivation live in users
 onListenerReset(forgetValidatedSessions);
 
-async function validate(request: Request): Promise<Validated> {
+async function validate(request: RequestLike): Promise<Validated> {
   const id = readSessionId(request);
   if (!id) return null;
   const now = Date.now();
@@ -148,14 +154,14 @@ async function validate(request: Request): Promise<Validated> {
 }
 
 /** A 503 the ErrorBoundary shows as "database unavailable" instead of a stack trace. */
-export function databaseUnavailable(request?: Request) {
+export function databaseUnavailable(request?: RequestLike) {
   const reason = "The shop database is not answering. Try again in a minute; if it persists, tell the admin.";
   if (request && isApi(request)) return Response.json({ error: "database unavailable", reason }, { status: 503 });
   return data({ message: reason }, { status: 503 });
 }
 
 /** The signed-in person for this request, or null. Validated once per request. */
-export function getSession(request: Request): Promise<Validated> {
+export function getSession(request: RequestLike): Promise<Validated> {
   let p = cache.get(request);
   if (!p) {
     const run = () =>
@@ -170,16 +176,16 @@ export function getSession(request: Request): Promise<Validated> {
   return p;
 }
 
-export async function getUser(request: Request): Promise<SessionUser | null> {
+export async function getUser(request: RequestLike): Promise<SessionUser | null> {
   return (await getSession(request))?.user ?? null;
 }
 
-function isApi(request: Request) {
+function isApi(request: RequestLike) {
   return new URL(request.url).pathname.startsWith("/api/");
 }
 
 /** Throws 401 (API) or a redirect to sign-in with a return path (pages). */
-export async function requireUser(request: Request): Promise<SessionUser> {
+export async function requireUser(request: RequestLike): Promise<SessionUser> {
   const user = await getUser(request);
   if (user) return user;
   if (isApi(request)) throw Response.json({ error: "sign-in required" }, { status: 401 });
@@ -188,19 +194,19 @@ export async function requireUser(request: Request): Promise<SessionUser> {
   throw redirect(`/signin?next=${encodeURIComponent(next)}`);
 }
 
-export function forbidden(request: Request, reason: string): never {
+export function forbidden(request: RequestLike, reason: string): never {
   if (isApi(request)) throw Response.json({ error: "forbidden", reason }, { status: 403 });
   throw data({ message: reason }, { status: 403 });
 }
 
-export function assertCan(request: Request, user: SessionUser, permission: Permission): void {
+export function assertCan(request: RequestLike, user: SessionUser, permission: Permission): void {
   if (!can(user.role, permission)) {
     forbidden(request, `Your role cannot do this (needs “${permission}”).`);
   }
 }
 
 /** The guard at the top of every loader and action: signed in, and allowed. */
-export async function requirePermission(request: Request, permission: Permission): Promise<SessionUser> {
+export async function requirePermission(request: RequestLike, permission: Permission): Promise<SessionUser> {
   const user = await requireUser(request);
   assertCan(request, user, permission);
   return user;
@@ -285,7 +291,7 @@ export async function endAllSessions(userId: string): Promise<void> {
 }
 
 /** Cookie to set when lucia extended the session, for the root middleware. */
-export async function refreshedCookie(request: Request): Promise<string | null> {
+export async function refreshedCookie(request: RequestLike): Promise<string | null> {
   const v = await getSession(request);
   if (v?.session.fresh) return lucia().createSessionCookie(v.session.id).serialize();
   return null;

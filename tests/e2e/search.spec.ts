@@ -15,9 +15,18 @@ test("the header box shows grouped results as you type; a mark hit opens the pla
     await page.keyboard.press("/");
     await expect(page.locator("#header-search")).toBeFocused({ timeout: 500 });
   }).toPass({ timeout: 10_000 });
+  // The box's fetcher asks /api/search for plain JSON (the path server.js answers directly),
+  // never React Router's `.data` request.
+  const asked: string[] = [];
+  page.on("request", (r) => {
+    const u = new URL(r.url());
+    if (u.pathname.startsWith("/api/search")) asked.push(u.pathname);
+  });
   await page.keyboard.type("stud 4 reads 51");
   const dropdown = page.getByTestId("search-dropdown");
   await expect(dropdown.getByRole("heading", { name: "Marks in recordings" })).toBeVisible({ timeout: 20_000 });
+  expect(asked.length).toBeGreaterThan(0);
+  expect([...new Set(asked)]).toEqual(["/api/search"]);
   const hit = dropdown.getByTestId("search-hit").filter({ hasText: "Final pass 110" }).first();
   await expect(hit).toContainText("at 0:18");
   await expect(hit.locator("mark").first()).toBeVisible(); // highlighted words

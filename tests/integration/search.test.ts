@@ -1,16 +1,19 @@
 // Search through the real meilisearch SDK against the local fake: visibility, marks with
 // times, synonyms, the outbox through an outage, and reindex equal to incremental indexing.
 import { randomUUID } from "node:crypto";
+import { createServer, request as nodeRequest } from "node:http";
+import type { AddressInfo } from "node:net";
 import { eq, isNull, sql } from "drizzle-orm";
+import { RouterContextProvider } from "react-router";
 import { describe, expect, it } from "vitest";
-import { marks, procedureRevisions, procedures, procedureSpecs, recordings, searchOutbox, users } from "~/db/schema";
+import { marks, procedureRevisions, procedures, procedureSpecs, recordings, searchOutbox, sessions, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { Meilisearch, MeilisearchApiError, MeilisearchRequestError } from "meilisearch";
 import { env } from "~/lib/env.server";
 import { INDEX_UID, searchErrorMessage, searchIndex } from "~/lib/search/client.server";
 import { HL_PRE } from "~/lib/search/highlight";
 import { reindexAll } from "~/lib/search/indexer.server";
-import { createUser, http, waitFor } from "../support/app";
+import { BASE_URL, createUser, http, waitFor } from "../support/app";
 
 const word = () => `zq${randomUUID().replace(/-/g, "").slice(0, 10)}`; // a term no other test uses
 
@@ -199,11 +202,95 @@ describe("search", () => {
     await expect(down.index(INDEX_UID).search("x")).rejects.toBeInstanceOf(MeilisearchRequestError);
   });
 
+  it("a service that takes the call and then says nothing fails it after the idle limit", async () => {
+    const { transport } = await import("~/lib/search/client.server");
+    const silent = createServer(() => {}); // reads the request, never answers
+    await new Promise<void>((r) => silent.listen(0, "127.0.0.1", r));
+    try {
+      const port = (silent.address() as AddressInfo).port;
+      const client = new Meilisearch({ host: `http://127.0.0.1:${port}`, httpClient: transport(300) });
+      const started = Date.now();
+      const err = await client.index(INDEX_UID).search("x").catch((e: unknown) => e);
+      expect(err).toBeInstanceOf(MeilisearchRequestError);
+      expect(((err as MeilisearchRequestError).cause as Error).message).toBe("the search service sent nothing for 300 ms");
+      expect(Date.now() - started).toBeGreaterThanOrEqual(250);
+    } finally {
+      silent.closeAllConnections();
+      silent.close();
+    }
+  });
+
   it("refuses bad parameters with 422 and a path", async () => {
     const u = await createUser("apprentice");
     const res = await http("/api/search?q=x&type=nonsense", { cookie: u.cookie });
     expect(res.status).toBe(422);
     const body = await res.json();
     expect(body.issues[0].path).toBe("type");
+  });
+
+  it("GET is answered without React Router exactly as the route's loader answers", async () => {
+    const builder = await createUser("builder");
+    const apprentice = await createUser("apprentice");
+    const term = word();
+    await makeProcedure({ state: "published", authorId: builder.id, title: `Lapping ${term}`, body: `lap the seat for ${term}` });
+    await makeProcedure({ state: "draft", authorId: builder.id, title: `Draft ${term}`, body: `not yet for ${term}` });
+    await indexed();
+    const { loader } = await import("~/routes/api/search");
+    const viaLoader = async (path: string, cookie?: string) => {
+      const res = await loader({ request: new Request(new URL(path, BASE_URL), { headers: cookie ? { cookie } : {} }), params: {}, context: new RouterContextProvider() } as never);
+      return { status: res.status, type: res.headers.get("content-type"), body: await res.json() };
+    };
+    const viaServer = async (path: string, cookie?: string) => {
+      const res = await http(path, { cookie });
+      return { status: res.status, type: res.headers.get("content-type"), body: await res.json(), res };
+    };
+    const same = (a: { body: { processingTimeMs?: number } }, b: { body: { processingTimeMs?: number } }) => expect({ ...b.body, processingTimeMs: 0 }).toEqual({ ...a.body, processingTimeMs: 0 });
+
+    for (const [who, cookie] of [["builder", builder.cookie], ["apprentice", apprentice.cookie]] as const) {
+      const a = await viaLoader(`/api/search?q=${term}`, cookie);
+      const b = await viaServer(`/api/search?q=${term}`, cookie);
+      expect([who, b.status, b.type]).toEqual([who, 200, "application/json"]);
+      same(a, b);
+      expect(b.body.hits.length).toBe(who === "builder" ? 2 : 1); // the draft only for its author
+      expect(b.res.headers.get("cache-control")).toBe("private, no-store");
+      expect(b.res.headers.get("x-content-type-options")).toBe("nosniff"); // server.js's security headers
+      expect(b.res.headers.get("server-timing")).toMatch(/search;dur=/);
+    }
+    // The refusals: signed out (401) and a bad parameter (422), with the same bodies.
+    const [a401, b401] = [await viaLoader(`/api/search?q=${term}`), await viaServer(`/api/search?q=${term}`)];
+    expect([a401.status, b401.status]).toEqual([401, 401]);
+    same(a401, b401);
+    const [a422, b422] = [await viaLoader("/api/search?q=x&type=nonsense", apprentice.cookie), await viaServer("/api/search?q=x&type=nonsense", apprentice.cookie)];
+    expect([a422.status, b422.status]).toEqual([422, 422]);
+    same(a422, b422);
+  });
+
+  it("HEAD goes through React Router's loader: the same status and type, no body", async () => {
+    const u = await createUser("apprentice");
+    const url = new URL(BASE_URL);
+    const res = await new Promise<{ status: number; type?: string; bytes: number }>((resolve, reject) => {
+      const req = nodeRequest({ host: url.hostname, port: url.port, method: "HEAD", path: "/api/search?q=torque", headers: { cookie: u.cookie } }, (r) => {
+        let bytes = 0;
+        r.on("data", (c: Buffer) => (bytes += c.length));
+        r.on("end", () => resolve({ status: r.statusCode ?? 0, type: r.headers["content-type"], bytes }));
+      });
+      req.on("error", reject);
+      req.end();
+    });
+    expect(res).toEqual({ status: 200, type: "application/json", bytes: 0 });
+  });
+
+  it("sends the cookie of a session lucia extended on the direct path, as the root middleware does elsewhere", async () => {
+    const u = await createUser("apprentice");
+    const id = decodeURIComponent(/br_session=([^;]+)/.exec(u.cookie)![1]);
+    // Less than half of the 30 days left: lucia extends the session on its next use.
+    await db().update(sessions).set({ expiresAt: sql`now() + interval '10 days'` }).where(eq(sessions.id, id));
+    const res = await http("/api/search?q=torque", { cookie: u.cookie });
+    expect(res.status).toBe(200);
+    const set = res.headers.getSetCookie().find((c) => c.startsWith("br_session="));
+    expect(set).toContain(id);
+    expect(set).toMatch(/HttpOnly/i);
+    const [row] = await db().select({ expiresAt: sessions.expiresAt }).from(sessions).where(eq(sessions.id, id));
+    expect(row.expiresAt.getTime()).toBeGreaterThan(Date.now() + 25 * 24 * 3600 * 1000);
   });
 });
