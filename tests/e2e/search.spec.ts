@@ -39,6 +39,20 @@ test("the header box shows grouped results as you type; a mark hit opens the pla
   expect(await page.evaluate(() => document.querySelector("video")!.currentTime)).toBeLessThan(18.6);
 });
 
+test("the header box says so when search cannot be reached, and the page stays as it was", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  const heading = await page.locator("h1").first().textContent();
+  await page.route("**/api/search?**", (route) => route.abort("connectionrefused"));
+  await page.locator("#header-search").fill("torque");
+  const dropdown = page.getByTestId("search-dropdown");
+  await expect(dropdown).toContainText("Search did not answer. Check the connection and type again.", { timeout: 10_000 });
+  await expect(page.locator("h1").first()).toHaveText(heading ?? ""); // no error page took over
+  // Back on the network, the next pause in typing brings results.
+  await page.unroute("**/api/search?**");
+  await page.locator("#header-search").fill("torq");
+  await expect(dropdown.getByTestId("search-hit").first()).toBeVisible({ timeout: 10_000 });
+});
+
 test("Enter opens the search page with facets and counts; a facet filters", async ({ page }) => {
   await signIn(page, "marcus@larkspur.example");
   await page.locator("#header-search").fill("torque");
