@@ -69,24 +69,24 @@ if (!direct.has("/api/search")) throw new Error("[server] the build exports no d
 
 /** What the session checks read of a request (app/lib/auth.server.ts RequestLike), from Node's. */
 function requestLike(req) {
-  const url = `http://${req.headers.host ?? `${host}:${port}`}${req.url}`;
+  const url = `http://${req.headers.host ?? "localhost"}${req.url}`;
   return { url, headers: { get: (name) => { const v = req.headers[name.toLowerCase()]; return v === undefined ? null : Array.isArray(v) ? v.join(", ") : v; } } };
 }
 
-function answerDirectly(answer, req, res) {
-  answer(requestLike(req)).then(
-    ({ status, headers, body }) => {
-      res.writeHead(status, headers);
-      res.end(body);
-    },
-    (err) => {
-      console.error("[server]", req.method, req.url, err);
-      if (res.headersSent) return res.destroy();
-      res.writeHead(500, { "Content-Type": "application/json" });
-      res.end(JSON.stringify({ error: "internal error", reason: "The server failed on this request; it is in the server log." }));
-    },
-  );
+async function answerDirectly(answer, req, res) {
+  try {
+    const { status, headers, body } = await answer(requestLike(req));
+    res.writeHead(status, headers);
+    res.end(body);
+  } catch (err) {
+    console.error("[server]", req.method, req.url, err);
+    if (res.headersSent) return res.destroy();
+    const body = JSON.stringify({ error: "internal error", reason: "The server failed on this request; the server log has the details." });
+    res.writeHead(500, { "Content-Type": "application/json", "Content-Length": Buffer.byteLength(body), "Cache-Control": "no-store" });
+    res.end(body);
+  }
 }
+
 const toReactRouter = createRequestListener((request) => handleRequest(request));
 
 /**
