@@ -36,8 +36,8 @@ export type SearchDoc = {
 const agentOptions = { keepAlive: true, maxSockets: 64, timeout: 4_000 };
 const agents = { http: new http.Agent(agentOptions), https: new https.Agent(agentOptions) };
 
-/** How long a call may wait with nothing arriving before it fails (ms). */
-export const SEARCH_IDLE_TIMEOUT_MS = 5_000;
+/** How long one call to the search service may take before it fails (ms). */
+export const SEARCH_TIMEOUT_MS = 5_000;
 
 /**
  * The SDK's transport (its `httpClient` option) on node:http with keep-alive connections:
@@ -48,16 +48,16 @@ export const SEARCH_IDLE_TIMEOUT_MS = 5_000;
  * error's `cause` (`searchErrorMessage` digs it out for logs and the outbox). A request that
  * fails on a reused keep-alive socket the service had just closed is sent once more: every call
  * the app makes (search, document upserts and deletes, settings, task polls) is safe to repeat.
- * A call fails when the service sends nothing for SEARCH_IDLE_TIMEOUT_MS (the socket's idle
- * timer; the SDK's own `timeout` would add a timer and an AbortController to every call).
+ * A call fails after SEARCH_TIMEOUT_MS, timed here with one timer (the SDK's own `timeout`
+ * adds an AbortController and its listeners to every call).
  */
-export const nodeHttpClient = transport(SEARCH_IDLE_TIMEOUT_MS);
+export const nodeHttpClient = transport(SEARCH_TIMEOUT_MS);
 
-/** The transport above with another idle limit (tests use a short one). */
-export function transport(idleTimeoutMs: number) {
+/** The transport above with another time limit (tests use a short one). */
+export function transport(timeoutMs: number) {
   return (input: Parameters<typeof fetch>[0], init: RequestInit = {}): Promise<unknown> =>
-    send(input, init, idleTimeoutMs).catch((err: Error & { reusedSocket?: boolean; code?: string }) => {
-      if (err.reusedSocket && (err.code === "ECONNRESET" || err.code === "EPIPE" || /socket hang up/.test(err.message))) return send(input, init, idleTimeoutMs);
+    send(input, init, timeoutMs).catch((err: Error & { reusedSocket?: boolean; code?: string }) => {
+      if (err.reusedSocket && (err.code === "ECONNRESET" || err.code === "EPIPE" || /socket hang up/.test(err.message))) return send(input, init, timeoutMs);
       throw err;
     });
 }
@@ -86,7 +86,7 @@ function headersOf(init: RequestInit): Record<string, string> {
   return plain;
 }
 
-function send(input: Parameters<typeof fetch>[0], init: RequestInit, idleTimeoutMs: number): Promise<unknown> {
+function send(input: Parameters<typeof fetch>[0], init: RequestInit, timeoutMs: number): Promise<unknown> {
   const url = input instanceof URL ? input : new URL(input instanceof Request ? input.url : input);
   const secure = url.protocol === "https:";
   const body = typeof init.body === "string" ? init.body : undefined;
@@ -114,12 +114,12 @@ function send(input: Parameters<typeof fetch>[0], init: RequestInit, idleTimeout
         });
       },
     );
-    // The call's time limit is the socket's idle time (a timer per call in the SDK cost more):
-    // a service that sends nothing for this long fails the call, which the SDK reports as a
-    // request error and the outbox retries.
-    req.setTimeout(idleTimeoutMs, () => {
-      req.destroy(Object.assign(new Error(`the search service sent nothing for ${idleTimeoutMs} ms`), { code: "ETIMEDOUT" }));
-    });
+    // The whole call, from here to the last byte (waiting for a socket included), has this long;
+    // then it fails, which the SDK reports as a request error and the outbox retries.
+    const deadline = setTimeout(() => {
+      req.destroy(Object.assign(new Error(`the search service did not answer within ${timeoutMs} ms`), { code: "ETIMEDOUT" }));
+    }, timeoutMs);
+    req.on("close", () => clearTimeout(deadline));
     req.on("error", (err: Error & { reusedSocket?: boolean }) => {
       err.reusedSocket = req.reusedSocket;
       reject(err);
