@@ -184,11 +184,13 @@ function isApi(request: RequestLike) {
   return new URL(request.url).pathname.startsWith("/api/");
 }
 
+const SIGNED_OUT_REASON = "You are signed out (the session ended or was closed). Sign in again.";
+
 /** Throws 401 (API) or a redirect to sign-in with a return path (pages). */
 export async function requireUser(request: RequestLike): Promise<SessionUser> {
   const user = await getUser(request);
   if (user) return user;
-  if (isApi(request)) throw Response.json({ error: "sign-in required" }, { status: 401 });
+  if (isApi(request)) throw Response.json({ error: "sign-in required", reason: SIGNED_OUT_REASON }, { status: 401 });
   const url = new URL(request.url);
   const next = url.pathname.replace(/\.data$/, "") + url.search;
   throw redirect(`/signin?next=${encodeURIComponent(next)}`);

@@ -70,7 +70,7 @@ describe("sign-in", () => {
   it("answers 401 JSON on the API and a sign-in redirect with the return path on pages", async () => {
     const api = await http("/api/me");
     expect(api.status).toBe(401);
-    expect(await api.json()).toEqual({ error: "sign-in required" });
+    expect(await api.json()).toEqual({ error: "sign-in required", reason: "You are signed out (the session ended or was closed). Sign in again." });
     const page = await http("/admin/people?x=1");
     expect(page.status).toBe(302);
     expect(page.headers.get("location")).toBe("/signin?next=%2Fadmin%2Fpeople%3Fx%3D1");
