@@ -8,18 +8,19 @@
  *   - a full reindex of 20,000 marks stored in PostgreSQL.
  */
 import { randomUUID } from "node:crypto";
+import { Agent, get as nodeGet } from "node:http";
 import { sql } from "drizzle-orm";
 import { marks, recordings, searchOutbox } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { Meilisearch } from "meilisearch";
 import { env } from "~/lib/env.server";
-import { INDEX_UID, SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
+import { INDEX_UID, nodeHttpClient, SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
 import { reindexAll } from "~/lib/search/indexer.server";
 import { currentSynonyms } from "~/lib/search/words.server";
 import { searchParamsSchema, searchRequest } from "~/lib/search/query.server";
 import { benchQueries, generateCorpus } from "../fakes/meili/bench";
 import { MeiliIndex } from "../fakes/meili/engine";
-import { createUser, http } from "../../tests/support/app";
+import { BASE_URL, createUser, http } from "../../tests/support/app";
 
 type Stat = { p50: number; p95: number; samples: number };
 const stat = (xs: number[]): Stat => {
@@ -63,32 +64,54 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   raw.updateSettings({ ...SEARCH_SETTINGS, synonyms: await currentSynonyms() } as unknown as Record<string, unknown>);
   raw.addDocuments(docs as unknown as Record<string, unknown>[], { primaryKey: "id" });
 
-  // The raw query goes through the SDK as anyone would set it up (its own fetch), not through
-  // the app's transport.
+  // The raw query goes through the SDK as anyone would set it up (its own fetch). Reported beside
+  // it: the same SDK on the app's own transport (node:http, app/lib/search/client.server.ts),
+  // which is part of what the app does faster and makes the raw query quicker too.
   const plain = new Meilisearch({ host: env().MEILI_HOST!, apiKey: env().MEILI_API_KEY }).index(INDEX_UID);
+  const keepAlive = new Agent({ keepAlive: true });
+  const ours = new Meilisearch({ host: env().MEILI_HOST!, apiKey: env().MEILI_API_KEY, httpClient: nodeHttpClient }).index(INDEX_UID);
   const apprentice = await createUser("apprentice");
   const params = (q: string) => ({ q, ...searchRequest({ ...apprentice, unitSystem: "inch" }, searchParamsSchema.parse({ q })) });
 
-  // One warm-up round over every case first, both paths alike: the first case measured must not
+  // One warm-up round over every case first, every path alike: the first case measured must not
   // pay for the indexing just done (collections in the fake, code not yet compiled in the app).
   for (const list of Object.values(queries)) {
     for (const q of list.slice(0, 10)) {
       await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie }).then((r) => r.arrayBuffer());
       await plain.search(q, params(q) as never);
+      await ours.search(q, params(q) as never);
     }
   }
 
-  const cases: Record<string, { api: Stat; sdk: Stat; raw: Stat; ratioP50: number; ratioP95: number; apiToSdkP50: number; apiToSdkP95: number; server: Record<string, number> }> = {};
+  const cases: Record<string, { api: Stat; sdk: Stat; sdkOurs: Stat; raw: Stat; ratioP50: number; ratioP95: number; apiToSdkP50: number; apiToSdkP95: number; apiToOursP50: number; apiNode: Stat; nodeToNodeP50: number; server: Record<string, number> }> = {};
   for (const [name, list] of Object.entries(queries)) {
     const apiTimes: number[] = [];
     const sdkTimes: number[] = [];
+    const oursTimes: number[] = [];
+    const apiNodeTimes: number[] = [];
     const rawTimes: number[] = [];
     const serverTimes: Record<string, number[]> = {}; // the app's own Server-Timing parts
-    // And a few of this case's own, the same for both paths, not measured.
+    // And a few of this case's own, the same for every path, not measured.
     for (const q of list.slice(0, 10)) {
       await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie }).then((r) => r.arrayBuffer());
       await plain.search(q, params(q) as never);
+      await ours.search(q, params(q) as never);
     }
+    // The API again from a node:http client with keep-alive, to compare with the SDK on the same
+    // kind of client (the app's transport): each side of that ratio then pays the same client.
+    const viaApiNode = async (q: string) => {
+      const a = performance.now();
+      const status = await new Promise<number>((resolve, reject) => {
+        const req = nodeGet(new URL(`/api/search?q=${encodeURIComponent(q)}`, BASE_URL), { agent: keepAlive, headers: { cookie: apprentice.cookie } }, (res) => {
+          res.on("data", () => {});
+          res.on("end", () => resolve(res.statusCode ?? 0));
+          res.on("error", reject);
+        });
+        req.on("error", reject);
+      });
+      apiNodeTimes.push(performance.now() - a);
+      if (status !== 200) throw new Error(`/api/search answered ${status} for "${q}"`);
+    };
     const viaApi = async (q: string) => {
       const a = performance.now();
       const res = await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: apprentice.cookie });
@@ -100,38 +123,46 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
       }
       if (res.status !== 200) throw new Error(`/api/search answered ${res.status} for "${q}"`);
     };
-    const viaSdk = async (q: string) => {
+    // The request is built before the clock starts (the API builds its own inside the server).
+    const viaSdk = async (q: string, p: object) => {
       const c = performance.now();
-      await plain.search(q, params(q) as never);
+      await plain.search(q, p as never);
       sdkTimes.push(performance.now() - c);
     };
+    const viaOurs = async (q: string, p: object) => {
+      const c = performance.now();
+      await ours.search(q, p as never);
+      oursTimes.push(performance.now() - c);
+    };
     for (const [i, q] of list.entries()) {
-      // Whichever asks second finds the fake's memory warm for that query: take turns.
-      if (i % 2 === 0) {
-        await viaApi(q);
-        await viaSdk(q);
-      } else {
-        await viaSdk(q);
-        await viaApi(q);
-      }
+      const p = params(q);
+      // Whoever asks later finds the fake's memory warm for that query: each goes first in turn.
+      const turn = [() => viaApi(q), () => viaSdk(q, p), () => viaApiNode(q), () => viaOurs(q, p)];
+      for (let k = 0; k < turn.length; k++) await turn[(i + k) % turn.length]();
       const b = performance.now();
-      raw.search(params(q) as never);
+      raw.search(p as never);
       rawTimes.push(performance.now() - b);
     }
     const api = stat(apiTimes);
     const sdk = stat(sdkTimes);
+    const sdkOurs = stat(oursTimes);
+    const apiNode = stat(apiNodeTimes);
     const r = stat(rawTimes);
     cases[name] = {
       api,
       sdk,
+      sdkOurs,
       raw: r,
       ratioP50: +(api.p50 / Math.max(r.p50, 0.01)).toFixed(2),
       ratioP95: +(api.p95 / Math.max(r.p95, 0.01)).toFixed(2),
       apiToSdkP50: +(api.p50 / Math.max(sdk.p50, 0.01)).toFixed(2),
       apiToSdkP95: +(api.p95 / Math.max(sdk.p95, 0.01)).toFixed(2),
+      apiToOursP50: +(api.p50 / Math.max(sdkOurs.p50, 0.01)).toFixed(2),
+      apiNode,
+      nodeToNodeP50: +(apiNode.p50 / Math.max(sdkOurs.p50, 0.01)).toFixed(2),
       server: Object.fromEntries(Object.entries(serverTimes).map(([k, v]) => [`${k}P50`, stat(v).p50])),
     };
-    log(`${name.padEnd(18)} /api/search p50 ${api.p50} p95 ${api.p95} ms | SDK→fake p50 ${sdk.p50} p95 ${sdk.p95} ms | in-process p50 ${r.p50} p95 ${r.p95} ms | api/raw p95 ${cases[name].ratioP95}, api/sdk p50 ${cases[name].apiToSdkP50} p95 ${cases[name].apiToSdkP95} | server p50 ${JSON.stringify(cases[name].server)}`);
+    log(`${name.padEnd(18)} /api/search p50 ${api.p50} p95 ${api.p95} ms | SDK→fake p50 ${sdk.p50} p95 ${sdk.p95} ms | SDK on our transport p50 ${sdkOurs.p50} ms | in-process p50 ${r.p50} p95 ${r.p95} ms | api/raw p95 ${cases[name].ratioP95}, api/sdk p50 ${cases[name].apiToSdkP50} p95 ${cases[name].apiToSdkP95}, api/ours p50 ${cases[name].apiToOursP50}, both on node:http p50 ${apiNode.p50} ÷ ${sdkOurs.p50} = ${cases[name].nodeToNodeP50} | server p50 ${JSON.stringify(cases[name].server)}`);
   }
 
   // The app's floor in the same run: a signed-in GET /api/me (HTTP, routing, session, JSON).
@@ -175,6 +206,8 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     // design with the service behind HTTP can approach (the round trip and JSON alone cost more).
     report: {
       "api ÷ SDK query to the fake, worst p95": worstOf((c) => c.apiToSdkP95),
+      "api ÷ SDK on the app's transport, worst p50": worstOf((c) => c.apiToOursP50),
+      "api ÷ SDK, both from node:http clients, worst p50": worstOf((c) => c.nodeToNodeP50),
       "api ÷ in-process engine, worst p50": worstOf((c) => c.ratioP50),
       "api ÷ in-process engine, worst p95": worstOf((c) => c.ratioP95),
     },
