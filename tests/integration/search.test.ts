@@ -265,6 +265,7 @@ describe("search", () => {
     expect([a401.status, b401.status]).toEqual([401, 401]);
     same(a401, b401);
     expect(b401.res.headers.get("server-timing")).toBe("direct");
+    expect(b401.res.headers.get("cache-control")).toBe("private, no-store"); // a refusal is never kept either
     const [a422, b422] = [await viaLoader("/api/search?q=x&type=nonsense", apprentice.cookie), await viaServer("/api/search?q=x&type=nonsense", apprentice.cookie)];
     expect([a422.status, b422.status]).toEqual([422, 422]);
     same(a422, b422);

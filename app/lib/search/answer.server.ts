@@ -25,7 +25,9 @@ export async function answerSearch(request: RequestLike): Promise<PlainAnswer> {
     user = await requirePermission(request, "search:use");
   } catch (thrown) {
     // The guard's refusals (401, 403, and 503 with the database down) are Responses.
-    if (thrown instanceof Response) return { status: thrown.status, headers: Object.fromEntries(thrown.headers), body: await thrown.text() };
+    if (thrown instanceof Response) {
+      return { status: thrown.status, headers: { "Cache-Control": "private, no-store", ...Object.fromEntries(thrown.headers) }, body: await thrown.text() };
+    }
     throw thrown;
   }
   const signedIn = performance.now();
