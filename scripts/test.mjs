@@ -96,6 +96,7 @@ try {
       SMTP_CONTROL_URL: `http://127.0.0.1:${smtpControlPort}`,
       SEARCH_CONTROL_URL: `http://127.0.0.1:${searchControlPort}`,
       SEARCH_RETRY_BASE_MS: "300",
+      SEARCH_CHECK_MS: "2000",
       BENCHREEL_RUN_DIR: runDir,
     };
     if ((await runWith(bin("tsx"), ["scripts/migrate.ts"], env)) !== 0) throw new Error("migrations failed");

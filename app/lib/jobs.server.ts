@@ -3,7 +3,7 @@ import { createTransport, drainOutbox } from "./mail.server";
 import { pool } from "./db.server";
 import { ensureRecordingJobs } from "./recordings/processing.server";
 import { cleanUpStaleUploads } from "./recordings/tus.server";
-import { drainSearchOutbox } from "./search/indexer.server";
+import { drainSearchOutbox, repairIndex } from "./search/indexer.server";
 
 /**
  * A periodic task of the worker: it is called every `everyMs`, never twice at once, and an
@@ -20,7 +20,13 @@ export function periodicTasks(): PeriodicTask[] {
     { name: "recordings-queue", everyMs: 5000, run: ensureRecordingJobs },
     // recordings: unfinished uploads older than 14 days are discarded
     { name: "recordings-stale-uploads", everyMs: 3_600_000, run: () => cleanUpStaleUploads() },
-    ...(env().MEILI_HOST ? [{ name: "search-outbox", everyMs: Number(process.env.SEARCH_POLL_MS ?? 500), run: () => drainSearchOutbox() }] : []),
+    ...(env().MEILI_HOST
+      ? [
+          { name: "search-outbox", everyMs: Number(process.env.SEARCH_POLL_MS ?? 500), run: () => drainSearchOutbox() },
+          // search: rebuilds the index when the service has lost it (replaced, reset)
+          { name: "search-index-check", everyMs: Number(process.env.SEARCH_CHECK_MS ?? 60_000), run: () => repairIndex() },
+        ]
+      : []),
   ];
 }
 

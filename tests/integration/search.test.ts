@@ -10,7 +10,7 @@ import { marks, procedureRevisions, procedures, procedureSpecs, recordings, sear
 import { db } from "~/lib/db.server";
 import { Meilisearch, MeilisearchApiError, MeilisearchRequestError } from "meilisearch";
 import { env } from "~/lib/env.server";
-import { INDEX_UID, searchErrorMessage, searchIndex } from "~/lib/search/client.server";
+import { INDEX_UID, SEARCH_SETTINGS, searchErrorMessage, searchIndex } from "~/lib/search/client.server";
 import { HL_PRE } from "~/lib/search/highlight";
 import { reindexAll } from "~/lib/search/indexer.server";
 import { BASE_URL, createUser, http, waitFor } from "../support/app";
@@ -140,6 +140,36 @@ describe("search", () => {
     await indexed();
     const { body } = await search(qc.cookie, term, "&type=mark&limit=50");
     expect(body.total).toBe(50);
+  });
+
+  it("rebuilds an index the search service has lost, or made again with its own defaults", async () => {
+    const builder = await createUser("builder");
+    const apprentice = await createUser("apprentice");
+    const term = word();
+    await makeProcedure({ state: "published", authorId: builder.id, title: `Deck height ${term}`, body: `measure the deck for ${term}` });
+    await indexed();
+    expect((await search(apprentice.cookie, term)).body.total).toBe(1);
+    const settingsAreOurs = async () => {
+      const s = await searchIndex().getSettings().catch(() => null);
+      return s?.searchableAttributes?.join() === SEARCH_SETTINGS.searchableAttributes.join();
+    };
+    const { searchClient } = await import("~/lib/search/client.server");
+
+    // 1. The service lost the index (a new or reset instance): nothing is findable.
+    await searchClient().deleteIndex(INDEX_UID).waitTask();
+    expect((await search(apprentice.cookie, term)).status).toBe(503);
+    // The worker's check (SEARCH_CHECK_MS, 2 s in tests) rebuilds it from PostgreSQL.
+    await waitFor(async () => (await search(apprentice.cookie, term)).body.total === 1, 20_000);
+    expect(await settingsAreOurs()).toBe(true);
+
+    // 2. Lost again, and a document arrived meanwhile: the service made a new index with its
+    //    own settings and that one document. That is rebuilt as well.
+    //    (Both queued before either is done: the service runs its tasks in order.)
+    await searchClient().deleteIndex(INDEX_UID);
+    await searchIndex().addDocuments([{ id: `stray-${term}`, kind: "mark", title: "stray", text: "stray", tags: [], visibility: ["all"], url: "/", date: 0 }], { primaryKey: "id" }).waitTask();
+    await waitFor(async () => (await settingsAreOurs()) && (await search(apprentice.cookie, term)).body.total === 1, 20_000);
+    // The stray document is not in the database, so the rebuild removed it.
+    expect((await search(apprentice.cookie, "stray")).body.hits.some((h) => h.id === `stray-${term}`)).toBe(false);
   });
 
   it("a full reindex from PostgreSQL equals the incremental index", async () => {

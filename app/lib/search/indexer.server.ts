@@ -1,7 +1,8 @@
 import { and, inArray, isNull, lte, sql } from "drizzle-orm";
 import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
-import { ensureIndex, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
+import { MeilisearchApiError } from "meilisearch";
+import { ensureIndex, SEARCH_SETTINGS, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
 import { allDocuments, buildChange } from "./documents.server";
 import { currentSynonyms } from "./words.server";
 
@@ -135,4 +136,52 @@ export async function reindexAll(): Promise<{ documents: number; removed: number
   if (stale.length) await check(await index.deleteDocuments(stale).waitTask(), "delete stale");
   await db().update(searchOutbox).set({ doneAt: new Date() }).where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
   return { documents: docs.length, removed: stale.length };
+}
+
+/** The service's error code (`index_not_found`…) behind an SDK error, if the service sent one. */
+function serviceErrorCode(err: unknown): string | undefined {
+  for (let e: unknown = err, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth++) {
+    if (e instanceof MeilisearchApiError) return (e.cause as { code?: string } | undefined)?.code;
+  }
+  return undefined;
+}
+
+const sameList = (a: readonly string[] | null | undefined, b: readonly string[], ordered: boolean) =>
+  !!a && a.length === b.length && (ordered ? a.every((x, i) => x === b[i]) : b.every((x) => a.includes(x)));
+
+/**
+ * The worker's check that the search service still holds the shop's index (every
+ * SEARCH_CHECK_MS). The outbox sends only changes, so a service replaced or reset while
+ * nothing changed would otherwise stay empty until someone ran `npm run reindex`. When the
+ * index is missing, or its settings are not ours (the service makes an index with its
+ * defaults when documents arrive for one it does not have), the index is rebuilt in full
+ * from PostgreSQL. A service that does not answer is left to the outbox's retries.
+ */
+export async function repairIndex(): Promise<"ok" | "rebuilt" | "unreachable"> {
+  let lost: string | null = null;
+  try {
+    const settings = await searchIndex().getSettings();
+    const ours =
+      sameList(settings.searchableAttributes as string[] | null | undefined, SEARCH_SETTINGS.searchableAttributes, true) &&
+      sameList(settings.filterableAttributes as string[] | null | undefined, SEARCH_SETTINGS.filterableAttributes, false);
+    if (!ours) lost = "its settings are not the app's";
+  } catch (err) {
+    if (serviceErrorCode(err) !== "index_not_found") return "unreachable";
+    lost = "it has no index";
+  }
+  if (!lost) return "ok";
+  // Waits for a drain in progress (which holds the same lock), and keeps drains out meanwhile.
+  const client = await pool().connect();
+  try {
+    await client.query("select pg_advisory_lock($1)", [LOCK_KEY]);
+    try {
+      const { documents } = await reindexAll();
+      console.log(`[search] rebuilt the index (${documents} documents): the search service had lost it (${lost})`);
+      return "rebuilt";
+    } finally {
+      await client.query("select pg_advisory_unlock($1)", [LOCK_KEY]);
+    }
+  } finally {
+    client.release();
+  }
 }
