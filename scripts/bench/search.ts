@@ -8,6 +8,7 @@
  *   - a full reindex of 20,000 marks stored in PostgreSQL.
  */
 import { randomUUID } from "node:crypto";
+import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import { Agent, get as nodeGet } from "node:http";
 import { sql } from "drizzle-orm";
@@ -16,7 +17,7 @@ import { db } from "~/lib/db.server";
 import { Meilisearch } from "meilisearch";
 import { env } from "~/lib/env.server";
 import { INDEX_UID, nodeHttpClient, SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
-import { reindexAll } from "~/lib/search/indexer.server";
+import { reindexAll, repairIndex, withSearchLock } from "~/lib/search/indexer.server";
 import { currentSynonyms } from "~/lib/search/words.server";
 import { searchParamsSchema, searchRequest } from "~/lib/search/query.server";
 import { benchQueries, generateCorpus } from "../fakes/meili/bench";
@@ -31,23 +32,19 @@ const stat = (xs: number[]): Stat => {
 };
 
 /**
- * Resident memory of the search fake's process (the one listening on MEILI_HOST's port), read
- * from /proc: the whole process, engine, HTTP server and Node itself. Null when not found.
+ * Resident memory of the search fake (the process listening on MEILI_HOST's port, found with
+ * `ss`), read from /proc, in MB of 10^6 bytes. Null when not found.
  */
 function searchFakeRssMB(): number | null {
   const port = new URL(env().MEILI_HOST!).port;
-  let largest: number | null = null; // tsx's launcher and the process it starts both match
-  for (const pid of fs.readdirSync("/proc").filter((d) => /^\d+$/.test(d))) {
-    try {
-      const cmd = fs.readFileSync(`/proc/${pid}/cmdline`, "utf8").split("\0");
-      if (!cmd.some((a) => a.endsWith("fakes/meili/server.ts")) || cmd[cmd.indexOf("--port") + 1] !== port) continue;
-      const kB = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, "utf8"))?.[1];
-      if (kB) largest = Math.max(largest ?? 0, Math.round(Number(kB) / 1024));
-    } catch {
-      // a process that ended meanwhile, or one we may not read
-    }
+  const pid = /pid=(\d+)/.exec(spawnSync("ss", ["-Hltnp", `sport = :${port}`], { encoding: "utf8" }).stdout ?? "")?.[1];
+  if (!pid) return null;
+  try {
+    const kB = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, "utf8"))?.[1];
+    return kB ? Math.round((Number(kB) * 1024) / 1e6) : null;
+  } catch {
+    return null;
   }
-  return largest;
 }
 
 export async function benchSearch(opts: { docs?: number; samples?: number; log?: (s: string) => void } = {}) {
@@ -70,6 +67,12 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     date: now,
   }));
 
+  // The worker's index check rebuilds a fresh service's index from PostgreSQL once, which also
+  // removes documents that are not in the database, such as these. Let it happen first.
+  await new Promise((r) => setTimeout(r, Number(process.env.SEARCH_CHECK_MS ?? 2000) * 1.5));
+  await withSearchLock(async () => {});
+  await repairIndex();
+
   // Indexing through the SDK into the app's index, timed until every task succeeded.
   const index = searchIndex();
   const t0 = performance.now();
@@ -78,6 +81,8 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     if (task.status !== "succeeded") throw new Error(`indexing failed: ${task.error?.message}`);
   }
   const indexingMs = performance.now() - t0;
+  const held = (await index.getStats()).numberOfDocuments;
+  if (held < N) throw new Error(`the index holds ${held} documents after indexing ${N}: something removed some`);
   log(`indexed ${N} documents through the SDK in ${(indexingMs / 1000).toFixed(1)} s`);
   const fakeRssMB = searchFakeRssMB();
   log(`the search fake's resident memory after indexing: ${fakeRssMB ?? "?"} MB`);

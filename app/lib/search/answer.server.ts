@@ -26,7 +26,8 @@ export async function answerSearch(request: RequestLike): Promise<PlainAnswer> {
   } catch (thrown) {
     // The guard's refusals (401, 403, and 503 with the database down) are Responses.
     if (thrown instanceof Response) {
-      return { status: thrown.status, headers: { "Cache-Control": "private, no-store", ...Object.fromEntries(thrown.headers) }, body: await thrown.text() };
+      // Header names come lower-cased from a Response; ours is set last so it is the only one.
+      return { status: thrown.status, headers: { ...Object.fromEntries(thrown.headers), "cache-control": "private, no-store" }, body: await thrown.text() };
     }
     throw thrown;
   }

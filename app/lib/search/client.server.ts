@@ -151,18 +151,22 @@ export const SEARCH_SETTINGS = {
 
 /**
  * Creates the index (if missing) and applies the settings with the shop's search words as its
- * synonyms (app/lib/search/words.server.ts); waits for both tasks.
+ * synonyms (app/lib/search/words.server.ts); waits for both tasks. Resolves to whether it had
+ * to create the index (then whatever it held before is gone: see repairIndex).
  */
-export async function ensureIndex(): Promise<void> {
+export async function ensureIndex(): Promise<{ created: boolean }> {
   const c = searchClient();
+  let created = false;
   try {
     await c.getIndex(INDEX_UID);
   } catch {
-    const created = await c.createIndex(INDEX_UID, { primaryKey: "id" }).waitTask();
-    if (created.status === "failed" && created.error?.code !== "index_already_exists") {
-      throw new Error(`search index could not be created: ${created.error?.message}`);
+    const task = await c.createIndex(INDEX_UID, { primaryKey: "id" }).waitTask();
+    if (task.status === "failed" && task.error?.code !== "index_already_exists") {
+      throw new Error(`search index could not be created: ${task.error?.message}`);
     }
+    created = task.status === "succeeded";
   }
   const task = await searchIndex().updateSettings({ ...SEARCH_SETTINGS, synonyms: await currentSynonyms() }).waitTask();
   if (task.status !== "succeeded") throw new Error(`search settings failed: ${task.error?.message ?? task.status}`);
+  return { created };
 }

@@ -9,6 +9,8 @@ import { currentSynonyms } from "./words.server";
 const LOCK_KEY = 74_210_001; // one drainer at a time across workers
 
 let indexReady = false;
+/** Set when this process found the index lost; cleared by a full rebuild that succeeded. */
+let rebuildOwed = false;
 
 async function check(task: { status: string; error?: { message?: string } | null }, what: string) {
   if (task.status !== "succeeded") throw new Error(`${what}: ${task.error?.message ?? task.status}`);
@@ -54,7 +56,9 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
       const ids = pending.map((p) => p.id);
       try {
         if (!indexReady) {
-          await ensureIndex();
+          // An index made anew here means the service lost the old one: only these changes
+          // would reach it, so the index check owes a full rebuild.
+          if ((await ensureIndex()).created) rebuildOwed = true;
           indexReady = true;
         }
         const seen = new Set<string>();
@@ -117,8 +121,13 @@ export async function searchBacklog(): Promise<{ pending: number; lastError: str
 /**
  * Full rebuild from PostgreSQL (idempotent): every document is written again and documents
  * of records that no longer exist are removed. Outbox rows older than the rebuild are done.
+ * Holds the search lock, so the drainer and other rebuilds wait (`npm run reindex` too).
  */
-export async function reindexAll(): Promise<{ documents: number; removed: number }> {
+export function reindexAll(): Promise<{ documents: number; removed: number }> {
+  return withSearchLock(rebuild);
+}
+
+async function rebuild(): Promise<{ documents: number; removed: number }> {
   const startedAt = new Date();
   await ensureIndex();
   indexReady = true;
@@ -135,7 +144,32 @@ export async function reindexAll(): Promise<{ documents: number; removed: number
   }
   if (stale.length) await check(await index.deleteDocuments(stale).waitTask(), "delete stale");
   await db().update(searchOutbox).set({ doneAt: new Date() }).where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
+  rebuildOwed = false;
   return { documents: docs.length, removed: stale.length };
+}
+
+/**
+ * Runs `fn` holding the lock the drainer takes (a PostgreSQL advisory lock, across processes).
+ * Waits for it up to `waitMs` (a drain takes milliseconds, a rebuild seconds), then fails.
+ */
+export async function withSearchLock<T>(fn: () => Promise<T>, waitMs = 120_000): Promise<T> {
+  const client = await pool().connect();
+  try {
+    const until = Date.now() + waitMs;
+    for (;;) {
+      const { rows } = await client.query<{ locked: boolean }>("select pg_try_advisory_lock($1) as locked", [LOCK_KEY]);
+      if (rows[0]?.locked) break;
+      if (Date.now() > until) throw new Error(`the search index stayed busy for ${Math.round(waitMs / 1000)} s (another rebuild?)`);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    try {
+      return await fn();
+    } finally {
+      await client.query("select pg_advisory_unlock($1)", [LOCK_KEY]);
+    }
+  } finally {
+    client.release();
+  }
 }
 
 /** The service's error code (`index_not_found`…) behind an SDK error, if the service sent one. */
@@ -146,42 +180,45 @@ function serviceErrorCode(err: unknown): string | undefined {
   return undefined;
 }
 
+let lastUnreachable: string | null = null;
+
 const sameList = (a: readonly string[] | null | undefined, b: readonly string[], ordered: boolean) =>
   !!a && a.length === b.length && (ordered ? a.every((x, i) => x === b[i]) : b.every((x) => a.includes(x)));
 
 /**
  * The worker's check that the search service still holds the shop's index (every
  * SEARCH_CHECK_MS). The outbox sends only changes, so a service replaced or reset while
- * nothing changed would otherwise stay empty until someone ran `npm run reindex`. When the
- * index is missing, or its settings are not ours (the service makes an index with its
- * defaults when documents arrive for one it does not have), the index is rebuilt in full
- * from PostgreSQL. A service that does not answer is left to the outbox's retries.
+ * nothing changed would otherwise stay empty until someone ran `npm run reindex`. The index
+ * is rebuilt in full from PostgreSQL when it is missing, when its settings are not ours (the
+ * service makes an index with its defaults when documents arrive for one it does not have),
+ * when the drainer had to create it after an outage, or when an earlier rebuild failed. A
+ * service that does not answer is left to the outbox's retries (said once in the log).
  */
 export async function repairIndex(): Promise<"ok" | "rebuilt" | "unreachable"> {
-  let lost: string | null = null;
+  let lost: string | null = rebuildOwed ? "the index was made anew, or a rebuild had failed" : null;
   try {
     const settings = await searchIndex().getSettings();
     const ours =
       sameList(settings.searchableAttributes as string[] | null | undefined, SEARCH_SETTINGS.searchableAttributes, true) &&
       sameList(settings.filterableAttributes as string[] | null | undefined, SEARCH_SETTINGS.filterableAttributes, false);
-    if (!ours) lost = "its settings are not the app's";
+    if (!ours) lost ??= "its settings are not the app's";
   } catch (err) {
-    if (serviceErrorCode(err) !== "index_not_found") return "unreachable";
+    if (serviceErrorCode(err) !== "index_not_found") {
+      const why = searchErrorMessage(err);
+      if (why !== lastUnreachable) console.error(`[search] index check: the search service is not answering (${why})`);
+      lastUnreachable = why;
+      return "unreachable";
+    }
     lost = "it has no index";
   }
+  lastUnreachable = null;
   if (!lost) return "ok";
-  // Waits for a drain in progress (which holds the same lock), and keeps drains out meanwhile.
-  const client = await pool().connect();
+  rebuildOwed = true; // until a rebuild succeeds
   try {
-    await client.query("select pg_advisory_lock($1)", [LOCK_KEY]);
-    try {
-      const { documents } = await reindexAll();
-      console.log(`[search] rebuilt the index (${documents} documents): the search service had lost it (${lost})`);
-      return "rebuilt";
-    } finally {
-      await client.query("select pg_advisory_unlock($1)", [LOCK_KEY]);
-    }
-  } finally {
-    client.release();
+    const { documents } = await reindexAll();
+    console.log(`[search] rebuilt the index (${documents} documents): ${lost}`);
+    return "rebuilt";
+  } catch (err) {
+    throw new Error(`rebuilding the lost index failed, tried again at the next check: ${searchErrorMessage(err)}`);
   }
 }
