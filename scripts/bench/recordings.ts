@@ -9,10 +9,11 @@
 // --env pointing at the env.json that `npm test -- --keep` writes). Targets (issue 4): upload
 // ≥ 60 % of the raw write speed; server memory grows by < 150 MB during a 2 GB upload; Range
 // time to first byte p95 ≤ 10 ms.
-import { execFileSync, spawnSync } from "node:child_process";
+import { execFileSync } from "node:child_process";
 import { randomBytes, randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
+import { listenerPid, rssBytes } from "./proc";
 
 export type RecordingsBenchOptions = {
   baseUrl: string;
@@ -52,20 +53,10 @@ const quantile = (xs: number[], q: number) => {
   return s[Math.min(s.length - 1, Math.max(0, Math.ceil(q * s.length) - 1))];
 };
 
-/** The pid listening on the app's port (the `node server.js` process). */
-function serverPid(port: number): number | null {
-  const out = spawnSync("ss", ["-Hltnp", `sport = :${port}`], { encoding: "utf8" }).stdout ?? "";
-  const m = /pid=(\d+)/.exec(out);
-  return m ? Number(m[1]) : null;
-}
-
+/** Resident memory in MiB, as the memory target is stated. */
 function rssMB(pid: number): number | null {
-  try {
-    const m = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, "utf8"));
-    return m ? Number(m[1]) / 1024 : null;
-  } catch {
-    return null;
-  }
+  const bytes = rssBytes(pid);
+  return bytes === null ? null : bytes / 1024 / 1024;
 }
 
 /** A source file: a tiny faststart H.264 clip (so the app accepts it as a video) padded with random bytes. */
@@ -163,7 +154,7 @@ export async function benchRecordings(opts: RecordingsBenchOptions): Promise<Rec
   const disk = rawDisk(opts.uploadDir, size);
   log(`raw disk write (dd conv=fdatasync): ${disk.MBps.toFixed(0)} MB/s`);
 
-  const pid = serverPid(Number(new URL(opts.baseUrl).port));
+  const pid = listenerPid(Number(new URL(opts.baseUrl).port)); // the `node server.js` process
   const rssBefore = pid ? rssMB(pid) : null;
   let peak = rssBefore;
   const sampler = setInterval(() => {

@@ -8,8 +8,6 @@
  *   - a full reindex of 20,000 marks stored in PostgreSQL.
  */
 import { randomUUID } from "node:crypto";
-import { spawnSync } from "node:child_process";
-import fs from "node:fs";
 import { Agent, get as nodeGet } from "node:http";
 import { sql } from "drizzle-orm";
 import { marks, recordings, searchOutbox } from "~/db/schema";
@@ -22,6 +20,7 @@ import { currentSynonyms } from "~/lib/search/words.server";
 import { searchParamsSchema, searchRequest } from "~/lib/search/query.server";
 import { benchQueries, generateCorpus } from "../fakes/meili/bench";
 import { MeiliIndex } from "../fakes/meili/engine";
+import { listenerPid, rssBytes } from "./proc";
 import { BASE_URL, createUser, http } from "../../tests/support/app";
 
 type Stat = { p50: number; p95: number; samples: number };
@@ -31,20 +30,11 @@ const stat = (xs: number[]): Stat => {
   return { p50: +at(0.5).toFixed(2), p95: +at(0.95).toFixed(2), samples: s.length };
 };
 
-/**
- * Resident memory of the search fake (the process listening on MEILI_HOST's port, found with
- * `ss`), read from /proc, in MB of 10^6 bytes. Null when not found.
- */
+/** Resident memory of the search fake (the process listening on MEILI_HOST's port), in MB of 10^6 bytes. */
 function searchFakeRssMB(): number | null {
-  const port = new URL(env().MEILI_HOST!).port;
-  const pid = /pid=(\d+)/.exec(spawnSync("ss", ["-Hltnp", `sport = :${port}`], { encoding: "utf8" }).stdout ?? "")?.[1];
-  if (!pid) return null;
-  try {
-    const kB = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, "utf8"))?.[1];
-    return kB ? Math.round((Number(kB) * 1024) / 1e6) : null;
-  } catch {
-    return null;
-  }
+  const pid = listenerPid(Number(new URL(env().MEILI_HOST!).port));
+  const bytes = pid ? rssBytes(pid) : null;
+  return bytes === null ? null : Math.round(bytes / 1e6);
 }
 
 export async function benchSearch(opts: { docs?: number; samples?: number; log?: (s: string) => void } = {}) {

@@ -62,13 +62,25 @@ export function transport(timeoutMs: number) {
     });
 }
 
+/** The service's own error behind an SDK error (the SDK wraps a transport's), if it sent one. */
+function serviceError(err: unknown): MeilisearchApiError | undefined {
+  for (let e: unknown = err, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth++) {
+    if (e instanceof MeilisearchApiError) return e;
+  }
+  return undefined;
+}
+
+/** The service's error code (`index_not_found`…), if it sent one. */
+export function searchErrorCode(err: unknown): string | undefined {
+  return (serviceError(err)?.cause as { code?: string } | undefined)?.code;
+}
+
 /** The message of a search-service error, from the service's own error object when there is one. */
 export function searchErrorMessage(err: unknown): string {
-  for (let e: unknown = err, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth++) {
-    if (e instanceof MeilisearchApiError) {
-      const code = (e.cause as { code?: string } | undefined)?.code;
-      return code ? `${e.message} (${code})` : e.message;
-    }
+  const e = serviceError(err);
+  if (e) {
+    const code = searchErrorCode(e);
+    return code ? `${e.message} (${code})` : e.message;
   }
   return err instanceof Error ? err.message : String(err);
 }

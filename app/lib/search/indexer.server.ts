@@ -1,8 +1,7 @@
 import { and, inArray, isNull, lte, sql } from "drizzle-orm";
 import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
-import { MeilisearchApiError } from "meilisearch";
-import { ensureIndex, SEARCH_SETTINGS, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
+import { ensureIndex, SEARCH_SETTINGS, searchErrorCode, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
 import { allDocuments, buildChange } from "./documents.server";
 import { currentSynonyms } from "./words.server";
 
@@ -172,14 +171,6 @@ export async function withSearchLock<T>(fn: () => Promise<T>, waitMs = 120_000):
   }
 }
 
-/** The service's error code (`index_not_found`…) behind an SDK error, if the service sent one. */
-function serviceErrorCode(err: unknown): string | undefined {
-  for (let e: unknown = err, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth++) {
-    if (e instanceof MeilisearchApiError) return (e.cause as { code?: string } | undefined)?.code;
-  }
-  return undefined;
-}
-
 let lastUnreachable: string | null = null;
 
 const sameList = (a: readonly string[] | null | undefined, b: readonly string[], ordered: boolean) =>
@@ -203,7 +194,7 @@ export async function repairIndex(): Promise<"ok" | "rebuilt" | "unreachable"> {
       sameList(settings.filterableAttributes as string[] | null | undefined, SEARCH_SETTINGS.filterableAttributes, false);
     if (!ours) lost ??= "its settings are not the app's";
   } catch (err) {
-    if (serviceErrorCode(err) !== "index_not_found") {
+    if (searchErrorCode(err) !== "index_not_found") {
       const why = searchErrorMessage(err);
       if (why !== lastUnreachable) console.error(`[search] index check: the search service is not answering (${why})`);
       lastUnreachable = why;
