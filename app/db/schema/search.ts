@@ -1,4 +1,4 @@
-import { bigserial, index, integer, pgTable, text, timestamp, uuid } from "drizzle-orm/pg-core";
+import { bigserial, index, integer, pgTable, primaryKey, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import { users } from "./auth";
 
 /**
@@ -20,6 +20,27 @@ export const searchOutbox = pgTable(
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [index("search_outbox_pending_idx").on(t.doneAt, t.nextAttemptAt)],
+);
+
+/**
+ * Records the worker could not index (their documents could not be built, e.g. data the
+ * document builder cannot read), set aside with the reason so that they hold back no one
+ * else's changes. Admins see them on /admin/search and /healthz counts them. An entry goes
+ * when a later change of that record is indexed, or when an admin's "try again" succeeds.
+ * `kind` and `entity_id` are those of the outbox (mark, reading, revision…).
+ */
+export const searchSetAside = pgTable(
+  "search_set_aside",
+  {
+    kind: text("kind").notNull(),
+    entityId: text("entity_id").notNull(),
+    reason: text("reason").notNull(),
+    /** How many times indexing it failed (each change or "try again" is one more). */
+    attempts: integer("attempts").notNull().default(1),
+    firstAt: timestamp("first_at", { withTimezone: true }).notNull().defaultNow(),
+    lastAt: timestamp("last_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.kind, t.entityId] })],
 );
 
 /**
