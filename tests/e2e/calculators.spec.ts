@@ -48,6 +48,23 @@ test("Preload computes as you type, switches units consistently, marks past 90 %
   await expect(page.getByTestId("fit-summary")).toContainText("K = 0.200");
 });
 
+test("Preload names the thread's diameters as their standards do, and the fit's R² as the uncentred one", async ({ page }) => {
+  await signIn(page, "dana@larkspur.example", "/calculators/preload");
+  const figures = page.getByTestId("thread-figures");
+  // ISO 898-1: d3 = d − 1.226869·P is the minor diameter; M12x1.5 → 10.160 mm.
+  await expect(figures).toContainText("Minor diameter d3 = d − 1.226869·P");
+  await expect(figures).toContainText((12 - 1.226869 * 1.5).toFixed(3));
+  // ASME B1.1: As = 0.7854·(D − 0.9743·P)² averages d2 with D − 1.299038·P, not a minor diameter.
+  await page.getByLabel("Thread", { exact: true }).fill("1/2-13 UNC");
+  await expect(figures).toContainText("Stress-area diameter D − 1.299038·P");
+  await expect(figures).toContainText(((0.5 - 1.299038 / 13) * 25.4).toFixed(3));
+  await expect(figures).not.toContainText("Minor diameter");
+  await expect(figures).toContainText("basic minor diameter D − 1.082532·P");
+  // Points on a line through the origin fit it exactly: R² about zero (uncentred) is 1.
+  await page.getByLabel("Torque and measured clamp load, one pair a line").fill(["60, 25", "90, 37.5", "120, 50"].join("\n"));
+  await expect(page.getByTestId("fit-summary")).toContainText("R² through the origin (uncentred) 1.000");
+});
+
 test("Preload opens in inch units for a person who prefers them", async ({ page }) => {
   await signIn(page, "jamie@larkspur.example", "/calculators/preload");
   await expect(page.getByLabel("Tightening torque: unit")).toHaveValue("ft.lbf");
@@ -87,6 +104,16 @@ test("Clearances: cold and hot against the spec, out of spec in red, units switc
   await page.getByText("Ring end gap", { exact: true }).click();
   await expect(page.getByTestId("clearance-chart").getByRole("img")).toBeVisible();
   await expect(page.getByText("Shop guidance (common practice, no standard)")).toBeVisible();
+});
+
+test("Clearances: a piston hotter than where its alloy begins to melt is warned about in red", async ({ page }) => {
+  await signIn(page, "dana@larkspur.example", "/calculators/clearance");
+  await expect(page.getByTestId("result-hot")).toBeVisible();
+  // ASM Handbook Vol. 2: forged 2618 begins to melt at about 549 °C; 2,000 K is 1,726.85 °C.
+  await page.getByLabel("Piston running", { exact: true }).fill("1726.85");
+  const warning = page.getByTestId("calc-warnings").getByText(/piston temperature .* begins to melt/);
+  await expect(warning).toBeVisible();
+  await expect(warning).toHaveClass(/text-spec-red/);
 });
 
 test("Preload: bench points are saved as readings on a recording, paired for its nut-factor chart", async ({ page }) => {

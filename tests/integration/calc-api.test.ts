@@ -3,6 +3,7 @@
 // contract's formulas worked out here, not from the module.
 import { beforeAll, describe, expect, it } from "vitest";
 import { BASE_URL, createUser, http, type TestUser } from "../support/app";
+import { hotPistonToWall } from "../support/calc-inputs";
 
 let user: TestUser;
 beforeAll(async () => {
@@ -77,6 +78,16 @@ describe("POST /api/calc/preload", () => {
     const paths = (await res2.json()).issues.map((i: { path: string }) => i.path);
     expect(paths).toContain("thread");
     expect(paths).toContain("torque.unit");
+  });
+
+  // Names every plain JavaScript object inherits (ECMAScript, Object.prototype): a table
+  // looked up as a plain object used to find them, and the API answered 500.
+  it("422, not 500, for a property class named after Object.prototype's members", async () => {
+    for (const propertyClass of ["constructor", "__proto__", "toString"]) {
+      const res = await post("preload", { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 }, material: { propertyClass } });
+      expect(res.status, propertyClass).toBe(422);
+      expect((await res.json()).issues.map((i: { path: string }) => i.path)).toEqual(["material.propertyClass"]);
+    }
   });
 
   it("400 for malformed JSON", async () => {
@@ -214,6 +225,28 @@ describe("POST /api/calc/clearance", () => {
     expect((await res.json()).recommendedGap_mm).toBeCloseTo(88 * 0.0055, 9);
   });
 
+  it("422, not 500, for a piston or bore material named after Object.prototype's members", async () => {
+    for (const name of ["constructor", "__proto__"]) {
+      for (const which of ["pistonMaterial", "boreMaterial"]) {
+        const res = await post("clearance", hotPistonToWall({ [which]: name }));
+        expect(res.status, `${which} ${name}`).toBe(422);
+        expect((await res.json()).issues.map((i: { path: string }) => i.path)).toContain(`thermal.${which}`);
+      }
+    }
+  });
+
+  it("422 for a temperature below absolute zero (0 K = −459.67 °F, NIST SP 811 B.8)", async () => {
+    const res = await post("clearance", hotPistonToWall({ pistonTemperature: { value: -500, unit: "degF" } }));
+    expect(res.status).toBe(422);
+    expect((await res.json()).issues.map((i: { path: string }) => i.path)).toContain("thermal.pistonTemperature.value");
+  });
+
+  it("a 2618 piston at 2,000 K answers with a warning that the alloy would be melting (ASM Handbook Vol. 2: from about 549 °C)", async () => {
+    const res = await post("clearance", hotPistonToWall({ pistonTemperature: { value: 2000, unit: "K" } }));
+    expect(res.status).toBe(200);
+    expect((await res.json()).warnings.join(" ")).toMatch(/piston temperature .* begins to melt/);
+  });
+
   it("422 for an unknown kind, with the path", async () => {
     const res = await post("clearance", { kind: "valve-lash" });
     expect(res.status).toBe(422);
@@ -278,6 +311,32 @@ describe("calculator pages without JavaScript", () => {
     const page = await html(res);
     const thou = ((0.07 / 25.4) * 1000).toFixed(3); // 2.756
     expect(page).toMatch(new RegExp(`data-testid="result-clearance"[^>]*>${thou.replace(".", "\\.")}<`));
+  });
+
+  it("Clearances: a material named \"constructor\" is a field error (400), not a 500", async () => {
+    const res = await http("/calculators/clearance", {
+      cookie: user.cookie,
+      headers: { accept: "text/html" },
+      form: {
+        kind: "piston-to-wall",
+        "bore.value": "88.000",
+        "bore.unit": "mm",
+        "piston.value": "87.930",
+        "piston.unit": "mm",
+        "thermal.on": "on",
+        "thermal.ambient.value": "20",
+        "thermal.ambient.unit": "degC",
+        "thermal.boreTemperature.value": "95",
+        "thermal.boreTemperature.unit": "degC",
+        "thermal.pistonTemperature.value": "100",
+        "thermal.pistonTemperature.unit": "degC",
+        "thermal.boreMaterial": "grey-cast-iron",
+        "thermal.pistonMaterial": "constructor",
+        "out.small": "thou",
+      },
+    });
+    expect(res.status).toBe(400);
+    expect(await html(res)).toContain("Unknown material");
   });
 
   it("Bore distortion: the grid posts and the out-of-round comes back", async () => {

@@ -1,5 +1,5 @@
 import { useMemo, useState } from "react";
-import { THREAD_PRESETS, fitNutFactor, fromSI, isUnitCode, type NutFactorFit, type UnitCode } from "~/lib/calc";
+import { NUT_FACTOR_R_SQUARED_LABEL, THREAD_PRESETS, fitNutFactor, fromSI, isUnitCode, type NutFactorFit, type UnitCode } from "~/lib/calc";
 import { displayUnit, formatTime, quantityDef } from "~/lib/recordings/rules";
 import type { ReadingRow } from "./types";
 
@@ -141,7 +141,7 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
         <figcaption className="mt-1 space-y-1 text-sm">
           <p data-testid="nut-factor-result">
             Effective nut factor <span className="font-semibold">K = {fit.k.toFixed(3)}</span>
-            {fit.n > 1 && <> ± {fit.kStdDev.toFixed(3)} (1 s.d., {(fit.kCoefficientOfVariation * 100).toFixed(1)} % scatter)</>} · n = {fit.n} · R² = {fit.rSquared.toFixed(3)}
+            {fit.n > 1 && <> ± {fit.kStdDev.toFixed(3)} (1 s.d., {(fit.kCoefficientOfVariation * 100).toFixed(1)} % scatter)</>} · n = {fit.n} · {NUT_FACTOR_R_SQUARED_LABEL} = {fit.rSquared.toFixed(3)}
           </p>
           {fit.warnings.map((w) => <p key={w} className="text-graphite-soft">{w}</p>)}
           <p className="text-xs text-graphite-soft">Least-squares line through the origin, F = T / (K·d). Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.</p>

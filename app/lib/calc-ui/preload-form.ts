@@ -13,6 +13,7 @@ import {
   type NutFactorFit,
   type UnitCode,
   type PreloadResult,
+  type ThreadGeometry,
 } from "~/lib/calc";
 import { DEFAULT_UNITS, fieldValue, parseNumber, type UnitSystem } from "./units";
 import { readQuantity, runChecked, zodIssues, type FieldErrors, type FormValues, type Outcome } from "./outcome";
@@ -160,3 +161,16 @@ export function runPreloadForm(values: FormValues): PreloadOutcome {
 
 /** The modulus used when the grip has none (for the page's explanation). */
 export const DEFAULT_MODULUS_GPA = STEEL_MODULUS_GPA;
+
+/**
+ * The name of `d3_mm` on the page. For a metric thread it is the minor diameter; for a Unified
+ * thread it holds D − 1.299038·P, the second diameter of ASME B1.1's stress-area formula, below
+ * the thread's basic minor diameter (app/lib/calc/threads.ts).
+ */
+export function d3Label(system: ThreadGeometry["system"]): string {
+  return system === "unified" ? "Stress-area diameter D − 1.299038·P" : "Minor diameter d3 = d − 1.226869·P";
+}
+
+/** Why the Unified thread's second diameter is not called its minor diameter, for under the table. */
+export const UNIFIED_STRESS_AREA_NOTE =
+  "ASME B1.1's stress area 0.7854·(D − 0.9743·P)² is π/4 times the square of the mean of the pitch diameter d2 and D − 1.299038·P. That diameter is a term of the formula: it lies below the basic minor diameter D − 1.082532·P.";

@@ -1,4 +1,6 @@
 import { describe, expect, test } from "vitest";
+import { ZodError } from "zod";
+import { hotPistonToWall } from "../../../tests/support/calc-inputs";
 import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_FACTORS, calculateClearance, convert, materialById } from "./index";
 
 describe("thermal expansion coefficients against named handbook tables", () => {
@@ -19,6 +21,46 @@ describe("thermal expansion coefficients against named handbook tables", () => {
 
   test("every material names its handbook", () => {
     for (const m of MATERIALS) expect(m.source).toMatch(/Callister|ASM Handbook/);
+  });
+});
+
+describe("part temperatures a material's figures do not cover", () => {
+  const hot = (pistonTemperature: { value: number; unit: string }, pistonMaterial: unknown = "forged-2618", boreTemperature = { value: 95, unit: "degC" }) =>
+    calculateClearance(hotPistonToWall({ pistonTemperature, pistonMaterial, boreTemperature }) as never).warnings.join(" ");
+
+  test("every table material states the range of its coefficient and where it begins to melt, with a source", () => {
+    for (const m of MATERIALS) {
+      expect(m.alphaRange.source).toMatch(/ASM Handbook|Callister|common practice, no published source/);
+      expect(m.solidus.source).toMatch(/ASM Handbook|Callister/);
+      expect(m.alphaRange.minK).toBeLessThan(m.alphaRange.maxK);
+      expect(m.solidus.K).toBeGreaterThan(m.alphaRange.maxK);
+    }
+  });
+
+  test("a 2618 piston at 2,000 K is past where the alloy begins to melt (ASM Handbook Vol. 2: 2618 melts from about 549 °C)", () => {
+    expect(hot({ value: 2000, unit: "K" })).toMatch(/begins to melt/);
+    // just under and just over 549 °C (822.15 K)
+    expect(hot({ value: 545, unit: "degC" })).not.toMatch(/begins to melt/);
+    expect(hot({ value: 560, unit: "degC" })).toMatch(/begins to melt/);
+  });
+
+  test("a grey-iron bore past the iron–carbon eutectic, 1147 °C (Callister, Fe–Fe3C diagram)", () => {
+    expect(hot({ value: 90, unit: "degC" }, "forged-2618", { value: 1200, unit: "degC" })).toMatch(/bore temperature .* begins to melt/);
+  });
+
+  test("above 100 °C the 2618 coefficient (ASM: mean over 20–100 °C) is extrapolated: a warning, not a refusal", () => {
+    const w = hot({ value: 250, unit: "degC" });
+    expect(w).toMatch(/piston temperature \(250 °C\) is outside 20 °C to 100 °C/);
+    expect(hot({ value: 100, unit: "degC" })).not.toMatch(/outside/);
+    expect(hot({ value: 212, unit: "degF" })).not.toMatch(/outside/); // 212 °F = 100 °C (NIST SP 811, B.8)
+  });
+
+  test("a coefficient typed by the user has no known range: no such warning", () => {
+    expect(hot({ value: 250, unit: "degC" }, { alphaPerK: 22.3e-6 })).not.toMatch(/outside|melt/);
+  });
+
+  test("below absolute zero is refused, not warned about (0 K = −459.67 °F, NIST SP 811 B.8)", () => {
+    expect(() => hot({ value: -460, unit: "degF" })).toThrow(ZodError);
   });
 });
 

@@ -1,9 +1,10 @@
 /**
  * Clearances: piston-to-wall (optionally hot, with thermal growth ΔD = D·α·ΔT of each part),
  * bearing oil clearance (direct, or housing bore − 2 × shell thickness) and ring end gap from
- * a gap factor (shop guidance), each checked against an optional spec.
+ * a gap factor (shop guidance), each checked against an optional spec. Temperatures outside
+ * a table material's range, or past its melting point, are warned about.
  */
-import { OIL_CLEARANCE_RULE, materialById, resolveMaterialId } from "./materials";
+import { OIL_CLEARANCE_RULE, materialById, type MaterialId } from "./materials";
 import { clearanceInputSchema, type ClearanceInput } from "./schemas";
 import { toSI, type UnitCode } from "./units";
 
@@ -29,9 +30,31 @@ const fmt = (x: number) => `${Number(x.toPrecision(5))} mm (${Number((x / 25.4).
 /** Upper end of the default ring-gap band without a spec: recommended gap × this factor (shop guidance). */
 export const RING_GAP_BAND_FACTOR = 1.25;
 
-function alphaOf(ref: string | { alphaPerK: number }): number {
-  if (typeof ref === "string") return materialById(resolveMaterialId(ref)!).alphaPerK;
-  return ref.alphaPerK;
+function alphaOf(ref: MaterialId | { alphaPerK: number }): number {
+  return typeof ref === "string" ? materialById(ref).alphaPerK : ref.alphaPerK;
+}
+
+// A limit typed in another unit lands a rounding error away from it (212 °F is 373.15000000000003 K).
+const TEMPERATURE_TOL_K = 1e-9;
+const fmtT = (K: number) => `${Number((K - 273.15).toPrecision(4))} °C`;
+
+/**
+ * Warns when a part's temperature is where its table material cannot be trusted: above the
+ * point where it begins to melt, or outside the range its expansion coefficient is a mean
+ * over. A coefficient the user typed has no known range, so it is taken as given.
+ */
+function temperatureWarnings(part: string, T_K: number, ref: MaterialId | { alphaPerK: number }, warnings: string[]): void {
+  if (typeof ref !== "string") return;
+  const m = materialById(ref);
+  if (T_K >= m.solidus.K) {
+    warnings.push(
+      `The ${part} temperature (${fmtT(T_K)}) is at or above where ${m.label} begins to melt (about ${fmtT(m.solidus.K)}): the part would not keep its shape, so the hot clearance means nothing.`,
+    );
+  } else if (T_K < m.alphaRange.minK - TEMPERATURE_TOL_K || T_K > m.alphaRange.maxK + TEMPERATURE_TOL_K) {
+    warnings.push(
+      `The ${part} temperature (${fmtT(T_K)}) is outside ${fmtT(m.alphaRange.minK)} to ${fmtT(m.alphaRange.maxK)}, the range over which the expansion coefficient of ${m.label} is a mean; its growth there is an estimate (the coefficient rises with temperature).`,
+    );
+  }
 }
 
 function verdictFor(
@@ -73,14 +96,18 @@ export function calculateClearance(input: ClearanceInput): ClearanceResult {
     if (v.thermal) {
       const t = v.thermal;
       const ambient = toSI(t.ambient.value, t.ambient.unit);
-      const dTb = toSI(t.boreTemperature.value, t.boreTemperature.unit) - ambient;
-      const dTp = toSI(t.pistonTemperature.value, t.pistonTemperature.unit) - ambient;
+      const boreT = toSI(t.boreTemperature.value, t.boreTemperature.unit);
+      const pistonT = toSI(t.pistonTemperature.value, t.pistonTemperature.unit);
+      const dTb = boreT - ambient;
+      const dTp = pistonT - ambient;
       const hotBore = bore * (1 + alphaOf(t.boreMaterial) * dTb);
       const hotPiston = piston * (1 + alphaOf(t.pistonMaterial) * dTp);
       result.hotClearance_mm = hotBore - hotPiston;
       if (result.hotClearance_mm < 0)
         warnings.push(`Hot clearance is negative (${fmt(result.hotClearance_mm)}): the piston would seize at these temperatures.`);
       if (dTp < 0 || dTb < 0) warnings.push("A part is colder than ambient; check the temperatures.");
+      temperatureWarnings("bore", boreT, t.boreMaterial, warnings);
+      temperatureWarnings("piston", pistonT, t.pistonMaterial, warnings);
     }
     result.verdict = verdictFor(clearance_mm, v.spec, "piston-to-wall clearance", warnings);
     if (result.verdict === undefined) delete result.verdict;

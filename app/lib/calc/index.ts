@@ -92,7 +92,7 @@ export {
   type ThermalInput,
 } from "./schemas";
 export { calculatePreload, frictionTerms, type PreloadResult, type TorqueSplit } from "./preload";
-export { fitNutFactor, type NutFactorFit } from "./nutFactor";
+export { fitNutFactor, NUT_FACTOR_R_SQUARED_LABEL, SAME_TORQUE_RELATIVE_TOLERANCE, type NutFactorFit } from "./nutFactor";
 export {
   calculateDistortion,
   TWO_POINT_GAUGE_NOTE,

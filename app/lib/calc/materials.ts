@@ -189,6 +189,12 @@ export const MATERIAL_IDS = [
 /** A material id of the thermal-expansion table. */
 export type MaterialId = (typeof MATERIAL_IDS)[number];
 
+/** A temperature limit of a material (kelvin) with where it comes from. */
+export interface TemperatureLimit {
+  K: number;
+  source: string;
+}
+
 /** A piston or bore material: mean linear expansion coefficient near room temperature and its handbook. */
 export interface Material {
   id: MaterialId;
@@ -198,7 +204,24 @@ export interface Material {
   /** Typical use in an engine. */
   use: ("piston" | "bore" | "fastener" | "connecting rod")[];
   source: string;
+  /**
+   * The temperatures over which `alphaPerK` is the mean. Outside them the growth is an
+   * extrapolation (α of these alloys rises with temperature), so the result is warned about.
+   */
+  alphaRange: { minK: number; maxK: number; source: string };
+  /** Where melting begins (solidus, or the eutectic for cast irons): above it no clearance means anything. */
+  solidus: TemperatureLimit;
 }
+
+const C = (celsius: number) => celsius + 273.15;
+
+// The ASM values are means over 20–100 °C as printed. Callister's table gives a single value
+// per material without a temperature range; it is used over the same 20–100 °C.
+const ASM_ALPHA_RANGE = "ASM Handbook, Vol. 2 (1990): the coefficient is the mean over 20–100 °C";
+const CALLISTER_ALPHA_RANGE =
+  "Callister, Appendix B, Table B.6 gives one value without a range; used as a 20–100 °C mean like the handbook values (common practice, no published source)";
+// The iron–carbon eutectic, where cast irons begin to melt.
+const IRON_EUTECTIC = "Callister, Materials Science and Engineering: An Introduction, the iron–iron carbide phase diagram (Fig. 9.24): eutectic at 1147 °C";
 
 /** Piston and bore materials with α (per K) and the handbook table each value comes from. */
 export const MATERIALS: readonly Material[] = [
@@ -208,6 +231,8 @@ export const MATERIALS: readonly Material[] = [
     alphaPerK: 22.3e-6,
     use: ["piston"],
     source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, 22.3 µm/m·K, 20–100 °C",
+    alphaRange: { minK: C(20), maxK: C(100), source: ASM_ALPHA_RANGE },
+    solidus: { K: C(549), source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, melting range about 549–638 °C (value from memory, approximate)" },
   },
   {
     id: "forged-4032",
@@ -215,6 +240,8 @@ export const MATERIALS: readonly Material[] = [
     alphaPerK: 19.4e-6,
     use: ["piston"],
     source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, 19.4 µm/m·K, 20–100 °C",
+    alphaRange: { minK: C(20), maxK: C(100), source: ASM_ALPHA_RANGE },
+    solidus: { K: C(532), source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, melting range about 532–571 °C (value from memory, approximate)" },
   },
   {
     id: "a356-t6",
@@ -222,6 +249,8 @@ export const MATERIALS: readonly Material[] = [
     alphaPerK: 21.5e-6,
     use: ["piston", "bore"],
     source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (alloy 356.0): 21.5 × 10⁻⁶ /°C",
+    alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
+    solidus: { K: C(555), source: "ASM Handbook, Vol. 2 (1990), Properties of Cast Aluminum Alloys: A356.0, melting range about 555–615 °C (value from memory, approximate)" },
   },
   {
     id: "grey-cast-iron",
@@ -229,6 +258,8 @@ export const MATERIALS: readonly Material[] = [
     alphaPerK: 11.4e-6,
     use: ["bore"],
     source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (gray irons G1800–G4000): 11.4 × 10⁻⁶ /°C",
+    alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
+    solidus: { K: C(1147), source: IRON_EUTECTIC },
   },
   {
     id: "compacted-graphite-iron",
@@ -237,6 +268,8 @@ export const MATERIALS: readonly Material[] = [
     use: ["bore"],
     // From memory of the handbook's physical-properties table, not checked against it: verify.
     source: "ASM Handbook, Vol. 1 (1990), Stefanescu, Compacted Graphite Iron, physical properties: about 11 µm/m·K near room temperature (approximate)",
+    alphaRange: { minK: C(20), maxK: C(100), source: "ASM Handbook, Vol. 1 (1990), Compacted Graphite Iron: given near room temperature; used as a 20–100 °C mean (common practice, no published source)" },
+    solidus: { K: C(1147), source: IRON_EUTECTIC },
   },
   {
     id: "steel-4340",
@@ -244,6 +277,8 @@ export const MATERIALS: readonly Material[] = [
     alphaPerK: 12.3e-6,
     use: ["fastener", "connecting rod"],
     source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (steel alloy 4340): 12.3 × 10⁻⁶ /°C",
+    alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
+    solidus: { K: C(1450), source: "Callister, the iron–iron carbide phase diagram (Fig. 9.24): the γ solidus at 0.40 wt% C read as about 1450 °C (alloying lowers it slightly; approximate)" },
   },
   {
     id: "ti-6al-4v",
@@ -251,10 +286,14 @@ export const MATERIALS: readonly Material[] = [
     alphaPerK: 8.6e-6,
     use: ["fastener", "connecting rod"],
     source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (alloy Ti-6Al-4V): 8.6 × 10⁻⁶ /°C",
+    alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
+    solidus: { K: C(1604), source: "ASM Handbook, Vol. 2 (1990), Titanium and Titanium Alloys: Ti-6Al-4V, melting range about 1604–1660 °C (value from memory, approximate)" },
   },
 ];
 
-const MATERIAL_ALIASES: Record<string, MaterialId> = {};
+// A Map, not an object literal: a name such as "constructor" or "__proto__" must find nothing
+// rather than something inherited from Object.prototype.
+const MATERIAL_ALIASES = new Map<string, MaterialId>();
 for (const [id, aliases] of [
   ["forged-2618", ["2618", "forged2618", "al2618", "aa2618", "2618t61", "forged2618t61", "2618a"]],
   ["forged-4032", ["4032", "forged4032", "al4032", "aa4032", "4032t6", "forged4032t6"]],
@@ -264,14 +303,14 @@ for (const [id, aliases] of [
   ["steel-4340", ["steel4340", "4340", "aisi4340", "sae4340", "4340steel"]],
   ["ti-6al-4v", ["ti6al4v", "ti64", "titanium", "grade5titanium"]],
 ] as const) {
-  for (const a of aliases) MATERIAL_ALIASES[a] = id;
-  MATERIAL_ALIASES[id.replace(/[^a-z0-9]/g, "")] = id;
+  for (const a of aliases) MATERIAL_ALIASES.set(a, id);
+  MATERIAL_ALIASES.set(id.replace(/[^a-z0-9]/g, ""), id);
 }
 
 /** Resolves a material id or a common spelling of it ("2618", "Ti-6Al-4V", "CGI") to a MaterialId. */
 export function resolveMaterialId(name: string): MaterialId | undefined {
   if (typeof name !== "string") return undefined;
-  return MATERIAL_ALIASES[name.toLowerCase().replace(/[^a-z0-9]/g, "")];
+  return MATERIAL_ALIASES.get(name.toLowerCase().replace(/[^a-z0-9]/g, ""));
 }
 
 /** The material of an id. */

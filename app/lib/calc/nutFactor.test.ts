@@ -1,7 +1,10 @@
 import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import { ZodError } from "zod";
-import { calculatePreload, convert, fitNutFactor, type NutFactorPoint } from "./index";
+import { dot, lusolve, matrix, multiply, subtract, transpose, unit as mathUnit } from "mathjs";
+import { NUT_FACTOR_R_SQUARED_LABEL, calculatePreload, convert, fitNutFactor, type NutFactorPoint } from "./index";
+
+const mathUnitFtLbf = (nm: number) => mathUnit(nm, "N m").toNumber("ft lbf");
 
 const pts = (rows: [number, number][], tUnit: "N.m" | "ft.lbf" = "N.m", fUnit: "N" | "kN" | "lbf" = "N"): NutFactorPoint[] =>
   rows.map(([t, f]) => ({ torque: { value: t, unit: tUnit }, preload: { value: f, unit: fUnit } }));
@@ -50,10 +53,87 @@ describe("fitNutFactor", () => {
     expect(fit.slope_N_per_Nm).toBeCloseTo(slope, 9);
     expect(fit.k).toBeCloseTo(1 / (slope * 0.01), 12);
     expect(fit.residuals_N[0]).toBeCloseTo(10000 - slope * 20, 6);
-    // R² = 1 − SSres/SStot with SStot about the mean clamp load (20 000 N)
+    // R² of a line through the origin: 1 − SSres/ΣF², the total sum of squares about zero
+    // (Eisenhauer, "Regression through the origin", Teaching Statistics 25(3), 2003).
     const res = [10000 - slope * 20, 20000 - slope * 44, 30000 - slope * 54];
     const ssRes = res.reduce((a, r) => a + r * r, 0);
-    expect(fit.rSquared).toBeCloseTo(1 - ssRes / (1e4 ** 2 + 0 + 1e4 ** 2), 12);
+    expect(fit.rSquared).toBeCloseTo(1 - ssRes / (1e4 ** 2 + 2e4 ** 2 + 3e4 ** 2), 12);
+  });
+
+  // R² for a line without intercept is 1 − Σr²/Σy², the sum of squares taken about zero: R's
+  // summary.lm ("y* is the mean of y[i] if there is an intercept and zero otherwise") and
+  // Eisenhauer, "Regression through the origin", Teaching Statistics 25(3), 2003.
+  describe("R² of the line through the origin (uncentred)", () => {
+    /** Slope by least squares with mathjs (normal equations XᵀX·b = XᵀF), and R² about zero. */
+    function mathjsFit(T: number[], F: number[]) {
+      const X = matrix(T.map((t) => [t]));
+      const y = matrix(F.map((f) => [f]));
+      const b = lusolve(multiply(transpose(X), X), multiply(transpose(X), y)) as unknown as number[][] | { toArray(): number[][] };
+      const slope = (Array.isArray(b) ? b : b.toArray())[0][0];
+      const r = (subtract(y, multiply(X, slope)) as unknown as { toArray(): number[][] }).toArray().map((row) => row[0]);
+      return { slope, rSquared: 1 - dot(r, r) / dot(F, F) };
+    }
+
+    test("worked by hand: (10 N·m, 10 kN), (20 N·m, 30 kN) give slope 1400 N/N·m and R² 0.98, not the centred 0.9", () => {
+      // slope = ΣTF/ΣT² = (10·10 000 + 20·30 000)/(10² + 20²) = 700 000/500 = 1400
+      // residuals 10 000 − 14 000 = −4000 and 30 000 − 28 000 = 2000: SSres = 2e7
+      // ΣF² = 1e8 + 9e8 = 1e9, so R² = 1 − 2e7/1e9 = 0.98 (about the mean: 1 − 2e7/2e8 = 0.9)
+      const fit = fitNutFactor(pts([[10, 10000], [20, 30000]]), "M10");
+      expect(fit.slope_N_per_Nm).toBeCloseTo(1400, 9);
+      expect(fit.rSquared).toBeCloseTo(0.98, 12);
+      const m = mathjsFit([10, 20], [10000, 30000]);
+      expect(fit.slope_N_per_Nm).toBeCloseTo(m.slope, 9);
+      expect(fit.rSquared).toBeCloseTo(m.rSquared, 12);
+    });
+
+    test("two nearly equal clamp loads: R² stays in [0, 1] and agrees with mathjs", () => {
+      // About the mean, SStot = 2·(0.0015 N)² and R² would be about −4e13.
+      const fit = fitNutFactor(pts([[50, 30000], [100, 30000.003]]), "M12x1.5");
+      const m = mathjsFit([50, 100], [30000, 30000.003]);
+      expect(fit.rSquared).toBeGreaterThanOrEqual(0);
+      expect(fit.rSquared).toBeLessThanOrEqual(1);
+      expect(fit.rSquared).toBeCloseTo(m.rSquared, 9);
+      expect(fit.rSquared).toBeCloseTo(0.9, 6); // 1 − 1.8e8/1.8e9 by hand, to the rounding of 0.003 N
+    });
+
+    test("any bench readings give R² in [0, 1], equal to mathjs's (fast-check)", () => {
+      fc.assert(
+        fc.property(
+          fc.array(fc.tuple(fc.double({ min: 1, max: 500, noNaN: true }), fc.double({ min: 100, max: 2e5, noNaN: true })), { minLength: 1, maxLength: 10 }),
+          (rows) => {
+            const fit = fitNutFactor(pts(rows), "M12x1.5");
+            expect(fit.rSquared).toBeGreaterThanOrEqual(0);
+            expect(fit.rSquared).toBeLessThanOrEqual(1);
+            const m = mathjsFit(rows.map((r) => r[0]), rows.map((r) => r[1]));
+            expect(Math.abs(fit.rSquared - Math.min(1, Math.max(0, m.rSquared)))).toBeLessThan(1e-9);
+          },
+        ),
+        { numRuns: 300 },
+      );
+    });
+
+    test("its label says which R² it is", () => {
+      expect(NUT_FACTOR_R_SQUARED_LABEL).toMatch(/through the origin/);
+      expect(NUT_FACTOR_R_SQUARED_LABEL).toMatch(/uncentred/);
+    });
+  });
+
+  describe("the same torque typed in different units", () => {
+    // NIST SP 811 (2008), B.8: 1 ft·lbf = 1.355818 N·m; with the exact lbf and foot,
+    // 100 N·m = 73.756214927… ft·lbf (mathjs gives the same).
+    test("100 N·m and 73.756214927 ft·lbf are one torque: the fit warns", () => {
+      expect(mathUnitFtLbf(100)).toBeCloseTo(73.756214927, 8);
+      const points: NutFactorPoint[] = [
+        { torque: { value: 100, unit: "N.m" }, preload: { value: 40, unit: "kN" } },
+        { torque: { value: 73.756214927, unit: "ft.lbf" }, preload: { value: 41, unit: "kN" } },
+      ];
+      expect(fitNutFactor(points, "M12x1.5").warnings.join(" ")).toMatch(/same torque/);
+    });
+
+    test("torques 0.01 % apart are different settings: no warning", () => {
+      const fit = fitNutFactor(pts([[100, 40000], [100.01, 41000]]), "M12x1.5");
+      expect(fit.warnings.join(" ")).not.toMatch(/same torque/);
+    });
   });
 
   test("readings made with a known K come back exactly, in any units (fast-check)", () => {

@@ -7,6 +7,22 @@ import { fitNutFactorInputSchema, type NutFactorPoint } from "./schemas";
 import { parseThread } from "./threads";
 import { toSI } from "./units";
 
+/**
+ * Relative tolerance under which two torques count as the same setting. The unit factors are
+ * exact, so one torque typed in two units differs only by rounding: about 1e-16 when converted
+ * here, up to about 5e-7 when converted by hand and typed to seven significant figures
+ * (73.75621 ft·lbf for 100 N·m). 1e-6 covers both and is far below any step a torque wrench
+ * can be set to.
+ */
+export const SAME_TORQUE_RELATIVE_TOLERANCE = 1e-6;
+
+function sameTorque(a: number, b: number): boolean {
+  return Math.abs(a - b) <= SAME_TORQUE_RELATIVE_TOLERANCE * Math.max(Math.abs(a), Math.abs(b));
+}
+
+/** How to label `rSquared` beside the fit (it is the uncentred R² of a line through the origin). */
+export const NUT_FACTOR_R_SQUARED_LABEL = "R² through the origin (uncentred)";
+
 /** Result of fitNutFactor. */
 export interface NutFactorFit {
   /** Effective nut factor from the least-squares slope: K = 1/(slope·d). */
@@ -19,7 +35,11 @@ export interface NutFactorFit {
   n: number;
   /** Least-squares slope of preload against torque through the origin, N per N·m: Σ(T·F)/Σ(T²). */
   slope_N_per_Nm: number;
-  /** Coefficient of determination 1 − SSres/SStot (SStot about the mean clamp load); 1 for a single point. */
+  /**
+   * Coefficient of determination of the line through the origin, uncentred: 1 − SSres/ΣF²
+   * (the total sum of squares about zero, not about the mean clamp load). Always within [0, 1];
+   * not comparable with the R² of a line with an intercept. 1 for a single point.
+   */
   rSquared: number;
   /** Measured minus fitted clamp load for each point, N, in the order given. */
   residuals_N: number[];
@@ -64,17 +84,19 @@ export function fitNutFactor(points: NutFactorPoint[], thread: string): NutFacto
 
   const residuals_N = F.map((f, i) => f - slope * T[i]);
   const ssRes = residuals_N.reduce((a, r) => a + r * r, 0);
-  const meanF = F.reduce((a, b) => a + b, 0) / n;
-  const ssTot = F.reduce((a, f) => a + (f - meanF) ** 2, 0);
-  let rSquared: number;
-  if (ssTot > 0) rSquared = 1 - ssRes / ssTot;
-  else rSquared = ssRes <= 1e-12 * Math.max(1, meanF * meanF) ? 1 : 0;
-  if (!Number.isFinite(rSquared)) rSquared = 0;
+  // The model has no intercept, so the total sum of squares is taken about zero, as the fit
+  // is (Eisenhauer, "Regression through the origin", Teaching Statistics 25(3), 2003; R's
+  // summary.lm does the same for a model without intercept). About the mean it would compare
+  // the line with a model the fit never considered, and for nearly equal clamp loads it falls
+  // far below zero. Least squares gives SSres = ΣF² − slope·ΣTF ≤ ΣF², so this stays in [0, 1]
+  // (clamped against rounding); every clamp load is positive, so ΣF² > 0.
+  const ssTot = F.reduce((a, f) => a + f * f, 0);
+  const rSquared = Math.min(1, Math.max(0, 1 - ssRes / ssTot));
 
   if (n >= 2 && cv > 0.1)
     warnings.push(`The per-point K scatters by ${Math.round(cv * 1000) / 10} % (coefficient of variation above 10 %); check the readings.`);
   if (k < 0.05 || k > 0.5) warnings.push(`An effective nut factor of ${Math.round(k * 1000) / 1000} is unusual; check the units of the readings.`);
-  if (n >= 2 && new Set(T).size === 1)
+  if (n >= 2 && T.every((t) => sameTorque(t, T[0])))
     warnings.push("All points have the same torque: the fit shows the scatter at one torque, not the trend.");
 
   return {

@@ -4,7 +4,7 @@
  */
 import { failWith } from "./errors";
 import { STEEL_MODULUS_GPA, strengthFor } from "./materials";
-import { preloadInputSchema, resolvePropertyClass, type PreloadInput } from "./schemas";
+import { preloadInputSchema, type PreloadInput } from "./schemas";
 import { parseThread, type ThreadGeometry } from "./threads";
 import { toSI } from "./units";
 
@@ -108,7 +108,7 @@ export function calculatePreload(input: PreloadInput): PreloadResult {
       yield_MPa = toSI(v.material.yieldStrength.value, v.material.yieldStrength.unit) / 1e6;
       label = "the given yield strength";
     } else {
-      const id = resolvePropertyClass(v.material.propertyClass!)!;
+      const id = v.material.propertyClass!;
       const s = strengthFor(id, thread.d_mm);
       yield_MPa = s.yield_MPa;
       label = `${s.label} (${s.sizeRange}: ${round1(yield_MPa)} MPa)`;

@@ -1,6 +1,7 @@
 /**
- * Zod schemas of every input. They only validate (and fill defaults): their output is
- * again a valid input, so `calculateX(schema.parse(json))` and `calculateX(json)` agree.
+ * Zod schemas of every input. They only validate, fill defaults and turn a common spelling of
+ * a table's name into its id: their output is again a valid input, so
+ * `calculateX(schema.parse(json))` and `calculateX(json)` agree.
  * Bounds are checked in SI after conversion; a value outside them is an error at ["…","value"].
  */
 import { z } from "zod";
@@ -101,19 +102,21 @@ const gripLength = kindQuantity("length", { what: "grip length", gt: 0, ge: 1e-5
 const modulus = kindQuantity("stress", { what: "modulus", ge: 1e9, le: 1e12, show: "GPa" });
 const yieldStrength = kindQuantity("stress", { what: "yield strength", ge: 1e6, le: 1e10, show: "MPa" });
 
-const PROPERTY_CLASS_ALIASES: Record<string, PropertyClassId> = {
-  "8.8": "8.8",
-  "10.9": "10.9",
-  "12.9": "12.9",
-  sae5: "SAE-5",
-  grade5: "SAE-5",
-  saegrade5: "SAE-5",
-  saej429grade5: "SAE-5",
-  sae8: "SAE-8",
-  grade8: "SAE-8",
-  saegrade8: "SAE-8",
-  saej429grade8: "SAE-8",
-};
+// A Map, not an object literal: "constructor" or "__proto__" must find nothing rather than
+// something inherited from Object.prototype.
+const PROPERTY_CLASS_ALIASES = new Map<string, PropertyClassId>([
+  ["8.8", "8.8"],
+  ["10.9", "10.9"],
+  ["12.9", "12.9"],
+  ["sae5", "SAE-5"],
+  ["grade5", "SAE-5"],
+  ["saegrade5", "SAE-5"],
+  ["saej429grade5", "SAE-5"],
+  ["sae8", "SAE-8"],
+  ["grade8", "SAE-8"],
+  ["saegrade8", "SAE-8"],
+  ["saej429grade8", "SAE-8"],
+]);
 
 /** Resolves a property class spelling ("8.8", "SAE-5", "sae 5", "Grade 8") to its id. */
 export function resolvePropertyClass(name: string): PropertyClassId | undefined {
@@ -121,14 +124,25 @@ export function resolvePropertyClass(name: string): PropertyClassId | undefined 
   const t = name.trim();
   if ((PROPERTY_CLASS_IDS as readonly string[]).includes(t)) return t as PropertyClassId;
   const key = t.toLowerCase().replace(/^iso\s*898-1\s*/, "").replace(/^class\s*/, "");
-  return PROPERTY_CLASS_ALIASES[key] ?? PROPERTY_CLASS_ALIASES[key.replace(/[^a-z0-9]/g, "")];
+  return PROPERTY_CLASS_ALIASES.get(key) ?? PROPERTY_CLASS_ALIASES.get(key.replace(/[^a-z0-9]/g, ""));
 }
 
-const propertyClassSchema = z
-  .string()
-  .refine((s) => resolvePropertyClass(s) !== undefined, {
-    error: `unknown property class: use one of ${PROPERTY_CLASS_IDS.join(", ")}`,
-  });
+/**
+ * A name of one of the module's tables: a common spelling is turned into the table's id,
+ * which the enum of the table's ids then checks; anything else is refused with `message`.
+ */
+function tableName<const T extends readonly [string, ...string[]]>(ids: T, resolve: (s: string) => T[number] | undefined, message: string) {
+  return z
+    .string({ error: message })
+    .transform((s) => resolve(s) ?? s)
+    .pipe(z.enum(ids, { error: message }));
+}
+
+const propertyClassSchema = tableName(
+  PROPERTY_CLASS_IDS,
+  resolvePropertyClass,
+  `unknown property class: use one of ${PROPERTY_CLASS_IDS.join(", ")}`,
+);
 
 /** The nut-factor model: T = K·F·d. */
 export const nutFactorMethodSchema = z.object({
@@ -267,16 +281,18 @@ export const specSchema = z
   });
 
 /** A material for thermal growth: an id of the material table (or a common spelling of it) or `{ alphaPerK }`. */
-export const materialRefSchema = z.union([
-  z.string().refine((s) => resolveMaterialId(s) !== undefined, {
-    error: `unknown material: use one of ${MATERIAL_IDS.join(", ")} or { "alphaPerK": number }`,
-  }),
-  z.object({
-    alphaPerK: finiteNumber
-      .gte(0, { error: "alphaPerK must not be negative" })
-      .lte(1e-4, { error: "alphaPerK is per kelvin (e.g. 22e-6); above 1e-4 is not plausible" }),
-  }),
-]);
+const unknownMaterial = `unknown material: use one of ${MATERIAL_IDS.join(", ")} or { "alphaPerK": number }`;
+export const materialRefSchema = z.union(
+  [
+    tableName(MATERIAL_IDS, resolveMaterialId, unknownMaterial),
+    z.object({
+      alphaPerK: finiteNumber
+        .gte(0, { error: "alphaPerK must not be negative" })
+        .lte(1e-4, { error: "alphaPerK is per kelvin (e.g. 22e-6); above 1e-4 is not plausible" }),
+    }),
+  ],
+  { error: unknownMaterial },
+);
 
 /** Temperatures and materials for hot piston-to-wall clearance. */
 export const thermalSchema = z.object({

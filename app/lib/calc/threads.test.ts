@@ -102,6 +102,26 @@ describe("Unified stress areas against ASME B1.1 / FED-STD-H28", () => {
     expect(g.pitch_mm).toBeCloseTo(1.27, 12); // 25.4 / 20
     expect(g.d2_mm).toBeCloseTo((0.4375 - 0.649519 / 20) * 25.4, 9);
   });
+
+  test("d3 of a Unified thread is D − 1.299038·P, the stress-area term, below the basic minor diameter D − 1.082532·P", () => {
+    // ASME B1.1: As = 0.7854·(D − 0.9743·P)²; with H = 0.866025·P (sharp-V height),
+    // 0.649519·P = 3H/4, 1.082532·P = 5H/4 (basic minor: D − 2·5H/8), 1.299038·P = 3H/2.
+    const H = Math.sqrt(3) / 2;
+    expect(0.649519).toBeCloseTo(0.75 * H, 6);
+    expect(1.082532).toBeCloseTo(1.25 * H, 6);
+    expect(1.299038).toBeCloseTo(1.5 * H, 6);
+    // 0.9743 is the mean of 0.649519 and 1.299038, rounded: the formula averages d2 and d3.
+    expect((0.649519 + 1.299038) / 2).toBeCloseTo(0.9743, 4);
+    for (const designation of ["1/4-20", "7/16-20", "1/2-13 UNC", "1-8"]) {
+      const g = threadGeometry(designation);
+      const D = g.d_mm / 25.4;
+      const P = g.pitch_mm / 25.4;
+      expect(g.d3_mm / 25.4).toBeCloseTo(D - 1.299038 * P, 9);
+      expect(g.d3_mm / 25.4).toBeLessThan(D - 1.082532 * P);
+      const asFromMean = (Math.PI / 4) * ((g.d2_mm + g.d3_mm) / 2) ** 2;
+      expect(Math.abs(asFromMean - g.stressArea_mm2) / g.stressArea_mm2).toBeLessThan(1e-4);
+    }
+  });
 });
 
 describe("designation parsing", () => {

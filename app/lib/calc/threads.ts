@@ -13,7 +13,12 @@ export interface ThreadGeometry {
   pitch_mm: number;
   /** Basic pitch diameter d2. */
   d2_mm: number;
-  /** Minor diameter d3 used by the stress-area formula (see `threadGeometry`). */
+  /**
+   * The smaller diameter the stress-area formula averages with d2. Metric: the minor diameter
+   * of the external thread, d3 = d − 1.226869·P (ISO 898-1). Unified: D − 1.299038·P, which
+   * ASME B1.1's 0.7854·(D − 0.9743·P)² implies; it is not the basic minor diameter (see
+   * `unifiedGeometry`).
+   */
   d3_mm: number;
   /** Tensile stress area As. */
   stressArea_mm2: number;
@@ -118,9 +123,13 @@ export function metricGeometry(d_mm: number, pitch_mm: number): ThreadGeometry {
 }
 
 /**
- * ASME B1.1 geometry for a Unified thread (D in inches, n threads per inch): stress area
- * As = 0.7854·(D − 0.9743/n)² in²; d2 is the basic pitch diameter D − 0.649519/n, and d3 the
- * minor diameter D − 1.299038/n that the stress-area formula averages with d2.
+ * ASME B1.1 geometry for a Unified thread (D in inches, n threads per inch, P = 1/n): stress
+ * area As = 0.7854·(D − 0.9743·P)² in²; d2 is the basic pitch diameter D − 0.649519·P. With
+ * 0.9743 = (0.649519 + 1.299038)/2 the formula is π/4 of the mean of d2 and D − 1.299038·P
+ * squared, so d3 holds D − 1.299038·P = D − 1.5·H (H = 0.866025·P, the sharp-V height): the
+ * diameter three quarters of H below D on each side. It lies below the basic minor diameter
+ * D − 1.082532·P (D − 1.25·H), so the page names it as a term of the stress-area formula, not
+ * as the minor diameter.
  */
 export function unifiedGeometry(d_in: number, tpi: number): ThreadGeometry {
   const asIn2 = 0.7854 * (d_in - 0.9743 / tpi) ** 2;

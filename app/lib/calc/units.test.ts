@@ -95,8 +95,60 @@ describe("cross-check with mathjs units", () => {
       fc.property(fc.double({ min: -1e6, max: 1e6, noNaN: true }), (x) => {
         const expected = mathUnit(x, "ft lbf").toNumber("N m");
         expect(Math.abs(convert(x, "ft.lbf", "N.m") - expected)).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(expected)));
+      }),
+    );
+    // Temperatures only from absolute zero up (colder ones are refused, below).
+    fc.assert(
+      fc.property(fc.double({ min: -459.67, max: 1e6, noNaN: true }), (x) => {
         const t = mathUnit(x, "degF").toNumber("degC");
         expect(Math.abs(convert(x, "degF", "degC") - t)).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(t)));
+      }),
+    );
+  });
+});
+
+// Absolute zero: 0 K = −273.15 °C = −459.67 °F (SI Brochure, 9th ed., 2.3.4, Table 4:
+// t/°C = T/K − 273.15; NIST SP 811 (2008), B.8: T/K = (t/°F + 459.67)/1.8). mathjs places
+// absolute zero at the same values, but converts colder numbers without complaint.
+describe("convert: temperatures below absolute zero are refused", () => {
+  test("mathjs agrees where absolute zero lies in each unit", () => {
+    expect(mathUnit(0, "K").toNumber("degC")).toBeCloseTo(-273.15, 10);
+    expect(mathUnit(0, "K").toNumber("degF")).toBeCloseTo(-459.67, 10);
+    expect(convert(0, "K", "degC")).toBeCloseTo(mathUnit(0, "K").toNumber("degC"), 10);
+    expect(convert(0, "K", "degF")).toBeCloseTo(mathUnit(0, "K").toNumber("degF"), 10);
+  });
+
+  test("absolute zero itself converts: −273.15 °C and −459.67 °F are 0 K", () => {
+    expect(convert(-273.15, "degC", "K")).toBe(0);
+    expect(convert(-459.67, "degF", "K")).toBe(0);
+    expect(convert(-459.67, "degF", "degC")).toBeCloseTo(-273.15, 10);
+  });
+
+  test.each([
+    [-500, "degF", "K"],
+    [-1, "K", "degC"],
+    [-273.16, "degC", "degF"],
+    [-459.68, "degF", "degC"],
+    [-0.001, "K", "K"],
+    [-300, "degC", "degC"],
+  ] as const)("%s %s → %s is a ZodError at value", (value, from, to) => {
+    let err: unknown;
+    try {
+      convert(value, from, to);
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(ZodError);
+    expect((err as ZodError).issues.map((i) => i.path.join("."))).toEqual(["value"]);
+    expect((err as ZodError).issues[0].message).toMatch(/below absolute zero/);
+  });
+
+  test("any value below absolute zero is refused in every temperature unit (fast-check)", () => {
+    const codes = UNIT_CODES.temperature;
+    fc.assert(
+      fc.property(fc.constantFrom(...codes), fc.constantFrom(...codes), fc.double({ min: 1e-6, max: 1e6, noNaN: true }), (from, to, below) => {
+        const zero = mathUnit(0, "K").toNumber(from);
+        expect(() => convert(zero - below, from, to)).toThrow(ZodError);
       }),
     );
   });

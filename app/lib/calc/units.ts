@@ -128,8 +128,8 @@ export function fromSI(value: number, unit: UnitCode): number {
 
 /**
  * Converts `value` from one unit code to another of the same kind (temperatures affine:
- * degC, degF, K). Throws a ZodError on an unknown code, on units of different kinds, or on
- * a non-finite value or result.
+ * degC, degF, K). Throws a ZodError on an unknown code, on units of different kinds, on
+ * a non-finite value or result, or on a temperature below absolute zero.
  */
 export function convert(value: number, fromUnit: string, toUnit: string): number {
   if (typeof value !== "number" || !Number.isFinite(value)) {
@@ -142,8 +142,15 @@ export function convert(value: number, fromUnit: string, toUnit: string): number
   if (from.kind !== to.kind) {
     failWith(["toUnit"], `cannot convert ${from.kind} (${fromUnit}) to ${to.kind} (${toUnit})`);
   }
+  const si = toSI(value, fromUnit as UnitCode);
+  // Thermodynamic temperature cannot be negative: 0 K = −273.15 °C = −459.67 °F (SI Brochure,
+  // 9th ed., 2.3.4, Table 4, t/°C = T/K − 273.15; NIST SP 811 (2008), 4.2.1.1 and B.8). A colder
+  // value is a typing error, not a temperature, even when nothing is converted.
+  if (from.kind === "temperature" && si < 0) {
+    failWith(["value"], `temperature below absolute zero (0 K = −273.15 °C = −459.67 °F): ${value} ${from.label}`);
+  }
   if (fromUnit === toUnit) return value;
-  const out = fromSI(toSI(value, fromUnit as UnitCode), toUnit as UnitCode);
+  const out = fromSI(si, toUnit as UnitCode);
   if (!Number.isFinite(out)) failWith(["value"], "conversion overflows");
   return out;
 }

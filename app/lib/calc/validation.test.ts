@@ -12,6 +12,7 @@ import {
   preloadInputSchema,
   threadGeometry,
 } from "./index";
+import { hotPistonToWall } from "../../../tests/support/calc-inputs";
 
 /** The issue paths ("torque.value") of the ZodError `fn` throws. */
 function issuePaths(fn: () => unknown): string[] {
@@ -69,6 +70,28 @@ describe("preload: invalid input is a ZodError with a path", () => {
     const input = { thread: "m12 x 1.5", torque: { value: 80, unit: "ft.lbf" as const }, method: nut, material: { propertyClass: "10.9" } };
     const parsed = preloadInputSchema.parse(input);
     expect(calculatePreload(parsed)).toEqual(calculatePreload(input));
+  });
+});
+
+// Names inherited by every plain JavaScript object (ECMAScript, "Properties of the Object
+// Prototype Object"): a table looked up as a plain object finds these for any name.
+const INHERITED_NAMES = ["constructor", "__proto__", "toString", "hasOwnProperty", "valueOf", "isPrototypeOf"];
+
+describe("names of the module's tables: only the tables' own entries", () => {
+  test.each(INHERITED_NAMES)("property class %j is a ZodError at material.propertyClass", (name) => {
+    expect(issuePaths(preload({ material: { propertyClass: name } }))).toEqual(["material.propertyClass"]);
+  });
+
+  test.each(INHERITED_NAMES)("piston or bore material %j is a ZodError at its path", (name) => {
+    expect(issuePaths(() => calculateClearance(hotPistonToWall({ pistonMaterial: name }) as never))).toContain("thermal.pistonMaterial");
+    expect(issuePaths(() => calculateClearance(hotPistonToWall({ boreMaterial: name }) as never))).toContain("thermal.boreMaterial");
+  });
+
+  test("common spellings still resolve, and the parsed input names the table's id", () => {
+    const p = preloadInputSchema.parse({ thread: "M12x1.5", torque: { value: 80, unit: "N.m" }, method: nut, material: { propertyClass: "Grade 8" } });
+    expect(p.material?.propertyClass).toBe("SAE-8");
+    const c = clearanceInputSchema.parse(hotPistonToWall({ pistonMaterial: "2618", boreMaterial: "CGI" }));
+    expect(c.kind === "piston-to-wall" && c.thermal).toMatchObject({ pistonMaterial: "forged-2618", boreMaterial: "compacted-graphite-iron" });
   });
 });
 
@@ -184,7 +207,7 @@ describe("fuzz: any input gives a ZodError or a result with only finite numbers 
         preload: quantity(["N", "kN", "lbf"], 1, 1e6),
         method,
         material: fc.oneof(
-          fc.record({ propertyClass: fc.constantFrom("8.8", "10.9", "12.9", "SAE-5", "SAE-8", "4.6") }),
+          fc.record({ propertyClass: fc.constantFrom("8.8", "10.9", "12.9", "SAE-5", "SAE-8", "4.6", ...INHERITED_NAMES) }),
           fc.record({ yieldStrength: quantity(["MPa", "ksi", "psi"], 1, 2000) }),
         ),
         grip: fc.record({ length: quantity(["mm", "in"], 0.01, 500), modulus: quantity(["GPa"], 1, 400) }, { requiredKeys: ["length"] }),
@@ -225,7 +248,7 @@ describe("fuzz: any input gives a ZodError or a result with only finite numbers 
   test("calculateClearance", () => {
     const length = quantity(["mm", "in", "thou"], 0.001, 150, 100);
     const material = fc.oneof(
-      fc.constantFrom("forged-2618", "forged-4032", "grey-cast-iron", "a356-t6", "cgi", "steel-4340", "nope"),
+      fc.constantFrom("forged-2618", "forged-4032", "grey-cast-iron", "a356-t6", "cgi", "steel-4340", "nope", ...INHERITED_NAMES),
       fc.record({ alphaPerK: num(0, 1e-4, 40) }),
     );
     const spec = fc.record({ min: length, max: length }, { requiredKeys: [] });

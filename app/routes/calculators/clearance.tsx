@@ -176,7 +176,8 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
           <strong>Piston-to-wall.</strong> Cold clearance is the bore minus the piston, both measured at the same temperature, the
           piston at its gauge point. Hot, each part grows by its diameter times its expansion coefficient times its rise in
           temperature, ΔD = D·α·ΔT; the hot clearance is the grown bore minus the grown piston. The coefficients are mean values near
-          room temperature from the handbook named beside each material (ASM Handbook Vol. 1 and 2; Callister, Table B.6). The model
+          room temperature from the handbook named beside each material (ASM Handbook Vol. 1 and 2; Callister, Table B.6), taken over
+          20–100 °C: a part outside that range, or past where its material begins to melt, is warned about. The model
           treats each part as one uniform temperature and a plain cylinder: real pistons are cam-ground and tapered, hotter at the crown
           than the skirt, so take the hot figure as a comparison between choices, never as the piston maker's clearance.
         </p>
@@ -254,7 +255,7 @@ function ClearanceResultView({ outcome, values, set }: { outcome: ClearanceOutco
         )}
       </div>
       {verdict}
-      <Warnings warnings={r.warnings} red={(w) => /spec|seize|interference|butt|negative/i.test(w)} />
+      <Warnings warnings={r.warnings} red={(w) => /spec|seize|interference|butt|negative|melt/i.test(w)} />
       <Caution />
       <ClearanceChart markers={markers} band={band} bandLabel={bandLabel} unit={su} />
       <CopyBlock calculator="clearance" input={outcome.input} />

@@ -5,12 +5,12 @@ import { PreloadChart } from "~/components/calc/PreloadChart";
 import { FigureTable, NoResult, ResultPanel, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
 import { useCalcForm } from "~/components/calc/useCalcForm";
-import { NUT_FACTOR_PRESETS, PROPERTY_CLASSES, THREAD_PRESETS, unitLabel, type UnitCode } from "~/lib/calc";
+import { NUT_FACTOR_PRESETS, NUT_FACTOR_R_SQUARED_LABEL, PROPERTY_CLASSES, THREAD_PRESETS, unitLabel, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
 import { can } from "~/lib/permissions";
 import { SaveAsReadings } from "~/components/calc/SaveAsReadings";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
-import { DEFAULT_MODULUS_GPA, preloadDefaults, runPreloadForm, type PreloadOutcome } from "~/lib/calc-ui/preload-form";
+import { DEFAULT_MODULUS_GPA, UNIFIED_STRESS_AREA_NOTE, d3Label, preloadDefaults, runPreloadForm, type PreloadOutcome } from "~/lib/calc-ui/preload-form";
 import { formatIn, formatNumber, formatQ } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Preload · Calculators · Benchreel" }];
@@ -296,7 +296,7 @@ function PreloadResultView({ outcome, values, set, canSaveReadings }: { outcome:
             Bench readings give K = {formatNumber(outcome.fit.k, 3)} ± {formatNumber(outcome.fit.kStdDev, 3)}
           </p>
           <p className="text-graphite-soft">
-            {outcome.fit.n} points, scatter {formatNumber(outcome.fit.kCoefficientOfVariation * 100, 1)} % (coefficient of variation), R² {formatNumber(outcome.fit.rSquared, 3)}.
+            {outcome.fit.n} points, scatter {formatNumber(outcome.fit.kCoefficientOfVariation * 100, 1)} % (coefficient of variation), {NUT_FACTOR_R_SQUARED_LABEL} {formatNumber(outcome.fit.rSquared, 3)}.
           </p>
           {outcome.fit.warnings.map((w) => (
             <p key={w} className="text-graphite-soft">{w}</p>
@@ -312,16 +312,19 @@ function PreloadResultView({ outcome, values, set, canSaveReadings }: { outcome:
         />
       )}
       <div className="grid gap-5 sm:grid-cols-2">
-        <FigureTable
-          caption={`Thread ${String((outcome.input as { thread: string }).thread)}`}
-          rows={[
-            ["Nominal diameter d", formatQ(r.thread.d_mm, "mm", "mm", 0)],
-            ["Pitch P", `${formatNumber(r.thread.pitch_mm, 4)} mm`],
-            ["Pitch diameter d2", `${formatNumber(r.thread.d2_mm, 3)} mm`],
-            ["Minor diameter d3", `${formatNumber(r.thread.d3_mm, 3)} mm`],
-            ["Stress area As", `${formatNumber(r.thread.stressArea_mm2, 1)} mm²`],
-          ]}
-        />
+        <div data-testid="thread-figures">
+          <FigureTable
+            caption={`Thread ${String((outcome.input as { thread: string }).thread)}`}
+            rows={[
+              ["Nominal diameter d", formatQ(r.thread.d_mm, "mm", "mm", 0)],
+              ["Pitch P", `${formatNumber(r.thread.pitch_mm, 4)} mm`],
+              ["Pitch diameter d2", `${formatNumber(r.thread.d2_mm, 3)} mm`],
+              [d3Label(r.thread.system), `${formatNumber(r.thread.d3_mm, 3)} mm`],
+              ["Stress area As", `${formatNumber(r.thread.stressArea_mm2, 1)} mm²`],
+            ]}
+          />
+          {r.thread.system === "unified" && <p className="mt-1 text-xs text-graphite-soft">{UNIFIED_STRESS_AREA_NOTE}</p>}
+        </div>
         <div className="grid content-start gap-4">
           {split && (
             <FigureTable
