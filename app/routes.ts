@@ -53,6 +53,7 @@ export default [
       index("routes/admin/index.tsx"),
       route("people", "routes/admin/people.tsx"),
       route("outbox", "routes/admin/outbox.tsx"),
+      route("search", "routes/admin/search.tsx"),
     ]),
   ]),
 

@@ -55,6 +55,7 @@ export const PERMISSIONS = {
   // Administration.
   "user:manage": ["admin"],
   "outbox:view": ["admin"],
+  "search:repair": ["admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

@@ -58,6 +58,7 @@ export const MATRIX: Entry[] = [
   { path: "/admin", get: only(["admin"]), post: undefined },
   { path: "/admin/people", get: only(["admin"]), post: only(["admin"], 400) },
   { path: "/admin/outbox", get: only(["admin"]) },
+  { path: "/admin/search", get: only(["admin"]), post: only(["admin"], 400), note: "empty form: refused" },
 
   // ---- API ----
   { path: "/api/me", get: SIGNED_IN_API },

@@ -1,6 +1,6 @@
 import http from "node:http";
 import https from "node:https";
-import { Meilisearch, MeilisearchApiError } from "meilisearch";
+import { Meilisearch, MeilisearchApiError, MeilisearchRequestError } from "meilisearch";
 import { env } from "~/lib/env.server";
 import { currentSynonyms } from "./words.server";
 
@@ -73,6 +73,22 @@ function serviceError(err: unknown): MeilisearchApiError | undefined {
 /** The service's error code (`index_not_found`…), if it sent one. */
 export function searchErrorCode(err: unknown): string | undefined {
   return (serviceError(err)?.cause as { code?: string } | undefined)?.code;
+}
+
+/**
+ * Whether a call failed because the service is away: the request itself failed (refused,
+ * reset, timed out; the SDK says so with a MeilisearchRequestError) with no answer of the
+ * service's behind it, or a gateway answered 5xx for it. Then the outbox waits for the
+ * service and asks its /health until it answers (`drainSearchOutbox`). A task the service
+ * ran and failed, or an error it answered, is not that.
+ */
+export function searchServiceAway(err: unknown): boolean {
+  const e = serviceError(err);
+  if (e) return e.response.status >= 500;
+  for (let x: unknown = err, depth = 0; x && depth < 4; x = (x as { cause?: unknown }).cause, depth++) {
+    if (x instanceof MeilisearchRequestError) return true;
+  }
+  return false;
 }
 
 /** The message of a search-service error, from the service's own error object when there is one. */

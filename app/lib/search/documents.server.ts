@@ -5,12 +5,82 @@ import { blockTexts, type JSONNode } from "~/lib/procedures/document";
 import type { SearchDoc } from "./client.server";
 import { bothSystems, limitsBothSystems } from "./format";
 
+/** A record whose documents could not be built, and why (the worker sets it aside). */
+export type Unindexable = { kind: string; entityId: string; reason: string };
+
 /** What to change in the index for one outbox row. */
-export type IndexChange = { upserts: SearchDoc[]; deleteIds: string[]; deleteGroups: string[] };
+export type IndexChange = { upserts: SearchDoc[]; deleteIds: string[]; deleteGroups: string[]; unindexable: Unindexable[] };
 
 type WithGroup = SearchDoc & { group: string };
 
-const empty = (): IndexChange => ({ upserts: [], deleteIds: [], deleteGroups: [] });
+const empty = (): IndexChange => ({ upserts: [], deleteIds: [], deleteGroups: [], unindexable: [] });
+
+// SQLSTATE classes that say the database (not the record) is in trouble: connection,
+// insufficient resources, operator intervention, system error, transaction rollback.
+const PASSING_SQLSTATE = /^(08|53|57|58|40)/;
+
+/**
+ * Whether an error while building documents is the database's passing trouble (then the
+ * whole batch waits and retries) rather than something about the record (then only that
+ * record is set aside). Errors of the pg driver's own connection carry no SQLSTATE.
+ */
+export function isPassingFailure(err: unknown): boolean {
+  const e = err as { code?: unknown; message?: unknown } | null;
+  const code = typeof e?.code === "string" ? e.code : "";
+  if (PASSING_SQLSTATE.test(code) || /^E[A-Z]+$/.test(code)) return true;
+  return typeof e?.message === "string" && /Connection terminated|connection timeout|timeout exceeded when trying to connect|Client has encountered a connection error/i.test(e.message);
+}
+
+export function failureReason(err: unknown): string {
+  const message = err instanceof Error ? err.message : String(err);
+  return message.slice(0, 500) || "unknown error";
+}
+
+/**
+ * Builds one record's documents. A record whose documents cannot be built (data the builder
+ * cannot read, a conversion that overflows…) is reported in `into` instead of failing the
+ * whole change, so that one bad reading never holds back a recording's other marks, nor a
+ * reindex. The database's passing failures are thrown: the batch is retried as a whole.
+ */
+function guarded<T>(kind: string, entityId: string, into: Unindexable[], build: () => T): T | undefined {
+  try {
+    return build();
+  } catch (err) {
+    if (isPassingFailure(err)) throw err;
+    into.push({ kind, entityId, reason: failureReason(err) });
+    return undefined;
+  }
+}
+
+async function guardedAsync<T>(kind: string, entityId: string, into: Unindexable[], build: () => Promise<T>): Promise<T | undefined> {
+  try {
+    return await build();
+  } catch (err) {
+    if (isPassingFailure(err)) throw err;
+    into.push({ kind, entityId, reason: failureReason(err) });
+    return undefined;
+  }
+}
+
+/** Adds `part` to `change` (upserts, deletions and records set aside). */
+function merge(change: IndexChange, part: IndexChange, what: { upserts?: boolean; deletes?: boolean } = { upserts: true, deletes: true }) {
+  if (what.upserts) change.upserts.push(...part.upserts);
+  if (what.deletes) {
+    change.deleteIds.push(...part.deleteIds);
+    change.deleteGroups.push(...part.deleteGroups);
+  }
+  change.unindexable.push(...part.unindexable);
+}
+
+/**
+ * The record (outbox kind and id) a document was built from: a later successful build of
+ * it ends its being set aside. Spec documents belong to their revision's record.
+ */
+export function recordOf(doc: SearchDoc): { kind: string; entityId: string } | null {
+  if (doc.kind === "procedure") return { kind: "revision", entityId: doc.id.slice("rev-".length) };
+  if (doc.kind === "spec") return null;
+  return { kind: doc.kind, entityId: doc.id.slice(doc.kind.length + 1) };
+}
 
 export function procedureUrl(slug: string, revisionNumber: number, state: string): string {
   return state === "published" ? `/procedures/${slug}` : `/procedures/${slug}/r/${revisionNumber}`;
@@ -98,21 +168,20 @@ async function procedureDocs(procedureId: string): Promise<IndexChange> {
   const revs = await db().select({ id: procedureRevisions.id }).from(procedureRevisions).where(eq(procedureRevisions.procedureId, procedureId));
   const change = empty();
   for (const r of revs) {
-    const c = await revisionDocs(r.id);
-    change.upserts.push(...c.upserts);
-    change.deleteGroups.push(...c.deleteGroups);
+    const c = await guardedAsync("revision", r.id, change.unindexable, () => revisionDocs(r.id));
+    if (c) merge(change, c);
   }
   return change;
 }
 
-async function markDocs(where: { markId?: string; recordingId?: string }): Promise<SearchDoc[]> {
+async function markDocs(where: { markId?: string; recordingId?: string }, unindexable: Unindexable[]): Promise<SearchDoc[]> {
   const rows = await db()
     .select({ mark: marks, recTitle: recordings.title, recState: recordings.state })
     .from(marks)
     .innerJoin(recordings, eq(recordings.id, marks.recordingId))
     .where(where.markId ? eq(marks.id, where.markId) : eq(marks.recordingId, where.recordingId!));
   const who = await names(rows.map((r) => r.mark.createdBy));
-  return rows.map(({ mark, recTitle }) => ({
+  return rows.flatMap(({ mark, recTitle }) => guarded("mark", mark.id, unindexable, (): WithGroup[] => [{
     id: `mark-${mark.id}`,
     group: `rec-${mark.recordingId}`,
     kind: "mark" as const,
@@ -125,23 +194,23 @@ async function markDocs(where: { markId?: string; recordingId?: string }): Promi
     uploader: who.get(mark.createdBy ?? "") ?? "",
     t: mark.tStart,
     date: mark.createdAt.getTime(),
-  }));
+  }]) ?? []);
 }
 
-async function readingDocs(where: { readingId?: string; recordingId?: string }): Promise<SearchDoc[]> {
+async function readingDocs(where: { readingId?: string; recordingId?: string }, unindexable: Unindexable[]): Promise<SearchDoc[]> {
   const rows = await db()
     .select({ r: readings, recTitle: recordings.title })
     .from(readings)
     .innerJoin(recordings, eq(recordings.id, readings.recordingId))
     .where(where.readingId ? eq(readings.id, where.readingId) : eq(readings.recordingId, where.recordingId!));
   const who = await names(rows.map((x) => x.r.createdBy));
-  return rows.map(({ r, recTitle }) => {
+  return rows.flatMap(({ r, recTitle }) => guarded("reading", r.id, unindexable, (): WithGroup[] => {
     const cond = Object.entries(r.conditions ?? {})
       .filter(([, v]) => v)
       .map(([k, v]) => `${k} ${v}`)
       .join(", ");
     const value = bothSystems(r.valueEntered, r.unitEntered);
-    return {
+    return [{
       id: `reading-${r.id}`,
       group: `rec-${r.recordingId}`,
       kind: "reading" as const,
@@ -154,8 +223,8 @@ async function readingDocs(where: { readingId?: string; recordingId?: string }):
       uploader: who.get(r.createdBy ?? "") ?? "",
       t: r.t ?? undefined,
       date: r.createdAt.getTime(),
-    };
-  });
+    }];
+  }) ?? []);
 }
 
 async function recordingDocs(recordingId: string): Promise<IndexChange> {
@@ -176,7 +245,7 @@ async function recordingDocs(recordingId: string): Promise<IndexChange> {
     uploader,
     date: rec.createdAt.getTime(),
   } as WithGroup);
-  change.upserts.push(...(await markDocs({ recordingId })), ...(await readingDocs({ recordingId })));
+  change.upserts.push(...(await markDocs({ recordingId }, change.unindexable)), ...(await readingDocs({ recordingId }, change.unindexable)));
   return change;
 }
 
@@ -189,20 +258,16 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
       return revisionDocs(entityId);
     case "recording":
       return recordingDocs(entityId);
-    case "mark": {
-      const docs = await markDocs({ markId: entityId });
-      return { upserts: docs, deleteIds: docs.length ? [] : [`mark-${entityId}`], deleteGroups: [] };
-    }
-    case "reading": {
-      const docs = await readingDocs({ readingId: entityId });
-      return { upserts: docs, deleteIds: docs.length ? [] : [`reading-${entityId}`], deleteGroups: [] };
+    case "mark":
+    case "reading":
+    case "test_record": {
+      const unindexable: Unindexable[] = [];
+      const docs = kind === "mark" ? await markDocs({ markId: entityId }, unindexable) : kind === "reading" ? await readingDocs({ readingId: entityId }, unindexable) : await testRecordDocs(unindexable, entityId);
+      // Deleted only when the record is gone, not when it could not be built (it stays as it was).
+      return { upserts: docs, deleteIds: docs.length || unindexable.length ? [] : [`${kind}-${entityId}`], deleteGroups: [], unindexable };
     }
     case "person":
       return personDocs(entityId);
-    case "test_record": {
-      const docs = await testRecordDocs(entityId);
-      return { upserts: docs, deleteIds: docs.length ? [] : [`test_record-${entityId}`], deleteGroups: [] };
-    }
     default:
       return empty();
   }
@@ -217,20 +282,20 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
  */
 async function personDocs(userId: string): Promise<IndexChange> {
   const change = empty();
-  const merge = (c: IndexChange) => change.upserts.push(...c.upserts);
+  const add = (c: IndexChange) => merge(change, c, { upserts: true });
   const procs = await db().selectDistinct({ id: procedureRevisions.procedureId }).from(procedureRevisions).where(eq(procedureRevisions.authorId, userId));
-  for (const p of procs) merge(await procedureDocs(p.id));
+  for (const p of procs) add(await procedureDocs(p.id));
   const recIds = new Set<string>();
   for (const r of await db().select({ id: recordings.id }).from(recordings).where(eq(recordings.uploadedBy, userId))) recIds.add(r.id);
   for (const r of await db().selectDistinct({ id: marks.recordingId }).from(marks).where(eq(marks.createdBy, userId))) recIds.add(r.id);
   for (const r of await db().selectDistinct({ id: readings.recordingId }).from(readings).where(eq(readings.createdBy, userId))) recIds.add(r.id);
-  for (const id of recIds) merge(await recordingDocs(id));
+  for (const id of recIds) add(await recordingDocs(id));
   const filed = await db().select({ id: testRecords.id }).from(testRecords).where(eq(testRecords.createdBy, userId));
-  for (const t of filed) change.upserts.push(...(await testRecordDocs(t.id)));
+  for (const t of filed) change.upserts.push(...(await testRecordDocs(change.unindexable, t.id)));
   return change;
 }
 
-async function testRecordDocs(id?: string): Promise<SearchDoc[]> {
+async function testRecordDocs(unindexable: Unindexable[], id?: string): Promise<SearchDoc[]> {
   const rows = await db()
     .select({ r: testRecords, procedureTitle: procedures.title, revision: procedureRevisions.number, by: users.name })
     .from(testRecords)
@@ -238,9 +303,9 @@ async function testRecordDocs(id?: string): Promise<SearchDoc[]> {
     .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
     .leftJoin(users, eq(users.id, testRecords.createdBy))
     .where(id ? eq(testRecords.id, id) : undefined);
-  return rows.map(({ r, procedureTitle, revision, by }) => {
+  return rows.flatMap(({ r, procedureTitle, revision, by }) => guarded("test_record", r.id, unindexable, (): SearchDoc[] => {
     const verdict = r.verdict === "out" ? "Out of spec" : "Within spec";
-    return {
+    return [{
       id: `test_record-${r.id}`,
       kind: "test_record" as const,
       title: `${r.workOrder}: ${r.title}`,
@@ -251,15 +316,19 @@ async function testRecordDocs(id?: string): Promise<SearchDoc[]> {
       procedureTitle,
       uploader: by ?? "",
       date: Date.parse(`${r.testedOn}T12:00:00Z`),
-    };
-  });
+    }];
+  }) ?? []);
 }
 
-/** Every document, for a full reindex. */
-export async function allDocuments(): Promise<SearchDoc[]> {
-  const out: SearchDoc[] = [];
-  for (const p of await db().select({ id: procedures.id }).from(procedures)) out.push(...(await procedureDocs(p.id)).upserts);
-  for (const r of await db().select({ id: recordings.id }).from(recordings)) out.push(...(await recordingDocs(r.id)).upserts);
-  out.push(...(await testRecordDocs()));
-  return out;
+/** Every document, for a full reindex, and the records whose documents could not be built. */
+export async function allDocuments(): Promise<{ docs: SearchDoc[]; unindexable: Unindexable[] }> {
+  const all = empty();
+  const add = (c: IndexChange) => merge(all, c, { upserts: true });
+  for (const p of await db().select({ id: procedures.id }).from(procedures)) add(await procedureDocs(p.id));
+  for (const r of await db().select({ id: recordings.id }).from(recordings)) {
+    const c = await guardedAsync("recording", r.id, all.unindexable, () => recordingDocs(r.id));
+    if (c) add(c);
+  }
+  all.upserts.push(...(await testRecordDocs(all.unindexable)));
+  return { docs: all.upserts, unindexable: all.unindexable };
 }

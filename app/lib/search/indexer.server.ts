@@ -1,8 +1,9 @@
-import { and, inArray, isNull, lte, sql } from "drizzle-orm";
+import { and, gt, inArray, isNull, lte, sql } from "drizzle-orm";
 import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
-import { ensureIndex, SEARCH_SETTINGS, searchErrorCode, searchErrorMessage, searchIndex, type SearchDoc } from "./client.server";
-import { allDocuments, buildChange } from "./documents.server";
+import { ensureIndex, SEARCH_SETTINGS, searchClient, searchErrorCode, searchErrorMessage, searchIndex, searchServiceAway, type SearchDoc } from "./client.server";
+import { allDocuments, buildChange, failureReason, isPassingFailure, recordOf, type IndexChange, type Unindexable } from "./documents.server";
+import { clearSetAside, setAside, setAsideCount } from "./set-aside.server";
 import { currentSynonyms } from "./words.server";
 
 const LOCK_KEY = 74_210_001; // one drainer at a time across workers
@@ -30,20 +31,57 @@ export async function applyChanges(upserts: SearchDoc[], deleteIds: string[], de
   }
 }
 
+/** The longest wait between two tries of a failing batch. */
+export const MAX_RETRY_MS = 60_000;
+/** How often the service's /health is asked while it is away. */
+export const HEALTH_PROBE_MS = 1_000;
+
 export function retryDelayMs(attempts: number, baseMs = Number(process.env.SEARCH_RETRY_BASE_MS ?? 2000)): number {
-  return Math.min(baseMs * 2 ** Math.max(0, attempts - 1), 5 * 60 * 1000);
+  return Math.min(baseMs * 2 ** Math.max(0, attempts - 1), MAX_RETRY_MS);
 }
+
+/**
+ * Whether the last batch failed because the service was away. A worker that starts does not
+ * know (the rows may carry a long back-off from before), and asking costs one request.
+ */
+let serviceAway = true;
+let lastProbe = 0;
+
+/**
+ * While the service is away, asks its /health (every HEALTH_PROBE_MS at most); the moment it
+ * answers, every pending row is due at once. The back-off only spares a service that answers
+ * with errors; how long an outage lasted must not delay the changes made during it.
+ */
+async function probeWhileAway() {
+  if (!serviceAway || Date.now() - lastProbe < HEALTH_PROBE_MS) return;
+  lastProbe = Date.now();
+  const back = await searchClient()
+    .health()
+    .then((h) => h.status === "available", () => false);
+  if (!back) return;
+  serviceAway = false;
+  await db()
+    .update(searchOutbox)
+    .set({ nextAttemptAt: sql`now()` })
+    .where(and(isNull(searchOutbox.doneAt), gt(searchOutbox.nextAttemptAt, sql`now()`)));
+}
+
+const keyOf = (r: { kind: string; entityId: string }) => `${r.kind}:${r.entityId}`;
 
 /**
  * Drains due outbox rows: builds each changed record's documents from the database as it
  * is now (so replays are harmless), sends them, and marks the rows done only after the
- * service's tasks succeeded. On failure the rows stay pending with a later next attempt.
+ * service's tasks succeeded. A record whose documents cannot be built is set aside with the
+ * reason (search_set_aside) and the rest of the batch goes on; it is tried again when it
+ * changes, or when an admin asks. On any other failure the rows stay pending with a later
+ * next attempt; when the service was away, they go as soon as it answers again.
  */
-export async function drainSearchOutbox(limit = 500): Promise<{ done: number; failed: number }> {
+export async function drainSearchOutbox(limit = 500): Promise<{ done: number; failed: number; setAside: number }> {
+  await probeWhileAway();
   const client = await pool().connect();
   try {
     const { rows } = await client.query<{ locked: boolean }>("select pg_try_advisory_lock($1) as locked", [LOCK_KEY]);
-    if (!rows[0]?.locked) return { done: 0, failed: 0 };
+    if (!rows[0]?.locked) return { done: 0, failed: 0, setAside: 0 };
     try {
       const pending = await db()
         .select()
@@ -51,7 +89,7 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
         .where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.nextAttemptAt, sql`now()`)))
         .orderBy(searchOutbox.id)
         .limit(limit);
-      if (!pending.length) return { done: 0, failed: 0 };
+      if (!pending.length) return { done: 0, failed: 0, setAside: 0 };
       const ids = pending.map((p) => p.id);
       try {
         if (!indexReady) {
@@ -64,28 +102,51 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
         const upserts = new Map<string, SearchDoc>();
         const deleteIds = new Set<string>();
         const deleteGroups = new Set<string>();
+        const unindexable = new Map<string, Unindexable>();
+        const indexed = new Map<string, { kind: string; entityId: string }>();
         let words = false;
         for (const row of pending) {
-          const key = `${row.kind}:${row.entityId}`;
+          const key = keyOf(row);
           if (seen.has(key)) continue;
           seen.add(key);
           if (row.kind === "search_words") {
             words = true;
             continue;
           }
-          const change = await buildChange(row.kind, row.entityId);
+          let change: IndexChange;
+          try {
+            change = await buildChange(row.kind, row.entityId);
+          } catch (err) {
+            if (isPassingFailure(err)) throw err;
+            unindexable.set(key, { kind: row.kind, entityId: row.entityId, reason: failureReason(err) });
+            continue;
+          }
           change.deleteGroups.forEach((g) => deleteGroups.add(g));
           change.deleteIds.forEach((d) => deleteIds.add(d));
-          for (const d of change.upserts) upserts.set(d.id, d);
+          for (const d of change.upserts) {
+            upserts.set(d.id, d);
+            const rec = recordOf(d);
+            if (rec) indexed.set(keyOf(rec), rec);
+          }
+          for (const u of change.unindexable) unindexable.set(keyOf(u), u);
+          indexed.set(key, row);
         }
         for (const id of upserts.keys()) deleteIds.delete(id);
+        for (const key of unindexable.keys()) indexed.delete(key);
         await applyChanges([...upserts.values()], [...deleteIds], [...deleteGroups]);
         // The search words as they are now, the whole list (a replay sends the same).
         if (words) await check(await searchIndex().updateSynonyms(await currentSynonyms()).waitTask(), "synonyms");
-        await db().update(searchOutbox).set({ doneAt: new Date(), lastError: null }).where(inArray(searchOutbox.id, ids));
-        return { done: ids.length, failed: 0 };
+        await db().transaction(async (tx) => {
+          await tx.update(searchOutbox).set({ doneAt: new Date(), lastError: null }).where(inArray(searchOutbox.id, ids));
+          await clearSetAside(tx, [...indexed.values()]);
+          await setAside(tx, [...unindexable.values()]);
+        });
+        serviceAway = false;
+        for (const u of unindexable.values()) console.error(`[search] set aside ${u.kind} ${u.entityId}, it could not be indexed: ${u.reason}`);
+        return { done: ids.length, failed: 0, setAside: unindexable.size };
       } catch (err) {
         indexReady = false;
+        serviceAway = searchServiceAway(err);
         const message = searchErrorMessage(err).slice(0, 500);
         await db()
           .update(searchOutbox)
@@ -95,7 +156,7 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
             nextAttemptAt: new Date(Date.now() + retryDelayMs((pending[0]?.attempts ?? 0) + 1)),
           })
           .where(inArray(searchOutbox.id, ids));
-        return { done: 0, failed: ids.length };
+        return { done: 0, failed: ids.length, setAside: 0 };
       }
     } finally {
       await client.query("select pg_advisory_unlock($1)", [LOCK_KEY]);
@@ -105,16 +166,20 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
   }
 }
 
-/** How far the index is behind: rows not yet indexed, and the last error if any. */
-export async function searchBacklog(): Promise<{ pending: number; lastError: string | null }> {
+/**
+ * How far the index is behind: rows not yet indexed, how many of them already failed once,
+ * the last error, and the records set aside (docs/decisions/005).
+ */
+export async function searchBacklog(): Promise<{ pending: number; failing: number; lastError: string | null; setAside: number }> {
   const [r] = await db()
     .select({
       pending: sql<number>`count(*)::int`,
+      failing: sql<number>`(count(*) filter (where ${searchOutbox.attempts} > 0))::int`,
       lastError: sql<string | null>`max(${searchOutbox.lastError})`,
     })
     .from(searchOutbox)
     .where(isNull(searchOutbox.doneAt));
-  return { pending: r?.pending ?? 0, lastError: r?.lastError ?? null };
+  return { pending: r?.pending ?? 0, failing: r?.failing ?? 0, lastError: r?.lastError ?? null, setAside: await setAsideCount() };
 }
 
 /**
@@ -130,7 +195,7 @@ async function rebuild(): Promise<{ documents: number; removed: number }> {
   const startedAt = new Date();
   await ensureIndex();
   indexReady = true;
-  const docs = await allDocuments();
+  const { docs, unindexable } = await allDocuments();
   const keep = new Set(docs.map((d) => d.id));
   const index = searchIndex();
   await applyChanges(docs, [], []);
@@ -142,7 +207,11 @@ async function rebuild(): Promise<{ documents: number; removed: number }> {
     if (page.results.length < 1000) break;
   }
   if (stale.length) await check(await index.deleteDocuments(stale).waitTask(), "delete stale");
-  await db().update(searchOutbox).set({ doneAt: new Date() }).where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
+  await db().transaction(async (tx) => {
+    await tx.update(searchOutbox).set({ doneAt: new Date() }).where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
+    await clearSetAside(tx, docs.map(recordOf).filter((r) => r !== null));
+    await setAside(tx, unindexable);
+  });
   rebuildOwed = false;
   return { documents: docs.length, removed: stale.length };
 }

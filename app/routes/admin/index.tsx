@@ -20,6 +20,10 @@ export default function AdminHome({ loaderData }: Route.ComponentProps) {
           <h2 className="text-lg">People</h2>
           <p className="mt-1 text-sm text-graphite-soft">Invite staff, change roles, deactivate accounts.</p>
         </Link>
+        <Link to="/admin/search" className="card block text-graphite no-underline hover:border-brass">
+          <h2 className="text-lg">Search index</h2>
+          <p className="mt-1 text-sm text-graphite-soft">Changes waiting to be searchable, and records set aside because they could not be indexed.</p>
+        </Link>
         {loaderData.mailFake && (
           <Link to="/admin/outbox" className="card block text-graphite no-underline hover:border-brass">
             <h2 className="text-lg">Outbox</h2>
