@@ -1,11 +1,12 @@
 import { PassThrough } from "node:stream";
 
-import type { AppLoadContext, EntryContext } from "react-router";
+import type { EntryContext, RouterContextProvider } from "react-router";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { ServerRouter } from "react-router";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
+import { newNonce, nonceContext, pagePolicy } from "./lib/csp.server";
 import { answerSearchDirect } from "./lib/search/answer.server";
 
 // React Router's own server entry (from `react-router reveal entry.server`), with one export of
@@ -21,10 +22,14 @@ export default function handleRequest(
   responseStatusCode: number,
   responseHeaders: Headers,
   routerContext: EntryContext,
-  loadContext: AppLoadContext,
-  // If you have middleware enabled:
-  // loadContext: RouterContextProvider
+  loadContext: RouterContextProvider,
 ) {
+  // The page's Content-Security-Policy allows the inline scripts that carry this request's
+  // nonce (made by the root middleware, app/lib/csp.server.ts); React Router writes it on its
+  // scripts and React on the chunks it streams.
+  const nonce = loadContext.get(nonceContext) || newNonce();
+  responseHeaders.set("Content-Security-Policy", pagePolicy(nonce));
+
   // https://httpwg.org/specs/rfc9110.html#HEAD
   if (request.method.toUpperCase() === "HEAD") {
     return new Response(null, {
@@ -52,8 +57,9 @@ export default function handleRequest(
     );
 
     const { pipe, abort } = renderToPipeableStream(
-      <ServerRouter context={routerContext} url={request.url} />,
+      <ServerRouter context={routerContext} url={request.url} nonce={nonce} />,
       {
+        nonce: { script: nonce, style: nonce },
         [readyOption]() {
           shellRendered = true;
           const body = new PassThrough({

@@ -1,12 +1,33 @@
 import { data, isRouteErrorResponse, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, useLocation, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
+import { config as zodConfig } from "zod";
 import "./app.css";
 import { getUser } from "./lib/auth.server";
+import { cspMiddleware } from "./lib/csp.server";
 import { clientEnv } from "./lib/env.server";
 import { readFlash } from "./lib/flash.server";
 import { securityMiddleware } from "./lib/http.server";
 
-export const middleware: Route.MiddlewareFunction[] = [securityMiddleware];
+// The CSP nonce comes first so that it also reaches pages the security middleware's read-page
+// cache answers (app/lib/csp.server.ts).
+export const middleware: Route.MiddlewareFunction[] = [cspMiddleware, securityMiddleware];
+
+// Two libraries would break the page's Content-Security-Policy (app/lib/csp.server.ts) unless told
+// before their first use, which is why it happens here, in the first module the browser runs:
+// - zod compiles object parsers with `new Function` when it can; without 'unsafe-eval' its probe
+//   is a refused eval on every page, so it is told to interpret from the start;
+// - video.js writes <style> elements for the player's size, which the policy refuses without the
+//   nonce, unless this flag is set when its module loads (the watch page's lazy player); the
+//   player takes its size from a class instead (Player.client.tsx).
+declare global {
+  interface Window {
+    VIDEOJS_NO_DYNAMIC_STYLE?: boolean;
+  }
+}
+if (typeof window !== "undefined") {
+  zodConfig({ jitless: true });
+  window.VIDEOJS_NO_DYNAMIC_STYLE = true;
+}
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 

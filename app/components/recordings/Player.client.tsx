@@ -84,7 +84,9 @@ export default function Player({
 
   useEffect(() => {
     const el = document.createElement("video-js");
-    el.className = "vjs-benchreel";
+    // vjs-16-9 gives the player its height: video.js's own size <style> is off under the page's
+    // Content-Security-Policy (VIDEOJS_NO_DYNAMIC_STYLE, set in app/root.tsx).
+    el.className = "vjs-benchreel vjs-16-9";
     el.setAttribute("data-testid", "player");
     holder.current!.appendChild(el);
     const player = videojs(el, {

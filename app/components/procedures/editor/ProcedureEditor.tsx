@@ -10,6 +10,7 @@ import { AREA_LABELS, AREAS } from "~/lib/procedures/areas";
 const AREA_OPTIONS = AREAS.map((value) => ({ value, label: AREA_LABELS[value] }));
 import { EditorSharedContext } from "./context";
 import { editorNodes } from "./nodeViews";
+import { documentNonce } from "~/lib/csp";
 
 export type DraftInitial = {
   id: string;
@@ -148,6 +149,8 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
 
   const editor = useEditor({
     immediatelyRender: false,
+    // TipTap adds a <style> of base styles; the page's Content-Security-Policy wants its nonce.
+    injectNonce: documentNonce(),
     extensions: [starterKit, Table.configure({ resizable: false }), TableRow, TableHeader, TableCell, ...editorNodes, Placeholder.configure({ placeholder: "Write the step, or insert a block from the toolbar…" })],
     content: initial.doc as JSONNode,
     editorProps: { attributes: { class: "proc-body prose-proc", "aria-label": "Procedure text", "data-testid": "editor" } },

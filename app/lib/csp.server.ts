@@ -1,0 +1,78 @@
+/**
+ * Content-Security-Policy for pages, with a fresh nonce per response.
+ *
+ * Every response gets the static policy of security-headers.json (server.js and the security
+ * middleware send it); an HTML page rendered by app/entry.server.tsx gets this page policy
+ * instead, whose nonce is on every inline script React and React Router write (the route data,
+ * the hydration bootstrap, scroll restoration, streamed Suspense chunks). A script injected
+ * into a page cannot know the nonce, so the browser refuses it.
+ *
+ * The nonce is made by the root middleware (`cspMiddleware`, first in app/root.tsx) and handed
+ * to the entry through React Router's context (`nonceContext`). A page served from the read-page
+ * cache (page-cache.server.ts) carries the nonce of the response it was stored from; the
+ * middleware swaps it for this response's own before it leaves, so no two responses share one.
+ */
+import { randomBytes } from "node:crypto";
+import { createContext } from "react-router";
+
+/** This request's nonce; "" outside a request that went through the root middleware. */
+export const nonceContext = createContext<string>("");
+
+export function newNonce(): string {
+  return randomBytes(16).toString("base64");
+}
+
+/**
+ * The page policy. Scripts: our own files and the nonced inline ones; no eval. Styles: our own
+ * stylesheets and nonced <style> elements (TipTap's base styles get the nonce; video.js is told
+ * not to write its own, see Player.client.tsx). Style *attributes* stay allowed: React renders a
+ * `style` prop into the server HTML as an attribute (the progress bars), which no nonce can
+ * cover; an attribute cannot match selectors, and images and fonts come only from this origin,
+ * so injected CSS has nothing to read and nowhere to send it. Fonts include data: because
+ * video.js's icon font and the smallest font subsets are inlined into the built CSS. Posters,
+ * media and API calls are all same-origin; nothing is framed, posted elsewhere or embedded.
+ */
+export function pagePolicy(nonce: string): string {
+  return [
+    "default-src 'self'",
+    `script-src 'self' 'nonce-${nonce}'`,
+    `style-src 'self' 'nonce-${nonce}'`,
+    "style-src-attr 'unsafe-inline'",
+    "img-src 'self'",
+    "media-src 'self'",
+    "font-src 'self' data:",
+    "connect-src 'self'",
+    "object-src 'none'",
+    "base-uri 'self'",
+    "form-action 'self'",
+    "frame-ancestors 'none'",
+  ].join("; ");
+}
+
+const NONCE_IN_POLICY = /'nonce-([A-Za-z0-9+/=]+)'/;
+
+/**
+ * Gives an HTML response this request's nonce when it was rendered for another request (a
+ * read-page cache hit): the old nonce is a 24-character random string found in its policy
+ * header, so every occurrence of it in the body is one of the nonce attributes.
+ */
+export async function withNonce(res: Response, nonce: string): Promise<Response> {
+  const policy = res.headers.get("content-security-policy");
+  const old = policy?.match(NONCE_IN_POLICY)?.[1];
+  if (!old || old === nonce || !res.body) return res;
+  const body = Buffer.from(await res.arrayBuffer());
+  const from = Buffer.from(old);
+  const to = Buffer.from(nonce);
+  if (from.length !== to.length) throw new Error("nonces of different lengths");
+  for (let at = body.indexOf(from); at !== -1; at = body.indexOf(from, at + to.length)) to.copy(body, at);
+  const headers = new Headers(res.headers);
+  headers.set("Content-Security-Policy", policy!.replace(old, nonce));
+  return new Response(body, { status: res.status, statusText: res.statusText, headers });
+}
+
+/** Root middleware: a nonce for this request, and a fresh one on a page rendered for another. */
+export async function cspMiddleware({ context }: { context: { set(c: typeof nonceContext, v: string): void } }, next: () => Promise<Response>) {
+  const nonce = newNonce();
+  context.set(nonceContext, nonce);
+  return withNonce(await next(), nonce);
+}
