@@ -1,6 +1,6 @@
-import { stringify } from "csv-stringify/sync";
 import type { Route } from "./+types/readings";
 import { requirePermission } from "~/lib/auth.server";
+import { spreadsheetCsv } from "~/lib/csv";
 import { methodNotAllowed, readJson } from "~/lib/recordings/api.server";
 import { createReadings, listReadings, recordingOr404 } from "~/lib/recordings/notes.server";
 import { quantityDef } from "~/lib/recordings/rules";
@@ -14,7 +14,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const rec = await recordingOr404(request, params.id);
   const rows = await listReadings(params.id);
   if (new URL(request.url).searchParams.get("format") !== "csv") return Response.json({ readings: rows });
-  const csv = stringify(
+  const csv = spreadsheetCsv(
     rows.map((r) => ({
       time_s: r.t ?? "",
       quantity: quantityDef(r.quantity)?.label ?? r.quantity,
