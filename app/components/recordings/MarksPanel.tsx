@@ -132,7 +132,8 @@ function MarkItem({ recordingId, mark, active, canEdit, onSeek, onEdit }: { reco
       {(mark.tags.length > 0 || mark.procedureTitle) && (
         <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs">
           {mark.tags.map((t) => <span key={t} className="rounded-full bg-teal-soft px-2 py-0.5 font-semibold text-teal">{t}</span>)}
-          {mark.procedureTitle && <a href={`/procedures/${mark.procedureSlug}`} className="font-semibold">↳ {mark.procedureTitle}</a>}
+          {/* No address: a procedure this person may not read (marksFor in notes.server.ts). */}
+          {mark.procedureTitle && (mark.procedureSlug ? <a href={`/procedures/${mark.procedureSlug}`} className="font-semibold">↳ {mark.procedureTitle}</a> : <span className="italic">↳ {mark.procedureTitle}</span>)}
         </div>
       )}
       <div className="mt-1 flex items-center gap-3 text-xs text-graphite-soft">

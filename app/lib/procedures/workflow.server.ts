@@ -26,6 +26,7 @@ import { slugify } from "./slug";
 import { decide, type Actor, type RevisionState, type Transition } from "./state";
 
 import { AREA_LABELS, AREAS, type Area } from "./areas";
+import { readableBy, type Reader } from "./visibility.server";
 export { AREA_LABELS, AREAS, type Area };
 
 export class ProcedureError extends Error {
@@ -473,12 +474,13 @@ export async function recordingTitles(ids: string[]): Promise<Map<string, string
   return new Map(r.rows.map((x) => [x.id, x.title]));
 }
 
-export async function searchTitles(q: string, exceptId?: string) {
+/** Titles for the editor's link picker: only procedures the person may read (a draft's title is the author's). */
+export async function searchTitles(reader: Reader, q: string, exceptId?: string) {
   const term = `%${q.trim().replace(/[%_\\]/g, (c) => `\\${c}`)}%`;
   return db()
     .select({ id: procedures.id, title: procedures.title, slug: procedures.slug, area: procedures.area })
     .from(procedures)
-    .where(and(sql`${procedures.title} ilike ${term}`, exceptId ? ne(procedures.id, exceptId) : undefined))
+    .where(and(sql`${procedures.title} ilike ${term}`, exceptId ? ne(procedures.id, exceptId) : undefined, readableBy(reader)))
     .orderBy(procedures.title)
     .limit(12);
 }

@@ -1,11 +1,12 @@
 import { and, eq } from "drizzle-orm";
 import { z } from "zod";
-import { marks, procedures, readings } from "~/db/schema";
+import { marks, readings } from "~/db/schema";
 import { assertCan, forbidden, type SessionUser } from "../auth.server";
 import { db } from "../db.server";
 import { canOnOwned } from "../permissions";
+import { readableProcedureIds, UNREADABLE_PROCEDURE, type Reader } from "../procedures/visibility.server";
 import { invalid, notFound } from "./api.server";
-import { getRecording, listMarks, listReadings } from "./library.server";
+import { getRecording, listMarks, listReadings, procedureChoices } from "./library.server";
 import { markInputSchema, markPatchSchema, readingInputSchema, toStoredSI } from "./rules";
 
 /**
@@ -19,14 +20,35 @@ export async function recordingOr404(request: Request, id: string) {
   return rec;
 }
 
-async function procedureMissing(id: string | null | undefined): Promise<boolean> {
+/**
+ * A mark may point only at a procedure its writer may read (visibility.server.ts). A missing
+ * procedure and someone else's unpublished draft get the same answer, so the API tells no one
+ * which drafts exist.
+ */
+async function procedureUnreadable(reader: Reader, id: string | null | undefined): Promise<boolean> {
   if (!id) return false;
-  const [p] = await db().select({ id: procedures.id }).from(procedures).where(eq(procedures.id, id));
-  return !p;
+  return !(await readableProcedureIds(reader, [id])).has(id);
 }
 
 const unknownProcedure = () =>
-  Response.json({ error: "invalid input", issues: [{ path: "procedureId", message: "That procedure does not exist (any more)." }] }, { status: 422 });
+  Response.json({ error: "invalid input", issues: [{ path: "procedureId", message: "That procedure does not exist, or it is not published yet." }] }, { status: 422 });
+
+/**
+ * A recording's marks as `reader` may see them: a link to a procedure the reader may not read
+ * keeps its id (so the mark's author can still edit the mark) but loses its title and address.
+ */
+export async function marksFor(reader: Reader, recordingId: string) {
+  const rows = await listMarks(recordingId);
+  const readable = await readableProcedureIds(reader, rows.flatMap((m) => (m.procedureId ? [m.procedureId] : [])));
+  return rows.map((m) => (m.procedureId && !readable.has(m.procedureId) ? { ...m, procedureTitle: UNREADABLE_PROCEDURE, procedureSlug: null } : m));
+}
+
+/** The procedures a mark's link may be set to by `reader` (the watch page's choices). */
+export async function procedureChoicesFor(reader: Reader) {
+  const all = await procedureChoices();
+  const readable = await readableProcedureIds(reader, all.map((p) => p.id));
+  return all.filter((p) => readable.has(p.id));
+}
 
 // ---- marks -----------------------------------------------------------------------------------
 
@@ -35,7 +57,7 @@ export async function createMark(request: Request, user: SessionUser, recordingI
   const rec = await recordingOr404(request, recordingId);
   const parsed = markInputSchema(rec.durationS).safeParse(body);
   if (!parsed.success) return invalid(parsed.error);
-  if (await procedureMissing(parsed.data.procedureId)) return unknownProcedure();
+  if (await procedureUnreadable(user, parsed.data.procedureId)) return unknownProcedure();
   const [row] = await db()
     .insert(marks)
     .values({
@@ -68,7 +90,9 @@ export async function updateMark(request: Request, user: SessionUser, recordingI
   if (next.tEnd != null && next.tEnd <= next.tStart) {
     return Response.json({ error: "invalid input", issues: [{ path: "tEnd", message: "A span must end after it starts." }] }, { status: 422 });
   }
-  if (await procedureMissing(parsed.data.procedureId)) return unknownProcedure();
+  // A link kept as it was is not checked again: the author of a mark may edit its text even when
+  // its procedure has since become one they may not read.
+  if (parsed.data.procedureId !== m.procedureId && (await procedureUnreadable(user, parsed.data.procedureId))) return unknownProcedure();
   const [row] = await db()
     .update(marks)
     .set({ tStart: next.tStart, tEnd: next.tEnd, text: next.text, tags: next.tags, procedureId: next.procedureId, updatedAt: new Date() })
@@ -85,7 +109,7 @@ export async function deleteMark(request: Request, user: SessionUser, recordingI
   return new Response(null, { status: 204 });
 }
 
-export { listMarks, listReadings };
+export { listReadings };
 
 // ---- readings --------------------------------------------------------------------------------
 

@@ -20,7 +20,8 @@ import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { can, canOnOwned } from "~/lib/permissions";
 import { notFound } from "~/lib/recordings/api.server";
-import { getRecording, listMarks, listReadings, procedureChoices } from "~/lib/recordings/library.server";
+import { getRecording, listReadings } from "~/lib/recordings/library.server";
+import { marksFor, procedureChoicesFor } from "~/lib/recordings/notes.server";
 import { retryRecording } from "~/lib/recordings/processing.server";
 import { formatBytes, formatDuration, formatTime, splitTags } from "~/lib/recordings/rules";
 import { recordingDir } from "~/lib/recordings/storage.server";
@@ -34,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const recording = await getRecording(params.id);
   if (!recording) notFound(request);
-  const [marks, readings, procedures] = await Promise.all([listMarks(recording.id), listReadings(recording.id), procedureChoices()]);
+  const [marks, readings, procedures] = await Promise.all([marksFor(user, recording.id), listReadings(recording.id), procedureChoicesFor(user)]);
   return {
     recording,
     marks,

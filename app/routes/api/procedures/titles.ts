@@ -4,10 +4,10 @@ import { AREA_LABELS, searchTitles } from "~/lib/procedures/workflow.server";
 
 /** Title search for the editor's procedure-link picker. */
 export async function loader({ request }: Route.LoaderArgs) {
-  await requirePermission(request, "shop:read");
+  const user = await requirePermission(request, "shop:read");
   const u = new URL(request.url);
   const q = (u.searchParams.get("q") ?? "").slice(0, 100);
   const except = u.searchParams.get("except") ?? undefined;
-  const rows = await searchTitles(q, except && /^[0-9a-f-]{36}$/i.test(except) ? except : undefined);
+  const rows = await searchTitles(user, q, except && /^[0-9a-f-]{36}$/i.test(except) ? except : undefined);
   return Response.json({ results: rows.map((r) => ({ ...r, areaLabel: AREA_LABELS[r.area] })) });
 }

@@ -1,13 +1,13 @@
 import type { Route } from "./+types/mark";
 import { requirePermission } from "~/lib/auth.server";
 import { methodNotAllowed, readJson } from "~/lib/recordings/api.server";
-import { deleteMark, listMarks, recordingOr404, updateMark } from "~/lib/recordings/notes.server";
+import { deleteMark, marksFor, recordingOr404, updateMark } from "~/lib/recordings/notes.server";
 
 /** GET one mark; PATCH changes it, DELETE removes it (own marks; editors and admins any). */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requirePermission(request, "shop:read");
+  const user = await requirePermission(request, "shop:read");
   await recordingOr404(request, params.id);
-  const m = (await listMarks(params.id)).find((x) => x.id === params.markId);
+  const m = (await marksFor(user, params.id)).find((x) => x.id === params.markId);
   if (!m) return Response.json({ error: "not found", reason: "No such mark." }, { status: 404 });
   return Response.json({ mark: m });
 }

@@ -1,13 +1,13 @@
 import type { Route } from "./+types/marks";
 import { requirePermission } from "~/lib/auth.server";
 import { methodNotAllowed, readJson } from "~/lib/recordings/api.server";
-import { createMark, listMarks, recordingOr404 } from "~/lib/recordings/notes.server";
+import { createMark, marksFor, recordingOr404 } from "~/lib/recordings/notes.server";
 
 /** GET lists a recording's marks by time; POST adds one ({ tStart, tEnd?, text, tags?, procedureId? }). */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requirePermission(request, "shop:read");
+  const user = await requirePermission(request, "shop:read");
   await recordingOr404(request, params.id);
-  return Response.json({ marks: await listMarks(params.id) });
+  return Response.json({ marks: await marksFor(user, params.id) });
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
