@@ -427,6 +427,52 @@ for (const target of targets) {
         expect(p).not.toHaveProperty("estimatedTotalHits");
       });
 
+      // Published: "If you set `page` to `0`, Meilisearch processes your request, but does not
+      // return any documents. In this case, the response body will include the exhaustive values
+      // for `totalPages` and `totalHits`." (API reference, Search › Page:
+      // https://www.meilisearch.com/docs/reference/api/search#page)
+      it("page 0 returns no hits, with the exhaustive totals", async () => {
+        const p = await index.search("audit", { hitsPerPage: 7, page: 0 });
+        expect(p.hits).toEqual([]);
+        expect(p).toEqual(expect.objectContaining({ hitsPerPage: 7, page: 0, totalHits: 30, totalPages: 5 }));
+      });
+
+      // Published: one typo from 5 letters, two from 9 ("minWordSizeForTypos",
+      // https://www.meilisearch.com/docs/learn/relevancy/typo_tolerance_settings), and "a typo on
+      // the first character of a word is counted as two typos" (Typo tolerance vs fuzzy search,
+      // https://www.meilisearch.com/docs/resources/internals/typo_tolerance).
+      it("counts a typo on a word's first letter as two", async () => {
+        // "cylinder" (8 letters) may take one typo: inside the word, yes; on its first letter, no.
+        expect((await index.search("cylindar ")).hits.map((h) => h.id).sort()).toEqual(["m1", "r1"]);
+        expect((await index.search("xylinder ")).hits).toEqual([]);
+        // "clearance" (9 letters) may take two: its first letter's typo spends both.
+        const k = await index.search("klearance ", { showRankingScoreDetails: true });
+        expect(k.hits.map((h) => h.id).sort()).toEqual(["m2", "p1"]);
+        for (const h of k.hits) expect(h._rankingScoreDetails?.typo).toEqual(expect.objectContaining({ typoCount: 2 }));
+        expect((await index.search("klearanse ")).hits).toEqual([]); // first letter (2) + one more
+      });
+
+      // Published: "showRankingScoreDetails … adds a `_rankingScoreDetails` object to each hit
+      // with the score of every ranking rule", each with its `order` in the ranking rules and its
+      // `score`; `words` gives `matchingWords`/`maxMatchingWords`, `typo` gives
+      // `typoCount`/`maxTypoCount`, a sort rule gives the hit's `value` (API reference, Search ›
+      // Ranking score details: https://www.meilisearch.com/docs/reference/api/search#ranking-score-details).
+      it("answers _rankingScoreDetails per hit: the rules that ranked it, in their order", async () => {
+        const r = await index.search("torque moly", { showRankingScoreDetails: true });
+        const d = r.hits[0]._rankingScoreDetails!;
+        expect(r.hits[0].id).toBe("p2");
+        expect(d.words).toEqual({ order: 0, matchingWords: 2, maxMatchingWords: 2, score: 1 });
+        expect(d.typo).toEqual(expect.objectContaining({ order: 1, typoCount: 0, score: 1 }));
+        expect(d.attribute).toEqual(expect.objectContaining({ order: 3, score: expect.any(Number) }));
+        expect(d.exactness).toEqual(expect.objectContaining({ order: 5, matchType: expect.any(String), score: expect.any(Number) }));
+        const partial = r.hits.find((h) => h.id !== "p2")!._rankingScoreDetails!;
+        expect(partial.words).toEqual(expect.objectContaining({ matchingWords: 1, maxMatchingWords: 2 }));
+        expect(partial.words!.score).toBeLessThan(1);
+        const sorted = await index.search("audit", { sort: ["year:desc"], limit: 1, showRankingScoreDetails: true });
+        expect(sorted.hits[0]._rankingScoreDetails!["year:desc"]).toEqual({ order: 4, value: 2019 });
+        expect((await index.search("audit", { limit: 1 })).hits[0]).not.toHaveProperty("_rankingScoreDetails");
+      });
+
       it("sorts on sortable attributes and rejects others", async () => {
         const r = await index.search("", { filter: "tags = audit", sort: ["year:desc"], limit: 5 });
         expect(r.hits.map((h) => h.year)).toEqual([2019, 2018, 2017, 2016, 2015]);
@@ -479,6 +525,28 @@ for (const target of targets) {
         }
         const types = await client.tasks.getTasks({ types: ["settingsUpdate"], indexUids: [uid] });
         for (const t of types.results) expect(t.type).toBe("settingsUpdate");
+      });
+
+      // Published: POST /tasks/cancel "Cancel any number of enqueued or processing tasks based on
+      // their uid, status, type, indexUid, or the date…"; it answers 202 with a summary whose
+      // `type` is `taskCancelation` and `indexUid` is null (a global task); without any filter it
+      // answers `missing_task_filters`. A finished task matches the filter but is not canceled.
+      // (API reference, Tasks › Cancel tasks: https://www.meilisearch.com/docs/reference/api/tasks#cancel-tasks)
+      // Every error carries `message`, `code`, `type` and `link`
+      // (https://www.meilisearch.com/docs/reference/errors/overview); `apiError` asserts all four.
+      it("cancels tasks by filter as a taskCancelation task, and refuses a cancelation without filters", async () => {
+        const refused = await apiError(client.tasks.cancelTasks({}));
+        expect(refused.status).toBe(400);
+        expect(refused.body.code).toBe("missing_task_filters");
+        const done = await index.updateSettings({ stopWords: [] }).waitTask();
+        const cancel = await client.tasks.cancelTasks({ uids: [done.uid] });
+        expect(cancel).toEqual(expect.objectContaining({ taskUid: expect.any(Number), indexUid: null, status: "enqueued", type: "taskCancelation", enqueuedAt: expect.any(String) }));
+        const finished = await client.tasks.waitForTask(cancel.taskUid);
+        expect(finished).toEqual(expect.objectContaining({ status: "succeeded", type: "taskCancelation", indexUid: null, error: null }));
+        expect(finished.details).toEqual(expect.objectContaining({ matchedTasks: 1, canceledTasks: 0, originalFilter: `?uids=${done.uid}` }));
+        expect((await client.tasks.getTask(done.uid)).status).toBe("succeeded");
+        const badFilter = await apiError(client.tasks.cancelTasks({ statuses: ["nonsense" as never] }));
+        expect(badFilter.body.code).toBe("invalid_task_statuses");
       });
 
       it("answers 404 task_not_found for an unknown task", async () => {

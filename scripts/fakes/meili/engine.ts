@@ -190,6 +190,7 @@ export type SearchParams = {
   cropMarker?: string;
   showMatchesPosition?: boolean;
   showRankingScore?: boolean;
+  showRankingScoreDetails?: boolean;
   matchingStrategy?: "last" | "all" | "frequency";
   attributesToSearchOn?: string[] | null;
   distinct?: string;
@@ -261,7 +262,11 @@ export function checkSearchParams(body: unknown, ignore: string[] = []): SearchP
 type Derived = { term: string; postings: Postings; typo: number; weight: number; exact: boolean };
 /** An alternative: every one of its terms must be present (each term: any of its derivations). */
 type Alt = Derived[][];
-type Slot = { alts: Alt[]; weight: number; df: number };
+/** One query word (or phrase, or synonym group); `maxTypos` is how many typos it may take. */
+/** What a hit's ranking rests on: query words it holds, of how many, and the typos allowed. */
+type Rank = { words: number; totalWords: number; maxTypoCount: number };
+
+type Slot = { alts: Alt[]; weight: number; df: number; maxTypos: number };
 
 /** Every term a query can match: highlighted prefix length (0 = whole word), and its postings. */
 type MatchInfo = Map<string, { prefix: number; postings: Postings | null }>;
@@ -899,8 +904,14 @@ export class MeiliIndex {
         const had = fuzzy.get(t);
         if (p && (!had || had[1] > 1)) fuzzy.set(t, [p, 1]);
       }
-      for (const [t, [p, d]] of fuzzy) {
-        if (d === 0 || taken.has(t) || !p.len) continue;
+      // As in Meilisearch, a typo on the first letter counts as two: a word that does not
+      // start with the query word's first letter matches only when two typos are allowed,
+      // and only as a one-edit neighbour (which then costs two).
+      const first = String.fromCodePoint(term.codePointAt(0)!);
+      for (const [t, [p, edits]] of fuzzy) {
+        if (edits === 0 || taken.has(t) || !p.len) continue;
+        const d = t.startsWith(first) ? edits : edits === 1 ? 2 : Infinity;
+        if (d > maxTypos) continue;
         out.push({ term: t, postings: p, typo: d, weight: (0.5 * t.length) / (t.length + d), exact: false });
         match.set(t, { prefix: 0, postings: p });
       }
@@ -985,19 +996,19 @@ export class MeiliIndex {
             const a = this.phrase(v, match);
             if (a) alts.push(a);
           }
-          slots.push({ alts, weight: n, df: 0 });
+          slots.push({ alts, weight: n, df: 0, maxTypos: single ? this.maxTypos(kept[i].chunk.term) : 0 });
           used = n;
         }
       }
       if (!used) {
-        slots.push({ alts: this.chunkAlts(kept[i], match), weight: 1, df: 0 });
+        slots.push({ alts: this.chunkAlts(kept[i], match), weight: 1, df: 0, maxTypos: this.maxTypos(kept[i].chunk.term) });
         used = 1;
       }
       i += used;
     }
     for (const p of phrases.slice(0, Math.max(0, 10 - slots.length))) {
       const a = this.phrase(p, match);
-      slots.push({ alts: a ? [a] : [], weight: p.length, df: 0 });
+      slots.push({ alts: a ? [a] : [], weight: p.length, df: 0, maxTypos: 0 });
     }
     for (const s of slots) s.df = Math.max(0, ...s.alts.map((a) => Math.min(...a.map((d) => d.reduce((x, y) => x + y.postings.len, 0)))));
     return { slots, exclude };
@@ -1027,9 +1038,10 @@ export class MeiliIndex {
     const finite = params.page != null || params.hitsPerPage != null;
     const maxTotal = s.pagination.maxTotalHits;
     const hitsPerPage = params.hitsPerPage ?? 20;
-    const page = Math.max(1, params.page ?? 1);
-    const offset = finite ? (page - 1) * hitsPerPage : (params.offset ?? 0);
-    const limit = finite ? hitsPerPage : (params.limit ?? 20);
+    // `page: 0` is processed (totals included) but returns no hits, as in Meilisearch.
+    const page = params.page ?? 1;
+    const offset = finite ? Math.max(0, page - 1) * hitsPerPage : (params.offset ?? 0);
+    const limit = finite ? (page === 0 ? 0 : hitsPerPage) : (params.limit ?? 20);
     const sortRules = params.sort && params.sort.length ? this.parseSort(params.sort, "invalid_search_sort") : [];
     if (sortRules.length && !s.rankingRules.includes("sort"))
       throw bad("invalid_search_sort", `Index \`${this.uid}\`: You must specify where \`sort\` is listed in the rankingRules setting to use the sort parameter at search time.`);
@@ -1142,7 +1154,8 @@ export class MeiliIndex {
     let facetStats: Record<string, { min: number; max: number }> | undefined;
     if (facetNames) ({ facetDistribution, facetStats } = this.facetCounts(facetNames, cand, cn));
 
-    const hits = pageIdx.map((i) => this.formatHit(cand[i], params, match, hasQuery ? { words: cWords![i], totalWords, doc: cand[i] } : null));
+    const maxTypoCount = plan ? plan.slots.reduce((x, sl) => x + sl.maxTypos, 0) : 0;
+    const hits = pageIdx.map((i) => this.formatHit(cand[i], params, match, hasQuery ? { words: cWords![i], totalWords, maxTypoCount } : null, sortRules));
     if (params.rankingScoreThreshold != null) {
       // keep the hits at or above the threshold (the page only; total is an estimate)
       for (let i = hits.length - 1; i >= 0; i--) if (((hits[i]._rankingScore as number) ?? 1) < params.rankingScoreThreshold) hits.splice(i, 1);
@@ -1385,7 +1398,7 @@ export class MeiliIndex {
   // -------------------------------------------------------------------------------------
   // hit formatting (only for the returned page)
 
-  private formatHit(id: number, p: SearchParams, match: MatchInfo, rank: { words: number; totalWords: number; doc: number } | null): Doc {
+  private formatHit(id: number, p: SearchParams, match: MatchInfo, rank: Rank | null, sortRules: { field: string; asc: boolean }[]): Doc {
     const doc = this.docs[id]!;
     const hit = this.project(doc, p.attributesToRetrieve);
     // the query's own words, and the derived words (prefix, typo) this document holds
@@ -1454,7 +1467,45 @@ export class MeiliIndex {
       }
       hit._rankingScore = Math.round(sc * 1e6) / 1e6;
     }
+    if (p.showRankingScoreDetails) hit._rankingScoreDetails = this.rankingDetails(id, rank, sortRules);
     return hit;
+  }
+
+  /**
+   * What each ranking rule the fake applies made of this hit, keyed by rule and numbered by
+   * the rule's place in `rankingRules`, in the words of Meilisearch's `_rankingScoreDetails`.
+   * The fake has no proximity rule, so none is reported. Its attribute rule ranks by the
+   * first searchable attribute holding a query word only (not by the word's position), and
+   * its exactness rule counts the query words matched without typo or completion (it does not
+   * detect an attribute equal to the query): those parts are said as such.
+   */
+  private rankingDetails(id: number, rank: Rank | null, sortRules: { field: string; asc: boolean }[]): Record<string, unknown> {
+    const out: Record<string, unknown> = {};
+    const doc = this.docs[id]!;
+    const sa = this.settings.searchableAttributes;
+    const attrCount = Math.max(1, Math.min(15, sa.includes("*") ? this.fieldOrder.length : sa.length));
+    const round = (x: number) => Math.round(x * 1e6) / 1e6;
+    const valueOf = (field: string) => valuesAt(doc, field)[0] ?? null;
+    this.settings.rankingRules.forEach((rule, order) => {
+      if (rank && rule === "words") {
+        out.words = { order, matchingWords: rank.words, maxMatchingWords: rank.totalWords, score: round(rank.words / rank.totalWords) };
+      } else if (rank && rule === "typo") {
+        const typoCount = Math.min(this.typos[id], rank.maxTypoCount);
+        out.typo = { order, typoCount, maxTypoCount: rank.maxTypoCount, score: round((rank.maxTypoCount + 1 - typoCount) / (rank.maxTypoCount + 1)) };
+      } else if (rank && (rule === "attribute" || rule === "attributeRank")) {
+        const orderScore = round(1 - Math.min(this.attr[id], attrCount - 1) / attrCount);
+        out[rule] = { order, attributeRankingOrderScore: orderScore, queryWordDistanceScore: 1, score: orderScore };
+      } else if (rank && rule === "exactness") {
+        const exact = Math.min(this.exactCnt[id], rank.totalWords);
+        out.exactness = { order, matchType: "noExactMatch", matchingWords: exact, maxMatchingWords: rank.totalWords, score: round(exact / rank.totalWords) };
+      } else if (rule === "sort") {
+        for (const r of sortRules) out[`${r.field}:${r.asc ? "asc" : "desc"}`] = { order, value: valueOf(r.field) };
+      } else {
+        const m = /^(.+):(asc|desc)$/.exec(rule);
+        if (m) out[rule] = { order, value: valueOf(m[1]) };
+      }
+    });
+    return out;
   }
 }
 

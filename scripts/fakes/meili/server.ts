@@ -191,6 +191,13 @@ function route(store: Store, req: Req): Res {
       const originalFilter = `?${params.toString()}`;
       return accepted("taskDeletion", null, { matchedTasks: null, deletedTasks: null, originalFilter }, { kind: "deleteTasks", query, originalFilter });
     }
+    if (seg.length === 2 && seg[1] === "cancel") {
+      if (method !== "POST") return notAllowed();
+      const query = parseTaskQuery(params, false);
+      if (Object.keys(query).length === 0 && ![...params.keys()].length)
+        throw bad("missing_task_filters", "Query parameters to filter the tasks to cancel are missing. Available query parameters are: `uids`, `indexUids`, `statuses`, `types`, `canceledBy`, `beforeEnqueuedAt`, `afterEnqueuedAt`, `beforeStartedAt`, `afterStartedAt`, `beforeFinishedAt`, `afterFinishedAt`.");
+      return json(202, store.cancel(query, `?${params.toString()}`, params.get("customMetadata") ?? undefined));
+    }
     if (seg.length === 2 && method === "GET") {
       if (!/^\d+$/.test(seg[1])) throw bad("invalid_task_uids", `Invalid value in parameter \`taskUid\`: could not parse \`${seg[1]}\` as a positive integer`);
       return json(200, store.getTask(Number(seg[1])));

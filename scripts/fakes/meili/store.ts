@@ -24,6 +24,7 @@ export type TaskType =
   | "documentAdditionOrUpdate"
   | "documentDeletion"
   | "settingsUpdate"
+  | "taskCancelation"
   | "taskDeletion";
 
 export type Task = {
@@ -74,6 +75,9 @@ const JOURNAL_COMPACT_BYTES = 64 * 1024 * 1024;
 
 const duration = (ms: number) => `PT${(ms / 1000).toFixed(6)}S`;
 
+/** The answer to a write: 202 with the task as enqueued. */
+const summaryOf = (t: Task) => ({ taskUid: t.uid, indexUid: t.indexUid, status: t.status, type: t.type, enqueuedAt: t.enqueuedAt });
+
 export type StoreOptions = { dataDir?: string; processingDelayMs?: number };
 
 export class Store {
@@ -82,6 +86,8 @@ export class Store {
   private nextTaskUid = 0;
   private nextBatchUid = 0;
   private queue: { task: Task; op: Op }[] = [];
+  /** Processing tasks a cancelation caught: task uid → the cancelation's uid. */
+  private cancelRequested = new Map<number, number>();
   private running: Promise<void> | null = null;
   private journalFd: number | null = null;
   private journalBytes = 0;
@@ -114,6 +120,72 @@ export class Store {
   }
 
   enqueue(type: TaskType, indexUid: string | null, details: Record<string, unknown> | null, op: Op, customMetadata?: string) {
+    const task = this.newTask(type, indexUid, details, customMetadata);
+    this.queue.push({ task, op });
+    this.kick();
+    return summaryOf(task);
+  }
+
+  /**
+   * POST /tasks/cancel: a `taskCancelation` task. As in Meilisearch it goes before the
+   * queue (it does not wait for the tasks it cancels): the enqueued tasks matching the filter
+   * are canceled, and a task still processing is canceled before it takes effect.
+   */
+  cancel(query: TaskQuery, originalFilter: string, customMetadata?: string) {
+    const task = this.newTask("taskCancelation", null, { matchedTasks: null, canceledTasks: null, originalFilter }, customMetadata);
+    setImmediate(() => this.runCancelation(task, query, originalFilter));
+    return summaryOf(task);
+  }
+
+  private runCancelation(task: Task, query: TaskQuery, originalFilter: string) {
+    const t0 = performance.now();
+    task.status = "processing";
+    task.startedAt = new Date().toISOString();
+    task.batchUid = this.nextBatchUid++;
+    let matched = 0;
+    let canceled = 0;
+    for (const t of this.tasks.values()) {
+      if (t === task || !taskMatches(t, query)) continue;
+      matched++;
+      if (t.status === "enqueued") {
+        const i = this.queue.findIndex((q) => q.task === t);
+        const op = i >= 0 ? this.queue.splice(i, 1)[0].op : null;
+        this.finishCanceled(t, task.uid, op);
+        canceled++;
+      } else if (t.status === "processing" && t.type !== "taskCancelation") {
+        this.cancelRequested.set(t.uid, task.uid);
+        canceled++;
+      }
+    }
+    task.details = { matchedTasks: matched, canceledTasks: canceled, originalFilter };
+    task.finishedAt = new Date().toISOString();
+    task.duration = duration(performance.now() - t0);
+    this.settle(task, "succeeded");
+  }
+
+  /** A task ends canceled: it changed nothing. */
+  private finishCanceled(t: Task, by: number, op: Op | null) {
+    t.canceledBy = by;
+    t.details = op ? failedDetails(op, t.details) : t.details;
+    t.finishedAt = new Date().toISOString();
+    if (t.startedAt) t.duration = duration(Date.parse(t.finishedAt) - Date.parse(t.startedAt));
+    this.settle(t, "canceled");
+  }
+
+  /** Records a finished task that changed no index (journal first, then visible). */
+  private settle(t: Task, status: "succeeded" | "canceled") {
+    this.lastUpdate = t.finishedAt;
+    try {
+      this.journal({ task: { ...t, status } });
+      t.status = status;
+    } catch (e) {
+      console.error(`[meili-fake] could not write the journal: ${(e as Error).message}`);
+      t.status = "failed";
+      t.error = new MeiliError(500, "io_error", `The search fake could not persist this task: ${(e as Error).message}`, "system").toJSON();
+    }
+  }
+
+  private newTask(type: TaskType, indexUid: string | null, details: Record<string, unknown> | null, customMetadata?: string): Task {
     const task: Task = {
       uid: this.nextTaskUid++,
       batchUid: null,
@@ -130,10 +202,7 @@ export class Store {
     };
     if (customMetadata !== undefined) task.customMetadata = customMetadata;
     this.tasks.set(task.uid, task);
-    this.queue.push({ task, op });
-    const summary = { taskUid: task.uid, indexUid, status: task.status, type, enqueuedAt: task.enqueuedAt };
-    this.kick();
-    return summary;
+    return task;
   }
 
   getTask(uid: number): Task {
@@ -167,6 +236,13 @@ export class Store {
       task.batchUid = this.nextBatchUid++;
       // let pollers observe `processing` (and let other requests through)
       await new Promise((r) => (this.delay > 0 ? setTimeout(r, this.delay) : setImmediate(r)));
+      const canceledBy = this.cancelRequested.get(task.uid);
+      if (canceledBy !== undefined) {
+        this.cancelRequested.delete(task.uid);
+        this.finishCanceled(task, canceledBy, op);
+        this.trimTasks();
+        continue;
+      }
       const t0 = performance.now();
       let ok = false;
       try {

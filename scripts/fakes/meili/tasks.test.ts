@@ -51,6 +51,33 @@ describe("task lifecycle", () => {
     expect((await client.index("life").search("lash")).hits.map((h) => h.id)).toEqual([2]);
   });
 
+  // Published: POST /tasks/cancel cancels "enqueued or processing" tasks matching the filter; a
+  // canceled task has status `canceled` and `canceledBy` the cancelation's uid, and changed
+  // nothing (https://www.meilisearch.com/docs/reference/api/tasks#cancel-tasks). Here a task in
+  // `processing` and one still `enqueued` are both canceled (a fake of its own keeps each task
+  // 2 s in processing, so that the cancelation surely finds them so).
+  it("cancels a processing and an enqueued task: they end canceled and change nothing", async () => {
+    const slow = await startMeiliFake({ port: 0, processingDelayMs: 2_000 });
+    const client = new Meilisearch({ host: slow.url });
+    await client.createIndex("cancel", { primaryKey: "id" });
+    await slow.store.drain();
+    const a = await client.index("cancel").addDocuments([{ id: 1, title: "Crank end play" }]);
+    const b = await client.index("cancel").addDocuments([{ id: 2, title: "Rod side clearance" }]);
+    while ((await client.tasks.getTask(a.taskUid)).status === "enqueued") await new Promise((r) => setTimeout(r, 10));
+    expect((await client.tasks.getTask(a.taskUid)).status).toBe("processing");
+    expect((await client.tasks.getTask(b.taskUid)).status).toBe("enqueued");
+    const cancel = await client.tasks.cancelTasks({ indexUids: ["cancel"], statuses: ["enqueued", "processing"] }).waitTask();
+    expect(cancel.details).toEqual({ matchedTasks: 2, canceledTasks: 2, originalFilter: "?indexUids=cancel&statuses=enqueued%2Cprocessing" });
+    for (const uid of [a.taskUid, b.taskUid]) {
+      const t = await client.tasks.waitForTask(uid);
+      expect(t).toEqual(expect.objectContaining({ status: "canceled", canceledBy: cancel.uid, error: null, finishedAt: expect.any(String) }));
+      expect(t.details).toEqual({ receivedDocuments: 1, indexedDocuments: 0 });
+    }
+    expect((await client.index("cancel").getDocuments()).results).toEqual([]);
+    expect((await client.tasks.getTasks({ canceledBy: [cancel.uid] })).results.map((t) => t.uid).sort()).toEqual([a.taskUid, b.taskUid].sort());
+    await slow.close();
+  }, 15_000);
+
   it("reports a failed task with its error (waitTask does not throw)", async () => {
     const t = await client.index("life").addDocuments([{ title: "no id" }]).waitTask();
     expect(t.status).toBe("failed");
