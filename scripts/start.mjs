@@ -106,6 +106,14 @@ async function shutdown(code = 0) {
 process.on("SIGINT", () => shutdown(0));
 process.on("SIGTERM", () => shutdown(0));
 process.on("SIGHUP", () => shutdown(0));
+// A closed terminal makes writes fail (EIO); that must not cut the stop short.
+process.stdout.on("error", () => {});
+process.stderr.on("error", () => {});
+process.on("uncaughtException", (err) => {
+  console.error(`\n[benchreel] ${err.stack ?? err}`);
+  if (stopping) process.exit(1);
+  shutdown(1);
+});
 
 /** Starts a long-running child, keeps it running, and records its pid in start.json. */
 function keep(label, file, spawnIt) {

@@ -124,6 +124,7 @@ beforeAll(async () => {
     BENCHREEL_DATA_NAME: name,
     BENCHREEL_BUILD_DIR: buildDir,
     UPLOAD_DIR: path.join(dataDir, "uploads"),
+    ...(process.env.PG_BIN ? { PG_BIN: process.env.PG_BIN } : {}),
   };
 });
 
@@ -144,7 +145,7 @@ afterAll(async () => {
     }
   }
   if (pgDir && postmasterPid(pgDir)) {
-    const pgCtl = ["/usr/lib/postgresql/15/bin/pg_ctl", "-D", pgDir, "-m", "immediate", "-w", "stop"];
+    const pgCtl = [path.join(process.env.PG_BIN ?? "/usr/lib/postgresql/15/bin", "pg_ctl"), "-D", pgDir, "-m", "immediate", "-w", "stop"];
     if (process.getuid?.() === 0) spawnSync("runuser", ["-u", "postgres", "--", ...pgCtl], { stdio: "ignore" });
     else spawnSync(pgCtl[0], pgCtl.slice(1), { stdio: "ignore" });
   }
