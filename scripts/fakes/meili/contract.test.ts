@@ -117,6 +117,9 @@ for (const target of targets) {
     });
 
     describe("health and version", () => {
+      // Published: GET /health answers `{ status: "available" }`; GET /version answers `commitSha`,
+      // `commitDate`, `pkgVersion` (https://www.meilisearch.com/docs/reference/api/health,
+      // https://www.meilisearch.com/docs/reference/api/version).
       it("GET /health and /version", async () => {
         expect(await client.health()).toEqual({ status: "available" });
         expect(await client.isHealthy()).toBe(true);
@@ -126,6 +129,9 @@ for (const target of targets) {
     });
 
     describe("indexes", () => {
+      // Published: creating, updating and deleting an index are asynchronous: 202 with an enqueued task; an
+      // index has `uid`, `primaryKey`, `createdAt`, `updatedAt`; a second creation fails its task with
+      // `index_already_exists` (https://www.meilisearch.com/docs/reference/api/indexes).
       it("creates, gets, lists, updates and deletes an index through tasks", async () => {
         const name = `${run}_tmp`;
         const enqueued = await client.createIndex(name);
@@ -175,6 +181,8 @@ for (const target of targets) {
         expect(again.error?.code).toBe("index_not_found");
       });
 
+      // Published: an index uid holds only alphanumerics, hyphens and underscores, else `invalid_index_uid`
+      // (https://www.meilisearch.com/docs/reference/errors/error_codes#invalid_index_uid).
       it("answers 400 invalid_index_uid for a bad uid", async () => {
         const r = await apiError(client.createIndex("not a valid uid!"));
         expect(r.status).toBe(400);
@@ -183,6 +191,9 @@ for (const target of targets) {
     });
 
     describe("settings", () => {
+      // Published: PATCH /settings changes only the settings it names; the default ranking rules are words,
+      // typo, proximity, attribute, sort, exactness
+      // (https://www.meilisearch.com/docs/reference/api/settings).
       it("GET /settings reflects PATCH, with the default ranking rules", async () => {
         const s = await index.getSettings();
         expect(s).toEqual(
@@ -201,6 +212,8 @@ for (const target of targets) {
         expect(s.pagination).toEqual({ maxTotalHits: 1000 });
       });
 
+      // Published: each setting has its own route to get, update and reset it (DELETE restores the default)
+      // (https://www.meilisearch.com/docs/reference/api/settings).
       it("sub-routes: get, update and reset single settings", async () => {
         const name = `${run}_settings`;
         const idx = client.index(name);
@@ -231,6 +244,8 @@ for (const target of targets) {
         expect(s.displayedAttributes).toEqual(["*"]);
       });
 
+      // Published: a setting of the wrong type answers 400 with its `invalid_settings_…` code
+      // (https://www.meilisearch.com/docs/reference/errors/error_codes).
       it("rejects an invalid settings payload with 400", async () => {
         const r = await apiError(index.updateSettings({ filterableAttributes: "kind" as unknown as string[] }));
         expect(r.status).toBe(400);
@@ -239,6 +254,8 @@ for (const target of targets) {
     });
 
     describe("documents", () => {
+      // Published: GET /documents/{id} and GET /documents with `offset`, `limit`, `fields`, answering
+      // `results`, `offset`, `limit`, `total` (https://www.meilisearch.com/docs/reference/api/documents).
       it("gets one document and lists documents with offset, limit and fields", async () => {
         expect(await index.getDocument("p1")).toEqual(DOCS[0]);
         expect(await index.getDocument("p1", { fields: ["id", "title"] })).toEqual({ id: "p1", title: DOCS[0].title });
@@ -251,12 +268,16 @@ for (const target of targets) {
         expect(missing.body.code).toBe("document_not_found");
       });
 
+      // Published: POST /documents/fetch takes a `filter` on filterable attributes
+      // (https://www.meilisearch.com/docs/reference/api/documents#get-documents-with-post).
       it("fetches documents with a filter (POST /documents/fetch)", async () => {
         const r = await index.getDocuments({ filter: "kind = reading OR tags = rings", fields: ["id"], limit: 10 });
         expect(r.results.map((d) => d.id).sort()).toEqual(["m1", "r1"]);
         expect(r.total).toBe(2);
       });
 
+      // Published: POST /documents adds or replaces, PUT adds or updates (merging fields); deletion by id,
+      // by batch, by filter and all (https://www.meilisearch.com/docs/reference/api/documents).
       it("adds, partially updates and deletes documents (one, batch, by filter, all)", async () => {
         const name = `${run}_docs`;
         const idx = client.index<Doc>(name);
@@ -293,6 +314,9 @@ for (const target of targets) {
         expect((await idx.getDocuments()).total).toBe(0);
       });
 
+      // Published: a bad document id fails the task with `invalid_document_id`; a deletion filter on an
+      // attribute that is not filterable fails with `invalid_document_filter`
+      // (https://www.meilisearch.com/docs/reference/errors/error_codes).
       it("fails the task for an invalid document id, and for a filter on a non-filterable attribute", async () => {
         const t = await index.addDocuments([{ ...DOCS[0], id: "bad id!" }]).waitTask();
         expect(t.status).toBe("failed");
@@ -307,6 +331,9 @@ for (const target of targets) {
     });
 
     describe("search", () => {
+      // Published: a search answers `hits`, `query`, `processingTimeMs`, `limit`, `offset`,
+      // `estimatedTotalHits`; GET takes the same parameters
+      // (https://www.meilisearch.com/docs/reference/api/search#response).
       it("answers the response shape for POST and GET", async () => {
         const r = await index.search("piston");
         expect(r).toEqual(
@@ -319,6 +346,10 @@ for (const target of targets) {
         expect(g.facetDistribution).toEqual({ kind: { procedure: 1 } });
       });
 
+      // Published: the `words` rule ranks documents holding every query word first; with matchingStrategy
+      // `last` words are dropped from the end, with `all` every word is required
+      // (https://www.meilisearch.com/docs/reference/api/search#matching-strategy,
+      // https://www.meilisearch.com/docs/learn/relevancy/ranking_rules).
       it("ranks documents holding every query word first", async () => {
         const r = await index.search("torque moly");
         expect(r.hits[0].id).toBe("p2");
@@ -329,17 +360,24 @@ for (const target of targets) {
         expect(all.hits.map((h) => h.id)).toEqual(["p2"]);
       });
 
+      // Published: one typo from 5 letters, two from 9; the last query word is completed as a prefix
+      // (https://www.meilisearch.com/docs/learn/relevancy/typo_tolerance_settings,
+      // https://www.meilisearch.com/docs/learn/engine/prefix).
       it("forgives a typo and completes the last word as a prefix", async () => {
         expect((await index.search("lubricat")).hits.map((h) => h.id)).toEqual(["p2"]);
         expect((await index.search("honnig")).hits.map((h) => h.id)).toEqual(["m2"]);
         expect((await index.search("cylindr")).hits.map((h) => h.id).sort()).toEqual(["m1", "r1"]);
       });
 
+      // Published: synonyms apply as set, multi-word ones included; each direction is listed
+      // (https://www.meilisearch.com/docs/learn/relevancy/synonyms).
       it("applies synonyms from the settings, multi-word ones too", async () => {
         expect((await index.search("ptw")).hits.map((h) => h.id)).toEqual(expect.arrayContaining(["p1", "m2"]));
         expect((await index.search("piston to wall")).hits.map((h) => h.id)).toEqual(expect.arrayContaining(["p1", "m2"]));
       });
 
+      // Published: `filter` is a string expression or an array: outer elements joined by AND, inner arrays
+      // by OR (https://www.meilisearch.com/docs/reference/api/search#filter).
       it("filters with strings and nested arrays (outer AND, inner OR)", async () => {
         const ids = async (filter: string | (string | string[])[], q = "") =>
           (await index.search(q, { filter, limit: 100 })).hits.map((h) => h.id).sort();
@@ -353,6 +391,8 @@ for (const target of targets) {
         expect(await ids("state = 'draft'", "head")).toEqual(["p2"]);
       });
 
+      // Published: a malformed filter answers 400 `invalid_search_filter`
+      // (https://www.meilisearch.com/docs/reference/errors/error_codes#invalid_search_filter).
       it("rejects a malformed filter with 400 invalid_search_filter", async () => {
         const r = await apiError(index.search("", { filter: "kind = procedure AND" }));
         expect(r.status).toBe(400);
@@ -366,6 +406,8 @@ for (const target of targets) {
         expect(quote.body.message).toBe("Expression `\\'procedure` is missing the following closing delimiter: `'`.\n8:18 kind = 'procedure");
       });
 
+      // Published: filtering on an attribute not in `filterableAttributes` answers `invalid_search_filter`
+      // (https://www.meilisearch.com/docs/reference/api/search#filter).
       it("rejects a filter on a non-filterable attribute", async () => {
         const r = await apiError(index.search("", { filter: "title = x" }));
         expect(r.status).toBe(400);
@@ -373,6 +415,8 @@ for (const target of targets) {
         expect(r.body.message).toMatch(/Attribute `title` is not filterable/);
       });
 
+      // Published: `facets` answers `facetDistribution` counted over every match, and `facetStats` (min,
+      // max) for numbers (https://www.meilisearch.com/docs/reference/api/search#facets).
       it("counts facets over every match", async () => {
         const r = await index.search("", { facets: ["kind", "tags", "year"], limit: 0 });
         const count = (f: (d: Doc) => string[]) => {
@@ -390,6 +434,10 @@ for (const target of targets) {
         expect(bad.body.code).toBe("invalid_search_facets");
       });
 
+      // Published: `attributesToHighlight` with `highlightPreTag`/`highlightPostTag`, `attributesToCrop`
+      // with `cropLength`/`cropMarker`, in `_formatted`
+      // (https://www.meilisearch.com/docs/reference/api/search#attributes-to-highlight,
+      // https://www.meilisearch.com/docs/reference/api/search#attributes-to-crop).
       it("highlights with custom tags and crops with a marker", async () => {
         const r = await index.search("moly", { attributesToHighlight: ["body"], highlightPreTag: "<mark>", highlightPostTag: "</mark>" });
         expect(r.hits[0].id).toBe("p2");
@@ -407,11 +455,16 @@ for (const target of targets) {
         expect(whole.hits[0]._formatted?.year).toBe("2022");
       });
 
+      // Published: `attributesToRetrieve` limits the attributes of each hit
+      // (https://www.meilisearch.com/docs/reference/api/search#attributes-to-retrieve).
       it("retrieves only the requested attributes", async () => {
         const r = await index.search("bore", { attributesToRetrieve: ["id", "title"] });
         for (const h of r.hits) expect(Object.keys(h).sort()).toEqual(["id", "title"]);
       });
 
+      // Published: `offset`/`limit` answer `estimatedTotalHits`; `page`/`hitsPerPage` answer the exhaustive
+      // `totalHits` and `totalPages` instead (https://www.meilisearch.com/docs/reference/api/search#page,
+      // https://www.meilisearch.com/docs/reference/api/search#number-of-results-per-page).
       it("paginates with limit/offset and with page/hitsPerPage", async () => {
         const a = await index.search("audit", { limit: 10, offset: 0 });
         const b = await index.search("audit", { limit: 10, offset: 10 });
@@ -473,6 +526,8 @@ for (const target of targets) {
         expect((await index.search("audit", { limit: 1 })).hits[0]).not.toHaveProperty("_rankingScoreDetails");
       });
 
+      // Published: `sort` takes `attribute:asc|desc` on sortable attributes, else `invalid_search_sort`
+      // (https://www.meilisearch.com/docs/reference/api/search#sort).
       it("sorts on sortable attributes and rejects others", async () => {
         const r = await index.search("", { filter: "tags = audit", sort: ["year:desc"], limit: 5 });
         expect(r.hits.map((h) => h.year)).toEqual([2019, 2018, 2017, 2016, 2015]);
@@ -483,18 +538,24 @@ for (const target of targets) {
         expect(bad.body.code).toBe("invalid_search_sort");
       });
 
+      // Published: an empty `q` is a placeholder search over every document
+      // (https://www.meilisearch.com/docs/reference/api/search#placeholder-search).
       it("counts every document in a placeholder search", async () => {
         const r = await index.search("", { limit: 1 });
         expect(r.estimatedTotalHits).toBe(DOCS.length);
         expect(r.query).toBe("");
       });
 
+      // Published: an unknown index answers 404 `index_not_found` with message, code, type and link
+      // (https://www.meilisearch.com/docs/reference/errors/error_codes#index_not_found).
       it("answers 404 index_not_found for an unknown index", async () => {
         const r = await apiError(client.index(`${run}_missing`).search("x"));
         expect(r.status).toBe(404);
         expect(r.body).toEqual({ message: `Index \`${run}_missing\` not found.`, code: "index_not_found", type: "invalid_request", link: "https://docs.meilisearch.com/errors#index_not_found" });
       });
 
+      // Published: POST /multi-search answers `results`, one per query, each with its `indexUid`
+      // (https://www.meilisearch.com/docs/reference/api/multi_search).
       it("multi-search answers one result per query", async () => {
         const r = await client.multiSearch({
           queries: [
@@ -509,6 +570,9 @@ for (const target of targets) {
     });
 
     describe("tasks", () => {
+      // Published: GET /tasks filters by uids, statuses, types, indexUids, newest first, paged with
+      // `limit`/`from`, answering `results`, `total`, `limit`, `from`, `next`; a failed task carries its
+      // `error` (https://www.meilisearch.com/docs/reference/api/tasks#get-tasks).
       it("lists tasks with filters and paging", async () => {
         const r = await client.tasks.getTasks({ indexUids: [uid], limit: 2 });
         expect(r).toEqual({ results: expect.any(Array), total: expect.any(Number), limit: 2, from: expect.any(Number), next: expect.any(Number) });
@@ -549,6 +613,8 @@ for (const target of targets) {
         expect(badFilter.body.code).toBe("invalid_task_statuses");
       });
 
+      // Published: an unknown task uid answers 404 `task_not_found`
+      // (https://www.meilisearch.com/docs/reference/errors/error_codes#task_not_found).
       it("answers 404 task_not_found for an unknown task", async () => {
         const r = await apiError(client.tasks.getTask(2 ** 31));
         expect(r.status).toBe(404);
