@@ -119,6 +119,9 @@ function handle(req, res) {
       // read-page cache (app/lib/page-cache.server.ts) must tell a page from its data, so the URL
       // as requested travels in a header of ours, always overwritten here (a client cannot set it).
       req.headers["x-benchreel-request-url"] = req.url;
+      // The socket's peer, for the sign-in throttles (app/lib/client-address.ts); overwritten
+      // here for the same reason.
+      req.headers["x-benchreel-client"] = req.socket.remoteAddress ?? "";
       toReactRouter(req, res);
     });
   });

@@ -2,18 +2,29 @@ import { PassThrough } from "node:stream";
 
 import type { EntryContext, RouterContextProvider } from "react-router";
 import { createReadableStreamFromReadable } from "@react-router/node";
-import { ServerRouter } from "react-router";
+import { isRouteErrorResponse, ServerRouter, type HandleErrorFunction } from "react-router";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import { newNonce, nonceContext, pagePolicy } from "./lib/csp.server";
 import { answerSearchDirect } from "./lib/search/answer.server";
+import { noteServerError } from "./lib/outage.server";
 
 // React Router's own server entry (from `react-router reveal entry.server`), with one export of
 // ours: the GET paths server.js answers without React Router's request handling, because the
 // header search box calls them on every pause in typing (docs/decisions/008). Each function
 // takes what the session checks read of a request and returns its answer as plain parts.
 export const directAnswers = { "/api/search": answerSearchDirect };
+
+// Every error a loader, action or render threw, as React Router's default logs it; an error
+// that means PostgreSQL is not answering is also noted, so that the request is answered with
+// the "database unavailable" 503 instead of a bare 500 (app/lib/outage.server.ts).
+export const handleError: HandleErrorFunction = (error, { request }) => {
+  noteServerError(error);
+  // React Router's own logging: an error response it made from an error shows that error.
+  const inner = isRouteErrorResponse(error) ? (error as { error?: unknown }).error : undefined;
+  if (!request.signal.aborted) console.error(inner ?? error);
+};
 
 export const streamTimeout = 5_000;
 

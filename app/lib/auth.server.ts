@@ -1,14 +1,16 @@
 import { hash, verify } from "@node-rs/argon2";
 import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
-import { and, eq, gt, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import { Lucia, TimeSpan, type DatabaseSession, type DatabaseUser, type Session } from "lucia";
 import { data, redirect } from "react-router";
-import { sessions, signInAttempts, users } from "~/db/schema";
+import { sessions, users } from "~/db/schema";
 import { db, isDatabaseDown, pool } from "./db.server";
 import { env } from "./env.server";
 import { can, type Permission, type Role } from "./permissions";
 import { CONTENT_CHANNEL, listening, onListenerReset, onNotify, SESSIONS_CHANNEL } from "./notify.server";
 import { memoForRequest } from "./request-store.server";
+import { clientAddress } from "./client-address.server";
+import { accountKey, throttledPasswordCheck, type Refusal } from "./throttle.server";
 
 const ARGON2 = { memoryCost: 19456, timeCost: 2, outputLen: 32, parallelism: 1 } as const;
 
@@ -216,53 +218,27 @@ export async function requirePermission(request: RequestLike, permission: Permis
 
 // ---- sign-in with throttling ---------------------------------------------------------------
 
-export const THROTTLE = { maxFailures: 5, windowMs: 15 * 60 * 1000 };
-
-/** Minutes until the address may try again, or 0 when it may try now. */
-export async function throttleWait(email: string, now = new Date()): Promise<number> {
-  const since = new Date(now.getTime() - THROTTLE.windowMs);
-  const address = email.trim().toLowerCase();
-  const [lastOk] = await db()
-    .select({ at: sql<Date>`max(${signInAttempts.at})` })
-    .from(signInAttempts)
-    .where(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, true)));
-  const from = lastOk?.at && new Date(lastOk.at) > since ? new Date(lastOk.at) : since;
-  const failures = await db()
-    .select({ at: signInAttempts.at })
-    .from(signInAttempts)
-    .where(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, from)))
-    .orderBy(signInAttempts.at);
-  if (failures.length < THROTTLE.maxFailures) return 0;
-  const unlockAt = failures[failures.length - THROTTLE.maxFailures].at.getTime() + THROTTLE.windowMs;
-  return Math.max(1, Math.ceil((unlockAt - now.getTime()) / 60000));
-}
-
 export type SignInResult =
   | { ok: true; user: SessionUser; cookie: string }
-  | { ok: false; reason: "throttled"; minutes: number }
+  | { ok: false; reason: "throttled"; refusal: Refusal }
   | { ok: false; reason: "invalid" | "deactivated" };
 
 let dummyHash: Promise<string> | undefined;
 
+/** Checks the password under the throttles (app/lib/throttle.server.ts) and starts a session. */
 export async function signIn(request: Request, emailInput: string, password: string): Promise<SignInResult> {
-  const email = emailInput.trim().toLowerCase();
-  const wait = await throttleWait(email);
-  if (wait > 0) return { ok: false, reason: "throttled", minutes: wait };
-
+  const email = accountKey(emailInput);
   const [row] = await db().select().from(users).where(sql`lower(${users.email}) = ${email}`).limit(1);
-  if (!row || !row.passwordHash) {
+  const outcome = await throttledPasswordCheck(email, clientAddress(request), async () => {
+    if (row?.passwordHash) return verifyPassword(row.passwordHash, password);
     dummyHash ??= hashPassword("not-a-real-password");
     await verifyPassword(await dummyHash, password); // same cost as a real check
-    await db().insert(signInAttempts).values({ email, succeeded: false });
-    return { ok: false, reason: "invalid" };
-  }
-  if (!(await verifyPassword(row.passwordHash, password))) {
-    await db().insert(signInAttempts).values({ email, succeeded: false });
-    return { ok: false, reason: "invalid" };
-  }
+    return false;
+  });
+  if ("refused" in outcome) return { ok: false, reason: "throttled", refusal: outcome.refused };
+  if (!outcome.ok || !row) return { ok: false, reason: "invalid" };
   if (row.deactivatedAt) return { ok: false, reason: "deactivated" };
 
-  await db().insert(signInAttempts).values({ email, succeeded: true });
   const cookie = await startSession(request, row.id);
   return {
     ok: true,

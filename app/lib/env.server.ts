@@ -23,6 +23,8 @@ export const envSchema = z.object({
   MEILI_API_KEY: z.string().optional(),
   UPLOAD_DIR: z.string().default("uploads"),
   MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(20 * 1024 ** 3),
+  /** How many reverse proxies stand in front of the app; 0 means X-Forwarded-For is never read (app/lib/client-address.ts). */
+  TRUST_PROXY: z.coerce.number().int().min(0).max(10).default(0),
 });
 
 export type Env = z.infer<typeof envSchema>;

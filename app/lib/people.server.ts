@@ -1,12 +1,13 @@
 import { randomUUID } from "node:crypto";
-import { and, eq, isNull, ne, sql } from "drizzle-orm";
-import { invitations, passwordResets, users } from "~/db/schema";
+import { and, eq, gt, isNull, ne, sql } from "drizzle-orm";
+import { invitations, passwordResets, sessions, users } from "~/db/schema";
 import { audit } from "./audit.server";
-import { endAllSessions, hashPassword } from "./auth.server";
-import { db } from "./db.server";
+import { endAllSessions, forgetValidatedSessions, hashPassword, verifyPassword } from "./auth.server";
+import { db, type Tx } from "./db.server";
 import { env } from "./env.server";
 import { composeMail, enqueueMail } from "./mail.server";
 import { ROLE_LABELS, type Role } from "./permissions";
+import { passwordRefusalMessage, throttledPasswordCheck, throttleResetRequest, type Refusal } from "./throttle.server";
 import { INVITATION_TTL_MS, newToken, RESET_TTL_MS, hashToken, tokenState, type TokenState } from "./tokens.server";
 
 export class PeopleError extends Error {
@@ -79,10 +80,16 @@ export async function acceptInvitation(token: string, name: string, password: st
   });
 }
 
-/** Always answers the same way, so the form does not reveal who has an account. */
-export async function requestPasswordReset(emailInput: string): Promise<void> {
+/**
+ * Always answers the same way, so the form does not reveal who has an account. Requests are
+ * counted per address and per client whether or not the account exists; past a limit no mail
+ * goes out and the refusal says so (app/lib/throttle.server.ts).
+ */
+export async function requestPasswordReset(emailInput: string, client: string): Promise<Refusal | null> {
+  const refused = await throttleResetRequest(emailInput, client);
+  if (refused) return refused;
   const user = await findUserByEmail(emailInput);
-  if (!user || user.deactivatedAt) return;
+  if (!user || user.deactivatedAt) return null;
   const { token, hash } = newToken();
   await db().transaction(async (tx) => {
     await tx.insert(passwordResets).values({ userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_TTL_MS) });
@@ -101,6 +108,7 @@ export async function requestPasswordReset(emailInput: string): Promise<void> {
     );
     await audit(tx, user.id, "request-reset", "user", user.id);
   });
+  return null;
 }
 
 export async function findReset(token: string) {
@@ -108,7 +116,22 @@ export async function findReset(token: string) {
   return row ?? null;
 }
 
-/** Sets the new password once; every other session of the person ends. */
+/**
+ * A new password ends what the old one opened: every other outstanding reset link of the
+ * person, and their sessions (all of them, or all but `keepSessionId`), in the same
+ * transaction as the password itself.
+ */
+async function setPassword(tx: Tx, userId: string, passwordHash: string, keepSessionId: string | null) {
+  const now = new Date();
+  await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
+  await tx
+    .update(passwordResets)
+    .set({ expiresAt: now })
+    .where(and(eq(passwordResets.userId, userId), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, now)));
+  await tx.delete(sessions).where(keepSessionId ? and(eq(sessions.userId, userId), ne(sessions.id, keepSessionId)) : eq(sessions.userId, userId));
+}
+
+/** Sets the new password once; the person's other reset links and all their sessions end. */
 export async function resetPassword(token: string, password: string): Promise<string> {
   const passwordHash = await hashPassword(password);
   const userId = await db().transaction(async (tx) => {
@@ -117,13 +140,48 @@ export async function resetPassword(token: string, password: string): Promise<st
     const state = tokenState(row);
     if (state === "used") throw new PeopleError("This reset link has already been used. Ask for a new one.");
     if (state === "expired") throw new PeopleError("This reset link has expired. Ask for a new one.");
-    await tx.update(users).set({ passwordHash }).where(eq(users.id, row.userId));
     await tx.update(passwordResets).set({ usedAt: new Date() }).where(eq(passwordResets.id, row.id));
+    await setPassword(tx, row.userId, passwordHash, null);
     await audit(tx, row.userId, "reset-password", "user", row.userId);
     return row.userId;
   });
-  await endAllSessions(userId);
+  forgetValidatedSessions();
   return userId;
+}
+
+export type PasswordChange = { ok: true } | { ok: false; message: string; status: 400 | 429; retryAfterSec?: number };
+
+/**
+ * The account page's change: the current password is checked under the same throttles as
+ * sign-in (a guess is a guess); the session making the change stays, every other one ends.
+ */
+export async function changePassword(
+  person: { id: string; email: string },
+  keepSessionId: string,
+  client: string,
+  current: string,
+  password: string,
+): Promise<PasswordChange> {
+  const [row] = await db().select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, person.id));
+  const outcome = await throttledPasswordCheck(person.email, client, async () => Boolean(row?.passwordHash) && verifyPassword(row.passwordHash!, current));
+  if ("refused" in outcome) {
+    return { ok: false, status: 429, message: passwordRefusalMessage(outcome.refused), retryAfterSec: outcome.refused.retryAfterSec };
+  }
+  if (!outcome.ok) return { ok: false, status: 400, message: "That is not your current password." };
+  const passwordHash = await hashPassword(password);
+  await db().transaction(async (tx) => {
+    await setPassword(tx, person.id, passwordHash, keepSessionId);
+    await audit(tx, person.id, "change-password", "user", person.id);
+  });
+  forgetValidatedSessions();
+  return { ok: true };
+}
+
+export async function updateProfile(userId: string, name: string, unitSystem: "metric" | "inch") {
+  await db().transaction(async (tx) => {
+    await tx.update(users).set({ name, unitSystem }).where(eq(users.id, userId));
+    await audit(tx, userId, "update-profile", "user", userId, { unitSystem });
+  });
 }
 
 async function activeAdminsOtherThan(userId: string): Promise<number> {

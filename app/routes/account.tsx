@@ -1,19 +1,19 @@
-import { eq } from "drizzle-orm";
 import { data, Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/account";
 import { Field, FormError, SelectField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
-import { users } from "~/db/schema";
-import { audit } from "~/lib/audit.server";
-import { hashPassword, requirePermission, verifyPassword } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { getSession, requirePermission } from "~/lib/auth.server";
+import { clientAddress } from "~/lib/client-address.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { newPasswordSchema } from "~/lib/password";
+import { changePassword, updateProfile } from "~/lib/people.server";
 import { ROLE_LABELS } from "~/lib/permissions";
+import { withRetryAfter } from "~/lib/throttle.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your account · Benchreel" }];
+export const headers: Route.HeadersFunction = withRetryAfter;
 
 const profileSchema = z.object({
   intent: z.literal("profile"),
@@ -35,23 +35,17 @@ export async function action({ request }: Route.ActionArgs) {
   if (form.get("intent") === "password") {
     const parsed = parseForm(passwordSchema, form);
     if (!parsed.ok) return data({ intent: "password", errors: parsed.errors }, { status: 400 });
-    const [row] = await db().select().from(users).where(eq(users.id, user.id));
-    if (!row?.passwordHash || !(await verifyPassword(row.passwordHash, parsed.data.current))) {
-      return data({ intent: "password", errors: { current: "That is not your current password." } as Record<string, string> }, { status: 400 });
+    const session = await getSession(request);
+    const change = await changePassword(user, session!.session.id, clientAddress(request), parsed.data.current, parsed.data.password);
+    if (!change.ok) {
+      const headers = change.retryAfterSec ? { "Retry-After": String(change.retryAfterSec) } : undefined;
+      return data({ intent: "password", errors: { current: change.message } as Record<string, string> }, { status: change.status, headers });
     }
-    const passwordHash = await hashPassword(parsed.data.password);
-    await db().transaction(async (tx) => {
-      await tx.update(users).set({ passwordHash }).where(eq(users.id, user.id));
-      await audit(tx, user.id, "change-password", "user", user.id);
-    });
-    return redirectWithFlash("/account", { kind: "ok", message: "Password changed." });
+    return redirectWithFlash("/account", { kind: "ok", message: "Password changed. Your other sessions are signed out." });
   }
   const parsed = parseForm(profileSchema, form);
   if (!parsed.ok) return data({ intent: "profile", errors: parsed.errors }, { status: 400 });
-  await db().transaction(async (tx) => {
-    await tx.update(users).set({ name: parsed.data.name, unitSystem: parsed.data.unitSystem }).where(eq(users.id, user.id));
-    await audit(tx, user.id, "update-profile", "user", user.id, { unitSystem: parsed.data.unitSystem });
-  });
+  await updateProfile(user.id, parsed.data.name, parsed.data.unitSystem);
   return redirectWithFlash("/account", { kind: "ok", message: "Saved." });
 }
 

@@ -1,9 +1,11 @@
-import { eq, sql } from "drizzle-orm";
+import { request as nodeRequest } from "node:http";
+import { eq, like, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
-import { invitations, mailOutbox, passwordResets, sessions, signInAttempts, users } from "~/db/schema";
+import { invitations, mailOutbox, passwordResets, rateLimits, sessions, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
+import { PASSWORD_LIMITS, RESET_LIMITS } from "~/lib/throttle.server";
 import { hashToken } from "~/lib/tokens.server";
-import { cookieHeader, cookiesFrom, createUser, http, mailTo, smtp, waitFor } from "../support/app";
+import { BASE_URL, cookieHeader, cookiesFrom, createUser, http, mailbox, mailTo, sessionCookieFor, smtp, waitFor } from "../support/app";
 
 async function signInForm(email: string, password: string, cookie?: string) {
   return http("/signin", { form: { email, password, next: "/" }, cookie });
@@ -36,17 +38,6 @@ describe("sign-in", () => {
     expect(res.status).toBe(401);
     expect(res.headers.getSetCookie().some((c) => c.startsWith("br_session="))).toBe(false);
     expect(await res.text()).toContain("That e-mail and password do not match an account.");
-  });
-
-  it("throttles an address after five failures and says when to try again", async () => {
-    const u = await createUser("apprentice");
-    for (let i = 0; i < 5; i++) expect((await signInForm(u.email, `wrong-${i}`)).status).toBe(401);
-    const blocked = await signInForm(u.email, u.password); // even the right password waits
-    expect(blocked.status).toBe(429);
-    expect(await blocked.text()).toMatch(/Try again in 15 minutes/);
-    // Once the failures are older than the window, the address may try again.
-    await db().update(signInAttempts).set({ at: sql`now() - interval '16 minutes'` }).where(eq(signInAttempts.email, u.email));
-    expect((await signInForm(u.email, u.password)).status).toBe(302);
   });
 
   it("rotates the session id at sign-in and ends the old one", async () => {
@@ -249,5 +240,218 @@ describe("mail outbox", () => {
     const [sent] = await db().select().from(mailOutbox).where(eq(mailOutbox.to, email));
     expect(sent.sentAt).not.toBeNull();
     expect(sent.attempts).toBeGreaterThanOrEqual(2);
+  });
+});
+
+// ---- return path, throttles, password lifecycle (issue 13) -------------------------------
+
+let nextAddress = 0;
+/** A loopback address of its own (127.13.x.y): Linux routes all of 127/8 to lo, so a request can come from it. */
+function newClientAddress() {
+  nextAddress++;
+  return `127.13.${Math.floor(nextAddress / 250)}.${(nextAddress % 250) + 1}`;
+}
+
+/** Like http(), from the given local address: the app sees it as the socket's peer. */
+function httpFrom(localAddress: string, path: string, req: { form?: Record<string, string>; cookie?: string } = {}): Promise<Response> {
+  const url = new URL(path, BASE_URL);
+  const body = req.form ? new URLSearchParams(req.form).toString() : undefined;
+  const headers: Record<string, string> = {};
+  if (req.cookie) headers.cookie = req.cookie;
+  if (body !== undefined) {
+    headers["content-type"] = "application/x-www-form-urlencoded";
+    headers["content-length"] = String(Buffer.byteLength(body));
+    headers.origin = url.origin;
+  }
+  return new Promise((resolve, reject) => {
+    const r = nodeRequest(url, { method: body === undefined ? "GET" : "POST", headers, localAddress }, (res) => {
+      const chunks: Buffer[] = [];
+      res.on("data", (c: Buffer) => chunks.push(c));
+      res.on("error", reject);
+      res.on("end", () => {
+        const h = new Headers();
+        for (const [k, v] of Object.entries(res.headers)) for (const one of [v ?? []].flat()) h.append(k, one);
+        resolve(new Response(Buffer.concat(chunks), { status: res.statusCode, headers: h }));
+      });
+    });
+    r.on("error", reject);
+    r.end(body);
+  });
+}
+
+const signInFrom = (address: string, email: string, password: string) => httpFrom(address, "/signin", { form: { email, password, next: "/" } });
+
+/** Ends every throttle window whose key mentions `part` (as if the minutes had passed). */
+async function letTimePass(part: string) {
+  await db().update(rateLimits).set({ expire: sql`now() - interval '1 second'` }).where(like(rateLimits.key, `%${part}%`));
+}
+
+describe("the return path after sign-in", () => {
+  // Each would send a signed-in person off the site if followed (app/lib/return-path.test.ts has the why).
+  const offSite = ["/\\evil.example", "/\t/evil.example", "/\\\\evil.example", "/.//evil.example", "//evil.example", "https://evil.example/x"];
+
+  it("GET /signin sends a signed-in person only to a path on this site", async () => {
+    const u = await createUser("qc");
+    for (const next of offSite) {
+      const res = await http(`/signin?${new URLSearchParams({ next })}`, { cookie: u.cookie });
+      expect(res.status, next).toBe(302);
+      expect(res.headers.get("location"), next).toBe("/");
+    }
+    const ok = await http(`/signin?${new URLSearchParams({ next: "/procedures?state=published#list" })}`, { cookie: u.cookie });
+    expect(ok.headers.get("location")).toBe("/procedures?state=published#list");
+  });
+
+  it("the sign-in form's next field is refused the same way, and the page never carries it", async () => {
+    const u = await createUser("editor");
+    for (const next of offSite) {
+      const page = await http(`/signin?${new URLSearchParams({ next })}`);
+      expect(await page.text()).toMatch(/<input type="hidden" name="next" value="\/"\/>/);
+      const res = await http("/signin", { form: { email: u.email, password: u.password, next } });
+      expect(res.status, next).toBe(302);
+      expect(res.headers.get("location"), next).toBe("/");
+    }
+    const ok = await http("/signin", { form: { email: u.email, password: u.password, next: "/recordings" } });
+    expect(ok.headers.get("location")).toBe("/recordings");
+  });
+});
+
+describe("sign-in throttles", () => {
+  it("a stranger's wrong passwords lock the stranger's computer out of that account, not the owner", async () => {
+    const owner = await createUser("admin");
+    const stranger = newClientAddress();
+    for (let i = 0; i < PASSWORD_LIMITS.pair.max; i++) expect((await signInFrom(stranger, owner.email, `guess-${i}`)).status).toBe(401);
+    const locked = await signInFrom(stranger, owner.email, owner.password); // even the right password waits
+    expect(locked.status).toBe(429);
+    expect(await locked.text()).toContain("Too many wrong passwords for this account from this computer. Try again in 15 minutes.");
+    expect(Number(locked.headers.get("retry-after"))).toBeGreaterThan(14 * 60);
+    // The owner, elsewhere, is not slowed at all.
+    expect((await signInFrom(newClientAddress(), owner.email, owner.password)).status).toBe(302);
+    // Once the lock's time has passed, the stranger's computer may try again.
+    await letTimePass(`${owner.email}|${stranger}`);
+    expect((await signInFrom(stranger, owner.email, owner.password)).status).toBe(302);
+  });
+
+  it("the owner's own mistakes are forgotten when they get it right", async () => {
+    const u = await createUser("builder");
+    const desk = newClientAddress();
+    for (let round = 0; round < 2; round++) {
+      for (let i = 0; i < PASSWORD_LIMITS.pair.max - 1; i++) expect((await signInFrom(desk, u.email, "typo")).status).toBe(401);
+      expect((await signInFrom(desk, u.email, u.password)).status).toBe(302);
+    }
+  });
+
+  it("one computer trying a password on 20 accounts at once is stopped after the client's limit", async () => {
+    const accounts = await Promise.all(Array.from({ length: 20 }, () => createUser("apprentice")));
+    const sprayer = newClientAddress();
+    const answers = await Promise.all(accounts.map((a) => signInFrom(sprayer, a.email, "Spring2026!")));
+    const statuses = answers.map((r) => r.status);
+    expect(statuses.filter((s) => s === 401)).toHaveLength(PASSWORD_LIMITS.client.max);
+    expect(statuses.filter((s) => s === 429)).toHaveLength(20 - PASSWORD_LIMITS.client.max);
+    const refused = answers.find((r) => r.status === 429)!;
+    expect(await refused.text()).toContain("Too many wrong passwords from this computer. Try again in");
+    // The sprayer stays slowed, even with a right password; the accounts' owners are not.
+    expect((await signInFrom(sprayer, accounts[0].email, accounts[0].password)).status).toBe(429);
+    expect((await signInFrom(newClientAddress(), accounts[0].email, accounts[0].password)).status).toBe(302);
+  });
+
+  it("guessing at one account from many computers slows that account to one try at a time, never locks it", async () => {
+    const u = await createUser("qc");
+    const ceiling = PASSWORD_LIMITS.account.max;
+    for (let sent = 0; sent < ceiling; sent += 10) {
+      const batch = await Promise.all(Array.from({ length: 10 }, () => signInFrom(newClientAddress(), u.email, "guess")));
+      expect(batch.map((r) => r.status)).toEqual(Array(10).fill(401));
+    }
+    // Past the ceiling each computer still gets a try, one per pace interval.
+    expect((await signInFrom(newClientAddress(), u.email, u.password)).status).toBe(302);
+    const slowed = await signInFrom(newClientAddress(), u.email, u.password);
+    expect(slowed.status).toBe(429);
+    expect(await slowed.text()).toContain(`it takes one try every ${PASSWORD_LIMITS.account.paceSec} seconds`);
+    await letTimePass(`pw-pace:${u.email}`);
+    expect((await signInFrom(newClientAddress(), u.email, u.password)).status).toBe(302);
+  });
+
+  it("the account page's current-password check counts as a guess", async () => {
+    const u = await createUser("editor");
+    const desk = newClientAddress();
+    const change = (current: string) =>
+      httpFrom(desk, "/account", { cookie: u.cookie, form: { intent: "password", current, password: "a-new-password-1", confirm: "a-new-password-1" } });
+    for (let i = 0; i < PASSWORD_LIMITS.pair.max; i++) {
+      const res = await change(`guess-${i}`);
+      expect(res.status).toBe(400);
+      expect(await res.text()).toContain("That is not your current password.");
+    }
+    const locked = await change(u.password);
+    expect(locked.status).toBe(429);
+    expect(await locked.text()).toContain("Too many wrong passwords for this account from this computer.");
+    expect((await signInFrom(newClientAddress(), u.email, u.password)).status).toBe(302); // the password is unchanged
+  });
+});
+
+describe("reset mail limits", () => {
+  it("stops sending reset mails to one address after its limit, and says so", async () => {
+    const u = await createUser("builder");
+    const from = newClientAddress();
+    for (let i = 0; i < RESET_LIMITS.account.max; i++) expect((await httpFrom(from, "/reset", { form: { email: u.email } })).status).toBe(200);
+    const refused = await httpFrom(newClientAddress(), "/reset", { form: { email: u.email } }); // another computer too
+    expect(refused.status).toBe(429);
+    expect(await refused.text()).toContain("Enough reset links have been sent to this address for now");
+    const mails = await waitFor(async () => {
+      const m = (await mailbox()).filter((x) => x.to.includes(u.email) && x.subject.includes("Reset"));
+      return m.length >= RESET_LIMITS.account.max ? m : null;
+    });
+    expect(mails).toHaveLength(RESET_LIMITS.account.max);
+    expect(await db().select().from(mailOutbox).where(eq(mailOutbox.to, u.email))).toHaveLength(RESET_LIMITS.account.max);
+  });
+
+  it("stops one computer asking for resets of many addresses, known or not", async () => {
+    const from = newClientAddress();
+    for (let i = 0; i < RESET_LIMITS.client.max; i++) {
+      expect((await httpFrom(from, "/reset", { form: { email: `nobody-${i}-${Date.now()}@larkspur.example` } })).status).toBe(200);
+    }
+    const u = await createUser("qc");
+    const refused = await httpFrom(from, "/reset", { form: { email: u.email } });
+    expect(refused.status).toBe(429);
+    expect(await refused.text()).toContain("Too many reset requests from this computer.");
+    expect(await db().select().from(mailOutbox).where(eq(mailOutbox.to, u.email))).toHaveLength(0);
+  });
+});
+
+describe("password lifecycle", () => {
+  async function resetTokensFor(email: string, count: number) {
+    const mails = await waitFor(async () => {
+      const m = (await mailbox()).filter((x) => x.to.includes(email) && x.subject.includes("Reset"));
+      return m.length >= count ? m : null;
+    });
+    return mails.map((m) => tokenFromLink(m.links.find((l) => l.includes("/reset/"))!, "/reset"));
+  }
+
+  it("using one reset link ends the person's other links and every session", async () => {
+    const u = await createUser("builder");
+    const otherSession = await sessionCookieFor(u.email);
+    const from = newClientAddress();
+    await httpFrom(from, "/reset", { form: { email: u.email } });
+    await httpFrom(from, "/reset", { form: { email: u.email } });
+    const [first, second] = await resetTokensFor(u.email, 2);
+    const done = await http(`/reset/${second}`, { form: { password: "brand-new-password", confirm: "brand-new-password" } });
+    expect(done.status).toBe(302);
+    expect(await (await http(`/reset/${first}`)).text()).toContain("This reset link has expired.");
+    const old = await http(`/reset/${first}`, { form: { password: "another-password", confirm: "another-password" } });
+    expect(old.status).toBe(409);
+    expect((await http("/api/me", { cookie: u.cookie })).status).toBe(401);
+    expect((await http("/api/me", { cookie: otherSession })).status).toBe(401);
+    expect((await signInFrom(newClientAddress(), u.email, "brand-new-password")).status).toBe(302);
+  });
+
+  it("a change on the account page ends every other session and every reset link, and keeps this session", async () => {
+    const u = await createUser("qc");
+    const otherSession = await sessionCookieFor(u.email);
+    await httpFrom(newClientAddress(), "/reset", { form: { email: u.email } });
+    const [token] = await resetTokensFor(u.email, 1);
+    const res = await http("/account", { cookie: u.cookie, form: { intent: "password", current: u.password, password: "changed-password-1", confirm: "changed-password-1" } });
+    expect(res.status).toBe(302);
+    expect((await http("/api/me", { cookie: u.cookie })).status).toBe(200);
+    expect((await http("/api/me", { cookie: otherSession })).status).toBe(401);
+    expect(await (await http(`/reset/${token}`)).text()).toContain("This reset link has expired.");
+    expect((await db().select().from(sessions).where(eq(sessions.userId, u.id))).length).toBe(1);
   });
 });

@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { bigserial, boolean, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
+import { bigserial, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
 
 export const roleEnum = pgEnum("role", ["admin", "editor", "builder", "qc", "apprentice"]);
 export const unitSystemEnum = pgEnum("unit_system", ["metric", "inch"]);
@@ -53,17 +53,15 @@ export const passwordResets = pgTable("password_resets", {
   createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
 });
 
-/** One row per sign-in attempt; failures inside the window throttle an address. */
-export const signInAttempts = pgTable(
-  "sign_in_attempts",
-  {
-    id: bigserial("id", { mode: "number" }).primaryKey(),
-    email: text("email").notNull(),
-    succeeded: boolean("succeeded").notNull(),
-    at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
-  },
-  (t) => [index("sign_in_attempts_email_at_idx").on(t.email, t.at)],
-);
+/**
+ * The counters of the sign-in, reset and password-check throttles (app/lib/throttle.server.ts):
+ * rate-limiter-flexible's Drizzle store, one row per key, `points` used until `expire`.
+ */
+export const rateLimits = pgTable("rate_limits", {
+  key: text("key").primaryKey(),
+  points: integer("points").notNull().default(0),
+  expire: timestamp("expire", { withTimezone: true, mode: "date" }),
+});
 
 /** Who did what to which record, when. */
 export const auditLog = pgTable(

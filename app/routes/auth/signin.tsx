@@ -5,10 +5,13 @@ import { AuthCard } from "~/components/AuthCard";
 import { Field, FormError } from "~/components/forms";
 import { getUser, signIn } from "~/lib/auth.server";
 import { parseForm } from "~/lib/forms";
+import { safeReturnPath } from "~/lib/return-path";
+import { passwordRefusalMessage, withRetryAfter } from "~/lib/throttle.server";
 import { FlashBanner } from "~/components/AppHeader";
 import { useRootData } from "~/root";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Benchreel" }];
+export const headers: Route.HeadersFunction = withRetryAfter;
 
 const schema = z.object({
   email: z.string().trim().min(1, "Enter your e-mail address.").email("That is not an e-mail address."),
@@ -16,14 +19,14 @@ const schema = z.object({
   next: z.string().optional(),
 });
 
-/** Only same-site paths are followed after sign-in. */
-function safeNext(next: string | null | undefined): string {
-  return next && next.startsWith("/") && !next.startsWith("//") ? next : "/";
+/** Only a path on this site is followed after sign-in (app/lib/return-path.ts). */
+function safeNext(request: Request, next: string | null | undefined): string {
+  return safeReturnPath(next, new URL(request.url).origin);
 }
 
 export async function loader({ request }: Route.LoaderArgs) {
   // Public page; a signed-in person goes straight on.
-  const next = safeNext(new URL(request.url).searchParams.get("next"));
+  const next = safeNext(request, new URL(request.url).searchParams.get("next"));
   if (await getUser(request)) throw redirect(next);
   return { next };
 }
@@ -32,11 +35,11 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = parseForm(schema, await request.formData());
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   const result = await signIn(request, parsed.data.email, parsed.data.password);
-  if (result.ok) throw redirect(safeNext(parsed.data.next), { headers: { "Set-Cookie": result.cookie } });
+  if (result.ok) throw redirect(safeNext(request, parsed.data.next), { headers: { "Set-Cookie": result.cookie } });
   const values = { email: parsed.data.email };
   if (result.reason === "throttled") {
-    const m = result.minutes;
-    return data({ errors: { form: `Too many failed sign-ins for this address. Try again in ${m} minute${m === 1 ? "" : "s"}.` }, values }, { status: 429 });
+    const headers = { "Retry-After": String(result.refusal.retryAfterSec) };
+    return data({ errors: { form: passwordRefusalMessage(result.refusal) }, values }, { status: 429, headers });
   }
   if (result.reason === "deactivated") {
     return data({ errors: { form: "This account has been deactivated. Ask the shop's admin." }, values }, { status: 403 });

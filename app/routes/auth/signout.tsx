@@ -11,3 +11,9 @@ export async function action({ request }: Route.ActionArgs) {
   const cookie = await signOut(request);
   throw redirect("/signin", { headers: { "Set-Cookie": cookie } });
 }
+
+// A page module rather than a resource route, so that a failure (the database down) is shown
+// as the app's error page, not as bare JSON. It never renders: the loader and action redirect.
+export default function SignOut() {
+  return null;
+}
