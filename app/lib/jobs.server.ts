@@ -2,7 +2,7 @@ import { env } from "./env.server";
 import { createTransport, drainOutbox } from "./mail.server";
 import { pool } from "./db.server";
 import { ensureRecordingJobs } from "./recordings/processing.server";
-import { cleanUpStaleUploads } from "./recordings/tus.server";
+import { cleanUpExpiredUploads } from "./recordings/tus.server";
 import { drainSearchOutbox, repairIndex } from "./search/indexer.server";
 
 /**
@@ -18,8 +18,8 @@ export function periodicTasks(): PeriodicTask[] {
     { name: "mail-outbox", everyMs: Number(process.env.MAIL_POLL_MS ?? 1000), run: () => drainOutbox({ transport, retryBaseMs }) },
     // recordings: starts the pg-boss worker for the processing queue (once; again after a failure)
     { name: "recordings-queue", everyMs: 5000, run: ensureRecordingJobs },
-    // recordings: unfinished uploads older than 14 days are discarded
-    { name: "recordings-stale-uploads", everyMs: 3_600_000, run: () => cleanUpStaleUploads() },
+    // recordings: unfinished uploads with no new bytes for 14 days (UPLOAD_EXPIRY_DAYS) are discarded
+    { name: "recordings-expired-uploads", everyMs: 3_600_000, run: () => cleanUpExpiredUploads() },
     ...(env().MEILI_HOST
       ? [
           { name: "search-outbox", everyMs: Number(process.env.SEARCH_POLL_MS ?? 500), run: () => drainSearchOutbox() },

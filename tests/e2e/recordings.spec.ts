@@ -148,14 +148,15 @@ test("an apprentice watches but cannot upload or mark", async ({ page }) => {
   await shot(page, "watch-apprentice");
 });
 
-test("an upload interrupted by a page reload continues when the same file is chosen again", async ({ page }) => {
-  test.setTimeout(120_000);
+test("an upload cut off in one browser continues in a fresh profile from where the server has it, with the title typed before; the Unfinished panel follows by itself", async ({ page, browser }) => {
+  test.setTimeout(150_000);
   fs.mkdirSync(work, { recursive: true });
   const big = path.join(work, "long-take.mp4");
   // ~20-30 MB: more than one 16 MiB chunk.
   execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc2=duration=2:size=640x360:rate=25", "-vf", "noise=alls=80:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", "-movflags", "+faststart", big]);
   const size = fs.statSync(big).size;
   expect(size).toBeGreaterThan(17 * 1024 * 1024);
+  const title = `Crank end-play, take ${Date.now().toString(36)}`;
 
   await signIn(page, "tomas@larkspur.example");
   await page.goto("/recordings/upload");
@@ -167,6 +168,7 @@ test("an upload interrupted by a page reload continues when the same file is cho
     return route.continue();
   });
   await page.getByTestId("file-input").setInputFiles(big);
+  await page.getByTestId("upload-item").getByLabel("Title").fill(title);
   await page.getByTestId("upload-item").getByRole("button", { name: "Upload" }).click();
   await expect.poll(() => patches, { timeout: 30_000 }).toBeGreaterThanOrEqual(2);
   await expect(page.getByTestId("upload-item")).toContainText("retrying");
@@ -177,13 +179,38 @@ test("an upload interrupted by a page reload continues when the same file is cho
   await expect(unfinished).toContainText("long-take.mp4");
   await expect(unfinished).toContainText(/16 MB of \d+ MB on the server/);
   await shot(page, "upload-unfinished");
-
+  // The same browser: choosing the file again offers to continue it, with the title typed before.
   await page.getByTestId("file-input").setInputFiles(big);
-  const item = page.getByTestId("upload-item");
+  await expect(page.getByTestId("upload-continues")).toContainText("16 MB");
+  await expect(page.getByTestId("upload-item")).toContainText(title);
+  await page.getByTestId("upload-item").getByRole("button", { name: "Remove from list" }).click();
+
+  // A fresh browser profile (nothing in its storage): the server finds the upload by the file.
+  const other = await (await browser.newContext()).newPage();
+  await signIn(other, "tomas@larkspur.example");
+  await other.goto("/recordings/upload");
+  await expect(other.getByTestId("unfinished-uploads")).toContainText("long-take.mp4");
+  const offsets: number[] = [];
+  const creations: string[] = [];
+  other.on("request", (r) => {
+    if (!r.url().includes("/api/uploads")) return;
+    if (r.method() === "PATCH") offsets.push(Number(r.headers()["upload-offset"]));
+    if (r.method() === "POST") creations.push(r.url());
+  });
+  await other.getByTestId("file-input").setInputFiles(big);
+  const item = other.getByTestId("upload-item");
+  await expect(item.getByTestId("upload-continues")).toContainText("16 MB");
+  await expect(item).toContainText(title);
   await item.getByRole("button", { name: "Upload" }).click();
-  await expect(item).toContainText("Continuing an earlier upload");
   await expect(item.getByTestId("upload-progress")).toHaveAttribute("aria-valuenow", "100", { timeout: 30_000 });
+  expect(offsets[0]).toBe(16 * 1024 * 1024);
+  expect(creations).toEqual([]);
+  // The panel empties without a reload.
+  await expect(other.getByTestId("unfinished-uploads")).toHaveCount(0);
   await expect(item.getByTestId("recording-state")).toHaveAttribute("data-state", "ready", { timeout: 60_000 });
-  await page.reload();
-  await expect(page.getByTestId("unfinished-uploads")).toHaveCount(0);
+  await item.getByTestId("open-recording").click();
+  await expect(other.getByRole("heading", { level: 1 })).toHaveText(title);
+  // Nothing was left on the server for this file.
+  const all = await other.evaluate(async () => (await (await fetch("/api/uploads")).json()) as { unfinished: { fileName: string }[] });
+  expect(all.unfinished.filter((u) => u.fileName === "long-take.mp4")).toEqual([]);
 });

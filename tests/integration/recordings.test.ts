@@ -13,7 +13,8 @@ const { FileUrlStorage } = tus as unknown as { FileUrlStorage: new (path: string
 import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { recordings, uploads } from "~/db/schema";
-import { cleanUpStaleUploads, receivedBytes } from "~/lib/recordings/tus.server";
+import { cleanUpExpiredUploads, receivedBytes } from "~/lib/recordings/tus.server";
+import { tusFilePath } from "~/lib/recordings/storage.server";
 import { db } from "~/lib/db.server";
 import { BASE_URL, createUser, http, waitFor, type TestUser } from "../support/app";
 
@@ -230,16 +231,25 @@ describe("tus upload", () => {
     expect((await http(`/api/uploads/${id}`, { cookie: builder.cookie })).status).toBe(404);
   });
 
-  it("discards unfinished uploads after two weeks, bytes and row", async () => {
+  it("discards unfinished uploads that received no bytes for two weeks, bytes and row, and keeps one still receiving", async () => {
     const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "100", "Upload-Metadata": `filename ${Buffer.from("old.mp4").toString("base64")}` };
-    const created = await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie });
-    const id = path.basename(created.headers.get("location")!);
-    await http(`/api/uploads/${id}`, { method: "PATCH", cookie: builder.cookie, headers: { "Tus-Resumable": "1.0.0", "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" }, body: "x".repeat(40) });
-    expect(await receivedBytes(id)).toBe(40);
-    await db().update(uploads).set({ createdAt: new Date(Date.now() - 15 * 24 * 3600 * 1000) }).where(eq(uploads.id, id));
-    expect(await cleanUpStaleUploads()).toBeGreaterThanOrEqual(1);
-    expect(await receivedBytes(id)).toBe(0);
-    expect((await http(`/api/uploads/${id}`, { cookie: builder.cookie })).status).toBe(404);
+    const start = async () => {
+      const created = await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie });
+      const id = path.basename(created.headers.get("location")!);
+      await http(`/api/uploads/${id}`, { method: "PATCH", cookie: builder.cookie, headers: { "Tus-Resumable": "1.0.0", "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" }, body: "x".repeat(40) });
+      expect(await receivedBytes(id)).toBe(40);
+      await db().update(uploads).set({ createdAt: new Date(Date.now() - 15 * 24 * 3600 * 1000) }).where(eq(uploads.id, id));
+      return id;
+    };
+    const abandoned = await start();
+    const stillGoing = await start(); // begun 15 days ago, but its last bytes came just now
+    const longAgo = new Date(Date.now() - 15 * 24 * 3600 * 1000);
+    fs.utimesSync(tusFilePath(abandoned), longAgo, longAgo);
+    expect(await cleanUpExpiredUploads()).toBeGreaterThanOrEqual(1);
+    expect(await receivedBytes(abandoned)).toBe(0);
+    expect((await http(`/api/uploads/${abandoned}`, { cookie: builder.cookie })).status).toBe(404);
+    expect(await receivedBytes(stillGoing)).toBe(40);
+    expect((await http(`/api/uploads/${stillGoing}`, { cookie: builder.cookie })).status).toBe(200);
   });
 
   it("refuses a file over the size limit before a byte is sent, an empty file, and bad file names", async () => {

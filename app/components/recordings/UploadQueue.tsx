@@ -5,7 +5,10 @@ import { StateBadge } from "./StateBadge";
 import { fileNameProblem, formatBytes, titleFromFileName } from "~/lib/recordings/rules";
 
 type Status = "waiting" | "uploading" | "paused" | "retrying" | "done" | "error" | "cancelled";
-type RecState = { state: "processing" | "ready" | "rejected" | "failed"; progress: number; stateReason: string | null };
+type RecState = { state: "processing" | "ready" | "rejected" | "failed" | "damaged"; progress: number; stateReason: string | null };
+
+/** An unfinished upload of the same file that the server holds for this person. */
+type Earlier = { id: string; received: number; title: string; description: string; tags: string[] };
 
 export type QueueItem = {
   key: string;
@@ -18,6 +21,11 @@ export type QueueItem = {
   speed: number | null; // bytes/s, smoothed
   message: string | null;
   resumedFrom: number | null;
+  /** The server's upload this item sends to (known once created, or found on the server). */
+  uploadId: string | null;
+  earlier: Earlier | null;
+  /** Asking the server for an earlier upload of this file (Upload waits for the answer). */
+  checking: boolean;
   recordingId: string | null;
   rec: RecState | null;
 };
@@ -49,7 +57,21 @@ function serverMessage(err: unknown): string {
   return "The connection to the shop server was lost and retries ran out. Press Resume to continue from where the server has it.";
 }
 
-export function UploadQueue({ maxBytes }: { maxBytes: number }) {
+/** Asks the server for an unfinished upload of this file (same name and size) by this person. */
+async function findEarlier(file: File): Promise<Earlier | null> {
+  try {
+    const res = await fetch(`/api/uploads?${new URLSearchParams({ fileName: file.name, size: String(file.size) })}`);
+    if (!res.ok) return null;
+    const { unfinished } = (await res.json()) as { unfinished: Earlier[] };
+    return unfinished[0] ?? null;
+  } catch {
+    return null;
+  }
+}
+
+const uploadIdOf = (url: string | null) => (url ? url.replace(/\/+$/, "").split("/").pop() ?? null : null);
+
+export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; onUploadsChange?: (uploadIds: string[]) => void }) {
   const [items, setItems] = useState<QueueItem[]>([]);
   const uploads = useRef(new Map<string, TusUpload>());
   const [dragging, setDragging] = useState(false);
@@ -77,13 +99,29 @@ export function UploadQueue({ maxBytes }: { maxBytes: number }) {
           speed: null,
           message: problem ?? tooBig ?? empty,
           resumedFrom: null,
+          uploadId: null,
+          earlier: null,
+          checking: !(problem || tooBig || empty),
           recordingId: null,
           rec: null,
         });
       }
       setItems((list) => [...list, ...next]);
+      // The server knows this person's unfinished uploads by file name and size, whichever
+      // browser started them: such a file continues where the server has it, with the title,
+      // description and tags given when it began.
+      for (const item of next) {
+        if (item.status !== "waiting") continue;
+        void findEarlier(item.file).then((earlier) => {
+          patch(item.key, (i) =>
+            !earlier || i.status !== "waiting" || i.uploadId
+              ? { checking: false }
+              : { checking: false, earlier, uploadId: earlier.id, title: earlier.title, description: earlier.description, tags: earlier.tags.join(", "), sent: earlier.received, resumedFrom: earlier.received },
+          );
+        });
+      }
     },
-    [maxBytes],
+    [maxBytes, patch],
   );
 
   const start = useCallback(
@@ -97,7 +135,9 @@ export function UploadQueue({ maxBytes }: { maxBytes: number }) {
           endpoint: "/api/uploads",
           chunkSize: CHUNK,
           retryDelays: RETRY_DELAYS,
-          removeFingerprintOnSuccess: true,
+          // Continuing is decided by the server (findEarlier), not by this browser's storage.
+          storeFingerprintForResuming: false,
+          ...(item.earlier ? { uploadUrl: `/api/uploads/${item.earlier.id}` } : {}),
           metadata: { filename: item.file.name, filetype: item.file.type || "application/octet-stream", title: item.title, description: item.description, tags: item.tags },
           onShouldRetry: (err) => {
             const s = err.originalResponse?.getStatus() ?? 0;
@@ -119,6 +159,7 @@ export function UploadQueue({ maxBytes }: { maxBytes: number }) {
               return { sent: Math.min(sent, total), speed, status: i.status === "retrying" ? "uploading" : i.status, message: i.status === "retrying" ? null : i.message };
             });
           },
+          onUploadUrlAvailable: () => patch(item.key, { uploadId: uploadIdOf(upload?.url ?? null) }),
           onAfterResponse: (_req, res) => {
             const id = res.getHeader("Benchreel-Recording");
             if (id) patch(item.key, { recordingId: id });
@@ -127,12 +168,6 @@ export function UploadQueue({ maxBytes }: { maxBytes: number }) {
           onError: (err) => patch(item.key, { status: "error", speed: null, message: serverMessage(err) }),
         });
         uploads.current.set(item.key, upload);
-        const previous = await upload.findPreviousUploads();
-        if (previous.length) {
-          previous.sort((a, b) => (a.creationTime < b.creationTime ? 1 : -1));
-          upload.resumeFromPreviousUpload(previous[0]);
-          patch(item.key, { resumedFrom: 0 });
-        }
       }
       patch(item.key, { status: "uploading", message: null });
       upload.start();
@@ -157,6 +192,20 @@ export function UploadQueue({ maxBytes }: { maxBytes: number }) {
     },
     [patch],
   );
+
+  // Tell the page which server uploads this queue is sending (they are not "unfinished" there)
+  // whenever that changes or an upload ends, so its Unfinished panel follows without a reload.
+  const onChangeRef = useRef(onUploadsChange);
+  onChangeRef.current = onUploadsChange;
+  const sending = items.filter((i) => i.uploadId && i.status !== "done" && i.status !== "cancelled").map((i) => i.uploadId!);
+  const ended = items.filter((i) => i.status === "done" || i.status === "cancelled").length;
+  const queueKey = `${sending.join(",")}|${ended}`;
+  const lastKey = useRef(queueKey);
+  useEffect(() => {
+    if (lastKey.current === queueKey) return;
+    lastKey.current = queueKey;
+    onChangeRef.current?.(queueKey.split("|")[0].split(",").filter(Boolean));
+  }, [queueKey]);
 
   // Watch the processing state of finished uploads.
   useEffect(() => {
@@ -236,7 +285,8 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
   onRemove: () => void;
 }) {
   const pct = item.file.size ? Math.floor((item.sent / item.file.size) * 100) : 0;
-  const editable = item.status === "waiting";
+  // A file continuing an earlier upload keeps the details given when it began.
+  const editable = item.status === "waiting" && !item.earlier;
   const active = item.status === "uploading" || item.status === "retrying";
   const id = item.key.replace(/[^A-Za-z0-9]/g, "");
   const blocked = item.status === "error" && item.sent === 0 && !item.recordingId && item.message && !item.message.startsWith("The connection");
@@ -291,7 +341,9 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
       {item.message && (
         <p role={item.status === "error" ? "alert" : "status"} className={`text-sm ${item.status === "error" ? "text-spec-red" : "text-graphite-soft"}`}>{item.message}</p>
       )}
-      {item.resumedFrom != null && item.status !== "done" && <p className="text-sm text-teal">Continuing an earlier upload of this file: only the rest is sent.</p>}
+      {item.resumedFrom != null && item.status !== "done" && (
+        <p className="text-sm text-teal" data-testid="upload-continues">Continuing an earlier upload of this file ({formatBytes(item.resumedFrom)} of {formatBytes(item.file.size)} already on the server): only the rest is sent.</p>
+      )}
 
       {item.status === "done" && (
         <div className="flex flex-wrap items-center gap-3 text-sm" data-testid="upload-done">
@@ -303,7 +355,7 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
       )}
 
       <div className="flex flex-wrap gap-2">
-        {item.status === "waiting" && <button type="button" className="btn btn-primary" onClick={onStart} disabled={!item.title.trim()}>Upload</button>}
+        {item.status === "waiting" && <button type="button" className="btn btn-primary" onClick={onStart} disabled={!item.title.trim() || item.checking}>Upload</button>}
         {active && <button type="button" className="btn" onClick={onPause}>Pause</button>}
         {(item.status === "paused" || (item.status === "error" && !blocked)) && <button type="button" className="btn btn-primary" onClick={onStart}>Resume</button>}
         {(active || item.status === "paused" || (item.status === "error" && !blocked)) && <button type="button" className="btn btn-danger" onClick={onCancel}>Cancel upload</button>}

@@ -5,6 +5,7 @@ import { Readable } from "node:stream";
  * Serves a file with HTTP Range (RFC 9110 §14): 206 with Content-Range for one satisfiable
  * range, 416 for an unsatisfiable or malformed one, 200 for the whole file (also for several
  * ranges, which a server may answer with the full body), If-Range and If-None-Match honoured.
+ * Range applies to GET only (§14.2): HEAD, and a range unit other than bytes, get the whole.
  * The body is streamed (Readable.toWeb of a ranged read stream, never a Node stream handed
  * to Response: see STACK.md).
  */
@@ -15,6 +16,9 @@ type Range = { start: number; end: number } | "unsatisfiable" | null;
 /** Parses one "bytes=…" range against a size; null = ignore the header (serve it all). */
 export function parseRange(header: string | null, size: number): Range {
   if (!header) return null;
+  // A range unit the server does not know (items=0-5) is ignored, not refused (RFC 9110 §14.2).
+  const unit = /^\s*([!#$%&'*+.^_`|~0-9A-Za-z-]+)\s*=/.exec(header);
+  if (unit && unit[1].toLowerCase() !== "bytes") return null;
   const m = /^\s*bytes\s*=\s*(.+)$/i.exec(header);
   if (!m) return "unsatisfiable";
   const parts = m[1].split(",").map((s) => s.trim());
@@ -60,7 +64,7 @@ export async function serveFile(request: Request, file: string, opts: ServeOptio
   const inm = request.headers.get("if-none-match");
   if (inm && inm.split(",").some((t) => t.trim() === etag || t.trim() === "*")) return new Response(null, { status: 304, headers });
 
-  let range = parseRange(request.headers.get("range"), size);
+  let range = request.method === "GET" ? parseRange(request.headers.get("range"), size) : null;
   const ifRange = request.headers.get("if-range");
   if (range && ifRange && ifRange.trim() !== etag) range = null;
   if (range === "unsatisfiable") {

@@ -6,7 +6,7 @@ import { pipeline } from "node:stream/promises";
 import { randomBytes } from "node:crypto";
 import { FileStore } from "@tus/file-store";
 import { Server, type Upload } from "@tus/server";
-import { and, eq, isNull, lt } from "drizzle-orm";
+import { and, desc, eq, isNull, lt } from "drizzle-orm";
 import { recordings, uploads } from "~/db/schema";
 import type { SessionUser } from "../auth.server";
 import { db } from "../db.server";
@@ -96,12 +96,22 @@ async function onUploadFinish(_req: Request, upload: Upload) {
  * the server's CPU per uploaded byte (see scripts/bench/recordings.ts).
  */
 class BufferedFileStore extends FileStore {
+  constructor(options: ConstructorParameters<typeof FileStore>[0]) {
+    super(options);
+    // Advertise only what is implemented (OPTIONS' Tus-Extension): every upload states its
+    // size up front, so no creation-defer-length; expiration is done by handleTus and the
+    // worker's clean-up below (the file store's own expiry is left off, expiry = 0).
+    this.extensions = ["creation", "creation-with-upload", "termination", "expiration"];
+  }
+
   override async write(readable: Readable, fileId: string, offset: number): Promise<number> {
     const file = path.join(this.directory, fileId);
     const out = createWriteStream(file, { flags: "r+", start: offset, highWaterMark: 8 * 1024 * 1024 });
     try {
       await pipeline(readable, out);
-    } catch {
+    } catch (err) {
+      // A body longer than the upload's declared length is tus's 413, answered as such.
+      if ((err as { status_code?: number }).status_code === 413) throw err;
       // An aborted PATCH keeps what reached the file; the client resumes from the file size.
       throw Object.assign(new Error("upload interrupted"), { status_code: 500, body: "Something went wrong receiving the file; the upload can continue.\n" });
     }
@@ -118,18 +128,34 @@ function createServer() {
     maxSize: max,
     namingFunction: () => randomBytes(16).toString("hex"),
     disableTerminationForFinishedUploads: true,
-    exposedHeaders: ["Benchreel-Recording"],
+    exposedHeaders: ["Benchreel-Recording", "Upload-Expires"],
     onUploadCreate: onUploadCreate as never,
     onUploadFinish: onUploadFinish as never,
-    onResponseError: (_req, err) => {
+    onResponseError: async (req, err) => {
       const e = err as { status_code?: number; body?: string; message?: string };
-      if (e.status_code === 413) {
-        return { status_code: 413, body: `The file is larger than the shop's limit of ${formatBytes(max)}.` };
-      }
+      if (e.status_code === 413) return { status_code: 413, body: await tooLargeReason(req as Request, max) };
+      // 501 is tus's answer for an extension it does not offer: the client's request, not a fault.
+      if (e.status_code === 501) return { status_code: 400, body: e.body ?? "This tus extension is not supported." };
       if (!e.status_code || e.status_code >= 500) console.error("[uploads]", e.message ?? e.body);
       return undefined;
     },
   });
+}
+
+/**
+ * Why a request was too large: a new upload over the shop's limit, or bytes beyond the length
+ * the upload declared when it was created (a PATCH, or a creation-with-upload body).
+ */
+async function tooLargeReason(req: Request, max: number): Promise<string> {
+  const declared = Number(req.headers.get("upload-length"));
+  if (req.method === "POST" && declared > max) return `The file is larger than the shop's limit of ${formatBytes(max)}.`;
+  const id = req.method === "PATCH" ? uploadIdFrom(new URL(req.url).pathname) : null;
+  const [row] = id ? await db().select({ size: uploads.size }).from(uploads).where(eq(uploads.id, id)) : [];
+  const size = row?.size ?? (Number.isFinite(declared) ? declared : null);
+  const offset = Number(req.headers.get("upload-offset") ?? 0);
+  const sent = req.headers.get("content-length");
+  const room = size != null ? ` (${size - offset} bytes remain after offset ${offset})` : "";
+  return `The request sends more bytes than the upload declared${size != null ? ` in Upload-Length: ${size}` : ""}: ${sent != null ? `${sent} bytes` : "a longer body"}${room}. Nothing past the declared length is stored.`;
 }
 
 const g = globalThis as unknown as { __benchreelTus?: Server };
@@ -138,10 +164,105 @@ export function tusServer(): Server {
   return g.__benchreelTus;
 }
 
-/** Hand a guarded request to tus. */
-export function handleTus(request: Request, user: SessionUser): Promise<Response> {
-  requestUser.set(request, user);
-  return tusServer().handleWeb(request);
+/** The tus protocol version this server speaks (the only one, 1.0.0). */
+export const TUS_VERSION = "1.0.0";
+
+function tusAnswer(status: number, body: string | null, headers: Record<string, string> = {}): Response {
+  return new Response(body, { status, headers: { "Tus-Resumable": TUS_VERSION, "Cache-Control": "no-store", ...(body ? { "Content-Type": "text/plain; charset=utf-8" } : {}), ...headers } });
+}
+
+/**
+ * What tus 1.0.0 says a server must refuse before touching an upload, answered here because
+ * @tus/server answers them with other statuses: a missing or unsupported Tus-Resumable is 412
+ * with Tus-Version; a PATCH that is not application/offset+octet-stream is 415; extensions
+ * not offered (deferred length, concatenation) are 400 with the reason.
+ */
+export function protocolRefusal(request: Request): Response | null {
+  const method = request.method;
+  if (method === "OPTIONS") return null;
+  const version = request.headers.get("tus-resumable");
+  if (version !== TUS_VERSION) {
+    const why = version ? `This server speaks tus ${TUS_VERSION}, not ${version}.` : `The Tus-Resumable header is required (tus ${TUS_VERSION}).`;
+    return tusAnswer(412, why, { "Tus-Version": TUS_VERSION });
+  }
+  if (method === "PATCH" && request.headers.get("content-type")?.trim() !== "application/offset+octet-stream") {
+    return tusAnswer(415, "A PATCH carries the bytes as Content-Type: application/offset+octet-stream.");
+  }
+  if (method === "POST" && request.headers.has("upload-defer-length")) {
+    return tusAnswer(400, "State the file's size when the upload is created (Upload-Length); a deferred length is not supported.");
+  }
+  if (method === "PATCH" && request.headers.has("upload-length")) {
+    return tusAnswer(400, "The upload's length was fixed when it was created; send no Upload-Length with a PATCH.");
+  }
+  if (request.headers.has("upload-concat")) {
+    return tusAnswer(400, "Concatenated (parallel) uploads are not supported; send the file as one upload.");
+  }
+  return null;
+}
+
+/** An unfinished upload expires this many days after its last byte arrived (docs/decisions/003). */
+export const UPLOAD_EXPIRY_DAYS = 14;
+const EXPIRY_MS = UPLOAD_EXPIRY_DAYS * 24 * 3600 * 1000;
+
+type UploadRow = typeof uploads.$inferSelect;
+
+/** When an unfinished upload expires: its last byte (the file's mtime) or its creation, plus the expiry time. */
+export async function expiresAt(row: Pick<UploadRow, "id" | "createdAt">): Promise<Date> {
+  const mtime = await fs.stat(tusFilePath(row.id)).then((s) => s.mtimeMs, () => 0);
+  return new Date(Math.max(row.createdAt.getTime(), mtime) + EXPIRY_MS);
+}
+
+function metadataHeader(row: UploadRow): string {
+  const pairs: [string, string][] = [["filename", row.fileName], ["filetype", row.fileType ?? ""], ["title", row.title]];
+  return pairs.map(([k, v]) => (v ? `${k} ${Buffer.from(v).toString("base64")}` : k)).join(",");
+}
+
+/**
+ * A finished upload keeps answering at its URL, as one whose bytes are all there, so that a
+ * client resuming from a stored URL finishes instead of starting over (and making a second
+ * recording): HEAD says Upload-Offset = Upload-Length, a PATCH at that offset with no bytes
+ * is acknowledged, anything else is refused with the reason.
+ */
+function finishedAnswer(request: Request, row: UploadRow): Response {
+  const done = { "Upload-Offset": String(row.size), "Benchreel-Recording": row.recordingId! };
+  if (request.method === "HEAD") return tusAnswer(200, null, { ...done, "Upload-Length": String(row.size), "Upload-Metadata": metadataHeader(row) });
+  if (request.method === "PATCH") {
+    const offset = request.headers.get("upload-offset");
+    if (offset !== String(row.size)) return tusAnswer(409, `This upload is complete: all ${row.size} bytes arrived (Upload-Offset ${row.size}).`, done);
+    if (Number(request.headers.get("content-length") ?? 0) > 0 || request.headers.has("transfer-encoding")) {
+      return tusAnswer(413, `This upload is complete at its declared length of ${row.size} bytes; no more bytes can be added.`, done);
+    }
+    return tusAnswer(204, null, done);
+  }
+  return tusAnswer(400, "This upload is complete and became a recording; it cannot be terminated.", done);
+}
+
+/**
+ * Hand a guarded request to tus (OPTIONS needs no person: it tells only what the server
+ * supports). Before tus: the protocol's refusals, finished uploads, expired ones (410, and
+ * discarded). After: Upload-Expires on every answer about an unfinished upload.
+ */
+export async function handleTus(request: Request, user: SessionUser | null): Promise<Response> {
+  const refused = protocolRefusal(request);
+  if (refused) return refused;
+  const id = uploadIdFrom(new URL(request.url).pathname);
+  let row: UploadRow | undefined;
+  if (id && request.method !== "OPTIONS" && request.method !== "POST") {
+    [row] = await db().select().from(uploads).where(eq(uploads.id, id));
+    if (row?.recordingId) return finishedAnswer(request, row);
+    if (row && (await expiresAt(row)) < new Date()) {
+      await discardUpload(row.id);
+      return tusAnswer(410, `This unfinished upload expired (no bytes for ${UPLOAD_EXPIRY_DAYS} days) and was discarded; start the upload again.`);
+    }
+  }
+  if (user) requestUser.set(request, user);
+  const res = await tusServer().handleWeb(request);
+  const created = request.method === "POST" && res.status === 201 ? uploadIdFrom(res.headers.get("location") ?? "") : null;
+  const about = created ?? (row && (request.method === "HEAD" || request.method === "PATCH") ? row.id : null);
+  if (about && res.status < 300 && !res.headers.has("Benchreel-Recording")) {
+    res.headers.set("Upload-Expires", (await expiresAt({ id: about, createdAt: row?.createdAt ?? new Date() })).toUTCString());
+  }
+  return res;
 }
 
 /** The upload id from /api/uploads/<id>, or null for the bare collection URL. */
@@ -160,6 +281,23 @@ export async function receivedBytes(uploadId: string): Promise<number> {
   }
 }
 
+/**
+ * The caller's unfinished uploads, newest first, with the bytes the server holds; given a
+ * file's name and size, only the ones of that file (how a browser that has no record of an
+ * upload, another profile or machine, finds it to continue).
+ */
+export async function unfinishedUploads(userId: string, file?: { fileName: string; size: number }, limit = 50) {
+  const where = [eq(uploads.userId, userId), isNull(uploads.recordingId)];
+  if (file) where.push(eq(uploads.fileName, file.fileName), eq(uploads.size, file.size));
+  const rows = await db()
+    .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, description: uploads.description, tags: uploads.tags, createdAt: uploads.createdAt })
+    .from(uploads)
+    .where(and(...where))
+    .orderBy(desc(uploads.createdAt))
+    .limit(limit);
+  return Promise.all(rows.map(async (r) => ({ ...r, received: await receivedBytes(r.id), expiresAt: await expiresAt(r) })));
+}
+
 /** Discard an unfinished upload: its bytes, its sidecar and its row. */
 export async function discardUpload(uploadId: string): Promise<void> {
   await fs.rm(tusFilePath(uploadId), { force: true });
@@ -167,16 +305,31 @@ export async function discardUpload(uploadId: string): Promise<void> {
   await db().delete(uploads).where(eq(uploads.id, uploadId));
 }
 
-/** Unfinished uploads older than this are discarded by the worker (bytes and row). */
-export const STALE_UPLOAD_DAYS = 14;
-
-export async function cleanUpStaleUploads(now = new Date()): Promise<number> {
-  const before = new Date(now.getTime() - STALE_UPLOAD_DAYS * 24 * 3600 * 1000);
-  const stale = await db()
-    .select({ id: uploads.id })
+/**
+ * The worker's clean-up (hourly): unfinished uploads past their expiry are discarded, bytes
+ * and row; so are files in tus's folder that no upload row knows, once as old.
+ */
+export async function cleanUpExpiredUploads(now = new Date()): Promise<number> {
+  const candidates = await db()
+    .select()
     .from(uploads)
-    .where(and(isNull(uploads.recordingId), lt(uploads.createdAt, before)))
-    .limit(200);
-  for (const u of stale) await discardUpload(u.id);
-  return stale.length;
+    .where(and(isNull(uploads.recordingId), lt(uploads.createdAt, new Date(now.getTime() - EXPIRY_MS))))
+    .limit(500);
+  let n = 0;
+  for (const u of candidates) {
+    if ((await expiresAt(u)) >= now) continue;
+    await discardUpload(u.id);
+    n++;
+  }
+  const names = await fs.readdir(tusDir());
+  const ids = [...new Set(names.map((f) => f.replace(/\.json$/, "")))].filter((f) => /^[0-9a-f]{32}$/.test(f));
+  for (const id of ids) {
+    const [known] = await db().select({ id: uploads.id }).from(uploads).where(eq(uploads.id, id));
+    if (known) continue;
+    const mtime = await fs.stat(tusFilePath(id)).then((s) => s.mtimeMs, () => fs.stat(`${tusFilePath(id)}.json`).then((s) => s.mtimeMs, () => now.getTime()));
+    if (mtime + EXPIRY_MS >= now.getTime()) continue;
+    await discardUpload(id);
+    n++;
+  }
+  return n;
 }

@@ -1,14 +1,17 @@
-import { and, desc, eq, isNull } from "drizzle-orm";
+import { eq } from "drizzle-orm";
+import { z } from "zod";
 import type { Route } from "./+types/uploads";
 import { recordings, uploads } from "~/db/schema";
 import { forbidden, requirePermission, type SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { discardUpload, handleTus, receivedBytes, uploadIdFrom } from "~/lib/recordings/tus.server";
+import { invalid } from "~/lib/recordings/api.server";
+import { discardUpload, handleTus, receivedBytes, unfinishedUploads, uploadIdFrom } from "~/lib/recordings/tus.server";
 
 /**
  * /api/uploads and /api/uploads/:id — the tus endpoint (OPTIONS/HEAD via the loader,
  * POST/PATCH/DELETE via the action), guarded on every request: a session, the
  * recording:upload capability, and for an existing upload, being the one who started it.
+ * OPTIONS alone is open: it tells a client what the server supports, nothing about anyone.
  * A plain GET answers JSON about the caller's uploads (never tus's download, see STACK.md).
  */
 async function guard(request: Request): Promise<{ user: SessionUser; uploadId: string | null }> {
@@ -21,7 +24,14 @@ async function guard(request: Request): Promise<{ user: SessionUser; uploadId: s
   return { user, uploadId };
 }
 
+/** ?fileName=…&size=…: the caller's unfinished uploads of that file (to continue it from any browser). */
+const fileQuery = z.object({
+  fileName: z.string().min(1).max(255).refine((s) => !s.includes("\u0000"), "The file name cannot contain NUL.").optional(),
+  size: z.coerce.number().int("The size is a whole number of bytes.").min(1).max(Number.MAX_SAFE_INTEGER).optional(),
+});
+
 export async function loader({ request }: Route.LoaderArgs) {
+  if (request.method === "OPTIONS") return handleTus(request, null);
   const { user, uploadId } = await guard(request);
   if (request.method !== "GET") return handleTus(request, user);
   if (uploadId) {
@@ -33,14 +43,11 @@ export async function loader({ request }: Route.LoaderArgs) {
     if (!row) return Response.json({ error: "not found" }, { status: 404 });
     return Response.json({ upload: { ...row, received: row.recordingId ? row.size : await receivedBytes(row.id) } });
   }
-  const rows = await db()
-    .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, createdAt: uploads.createdAt })
-    .from(uploads)
-    .where(and(eq(uploads.userId, user.id), isNull(uploads.recordingId)))
-    .orderBy(desc(uploads.createdAt))
-    .limit(50);
-  const unfinished = await Promise.all(rows.map(async (r) => ({ ...r, received: await receivedBytes(r.id) })));
-  return Response.json({ unfinished });
+  const query = fileQuery.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  if (!query.success) return invalid(query.error);
+  const { fileName, size } = query.data;
+  const file = fileName != null && size != null ? { fileName, size } : undefined;
+  return Response.json({ unfinished: await unfinishedUploads(user.id, file) });
 }
 
 export async function action({ request }: Route.ActionArgs) {

@@ -1,5 +1,6 @@
-import { and, desc, eq, isNull } from "drizzle-orm";
-import { Link, useFetcher } from "react-router";
+import { useCallback, useState } from "react";
+import { and, eq, isNull } from "drizzle-orm";
+import { Link, useFetcher, useRevalidator } from "react-router";
 import type { Route } from "./+types/upload";
 import { PageHeader } from "~/components/page";
 import { UploadQueue } from "~/components/recordings/UploadQueue";
@@ -8,7 +9,7 @@ import { requirePermission } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { redirectWithFlash } from "~/lib/flash.server";
-import { discardUpload, receivedBytes } from "~/lib/recordings/tus.server";
+import { discardUpload, unfinishedUploads, UPLOAD_EXPIRY_DAYS } from "~/lib/recordings/tus.server";
 import { formatBytes } from "~/lib/recordings/rules";
 import { formatDayMonthTime } from "~/lib/dates";
 
@@ -16,14 +17,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Record
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "recording:upload");
-  const rows = await db()
-    .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, createdAt: uploads.createdAt })
-    .from(uploads)
-    .where(and(eq(uploads.userId, user.id), isNull(uploads.recordingId)))
-    .orderBy(desc(uploads.createdAt))
-    .limit(20);
-  const unfinished = await Promise.all(rows.map(async (r) => ({ ...r, received: await receivedBytes(r.id) })));
-  return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished };
+  const unfinished = await unfinishedUploads(user.id, undefined, 20);
+  return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished, expiryDays: UPLOAD_EXPIRY_DAYS };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -41,11 +36,23 @@ const fmt = formatDayMonthTime;
 
 export default function UploadPage({ loaderData }: Route.ComponentProps) {
   const discard = useFetcher();
+  // The panel follows the queue: an upload being sent from this page is not "unfinished"
+  // here, and one that finishes or is cancelled leaves the panel without a reload.
+  const [inQueue, setInQueue] = useState<string[]>([]);
+  const { revalidate } = useRevalidator();
+  const onUploadsChange = useCallback(
+    (ids: string[]) => {
+      setInQueue(ids);
+      void revalidate();
+    },
+    [revalidate],
+  );
+  const unfinished = loaderData.unfinished.filter((u) => !inQueue.includes(u.id));
   return (
     <>
       <PageHeader title="Upload videos" kicker="Recordings" actions={<Link to="/recordings" className="btn no-underline">Back to recordings</Link>} />
       <div className="grid gap-6 lg:grid-cols-[1fr_18rem]">
-        <UploadQueue maxBytes={loaderData.maxBytes} />
+        <UploadQueue maxBytes={loaderData.maxBytes} onUploadsChange={onUploadsChange} />
         <aside className="space-y-4">
           <section className="card text-sm">
             <h2 className="text-lg">After the upload</h2>
@@ -53,15 +60,16 @@ export default function UploadPage({ loaderData }: Route.ComponentProps) {
           </section>
           <section className="card text-sm" aria-labelledby="unfinished-h">
             <h2 id="unfinished-h" className="text-lg">Unfinished uploads</h2>
-            {loaderData.unfinished.length === 0 ? (
+            <p className="mt-1 text-xs text-graphite-soft">A partial upload that receives no bytes for {loaderData.expiryDays} days is discarded.</p>
+            {unfinished.length === 0 ? (
               <p className="mt-2 text-graphite-soft">None. An upload interrupted by a reload or a closed browser shows here until you finish or discard it.</p>
             ) : (
               <ul className="mt-2 space-y-3" data-testid="unfinished-uploads">
-                {loaderData.unfinished.map((u) => (
+                {unfinished.map((u) => (
                   <li key={u.id}>
                     <p className="break-all font-semibold">{u.fileName}</p>
                     <p className="num text-graphite-soft">{formatBytes(u.received)} of {formatBytes(u.size)} on the server · started {fmt(u.createdAt)}</p>
-                    <p className="text-graphite-soft">Choose the same file above to continue.</p>
+                    <p className="text-graphite-soft">Choose the same file above to continue, in any browser. Discarded by itself on {fmt(u.expiresAt)} if no more bytes arrive.</p>
                     <discard.Form method="post" className="mt-1">
                       <input type="hidden" name="intent" value="discard" />
                       <input type="hidden" name="uploadId" value={u.id} />
