@@ -95,6 +95,8 @@ try {
       BENCHREEL_URL: `http://127.0.0.1:${appPort}`,
       SMTP_CONTROL_URL: `http://127.0.0.1:${smtpControlPort}`,
       SEARCH_CONTROL_URL: `http://127.0.0.1:${searchControlPort}`,
+      // The same control server stops and starts the worker (POST /worker/kill, /worker/start).
+      WORKER_CONTROL_URL: `http://127.0.0.1:${searchControlPort}`,
       SEARCH_RETRY_BASE_MS: "300",
       SEARCH_CHECK_MS: "2000",
       BENCHREEL_RUN_DIR: runDir,
@@ -105,6 +107,9 @@ try {
     // The search fake can be stopped and started by tests (outage simulation) through a
     // small control server of this script's.
     let meili = null;
+    let worker = null;
+    let startWorkerProcess = async () => {};
+    let killWorker = () => [];
     const startMeili = async () => {
       if (meili && meili.exitCode == null) return;
       meili = tsx("scripts/fakes/meili/server.ts", ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY], env, path.join(runDir, "meili.log"));
@@ -122,6 +127,12 @@ try {
       try {
         if (req.method === "POST" && req.url === "/search/stop") await stopMeili();
         else if (req.method === "POST" && req.url === "/search/start") await startMeili();
+        // The worker killed as by `kill -9` (its node process, not tsx's wrapper, nor the
+        // worker's own children), and started again: fault tests of the recordings worker.
+        else if (req.method === "POST" && req.url === "/worker/kill") {
+          const killed = killWorker();
+          return res.writeHead(200, { "content-type": "application/json" }).end(JSON.stringify({ killed }));
+        } else if (req.method === "POST" && req.url === "/worker/start") await startWorkerProcess();
         else return res.writeHead(404).end();
         res.writeHead(200, { "content-type": "application/json" }).end("{}");
       } catch (err) {
@@ -135,7 +146,17 @@ try {
     const appLog = path.join(runDir, "app.log");
     const workerLog = path.join(runDir, "worker.log");
     spawnChild(process.execPath, ["server.js", path.join(buildDir, "server/index.js")], env, "app", appLog);
-    tsx("scripts/worker.ts", [], env, workerLog);
+    startWorkerProcess = async () => {
+      // tsx's wrapper ends when its worker does; a new one starts once it has.
+      if (worker && worker.exitCode == null && worker.signalCode == null) await new Promise((resolve) => worker.once("exit", resolve));
+      worker = tsx("scripts/worker.ts", [], env, workerLog);
+    };
+    killWorker = () => {
+      const pids = worker?.pid ? fs.readFileSync(`/proc/${worker.pid}/task/${worker.pid}/children`, "utf8").trim().split(/\s+/).filter(Boolean).map(Number) : [];
+      for (const pid of pids) process.kill(pid, "SIGKILL");
+      return pids;
+    };
+    await startWorkerProcess();
     logsToShow.push(appLog, workerLog);
     await waitForPort(appPort, 60_000, "app");
     await waitForPort(smtpPort, 30_000, "fake SMTP");

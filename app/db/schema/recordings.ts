@@ -5,7 +5,7 @@ import { procedures } from "./procedures";
 
 // The recordings area: uploads (tus), recordings, marks and readings.
 
-export const recordingStateEnum = pgEnum("recording_state", ["processing", "ready", "rejected", "failed"]);
+export const recordingStateEnum = pgEnum("recording_state", ["processing", "ready", "rejected", "failed", "damaged"]);
 
 /** One row per tus upload; the id is the tus upload id (random, never from the client). */
 export const uploads = pgTable(
@@ -34,7 +34,7 @@ export const recordings = pgTable(
     description: text("description").notNull().default(""),
     tags: text("tags").array().notNull().default(sql`'{}'::text[]`),
     state: recordingStateEnum("state").notNull().default("processing"),
-    /** Why a recording was rejected or failed, in words for the page. */
+    /** Why a recording was rejected, damaged or failed, in words for the page. */
     stateReason: text("state_reason"),
     /** Processing progress 0..1 while state is "processing". */
     progress: real("progress").notNull().default(0),

@@ -1,11 +1,14 @@
-import { spawn } from "node:child_process";
+import { spawn, type ChildProcess } from "node:child_process";
+import { randomBytes } from "node:crypto";
 import fs from "node:fs/promises";
-import { createReadStream } from "node:fs";
+import { createReadStream, existsSync } from "node:fs";
+import path from "node:path";
 import { eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { recordings } from "~/db/schema";
 import { db } from "../db.server";
 import { boss, enqueueProcessing, PROCESS_QUEUE, stopBoss } from "./queue.server";
+import { formatTime } from "./rules";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
 
 const FFPROBE = process.env.FFPROBE_PATH ?? "/usr/bin/ffprobe";
@@ -15,15 +18,37 @@ export type Probe = {
   formatName: string;
   majorBrand: string | null;
   durationS: number | null;
+  /** The first video stream's own duration (the container's may include longer audio). */
+  videoDurationS: number | null;
   video: { codec: string; profile: string | null; pixFmt: string | null; width: number; height: number; frameRate: number | null } | null;
   audio: { codec: string } | null;
 };
 
 type Run = { code: number | null; stdout: string; stderr: string };
 
+/**
+ * ffmpeg and ffprobe die with the process that started them. A worker killed with SIGKILL
+ * runs no handler, so its children would keep running (and writing) as orphans; instead each
+ * is started through util-linux's setpriv, which sets the kernel's parent-death signal
+ * (PR_SET_PDEATHSIG = SIGKILL) and then execs the tool, so the kernel kills the child when
+ * this process ends, however it ends. Without setpriv (not Linux) the tool starts directly and
+ * the sweep at the start of each job (killLeftovers) is the only guard.
+ */
+const SETPRIV = "/usr/bin/setpriv";
+const hasSetpriv = existsSync(SETPRIV);
+/** Children still running, killed on a graceful stop (the parent-death signal covers the rest). */
+const children = new Set<ChildProcess>();
+
+export function killChildren(): void {
+  for (const c of children) c.kill("SIGKILL");
+}
+
 function run(cmd: string, args: string[], onStdout?: (chunk: string) => void): Promise<Run> {
   return new Promise((resolve, reject) => {
-    const child = spawn(cmd, args, { stdio: ["ignore", "pipe", "pipe"] });
+    const [exe, argv] = hasSetpriv ? [SETPRIV, ["--pdeathsig", "KILL", "--", cmd, ...args]] : [cmd, args];
+    const child = spawn(exe, argv, { stdio: ["ignore", "pipe", "pipe"] });
+    children.add(child);
+    child.on("exit", () => children.delete(child));
     let stdout = "";
     let stderr = "";
     child.stdout.setEncoding("utf8").on("data", (c: string) => {
@@ -59,10 +84,12 @@ export async function probe(file: string): Promise<Probe | null> {
   const v = streams.find((s) => s.codec_type === "video" && !(s.disposition as { attached_pic?: number } | undefined)?.attached_pic) as Record<string, string & number> | undefined;
   const a = streams.find((s) => s.codec_type === "audio") as Record<string, string> | undefined;
   const duration = Number(j.format?.duration ?? v?.duration);
+  const videoDuration = Number(v?.duration);
   return {
     formatName: j.format?.format_name ?? "",
     majorBrand: j.format?.tags?.major_brand?.trim() ?? null,
     durationS: Number.isFinite(duration) && duration > 0 ? duration : null,
+    videoDurationS: Number.isFinite(videoDuration) && videoDuration > 0 ? videoDuration : null,
     video: v
       ? {
           codec: String(v.codec_name),
@@ -124,21 +151,105 @@ async function setProgress(id: string, progress: number) {
   await db().update(recordings).set({ progress, updatedAt: new Date() }).where(eq(recordings.id, id));
 }
 
-async function ffmpeg(args: string[], durationS: number | null, onFraction: (f: number) => void): Promise<void> {
+/** Runs ffmpeg; onSeconds gets the output's time as it grows (from -progress). */
+async function ffmpeg(args: string[], onSeconds: (s: number) => void = () => {}): Promise<void> {
+  const r = await run(FFMPEG, ["-hide_banner", "-nostdin", "-y", "-progress", "pipe:1", "-nostats", ...args], progressParser(onSeconds));
+  if (r.code !== 0) {
+    const last = r.stderr.trim().split("\n").slice(-2).join(" ").slice(0, 400);
+    throw new Error(`ffmpeg failed: ${last || `exit code ${r.code}`}`);
+  }
+}
+
+function progressParser(onSeconds: (s: number) => void): (chunk: string) => void {
   let buf = "";
-  const r = await run(FFMPEG, ["-hide_banner", "-nostdin", "-y", "-progress", "pipe:1", "-nostats", ...args], (chunk) => {
+  return (chunk) => {
     buf += chunk;
     const lines = buf.split("\n");
     buf = lines.pop() ?? "";
     for (const line of lines) {
       const m = /^out_time_us=(\d+)/.exec(line);
-      if (m && durationS) onFraction(Math.min(1, Number(m[1]) / 1e6 / durationS));
+      if (m) onSeconds(Number(m[1]) / 1e6);
     }
-  });
-  if (r.code !== 0) {
-    const last = r.stderr.trim().split("\n").slice(-2).join(" ").slice(0, 400);
-    throw new Error(`ffmpeg failed: ${last || `exit code ${r.code}`}`);
+  };
+}
+
+export type DecodeCheck = { ok: boolean; decodedS: number; error: string | null };
+
+/**
+ * Decodes every frame of the first video stream and throws the pictures away: ffmpeg's own
+ * error check (-xerror stops at the first decoding error). A file whose index promises more
+ * than its data holds (the first kilobytes of a faststart MP4) probes fine but fails here.
+ */
+export async function decodeCheck(file: string, onSeconds: (s: number) => void = () => {}): Promise<DecodeCheck> {
+  let decodedS = 0;
+  const r = await run(
+    FFMPEG,
+    ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", "-f", "null", "-"],
+    progressParser((sec) => {
+      decodedS = sec;
+      onSeconds(sec);
+    }),
+  );
+  const error = r.code === 0 ? null : r.stderr.trim().split("\n").slice(-2).join(" ").slice(0, 300) || `exit code ${r.code}`;
+  return { ok: r.code === 0, decodedS, error };
+}
+
+/** Decoded time may fall short of the stated duration by a frame or two, never by more than this. */
+export function durationTolerance(seconds: number): number {
+  return Math.max(0.5, seconds * 0.02);
+}
+
+/** Why a file does not decode as a whole, in words for the page; null when it does. */
+export function damageReason(check: DecodeCheck, expectedS: number): string | null {
+  if (check.ok && check.decodedS >= expectedS - durationTolerance(expectedS)) return null;
+  const where = check.ok
+    ? `only ${formatTime(check.decodedS)} of its ${formatTime(expectedS)} could be played back`
+    : `playback breaks off at ${formatTime(check.decodedS)} of ${formatTime(expectedS)}`;
+  return `The video is damaged: ${where}. The file may have been cut off or corrupted while it was copied; upload the complete file again. The uploaded file is kept for download.${check.error ? ` (Decoder: ${check.error})` : ""}`;
+}
+
+/** A process's command line as its arguments, or null when it has ended. */
+async function cmdline(pid: number): Promise<string[] | null> {
+  return fs.readFile(`/proc/${pid}/cmdline`, "latin1").then((s) => s.split("\0"), () => null);
+}
+
+/**
+ * Kills ffmpeg/ffprobe processes still working on this recording's files that are not this
+ * worker's own children: leftovers of a worker that died mid-job where the parent-death signal
+ * could not be set. Found by their command line naming the recording's folder (a recycled pid
+ * names something else).
+ */
+export async function killLeftovers(id: string): Promise<number[]> {
+  const dir = recordingDir(id) + path.sep;
+  const mine = new Set([...children].map((c) => c.pid));
+  const pids = (await fs.readdir("/proc").catch(() => [] as string[])).filter((p) => /^\d+$/.test(p)).map(Number);
+  const killed: number[] = [];
+  for (const pid of pids) {
+    if (pid === process.pid || mine.has(pid)) continue;
+    const argv = await cmdline(pid);
+    if (!argv || !/ff(mpeg|probe)$/.test(path.basename(argv[0] ?? "")) || !argv.some((a) => a.startsWith(dir))) continue;
+    try {
+      process.kill(pid, "SIGKILL");
+      killed.push(pid);
+    } catch {
+      /* already gone */
+    }
   }
+  for (const pid of killed) {
+    for (let i = 0; i < 50 && (await cmdline(pid)) !== null; i++) await new Promise((r) => setTimeout(r, 100));
+  }
+  if (killed.length) console.warn(`[recordings] ${id}: killed leftover ffmpeg ${killed.join(", ")} of an earlier attempt`);
+  return killed;
+}
+
+/** Temporary outputs are named per attempt, so two attempts can never write the same file. */
+function attemptTemp(finalPath: string, attempt: string, ext: string): string {
+  return `${finalPath}.${attempt}.tmp${ext}`;
+}
+
+async function removeTemps(id: string): Promise<void> {
+  const dir = recordingDir(id);
+  for (const f of await fs.readdir(dir).catch(() => [] as string[])) if (/\.tmp(\.\w+)?$/.test(f)) await fs.rm(path.join(dir, f), { force: true });
 }
 
 async function exists(p: string) {
@@ -154,10 +265,18 @@ async function reject(id: string, reason: string) {
     .where(eq(recordings.id, id));
 }
 
-/** The processing job: probe, poster, rendition when needed → ready (or rejected). Idempotent. */
-export async function processRecording(id: string): Promise<"ready" | "rejected" | "skipped"> {
+/**
+ * The processing job: probe, decode check, poster, rendition when needed → ready (or
+ * rejected, or damaged). Idempotent. Each attempt first kills leftovers of an earlier one and
+ * writes only to temporary files of its own; a rendition replaces nothing until it decodes
+ * in full and lasts as long as the source.
+ */
+export async function processRecording(id: string): Promise<"ready" | "rejected" | "damaged" | "skipped"> {
   const [rec] = await db().select().from(recordings).where(eq(recordings.id, id));
-  if (!rec || rec.state === "ready" || rec.state === "rejected") return "skipped";
+  if (!rec || rec.state === "ready" || rec.state === "rejected" || rec.state === "damaged") return "skipped";
+  await killLeftovers(id);
+  await removeTemps(id);
+  const attempt = `${process.pid}-${randomBytes(4).toString("hex")}`;
   await db().update(recordings).set({ attempts: sql`${recordings.attempts} + 1`, state: "processing", stateReason: null, progress: 0.02, updatedAt: new Date() }).where(eq(recordings.id, id));
   const src = originalPath(id);
   if (!(await exists(src))) {
@@ -192,35 +311,44 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     })
     .where(eq(recordings.id, id));
 
+  // The whole stream must decode: the container's index can promise more than the data holds.
+  const expectedS = p.videoDurationS ?? p.durationS;
+  const source = await decodeCheck(src, throttled(id, (sec) => 0.08 + 0.1 * Math.min(1, sec / expectedS)));
+  const damage = damageReason(source, expectedS);
+  if (damage) {
+    await db().update(recordings).set({ state: "damaged", stateReason: damage, progress: 1, updatedAt: new Date() }).where(eq(recordings.id, id));
+    return "damaged";
+  }
+
   // Poster: a frame a little way in (or the first), at most 640 px wide.
-  const posterTmp = `${posterPath(id)}.tmp.jpg`;
+  const posterTmp = attemptTemp(posterPath(id), attempt, ".jpg");
   const at = Math.min(2, p.durationS / 10);
-  await ffmpeg(["-ss", at.toFixed(2), "-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp], null, () => {}).catch(() =>
-    ffmpeg(["-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp], null, () => {}),
+  await ffmpeg(["-ss", at.toFixed(2), "-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp]).catch(() =>
+    ffmpeg(["-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp]),
   );
   await fs.rename(posterTmp, posterPath(id));
-  await db().update(recordings).set({ hasPoster: true, progress: 0.12, updatedAt: new Date() }).where(eq(recordings.id, id));
+  await db().update(recordings).set({ hasPoster: true, progress: 0.2, updatedAt: new Date() }).where(eq(recordings.id, id));
 
   const plan = planFor(p, await topLevelBoxes(src).catch(() => []));
   if (plan !== "as-is") {
-    const tmp = `${renditionPath(id)}.tmp.mp4`;
-    let last = 0;
-    const onFraction = (f: number) => {
-      const now = Date.now();
-      if (now - last < 1000) return;
-      last = now;
-      void setProgress(id, 0.12 + 0.86 * f);
-    };
+    const tmp = attemptTemp(renditionPath(id), attempt, ".mp4");
+    const onSeconds = throttled(id, (sec) => 0.2 + 0.7 * Math.min(1, sec / p.durationS!));
     const common = ["-movflags", "+faststart", "-f", "mp4", tmp];
     if (plan === "remux") {
-      await ffmpeg(["-i", src, "-map", "0:v:0", "-map", "0:a:0?", "-c", "copy", ...common], p.durationS, onFraction);
+      await ffmpeg(["-i", src, "-map", "0:v:0", "-map", "0:a:0?", "-c", "copy", ...common], onSeconds);
     } else {
       await ffmpeg(
         ["-i", src, "-map", "0:v:0", "-map", "0:a:0?", "-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-pix_fmt", "yuv420p",
           "-vf", "scale='min(1920,iw)':-2", "-threads", "2", "-c:a", "aac", "-b:a", "128k", ...common],
-        p.durationS,
-        onFraction,
+        onSeconds,
       );
+    }
+    // Verified before it replaces anything: it decodes in full and lasts as long as the source.
+    const made = await decodeCheck(tmp, throttled(id, (sec) => 0.9 + 0.08 * Math.min(1, sec / source.decodedS)));
+    const short = Math.abs(made.decodedS - source.decodedS) > durationTolerance(source.decodedS);
+    if (!made.ok || short) {
+      await fs.rm(tmp, { force: true });
+      throw new Error(`the browser copy did not verify (${made.ok ? `it lasts ${formatTime(made.decodedS)}, the source ${formatTime(source.decodedS)}` : `it does not decode: ${made.error}`})`);
     }
     await fs.rename(tmp, renditionPath(id));
   }
@@ -229,6 +357,17 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     .set({ state: "ready", stateReason: null, progress: 1, hasRendition: plan !== "as-is", readyAt: new Date(), updatedAt: new Date() })
     .where(eq(recordings.id, id));
   return "ready";
+}
+
+/** Progress as seconds of media done, mapped to 0..1 and written at most once a second. */
+function throttled(id: string, toProgress: (sec: number) => number): (sec: number) => void {
+  let last = 0;
+  return (sec) => {
+    const now = Date.now();
+    if (now - last < 1000) return;
+    last = now;
+    void setProgress(id, toProgress(sec));
+  };
 }
 
 /** The worker side: work the queue; a throw is retried by pg-boss, the last failure is shown. */

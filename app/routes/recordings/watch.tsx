@@ -329,6 +329,12 @@ function StatePanel({ recording: r, canRetry, busy }: { recording: Route.Compone
             <p className="text-sm text-graphite-soft">The file's bytes were removed. Check that you picked the right file, then <Link to="/recordings/upload">upload again</Link>.</p>
           </>
         )}
+        {r.state === "damaged" && (
+          <>
+            <h2 className="text-lg text-spec-red">The video is damaged</h2>
+            <p className="text-sm" data-testid="state-reason">{r.stateReason}</p>
+          </>
+        )}
         {r.state === "failed" && (
           <>
             <h2 className="text-lg text-spec-red">Processing failed</h2>

@@ -1,0 +1,1 @@
+ALTER TYPE "public"."recording_state" ADD VALUE 'damaged';

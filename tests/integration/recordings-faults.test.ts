@@ -1,0 +1,136 @@
+// Recordings, faults: a damaged video (its index promises more than its data holds) is marked
+// damaged with the reason, never ready; and a worker killed with SIGKILL in the middle of a
+// transcode takes its ffmpeg with it, and the retried job publishes a rendition that decodes
+// in full. The worker is killed and started again through the test run's control server
+// (scripts/test.mjs, WORKER_CONTROL_URL).
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import path from "node:path";
+import { beforeAll, describe, expect, it } from "vitest";
+import { recordingDir } from "~/lib/recordings/storage.server";
+import { createUser, http, waitFor, type TestUser } from "../support/app";
+
+const work = path.join(process.env.BENCHREEL_RUN_DIR ?? fs.mkdtempSync("/tmp/br-rec-"), "recordings-faults");
+fs.mkdirSync(work, { recursive: true });
+const TUS = { "Tus-Resumable": "1.0.0" };
+const b64 = (s: string) => Buffer.from(s).toString("base64");
+
+let builder: TestUser;
+
+function ffmpeg(args: string[]) {
+  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args]);
+}
+
+/** Uploads bytes in one PATCH; the recording's id. */
+async function uploadBytes(bytes: Buffer, name: string): Promise<string> {
+  const created = await http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { ...TUS, "Upload-Length": String(bytes.length), "Upload-Metadata": `filename ${b64(name)}` } });
+  const id = path.basename(created.headers.get("location")!);
+  const done = await http(`/api/uploads/${id}`, { method: "PATCH", cookie: builder.cookie, headers: { ...TUS, "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" }, body: new Uint8Array(bytes) });
+  expect(done.status).toBe(204);
+  return done.headers.get("benchreel-recording")!;
+}
+
+type Rec = { id: string; state: string; stateReason: string | null; progress: number; durationS: number; hasRendition: boolean };
+const recording = async (id: string) => ((await (await http(`/api/recordings/${id}`, { cookie: builder.cookie })).json()) as { recording: Rec }).recording;
+const settled = (id: string, timeoutMs = 60_000) => waitFor(async () => ((r) => (r.state !== "processing" ? r : null))(await recording(id)), timeoutMs, 300);
+
+/** Frames and seconds that decode from a file, and whether ffmpeg's error check passes. */
+function decode(file: string): { frames: number; seconds: number; clean: boolean } {
+  let clean = true;
+  let out = "";
+  try {
+    out = execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", "-f", "null", "-"]).toString();
+  } catch (err) {
+    clean = false;
+    out = String((err as { stdout?: Buffer }).stdout ?? "");
+  }
+  const last = (key: string) => Number([...out.matchAll(new RegExp(`^${key}=(\\d+)`, "gm"))].pop()?.[1] ?? 0);
+  return { frames: last("frame"), seconds: last("out_time_us") / 1e6, clean };
+}
+
+/** ffmpeg/ffprobe processes whose command line names this recording's folder. */
+function ffmpegFor(recordingId: string): number[] {
+  const dir = recordingDir(recordingId) + path.sep;
+  return fs
+    .readdirSync("/proc")
+    .filter((p) => /^\d+$/.test(p))
+    .filter((pid) => {
+      try {
+        const argv = fs.readFileSync(`/proc/${pid}/cmdline`, "latin1").split("\0");
+        return /ff(mpeg|probe)$/.test(argv[0]) && argv.some((a) => a.startsWith(dir));
+      } catch {
+        return false;
+      }
+    })
+    .map(Number);
+}
+
+const control = (what: "kill" | "start") => fetch(`${process.env.WORKER_CONTROL_URL}/worker/${what}`, { method: "POST" });
+
+beforeAll(async () => {
+  builder = await createUser("builder");
+});
+
+describe("damaged video", () => {
+  it("marks the first 6,000 bytes of a faststart MP4 damaged with the reason, not ready; the original is kept", async () => {
+    const whole = path.join(work, "faststart.mp4");
+    ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    const head = fs.readFileSync(whole).subarray(0, 6000);
+    const id = await uploadBytes(head, "cut-short.mp4");
+    const rec = await settled(id);
+    expect(rec.state).toBe("damaged");
+    expect(rec.stateReason).toMatch(/^The video is damaged: /);
+    expect(rec.stateReason).toMatch(/of 0:03\.0/);
+    expect((await http(`/api/recordings/${id}/media`, { cookie: builder.cookie })).status).toBe(409);
+    const original = await http(`/api/recordings/${id}/original`, { cookie: builder.cookie });
+    expect(Buffer.from(await original.arrayBuffer()).equals(head)).toBe(true);
+    // The page says it in words.
+    const page = await (await http(`/recordings/${id}`, { cookie: builder.cookie })).text();
+    expect(page).toContain("The video is damaged");
+  });
+
+  it("still makes a whole video ready", async () => {
+    const whole = path.join(work, "whole.mp4");
+    ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    const rec = await settled(await uploadBytes(fs.readFileSync(whole), "whole.mp4"));
+    expect(rec).toMatchObject({ state: "ready", stateReason: null });
+  });
+});
+
+describe("worker killed during a transcode", () => {
+  it("kills the worker's ffmpeg with it; the retried job publishes a rendition that decodes in full and lasts as long as the source", async () => {
+    // MPEG-4 Part 2 in Matroska: not browser-safe, so it is transcoded to H.264 (long enough
+    // to be killed in the middle on this machine).
+    const src = path.join(work, "long-take.mkv");
+    ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=40:size=1280x720:rate=25", "-c:v", "mpeg4", "-q:v", "5", src]);
+    const source = decode(src);
+    expect(source).toMatchObject({ frames: 1000, clean: true });
+
+    const id = await uploadBytes(fs.readFileSync(src), "long-take.mkv");
+    // Transcoding: the progress passes the poster (0.2) and ffmpeg is at work on the rendition.
+    await waitFor(async () => (await recording(id)).progress > 0.3 && ffmpegFor(id).length > 0, 90_000, 200);
+    const before = ffmpegFor(id);
+    const killed = (await (await control("kill")).json()) as { killed: number[] };
+    expect(killed.killed.length).toBe(1);
+    // The kernel ends the orphaned ffmpeg with its parent (no new worker runs yet).
+    await waitFor(async () => ffmpegFor(id).length === 0, 5_000, 100);
+    const leftTemps = fs.readdirSync(recordingDir(id)).filter((f) => f.includes(".tmp"));
+
+    expect((await control("start")).status).toBe(200);
+    const rec = await settled(id, 180_000);
+    expect(rec).toMatchObject({ state: "ready", hasRendition: true });
+    expect(fs.readdirSync(recordingDir(id)).filter((f) => f.includes(".tmp"))).toEqual([]);
+
+    const media = await http(`/api/recordings/${id}/media`, { cookie: builder.cookie });
+    const out = path.join(work, "published.mp4");
+    fs.writeFileSync(out, Buffer.from(await media.arrayBuffer()));
+    const published = decode(out);
+    console.log(
+      `[worker kill] ffmpeg at kill: ${before.join(",")}; temp files left by the killed attempt: ${leftTemps.length}; ` +
+        `source ${source.frames} frames / ${source.seconds.toFixed(2)} s; published rendition ${published.frames} frames / ${published.seconds.toFixed(2)} s, clean decode: ${published.clean}`,
+    );
+    expect(published.clean).toBe(true);
+    expect(published.frames).toBe(source.frames);
+    expect(Math.abs(published.seconds - source.seconds)).toBeLessThan(0.1);
+  }, 300_000);
+});
