@@ -22,6 +22,7 @@
  * - Responses that set a cookie, and requests that carry a flash message, are never cached.
  *   `Cache-Control: no-cache` on the request (a hard reload) renders anew.
  */
+import { withRequestNonce } from "./csp.server";
 import { CONTENT_CHANNEL, listening, onListenerReset, onNotify } from "./notify.server";
 
 type Entry = { body: Uint8Array<ArrayBuffer>; status: number; headers: [string, string][] };
@@ -137,7 +138,9 @@ export function cachedPage(userId: string, request: Request): Response | null {
   if (!hit) return null;
   const headers = new Headers(hit.headers);
   headers.set("X-Page-Cache", "hit");
-  return new Response(hit.body, { status: hit.status, headers });
+  // The stored page carries the CSP nonce of the response it was stored from; this response
+  // gets its own, swapped in the bytes held here (app/lib/csp.server.ts).
+  return new Response(withRequestNonce(request, hit.body, headers), { status: hit.status, headers });
 }
 
 /** Call before rendering: the generation the render will be stored under. */

@@ -85,6 +85,7 @@ test("a script injected into a page is refused, and each response has its own no
   expect(again!.headers()["x-page-cache"]).toBe("hit");
   const nonce2 = nonceOf(again!.headers()["content-security-policy"])!;
   expect(nonce2).not.toBe(nonce);
+  expect(again!.headers()["content-security-policy"].split(`'nonce-${nonce2}'`)).toHaveLength(3); // scripts and styles
   const scriptNonces2 = await page.locator("script[nonce]").evaluateAll((els) => els.map((e) => (e as HTMLScriptElement).nonce));
   expect(new Set(scriptNonces2)).toEqual(new Set([nonce2]));
   const toggle = page.getByTestId("watch-toggle");
@@ -104,6 +105,17 @@ test("static files and API answers carry the strict static policy", async ({ req
     expect(policy, path).toContain("frame-ancestors 'none'");
     expect(policy, path).not.toContain("nonce-");
   }
+});
+
+test("a video or an image opened on its own still shows under the static policy", async ({ page }) => {
+  const watch = await watchViolations(page);
+  await signIn(page, "jamie@larkspur.example");
+  const res = await page.goto(`/api/recordings/${DEMO_RECORDING}/media`);
+  expect(res!.headers()["content-security-policy"]).toContain("default-src 'none'");
+  await expect.poll(() => page.locator("video").evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 15_000 }).toBeGreaterThanOrEqual(1);
+  await page.goto("/favicon.svg");
+  await expect(page.locator("svg")).toBeVisible();
+  expect(watch.console).toEqual([]);
 });
 
 test("every screen works under the policy: player, editor, charts, search, admin — nothing refused", async ({ browser }) => {
