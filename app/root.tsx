@@ -68,7 +68,9 @@ const MESSAGES: Record<number, { title: string; body: string }> = {
   401: { title: "Please sign in", body: "This page is for the shop's staff. Sign in to continue." },
   403: { title: "Not for your role", body: "Your account cannot open or change this. Ask an admin if you need it." },
   404: { title: "Nothing at this address", body: "The page may have moved, or the link is mistyped." },
+  400: { title: "Not understood", body: "Part of that request could not be read." },
   413: { title: "Too large", body: "That request was larger than the shop allows." },
+  415: { title: "Not a form", body: "That was not sent as a form, the way a browser sends one." },
   503: { title: "Database unavailable", body: "The shop database is not answering. Try again in a minute; if it persists, tell the admin." },
 };
 

@@ -3,6 +3,7 @@ import securityHeaders from "./security-headers.json";
 import { forgetValidatedSessions, getUser, refreshedCookie } from "./auth.server";
 import { beginRender, cachedPage, forgetPerson, isCacheablePage, rememberPage } from "./page-cache.server";
 import { requestStore } from "./request-store.server";
+import { declaredSizeRefusal, settleBody, urlRefusal } from "./edge.server";
 
 // One list for both places that send it: this middleware (every React Router response) and
 // server.js (every response, static files and their 404s included).
@@ -47,11 +48,20 @@ function withHeaders(res: Response, extra: Record<string, string>, cookie: strin
   }
 }
 
-/** Root middleware: CSRF refusal, security headers, and lucia's session extension. */
+/**
+ * Root middleware: CSRF refusal, the edge's refusals that need no route (a declared body above
+ * the route's limit, before anything reads it; a NUL in the address), security headers, and
+ * lucia's session extension.
+ */
 export async function securityMiddleware({ request }: { request: Request }, next: () => Promise<Response>) {
   const refused = csrfRefusal(request);
   if (refused) return withHeaders(refused, SECURITY_HEADERS, null);
-  return requestStore.run(new Map(), () => inRequest(request, next));
+  const bad = (await declaredSizeRefusal(request)) ?? urlRefusal(request);
+  if (bad instanceof Response) return withHeaders(bad, SECURITY_HEADERS, null);
+  // A page's refusal is thrown, so that the root ErrorBoundary shows it with its reason.
+  if (bad) throw bad;
+  const res = await requestStore.run(new Map(), () => inRequest(request, next));
+  return settleBody(request, res);
 }
 
 async function inRequest(request: Request, next: () => Promise<Response>) {

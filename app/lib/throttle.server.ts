@@ -37,6 +37,8 @@ export type Refusal = { scope: "pair" | "client" | "account"; retryAfterSec: num
 
 type Count = { count: number; retryAfterSec: number };
 
+let cleanupStarted = false;
+
 /** One named counter in rate_limits (its keys are prefixed with the name). */
 class Counter {
   #limiter: RateLimiterDrizzle | undefined;
@@ -53,7 +55,10 @@ class Counter {
       keyPrefix: this.name,
       points: this.max,
       duration: this.windowSec,
+      // The library's clean-up deletes expired rows of the whole table: one timer is enough.
+      clearExpiredByTimeout: !cleanupStarted,
     });
+    cleanupStarted = true;
     return this.#limiter;
   }
 
@@ -206,7 +211,7 @@ export function passwordRefusalMessage(r: Refusal): string {
 export function resetRefusalMessage(r: Refusal): string {
   const wait = `Try again in ${waitText(r.retryAfterSec)}.`;
   if (r.scope === "client") return `Too many reset requests from this computer. ${wait}`;
-  return `Enough reset links have been sent to this address for now; use the latest one. ${wait}`;
+  return `Enough reset links have been asked for this address for now; if it has an account, use the latest link sent to it. ${wait}`;
 }
 
 /**

@@ -1,6 +1,7 @@
 import { data, Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/account";
+import { readForm } from "~/lib/edge.server";
 import { Field, FormError, SelectField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { getSession, requirePermission } from "~/lib/auth.server";
@@ -31,7 +32,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requirePermission(request, "account:edit-own");
-  const form = await request.formData();
+  const form = await readForm(request);
   if (form.get("intent") === "password") {
     const parsed = parseForm(passwordSchema, form);
     if (!parsed.ok) return data({ intent: "password", errors: parsed.errors }, { status: 400 });

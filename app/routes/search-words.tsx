@@ -1,6 +1,7 @@
 import { data, Form, Link, useNavigation, type ShouldRevalidateFunction } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/search-words";
+import { readForm } from "~/lib/edge.server";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
@@ -18,7 +19,7 @@ export const shouldRevalidate: ShouldRevalidateFunction = ({ formMethod, default
 
 const wordsField = z.string().trim().min(1, "Type the words or phrases that mean the same, separated by commas.").max(600, "Keep the group under 600 characters.");
 const addSchema = z.object({ intent: z.literal("add"), words: wordsField });
-const changeSchema = z.object({ intent: z.literal("change"), id: z.string().uuid(), loadedAt: z.coerce.number().int(), words: wordsField });
+const changeSchema = z.object({ intent: z.literal("change"), id: z.string().uuid(), loadedAt: z.coerce.number().int().min(0).max(8.64e15), words: wordsField });
 const removeSchema = z.object({ intent: z.literal("remove"), id: z.string().uuid() });
 
 type Failure = {
@@ -38,7 +39,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requirePermission(request, "search:words:edit");
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
   const fail = (f: Failure, status = 400) => data(f, { status });
   try {

@@ -394,7 +394,7 @@ describe("reset mail limits", () => {
     for (let i = 0; i < RESET_LIMITS.account.max; i++) expect((await httpFrom(from, "/reset", { form: { email: u.email } })).status).toBe(200);
     const refused = await httpFrom(newClientAddress(), "/reset", { form: { email: u.email } }); // another computer too
     expect(refused.status).toBe(429);
-    expect(await refused.text()).toContain("Enough reset links have been sent to this address for now");
+    expect(await refused.text()).toContain("Enough reset links have been asked for this address for now");
     const mails = await waitFor(async () => {
       const m = (await mailbox()).filter((x) => x.to.includes(u.email) && x.subject.includes("Reset"));
       return m.length >= RESET_LIMITS.account.max ? m : null;

@@ -2,7 +2,7 @@
  * Unit choices and number formatting for the calculator pages. Conversions go through
  * `convert` of app/lib/calc (the contract's factors); nothing here does arithmetic of its own.
  */
-import { convert, unitLabel, type UnitCode } from "~/lib/calc";
+import { convert, isUnitCode, unitLabel, type UnitCode } from "~/lib/calc";
 
 export type UnitSystem = "metric" | "inch";
 
@@ -86,3 +86,12 @@ export function parseNumber(raw: string | undefined | null): number | undefined 
 }
 
 export { unitLabel };
+
+/**
+ * A unit field of a submitted form as a unit code: the form comes back to the page as sent, and
+ * a value that is no unit code (a hand-made request) shows in the default unit instead of
+ * failing the render.
+ */
+export function unitOr(v: string | undefined, fallback: UnitCode): UnitCode {
+  return isUnitCode(v) ? v : fallback;
+}

@@ -5,6 +5,7 @@
  * are stripped, and the custom blocks' attributes are type-checked. Pure (no DOM, no DB).
  */
 import { UNIT_CODES, unitKind, type UnitKind } from "~/lib/calc";
+import { quantityProblem } from "~/lib/edge";
 import { CALC_KINDS, checkCalculatorPreset, type CalcKind } from "./calc-presets";
 import { calcLabel, presetText } from "./calc-shared";
 import { formatSeconds } from "./format";
@@ -184,6 +185,11 @@ const NODES: Record<string, NodeRule> = {
       }
       if (a.nominal == null && a.min == null && a.max == null) {
         ctx.errors.push({ path, message: `spec “${a.label || "(no label)"}” needs a nominal value or a limit` });
+      }
+      // Values a gauge can read (app/lib/edge.ts): a nominal of 1e308 is a slip, not a spec.
+      for (const k of ["nominal", "min", "max"] as const) {
+        const problem = typeof a[k] === "number" && typeof a.unit === "string" && unitKind(a.unit) ? quantityProblem(a[k] as number, a.unit) : null;
+        if (problem) ctx.errors.push({ path: `${path}.${k}`, message: `spec “${a.label}”: ${k}: ${problem}` });
       }
       if (typeof a.min === "number" && typeof a.max === "number" && a.min > a.max) {
         ctx.errors.push({ path, message: `spec “${a.label}”: min is above max` });

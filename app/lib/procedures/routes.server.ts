@@ -3,10 +3,12 @@ import { data, redirect } from "react-router";
 import type { SessionUser } from "~/lib/auth.server";
 import { forbidden } from "~/lib/auth.server";
 import { canOnOwned } from "~/lib/permissions";
+import { positiveIntParam, slug as slugSchema } from "~/lib/edge";
 import { DocumentInvalid, findBySlug, ProcedureError, revisionByNumber, type Procedure, type Revision } from "./workflow.server";
 
 /** The procedure at :slug; an old slug redirects (301) to the same sub-page under the new one. */
 export async function procedureOr404(request: Request, slug: string): Promise<Procedure> {
+  if (!slugSchema.safeParse(slug).success) throw data({ message: "There is no procedure at this address." }, { status: 404 });
   const found = await findBySlug(slug);
   if (!found) throw data({ message: "There is no procedure at this address." }, { status: 404 });
   if ("movedTo" in found) {
@@ -24,8 +26,10 @@ export function canSeeRevision(user: SessionUser, rev: Pick<Revision, "state" | 
 }
 
 export async function revisionOr404(request: Request, user: SessionUser, procedure: Procedure, numberParam: string | undefined): Promise<Revision> {
-  const n = Number(numberParam);
-  if (!Number.isInteger(n) || n < 1) throw data({ message: "No such revision." }, { status: 404 });
+  // Digits within PostgreSQL's integer only: 2³¹ and up cannot name a revision (and made the query fail).
+  const parsed = positiveIntParam.safeParse(numberParam);
+  if (!parsed.success) throw data({ message: "No such revision." }, { status: 404 });
+  const n = parsed.data;
   const rev = await revisionByNumber(procedure.id, n);
   if (!rev) throw data({ message: `Revision ${n} does not exist.` }, { status: 404 });
   if (!canSeeRevision(user, rev)) forbidden(request, "Drafts are open to their author and the editors.");

@@ -5,6 +5,7 @@
  */
 import { z } from "zod";
 import { UNIT_CODES, toSI, unitLabel, isUnitCode, type UnitCode, type UnitKind } from "~/lib/calc";
+import { quantityProblem } from "~/lib/edge";
 
 export type QuantityId =
   | "torque"
@@ -79,7 +80,9 @@ export function splitTags(s: string | null | undefined): string[] {
     .filter(Boolean);
 }
 
-const seconds = z.number({ error: "Enter a time in seconds." }).finite("Enter a time in seconds.");
+/** No video is longer than this (about 11 days); a larger time is a typing slip. */
+const MAX_SECONDS = 1e6;
+const seconds = z.number({ error: "Enter a time in seconds." }).finite("Enter a time in seconds.").max(MAX_SECONDS, "That is later than any video runs.");
 
 export function markInputSchema(durationS: number | null) {
   return z
@@ -156,6 +159,10 @@ export function readingInputSchema(durationS: number | null) {
         ctx.addIssue({ code: "custom", path: ["value"], message: "This measurement cannot be negative." });
       if (r.quantity === "temperature" && allowed.includes(r.unit) && toStoredSI(r.quantity, r.value, r.unit) <= 0)
         ctx.addIssue({ code: "custom", path: ["value"], message: "That is below absolute zero." });
+      // What a gauge can read, in SI (app/lib/edge.ts): 1e308 lbf is a slip, and its SI value is Infinity.
+      const outOfRange = (r.quantity === "other" || allowed.includes(r.unit)) && r.quantity !== "leak-down" ? quantityProblem(r.value, r.unit) : null;
+      if (outOfRange && !(r.quantity === "temperature" && toStoredSI(r.quantity, r.value, r.unit) <= 0))
+        ctx.addIssue({ code: "custom", path: ["value"], message: outOfRange });
       if (r.t != null && durationS != null && r.t > durationS + 0.001)
         ctx.addIssue({ code: "custom", path: ["t"], message: `The video is only ${formatTime(durationS)} long.` });
     });

@@ -5,10 +5,14 @@
  */
 import { z } from "zod";
 import { unitKind } from "~/lib/calc";
+import { isRealDate, isUuid, quantityProblem } from "~/lib/edge";
 import type { FieldErrors } from "~/lib/forms";
 import { readingVerdict, VerdictInputError, type SpecLimits } from "./verdict";
 
 export type TypedReading = { value: number; unit: string; note: string; sourceReadingId: string | null };
+
+/** No engine was bench-tested before this; an earlier date is a typing slip. */
+export const EARLIEST_TEST_DATE = "1900-01-01";
 
 export const WORK_ORDER_PATTERN = /^[A-Z]{2,5}-\d{2}-\d{3,5}$/;
 
@@ -26,7 +30,10 @@ export const headerSchema = z
       .string()
       .trim()
       .regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Enter the date of the test." })
-      .refine((s) => !Number.isNaN(Date.parse(s)) && Date.parse(s) <= Date.now() + 36 * 3600 * 1000, { message: "The test date cannot be in the future." }),
+      // A day that exists (2024-02-30 does not; PostgreSQL refused it with a 500), in the shop's era.
+      .refine(isRealDate, { message: "That day does not exist in the calendar." })
+      .refine((s) => s >= EARLIEST_TEST_DATE, { message: `Enter a test date from ${EARLIEST_TEST_DATE} on.` })
+      .refine((s) => Date.parse(s) <= Date.now() + 36 * 3600 * 1000, { message: "The test date cannot be in the future." }),
     engineSerial: z.string().trim().max(80, { message: "At most 80 characters." }).default(""),
     notes: z.string().trim().max(5000, { message: "At most 5000 characters." }).default(""),
     recordingStartS: optionalSeconds,
@@ -92,6 +99,15 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
       errors[`${base}.unit`] = "Choose a unit.";
       continue;
     }
+    const outOfRange = quantityProblem(value, unit);
+    if (outOfRange) {
+      errors[`${base}.value`] = outOfRange;
+      continue;
+    }
+    if (src !== "" && !isUuid(src)) {
+      errors[`${base}.value`] = "That recording reading does not exist: pull the reading in again from the recording.";
+      continue;
+    }
     try {
       readingVerdict(spec, { value, unit });
     } catch (err) {
@@ -101,7 +117,7 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
       }
       throw err;
     }
-    (readings[specId] ??= []).push({ value, unit, note, sourceReadingId: /^[0-9a-f-]{36}$/.test(src) ? src : null });
+    (readings[specId] ??= []).push({ value, unit, note, sourceReadingId: src === "" ? null : src });
     count++;
   }
   return { readings, errors, count };

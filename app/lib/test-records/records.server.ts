@@ -20,6 +20,7 @@ import {
 import { audit } from "~/lib/audit.server";
 import { db, type DbOrTx } from "~/lib/db.server";
 import { toSI, type UnitCode } from "~/lib/calc";
+import { isRealDate } from "~/lib/edge";
 import type { TypedReading } from "./form";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
 import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
@@ -107,6 +108,17 @@ function rowsFor(recordId: string, version: number, specs: SpecRow[], typed: Rec
 }
 
 /**
+ * A reading pulled in from a recording must still exist: the id comes from the form, and an
+ * unknown one would otherwise fail the insert on its foreign key (a 500, not a reason).
+ */
+async function assertSourceReadings(tx: DbOrTx, typed: Record<string, TypedReading[]>) {
+  const ids = [...new Set(Object.values(typed).flat().map((r) => r.sourceReadingId).filter((id): id is string => id != null))];
+  if (!ids.length) return;
+  const found = await tx.select({ id: recordingReadings.id }).from(recordingReadings).where(inArray(recordingReadings.id, ids));
+  if (found.length < ids.length) throw new TestRecordError("That recording reading does not exist (any more): pull the reading in again from the recording.", 400, "readings");
+}
+
+/**
  * Files a record. The revision is the one published when the transaction runs; if another
  * revision was published since the form was opened, the inspector is told and nothing is lost.
  */
@@ -149,6 +161,7 @@ export async function createTestRecord(actor: Actor, input: NewRecordInput): Pro
         createdBy: actor.id,
       })
       .returning({ id: testRecords.id });
+    await assertSourceReadings(tx, input.readings);
     await tx.insert(testRecordReadings).values(rowsFor(rec.id, 0, specs, input.readings));
     await audit(tx, actor.id, "create", "test_record", rec.id, {
       workOrder: input.workOrder,
@@ -194,6 +207,7 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
     const version = rec.currentVersion + 1;
     const readingsChanged = changes.some((c) => c.kind === "spec");
     if (readingsChanged) {
+      await assertSourceReadings(tx, input.readings);
       await tx.insert(testRecordReadings).values(rowsFor(rec.id, version, specs, input.readings));
     } else {
       // Same readings: carry the set over unchanged so each version is complete on its own.
@@ -300,7 +314,8 @@ export type ListFilters = { procedure?: string | null; verdict?: string | null; 
 
 export function filtersFrom(url: URL): ListFilters {
   const g = (k: string) => url.searchParams.get(k)?.trim() || null;
-  const date = (s: string | null) => (s && /^\d{4}-\d{2}-\d{2}$/.test(s) && !Number.isNaN(Date.parse(s)) ? s : null);
+  // A filter that cannot be a day (2024-02-30: JavaScript rolls it over, PostgreSQL refuses it) is no filter.
+  const date = (s: string | null) => (s && isRealDate(s) ? s : null);
   const verdict = g("verdict");
   return { procedure: g("procedure"), verdict: verdict === "within" || verdict === "out" ? verdict : null, workOrder: g("workOrder")?.slice(0, 40) ?? null, from: date(g("from")), to: date(g("to")) };
 }

@@ -2,6 +2,7 @@ import { desc, isNull } from "drizzle-orm";
 import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/people";
+import { readForm } from "~/lib/edge.server";
 import { Field, FormError, SelectField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { invitations, users } from "~/db/schema";
@@ -37,7 +38,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requirePermission(request, "user:manage");
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = form.get("intent");
   try {
     if (intent === "invite") {

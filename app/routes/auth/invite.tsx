@@ -1,6 +1,7 @@
 import { data, Form, Link, redirect } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/invite";
+import { readForm } from "~/lib/edge.server";
 import { AuthCard } from "~/components/AuthCard";
 import { Field, FormError } from "~/components/forms";
 import { startSession } from "~/lib/auth.server";
@@ -28,7 +29,7 @@ export async function loader({ params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const parsed = parseForm(schema, await request.formData());
+  const parsed = parseForm(schema, await readForm(request));
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   try {
     const userId = await acceptInvitation(params.token, parsed.data.name, parsed.data.password);

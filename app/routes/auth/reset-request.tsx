@@ -1,6 +1,7 @@
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/reset-request";
+import { readForm } from "~/lib/edge.server";
 import { AuthCard } from "~/components/AuthCard";
 import { Field, FormError } from "~/components/forms";
 import { parseForm } from "~/lib/forms";
@@ -19,7 +20,7 @@ export async function loader() {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const parsed = parseForm(schema, await request.formData());
+  const parsed = parseForm(schema, await readForm(request));
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values, sent: false }, { status: 400 });
   const refused = await requestPasswordReset(parsed.data.email, clientAddress(request));
   if (refused) {

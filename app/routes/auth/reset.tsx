@@ -1,6 +1,7 @@
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/reset";
+import { readForm } from "~/lib/edge.server";
 import { AuthCard } from "~/components/AuthCard";
 import { Field, FormError } from "~/components/forms";
 import { redirectWithFlash } from "~/lib/flash.server";
@@ -22,7 +23,7 @@ export async function loader({ params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const parsed = parseForm(schema, await request.formData());
+  const parsed = parseForm(schema, await readForm(request));
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
   try {
     await resetPassword(params.token, parsed.data.password);

@@ -1,6 +1,7 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/signin";
+import { readForm } from "~/lib/edge.server";
 import { AuthCard } from "~/components/AuthCard";
 import { Field, FormError } from "~/components/forms";
 import { getUser, signIn } from "~/lib/auth.server";
@@ -32,7 +33,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const parsed = parseForm(schema, await request.formData());
+  const parsed = parseForm(schema, await readForm(request));
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   const result = await signIn(request, parsed.data.email, parsed.data.password);
   if (result.ok) throw redirect(safeNext(request, parsed.data.next), { headers: { "Set-Cookie": result.cookie } });

@@ -1,5 +1,6 @@
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/clearance";
+import { readForm } from "~/lib/edge.server";
 import { ClearanceChart, type Marker } from "~/components/calc/ClearanceChart";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Figure, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { NoResult, ResultPanel, ResultPeek } from "~/components/calc/ResultPanel";
@@ -9,7 +10,7 @@ import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_BAND_FACTOR, RING_GAP_FACTORS, 
 import { requirePermission } from "~/lib/auth.server";
 import { BORE_MATERIALS, CLEARANCE_KINDS, PISTON_MATERIALS, clearanceDefaults, runClearanceForm, type ClearanceKind } from "~/lib/calc-ui/clearance-form";
 import { formValues, type FormValues, type Outcome } from "~/lib/calc-ui/outcome";
-import { formatIn, formatNumber, formatQ } from "~/lib/calc-ui/units";
+import { formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Clearances · Calculators · Benchreel" }];
 
@@ -20,7 +21,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   await requirePermission(request, "calc:use");
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   const outcome = runClearanceForm(values);
   return data({ values, outcome }, { status: outcome.result ? 200 : 400 });
 }
@@ -154,7 +155,7 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
           {!hydrated && <button type="submit" className="btn btn-primary justify-self-start">Calculate</button>}
           {hydrated && outcome.result && (() => {
             const r = outcome.result as ClearanceResult;
-            const su = (values["out.small"] ?? "mm") as UnitCode;
+            const su = unitOr(values["out.small"], "mm");
             const out = r.verdict === "below" || r.verdict === "above";
             return (
               <ResultPeek
@@ -199,7 +200,7 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
 
 function ClearanceResultView({ outcome, values, set }: { outcome: ClearanceOutcome; values: FormValues; set: SetValue }) {
   const r = outcome.result;
-  const su = (values["out.small"] ?? "mm") as UnitCode;
+  const su = unitOr(values["out.small"], "mm");
   const unitSel = <UnitSelect name="out.small" kind="length" values={values} set={set} label="Show clearances in" />;
   if (!r)
     return (

@@ -1,5 +1,6 @@
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/distortion";
+import { readForm } from "~/lib/edge.server";
 import { BorePolar, BoreProfile, exaggerationFor, type LevelDots } from "~/components/calc/BoreCharts";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { NoResult, ResultPeek } from "~/components/calc/ResultPanel";
@@ -9,7 +10,7 @@ import { TWO_POINT_GAUGE_NOTE, toSI, unitLabel, type BoreLevel, type BoreStateRe
 import { requirePermission } from "~/lib/auth.server";
 import { DEFAULT_ANGLES, distortionDefaults, profileShape, runDistortionForm, type DistortionOutcome } from "~/lib/calc-ui/distortion-form";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
-import { formatIn, formatNumber, formatQ } from "~/lib/calc-ui/units";
+import { formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Bore distortion · Calculators · Benchreel" }];
 
@@ -20,7 +21,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   await requirePermission(request, "calc:use");
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   const outcome = runDistortionForm(values);
   return data({ values, outcome }, { status: outcome.result ? 200 : 400 });
 }
@@ -87,8 +88,8 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
             {hydrated && outcome.result && outcome.result.levels.length > 0 && (
               <ResultPeek
                 items={[
-                  ["Worst out-of-round", formatQ(Math.max(...outcome.result.levels.map((l) => l.outOfRound_mm)), "mm", (values["out.small"] ?? "um") as UnitCode)],
-                  ["Taper", formatQ(outcome.result.taper_mm, "mm", (values["out.small"] ?? "um") as UnitCode)],
+                  ["Worst out-of-round", formatQ(Math.max(...outcome.result.levels.map((l) => l.outOfRound_mm)), "mm", unitOr(values["out.small"], "um"))],
+                  ["Taper", formatQ(outcome.result.taper_mm, "mm", unitOr(values["out.small"], "um"))],
                 ]}
               />
             )}
@@ -142,8 +143,8 @@ function ReadingGrid({
   radial: boolean;
 }) {
   const { depths, angles, errors } = outcome;
-  const unit = unitLabel((values["reading.unit"] ?? "mm") as UnitCode);
-  const depthUnit = unitLabel((values["depth.unit"] ?? "mm") as UnitCode);
+  const unit = unitLabel(unitOr(values["reading.unit"], "mm"));
+  const depthUnit = unitLabel(unitOr(values["depth.unit"], "mm"));
   return (
     <Fieldset legend={legend}>
       <TextField name={labelName} label="Name of this state" numeric={false} values={values} set={set} errors={errors} className="max-w-sm" />
@@ -234,8 +235,8 @@ type Reading = { depth: { value: number; unit: string }; angleDeg: number; diame
 
 function DistortionResultView({ outcome, values, set }: { outcome: DistortionOutcome; values: FormValues; set: SetValue }) {
   const r = outcome.result;
-  const su = (values["out.small"] ?? "um") as UnitCode;
-  const lu = (values["out.length"] ?? "mm") as UnitCode;
+  const su = unitOr(values["out.small"], "um");
+  const lu = unitOr(values["out.length"], "mm");
   const mainLabel = values["label.main"]?.trim() || "Measured";
   const compareLabel = values["label.compare"]?.trim() || "Compared";
   const units = (

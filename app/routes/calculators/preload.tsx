@@ -1,5 +1,6 @@
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/preload";
+import { readForm } from "~/lib/edge.server";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Figure, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { PreloadChart } from "~/components/calc/PreloadChart";
 import { FigureTable, NoResult, ResultPanel, ResultPeek } from "~/components/calc/ResultPanel";
@@ -11,7 +12,7 @@ import { can } from "~/lib/permissions";
 import { SaveAsReadings } from "~/components/calc/SaveAsReadings";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
 import { DEFAULT_MODULUS_GPA, UNIFIED_STRESS_AREA_NOTE, d3Label, preloadDefaults, runPreloadForm, type PreloadOutcome } from "~/lib/calc-ui/preload-form";
-import { formatIn, formatNumber, formatQ } from "~/lib/calc-ui/units";
+import { formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Preload · Calculators · Benchreel" }];
 
@@ -23,7 +24,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 /** Without JavaScript the form posts here: computed with the same module, typed values kept. */
 export async function action({ request }: Route.ActionArgs) {
   await requirePermission(request, "calc:use");
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   const outcome = runPreloadForm(values);
   return data({ values, outcome }, { status: outcome.result ? 200 : 400 });
 }
@@ -186,8 +187,8 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
               bad={(outcome.result.percentOfYield ?? 0) > 90}
               note={(outcome.result.percentOfYield ?? 0) > 90 ? "past 90 % of yield" : undefined}
               items={[
-                ["Clamp load", formatQ(outcome.result.preload_N, "N", (values["out.force"] ?? "kN") as UnitCode)],
-                ["Torque", formatQ(outcome.result.torque_Nm, "N.m", (values["out.torque"] ?? "N.m") as UnitCode)],
+                ["Clamp load", formatQ(outcome.result.preload_N, "N", unitOr(values["out.force"], "kN"))],
+                ["Torque", formatQ(outcome.result.torque_Nm, "N.m", unitOr(values["out.torque"], "N.m"))],
                 ...(outcome.result.percentOfYield !== undefined ? [["Of yield", `${formatNumber(outcome.result.percentOfYield, 1)} %`] as [string, string]] : []),
               ]}
             />
@@ -230,10 +231,10 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
 
 function PreloadResultView({ outcome, values, set, canSaveReadings }: { outcome: PreloadOutcome; values: FormValues; set: SetValue; canSaveReadings: boolean }) {
   const r = outcome.result;
-  const fu = (values["out.force"] ?? "kN") as UnitCode;
-  const tu = (values["out.torque"] ?? "N.m") as UnitCode;
-  const su = (values["out.stress"] ?? "MPa") as UnitCode;
-  const lu = (values["out.length"] ?? "mm") as UnitCode;
+  const fu = unitOr(values["out.force"], "kN");
+  const tu = unitOr(values["out.torque"], "N.m");
+  const su = unitOr(values["out.stress"], "MPa");
+  const lu = unitOr(values["out.length"], "mm");
   if (!r)
     return (
       <ResultPanel>

@@ -1,5 +1,8 @@
 import { Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/index";
+import { z } from "zod";
+import { optionalParam } from "~/lib/edge";
+import { parseSearch } from "~/lib/edge.server";
 import { EmptyState, PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
 import { can } from "~/lib/permissions";
@@ -10,9 +13,11 @@ import { formatDay } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Procedures · Benchreel" }];
 
+const tagSearch = z.object({ tag: optionalParam(200) });
+
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const tag = new URL(request.url).searchParams.get("tag")?.trim().toLowerCase() || null;
+  const tag = parseSearch(request, tagSearch).tag?.trim().toLowerCase() || null;
   const [rows, tags, open] = await Promise.all([
     listPublished(tag),
     allTags(),

@@ -1,6 +1,7 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/new";
+import { readForm } from "~/lib/edge.server";
 import { Field, FormError, SelectField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
@@ -27,7 +28,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requirePermission(request, "procedure:draft");
-  const parsed = parseForm(schema, await request.formData());
+  const parsed = parseForm(schema, await readForm(request));
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   try {
     const { procedure, revision } = await createProcedure(user, { ...parsed.data, tags: normalizeTags(parsed.data.tags), doc: starterDocument() });

@@ -1,5 +1,6 @@
 import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/read";
+import { readForm } from "~/lib/edge.server";
 import "~/components/procedures/procedures.css";
 import { PageHeader } from "~/components/page";
 import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
@@ -73,7 +74,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "shop:read");
   const procedure = await procedureOr404(request, params.slug);
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = form.get("intent");
   if (intent === "watch" || intent === "unwatch") {
     assertCan(request, user, "procedure:watch");

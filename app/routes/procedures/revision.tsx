@@ -1,6 +1,8 @@
 import { eq } from "drizzle-orm";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/revision";
+import { readForm } from "~/lib/edge.server";
+import { nulErrors } from "~/lib/forms";
 import "~/components/procedures/procedures.css";
 import { FormError } from "~/components/forms";
 import { RevisionArticle } from "~/components/procedures/RevisionView";
@@ -44,8 +46,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "shop:read");
   const procedure = await procedureOr404(request, params.slug);
   const rev = await revisionOr404(request, user, procedure, params.number);
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
+  const nul = nulErrors(form);
+  if (Object.keys(nul).length) return data({ intent, errors: nul }, { status: 400 });
   const here = `/procedures/${procedure.slug}/r/${rev.number}`;
   try {
     switch (intent) {

@@ -4,6 +4,8 @@ import { EmptyState, PageHeader } from "~/components/page";
 import { Poster } from "~/components/recordings/Poster";
 import { StateBadge } from "~/components/recordings/StateBadge";
 import { requirePermission } from "~/lib/auth.server";
+import { librarySearch } from "~/lib/edge";
+import { parseSearch } from "~/lib/edge.server";
 import { can } from "~/lib/permissions";
 import { libraryFacets, listRecordings } from "~/lib/recordings/library.server";
 import { formatDuration } from "~/lib/recordings/rules";
@@ -13,12 +15,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Recordings · Benchreel
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const u = new URL(request.url);
-  const filter = {
-    tag: u.searchParams.get("tag") || null,
-    uploader: u.searchParams.get("uploader") || null,
-    sort: (u.searchParams.get("sort") === "oldest" ? "oldest" : "newest") as "newest" | "oldest",
-  };
+  const s = parseSearch(request, librarySearch);
+  const filter = { tag: s.tag ?? null, uploader: s.uploader ?? null, sort: s.sort ?? "newest" };
   const [rows, facets] = await Promise.all([listRecordings(filter), libraryFacets()]);
   return { rows, facets, filter, canUpload: can(user.role, "recording:upload") };
 }

@@ -2,6 +2,7 @@ import { useCallback, useState } from "react";
 import { and, eq, isNull } from "drizzle-orm";
 import { Link, useFetcher, useRevalidator } from "react-router";
 import type { Route } from "./+types/upload";
+import { readForm } from "~/lib/edge.server";
 import { PageHeader } from "~/components/page";
 import { UploadQueue } from "~/components/recordings/UploadQueue";
 import { uploads } from "~/db/schema";
@@ -23,7 +24,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requirePermission(request, "recording:upload");
-  const form = await request.formData();
+  const form = await readForm(request);
   const id = String(form.get("uploadId") ?? "");
   if (form.get("intent") !== "discard" || !id) return { error: "Unknown action." };
   const [row] = await db().select().from(uploads).where(and(eq(uploads.id, id), isNull(uploads.recordingId)));

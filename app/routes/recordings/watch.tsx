@@ -3,6 +3,8 @@ import { lazy, Suspense, useCallback, useEffect, useMemo, useRef, useState } fro
 import { data, Form, Link, useNavigation, useRevalidator, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/watch";
+import { parseParams, readForm } from "~/lib/edge.server";
+import { idParams } from "~/lib/edge";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { MarksPanel, useOptimisticMarks, type MarksPanelHandle } from "~/components/recordings/MarksPanel";
@@ -33,7 +35,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.recordi
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const recording = await getRecording(params.id);
+  const recording = await getRecording(parseParams(request, idParams, params, "recording").id);
   if (!recording) notFound(request);
   const [marks, readings, procedures] = await Promise.all([marksFor(user, recording.id), listReadings(recording.id), procedureChoicesFor(user)]);
   return {
@@ -62,9 +64,9 @@ const detailsSchema = z.object({
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "recording:edit:own");
-  const rec = await getRecording(params.id);
+  const rec = await getRecording(parseParams(request, idParams, params, "recording").id);
   if (!rec) notFound(request);
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = form.get("intent");
   if (intent === "retry") {
     if (!can(user.role, "recording:retry")) forbidden(request, "Only editors and admins can retry processing.");

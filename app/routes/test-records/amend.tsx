@@ -1,5 +1,7 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/amend";
+import { parseParams, readForm } from "~/lib/edge.server";
+import { idParams } from "~/lib/edge";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { VerdictBadge } from "~/components/test-records/parts";
@@ -21,7 +23,7 @@ async function recordOr404(id: string) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "testrecord:amend");
-  const view = await recordOr404(params.id);
+  const view = await recordOr404(parseParams(request, idParams, params, "test record").id);
   const values: Record<string, string> = {};
   for (const r of view.readings) {
     values[`r.${r.specId}.${r.position}.value`] = String(r.valueEntered);
@@ -41,8 +43,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "testrecord:amend");
-  const view = await recordOr404(params.id);
-  const form = await request.formData();
+  const view = await recordOr404(parseParams(request, idParams, params, "test record").id);
+  const form = await readForm(request);
   const parsed = parseForm(amendSchema, form);
   const r = parseReadings(form, view.specs.map(limitsOf));
   const errors: FieldErrors = { ...(parsed.ok ? {} : parsed.errors), ...r.errors };

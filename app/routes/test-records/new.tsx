@@ -1,5 +1,8 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/new";
+import { z } from "zod";
+import { parseSearch, readForm } from "~/lib/edge.server";
+import { isUuid, optionalSearch, slug as slugSchema, uuid } from "~/lib/edge";
 import { Field, FormError, SelectField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { SafetyNote } from "~/components/test-records/parts";
@@ -16,11 +19,13 @@ import { asc, eq } from "drizzle-orm";
 
 export const meta: Route.MetaFunction = () => [{ title: "File a test record · Benchreel" }];
 
+const filingSearch = z.object({ procedure: optionalSearch(slugSchema), recording: optionalSearch(uuid) });
+
 export async function loader({ request }: Route.LoaderArgs) {
   await requirePermission(request, "testrecord:create");
-  const url = new URL(request.url);
-  const slug = url.searchParams.get("procedure")?.trim() || null;
-  const recordingId = url.searchParams.get("recording")?.trim() || null;
+  const q = parseSearch(request, filingSearch);
+  const slug = q.procedure ?? null;
+  const recordingId = q.recording ?? null;
   const recording = recordingId ? await recordingForFiling(recordingId) : null;
   if (recordingId && !recording) throw data({ message: "That recording does not exist." }, { status: 404 });
   if (!slug) return { filing: null, options: await publishedProcedureOptions(), recording, today: new Date().toISOString().slice(0, 10) };
@@ -40,10 +45,10 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requirePermission(request, "testrecord:create");
-  const form = await request.formData();
+  const form = await readForm(request);
   const parsed = parseForm(newRecordSchema, form);
   const revisionId = String(form.get("revisionId") ?? "");
-  const specs = /^[0-9a-f-]{36}$/.test(revisionId)
+  const specs = isUuid(revisionId)
     ? await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position))
     : [];
   const r = parseReadings(form, specs.map(limitsOf));

@@ -1,5 +1,7 @@
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/record";
+import { parseParams, parseSearch, readForm } from "~/lib/edge.server";
+import { idParams, versionSearch } from "~/lib/edge";
 import { FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { fmtDay, fmtNum, SafetyNote, VerdictBadge } from "~/components/test-records/parts";
@@ -24,15 +26,15 @@ async function recordOr404(id: string, version?: number) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const v = new URL(request.url).searchParams.get("v");
-  const view = await recordOr404(params.id, v != null && /^\d+$/.test(v) ? Number(v) : undefined);
+  const { id } = parseParams(request, idParams, params, "test record");
+  const view = await recordOr404(id, parseSearch(request, versionSearch).v);
   return { ...view, flags: { canAmend: can(user.role, "testrecord:amend"), canCalc: can(user.role, "testrecord:create") } };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "testrecord:create");
-  const view = await recordOr404(params.id);
-  const form = await request.formData();
+  const view = await recordOr404(parseParams(request, idParams, params, "test record").id);
+  const form = await readForm(request);
   const intent = form.get("intent");
   const specs = view.specs.map(limitsOf);
   const current = view.readings.map((r) => ({ id: r.id, specId: r.specId, valueEntered: r.valueEntered, unitEntered: r.unitEntered, note: r.note }));
@@ -47,8 +49,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     for (const r of rs) {
       const depth = Number(String(form.get(`depth.${r.id}`) ?? "").replace(",", "."));
       const angle = Number(String(form.get(`angle.${r.id}`) ?? "").replace(",", "."));
-      if (String(form.get(`depth.${r.id}`) ?? "").trim() === "" || !Number.isFinite(depth) || depth < 0) errors[`depth.${r.id}`] = "Depth below the deck, in mm.";
-      if (String(form.get(`angle.${r.id}`) ?? "").trim() === "" || !Number.isFinite(angle)) errors[`angle.${r.id}`] = "Angle in degrees.";
+      if (String(form.get(`depth.${r.id}`) ?? "").trim() === "" || !Number.isFinite(depth) || depth < 0 || depth > 2000) errors[`depth.${r.id}`] = "Depth below the deck, in mm.";
+      if (String(form.get(`angle.${r.id}`) ?? "").trim() === "" || !Number.isFinite(angle) || Math.abs(angle) > 720) errors[`angle.${r.id}`] = "Angle in degrees.";
       positions.set(r.id, { depthMm: depth, angleDeg: angle });
     }
     if (Object.keys(errors).length) return data({ intent, errors: { ...errors, calc: "Give every reading its depth and angle." }, values: Object.fromEntries([...form.entries()].map(([k, v]) => [k, String(v)])) }, { status: 400 });

@@ -1,11 +1,13 @@
 import { z } from "zod";
 import type { Route } from "./+types/revision";
 import { requirePermission } from "~/lib/auth.server";
+import { idParams, positiveInt } from "~/lib/edge";
+import { invalidInput, parseParams, readJsonObject } from "~/lib/edge.server";
 import { canSeeRevision } from "~/lib/procedures/routes.server";
 import { AREAS, DocumentInvalid, normalizeTags, ProcedureError, revisionById, saveDraft } from "~/lib/procedures/workflow.server";
 
 const saveSchema = z.object({
-  baseVersion: z.number().int().min(1),
+  baseVersion: positiveInt,
   title: z.string().trim().min(4, "The title needs at least 4 characters.").max(120, "Keep the title under 120 characters."),
   summary: z.string().trim().max(300, "Keep the summary under 300 characters.").default(""),
   area: z.enum(AREAS),
@@ -13,12 +15,10 @@ const saveSchema = z.object({
   doc: z.unknown(),
 });
 
-const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
-
 /** The draft as stored now (version, text), e.g. to reload after a conflict. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "procedure:view-drafts:own");
-  const rev = isUuid(params.id) ? await revisionById(params.id) : null;
+  const rev = await revisionById(parseParams(request, idParams, params, "revision").id);
   if (!rev) return Response.json({ error: "not found" }, { status: 404 });
   if (!canSeeRevision(user, rev)) return Response.json({ error: "forbidden", reason: "Drafts are open to their author and the editors." }, { status: 403 });
   return Response.json({ id: rev.id, number: rev.number, state: rev.state, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, updatedAt: rev.updatedAt });
@@ -28,19 +28,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "procedure:edit:own");
   if (request.method !== "POST") return Response.json({ error: "method not allowed" }, { status: 405 });
-  if (!isUuid(params.id)) return Response.json({ error: "not found" }, { status: 404 });
-  let body: unknown;
+  const { id } = parseParams(request, idParams, params, "revision");
+  const parsed = saveSchema.safeParse(await readJsonObject(request));
+  if (!parsed.success) return invalidInput(request, parsed.error);
   try {
-    body = await request.json();
-  } catch {
-    return Response.json({ error: "invalid input", issues: [{ path: "", message: "the body must be JSON" }] }, { status: 422 });
-  }
-  const parsed = saveSchema.safeParse(body);
-  if (!parsed.success) {
-    return Response.json({ error: "invalid input", issues: parsed.error.issues.map((i) => ({ path: i.path.join("."), message: i.message })) }, { status: 422 });
-  }
-  try {
-    const r = await saveDraft(user, params.id, { ...parsed.data, tags: normalizeTags(parsed.data.tags) });
+    const r = await saveDraft(user, id, { ...parsed.data, tags: normalizeTags(parsed.data.tags) });
     if (!r.ok) return Response.json({ error: "conflict", message: `${r.current.savedBy ?? "Someone"} saved this draft while you were editing. Your version was not lost: it is kept as a conflict copy.`, ...r }, { status: 409 });
     return Response.json({ ok: true, version: r.version, savedAt: r.updatedAt, warnings: r.warnings });
   } catch (err) {

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/titles";
 import { requirePermission } from "~/lib/auth.server";
+import { isUuid } from "~/lib/edge";
 import { AREA_LABELS, searchTitles } from "~/lib/procedures/workflow.server";
 
 /** Title search for the editor's procedure-link picker. */
@@ -8,6 +9,6 @@ export async function loader({ request }: Route.LoaderArgs) {
   const u = new URL(request.url);
   const q = (u.searchParams.get("q") ?? "").slice(0, 100);
   const except = u.searchParams.get("except") ?? undefined;
-  const rows = await searchTitles(user, q, except && /^[0-9a-f-]{36}$/i.test(except) ? except : undefined);
+  const rows = await searchTitles(user, q, isUuid(except) ? except : undefined);
   return Response.json({ results: rows.map((r) => ({ ...r, areaLabel: AREA_LABELS[r.area] })) });
 }

@@ -1,5 +1,7 @@
 import type { Route } from "./+types/media";
 import { requirePermission } from "~/lib/auth.server";
+import { idParams } from "~/lib/edge";
+import { parseParams } from "~/lib/edge.server";
 import { serveFile } from "~/lib/recordings/media.server";
 import { notFound } from "~/lib/recordings/api.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
@@ -8,7 +10,8 @@ import { originalPath, renditionPath } from "~/lib/recordings/storage.server";
 /** GET /api/recordings/:id/media — the playable video (the browser-safe rendition when there is one), with Range. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
-  const r = await mediaFacts(params.id);
+  const { id } = parseParams(request, idParams, params, "recording");
+  const r = await mediaFacts(id);
   if (!r) notFound(request);
   if (r.state !== "ready") return Response.json({ error: "not ready", reason: `The recording is ${r.state}.` }, { status: 409 });
   const file = r.hasRendition ? renditionPath(r.id) : originalPath(r.id);

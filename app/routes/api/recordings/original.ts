@@ -1,5 +1,7 @@
 import type { Route } from "./+types/original";
 import { requirePermission } from "~/lib/auth.server";
+import { idParams } from "~/lib/edge";
+import { parseParams } from "~/lib/edge.server";
 import { serveFile } from "~/lib/recordings/media.server";
 import { notFound } from "~/lib/recordings/api.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
@@ -8,7 +10,8 @@ import { originalPath } from "~/lib/recordings/storage.server";
 /** GET /api/recordings/:id/original — the file as uploaded, as a download (recording:download). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "recording:download");
-  const r = await mediaFacts(params.id);
+  const { id } = parseParams(request, idParams, params, "recording");
+  const r = await mediaFacts(id);
   if (!r) notFound(request);
   if (!r.hasOriginal) return Response.json({ error: "not found", reason: "The original file is not kept for this recording." }, { status: 404 });
   return serveFile(request, originalPath(r.id), { contentType: "application/octet-stream", download: r.originalName });

@@ -1,5 +1,7 @@
 import type { Route } from "./+types/poster";
 import { requirePermission } from "~/lib/auth.server";
+import { idParams } from "~/lib/edge";
+import { parseParams } from "~/lib/edge.server";
 import { serveFile } from "~/lib/recordings/media.server";
 import { notFound } from "~/lib/recordings/api.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
@@ -8,7 +10,8 @@ import { posterPath } from "~/lib/recordings/storage.server";
 /** GET /api/recordings/:id/poster — the poster frame (JPEG). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
-  const r = await mediaFacts(params.id);
+  const { id } = parseParams(request, idParams, params, "recording");
+  const r = await mediaFacts(id);
   if (!r) notFound(request);
   if (!r.hasPoster) return Response.json({ error: "not found", reason: "No poster frame yet." }, { status: 404 });
   return serveFile(request, posterPath(r.id), { contentType: "image/jpeg", cacheSeconds: 600 });

@@ -1,7 +1,9 @@
 import type { Route } from "./+types/readings";
 import { requirePermission } from "~/lib/auth.server";
 import { spreadsheetCsv } from "~/lib/csv";
-import { methodNotAllowed, readJson } from "~/lib/recordings/api.server";
+import { methodNotAllowed } from "~/lib/recordings/api.server";
+import { parseParams, readJsonObject } from "~/lib/edge.server";
+import { idParams } from "~/lib/edge";
 import { createReadings, listReadings, recordingOr404 } from "~/lib/recordings/notes.server";
 import { quantityDef } from "~/lib/recordings/rules";
 
@@ -11,6 +13,7 @@ import { quantityDef } from "~/lib/recordings/rules";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
+  parseParams(request, idParams, params, "recording");
   const rec = await recordingOr404(request, params.id);
   const rows = await listReadings(params.id);
   if (new URL(request.url).searchParams.get("format") !== "csv") return Response.json({ readings: rows });
@@ -39,8 +42,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "reading:create");
+  parseParams(request, idParams, params, "recording");
   if (request.method !== "POST") return methodNotAllowed("GET, POST");
-  const body = await readJson(request);
-  if (!body.ok) return body.res;
-  return createReadings(request, user, params.id, body.body);
+  const body = await readJsonObject(request);
+  return createReadings(request, user, params.id, body);
 }
