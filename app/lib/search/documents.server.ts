@@ -31,8 +31,14 @@ export function isPassingFailure(err: unknown): boolean {
   return typeof e?.message === "string" && /Connection terminated|connection timeout|timeout exceeded when trying to connect|Client has encountered a connection error/i.test(e.message);
 }
 
+/** The reason shown for a record set aside: the error's message (a validation error's issues, one line each). */
 export function failureReason(err: unknown): string {
-  const message = err instanceof Error ? err.message : String(err);
+  const issues = (err as { issues?: unknown } | null)?.issues;
+  const message = Array.isArray(issues)
+    ? issues.map((i: { path?: unknown[]; message?: string }) => `${i.path?.length ? `${i.path.join(".")}: ` : ""}${i.message ?? ""}`).join("; ")
+    : err instanceof Error
+      ? err.message
+      : String(err);
   return message.slice(0, 500) || "unknown error";
 }
 
