@@ -15,14 +15,15 @@ type WithGroup = SearchDoc & { group: string };
 
 const empty = (): IndexChange => ({ upserts: [], deleteIds: [], deleteGroups: [], unindexable: [] });
 
-// SQLSTATE classes that say the database (not the record) is in trouble: connection,
-// insufficient resources, operator intervention, system error, transaction rollback.
-const PASSING_SQLSTATE = /^(08|53|57|58|40)/;
+// SQLSTATE classes that are not about one record: connection, insufficient resources, operator
+// intervention, system error, transaction rollback, and a query the schema does not fit (42: a
+// deploy out of step with its migrations fails every record alike).
+const PASSING_SQLSTATE = /^(08|53|57|58|40|42)/;
 
 /**
- * Whether an error while building documents is the database's passing trouble (then the
- * whole batch waits and retries) rather than something about the record (then only that
- * record is set aside). Errors of the pg driver's own connection carry no SQLSTATE.
+ * Whether an error while building documents is the database's trouble (then the whole batch
+ * waits and retries) rather than something about the record (then only that record is set
+ * aside). Errors of the pg driver's own connection carry no SQLSTATE.
  */
 export function isPassingFailure(err: unknown): boolean {
   const e = err as { code?: unknown; message?: unknown } | null;

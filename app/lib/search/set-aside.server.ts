@@ -1,4 +1,4 @@
-import { and, desc, eq, inArray, sql } from "drizzle-orm";
+import { and, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { marks, procedureRevisions, procedures, readings, recordings, searchOutbox, searchSetAside, testRecords } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { Unindexable } from "./documents.server";
@@ -82,10 +82,12 @@ async function describe(kind: string, id: string): Promise<{ label: string; url:
 /** The records set aside, newest failure first, for the admin page. */
 export async function listSetAside(limit = 200): Promise<SetAsideEntry[]> {
   const rows = await db().select().from(searchSetAside).orderBy(desc(searchSetAside.lastAt)).limit(limit);
+  // Those already queued again (a change, or "try again", not yet drained).
   const queued = await db()
-    .select({ kind: searchOutbox.kind, entityId: searchOutbox.entityId })
+    .selectDistinct({ kind: searchOutbox.kind, entityId: searchOutbox.entityId })
     .from(searchOutbox)
-    .where(sql`${searchOutbox.doneAt} is null`);
+    .innerJoin(searchSetAside, and(eq(searchSetAside.kind, searchOutbox.kind), eq(searchSetAside.entityId, searchOutbox.entityId)))
+    .where(isNull(searchOutbox.doneAt));
   const waiting = new Set(queued.map((q) => `${q.kind}:${q.entityId}`));
   const out: SetAsideEntry[] = [];
   for (const r of rows) {
