@@ -113,7 +113,10 @@ describe("worker killed during a transcode", () => {
     const killed = (await (await control("kill")).json()) as { killed: number[] };
     expect(killed.killed.length).toBe(1);
     // The kernel ends the orphaned ffmpeg with its parent (no new worker runs yet).
-    await waitFor(async () => ffmpegFor(id).length === 0, 5_000, 100);
+    const killedAt = Date.now();
+    await waitFor(async () => ffmpegFor(id).length === 0, 5_000, 50);
+    const goneAfterMs = Date.now() - killedAt;
+    const progressAtKill = (await recording(id)).progress;
     const leftTemps = fs.readdirSync(recordingDir(id)).filter((f) => f.includes(".tmp"));
 
     expect((await control("start")).status).toBe(200);
@@ -126,7 +129,7 @@ describe("worker killed during a transcode", () => {
     fs.writeFileSync(out, Buffer.from(await media.arrayBuffer()));
     const published = decode(out);
     console.log(
-      `[worker kill] ffmpeg at kill: ${before.join(",")}; temp files left by the killed attempt: ${leftTemps.length}; ` +
+      `[worker kill] ffmpeg at kill: ${before.join(",")} (progress ${Math.round(progressAtKill * 100)} %), gone ${goneAfterMs} ms after the worker; temp files left by the killed attempt: ${leftTemps.length}; ` +
         `source ${source.frames} frames / ${source.seconds.toFixed(2)} s; published rendition ${published.frames} frames / ${published.seconds.toFixed(2)} s, clean decode: ${published.clean}`,
     );
     expect(published.clean).toBe(true);

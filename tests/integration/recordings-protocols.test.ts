@@ -99,7 +99,7 @@ describe("tus 1.0.0", () => {
     const res = await patch(builder, id, 0, "0123456789ABCDEF");
     expect(res.status).toBe(413);
     const text = await res.text();
-    expect(text).toMatch(/more bytes than the upload declared in Upload-Length: 10/);
+    expect(text).toMatch(/more bytes than the upload declared \(Upload-Length 10\): 16 bytes at offset 0, where 10 remain/);
     expect(text).not.toMatch(/shop's limit/);
     // A body with no length (chunked) is cut at the declared length too.
     const chunked = new ReadableStream<Uint8Array>({
@@ -140,6 +140,21 @@ describe("tus 1.0.0", () => {
     expect(gone.status).toBe(410);
     expect(fs.existsSync(tusFilePath(id))).toBe(false);
     expect((await http(`/api/uploads/${id}`, { cookie: builder.cookie })).status).toBe(404);
+  });
+
+  it("takes bytes with the creation request as it advertises (creation-with-upload), a part or the whole file", async () => {
+    const post = (name: string, body: Uint8Array) =>
+      http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { ...TUS, "Upload-Length": String(clip.length), "Upload-Metadata": `filename ${b64(name)}`, "Content-Type": "application/offset+octet-stream" }, body });
+    const part = await post("part.mp4", new Uint8Array(clip.subarray(0, 1000)));
+    expect(part.status).toBe(201);
+    expect(part.headers.get("upload-offset")).toBe("1000");
+    expect(part.headers.get("upload-expires")).toBeTruthy();
+    expect(await receivedBytes(path.basename(part.headers.get("location")!))).toBe(1000);
+    const whole = await post("whole.mp4", new Uint8Array(clip));
+    expect(whole.status).toBe(201);
+    expect(whole.headers.get("upload-offset")).toBe(String(clip.length));
+    expect(whole.headers.get("benchreel-recording")).toBeTruthy();
+    expect(whole.headers.get("upload-expires")).toBeNull();
   });
 
   it("answers HEAD on a finished upload with Upload-Offset = Upload-Length, so a client resuming it from its stored URL finishes instead of uploading again", async () => {

@@ -154,8 +154,9 @@ async function tooLargeReason(req: Request, max: number): Promise<string> {
   const size = row?.size ?? (Number.isFinite(declared) ? declared : null);
   const offset = Number(req.headers.get("upload-offset") ?? 0);
   const sent = req.headers.get("content-length");
-  const room = size != null ? ` (${size - offset} bytes remain after offset ${offset})` : "";
-  return `The request sends more bytes than the upload declared${size != null ? ` in Upload-Length: ${size}` : ""}: ${sent != null ? `${sent} bytes` : "a longer body"}${room}. Nothing past the declared length is stored.`;
+  const declaredAs = size != null ? ` (Upload-Length ${size})` : "";
+  const where = size != null ? `, where ${size - offset} remain` : "";
+  return `The request sends more bytes than the upload declared${declaredAs}: ${sent != null ? `${sent} bytes` : "a longer body"} at offset ${offset}${where}. Nothing past the declared length is stored.`;
 }
 
 const g = globalThis as unknown as { __benchreelTus?: Server };
