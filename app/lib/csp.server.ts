@@ -24,9 +24,11 @@ export function newNonce(): string {
 }
 
 /**
- * The page policy. Scripts: our own files and the nonced inline ones; no eval. Styles: our own
+ * The page policy. Scripts: our own files and the nonced inline ones; no eval (and no need for
+ * 'strict-dynamic': every script is one of our built files, and nothing else this origin serves
+ * can run as one: uploads and API answers go out with their own types and nosniff). Styles: our own
  * stylesheets and nonced <style> elements (TipTap's base styles get the nonce; video.js is told
- * not to write its own, see Player.client.tsx). Style *attributes* stay allowed: React renders a
+ * not to write its own, see root.tsx). Style *attributes* stay allowed: React renders a
  * `style` prop into the server HTML as an attribute (the progress bars), which no nonce can
  * cover; an attribute cannot match selectors, and images and fonts come only from this origin,
  * so injected CSS has nothing to read and nowhere to send it. Fonts include data: because
