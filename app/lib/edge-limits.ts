@@ -11,7 +11,7 @@ const MB = 1024 * KB;
 export type BodyLimit = { pattern: RegExp; bytes: number | null; why: string };
 
 export const BODY_LIMITS: BodyLimit[] = [
-  // tus has its own limit per upload (RECORDING_MAX_BYTES) and streams to disk, never buffers.
+  // tus has its own limit per upload (MAX_UPLOAD_BYTES) and streams to disk, never buffers.
   { pattern: /^\/api\/uploads(\/|$)/, bytes: null, why: "resumable uploads: tus's own per-upload limit" },
   { pattern: /^\/(signin|signout|reset|invite)(\/|$)/, bytes: 8 * KB, why: "public forms: an address, a password, a name" },
   { pattern: /^\/admin\/people$/, bytes: 8 * KB, why: "invitations and role changes" },

@@ -12,7 +12,7 @@ import { bodyLimitFor, routePath } from "./edge-limits";
 import { hasNul, NUL_MESSAGE, nulPath, searchObject } from "./edge";
 import type { FieldErrors } from "./forms";
 
-export const isApiRequest = (request: Request): boolean => routePath(new URL(request.url).pathname).startsWith("/api/");
+export const isApiRequest = (request: { url: string }): boolean => routePath(new URL(request.url).pathname).startsWith("/api/");
 
 export type Issue = { path: string; message: string };
 
@@ -24,7 +24,7 @@ export function invalidJson(issues: Issue[], status = 422): Response {
 }
 
 /** A refusal with a reason, in the form the caller reads: JSON for the API, the error page otherwise. */
-function refusal(request: Request, status: number, error: string, reason: string, extra: Record<string, unknown> = {}, headers: Record<string, string> = {}): Response {
+function refusal(request: { url: string }, status: number, error: string, reason: string, extra: Record<string, unknown> = {}, headers: Record<string, string> = {}): Response {
   if (isApiRequest(request)) return Response.json({ error, reason, ...extra }, { status, headers });
   // Thrown from a loader or action, this renders the root ErrorBoundary with the reason.
   return data({ message: reason }, { status, headers }) as unknown as Response;
@@ -67,8 +67,9 @@ export function parseSearch<S extends z.ZodType>(request: Request, schema: S): z
 /**
  * A NUL in any search param (or a malformed one) is refused for every route at once, by the
  * root middleware: no query of ours can use it, and PostgreSQL refuses it in any text.
+ * (GET /api/search, answered without React Router, calls it too.)
  */
-export function urlRefusal(request: Request): Response | null {
+export function urlRefusal(request: { url: string }): Response | null {
   let url: URL;
   try {
     url = new URL(request.url);

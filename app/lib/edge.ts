@@ -13,9 +13,6 @@ export const NUL_MESSAGE = "Remove the NUL character (\\0) from this text: it ca
 
 export const hasNul = (s: string): boolean => s.includes("\u0000");
 
-/** Text without NUL; trimmed when asked. Length limits stay with each schema. */
-export const text = () => z.string().refine((s) => !hasNul(s), { message: NUL_MESSAGE });
-
 const UUID_PATTERN = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 export const isUuid = (s: unknown): s is string => typeof s === "string" && UUID_PATTERN.test(s);
@@ -26,21 +23,21 @@ export const uuid = z.string().regex(UUID_PATTERN, { message: "That is not a val
 /** PostgreSQL's integer (int4). */
 export const INT4_MAX = 2_147_483_647;
 
-/** A positive whole number in a URL (a revision number, a version): digits only, 1 … 2³¹−1. */
-export const positiveIntParam = z
+/** A whole number in a URL (a record's version, 0 for as filed): digits only, 0 … 2³¹−1. */
+export const wholeNumberParam = z
   .string()
   .regex(/^\d{1,10}$/, { message: "Expected a whole number." })
   .transform(Number)
-  .refine((n) => n >= 1 && n <= INT4_MAX, { message: `Expected a whole number from 1 to ${INT4_MAX}.` });
+  .refine((n) => n <= INT4_MAX, { message: `Expected a whole number up to ${INT4_MAX}.` });
+
+/** A positive whole number in a URL (a revision number): digits only, 1 … 2³¹−1. */
+export const positiveIntParam = wholeNumberParam.refine((n) => n >= 1, { message: "Expected a whole number from 1 up." });
 
 /** A positive whole number in JSON (a version the client last saw). */
 export const positiveInt = z.number({ error: "Expected a whole number." }).int("Expected a whole number.").min(1).max(INT4_MAX, `At most ${INT4_MAX}.`);
 
 /** A procedure slug as `slugify` makes them (old slugs too): lower-case ASCII words and hyphens. */
 export const slug = z.string().max(200, { message: "No procedure has an address that long." }).regex(/^[a-z0-9][a-z0-9-]*$/, { message: "Not a procedure address." });
-
-/** An opaque token from a mailed link (invitation, reset): URL-safe characters, bounded. */
-export const token = z.string().min(1).max(200).regex(/^[A-Za-z0-9_-]+$/, { message: "Not a valid link." });
 
 const DAYS_IN_MONTH = [31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
 
@@ -53,13 +50,6 @@ export function isRealDate(s: string): boolean {
   const leap = (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0;
   return d <= (mo === 2 && !leap ? 28 : DAYS_IN_MONTH[mo - 1]);
 }
-
-/** A calendar date (YYYY-MM-DD) that exists. */
-export const isoDate = z
-  .string()
-  .trim()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Enter the date as YYYY-MM-DD." })
-  .refine(isRealDate, { message: "That day does not exist in the calendar." });
 
 // ---- quantities -----------------------------------------------------------------------------
 
@@ -117,9 +107,6 @@ function rangeText(kind: QuantityKind): string {
   return r.unit ? `${r.min} to ${r.max} ${r.unit}` : `${r.min} to ${r.max}`;
 }
 
-/** A number that can be stored (finite; within ±1e12 unless the quantity says more). */
-export const finite = z.number({ error: "Enter a number." }).finite("Enter a finite number.");
-
 // ---- search params --------------------------------------------------------------------------
 
 /** The search params as an object (the first value of each name), for a zod schema. */
@@ -161,9 +148,6 @@ export function nulPath(value: unknown, path: (string | number)[] = [], depth = 
 /** The params of an `:id` route. */
 export const idParams = z.object({ id: uuid });
 
-/** `?v=` of a record page: a version number, or absent for the current one. */
-export const versionSearch = z.object({ v: positiveIntParam.optional() });
-
 /** A search param through a schema when it is there: absent or blank reads as undefined; spaces around are dropped. */
 export const optionalSearch = <S extends z.ZodType>(schema: S) =>
   z.preprocess((v) => (typeof v === "string" ? v.trim() || undefined : v), schema.optional());
@@ -175,3 +159,6 @@ export const librarySearch = z.object({
   sort: z.enum(["newest", "oldest"]).optional().catch(undefined),
   q: optionalParam(200),
 });
+
+/** `?v=` of a record page: a version number (0 is the record as filed), or absent for the current one. */
+export const versionSearch = z.object({ v: optionalSearch(wholeNumberParam) });

@@ -2,6 +2,7 @@
 // server.js, which sends GET /api/search without React Router's request handling
 // (docs/decisions/008; the list of such paths is `directAnswers` in app/entry.server.tsx).
 import { refreshedCookie, requirePermission, type RequestLike } from "~/lib/auth.server";
+import { urlRefusal } from "~/lib/edge.server";
 import { searchErrorMessage } from "./client.server";
 import { indexIsBehind, runSearch, searchParamsSchema, type SearchTimings } from "./query.server";
 
@@ -55,6 +56,9 @@ export async function answerSearch(request: RequestLike): Promise<PlainAnswer> {
  * every response. `Server-Timing` names the path (`direct`), for the network panel and tests.
  */
 export async function answerSearchDirect(request: RequestLike): Promise<PlainAnswer> {
+  // The root middleware's refusal of a NUL in the address, which this path does not pass through.
+  const refused = urlRefusal(request);
+  if (refused) return { status: refused.status, headers: { ...Object.fromEntries(refused.headers), "cache-control": "private, no-store" }, body: await refused.text() };
   const answer = await answerSearch(request);
   const cookie = await refreshedCookie(request).catch(() => null);
   if (cookie) answer.headers["Set-Cookie"] = cookie;
