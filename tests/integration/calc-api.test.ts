@@ -1,4 +1,4 @@
-// The calculators' JSON API (POST /api/calc/{preload|distortion|clearance}, calc-contract.md)
+// The calculators' JSON API (POST /api/calc/{preload|distortion|clearance}, docs/calculations.md)
 // and the calculator pages' actions without JavaScript. Expected numbers come from the
 // contract's formulas worked out here, not from the module.
 import { beforeAll, describe, expect, it } from "vitest";

@@ -105,9 +105,9 @@ export const procedureSpecs = pgTable(
     specKey: text("spec_key").notNull(),
     position: integer("position").notNull(),
     label: text("label").notNull(),
-    /** length | force | torque | stress | temperature (calc-contract unit kinds). */
+    /** length | force | torque | stress | temperature (docs/calculations.md unit kinds). */
     quantity: text("quantity").notNull(),
-    /** The entered unit code (calc-contract codes, e.g. "N.m", "mm"). */
+    /** The entered unit code (docs/calculations.md codes, e.g. "N.m", "mm"). */
     unit: text("unit").notNull(),
     nominal: doublePrecision("nominal"),
     min: doublePrecision("min"),

@@ -1,7 +1,7 @@
 import { describe, expect, test } from "vitest";
 import * as calc from "./index";
 
-// calc-contract.md: the entry exports these functions and the schemas of their inputs.
+// docs/calculations.md: the entry exports these functions and the schemas of their inputs.
 describe("the module's entry and purity", () => {
   test("exports the contract's functions and schemas", () => {
     for (const name of ["calculatePreload", "calculateDistortion", "calculateClearance", "convert", "threadGeometry", "fitNutFactor"] as const) {

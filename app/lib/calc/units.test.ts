@@ -29,7 +29,7 @@ describe("conversion factors against NIST SP 811 Appendix B", () => {
   });
 
   test("the contract's exact factors: 1 in = 25.4 mm, 1 lbf = 4.4482216152605 N, 1 ft·lbf = 1.3558179483314004 N·m", () => {
-    // calc-contract.md, "Quantities and unit codes".
+    // docs/calculations.md, "Quantities and unit codes".
     expect(convert(1, "in", "mm")).toBe(25.4);
     expect(convert(1, "lbf", "N")).toBe(4.4482216152605);
     expect(convert(1, "ft.lbf", "N.m")).toBeCloseTo(1.3558179483314004, 15);

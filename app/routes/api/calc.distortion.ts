@@ -2,7 +2,7 @@ import type { Route } from "./+types/calc.distortion";
 import { calculateDistortion } from "~/lib/calc";
 import { calcApi, calcApiGet } from "~/lib/calc-ui/api.server";
 
-/** POST /api/calc/distortion: the input JSON of calculateDistortion in, its result out (see calc-contract.md). */
+/** POST /api/calc/distortion: the input JSON of calculateDistortion in, its result out (see docs/calculations.md). */
 export async function action({ request }: Route.ActionArgs) {
   return calcApi(request, calculateDistortion);
 }
