@@ -49,10 +49,12 @@ describe("dates that exist", () => {
     expect(isRealDate("2024-2-3")).toBe(false);
   });
 
-  it("a test record's date: a real day, not before 1900, not in the future", () => {
+  it("a test record's header: a real day, not before 1900, not in the future; a recording span in range", () => {
     const base = { title: "Bore check", engineSerial: "", notes: "" };
     expect(headerSchema.safeParse({ ...base, testedOn: "2024-02-29" }).success).toBe(true);
     for (const d of ["2024-02-30", "0000-01-01", "1899-12-31", "9999-01-01"]) expect(headerSchema.safeParse({ ...base, testedOn: d }).success, d).toBe(false);
+    expect(headerSchema.safeParse({ ...base, testedOn: "2024-02-29", recordingStartS: "1e308" }).success).toBe(false);
+    expect(headerSchema.safeParse({ ...base, testedOn: "2024-02-29", recordingStartS: "12.5" }).success).toBe(true);
   });
 });
 

@@ -21,7 +21,8 @@ const optionalSeconds = z
   .trim()
   .default("")
   .transform((s) => (s === "" ? null : Number(s.replace(",", "."))))
-  .refine((n) => n === null || (Number.isFinite(n) && n >= 0), { message: "Seconds from the start of the recording, 0 or more." });
+  // No recording runs a million seconds (11 days): a larger number is a slip, as in recordings/rules.ts.
+  .refine((n) => n === null || (Number.isFinite(n) && n >= 0 && n <= 1e6), { message: "Seconds from the start of the recording, 0 up to the recording's length." });
 
 export const headerSchema = z
   .object({
