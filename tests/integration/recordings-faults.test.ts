@@ -3,10 +3,12 @@
 // transcode takes its ffmpeg with it, and the retried job publishes a rendition that decodes
 // in full. The worker is killed and started again through the test run's control server
 // (scripts/test.mjs, WORKER_CONTROL_URL).
-import { execFileSync } from "node:child_process";
+import { execFileSync, spawn } from "node:child_process";
+import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
+import { killLeftovers } from "~/lib/recordings/processing.server";
 import { recordingDir } from "~/lib/recordings/storage.server";
 import { createUser, http, waitFor, type TestUser } from "../support/app";
 
@@ -136,4 +138,21 @@ describe("worker killed during a transcode", () => {
     expect(published.frames).toBe(source.frames);
     expect(Math.abs(published.seconds - source.seconds)).toBeLessThan(0.1);
   }, 300_000);
+
+  it("kills, at the start of an attempt, an ffmpeg still writing that recording's files that the parent-death signal missed, and nothing else", async () => {
+    const id = randomUUID();
+    fs.mkdirSync(recordingDir(id), { recursive: true });
+    const endless = ["-hide_banner", "-nostdin", "-v", "error", "-re", "-f", "lavfi", "-i", "testsrc=size=64x64:rate=5", "-f", "mp4"];
+    const leftover = spawn("/usr/bin/ffmpeg", [...endless, path.join(recordingDir(id), "web.mp4.1-dead.tmp.mp4")], { stdio: "ignore", detached: true });
+    const unrelated = spawn("/usr/bin/ffmpeg", [...endless, path.join(work, "unrelated.tmp.mp4")], { stdio: "ignore", detached: true });
+    try {
+      await waitFor(async () => ffmpegFor(id).length === 1, 10_000, 100);
+      expect(await killLeftovers(id)).toEqual([leftover.pid]);
+      expect(ffmpegFor(id)).toEqual([]);
+      expect(unrelated.exitCode).toBeNull();
+    } finally {
+      leftover.kill("SIGKILL");
+      unrelated.kill("SIGKILL");
+    }
+  });
 });

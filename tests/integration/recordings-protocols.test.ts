@@ -143,7 +143,7 @@ describe("tus 1.0.0", () => {
   });
 
   it("takes bytes with the creation request as it advertises (creation-with-upload), a part or the whole file", async () => {
-    const post = (name: string, body: Uint8Array) =>
+    const post = (name: string, body: BodyInit) =>
       http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { ...TUS, "Upload-Length": String(clip.length), "Upload-Metadata": `filename ${b64(name)}`, "Content-Type": "application/offset+octet-stream" }, body });
     const part = await post("part.mp4", new Uint8Array(clip.subarray(0, 1000)));
     expect(part.status).toBe(201);
