@@ -7,7 +7,7 @@ import { Readable } from "node:stream";
  * ranges, which a server may answer with the full body), If-Range and If-None-Match honoured.
  * Range applies to GET only (§14.2): HEAD, and a range unit other than bytes, get the whole.
  * The body is streamed (Readable.toWeb of a ranged read stream, never a Node stream handed
- * to Response: see STACK.md).
+ * to Response: see docs/platform-notes.md).
  */
 export type ServeOptions = { contentType: string; download?: string; cacheSeconds?: number };
 

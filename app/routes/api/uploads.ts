@@ -12,7 +12,7 @@ import { discardUpload, handleTus, receivedBytes, unfinishedUploads, uploadIdFro
  * POST/PATCH/DELETE via the action), guarded on every request: a session, the
  * recording:upload capability, and for an existing upload, being the one who started it.
  * OPTIONS alone is open: it tells a client what the server supports, nothing about anyone.
- * A plain GET answers JSON about the caller's uploads (never tus's download, see STACK.md).
+ * A plain GET answers JSON about the caller's uploads (never tus's download, see docs/platform-notes.md).
  */
 async function guard(request: Request): Promise<{ user: SessionUser; uploadId: string | null }> {
   const user = await requirePermission(request, "recording:upload");
