@@ -26,8 +26,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   await requirePermission(request, "search:repair");
-  // A body that is not a form (wrong type, broken) is an empty form: refused below with 400.
-  const form = await readForm(request).catch(() => new FormData());
+  const form = await readForm(request);
   const parsed = parseForm(retrySchema, form);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 400 });
   const queued = await retrySetAside(parsed.data.intent === "retry-all" ? "all" : { kind: parsed.data.kind, entityId: parsed.data.entityId });
