@@ -4,6 +4,7 @@ import { db } from "~/lib/db.server";
 import { blockTexts, type JSONNode } from "~/lib/procedures/document";
 import type { SearchDoc } from "./client.server";
 import { bothSystems, limitsBothSystems } from "./format";
+import { RECORD_VERDICT_LABELS } from "~/lib/test-records/labels";
 
 /** A record whose documents could not be built, and why (the worker sets it aside). */
 export type Unindexable = { kind: string; entityId: string; reason: string };
@@ -311,7 +312,7 @@ async function testRecordDocs(unindexable: Unindexable[], id?: string): Promise<
     .leftJoin(users, eq(users.id, testRecords.createdBy))
     .where(id ? eq(testRecords.id, id) : undefined);
   return rows.flatMap(({ r, procedureTitle, revision, by }) => guarded("test_record", r.id, unindexable, (): SearchDoc[] => {
-    const verdict = r.verdict === "out" ? "Out of spec" : "Within spec";
+    const verdict = RECORD_VERDICT_LABELS[r.verdict];
     return [{
       id: `test_record-${r.id}`,
       kind: "test_record" as const,

@@ -2,8 +2,23 @@
 // pages that only list records import these.
 export type ReadingVerdict = "within" | "below" | "above" | "unchecked";
 export type SpecVerdict = "within" | "out" | "not-measured" | "unchecked";
-export type RecordVerdict = "within" | "out";
+/** "incomplete": nothing out of spec, but at least one spec of the revision was not measured. */
+export type RecordVerdict = "within" | "out" | "incomplete";
 
-export const RECORD_VERDICT_LABELS: Record<RecordVerdict, string> = { within: "Within spec", out: "Out of spec" };
+export const RECORD_VERDICTS = ["within", "out", "incomplete"] as const satisfies readonly RecordVerdict[];
+
+export const RECORD_VERDICT_LABELS: Record<RecordVerdict, string> = { within: "Within spec", out: "Out of spec", incomplete: "Incomplete" };
 export const READING_VERDICT_LABELS: Record<ReadingVerdict, string> = { within: "within", below: "below min", above: "above max", unchecked: "no limit" };
 export const SPEC_VERDICT_LABELS: Record<SpecVerdict, string> = { within: "Within spec", out: "Out of spec", "not-measured": "Not measured", unchecked: "Recorded (no limit)" };
+
+/**
+ * The record's verdict in words, saying what is missing: "Incomplete: 1 spec not measured".
+ * An out-of-spec record with unmeasured specs stays "Out of spec" (one bad reading decides it)
+ * and says the rest after it.
+ */
+export function recordVerdictText(verdict: RecordVerdict, notMeasured = 0): string {
+  const missing = `${notMeasured} spec${notMeasured === 1 ? "" : "s"} not measured`;
+  if (verdict === "incomplete") return `${RECORD_VERDICT_LABELS.incomplete}: ${missing}`;
+  if (verdict === "out" && notMeasured > 0) return `${RECORD_VERDICT_LABELS.out}; ${missing}`;
+  return RECORD_VERDICT_LABELS[verdict];
+}

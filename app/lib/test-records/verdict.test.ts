@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { evaluateRecord, readingVerdict, specVerdict, VerdictInputError, type SpecLimits } from "./verdict";
+import { evaluateRecord, readingVerdict, recordVerdictText, specVerdict, VerdictInputError, type SpecLimits } from "./verdict";
 
 const bore: SpecLimits = { id: "bore", label: "Bore diameter", quantity: "length", unit: "mm", min: 88.0, max: 88.012, nominal: 88.006 };
 const ringGap: SpecLimits = { id: "gap", label: "Top ring end gap", quantity: "length", unit: "mm", min: 0.45, max: null };
@@ -69,12 +69,24 @@ describe("specVerdict and evaluateRecord", () => {
     expect(specVerdict([])).toBe("not-measured");
   });
 
-  it("is within only when every measured spec is within, and lists specs without readings as not measured", () => {
+  it("is within when every spec was measured and each is within", () => {
+    const e = evaluateRecord([bore, ringGap, oor], {
+      bore: [88.004, 88.006, 88.008, 88.011].map((value) => ({ value, unit: "mm" })),
+      gap: [{ value: 0.5, unit: "mm" }],
+      oor: [{ value: 0.004, unit: "mm" }],
+    });
+    expect(e.verdict).toBe("within");
+    expect(e.notMeasured).toEqual([]);
+    expect(recordVerdictText(e.verdict!, e.notMeasured.length)).toBe("Within spec");
+  });
+
+  it("is incomplete, never within, when a spec was left unmeasured, and lists it as not measured", () => {
     const e = evaluateRecord([bore, ringGap, oor], {
       bore: [88.004, 88.006, 88.008, 88.011].map((value) => ({ value, unit: "mm" })),
       gap: [{ value: 0.5, unit: "mm" }],
     });
-    expect(e.verdict).toBe("within");
+    expect(e.verdict).toBe("incomplete");
+    expect(recordVerdictText(e.verdict!, e.notMeasured.length)).toBe("Incomplete: 1 spec not measured");
     expect(e.notMeasured.map((s) => s.id)).toEqual(["oor"]);
     expect(e.specs.find((s) => s.spec.id === "oor")!.verdict).toBe("not-measured");
     expect(e.counts).toEqual({ within: 2, out: 0, notMeasured: 1 });
@@ -88,6 +100,12 @@ describe("specVerdict and evaluateRecord", () => {
     expect(e.verdict).toBe("out");
     expect(e.specs[0].readings.map((r) => r.verdict)).toEqual(["within", "above"]);
     expect(e.counts.out).toBe(1);
+  });
+
+  it("stays out of spec when a reading is out and another spec was not measured, and says both", () => {
+    const e = evaluateRecord([bore, ringGap, oor], { bore: [{ value: 88.015, unit: "mm" }] });
+    expect(e.verdict).toBe("out");
+    expect(recordVerdictText(e.verdict!, e.notMeasured.length)).toBe("Out of spec; 2 specs not measured");
   });
 
   it("has no verdict at all when nothing was measured", () => {

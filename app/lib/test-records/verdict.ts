@@ -9,7 +9,7 @@ import { convert, unitKind, type UnitKind } from "~/lib/calc";
 
 import type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
 export type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
-export { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS } from "./labels";
+export { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, recordVerdictText, SPEC_VERDICT_LABELS } from "./labels";
 
 export type SpecLimits = {
   id: string;
@@ -70,15 +70,16 @@ export type EvaluatedSpec = {
 
 export type Evaluation = {
   specs: EvaluatedSpec[];
-  /** null when nothing at all was measured: such a record cannot be filed. */
+  /** null when nothing at all was measured: such a record cannot be filed. "incomplete" when a spec was left unmeasured. */
   verdict: RecordVerdict | null;
   notMeasured: SpecLimits[];
   counts: { within: number; out: number; notMeasured: number };
 };
 
 /**
- * The record: "within" only when every spec with readings is within; any reading outside its
- * limits makes it "out". Specs left without readings are listed, never silently passed.
+ * The record: "within" only when every spec was measured and each is within (or has no limit);
+ * any reading outside its limits makes it "out"; otherwise a spec left without readings makes
+ * it "incomplete". Specs left without readings are listed, never silently passed.
  */
 export function evaluateRecord(specs: SpecLimits[], readingsBySpec: Record<string, ReadingInput[]>): Evaluation {
   const evaluated: EvaluatedSpec[] = specs.map((spec) => {
@@ -90,7 +91,7 @@ export function evaluateRecord(specs: SpecLimits[], readingsBySpec: Record<strin
   const notMeasured = evaluated.filter((e) => e.verdict === "not-measured").map((e) => e.spec);
   return {
     specs: evaluated,
-    verdict: measured.length === 0 ? null : out > 0 ? "out" : "within",
+    verdict: measured.length === 0 ? null : out > 0 ? "out" : notMeasured.length > 0 ? "incomplete" : "within",
     notMeasured,
     counts: { within: evaluated.filter((e) => e.verdict === "within").length, out, notMeasured: notMeasured.length },
   };
