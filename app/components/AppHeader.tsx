@@ -60,11 +60,18 @@ export function AppHeader({ user, searchSlot }: { user: SessionUser; searchSlot?
   );
 }
 
-export function FlashBanner({ flash }: { flash: { kind: "ok" | "error"; message: string } | null }) {
+const FLASH_TONES = {
+  ok: "border-ok/40 bg-ok-soft text-ok",
+  error: "border-spec-red/40 bg-spec-red-soft text-spec-red",
+  out: "border-spec-red/60 bg-spec-red-soft text-spec-red",
+  caution: "border-brass/60 bg-brass-soft/60 text-graphite",
+} as const;
+
+export function FlashBanner({ flash }: { flash: { kind: keyof typeof FLASH_TONES; message: string } | null }) {
   if (!flash) return null;
-  const tone = flash.kind === "ok" ? "border-ok/40 bg-ok-soft text-ok" : "border-spec-red/40 bg-spec-red-soft text-spec-red";
+  const tone = FLASH_TONES[flash.kind] ?? FLASH_TONES.ok;
   return (
-    <div role="status" className={`mb-6 rounded-md border px-4 py-3 text-sm font-semibold ${tone}`} data-testid="flash">
+    <div role="status" className={`mb-6 rounded-md border px-4 py-3 text-sm font-semibold ${tone}`} data-testid="flash" data-kind={flash.kind}>
       {flash.message}
     </div>
   );

@@ -1,7 +1,8 @@
 import { createCookieSessionStorage, redirect } from "react-router";
 import { env } from "./env.server";
 
-export type Flash = { kind: "ok" | "error"; message: string };
+/** "out": a result out of spec (red, not the green of "ok"); "caution": done, with something left to do (brass). */
+export type Flash = { kind: "ok" | "error" | "out" | "caution"; message: string };
 
 let storage: ReturnType<typeof createCookieSessionStorage<Record<string, never>, { flash: Flash }>> | undefined;
 function flashStorage() {

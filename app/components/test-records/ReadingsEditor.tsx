@@ -194,7 +194,7 @@ export function ReadingsEditor({
             {evaluation.notMeasured.length > 0 && <> ({evaluation.notMeasured.map((s) => s.label).join(", ")})</>}
           </p>
         </div>
-        <VerdictBadge verdict={evaluation.verdict} size="lg" />
+        <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
       </div>
     </div>
   );

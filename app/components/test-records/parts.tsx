@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/labels";
+import { READING_VERDICT_LABELS, recordVerdictText, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/labels";
 import { formatCalendarDay } from "~/lib/dates";
 
 export const fmtDay = formatCalendarDay;
@@ -10,15 +10,25 @@ export function fmtNum(n: number | null | undefined, digits = 6): string {
   return String(Number(n.toPrecision(digits + 4)));
 }
 
-/** The record's verdict: calm for within; red is kept for "Out of spec". */
-export function VerdictBadge({ verdict, size = "sm" }: { verdict: RecordVerdict | null; size?: "sm" | "lg" }) {
+const VERDICT_LOOK: Record<RecordVerdict, { cls: string; mark: string }> = {
+  within: { cls: "border-ok/30 bg-ok-soft text-ok", mark: "✓" },
+  out: { cls: "border-spec-red bg-spec-red-soft text-spec-red", mark: "✕" },
+  // Not a pass and not a failure: the brass of "look here", never the green of a pass.
+  incomplete: { cls: "border-brass/60 bg-brass-soft/60 text-graphite", mark: "…" },
+};
+
+/**
+ * The record's verdict, saying what is missing ("Incomplete: 1 spec not measured"): calm for
+ * within, brass for incomplete; red is kept for "Out of spec".
+ */
+export function VerdictBadge({ verdict, notMeasured = 0, size = "sm" }: { verdict: RecordVerdict | null; notMeasured?: number; size?: "sm" | "lg" }) {
   const big = size === "lg" ? "px-3 py-1 text-base" : "px-1.5 py-0.5 text-xs";
   if (!verdict) return <span className={`inline-block rounded border border-dashed border-rule font-semibold text-graphite-soft ${big}`} data-testid="verdict">No readings yet</span>;
-  const cls = verdict === "out" ? "border-spec-red bg-spec-red-soft text-spec-red" : "border-ok/30 bg-ok-soft text-ok";
+  const look = VERDICT_LOOK[verdict];
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded border font-semibold ${cls} ${big}`} data-testid="verdict">
-      <span aria-hidden="true">{verdict === "out" ? "✕" : "✓"}</span>
-      {RECORD_VERDICT_LABELS[verdict]}
+    <span className={`inline-flex items-center gap-1 rounded border font-semibold ${look.cls} ${big}`} data-testid="verdict" data-verdict={verdict}>
+      <span aria-hidden="true">{look.mark}</span>
+      {recordVerdictText(verdict, notMeasured)}
     </span>
   );
 }
@@ -40,6 +50,7 @@ export type RecordRow = {
   workOrder: string;
   testedOn: string;
   verdict: RecordVerdict;
+  notMeasured: number;
   currentVersion: number;
   procedureTitle: string;
   slug: string;
@@ -62,7 +73,7 @@ export function RecordMiniList({ rows, showProcedure = false }: { rows: RecordRo
             </span>
             {showProcedure && <span className="block truncate text-sm text-graphite-soft">{r.procedureTitle}</span>}
           </span>
-          <VerdictBadge verdict={r.verdict} />
+          <VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} />
         </li>
       ))}
     </ul>
@@ -72,13 +83,14 @@ export function RecordMiniList({ rows, showProcedure = false }: { rows: RecordRo
 /** The procedure page's "Test records" section. */
 export function ProcedureTestRecords({ rows, slug, canFile }: { rows: RecordRow[]; slug: string; canFile: boolean }) {
   const out = rows.filter((r) => r.verdict === "out").length;
+  const incomplete = rows.filter((r) => r.verdict === "incomplete").length;
   return (
     <section className="card p-4" aria-labelledby="tests-h" data-testid="procedure-test-records">
       <h2 id="tests-h" className="text-base">Test records</h2>
       {rows.length ? (
         <>
           <p className="num mt-0.5 text-sm text-graphite-soft">
-            {rows.length} filed{out ? `, ${out} out of spec` : ""}
+            {rows.length} filed{out ? `, ${out} out of spec` : ""}{incomplete ? `, ${incomplete} incomplete` : ""}
           </p>
           <RecordMiniList rows={rows} />
           <p className="mt-1 text-sm"><Link to={`/test-records?procedure=${encodeURIComponent(slug)}`}>All records for this procedure</Link></p>

@@ -22,3 +22,8 @@ export function recordVerdictText(verdict: RecordVerdict, notMeasured = 0): stri
   if (verdict === "out" && notMeasured > 0) return `${RECORD_VERDICT_LABELS.out}; ${missing}`;
   return RECORD_VERDICT_LABELS[verdict];
 }
+
+/** How the filing or amending confirmation shows the verdict: red for out of spec, brass for incomplete. */
+export function flashKindOf(verdict: RecordVerdict): "ok" | "out" | "caution" {
+  return verdict === "out" ? "out" : verdict === "incomplete" ? "caution" : "ok";
+}

@@ -23,7 +23,7 @@ import { toSI, type UnitCode } from "~/lib/calc";
 import { isRealDate } from "~/lib/edge";
 import type { TypedReading } from "./form";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
-import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
+import { evaluateRecord, readingVerdict, RECORD_VERDICTS, recordVerdictText, type RecordVerdict } from "./verdict";
 
 export class TestRecordError extends Error {
   constructor(
@@ -122,7 +122,7 @@ async function assertSourceReadings(tx: DbOrTx, typed: Record<string, TypedReadi
  * Files a record. The revision is the one published when the transaction runs; if another
  * revision was published since the form was opened, the inspector is told and nothing is lost.
  */
-export async function createTestRecord(actor: Actor, input: NewRecordInput): Promise<{ id: string; verdict: RecordVerdict }> {
+export async function createTestRecord(actor: Actor, input: NewRecordInput): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number }> {
   return db().transaction(async (tx) => {
     const [rev] = await tx.select().from(procedureRevisions).where(eq(procedureRevisions.id, input.revisionId));
     if (!rev) throw new TestRecordError("That procedure revision does not exist.", 400, "revisionId");
@@ -170,7 +170,7 @@ export async function createTestRecord(actor: Actor, input: NewRecordInput): Pro
       verdict: evaluation.verdict,
       readings: Object.values(input.readings).flat().length,
     });
-    return { id: rec.id, verdict: evaluation.verdict };
+    return { id: rec.id, verdict: evaluation.verdict, notMeasured: evaluation.notMeasured.length };
   });
 }
 
@@ -178,7 +178,7 @@ export async function createTestRecord(actor: Actor, input: NewRecordInput): Pro
 
 export type AmendInput = HeaderFields & { reason: string; readings: Record<string, TypedReading[]> };
 
-export async function amendTestRecord(actor: Actor, recordId: string, input: AmendInput): Promise<{ version: number; verdict: RecordVerdict; changes: AmendmentChange[] }> {
+export async function amendTestRecord(actor: Actor, recordId: string, input: AmendInput): Promise<{ version: number; verdict: RecordVerdict; notMeasured: number; changes: AmendmentChange[] }> {
   return db().transaction(async (tx) => {
     const [rec] = await tx.select().from(testRecords).where(eq(testRecords.id, recordId)).for("update");
     if (!rec) throw new TestRecordError("No such test record.", 404);
@@ -231,7 +231,7 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
       })
       .where(eq(testRecords.id, rec.id));
     await audit(tx, actor.id, "amend", "test_record", rec.id, { version, reason: input.reason, changes, verdictBefore: rec.verdict, verdictAfter: evaluation.verdict });
-    return { version, verdict: evaluation.verdict, changes };
+    return { version, verdict: evaluation.verdict, notMeasured: evaluation.notMeasured.length, changes };
   });
 }
 
@@ -317,13 +317,14 @@ export function filtersFrom(url: URL): ListFilters {
   // A filter that cannot be a day (2024-02-30: JavaScript rolls it over, PostgreSQL refuses it) is no filter.
   const date = (s: string | null) => (s && isRealDate(s) ? s : null);
   const verdict = g("verdict");
-  return { procedure: g("procedure"), verdict: verdict === "within" || verdict === "out" ? verdict : null, workOrder: g("workOrder")?.slice(0, 40) ?? null, from: date(g("from")), to: date(g("to")) };
+  return { procedure: g("procedure"), verdict: RECORD_VERDICTS.find((v) => v === verdict) ?? null, workOrder: g("workOrder")?.slice(0, 40) ?? null, from: date(g("from")), to: date(g("to")) };
 }
 
 function whereOf(f: ListFilters): SQL | undefined {
   const w: SQL[] = [];
   if (f.procedure) w.push(eq(procedures.slug, f.procedure));
-  if (f.verdict === "within" || f.verdict === "out") w.push(eq(testRecords.verdict, f.verdict));
+  const verdict = RECORD_VERDICTS.find((v) => v === f.verdict);
+  if (verdict) w.push(eq(testRecords.verdict, verdict));
   if (f.workOrder) w.push(ilike(testRecords.workOrder, `%${f.workOrder.replace(/[%_\\]/g, (c) => `\\${c}`)}%`));
   if (f.from) w.push(gte(testRecords.testedOn, f.from));
   if (f.to) w.push(lte(testRecords.testedOn, f.to));
@@ -337,6 +338,8 @@ const listColumns = {
   engineSerial: testRecords.engineSerial,
   testedOn: testRecords.testedOn,
   verdict: testRecords.verdict,
+  /** Specs of the filed revision without a reading in the version in force: what "Incomplete" lacks. */
+  notMeasured: sql<number>`(select count(*) from procedure_specs ps where ps.revision_id = ${testRecords.revisionId} and not exists (select 1 from test_record_readings tr where tr.record_id = ${testRecords.id} and tr.version = ${testRecords.currentVersion} and tr.spec_id = ps.id))::int`,
   currentVersion: testRecords.currentVersion,
   procedureTitle: procedures.title,
   slug: procedures.slug,
@@ -372,7 +375,7 @@ export async function testRecordsForProcedure(procedureId: string, limit = 25) {
     .limit(limit);
 }
 
-/** For the Shop floor: out-of-spec records first, then the most recent. */
+/** For the Shop floor: out-of-spec records first, then incomplete ones, then the most recent. */
 export async function recentTestRecords(limit = 6) {
   return db()
     .select(listColumns)
@@ -381,7 +384,7 @@ export async function recentTestRecords(limit = 6) {
     .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
     .leftJoin(users, eq(users.id, testRecords.createdBy))
     .where(gte(testRecords.testedOn, sql`(current_date - interval '120 days')::date`))
-    .orderBy(sql`${testRecords.verdict} = 'out' desc`, desc(testRecords.testedOn), desc(testRecords.createdAt))
+    .orderBy(sql`${testRecords.verdict} = 'out' desc`, sql`${testRecords.verdict} = 'incomplete' desc`, desc(testRecords.testedOn), desc(testRecords.createdAt))
     .limit(limit);
 }
 
@@ -426,7 +429,7 @@ export async function csvRows(f: ListFilters): Promise<(string | number | null)[
   const out: (string | number | null)[][] = [];
   for (const r of recs) {
     const meta = revOf.get(r.id)!;
-    const base = [r.id, r.workOrder, r.engineSerial, r.testedOn, r.title, r.procedureTitle, r.revisionNumber, r.verdict === "out" ? "Out of spec" : "Within spec", r.currentVersion];
+    const base = [r.id, r.workOrder, r.engineSerial, r.testedOn, r.title, r.procedureTitle, r.revisionNumber, recordVerdictText(r.verdict, r.notMeasured), r.currentVersion];
     for (const s of specs.filter((x) => x.revisionId === meta.revisionId)) {
       const mine = rs.filter((x) => x.recordId === r.id && x.specId === s.id);
       const specCols = [s.label, s.unit, s.min, s.max];

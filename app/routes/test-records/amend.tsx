@@ -11,7 +11,7 @@ import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm, type FieldErrors } from "~/lib/forms";
 import { amendSchema, parseReadings } from "~/lib/test-records/form";
 import { amendTestRecord, getTestRecord, limitsOf, TestRecordError } from "~/lib/test-records/records.server";
-import { RECORD_VERDICT_LABELS } from "~/lib/test-records/verdict";
+import { flashKindOf, recordVerdictText } from "~/lib/test-records/labels";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Amend ${data?.record.workOrder ?? "test record"} · Benchreel` }];
 
@@ -37,6 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     revision: view.revision,
     specs: view.specs.map((s) => ({ ...limitsOf(s), note: s.note })),
     verdict: view.evaluation.verdict,
+    notMeasured: view.evaluation.notMeasured.length,
     readingValues: values,
   };
 }
@@ -53,7 +54,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const d = parsed.data;
   try {
     const out = await amendTestRecord(user, view.record.id, { ...d, readings: r.readings });
-    return redirectWithFlash(`/test-records/${view.record.id}`, { kind: "ok", message: `Amendment ${out.version} saved (${out.changes.length} change${out.changes.length === 1 ? "" : "s"}); the record is ${RECORD_VERDICT_LABELS[out.verdict]}. The original stays in the history.` });
+    return redirectWithFlash(`/test-records/${view.record.id}`, { kind: flashKindOf(out.verdict), message: `Amendment ${out.version} saved (${out.changes.length} change${out.changes.length === 1 ? "" : "s"}); the record is ${recordVerdictText(out.verdict, out.notMeasured)}. The original stays in the history.` });
   } catch (err) {
     if (err instanceof TestRecordError) return data({ errors: { [err.field ?? "form"]: err.message }, values: parsed.values }, { status: err.status });
     throw err;
@@ -61,7 +62,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function AmendTestRecord({ loaderData, actionData }: Route.ComponentProps) {
-  const { record, procedure, revision, specs, verdict, readingValues } = loaderData;
+  const { record, procedure, revision, specs, verdict, notMeasured, readingValues } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const values: Record<string, string> = actionData?.values ?? {};
   const v = (k: string, d: string | number | null) => values[k] ?? (d == null ? "" : String(d));
@@ -70,7 +71,7 @@ export default function AmendTestRecord({ loaderData, actionData }: Route.Compon
   return (
     <>
       <PageHeader title={`Amend ${record.workOrder}`} kicker="Test record amendment">
-        {record.title} · {procedure.title}, <span className="num">revision {revision.number}</span> · now <VerdictBadge verdict={verdict} />
+        {record.title} · {procedure.title}, <span className="num">revision {revision.number}</span> · now <VerdictBadge verdict={verdict} notMeasured={notMeasured} />
       </PageHeader>
       <p className="mb-4 max-w-3xl text-sm text-graphite-soft">
         A filed record is not edited in place. An amendment keeps the record as it was, saves the corrected readings as a new version, and records who changed what and why. The work order and the revision it was filed against do not change.

@@ -20,6 +20,7 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
   const { rows, procedures, filters, query, canCreate } = loaderData;
   const filtered = Boolean(filters.procedure || filters.verdict || filters.workOrder || filters.from || filters.to);
   const out = rows.filter((r) => r.verdict === "out").length;
+  const incomplete = rows.filter((r) => r.verdict === "incomplete").length;
   return (
     <>
       <PageHeader
@@ -49,6 +50,7 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
             <option value="">Any</option>
             <option value="within">Within spec</option>
             <option value="out">Out of spec</option>
+            <option value="incomplete">Incomplete</option>
           </select>
         </label>
         <label className="text-sm">
@@ -72,7 +74,7 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
       {rows.length ? (
         <>
           <p className="num mb-2 text-sm text-graphite-soft" data-testid="result-count">
-            {rows.length} record{rows.length === 1 ? "" : "s"}{out ? `, ${out} out of spec` : ""}{rows.length === 200 ? " (the 200 most recent; narrow the filters for older ones)" : ""}
+            {rows.length} record{rows.length === 1 ? "" : "s"}{out ? `, ${out} out of spec` : ""}{incomplete ? `, ${incomplete} incomplete` : ""}{rows.length === 200 ? " (the 200 most recent; narrow the filters for older ones)" : ""}
           </p>
           <div className="card overflow-x-auto p-0">
             <table className="w-full text-left text-sm" data-testid="records-table">
@@ -98,7 +100,7 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
                     <td className="px-3 py-2 font-sans">
                       {r.procedureTitle} <span className="num whitespace-nowrap text-graphite-soft">rev. {r.revisionNumber}{r.revisionState === "superseded" ? " (superseded)" : ""}</span>
                     </td>
-                    <td className="px-3 py-2"><VerdictBadge verdict={r.verdict} /></td>
+                    <td className="px-3 py-2"><VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} /></td>
                     <td className="px-4 py-2 font-sans text-graphite-soft max-md:hidden">{r.by ?? "—"}</td>
                   </tr>
                 ))}

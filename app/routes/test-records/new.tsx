@@ -14,7 +14,7 @@ import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm, type FieldErrors } from "~/lib/forms";
 import { newRecordSchema, parseReadings } from "~/lib/test-records/form";
 import { createTestRecord, limitsOf, procedureForFiling, publishedProcedureOptions, recordingForFiling, TestRecordError } from "~/lib/test-records/records.server";
-import { RECORD_VERDICT_LABELS } from "~/lib/test-records/verdict";
+import { flashKindOf, recordVerdictText } from "~/lib/test-records/labels";
 import { asc, eq } from "drizzle-orm";
 
 export const meta: Route.MetaFunction = () => [{ title: "File a test record · Benchreel" }];
@@ -69,7 +69,7 @@ export async function action({ request }: Route.ActionArgs) {
       recordingEndS: d.recordingEndS,
       readings: r.readings,
     });
-    return redirectWithFlash(`/test-records/${rec.id}`, { kind: "ok", message: `Test record filed for ${d.workOrder}: ${RECORD_VERDICT_LABELS[rec.verdict]}.` });
+    return redirectWithFlash(`/test-records/${rec.id}`, { kind: flashKindOf(rec.verdict), message: `Test record filed for ${d.workOrder}: ${recordVerdictText(rec.verdict, rec.notMeasured)}.` });
   } catch (err) {
     if (err instanceof TestRecordError) return data({ errors: { [err.field ?? "form"]: err.message, ...(err.field === "revisionId" ? { form: err.message } : {}) }, values: parsed.values }, { status: err.status });
     throw err;

@@ -30,7 +30,7 @@ export default function RecordSheetPrint({ loaderData }: Route.ComponentProps) {
         <p className="text-xs font-semibold uppercase tracking-[0.14em] text-brass">Larkspur Engine Works · Test record</p>
         <div className="flex flex-wrap items-end justify-between gap-3">
           <h1 className="text-2xl leading-tight">{record.title}</h1>
-          <VerdictBadge verdict={evaluation.verdict} size="lg" />
+          <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
         </div>
         <dl className="num mt-2 grid grid-cols-2 gap-x-6 gap-y-0.5 text-sm sm:grid-cols-4">
           <div><dt className="text-xs text-graphite-soft">Work order</dt><dd className="font-semibold">{record.workOrder}</dd></div>

@@ -14,7 +14,7 @@ import { can } from "~/lib/permissions";
 import { groupOfNote, isBoreSpec, isClearanceSpec, isPistonSpec, positionFromNote, runDistortion, runPistonToWall } from "~/lib/test-records/calcs";
 import { limitsOf } from "~/lib/test-records/limits";
 import { getTestRecord, saveCalcRun } from "~/lib/test-records/records.server";
-import { RECORD_VERDICT_LABELS } from "~/lib/test-records/verdict";
+import { RECORD_VERDICT_LABELS } from "~/lib/test-records/labels";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.record.workOrder ?? "Test record"} · Test records · Benchreel` }];
 
@@ -166,7 +166,7 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
         <div className="min-w-0 space-y-5">
           <section className="card flex flex-wrap items-center justify-between gap-3" aria-label="Verdict">
             <div>
-              <VerdictBadge verdict={evaluation.verdict} size="lg" />
+              <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
               <p className="mt-1 text-sm text-graphite-soft">
                 {evaluation.notMeasured.length
                   ? `Not measured: ${evaluation.notMeasured.map((id) => specs.find((s) => s.id === id)?.label).join(", ")}.`
