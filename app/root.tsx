@@ -91,8 +91,14 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     <main className="mx-auto max-w-xl px-6 py-20">
       <p className="num text-sm font-semibold tracking-wide text-brass">Error {status}</p>
       <h1 className="mt-2 text-3xl">{msg.title}</h1>
-      <p className="mt-4 text-graphite-soft">{msg.body}</p>
-      {detail && status !== 500 && <p className="mt-3 text-graphite-soft">{detail}</p>}
+      {/* A refusal's reason already says, in the shop's words, what the role can and cannot do
+          and whom to ask (forbiddenReason in app/lib/permissions.ts): it replaces the general line. */}
+      {status === 403 && detail ? (
+        <p className="mt-4 text-graphite" data-testid="forbidden-reason">{detail}</p>
+      ) : (
+        <p className="mt-4 text-graphite-soft">{msg.body}</p>
+      )}
+      {detail && status !== 500 && status !== 403 && <p className="mt-3 text-graphite-soft">{detail}</p>}
       {detail && status === 500 && <pre className="mt-4 overflow-auto text-xs">{detail}</pre>}
       <div className="mt-8 flex gap-3">
         {status === 401 ? (

@@ -6,7 +6,7 @@ import { data, redirect } from "react-router";
 import { sessions, users } from "~/db/schema";
 import { db, isDatabaseDown, pool } from "./db.server";
 import { env } from "./env.server";
-import { can, type Permission, type Role } from "./permissions";
+import { can, forbiddenReason, type Permission, type Role } from "./permissions";
 import { CONTENT_CHANNEL, listening, onListenerReset, onNotify, SESSIONS_CHANNEL } from "./notify.server";
 import { memoForRequest } from "./request-store.server";
 import { clientAddress } from "./client-address.server";
@@ -205,7 +205,7 @@ export function forbidden(request: RequestLike, reason: string): never {
 
 export function assertCan(request: RequestLike, user: SessionUser, permission: Permission): void {
   if (!can(user.role, permission)) {
-    forbidden(request, `Your role cannot do this (needs “${permission}”).`);
+    forbidden(request, forbiddenReason(user.role, permission));
   }
 }
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { PERMISSIONS, ROLES, can, canOnOwned, isRole } from "./permissions";
+import { CAPABILITY_WORDS, PERMISSIONS, ROLES, can, canOnOwned, forbiddenReason, isRole, type Permission } from "./permissions";
 
 describe("permissions", () => {
   it("apprentices can read, search and calculate but change nothing", () => {
@@ -43,5 +43,26 @@ describe("permissions", () => {
   it("no role and unknown strings hold nothing", () => {
     expect(can(null, "shop:read")).toBe(false);
     expect(isRole("superuser")).toBe(false);
+  });
+
+  it("a refusal says in the shop's words what the role can do, what it cannot and whom to ask", () => {
+    expect(forbiddenReason("apprentice", "procedure:draft")).toBe(
+      "Apprentices can read procedures, watch recordings and use the calculators, but not write procedures. Ask an editor, a senior builder or an admin.",
+    );
+    expect(forbiddenReason("builder", "procedure:review")).toBe(
+      "Senior builders can write procedures, record work at the bench and file test records, but not review and publish procedures. Ask an editor or an admin.",
+    );
+  });
+
+  it("no refusal shows a capability's name, for any role and capability", () => {
+    for (const permission of Object.keys(PERMISSIONS) as Permission[]) {
+      expect(CAPABILITY_WORDS[permission]).not.toMatch(/[:_]/);
+      for (const role of ROLES) {
+        if (can(role, permission)) continue;
+        const reason = forbiddenReason(role, permission);
+        expect(reason).not.toContain(permission);
+        expect(reason).not.toMatch(/“|:[a-z]/);
+      }
+    }
   });
 });
