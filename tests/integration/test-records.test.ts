@@ -126,7 +126,8 @@ describe("test records", () => {
       const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
       expect(rec.createdBy).toBe(u.id);
       expect(rec.revisionId).toBe(fx.rev.id);
-      expect(rec.verdict).toBe("within");
+      // Only the bore was measured: two specs are missing, so the record is not within spec.
+      expect(rec.verdict).toBe("incomplete");
     }
     const apprentice = await createUser("apprentice");
     const res = await file(apprentice, form(fx.rev.id, { [`r.${fx.specs.bore.id}.0.value`]: "88.006", [`r.${fx.specs.bore.id}.0.unit`]: "mm" }));
@@ -175,6 +176,64 @@ describe("test records", () => {
     expect(await textOf(none)).toContain("Type at least one reading");
   });
 
+  it("is Incomplete, never Within spec, while a spec is unmeasured; Within once every spec is measured and met", async () => {
+    const b = fx.specs.bore.id;
+    const all = {
+      [`r.${b}.0.value`]: "88.006", [`r.${b}.0.unit`]: "mm",
+      [`r.${fx.specs.oor.id}.0.value`]: "0.004", [`r.${fx.specs.oor.id}.0.unit`]: "mm",
+      [`r.${fx.specs.gap.id}.0.value`]: "0.5", [`r.${fx.specs.gap.id}.0.unit`]: "mm",
+    };
+    const complete = idFrom(await file(qc, form(fx.rev.id, all)));
+    const [done] = await db().select().from(testRecords).where(eq(testRecords.id, complete));
+    expect(done.verdict).toBe("within");
+    expect(await textOf(await http(`/test-records/${complete}`, { cookie: qc.cookie }))).toContain("Every spec of the revision was measured.");
+
+    const partial = Object.fromEntries(Object.entries(all).filter(([k]) => !k.startsWith(`r.${fx.specs.gap.id}.`)));
+    const wo = workOrder();
+    const id = idFrom(await file(qc, { ...form(fx.rev.id, partial), workOrder: wo }));
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    expect(rec.verdict).toBe("incomplete");
+    const page = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
+    expect(page).toContain("Incomplete: 1 spec not measured");
+    expect(page).toContain("Not measured: Top ring end gap");
+    expect(page).toContain('data-verdict="incomplete"');
+    expect(page).not.toContain('data-verdict="within"');
+    const sheet = await textOf(await http(`/test-records/${id}/print`, { cookie: qc.cookie }));
+    expect(sheet).toContain("Incomplete: 1 spec not measured");
+    // The list shows it as incomplete, and filters by it.
+    const list = await textOf(await http(`/test-records?workOrder=${wo}&verdict=incomplete`, { cookie: qc.cookie }));
+    expect(list).toContain(`/test-records/${id}`);
+    expect(list).toContain("Incomplete: 1 spec not measured");
+    expect(await textOf(await http(`/test-records?workOrder=${wo}&verdict=within`, { cookie: qc.cookie }))).not.toContain(`/test-records/${id}`);
+  });
+
+  it("migration 0024 turns a record stored as within with a spec unmeasured into incomplete, and leaves a complete one within", async () => {
+    const b = fx.specs.bore.id;
+    // Records as they were stored before the migration: 'within' whatever was left unmeasured.
+    const insert = async (specIds: string[]) => {
+      const [rec] = await db()
+        .insert(testRecords)
+        .values({ procedureId: fx.procedure.id, revisionId: fx.rev.id, title: "Filed before 0024", workOrder: workOrder(), testedOn: "2024-05-02", verdict: "within" })
+        .returning();
+      await db().insert(testRecordReadings).values(
+        specIds.map((specId, i) => ({ recordId: rec.id, version: 0, specId, specKey: "k", position: i, valueEntered: 0.5, unitEntered: "mm", valueSi: 0.0005, valueInSpecUnit: 0.5, verdict: "within" as const })),
+      );
+      return rec.id;
+    };
+    const old = await insert([b]);
+    const full = await insert([b, fx.specs.oor.id, fx.specs.gap.id]);
+    // The migration's statements that set the records right (those after the type is made anew).
+    const fs = await import("node:fs");
+    const statements = fs.readFileSync("drizzle/0024_test_record_incomplete.sql", "utf8").split("--> statement-breakpoint");
+    const from = statements.findIndex((s) => s.includes("FUNCTION pg_temp."));
+    expect(from).toBeGreaterThan(0);
+    await db().transaction(async (tx) => {
+      for (const s of statements.slice(from)) await tx.execute(sql.raw(s));
+    });
+    const rows = await db().select({ id: testRecords.id, verdict: testRecords.verdict }).from(testRecords).where(sql`${testRecords.id} in (${old}, ${full})`);
+    expect(Object.fromEntries(rows.map((r) => [r.id, r.verdict]))).toEqual({ [old]: "incomplete", [full]: "within" });
+  });
+
   it("pins the record to the revision in force; a later revision supersedes it and both limits show", async () => {
     const p = await makeProcedure(BORE);
     const res = await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.011", [`r.${p.specs.bore.id}.0.unit`]: "mm" }));
@@ -182,7 +241,7 @@ describe("test records", () => {
     const next = await publishRevision(p.procedure.id, 2, [{ ...BORE[0], max: 88.01 }, BORE[1], BORE[2]]);
     const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
     expect(rec.revisionId).toBe(p.rev.id);
-    expect(rec.verdict).toBe("within");
+    expect(rec.verdict).toBe("incomplete");
     const html = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
     expect(html).toContain("superseded by revision 2");
     expect(html).toContain("88 – 88.012 mm");
@@ -219,7 +278,7 @@ describe("test records", () => {
     expect(ok.status).toBe(302);
     const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
     expect(rec.currentVersion).toBe(1);
-    expect(rec.verdict).toBe("within");
+    expect(rec.verdict).toBe("incomplete");
     expect(rec.workOrder).toBe(wo);
     const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.version);
     expect(rows.map((r) => [r.version, r.valueEntered, r.verdict])).toEqual([[0, 88.015, "above"], [1, 88.009, "within"]]);
@@ -234,7 +293,8 @@ describe("test records", () => {
 
     const now = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
     expect(now).toContain("gauge re-zeroed on the ring");
-    expect(now).toContain("Within spec");
+    expect(now).toContain("Incomplete: 2 specs not measured");
+    expect(now).toContain("Verdict Out of spec → Incomplete");
     const original = await textOf(await http(`/test-records/${id}?v=0`, { cookie: qc.cookie }));
     expect(original).toContain("the record as originally filed");
     expect(original).toContain("88.015");

@@ -7,7 +7,8 @@ import { readings, recordings } from "./recordings";
 // Readings are never updated: an amendment writes a new version of the whole reading set and
 // keeps every earlier one (version 0 is the original filing).
 
-export const recordVerdictEnum = pgEnum("test_record_verdict", ["within", "out"]);
+// "incomplete": nothing out of spec, but a spec of the revision has no reading (migration 0024).
+export const recordVerdictEnum = pgEnum("test_record_verdict", ["within", "out", "incomplete"]);
 export const readingVerdictEnum = pgEnum("test_record_reading_verdict", ["within", "below", "above", "unchecked"]);
 
 export const testRecords = pgTable(

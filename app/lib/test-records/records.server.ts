@@ -23,7 +23,8 @@ import { toSI, type UnitCode } from "~/lib/calc";
 import { isRealDate } from "~/lib/edge";
 import type { TypedReading } from "./form";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
-import { evaluateRecord, readingVerdict, RECORD_VERDICTS, recordVerdictText, type RecordVerdict } from "./verdict";
+import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
+import { RECORD_VERDICT_LABELS, RECORD_VERDICTS } from "./labels";
 
 export class TestRecordError extends Error {
   constructor(
@@ -429,7 +430,7 @@ export async function csvRows(f: ListFilters): Promise<(string | number | null)[
   const out: (string | number | null)[][] = [];
   for (const r of recs) {
     const meta = revOf.get(r.id)!;
-    const base = [r.id, r.workOrder, r.engineSerial, r.testedOn, r.title, r.procedureTitle, r.revisionNumber, recordVerdictText(r.verdict, r.notMeasured), r.currentVersion];
+    const base = [r.id, r.workOrder, r.engineSerial, r.testedOn, r.title, r.procedureTitle, r.revisionNumber, RECORD_VERDICT_LABELS[r.verdict], r.currentVersion];
     for (const s of specs.filter((x) => x.revisionId === meta.revisionId)) {
       const mine = rs.filter((x) => x.recordId === r.id && x.specId === s.id);
       const specCols = [s.label, s.unit, s.min, s.max];
