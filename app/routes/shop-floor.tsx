@@ -4,6 +4,8 @@ import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
 import { can, ROLE_LABELS } from "~/lib/permissions";
 import { awaitingReview } from "~/lib/procedures/workflow.server";
+import { returnedDraftsOf } from "~/lib/procedures/review.server";
+import { fmtDate } from "~/components/procedures/RevisionView";
 import { RecordMiniList } from "~/components/test-records/parts";
 import { recentTestRecords } from "~/lib/test-records/records.server";
 
@@ -11,14 +13,19 @@ export const meta: Route.MetaFunction = () => [{ title: "Shop floor · Benchreel
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const review = can(user.role, "procedure:review") ? await awaitingReview() : null;
-  return { user, review, testRecords: await recentTestRecords() };
+  const [review, returned, testRecords] = await Promise.all([
+    can(user.role, "procedure:review") ? awaitingReview() : null,
+    // Only an author's own drafts come back to them; a role that cannot write has none.
+    can(user.role, "procedure:draft") ? returnedDraftsOf(user.id) : [],
+    recentTestRecords(),
+  ]);
+  return { user, review, returned, testRecords };
 }
 
 type Tile = { to: string; title: string; body: string; show: boolean };
 
 export default function ShopFloor({ loaderData }: Route.ComponentProps) {
-  const { user, review } = loaderData;
+  const { user, review, returned } = loaderData;
   const first = user.name.split(" ")[0];
   const tiles: Tile[] = [
     { to: "/procedures", title: "Procedures", body: "How each job is done and why, with its specs.", show: true },
@@ -32,6 +39,25 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
       <PageHeader title={`Good to see you, ${first}`} kicker="Shop floor">
         Signed in as {ROLE_LABELS[user.role]}.
       </PageHeader>
+      {returned.length > 0 && (
+        <section aria-labelledby="returned-h" className="card mb-6 border-brass/60" data-testid="returned-drafts">
+          <h2 id="returned-h" className="text-lg">Returned to you</h2>
+          <p className="text-sm text-graphite-soft">An editor sent these drafts back with a reason. Change them and submit again.</p>
+          <ul className="mt-2 divide-y divide-rule/70 text-sm">
+            {returned.map((r) => (
+              <li key={`${r.slug}-${r.number}`} className="flex flex-wrap items-start justify-between gap-x-4 gap-y-2 py-3">
+                <div className="min-w-0 flex-1">
+                  <p className="font-semibold">{r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span></p>
+                  <p className="mt-0.5">
+                    <span className="text-graphite-soft">Returned by {r.returnedBy ?? "former staff"}{r.returnedAt ? ` on ${fmtDate(r.returnedAt)}` : ""}:</span> {r.reason}
+                  </p>
+                </div>
+                <Link className="btn btn-primary py-1.5 no-underline" to={`/procedures/${r.slug}/r/${r.number}/edit`}>Continue editing<span className="sr-only">: {r.title}</span></Link>
+              </li>
+            ))}
+          </ul>
+        </section>
+      )}
       {review && (
         <section aria-labelledby="awaiting-review-h" className="card mb-6" data-testid="awaiting-review">
           <h2 id="awaiting-review-h" className="text-lg">Awaiting review</h2>
@@ -41,7 +67,7 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
             <ul className="mt-2 divide-y divide-rule/70 text-sm">
               {review.map((r) => (
                 <li key={`${r.slug}-${r.number}`} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
-                  <Link to={`/procedures/${r.slug}/compare?to=${r.number}`} className="font-semibold">{r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span></Link>
+                  <Link to={r.everPublished ? `/procedures/${r.slug}/compare?to=${r.number}` : `/procedures/${r.slug}/r/${r.number}`} className="font-semibold">{r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span></Link>
                   <span className="text-graphite-soft">{r.author ?? "former staff"}{r.changeNote ? ` — ${r.changeNote}` : ""}</span>
                 </li>
               ))}

@@ -210,6 +210,7 @@ export async function seedProcedures(db: Db): Promise<number> {
           .values({
             procedureId: d.id, number: r.number, state: r.state, title: r.title ?? d.title, summary: d.summary, area: d.area, tags: d.tags, doc: clean.doc, wordCount: countWords(clean.doc),
             authorId: r.author, lastSavedBy: r.author, changeNote: r.note, reviewedBy: r.state === "published" || r.state === "superseded" ? "demo-priya" : null,
+            publishedBy: r.state === "published" || r.state === "superseded" ? "demo-priya" : null,
             createdAt: at, updatedAt: at, submittedAt: r.state === "draft" ? null : at, publishedAt: r.state === "published" || r.state === "superseded" ? at : null,
             supersededAt: r.state === "superseded" ? day(d.revs.find((x) => x.state === "published")!.daysAgo) : null,
           })

@@ -49,6 +49,7 @@ export function RevisionArticle({
   state,
   date,
   author,
+  publishedBy,
   html,
   widgets,
   specs,
@@ -63,6 +64,8 @@ export function RevisionArticle({
   state: RevisionState;
   date: Date | string | null;
   author: string | null;
+  /** The editor who published it (published and superseded revisions). */
+  publishedBy?: string | null;
   html: string;
   widgets: Widget[];
   specs: SpecRowView[];
@@ -80,8 +83,12 @@ export function RevisionArticle({
           <p className="mt-3 flex flex-wrap items-center gap-x-3 gap-y-1 text-sm text-graphite-soft">
             <span className="num font-semibold text-graphite" data-testid="revision-number">Revision {number}</span>
             <StateBadge state={state} />
-            {date && <span>{state === "published" || state === "superseded" ? "published" : "saved"} {fmtDate(date)}</span>}
-            {author && <span>by {author}</span>}
+            {author && <span data-testid="revision-author">Written by {author}</span>}
+            {date && (state === "published" || state === "superseded" ? (
+              <span data-testid="revision-published">Published {fmtDate(date)}{publishedBy ? ` by ${publishedBy}` : ""}</span>
+            ) : (
+              <span>Saved {fmtDate(date)}</span>
+            ))}
           </p>
           {tags.length > 0 && (
             <p className="mt-2 flex flex-wrap gap-1.5">

@@ -73,6 +73,10 @@ export const procedureRevisions = pgTable(
     changeNote: text("change_note"),
     returnReason: text("return_reason"),
     reviewedBy: text("reviewed_by").references(() => users.id, { onDelete: "set null" }),
+    /** The editor who published this revision (reviewed_by is overwritten by each review step). */
+    publishedBy: text("published_by").references(() => users.id, { onDelete: "set null" }),
+    /** The editor who last returned it to Draft; the reason is return_reason, kept until it is submitted again. */
+    returnedBy: text("returned_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
     submittedAt: timestamp("submitted_at", { withTimezone: true }),

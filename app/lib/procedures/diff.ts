@@ -1,6 +1,6 @@
-/** Comparing two revisions: spec changes as rows, text changes block by block (the `diff` package). */
+/** Comparing two revisions: spec changes as rows, text changes block by block as the reader sees them (the `diff` package). */
 import { diffArrays, diffWords } from "diff";
-import type { Block } from "./document";
+import type { ReaderBlock } from "./reader-blocks";
 
 export type SpecRow = { specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
 export type SpecField = "label" | "unit" | "nominal" | "min" | "max" | "note" | "quantity";
@@ -46,22 +46,27 @@ export function diffSpecs(before: SpecRow[], after: SpecRow[]): SpecChange[] {
 
 export type Piece = { text: string; op: "same" | "add" | "del" };
 export type BlockChange =
-  | { op: "same"; type: string; text: string }
-  | { op: "add"; type: string; text: string }
-  | { op: "del"; type: string; text: string }
-  | { op: "change"; type: string; pieces: Piece[] };
+  | { op: "same" | "add" | "del"; block: ReaderBlock }
+  | { op: "change"; block: ReaderBlock; before: ReaderBlock; pieces: Piece[]; titlePieces: Piece[] | null };
+
+/** What makes two blocks the same for a reader; a step's number is left out, so inserting a step does not mark every later one. */
+const sameBlock = (l: ReaderBlock, r: ReaderBlock) =>
+  l.kind === r.kind && l.text === r.text && (l.title ?? "") === (r.title ?? "") && (l.level ?? 0) === (r.level ?? 0) && Boolean(l.caution) === Boolean(r.caution) && Boolean(l.quote) === Boolean(r.quote);
+
+const pieces = (a: string, b: string): Piece[] => diffWords(a, b).map((c): Piece => ({ text: c.value, op: c.added ? "add" : c.removed ? "del" : "same" }));
 
 /**
- * Aligns the two block lists (whole blocks compared by their text), then shows a removed block
- * directly followed by an added one of the same kind as one changed block with word changes.
+ * Aligns the two block lists (whole blocks compared as the reader sees them), then shows a
+ * removed block directly followed by an added one of the same kind as one changed block with
+ * word changes.
  */
-export function diffBlocks(before: Block[], after: Block[]): BlockChange[] {
-  const parts = diffArrays(before, after, { comparator: (l, r) => l.text === r.text && l.type === r.type });
+export function diffBlocks(before: ReaderBlock[], after: ReaderBlock[]): BlockChange[] {
+  const parts = diffArrays(before, after, { comparator: sameBlock });
   const out: BlockChange[] = [];
   for (let i = 0; i < parts.length; i++) {
     const p = parts[i];
     if (!p.added && !p.removed) {
-      for (const b of p.value) out.push({ op: "same", type: b.type, text: b.text });
+      for (const b of p.value) out.push({ op: "same", block: b });
       continue;
     }
     const next = parts[i + 1];
@@ -72,16 +77,17 @@ export function diffBlocks(before: Block[], after: Block[]): BlockChange[] {
       for (let k = 0; k < n; k++) {
         const d = dels[k];
         const a = adds[k];
-        if (d && a) {
-          const pieces = diffWords(d.text, a.text).map((c): Piece => ({ text: c.value, op: c.added ? "add" : c.removed ? "del" : "same" }));
-          out.push({ op: "change", type: a.type, pieces });
-        } else if (d) out.push({ op: "del", type: d.type, text: d.text });
-        else if (a) out.push({ op: "add", type: a.type, text: a.text });
+        if (d && a && d.kind === a.kind) {
+          out.push({ op: "change", block: a, before: d, pieces: pieces(d.text, a.text), titlePieces: (d.title ?? "") === (a.title ?? "") ? null : pieces(d.title ?? "", a.title ?? "") });
+        } else {
+          if (d) out.push({ op: "del", block: d });
+          if (a) out.push({ op: "add", block: a });
+        }
       }
       i++;
       continue;
     }
-    for (const b of p.value) out.push({ op: p.added ? "add" : "del", type: b.type, text: b.text });
+    for (const b of p.value) out.push({ op: p.added ? "add" : "del", block: b });
   }
   return out;
 }

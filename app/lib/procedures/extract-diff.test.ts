@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { JSONNode } from "./document";
-import { blockTexts } from "./document";
+import { readerBlocks } from "./reader-blocks";
 import { diffBlocks, diffSpecs, summarize, type SpecRow } from "./diff";
 import { extract } from "./extract";
 import { slugify } from "./slug";
@@ -52,17 +52,30 @@ describe("diffSpecs", () => {
 
 describe("diffBlocks", () => {
   const doc = (...texts: string[]): JSONNode => ({ type: "doc", content: texts.map((t) => ({ type: "paragraph", content: [{ type: "text", text: t }] })) });
+  const steps = (...texts: string[]): JSONNode => ({ type: "doc", content: [{ type: "orderedList", attrs: { start: 1 }, content: texts.map((t) => ({ type: "listItem", content: [{ type: "paragraph", content: [{ type: "text", text: t }] }] })) }] });
   it("shows word changes inside a changed block, and whole added or removed blocks", () => {
-    const d = diffBlocks(blockTexts(doc("Clean the threads.", "Torque to 100 N·m in three passes.", "Check the gasket.")), blockTexts(doc("Clean the threads.", "Torque to 110 N·m in three passes.", "Mark each stud.")));
-    expect(d[0]).toEqual({ op: "same", type: "paragraph", text: "Clean the threads." });
+    const d = diffBlocks(readerBlocks(doc("Clean the threads.", "Torque to 100 N·m in three passes.", "Check the gasket.")), readerBlocks(doc("Clean the threads.", "Torque to 110 N·m in three passes.", "Mark each stud.")));
+    expect(d[0]).toEqual({ op: "same", block: { kind: "paragraph", text: "Clean the threads." } });
     expect(d[1].op).toBe("change");
     if (d[1].op === "change") {
       expect(d[1].pieces.filter((p) => p.op === "del").map((p) => p.text.trim())).toContain("100");
       expect(d[1].pieces.filter((p) => p.op === "add").map((p) => p.text.trim())).toContain("110");
     }
     expect(summarize(d)).toEqual({ added: 0, removed: 0, changed: 2 });
-    const add = diffBlocks(blockTexts(doc("A.")), blockTexts(doc("A.", "B.")));
-    expect(add).toEqual([{ op: "same", type: "paragraph", text: "A." }, { op: "add", type: "paragraph", text: "B." }]);
+    const add = diffBlocks(readerBlocks(doc("A.")), readerBlocks(doc("A.", "B.")));
+    expect(add).toEqual([{ op: "same", block: { kind: "paragraph", text: "A." } }, { op: "add", block: { kind: "paragraph", text: "B." } }]);
+  });
+
+  it("a step inserted at the top is one added step, not every later step renumbered", () => {
+    const d = diffBlocks(readerBlocks(steps("Clean the threads.", "Oil the studs.")), readerBlocks(steps("Chase the threads.", "Clean the threads.", "Oil the studs.")));
+    expect(d.map((c) => c.op)).toEqual(["add", "same", "same"]);
+    expect(d.map((c) => c.block.marker)).toEqual(["1.", "2.", "3."]);
+  });
+
+  it("a heading that became a paragraph is removed and added, not a word change", () => {
+    const h: JSONNode = { type: "doc", content: [{ type: "heading", attrs: { level: 2 }, content: [{ type: "text", text: "Why" }] }] };
+    const d = diffBlocks(readerBlocks(h), readerBlocks(doc("Why")));
+    expect(d.map((c) => [c.op, c.block.kind])).toEqual([["del", "heading"], ["add", "paragraph"]]);
   });
 });
 

@@ -3,6 +3,7 @@
  * publish, restore; each change in one transaction with its extraction, mail and audit.
  */
 import { and, asc, desc, eq, inArray, ne, or, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
 import {
   procedureConflictCopies,
   procedureLinks,
@@ -289,7 +290,7 @@ export async function returnRevision(actor: Actor & { name: string }, revisionId
     check("return", rev, actor, { reason });
     const why = reason.trim();
     const now = new Date();
-    await tx.update(procedureRevisions).set({ state: "draft", returnReason: why, returnedAt: now, reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
+    await tx.update(procedureRevisions).set({ state: "draft", returnReason: why, returnedAt: now, returnedBy: actor.id, reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
     const author = await person(tx, rev.authorId);
     if (author) {
       await enqueueMail(
@@ -321,7 +322,7 @@ export async function publishRevision(actor: Actor & { name: string }, revisionI
       check("supersede", prev, actor);
       await tx.update(procedureRevisions).set({ state: "superseded", supersededAt: now }).where(eq(procedureRevisions.id, prev.id));
     }
-    await tx.update(procedureRevisions).set({ state: "published", publishedAt: now, reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
+    await tx.update(procedureRevisions).set({ state: "published", publishedAt: now, publishedBy: actor.id, reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
     let slug = proc.slug;
     if (rev.title !== proc.title || slugify(rev.title) !== slugify(proc.title)) {
       const wanted = await freeSlug(tx, rev.title, proc.id);
@@ -490,6 +491,9 @@ export async function isWatching(userId: string, procedureId: string) {
   return Boolean(w);
 }
 
+const publisher = alias(users, "publisher");
+const returner = alias(users, "returner");
+
 export async function history(procedureId: string) {
   return db()
     .select({
@@ -501,6 +505,9 @@ export async function history(procedureId: string) {
       returnReason: procedureRevisions.returnReason,
       authorId: procedureRevisions.authorId,
       author: users.name,
+      publishedBy: publisher.name,
+      returnedBy: returner.name,
+      returnedAt: procedureRevisions.returnedAt,
       createdAt: procedureRevisions.createdAt,
       updatedAt: procedureRevisions.updatedAt,
       submittedAt: procedureRevisions.submittedAt,
@@ -511,6 +518,8 @@ export async function history(procedureId: string) {
     })
     .from(procedureRevisions)
     .leftJoin(users, eq(users.id, procedureRevisions.authorId))
+    .leftJoin(publisher, eq(publisher.id, procedureRevisions.publishedBy))
+    .leftJoin(returner, eq(returner.id, procedureRevisions.returnedBy))
     .where(eq(procedureRevisions.procedureId, procedureId))
     .orderBy(desc(procedureRevisions.number));
 }
@@ -590,6 +599,7 @@ export async function awaitingReview() {
       author: users.name,
       submittedAt: procedureRevisions.submittedAt,
       changeNote: procedureRevisions.changeNote,
+      everPublished: sql<boolean>`${procedures.publishedRevisionId} is not null`,
     })
     .from(procedureRevisions)
     .innerJoin(procedures, eq(procedures.id, procedureRevisions.procedureId))

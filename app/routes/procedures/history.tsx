@@ -24,25 +24,37 @@ export default function History({ loaderData }: Route.ComponentProps) {
       <PageHeader title={title} kicker="Revision history" actions={<Link className="btn no-underline" to={`/procedures/${slug}`}>Back to the procedure</Link>} />
       <ol className="space-y-3" data-testid="history">
         {rows.map((r, i) => (
-          <li key={r.id} className="card flex flex-wrap items-start justify-between gap-3 p-4">
-            <div className="min-w-0">
+          <li key={r.id} className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid={`history-rev-${r.number}`}>
+            <div className="min-w-0 flex-1">
               <p className="flex flex-wrap items-center gap-2">
                 <Link to={`/procedures/${slug}/r/${r.number}`} className="num font-serif text-lg font-semibold">Revision {r.number}</Link>
                 <StateBadge state={r.state} />
                 {r.basedOn && <span className="text-xs text-graphite-soft">from revision {r.basedOn}</span>}
               </p>
               <p className="mt-1 text-sm text-graphite-soft">
-                {r.author ?? "former staff"} · started {fmtDate(r.createdAt)}
+                Written by {r.author ?? "former staff"} · started {fmtDate(r.createdAt)}
                 {r.submittedAt && <> · submitted {fmtDate(r.submittedAt)}</>}
-                {r.publishedAt && <> · published {fmtDate(r.publishedAt)}</>}
-                {r.supersededAt && <> · superseded {fmtDate(r.supersededAt)}</>}
                 <span className="num"> · {r.wordCount} words</span>
               </p>
-              {r.changeNote && <p className="mt-1 text-sm">{r.changeNote}</p>}
-              {r.returnReason && r.state === "draft" && <p className="mt-1 text-sm text-brass">Returned: {r.returnReason}</p>}
+              {r.publishedAt && (
+                <p className="mt-1 text-sm" data-testid="history-published">
+                  <span className="font-semibold">Published</span> {fmtDate(r.publishedAt)} by {r.publishedBy ?? "former staff"}
+                  {r.supersededAt && <span className="text-graphite-soft"> · superseded {fmtDate(r.supersededAt)}</span>}
+                </p>
+              )}
+              {r.changeNote && <p className="mt-1 text-sm"><span className="text-graphite-soft">Change note:</span> {r.changeNote}</p>}
+              {r.returnedAt && r.returnedBy && !(r.returnReason && r.state === "draft") && (
+                <p className="mt-1 text-sm text-graphite-soft" data-testid="history-returned-before">Returned to Draft by {r.returnedBy} on {fmtDate(r.returnedAt)}, then changed and submitted again.</p>
+              )}
+              {r.returnReason && r.state === "draft" && (
+                <p className="mt-2 rounded-md border border-brass/60 bg-brass-soft/60 px-3 py-1.5 text-sm" data-testid="history-returned">
+                  <span className="font-semibold">Returned to Draft</span> by {r.returnedBy ?? "former staff"}
+                  {r.returnedAt && <> on {fmtDate(r.returnedAt)}</>}: {r.returnReason}
+                </p>
+              )}
             </div>
-            <div className="flex gap-2 text-sm">
-              {rows[i + 1] && <Link className="btn py-1 no-underline" to={`/procedures/${slug}/compare?from=${rows[i + 1].number}&to=${r.number}`}>Compare with {rows[i + 1].number}</Link>}
+            <div className="flex flex-wrap gap-2 text-sm">
+              {rows[i + 1] && <Link className="btn py-1 no-underline" to={`/procedures/${slug}/compare?from=${rows[i + 1].number}&to=${r.number}`}>Compare with revision {rows[i + 1].number}</Link>}
               <Link className="btn py-1 no-underline" to={`/procedures/${slug}/r/${r.number}`}>Open</Link>
             </div>
           </li>

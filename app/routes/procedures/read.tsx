@@ -24,9 +24,7 @@ import {
   specsOf,
   startDraftFrom,
 } from "~/lib/procedures/workflow.server";
-import { db } from "~/lib/db.server";
-import { users } from "~/db/schema";
-import { eq } from "drizzle-orm";
+import { reviewPeople } from "~/lib/procedures/review.server";
 import { ProcedureTestRecords } from "~/components/test-records/parts";
 import { testRecordsForProcedure } from "~/lib/test-records/records.server";
 
@@ -51,18 +49,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (!openVisible) throw data({ message: "This procedure has not been published yet." }, { status: 404 });
     return { procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title }, published: null, open: openVisible, flags, watching: false } as const;
   }
-  const [body, specs, from, marks, watching, author, testRecords] = await Promise.all([
+  const [body, specs, from, marks, watching, people, testRecords] = await Promise.all([
     renderBody(rev.doc as JSONNode),
     specsOf(rev.id),
     linkedFrom(procedure.id),
     marksReferencing(procedure.id),
     isWatching(user.id, procedure.id),
-    rev.authorId ? db().select({ name: users.name }).from(users).where(eq(users.id, rev.authorId)) : Promise.resolve([]),
+    reviewPeople(rev),
     testRecordsForProcedure(procedure.id),
   ]);
   return {
     procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title },
-    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author: author[0]?.name ?? null, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, units: body.units, specs, from, marks },
+    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author: people.author, publishedBy: people.publishedBy, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, units: body.units, specs, from, marks },
     open: openVisible,
     flags,
     watching,
@@ -179,6 +177,7 @@ export default function ReadProcedure({ loaderData, actionData }: Route.Componen
       state="published"
       date={published.publishedAt}
       author={published.author}
+      publishedBy={published.publishedBy}
       html={published.html}
       widgets={published.widgets}
       units={published.units}

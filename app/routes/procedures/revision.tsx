@@ -1,17 +1,15 @@
-import { eq } from "drizzle-orm";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/revision";
 import { readForm } from "~/lib/edge.server";
 import { nulErrors } from "~/lib/forms";
 import "~/components/procedures/procedures.css";
 import { FormError } from "~/components/forms";
-import { RevisionArticle } from "~/components/procedures/RevisionView";
-import { users } from "~/db/schema";
+import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
 import { requirePermission } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import type { JSONNode } from "~/lib/procedures/document";
 import { renderBody } from "~/lib/procedures/render.server";
+import { reviewPeople } from "~/lib/procedures/review.server";
 import { formFailure, procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { available, STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
 import { discardDraft, openRevisionOf, publishRevision, returnRevision, specsOf, startDraftFrom, submitRevision, withdrawRevision } from "~/lib/procedures/workflow.server";
@@ -23,16 +21,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const procedure = await procedureOr404(request, params.slug);
   const rev = await revisionOr404(request, user, procedure, params.number);
   const open = await openRevisionOf(procedure.id);
-  const [body, specs, author] = await Promise.all([
+  const [body, specs, people] = await Promise.all([
     renderBody(rev.doc as JSONNode),
     specsOf(rev.id),
-    rev.authorId ? db().select({ name: users.name }).from(users).where(eq(users.id, rev.authorId)) : Promise.resolve([]),
+    reviewPeople(rev),
   ]);
   const actions = available({ state: rev.state, authorId: rev.authorId }, user, { openRevisionNumber: open && open.id !== rev.id ? open.number : null });
   return {
     slug: procedure.slug,
-    rev: { id: rev.id, number: rev.number, state: rev.state as RevisionState, title: rev.title, summary: rev.summary, tags: rev.tags, changeNote: rev.changeNote, returnReason: rev.returnReason, updatedAt: rev.updatedAt, publishedAt: rev.publishedAt, submittedAt: rev.submittedAt },
-    author: author[0]?.name ?? null,
+    rev: { id: rev.id, number: rev.number, state: rev.state as RevisionState, title: rev.title, summary: rev.summary, tags: rev.tags, changeNote: rev.changeNote, returnReason: rev.returnReason, returnedAt: rev.returnedAt, updatedAt: rev.updatedAt, publishedAt: rev.publishedAt, submittedAt: rev.submittedAt },
+    people,
+    everPublished: Boolean(procedure.publishedRevisionId),
     html: body.html,
     widgets: body.widgets,
     units: body.units,
@@ -85,22 +84,30 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function RevisionPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { slug, rev, author, html, widgets, specs, actions } = loaderData;
+  const { slug, rev, people, everPublished, html, widgets, specs, actions } = loaderData;
   const busy = useNavigation().state !== "idle";
   const errors: Record<string, string> = actionData?.errors ?? {};
   const has = (a: string) => actions.includes(a as never);
+  // Something to compare with: the published revision, or for the published one the revision it replaced.
+  const comparable = everPublished && (rev.state !== "published" || rev.number > 1);
   const banner = (
     <div className="no-print mb-5 space-y-3">
       <p className="rounded-md border border-rule bg-paper-deep/60 px-4 py-2 text-sm">
         You are looking at revision {rev.number} ({STATE_LABELS[rev.state]}).{" "}
-        {rev.state !== "published" && <Link to={`/procedures/${slug}`}>Open the published page</Link>}
-        {" · "}<Link to={`/procedures/${slug}/history`}>History</Link>
-        {" · "}<Link to={`/procedures/${slug}/compare?to=${rev.number}`}>Compare with the published revision</Link>
-        {" · "}<Link to={`/procedures/${slug}/print?rev=${rev.number}`}>Print view</Link>
+        {[
+          everPublished && rev.state !== "published" && <Link key="read" to={`/procedures/${slug}`}>Open the published page</Link>,
+          <Link key="history" to={`/procedures/${slug}/history`}>History</Link>,
+          comparable && <Link key="compare" to={`/procedures/${slug}/compare?to=${rev.number}`}>{rev.state === "published" ? "Compare with the revision before" : "Compare with the published revision"}</Link>,
+          <Link key="print" to={`/procedures/${slug}/print?rev=${rev.number}`}>Print view</Link>,
+        ]
+          .filter(Boolean)
+          .flatMap((l, i) => (i ? [" · ", l] : [l]))}
       </p>
       {rev.changeNote && rev.state !== "draft" && <p className="text-sm"><span className="font-semibold">Change note:</span> {rev.changeNote}</p>}
       {rev.returnReason && rev.state === "draft" && (
-        <p className="rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason"><span className="font-semibold">Returned to Draft:</span> {rev.returnReason}</p>
+        <p className="rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason">
+          <span className="font-semibold">Returned to Draft{people.returnedBy ? ` by ${people.returnedBy}` : ""}{rev.returnedAt ? ` on ${fmtDate(rev.returnedAt)}` : ""}:</span> {rev.returnReason}
+        </p>
       )}
       <FormError message={Object.values(errors)[0]} />
       {actions.length > 0 && (
@@ -138,7 +145,8 @@ export default function RevisionPage({ loaderData, actionData }: Route.Component
       number={rev.number}
       state={rev.state}
       date={rev.publishedAt ?? rev.updatedAt}
-      author={author}
+      author={people.author}
+      publishedBy={people.publishedBy}
       html={html}
       widgets={widgets}
       units={loaderData.units}
