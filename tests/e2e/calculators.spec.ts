@@ -2,16 +2,13 @@
 // agree with the contract's factors, the chart (svg) and the caution. Expected numbers are
 // worked out here from the formulas (T = K·F·d, out-of-round = max − min, bore − piston).
 import { expect, test, type Page } from "@playwright/test";
+import { signIn as signInAs } from "../support/browser";
 
 const LBF = 4.4482216152605; // N per lbf (NIST SP 811)
 const CAUTION = "Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence";
 
 async function signIn(page: Page, email: string, path: string) {
-  await page.goto(`/signin?next=${encodeURIComponent(path)}`);
-  await page.getByLabel("E-mail").fill(email);
-  await page.getByLabel("Password").fill("larkspur-demo");
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await page.waitForURL((u) => u.pathname === path);
+  await signInAs(page, email, path);
   // Hydrated: the no-JS "Calculate" button is gone.
   await expect(page.getByRole("button", { name: "Calculate" })).toHaveCount(0);
 }
@@ -95,7 +92,7 @@ test("Clearances: cold and hot against the spec, out of spec in red, units switc
 
   await page.getByLabel("Piston at the gauge point", { exact: true }).fill("87.912");
   await expect(page.getByTestId("result-clearance")).toHaveText("0.0880");
-  await expect(page.getByTestId("clearance-verdict")).toHaveText("Within spec");
+  await expect(page.getByTestId("clearance-verdict")).toHaveText("Cold clearance within spec");
   await page.getByLabel("Piston at the gauge point", { exact: true }).fill("87.950");
   await expect(page.getByTestId("clearance-verdict")).toContainText("Out of spec");
   await page.getByLabel("Show clearances in").selectOption("thou");

@@ -4,7 +4,7 @@
  * with the compared state overlaid.
  */
 import { convert, unitLabel, type BoreLevel, type UnitCode } from "~/lib/calc";
-import { formatNumber } from "~/lib/calc-ui/units";
+import { decimalsFor, formatNumber } from "~/lib/calc-ui/units";
 import { Legend, Plot, niceTicks } from "./chart";
 
 export interface LevelDots {
@@ -29,6 +29,21 @@ export function fittedDev(level: BoreLevel, angleDeg: number): number {
   return d;
 }
 
+/** How depths are shown: in the unit they were typed in, with as many decimals as were typed. */
+export interface DepthDisplay {
+  unit: UnitCode;
+  decimals: number;
+}
+
+/** A depth (computed in mm) in the unit it was typed in, without the unit: "0.472". */
+export function depthValue(depth_mm: number, d: DepthDisplay): string {
+  return formatNumber(convert(depth_mm, "mm", d.unit), d.decimals);
+}
+
+function depthText(depth_mm: number, d: DepthDisplay): string {
+  return `${depthValue(depth_mm, d)} ${unitLabel(d.unit)}`;
+}
+
 function pathFor(points: [number, number][]): string {
   return points.map(([x, y], i) => `${i ? "L" : "M"}${x.toFixed(2)} ${y.toFixed(2)}`).join(" ") + " Z";
 }
@@ -41,9 +56,11 @@ export function BorePolar({
   factor,
   radius_mm,
   smallUnit,
+  depth,
   mainLabel,
   compareLabel,
 }: {
+  depth: DepthDisplay;
   level: BoreLevel;
   dots: LevelDots["dots"];
   compared?: BoreLevel;
@@ -76,7 +93,7 @@ export function BorePolar({
   const tick = maxTick(level, compared);
   return (
     <figure className="rounded-md border border-rule bg-card p-2" data-testid="bore-polar">
-      <svg viewBox={`0 0 ${S} ${S + 26}`} className="h-auto w-full" role="img" aria-label={`Shape of the bore at ${formatNumber(level.depth_mm, 1)} mm deep, deviations × ${factor}`}>
+      <svg viewBox={`0 0 ${S} ${S + 26}`} className="h-auto w-full" role="img" aria-label={`Shape of the bore at ${depthText(level.depth_mm, depth)} deep, deviations × ${factor}`}>
         <circle cx={c} cy={c} r={R} className="fill-none stroke-graphite-soft" strokeWidth={0.8} strokeDasharray="2 3" />
         {tick > 0 &&
           [-tick, tick].map((t) => <circle key={t} cx={c} cy={c} r={ring(t)} className="fill-none stroke-rule" strokeWidth={0.8} />)}
@@ -98,7 +115,7 @@ export function BorePolar({
           return <circle key={i} cx={x} cy={y} r={2.6} className="fill-brass" />;
         })}
         <text x={6} y={14} className="fill-graphite text-[11px] font-semibold">
-          {formatNumber(level.depth_mm, 1)} mm deep
+          {depthText(level.depth_mm, depth)} deep
         </text>
         <text x={S - 6} y={14} textAnchor="end" className="fill-brass text-[10px] font-semibold" data-testid="exaggeration">
           deviation × {new Intl.NumberFormat("en-US").format(factor)}
@@ -130,6 +147,8 @@ export function BoreProfile({
   compared,
   reference_mm,
   smallUnit,
+  lengthUnit,
+  depth,
   mainLabel,
   compareLabel,
   shape,
@@ -138,6 +157,9 @@ export function BoreProfile({
   compared?: BoreLevel[];
   reference_mm: number;
   smallUnit: UnitCode;
+  /** The unit sizes are shown in (the reference bore in the axis title). */
+  lengthUnit: UnitCode;
+  depth: DepthDisplay;
   mainLabel: string;
   compareLabel: string;
   shape: string;
@@ -149,7 +171,9 @@ export function BoreProfile({
   const pad = (hi - lo) * 0.12 || 1;
   lo -= pad;
   hi += pad;
-  const dMax = Math.max(...all.map((l) => l.depth_mm));
+  // Depths are plotted in the unit they were typed in, so the axis reads as the inputs do.
+  const dIn = (mm: number) => convert(mm, "mm", depth.unit);
+  const dMax = Math.max(...all.map((l) => dIn(l.depth_mm)));
   const depthTop = 0;
   const depthBottom = dMax * 1.08 || 1;
   const H = 300;
@@ -161,11 +185,11 @@ export function BoreProfile({
         xDomain={[lo, hi]}
         yDomain={[depthTop, depthBottom]}
         yDown
-        xTitle={`Diameter minus ${formatNumber(reference_mm, 3)} mm (${unitLabel(smallUnit)})`}
-        yTitle="Depth below the deck (mm)"
+        xTitle={`Diameter minus ${formatNumber(convert(reference_mm, "mm", lengthUnit), decimalsFor(lengthUnit))} ${unitLabel(lengthUnit)} (${unitLabel(smallUnit)})`}
+        yTitle={`Depth below the deck (${unitLabel(depth.unit)})`}
       >
         {(f) => {
-          const y = (depth: number) => f.y(depth);
+          const y = (depth_mm: number) => f.y(dIn(depth_mm));
           const band = (ls: BoreLevel[]) =>
             [...ls.map((l) => `${f.x(dx(l.minDiameter_mm))},${y(l.depth_mm)}`), ...[...ls].reverse().map((l) => `${f.x(dx(l.maxDiameter_mm))},${y(l.depth_mm)}`)].join(" ");
           const mean = (ls: BoreLevel[]) => ls.map((l) => `${f.x(dx(l.meanDiameter_mm))},${y(l.depth_mm)}`).join(" ");

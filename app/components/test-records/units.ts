@@ -1,6 +1,7 @@
 // Unit text for test-record pages. Kept apart from parts.tsx so that pages listing records
 // (the procedure read page, the shop floor) do not ship the calc module.
-import { unitLabel, type UnitCode } from "~/lib/calc";
+import { isUnitCode, unitLabel, type UnitCode } from "~/lib/calc";
+import { formatMeasured, specDecimals } from "~/lib/calc-ui/units";
 import { fmtNum } from "./parts";
 
 export function unitText(u: string): string {
@@ -19,3 +20,12 @@ export function limitsText(s: { min: number | null; max: number | null; nominal?
   return s.nominal != null ? `nominal ${fmtNum(s.nominal)} ${u} (no limit)` : "no limit";
 }
 
+
+/**
+ * A reading converted into its spec's unit, at the resolution it was typed with (or the spec's,
+ * whichever is finer), with the unit: "110 N·m" for 81 ft·lbf. The exact value stays stored.
+ */
+export function inSpecUnitText(r: { valueEntered: number; unitEntered: string }, s: { unit: string; min: number | null; max: number | null; nominal?: number | null }): string {
+  if (!isUnitCode(r.unitEntered) || !isUnitCode(s.unit)) return "—";
+  return `${formatMeasured(r.valueEntered, r.unitEntered, s.unit, specDecimals(s))} ${unitText(s.unit)}`;
+}

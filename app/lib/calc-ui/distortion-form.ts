@@ -4,7 +4,7 @@
  * function that turns the typed values into the calculator's input and result.
  */
 import { calculateDistortion, type DistortionResult } from "~/lib/calc";
-import { DEFAULT_UNITS, fieldValue, parseNumber, type UnitSystem } from "./units";
+import { DEFAULT_UNITS, fieldValue, parseNumber, systemOf, type UnitSystem } from "./units";
 import { readQuantity, runChecked, type FieldErrors, type FormValues, type Outcome } from "./outcome";
 
 export const MAX_DEPTHS = 12;
@@ -52,6 +52,12 @@ export function distortionDefaults(system: UnitSystem): FormValues {
   DEMO_PLATE.forEach((row, i) => row.forEach((d, j) => (v[`m.${i}.${j}`] = fieldValue(d, "mm", u.length, system === "inch" ? 1 : 0, true))));
   DEMO_FREE.forEach((row, i) => row.forEach((d, j) => (v[`c.${i}.${j}`] = fieldValue(d, "mm", u.length, system === "inch" ? 1 : 0, true))));
   return v;
+}
+
+/** Result units in the readings' own system: sizes in mm or in, deviations in µm or thou. */
+export function resultUnitsOfReadings(values: FormValues): FormValues {
+  const system = systemOf(values["reading.unit"]);
+  return { ...values, "out.length": DEFAULT_UNITS[system].length, "out.small": system === "inch" ? "thou" : "um" };
 }
 
 /** A list of numbers typed as "12, 45, 80" (commas, semicolons or spaces). */

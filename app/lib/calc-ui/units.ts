@@ -23,6 +23,28 @@ export const DEFAULT_UNITS: Record<UnitSystem, { length: UnitCode; small: UnitCo
   inch: { length: "in", small: "thou", torque: "ft.lbf", force: "lbf", temperature: "degF", stress: "ksi", modulus: "ksi" },
 };
 
+const INCH_UNITS: ReadonlySet<string> = new Set(["in", "thou", "ft.lbf", "in.lbf", "lbf", "ksi", "psi", "degF"]);
+
+/**
+ * The unit system a unit belongs to: a result is shown first in the system of its inputs, not
+ * the account's (metric readings in an inch account give millimetres; the other system is a
+ * click away).
+ */
+export function systemOf(unit: string | undefined, fallback: UnitSystem = "metric"): UnitSystem {
+  if (!unit || !isUnitCode(unit)) return fallback;
+  return INCH_UNITS.has(unit) ? "inch" : "metric";
+}
+
+/**
+ * Result units that follow an input's unit system: after the person types an input in another
+ * system, each named result field shows in that system's default ({ "out.force": "force" }).
+ * The person can still pick the other system for a result afterwards.
+ */
+export function followInputSystem(next: Record<string, string>, inputUnit: string, fields: Record<string, keyof (typeof DEFAULT_UNITS)["metric"]>): void {
+  const units = DEFAULT_UNITS[systemOf(inputUnit)];
+  for (const [field, kind] of Object.entries(fields)) next[field] = units[kind];
+}
+
 const DECIMALS: Partial<Record<UnitCode, number>> = {
   mm: 3,
   um: 1,
@@ -63,6 +85,40 @@ export function formatIn(value: number, from: UnitCode, to: UnitCode, extraDecim
 /** Converts and formats with the unit label ("76.39 kN"). */
 export function formatQ(value: number, from: UnitCode, to: UnitCode, extraDecimals = 0): string {
   return `${formatIn(value, from, to, extraDecimals)} ${unitLabel(to)}`;
+}
+
+/** Decimals of a number as it was typed (its shortest text): 88.006 → 3, 81 → 0, 2.5e-3 → 4. */
+export function decimalsOf(x: number): number {
+  if (!Number.isFinite(x)) return 0;
+  const [mantissa, exp] = String(Math.abs(x)).split("e");
+  const frac = mantissa.split(".")[1]?.length ?? 0;
+  return Math.max(0, frac - Number(exp ?? 0));
+}
+
+/** Decimals that show a step of `step` (in the unit shown): 0.136 → 1, 0.0254 → 2, 1.36 → 0. */
+function decimalsForStep(step: number): number {
+  if (!(step > 0) || !Number.isFinite(step)) return 0;
+  return Math.min(9, Math.max(0, Math.ceil(-Math.log10(step) - 1e-9)));
+}
+
+/**
+ * A value typed in `from`, shown in `to` with the resolution it was measured with: one step of
+ * its last typed digit, converted, decides the decimals (81 ft·lbf is 1.36 N·m a step, so
+ * "110 N·m", not "109.8212538"), and never fewer than `atLeast` (the spec's own decimals, so a
+ * reading lines up with the limits it is compared with). Only the text is rounded: the value
+ * kept and checked stays exact. In the unit it was typed in, it reads as typed.
+ */
+export function formatMeasured(typed: number, from: UnitCode, to: UnitCode, atLeast = 0): string {
+  const own = decimalsOf(typed);
+  if (from === to) return formatNumber(typed, Math.max(own, atLeast));
+  // A step as a difference, so temperatures (with an offset) convert their step, not a point.
+  const step = Math.abs(convert(typed + 10 ** -own, from, to) - convert(typed, from, to));
+  return formatNumber(convert(typed, from, to), Math.max(decimalsForStep(step), atLeast));
+}
+
+/** The decimals a spec is written with (the most of its min, max and nominal). */
+export function specDecimals(s: { min?: number | null; max?: number | null; nominal?: number | null }): number {
+  return Math.max(0, ...[s.min, s.max, s.nominal].filter((x): x is number => x != null).map(decimalsOf));
 }
 
 /** A value given in `from`, rounded for a form field in `to` (defaults in the person's units). */

@@ -1,7 +1,7 @@
 import { describe, expect, test } from "vitest";
 import { ZodError } from "zod";
 import { hotPistonToWall } from "../../../tests/support/calc-inputs";
-import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_FACTORS, calculateClearance, convert, materialById } from "./index";
+import { HOT_CLEARANCE_MIN_PER_DIAMETER, MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_FACTORS, calculateClearance, convert, materialById } from "./index";
 
 describe("thermal expansion coefficients against named handbook tables", () => {
   test("Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (10⁻⁶ /°C)", () => {
@@ -108,6 +108,37 @@ describe("piston-to-wall", () => {
     // common spellings of the table's ids are accepted
     const alias = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, thermal: { ...thermal, pistonMaterial: "2618" } });
     expect(alias.hotClearance_mm).toBeCloseTo(hotBore - hotPiston, 12);
+  });
+
+  test("a hot clearance near zero is a warning of its own, whatever the cold verdict says", () => {
+    // ΔD = D·α·ΔT with the coefficients given directly (grey iron 11.4e-6, Callister B.6; 2618 22.3e-6, ASM Vol. 2):
+    // hot bore   = 88.000 × (1 + 11.4e-6 × 80) = 88.080256 mm
+    // hot piston = 87.935 × (1 + 22.3e-6 × 70) = 88.0722666… mm → hot clearance 0.0079895 mm
+    // The limit, 0.00025 in per in of bore (0.022 mm here), is common practice, no published source.
+    const thermal = (pistonC: number) => ({
+      ambient: { value: 20, unit: "degC" as const },
+      boreTemperature: { value: 100, unit: "degC" as const },
+      pistonTemperature: { value: pistonC, unit: "degC" as const },
+      boreMaterial: { alphaPerK: 11.4e-6 },
+      pistonMaterial: { alphaPerK: 22.3e-6 },
+    });
+    const spec = { min: { value: 0.05, unit: "mm" as const }, max: { value: 0.08, unit: "mm" as const } };
+    const tight = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.935, unit: "mm" }, thermal: thermal(90), spec });
+    expect(tight.hotClearance_mm).toBeCloseTo(88 * (1 + 11.4e-6 * 80) - 87.935 * (1 + 22.3e-6 * 70), 12);
+    expect(tight.hotClearance_mm).toBeCloseTo(0.008, 3);
+    expect(tight.verdict).toBe("within"); // the cold clearance, 0.065 mm, is within 0.05–0.08
+    expect(tight.hotCaution).toBe("tight");
+    expect(tight.warnings.join(" ")).toMatch(/Hot clearance is near zero/);
+    expect(HOT_CLEARANCE_MIN_PER_DIAMETER * 88).toBeCloseTo(0.022, 12);
+    // 87.90 mm at 90 °C: hot clearance 88.080256 − 88.0372119 = 0.0430 mm, over the limit: no caution.
+    const roomy = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.9, unit: "mm" }, thermal: thermal(90) });
+    expect(roomy.hotClearance_mm).toBeCloseTo(0.043044, 5);
+    expect(roomy.hotCaution).toBeUndefined();
+    expect(roomy.warnings).toEqual([]);
+    // negative: the seize warning, not the near-zero one
+    const seize = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, thermal: thermal(150) });
+    expect(seize.hotCaution).toBe("seize");
+    expect(seize.warnings.join(" ")).not.toMatch(/near zero/);
   });
 
   test("a piston larger than its bore gives a negative clearance with a warning", () => {

@@ -14,6 +14,12 @@ export interface ClearanceResult {
   clearance_mm: number;
   /** Piston-to-wall with thermal input: grown bore minus grown piston. */
   hotClearance_mm?: number;
+  /**
+   * What the hot clearance warns of: "seize" when it is negative (interference), "tight" when it
+   * is under HOT_CLEARANCE_MIN_PER_DIAMETER of the bore. Absent when it is neither. The verdict
+   * judges the cold clearance only.
+   */
+  hotCaution?: "seize" | "tight";
   /** Clearance per unit of diameter (inch per inch, dimensionless): piston-to-wall and bearing. */
   perInchOfDiameter?: number;
   /** Ring gap: bore in inches × gap factor, in mm. */
@@ -26,6 +32,14 @@ export interface ClearanceResult {
 type Q = { value: number; unit: UnitCode };
 const mm = (q: Q) => toSI(q.value, q.unit) * 1000;
 const fmt = (x: number) => `${Number(x.toPrecision(5))} mm (${Number((x / 25.4).toPrecision(4))} in)`;
+
+/**
+ * A hot piston-to-wall clearance under this much per unit of bore diameter (0.00025 in per in,
+ * 0.022 mm on an 88 mm bore) is too little to carry an oil film at running temperature: it is
+ * warned about as near zero. Common practice, no published source; the piston maker's running
+ * clearance takes precedence.
+ */
+export const HOT_CLEARANCE_MIN_PER_DIAMETER = 0.00025;
 
 /** Upper end of the default ring-gap band without a spec: recommended gap × this factor (shop guidance). */
 export const RING_GAP_BAND_FACTOR = 1.25;
@@ -103,8 +117,15 @@ export function calculateClearance(input: ClearanceInput): ClearanceResult {
       const hotBore = bore * (1 + alphaOf(t.boreMaterial) * dTb);
       const hotPiston = piston * (1 + alphaOf(t.pistonMaterial) * dTp);
       result.hotClearance_mm = hotBore - hotPiston;
-      if (result.hotClearance_mm < 0)
+      if (result.hotClearance_mm < 0) {
+        result.hotCaution = "seize";
         warnings.push(`Hot clearance is negative (${fmt(result.hotClearance_mm)}): the piston would seize at these temperatures.`);
+      } else if (result.hotClearance_mm < HOT_CLEARANCE_MIN_PER_DIAMETER * bore) {
+        result.hotCaution = "tight";
+        warnings.push(
+          `Hot clearance is near zero (${fmt(result.hotClearance_mm)}, under ${fmt(HOT_CLEARANCE_MIN_PER_DIAMETER * bore)} for this bore): at these temperatures the piston would run with almost no oil film and could scuff or seize, whatever the cold clearance.`,
+        );
+      }
       if (dTp < 0 || dTb < 0) warnings.push("A part is colder than ambient; check the temperatures.");
       temperatureWarnings("bore", boreT, t.boreMaterial, warnings);
       temperatureWarnings("piston", pistonT, t.pistonMaterial, warnings);

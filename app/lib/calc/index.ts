@@ -102,5 +102,5 @@ export {
   type BoreOrder,
   type DistortionDifference,
 } from "./distortion";
-export { calculateClearance, RING_GAP_BAND_FACTOR, type ClearanceResult } from "./clearance";
+export { calculateClearance, HOT_CLEARANCE_MIN_PER_DIAMETER, RING_GAP_BAND_FACTOR, type ClearanceResult } from "./clearance";
 export { failWith, failWithIssues, type CalcIssue } from "./errors";

@@ -81,11 +81,19 @@ export function runCalculator(kind: CalcKind, preset: unknown): CalcOutcome {
       return { ok: true, rows, warnings: r.warnings };
     }
     const r = calculateClearance(preset as ClearanceInput);
-    const rows: ResultRow[] = [{ label: "Clearance", value: `${f(r.clearance_mm, 3)} mm (${f(r.clearance_mm / 0.0254, 2)} thou)` }];
-    if (r.hotClearance_mm != null) rows.push({ label: "Hot clearance", value: `${f(r.hotClearance_mm, 3)} mm` });
+    const input = preset as ClearanceInput;
+    // Each verdict names what it judges: the spec judges the cold clearance; the hot one has its own caution.
+    const judged = input.kind === "piston-to-wall" ? "Cold clearance" : input.kind === "bearing" ? "Oil clearance" : "Gap";
+    const rows: ResultRow[] = [{ label: r.hotClearance_mm != null ? "Cold clearance" : "Clearance", value: `${f(r.clearance_mm, 3)} mm (${f(r.clearance_mm / 0.0254, 2)} thou)` }];
+    if (r.hotClearance_mm != null)
+      rows.push({
+        label: "Hot clearance",
+        value: `${f(r.hotClearance_mm, 3)} mm${r.hotCaution === "seize" ? " (negative: would seize)" : r.hotCaution === "tight" ? " (near zero: too tight)" : ""}`,
+        tone: r.hotCaution ? "bad" : undefined,
+      });
     if (r.perInchOfDiameter != null) rows.push({ label: "Per inch of diameter", value: `${f(r.perInchOfDiameter * 1000, 2)} thou/in` });
     if (r.recommendedGap_mm != null) rows.push({ label: "Recommended gap", value: `${f(r.recommendedGap_mm, 3)} mm` });
-    if (r.verdict) rows.push({ label: "Against spec", value: r.verdict === "within" ? "Within spec" : r.verdict === "below" ? "Out of spec (below)" : "Out of spec (above)", tone: r.verdict === "within" ? "ok" : "bad" });
+    if (r.verdict) rows.push({ label: `${judged} against spec`, value: r.verdict === "within" ? "Within spec" : r.verdict === "below" ? "Out of spec (below)" : "Out of spec (above)", tone: r.verdict === "within" ? "ok" : "bad" });
     return { ok: true, rows, warnings: r.warnings };
   } catch (err) {
     return { ok: false, message: (err as Error).message };

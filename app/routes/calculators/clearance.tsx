@@ -10,7 +10,7 @@ import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_BAND_FACTOR, RING_GAP_FACTORS, 
 import { requirePermission } from "~/lib/auth.server";
 import { BORE_MATERIALS, CLEARANCE_KINDS, PISTON_MATERIALS, clearanceDefaults, runClearanceForm, type ClearanceKind } from "~/lib/calc-ui/clearance-form";
 import { formValues, type FormValues, type Outcome } from "~/lib/calc-ui/outcome";
-import { formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
+import { followInputSystem, formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Clearances · Calculators · Benchreel" }];
 
@@ -40,6 +40,8 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
         if (f) next.gapPerBore = String(f.gapPerBore);
       }
       if (name === "gapPerBore") next.application = "custom";
+      // Clearances show first in the system the parts were measured in.
+      if (name === "bore.unit" || name === "journal.unit") followInputSystem(next, value, { "out.small": "small" });
     },
   });
   const show = (cond: boolean) => cond || !hydrated;
@@ -157,10 +159,11 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
             const r = outcome.result as ClearanceResult;
             const su = unitOr(values["out.small"], "mm");
             const out = r.verdict === "below" || r.verdict === "above";
+            const judged = judgedOf(outcome.kind, outcome.input);
             return (
               <ResultPeek
-                bad={out || (r.hotClearance_mm ?? 0) < 0}
-                note={out ? `Out of spec (${r.verdict})` : r.verdict === "within" ? "Within spec" : undefined}
+                bad={out || r.hotCaution !== undefined}
+                note={[r.verdict ? `${judged} ${out ? `out of spec (${r.verdict})` : "within spec"}` : null, r.hotCaution ? HOT_CAUTION_TEXT[r.hotCaution] : null].filter(Boolean).join(" · ") || undefined}
                 items={[
                   ["Clearance", formatQ(r.clearance_mm, "mm", su, 1)],
                   ...(r.hotClearance_mm !== undefined ? [["Hot", formatQ(r.hotClearance_mm, "mm", su, 1)] as [string, string]] : []),
@@ -214,7 +217,8 @@ function ClearanceResultView({ outcome, values, set }: { outcome: ClearanceOutco
   const input = outcome.input as { spec?: { min?: Q; max?: Q }; journal?: Q; bore?: Q };
   const mm = (q?: Q) => (q ? toSI(q.value, q.unit as UnitCode) * 1000 : undefined);
   const out = r.verdict === "below" || r.verdict === "above";
-  const hotBad = r.hotClearance_mm !== undefined && r.hotClearance_mm < 0;
+  const hotBad = r.hotCaution !== undefined;
+  const judged = judgedOf(kind, outcome.input);
   const markers: Marker[] = [];
   let band: { min_mm?: number; max_mm?: number } | undefined = input.spec ? { min_mm: mm(input.spec.min), max_mm: mm(input.spec.max) } : undefined;
   let bandLabel = "Spec";
@@ -238,8 +242,14 @@ function ClearanceResultView({ outcome, values, set }: { outcome: ClearanceOutco
       className={`inline-flex rounded-md px-3 py-1 text-sm font-semibold ${out ? "bg-spec-red-soft text-spec-red" : "bg-ok-soft text-ok"}`}
       role={out ? "alert" : undefined}
     >
-      {out ? `Out of spec: ${r.verdict} the ${r.verdict === "below" ? "minimum" : "maximum"}` : "Within spec"}
+      {out ? `${judged} out of spec: ${r.verdict} the ${r.verdict === "below" ? "minimum" : "maximum"}` : `${judged} within spec`}
       {kind === "ring-gap" && !input.spec ? " (against the shop guidance band)" : ""}
+    </p>
+  );
+  // The verdict judges the cold clearance only: the hot one says its own, beside it.
+  const hotVerdict = r.hotCaution && (
+    <p data-testid="hot-verdict" role="alert" className="inline-flex rounded-md bg-spec-red-soft px-3 py-1 text-sm font-semibold text-spec-red">
+      {HOT_CAUTION_TEXT[r.hotCaution]}
     </p>
   );
   const mainLabel = kind === "piston-to-wall" ? "Cold clearance" : kind === "bearing" ? "Oil clearance" : (outcome.input as { measuredGap?: Q }).measuredGap ? "Measured gap" : "Recommended gap";
@@ -255,8 +265,8 @@ function ClearanceResultView({ outcome, values, set }: { outcome: ClearanceOutco
           <Figure label={kind === "bearing" ? "Per inch of journal" : "Per inch of bore"} value={`${formatNumber(r.perInchOfDiameter * 1000, 2)} thou/in`} />
         )}
       </div>
-      {verdict}
-      <Warnings warnings={r.warnings} red={(w) => /spec|seize|interference|butt|negative|melt/i.test(w)} />
+      {(verdict || hotVerdict) && <div className="flex flex-wrap gap-2">{verdict}{hotVerdict}</div>}
+      <Warnings warnings={r.warnings} red={(w) => /spec|seize|interference|butt|negative|melt|near zero/i.test(w)} />
       <Caution />
       <ClearanceChart markers={markers} band={band} bandLabel={bandLabel} unit={su} />
       <CopyBlock calculator="clearance" input={outcome.input} />
@@ -264,3 +274,15 @@ function ClearanceResultView({ outcome, values, set }: { outcome: ClearanceOutco
   );
 }
 type Q = { value: number; unit: string };
+
+/** What a clearance verdict judges, named in its words ("Cold clearance within spec"). */
+function judgedOf(kind: string | undefined, input: unknown): string {
+  if (kind === "piston-to-wall") return "Cold clearance";
+  if (kind === "bearing") return "Oil clearance";
+  return (input as { measuredGap?: Q } | undefined)?.measuredGap ? "Measured gap" : "Recommended gap";
+}
+
+const HOT_CAUTION_TEXT: Record<NonNullable<ClearanceResult["hotCaution"]>, string> = {
+  seize: "Hot clearance negative: the piston would seize",
+  tight: "Hot clearance near zero: too tight to run",
+};

@@ -12,7 +12,7 @@ import { can } from "~/lib/permissions";
 import { SaveAsReadings } from "~/components/calc/SaveAsReadings";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
 import { DEFAULT_MODULUS_GPA, UNIFIED_STRESS_AREA_NOTE, d3Label, preloadDefaults, runPreloadForm, type PreloadOutcome } from "~/lib/calc-ui/preload-form";
-import { formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
+import { followInputSystem, formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Preload · Calculators · Benchreel" }];
 
@@ -41,6 +41,9 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
         if (p?.k !== undefined) next["method.k"] = String(p.k);
       }
       if (name === "method.k") next.nutCondition = "custom";
+      // Results show first in the system of what was typed.
+      if (name === "torque.unit") followInputSystem(next, value, { "out.force": "force", "out.stress": "stress" });
+      if (name === "preload.unit") followInputSystem(next, value, { "out.torque": "torque", "out.stress": "stress" });
     },
   });
   const show = (cond: boolean) => cond || !hydrated;

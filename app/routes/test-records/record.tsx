@@ -13,6 +13,7 @@ import { redirectWithFlash } from "~/lib/flash.server";
 import { can } from "~/lib/permissions";
 import { groupOfNote, isBoreSpec, isClearanceSpec, isPistonSpec, positionFromNote, runDistortion, runPistonToWall } from "~/lib/test-records/calcs";
 import { limitsOf } from "~/lib/test-records/limits";
+import { formatNumber, formatQ } from "~/lib/calc-ui/units";
 import { getTestRecord, saveCalcRun } from "~/lib/test-records/records.server";
 import { RECORD_VERDICT_LABELS } from "~/lib/test-records/labels";
 
@@ -80,7 +81,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 function mm(x: number | undefined) {
-  return x == null || !Number.isFinite(x) ? "—" : `${Number(x.toFixed(4))} mm`;
+  return x == null || !Number.isFinite(x) ? "—" : formatQ(x, "mm", "mm", 1);
 }
 
 function CalcResult({ kind, result }: { kind: string; result: unknown }) {
@@ -115,8 +116,8 @@ function CalcResult({ kind, result }: { kind: string; result: unknown }) {
   return (
     <div className="text-sm">
       <p className="num">
-        Clearance <strong>{mm(r.clearance_mm)}</strong> ({fmtNum(r.clearance_mm / 25.4, 4)} in)
-        {r.perInchOfDiameter != null && <> · {fmtNum(r.perInchOfDiameter * 1000, 3)} thou per inch of bore</>}
+        Clearance <strong>{mm(r.clearance_mm)}</strong> ({formatQ(r.clearance_mm, "mm", "thou")})
+        {r.perInchOfDiameter != null && <> · {formatNumber(r.perInchOfDiameter * 1000, 2)} thou per inch of bore</>}
         {r.verdict && (
           <> · <span className={r.verdict === "within" ? "font-semibold text-ok" : "font-semibold text-spec-red"}>{r.verdict === "within" ? "within the clearance spec" : r.verdict === "below" ? "below the clearance spec (tight)" : "above the clearance spec (loose)"}</span></>
         )}
