@@ -1,16 +1,16 @@
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/distortion";
 import { readForm } from "~/lib/edge.server";
-import { BorePolar, BoreProfile, exaggerationFor, type LevelDots } from "~/components/calc/BoreCharts";
+import { BorePolar, BoreProfile, depthValue, exaggerationFor, type DepthDisplay, type LevelDots } from "~/components/calc/BoreCharts";
 import { Caution, Check, Choice, CopyBlock, Fieldset, Method, QuantityField, TextField, UnitSelect, Warnings, useHydrated, type SetValue } from "~/components/calc/controls";
 import { NoResult, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
 import { useCalcForm } from "~/components/calc/useCalcForm";
 import { TWO_POINT_GAUGE_NOTE, toSI, unitLabel, type BoreLevel, type BoreStateResult, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
-import { DEFAULT_ANGLES, distortionDefaults, profileShape, runDistortionForm, type DistortionOutcome } from "~/lib/calc-ui/distortion-form";
+import { DEFAULT_ANGLES, distortionDefaults, profileShape, resultUnitsOfReadings, runDistortionForm, type DistortionOutcome } from "~/lib/calc-ui/distortion-form";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
-import { formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
+import { decimalsOf, formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Bore distortion · Calculators · Benchreel" }];
 
@@ -30,9 +30,11 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
   const hydrated = useHydrated();
   const { values, outcome, set } = useCalcForm<DistortionOutcome>({
     actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
-    defaults: () => distortionDefaults(loaderData.unitSystem),
+    // Results open in the readings' units (metric readings in an inch account show in mm and µm).
+    defaults: () => resultUnitsOfReadings(distortionDefaults(loaderData.unitSystem)),
     run: runDistortionForm,
     derive: (next, name, value, v) => {
+      if (name === "reading.unit") Object.assign(next, resultUnitsOfReadings(next));
       if (name === "mode") {
         const other = value === "radial" ? DEFAULT_ANGLES.diametral : DEFAULT_ANGLES.radial;
         if (v.angles?.replace(/\s/g, "") === other.replace(/\s/g, "")) next.angles = value === "radial" ? DEFAULT_ANGLES.radial : DEFAULT_ANGLES.diametral;
@@ -273,6 +275,7 @@ function DistortionResultView({ outcome, values, set }: { outcome: DistortionOut
         ? "Straight (no barrel or hourglass)"
         : `${shape.shape === "barrel" ? "Barrel" : "Hourglass"}: middle ${formatIn(Math.abs(shape.bulge_mm), "mm", su)} ${unitLabel(su)} ${shape.bulge_mm > 0 ? "wide" : "narrow"} of the straight line`;
   const small = (mm: number) => `${formatIn(mm, "mm", su)}`;
+  const depth: DepthDisplay = { unit: unitOr(values["depth.unit"], "mm"), decimals: Math.max(0, ...outcome.depths.map(decimalsOf)) };
   return (
     <section className="card grid gap-6" data-testid="calc-result" aria-live="polite" aria-label="Result">
       <div className="flex flex-wrap items-start justify-between gap-4">
@@ -312,6 +315,7 @@ function DistortionResultView({ outcome, values, set }: { outcome: DistortionOut
                 factor={factor}
                 radius_mm={reference_mm / 2}
                 smallUnit={su}
+                depth={depth}
                 mainLabel={mainLabel}
                 compareLabel={compareLabel}
               />
@@ -326,12 +330,12 @@ function DistortionResultView({ outcome, values, set }: { outcome: DistortionOut
       <div className="grid items-start gap-6 lg:grid-cols-2">
         <div>
           <h3 className="mb-2 text-lg">Diameter along the bore</h3>
-          <BoreProfile levels={r.levels} compared={r.compared?.levels} reference_mm={reference_mm} smallUnit={su} mainLabel={mainLabel} compareLabel={compareLabel} shape={shapeText} />
+          <BoreProfile levels={r.levels} compared={r.compared?.levels} reference_mm={reference_mm} smallUnit={su} lengthUnit={lu} depth={depth} mainLabel={mainLabel} compareLabel={compareLabel} shape={shapeText} />
         </div>
         <div className="overflow-x-auto">
           <h3 className="mb-2 text-lg">Figures by depth</h3>
-          <LevelTable title={mainLabel} levels={r.levels} lu={lu} su={su} small={small} />
-          {r.compared && <LevelTable title={compareLabel} levels={r.compared.levels} lu={lu} su={su} small={small} />}
+          <LevelTable title={mainLabel} levels={r.levels} lu={lu} su={su} depth={depth} small={small} />
+          {r.compared && <LevelTable title={compareLabel} levels={r.compared.levels} lu={lu} su={su} depth={depth} small={small} />}
         </div>
       </div>
       <CopyBlock calculator="distortion" input={outcome.input} />
@@ -363,14 +367,14 @@ function Summary({ title, s, su, testId }: { title: string; s: BoreStateResult; 
   );
 }
 
-function LevelTable({ title, levels, lu, su, small }: { title: string; levels: BoreLevel[]; lu: UnitCode; su: UnitCode; small: (mm: number) => string }) {
+function LevelTable({ title, levels, lu, su, depth, small }: { title: string; levels: BoreLevel[]; lu: UnitCode; su: UnitCode; depth: DepthDisplay; small: (mm: number) => string }) {
   const orders = [...new Set(levels.flatMap((l) => l.orders.map((o) => o.order)))].sort((a, b) => a - b).slice(0, 4);
   return (
     <table className="mb-4 w-full text-sm">
       <caption className="mb-1 text-left text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">{title}</caption>
       <thead>
         <tr className="text-left text-xs text-graphite-soft">
-          <th className="py-1 pr-2 font-semibold">Depth, mm</th>
+          <th className="py-1 pr-2 font-semibold">Depth, {unitLabel(depth.unit)}</th>
           <th className="py-1 pr-2 text-right font-semibold">Mean, {unitLabel(lu)}</th>
           <th className="py-1 pr-2 text-right font-semibold">Out-of-round, {unitLabel(su)}</th>
           {orders.map((k) => (
@@ -383,7 +387,7 @@ function LevelTable({ title, levels, lu, su, small }: { title: string; levels: B
       <tbody>
         {levels.map((l) => (
           <tr key={l.depth_mm} className="num border-t border-rule/70">
-            <td className="py-1 pr-2">{formatNumber(l.depth_mm, 1)}</td>
+            <td className="py-1 pr-2">{depthValue(l.depth_mm, depth)}</td>
             <td className="py-1 pr-2 text-right">{formatIn(l.meanDiameter_mm, "mm", lu, 1)}</td>
             <td className="py-1 pr-2 text-right">{small(l.outOfRound_mm)}</td>
             {orders.map((k) => {
