@@ -2,8 +2,9 @@ import { Form, Link, useSearchParams } from "react-router";
 import type { Route } from "./+types/search";
 import { EmptyState, PageHeader } from "~/components/page";
 import { Highlighted } from "~/components/search/Highlighted";
+import { ReadingMatches } from "~/components/search/ReadingMatches";
 import { requirePermission } from "~/lib/auth.server";
-import { clock, KIND_LABELS, STATE_LABELS } from "~/lib/search/highlight";
+import { clock, KIND_LABELS, opensAtText, STATE_LABELS } from "~/lib/search/highlight";
 import { indexIsBehind, runSearch, searchParamsSchema, type SearchResponse } from "~/lib/search/query.server";
 import { can } from "~/lib/permissions";
 import { wordGroupLists } from "~/lib/search/words.server";
@@ -92,7 +93,7 @@ export default function Search({ loaderData }: Route.ComponentProps) {
                       const active = params.get(f.param) === value;
                       return (
                         <li key={value}>
-                          <Link to={withParam(f.param, value)} className={`flex justify-between rounded px-2 py-1 no-underline ${active ? "bg-brass-soft font-semibold text-graphite" : "text-graphite hover:bg-paper-deep"}`} data-testid={`facet-${f.key}`}>
+                          <Link to={withParam(f.param, value)} className={`flex min-h-11 items-center justify-between rounded px-2 py-1 no-underline lg:min-h-0 ${active ? "bg-brass-soft font-semibold text-graphite" : "text-graphite hover:bg-paper-deep"}`} data-testid={`facet-${f.key}`}>
                             <span>{f.label ? f.label(value) : value}</span>
                             <span className="num text-graphite-soft">{count}</span>
                           </Link>
@@ -106,21 +107,24 @@ export default function Search({ loaderData }: Route.ComponentProps) {
           </aside>
           <section aria-label="Results">
             <p className="mb-3 text-sm text-graphite-soft" data-testid="search-total">
-              {result.total === 0 ? "No matches." : `${result.total} match${result.total === 1 ? "" : "es"}`} {q && <>for “{q}”</>}
+              {result.total === 0 ? "Nothing found" : `${result.total} match${result.total === 1 ? "" : "es"}`}
+              {q ? <> for “{q}”</> : null}
+              {result.total === 0 ? ". Try fewer words, or another word for the same thing." : null}
             </p>
             <ol className="space-y-3">
               {result.hits.map((h) => (
                 <li key={h.id} className="card py-3" data-testid="search-result">
                   <div className="flex flex-wrap items-baseline gap-x-3 gap-y-1">
                     <span className="rounded bg-paper-deep px-1.5 py-0.5 text-xs font-semibold text-graphite-soft">{KIND_LABELS[h.kind] ?? h.kind}</span>
-                    <Link to={h.url} className="font-serif text-lg">
+                    <Link to={h.url} reloadDocument={opensAtText(h.url)} className="font-serif text-lg">
                       <Highlighted text={h.title} />
                     </Link>
-                    {h.t != null && <span className="num text-sm text-teal">at {clock(h.t)}</span>}
+                    {h.t != null && h.kind !== "reading" && <span className="num text-sm text-teal">at {clock(h.t)}</span>}
                     {h.state && h.state !== "published" && <span className="text-xs font-semibold text-brass">{STATE_LABELS[h.state] ?? h.state}</span>}
                   </div>
                   {h.context && <p className="text-sm text-graphite-soft">{h.context}</p>}
                   {h.snippet && <p className="mt-1 text-sm"><Highlighted text={h.snippet} /></p>}
+                  <ReadingMatches hit={h} />
                 </li>
               ))}
             </ol>

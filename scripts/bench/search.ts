@@ -14,7 +14,7 @@ import { marks, recordings, searchOutbox } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { Meilisearch } from "meilisearch";
 import { env } from "~/lib/env.server";
-import { INDEX_UID, nodeHttpClient, SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
+import { INDEX_UID, KIND_WEIGHT, nodeHttpClient, SEARCH_SETTINGS, searchIndex, type SearchDoc } from "~/lib/search/client.server";
 import { reindexAll, repairIndex, withSearchLock } from "~/lib/search/indexer.server";
 import { currentSynonyms } from "~/lib/search/words.server";
 import { searchParamsSchema, searchRequest } from "~/lib/search/query.server";
@@ -55,6 +55,7 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     visibility: ["all"],
     url: "/",
     date: now,
+    kindWeight: KIND_WEIGHT[d.kind],
   }));
 
   // The worker's index check rebuilds a fresh service's index from PostgreSQL once, which also

@@ -176,7 +176,7 @@ describe("search", () => {
     // 2. The index is there but with the service's default settings, and holds a document the
     //    database does not know: rebuilt with ours, and the stray document removed.
     await searchIndex().resetSettings().waitTask();
-    await searchIndex().addDocuments([{ id: stray, kind: "mark", title: "stray", text: "stray", tags: [], visibility: ["all"], url: "/", date: 0 }], { primaryKey: "id" }).waitTask();
+    await searchIndex().addDocuments([{ id: stray, kind: "mark", title: "stray", text: "stray", tags: [], visibility: ["all"], url: "/", date: 0, kindWeight: 2 }], { primaryKey: "id" }).waitTask();
     await waitFor(async () => (await settingsAreOurs()) && (await strayGone()), 10_000);
     expect((await search(apprentice.cookie, term)).body.total).toBe(1);
   });

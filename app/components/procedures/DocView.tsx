@@ -77,7 +77,8 @@ export function renderDoc(doc: JSONNode, ctx: RenderContext) {
       spec: ({ node }: P) => {
         const a = node.attrs as SpecAttrs;
         return (
-          <div className="spec-inline" data-spec-key={a.id}>
+          // `spec-<key>`: where a search hit for this spec lands (app/components/search/LandingTarget.tsx).
+          <div className="spec-inline" data-spec-key={a.id} id={a.id ? `spec-${a.id}` : undefined}>
             <span className="spec-tag">Spec</span>
             <span className="spec-label">{a.label}</span>
             <span className="num spec-value">{specLimits(a)}</span>

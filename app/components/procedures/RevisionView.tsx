@@ -3,6 +3,7 @@ import { Link } from "react-router";
 import { STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
 import { ProcedureBody, type Widget } from "./ProcedureBody";
 import { formatDay } from "~/lib/dates";
+import { useLandingTarget } from "~/components/search/LandingTarget";
 
 export type SpecRowView = { id: string; specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
 
@@ -73,6 +74,7 @@ export function RevisionArticle({
   banner?: ReactNode;
   aside?: ReactNode;
 }) {
+  useLandingTarget(); // a search hit's `#spec-…` scrolls to the spec and marks it
   return (
     <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_17rem]">
       <article className="min-w-0">

@@ -2,6 +2,7 @@ import { useEffect, useMemo, useRef, useState } from "react";
 import { useFetcher, useFetchers } from "react-router";
 import { QUANTITIES, displayUnit, formatTime, quantityDef, toStoredSI, unitsFor } from "~/lib/recordings/rules";
 import { issuesByPath, type ReadingRow } from "./types";
+import { useLandingTarget } from "~/components/search/LandingTarget";
 
 type SortKey = "t" | "quantity" | "label" | "value" | "pass";
 
@@ -59,6 +60,7 @@ export function ReadingsPanel({ recordingId, readings, currentTime, canCreate, c
   canCreate: boolean;
   canEdit: (r: ReadingRow) => boolean;
 }) {
+  useLandingTarget(); // a search hit's `#reading-…` scrolls to the reading's row and marks it
   const [sort, setSort] = useState<{ key: SortKey; dir: 1 | -1 }>({ key: "t", dir: 1 });
   const [editing, setEditing] = useState<string | null>(null);
   const sorted = useMemo(() => {
@@ -128,7 +130,7 @@ export function ReadingsPanel({ recordingId, readings, currentTime, canCreate, c
 function ReadingLine({ recordingId, reading: r, canEdit, onEdit }: { recordingId: string; reading: ReadingRow; canEdit: boolean; onEdit: () => void }) {
   const del = useFetcher({ key: `reading-del-${r.id}` });
   return (
-    <tr className={`border-b border-rule/70 last:border-0 ${r.pending ? "opacity-60" : ""}`} data-testid="reading-row">
+    <tr id={`reading-${r.id}`} className={`border-b border-rule/70 last:border-0 ${r.pending ? "opacity-60" : ""}`} data-testid="reading-row">
       <td className="px-3 py-2 font-mono">{r.t != null ? formatTime(r.t) : "–"}</td>
       <td className="px-3 py-2">{quantityDef(r.quantity)?.label ?? r.quantity}</td>
       <td className="px-3 py-2">{r.label || <span className="text-graphite-soft">–</span>}</td>

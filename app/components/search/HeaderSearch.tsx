@@ -1,8 +1,9 @@
 import { useEffect, useId, useRef, useState } from "react";
 import { Form, Link, useFetcher, useNavigate } from "react-router";
-import { clock, KIND_LABELS } from "~/lib/search/highlight";
+import { clock, KIND_LABELS, opensAtText } from "~/lib/search/highlight";
 import type { SearchHit } from "~/lib/search/query.server";
 import { Highlighted } from "./Highlighted";
+import { ReadingMatches } from "./ReadingMatches";
 
 type Answer = { hits?: SearchHit[]; total?: number; error?: string; reason?: string; behind?: boolean };
 
@@ -68,27 +69,29 @@ export function HeaderSearch() {
       </Form>
       {open && q.trim().length >= 2 && (
         <div id={listId} className="absolute left-0 right-0 z-30 mt-1 max-h-[70vh] overflow-auto rounded-md border border-rule bg-card shadow-lg" data-testid="search-dropdown">
-          {data?.error && <p className="px-4 py-3 text-sm text-graphite-soft">{data.reason ?? "Search is unavailable."}</p>}
-          {!data?.error && hits.length === 0 && fetcher.state === "idle" && data && <p className="px-4 py-3 text-sm text-graphite-soft">No matches for “{q.trim()}”.</p>}
+          {data?.error && <p className="px-4 py-3 text-base text-graphite-soft lg:text-sm">{data.reason ?? "Search is unavailable."}</p>}
+          {!data?.error && hits.length === 0 && fetcher.state === "idle" && data && <p className="px-4 py-3 text-base text-graphite-soft lg:text-sm">Nothing found for “{q.trim()}”.</p>}
           {[...groups.entries()].map(([kind, list]) => (
             <section key={kind} className="border-b border-rule/70 last:border-0">
-              <h3 className="bg-paper-deep/60 px-4 py-1 font-sans text-xs font-semibold uppercase tracking-wide text-graphite-soft">{KIND_LABELS[kind] ?? kind}</h3>
+              <h3 className="bg-paper-deep/60 px-4 py-1 font-sans text-sm font-semibold uppercase tracking-wide text-graphite-soft lg:text-xs">{KIND_LABELS[kind] ?? kind}</h3>
               <ul>
                 {list.map((h) => (
                   <li key={h.id}>
-                    <Link to={h.url} className="block px-4 py-2 text-sm text-graphite no-underline hover:bg-paper" onClick={() => setOpen(false)} data-testid="search-hit">
+                    {/* Below 1024 px (a tablet) the text is a size up and each hit at least 44 px tall. */}
+                    <Link to={h.url} reloadDocument={opensAtText(h.url)} className="block min-h-11 px-4 py-2.5 text-base text-graphite no-underline hover:bg-paper lg:min-h-0 lg:py-2 lg:text-sm" onClick={() => setOpen(false)} data-testid="search-hit">
                       <span className="font-semibold"><Highlighted text={h.title} /></span>
-                      {h.t != null && <span className="num ml-2 text-xs text-teal">at {clock(h.t)}</span>}
-                      {h.context && <span className="ml-2 text-xs text-graphite-soft">· {h.context}</span>}
-                      {h.snippet && <span className="mt-0.5 block text-xs text-graphite-soft"><Highlighted text={h.snippet} /></span>}
+                      {h.t != null && h.kind !== "reading" && <span className="num ml-2 text-sm text-teal lg:text-xs">at {clock(h.t)}</span>}
+                      {h.context && <span className="ml-2 text-sm text-graphite-soft lg:text-xs">· {h.context}</span>}
+                      {h.snippet && <span className="mt-0.5 block text-sm text-graphite-soft lg:text-xs"><Highlighted text={h.snippet} /></span>}
                     </Link>
+                    <ReadingMatches hit={h} compact onOpen={() => setOpen(false)} />
                   </li>
                 ))}
               </ul>
             </section>
           ))}
           {hits.length > 0 && (
-            <button type="button" className="block w-full px-4 py-2 text-left text-sm font-semibold text-teal hover:bg-paper" onClick={() => navigate(`/search?q=${encodeURIComponent(q.trim())}`)}>
+            <button type="button" className="block min-h-11 w-full px-4 py-2.5 text-left text-base font-semibold text-teal hover:bg-paper lg:min-h-0 lg:py-2 lg:text-sm" onClick={() => navigate(`/search?q=${encodeURIComponent(q.trim())}`)}>
               All results for “{q.trim()}” →
             </button>
           )}

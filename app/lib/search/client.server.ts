@@ -29,7 +29,20 @@ export type SearchDoc = {
   date: number;
   /** Procedure revisions: the plain text of their blocks, one block per line, in order. */
   body?: string;
+  /** Ranks kinds for the same words: procedures and specs above single observations (KIND_WEIGHT). */
+  kindWeight: number;
+  /** A recording's readings (one document per recording): one line per reading, with its id and second. */
+  readings?: string[];
+  readingIds?: string[];
+  readingTimes?: (number | null)[];
 };
+
+/**
+ * The `kindWeight` of each kind. The ranking rule `kindWeight:desc` comes right after `words`
+ * and `typo`: among documents that hold the same query words as well, a procedure or one of
+ * its specs comes before a recording, a mark or the readings of a recording.
+ */
+export const KIND_WEIGHT: Record<SearchKind, number> = { procedure: 5, spec: 5, test_record: 3, recording: 3, mark: 2, reading: 1 };
 
 // Idle sockets are closed after 4 s, before the service closes them (Meilisearch and the fake
 // keep idle connections 5 s), so a reused socket is rarely one the far end has just dropped.
@@ -169,12 +182,16 @@ export function searchIndex() {
 }
 
 export const SEARCH_SETTINGS = {
-  searchableAttributes: ["title", "text", "tags", "body", "procedureTitle", "recordingTitle", "uploader"],
+  searchableAttributes: ["title", "text", "tags", "body", "readings", "procedureTitle", "recordingTitle", "uploader"],
+  // Meilisearch's rules, with the custom rule `kindWeight:desc` after words and typo (KIND_WEIGHT).
+  rankingRules: ["words", "typo", "kindWeight:desc", "proximity", "attribute", "sort", "exactness"],
+  // The trade's short words (moly, stud, bore, lash, ring) take one typo from 4 letters, not 5.
+  typoTolerance: { minWordSizeForTypos: { oneTypo: 4, twoTypos: 9 } },
   filterableAttributes: ["kind", "visibility", "tags", "state", "uploader", "area", "group"],
   sortableAttributes: ["date"],
   // `body` (a procedure's blocks) is displayed so that the service can crop and highlight it;
   // searches ask for its crop only, never the whole text (RETURNED in query.server.ts).
-  displayedAttributes: ["id", "kind", "title", "text", "body", "tags", "visibility", "url", "state", "uploader", "procedureTitle", "recordingTitle", "area", "t", "date", "group"],
+  displayedAttributes: ["id", "kind", "title", "text", "body", "tags", "visibility", "url", "state", "uploader", "procedureTitle", "recordingTitle", "area", "t", "date", "group", "readings", "readingIds", "readingTimes"],
 };
 
 /**

@@ -1,8 +1,9 @@
 import { eq, inArray } from "drizzle-orm";
 import { marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords, users } from "~/db/schema";
+import { positionText } from "~/lib/recordings/positions";
 import { db } from "~/lib/db.server";
 import { blockTexts, type JSONNode } from "~/lib/procedures/document";
-import type { SearchDoc } from "./client.server";
+import { KIND_WEIGHT, type SearchDoc } from "./client.server";
 import { bothSystems, limitsBothSystems } from "./format";
 import { RECORD_VERDICT_LABELS } from "~/lib/test-records/labels";
 
@@ -81,13 +82,15 @@ function merge(change: IndexChange, part: IndexChange, what: { upserts?: boolean
 }
 
 /**
- * The record (outbox kind and id) a document was built from: a later successful build of
- * it ends its being set aside. Spec documents belong to their revision's record.
+ * The records (outbox kind and id) a document was built from: a later successful build of
+ * them ends their being set aside. Spec documents belong to their revision's record; a
+ * recording's readings document to the recording and to each reading it lists.
  */
-export function recordOf(doc: SearchDoc): { kind: string; entityId: string } | null {
-  if (doc.kind === "procedure") return { kind: "revision", entityId: doc.id.slice("rev-".length) };
-  if (doc.kind === "spec") return null;
-  return { kind: doc.kind, entityId: doc.id.slice(doc.kind.length + 1) };
+export function recordsOf(doc: SearchDoc): { kind: string; entityId: string }[] {
+  if (doc.kind === "procedure") return [{ kind: "revision", entityId: doc.id.slice("rev-".length) }];
+  if (doc.kind === "spec") return [];
+  if (doc.kind === "reading") return (doc.readingIds ?? []).map((entityId) => ({ kind: "reading", entityId }));
+  return [{ kind: doc.kind, entityId: doc.id.slice(doc.kind.length + 1) }];
 }
 
 export function procedureUrl(slug: string, revisionNumber: number, state: string): string {
@@ -148,6 +151,7 @@ async function revisionDocs(revisionId: string): Promise<IndexChange> {
       uploader: author,
       body,
       date,
+      kindWeight: KIND_WEIGHT.procedure,
     },
   ];
   const specs = await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, rev.id)).orderBy(procedureSpecs.position);
@@ -166,6 +170,7 @@ async function revisionDocs(revisionId: string): Promise<IndexChange> {
       area: rev.area,
       procedureTitle: rev.title,
       date,
+      kindWeight: KIND_WEIGHT.spec,
     });
   }
   change.upserts.push(...docs);
@@ -202,37 +207,51 @@ async function markDocs(where: { markId?: string; recordingId?: string }, uninde
     uploader: who.get(mark.createdBy ?? "") ?? "",
     t: mark.tStart,
     date: mark.createdAt.getTime(),
+    kindWeight: KIND_WEIGHT.mark,
   }]) ?? []);
 }
 
-async function readingDocs(where: { readingId?: string; recordingId?: string }, unindexable: Unindexable[]): Promise<SearchDoc[]> {
+/**
+ * A recording's readings as one document: one line per reading in `readings` (its id and second
+ * beside it, in the same order), so that a search finds the recording once and lists the readings
+ * that matched (the service highlights the lines one by one), instead of a hit per reading.
+ */
+async function readingsDoc(recordingId: string, unindexable: Unindexable[]): Promise<SearchDoc[]> {
   const rows = await db()
     .select({ r: readings, recTitle: recordings.title })
     .from(readings)
     .innerJoin(recordings, eq(recordings.id, readings.recordingId))
-    .where(where.readingId ? eq(readings.id, where.readingId) : eq(readings.recordingId, where.recordingId!));
+    .where(eq(readings.recordingId, recordingId))
+    .orderBy(readings.t, readings.createdAt);
+  if (!rows.length) return [];
   const who = await names(rows.map((x) => x.r.createdBy));
-  return rows.flatMap(({ r, recTitle }) => guarded("reading", r.id, unindexable, (): WithGroup[] => {
+  const lines = rows.flatMap(({ r }) => guarded("reading", r.id, unindexable, () => {
     const cond = Object.entries(r.conditions ?? {})
       .filter(([, v]) => v)
       .map(([k, v]) => `${k} ${v}`)
       .join(", ");
     const value = bothSystems(r.valueEntered, r.unitEntered);
-    return [{
-      id: `reading-${r.id}`,
-      group: `rec-${r.recordingId}`,
-      kind: "reading" as const,
-      title: `${r.label || r.quantity}: ${value}`,
-      text: `${r.quantity} ${r.label} ${value}${cond ? ` (${cond})` : ""} in ${recTitle}`,
-      tags: [],
-      visibility: ["all"],
-      url: r.t != null ? `/recordings/${r.recordingId}?t=${r.t}` : `/recordings/${r.recordingId}`,
-      recordingTitle: recTitle,
-      uploader: who.get(r.createdBy ?? "") ?? "",
-      t: r.t ?? undefined,
-      date: r.createdAt.getTime(),
-    }];
+    return [{ id: r.id, t: r.t, by: who.get(r.createdBy ?? "") ?? "", line: `${[positionText(r, ", "), r.label].filter(Boolean).join(", ") || r.quantity}: ${value} — ${r.quantity}${cond ? ` (${cond})` : ""}` }];
   }) ?? []);
+  if (!lines.length) return [];
+  const doc: WithGroup = {
+    id: `readings-${recordingId}`,
+    group: `rec-${recordingId}`,
+    kind: "reading",
+    title: "Readings",
+    text: "",
+    tags: [],
+    visibility: ["all"],
+    url: `/recordings/${recordingId}`,
+    recordingTitle: rows[0].recTitle,
+    uploader: [...new Set(lines.map((l) => l.by).filter(Boolean))].join(", "),
+    date: Math.max(...rows.map((x) => x.r.createdAt.getTime())),
+    kindWeight: KIND_WEIGHT.reading,
+    readings: lines.map((l) => l.line),
+    readingIds: lines.map((l) => l.id),
+    readingTimes: lines.map((l) => l.t),
+  };
+  return [doc];
 }
 
 async function recordingDocs(recordingId: string): Promise<IndexChange> {
@@ -252,8 +271,9 @@ async function recordingDocs(recordingId: string): Promise<IndexChange> {
     url: `/recordings/${rec.id}`,
     uploader,
     date: rec.createdAt.getTime(),
+    kindWeight: KIND_WEIGHT.recording,
   } as WithGroup);
-  change.upserts.push(...(await markDocs({ recordingId }, change.unindexable)), ...(await readingDocs({ recordingId }, change.unindexable)));
+  change.upserts.push(...(await markDocs({ recordingId }, change.unindexable)), ...(await readingsDoc(recordingId, change.unindexable)));
   return change;
 }
 
@@ -266,11 +286,18 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
       return revisionDocs(entityId);
     case "recording":
       return recordingDocs(entityId);
+    case "reading": {
+      // Queued by an admin's "try again" or before migration 0023 (the trigger now queues the
+      // recording): the reading's recording is rebuilt. A reading that is gone leaves only its
+      // document of the earlier shape (one per reading) to remove.
+      const [row] = await db().select({ recordingId: readings.recordingId }).from(readings).where(eq(readings.id, entityId));
+      if (row) return recordingDocs(row.recordingId);
+      return { ...empty(), deleteIds: [`reading-${entityId}`] };
+    }
     case "mark":
-    case "reading":
     case "test_record": {
       const unindexable: Unindexable[] = [];
-      const docs = kind === "mark" ? await markDocs({ markId: entityId }, unindexable) : kind === "reading" ? await readingDocs({ readingId: entityId }, unindexable) : await testRecordDocs(unindexable, entityId);
+      const docs = kind === "mark" ? await markDocs({ markId: entityId }, unindexable) : await testRecordDocs(unindexable, entityId);
       // Deleted only when the record is gone, not when it could not be built (it stays as it was).
       return { upserts: docs, deleteIds: docs.length || unindexable.length ? [] : [`${kind}-${entityId}`], deleteGroups: [], unindexable };
     }
@@ -324,6 +351,7 @@ async function testRecordDocs(unindexable: Unindexable[], id?: string): Promise<
       procedureTitle,
       uploader: by ?? "",
       date: Date.parse(`${r.testedOn}T12:00:00Z`),
+      kindWeight: KIND_WEIGHT.test_record,
     }];
   }) ?? []);
 }

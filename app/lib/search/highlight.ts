@@ -37,3 +37,12 @@ export function clock(t: number): string {
   const s = t - m * 60;
   return `${m}:${s.toFixed(s % 1 ? 1 : 0).padStart(s % 1 ? 4 : 2, "0")}`;
 }
+
+/**
+ * Whether a hit's address ends in a text fragment (`#:~:text=`, a procedure block's words). The
+ * browser scrolls to and marks that text only when it loads the page itself, so such a hit is
+ * opened as a full page load, not a navigation inside the app.
+ */
+export function opensAtText(url: string): boolean {
+  return url.includes("#:~:text=");
+}

@@ -2,7 +2,7 @@ import { and, gt, inArray, isNull, lte, sql } from "drizzle-orm";
 import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
 import { ensureIndex, SEARCH_SETTINGS, searchClient, searchErrorCode, searchErrorMessage, searchIndex, searchServiceAway, type SearchDoc } from "./client.server";
-import { allDocuments, buildChange, failureReason, isPassingFailure, recordOf, type IndexChange, type Unindexable } from "./documents.server";
+import { allDocuments, buildChange, failureReason, isPassingFailure, recordsOf, type IndexChange, type Unindexable } from "./documents.server";
 import { clearSetAside, setAside, setAsideCount } from "./set-aside.server";
 import { currentSynonyms } from "./words.server";
 
@@ -125,8 +125,7 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
           change.deleteIds.forEach((d) => deleteIds.add(d));
           for (const d of change.upserts) {
             upserts.set(d.id, d);
-            const rec = recordOf(d);
-            if (rec) indexed.set(keyOf(rec), rec);
+            for (const rec of recordsOf(d)) indexed.set(keyOf(rec), rec);
           }
           for (const u of change.unindexable) unindexable.set(keyOf(u), u);
           indexed.set(key, row);
@@ -209,7 +208,7 @@ async function rebuild(): Promise<{ documents: number; removed: number }> {
   if (stale.length) await check(await index.deleteDocuments(stale).waitTask(), "delete stale");
   await db().transaction(async (tx) => {
     await tx.update(searchOutbox).set({ doneAt: new Date() }).where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
-    await clearSetAside(tx, docs.map(recordOf).filter((r) => r !== null));
+    await clearSetAside(tx, docs.flatMap(recordsOf));
     await setAside(tx, unindexable);
   });
   rebuildOwed = false;
@@ -260,7 +259,8 @@ export async function repairIndex(): Promise<"ok" | "rebuilt" | "unreachable"> {
     const settings = await searchIndex().getSettings();
     const ours =
       sameList(settings.searchableAttributes as string[] | null | undefined, SEARCH_SETTINGS.searchableAttributes, true) &&
-      sameList(settings.filterableAttributes as string[] | null | undefined, SEARCH_SETTINGS.filterableAttributes, false);
+      sameList(settings.filterableAttributes as string[] | null | undefined, SEARCH_SETTINGS.filterableAttributes, false) &&
+      sameList(settings.rankingRules as string[] | null | undefined, SEARCH_SETTINGS.rankingRules, true);
     if (!ours) lost ??= "its settings are not the app's";
   } catch (err) {
     if (searchErrorCode(err) !== "index_not_found") {

@@ -30,7 +30,35 @@ export type SearchHit = {
   state?: string;
   t?: number;
   context?: string;
+  /** A recording's readings hit: the readings that matched (highlighted), each opening the recording at it. */
+  readings?: ReadingMatch[];
+  /** How many more of its readings matched than are listed. */
+  moreReadings?: number;
 };
+
+export type ReadingMatch = { id: string; text: string; url: string; t?: number };
+
+/** How many matching readings a recording's hit lists. */
+export const READINGS_LISTED = 5;
+
+/** Where a reading opens: its recording at its second, the reading's row marked (`#reading-<id>`). */
+export function readingUrl(recordingUrl: string, id: string, t: number | null | undefined): string {
+  return `${recordingUrl}${t != null ? `?t=${t}` : ""}#reading-${id}`;
+}
+
+/** The readings of a recording's document that hold highlighted words, in the document's order. */
+export function matchingReadings(recordingUrl: string, formatted: unknown, ids: unknown, times: unknown): { listed: ReadingMatch[]; more: number } {
+  const lines = Array.isArray(formatted) ? formatted : [];
+  const idList = Array.isArray(ids) ? ids : [];
+  const timeList = Array.isArray(times) ? times : [];
+  const all: ReadingMatch[] = [];
+  lines.forEach((line, i) => {
+    if (typeof line !== "string" || !line.includes(HL_PRE) || typeof idList[i] !== "string") return;
+    const t = typeof timeList[i] === "number" ? (timeList[i] as number) : undefined;
+    all.push({ id: idList[i] as string, text: line, url: readingUrl(recordingUrl, idList[i] as string, t), t });
+  });
+  return { listed: all.slice(0, READINGS_LISTED), more: Math.max(0, all.length - READINGS_LISTED) };
+}
 
 export type SearchResponse = {
   query: string;
@@ -107,7 +135,7 @@ export function bodySnippet(cropped: string): string {
 }
 
 /** What a search hit needs from a document; the long texts come back only as crops. */
-const RETURNED = ["id", "kind", "title", "tags", "url", "state", "t", "procedureTitle", "recordingTitle"];
+const RETURNED = ["id", "kind", "title", "tags", "url", "state", "t", "procedureTitle", "recordingTitle", "readingIds", "readingTimes"];
 
 /** The search request the app sends for a person and parameters (the benchmark sends the same). */
 export function searchRequest(user: SessionUser, p: SearchParams) {
@@ -117,7 +145,7 @@ export function searchRequest(user: SessionUser, p: SearchParams) {
     limit: p.limit,
     offset: (p.page - 1) * p.limit,
     attributesToRetrieve: RETURNED,
-    attributesToHighlight: ["title", "text", "body"],
+    attributesToHighlight: ["title", "text", "body", "readings"],
     highlightPreTag: HL_PRE,
     highlightPostTag: HL_POST,
     attributesToCrop: ["text", "body"],
@@ -148,8 +176,24 @@ export async function runSearch(user: SessionUser, p: SearchParams, timings?: Se
         url = `${h.url}${blockFragment(line)}`;
       } else if (!snippet) snippet = bodySnippet(body);
     }
-    if (h.kind === "mark" || h.kind === "reading") context = h.recordingTitle;
+    if (h.kind === "mark") context = h.recordingTitle;
     if (h.kind === "spec") context = h.procedureTitle;
+    if (h.kind === "reading") {
+      // One hit per recording, listing the readings that matched; it opens at the first of them.
+      const { listed, more } = matchingReadings(h.url, f.readings, h.readingIds, h.readingTimes);
+      const count = h.readingIds?.length ?? 0;
+      return {
+        id: h.id,
+        kind: h.kind,
+        title: h.recordingTitle ?? "Readings",
+        snippet: listed.length ? "" : `${count} reading${count === 1 ? "" : "s"}`,
+        url: listed[0]?.url ?? h.url,
+        tags: h.tags ?? [],
+        t: listed[0]?.t,
+        readings: listed,
+        moreReadings: more,
+      };
+    }
     return { id: h.id, kind: h.kind, title: String(f.title ?? h.title), snippet, url, tags: h.tags ?? [], state: h.state, t: h.t, context };
   });
   const total = res.estimatedTotalHits ?? hits.length;

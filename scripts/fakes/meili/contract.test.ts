@@ -569,6 +569,65 @@ for (const target of targets) {
       });
     });
 
+    describe("relevancy settings the app relies on", () => {
+      // Its own index: these settings would change the ranking the cases above expect.
+      const rel = `${run}_relevancy`;
+      type Item = { id: string; title: string; lines: string[]; kindWeight: number };
+      const ITEMS: Item[] = [
+        { id: "reading", title: "stud 4 torque 110 N·m", lines: ["pass 3 lube moly"], kindWeight: 1 },
+        { id: "spec", title: "Head stud final torque", lines: ["moly on threads and washer face"], kindWeight: 5 },
+        { id: "note", title: "Stud torque", lines: ["dry threads"], kindWeight: 9 },
+        { id: "bench", title: "Clamp load readings", lines: ["stud 1 moly 49.8 kN", "stud 2 dry 47.1 kN", "stud 3 moly 50.6 kN"], kindWeight: 1 },
+      ];
+      let ix: Index<Item>;
+      beforeAll(async () => {
+        ix = client.index<Item>(rel);
+        expect((await client.createIndex(rel, { primaryKey: "id" }).waitTask()).status).toBe("succeeded");
+        const s = await ix
+          .updateSettings({
+            searchableAttributes: ["title", "lines"],
+            rankingRules: ["words", "typo", "kindWeight:desc", "proximity", "attribute", "sort", "exactness"],
+            typoTolerance: { minWordSizeForTypos: { oneTypo: 4, twoTypos: 9 } },
+          })
+          .waitTask();
+        expect(s.status).toBe("succeeded");
+        expect((await ix.addDocuments(ITEMS).waitTask()).status).toBe("succeeded");
+      });
+
+      // Published: a custom ranking rule `attribute:desc` on a numeric field, placed anywhere in
+      // `rankingRules`, sorts by that field the documents the rules before it left equal; the rules
+      // before it still decide first (Custom ranking rules,
+      // https://www.meilisearch.com/docs/learn/relevancy/custom_ranking_rules; Ranking rules,
+      // https://www.meilisearch.com/docs/learn/relevancy/ranking_rules).
+      it("a custom ranking rule after words and typo puts the heavier of equal matches first", async () => {
+        const r = await ix.search("stud torque moly", { showRankingScoreDetails: true });
+        // "note" weighs most but lacks "moly", "bench" lacks "torque": `words` goes before the custom rule.
+        expect(r.hits.map((h) => h.id)).toEqual(["spec", "reading", "note", "bench"]);
+        expect(r.hits[0]._rankingScoreDetails!["kindWeight:desc"]).toEqual({ order: 2, value: 5 });
+        expect((await ix.getRankingRules())[2]).toBe("kindWeight:desc");
+      });
+
+      // Published: `minWordSizeForTypos.oneTypo` is the length from which a word accepts one typo
+      // (default 5), and a swap of two neighbouring letters is one typo (Typo tolerance settings,
+      // https://www.meilisearch.com/docs/learn/relevancy/typo_tolerance_settings#minwordsizefortypos).
+      it("minWordSizeForTypos.oneTypo 4 lets a four-letter word take one typo, a swap included", async () => {
+        const r = await ix.search("mloy ");
+        expect(r.hits.map((h) => h.id).sort()).toEqual(["bench", "reading", "spec"]);
+        expect((await ix.getTypoTolerance())?.minWordSizeForTypos).toEqual({ oneTypo: 4, twoTypos: 9 });
+        // Three letters still take none.
+        expect((await ix.search("stu ", { attributesToSearchOn: ["title"] })).hits).toEqual([]);
+      });
+
+      // Published: an array of strings is searchable, and `_formatted` highlights it element by
+      // element, keeping the array's order and length (Search › Attributes to highlight,
+      // https://www.meilisearch.com/docs/reference/api/search#attributes-to-highlight).
+      it("highlights an array of strings element by element", async () => {
+        const r = await ix.search("moly", { filter: undefined, attributesToHighlight: ["lines"], attributesToRetrieve: ["id"] });
+        const bench = r.hits.find((h) => h.id === "bench")!;
+        expect(bench._formatted?.lines).toEqual(["stud 1 <em>moly</em> 49.8 kN", "stud 2 dry 47.1 kN", "stud 3 <em>moly</em> 50.6 kN"]);
+      });
+    });
+
     describe("tasks", () => {
       // Published: GET /tasks filters by uids, statuses, types, indexUids, newest first, paged with
       // `limit`/`from`, answering `results`, `total`, `limit`, `from`, `next`; a failed task carries its
