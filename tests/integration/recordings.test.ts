@@ -418,7 +418,8 @@ describe("marks API", () => {
     const list = (await (await http(marksUrl(), { cookie: apprentice.cookie })).json()) as { marks: { tStart: number; tEnd: number | null; tags: string[] }[] };
     const mine = list.marks.filter((m) => [7.5, 2].includes(m.tStart));
     expect(mine.map((m) => m.tStart)).toEqual([2, 7.5]);
-    expect(mine[1].tags).toEqual(["torque"]);
+    // A tag keeps its author's spelling (app/lib/tags.ts).
+    expect(mine[1].tags).toEqual(["Torque"]);
 
     const negative = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: -1, text: "x" } });
     expect(negative.status).toBe(422);

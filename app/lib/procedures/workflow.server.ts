@@ -51,10 +51,8 @@ export type Revision = typeof procedureRevisions.$inferSelect;
 
 const url = (p: string) => new URL(p, env().PUBLIC_URL).toString();
 
-export function normalizeTags(input: string | string[]): string[] {
-  const list = Array.isArray(input) ? input : input.split(",");
-  return [...new Set(list.map((t) => t.trim().toLowerCase().replace(/\s+/g, " ")).filter((t) => t.length > 0 && t.length <= 40))].slice(0, 12);
-}
+// Tags keep their author's spelling and are compared without case (app/lib/tags.ts).
+export { normalizeTags } from "../tags";
 
 /** Validates (sanitize + structure); throws DocumentInvalid with the issues. */
 export function validateDocument(input: unknown): { doc: ProcedureDoc; warnings: Issue[] } {
@@ -554,13 +552,14 @@ export async function listPublished(tag?: string | null) {
     .from(procedures)
     .innerJoin(procedureRevisions, eq(procedureRevisions.id, procedures.publishedRevisionId))
     .leftJoin(users, eq(users.id, procedureRevisions.authorId))
-    .where(tag ? sql`${tag} = any(${procedures.tags})` : undefined)
+    .where(tag ? sql`exists (select 1 from unnest(${procedures.tags}) t where lower(t) = lower(${tag}))` : undefined)
     .orderBy(procedures.area, procedures.title);
 }
 
 export async function allTags() {
   const r = await db().execute<{ tag: string; n: number }>(
-    sql`select t as tag, count(*)::int as n from procedures, unnest(tags) t where published_revision_id is not null group by t order by t`,
+    // One entry per tag whatever its case, shown in the spelling most procedures use.
+    sql`select mode() within group (order by t) as tag, count(*)::int as n from procedures, unnest(tags) t where published_revision_id is not null group by lower(t) order by lower(t)`,
   );
   return r.rows;
 }

@@ -1,4 +1,4 @@
-import { and, arrayContains, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { marks, procedures, readings, recordings, users } from "~/db/schema";
 import { db } from "../db.server";
 
@@ -9,7 +9,8 @@ const readingCount = sql<number>`(select count(*)::int from ${readings} where ${
 
 export async function listRecordings(f: LibraryFilter = {}) {
   const where = [];
-  if (f.tag) where.push(arrayContains(recordings.tags, [f.tag]));
+  // Tags are compared without case; each keeps its author's spelling (app/lib/tags.ts).
+  if (f.tag) where.push(sql`exists (select 1 from unnest(${recordings.tags}) t where lower(t) = lower(${f.tag}))`);
   if (f.uploader) where.push(eq(recordings.uploadedBy, f.uploader));
   if (f.q) where.push(sql`${recordings.title} ilike ${"%" + f.q.replace(/[%_\\]/g, (c) => "\\" + c) + "%"}`);
   return db()
@@ -37,7 +38,7 @@ export async function listRecordings(f: LibraryFilter = {}) {
 
 /** Tags and uploaders that occur, for the library's filters. */
 export async function libraryFacets() {
-  const tags = await db().execute<{ tag: string; n: number }>(sql`select t as tag, count(*)::int as n from ${recordings}, unnest(${recordings.tags}) t group by t order by n desc, t limit 60`);
+  const tags = await db().execute<{ tag: string; n: number }>(sql`select mode() within group (order by t) as tag, count(*)::int as n from ${recordings}, unnest(${recordings.tags}) t group by lower(t) order by n desc, lower(t) limit 60`);
   const uploaders = await db()
     .selectDistinct({ id: users.id, name: users.name })
     .from(recordings)

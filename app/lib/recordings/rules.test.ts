@@ -35,7 +35,7 @@ describe("mark rules", () => {
     expect(s.safeParse({ tStart: 2, tEnd: 4, text: "x" }).success).toBe(true);
     expect(s.safeParse({ tStart: 10.5, text: "x" }).error?.issues[0].path).toEqual(["tStart"]);
     expect(s.safeParse({ tStart: 4, tEnd: 4, text: "x" }).error?.issues[0].path).toEqual(["tEnd"]);
-    expect(s.safeParse({ tStart: 1, text: "x", tags: ["Torque", "torque ", "moly"] }).data?.tags).toEqual(["torque", "moly"]);
+    expect(s.safeParse({ tStart: 1, text: "x", tags: ["Torque", "torque ", "moly"] }).data?.tags).toEqual(["Torque", "moly"]);
     // Unknown duration (not probed yet): only the lower bound applies.
     expect(markInputSchema(null).safeParse({ tStart: 99999, text: "x" }).success).toBe(true);
   });

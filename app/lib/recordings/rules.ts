@@ -6,6 +6,7 @@
 import { z } from "zod";
 import { UNIT_CODES, toSI, unitLabel, isUnitCode, type UnitCode, type UnitKind } from "~/lib/calc";
 import { quantityProblem } from "~/lib/edge";
+import { normalizeTags } from "~/lib/tags";
 
 export type QuantityId =
   | "torque"
@@ -70,7 +71,7 @@ export const tagsSchema = z
   .array(z.string().trim().min(1).max(40, "A tag is at most 40 characters."))
   .max(12, "At most 12 tags.")
   .default([])
-  .transform((tags) => [...new Set(tags.map((t) => t.toLowerCase()))]);
+  .transform((tags) => normalizeTags(tags));
 
 /** "a, b ,c" → ["a","b","c"] for form fields. */
 export function splitTags(s: string | null | undefined): string[] {

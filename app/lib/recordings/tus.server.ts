@@ -11,6 +11,7 @@ import { recordings, uploads } from "~/db/schema";
 import type { SessionUser } from "../auth.server";
 import { db } from "../db.server";
 import { env } from "../env.server";
+import { normalizeTags } from "../tags";
 import { enqueueProcessing } from "./queue.server";
 import { fileNameProblem, formatBytes, splitTags, titleFromFileName } from "./rules";
 import { originalPath, recordingDir, tusDir, tusFilePath } from "./storage.server";
@@ -60,7 +61,7 @@ async function onUploadCreate(req: Request, upload: Upload) {
       size: upload.size,
       title,
       description: clean(meta.description, 4000),
-      tags: [...new Set(splitTags(meta.tags).map((t) => t.toLowerCase().slice(0, 40)))].slice(0, 12),
+      tags: normalizeTags(splitTags(meta.tags)),
     });
   return {};
 }

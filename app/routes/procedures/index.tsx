@@ -10,6 +10,7 @@ import { STATE_LABELS } from "~/lib/procedures/state";
 import { AREA_LABELS, AREAS, type Area } from "~/lib/procedures/areas";
 import { allTags, listPublished, openRevisionsFor } from "~/lib/procedures/workflow.server";
 import { formatDay } from "~/lib/dates";
+import { sameTag } from "~/lib/tags";
 
 export const meta: Route.MetaFunction = () => [{ title: "Procedures · Benchreel" }];
 
@@ -17,12 +18,14 @@ const tagSearch = z.object({ tag: optionalParam(200) });
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const tag = parseSearch(request, tagSearch).tag?.trim().toLowerCase() || null;
+  const asked = parseSearch(request, tagSearch).tag?.trim() || null;
   const [rows, tags, open] = await Promise.all([
-    listPublished(tag),
+    listPublished(asked),
     allTags(),
     can(user.role, "procedure:view-drafts:own") ? openRevisionsFor(user, { reviewQueue: can(user.role, "procedure:review") }) : Promise.resolve([]),
   ]);
+  // Tags match without case: the filter shows the tag as the procedures spell it.
+  const tag = asked ? (tags.find((t) => sameTag(t.tag, asked))?.tag ?? asked) : null;
   return { rows, tags, tag, open, canDraft: can(user.role, "procedure:draft") };
 }
 

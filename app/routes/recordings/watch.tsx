@@ -28,6 +28,7 @@ import { retryRecording } from "~/lib/recordings/processing.server";
 import { formatBytes, formatDuration, formatTime, splitTags } from "~/lib/recordings/rules";
 import { recordingDir } from "~/lib/recordings/storage.server";
 import { formatDay } from "~/lib/dates";
+import { normalizeTags } from "~/lib/tags";
 
 const Player = lazy(() => import("~/components/recordings/Player.client"));
 
@@ -79,7 +80,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (intent === "details") {
     const parsed = parseForm(detailsSchema, form);
     if (!parsed.ok) return data({ intent, errors: parsed.errors, values: parsed.values }, { status: 400 });
-    const tags = [...new Set(splitTags(parsed.data.tags).map((t) => t.toLowerCase().slice(0, 40)))].slice(0, 12);
+    const tags = normalizeTags(splitTags(parsed.data.tags));
     await db().transaction(async (tx) => {
       await tx.update(recordings).set({ title: parsed.data.title, description: parsed.data.description, tags, updatedAt: new Date() }).where(eq(recordings.id, rec.id));
       await audit(tx, user.id, "recording.edit", "recording", rec.id, { title: parsed.data.title });
