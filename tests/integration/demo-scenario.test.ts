@@ -1,0 +1,47 @@
+// The demo shop tells one story: the head-stud procedure assumes the nut factor that its own
+// bench recording's torque / clamp-load readings fit. Both come from the seed (scripts/seed/);
+// the fit is computed again here as the watch page computes it, so the demo cannot drift.
+import { and, eq } from "drizzle-orm";
+import { describe, expect, it } from "vitest";
+import { pairTorqueClamp } from "~/components/recordings/ReadingsChart";
+import type { ReadingRow } from "~/components/recordings/types";
+import { procedureRevisions, procedures, readings } from "~/db/schema";
+import { fitNutFactor } from "~/lib/calc";
+import { db } from "~/lib/db.server";
+import { walk, type JSONNode } from "~/lib/procedures/document";
+
+const DEMO_RECORDING = "5eed0000-0000-4000-8000-00000000c1a9";
+const STUDS_SLUG = "head-stud-installation-and-torque-sequence";
+
+describe("demo scenario", () => {
+  it("the head-stud procedure's nut factor is the one its bench recording's readings fit, within their scatter", async () => {
+    const rows = await db().select().from(readings).where(eq(readings.recordingId, DEMO_RECORDING));
+    const pairs = pairTorqueClamp(rows.map((r) => ({ ...r, createdBy: r.createdBy, authorName: null }) as unknown as ReadingRow));
+    expect(pairs.length).toBeGreaterThanOrEqual(3);
+    // ISO 16047 / VDI 2230 short form T = K·F·d, fitted through the origin (docs/calculations.md).
+    const fit = fitNutFactor(
+      pairs.map((p) => ({ torque: { value: p.torque.valueSi, unit: "N.m" }, preload: { value: p.clamp.valueSi, unit: "N" } })),
+      "M12x1.5",
+    );
+
+    const [proc] = await db()
+      .select({ doc: procedureRevisions.doc })
+      .from(procedures)
+      .innerJoin(procedureRevisions, and(eq(procedureRevisions.id, procedures.publishedRevisionId)))
+      .where(eq(procedures.slug, STUDS_SLUG));
+    expect(proc).toBeDefined();
+    const presetKs: number[] = [];
+    const texts: string[] = [];
+    walk(proc.doc as JSONNode, (n) => {
+      const preset = n.type === "calculator" ? (n.attrs?.preset as { thread?: string; method?: { kind?: string; k?: number } }) : null;
+      if (preset?.thread === "M12x1.5" && preset.method?.kind === "nut-factor" && typeof preset.method.k === "number") presetKs.push(preset.method.k);
+      if (n.type === "text" && typeof n.text === "string") texts.push(n.text);
+    });
+    expect(presetKs).toHaveLength(1);
+    const k = presetKs[0];
+    expect(Math.abs(k - fit.k)).toBeLessThanOrEqual(fit.kStdDev);
+    // The words a builder reads say the same K as the calculator block.
+    const said = texts.join("").match(/assumes K = (\d+\.\d+)/);
+    expect(said && Number(said[1])).toBe(k);
+  });
+});
