@@ -218,3 +218,60 @@ describe("procedures workflow", () => {
     expect(floorApprentice).not.toContain("Awaiting review");
   });
 });
+
+describe("incomplete blocks in a draft (issue 14)", () => {
+  let draftSlug = "";
+  let draftId = "";
+  const unfinished = {
+    type: "doc",
+    content: [
+      { type: "paragraph", content: [{ type: "text", text: "Words typed before the blocks." }] },
+      { type: "spec", attrs: { id: "s_half", label: "", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, note: "" } },
+      { type: "videoMoment", attrs: { recordingId: null, start: 0, end: null, caption: "Washer seating" } },
+    ],
+  };
+
+  beforeAll(async () => {
+    const r = await http("/procedures/new", { cookie: builder.cookie, form: { title: `Half-written studs ${tag}`, area: "fasteners", summary: "", tags: "" } });
+    expect(r.status).toBe(302);
+    draftSlug = r.headers.get("location")!.split("/")[2];
+    const [p] = await db().select().from(procedures).where(eq(procedures.slug, draftSlug));
+    [{ id: draftId }] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.procedureId, p.id));
+  });
+
+  it("saves a draft whose Spec has no label and whose Video moment has no recording, and says in plain words what each lacks", async () => {
+    const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, draftId));
+    const res = await save(builder, draftId, rev.version, unfinished, `Half-written studs ${tag}`);
+    expect(res.status).toBe(200);
+    const body = await json(res);
+    expect(body.incomplete).toEqual([
+      { path: [1], type: "spec", name: "Spec 1", problems: [{ field: "label", message: "Give the spec a label" }, { field: "nominal", message: "Give a nominal value or a limit" }] },
+      { path: [2], type: "videoMoment", name: "Video moment 1: Washer seating", problems: [{ field: "recording", message: "Choose a recording" }] },
+    ]);
+    expect(JSON.stringify(body)).not.toMatch(/doc\.content|attrs\./);
+    const [now] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, draftId));
+    expect(JSON.stringify(now.doc)).toContain("Words typed before the blocks.");
+    expect(now.doc).toMatchObject({ content: [{}, { attrs: { label: "", nominal: null } }, { attrs: { recordingId: null, caption: "Washer seating" } }] });
+    // Half a spec is no row for test records or search to use.
+    expect(await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, draftId))).toHaveLength(0);
+    // The preview of the draft still opens.
+    expect((await http(`/procedures/${draftSlug}/r/1`, { cookie: builder.cookie })).status).toBe(200);
+  });
+
+  it("refuses to submit it for review with the list of what is missing by block, then accepts it once complete", async () => {
+    const refused = await http(`/procedures/${draftSlug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "First version" } });
+    expect(refused.status).toBe(422);
+    const text = await refused.text();
+    expect(text).toContain("Not ready for review. Finish these 2 blocks first: Spec 1: Give the spec a label; Give a nominal value or a limit. Video moment 1: Washer seating: Choose a recording.");
+    const [still] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, draftId));
+    expect(still.state).toBe("draft");
+    const done = structuredClone(unfinished);
+    Object.assign(done.content[1].attrs!, { label: "Final torque", nominal: 110 });
+    Object.assign(done.content[2].attrs!, { recordingId: randomUUID(), start: 12 });
+    const saved = await save(builder, draftId, still.version, done, `Half-written studs ${tag}`);
+    expect(saved.status).toBe(200);
+    expect((await json(saved)).incomplete).toEqual([]);
+    expect(await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, draftId))).toHaveLength(1);
+    expect((await http(`/procedures/${draftSlug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "First version" } })).status).toBe(302);
+  });
+});

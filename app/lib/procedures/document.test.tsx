@@ -1,7 +1,7 @@
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
 import { renderDoc } from "~/components/procedures/DocView";
-import { blockTexts, countWords, safeHref, sanitizeDocument, type JSONNode } from "./document";
+import { blockTexts, countWords, incompleteBlocks, safeHref, sanitizeDocument, type JSONNode } from "./document";
 import { structureProblem } from "./schema-check.server";
 
 const para = (text: string, marks?: JSONNode["marks"]): JSONNode => ({ type: "paragraph", content: [{ type: "text", text, ...(marks ? { marks } : {}) }] });
@@ -37,17 +37,40 @@ describe("sanitizeDocument", () => {
     expect(r.doc.content![1].attrs).toEqual({ level: 2 });
   });
 
-  it("checks the spec block: unit of the right kind, a limit, min ≤ max", () => {
+  it("keeps an incomplete spec block and names what it lacks in plain words; refuses values no gauge reads", () => {
     const spec = (a: Record<string, unknown>) => sanitizeDocument(docOf({ type: "spec", attrs: { id: "s", label: "Bore", quantity: "length", unit: "mm", nominal: null, min: null, max: null, ...a } }));
-    expect(spec({ nominal: 88 }).ok).toBe(true);
-    const wrongKind = spec({ unit: "N.m", nominal: 1 });
-    expect(wrongKind.ok).toBe(false);
-    if (!wrongKind.ok) expect(wrongKind.errors[0].message).toMatch(/not a length unit/);
-    expect(spec({}).ok).toBe(false);
-    expect(spec({ min: 2, max: 1 }).ok).toBe(false);
-    expect(spec({ nominal: 5, min: 6, max: 7 }).ok).toBe(false);
-    expect(spec({ nominal: "1e999" }).ok).toBe(false);
-    expect(spec({ label: "", nominal: 1 }).ok).toBe(false);
+    const problems = (a: Record<string, unknown>) => {
+      const r = spec(a);
+      expect(r.ok).toBe(true);
+      return r.ok ? incompleteBlocks(r.doc).flatMap((b) => b.problems.map((p) => p.message)) : [];
+    };
+    expect(problems({ nominal: 88 })).toEqual([]);
+    expect(problems({ unit: "N.m", nominal: 1 })).toEqual(["Choose a unit of length"]);
+    expect(problems({})).toEqual(["Give a nominal value or a limit"]);
+    expect(problems({ min: 2, max: 1 })).toEqual(["The minimum is above the maximum"]);
+    expect(problems({ nominal: 5, min: 6, max: 7 })).toEqual(["The nominal lies outside the limits"]);
+    expect(problems({ label: "", quantity: null, unit: null, nominal: 1 })).toEqual(["Give the spec a label", "Choose what the spec measures"]);
+    const huge = spec({ nominal: 1e308 });
+    expect(huge.ok).toBe(false);
+    if (!huge.ok) expect(huge.errors[0].message).toMatch(/^Spec “Bore”, nominal: .*gauge/);
+    expect(spec({ label: "x".repeat(121), nominal: 1 }).ok).toBe(false);
+  });
+
+  it("lists incomplete blocks by name and place, nested ones too", () => {
+    const r = sanitizeDocument(
+      docOf(
+        para("Torque the studs."),
+        { type: "spec", attrs: { id: "a", label: "", quantity: "torque", unit: "N.m", nominal: null } },
+        { type: "caution", content: [{ type: "videoMoment", attrs: { recordingId: null, start: 0, caption: "Washer seating" } }] },
+        { type: "spec", attrs: { id: "b", label: "Final torque", quantity: "torque", unit: "N.m", nominal: 110 } },
+      ),
+    );
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(incompleteBlocks(r.doc).map((b) => ({ path: b.path, name: b.name, problems: b.problems.map((p) => p.message) }))).toEqual([
+      { path: [1], name: "Spec 1", problems: ["Give the spec a label", "Give a nominal value or a limit"] },
+      { path: [2, 0], name: "Video moment 1: Washer seating", problems: ["Choose a recording"] },
+    ]);
   });
 
   it("drops list items never filled in, and lists left empty, but keeps filled ones", () => {
@@ -80,12 +103,16 @@ describe("sanitizeDocument", () => {
   it("checks calculator presets against the calc schemas and video moments' times", () => {
     expect(sanitizeDocument(docOf({ type: "calculator", attrs: { kind: "preload", preset: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } } } })).ok).toBe(true);
     const bad = sanitizeDocument(docOf({ type: "calculator", attrs: { kind: "preload", preset: { thread: "M99z", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } } } }));
-    expect(bad.ok).toBe(false);
+    expect(bad.ok && incompleteBlocks(bad.doc)[0].problems[0].message).toMatch(/^Check the calculator's inputs/);
     expect(sanitizeDocument(docOf({ type: "calculator", attrs: { kind: "rocket", preset: {} } })).ok).toBe(false);
     const id = "5eed0000-0000-4000-8000-00000000c1a9";
     expect(sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: id, start: 12, end: 20, caption: "x" } })).ok).toBe(true);
-    expect(sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: id, start: 12, end: 5 } })).ok).toBe(false);
-    expect(sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: "../../etc/passwd", start: 1 } })).ok).toBe(false);
+    const backwards = sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: id, start: 12, end: 5 } }));
+    expect(backwards.ok && incompleteBlocks(backwards.doc)[0].problems.map((p) => p.message)).toEqual(["The end must come after the start"]);
+    // Not a recording id: stored as no recording at all, and the block asks for one.
+    const odd = sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: "../../etc/passwd", start: 1 } }));
+    expect(odd.ok && odd.doc.content![0].attrs!.recordingId).toBeNull();
+    expect(odd.ok && incompleteBlocks(odd.doc)[0].problems.map((p) => p.message)).toEqual(["Choose a recording"]);
     expect(sanitizeDocument(docOf({ type: "procedureLink", attrs: { procedureId: "javascript:alert(1)" } })).ok).toBe(false);
   });
 

@@ -3,6 +3,12 @@
  * is the one gate every save passes: unknown node or mark types are refused, attributes
  * outside the schema are dropped, link targets other than http(s), mailto and in-app paths
  * are stripped, and the custom blocks' attributes are type-checked. Pure (no DOM, no DB).
+ *
+ * A draft is work in progress: a spec without a label or a video moment without a recording
+ * is kept as typed (a missing or ill-typed value becomes null) and named by `blockProblems`
+ * in the author's words; only submitting for review needs every block complete
+ * (`incompleteBlocks`). What no block may hold at all (unknown types, values no gauge can
+ * read, text past the limits) still refuses the save.
  */
 import { UNIT_CODES, unitKind, type UnitKind } from "~/lib/calc";
 import { quantityProblem } from "~/lib/edge";
@@ -34,6 +40,7 @@ export type SpecAttrs = {
   max: number | null;
   note: string;
 };
+/** The attributes of complete blocks; a draft's incomplete block may hold null where `blockProblems` names what is missing. */
 export type MomentAttrs = { recordingId: string; start: number; end: number | null; caption: string };
 export type CalculatorAttrs = { kind: CalcKind; title: string; preset: Record<string, unknown> };
 export type ProcedureLinkAttrs = { procedureId: string };
@@ -76,11 +83,8 @@ export function safeHref(raw: unknown): string | null {
   return null;
 }
 
-const str = (max: number, required = false): AttrRule => (v, ctx, path) => {
-  if (v == null || v === "") {
-    if (required) ctx.errors.push({ path, message: "is required" });
-    return keep("");
-  }
+const str = (max: number): AttrRule => (v, ctx, path) => {
+  if (v == null || v === "") return keep("");
   if (typeof v !== "string") {
     ctx.errors.push({ path, message: "must be text" });
     return drop;
@@ -92,28 +96,18 @@ const str = (max: number, required = false): AttrRule => (v, ctx, path) => {
   }
   return keep(t);
 };
-const num = (opts: { min?: number; nullable?: boolean } = {}): AttrRule => (v, ctx, path) => {
-  if (v == null || v === "") {
-    if (opts.nullable) return keep(null);
-    ctx.errors.push({ path, message: "is required" });
-    return drop;
-  }
-  const n = typeof v === "string" ? Number(v) : v;
-  if (typeof n !== "number" || !Number.isFinite(n)) {
-    ctx.errors.push({ path, message: "must be a number" });
-    return drop;
-  }
-  if (opts.min !== undefined && n < opts.min) {
-    ctx.errors.push({ path, message: `must be at least ${opts.min}` });
-    return drop;
-  }
-  return keep(n);
+/** A number, or null when it is missing or not a number yet (the block names what is missing). */
+const num = (fallback: number | null = null): AttrRule => (v) => {
+  const n = typeof v === "string" && v.trim() !== "" ? Number(v) : v;
+  return keep(typeof n === "number" && Number.isFinite(n) ? n : fallback);
 };
 const uuid: AttrRule = (v, ctx, path) => {
   if (typeof v === "string" && UUID.test(v)) return keep(v.toLowerCase());
   ctx.errors.push({ path, message: "must be a valid id" });
   return drop;
 };
+/** A recording not chosen yet, or a pasted id that is not one, is stored as null (and the block says "Choose a recording"). */
+const optionalUuid: AttrRule = (v) => keep(typeof v === "string" && UUID.test(v) ? v.toLowerCase() : null);
 
 type NodeRule = {
   attrs?: Record<string, AttrRule>;
@@ -147,12 +141,7 @@ const NODES: Record<string, NodeRule> = {
   procedureLink: { leaf: true, attrs: { procedureId: uuid } },
   videoMoment: {
     leaf: true,
-    attrs: { recordingId: uuid, start: num({ min: 0 }), end: num({ min: 0, nullable: true }), caption: str(300) },
-    check(a, ctx, path) {
-      if (typeof a.end === "number" && typeof a.start === "number" && a.end <= a.start) {
-        ctx.errors.push({ path: `${path}.end`, message: "must be after the start" });
-      }
-    },
+    attrs: { recordingId: optionalUuid, start: num(0), end: num(), caption: str(300) },
   },
   spec: {
     leaf: true,
@@ -163,43 +152,20 @@ const NODES: Record<string, NodeRule> = {
         ctx.specKeys.add(key);
         return keep(key);
       },
-      label: str(120, true),
-      quantity: (v, ctx, path) => {
-        if (typeof v === "string" && (QUANTITY_KINDS as string[]).includes(v)) return keep(v);
-        ctx.errors.push({ path, message: `must be one of ${QUANTITY_KINDS.join(", ")}` });
-        return drop;
-      },
-      unit: (v, ctx, path) => {
-        if (typeof v === "string" && unitKind(v)) return keep(v);
-        ctx.errors.push({ path, message: "is not a known unit code" });
-        return drop;
-      },
-      nominal: num({ nullable: true }),
-      min: num({ nullable: true }),
-      max: num({ nullable: true }),
+      label: str(120),
+      quantity: (v) => keep(typeof v === "string" && (QUANTITY_KINDS as string[]).includes(v) ? v : null),
+      unit: (v) => keep(typeof v === "string" && unitKind(v) ? v : null),
+      nominal: num(),
+      min: num(),
+      max: num(),
       note: str(300),
     },
     check(a, ctx, path) {
-      if (typeof a.unit === "string" && typeof a.quantity === "string" && unitKind(a.unit) !== a.quantity) {
-        ctx.errors.push({ path: `${path}.unit`, message: `“${a.unit}” is not a ${a.quantity} unit` });
-      }
-      if (a.nominal == null && a.min == null && a.max == null) {
-        ctx.errors.push({ path, message: `spec “${a.label || "(no label)"}” needs a nominal value or a limit` });
-      }
-      // Values a gauge can read (app/lib/edge.ts): a nominal of 1e308 is a slip, not a spec.
+      // Values a gauge can read (app/lib/edge.ts): a nominal of 1e308 is a slip, not a spec, and
+      // the edge refuses it even in a draft.
       for (const k of ["nominal", "min", "max"] as const) {
         const problem = typeof a[k] === "number" && typeof a.unit === "string" && unitKind(a.unit) ? quantityProblem(a[k] as number, a.unit) : null;
-        if (problem) ctx.errors.push({ path: `${path}.${k}`, message: `spec “${a.label}”: ${k}: ${problem}` });
-      }
-      if (typeof a.min === "number" && typeof a.max === "number" && a.min > a.max) {
-        ctx.errors.push({ path, message: `spec “${a.label}”: min is above max` });
-      }
-      for (const k of ["min", "max"] as const) {
-        const lim = a[k];
-        if (typeof a.nominal === "number" && typeof lim === "number" && (k === "min" ? lim > a.nominal : lim < a.nominal)) {
-          ctx.errors.push({ path, message: `spec “${a.label}”: the nominal lies outside min–max` });
-          break;
-        }
+        if (problem) ctx.errors.push({ path: `${path}.${k}`, message: `Spec “${a.label || "without a label"}”, ${SPEC_FIELD_NAMES[k]}: ${problem}` });
       }
     },
   },
@@ -212,16 +178,7 @@ const NODES: Record<string, NodeRule> = {
         return drop;
       },
       title: str(120),
-      preset: (v, ctx, path) => {
-        if (v && typeof v === "object" && !Array.isArray(v)) return keep(JSON.parse(JSON.stringify(v)));
-        ctx.errors.push({ path, message: "preset inputs are missing" });
-        return drop;
-      },
-    },
-    check(a, ctx, path) {
-      if (typeof a.kind !== "string" || !a.preset) return;
-      const problem = checkCalculatorPreset(a.kind as CalcKind, a.preset);
-      if (problem) ctx.errors.push({ path: `${path}.preset`, message: `calculator preset is not valid: ${problem}` });
+      preset: (v) => keep(v && typeof v === "object" && !Array.isArray(v) ? JSON.parse(JSON.stringify(v)) : null),
     },
   },
 };
@@ -338,11 +295,14 @@ export function sanitizeDocument(input: unknown, opts: { newKey?: () => string }
   const doc = sanitizeNode(input, ctx, "doc", 0) as ProcedureDoc | null;
   if (!doc || ctx.errors.length) return { ok: false, errors: ctx.errors.slice(0, 20), warnings: ctx.warnings };
   dropEmptyListItems(doc);
+  // The editor keeps an empty paragraph after the last block so there is always a place to type; the stored page does without it.
+  while (doc.content && doc.content.length > 1 && isEmptyParagraph(doc.content[doc.content.length - 1])) doc.content.pop();
   if (!doc.content?.length) doc.content = [{ type: "paragraph" }];
   return { ok: true, doc, warnings: ctx.warnings };
 }
 
 const LISTS = new Set(["bulletList", "orderedList"]);
+const isEmptyParagraph = (n: JSONNode) => n.type === "paragraph" && !(n.content ?? []).length;
 /** A list item that holds nothing but empty paragraphs (a bullet never filled in). */
 function isEmptyItem(n: JSONNode): boolean {
   return n.type === "listItem" && (n.content ?? []).every((c) => c.type === "paragraph" && !(c.content ?? []).length);
@@ -374,6 +334,74 @@ export function inlineText(node: JSONNode, titleOf?: (id: string) => string | un
   return (node.content ?? []).map((c) => inlineText(c, titleOf)).join("");
 }
 
+
+// ---- incomplete blocks -----------------------------------------------------------------------
+
+const SPEC_FIELD_NAMES = { nominal: "nominal", min: "minimum", max: "maximum" } as const;
+
+/** What an author still has to do in a block, and which of its fields to go to. */
+export type BlockProblem = { field: string; message: string };
+
+/** The problems of one spec, video moment or calculator block, in the author's words (none for other nodes). */
+export function blockProblems(node: JSONNode): BlockProblem[] {
+  const a = node.attrs ?? {};
+  const out: BlockProblem[] = [];
+  const isNum = (v: unknown): v is number => typeof v === "number" && Number.isFinite(v);
+  if (node.type === "spec") {
+    if (typeof a.label !== "string" || !a.label.trim()) out.push({ field: "label", message: "Give the spec a label" });
+    const quantity = typeof a.quantity === "string" && (QUANTITY_KINDS as string[]).includes(a.quantity) ? (a.quantity as UnitKind) : null;
+    if (!quantity) out.push({ field: "quantity", message: "Choose what the spec measures" });
+    else if (typeof a.unit !== "string" || unitKind(a.unit) !== quantity) out.push({ field: "unit", message: `Choose a unit of ${quantity}` });
+    const [nominal, min, max] = [a.nominal, a.min, a.max].map((v) => (isNum(v) ? v : null));
+    if (nominal == null && min == null && max == null) out.push({ field: "nominal", message: "Give a nominal value or a limit" });
+    if (min != null && max != null && min > max) out.push({ field: "min", message: "The minimum is above the maximum" });
+    else if (nominal != null && ((min != null && nominal < min) || (max != null && nominal > max))) out.push({ field: "nominal", message: "The nominal lies outside the limits" });
+  }
+  if (node.type === "videoMoment") {
+    if (typeof a.recordingId !== "string" || !UUID.test(a.recordingId)) out.push({ field: "recording", message: "Choose a recording" });
+    if (!isNum(a.start) || a.start < 0) out.push({ field: "start", message: "Give the start time" });
+    else if (a.end != null && (!isNum(a.end) || a.end <= a.start)) out.push({ field: "end", message: "The end must come after the start" });
+  }
+  if (node.type === "calculator") {
+    const problem = a.preset && typeof a.preset === "object" ? checkCalculatorPreset(a.kind as CalcKind, a.preset) : "the inputs are missing";
+    if (problem) out.push({ field: "preset", message: `Check the calculator's inputs (${problem})` });
+  }
+  return out;
+}
+
+/** An incomplete block: where it is (child indices from the document down), its name for a list, and what is missing. */
+export type IncompleteBlock = { path: number[]; type: string; name: string; problems: BlockProblem[] };
+
+const BLOCK_NAMES: Record<string, string> = { spec: "Spec", videoMoment: "Video moment", calculator: "Calculator" };
+
+/** The name a list (and a screen reader) gives a block: “Spec 2: Head stud torque”, “Video moment 1”. */
+export function blockName(node: JSONNode, ordinal: number): string {
+  const a = node.attrs ?? {};
+  if (node.type === "calculator") return `${calcLabel(a.kind as CalcKind)} calculator${a.title ? `: ${a.title}` : ""}`;
+  const detail = node.type === "spec" ? a.label : node.type === "videoMoment" ? a.caption : "";
+  return `${BLOCK_NAMES[node.type] ?? node.type} ${ordinal}${typeof detail === "string" && detail.trim() ? `: ${detail.trim()}` : ""}`;
+}
+
+/** Every block that is not ready for review, in document order. Empty means the draft may be submitted. */
+export function incompleteBlocks(doc: JSONNode): IncompleteBlock[] {
+  const out: IncompleteBlock[] = [];
+  const seen: Record<string, number> = {};
+  const visit = (n: JSONNode, path: number[]) => {
+    if (n.type in BLOCK_NAMES) {
+      seen[n.type] = (seen[n.type] ?? 0) + 1;
+      const problems = blockProblems(n);
+      if (problems.length) out.push({ path, type: n.type, name: blockName(n, seen[n.type]), problems });
+    }
+    n.content?.forEach((c, i) => visit(c, [...path, i]));
+  };
+  visit(doc, []);
+  return out;
+}
+
+/** The list in one sentence, for a refusal or a form error. */
+export function incompleteText(blocks: IncompleteBlock[]): string {
+  return blocks.map((b) => `${b.name}: ${b.problems.map((p) => p.message).join("; ")}`).join(". ");
+}
 
 export function specText(a: Partial<SpecAttrs>): string {
   const parts: string[] = [];

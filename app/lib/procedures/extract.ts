@@ -1,6 +1,10 @@
-/** What a save extracts from the document into tables: procedure links, specs and video moments. */
+/**
+ * What a save extracts from the document into tables: procedure links, specs and video moments.
+ * An incomplete block of a draft (no label, no recording…) has no row: a test record or a
+ * search hit cannot use half a spec, and the block itself says what it lacks.
+ */
 import { SI_UNIT, toSI, type UnitCode, type UnitKind } from "~/lib/calc";
-import { walk, type JSONNode, type MomentAttrs, type SpecAttrs } from "./document";
+import { blockProblems, walk, type JSONNode, type MomentAttrs, type SpecAttrs } from "./document";
 
 export type ExtractedSpec = {
   specKey: string;
@@ -28,6 +32,7 @@ export function extract(doc: JSONNode): Extracted {
   const moments: ExtractedMoment[] = [];
   walk(doc, (n) => {
     if (n.type === "procedureLink" && typeof n.attrs?.procedureId === "string") links.add(n.attrs.procedureId);
+    if ((n.type === "spec" || n.type === "videoMoment") && blockProblems(n).length) return;
     if (n.type === "spec") {
       const a = n.attrs as SpecAttrs;
       specs.push({

@@ -17,10 +17,11 @@ import {
 } from "~/db/schema";
 import { audit } from "~/lib/audit.server";
 import { db, type DbOrTx, type Tx } from "~/lib/db.server";
+import { isUuid } from "~/lib/edge";
 import { env } from "~/lib/env.server";
 import { composeMail, enqueueMail } from "~/lib/mail.server";
 import { PERMISSIONS, type Role } from "~/lib/permissions";
-import { countWords, EMPTY_DOC, sanitizeDocument, type Issue, type ProcedureDoc } from "./document";
+import { countWords, EMPTY_DOC, incompleteBlocks, incompleteText, sanitizeDocument, type IncompleteBlock, type Issue, type ProcedureDoc } from "./document";
 import { extract } from "./extract";
 import { structureProblem } from "./schema-check.server";
 import { slugify } from "./slug";
@@ -42,7 +43,14 @@ export class ProcedureError extends Error {
 
 export class DocumentInvalid extends Error {
   constructor(readonly issues: Issue[]) {
-    super(`The document was not saved: ${issues.map((i) => `${i.path} ${i.message}`).join("; ")}`);
+    super(`The document was not saved: ${issues.map((i) => i.message).join("; ")}`);
+  }
+}
+
+/** Submitting a draft with blocks still incomplete: the list says which and what each lacks. */
+export class DocumentIncomplete extends ProcedureError {
+  constructor(readonly blocks: IncompleteBlock[]) {
+    super(`Not ready for review. Finish ${blocks.length === 1 ? "this block" : `these ${blocks.length} blocks`} first: ${incompleteText(blocks)}.`, 422);
   }
 }
 
@@ -176,7 +184,7 @@ export async function startDraftFrom(actor: Actor, sourceRevisionId: string): Pr
 
 export type SaveInput = { baseVersion: number; title: string; summary: string; area: Area; tags: string[]; doc: unknown };
 export type SaveResult =
-  | { ok: true; version: number; updatedAt: Date; warnings: Issue[] }
+  | { ok: true; version: number; updatedAt: Date; warnings: Issue[]; incomplete: IncompleteBlock[] }
   | {
       ok: false;
       conflict: true;
@@ -219,7 +227,7 @@ export async function saveDraft(actor: Actor, revisionId: string, input: SaveInp
     if (!proc.publishedRevisionId && proc.title !== input.title) {
       await tx.update(procedures).set({ title: input.title, area: input.area, summary: input.summary, tags: input.tags, updatedAt: now }).where(eq(procedures.id, proc.id));
     }
-    return { ok: true as const, version: saved.version, updatedAt: saved.updatedAt, warnings };
+    return { ok: true as const, version: saved.version, updatedAt: saved.updatedAt, warnings, incomplete: incompleteBlocks(doc) };
   });
 }
 
@@ -255,6 +263,9 @@ export async function submitRevision(actor: Actor & { name: string }, revisionId
   return db().transaction(async (tx) => {
     const { rev, proc } = await lockRevision(tx, revisionId);
     check("submit", rev, actor, { changeNote });
+    // A draft saves with blocks half done; review needs every block complete.
+    const incomplete = incompleteBlocks(rev.doc as ProcedureDoc);
+    if (incomplete.length) throw new DocumentIncomplete(incomplete);
     const note = changeNote.trim();
     await tx.update(procedureRevisions).set({ state: "in_review", changeNote: note, submittedAt: new Date(), returnReason: null, updatedAt: new Date() }).where(eq(procedureRevisions.id, rev.id));
     for (const r of await reviewers(tx, actor.id)) {
@@ -468,8 +479,10 @@ export async function readyRecordings(q: string): Promise<RecordingOption[]> {
 
 export async function recordingTitles(ids: string[]): Promise<Map<string, string>> {
   const t = await recordingTables();
-  if (!t.recordings || !ids.length) return new Map();
-  const r = await db().execute<{ id: string; title: string }>(sql`select id::text as id, title from recordings where id in (${sql.join(ids.map((i) => sql`${i}::uuid`), sql`, `)})`);
+  // A draft's video moment may have no recording yet (its id is null): ask only for real ids.
+  const valid = ids.filter(isUuid);
+  if (!t.recordings || !valid.length) return new Map();
+  const r = await db().execute<{ id: string; title: string }>(sql`select id::text as id, title from recordings where id in (${sql.join(valid.map((i) => sql`${i}::uuid`), sql`, `)})`);
   return new Map(r.rows.map((x) => [x.id, x.title]));
 }
 

@@ -24,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return Response.json({ id: rev.id, number: rev.number, state: rev.state, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, updatedAt: rev.updatedAt });
 }
 
-/** Autosave: JSON { baseVersion, title, summary, area, tags, doc }. 409 on a conflict (the loser's text is kept as a conflict copy). */
+/** Autosave: JSON { baseVersion, title, summary, area, tags, doc }. 409 on a conflict (the loser's text is kept as a conflict copy); 422 only for what no draft may hold. */
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "procedure:edit:own");
   if (request.method !== "POST") return Response.json({ error: "method not allowed" }, { status: 405 });
@@ -34,7 +34,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     const r = await saveDraft(user, id, { ...parsed.data, tags: normalizeTags(parsed.data.tags) });
     if (!r.ok) return Response.json({ error: "conflict", message: `${r.current.savedBy ?? "Someone"} saved this draft while you were editing. Your version was not lost: it is kept as a conflict copy.`, ...r }, { status: 409 });
-    return Response.json({ ok: true, version: r.version, savedAt: r.updatedAt, warnings: r.warnings });
+    // Saved even with blocks half done: `incomplete` lists them, for the editor's marks and the submit check.
+    return Response.json({ ok: true, version: r.version, savedAt: r.updatedAt, warnings: r.warnings, incomplete: r.incomplete });
   } catch (err) {
     if (err instanceof DocumentInvalid) return Response.json({ error: "invalid input", issues: err.issues }, { status: 422 });
     if (err instanceof ProcedureError) return Response.json({ error: err.status === 403 ? "forbidden" : "refused", reason: err.message }, { status: err.status });
