@@ -40,7 +40,7 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
         Signed in as {ROLE_LABELS[user.role]}.
       </PageHeader>
       {returned.length > 0 && (
-        <section aria-labelledby="returned-h" className="card mb-6 border-brass/60" data-testid="returned-drafts">
+        <section aria-labelledby="returned-h" className="card mb-6 border-l-4 border-l-brass" data-testid="returned-drafts">
           <h2 id="returned-h" className="text-lg">Returned to you</h2>
           <p className="text-sm text-graphite-soft">An editor sent these drafts back with a reason. Change them and submit again.</p>
           <ul className="mt-2 divide-y divide-rule/70 text-sm">
@@ -52,7 +52,7 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
                     <span className="text-graphite-soft">Returned by {r.returnedBy ?? "former staff"}{r.returnedAt ? ` on ${fmtDate(r.returnedAt)}` : ""}:</span> {r.reason}
                   </p>
                 </div>
-                <Link className="btn btn-primary py-1.5 no-underline" to={`/procedures/${r.slug}/r/${r.number}/edit`}>Continue editing<span className="sr-only">: {r.title}</span></Link>
+                <Link className="btn btn-primary py-1.5 no-underline" to={`/procedures/${r.slug}/r/${r.number}/edit`} aria-label={`Continue editing ${r.title}`}>Continue editing</Link>
               </li>
             ))}
           </ul>

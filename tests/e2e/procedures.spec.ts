@@ -54,7 +54,8 @@ test("write, submit, compare, publish, read", async ({ browser }) => {
   await ed.goto("/");
   await expect(ed.getByTestId("awaiting-review")).toContainText(title);
   await ed.getByTestId("awaiting-review").getByRole("link", { name: new RegExp(title) }).click();
-  await expect(ed.getByTestId("text-diff")).toContainText("File the top ring");
+  // Never published: the review opens on the revision itself (nothing to compare it with).
+  await expect(ed.getByTestId("procedure-body")).toContainText("File the top ring");
   await ed.screenshot({ path: `${SHOTS}/compare-1280.png`, fullPage: true });
   await ed.getByRole("button", { name: /Publish revision 1/ }).click();
   await expect(ed.getByTestId("procedure-title")).toHaveText(title);
@@ -113,4 +114,89 @@ test("a bore distortion block shows its readings as depth × angle, and a reader
     await calc.scrollIntoViewIfNeeded();
     await calc.screenshot({ path: `${SHOTS}/distortion-block-${width}.png` });
   }
+});
+
+// ---- issue 14 §5: review and publishing that say who and what -----------------------------
+
+const REVIEW_SHOTS = process.env.SCREENSHOTS ?? "/tmp/shots-review";
+
+async function shoot(page: Page, name: string) {
+  for (const width of [1366, 768]) {
+    await page.setViewportSize({ width, height: width === 768 ? 1024 : 900 });
+    await page.screenshot({ path: `${REVIEW_SHOTS}/${name}-${width}.png`, fullPage: true });
+  }
+}
+
+test("the compare view shows both revisions as the reader sees them: headings, numbered steps, N·m, calculator settings in words", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  await page.goto("/procedures/head-stud-installation-and-torque-sequence/history");
+  await expect(page.getByTestId("history-rev-2").getByTestId("history-published")).toContainText(/Published .+ by Priya/);
+  await shoot(page, "history");
+  await page.getByRole("link", { name: "Compare with revision 1" }).click();
+  const diff = page.getByTestId("text-diff");
+  await expect(diff.locator("[data-block='heading']").first()).toHaveText("Why");
+  await expect(diff.locator("[data-block='heading']")).toContainText(["Why", "Tools and parts", "Steps", "Checks"]);
+  // The steps keep their numbers; the final pass changed from 105 to 110 N·m, marked in words.
+  const finalPass = diff.locator("li[data-op='change']").filter({ hasText: "Final pass to" });
+  await expect(finalPass).toContainText("Changed");
+  await expect(finalPass.locator("[data-block='item']")).toContainText(/^6\.Final pass to/);
+  await expect(finalPass.locator("del")).toContainText("105");
+  await expect(finalPass.locator("ins")).toContainText("110");
+  await expect(finalPass).toContainText("N·m");
+  const calc = diff.locator("[data-block='calculator']");
+  await expect(calc).toContainText("Preload calculator — M12×1.5 head studs, moly");
+  await expect(calc).toContainText("torque → preload");
+  await expect(calc).toContainText("property class 12.9");
+  await expect(diff.locator("[data-block='spec']").first()).toContainText("Head stud final torque");
+  const text = (await diff.textContent()) ?? "";
+  for (const raw of ["##", "•Chase", "N.m", "propertyClass", "torque-to-preload"]) expect(text).not.toContain(raw);
+  await expect(page.getByTestId("spec-diff")).toContainText("110 N·m (105–115 N·m)");
+  await shoot(page, "compare");
+  await page.goto("/procedures/head-stud-installation-and-torque-sequence");
+  await expect(page.getByTestId("revision-author")).toHaveText(/Written by Marcus/);
+  await expect(page.getByTestId("revision-published")).toHaveText(/Published .+ by Priya/);
+  await shoot(page, "read-header");
+});
+
+test("a never-published procedure offers no comparison; a returned draft waits on its author's Shop floor with the reason", async ({ browser }) => {
+  const title = `Rod bolt stretch ${stamp}`;
+  const author = await (await browser.newContext()).newPage();
+  await signIn(author, "marcus@larkspur.example");
+  await author.goto("/procedures/new");
+  await author.getByLabel("Title").fill(title);
+  await author.getByLabel("Shop area").selectOption("fasteners");
+  await author.getByRole("button", { name: "Start the draft" }).click();
+  await expect(author).toHaveURL(/\/r\/1\/edit$/);
+  await author.getByTestId("editor").locator("p").first().click();
+  await author.keyboard.type("Measure each rod bolt's free length before torquing.");
+  await expect(author.getByTestId("save-status")).toHaveText(/Saved/, { timeout: 15_000 });
+  const slug = new URL(author.url()).pathname.split("/")[2];
+  await author.goto(`/procedures/${slug}/r/1`);
+  await expect(author.getByRole("link", { name: "History" })).toBeVisible();
+  await expect(author.getByRole("link", { name: /Compare/ })).toHaveCount(0);
+  await author.getByLabel("Change note").fill("First version");
+  await author.getByRole("button", { name: "Submit for review" }).click();
+  await expect(author.getByTestId("state-badge")).toHaveText("In review");
+  await expect(author.getByRole("link", { name: /Compare/ })).toHaveCount(0);
+
+  const editor = await (await browser.newContext()).newPage();
+  await signIn(editor, "priya@larkspur.example");
+  await editor.goto("/");
+  await editor.getByTestId("awaiting-review").getByRole("link", { name: new RegExp(title) }).click();
+  await expect(editor).toHaveURL(new RegExp(`/procedures/${slug}/r/1$`));
+  await expect(editor.getByRole("link", { name: /Compare/ })).toHaveCount(0);
+  await editor.getByLabel("Reason for returning").fill("Give the stretch limit as a spec");
+  await editor.getByRole("button", { name: "Return to Draft" }).click();
+  await expect(editor.getByTestId("return-reason")).toContainText(/Returned to Draft by Priya .+: Give the stretch limit as a spec/);
+
+  await author.goto("/");
+  const returned = author.getByTestId("returned-drafts");
+  await expect(returned).toContainText(title);
+  await expect(returned).toContainText(/Returned by Priya .+: Give the stretch limit as a spec/);
+  await shoot(author, "shop-floor-returned");
+  await returned.getByRole("link", { name: `Continue editing ${title}` }).click();
+  await expect(author).toHaveURL(new RegExp(`/procedures/${slug}/r/1/edit$`));
+  await author.goto(`/procedures/${slug}/history`);
+  await expect(author.getByTestId("history-returned")).toContainText(/Returned to Draft by Priya .+: Give the stretch limit as a spec/);
+  await shoot(author, "history-returned");
 });

@@ -115,11 +115,11 @@ export function CompareBlocks({ changes }: { changes: BlockChange[] }) {
             <Block b={b} text={c.op === "add" ? <Ins>{text}</Ins> : c.op === "del" ? <Del>{text}</Del> : text} title={c.op === "add" ? <Ins>{title}</Ins> : c.op === "del" ? <Del>{title}</Del> : title} />
           </Wrap>
         );
-        if (c.op === "same") return <li key={i} className="grid grid-cols-[4.5rem_minmax(0,1fr)] gap-3" data-op="same"><span aria-hidden="true" />{body}</li>;
+        if (c.op === "same") return <li key={i} className="grid grid-cols-[5.75rem_minmax(0,1fr)] gap-2 sm:gap-3" data-op="same"><span aria-hidden="true" />{body}</li>;
         const tone = c.op === "add" ? "border-ok text-ok" : c.op === "del" ? "border-graphite-soft text-graphite-soft" : "border-brass text-brass";
         return (
-          <li key={i} className="grid grid-cols-[4.5rem_minmax(0,1fr)] gap-3" data-op={c.op}>
-            <span className={`border-r-4 pr-2 pt-1 text-right font-sans text-xs font-semibold uppercase tracking-wide ${tone}`}>
+          <li key={i} className="grid grid-cols-[5.75rem_minmax(0,1fr)] gap-2 sm:gap-3" data-op={c.op}>
+            <span className={`whitespace-nowrap border-r-4 pr-2 pt-1 text-right font-sans text-xs font-semibold uppercase tracking-wide ${tone}`}>
               <span aria-hidden="true">{c.op === "add" ? "+ " : c.op === "del" ? "− " : "± "}</span>
               {LABEL[c.op]}
             </span>

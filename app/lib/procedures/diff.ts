@@ -1,5 +1,5 @@
 /** Comparing two revisions: spec changes as rows, text changes block by block as the reader sees them (the `diff` package). */
-import { diffArrays, diffWords } from "diff";
+import { diffArrays } from "diff";
 import type { ReaderBlock } from "./reader-blocks";
 
 export type SpecRow = { specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
@@ -53,7 +53,47 @@ export type BlockChange =
 const sameBlock = (l: ReaderBlock, r: ReaderBlock) =>
   l.kind === r.kind && l.text === r.text && (l.title ?? "") === (r.title ?? "") && (l.level ?? 0) === (r.level ?? 0) && Boolean(l.caution) === Boolean(r.caution) && Boolean(l.quote) === Boolean(r.quote);
 
-const pieces = (a: string, b: string): Piece[] => diffWords(a, b).map((c): Piece => ({ text: c.value, op: c.added ? "add" : c.removed ? "del" : "same" }));
+/** Words, spaces and signs; a number with its decimals is one word, so 0.15 → 0.18 reads as a new figure, not "0." plus digits. */
+const tokens = (s: string) => s.match(/\d+(?:[.,]\d+)*|[\p{L}\p{N}_]+|\s+|[^\s\p{L}\p{N}_]/gu) ?? [];
+
+/**
+ * Word changes, with a rewritten phrase kept whole: where words were replaced on both sides and
+ * only spaces stand between the replacements, the old phrase is struck through once and the new
+ * one follows, instead of alternating word by word.
+ */
+function pieces(a: string, b: string): Piece[] {
+  const raw = diffArrays(tokens(a), tokens(b)).map((c): Piece => ({ text: c.value.join(""), op: c.added ? "add" : c.removed ? "del" : "same" }));
+  const out: Piece[] = [];
+  const push = (p: Piece) => {
+    const last = out[out.length - 1];
+    if (last?.op === p.op) last.text += p.text;
+    else out.push({ ...p });
+  };
+  let del = "";
+  let add = "";
+  const flush = () => {
+    // Spaces that end both sides belong to the unchanged text that follows.
+    const tail = del && add ? (/\s+$/.exec(del)?.[0] ?? "") : "";
+    const shared = tail && add.endsWith(tail) ? tail : "";
+    if (del) push({ op: "del", text: del.slice(0, del.length - shared.length) });
+    if (add) push({ op: "add", text: add.slice(0, add.length - shared.length) });
+    if (shared) push({ op: "same", text: shared });
+    del = add = "";
+  };
+  raw.forEach((p, i) => {
+    if (p.op === "del") del += p.text;
+    else if (p.op === "add") add += p.text;
+    else if (del && add && /^\s+$/.test(p.text) && raw[i + 1] && raw[i + 1].op !== "same") {
+      del += p.text;
+      add += p.text;
+    } else {
+      flush();
+      push(p);
+    }
+  });
+  flush();
+  return out;
+}
 
 /**
  * Aligns the two block lists (whole blocks compared as the reader sees them), then shows a

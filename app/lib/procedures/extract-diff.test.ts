@@ -72,6 +72,29 @@ describe("diffBlocks", () => {
     expect(d.map((c) => c.block.marker)).toEqual(["1.", "2.", "3."]);
   });
 
+  it("a changed figure is marked whole: 0.15 → 0.18, not the digits after the point", () => {
+    const [c] = diffBlocks(readerBlocks(doc("Assume K = 0.15 for moly.")), readerBlocks(doc("Assume K = 0.18 for moly.")));
+    expect(c.op === "change" && c.pieces).toEqual([
+      { op: "same", text: "Assume K = " },
+      { op: "del", text: "0.15" },
+      { op: "add", text: "0.18" },
+      { op: "same", text: " for moly." },
+    ]);
+  });
+
+  it("a rewritten phrase is struck through once and followed by the new one, not word by word", () => {
+    const [c] = diffBlocks(readerBlocks(doc("K = 0.15, the usual figure for moly paste.")), readerBlocks(doc("K = 0.18, the nut factor our clamp-load test fits for moly paste.")));
+    expect(c.op === "change" && c.pieces).toEqual([
+      { op: "same", text: "K = " },
+      { op: "del", text: "0.15" },
+      { op: "add", text: "0.18" },
+      { op: "same", text: ", the " },
+      { op: "del", text: "usual figure" },
+      { op: "add", text: "nut factor our clamp-load test fits" },
+      { op: "same", text: " for moly paste." },
+    ]);
+  });
+
   it("a heading that became a paragraph is removed and added, not a word change", () => {
     const h: JSONNode = { type: "doc", content: [{ type: "heading", attrs: { level: 2 }, content: [{ type: "text", text: "Why" }] }] };
     const d = diffBlocks(readerBlocks(h), readerBlocks(doc("Why")));
