@@ -214,3 +214,128 @@ test("an upload cut off in one browser continues in a fresh profile from where t
   const all = await other.evaluate(async () => (await (await fetch("/api/uploads")).json()) as { unfinished: { fileName: string }[] });
   expect(all.unfinished.filter((u) => u.fileName === "long-take.mp4")).toEqual([]);
 });
+
+// ---- issue 14: the player is ours; words for the shop -------------------------------------------
+
+const DEMO_WATCH = "/recordings/5eed0000-0000-4000-8000-00000000c1a9";
+
+async function openDemo(page: Page, query = "") {
+  await page.goto(`${DEMO_WATCH}${query}`);
+  const video = page.locator("video").first();
+  // The worker processes the seeded clip after start; the page follows by itself.
+  await expect(video).toBeAttached({ timeout: 60_000 });
+  await expect.poll(() => video.evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 30_000 }).toBeGreaterThanOrEqual(1);
+  return video;
+}
+
+test("the player's controls are ours: named for a screen reader, used by keyboard, 44 px on the tablet, no stock skin", async ({ page }) => {
+  test.setTimeout(120_000);
+  await signIn(page);
+  await openDemo(page);
+  const controls = page.getByRole("group", { name: "Video controls" });
+  await expect(controls).toBeVisible();
+  for (const name of ["Play", "Back 5 seconds", "Forward 5 seconds", "One frame back", "One frame on", "Mute"]) {
+    await expect(controls.getByRole("button", { name, exact: true })).toBeEnabled();
+  }
+  await expect(controls.getByRole("slider", { name: "Position in the video" })).toBeEnabled();
+  await expect(controls.getByRole("combobox", { name: "Playback speed" })).toBeEnabled();
+  // None of video.js's own skin: no big centred play button, no stock control bar or rate button.
+  await expect(page.locator(".vjs-big-play-button, .vjs-control-bar, .vjs-playback-rate")).toHaveCount(0);
+  await expect(page.getByText("Playback Rate")).toHaveCount(0);
+  // The marks show as ticks on our position bar.
+  await expect(controls.locator(".br-mark-ticks .br-tick").first()).toBeAttached();
+  expect(await controls.locator(".br-mark-ticks .br-tick").count()).toBeGreaterThanOrEqual(4);
+
+  // Keyboard: on the position bar → moves 5 s; Space on a focused button presses that button.
+  const position = controls.getByRole("slider", { name: "Position in the video" });
+  await position.focus();
+  await page.keyboard.press("ArrowRight");
+  await expect.poll(() => videoTime(page)).toBeCloseTo(5, 0);
+  await expect(position).toHaveAttribute("aria-valuetext", /^0:05\.0 of 0:2\d\.\d$/);
+  await controls.getByRole("button", { name: "Mute" }).focus();
+  await page.keyboard.press("Space");
+  await expect(controls.getByRole("button", { name: "Mute" })).toHaveAttribute("aria-pressed", "true");
+  expect(await page.locator("video").first().evaluate((v: HTMLVideoElement) => v.paused)).toBe(true);
+  await controls.getByRole("button", { name: "Play" }).focus();
+  await page.keyboard.press("Space");
+  await expect(controls.getByRole("button", { name: "Pause" })).toBeVisible();
+  await page.keyboard.press("Space");
+  await expect(controls.getByRole("button", { name: "Play" })).toBeVisible();
+  await controls.getByRole("combobox", { name: "Playback speed" }).selectOption({ label: "½×" });
+  expect(await page.locator("video").first().evaluate((v: HTMLVideoElement) => v.playbackRate)).toBe(0.5);
+  await expect(page.getByTestId("key-help")).toBeVisible();
+
+  // The tablet: every control a finger can hit, at least 44 px each way.
+  await page.setViewportSize({ width: 768, height: 1024 });
+  const sizes = await controls.locator("button, select, input[type=range]").evaluateAll((els) =>
+    els
+      .filter((e) => (e as HTMLElement).offsetParent !== null)
+      .map((e) => {
+        const r = e.getBoundingClientRect();
+        return { name: e.getAttribute("aria-label") ?? e.tagName, w: Math.round(r.width), h: Math.round(r.height) };
+      }),
+  );
+  expect(sizes.length).toBeGreaterThanOrEqual(7);
+  expect(sizes.filter((s) => s.w < 44 || s.h < 44)).toEqual([]);
+  await shot(page, "player");
+});
+
+test("opening a recording at ?t=5 shows the frame at 5 s, never the poster", async ({ page }) => {
+  test.setTimeout(120_000);
+  await signIn(page);
+  const posters: string[] = [];
+  page.on("request", (r) => {
+    if (r.url().includes("/poster")) posters.push(r.url());
+  });
+  const video = await openDemo(page, "?t=5");
+  await expect.poll(() => videoTime(page), { timeout: 15_000 }).toBeCloseTo(5, 1);
+  await expect(video).toBeVisible();
+  await expect(page.getByText(/^Opening at/)).toHaveCount(0);
+  await expect(page.locator(".vjs-poster img, .vjs-poster[style*='background-image']")).toHaveCount(0);
+  await expect(page.getByTestId("player-time")).toContainText("0:05.0");
+  expect(posters).toEqual([]);
+
+  // Without a moment the poster is what shows first (so the check above means something).
+  await openDemo(page);
+  expect(posters.length).toBeGreaterThan(0);
+});
+
+test("keyboard hints show where a keyboard is likely, not on a touch screen", async ({ browser }) => {
+  test.setTimeout(120_000);
+  const touch = await browser.newContext({ viewport: { width: 768, height: 1024 }, hasTouch: true, isMobile: true });
+  const page = await touch.newPage();
+  await signIn(page);
+  await openDemo(page);
+  await expect(page.getByRole("group", { name: "Video controls" })).toBeVisible();
+  await expect(page.getByTestId("key-help")).toBeHidden();
+  await touch.close();
+});
+
+test("a refused page says in the shop's words what the role cannot do, and whom to ask", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  const res = await page.goto("/procedures/new");
+  expect(res?.status()).toBe(403);
+  await expect(page.getByTestId("forbidden-reason")).toHaveText(
+    "Apprentices can read procedures, watch recordings and use the calculators, but not write procedures. Ask an editor, a senior builder or an admin.",
+  );
+  await expect(page.locator("main")).not.toContainText("procedure:draft");
+  await expect(page.locator("main")).not.toContainText("needs");
+});
+
+test("tags keep the spelling they were given and match whatever the case", async ({ page }) => {
+  await signIn(page);
+  await page.goto("/procedures/head-stud-installation-and-torque-sequence");
+  await expect(page.getByRole("link", { name: "2.3 L", exact: true })).toBeVisible();
+  await expect(page.getByRole("link", { name: "2.3 l", exact: true })).toHaveCount(0);
+  await page.goto("/procedures?tag=2.3%20l");
+  await expect(page.getByTestId("procedure-card-head-stud-installation-and-torque-sequence")).toBeVisible();
+  await expect(page.getByRole("navigation", { name: "Filter by tag" }).locator("[aria-current=true]")).toContainText("2.3 L");
+
+  // A mark's tag as typed: "Torque" stays "Torque".
+  const res = await page.request.post(`/api/recordings/5eed0000-0000-4000-8000-00000000c1a9/marks`, {
+    data: { tStart: 3.3, text: `Tag case check ${Date.now().toString(36)}`, tags: ["Torque", "MLS"] },
+    headers: { origin: new URL(page.url()).origin },
+  });
+  expect(res.status()).toBe(201);
+  expect(((await res.json()) as { mark?: { tags: string[] }; tags?: string[] }).mark?.tags ?? []).toEqual(["Torque", "MLS"]);
+});

@@ -67,7 +67,8 @@ export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPane
   useEffect(() => {
     if (!current || !listRef.current) return;
     const el = listRef.current.querySelector<HTMLElement>(`[data-mark-id="${current}"]`);
-    el?.scrollIntoView({ block: "nearest", behavior: "smooth" });
+    // Motion follows the person's setting (prefers-reduced-motion).
+    el?.scrollIntoView({ block: "nearest", behavior: window.matchMedia("(prefers-reduced-motion: reduce)").matches ? "auto" : "smooth" });
   }, [current]);
 
   return (
@@ -96,7 +97,7 @@ export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPane
         />
       )}
       {marks.length === 0 && !draft ? (
-        <p className="px-4 py-6 text-sm text-graphite-soft">No marks yet.{canCreate && <> Press <kbd className="rounded border border-rule bg-card px-1 font-mono text-xs">M</kbd> while watching to mark the moment that matters.</>}</p>
+        <p className="px-4 py-6 text-sm text-graphite-soft">No marks yet.{canCreate && <span className="keyboard-only"> Press <kbd className="rounded border border-rule bg-card px-1 font-mono text-xs">M</kbd> while watching to mark the moment that matters.</span>}{canCreate && <span className="touch-only"> Tap “Mark at” above at the moment that matters.</span>}</p>
       ) : (
         <ol ref={listRef} className="min-h-0 flex-1 overflow-y-auto" data-testid="mark-list">
           {marks.map((m) =>

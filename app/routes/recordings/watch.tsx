@@ -7,7 +7,7 @@ import { parseParams, readForm } from "~/lib/edge.server";
 import { idParams } from "~/lib/edge";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
-import { MarksPanel, useOptimisticMarks, type MarksPanelHandle } from "~/components/recordings/MarksPanel";
+import { currentMarkId, MarksPanel, useOptimisticMarks, type MarksPanelHandle } from "~/components/recordings/MarksPanel";
 import type { PlayerApi } from "~/components/recordings/Player.client";
 import { Poster } from "~/components/recordings/Poster";
 import { ReadingsChart } from "~/components/recordings/ReadingsChart";
@@ -104,8 +104,19 @@ const fmtDate = formatDay;
 function isTyping(el: EventTarget | null) {
   const e = el as HTMLElement | null;
   if (!e) return false;
+  // The player's position and volume bars are inputs too, but nobody types in them: the page's
+  // keys (arrows ±5 s, frames) work there as everywhere else.
+  if (e.tagName === "INPUT" && (e as HTMLInputElement).type === "range") return false;
   return e.isContentEditable || ["INPUT", "TEXTAREA", "SELECT"].includes(e.tagName);
 }
+
+/** Space on a focused button, link or disclosure presses it, as everywhere else; it does not play. */
+function pressesSomething(el: EventTarget | null) {
+  const e = el as HTMLElement | null;
+  return Boolean(e?.closest?.("button, a[href], summary, [role=button]"));
+}
+
+const reducedMotion = () => typeof window !== "undefined" && window.matchMedia("(prefers-reduced-motion: reduce)").matches;
 
 export default function Watch({ loaderData, actionData }: Route.ComponentProps) {
   const { recording: r, procedures, me } = loaderData;
@@ -126,6 +137,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
   const readings = useOptimisticReadings(r.id, loaderData.readings as ReadingRow[]);
   const ticks = useMemo(() => marks.map((m) => ({ id: m.id, tStart: m.tStart, tEnd: m.tEnd, text: m.text })), [marks]);
   const fps = r.frameRate && r.frameRate > 0 ? r.frameRate : 30;
+  const activeMark = currentMarkId(marks, time);
   const busy = useNavigation().state !== "idle";
 
   // Processing: poll the page data until the state changes.
@@ -141,7 +153,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
   const seek = useCallback((t: number) => {
     api.current?.seek(t);
     setTime(t);
-    document.getElementById("player-region")?.scrollIntoView({ block: "nearest", behavior: "smooth" });
+    document.getElementById("player-region")?.scrollIntoView({ block: "nearest", behavior: reducedMotion() ? "auto" : "smooth" });
   }, []);
 
   useEffect(() => {
@@ -153,6 +165,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
       let handled = true;
       switch (e.key) {
         case " ":
+          if (pressesSomething(e.target)) return;
           p.togglePlay();
           break;
         case "ArrowLeft":
@@ -254,23 +267,24 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
           <div className="grid gap-5 lg:grid-cols-[minmax(0,1fr)_22rem]">
             <div id="player-region" className="min-w-0 space-y-2">
               {mounted ? (
-                <Suspense fallback={<Poster id={r.id} hasPoster={r.hasPoster} title={r.title} />}>
+                <Suspense fallback={<PlayerPlaceholder recording={r} startAt={startAt} />}>
                   <Player
                     src={`/api/recordings/${r.id}/media`}
                     poster={r.hasPoster ? `/api/recordings/${r.id}/poster` : undefined}
+                    title={r.title}
                     startAt={startAt}
+                    durationS={r.durationS}
+                    fps={fps}
                     marks={ticks}
+                    activeMarkId={activeMark}
                     onReady={(p) => { api.current = p; }}
                     onTime={setTime}
                   />
                 </Suspense>
               ) : (
-                <Poster id={r.id} hasPoster={r.hasPoster} title={r.title} />
+                <PlayerPlaceholder recording={r} startAt={startAt} />
               )}
-              <div className="flex flex-wrap items-center justify-between gap-2 text-xs text-graphite-soft">
-                <p className="num" aria-live="off">At <span className="font-mono font-semibold text-graphite" data-testid="current-time">{formatTime(time)}</span></p>
-                <KeyHelp canMark={perms.mark} />
-              </div>
+              <KeyHelp canMark={perms.mark} />
             </div>
             <MarksPanel
               ref={marksPanel}
@@ -297,10 +311,30 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
   );
 }
 
+/**
+ * What shows before the player has loaded, in the player's shape so nothing jumps: the poster, or,
+ * when the page opens at a moment (?t=), no poster at all (the marked frame comes first).
+ */
+function PlayerPlaceholder({ recording: r, startAt }: { recording: Route.ComponentProps["loaderData"]["recording"]; startAt: number | null }) {
+  return (
+    <div className="overflow-hidden rounded-[0.6rem] border border-rule bg-card" data-testid="player-placeholder">
+      {startAt != null ? (
+        <div className="flex aspect-video w-full items-center justify-center bg-graphite text-paper" role="status">
+          Opening at <span className="num mx-1 font-mono">{formatTime(startAt)}</span>…
+        </div>
+      ) : (
+        <Poster id={r.id} hasPoster={r.hasPoster} title={r.title} className="rounded-none" />
+      )}
+      <div className="h-[6.4rem] border-t border-rule min-[1025px]:h-[5.35rem]" />
+    </div>
+  );
+}
+
+/** Keys of the watch page; shown only where a keyboard is likely (a fine pointer that hovers). */
 function KeyHelp({ canMark }: { canMark: boolean }) {
   const k = "rounded border border-rule bg-card px-1 font-mono text-[11px] text-graphite";
   return (
-    <p className="flex flex-wrap gap-x-3 gap-y-1" aria-label="Keyboard">
+    <p className="keyboard-only flex flex-wrap gap-x-3 gap-y-1 text-xs text-graphite-soft" aria-label="Keyboard" data-testid="key-help">
       <span><kbd className={k}>Space</kbd> play / pause</span>
       <span><kbd className={k}>←</kbd> <kbd className={k}>→</kbd> 5 s</span>
       <span><kbd className={k}>,</kbd> <kbd className={k}>.</kbd> one frame</span>
