@@ -162,3 +162,18 @@ export const librarySearch = z.object({
 
 /** `?v=` of a record page: a version number (0 is the record as filed), or absent for the current one. */
 export const versionSearch = z.object({ v: optionalSearch(wholeNumberParam) });
+
+// ---- where a reading was taken ----------------------------------------------------------------
+
+/**
+ * Positions a reading can carry (issue 14): whole-number places are counted from 1 as the shop
+ * counts them; an angle is on the gauge's dial, 0–360°; a depth below the deck is within the
+ * longest bore a shop measures (1 m, in SI).
+ */
+export const POSITION_RANGES = {
+  fastener: { min: 1, max: 200 }, // stud or bolt number on a head, cap or flange
+  cylinder: { min: 1, max: 24 },
+  journal: { min: 1, max: 16 }, // main or rod journal
+  angleDeg: { min: 0, max: 360 },
+  depthM: { min: 0, max: 1 },
+} as const;

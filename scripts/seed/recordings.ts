@@ -48,15 +48,16 @@ export async function seedRecordings(db: Db): Promise<number> {
     { recordingId: DEMO_ID, tStart: 18.4, text: "Final pass 110 N·m; stud 4 reads 51 kN", tags: ["torque", "clamp load"], createdBy: "demo-tomas" },
   ]);
   const pass = (n: number) => ({ pass: String(n), lube: "moly", tool: "click wrench #3" });
-  const torque = (t: number, label: string, n: number, at: number) => ({ recordingId: DEMO_ID, quantity: "torque", label, valueEntered: t, unitEntered: "N.m", valueSi: t, conditions: pass(n), t: at, createdBy: "demo-tomas" });
-  const clamp = (kN: number, label: string, n: number, at: number) => ({ recordingId: DEMO_ID, quantity: "clamp-load", label, valueEntered: kN, unitEntered: "kN", valueSi: kN * 1000, conditions: pass(n), t: at, createdBy: "demo-tomas" });
+  // Each reading names its stud in the position field (positions.ts), not in the label.
+  const torque = (t: number, stud: number, n: number, at: number) => ({ recordingId: DEMO_ID, quantity: "torque", fastener: stud, valueEntered: t, unitEntered: "N.m", valueSi: t, conditions: pass(n), t: at, createdBy: "demo-tomas" });
+  const clamp = (kN: number, stud: number, n: number, at: number) => ({ recordingId: DEMO_ID, quantity: "clamp-load", fastener: stud, valueEntered: kN, unitEntered: "kN", valueSi: kN * 1000, conditions: pass(n), t: at, createdBy: "demo-tomas" });
   await db.insert(readings).values([
-    torque(40, "stud 4", 1, 10.5), clamp(18.1, "stud 4", 1, 10.9),
-    torque(75, "stud 4", 2, 15.0), clamp(34.6, "stud 4", 2, 15.4),
-    torque(110, "stud 1", 3, 19.0), clamp(49.8, "stud 1", 3, 19.3),
-    torque(110, "stud 2", 3, 20.1), clamp(52.3, "stud 2", 3, 20.4),
-    torque(110, "stud 3", 3, 21.2), clamp(50.6, "stud 3", 3, 21.5),
-    torque(110, "stud 4", 3, 22.3), clamp(51.0, "stud 4", 3, 22.6),
+    torque(40, 4, 1, 10.5), clamp(18.1, 4, 1, 10.9),
+    torque(75, 4, 2, 15.0), clamp(34.6, 4, 2, 15.4),
+    torque(110, 1, 3, 19.0), clamp(49.8, 1, 3, 19.3),
+    torque(110, 2, 3, 20.1), clamp(52.3, 2, 3, 20.4),
+    torque(110, 3, 3, 21.2), clamp(50.6, 3, 3, 21.5),
+    torque(110, 4, 3, 22.3), clamp(51.0, 4, 3, 22.6),
   ]);
   return 1;
 }

@@ -5,6 +5,7 @@ import { and, asc, eq } from "drizzle-orm";
 import type { NodePgDatabase } from "drizzle-orm/node-postgres";
 import { auditLog, procedureRevisions, procedures, procedureSpecs, testRecordReadings, testRecords } from "../../app/db/schema";
 import { toSI, type UnitCode } from "../../app/lib/calc";
+import { positionFieldsForSpec, positionFromLabel } from "../../app/lib/recordings/positions";
 import { evaluateRecord, readingVerdict } from "../../app/lib/test-records/verdict";
 
 type Db = NodePgDatabase<Record<string, unknown>>;
@@ -113,7 +114,9 @@ export async function seedTestRecords(db: Db): Promise<number | "skipped"> {
       const rows = specs.flatMap((s) =>
         (typed[s.id] ?? []).map((r, i) => {
           const v = readingVerdict(limits.find((l) => l.id === s.id)!, r);
-          return { recordId: rec.id, version: 0, specId: s.id, specKey: s.specKey, position: i, valueEntered: r.value, unitEntered: r.unit, valueSi: toSI(r.value, r.unit as UnitCode), valueInSpecUnit: v.valueInSpecUnit, verdict: v.verdict, note: r.note, createdAt: when };
+          // "cyl 2, 10 mm down, 45°" goes into the position fields that fit the spec; the rest stays a note.
+          const where = positionFromLabel(positionFieldsForSpec(s), r.note);
+          return { recordId: rec.id, version: 0, specId: s.id, specKey: s.specKey, position: i, valueEntered: r.value, unitEntered: r.unit, valueSi: toSI(r.value, r.unit as UnitCode), valueInSpecUnit: v.valueInSpecUnit, verdict: v.verdict, note: where.label, ...where.position, createdAt: when };
         }),
       );
       await tx.insert(testRecordReadings).values(rows);

@@ -501,9 +501,10 @@ describe("readings API", () => {
     expect(csv.headers.get("content-disposition")).toMatch(/attachment; filename="Stud-4-clamp-load-test-readings\.csv"/);
     const text = await csv.text();
     const lines = text.trim().split("\n");
-    expect(lines[0]).toBe("time_s,quantity,label,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
-    expect(text).toContain('"cyl 2, 20 mm down, 90°"');
-    expect(text).toMatch(/7\.5,Torque,stud 4,81,ft\.lbf,/);
+    expect(lines[0]).toBe("time_s,quantity,label,fastener,cylinder,journal,depth,depth_unit,angle_deg,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
+    // Sent the old way, the place in the label: it is in the position columns (issue 14 §2).
+    expect(text).toContain(",Bore diameter,,,2,,20,mm,90,88.012,mm,");
+    expect(text).toMatch(/7\.5,Torque,,4,,,,,,81,ft\.lbf,/);
 
     const { readings } = (await (await http(url(), { cookie: builder.cookie })).json()) as { readings: { id: string; quantity: string }[] };
     const torque = readings.find((r) => r.quantity === "torque")!;
@@ -515,7 +516,7 @@ describe("readings API", () => {
     expect((await issues(unitChange))[0].path).toBe("unit");
     const ok = await http(one, { method: "PATCH", cookie: editor.cookie, json: { value: 110, unit: "N.m" } });
     expect(ok.status).toBe(200);
-    expect(((await ok.json()) as { reading: { valueSi: number; label: string } }).reading).toMatchObject({ valueSi: 110, label: "stud 4" });
+    expect(((await ok.json()) as { reading: { valueSi: number; label: string } }).reading).toMatchObject({ valueSi: 110, label: "", fastener: 4 });
     expect((await http(one, { method: "DELETE", cookie: builder2.cookie })).status).toBe(403);
     expect((await http(one, { method: "DELETE", cookie: builder.cookie })).status).toBe(204);
   });

@@ -83,9 +83,9 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
   );
 }
 
-/** Torque and clamp-load readings paired by label and pass. */
+/** Torque and clamp-load readings paired by stud, label and pass. */
 export function pairTorqueClamp(readings: ReadingRow[]) {
-  const key = (r: ReadingRow) => `${r.label.trim().toLowerCase()}|${(r.conditions?.pass ?? "").trim().toLowerCase()}`;
+  const key = (r: ReadingRow) => `${r.fastener ?? ""}|${r.label.trim().toLowerCase()}|${(r.conditions?.pass ?? "").trim().toLowerCase()}`;
   const torque = new Map<string, ReadingRow>();
   const clamp = new Map<string, ReadingRow>();
   for (const r of readings) {

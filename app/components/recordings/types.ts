@@ -1,3 +1,5 @@
+import type { Position } from "~/lib/recordings/positions";
+
 /** Shapes the watch page gets from its loader (dates arrive as strings after serialisation). */
 export type MarkRow = {
   id: string;
@@ -25,7 +27,7 @@ export type ReadingRow = {
   createdBy: string | null;
   authorName: string | null;
   pending?: boolean;
-};
+} & Position;
 
 export type ProcedureChoice = { id: string; title: string; area: string };
 

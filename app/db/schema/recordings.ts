@@ -81,6 +81,23 @@ export const marks = pgTable(
   (t) => [index("marks_recording_idx").on(t.recordingId, t.tStart), index("marks_procedure_idx").on(t.procedureId)],
 );
 
+/**
+ * Where a reading was taken (app/lib/recordings/positions.ts says which fit each quantity);
+ * the same columns on a recording's readings and a test record's.
+ */
+export const positionColumns = () => ({
+  /** Stud or bolt number, for torque and clamp load. */
+  fastener: integer("fastener"),
+  cylinder: integer("cylinder"),
+  /** Main or rod journal, for bearing readings. */
+  journal: integer("journal"),
+  /** Depth below the deck in metres, and the unit it was typed in (mm, in). */
+  depthM: doublePrecision("depth_m"),
+  depthUnit: text("depth_unit"),
+  /** Angle on the gauge, 0–360°. */
+  angleDeg: doublePrecision("angle_deg"),
+});
+
 export type ReadingConditions = { lube?: string; tool?: string; pass?: string; note?: string };
 
 /** A measured value at a moment: SI value plus what was typed, for display. */
@@ -97,6 +114,7 @@ export const readings = pgTable(
     valueEntered: doublePrecision("value_entered").notNull(),
     unitEntered: text("unit_entered").notNull(),
     conditions: jsonb("conditions").$type<ReadingConditions>().notNull().default({}),
+    ...positionColumns(),
     t: doublePrecision("t"),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),

@@ -1,7 +1,7 @@
 import { doublePrecision, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid, date } from "drizzle-orm/pg-core";
 import { users } from "./auth";
 import { procedureRevisions, procedures, procedureSpecs } from "./procedures";
-import { readings, recordings } from "./recordings";
+import { positionColumns, readings, recordings } from "./recordings";
 
 // The test records area: a QC result filed against the procedure revision in force.
 // Readings are never updated: an amendment writes a new version of the whole reading set and
@@ -65,8 +65,10 @@ export const testRecordReadings = pgTable(
     /** The value in the spec's own unit, as compared with its limits. */
     valueInSpecUnit: doublePrecision("value_in_spec_unit").notNull(),
     verdict: readingVerdictEnum("verdict").notNull(),
-    /** Where it was measured, e.g. "cyl 2, 20 mm down, 90°". */
+    /** Anything else about the reading ("plate on"); where it was measured is in the position fields. */
     note: text("note").notNull().default(""),
+    // Where it was measured, as on a recording's readings.
+    ...positionColumns(),
     /** Pulled in from a reading typed on the linked recording. */
     sourceReadingId: uuid("source_reading_id").references(() => readings.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),

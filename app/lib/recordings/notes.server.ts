@@ -7,7 +7,7 @@ import { canOnOwned } from "../permissions";
 import { readableProcedureIds, UNREADABLE_PROCEDURE, type Reader } from "../procedures/visibility.server";
 import { invalid, notFound } from "./api.server";
 import { getRecording, listMarks, listReadings, procedureChoices } from "./library.server";
-import { markInputSchema, markPatchSchema, readingInputSchema, toStoredSI } from "./rules";
+import { markInputSchema, markPatchSchema, positionInputOf, readingInputSchema, toStoredSI } from "./rules";
 
 /**
  * Marks and readings: the rules the JSON API applies (validation against the recording's
@@ -134,6 +134,7 @@ export async function createReadings(request: Request, user: SessionUser, record
         unitEntered: r.unit,
         valueSi: toStoredSI(r.quantity, r.value, r.unit),
         conditions: r.conditions,
+        ...r.position,
         t: r.t ?? null,
         createdBy: user.id,
       })),
@@ -161,6 +162,9 @@ export async function updateReading(request: Request, user: SessionUser, recordi
     label: r.label,
     conditions: r.conditions,
     t: r.t,
+    // The stored place goes with the stored quantity: a patch that changes the quantity says
+    // the place anew (a bore's cylinder does not carry over to a torque).
+    ...(typeof body === "object" && body && "quantity" in body && (body as { quantity?: unknown }).quantity !== r.quantity ? {} : positionInputOf(r)),
     ...(typeof body === "object" && body ? body : {}),
   };
   const parsed = readingInputSchema(rec.durationS).safeParse(merged);
@@ -168,7 +172,7 @@ export async function updateReading(request: Request, user: SessionUser, recordi
   const v = parsed.data;
   const [row] = await db()
     .update(readings)
-    .set({ quantity: v.quantity, label: v.label, valueEntered: v.value, unitEntered: v.unit, valueSi: toStoredSI(v.quantity, v.value, v.unit), conditions: v.conditions, t: v.t ?? null, updatedAt: new Date() })
+    .set({ quantity: v.quantity, label: v.label, valueEntered: v.value, unitEntered: v.unit, valueSi: toStoredSI(v.quantity, v.value, v.unit), conditions: v.conditions, ...v.position, t: v.t ?? null, updatedAt: new Date() })
     .where(eq(readings.id, readingId))
     .returning();
   return Response.json({ reading: row });

@@ -7,6 +7,9 @@ import { z } from "zod";
 import { UNIT_CODES, toSI, unitLabel, isUnitCode, type UnitCode, type UnitKind } from "~/lib/calc";
 import { quantityProblem } from "~/lib/edge";
 import { normalizeTags } from "~/lib/tags";
+import { positionFromLabel, positionInputSchema, positionIssues, storedPosition } from "./positions";
+
+export * from "./positions";
 
 export type QuantityId =
   | "torque"
@@ -139,9 +142,11 @@ export function readingInputSchema(durationS: number | null) {
       label: z.string().trim().max(120, "Keep the label under 120 characters.").default(""),
       conditions: conditionsSchema,
       t: seconds.min(0, "A reading cannot be before the start of the video.").nullable().optional(),
+      ...positionInputSchema.shape,
     })
     .superRefine((r, ctx) => {
       const allowed = unitsFor(r.quantity);
+      for (const i of positionIssues(r.quantity, r, quantityDef(r.quantity)!.label)) ctx.addIssue({ code: "custom", path: [i.path], message: i.message });
       if (r.quantity === "other") {
         if (!FREE_UNIT.test(r.unit)) ctx.addIssue({ code: "custom", path: ["unit"], message: "Type a short unit (letters, digits, % / ·)." });
       } else if (!allowed.includes(r.unit)) {
@@ -166,6 +171,16 @@ export function readingInputSchema(durationS: number | null) {
         ctx.addIssue({ code: "custom", path: ["value"], message: outOfRange });
       if (r.t != null && durationS != null && r.t > durationS + 0.001)
         ctx.addIssue({ code: "custom", path: ["t"], message: `The video is only ${formatTime(durationS)} long.` });
+    })
+    .transform(({ fastener, cylinder, journal, depth, angle, ...r }) => {
+      const given = storedPosition({ fastener, cylinder, journal, depth, angle });
+      // A reading sent the old way, its place written in the label ("cyl 3, 20 mm down, 90°"),
+      // gets the place in its fields as migration 0021 did for the stored ones.
+      if (Object.values(given).every((v) => v == null) && r.label) {
+        const parsed = positionFromLabel(r.quantity, r.label);
+        return { ...r, label: parsed.label, position: parsed.position };
+      }
+      return { ...r, position: given };
     });
 }
 

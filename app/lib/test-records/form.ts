@@ -7,9 +7,10 @@ import { z } from "zod";
 import { unitKind } from "~/lib/calc";
 import { isRealDate, isUuid, quantityProblem } from "~/lib/edge";
 import type { FieldErrors } from "~/lib/forms";
+import { positionFieldsForSpec, positionInputSchema, positionIssues, storedPosition, type Position, type PositionField } from "~/lib/recordings/positions";
 import { readingVerdict, VerdictInputError, type SpecLimits } from "./verdict";
 
-export type TypedReading = { value: number; unit: string; note: string; sourceReadingId: string | null };
+export type TypedReading = { value: number; unit: string; note: string; position: Position; sourceReadingId: string | null };
 
 /** No engine was bench-tested before this; an earlier date is a typing slip. */
 export const EARLIEST_TEST_DATE = "1900-01-01";
@@ -109,6 +110,11 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
       errors[`${base}.value`] = "That recording reading does not exist: pull the reading in again from the recording.";
       continue;
     }
+    const where = readPosition(form, base, positionFieldsForSpec(spec));
+    if ("errors" in where) {
+      Object.assign(errors, where.errors);
+      continue;
+    }
     try {
       readingVerdict(spec, { value, unit });
     } catch (err) {
@@ -118,8 +124,27 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
       }
       throw err;
     }
-    (readings[specId] ??= []).push({ value, unit, note, sourceReadingId: src === "" ? null : src });
+    (readings[specId] ??= []).push({ value, unit, note, position: where.position, sourceReadingId: src === "" ? null : src });
     count++;
   }
   return { readings, errors, count };
+}
+
+/**
+ * A row's place (r.<specId>.<i>.cylinder / .fastener / .journal / .depth + .depthUnit / .angle),
+ * only the fields that fit the spec, checked by the same schema as a recording's readings.
+ */
+function readPosition(form: FormData, base: string, fits: PositionField[]): { position: Position } | { errors: FieldErrors } {
+  const text = (f: string) => String(form.get(`${base}.${f}`) ?? "").trim();
+  const num = (f: string) => (text(f) === "" ? null : /^[-+]?(\d+([.,]\d*)?|[.,]\d+)$/.test(text(f)) ? Number(text(f).replace(",", ".")) : text(f));
+  const input: Record<string, unknown> = {};
+  for (const f of fits) {
+    if (f === "depth") input.depth = num("depth") == null ? null : { value: num("depth"), unit: text("depthUnit") || "mm" };
+    else input[f] = num(f);
+  }
+  const parsed = positionInputSchema.safeParse(input);
+  const errors: FieldErrors = {};
+  if (!parsed.success) for (const i of parsed.error.issues) errors[`${base}.${String(i.path[0])}`] ??= i.message;
+  else for (const i of positionIssues(fits, parsed.data, "")) errors[`${base}.${i.path}`] ??= i.message;
+  return Object.keys(errors).length || !parsed.success ? { errors } : { position: storedPosition(parsed.data) };
 }

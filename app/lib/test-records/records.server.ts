@@ -21,6 +21,7 @@ import { audit } from "~/lib/audit.server";
 import { db, type DbOrTx } from "~/lib/db.server";
 import { toSI, type UnitCode } from "~/lib/calc";
 import { isRealDate } from "~/lib/edge";
+import { positionText, type Position } from "~/lib/recordings/positions";
 import type { TypedReading } from "./form";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
 import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
@@ -75,7 +76,20 @@ export async function recordingForFiling(id: string) {
   const [r] = await db().select({ id: recordings.id, title: recordings.title, durationS: recordings.durationS }).from(recordings).where(eq(recordings.id, id));
   if (!r) return null;
   const rs = await db()
-    .select({ id: recordingReadings.id, quantity: recordingReadings.quantity, label: recordingReadings.label, valueEntered: recordingReadings.valueEntered, unitEntered: recordingReadings.unitEntered, t: recordingReadings.t })
+    .select({
+      id: recordingReadings.id,
+      quantity: recordingReadings.quantity,
+      label: recordingReadings.label,
+      valueEntered: recordingReadings.valueEntered,
+      unitEntered: recordingReadings.unitEntered,
+      t: recordingReadings.t,
+      fastener: recordingReadings.fastener,
+      cylinder: recordingReadings.cylinder,
+      journal: recordingReadings.journal,
+      depthM: recordingReadings.depthM,
+      depthUnit: recordingReadings.depthUnit,
+      angleDeg: recordingReadings.angleDeg,
+    })
     .from(recordingReadings)
     .where(eq(recordingReadings.recordingId, id))
     .orderBy(asc(recordingReadings.t));
@@ -83,6 +97,11 @@ export async function recordingForFiling(id: string) {
 }
 
 export type NewRecordInput = HeaderFields & { workOrder: string; revisionId: string; recordingId: string | null; readings: Record<string, TypedReading[]> };
+
+/** A reading's place and note as one text: "cyl 2, 20 mm down, 90°, plate on". */
+function whereText(p: Partial<Position>, note: string): string {
+  return [positionText(p, ", "), note].filter(Boolean).join(", ");
+}
 
 function rowsFor(recordId: string, version: number, specs: SpecRow[], typed: Record<string, TypedReading[]>) {
   const rows: (typeof testRecordReadings.$inferInsert)[] = [];
@@ -101,6 +120,7 @@ function rowsFor(recordId: string, version: number, specs: SpecRow[], typed: Rec
         valueInSpecUnit: v.valueInSpecUnit,
         verdict: v.verdict,
         note: r.note,
+        ...r.position,
         sourceReadingId: r.sourceReadingId,
       });
     });
@@ -196,11 +216,11 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
     const changes = diffAmendment(
       {
         header: { title: rec.title, engineSerial: rec.engineSerial, testedOn: rec.testedOn, notes: rec.notes, recordingStartS: rec.recordingStartS, recordingEndS: rec.recordingEndS },
-        readings: sortReadings(current).map((r) => ({ specId: r.specId, value: r.valueEntered, unit: r.unitEntered, note: r.note })),
+        readings: sortReadings(current).map((r) => ({ specId: r.specId, value: r.valueEntered, unit: r.unitEntered, note: whereText(r, r.note) })),
       },
       {
         header: { title: input.title, engineSerial: input.engineSerial, testedOn: input.testedOn, notes: input.notes, recordingStartS: rec.recordingId ? input.recordingStartS : null, recordingEndS: rec.recordingId ? input.recordingEndS : null },
-        readings: specs.flatMap((s) => (input.readings[s.id] ?? []).map((r) => ({ specId: s.id, value: r.value, unit: r.unit, note: r.note }))),
+        readings: specs.flatMap((s) => (input.readings[s.id] ?? []).map((r) => ({ specId: s.id, value: r.value, unit: r.unit, note: whereText(r.position, r.note) }))),
       },
       new Map(specs.map((s) => [s.id, s.label])),
     );
@@ -213,7 +233,7 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
     } else {
       // Same readings: carry the set over unchanged so each version is complete on its own.
       await tx.insert(testRecordReadings).values(
-        current.map((r) => ({ recordId: r.recordId, version, specId: r.specId, specKey: r.specKey, position: r.position, valueEntered: r.valueEntered, unitEntered: r.unitEntered, valueSi: r.valueSi, valueInSpecUnit: r.valueInSpecUnit, verdict: r.verdict, note: r.note, sourceReadingId: r.sourceReadingId })),
+        current.map((r) => ({ recordId: r.recordId, version, specId: r.specId, specKey: r.specKey, position: r.position, valueEntered: r.valueEntered, unitEntered: r.unitEntered, valueSi: r.valueSi, valueInSpecUnit: r.valueInSpecUnit, verdict: r.verdict, note: r.note, fastener: r.fastener, cylinder: r.cylinder, journal: r.journal, depthM: r.depthM, depthUnit: r.depthUnit, angleDeg: r.angleDeg, sourceReadingId: r.sourceReadingId })),
       );
     }
     await tx.insert(testRecordAmendments).values({ recordId: rec.id, version, reason: input.reason, changes, verdictBefore: rec.verdict, verdictAfter: evaluation.verdict, createdBy: actor.id });
@@ -299,7 +319,9 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
     current,
     specs,
     version,
-    readings: inForce,
+    // `note` is how the reading reads on the record, sheet and history: its place, then the
+    // inspector's own words ("cyl 2, 20 mm down, 90°, plate on"); `noteText` is those words alone.
+    readings: inForce.map((r) => ({ ...r, note: whereText(r, r.note), noteText: r.note })),
     evaluation: { verdict: evaluation.verdict, specs: evaluation.specs.map((e) => ({ specId: e.spec.id, verdict: e.verdict })), notMeasured: evaluation.notMeasured.map((s) => s.id) },
     amendments: amendments.map(({ a, by }) => ({ ...a, by })),
     calcs: calcs.map(({ c, by }) => ({ ...c, by })),

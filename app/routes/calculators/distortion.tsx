@@ -7,7 +7,8 @@ import { NoResult, ResultPeek } from "~/components/calc/ResultPanel";
 import { PageHeader } from "~/components/page";
 import { useCalcForm } from "~/components/calc/useCalcForm";
 import { TWO_POINT_GAUGE_NOTE, toSI, unitLabel, type BoreLevel, type BoreStateResult, type UnitCode } from "~/lib/calc";
-import { requirePermission } from "~/lib/auth.server";
+import { assertCan, requirePermission } from "~/lib/auth.server";
+import { boreSourceFor, distortionValuesFor } from "~/lib/recordings/bore-source.server";
 import { DEFAULT_ANGLES, distortionDefaults, profileShape, resultUnitsOfReadings, runDistortionForm, type DistortionOutcome } from "~/lib/calc-ui/distortion-form";
 import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
 import { decimalsOf, formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
@@ -16,7 +17,11 @@ export const meta: Route.MetaFunction = () => [{ title: "Bore distortion · Calc
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "calc:use");
-  return { unitSystem: user.unitSystem };
+  // ?recording=&cylinder= opens a recording's bore readings (issue 14 §2): reading them needs shop:read too.
+  if (!new URL(request.url).searchParams.has("recording")) return { unitSystem: user.unitSystem, boreSource: null, prefill: null };
+  assertCan(request, user, "shop:read");
+  const boreSource = await boreSourceFor(request);
+  return { unitSystem: user.unitSystem, boreSource, prefill: boreSource && distortionValuesFor(boreSource, distortionDefaults(user.unitSystem)) };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -31,7 +36,7 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
   const { values, outcome, set } = useCalcForm<DistortionOutcome>({
     actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
     // Results open in the readings' units (metric readings in an inch account show in mm and µm).
-    defaults: () => resultUnitsOfReadings(distortionDefaults(loaderData.unitSystem)),
+    defaults: () => resultUnitsOfReadings(loaderData.prefill ?? distortionDefaults(loaderData.unitSystem)),
     run: runDistortionForm,
     derive: (next, name, value, v) => {
       if (name === "reading.unit") Object.assign(next, resultUnitsOfReadings(next));
@@ -51,6 +56,13 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
         How far a bore is from round and straight: out-of-round and its lobes at each depth, taper along the bore, and the change
         between two states (torque plate on and free, or before and after).
       </PageHeader>
+      {loaderData.boreSource && (
+        <p className="card mb-4 p-3 text-sm" data-testid="bore-source">
+          {loaderData.prefill ? "Readings of" : "No bore readings with a depth and an angle for"} cylinder {loaderData.boreSource.cylinder} from{" "}
+          <Link to={`/recordings/${loaderData.boreSource.recordingId}`}>{loaderData.boreSource.title}</Link>
+          {loaderData.prefill ? ", laid out by depth and angle." : "."}
+        </p>
+      )}
       <Form method="post" noValidate onSubmit={(ev) => hydrated && ev.preventDefault()} className="grid gap-6">
         <div className="grid items-start gap-5 lg:grid-cols-[minmax(0,4fr)_minmax(0,8fr)]">
           <Fieldset legend="How it was measured">

@@ -5,7 +5,7 @@ import { methodNotAllowed } from "~/lib/recordings/api.server";
 import { parseParams, readJsonObject } from "~/lib/edge.server";
 import { idParams } from "~/lib/edge";
 import { createReadings, listReadings, recordingOr404 } from "~/lib/recordings/notes.server";
-import { quantityDef } from "~/lib/recordings/rules";
+import { depthEntered, quantityDef } from "~/lib/recordings/rules";
 
 /**
  * GET lists a recording's readings (JSON, or CSV with ?format=csv); POST adds one reading or
@@ -22,6 +22,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       time_s: r.t ?? "",
       quantity: quantityDef(r.quantity)?.label ?? r.quantity,
       label: r.label,
+      fastener: r.fastener ?? "",
+      cylinder: r.cylinder ?? "",
+      journal: r.journal ?? "",
+      depth: depthEntered(r)?.value ?? "",
+      depth_unit: depthEntered(r)?.unit ?? "",
+      angle_deg: r.angleDeg ?? "",
       value: r.valueEntered,
       unit: r.unitEntered,
       value_si: r.valueSi,
@@ -32,7 +38,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       entered_by: r.authorName ?? "",
       entered_at: new Date(r.createdAt).toISOString(),
     })),
-    { header: true, columns: ["time_s", "quantity", "label", "value", "unit", "value_si", "lube", "tool", "pass", "note", "entered_by", "entered_at"] },
+    { header: true, columns: ["time_s", "quantity", "label", "fastener", "cylinder", "journal", "depth", "depth_unit", "angle_deg", "value", "unit", "value_si", "lube", "tool", "pass", "note", "entered_by", "entered_at"] },
   );
   const name = `${rec.title.replace(/[^A-Za-z0-9 _-]+/g, "").trim().replace(/\s+/g, "-").slice(0, 60) || "recording"}-readings.csv`;
   return new Response(csv, {
