@@ -78,7 +78,7 @@ describe("review that says who and what", () => {
     }
   });
 
-  it("a published revision names its publisher on the read page and in the history; the earlier return stays in the history", async () => {
+  it("a published revision names its publisher on the read page, the printed sheet and in the history; the earlier return stays in the history", async () => {
     expect((await act(author, 1, { intent: "submit", changeNote: "Washer lube named" })).status).toBe(302);
     expect(await words("/", author)).not.toContain(reason); // submitted again: no longer waiting on the author
     expect((await act(publisher, 1, { intent: "publish" })).status).toBe(302);
@@ -86,6 +86,8 @@ describe("review that says who and what", () => {
     const read = await words(`/procedures/${slug}`, otherBuilder);
     expect(read).toContain(`Written by ${author.name}`);
     expect(read).toMatch(new RegExp(`Published \\d{1,2} \\w+ \\d{4} by ${publisher.name}`));
+    const print = await words(`/procedures/${slug}/print`, otherBuilder);
+    expect(print).toMatch(new RegExp(`Revision 1 · Published \\d{1,2} \\w+ \\d{4} by ${publisher.name} · written by ${author.name}`));
     const history = await words(`/procedures/${slug}/history`, otherBuilder);
     expect(history).toMatch(new RegExp(`Published \\d{1,2} \\w+ \\d{4} by ${publisher.name}`));
     expect(history).toContain(`Returned to Draft by ${returner.name} on`);

@@ -6,6 +6,7 @@ import { requirePermission } from "~/lib/auth.server";
 import { STATE_LABELS } from "~/lib/procedures/state";
 import type { JSONNode } from "~/lib/procedures/document";
 import { renderBody } from "~/lib/procedures/render.server";
+import { reviewPeople } from "~/lib/procedures/review.server";
 import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { revisionById, specsOf } from "~/lib/procedures/workflow.server";
 import { AREA_LABELS } from "~/lib/procedures/areas";
@@ -18,12 +19,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const n = new URL(request.url).searchParams.get("rev");
   const rev = n ? await revisionOr404(request, user, procedure, n) : procedure.publishedRevisionId ? await revisionById(procedure.publishedRevisionId) : null;
   if (!rev) throw data({ message: "Nothing is published yet to print." }, { status: 404 });
-  const [body, specs] = await Promise.all([renderBody(rev.doc as JSONNode), specsOf(rev.id)]);
-  return { slug: procedure.slug, rev: { number: rev.number, title: rev.title, summary: rev.summary, area: rev.area, state: rev.state, publishedAt: rev.publishedAt, updatedAt: rev.updatedAt }, html: body.html, units: body.units, specs, printedAt: new Date().toISOString() };
+  const [body, specs, people] = await Promise.all([renderBody(rev.doc as JSONNode), specsOf(rev.id), reviewPeople(rev)]);
+  return { slug: procedure.slug, rev: { number: rev.number, title: rev.title, summary: rev.summary, area: rev.area, state: rev.state, publishedAt: rev.publishedAt, updatedAt: rev.updatedAt }, people, html: body.html, units: body.units, specs, printedAt: new Date().toISOString() };
 }
 
 export default function Print({ loaderData }: Route.ComponentProps) {
-  const { slug, rev, html, specs, printedAt } = loaderData;
+  const { slug, rev, people, html, specs, printedAt } = loaderData;
   return (
     <div className="print-sheet mx-auto max-w-3xl">
       <div className="no-print mb-4 flex gap-2">
@@ -34,7 +35,9 @@ export default function Print({ loaderData }: Route.ComponentProps) {
         <p className="text-xs font-semibold uppercase tracking-[0.14em] text-brass">Larkspur Engine Works · {AREA_LABELS[rev.area]}</p>
         <h1 className="text-2xl leading-tight">{rev.title}</h1>
         <p className="num mt-1 text-sm">
-          <strong>Revision {rev.number}</strong> · {STATE_LABELS[rev.state]} {fmtDate(rev.publishedAt ?? rev.updatedAt)} · printed {fmtDate(printedAt)}
+          <strong>Revision {rev.number}</strong> ·{" "}
+          {rev.publishedAt ? <>Published {fmtDate(rev.publishedAt)}{people.publishedBy && <> by {people.publishedBy}</>}{rev.state === "superseded" && " · Superseded"}</> : <>{STATE_LABELS[rev.state]} {fmtDate(rev.updatedAt)}</>}
+          {people.author && <> · written by {people.author}</>} · printed {fmtDate(printedAt)}
         </p>
         {rev.state !== "published" && <p className="mt-1 text-sm font-semibold text-spec-red">Not the published revision: do not work to this copy.</p>}
         {rev.summary && <p className="mt-1 font-serif text-sm">{rev.summary}</p>}
