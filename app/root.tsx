@@ -89,6 +89,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   const next = encodeURIComponent(location.pathname + location.search);
   return (
     <main className="mx-auto max-w-xl px-6 py-20">
+      <title>{`${msg.title} · Benchreel`}</title>
       <p className="num text-sm font-semibold tracking-wide text-brass">Error {status}</p>
       <h1 className="mt-2 text-3xl">{msg.title}</h1>
       {/* A refusal's reason already says, in the shop's words, what the role can and cannot do

@@ -22,6 +22,8 @@ export function AppHeader({ user, searchSlot }: { user: SessionUser; searchSlot?
   const items = navFor(user.role);
   return (
     <header className="no-print border-b border-rule bg-paper-deep/70">
+      {/* The first Tab of every page offers to jump past the header and the menu. */}
+      <a href="#main" className="btn sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:z-50">Skip to the page</a>
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-5 pt-3">
         <Wordmark />
         <div className="order-3 w-full md:order-none md:w-auto md:flex-1">

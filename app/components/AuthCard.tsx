@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import { Wordmark } from "./AppHeader";
+import { FocusFirstError } from "./forms";
 
 export function AuthCard({ title, children, footer }: { title: string; children: ReactNode; footer?: ReactNode }) {
   return (
@@ -7,6 +8,7 @@ export function AuthCard({ title, children, footer }: { title: string; children:
       <div className="w-full max-w-md">
         <div className="mb-8 flex justify-center"><Wordmark /></div>
         <div className="card">
+          <FocusFirstError />
           <h1 className="mb-5 text-2xl">{title}</h1>
           {children}
         </div>

@@ -1,4 +1,5 @@
-import type { InputHTMLAttributes, ReactNode, SelectHTMLAttributes } from "react";
+import { useEffect, useRef, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from "react";
+import { useNavigation } from "react-router";
 
 type FieldProps = InputHTMLAttributes<HTMLInputElement> & { label: string; name: string; error?: string; hint?: ReactNode };
 
@@ -29,10 +30,10 @@ export function SelectField({ label, name, error, id, children, ...rest }: Selec
   return (
     <div>
       <label htmlFor={fieldId} className="label">{label}</label>
-      <select id={fieldId} name={name} className="field" aria-invalid={error ? true : undefined} {...rest}>
+      <select id={fieldId} name={name} className="field" aria-invalid={error ? true : undefined} aria-describedby={error ? `${fieldId}-error` : undefined} {...rest}>
         {children}
       </select>
-      {error && <p className="field-error" role="alert">{error}</p>}
+      {error && <p id={`${fieldId}-error`} className="field-error" role="alert">{error}</p>}
     </div>
   );
 }
@@ -40,8 +41,27 @@ export function SelectField({ label, name, error, id, children, ...rest }: Selec
 export function FormError({ message }: { message?: string }) {
   if (!message) return null;
   return (
-    <div role="alert" className="rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-3 text-sm text-spec-red">
+    <div role="alert" tabIndex={-1} data-form-error className="rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-3 text-sm text-spec-red">
       {message}
     </div>
   );
+}
+
+/**
+ * After a form comes back from the server with errors, focus moves to the first field in
+ * error (or to the form's own error message), so a keyboard or screen-reader user lands where
+ * the fix is instead of on the button they pressed. Mounted once by the shell and the
+ * sign-in card; it acts only when a submission has just finished.
+ */
+export function FocusFirstError() {
+  const state = useNavigation().state;
+  const submitted = useRef(false);
+  useEffect(() => {
+    if (state === "submitting") submitted.current = true;
+    if (state !== "idle" || !submitted.current) return;
+    submitted.current = false;
+    const first = document.querySelector<HTMLElement>('main [aria-invalid="true"], main [data-form-error]');
+    first?.focus();
+  }, [state]);
+  return null;
 }

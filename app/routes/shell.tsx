@@ -1,6 +1,8 @@
-import { Outlet } from "react-router";
+import { useEffect, useRef } from "react";
+import { Outlet, useLocation } from "react-router";
 import type { Route } from "./+types/shell";
 import { AppHeader, FlashBanner } from "~/components/AppHeader";
+import { FocusFirstError } from "~/components/forms";
 import { requirePermission } from "~/lib/auth.server";
 import { useRootData } from "~/root";
 
@@ -10,12 +12,32 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { user };
 }
 
+/**
+ * After a page change inside the app, a focus left on nothing (the link that had it went with
+ * the old page) moves to the new page's content, so the next Tab goes on from there. A field
+ * the page focuses itself, or a target it scrolls to, is left alone.
+ */
+function useFocusMainOnNavigation() {
+  const { key } = useLocation();
+  const first = useRef(true);
+  useEffect(() => {
+    if (first.current) {
+      first.current = false;
+      return;
+    }
+    const active = document.activeElement;
+    if (!active || active === document.body) document.getElementById("main")?.focus({ preventScroll: true });
+  }, [key]);
+}
+
 export default function Shell({ loaderData }: Route.ComponentProps) {
   const root = useRootData();
+  useFocusMainOnNavigation();
   return (
     <>
       <AppHeader user={loaderData.user} />
-      <main className="mx-auto max-w-6xl px-5 py-8">
+      <main id="main" tabIndex={-1} className="mx-auto max-w-6xl px-5 py-8 focus:outline-none">
+        <FocusFirstError />
         <FlashBanner flash={root?.flash ?? null} />
         <Outlet />
       </main>

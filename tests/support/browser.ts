@@ -1,11 +1,23 @@
-// Browser-test helpers shared by the Playwright specs.
-import type { Page } from "@playwright/test";
+// Helpers for the Playwright specs (tests/e2e), which run in Node beside the browser.
+import { expect, type Page } from "@playwright/test";
 
-/** Signs in a demo person through the sign-in form and waits for the page asked for. */
-export async function signIn(page: Page, email: string, path: string): Promise<void> {
-  await page.goto(`/signin?next=${encodeURIComponent(path)}`);
+/** The demo people (scripts/seed/users.ts), one per role; all share the demo password. */
+export const DEMO_PEOPLE = {
+  admin: "dana@larkspur.example",
+  editor: "priya@larkspur.example",
+  builder: "marcus@larkspur.example",
+  qc: "tomas@larkspur.example",
+  apprentice: "jamie@larkspur.example",
+} as const;
+export const DEMO_PASSWORD = "larkspur-demo";
+export const DEMO_PROCEDURE = "head-stud-installation-and-torque-sequence";
+export const DEMO_RECORDING = "5eed0000-0000-4000-8000-00000000c1a9";
+
+/** Signs in through the sign-in form and waits for the header to show the person. */
+export async function signIn(page: Page, email: string) {
+  await page.goto("/signin");
   await page.getByLabel("E-mail").fill(email);
-  await page.getByLabel("Password").fill("larkspur-demo");
+  await page.getByLabel("Password").fill(DEMO_PASSWORD);
   await page.getByRole("button", { name: "Sign in" }).click();
-  await page.waitForURL((u) => u.pathname === path);
+  await expect(page.getByTestId("user-name")).toBeVisible();
 }
