@@ -53,6 +53,8 @@ export function HeaderSearch() {
           id="header-search"
           name="q"
           type="search"
+          role="combobox"
+          aria-autocomplete="list"
           autoComplete="off"
           value={q}
           onChange={(e) => {
