@@ -65,6 +65,8 @@ describe("review that says who and what", () => {
     expect(history).toMatch(new RegExp(`Returned to Draft by ${returner.name} on [^:]+: ${reason}`));
     const page = await words(`/procedures/${slug}/r/1`, author);
     expect(page).toMatch(new RegExp(`Returned to Draft by ${returner.name} on [^:]+: ${reason}`));
+    const editing = await words(`/procedures/${slug}/r/1/edit`, author);
+    expect(editing).toMatch(new RegExp(`Returned to Draft by ${returner.name} on [^:]+: ${reason}`));
 
     const floor = await http("/", { cookie: author.cookie }).then((r) => r.text());
     expect(floor).toContain(`href="/procedures/${slug}/r/1/edit"`);

@@ -8,6 +8,8 @@ import { canOnOwned } from "~/lib/permissions";
 import { walk, type JSONNode } from "~/lib/procedures/document";
 import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { titlesFor } from "~/lib/procedures/workflow.server";
+import { reviewPeople } from "~/lib/procedures/review.server";
+import { formatDay } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Editing: ${data?.draft.title ?? ""} · Benchreel` }];
 
@@ -18,11 +20,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (rev.state !== "draft" || !canOnOwned(user, "procedure:edit", rev.authorId)) throw redirect(`/procedures/${procedure.slug}/r/${rev.number}`);
   const ids = new Set<string>();
   walk(rev.doc as JSONNode, (n) => n.type === "procedureLink" && ids.add(String(n.attrs?.procedureId)));
-  const titles = Object.fromEntries(await titlesFor([...ids]));
+  const [titleMap, people] = await Promise.all([titlesFor([...ids]), reviewPeople(rev)]);
+  const titles = Object.fromEntries(titleMap);
   return {
     slug: procedure.slug,
     hasPublished: Boolean(procedure.publishedRevisionId),
-    draft: { id: rev.id, procedureId: procedure.id, number: rev.number, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, titles, returnReason: rev.returnReason },
+    draft: { id: rev.id, procedureId: procedure.id, number: rev.number, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, titles, returnReason: rev.returnReason, returnedBy: people.returnedBy, returnedAt: rev.returnedAt },
   };
 }
 
@@ -50,7 +53,7 @@ export default function EditDraft({ loaderData }: Route.ComponentProps) {
         Changes save by themselves a moment after you stop typing.
       </PageHeader>
       {draft.returnReason && (
-        <p className="mb-4 rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason"><span className="font-semibold">Returned to Draft:</span> {draft.returnReason}</p>
+        <p className="mb-4 rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason"><span className="font-semibold">Returned to Draft{draft.returnedBy ? ` by ${draft.returnedBy}` : ""}{draft.returnedAt ? ` on ${formatDay(draft.returnedAt)}` : ""}:</span> {draft.returnReason}</p>
       )}
       <ProcedureEditor initial={draft} />
       <Form method="post" action={`/procedures/${slug}/r/${draft.number}`} className="card mt-6 flex flex-wrap items-end gap-3 p-4">
