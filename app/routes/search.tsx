@@ -78,7 +78,12 @@ export default function Search({ loaderData }: Route.ComponentProps) {
           {loaderData.examples.length ? <> Trade words match each other, e.g. {loaderData.examples.map((g) => g.join(" ↔ ")).join("; ")}.</> : null}
         </EmptyState>
       )}
-      {result && (
+      {result && result.total === 0 && (
+        <EmptyState title={q ? `Nothing found for “${q}”` : "Nothing found"}>
+          <span data-testid="search-total">Try fewer words, or another word for the same thing{params.get("type") || params.get("tag") || params.get("state") || params.get("uploader") ? ", or drop a filter" : ""}. Typos and word starts are fine.</span>
+        </EmptyState>
+      )}
+      {result && result.total > 0 && (
         <div className="grid gap-6 md:grid-cols-[14rem_1fr]">
           <aside aria-label="Filters" className="space-y-5 text-sm">
             {FACETS.map((f) => {
@@ -107,9 +112,8 @@ export default function Search({ loaderData }: Route.ComponentProps) {
           </aside>
           <section aria-label="Results">
             <p className="mb-3 text-sm text-graphite-soft" data-testid="search-total">
-              {result.total === 0 ? "Nothing found" : `${result.total} match${result.total === 1 ? "" : "es"}`}
+              {result.total} match{result.total === 1 ? "" : "es"}
               {q ? <> for “{q}”</> : null}
-              {result.total === 0 ? ". Try fewer words, or another word for the same thing." : null}
             </p>
             <ol className="space-y-3">
               {result.hits.map((h) => (

@@ -42,6 +42,9 @@ describe("search ranking and landing", () => {
     expect(spec, JSON.stringify(hits.map((h) => [h.kind, plain(h.title)]))).toBeGreaterThanOrEqual(0);
     const firstReading = hits.findIndex((h) => h.kind === "reading");
     expect(firstReading).toBeGreaterThan(Math.max(procedure, spec));
+    // Of the procedure's specs, the one about torque with moly comes first (the procedure's tags
+    // do not give every spec all the words).
+    expect(plain(hits.find((h) => h.kind === "spec")!.title)).toBe("Head stud final torque");
     // The spec hit opens the procedure at the spec.
     expect(top3[spec].url).toBe(`/procedures/${STUDS_SLUG}#spec-studs-final`);
   });
@@ -83,7 +86,7 @@ describe("search ranking and landing", () => {
       const doc = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: `Stretch the rod bolts to the figure, ${term} on the threads.` }] }] };
       const [rev] = await tx
         .insert(procedureRevisions)
-        .values({ procedureId: p.id, number: 1, state: "published", title: `Rod bolt stretch ${term}`, summary: "", area: "assembly", doc, authorId: builder.id, publishedAt: new Date() })
+        .values({ procedureId: p.id, number: 1, state: "published", title: `Rod bolt stretch ${term}`, summary: "", area: "assembly", tags: [`tag ${term}`], doc, authorId: builder.id, publishedAt: new Date() })
         .returning();
       await tx.insert(procedureSpecs).values({ revisionId: rev.id, procedureId: p.id, specKey: "stretch", position: 0, label: `Rod bolt stretch ${term}`, quantity: "length", unit: "mm", min: 0.15, max: 0.17, siUnit: "m" });
     });
@@ -106,11 +109,25 @@ describe("search ranking and landing", () => {
     expect(group.readings!.map((r) => r.id)).toEqual(rows.slice(0, 5).map((r) => r.id)); // in the recording's order
     expect(group.readings![0]).toEqual({ id: rows[0].id, t: 10, url: `/recordings/${rec.id}?t=10#reading-${rows[0].id}`, text: expect.stringContaining(`${HL_PRE}${term}${HL_POST}`) });
 
+    // The procedure's tag filters its specs too.
+    expect((await search(builder.cookie, "", `&tag=${encodeURIComponent(`tag ${term}`)}`)).map((h) => h.kind).sort()).toEqual(["procedure", "spec"]);
+
     // A reading deleted: its recording is rebuilt (the trigger queues the recording), the list shrinks.
     await db().delete(readings).where(eq(readings.id, rows[0].id));
     await indexed();
     const after = (await search(builder.cookie, `rod bolt stretch ${term}`, "&type=reading"))[0];
     expect(after.readings!.map((r) => r.id)).toEqual(rows.slice(1, 6).map((r) => r.id));
     expect(after.moreReadings).toBe(2);
+  });
+
+  it("the search page says in words that nothing was found, and what to try", async () => {
+    const builder = await createUser("builder");
+    const term = `${word()} ${word()}`; // found nowhere
+    const res = await http(`/search?q=${encodeURIComponent(term)}`, { cookie: builder.cookie });
+    expect(res.status).toBe(200);
+    const html = await res.text();
+    expect(html).toContain(`Nothing found for “${term}”`);
+    expect(html).toContain("Try fewer words, or another word for the same thing");
+    expect(html).not.toContain("No matches.");
   });
 });

@@ -63,11 +63,15 @@ export function HeaderSearch() {
           }}
           onFocus={() => setOpen(true)}
           onKeyDown={(e) => e.key === "Escape" && setOpen(false)}
-          placeholder="Search procedures, specs, marks…  ( / )"
-          className="field py-1.5 text-sm"
+          placeholder="Search procedures, specs, marks…"
+          className="field py-1.5 pr-9 text-sm"
           aria-controls={listId}
           aria-expanded={open && hits.length > 0}
         />
+        {/* The "/" shortcut is told only where there is a keyboard and a fine pointer, not on a tablet. */}
+        {!q && (
+          <kbd aria-hidden="true" className="pointer-events-none absolute top-1/2 right-2 hidden -translate-y-1/2 rounded border border-rule bg-paper px-1.5 font-sans text-xs text-graphite-soft pointer-fine:block" data-testid="search-shortcut">/</kbd>
+        )}
       </Form>
       {open && q.trim().length >= 2 && (
         <div id={listId} className="absolute left-0 right-0 z-30 mt-1 max-h-[70vh] overflow-auto rounded-md border border-rule bg-card shadow-lg" data-testid="search-dropdown">

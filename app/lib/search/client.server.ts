@@ -22,6 +22,8 @@ export type SearchDoc = {
   state?: string;
   uploader?: string;
   procedureTitle?: string;
+  /** A spec's procedure's tags: filtered on with `tags`, never searched. */
+  procedureTags?: string[];
   recordingTitle?: string;
   area?: string;
   /** Seconds into the recording, for marks and readings. */
@@ -187,7 +189,7 @@ export const SEARCH_SETTINGS = {
   rankingRules: ["words", "typo", "kindWeight:desc", "proximity", "attribute", "sort", "exactness"],
   // The trade's short words (moly, stud, bore, lash, ring) take one typo from 4 letters, not 5.
   typoTolerance: { minWordSizeForTypos: { oneTypo: 4, twoTypos: 9 } },
-  filterableAttributes: ["kind", "visibility", "tags", "state", "uploader", "area", "group"],
+  filterableAttributes: ["kind", "visibility", "tags", "procedureTags", "state", "uploader", "area", "group"],
   sortableAttributes: ["date"],
   // `body` (a procedure's blocks) is displayed so that the service can crop and highlight it;
   // searches ask for its crop only, never the whole text (RETURNED in query.server.ts).

@@ -163,7 +163,10 @@ async function revisionDocs(revisionId: string): Promise<IndexChange> {
       kind: "spec",
       title: s.label,
       text: `${s.label} ${limits}${s.nominal != null && s.min != null ? ` nominal ${s.nominal}` : ""}${s.note ? ` — ${s.note}` : ""}`,
-      tags: rev.tags,
+      // The procedure's tags only filter a spec (procedureTags): searched, they would give every
+      // spec of a procedure tagged "head studs, torque, moly" all three words.
+      tags: [],
+      procedureTags: rev.tags,
       visibility,
       url: `${url}#spec-${s.specKey}`,
       state: rev.state,

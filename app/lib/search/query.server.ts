@@ -85,7 +85,7 @@ export function visibilityFor(user: SessionUser): string[] {
 export function buildFilter(user: SessionUser, p: SearchParams): string[] {
   const filter = [`visibility IN [${visibilityFor(user).map(quote).join(", ")}]`];
   if (p.type) filter.push(`kind = ${quote(p.type)}`);
-  if (p.tag) filter.push(`tags = ${quote(p.tag)}`);
+  if (p.tag) filter.push(`tags = ${quote(p.tag)} OR procedureTags = ${quote(p.tag)}`);
   if (p.state) filter.push(`state = ${quote(p.state)}`);
   if (p.uploader) filter.push(`uploader = ${quote(p.uploader)}`);
   return filter;
