@@ -200,3 +200,142 @@ test("a never-published procedure offers no comparison; a returned draft waits o
   await expect(author.getByTestId("history-returned")).toContainText(/Returned to Draft by Priya .+: Give the stretch limit as a spec/);
   await shoot(author, "history-returned");
 });
+
+// ---- issue 14: writing a procedure ---------------------------------------------------------
+
+const EDITOR_SHOTS = process.env.SCREENSHOTS ?? "/tmp/shots-editor";
+
+async function newDraft(page: Page, title: string) {
+  await signIn(page, "marcus@larkspur.example");
+  await page.goto("/procedures/new");
+  await page.getByLabel("Title").fill(title);
+  await page.getByLabel("Shop area").selectOption("fasteners");
+  await page.getByRole("button", { name: "Start the draft" }).click();
+  await expect(page).toHaveURL(/\/r\/1\/edit$/);
+  const editor = page.getByTestId("editor");
+  await expect(editor).toBeVisible();
+  return editor;
+}
+
+/** The editor's top-level blocks, in order: "p:text" for paragraphs, the block's type for custom blocks. */
+async function outline(page: Page) {
+  return page.getByTestId("editor").evaluate((el) =>
+    [...el.children].map((c) => {
+      const block = c.getAttribute("data-block") ?? c.querySelector("[data-block]")?.getAttribute("data-block");
+      return block ?? `${c.tagName.toLowerCase()}:${c.textContent ?? ""}`;
+    }),
+  );
+}
+
+test("an unfinished Spec block saves, marked on the block; the submit dialog lists what is missing and jumps to it", async ({ page }) => {
+  test.setTimeout(120_000);
+  const editor = await newDraft(page, `Half-written stud torque ${stamp}`);
+  await editor.locator("p").first().click();
+  await page.keyboard.type("Chase and clean every stud hole first.");
+  await page.getByRole("button", { name: "Spec", exact: true }).click();
+  await page.keyboard.type(" ");
+  const spec = page.getByRole("group", { name: "Spec (incomplete)" });
+  await expect(spec.getByTestId("block-problems")).toContainText("Give the spec a label");
+  await expect(page.getByTestId("save-status")).toHaveText(/^Saved/, { timeout: 15_000 });
+  await expect(page.getByTestId("incomplete-count")).toHaveText("· 1 block to finish before review");
+  await expect(page.getByText(/doc\.content|attrs\./)).toHaveCount(0);
+  for (const width of [1366, 768]) {
+    await page.setViewportSize({ width, height: width === 768 ? 1024 : 900 });
+    await page.screenshot({ path: `${EDITOR_SHOTS}/editor-incomplete-${width}.png`, fullPage: true });
+  }
+  // The text and the half-done block were stored: they come back after a reload.
+  await page.reload();
+  await expect(page.getByTestId("editor")).toContainText("Chase and clean every stud hole first.");
+  await expect(page.getByRole("group", { name: "Spec (incomplete)" })).toBeVisible();
+
+  await page.getByLabel(/Change note/).fill("First version of the stud procedure");
+  await page.getByRole("button", { name: "Submit for review" }).click();
+  const dialog = page.getByTestId("submit-missing");
+  await expect(dialog).toBeVisible();
+  await expect(dialog).toContainText("Finish this block before review");
+  await expect(dialog).toContainText("Give the spec a label · Give a nominal value or a limit");
+  await page.screenshot({ path: `${EDITOR_SHOTS}/submit-missing-768.png` });
+  await dialog.getByRole("button", { name: "Spec 1" }).click();
+  await expect(dialog).toBeHidden();
+  await expect(page.getByLabel("Spec label")).toBeFocused();
+  await page.keyboard.type("Head stud final torque");
+  await page.getByLabel("Spec nominal").fill("110");
+  await expect(page.getByRole("group", { name: "Spec: Head stud final torque" })).toBeVisible();
+  await expect(page.getByTestId("block-problems")).toHaveCount(0);
+  await page.getByRole("button", { name: "Submit for review" }).click();
+  await expect(page.getByTestId("state-badge")).toHaveText("In review");
+});
+
+test("a Video moment takes its time from a mark of the chosen recording, or from the preview's frame", async ({ page }) => {
+  test.setTimeout(180_000); // the worker may still be processing the demo clip
+  const editor = await newDraft(page, `Moment from a mark ${stamp}`);
+  // The demo clip is processed by the worker after seeding: wait until it is offered.
+  await expect(async () => {
+    const j = await (await page.request.get("/api/procedures/recordings")).json();
+    expect(j.results.map((r: { title: string }) => r.title).join("|")).toContain("Head stud clamp-load test");
+  }).toPass({ timeout: 90_000 });
+  await editor.locator("p").first().click();
+  await page.keyboard.type("Watch the final pass.");
+  await page.getByRole("button", { name: "Video moment" }).click();
+  const block = page.getByRole("group", { name: /^Video moment/ });
+  await expect(block.getByTestId("block-problems")).toContainText("Choose a recording");
+  const recording = block.getByLabel("Recording", { exact: true });
+  const value = await recording.locator("option", { hasText: "Head stud clamp-load test" }).getAttribute("value");
+  await recording.selectOption(value!);
+  const mark = block.getByLabel("Mark");
+  await expect(mark.locator("option", { hasText: "Pass 2 to 75 N·m" })).toHaveCount(1);
+  await mark.selectOption({ label: "0:13 · Pass 2 to 75 N·m" });
+  await expect(block.getByLabel("Start seconds")).toHaveValue("13.2");
+  await expect(block.getByLabel("Caption")).toHaveValue("Pass 2 to 75 N·m");
+  await mark.selectOption({ label: "0:06–0:11 · Pass 1 to 40 N·m, centre out" });
+  await expect(block.getByLabel("Start seconds")).toHaveValue("6");
+  await expect(block.getByLabel("End seconds")).toHaveValue("11");
+  await expect(block.getByTestId("block-problems")).toHaveCount(0);
+  // The preview's current frame becomes the start.
+  const preview = block.getByTestId("moment-preview").locator("video");
+  await expect.poll(() => preview.evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 30_000 }).toBeGreaterThan(0);
+  await preview.evaluate((v: HTMLVideoElement) => new Promise((done) => { v.addEventListener("seeked", done, { once: true }); v.currentTime = 2.04; }));
+  await block.getByRole("button", { name: "Start at this frame" }).click();
+  await expect(block.getByLabel("Start seconds")).toHaveValue("2");
+  // Typing stays possible.
+  await block.getByLabel("Start seconds").fill("3.5");
+  await expect(page.getByTestId("save-status")).toHaveText(/^Saved/, { timeout: 15_000 });
+  for (const width of [1366, 768]) {
+    await page.setViewportSize({ width, height: width === 768 ? 1024 : 900 });
+    await block.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: `${EDITOR_SHOTS}/editor-moment-${width}.png`, fullPage: true });
+  }
+  await page.reload();
+  const again = page.getByRole("group", { name: /^Video moment: Head stud clamp-load test/ });
+  await expect(again.getByLabel("Start seconds")).toHaveValue("3.5");
+  await expect(again.getByLabel("End seconds")).toHaveValue("11");
+});
+
+test("clicking below the last block gives a place to type, and a new block goes where the cursor is", async ({ page }) => {
+  const editor = await newDraft(page, `Cursor and blocks ${stamp}`);
+  // Start from an empty page rather than the starter headings.
+  await editor.locator("p").first().click();
+  await page.keyboard.press("ControlOrMeta+a");
+  await page.keyboard.press("Backspace");
+  await page.keyboard.type("First step.");
+  await page.keyboard.press("Enter");
+  await page.keyboard.type("Second step.");
+  await page.getByRole("button", { name: "Spec", exact: true }).click();
+  expect(await outline(page)).toEqual(["p:First step.", "p:Second step.", "spec", "p:"]);
+  // Below the last block, inside the editor's blank space (scrolled into view first).
+  await editor.evaluate((el) => el.scrollIntoView({ block: "end" }));
+  await editor.evaluate((el) => el.blur()); // the cursor must come from the click below, not from before
+  const box = (await editor.boundingBox())!;
+  await page.mouse.click(box.x + box.width / 2, box.y + box.height - 12);
+  await page.keyboard.type("After the spec.");
+  expect(await outline(page)).toEqual(["p:First step.", "p:Second step.", "spec", "p:After the spec."]);
+  // A block inserted with the cursor at the end of the first step lands right after it.
+  await editor.getByText("First step.").click();
+  await page.keyboard.press("End");
+  await page.getByRole("button", { name: "Video moment" }).click();
+  expect(await outline(page)).toEqual(["p:First step.", "videoMoment", "p:", "p:Second step.", "spec", "p:After the spec."]);
+  // Typing carries on right below the new block.
+  await page.keyboard.type("Then watch the clip.");
+  expect(await outline(page)).toEqual(["p:First step.", "videoMoment", "p:Then watch the clip.", "p:Second step.", "spec", "p:After the spec."]);
+  await expect(page.getByTestId("save-status")).toHaveText(/^Saved/, { timeout: 15_000 });
+});

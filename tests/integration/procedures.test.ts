@@ -274,4 +274,13 @@ describe("incomplete blocks in a draft (issue 14)", () => {
     expect(await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, draftId))).toHaveLength(1);
     expect((await http(`/procedures/${draftSlug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "First version" } })).status).toBe(302);
   });
+
+  it("the video-moment picker's recording list reads its search through the edge", async () => {
+    expect((await http("/api/procedures/recordings")).status).toBe(401);
+    const ok = await http("/api/procedures/recordings?q=head", { cookie: builder.cookie });
+    expect(ok.status).toBe(200);
+    expect(await json(ok)).toMatchObject({ available: true, results: expect.any(Array) });
+    const long = await http(`/api/procedures/recordings?q=${"x".repeat(101)}`, { cookie: builder.cookie });
+    expect(long.status).toBe(422);
+  });
 });

@@ -310,12 +310,12 @@ export function CopyBlock({ calculator, input }: { calculator: Calculator; input
           Copy as calculator block
         </button>
         <span role="status" className="text-sm text-graphite-soft">
-          {state === "copied" ? "Copied: paste it into a procedure's calculator block." : state === "failed" ? "The browser refused the clipboard; copy the JSON below." : ""}
+          {state === "copied" ? "Copied: paste it into a procedure's calculator block." : state === "failed" ? "The browser refused the clipboard; copy the text below and paste it into the block's “Paste inputs from a calculator page”." : ""}
         </span>
       </div>
       {text && (
         <details className="text-sm">
-          <summary className="cursor-pointer text-teal">Show the block's JSON</summary>
+          <summary className="cursor-pointer text-teal">Show the text to paste into a procedure's calculator block</summary>
           <pre data-testid="calc-preset-json" className="mt-2 max-h-64 overflow-auto rounded-md border border-rule bg-paper px-3 py-2 font-mono text-xs">
             {text}
           </pre>

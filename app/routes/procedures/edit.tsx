@@ -1,4 +1,4 @@
-import { Form, Link, redirect, useNavigation, type ShouldRevalidateFunctionArgs } from "react-router";
+import { Link, redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/edit";
 import "~/components/procedures/procedures.css";
 import { PageHeader } from "~/components/page";
@@ -37,7 +37,6 @@ export function shouldRevalidate({ formAction, defaultShouldRevalidate }: Should
 
 export default function EditDraft({ loaderData }: Route.ComponentProps) {
   const { slug, draft, hasPublished } = loaderData;
-  const busy = useNavigation().state !== "idle";
   return (
     <>
       <PageHeader
@@ -55,12 +54,7 @@ export default function EditDraft({ loaderData }: Route.ComponentProps) {
       {draft.returnReason && (
         <p className="mb-4 rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason"><span className="font-semibold">Returned to Draft{draft.returnedBy ? ` by ${draft.returnedBy}` : ""}{draft.returnedAt ? ` on ${formatDay(draft.returnedAt)}` : ""}:</span> {draft.returnReason}</p>
       )}
-      <ProcedureEditor initial={draft} />
-      <Form method="post" action={`/procedures/${slug}/r/${draft.number}`} className="card mt-6 flex flex-wrap items-end gap-3 p-4">
-        <input type="hidden" name="intent" value="submit" />
-        <label className="min-w-[16rem] flex-1"><span className="label">Change note (for the editor and the history)</span><input name="changeNote" className="field" placeholder="What changed and why" required minLength={3} /></label>
-        <button className="btn btn-primary" type="submit" disabled={busy}>Submit for review</button>
-      </Form>
+      <ProcedureEditor initial={draft} submitTo={`/procedures/${slug}/r/${draft.number}`} />
     </>
   );
 }

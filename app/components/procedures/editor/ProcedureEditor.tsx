@@ -2,9 +2,12 @@ import { Table, TableCell, TableHeader, TableRow } from "@tiptap/extension-table
 import Placeholder from "@tiptap/extension-placeholder";
 import { EditorContent, useEditor, type Editor } from "@tiptap/react";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { useBeforeUnload, useBlocker, useFetcher } from "react-router";
+import type { Node as PMNode } from "@tiptap/pm/model";
+import { NodeSelection, TextSelection } from "@tiptap/pm/state";
+import type { EditorView } from "@tiptap/pm/view";
+import { Form, useBeforeUnload, useBlocker, useFetcher, useNavigation } from "react-router";
 import { DEFAULT_PRESETS, type CalcKind } from "~/lib/procedures/calc-presets";
-import { blockTexts, newSpecKey, type JSONNode } from "~/lib/procedures/document";
+import { blockTexts, incompleteBlocks, newSpecKey, type IncompleteBlock, type JSONNode } from "~/lib/procedures/document";
 import { starterKit } from "~/lib/procedures/extensions";
 import { AREA_LABELS, AREAS } from "~/lib/procedures/areas";
 const AREA_OPTIONS = AREAS.map((value) => ({ value, label: AREA_LABELS[value] }));
@@ -26,7 +29,7 @@ export type DraftInitial = {
 };
 
 type SaveReply =
-  | { ok: true; version: number; savedAt: string; warnings: { path: string; message: string }[] }
+  | { ok: true; version: number; savedAt: string; warnings: { path: string; message: string }[]; incomplete: IncompleteBlock[] }
   | { error: "conflict"; message: string; copyId: string; current: { version: number; title: string; summary: string; area: string; tags: string[]; doc: unknown; updatedAt: string; savedBy: string | null } }
   | { error: "invalid input"; issues: { path: string; message: string }[] }
   | { ok?: undefined; error: "forbidden" | "refused" | "not found"; reason?: string };
@@ -34,6 +37,67 @@ type SaveReply =
 type Status = { kind: "saved"; at: Date | null } | { kind: "dirty" } | { kind: "saving" } | { kind: "error"; message: string } | { kind: "conflict" };
 
 const AUTOSAVE_MS = 1200;
+
+/**
+ * Where a new block goes: where the cursor is. A selected block (spec, calculator…) is not
+ * replaced: the new one goes after it. In an empty paragraph the block takes its place; at the
+ * start or end of a paragraph it goes before or after it; in the middle the paragraph is split
+ * first. `at` is a position between blocks (or the empty paragraph's range); null means
+ * "replace the selected text".
+ */
+function blockInsertPoint(editor: Editor): { at: number | { from: number; to: number }; split?: boolean } | null {
+  const sel = editor.state.selection;
+  if (sel instanceof NodeSelection) return { at: sel.to };
+  const { $from, empty } = sel;
+  if (!empty || !$from.parent.isTextblock || $from.depth === 0) return null;
+  if ($from.parent.content.size === 0) return { at: { from: $from.before(), to: $from.after() } };
+  if ($from.parentOffset === $from.parent.content.size) return { at: $from.after() };
+  if ($from.parentOffset === 0) return { at: $from.before() };
+  return { at: $from.before(), split: true };
+}
+
+/**
+ * A press in the blank space below the last block puts the cursor at the end, in the trailing
+ * paragraph (made if the last block is not a paragraph), rather than wherever the browser guesses.
+ */
+function writeBelowLastBlock(view: EditorView, event: MouseEvent): boolean {
+  const last = view.dom.lastElementChild;
+  if (event.target !== view.dom || event.button !== 0 || !last || event.clientY <= last.getBoundingClientRect().bottom) return false;
+  event.preventDefault();
+  const { doc, schema } = view.state;
+  const tr = view.state.tr;
+  if (doc.lastChild?.type.name !== "paragraph") tr.insert(doc.content.size, schema.nodes.paragraph.create());
+  tr.setSelection(TextSelection.create(tr.doc, tr.doc.content.size - 1));
+  view.dispatch(tr.scrollIntoView());
+  view.focus();
+  return true;
+}
+
+/** The document position of the node at `path` (child indices from the top). */
+function positionOf(doc: PMNode, path: number[]): number | null {
+  let pos = 0;
+  let node = doc;
+  for (const [depth, i] of path.entries()) {
+    if (i >= node.childCount) return null;
+    pos += depth === 0 ? 0 : 1;
+    for (let k = 0; k < i; k++) pos += node.child(k).nodeSize;
+    node = node.child(i);
+  }
+  return pos;
+}
+
+/** Selects an incomplete block, scrolls to it and puts the focus on its first missing field. */
+function goToBlock(editor: Editor, block: IncompleteBlock) {
+  const pos = positionOf(editor.state.doc, block.path);
+  if (pos == null) return;
+  editor.view.dispatch(editor.state.tr.setSelection(NodeSelection.create(editor.state.doc, pos)));
+  const dom = editor.view.nodeDOM(pos) as HTMLElement | null;
+  const frame = dom?.matches?.("[data-block]") ? dom : dom?.querySelector<HTMLElement>("[data-block]");
+  if (!frame) return;
+  const field = frame.querySelector<HTMLElement>(`[data-field="${block.problems[0]?.field}"]`) ?? frame;
+  frame.scrollIntoView({ block: "center" });
+  field.focus({ preventScroll: true });
+}
 
 function Btn({ onClick, active, label, children, disabled }: { onClick: () => void; active?: boolean; label: string; children: React.ReactNode; disabled?: boolean }) {
   return (
@@ -80,10 +144,27 @@ function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; proce
     return () => { editor.off("transaction", f); };
   }, [editor]);
   const c = () => editor.chain().focus();
-  // A selected block (spec, calculator…) is not replaced by a new one: the new block goes after it.
-  const insertBlock = (content: Record<string, unknown>) => {
-    const sel = editor.state.selection as { node?: unknown; to: number };
-    return sel.node ? c().insertContentAt(sel.to, content).run() : c().insertContent(content).run();
+  const insertBlock = (content: Record<string, unknown>): boolean => {
+    const point = blockInsertPoint(editor);
+    if (!point) return c().insertContent(content).run();
+    if (point.split) {
+      c().splitBlock().run(); // the cursor is now at the start of the second half
+      return insertBlock(content);
+    }
+    const start = typeof point.at === "number" ? point.at : point.at.from;
+    // The cursor goes to an empty paragraph right after the new block (made if there is none), so typing carries on below it.
+    return c()
+      .insertContentAt(point.at, content)
+      .command(({ tr }) => {
+        const node = tr.doc.nodeAt(start);
+        if (!node) return true;
+        const end = start + node.nodeSize;
+        const after = tr.doc.resolve(end).nodeAfter;
+        if (!(after?.type.name === "paragraph" && after.content.size === 0)) tr.insert(end, tr.doc.type.schema.nodes.paragraph.create());
+        tr.setSelection(TextSelection.create(tr.doc, end + 1));
+        return true;
+      })
+      .run();
   };
   const insertCalc = (kind: CalcKind) => insertBlock({ type: "calculator", attrs: { kind, title: "", preset: DEFAULT_PRESETS[kind] } });
   const setLink = () => {
@@ -132,7 +213,11 @@ function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; proce
   );
 }
 
-export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
+const sentence = (i: { message: string }) => i.message.charAt(0).toUpperCase() + i.message.slice(1);
+const blocksText = (n: number) => `${n} block${n === 1 ? "" : "s"}`;
+
+/** `submitTo` is the revision page whose action takes `intent=submit` with the change note. */
+export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; submitTo: string }) {
   const [title, setTitle] = useState(initial.title);
   const [summary, setSummary] = useState(initial.summary);
   const [area, setArea] = useState(initial.area);
@@ -142,6 +227,11 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
   const [issues, setIssues] = useState<{ path: string; message: string }[]>([]);
   const [conflict, setConflict] = useState<Extract<SaveReply, { error: "conflict" }> | null>(null);
   const version = useRef(initial.version);
+  const settling = useRef(false);
+  // "Submit for review" pressed while changes were unsaved: submit once they are.
+  const [submitPending, setSubmitPending] = useState(false);
+  const submitForm = useRef<HTMLFormElement>(null);
+  const missingDialog = useRef<HTMLDialogElement>(null);
   const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
   const pendingAgain = useRef(false);
   const fetcher = useFetcher<SaveReply>();
@@ -151,11 +241,29 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
     immediatelyRender: false,
     // TipTap adds a <style> of base styles; the page's Content-Security-Policy wants its nonce.
     injectNonce: documentNonce(),
-    extensions: [starterKit, Table.configure({ resizable: false }), TableRow, TableHeader, TableCell, ...editorNodes, Placeholder.configure({ placeholder: "Write the step, or insert a block from the toolbar…" })],
+    // TipTap's trailing node keeps a paragraph after the last block, so a click below it has a place to type.
+    extensions: [starterKit.configure({ trailingNode: {} }), Table.configure({ resizable: false }), TableRow, TableHeader, TableCell, ...editorNodes, Placeholder.configure({ placeholder: "Write the step, or insert a block from the toolbar…" })],
     content: initial.doc as JSONNode,
-    editorProps: { attributes: { class: "proc-body prose-proc", "aria-label": "Procedure text", "data-testid": "editor" } },
-    onUpdate: () => markDirty(),
+    editorProps: {
+      attributes: { class: "proc-body prose-proc", "aria-label": "Procedure text", "data-testid": "editor" },
+      handleDOMEvents: { mousedown: (view, event) => writeBelowLastBlock(view, event) },
+    },
+    // Opening the page adds the trailing paragraph at once; that is not a change of the author's.
+    onCreate: ({ editor: e }) => {
+      settling.current = true;
+      e.view.dispatch(e.state.tr.setMeta("addToHistory", false));
+      settling.current = false;
+    },
+    onUpdate: () => { if (!settling.current) markDirty(); },
   });
+  const [incomplete, setIncomplete] = useState<IncompleteBlock[]>([]);
+  useEffect(() => {
+    if (!editor) return;
+    const f = () => setIncomplete(incompleteBlocks(editor.getJSON() as JSONNode));
+    f();
+    editor.on("update", f);
+    return () => { editor.off("update", f); };
+  }, [editor]);
 
   const dirty = status.kind === "dirty" || status.kind === "saving" || status.kind === "error" || status.kind === "conflict";
 
@@ -194,7 +302,10 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
       setIssues(d.warnings ?? []);
       if (pendingAgain.current) { pendingAgain.current = false; saveRef.current(); }
       else setStatus((s) => (s.kind === "saving" ? { kind: "saved", at: new Date(d.savedAt) } : s));
-    } else if (!("error" in d)) {
+      return;
+    }
+    setSubmitPending(false);
+    if (!("error" in d)) {
       setStatus({ kind: "error", message: "Not saved: unexpected answer from the server." });
     } else if (d.error === "conflict") {
       setConflict(d as Extract<SaveReply, { error: "conflict" }>);
@@ -202,7 +313,7 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
     } else if (d.error === "invalid input") {
       const iss = (d as { issues: { path: string; message: string }[] }).issues;
       setIssues(iss);
-      setStatus({ kind: "error", message: "Not saved: fix the marked problems; your text stays here." });
+      setStatus({ kind: "error", message: "Not saved: see the problem below; your text stays here." });
     } else {
       setStatus({ kind: "error", message: `Not saved: ${(d as { reason?: string }).reason ?? d.error}` });
     }
@@ -217,6 +328,14 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
     }
   }, [blocker]);
 
+  // After the blocker has seen the saved state (effects run in order), so leaving is not held up.
+  useEffect(() => {
+    if (submitPending && status.kind === "saved") {
+      setSubmitPending(false);
+      submitForm.current?.requestSubmit();
+    }
+  }, [submitPending, status]);
+
   const theirs = useMemo(() => (conflict ? blockTexts(conflict.current.doc as JSONNode).slice(0, 40) : []), [conflict]);
 
   const takeTheirs = () => {
@@ -227,6 +346,7 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
     first.current = true;
     setTitle(cur.title); setSummary(cur.summary); setArea(cur.area); setTags(cur.tags.join(", "));
     setConflict(null);
+    setIncomplete(incompleteBlocks(editor.getJSON() as JSONNode));
     setStatus({ kind: "saved", at: new Date(cur.updatedAt) });
   };
   const keepMine = () => {
@@ -237,6 +357,26 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
     setTimeout(() => saveRef.current(), 0);
   };
 
+  const busy = useNavigation().state !== "idle";
+  // Review needs every block complete and the last changes saved: list what is missing, or save first.
+  const onSubmit = (e: React.FormEvent<HTMLFormElement>) => {
+    if (!editor) return e.preventDefault();
+    const missing = incompleteBlocks(editor.getJSON() as JSONNode);
+    if (missing.length) {
+      e.preventDefault();
+      setIncomplete(missing);
+      missingDialog.current?.showModal();
+      return;
+    }
+    if (status.kind === "conflict") return e.preventDefault(); // settle the conflict above first
+    if (status.kind !== "saved") {
+      e.preventDefault();
+      setSubmitPending(true);
+      if (timer.current) clearTimeout(timer.current);
+      if (status.kind !== "saving") save();
+    }
+  };
+
   const statusText =
     status.kind === "saved" ? (status.at ? `Saved ${status.at.toLocaleTimeString("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit" })}` : "No changes yet")
     : status.kind === "saving" ? "Saving…" : status.kind === "dirty" ? "Unsaved changes" : status.kind === "conflict" ? "Not saved: conflict" : status.message;
@@ -245,8 +385,11 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
     <EditorSharedContext.Provider value={{ titles, rememberTitle, procedureId: initial.procedureId }}>
       <div className="space-y-4">
         <div className="flex flex-wrap items-center justify-between gap-2">
-          <p className={`text-sm font-semibold ${status.kind === "error" || status.kind === "conflict" ? "text-spec-red" : status.kind === "saved" ? "text-ok" : "text-brass"}`} role="status" aria-live="polite" data-testid="save-status">
-            {statusText}
+          <p className="text-sm" role="status" aria-live="polite">
+            <span className={`font-semibold ${status.kind === "error" || status.kind === "conflict" ? "text-spec-red" : status.kind === "saved" ? "text-ok" : "text-brass"}`} data-testid="save-status">{statusText}</span>
+            {incomplete.length > 0 && status.kind !== "error" && status.kind !== "conflict" && (
+              <span className="text-graphite-soft" data-testid="incomplete-count"> · {blocksText(incomplete.length)} to finish before review</span>
+            )}
           </p>
           <button type="button" className="btn py-1 text-sm" onClick={() => save()} disabled={!editor || status.kind === "saving" || status.kind === "conflict"}>Save now</button>
         </div>
@@ -274,7 +417,7 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
         </div>
         {issues.length > 0 && (
           <ul className="rounded-md border border-brass/60 bg-brass-soft/50 px-4 py-2 text-sm" data-testid="save-issues">
-            {issues.map((i, k) => <li key={k}><span className="font-mono text-xs">{i.path}</span> {i.message}</li>)}
+            {issues.map((i, k) => <li key={k}>{sentence(i)}</li>)}
           </ul>
         )}
         <div className="proc-editor rounded-lg border border-rule bg-card shadow-sm">
@@ -282,6 +425,30 @@ export function ProcedureEditor({ initial }: { initial: DraftInitial }) {
           <EditorContent editor={editor} />
           {!editor && <p className="p-6 text-graphite-soft">Loading the editor…</p>}
         </div>
+        <Form ref={submitForm} method="post" action={submitTo} className="card flex flex-wrap items-end gap-3 p-4" onSubmit={onSubmit}>
+          <input type="hidden" name="intent" value="submit" />
+          <label className="min-w-[16rem] flex-1"><span className="label">Change note (for the editor and the history)</span><input name="changeNote" className="field" placeholder="What changed and why" required minLength={3} /></label>
+          <button className="btn btn-primary" type="submit" disabled={busy || !editor}>{submitPending ? "Saving, then submitting…" : "Submit for review"}</button>
+        </Form>
+        <dialog ref={missingDialog} aria-labelledby="missing-title" className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-lg border border-rule bg-card p-0 text-graphite shadow-xl backdrop:bg-graphite/40" data-testid="submit-missing">
+          <div className="p-5">
+            <h2 id="missing-title" className="font-serif text-xl">Finish {incomplete.length === 1 ? "this block" : `these ${blocksText(incomplete.length)}`} before review</h2>
+            <p className="mt-1 text-sm text-graphite-soft">Your draft is saved as it is. Review needs every block complete; choose one to go to it.</p>
+            <ul className="mt-3 divide-y divide-rule rounded-md border border-rule">
+              {incomplete.map((b) => (
+                <li key={b.path.join(".")} className="px-3 py-2">
+                  <button type="button" className="min-h-11 text-left font-semibold text-teal underline decoration-teal/40 underline-offset-2 hover:decoration-teal" onClick={() => { missingDialog.current?.close(); if (editor) goToBlock(editor, b); }}>
+                    {b.name}
+                  </button>
+                  <p className="text-sm">{b.problems.map((p) => p.message).join(" · ")}</p>
+                </li>
+              ))}
+            </ul>
+            <div className="mt-4 flex justify-end">
+              <button type="button" className="btn" onClick={() => missingDialog.current?.close()}>Keep writing</button>
+            </div>
+          </div>
+        </dialog>
       </div>
     </EditorSharedContext.Provider>
   );

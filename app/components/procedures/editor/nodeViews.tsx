@@ -1,58 +1,86 @@
 /** React node views for our custom blocks in the editor (the schema itself lives in app/lib/procedures/nodes.ts). */
 import { NodeViewContent, NodeViewWrapper, ReactNodeViewRenderer, type ReactNodeViewProps } from "@tiptap/react";
-import { useEffect, useMemo, useState } from "react";
+import { useEffect, useId, useMemo, useRef, useState } from "react";
 import { UNIT_CODES, unitLabel, type UnitCode, type UnitKind } from "~/lib/calc";
 import { CALC_KINDS, DEFAULT_PRESETS, numericLeaves, runCalculator, setAtPath, type CalcKind } from "~/lib/procedures/calc-presets";
-import { calcLabel, QUANTITY_KINDS } from "~/lib/procedures/document";
+import { blockProblems, calcLabel, formatSeconds, QUANTITY_KINDS, type JSONNode } from "~/lib/procedures/document";
 import { CalculatorNode, CautionNode, ProcedureLinkNode, SpecNode, VideoMomentNode } from "~/lib/procedures/nodes";
 import { useEditorShared } from "./context";
 
 const numOrNull = (s: string) => (s.trim() === "" ? null : Number(s));
 
-function BlockFrame({ label, children, selected }: { label: string; children: React.ReactNode; selected: boolean }) {
+/** The name a screen reader announces for a block, and the plain-words list of what it still lacks. */
+function BlockFrame({ node, label, children, selected }: { node: ReactNodeViewProps["node"]; label: string; children: React.ReactNode; selected: boolean }) {
+  const problems = useMemo(() => blockProblems(node.toJSON() as JSONNode), [node]);
+  const id = useId();
   return (
-    <NodeViewWrapper className={`my-3 rounded-lg border bg-card font-sans text-sm shadow-sm ${selected ? "border-brass" : "border-rule"}`} contentEditable={false}>
+    <NodeViewWrapper
+      role="group"
+      aria-label={`${label}${problems.length ? " (incomplete)" : ""}`}
+      aria-describedby={problems.length ? id : undefined}
+      tabIndex={-1}
+      data-block={node.type.name}
+      data-incomplete={problems.length ? "" : undefined}
+      className={`my-3 rounded-lg border bg-card font-sans text-sm shadow-sm focus:outline-none focus-visible:ring-2 focus-visible:ring-brass ${selected ? "border-brass" : problems.length ? "border-brass/70 border-dashed" : "border-rule"}`}
+      contentEditable={false}
+    >
       <div className="flex items-center justify-between border-b border-rule bg-paper-deep/60 px-3 py-1" data-drag-handle>
         <span className="text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">{label}</span>
         <span className="cursor-grab text-graphite-soft" aria-hidden>⠿</span>
       </div>
       <div className="p-3">{children}</div>
+      {problems.length > 0 && (
+        <p id={id} className="m-0 border-t border-brass/40 bg-brass-soft/50 px-3 py-1.5 font-sans text-sm" data-testid="block-problems">
+          <span className="font-semibold text-graphite">To finish before review: </span>
+          {problems.map((p) => p.message).join(" · ")}
+        </p>
+      )}
     </NodeViewWrapper>
   );
 }
 
+/** A number input that shows what the author types and follows changes made elsewhere (a mark picked, the preview's frame). */
+function NumberField({ value, onValue, ...rest }: { value: number | null; onValue: (v: number | null) => void } & Omit<React.InputHTMLAttributes<HTMLInputElement>, "value" | "onChange">) {
+  const [text, setText] = useState(value == null ? "" : String(value));
+  useEffect(() => {
+    setText((t) => (numOrNull(t) === value || (t.trim() === "" && value == null) ? t : value == null ? "" : String(value)));
+  }, [value]);
+  return <input {...rest} type="number" step="any" inputMode="decimal" value={text} onChange={(e) => { setText(e.target.value); const n = numOrNull(e.target.value); onValue(n != null && Number.isFinite(n) ? n : null); }} />;
+}
+
 function SpecView({ node, updateAttributes, selected }: ReactNodeViewProps) {
-  const a = node.attrs as { label: string; quantity: UnitKind; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
-  const units = UNIT_CODES[a.quantity] ?? [];
-  const bad = a.min != null && a.max != null && a.min > a.max;
+  const a = node.attrs as { label: string; quantity: UnitKind | null; unit: string | null; nominal: number | null; min: number | null; max: number | null; note: string };
+  const units = (a.quantity && UNIT_CODES[a.quantity]) || [];
   return (
-    <BlockFrame label="Spec" selected={selected}>
+    <BlockFrame node={node} label={a.label ? `Spec: ${a.label}` : "Spec"} selected={selected}>
       <div className="grid gap-2 sm:grid-cols-[2fr_1fr_1fr]" data-testid="spec-editor">
-        <label className="sm:col-span-1"><span className="text-xs text-graphite-soft">Label</span><input className="field py-1" value={a.label} placeholder="e.g. Head stud final torque" onChange={(e) => updateAttributes({ label: e.target.value })} aria-label="Spec label" /></label>
+        <label className="sm:col-span-1"><span className="text-xs text-graphite-soft">Label</span><input className="field py-1" data-field="label" value={a.label} placeholder="e.g. Head stud final torque" onChange={(e) => updateAttributes({ label: e.target.value })} aria-label="Spec label" /></label>
         <label><span className="text-xs text-graphite-soft">Quantity</span>
-          <select className="field py-1" value={a.quantity} aria-label="Spec quantity" onChange={(e) => { const q = e.target.value as UnitKind; updateAttributes({ quantity: q, unit: UNIT_CODES[q][0] }); }}>
+          <select className="field py-1" data-field="quantity" value={a.quantity ?? ""} aria-label="Spec quantity" onChange={(e) => { const q = e.target.value as UnitKind; updateAttributes({ quantity: q || null, unit: q ? UNIT_CODES[q][0] : null }); }}>
+            {!a.quantity && <option value="">Choose…</option>}
             {QUANTITY_KINDS.map((k) => <option key={k} value={k}>{k}</option>)}
           </select>
         </label>
         <label><span className="text-xs text-graphite-soft">Unit</span>
-          <select className="field py-1" value={a.unit} aria-label="Spec unit" onChange={(e) => updateAttributes({ unit: e.target.value })}>
+          <select className="field py-1" data-field="unit" value={a.unit ?? ""} aria-label="Spec unit" onChange={(e) => updateAttributes({ unit: e.target.value || null })}>
+            {!(a.unit && (units as readonly string[]).includes(a.unit)) && <option value="">Choose…</option>}
             {units.map((u) => <option key={u} value={u}>{unitLabel(u as UnitCode)}</option>)}
           </select>
         </label>
       </div>
       <div className="mt-2 grid grid-cols-3 gap-2">
         {(["nominal", "min", "max"] as const).map((k) => (
-          <label key={k}><span className="text-xs text-graphite-soft">{k}</span>
-            <input className="field num py-1" type="number" step="any" aria-label={`Spec ${k}`} defaultValue={a[k] ?? ""} onChange={(e) => updateAttributes({ [k]: numOrNull(e.target.value) })} />
+          <label key={k}><span className="text-xs text-graphite-soft">{SPEC_FIELD_LABELS[k]}</span>
+            <NumberField className="field num py-1" data-field={k} aria-label={`Spec ${k}`} value={a[k]} onValue={(v) => updateAttributes({ [k]: v })} />
           </label>
         ))}
       </div>
       <label className="mt-2 block"><span className="text-xs text-graphite-soft">Note</span><input className="field py-1" value={a.note} onChange={(e) => updateAttributes({ note: e.target.value })} placeholder="e.g. final pass, moly on threads and washer" /></label>
-      {bad && <p className="field-error">Min is above max.</p>}
-      {a.nominal == null && a.min == null && a.max == null && <p className="mt-1 text-xs text-brass">Give a nominal value or a limit.</p>}
     </BlockFrame>
   );
 }
+
+const SPEC_FIELD_LABELS = { nominal: "Nominal", min: "Minimum", max: "Maximum" } as const;
 
 function CalculatorView({ node, updateAttributes, selected }: ReactNodeViewProps) {
   const kind = node.attrs.kind as CalcKind;
@@ -63,7 +91,7 @@ function CalculatorView({ node, updateAttributes, selected }: ReactNodeViewProps
   const outcome = useMemo(() => runCalculator(kind, preset), [kind, preset]);
   const leaves = numericLeaves(preset);
   return (
-    <BlockFrame label={`${calcLabel(kind)} calculator`} selected={selected}>
+    <BlockFrame node={node} label={`${calcLabel(kind)} calculator${node.attrs.title ? `: ${node.attrs.title}` : ""}`} selected={selected}>
       <div className="flex flex-wrap gap-2">
         <label><span className="text-xs text-graphite-soft">Calculator</span>
           <select className="field py-1" value={kind} aria-label="Calculator kind" onChange={(e) => { const k = e.target.value as CalcKind; updateAttributes({ kind: k, preset: DEFAULT_PRESETS[k] }); }}>
@@ -95,10 +123,11 @@ function CalculatorView({ node, updateAttributes, selected }: ReactNodeViewProps
         </div>
       </div>
       <details className="mt-3">
-        <summary className="cursor-pointer text-xs text-graphite-soft">All inputs as JSON (units, method, material…)</summary>
-        <textarea className="field mt-1 h-40 font-mono text-xs" value={json} aria-label="Preset JSON" onChange={(e) => {
+        <summary className="cursor-pointer text-sm text-teal">Paste inputs from a calculator page</summary>
+        <p className="mt-1 text-xs text-graphite-soft">On a calculator page, “Copy as calculator block” copies every input (units, method, material). Paste it here to use those numbers in this block.</p>
+        <textarea className="field mt-1 h-40 font-mono text-xs" data-field="preset" value={json} aria-label="Calculator inputs copied from a calculator page" onChange={(e) => {
           setJson(e.target.value);
-          try { const v = JSON.parse(e.target.value); setJsonError(null); updateAttributes({ preset: v }); } catch { setJsonError("Not valid JSON yet; the last valid inputs are kept."); }
+          try { const v = JSON.parse(e.target.value); setJsonError(null); updateAttributes({ preset: v }); } catch { setJsonError("This is not the whole copied text yet; the last complete inputs are kept."); }
         }} />
         {jsonError && <p className="field-error">{jsonError}</p>}
       </details>
@@ -107,33 +136,86 @@ function CalculatorView({ node, updateAttributes, selected }: ReactNodeViewProps
 }
 
 type RecordingOption = { id: string; title: string; durationS: number | null };
+type MarkOption = { id: string; tStart: number; tEnd: number | null; text: string };
 
+const roundTenth = (t: number) => Math.round(t * 10) / 10;
+
+/**
+ * The author picks a recording, then one of its marks (times filled in) or the frame the small
+ * preview stands on; typing the seconds stays possible. Marks come from the recordings API
+ * (GET /api/recordings/:id/marks, which applies the recordings' own rules).
+ */
 function VideoMomentView({ node, updateAttributes, selected }: ReactNodeViewProps) {
-  const a = node.attrs as { recordingId: string | null; start: number; end: number | null; caption: string };
+  const a = node.attrs as { recordingId: string | null; start: number | null; end: number | null; caption: string };
   const [options, setOptions] = useState<RecordingOption[] | null>(null);
   const [available, setAvailable] = useState(true);
+  const [marks, setMarks] = useState<MarkOption[] | null>(null);
+  const [markId, setMarkId] = useState("");
+  const video = useRef<HTMLVideoElement>(null);
   useEffect(() => {
     fetch("/api/procedures/recordings").then((r) => r.json()).then((j: { available: boolean; results: RecordingOption[] }) => { setOptions(j.results); setAvailable(j.available); }).catch(() => setOptions([]));
   }, []);
+  const chosen = a.recordingId && options?.some((o) => o.id === a.recordingId) ? a.recordingId : null;
+  useEffect(() => {
+    setMarks(null);
+    if (!chosen) return;
+    const ctl = new AbortController();
+    fetch(`/api/recordings/${chosen}/marks`, { signal: ctl.signal }).then((r) => (r.ok ? r.json() : { marks: [] })).then((j: { marks: MarkOption[] }) => setMarks(j.marks)).catch(() => {});
+    return () => ctl.abort();
+  }, [chosen]);
+  const title = options?.find((o) => o.id === a.recordingId)?.title;
+  const pickMark = (id: string) => {
+    setMarkId(id);
+    const m = marks?.find((x) => x.id === id);
+    if (!m) return;
+    updateAttributes({ start: m.tStart, end: m.tEnd ?? null, ...(a.caption.trim() ? {} : { caption: m.text }) });
+    if (video.current) video.current.currentTime = m.tStart;
+  };
+  const frame = (which: "start" | "end") => {
+    const t = video.current?.currentTime;
+    if (t == null || !Number.isFinite(t)) return;
+    setMarkId("");
+    updateAttributes({ [which]: roundTenth(t) });
+  };
   return (
-    <BlockFrame label="Video moment" selected={selected}>
-      <div className="grid gap-2 sm:grid-cols-[2fr_1fr_1fr]">
-        <label><span className="text-xs text-graphite-soft">Recording</span>
-          {options && options.length > 0 ? (
-            <select className="field py-1" value={a.recordingId ?? ""} aria-label="Recording" onChange={(e) => updateAttributes({ recordingId: e.target.value || null })}>
-              <option value="">Choose a ready recording…</option>
-              {options.map((o) => <option key={o.id} value={o.id}>{o.title}</option>)}
-            </select>
-          ) : (
-            <input className="field py-1 font-mono text-xs" value={a.recordingId ?? ""} aria-label="Recording id" placeholder="recording id" onChange={(e) => updateAttributes({ recordingId: e.target.value.trim() || null })} />
+    <BlockFrame node={node} label={`Video moment${title ? `: ${title}` : ""}`} selected={selected}>
+      <div className="grid gap-3 md:grid-cols-[minmax(0,1fr)_minmax(0,16rem)]">
+        <div className="grid content-start gap-2">
+          <label><span className="text-xs text-graphite-soft">Recording</span>
+            {options && options.length > 0 ? (
+              <select className="field py-1" data-field="recording" value={a.recordingId ?? ""} aria-label="Recording" onChange={(e) => { setMarkId(""); updateAttributes({ recordingId: e.target.value || null }); }}>
+                <option value="">Choose a recording…</option>
+                {options.map((o) => <option key={o.id} value={o.id}>{o.title}{o.durationS != null ? ` (${formatSeconds(o.durationS)})` : ""}</option>)}
+              </select>
+            ) : (
+              <input className="field py-1 font-mono text-xs" data-field="recording" value={a.recordingId ?? ""} aria-label="Recording id" placeholder="recording id" onChange={(e) => updateAttributes({ recordingId: e.target.value.trim() || null })} />
+            )}
+          </label>
+          {options && options.length === 0 && <p className="text-xs text-graphite-soft">{available ? "No recording is ready yet; paste a recording's id, or add the moment once one is." : "Recordings are not set up yet; paste a recording's id."}</p>}
+          {chosen && (
+            <label><span className="text-xs text-graphite-soft">Mark</span>
+              <select className="field py-1" data-field="mark" value={markId} aria-label="Mark" disabled={!marks?.length} onChange={(e) => pickMark(e.target.value)}>
+                <option value="">{marks == null ? "Loading the marks…" : marks.length ? "Choose a mark to fill in its time…" : "This recording has no marks yet"}</option>
+                {marks?.map((m) => <option key={m.id} value={m.id}>{formatSeconds(m.tStart)}{m.tEnd != null ? `–${formatSeconds(m.tEnd)}` : ""} · {m.text}</option>)}
+              </select>
+            </label>
           )}
-        </label>
-        <label><span className="text-xs text-graphite-soft">Start (s)</span><input className="field num py-1" type="number" min={0} step="any" defaultValue={a.start} aria-label="Start seconds" onChange={(e) => updateAttributes({ start: Number(e.target.value) || 0 })} /></label>
-        <label><span className="text-xs text-graphite-soft">End (s, optional)</span><input className="field num py-1" type="number" min={0} step="any" defaultValue={a.end ?? ""} aria-label="End seconds" onChange={(e) => updateAttributes({ end: numOrNull(e.target.value) })} /></label>
+          <div className="grid grid-cols-2 gap-2">
+            <label><span className="text-xs text-graphite-soft">Start (seconds)</span><NumberField className="field num py-1" data-field="start" min={0} aria-label="Start seconds" value={a.start} onValue={(v) => { setMarkId(""); updateAttributes({ start: v }); }} /></label>
+            <label><span className="text-xs text-graphite-soft">End (seconds, optional)</span><NumberField className="field num py-1" data-field="end" min={0} aria-label="End seconds" value={a.end} onValue={(v) => { setMarkId(""); updateAttributes({ end: v }); }} /></label>
+          </div>
+          <label className="block"><span className="text-xs text-graphite-soft">Caption</span><input className="field py-1" value={a.caption} onChange={(e) => updateAttributes({ caption: e.target.value })} placeholder="What to watch for at this moment" /></label>
+        </div>
+        {chosen && (
+          <div className="grid content-start gap-2" data-testid="moment-preview">
+            <video ref={video} className="aspect-video w-full rounded border border-rule bg-graphite" src={`/api/recordings/${chosen}/media`} poster={`/api/recordings/${chosen}/poster`} preload="metadata" controls muted playsInline aria-label={`Preview of ${title ?? "the recording"}`} />
+            <div className="flex flex-wrap gap-2">
+              <button type="button" className="btn px-3 py-1.5 text-sm" onClick={() => frame("start")}>Start at this frame</button>
+              <button type="button" className="btn px-3 py-1.5 text-sm" onClick={() => frame("end")}>End at this frame</button>
+            </div>
+          </div>
+        )}
       </div>
-      <label className="mt-2 block"><span className="text-xs text-graphite-soft">Caption</span><input className="field py-1" value={a.caption} onChange={(e) => updateAttributes({ caption: e.target.value })} placeholder="What to watch for at this moment" /></label>
-      {options && options.length === 0 && <p className="mt-1 text-xs text-graphite-soft">{available ? "No ready recordings match yet; paste a recording's id." : "Recordings are not set up yet; paste a recording's id."}</p>}
-      {!a.recordingId && <p className="mt-1 text-xs text-brass">Choose the recording.</p>}
     </BlockFrame>
   );
 }
@@ -150,7 +232,7 @@ function ProcedureLinkView({ node }: ReactNodeViewProps) {
 
 function CautionView() {
   return (
-    <NodeViewWrapper className="my-3 rounded-md border border-brass border-l-[6px] bg-brass-soft px-4 py-2">
+    <NodeViewWrapper role="note" aria-label="Caution" className="my-3 rounded-md border border-brass border-l-[6px] bg-brass-soft px-4 py-2">
       <p className="caution-title" contentEditable={false}>Caution</p>
       <NodeViewContent className="font-serif" />
     </NodeViewWrapper>
