@@ -5,7 +5,12 @@
 import { randomUUID } from "node:crypto";
 import { expect, test, type Page } from "@playwright/test";
 import pg from "pg";
-import { signIn } from "../support/browser";
+import { signIn as signInAs } from "../support/browser";
+
+async function signIn(page: Page, email: string, path: string) {
+  await signInAs(page, email);
+  await page.goto(path);
+}
 
 /** Console errors and uncaught page errors from now on (React reports a hydration mismatch as both). */
 function errorsOf(page: Page): string[] {

@@ -1,5 +1,6 @@
 /** Small hand-drawn SVG chart parts: linear scales, "nice" ticks, a framed plot with axes. */
 import type { ReactNode } from "react";
+import { formatNumber } from "~/lib/calc-ui/units";
 
 /** Ticks at 1, 2 or 5 × 10^n covering [lo, hi]. */
 export function niceTicks(lo: number, hi: number, count = 5): number[] {
@@ -22,7 +23,7 @@ export function niceMax(max: number): number {
 
 export function tickLabel(v: number, step: number): string {
   const decimals = Math.max(0, Math.min(6, -Math.floor(Math.log10(step) + 1e-9)));
-  return new Intl.NumberFormat("en-US", { minimumFractionDigits: decimals, maximumFractionDigits: decimals }).format(v);
+  return formatNumber(v, decimals);
 }
 
 export interface Frame {

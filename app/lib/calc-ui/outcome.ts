@@ -76,3 +76,14 @@ export function formValues(form: FormData): FormValues {
   for (const [k, v] of form.entries()) if (typeof v === "string") out[k] = v;
   return out;
 }
+
+/**
+ * A calculator page's first values with the server's outcome of them, sent with the page so the
+ * browser's first render shows the server's numbers. Computing them again in the browser is not
+ * enough: its sin, cos and atan2 may differ from the server's in the last bits, and a result
+ * on a rounding edge (a bore's lobe phase of 7.49999999998° on the server, 7.5000000001° in the
+ * browser) then reads differently, which React reports as a hydration mismatch (error #418).
+ */
+export function initialForm<O>(values: FormValues, run: (values: FormValues) => O): { values: FormValues; outcome: O } {
+  return { values, outcome: run(values) };
+}

@@ -1,6 +1,6 @@
 import { unit as mathUnit } from "mathjs";
 import { describe, expect, it } from "vitest";
-import { decimalsOf, formatMeasured, specDecimals } from "./units";
+import { decimalsOf, formatMeasured, formatNumber, specDecimals } from "./units";
 
 // The rounding rule checked here is the one of IEEE/ASTM SI 10 (rounding of converted values):
 // a converted value keeps a precision commensurate with the value measured, never more digits
@@ -44,5 +44,23 @@ describe("formatMeasured: a converted value at the resolution it was typed with"
     expect(decimalsOf(2.5e-7)).toBe(8);
     expect(specDecimals({ min: 105, max: 115, nominal: 110.5 })).toBe(1);
     expect(specDecimals({ min: null, max: null })).toBe(0);
+  });
+});
+
+describe("formatNumber: the same text on the server and in the browser", () => {
+  it("rounds a value a last-bit error away from a half the same way on either side", () => {
+    // 7.5 is exactly representable (IEEE 754 binary64); the neighbours one ulp (2^-50 here) away
+    // are what two engines' atan2 gave for a phase of 7.5°. Rounded half away from zero
+    // (ECMA-402's default rounding, "halfExpand"), 7.5 is 8 whichever side computed it.
+    const ulp = 2 ** -50;
+    expect(formatNumber(7.5 - ulp, 0)).toBe("8");
+    expect(formatNumber(7.5 + ulp, 0)).toBe("8");
+    expect(formatNumber(0.0125 - 1e-17, 3)).toBe(formatNumber(0.0125 + 1e-17, 3));
+  });
+
+  it("keeps its grouping and decimals", () => {
+    expect(formatNumber(76389.4, 0)).toBe("76,389");
+    expect(formatNumber(-0.0004, 3)).toBe("0.000");
+    expect(formatNumber(Number.NaN, 2)).toBe("—");
   });
 });

@@ -70,10 +70,17 @@ export function decimalsFor(unit: UnitCode, extra = 0): number {
   return Math.max(0, (DECIMALS[unit] ?? 3) + extra);
 }
 
-/** A number with a fixed count of decimals and thousands separators ("76,389"). */
+/**
+ * A number with a fixed count of decimals and thousands separators ("76,389"). The value is
+ * first taken to 12 significant digits: the server (Node) and the browser compute a result with
+ * engines whose sin, cos and atan2 may differ in the last bit, and a phase of exactly 7.5° came out
+ * as 7.4999999999999 on one and 7.5000000000001 on the other, shown "7" and "8": the page's text
+ * differed between the server's HTML and the browser's first render (React error #418).
+ */
 export function formatNumber(x: number, decimals: number): string {
   if (!Number.isFinite(x)) return "—";
-  const v = Math.abs(x) < 0.5 * 10 ** -decimals ? 0 : x;
+  const snapped = Number(x.toPrecision(12));
+  const v = Math.abs(snapped) < 0.5 * 10 ** -decimals ? 0 : snapped;
   return new Intl.NumberFormat("en-US", { minimumFractionDigits: decimals, maximumFractionDigits: decimals }).format(v);
 }
 

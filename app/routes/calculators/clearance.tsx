@@ -9,14 +9,14 @@ import { useCalcForm } from "~/components/calc/useCalcForm";
 import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_BAND_FACTOR, RING_GAP_FACTORS, toSI, unitLabel, type ClearanceResult, type UnitCode } from "~/lib/calc";
 import { requirePermission } from "~/lib/auth.server";
 import { BORE_MATERIALS, CLEARANCE_KINDS, PISTON_MATERIALS, clearanceDefaults, runClearanceForm, type ClearanceKind } from "~/lib/calc-ui/clearance-form";
-import { formValues, type FormValues, type Outcome } from "~/lib/calc-ui/outcome";
+import { formValues, initialForm, type FormValues, type Outcome } from "~/lib/calc-ui/outcome";
 import { followInputSystem, formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Clearances · Calculators · Benchreel" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "calc:use");
-  return { unitSystem: user.unitSystem };
+  return { unitSystem: user.unitSystem, initial: initialForm(clearanceDefaults(user.unitSystem), runClearanceForm) };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -32,7 +32,7 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
   const hydrated = useHydrated();
   const { values, outcome, set } = useCalcForm<ClearanceOutcome>({
     actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
-    defaults: () => clearanceDefaults(loaderData.unitSystem),
+    initial: loaderData.initial,
     run: runClearanceForm,
     derive: (next, name, value) => {
       if (name === "application") {

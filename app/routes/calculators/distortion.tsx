@@ -10,18 +10,24 @@ import { TWO_POINT_GAUGE_NOTE, toSI, unitLabel, type BoreLevel, type BoreStateRe
 import { assertCan, requirePermission } from "~/lib/auth.server";
 import { boreSourceFor, distortionValuesFor } from "~/lib/recordings/bore-source.server";
 import { DEFAULT_ANGLES, distortionDefaults, profileShape, resultUnitsOfReadings, runDistortionForm, type DistortionOutcome } from "~/lib/calc-ui/distortion-form";
-import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
-import { decimalsOf, formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
+import { formValues, initialForm, type FormValues } from "~/lib/calc-ui/outcome";
+import { decimalsOf, formatIn, formatNumber, formatQ, unitOr, type UnitSystem } from "~/lib/calc-ui/units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Bore distortion · Calculators · Benchreel" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "calc:use");
   // ?recording=&cylinder= opens a recording's bore readings (issue 14 §2): reading them needs shop:read too.
-  if (!new URL(request.url).searchParams.has("recording")) return { unitSystem: user.unitSystem, boreSource: null, prefill: null };
+  if (!new URL(request.url).searchParams.has("recording")) return { unitSystem: user.unitSystem, boreSource: null, prefill: null, initial: initialOf(user.unitSystem, null) };
   assertCan(request, user, "shop:read");
   const boreSource = await boreSourceFor(request);
-  return { unitSystem: user.unitSystem, boreSource, prefill: boreSource && distortionValuesFor(boreSource, distortionDefaults(user.unitSystem)) };
+  const prefill = boreSource && distortionValuesFor(boreSource, distortionDefaults(user.unitSystem));
+  return { unitSystem: user.unitSystem, boreSource, prefill, initial: initialOf(user.unitSystem, prefill) };
+}
+
+/** The first values (a recording's readings, else the demo) with results in the readings' units, and the server's outcome. */
+function initialOf(system: UnitSystem, prefill: FormValues | null) {
+  return initialForm(resultUnitsOfReadings(prefill ?? distortionDefaults(system)), runDistortionForm);
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -36,7 +42,7 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
   const { values, outcome, set } = useCalcForm<DistortionOutcome>({
     actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
     // Results open in the readings' units (metric readings in an inch account show in mm and µm).
-    defaults: () => resultUnitsOfReadings(loaderData.prefill ?? distortionDefaults(loaderData.unitSystem)),
+    initial: loaderData.initial,
     run: runDistortionForm,
     derive: (next, name, value, v) => {
       if (name === "reading.unit") Object.assign(next, resultUnitsOfReadings(next));

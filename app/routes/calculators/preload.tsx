@@ -10,7 +10,7 @@ import { NUT_FACTOR_PRESETS, NUT_FACTOR_R_SQUARED_LABEL, PROPERTY_CLASSES, THREA
 import { requirePermission } from "~/lib/auth.server";
 import { can } from "~/lib/permissions";
 import { SaveAsReadings } from "~/components/calc/SaveAsReadings";
-import { formValues, type FormValues } from "~/lib/calc-ui/outcome";
+import { formValues, initialForm, type FormValues } from "~/lib/calc-ui/outcome";
 import { DEFAULT_MODULUS_GPA, UNIFIED_STRESS_AREA_NOTE, d3Label, preloadDefaults, runPreloadForm, type PreloadOutcome } from "~/lib/calc-ui/preload-form";
 import { followInputSystem, formatIn, formatNumber, formatQ, unitOr } from "~/lib/calc-ui/units";
 
@@ -18,7 +18,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Preload · Calculators 
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "calc:use");
-  return { unitSystem: user.unitSystem, canSaveReadings: can(user.role, "reading:create") };
+  return { unitSystem: user.unitSystem, canSaveReadings: can(user.role, "reading:create"), initial: initialForm(preloadDefaults(user.unitSystem), runPreloadForm) };
 }
 
 /** Without JavaScript the form posts here: computed with the same module, typed values kept. */
@@ -33,7 +33,7 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
   const hydrated = useHydrated();
   const { values, outcome, set } = useCalcForm<PreloadOutcome>({
     actionData: actionData as { values: FormValues; outcome: unknown } | undefined,
-    defaults: () => preloadDefaults(loaderData.unitSystem),
+    initial: loaderData.initial,
     run: runPreloadForm,
     derive: (next, name, value) => {
       if (name === "nutCondition") {
