@@ -130,3 +130,70 @@ test("two editors change one group: the later save shows the group as it is now 
   await mine.getByRole("button", { name: "Save the group" }).click(); // on purpose this time
   await expect(first.getByText(`Saved: sump${tag}, oil pan${tag}, drip tray${tag}.`)).toBeVisible();
 });
+
+test("a spec hit opens the procedure scrolled to the spec, marked (no motion when reduced motion is asked for)", async ({ page }) => {
+  await page.emulateMedia({ reducedMotion: "reduce" });
+  await signIn(page, "jamie@larkspur.example");
+  await page.locator("#header-search").fill("head stud final torque");
+  const dropdown = page.getByTestId("search-dropdown");
+  await expect(dropdown.getByRole("heading", { name: "Specs" })).toBeVisible({ timeout: 20_000 });
+  const specs = dropdown.locator("section").filter({ has: page.getByRole("heading", { name: "Specs" }) });
+  await specs.getByTestId("search-hit").filter({ hasText: "Head stud final torque" }).first().click();
+  await expect(page).toHaveURL(/\/procedures\/head-stud-installation-and-torque-sequence#spec-studs-final$/);
+  const spec = page.locator("#spec-studs-final");
+  await expect(spec).toHaveClass(/landing-target/);
+  await expect(spec).toBeInViewport();
+  expect(await page.evaluate(() => window.scrollY)).toBeGreaterThan(0); // not left at the top
+  await expect(spec).toBeFocused();
+  expect(await spec.evaluate((el) => getComputedStyle(el).animationName)).toBe("none");
+  // Opened afresh (a shared link), the same address lands on the same spec.
+  await page.reload();
+  await expect(page.locator("#spec-studs-final")).toBeInViewport();
+  expect(await page.evaluate(() => document.querySelector(":target")?.id)).toBe("spec-studs-final");
+});
+
+test("a recording's readings are one result listing those that matched; one opens the recording at it, its row marked", async ({ page }) => {
+  await signIn(page, "marcus@larkspur.example");
+  await page.goto(`/search?q=${encodeURIComponent("torque moly")}&type=reading`);
+  const results = page.getByTestId("search-result");
+  await expect(results).toHaveCount(1);
+  await expect(results.first()).toContainText("Head stud clamp-load test");
+  const listed = results.first().getByTestId("search-reading");
+  expect(await listed.count()).toBeGreaterThan(1);
+  await expect(listed.first().locator("mark").first()).toBeVisible();
+  const href = (await listed.first().getAttribute("href"))!;
+  const id = /#reading-([0-9a-f-]+)$/.exec(href)![1];
+  await listed.first().click();
+  await expect(page).toHaveURL(/\/recordings\/[0-9a-f-]+\?t=[0-9.]+#reading-/);
+  const row = page.locator(`#reading-${id}`);
+  await expect(row).toHaveClass(/landing-target/, { timeout: 15_000 });
+  await expect(row).toBeInViewport();
+  await expect(row).toBeFocused();
+});
+
+test("a procedure hit found in a step opens the page at that step (a text fragment, loaded as a page)", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  await page.goto(`/search?q=${encodeURIComponent("chase every block thread")}&type=procedure`);
+  const hit = page.getByTestId("search-result").filter({ hasText: "Head stud installation and torque sequence" }).first().getByRole("link").first();
+  expect(await hit.getAttribute("href")).toMatch(/^\/procedures\/head-stud-installation-and-torque-sequence#:~:text=Chase/);
+  await hit.click();
+  await page.waitForURL(/\/procedures\/head-stud-installation-and-torque-sequence/);
+  const step = page.getByText("Chase every block thread and blow it out", { exact: false });
+  await expect(step).toBeInViewport();
+  expect(await page.evaluate(() => window.scrollY)).toBeGreaterThan(0);
+});
+
+test("on a 768 px tablet the header box's results are readable and each is at least 44 px tall", async ({ browser }) => {
+  const page = await (await browser.newContext({ viewport: { width: 768, height: 1024 } })).newPage();
+  await signIn(page, "jamie@larkspur.example");
+  await page.locator("#header-search").fill("torque moly");
+  const hits = page.getByTestId("search-dropdown").getByTestId("search-hit");
+  await expect(hits.first()).toBeVisible({ timeout: 20_000 });
+  for (const hit of (await hits.all()).slice(0, 6)) {
+    const box = (await hit.boundingBox())!;
+    expect(box.height).toBeGreaterThanOrEqual(44);
+    // The hit's title at 16 px, its snippet at no less than 14 px (it was 12 px).
+    expect(await hit.evaluate((el) => parseFloat(getComputedStyle(el).fontSize))).toBeGreaterThanOrEqual(16);
+    for (const size of await hit.locator("span").evaluateAll((els) => els.map((e) => parseFloat(getComputedStyle(e).fontSize)))) expect(size).toBeGreaterThanOrEqual(14);
+  }
+});
