@@ -54,11 +54,11 @@ function studsDoc(rev: 1 | 2 | 3): N {
         "Chase every block thread and blow it out; a dry test fit must run in by hand to the bottom, then back off a quarter turn.",
         "Install the studs finger-tight with the short thread in the block. Do not use the stud as a handle.",
         rev === 1
-          ? p("Lubricate the nut threads and the washer face. Use the same lube as the bench test: the preload below assumes K = ", t("0.15", [{ type: "bold" }]), ", the usual figure for moly paste.")
+          ? p("Lubricate the nut threads and the washer face. Use the same lube as the bench test: the preload below assumes K = ", t("0.15", [{ type: "bold" }]), ", from the paste's data sheet (before our own clamp-load test).")
           : p(
               "Lubricate the nut threads and the washer face. Use the same lube as the bench test: the preload below assumes K = ",
               t(STUDS_K.toFixed(2), [{ type: "bold" }]),
-              ", the nut factor our clamp-load test fits for the shop's moly paste on these studs (see the video below). Book figures for moly are lower, near 0.14; at the same torque they would promise more clamp load than our studs get.",
+              ", the nut factor our clamp-load test fits for the shop's moly paste on these studs (see the video below). Book figures for moly paste are lower; at the same torque they would promise more clamp load than our studs get.",
             ),
         "Pass 1 to 40 N·m in the spiral sequence, centre out.",
         "Pass 2 to 75 N·m in the same sequence.",

@@ -339,3 +339,56 @@ test("tags keep the spelling they were given and match whatever the case", async
   expect(res.status()).toBe(201);
   expect(((await res.json()) as { mark?: { tags: string[] }; tags?: string[] }).mark?.tags ?? []).toEqual(["Torque", "MLS"]);
 });
+
+// Words meant for developers never reach the shop's screens (issue 14 §6): no function names
+// (camelCase), no capability names, no "JSON", on the screens a builder uses every day.
+/** The visible text of the page's main area, and what in it reads like code. */
+async function developerWords(page: Page): Promise<string[]> {
+  // Each text node by itself: two elements side by side ("In review" · "Marcus") are not one word.
+  const text = await page.locator("main").evaluate((main) => {
+    const walker = document.createTreeWalker(main, NodeFilter.SHOW_TEXT);
+    const parts: string[] = [];
+    for (let n = walker.nextNode(); n; n = walker.nextNode()) {
+      const el = n.parentElement;
+      // Shown only: not the inside of a closed disclosure (the text a calculator copies for a procedure).
+      if (el && el.closest("script, style") == null && el.checkVisibility()) parts.push(n.textContent ?? "");
+    }
+    return parts.join("\n");
+  });
+  const found = new Set<string>();
+  // camelCase identifiers (fitNutFactor, propertyClass, recordingId)
+  for (const m of text.matchAll(/\b[a-z]+(?:[A-Z][a-z0-9]+)+\b/g)) found.add(m[0]);
+  // capability names (procedure:draft, mark:edit:own)
+  for (const m of text.matchAll(/\b[a-z]+:[a-z-]+(?::[a-z]+)?\b/g)) found.add(m[0]);
+  if (/\bJSON\b/.test(text)) found.add("JSON");
+  return [...found];
+}
+
+test("the shop's everyday screens say things in the shop's words", async ({ page }) => {
+  test.setTimeout(90_000);
+  await signIn(page);
+
+  await page.goto("/calculators/preload");
+  await page.getByLabel("Thread condition").selectOption("moly-paste");
+  await expect(page.getByText(/^Source: Derived with the ISO 16047/)).toBeVisible();
+  expect(await developerWords(page)).toEqual([]);
+
+  for (const path of ["/procedures/head-stud-installation-and-torque-sequence", "/recordings/5eed0000-0000-4000-8000-00000000c1a9", "/procedures", "/recordings", "/test-records", "/"]) {
+    await page.goto(path);
+    await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+    expect({ path, words: await developerWords(page) }).toEqual({ path, words: [] });
+  }
+
+  // Filing from the bench recording: its readings say their quantity in words ("no clamp load
+  // spec"), not the quantity's id.
+  await page.goto("/test-records/new?procedure=head-stud-installation-and-torque-sequence&recording=5eed0000-0000-4000-8000-00000000c1a9");
+  await expect(page.getByText("no clamp load spec").first()).toBeVisible();
+  await expect(page.getByText("no clamp-load spec")).toHaveCount(0);
+  expect(await developerWords(page)).toEqual([]);
+
+  // The apprentice's refusal page too.
+  await page.context().clearCookies();
+  await signIn(page, "jamie@larkspur.example");
+  await page.goto("/test-records/new");
+  expect(await developerWords(page)).toEqual([]);
+});

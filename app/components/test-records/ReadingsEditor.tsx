@@ -1,5 +1,6 @@
 import { useMemo, useState } from "react";
 import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
+import { quantityDef } from "~/lib/recordings/rules";
 import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
 import { fmtNum, ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
 import { limitsText, unitText } from "./units";
@@ -106,7 +107,7 @@ export function ReadingsEditor({
                       {fits.map((s) => <option key={s.id} value={s.id}>{s.label}</option>)}
                     </select>
                   ) : (
-                    <span className="text-graphite-soft">no {p.quantity} spec</span>
+                    <span className="text-graphite-soft">no {(quantityDef(p.quantity)?.label ?? p.quantity).toLowerCase()} spec</span>
                   )}
                 </li>
               );

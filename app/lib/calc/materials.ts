@@ -161,7 +161,7 @@ export const NUT_FACTOR_PRESETS: readonly NutFactorPreset[] = [
     label: "Moly (MoS2) paste",
     k: MOLY_K,
     source:
-      "Derived with the ISO 16047 / VDI 2230 torque form for M12, Db = 1.4·d, μ = 0.08 (VDI 2230 Part 1:2015, Table A5, friction class A: MoS2 pastes); measure your own lube with fitNutFactor",
+      "Derived with the ISO 16047 / VDI 2230 torque form for M12, Db = 1.4·d, μ = 0.08 (VDI 2230 Part 1:2015, Table A5, friction class A: MoS2 pastes)",
   },
   {
     condition: "anti-seize",
