@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { READING_VERDICT_LABELS, recordVerdictText, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/labels";
+import { READING_VERDICT_LABELS, recordVerdictParts, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/labels";
 import { formatCalendarDay } from "~/lib/dates";
 
 export const fmtDay = formatCalendarDay;
@@ -25,10 +25,12 @@ export function VerdictBadge({ verdict, notMeasured = 0, size = "sm" }: { verdic
   const big = size === "lg" ? "px-3 py-1 text-base" : "px-1.5 py-0.5 text-xs";
   if (!verdict) return <span className={`inline-block rounded border border-dashed border-rule font-semibold text-graphite-soft ${big}`} data-testid="verdict">No readings yet</span>;
   const look = VERDICT_LOOK[verdict];
+  const [head, tail] = recordVerdictParts(verdict, notMeasured);
+  // Each part stays on one line; in a narrow column what is missing goes under the verdict.
   return (
-    <span className={`inline-flex items-center gap-1 rounded border font-semibold ${look.cls} ${big}`} data-testid="verdict" data-verdict={verdict}>
-      <span aria-hidden="true">{look.mark}</span>
-      {recordVerdictText(verdict, notMeasured)}
+    <span className={`inline-flex flex-wrap items-center gap-x-1 rounded border font-semibold ${look.cls} ${big}`} data-testid="verdict" data-verdict={verdict}>
+      <span className="whitespace-nowrap"><span aria-hidden="true">{look.mark}</span> {head}</span>
+      {tail && <span className="whitespace-nowrap">{tail}</span>}
     </span>
   );
 }

@@ -17,10 +17,16 @@ export const SPEC_VERDICT_LABELS: Record<SpecVerdict, string> = { within: "Withi
  * and says the rest after it.
  */
 export function recordVerdictText(verdict: RecordVerdict, notMeasured = 0): string {
+  const [head, tail] = recordVerdictParts(verdict, notMeasured);
+  return tail ? `${head} ${tail}` : head;
+}
+
+/** recordVerdictText in two parts, so a badge can keep each part on one line: ["Incomplete:", "1 spec not measured"]. */
+export function recordVerdictParts(verdict: RecordVerdict, notMeasured = 0): [string, string | null] {
   const missing = `${notMeasured} spec${notMeasured === 1 ? "" : "s"} not measured`;
-  if (verdict === "incomplete") return `${RECORD_VERDICT_LABELS.incomplete}: ${missing}`;
-  if (verdict === "out" && notMeasured > 0) return `${RECORD_VERDICT_LABELS.out}; ${missing}`;
-  return RECORD_VERDICT_LABELS[verdict];
+  if (verdict === "incomplete") return [`${RECORD_VERDICT_LABELS.incomplete}:`, missing];
+  if (verdict === "out" && notMeasured > 0) return [`${RECORD_VERDICT_LABELS.out};`, missing];
+  return [RECORD_VERDICT_LABELS[verdict], null];
 }
 
 /** How the filing or amending confirmation shows the verdict: red for out of spec, brass for incomplete. */
