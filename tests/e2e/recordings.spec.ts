@@ -99,14 +99,14 @@ test("a builder uploads a video, marks a moment with the keyboard, seeks by the 
   await expect(span.getByTestId("mark-time")).toHaveText("0:05.0 – 0:10.0");
   await expect(page.locator(".br-mark-ticks .br-tick")).toHaveCount(2);
 
-  // Readings: a torque / clamp-load pair by label and pass; a bad line keeps what was typed.
+  // Readings: a torque / clamp-load pair by stud and pass; a bad line keeps what was typed.
   const grid = page.getByTestId("readings-grid");
   await grid.getByLabel("Line 1 value").fill("110");
-  await grid.getByLabel("Line 1 label").fill("stud 4");
+  await grid.getByLabel("Line 1 stud no.").fill("4");
   await grid.getByLabel("Line 1 pass").fill("3");
   await grid.getByRole("button", { name: "Line 1: use current time" }).click();
   await grid.getByLabel("Line 2 quantity").selectOption("clamp-load");
-  await grid.getByLabel("Line 2 label").fill("stud 4");
+  await grid.getByLabel("Line 2 stud no.").fill("4");
   await grid.getByLabel("Line 2 pass").fill("3");
   await page.getByTestId("save-readings").click();
   await expect(grid.getByRole("alert")).toContainText("Enter the value as a number.");
@@ -122,9 +122,9 @@ test("a builder uploads a video, marks a moment with the keyboard, seeks by the 
 
   const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("readings-csv").click()]);
   const csv = fs.readFileSync(await download.path(), "utf8");
-  expect(csv.split("\n")[0]).toBe("time_s,quantity,label,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
-  expect(csv).toContain("Torque,stud 4,110,N.m,110");
-  expect(csv).toContain("Clamp load,stud 4,51,kN,51000");
+  expect(csv.split("\n")[0]).toBe("time_s,quantity,label,fastener,cylinder,journal,depth,depth_unit,angle_deg,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
+  expect(csv).toContain("Torque,,4,,,,,,110,N.m,110");
+  expect(csv).toContain("Clamp load,,4,,,,,,51,kN,51000");
 
   // ?t= opens the player at that second.
   await page.goto(`${new URL(page.url()).pathname}?t=8.5`);
@@ -391,4 +391,54 @@ test("the shop's everyday screens say things in the shop's words", async ({ page
   await signIn(page, "jamie@larkspur.example");
   await page.goto("/test-records/new");
   expect(await developerWords(page)).toEqual([]);
+});
+
+test("bore readings carry cylinder, depth and angle, the lines keep what was chosen, and Bore distortion opens them", async ({ page }) => {
+  await signIn(page);
+  await page.goto("/recordings");
+  await page.getByTestId("recording-card").filter({ hasText: "Head stud clamp-load test" }).getByRole("link").first().click();
+  const grid = page.getByTestId("readings-grid");
+  const cyl = String(5 + Math.floor(Math.random() * 15));
+  const bore = async (line: number, depth: string, angle: string, value: string) => {
+    await grid.getByLabel(`Line ${line} quantity`).selectOption("bore-diameter");
+    await grid.getByLabel(`Line ${line} cylinder`).fill(cyl);
+    await grid.getByLabel(`Line ${line} depth below deck`).fill(depth);
+    await grid.getByLabel(`Line ${line} angle (°)`).fill(angle);
+    await grid.getByLabel(`Line ${line} value`).fill(value);
+  };
+  // A bore line has no stud; its fields and placeholders are a bore's.
+  await grid.getByLabel("Line 1 quantity").selectOption("bore-diameter");
+  await expect(grid.getByLabel("Line 1 stud no.")).toHaveCount(0);
+  await expect(grid.getByLabel("Line 1 label")).toHaveAttribute("placeholder", "plate on, hot");
+  await bore(1, "12", "0", "88.012");
+  await bore(2, "12", "90", "88.004");
+  await bore(3, "45", "0", "88.010");
+  await page.getByRole("button", { name: "Add a line" }).click();
+  await grid.getByLabel("Line 4 cylinder").fill(cyl);
+  await grid.getByLabel("Line 4 depth below deck").fill("45");
+  await grid.getByLabel("Line 4 angle (°)").fill("90");
+  await grid.getByLabel("Line 4 value").fill("88.006");
+  await page.getByRole("button", { name: "Add a line" }).click();
+  await grid.getByLabel("Line 5 quantity").selectOption("clearance");
+  await expect(grid.getByLabel("Line 5 journal")).toBeVisible();
+  await page.getByTestId("save-readings").click();
+  const rows = page.getByTestId("reading-row").filter({ hasText: `cyl ${cyl} ·` });
+  await expect(rows).toHaveCount(4);
+  await expect(rows.filter({ hasText: `cyl ${cyl} · 45 mm down · 90°` })).toContainText("88.006 mm");
+  // The saved lines are empty for the next readings but keep the quantity and cylinder; the line not sent is as it was.
+  for (const line of [1, 2, 3, 4]) {
+    await expect(grid.getByLabel(`Line ${line} quantity`)).toHaveValue("bore-diameter");
+    await expect(grid.getByLabel(`Line ${line} cylinder`)).toHaveValue(cyl);
+    await expect(grid.getByLabel(`Line ${line} value`)).toHaveValue("");
+  }
+  await expect(grid.getByLabel("Line 5 quantity")).toHaveValue("clearance");
+  await shot(page, "readings-bore");
+
+  await page.getByRole("link", { name: `Open cyl ${cyl} in Bore distortion` }).click();
+  await expect(page.getByTestId("bore-source")).toContainText(`Readings of cylinder ${cyl} from Head stud clamp-load test`);
+  await expect(page.locator('input[name="depths"]')).toHaveValue("12, 45");
+  await expect(page.locator('input[name="angles"]')).toHaveValue("0, 90");
+  await expect(page.locator('input[name="m.0.0"]')).toHaveValue("88.012");
+  await expect(page.locator('input[name="m.1.1"]')).toHaveValue("88.006");
+  await expect(page.getByTestId("calc-result").first()).toBeVisible();
 });

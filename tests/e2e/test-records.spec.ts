@@ -62,8 +62,15 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
   await page.getByLabel("Engine serial").fill("LX23-0412");
   const bore = page.getByTestId("spec-readings").filter({ hasText: "Bore diameter, plate fitted" });
   await bore.getByLabel("Bore diameter, plate fitted reading 1", { exact: true }).fill("88.004");
-  await bore.getByLabel("Bore diameter, plate fitted reading 1 where").fill("cyl 1, 10 mm down, 0°");
+  // Where it was read, in the fields a bore spec takes (issue 14 §2); the next line keeps the cylinder.
+  await bore.getByLabel("Bore diameter, plate fitted reading 1 cylinder").fill("1");
+  await bore.getByLabel("Bore diameter, plate fitted reading 1 depth below deck").fill("10");
+  await bore.getByLabel("Bore diameter, plate fitted reading 1 angle (°)").fill("0");
   await bore.getByRole("button", { name: "+ Another reading" }).click();
+  await expect(bore.getByLabel("Bore diameter, plate fitted reading 2 cylinder")).toHaveValue("1");
+  await bore.getByLabel("Bore diameter, plate fitted reading 2 depth below deck").fill("10");
+  await bore.getByLabel("Bore diameter, plate fitted reading 2 angle (°)").fill("90");
+  await expect(page.getByTestId("spec-readings").filter({ hasText: "Piston-to-wall" }).getByLabel("Piston-to-wall, forged 2618 in iron liner reading 1 depth below deck")).toHaveCount(0);
   await bore.getByLabel("Bore diameter, plate fitted reading 2", { exact: true }).fill("3.4655");
   await bore.getByLabel("Bore diameter, plate fitted reading 2 unit").selectOption("in");
   await expect(bore.getByTestId("reading-verdict").nth(1)).toHaveText("above max");
@@ -84,6 +91,8 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
   const rows = page.getByTestId("spec-row").filter({ hasText: "Bore diameter" });
   await expect(rows).toContainText("3.4645 in");
   await expect(rows).toContainText("87.9983 mm");
+  await expect(rows).toContainText("cyl 1, 10 mm down, 0°");
+  await expect(rows).toContainText("cyl 1, 10 mm down, 90°");
 
   await page.getByRole("link", { name: proc.title }).first().click();
   await expect(page.getByTestId("procedure-test-records")).toContainText(wo);

@@ -4,7 +4,7 @@
 import fs from "node:fs";
 import { beforeAll, describe, expect, it } from "vitest";
 import { and, asc, eq, sql } from "drizzle-orm";
-import { readings, recordings, testRecordReadings, testRecords } from "~/db/schema";
+import { procedures, procedureSpecs, readings, recordings, testRecordReadings, testRecords } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { positionFieldsForSpec, positionFromLabel } from "~/lib/recordings/positions";
 import { createUser, http, type TestUser } from "../support/app";
@@ -165,5 +165,52 @@ describe("migration 0022: the place out of an old label", () => {
       const { rows } = await db().execute<{ f: string[] }>(sql`SELECT spec_position_fields(${quantity}, ${label}) AS f`);
       expect({ label, fields: rows[0].f }).toEqual({ label, fields: positionFieldsForSpec({ quantity, label }) });
     }
+  });
+});
+
+describe("test record entry with positions", () => {
+  async function demoBoreSpec() {
+    const [p] = await db().select().from(procedures).where(eq(procedures.slug, "torque-plate-honing-iron-lined-block"));
+    const [spec] = await db().select().from(procedureSpecs).where(and(eq(procedureSpecs.revisionId, p.publishedRevisionId!), eq(procedureSpecs.specKey, "bore-dia")));
+    return { slug: p.slug, revisionId: p.publishedRevisionId!, spec };
+  }
+  const form = (revisionId: string, extra: Record<string, string>) => ({
+    revisionId,
+    title: "Bore finish, positions",
+    workOrder: `LEW-24-${String(1000 + Math.floor(Math.random() * 8999))}`,
+    engineSerial: "LX23-0412",
+    testedOn: new Date().toISOString().slice(0, 10),
+    notes: "",
+    ...extra,
+  });
+
+  it("files a bore reading's cylinder, depth and angle, and shows them on the record", async () => {
+    const qc = await createUser("qc");
+    const { slug, revisionId, spec } = await demoBoreSpec();
+    const b = `r.${spec.id}.0`;
+    const res = await http(`/test-records/new?procedure=${slug}`, {
+      cookie: qc.cookie,
+      form: form(revisionId, { [`${b}.value`]: "88.006", [`${b}.unit`]: "mm", [`${b}.cylinder`]: "2", [`${b}.depth`]: "0.5", [`${b}.depthUnit`]: "in", [`${b}.angle`]: "45", [`${b}.note`]: "plate on" }),
+    });
+    expect(res.status).toBe(302);
+    const id = /\/test-records\/([0-9a-f-]{36})/.exec(res.headers.get("location") ?? "")![1];
+    const [row] = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id));
+    expect(row).toMatchObject({ cylinder: 2, depthM: expect.closeTo(0.0127, 12), depthUnit: "in", angleDeg: 45, note: "plate on", fastener: null, journal: null });
+    const page = (await (await http(`/test-records/${id}`, { cookie: qc.cookie })).text()).replaceAll("<!-- -->", "");
+    expect(page).toContain("cyl 2, 0.5 in down, 45°, plate on");
+  });
+
+  it("answers the form with the field's error for an angle past 360° or a cylinder that is no whole number", async () => {
+    const qc = await createUser("qc");
+    const { slug, revisionId, spec } = await demoBoreSpec();
+    const b = `r.${spec.id}.0`;
+    const res = await http(`/test-records/new?procedure=${slug}`, {
+      cookie: qc.cookie,
+      form: form(revisionId, { [`${b}.value`]: "88.006", [`${b}.unit`]: "mm", [`${b}.cylinder`]: "2b", [`${b}.angle`]: "400" }),
+    });
+    expect(res.status).toBe(400);
+    const page = (await res.text()).replaceAll("<!-- -->", "");
+    expect(page).toContain("An angle runs from 0 to 360°.");
+    expect(page).toContain("A cylinder number from 1 to 24.");
   });
 });

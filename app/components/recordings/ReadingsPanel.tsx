@@ -429,7 +429,9 @@ function AddGrid({ recordingId, currentTime }: { recordingId: string; currentTim
   const fetcher = useFetcher({ key: `readings-add-${batch}` });
   const [sent, setSent] = useState<number[] | null>(null);
   const errors = fetcher.state === "idle" ? issuesByPath(fetcher.data) : {};
-  const filled = rows.map((r, i) => ({ r, i })).filter(({ r }) => r.value.trim() !== "" || r.label.trim() !== "");
+  // A line is a reading once something of its own is typed; the cylinder, quantity and pass a
+  // saved line keeps for the next reading do not make it one.
+  const filled = rows.map((r, i) => ({ r, i })).filter(({ r }) => [r.value, r.label, r.fastener, r.journal, r.depth, r.angle].some((x) => x.trim() !== ""));
 
   useEffect(() => {
     if (sent && fetcher.state === "idle" && fetcher.data && !(fetcher.data as { issues?: unknown }).issues) {

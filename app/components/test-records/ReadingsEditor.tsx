@@ -1,13 +1,45 @@
 import { useMemo, useState } from "react";
 import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
-import { quantityDef } from "~/lib/recordings/rules";
+import { DEPTH_UNITS, depthEntered, positionFieldsForSpec, positionText, quantityDef, type Position, type PositionField } from "~/lib/recordings/rules";
 import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
 import { fmtNum, ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
 import { limitsText, unitText } from "./units";
 
 export type EditorSpec = SpecLimits & { note: string };
-type Row = { value: string; unit: string; note: string; src: string };
-export type PullReading = { id: string; quantity: string; label: string; valueEntered: number; unitEntered: string; t: number | null };
+type Row = { value: string; unit: string; note: string; src: string } & Record<PlaceKey, string>;
+export type PullReading = { id: string; quantity: string; label: string; valueEntered: number; unitEntered: string; t: number | null } & Partial<Position>;
+
+/** The place of a row, as the form's fields r.<specId>.<i>.<key> (depthUnit: mm or in). */
+const PLACE_KEYS = ["fastener", "cylinder", "journal", "depth", "depthUnit", "angle"] as const;
+type PlaceKey = (typeof PLACE_KEYS)[number];
+
+const blankRow = (unit: string, keep?: Partial<Row>): Row => ({
+  value: "",
+  unit,
+  note: "",
+  src: "",
+  fastener: "",
+  cylinder: keep?.cylinder ?? "",
+  journal: "",
+  depth: "",
+  depthUnit: keep?.depthUnit || "mm",
+  angle: "",
+});
+
+/** A stored place as the row's text fields (a recording's reading pulled in, or a filed one). */
+export function placeFields(p: Partial<Position>): Record<PlaceKey, string> {
+  const depth = depthEntered({ depthM: p.depthM ?? null, depthUnit: p.depthUnit ?? null });
+  const str = (x: number | null | undefined) => (x == null ? "" : String(x));
+  return { fastener: str(p.fastener), cylinder: str(p.cylinder), journal: str(p.journal), depth: depth ? String(depth.value) : "", depthUnit: depth?.unit ?? "mm", angle: str(p.angleDeg) };
+}
+
+const PLACE_UI: Record<PositionField, { label: string; placeholder: string; width: string }> = {
+  fastener: { label: "Stud no.", placeholder: "4", width: "w-16" },
+  cylinder: { label: "Cylinder", placeholder: "2", width: "w-16" },
+  journal: { label: "Journal", placeholder: "3", width: "w-16" },
+  depth: { label: "Depth below deck", placeholder: "20", width: "w-20" },
+  angle: { label: "Angle (°)", placeholder: "90", width: "w-16" },
+};
 
 /** Rows from posted values (r.<specId>.<i>.value …) or from stored readings. */
 export function rowsFromValues(specs: EditorSpec[], values: Record<string, string> | undefined): Record<string, Row[]> {
@@ -20,7 +52,11 @@ export function rowsFromValues(specs: EditorSpec[], values: Record<string, strin
   }
   for (const s of specs) {
     const is = [...(idx.get(s.id) ?? [])].sort((a, b) => a - b);
-    out[s.id] = is.map((i) => ({ value: values[`r.${s.id}.${i}.value`] ?? "", unit: values[`r.${s.id}.${i}.unit`] || s.unit, note: values[`r.${s.id}.${i}.note`] ?? "", src: values[`r.${s.id}.${i}.src`] ?? "" }));
+    out[s.id] = is.map((i) => {
+      const row = blankRow(values[`r.${s.id}.${i}.unit`] || s.unit);
+      for (const k of ["value", "note", "src", ...PLACE_KEYS] as const) row[k] = values[`r.${s.id}.${i}.${k}`] ?? row[k];
+      return row;
+    });
   }
   return out;
 }
@@ -39,7 +75,7 @@ export function ReadingsEditor({
   pull?: PullReading[];
 }) {
   const [rows, setRows] = useState<Record<string, Row[]>>(() =>
-    Object.fromEntries(specs.map((s) => [s.id, initial[s.id]?.length ? initial[s.id] : [{ value: "", unit: s.unit, note: "", src: "" }]])),
+    Object.fromEntries(specs.map((s) => [s.id, initial[s.id]?.length ? initial[s.id] : [blankRow(s.unit)]])),
   );
   const [used, setUsed] = useState<Set<string>>(() => new Set(Object.values(initial).flat().map((r) => r.src).filter(Boolean)));
 
@@ -49,14 +85,14 @@ export function ReadingsEditor({
     setRows((prev) => {
       const s = specs.find((x) => x.id === specId)!;
       const list = prev[specId].filter((r) => r.value.trim() !== "" || r.note.trim() !== "");
-      return { ...prev, [specId]: [...list, { value: "", unit: list.at(-1)?.unit ?? s.unit, note: "", src: "", ...row }] };
+      return { ...prev, [specId]: [...list, { ...blankRow(list.at(-1)?.unit ?? s.unit, list.at(-1)), ...row }] };
     });
   const remove = (specId: string, i: number) =>
     setRows((prev) => {
       const gone = prev[specId][i];
       if (gone?.src) setUsed((u) => new Set([...u].filter((x) => x !== gone.src)));
       const next = prev[specId].filter((_, j) => j !== i);
-      return { ...prev, [specId]: next.length ? next : [{ value: "", unit: specs.find((x) => x.id === specId)!.unit, note: "", src: "" }] };
+      return { ...prev, [specId]: next.length ? next : [blankRow(specs.find((x) => x.id === specId)!.unit)] };
     });
 
   const evaluation = useMemo(() => {
@@ -84,22 +120,24 @@ export function ReadingsEditor({
           <p className="text-sm text-graphite-soft">Pull a reading into the spec it belongs to; it keeps a link to its moment.</p>
           <ul className="mt-2 divide-y divide-rule/60 text-sm">
             {pull.map((p) => {
-              const fits = specs.filter((s) => s.quantity === p.quantity);
+              // A reading fits a spec of its kind of unit (a bore diameter fits a length spec).
+              const fits = specs.filter((s) => s.quantity === quantityDef(p.quantity)?.kind);
+              const where = positionText(p);
               return (
                 <li key={p.id} className="flex flex-wrap items-center gap-2 py-1.5" data-testid="pull-reading">
                   <span className="num w-14 text-graphite-soft">{p.t != null ? clock(p.t) : "—"}</span>
                   <span className="num font-semibold">{fmtNum(p.valueEntered)} {unitText(p.unitEntered)}</span>
-                  <span className="min-w-0 flex-1 truncate">{p.label}</span>
+                  <span className="min-w-0 flex-1 truncate">{[where, p.label].filter(Boolean).join(" · ")}</span>
                   {used.has(p.id) ? (
                     <span className="text-graphite-soft">pulled in</span>
                   ) : fits.length ? (
                     <select
                       className="field w-auto py-1 text-sm"
-                      aria-label={`Pull ${p.label || "reading"} into spec`}
+                      aria-label={`Pull ${[where, p.label].filter(Boolean).join(", ") || "reading"} into spec`}
                       value=""
                       onChange={(e) => {
                         if (!e.target.value) return;
-                        add(e.target.value, { value: String(p.valueEntered), unit: p.unitEntered, note: p.label, src: p.id });
+                        add(e.target.value, { value: String(p.valueEntered), unit: p.unitEntered, note: p.label, src: p.id, ...placeFields(p) });
                         setUsed((u) => new Set(u).add(p.id));
                       }}
                     >
@@ -119,6 +157,7 @@ export function ReadingsEditor({
       {specs.map((s) => {
         const ev = evaluation.specs.find((e) => e.spec.id === s.id)!;
         const kind = s.quantity as UnitKind;
+        const places = positionFieldsForSpec(s);
         return (
           <fieldset key={s.id} className="card p-4" data-testid="spec-readings" data-spec={s.label}>
             <legend className="sr-only">{s.label}</legend>
@@ -144,32 +183,63 @@ export function ReadingsEditor({
                     verdict = null;
                   }
                 }
-                const err = errors[`${base}.value`] ?? errors[`${base}.unit`];
+                const err = [...new Set(["value", "unit", ...places].map((f) => errors[`${base}.${f}`]).filter(Boolean))].join(" ");
                 return (
                   <div key={i}>
-                    <div className="grid grid-cols-[minmax(6rem,9rem)_6.5rem_minmax(0,1fr)_auto] items-center gap-2 max-sm:grid-cols-[1fr_6rem_auto]">
-                      <input
-                        name={`${base}.value`}
-                        inputMode="decimal"
-                        autoComplete="off"
-                        className="field num text-right"
-                        aria-label={`${s.label} reading ${i + 1}`}
-                        aria-invalid={err ? true : undefined}
-                        value={r.value}
-                        onChange={(e) => set(s.id, i, { value: e.target.value })}
-                      />
-                      <select name={`${base}.unit`} className="field" aria-label={`${s.label} reading ${i + 1} unit`} value={r.unit} onChange={(e) => set(s.id, i, { unit: e.target.value })}>
-                        {(UNIT_OPTIONS[kind] ?? []).map((u) => <option key={u.code} value={u.code}>{u.label}</option>)}
-                      </select>
-                      <input
-                        name={`${base}.note`}
-                        className="field max-sm:col-span-2 max-sm:row-start-2"
-                        placeholder="where: cyl 2, 20 mm down, 90°"
-                        aria-label={`${s.label} reading ${i + 1} where`}
-                        value={r.note}
-                        onChange={(e) => set(s.id, i, { note: e.target.value })}
-                      />
-                      <div className="flex items-center gap-2 whitespace-nowrap max-sm:row-start-2">
+                    <div className="flex flex-wrap items-end gap-x-3 gap-y-2" data-testid="spec-reading-row">
+                      <Small label="Value" htmlFor={`${base}.value`}>
+                        <div className="flex gap-1">
+                          <input
+                            id={`${base}.value`}
+                            name={`${base}.value`}
+                            inputMode="decimal"
+                            autoComplete="off"
+                            className="field num w-28 text-right"
+                            aria-label={`${s.label} reading ${i + 1}`}
+                            aria-invalid={errors[`${base}.value`] ? true : undefined}
+                            value={r.value}
+                            onChange={(e) => set(s.id, i, { value: e.target.value })}
+                          />
+                          <select name={`${base}.unit`} className="field w-auto" aria-label={`${s.label} reading ${i + 1} unit`} value={r.unit} onChange={(e) => set(s.id, i, { unit: e.target.value })}>
+                            {(UNIT_OPTIONS[kind] ?? []).map((u) => <option key={u.code} value={u.code}>{u.label}</option>)}
+                          </select>
+                        </div>
+                      </Small>
+                      {places.map((f) => (
+                        <Small key={f} label={PLACE_UI[f].label} htmlFor={`${base}.${f}`}>
+                          <div className="flex gap-1">
+                            <input
+                              id={`${base}.${f}`}
+                              name={`${base}.${f}`}
+                              inputMode={f === "depth" || f === "angle" ? "decimal" : "numeric"}
+                              autoComplete="off"
+                              className={`field num ${PLACE_UI[f].width} text-right`}
+                              placeholder={PLACE_UI[f].placeholder}
+                              aria-label={`${s.label} reading ${i + 1} ${PLACE_UI[f].label.toLowerCase()}`}
+                              aria-invalid={errors[`${base}.${f}`] ? true : undefined}
+                              value={r[f]}
+                              onChange={(e) => set(s.id, i, { [f]: e.target.value })}
+                            />
+                            {f === "depth" && (
+                              <select name={`${base}.depthUnit`} className="field w-auto" aria-label={`${s.label} reading ${i + 1} depth unit`} value={r.depthUnit} onChange={(e) => set(s.id, i, { depthUnit: e.target.value })}>
+                                {DEPTH_UNITS.map((u) => <option key={u} value={u}>{unitText(u)}</option>)}
+                              </select>
+                            )}
+                          </div>
+                        </Small>
+                      ))}
+                      <Small label="Note" htmlFor={`${base}.note`} className="min-w-40 flex-1">
+                        <input
+                          id={`${base}.note`}
+                          name={`${base}.note`}
+                          className="field"
+                          placeholder={places.length ? "plate on, re-check" : "where and how it was read"}
+                          aria-label={`${s.label} reading ${i + 1} note`}
+                          value={r.note}
+                          onChange={(e) => set(s.id, i, { note: e.target.value })}
+                        />
+                      </Small>
+                      <div className="flex items-center gap-2 whitespace-nowrap pb-2">
                         <span className="inline-block w-20 text-right">{verdict ? <ReadingVerdictTag verdict={verdict.verdict} /> : <span className="text-sm text-graphite-soft">—</span>}</span>
                         <button type="button" className="text-sm text-graphite-soft underline-offset-2 hover:underline" onClick={() => remove(s.id, i)} aria-label={`Remove ${s.label} reading ${i + 1}`}>
                           Remove
@@ -197,6 +267,16 @@ export function ReadingsEditor({
         </div>
         <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
       </div>
+    </div>
+  );
+}
+
+/** A field with its small label above, so a reading's row can wrap on a tablet. */
+function Small({ label, htmlFor, className = "", children }: { label: string; htmlFor: string; className?: string; children: React.ReactNode }) {
+  return (
+    <div className={`flex flex-col ${className}`}>
+      <label htmlFor={htmlFor} className="mb-0.5 text-xs font-semibold text-graphite-soft">{label}</label>
+      {children}
     </div>
   );
 }

@@ -7,7 +7,7 @@ import { z } from "zod";
 import { unitKind } from "~/lib/calc";
 import { isRealDate, isUuid, quantityProblem } from "~/lib/edge";
 import type { FieldErrors } from "~/lib/forms";
-import { positionFieldsForSpec, positionInputSchema, positionIssues, storedPosition, type Position, type PositionField } from "~/lib/recordings/positions";
+import { positionFieldsForSpec, positionFromLabel, positionInputSchema, positionIssues, storedPosition, type Position, type PositionField } from "~/lib/recordings/positions";
 import { readingVerdict, VerdictInputError, type SpecLimits } from "./verdict";
 
 export type TypedReading = { value: number; unit: string; note: string; position: Position; sourceReadingId: string | null };
@@ -124,7 +124,9 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
       }
       throw err;
     }
-    (readings[specId] ??= []).push({ value, unit, note, position: where.position, sourceReadingId: src === "" ? null : src });
+    // A form sent the old way, the place written in the note, gets it in the fields as the readings API does.
+    const typed = Object.values(where.position).every((v) => v == null) ? positionFromLabel(positionFieldsForSpec(spec), note) : { position: where.position, label: note };
+    (readings[specId] ??= []).push({ value, unit, note: typed.label, position: typed.position, sourceReadingId: src === "" ? null : src });
     count++;
   }
   return { readings, errors, count };

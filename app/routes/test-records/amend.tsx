@@ -5,7 +5,7 @@ import { idParams } from "~/lib/edge";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { VerdictBadge } from "~/components/test-records/parts";
-import { ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
+import { placeFields, ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
 import { requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm, type FieldErrors } from "~/lib/forms";
@@ -28,7 +28,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   for (const r of view.readings) {
     values[`r.${r.specId}.${r.position}.value`] = String(r.valueEntered);
     values[`r.${r.specId}.${r.position}.unit`] = r.unitEntered;
-    values[`r.${r.specId}.${r.position}.note`] = r.note;
+    values[`r.${r.specId}.${r.position}.note`] = r.noteText;
+    for (const [k, v] of Object.entries(placeFields(r))) values[`r.${r.specId}.${r.position}.${k}`] = v;
     if (r.sourceReadingId) values[`r.${r.specId}.${r.position}.src`] = r.sourceReadingId;
   }
   return {
