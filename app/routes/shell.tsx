@@ -25,8 +25,13 @@ function useFocusMainOnNavigation() {
       first.current = false;
       return;
     }
-    const active = document.activeElement;
-    if (!active || active === document.body) document.getElementById("main")?.focus({ preventScroll: true });
+    // A frame later: the control that led here (a search hit in a closing list) may go only
+    // after the new page is in.
+    const frame = requestAnimationFrame(() => {
+      const active = document.activeElement;
+      if (!active || active === document.body) document.getElementById("main")?.focus({ preventScroll: true });
+    });
+    return () => cancelAnimationFrame(frame);
   }, [key]);
 }
 
