@@ -1284,6 +1284,18 @@ export class MeiliIndex {
   ): ((a: number, b: number) => number) | null {
     const parts: ((a: number, b: number) => number)[] = [];
     const sortKeys = (field: string, asc: boolean) => {
+      // A top-level number in every candidate (a custom rule such as `kindWeight:desc`, applied
+      // to every query): compared from a typed array, without a key object per candidate.
+      if (!field.includes(".")) {
+        const nums = new Float64Array(cn);
+        let i = 0;
+        for (; i < cn; i++) {
+          const v = this.docs[cand[i]]![field];
+          if (typeof v !== "number") break;
+          nums[i] = v;
+        }
+        if (i === cn) return asc ? (a: number, b: number) => nums[a] - nums[b] : (a: number, b: number) => nums[b] - nums[a];
+      }
       const keys: SortValue[] = new Array(cn);
       for (let i = 0; i < cn; i++) keys[i] = sortKey(this.docs[cand[i]]!, field, asc);
       return (a: number, b: number) => compareSortKeys(keys[a], keys[b], asc);
