@@ -312,6 +312,7 @@ test("a Video moment takes its time from a mark of the chosen recording, or from
 });
 
 test("clicking below the last block gives a place to type, and a new block goes where the cursor is", async ({ page }) => {
+  await page.setViewportSize({ width: 1366, height: 900 });
   const editor = await newDraft(page, `Cursor and blocks ${stamp}`);
   // Start from an empty page rather than the starter headings.
   await editor.locator("p").first().click();
@@ -329,13 +330,18 @@ test("clicking below the last block gives a place to type, and a new block goes 
   await page.mouse.click(box.x + box.width / 2, box.y + box.height - 12);
   await page.keyboard.type("After the spec.");
   expect(await outline(page)).toEqual(["p:First step.", "p:Second step.", "spec", "p:After the spec."]);
-  // A block inserted with the cursor at the end of the first step lands right after it.
-  await editor.getByText("First step.").click();
-  await page.keyboard.press("End");
+  // Beside the text, in the card's blank space to its right (desktop width), at the height of the first step.
+  const first = (await editor.getByText("First step.").boundingBox())!;
+  const card = (await page.locator(".proc-editor").boundingBox())!;
+  expect(card.x + card.width - (box.x + box.width)).toBeGreaterThan(40);
+  await page.mouse.click(card.x + card.width - 20, first.y + first.height / 2);
+  await page.keyboard.type(" Wipe dry.");
+  await expect(editor.locator("p").first()).toHaveText("First step. Wipe dry.");
+  // A block inserted with the cursor at the end of the first step (where the typing above left it) lands right after it.
   await page.getByRole("button", { name: "Video moment" }).click();
-  expect(await outline(page)).toEqual(["p:First step.", "videoMoment", "p:", "p:Second step.", "spec", "p:After the spec."]);
+  expect(await outline(page)).toEqual(["p:First step. Wipe dry.", "videoMoment", "p:", "p:Second step.", "spec", "p:After the spec."]);
   // Typing carries on right below the new block.
   await page.keyboard.type("Then watch the clip.");
-  expect(await outline(page)).toEqual(["p:First step.", "videoMoment", "p:Then watch the clip.", "p:Second step.", "spec", "p:After the spec."]);
+  expect(await outline(page)).toEqual(["p:First step. Wipe dry.", "videoMoment", "p:Then watch the clip.", "p:Second step.", "spec", "p:After the spec."]);
   await expect(page.getByTestId("save-status")).toHaveText(/^Saved/, { timeout: 15_000 });
 });

@@ -60,9 +60,9 @@ function blockInsertPoint(editor: Editor): { at: number | { from: number; to: nu
  * A press in the blank space below the last block puts the cursor at the end, in the trailing
  * paragraph (made if the last block is not a paragraph), rather than wherever the browser guesses.
  */
-function writeBelowLastBlock(view: EditorView, event: MouseEvent): boolean {
+function writeBelowLastBlock(view: EditorView, event: MouseEvent, beside = false): boolean {
   const last = view.dom.lastElementChild;
-  if (event.target !== view.dom || event.button !== 0 || !last || event.clientY <= last.getBoundingClientRect().bottom) return false;
+  if ((!beside && event.target !== view.dom) || event.button !== 0 || !last || event.clientY <= last.getBoundingClientRect().bottom) return false;
   event.preventDefault();
   const { doc, schema } = view.state;
   const tr = view.state.tr;
@@ -71,6 +71,22 @@ function writeBelowLastBlock(view: EditorView, event: MouseEvent): boolean {
   view.dispatch(tr.scrollIntoView());
   view.focus();
   return true;
+}
+
+/** A press beside the text (right of its measure) acts as a press at the same height inside it. */
+function writeBeside(view: EditorView, event: MouseEvent) {
+  const rect = view.dom.getBoundingClientRect();
+  if (event.button !== 0 || event.clientX < rect.right) return;
+  event.preventDefault();
+  const last = view.dom.lastElementChild;
+  if (!last || event.clientY > last.getBoundingClientRect().bottom) {
+    writeBelowLastBlock(view, new MouseEvent("mousedown", { clientX: rect.left + 1, clientY: event.clientY }), true);
+    return;
+  }
+  const hit = view.posAtCoords({ left: rect.right - 28, top: event.clientY });
+  if (!hit) return;
+  view.dispatch(view.state.tr.setSelection(TextSelection.near(view.state.doc.resolve(hit.pos))));
+  view.focus();
 }
 
 /** The document position of the node at `path` (child indices from the top). */
@@ -422,7 +438,10 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
         )}
         <div className="proc-editor rounded-lg border border-rule bg-card shadow-sm">
           {editor ? <Toolbar editor={editor} procedureId={initial.procedureId} rememberTitle={rememberTitle} /> : <div className="h-10 border-b border-rule" />}
-          <EditorContent editor={editor} />
+          {/* The text keeps a reading measure; a press in the card's blank space beside it still reaches the text. */}
+          <div onMouseDown={(e) => editor && !editor.view.dom.contains(e.target as Node) && writeBeside(editor.view, e.nativeEvent)}>
+            <EditorContent editor={editor} />
+          </div>
           {!editor && <p className="p-6 text-graphite-soft">Loading the editor…</p>}
         </div>
         <Form ref={submitForm} method="post" action={submitTo} className="card flex flex-wrap items-end gap-3 p-4" onSubmit={onSubmit}>
