@@ -82,21 +82,24 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
   await oor.getByLabel("Out-of-round at any depth reading 1", { exact: true }).fill("4");
   await oor.getByLabel("Out-of-round at any depth reading 1 unit").selectOption("um");
   await expect(page.getByTestId("verdict-preview")).toContainText("2 within · 0 out · 1 not measured (Piston-to-wall, forged 2618)");
-  await expect(page.getByTestId("verdict-preview").getByTestId("verdict")).toHaveText(/Within spec/);
+  // A spec left unmeasured: the record is incomplete, never "Within spec".
+  await expect(page.getByTestId("verdict-preview").getByTestId("verdict")).toHaveText(/Incomplete: ?1 spec not measured/);
   await page.getByRole("button", { name: "File the test record" }).click();
 
-  await expect(page.getByTestId("flash")).toContainText(`Test record filed for ${wo}: Within spec.`);
-  await expect(page.getByRole("region", { name: "Verdict" }).getByTestId("verdict")).toHaveText(/Within spec/);
+  await expect(page.getByTestId("flash")).toContainText(`Test record filed for ${wo}: Incomplete: 1 spec not measured.`);
+  await expect(page.getByTestId("flash")).toHaveAttribute("data-kind", "caution");
+  await expect(page.getByRole("region", { name: "Verdict" }).getByTestId("verdict")).toHaveText(/Incomplete: ?1 spec not measured/);
   await expect(page.getByText("Not measured: Piston-to-wall, forged 2618.")).toBeVisible();
   const rows = page.getByTestId("spec-row").filter({ hasText: "Bore diameter" });
   await expect(rows).toContainText("3.4645 in");
-  await expect(rows).toContainText("87.9983 mm");
+  // 3.4645 in = 87.9983 mm, shown at the spec's 0.001 mm (0.0001 in is 0.00254 mm).
+  await expect(rows).toContainText("87.998 mm");
   await expect(rows).toContainText("cyl 1, 10 mm down, 0°");
   await expect(rows).toContainText("cyl 1, 10 mm down, 90°");
 
   await page.getByRole("link", { name: proc.title }).first().click();
   await expect(page.getByTestId("procedure-test-records")).toContainText(wo);
-  await expect(page.getByTestId("procedure-test-records").getByTestId("verdict")).toHaveText(/Within spec/);
+  await expect(page.getByTestId("procedure-test-records").getByTestId("verdict")).toHaveText(/Incomplete: ?1 spec not measured/);
 
   if (process.env.SHOTS_TR) {
     const dir = process.env.SHOTS_TR;
