@@ -294,6 +294,7 @@ test("opening a recording at ?t=5 shows the frame at 5 s, never the poster", asy
   await expect(page.locator(".vjs-poster img, .vjs-poster[style*='background-image']")).toHaveCount(0);
   await expect(page.getByTestId("player-time")).toContainText("0:05.0");
   expect(posters).toEqual([]);
+  await shot(page, "watch-at-5s");
 
   // Without a moment the poster is what shows first (so the check above means something).
   await openDemo(page);
