@@ -43,7 +43,7 @@ export function SpecVerdictTag({ verdict }: { verdict: SpecVerdict }) {
 
 export function ReadingVerdictTag({ verdict }: { verdict: ReadingVerdict }) {
   const cls = verdict === "below" || verdict === "above" ? "font-semibold text-spec-red" : verdict === "within" ? "text-ok" : "text-graphite-soft";
-  return <span className={`text-sm ${cls}`} data-testid="reading-verdict">{READING_VERDICT_LABELS[verdict]}</span>;
+  return <span className={`whitespace-nowrap text-sm ${cls}`} data-testid="reading-verdict">{READING_VERDICT_LABELS[verdict]}</span>;
 }
 
 export type RecordRow = {
