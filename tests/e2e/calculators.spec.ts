@@ -126,11 +126,14 @@ test("Preload: bench points are saved as readings on a recording, paired for its
   await panel.getByLabel("Recording").selectOption({ label: "Head stud clamp-load test, M12×1.5, moly lube (LEW-24-0117)" });
   const label = `calc point ${Date.now().toString(36)}`;
   await panel.getByLabel("Label (numbered)").fill(label);
+  await panel.getByLabel("Stud no. on the fixture (optional)").fill("7");
   await panel.getByRole("button", { name: "Save 6 readings" }).click();
   await expect(page.getByTestId("save-readings-done")).toContainText("Saved 6 readings");
   await page.getByTestId("save-readings-done").getByRole("link").click();
   await expect(page).toHaveURL(/\/recordings\/[0-9a-f-]+$/);
   await expect(page.getByText(`${label} 3`).first()).toBeVisible();
+  // The stud is in the readings' position field (issue 14 §2).
+  await expect(page.getByTestId("reading-row").filter({ hasText: `${label} 3` }).first().getByTestId("reading-where")).toContainText("stud 7");
   await expect(page.getByTestId("nut-factor-chart")).toBeVisible();
 });
 

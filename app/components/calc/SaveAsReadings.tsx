@@ -25,6 +25,7 @@ export function SaveAsReadings({
   const [recordingId, setRecordingId] = useState("");
   const [label, setLabel] = useState("bench point");
   const [pass, setPass] = useState("bench");
+  const [stud, setStud] = useState("");
   const [lubeText, setLube] = useState(lube);
   const [state, setState] = useState<{ kind: "idle" | "saving" } | { kind: "saved"; n: number; id: string; title: string } | { kind: "error"; message: string }>({ kind: "idle" });
 
@@ -46,9 +47,12 @@ export function SaveAsReadings({
   async function save() {
     setState({ kind: "saving" });
     const conditions = { pass, ...(lubeText ? { lube: lubeText } : {}) };
+    // The stud on the fixture goes in the readings' position field; a number the API refuses
+    // (not a whole number 1–200) comes back as its field error.
+    const fastener = stud.trim() === "" ? null : Number.isFinite(Number(stud)) ? Number(stud) : stud;
     const readings = points.flatMap((p, i) => [
-      { quantity: "torque", value: conv(p.torque_Nm, torqueUnit), unit: torqueUnit, label: `${label} ${i + 1}`, conditions },
-      { quantity: "clamp-load", value: conv(p.preload_N, forceUnit), unit: forceUnit, label: `${label} ${i + 1}`, conditions },
+      { quantity: "torque", value: conv(p.torque_Nm, torqueUnit), unit: torqueUnit, label: `${label} ${i + 1}`, fastener, conditions },
+      { quantity: "clamp-load", value: conv(p.preload_N, forceUnit), unit: forceUnit, label: `${label} ${i + 1}`, fastener, conditions },
     ]);
     try {
       const res = await fetch(`/api/recordings/${recordingId}/readings`, {
@@ -62,7 +66,7 @@ export function SaveAsReadings({
         setState({ kind: "saved", n: readings.length, id: recordingId, title });
       } else {
         const first = body?.issues?.[0];
-        setState({ kind: "error", message: first ? `${first.path}: ${first.message}` : (body?.reason ?? body?.error ?? `The server answered ${res.status}.`) });
+        setState({ kind: "error", message: first ? first.message : (body?.reason ?? body?.error ?? `The server answered ${res.status}.`) });
       }
     } catch {
       setState({ kind: "error", message: "The server could not be reached; nothing was saved. Try again." });
@@ -79,7 +83,7 @@ export function SaveAsReadings({
   return (
     <section className="rounded-md border border-rule bg-paper/60 p-3 text-sm" aria-label="Save as readings" data-testid="save-readings">
       <p className="mb-2 text-graphite-soft">
-        Each bench point becomes a torque reading ({unitLabel(torqueUnit as UnitCode)}) and a clamp-load reading ({unitLabel(forceUnit as UnitCode)}) with the same label and pass.
+        Each bench point becomes a torque reading ({unitLabel(torqueUnit as UnitCode)}) and a clamp-load reading ({unitLabel(forceUnit as UnitCode)}) with the same label, stud and pass.
       </p>
       {recordings && recordings.length === 0 && <p>No recordings yet. Upload the bench-test video first.</p>}
       {recordings && recordings.length > 0 && (
@@ -100,7 +104,11 @@ export function SaveAsReadings({
             <span className="label">Pass</span>
             <input className="field" value={pass} onChange={(e) => setPass(e.target.value)} maxLength={40} />
           </label>
-          <label className="sm:col-span-2">
+          <label>
+            <span className="label">Stud no. on the fixture (optional)</span>
+            <input className="field" inputMode="numeric" value={stud} onChange={(e) => setStud(e.target.value)} maxLength={4} placeholder="4" />
+          </label>
+          <label>
             <span className="label">Lube</span>
             <input className="field" value={lubeText} onChange={(e) => setLube(e.target.value)} maxLength={80} />
           </label>

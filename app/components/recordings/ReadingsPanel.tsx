@@ -3,6 +3,7 @@ import { Link, useFetcher, useFetchers } from "react-router";
 import { toSI } from "~/lib/calc";
 import {
   DEPTH_UNITS,
+  POSITION_FIELD_WORDS,
   QUANTITIES,
   boreCylinders,
   depthEntered,
@@ -293,13 +294,7 @@ function Cell({ label, htmlFor, children, className = "" }: { label: string; htm
   );
 }
 
-const POSITION_UI: Record<PositionField, { label: string; placeholder: string; width: string }> = {
-  fastener: { label: "Stud no.", placeholder: "4", width: "w-16" },
-  cylinder: { label: "Cylinder", placeholder: "3", width: "w-16" },
-  journal: { label: "Journal", placeholder: "2", width: "w-16" },
-  depth: { label: "Depth below deck", placeholder: "20", width: "w-20" },
-  angle: { label: "Angle (°)", placeholder: "90", width: "w-16" },
-};
+const FIELD_WIDTH: Record<PositionField, string> = { fastener: "w-16", cylinder: "w-16", journal: "w-16", depth: "w-20", angle: "w-16" };
 
 /**
  * One reading's fields: what and how much on the first line, where it was taken (the fields
@@ -339,7 +334,7 @@ function LineFields({ id, name, d, set, error, currentTime }: {
       </div>
       <div className="flex flex-wrap items-end gap-x-3 gap-y-2" data-testid="position-fields">
         {fits.map((f) => {
-          const ui = POSITION_UI[f];
+          const ui = { ...POSITION_FIELD_WORDS[f], width: FIELD_WIDTH[f] };
           const value = d[f];
           return (
             <Cell key={f} label={ui.label} htmlFor={`${id}-${f}`}>

@@ -1,6 +1,6 @@
 import { useMemo, useState } from "react";
 import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
-import { DEPTH_UNITS, depthEntered, positionFieldsForSpec, positionText, quantityDef, type Position, type PositionField } from "~/lib/recordings/rules";
+import { DEPTH_UNITS, POSITION_FIELD_WORDS, depthEntered, positionFieldsForSpec, positionText, quantityDef, type Position, type PositionField } from "~/lib/recordings/rules";
 import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
 import { fmtNum, ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
 import { limitsText, unitText } from "./units";
@@ -33,13 +33,7 @@ export function placeFields(p: Partial<Position>): Record<PlaceKey, string> {
   return { fastener: str(p.fastener), cylinder: str(p.cylinder), journal: str(p.journal), depth: depth ? String(depth.value) : "", depthUnit: depth?.unit ?? "mm", angle: str(p.angleDeg) };
 }
 
-const PLACE_UI: Record<PositionField, { label: string; placeholder: string; width: string }> = {
-  fastener: { label: "Stud no.", placeholder: "4", width: "w-16" },
-  cylinder: { label: "Cylinder", placeholder: "2", width: "w-16" },
-  journal: { label: "Journal", placeholder: "3", width: "w-16" },
-  depth: { label: "Depth below deck", placeholder: "20", width: "w-20" },
-  angle: { label: "Angle (°)", placeholder: "90", width: "w-16" },
-};
+const PLACE_WIDTH: Record<PositionField, string> = { fastener: "w-16", cylinder: "w-16", journal: "w-16", depth: "w-20", angle: "w-16" };
 
 /** Rows from posted values (r.<specId>.<i>.value …) or from stored readings. */
 export function rowsFromValues(specs: EditorSpec[], values: Record<string, string> | undefined): Record<string, Row[]> {
@@ -206,16 +200,16 @@ export function ReadingsEditor({
                         </div>
                       </Small>
                       {places.map((f) => (
-                        <Small key={f} label={PLACE_UI[f].label} htmlFor={`${base}.${f}`}>
+                        <Small key={f} label={POSITION_FIELD_WORDS[f].label} htmlFor={`${base}.${f}`}>
                           <div className="flex gap-1">
                             <input
                               id={`${base}.${f}`}
                               name={`${base}.${f}`}
                               inputMode={f === "depth" || f === "angle" ? "decimal" : "numeric"}
                               autoComplete="off"
-                              className={`field num ${PLACE_UI[f].width} text-right`}
-                              placeholder={PLACE_UI[f].placeholder}
-                              aria-label={`${s.label} reading ${i + 1} ${PLACE_UI[f].label.toLowerCase()}`}
+                              className={`field num ${PLACE_WIDTH[f]} text-right`}
+                              placeholder={POSITION_FIELD_WORDS[f].placeholder}
+                              aria-label={`${s.label} reading ${i + 1} ${POSITION_FIELD_WORDS[f].label.toLowerCase()}`}
                               aria-invalid={errors[`${base}.${f}`] ? true : undefined}
                               value={r[f]}
                               onChange={(e) => set(s.id, i, { [f]: e.target.value })}

@@ -55,6 +55,15 @@ export function positionFieldsForSpec(spec: { quantity: string; label: string })
   }
 }
 
+/** How each position field is named on a form, with an example for its placeholder. */
+export const POSITION_FIELD_WORDS: Record<PositionField, { label: string; placeholder: string }> = {
+  fastener: { label: "Stud no.", placeholder: "4" },
+  cylinder: { label: "Cylinder", placeholder: "3" },
+  journal: { label: "Journal", placeholder: "2" },
+  depth: { label: "Depth below deck", placeholder: "20" },
+  angle: { label: "Angle (°)", placeholder: "90" },
+};
+
 /** Units a depth below the deck is typed in. */
 export const DEPTH_UNITS = ["mm", "in"] as const;
 export type DepthUnit = (typeof DEPTH_UNITS)[number];
