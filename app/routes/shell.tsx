@@ -1,5 +1,4 @@
-import { useEffect, useRef } from "react";
-import { Outlet, useLocation } from "react-router";
+import { Outlet } from "react-router";
 import type { Route } from "./+types/shell";
 import { AppHeader, FlashBanner } from "~/components/AppHeader";
 import { FocusFirstError } from "~/components/forms";
@@ -12,32 +11,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { user };
 }
 
-/**
- * After a page change inside the app, a focus left on nothing (the link that had it went with
- * the old page) moves to the new page's content, so the next Tab goes on from there. A field
- * the page focuses itself, or a target it scrolls to, is left alone.
- */
-function useFocusMainOnNavigation() {
-  const { key } = useLocation();
-  const first = useRef(true);
-  useEffect(() => {
-    if (first.current) {
-      first.current = false;
-      return;
-    }
-    // A frame later: the control that led here (a search hit in a closing list) may go only
-    // after the new page is in.
-    const frame = requestAnimationFrame(() => {
-      const active = document.activeElement;
-      if (!active || active === document.body) document.getElementById("main")?.focus({ preventScroll: true });
-    });
-    return () => cancelAnimationFrame(frame);
-  }, [key]);
-}
-
 export default function Shell({ loaderData }: Route.ComponentProps) {
   const root = useRootData();
-  useFocusMainOnNavigation();
   return (
     <>
       <AppHeader user={loaderData.user} />
