@@ -1,4 +1,9 @@
+import path from "node:path";
 import { defineConfig } from "@playwright/test";
+
+// Each `npm test` run writes its traces and failure screenshots to a folder of its own
+// (test-results/<run id>), so two runs at once never delete each other's files.
+const runId = process.env.BENCHREEL_RUN_DIR ? path.basename(path.dirname(process.env.BENCHREEL_RUN_DIR)) : "manual";
 
 // Run through `npm test`, which starts the app and sets BASE_URL. Debian's chromium only.
 export default defineConfig({
@@ -10,7 +15,7 @@ export default defineConfig({
   timeout: 60_000,
   expect: { timeout: 10_000 },
   reporter: [["list"]],
-  outputDir: "../test-results",
+  outputDir: `../test-results/${runId}`,
   use: {
     baseURL: process.env.BENCHREEL_URL,
     trace: "retain-on-failure",
