@@ -3,11 +3,11 @@
 // taken out of the free label by migration 0022; Bore distortion opens a cylinder's readings.
 import fs from "node:fs";
 import { beforeAll, describe, expect, it } from "vitest";
-import { and, asc, eq, sql } from "drizzle-orm";
-import { procedures, procedureSpecs, readings, recordings, testRecordReadings, testRecords } from "~/db/schema";
+import { and, asc, eq, isNull, sql } from "drizzle-orm";
+import { procedures, procedureSpecs, readings, recordings, searchOutbox, testRecordReadings, testRecords } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { positionFieldsForSpec, positionFromLabel } from "~/lib/recordings/positions";
-import { createUser, http, type TestUser } from "../support/app";
+import { createUser, http, waitFor, type TestUser } from "../support/app";
 
 let builder: TestUser;
 let other: TestUser;
@@ -42,6 +42,18 @@ describe("readings API with positions", () => {
 
     const list = ((await (await http(url(), { cookie: other.cookie })).json()) as { readings: Row[] }).readings;
     expect(list.filter((r) => r.cylinder === 3)).toHaveLength(4);
+  });
+
+  it("is found by its place: “cyl 3” finds the recording's bore readings", async () => {
+    await waitFor(async () => {
+      const [r] = await db().select({ n: sql<number>`count(*)::int` }).from(searchOutbox).where(isNull(searchOutbox.doneAt));
+      return r.n === 0;
+    }, 20_000);
+    const res = await http(`/api/search?q=${encodeURIComponent("cyl 3")}&type=reading`, { cookie: other.cookie });
+    expect(res.status).toBe(200);
+    const { hits } = (await res.json()) as { hits: { url: string; snippet: string }[] };
+    const mine = hits.find((h) => h.url.startsWith(`/recordings/${recordingId}`));
+    expect(mine, JSON.stringify(hits.map((h) => h.url))).toBeDefined();
   });
 
   it("answers 422 with the field for a place out of range or one the quantity does not take", async () => {

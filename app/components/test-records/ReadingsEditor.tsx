@@ -233,7 +233,7 @@ export function ReadingsEditor({
                           onChange={(e) => set(s.id, i, { note: e.target.value })}
                         />
                       </Small>
-                      <div className="flex items-center gap-2 whitespace-nowrap pb-2">
+                      <div className="ml-auto flex items-center gap-2 whitespace-nowrap pb-2">
                         <span className="inline-block w-20 text-right">{verdict ? <ReadingVerdictTag verdict={verdict.verdict} /> : <span className="text-sm text-graphite-soft">—</span>}</span>
                         <button type="button" className="text-sm text-graphite-soft underline-offset-2 hover:underline" onClick={() => remove(s.id, i)} aria-label={`Remove ${s.label} reading ${i + 1}`}>
                           Remove

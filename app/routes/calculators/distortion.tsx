@@ -66,7 +66,7 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
         <p className="card mb-4 p-3 text-sm" data-testid="bore-source">
           {loaderData.prefill ? "Readings of" : "No bore readings with a depth and an angle for"} cylinder {loaderData.boreSource.cylinder} from{" "}
           <Link to={`/recordings/${loaderData.boreSource.recordingId}`}>{loaderData.boreSource.title}</Link>
-          {loaderData.prefill ? ", laid out by depth and angle." : "."}
+          {loaderData.prefill ? ", laid out by depth and angle." : "; the example readings are shown instead."}
         </p>
       )}
       <Form method="post" noValidate onSubmit={(ev) => hydrated && ev.preventDefault()} className="grid gap-6">
