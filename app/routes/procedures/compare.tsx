@@ -6,8 +6,8 @@ import { PageHeader } from "~/components/page";
 import { BeforeAfter, CompareBlocks, Del, Ins } from "~/components/procedures/CompareBlocks";
 import { StateBadge } from "~/components/procedures/RevisionView";
 import { requirePermission } from "~/lib/auth.server";
-import { optionalSearch, positiveIntParam } from "~/lib/edge";
-import { parseSearch } from "~/lib/edge.server";
+import { optionalSearch, positiveIntParam, searchObject } from "~/lib/edge";
+import { parseParams } from "~/lib/edge.server";
 import { AREA_LABELS } from "~/lib/procedures/areas";
 import { walk, type JSONNode } from "~/lib/procedures/document";
 import { diffBlocks, diffSpecs, summarize, type SpecField, type SpecRow } from "~/lib/procedures/diff";
@@ -37,7 +37,9 @@ async function readerPair(from: Revision, to: Revision) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const procedure = await procedureOr404(request, params.slug);
-  const asked = parseSearch(request, compareSearch);
+  // A revision number that cannot exist (not a whole number, past PostgreSQL's integer) names
+  // no revision: 404, as for the revision's own address.
+  const asked = parseParams(request, compareSearch, searchObject(request.url), "revision");
   const revs = (await history(procedure.id)).filter((r) => canSeeRevision(user, r));
   const published = revs.find((r) => r.state === "published");
   const toN = asked.to ?? revs[0]?.number;
