@@ -14,6 +14,11 @@ export function pool(): pg.Pool {
   if (!globalForDb.__benchreelPool) {
     const p = new pg.Pool({ connectionString: env().DATABASE_URL, max: 10, connectionTimeoutMillis: 3000 });
     p.on("error", (err) => console.error("[db] idle client error:", err.message));
+    // The pool handles errors of idle clients only. A client checked out when PostgreSQL goes
+    // away (a restart, `pg_ctl stop`) emits 'error' itself, and an unhandled 'error' ends the
+    // process: the query in flight fails anyway, so the error is logged here and the process
+    // stays up to serve the "database unavailable" answer and reconnect when it returns.
+    p.on("connect", (client) => client.on("error", (err) => console.error("[db] client error:", err.message)));
     globalForDb.__benchreelPool = p;
   }
   return globalForDb.__benchreelPool;
