@@ -2,7 +2,7 @@
 // landing where the person needs it after a form comes back with errors, after a page opens
 // and after a dialog closes; and motion that follows prefers-reduced-motion (app/app.css).
 import { expect, test, type Page } from "@playwright/test";
-import { DEMO_PASSWORD } from "../support/browser";
+import { DEMO_PASSWORD, signIn } from "../support/browser";
 
 const BRASS = "rgb(133, 96, 28)"; // --color-brass in app/app.css
 
@@ -74,6 +74,21 @@ test("an apprentice signs in, searches and opens a hit by keyboard alone, the fo
   await page.keyboard.press("Enter");
   await expect(page).toHaveURL((u) => `${u.pathname}${u.search}${u.hash}` === href);
   await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+});
+
+test("after a link inside the page opens another page, the focus is on the new page's content", async ({ page }) => {
+  await signIn(page, "jamie@larkspur.example");
+  await page.goto("/procedures");
+  const link = page.locator("main#main").getByRole("link", { name: /Head stud installation and torque sequence/ }).first();
+  await link.focus();
+  await page.keyboard.press("Enter");
+  await page.waitForURL(/\/procedures\/head-stud-installation-and-torque-sequence$/);
+  await expect(page.getByRole("heading", { level: 1 })).toContainText("Head stud installation");
+  // The link that had the focus went with the old page: the focus is on the new page's content,
+  // and the next Tab goes on from there rather than from the top of the document.
+  await expect.poll(() => page.evaluate(() => document.activeElement?.id)).toBe("main");
+  await page.keyboard.press("Tab");
+  expect(await page.evaluate(() => document.activeElement?.closest("main") != null)).toBe(true);
 });
 
 test("a form sent back with errors puts the focus on the first field in error", async ({ page }) => {
