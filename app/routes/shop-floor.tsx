@@ -78,7 +78,7 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
       {loaderData.testRecords.length > 0 && (
         <section aria-labelledby="recent-tests-h" className="card mb-6" data-testid="recent-test-records">
           <h2 id="recent-tests-h" className="text-lg">Recent test records</h2>
-          <p className="text-sm text-graphite-soft">Out of spec first, then the latest. <Link to="/test-records">All test records</Link></p>
+          <p className="text-sm text-graphite-soft">Out of spec first, then incomplete, then the latest. <Link to="/test-records">All test records</Link></p>
           <RecordMiniList rows={loaderData.testRecords} showProcedure />
         </section>
       )}
