@@ -5,9 +5,7 @@
  */
 import { z } from "zod";
 import { clearanceInputSchema, distortionInputSchema, preloadInputSchema, type ClearanceInput, type DistortionInput, type PreloadInput } from "~/lib/calc";
-
-export const CALCULATORS = ["preload", "distortion", "clearance"] as const;
-export type Calculator = (typeof CALCULATORS)[number];
+import type { CalcKind } from "~/lib/calc-kinds";
 
 /** The preset: which calculator, and that calculator's input. */
 export type CalculatorPreset =
@@ -30,6 +28,6 @@ export const calculatorPresetSchema = z.discriminatedUnion(
 );
 
 /** The preset for a calculator's input, as the text put on the clipboard. */
-export function presetText(calculator: Calculator, input: unknown): string {
+export function presetText(calculator: CalcKind, input: unknown): string {
   return JSON.stringify({ calculator, input }, null, 2);
 }

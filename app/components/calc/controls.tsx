@@ -7,10 +7,8 @@ import { useEffect, useState, type ReactNode } from "react";
 import { unitLabel, type UnitCode } from "~/lib/calc";
 import { UNIT_CHOICES, type ChoiceKind } from "~/lib/calc-ui/units";
 import type { FieldErrors, FormValues } from "~/lib/calc-ui/outcome";
-import { presetText, type Calculator } from "~/lib/calc-preset";
-
-export const CAUTION =
-  "Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.";
+import { presetText } from "~/lib/calc-preset";
+import { CALC_CAUTION, type CalcKind } from "~/lib/calc-kinds";
 
 export type SetValue = (name: string, value: string) => void;
 
@@ -243,7 +241,7 @@ export function Fieldset({ legend, children, className = "" }: { legend: string;
 export function Caution() {
   return (
     <p data-testid="calc-caution" className="rounded-md border border-brass/40 bg-brass-soft/60 px-3 py-2 text-sm text-graphite">
-      {CAUTION}
+      {CALC_CAUTION}
     </p>
   );
 }
@@ -286,7 +284,7 @@ export function Figure({ label, value, unitSelect, tone, testId }: { label: stri
 }
 
 /** "Copy as calculator block": copies `{ calculator, input }`; the JSON is also shown to select by hand. */
-export function CopyBlock({ calculator, input }: { calculator: Calculator; input: unknown }) {
+export function CopyBlock({ calculator, input }: { calculator: CalcKind; input: unknown }) {
   const [state, setState] = useState<"idle" | "copied" | "failed">("idle");
   const text = input === undefined ? "" : presetText(calculator, input);
   useEffect(() => setState("idle"), [text]);

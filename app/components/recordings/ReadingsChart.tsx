@@ -1,6 +1,7 @@
 import { useMemo, useState } from "react";
 import { NUT_FACTOR_R_SQUARED_LABEL, THREAD_PRESETS, fitNutFactor, fromSI, isUnitCode, type NutFactorFit, type UnitCode } from "~/lib/calc";
 import { displayUnit, formatTime, quantityDef } from "~/lib/recordings/rules";
+import { CALC_CAUTION } from "~/lib/calc-kinds";
 import type { ReadingRow } from "./types";
 
 const W = 560;
@@ -144,7 +145,7 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
             {fit.n > 1 && <> ± {fit.kStdDev.toFixed(3)} (1 s.d., {(fit.kCoefficientOfVariation * 100).toFixed(1)} % scatter)</>} · n = {fit.n} · {NUT_FACTOR_R_SQUARED_LABEL} = {fit.rSquared.toFixed(3)}
           </p>
           {fit.warnings.map((w) => <p key={w} className="text-graphite-soft">{w}</p>)}
-          <p className="text-xs text-graphite-soft">Least-squares line through the origin, F = T / (K·d). Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.</p>
+          <p className="text-xs text-graphite-soft">Least-squares line through the origin, F = T / (K·d). {CALC_CAUTION}</p>
         </figcaption>
       )}
       {problem && <p className="field-error" role="alert">Cannot fit a nut factor: {problem}</p>}

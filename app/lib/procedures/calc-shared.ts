@@ -1,17 +1,11 @@
 /**
- * The calculator-block helpers that need no math: kinds, labels, result shapes, the numbers a
- * reader may change. Kept apart from calc-presets.ts (which runs app/lib/calc and its zod
- * schemas) so that the read page can ship without the math until a reader changes a number.
+ * The calculator-block helpers that need no math: result shapes, the numbers a reader may change
+ * (the kinds, labels and caution live in app/lib/calc-kinds.ts and are re-exported here). Kept
+ * apart from calc-presets.ts (which runs app/lib/calc and its zod schemas) so that the read page
+ * can ship without the math until a reader changes a number.
  */
-export const CALC_KINDS = ["preload", "distortion", "clearance"] as const;
-export type CalcKind = (typeof CALC_KINDS)[number];
-
-export const CALC_CAUTION =
-  "Estimates for planning and checking. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.";
-
-export function calcLabel(kind: CalcKind | undefined): string {
-  return kind === "preload" ? "Preload" : kind === "distortion" ? "Bore distortion" : kind === "clearance" ? "Clearances" : "Calculator";
-}
+import type { CalcKind } from "~/lib/calc-kinds";
+export { CALC_CAUTION, CALC_KINDS, calcLabel, type CalcKind } from "~/lib/calc-kinds";
 
 export type ResultRow = { label: string; value: string; tone?: "warn" | "bad" | "ok" };
 export type CalcOutcome = { ok: true; rows: ResultRow[]; warnings: string[] } | { ok: false; message: string };

@@ -1,8 +1,8 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/index";
-import { CAUTION } from "~/components/calc/controls";
 import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
+import { CALC_CAUTION, CALC_KINDS, calcLabel, calcPath, type CalcKind } from "~/lib/calc-kinds";
 
 export const meta: Route.MetaFunction = () => [{ title: "Calculators · Benchreel" }];
 
@@ -11,26 +11,22 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { unitSystem: user.unitSystem };
 }
 
-const CALCULATORS = [
-  {
-    to: "/calculators/preload",
-    name: "Preload",
+const ABOUT: Record<CalcKind, { what: string; uses: string }> = {
+  preload: {
     what: "Clamp load from torque, or torque for a clamp load, by nut factor or friction coefficients. Stress against the bolt's yield, stretch over the grip, and the effective K from your own bench readings.",
     uses: "Head studs, main studs, rod bolts",
   },
-  {
-    to: "/calculators/distortion",
-    name: "Bore distortion",
+  distortion: {
     what: "Out-of-round, lobes and taper from bore gauge readings at several depths, with a second state to compare (torque plate on against free).",
     uses: "Torque-plate honing, liner checks",
   },
-  {
-    to: "/calculators/clearance",
-    name: "Clearances",
+  clearance: {
     what: "Piston-to-wall cold and hot with thermal growth, bearing oil clearance, and ring end gap, each checked against its spec.",
     uses: "Short-block assembly, QC",
   },
-];
+};
+
+const CALCULATORS = CALC_KINDS.map((kind) => ({ to: calcPath(kind), name: calcLabel(kind), ...ABOUT[kind] }));
 
 export default function Calculators({ loaderData }: Route.ComponentProps) {
   return (
@@ -55,7 +51,7 @@ export default function Calculators({ loaderData }: Route.ComponentProps) {
           </li>
         ))}
       </ul>
-      <p className="mt-6 max-w-3xl text-sm text-graphite-soft">{CAUTION}</p>
+      <p className="mt-6 max-w-3xl text-sm text-graphite-soft">{CALC_CAUTION}</p>
     </>
   );
 }
