@@ -9,6 +9,11 @@ import { renderToPipeableStream } from "react-dom/server";
 import { newNonce, nonceContext, pagePolicy } from "./lib/csp.server";
 import { answerSearchDirect } from "./lib/search/answer.server";
 import { noteServerError } from "./lib/outage.server";
+import { env } from "./lib/env.server";
+
+// The environment is checked as the server loads, so a bad value stops the start with its name
+// instead of failing the first request that reads it.
+env();
 
 // React Router's own server entry (from `react-router reveal entry.server`), with one export of
 // ours: the GET paths server.js answers without React Router's request handling, because the

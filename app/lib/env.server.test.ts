@@ -24,6 +24,32 @@ describe("environment", () => {
     expect(() => parseEnv({ ...good, MAX_UPLOAD_BYTES: "-5" })).toThrow(/MAX_UPLOAD_BYTES/);
   });
 
+  it("refuses a period that is not a whole number of milliseconds, naming it (Number() made NaN of it before)", () => {
+    expect(() => parseEnv({ ...good, MAIL_POLL_MS: "1s" })).toThrow(/MAIL_POLL_MS: must be a whole number of milliseconds/);
+    expect(() => parseEnv({ ...good, SEARCH_RETRY_BASE_MS: "0" })).toThrow(/SEARCH_RETRY_BASE_MS: must be more than 0 ms/);
+    // setTimeout runs a longer delay at once (it wraps to 1 ms).
+    expect(() => parseEnv({ ...good, SEARCH_CHECK_MS: String(2 ** 31) })).toThrow(/SEARCH_CHECK_MS: must be at most 2147483647 ms/);
+    expect(() => parseEnv({ ...good, MAIL_RETRY_BASE_MS: "2.5" })).toThrow(/MAIL_RETRY_BASE_MS/);
+  });
+
+  it("takes the worker's periods, tools and switches with their defaults", () => {
+    const e = parseEnv(good);
+    expect([e.MAIL_RETRY_BASE_MS, e.MAIL_POLL_MS, e.SEARCH_POLL_MS, e.SEARCH_RETRY_BASE_MS, e.SEARCH_CHECK_MS]).toEqual([5000, 1000, 500, 2000, 60_000]);
+    expect([e.FFPROBE_PATH, e.FFMPEG_PATH, e.SEARCH_INDEX, e.PORT, e.HOST]).toEqual(["/usr/bin/ffprobe", "/usr/bin/ffmpeg", "benchreel", 3000, "127.0.0.1"]);
+    expect([e.PAGE_CACHE, e.CHANGE_LISTENER]).toEqual(["on", "on"]);
+    expect(parseEnv({ ...good, MAIL_POLL_MS: "250", CHANGE_LISTENER: "off" })).toMatchObject({ MAIL_POLL_MS: 250, CHANGE_LISTENER: "off" });
+  });
+
+  it("refuses a switch that is neither on nor off, an index name the search service would refuse and a port out of range", () => {
+    expect(() => parseEnv({ ...good, PAGE_CACHE: "false" })).toThrow(/PAGE_CACHE: must be on or off/);
+    expect(() => parseEnv({ ...good, SEARCH_INDEX: "bench reel" })).toThrow(/SEARCH_INDEX: must be letters, digits/);
+    expect(() => parseEnv({ ...good, PORT: "70000" })).toThrow(/PORT/);
+  });
+
+  it("never repeats a value in its message (it may be a secret)", () => {
+    expect(() => parseEnv({ ...good, SESSION_SECRET: "hunter2" })).toThrow(expect.objectContaining({ message: expect.not.stringContaining("hunter2") }));
+  });
+
   it("coerces numbers from strings", () => {
     expect(parseEnv({ ...good, MAX_UPLOAD_BYTES: "1048576" }).MAX_UPLOAD_BYTES).toBe(1048576);
   });

@@ -1,11 +1,29 @@
 import { z } from "zod";
 
 /**
- * Every environment variable the server reads, validated once. `npm start` and `npm test`
- * set local defaults; production sets them explicitly. See the README's table.
+ * A period in milliseconds. Capped at setTimeout's limit: a longer delay would wrap around to
+ * 1 ms and run the task without pause.
+ */
+const millis = (fallback: number) =>
+  z.coerce
+    .number({ error: "must be a whole number of milliseconds" })
+    .int("must be a whole number of milliseconds")
+    .positive("must be more than 0 ms")
+    .max(2 ** 31 - 1, "must be at most 2147483647 ms (about 24 days)")
+    .default(fallback);
+
+/** `off` turns a feature off; anything else is a typo, not "on". */
+const onOff = z.enum(["on", "off"], { error: "must be on or off" }).default("on");
+
+/**
+ * Every environment variable the server and the worker read, validated once at start (the
+ * server's entry and the worker call `env()` before anything else). `npm start` and `npm test`
+ * set local values; production sets them explicitly. See the README's table.
  */
 export const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+  PORT: z.coerce.number({ error: "must be a port number" }).int().min(1).max(65535).default(3000),
+  HOST: z.string().min(1).default("127.0.0.1"),
   DATABASE_URL: z
     .string()
     .url()
@@ -19,12 +37,28 @@ export const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default("Benchreel <benchreel@larkspur.example>"),
   /** Set by the start/test scripts when SMTP_URL points at the local fake; shows the Outbox page. */
   MAIL_FAKE_DIR: z.string().optional(),
+  /** The worker's mail outbox: first retry after this, doubling per attempt. */
+  MAIL_RETRY_BASE_MS: millis(5000),
+  MAIL_POLL_MS: millis(1000),
   MEILI_HOST: z.string().url().optional(),
   MEILI_API_KEY: z.string().optional(),
+  /** Meilisearch's rule for an index uid: letters, digits, - and _. */
+  SEARCH_INDEX: z
+    .string()
+    .regex(/^[A-Za-z0-9_-]{1,400}$/, "must be letters, digits, - and _ only")
+    .default("benchreel"),
+  SEARCH_POLL_MS: millis(500),
+  SEARCH_RETRY_BASE_MS: millis(2000),
+  SEARCH_CHECK_MS: millis(60_000),
   UPLOAD_DIR: z.string().default("uploads"),
   MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(20 * 1024 ** 3),
+  FFPROBE_PATH: z.string().min(1).default("/usr/bin/ffprobe"),
+  FFMPEG_PATH: z.string().min(1).default("/usr/bin/ffmpeg"),
   /** How many reverse proxies stand in front of the app; 0 means X-Forwarded-For is never read (app/lib/client-address.ts). */
   TRUST_PROXY: z.coerce.number().int().min(0).max(10).default(0),
+  PAGE_CACHE: onOff,
+  /** `off`: no LISTEN connection (for a pooler that cannot hold one); caches that follow the database are off with it. */
+  CHANGE_LISTENER: onOff,
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -32,8 +66,9 @@ export type Env = z.infer<typeof envSchema>;
 export function parseEnv(source: Record<string, string | undefined>): Env {
   const result = envSchema.safeParse(source);
   if (!result.success) {
+    // Names and reasons only: a value may be a secret, and logs are read by many.
     const lines = result.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`);
-    throw new Error(`Invalid environment:\n${lines.join("\n")}`);
+    throw new Error(`Invalid environment (see the README's Configuration table):\n${lines.join("\n")}`);
   }
   return result.data;
 }

@@ -13,18 +13,18 @@ export type PeriodicTask = { name: string; everyMs: number; run: () => Promise<u
 
 export function periodicTasks(): PeriodicTask[] {
   const transport = createTransport(env().SMTP_URL);
-  const retryBaseMs = Number(process.env.MAIL_RETRY_BASE_MS ?? 5000);
+  const retryBaseMs = env().MAIL_RETRY_BASE_MS;
   return [
-    { name: "mail-outbox", everyMs: Number(process.env.MAIL_POLL_MS ?? 1000), run: () => drainOutbox({ transport, retryBaseMs }) },
+    { name: "mail-outbox", everyMs: env().MAIL_POLL_MS, run: () => drainOutbox({ transport, retryBaseMs }) },
     // recordings: starts the pg-boss worker for the processing queue (once; again after a failure)
     { name: "recordings-queue", everyMs: 5000, run: ensureRecordingJobs },
     // recordings: unfinished uploads with no new bytes for 14 days (UPLOAD_EXPIRY_DAYS) are discarded
     { name: "recordings-expired-uploads", everyMs: 3_600_000, run: () => cleanUpExpiredUploads() },
     ...(env().MEILI_HOST
       ? [
-          { name: "search-outbox", everyMs: Number(process.env.SEARCH_POLL_MS ?? 500), run: () => drainSearchOutbox() },
+          { name: "search-outbox", everyMs: env().SEARCH_POLL_MS, run: () => drainSearchOutbox() },
           // search: rebuilds the index when the service has lost it (replaced, reset)
-          { name: "search-index-check", everyMs: Number(process.env.SEARCH_CHECK_MS ?? 60_000), run: () => repairIndex() },
+          { name: "search-index-check", everyMs: env().SEARCH_CHECK_MS, run: () => repairIndex() },
         ]
       : []),
   ];

@@ -38,7 +38,7 @@ const reset = () => resets.forEach((fn) => fn());
 
 /** True while changes are being heard; starts the connection on first use. */
 export function listening(): boolean {
-  if (!up && !starting && process.env.CHANGE_LISTENER !== "off") {
+  if (!up && !starting && env().CHANGE_LISTENER !== "off") {
     starting = true;
     void connect();
   }

@@ -23,6 +23,7 @@
  *   `Cache-Control: no-cache` on the request (a hard reload) renders anew.
  */
 import { withRequestNonce } from "./csp.server";
+import { env } from "./env.server";
 import { CONTENT_CHANNEL, listening, onListenerReset, onNotify } from "./notify.server";
 
 type Entry = { body: Uint8Array<ArrayBuffer>; status: number; headers: [string, string][] };
@@ -107,7 +108,7 @@ onListenerReset(() => store.invalidateAll());
 const CACHED_PAGES = [/^\/procedures\/(?!new$)[^/]+$/];
 
 function enabled(): boolean {
-  return process.env.PAGE_CACHE !== "off";
+  return env().PAGE_CACHE !== "off";
 }
 
 /**

@@ -7,12 +7,10 @@ import { eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { recordings } from "~/db/schema";
 import { db } from "../db.server";
+import { env } from "../env.server";
 import { boss, enqueueProcessing, PROCESS_QUEUE, stopBoss } from "./queue.server";
 import { formatTime } from "./rules";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
-
-const FFPROBE = process.env.FFPROBE_PATH ?? "/usr/bin/ffprobe";
-const FFMPEG = process.env.FFMPEG_PATH ?? "/usr/bin/ffmpeg";
 
 export type Probe = {
   formatName: string;
@@ -72,7 +70,7 @@ function rate(s: string | undefined): number | null {
 
 /** ffprobe the file; null when ffprobe cannot read it as media at all. */
 export async function probe(file: string): Promise<Probe | null> {
-  const r = await run(FFPROBE, ["-v", "error", "-print_format", "json", "-show_format", "-show_streams", file]);
+  const r = await run(env().FFPROBE_PATH, ["-v", "error", "-print_format", "json", "-show_format", "-show_streams", file]);
   if (r.code !== 0) return null;
   let j: { format?: { format_name?: string; duration?: string; tags?: Record<string, string> }; streams?: Record<string, unknown>[] };
   try {
@@ -153,7 +151,7 @@ async function setProgress(id: string, progress: number) {
 
 /** Runs ffmpeg; onSeconds gets the output's time as it grows (from -progress). */
 async function ffmpeg(args: string[], onSeconds: (s: number) => void = () => {}): Promise<void> {
-  const r = await run(FFMPEG, ["-hide_banner", "-nostdin", "-y", "-progress", "pipe:1", "-nostats", ...args], progressParser(onSeconds));
+  const r = await run(env().FFMPEG_PATH, ["-hide_banner", "-nostdin", "-y", "-progress", "pipe:1", "-nostats", ...args], progressParser(onSeconds));
   if (r.code !== 0) {
     const last = r.stderr.trim().split("\n").slice(-2).join(" ").slice(0, 400);
     throw new Error(`ffmpeg failed: ${last || `exit code ${r.code}`}`);
@@ -183,7 +181,7 @@ export type DecodeCheck = { ok: boolean; decodedS: number; error: string | null 
 export async function decodeCheck(file: string, onSeconds: (s: number) => void = () => {}): Promise<DecodeCheck> {
   let decodedS = 0;
   const r = await run(
-    FFMPEG,
+    env().FFMPEG_PATH,
     ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", "-f", "null", "-"],
     progressParser((sec) => {
       decodedS = sec;

@@ -1,6 +1,7 @@
 import { and, gt, inArray, isNull, lte, sql } from "drizzle-orm";
 import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
+import { env } from "~/lib/env.server";
 import { ensureIndex, SEARCH_SETTINGS, searchClient, searchErrorCode, searchErrorMessage, searchIndex, searchServiceAway, type SearchDoc } from "./client.server";
 import { allDocuments, buildChange, failureReason, isPassingFailure, recordsOf, type IndexChange, type Unindexable } from "./documents.server";
 import { clearSetAside, setAside, setAsideCount } from "./set-aside.server";
@@ -36,7 +37,7 @@ export const MAX_RETRY_MS = 60_000;
 /** How often the service's /health is asked while it is away. */
 export const HEALTH_PROBE_MS = 1_000;
 
-export function retryDelayMs(attempts: number, baseMs = Number(process.env.SEARCH_RETRY_BASE_MS ?? 2000)): number {
+export function retryDelayMs(attempts: number, baseMs = env().SEARCH_RETRY_BASE_MS): number {
   return Math.min(baseMs * 2 ** Math.max(0, attempts - 1), MAX_RETRY_MS);
 }
 
