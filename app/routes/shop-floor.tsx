@@ -3,7 +3,7 @@ import type { Route } from "./+types/shop-floor";
 import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
 import { can, ROLE_LABELS } from "~/lib/permissions";
-import { awaitingReview } from "~/lib/procedures/workflow.server";
+import { awaitingReview } from "~/lib/procedures/pages.server";
 import { returnedDraftsOf } from "~/lib/procedures/review.server";
 import { fmtDate } from "~/components/procedures/RevisionView";
 import { RecordMiniList } from "~/components/test-records/parts";

@@ -16,7 +16,8 @@ import autocannon from "autocannon";
 import { recordings } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { JSONNode } from "~/lib/procedures/document";
-import { createProcedure, publishRevision, saveDraft, startDraftFrom, submitRevision } from "~/lib/procedures/workflow.server";
+import { createProcedure, saveDraft, startDraftFrom } from "~/lib/procedures/drafts.server";
+import { publishRevision, submitRevision } from "~/lib/procedures/transitions.server";
 import { createUser, type TestUser } from "../../tests/support/app";
 
 type Stat = { p50: number; p95: number; samples: number };

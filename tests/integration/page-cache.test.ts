@@ -8,7 +8,8 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { marks, readings, recordings, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
-import { createProcedure, publishRevision, saveDraft, startDraftFrom, submitRevision } from "~/lib/procedures/workflow.server";
+import { createProcedure, saveDraft, startDraftFrom } from "~/lib/procedures/drafts.server";
+import { publishRevision, submitRevision } from "~/lib/procedures/transitions.server";
 import { createUser, http, waitFor, type TestUser } from "../support/app";
 
 const tag = randomUUID().slice(0, 6);

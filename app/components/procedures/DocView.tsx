@@ -1,6 +1,6 @@
 /**
  * The read view of a stored document: TipTap's JSON static renderer mapped to our own
- * components. No ProseMirror, no editor. Used on the server only (render.server.tsx).
+ * components. No ProseMirror, no editor. Used on the server only (./render.server.tsx).
  */
 import type { ReactNode } from "react";
 import { renderJSONContentToReactElement } from "@tiptap/static-renderer/json/react";

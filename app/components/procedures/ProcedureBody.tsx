@@ -1,11 +1,7 @@
 import { useEffect, useRef, useState } from "react";
 import { createPortal } from "react-dom";
-import type { CalcOutcome } from "~/lib/procedures/calc-shared";
-import type { CalculatorAttrs } from "~/lib/procedures/document";
+import type { Widget } from "~/lib/procedures/body";
 import { CalculatorWidget } from "./CalculatorWidget";
-
-/** A calculator block of the body, with its preset's result computed on the server. */
-export type Widget = { kind: "calculator"; attrs: CalculatorAttrs; outcome: CalcOutcome };
 
 /**
  * The server-rendered body of a procedure. React leaves the HTML alone; after hydration each

@@ -1,7 +1,8 @@
 import type { ReactNode } from "react";
 import { Link } from "react-router";
 import { STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
-import { ProcedureBody, type Widget } from "./ProcedureBody";
+import type { Widget } from "~/lib/procedures/body";
+import { ProcedureBody } from "./ProcedureBody";
 import { formatDay } from "~/lib/dates";
 import { useLandingTarget } from "~/components/search/LandingTarget";
 

@@ -1,10 +1,10 @@
-/** Shared pieces of the procedure routes: find by slug (following renames), revision guards, error mapping. */
+/** Shared pieces of the procedure routes: find by slug (following renames), revision guards. */
 import { data, redirect } from "react-router";
 import type { SessionUser } from "~/lib/auth.server";
 import { forbidden } from "~/lib/auth.server";
 import { canOnOwned } from "~/lib/permissions";
 import { positiveIntParam, slug as slugSchema } from "~/lib/edge";
-import { DocumentInvalid, findBySlug, ProcedureError, revisionByNumber, type Procedure, type Revision } from "./workflow.server";
+import { findBySlug, revisionByNumber, type Procedure, type Revision } from "./lookup.server";
 
 /** The procedure at :slug; an old slug redirects (301) to the same sub-page under the new one. */
 export async function procedureOr404(request: Request, slug: string): Promise<Procedure> {
@@ -34,11 +34,4 @@ export async function revisionOr404(request: Request, user: SessionUser, procedu
   if (!rev) throw data({ message: `Revision ${n} does not exist.` }, { status: 404 });
   if (!canSeeRevision(user, rev)) forbidden(request, "Drafts are open to their author and the editors.");
   return rev;
-}
-
-/** Turns domain errors into the { errors } a form shows; rethrows anything else. */
-export function formFailure(err: unknown, intent: string) {
-  if (err instanceof ProcedureError) return data({ intent, errors: { [err.field]: err.message } as Record<string, string> }, { status: err.status });
-  if (err instanceof DocumentInvalid) return data({ intent, errors: { form: err.message } as Record<string, string> }, { status: 422 });
-  throw err;
 }

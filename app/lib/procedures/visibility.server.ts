@@ -14,7 +14,7 @@ import type { RevisionState } from "./state";
 export type Reader = { id: string; role: Role };
 
 /** A procedure's open revision is the one in one of these states (at most one at a time). */
-const OPEN_STATES: RevisionState[] = ["draft", "in_review"];
+export const OPEN_STATES: RevisionState[] = ["draft", "in_review"];
 
 /** A condition on `procedures`: the row is a procedure `reader` may read. */
 export function readableBy(reader: Reader): SQL {

@@ -9,12 +9,13 @@ import { requirePermission } from "~/lib/auth.server";
 import { optionalSearch, positiveIntParam, searchObject } from "~/lib/edge";
 import { parseParams } from "~/lib/edge.server";
 import { AREA_LABELS } from "~/lib/procedures/areas";
-import { walk, type JSONNode } from "~/lib/procedures/document";
+import type { JSONNode } from "~/lib/procedures/document";
 import { diffBlocks, diffSpecs, summarize, type SpecField, type SpecRow } from "~/lib/procedures/diff";
 import { readerBlocks, specLimitsText } from "~/lib/procedures/reader-blocks";
 import { canSeeRevision, procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { available, STATE_LABELS } from "~/lib/procedures/state";
-import { history, recordingTitles, specsOf, titlesFor, type Revision } from "~/lib/procedures/workflow.server";
+import { docTitles, type Revision } from "~/lib/procedures/lookup.server";
+import { history, specsOf } from "~/lib/procedures/pages.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Compare: ${data?.title ?? ""} · Benchreel` }];
 
@@ -22,15 +23,8 @@ const compareSearch = z.object({ from: optionalSearch(positiveIntParam), to: opt
 
 /** The two revisions' documents as a reader sees them, with procedure and recording titles resolved. */
 async function readerPair(from: Revision, to: Revision) {
-  const procIds = new Set<string>();
-  const recIds = new Set<string>();
-  for (const d of [from.doc, to.doc])
-    walk(d as JSONNode, (n) => {
-      if (n.type === "procedureLink") procIds.add(String(n.attrs?.procedureId));
-      if (n.type === "videoMoment") recIds.add(String(n.attrs?.recordingId));
-    });
-  const [titles, recordings] = await Promise.all([titlesFor([...procIds]), recordingTitles([...recIds])]);
-  const ctx = { titleOf: (id: string) => titles.get(id)?.title, recordingOf: (id: string) => recordings.get(id) };
+  const { procedures, recordings } = await docTitles(from.doc as JSONNode, to.doc as JSONNode);
+  const ctx = { titleOf: (id: string) => procedures.get(id)?.title, recordingOf: (id: string) => recordings.get(id) };
   return diffBlocks(readerBlocks(from.doc as JSONNode, ctx), readerBlocks(to.doc as JSONNode, ctx));
 }
 

@@ -5,9 +5,10 @@ import { PageHeader } from "~/components/page";
 import { ProcedureEditor } from "~/components/procedures/editor/ProcedureEditor";
 import { requirePermission } from "~/lib/auth.server";
 import { canOnOwned } from "~/lib/permissions";
-import { walk, type JSONNode } from "~/lib/procedures/document";
+import { docReferences } from "~/lib/procedures/body";
+import type { JSONNode } from "~/lib/procedures/document";
 import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
-import { titlesFor } from "~/lib/procedures/workflow.server";
+import { titlesFor } from "~/lib/procedures/lookup.server";
 import { reviewPeople } from "~/lib/procedures/review.server";
 import { formatDay } from "~/lib/dates";
 
@@ -18,9 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const procedure = await procedureOr404(request, params.slug);
   const rev = await revisionOr404(request, user, procedure, params.number);
   if (rev.state !== "draft" || !canOnOwned(user, "procedure:edit", rev.authorId)) throw redirect(`/procedures/${procedure.slug}/r/${rev.number}`);
-  const ids = new Set<string>();
-  walk(rev.doc as JSONNode, (n) => n.type === "procedureLink" && ids.add(String(n.attrs?.procedureId)));
-  const [titleMap, people] = await Promise.all([titlesFor([...ids]), reviewPeople(rev)]);
+  const [titleMap, people] = await Promise.all([titlesFor(docReferences(rev.doc as JSONNode).procedureIds), reviewPeople(rev)]);
   const titles = Object.fromEntries(titleMap);
   return {
     slug: procedure.slug,

@@ -4,7 +4,7 @@ import { PageHeader } from "~/components/page";
 import { fmtDate, StateBadge } from "~/components/procedures/RevisionView";
 import { requirePermission } from "~/lib/auth.server";
 import { canSeeRevision, procedureOr404 } from "~/lib/procedures/routes.server";
-import { history } from "~/lib/procedures/workflow.server";
+import { history } from "~/lib/procedures/pages.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `History: ${data?.title ?? ""} · Benchreel` }];
 

@@ -8,7 +8,7 @@ import { requirePermission } from "~/lib/auth.server";
 import { can } from "~/lib/permissions";
 import { STATE_LABELS } from "~/lib/procedures/state";
 import { AREA_LABELS, AREAS, type Area } from "~/lib/procedures/areas";
-import { allTags, listPublished, openRevisionsFor } from "~/lib/procedures/workflow.server";
+import { allTags, listPublished, openRevisionsFor } from "~/lib/procedures/pages.server";
 import { formatDay } from "~/lib/dates";
 import { sameTag } from "~/lib/tags";
 

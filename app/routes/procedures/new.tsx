@@ -9,8 +9,9 @@ import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { starterDocument } from "~/lib/procedures/starter";
 import { AREA_LABELS, AREAS } from "~/lib/procedures/areas";
-import { createProcedure, normalizeTags } from "~/lib/procedures/workflow.server";
-import { formFailure } from "~/lib/procedures/routes.server";
+import { domainFailure } from "~/lib/domain-error.server";
+import { createProcedure } from "~/lib/procedures/drafts.server";
+import { normalizeTags } from "~/lib/tags";
 
 export const meta: Route.MetaFunction = () => [{ title: "New procedure · Benchreel" }];
 
@@ -34,8 +35,7 @@ export async function action({ request }: Route.ActionArgs) {
     const { procedure, revision } = await createProcedure(user, { ...parsed.data, tags: normalizeTags(parsed.data.tags), doc: starterDocument() });
     return redirectWithFlash(`/procedures/${procedure.slug}/r/${revision.number}/edit`, { kind: "ok", message: "Draft started. It saves as you type." });
   } catch (err) {
-    const f = formFailure(err, "create");
-    return data({ errors: f.data.errors, values: parsed.values }, { status: f.init?.status ?? 400 });
+    return domainFailure(request, err, "create", parsed.values);
   }
 }
 

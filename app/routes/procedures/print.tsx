@@ -4,11 +4,11 @@ import "~/components/procedures/procedures.css";
 import { fmtDate, SpecTable } from "~/components/procedures/RevisionView";
 import { requirePermission } from "~/lib/auth.server";
 import { STATE_LABELS } from "~/lib/procedures/state";
-import type { JSONNode } from "~/lib/procedures/document";
-import { renderBody } from "~/lib/procedures/render.server";
+import { renderBody } from "~/components/procedures/render.server";
 import { reviewPeople } from "~/lib/procedures/review.server";
 import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
-import { revisionById, specsOf } from "~/lib/procedures/workflow.server";
+import { revisionById } from "~/lib/procedures/lookup.server";
+import { specsOf } from "~/lib/procedures/pages.server";
 import { AREA_LABELS } from "~/lib/procedures/areas";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Print: ${data?.rev.title ?? ""}` }];
@@ -19,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const n = new URL(request.url).searchParams.get("rev");
   const rev = n ? await revisionOr404(request, user, procedure, n) : procedure.publishedRevisionId ? await revisionById(procedure.publishedRevisionId) : null;
   if (!rev) throw data({ message: "Nothing is published yet to print." }, { status: 404 });
-  const [body, specs, people] = await Promise.all([renderBody(rev.doc as JSONNode), specsOf(rev.id), reviewPeople(rev)]);
+  const [body, specs, people] = await Promise.all([renderBody(rev), specsOf(rev.id), reviewPeople(rev)]);
   return { slug: procedure.slug, rev: { number: rev.number, title: rev.title, summary: rev.summary, area: rev.area, state: rev.state, publishedAt: rev.publishedAt, updatedAt: rev.updatedAt }, people, html: body.html, units: body.units, specs, printedAt: new Date().toISOString() };
 }
 

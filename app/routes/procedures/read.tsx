@@ -7,23 +7,17 @@ import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
 import { assertCan, requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { can, canOnOwned } from "~/lib/permissions";
-import type { JSONNode } from "~/lib/procedures/document";
 import { formatSeconds } from "~/lib/procedures/format";
-import { renderBody } from "~/lib/procedures/render.server";
+import { renderBody } from "~/components/procedures/render.server";
+import { domainFailure, unknownAction } from "~/lib/domain-error.server";
+import { DomainError } from "~/lib/domain-error";
 import { procedureOr404 } from "~/lib/procedures/routes.server";
 import { STATE_LABELS } from "~/lib/procedures/state";
-import {
-  isWatching,
-  linkedFrom,
-  marksReferencing,
-  openRevisionOf,
-  openRevisionSummary,
-  ProcedureError,
-  revisionById,
-  setWatching,
-  specsOf,
-  startDraftFrom,
-} from "~/lib/procedures/workflow.server";
+import { startDraftFrom } from "~/lib/procedures/drafts.server";
+import { openRevisionOf, revisionById } from "~/lib/procedures/lookup.server";
+import { linkedFrom, openRevisionSummary, specsOf } from "~/lib/procedures/pages.server";
+import { isWatching, setWatching } from "~/lib/procedures/watching.server";
+import { marksReferencing } from "~/lib/recordings/procedure-links.server";
 import { reviewPeople } from "~/lib/procedures/review.server";
 import { ProcedureTestRecords } from "~/components/test-records/parts";
 import { testRecordsForProcedure } from "~/lib/test-records/records.server";
@@ -50,7 +44,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return { procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title }, published: null, open: openVisible, flags, watching: false } as const;
   }
   const [body, specs, from, marks, watching, people, testRecords] = await Promise.all([
-    renderBody(rev.doc as JSONNode),
+    renderBody(rev),
     specsOf(rev.id),
     linkedFrom(procedure.id),
     marksReferencing(procedure.id),
@@ -81,28 +75,27 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   if (intent === "new-draft") {
     assertCan(request, user, "procedure:draft");
-    const open = await openRevisionOf(procedure.id);
-    if (open) {
-      if (canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft") throw redirect(`/procedures/${procedure.slug}/r/${open.number}/edit`);
-      return data({ error: `Revision ${open.number} is already ${STATE_LABELS[open.state].toLowerCase()}; only one revision is open at a time.` }, { status: 409 });
-    }
-    if (!procedure.publishedRevisionId) return data({ error: "Nothing is published yet to start from." }, { status: 409 });
     try {
+      const open = await openRevisionOf(procedure.id);
+      if (open) {
+        if (canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft") throw redirect(`/procedures/${procedure.slug}/r/${open.number}/edit`);
+        throw new DomainError(`Revision ${open.number} is already ${STATE_LABELS[open.state].toLowerCase()}; only one revision is open at a time.`);
+      }
+      if (!procedure.publishedRevisionId) throw new DomainError("Nothing is published yet to start from.");
       const rev = await startDraftFrom(user, procedure.publishedRevisionId);
       return redirectWithFlash(`/procedures/${procedure.slug}/r/${rev.number}/edit`, { kind: "ok", message: `Revision ${rev.number} started from the published page.` });
     } catch (err) {
-      if (err instanceof ProcedureError) return data({ error: err.message }, { status: err.status });
-      throw err;
+      return domainFailure(request, err, String(intent));
     }
   }
-  return data({ error: "Unknown action." }, { status: 400 });
+  return unknownAction(request, intent);
 }
 
 export default function ReadProcedure({ loaderData, actionData }: Route.ComponentProps) {
   const { procedure, published, open, flags, watching } = loaderData;
   const slug = procedure.slug;
   const openLink = open ? (flags.canEditOpen ? `/procedures/${slug}/r/${open.number}/edit` : `/procedures/${slug}/r/${open.number}`) : null;
-  const err = actionData && "error" in actionData ? actionData.error : null;
+  const err = actionData?.errors ? Object.values(actionData.errors)[0] : null;
   if (!published) {
     return (
       <>

@@ -7,12 +7,15 @@ import { FormError } from "~/components/forms";
 import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
 import { requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
-import type { JSONNode } from "~/lib/procedures/document";
-import { renderBody } from "~/lib/procedures/render.server";
+import { renderBody } from "~/components/procedures/render.server";
+import { domainFailure, unknownAction } from "~/lib/domain-error.server";
 import { reviewPeople } from "~/lib/procedures/review.server";
-import { formFailure, procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
+import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { available, STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
-import { discardDraft, openRevisionOf, publishRevision, returnRevision, specsOf, startDraftFrom, submitRevision, withdrawRevision } from "~/lib/procedures/workflow.server";
+import { startDraftFrom } from "~/lib/procedures/drafts.server";
+import { openRevisionOf } from "~/lib/procedures/lookup.server";
+import { specsOf } from "~/lib/procedures/pages.server";
+import { discardDraft, publishRevision, returnRevision, submitRevision, withdrawRevision } from "~/lib/procedures/transitions.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.rev.title ?? "Revision"} (rev. ${data?.rev.number ?? ""}) · Benchreel` }];
 
@@ -22,7 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const rev = await revisionOr404(request, user, procedure, params.number);
   const open = await openRevisionOf(procedure.id);
   const [body, specs, people] = await Promise.all([
-    renderBody(rev.doc as JSONNode),
+    renderBody(rev),
     specsOf(rev.id),
     reviewPeople(rev),
   ]);
@@ -78,9 +81,9 @@ export async function action({ request, params }: Route.ActionArgs) {
       }
     }
   } catch (err) {
-    return formFailure(err, intent);
+    return domainFailure(request, err, intent);
   }
-  return data({ intent, errors: { form: "Unknown action." } as Record<string, string> }, { status: 400 });
+  return unknownAction(request, intent);
 }
 
 export default function RevisionPage({ loaderData, actionData }: Route.ComponentProps) {

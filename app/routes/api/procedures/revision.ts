@@ -4,7 +4,11 @@ import { requirePermission } from "~/lib/auth.server";
 import { idParams, positiveInt } from "~/lib/edge";
 import { invalidInput, parseParams, readJsonObject } from "~/lib/edge.server";
 import { canSeeRevision } from "~/lib/procedures/routes.server";
-import { AREAS, DocumentInvalid, normalizeTags, ProcedureError, revisionById, saveDraft } from "~/lib/procedures/workflow.server";
+import { domainFailure } from "~/lib/domain-error.server";
+import { AREAS } from "~/lib/procedures/areas";
+import { saveDraft } from "~/lib/procedures/drafts.server";
+import { revisionById } from "~/lib/procedures/lookup.server";
+import { normalizeTags } from "~/lib/tags";
 
 const saveSchema = z.object({
   baseVersion: positiveInt,
@@ -37,8 +41,6 @@ export async function action({ request, params }: Route.ActionArgs) {
     // Saved even with blocks half done: `incomplete` lists them, for the editor's marks and the submit check.
     return Response.json({ ok: true, version: r.version, savedAt: r.updatedAt, warnings: r.warnings, incomplete: r.incomplete });
   } catch (err) {
-    if (err instanceof DocumentInvalid) return Response.json({ error: "invalid input", issues: err.issues }, { status: 422 });
-    if (err instanceof ProcedureError) return Response.json({ error: err.status === 403 ? "forbidden" : "refused", reason: err.message }, { status: err.status });
-    throw err;
+    return domainFailure(request, err);
   }
 }

@@ -1,7 +1,8 @@
 import type { Route } from "./+types/titles";
 import { requirePermission } from "~/lib/auth.server";
 import { isUuid } from "~/lib/edge";
-import { AREA_LABELS, searchTitles } from "~/lib/procedures/workflow.server";
+import { AREA_LABELS } from "~/lib/procedures/areas";
+import { searchTitles } from "~/lib/procedures/lookup.server";
 
 /** Title search for the editor's procedure-link picker. */
 export async function loader({ request }: Route.LoaderArgs) {

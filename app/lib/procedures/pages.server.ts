@@ -1,0 +1,140 @@
+/**
+ * What the procedure pages list and show: a revision's specs, who links here, the history, the
+ * published list and its tags, the open revisions a person works on, the review queue.
+ */
+import { and, asc, desc, eq, inArray, or, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { procedureLinks, procedureRevisions, procedures, procedureSpecs, users } from "~/db/schema";
+import { db } from "~/lib/db.server";
+import type { Actor } from "./state";
+import { OPEN_STATES } from "./visibility.server";
+
+export async function specsOf(revisionId: string) {
+  return db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position));
+}
+
+
+/** Published procedures whose published revision links here. */
+export async function linkedFrom(procedureId: string) {
+  return db()
+    .select({ title: procedures.title, slug: procedures.slug, area: procedures.area })
+    .from(procedureLinks)
+    .innerJoin(procedures, and(eq(procedures.id, procedureLinks.fromProcedureId), eq(procedures.publishedRevisionId, procedureLinks.revisionId)))
+    .where(eq(procedureLinks.toProcedureId, procedureId))
+    .orderBy(procedures.title);
+}
+
+const publisher = alias(users, "publisher");
+const returner = alias(users, "returner");
+
+export async function history(procedureId: string) {
+  return db()
+    .select({
+      id: procedureRevisions.id,
+      number: procedureRevisions.number,
+      state: procedureRevisions.state,
+      title: procedureRevisions.title,
+      changeNote: procedureRevisions.changeNote,
+      returnReason: procedureRevisions.returnReason,
+      authorId: procedureRevisions.authorId,
+      author: users.name,
+      publishedBy: publisher.name,
+      returnedBy: returner.name,
+      returnedAt: procedureRevisions.returnedAt,
+      createdAt: procedureRevisions.createdAt,
+      updatedAt: procedureRevisions.updatedAt,
+      submittedAt: procedureRevisions.submittedAt,
+      publishedAt: procedureRevisions.publishedAt,
+      supersededAt: procedureRevisions.supersededAt,
+      basedOnRevisionId: procedureRevisions.basedOnRevisionId,
+      wordCount: procedureRevisions.wordCount,
+    })
+    .from(procedureRevisions)
+    .leftJoin(users, eq(users.id, procedureRevisions.authorId))
+    .leftJoin(publisher, eq(publisher.id, procedureRevisions.publishedBy))
+    .leftJoin(returner, eq(returner.id, procedureRevisions.returnedBy))
+    .where(eq(procedureRevisions.procedureId, procedureId))
+    .orderBy(desc(procedureRevisions.number));
+}
+
+/** The open revision's number, state and author only (the read page shows no more of it; its document can be large). */
+export async function openRevisionSummary(procedureId: string) {
+  const [r] = await db()
+    .select({ id: procedureRevisions.id, number: procedureRevisions.number, state: procedureRevisions.state, authorId: procedureRevisions.authorId })
+    .from(procedureRevisions)
+    .where(and(eq(procedureRevisions.procedureId, procedureId), inArray(procedureRevisions.state, OPEN_STATES)))
+    .limit(1);
+  return r ?? null;
+}
+
+export async function listPublished(tag?: string | null) {
+  return db()
+    .select({
+      id: procedures.id,
+      slug: procedures.slug,
+      title: procedures.title,
+      area: procedures.area,
+      summary: procedures.summary,
+      tags: procedures.tags,
+      publishedAt: procedures.publishedAt,
+      number: procedureRevisions.number,
+      author: users.name,
+    })
+    .from(procedures)
+    .innerJoin(procedureRevisions, eq(procedureRevisions.id, procedures.publishedRevisionId))
+    .leftJoin(users, eq(users.id, procedureRevisions.authorId))
+    .where(tag ? sql`exists (select 1 from unnest(${procedures.tags}) t where lower(t) = lower(${tag}))` : undefined)
+    .orderBy(procedures.area, procedures.title);
+}
+
+export async function allTags() {
+  const r = await db().execute<{ tag: string; n: number }>(
+    // One entry per tag whatever its case, shown in the spelling most procedures use.
+    sql`select mode() within group (order by t) as tag, count(*)::int as n from procedures, unnest(tags) t where published_revision_id is not null group by lower(t) order by lower(t)`,
+  );
+  return r.rows;
+}
+
+/** Open revisions a person may see: their own drafts, and (for reviewers) everything in review. */
+export async function openRevisionsFor(user: Actor, opts: { reviewQueue: boolean }) {
+  const base = db()
+    .select({
+      id: procedureRevisions.id,
+      number: procedureRevisions.number,
+      state: procedureRevisions.state,
+      title: procedureRevisions.title,
+      slug: procedures.slug,
+      author: users.name,
+      authorId: procedureRevisions.authorId,
+      updatedAt: procedureRevisions.updatedAt,
+      submittedAt: procedureRevisions.submittedAt,
+      changeNote: procedureRevisions.changeNote,
+      returnReason: procedureRevisions.returnReason,
+    })
+    .from(procedureRevisions)
+    .innerJoin(procedures, eq(procedures.id, procedureRevisions.procedureId))
+    .leftJoin(users, eq(users.id, procedureRevisions.authorId));
+  const where = opts.reviewQueue
+    ? or(eq(procedureRevisions.state, "in_review"), and(eq(procedureRevisions.state, "draft"), eq(procedureRevisions.authorId, user.id)))
+    : and(inArray(procedureRevisions.state, OPEN_STATES), eq(procedureRevisions.authorId, user.id));
+  return base.where(where).orderBy(desc(procedureRevisions.updatedAt)).limit(50);
+}
+
+export async function awaitingReview() {
+  return db()
+    .select({
+      number: procedureRevisions.number,
+      title: procedureRevisions.title,
+      slug: procedures.slug,
+      author: users.name,
+      submittedAt: procedureRevisions.submittedAt,
+      changeNote: procedureRevisions.changeNote,
+      everPublished: sql<boolean>`${procedures.publishedRevisionId} is not null`,
+    })
+    .from(procedureRevisions)
+    .innerJoin(procedures, eq(procedures.id, procedureRevisions.procedureId))
+    .leftJoin(users, eq(users.id, procedureRevisions.authorId))
+    .where(eq(procedureRevisions.state, "in_review"))
+    .orderBy(asc(procedureRevisions.submittedAt))
+    .limit(20);
+}

@@ -1,0 +1,42 @@
+/**
+ * Recordings as procedures see them: the marks that point at a procedure (its read page), the
+ * ready recordings the editor's video-moment picker offers, and recording titles for the
+ * moments in a document.
+ */
+import { and, asc, eq, ilike, inArray } from "drizzle-orm";
+import { marks, recordings } from "~/db/schema";
+import { db } from "~/lib/db.server";
+import { isUuid } from "~/lib/edge";
+
+export type MarkRef = { id: string; recordingId: string; recordingTitle: string; tStart: number; tEnd: number | null; text: string };
+
+/** Marks whose procedure is this one, by recording title then time (at most 100). */
+export async function marksReferencing(procedureId: string): Promise<MarkRef[]> {
+  return db()
+    .select({ id: marks.id, recordingId: marks.recordingId, recordingTitle: recordings.title, tStart: marks.tStart, tEnd: marks.tEnd, text: marks.text })
+    .from(marks)
+    .innerJoin(recordings, eq(recordings.id, marks.recordingId))
+    .where(eq(marks.procedureId, procedureId))
+    .orderBy(asc(recordings.title), asc(marks.tStart))
+    .limit(100);
+}
+
+export type RecordingOption = { id: string; title: string; durationS: number | null };
+
+/** Ready recordings whose title contains `q` (LIKE's wildcards taken literally), at most 20. */
+export async function readyRecordings(q: string): Promise<RecordingOption[]> {
+  return db()
+    .select({ id: recordings.id, title: recordings.title, durationS: recordings.durationS })
+    .from(recordings)
+    .where(and(eq(recordings.state, "ready"), ilike(recordings.title, `%${q.replace(/[%_\\]/g, (c) => `\\${c}`)}%`)))
+    .orderBy(asc(recordings.title))
+    .limit(20);
+}
+
+export async function recordingTitles(ids: string[]): Promise<Map<string, string>> {
+  // A draft's video moment may have no recording yet (its id is null): ask only for real ids.
+  const valid = [...new Set(ids.filter(isUuid))];
+  if (!valid.length) return new Map();
+  const rows = await db().select({ id: recordings.id, title: recordings.title }).from(recordings).where(inArray(recordings.id, valid));
+  return new Map(rows.map((x) => [x.id, x.title]));
+}
