@@ -71,16 +71,12 @@ export const procedureRevisions = pgTable(
     authorId: text("author_id").references(() => users.id, { onDelete: "set null" }),
     lastSavedBy: text("last_saved_by").references(() => users.id, { onDelete: "set null" }),
     changeNote: text("change_note"),
-    returnReason: text("return_reason"),
     reviewedBy: text("reviewed_by").references(() => users.id, { onDelete: "set null" }),
     /** The editor who published this revision (reviewed_by is overwritten by each review step). */
     publishedBy: text("published_by").references(() => users.id, { onDelete: "set null" }),
-    /** The editor who last returned it to Draft; the reason is return_reason, kept until it is submitted again. */
-    returnedBy: text("returned_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
     submittedAt: timestamp("submitted_at", { withTimezone: true }),
-    returnedAt: timestamp("returned_at", { withTimezone: true }),
     publishedAt: timestamp("published_at", { withTimezone: true }),
     supersededAt: timestamp("superseded_at", { withTimezone: true }),
   },
@@ -92,6 +88,25 @@ export const procedureRevisions = pgTable(
     // At most one published revision per procedure.
     uniqueIndex("procedure_revisions_one_published_idx").on(t.procedureId).where(sql`state = 'published'`),
   ],
+);
+
+/**
+ * Every return of a revision to Draft: who, when and why, kept in order (a revision may be returned,
+ * submitted again and returned again). The latest return after the latest submission is the one
+ * still waiting on the author.
+ */
+export const procedureRevisionReturns = pgTable(
+  "procedure_revision_returns",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    revisionId: uuid("revision_id")
+      .notNull()
+      .references(() => procedureRevisions.id, { onDelete: "cascade" }),
+    returnedBy: text("returned_by").references(() => users.id, { onDelete: "set null" }),
+    reason: text("reason").notNull(),
+    returnedAt: timestamp("returned_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("procedure_revision_returns_revision_idx").on(t.revisionId, t.returnedAt)],
 );
 
 /** Specs extracted from a revision's document at save. Row ids are stable per revision (upserted by spec key). */
