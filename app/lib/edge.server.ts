@@ -49,7 +49,17 @@ export function invalidInput(request: Request, error: z.ZodError, values: Record
 export function parseParams<S extends z.ZodType>(request: Request, schema: S, params: unknown, what = "page"): z.infer<S> {
   const parsed = schema.safeParse(params);
   if (parsed.success) return parsed.data;
+  notFound(request, what);
+}
+
+/** A thing the address names that does not exist (or this person may not know of): the API's 404 JSON, or the error page. */
+export function notFound(request: { url: string }, what = "page"): never {
   throw refusal(request, 404, "not found", `There is no such ${what}.`);
+}
+
+/** An API address asked with a method it does not answer (405, with the methods it does). */
+export function methodNotAllowed(allow: string): Response {
+  return Response.json({ error: "method not allowed" }, { status: 405, headers: { Allow: allow } });
 }
 
 /**

@@ -5,7 +5,7 @@
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
 import { sanitizeDocument } from "./procedures/document";
-import { readingInputSchema } from "./recordings/rules";
+import { readingInputSchema } from "./recordings/quantities";
 import { parseReadings, headerSchema } from "./test-records/form";
 import { bodyLimitFor, DEFAULT_BODY_LIMIT } from "./edge-limits";
 import { INT4_MAX, isRealDate, isUuid, nulPath, optionalParam, optionalSearch, positiveInt, positiveIntParam, quantityProblem, searchObject, slug, uuid, versionSearch } from "./edge";

@@ -4,6 +4,8 @@
  * same tag: duplicates are dropped (the first spelling stays) and filters compare with `tagKey`
  * (in SQL, `lower(…)`, which folds case the same way for the shop's words).
  */
+import { z } from "zod";
+
 export const MAX_TAGS = 12;
 export const MAX_TAG_LENGTH = 40;
 
@@ -34,3 +36,18 @@ export function normalizeTags(input: string | readonly string[]): string[] {
   }
   return out.slice(0, MAX_TAGS);
 }
+
+/** "a, b ,c" → ["a","b","c"] for a form field that takes tags as a comma list. */
+export function splitTags(s: string | null | undefined): string[] {
+  return (s ?? "")
+    .split(",")
+    .map((t) => t.trim())
+    .filter(Boolean);
+}
+
+/** Tags sent as a JSON list: too many or too long is refused with a reason (not cut), then normalised. */
+export const tagsSchema = z
+  .array(z.string().trim().min(1).max(MAX_TAG_LENGTH, `A tag is at most ${MAX_TAG_LENGTH} characters.`))
+  .max(MAX_TAGS, `At most ${MAX_TAGS} tags.`)
+  .default([])
+  .transform((tags) => normalizeTags(tags));

@@ -1,6 +1,7 @@
 import { forwardRef, useEffect, useImperativeHandle, useMemo, useRef, useState } from "react";
 import { useFetcher, useFetchers } from "react-router";
-import { formatTime, splitTags } from "~/lib/recordings/rules";
+import { splitTags } from "~/lib/tags";
+import { formatTime } from "~/lib/time-format";
 import { issuesByPath, type MarkRow, type ProcedureChoice } from "./types";
 
 export type MarksPanelHandle = { openNew: (tStart: number, tEnd?: number | null) => void };

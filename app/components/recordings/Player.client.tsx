@@ -1,7 +1,7 @@
 import { useCallback, useEffect, useRef, useState } from "react";
 import videojs from "video.js";
 import "video.js/dist/video-js.css";
-import { formatTime } from "~/lib/recordings/rules";
+import { formatTime } from "~/lib/time-format";
 import "./player.css";
 
 /**

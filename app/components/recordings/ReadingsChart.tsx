@@ -1,6 +1,7 @@
 import { useMemo, useState } from "react";
 import { NUT_FACTOR_R_SQUARED_LABEL, THREAD_PRESETS, fitNutFactor, fromSI, isUnitCode, type NutFactorFit, type UnitCode } from "~/lib/calc";
-import { displayUnit, formatTime, quantityDef } from "~/lib/recordings/rules";
+import { displayUnit, quantityDef } from "~/lib/recordings/quantities";
+import { formatTime } from "~/lib/time-format";
 import { CALC_CAUTION } from "~/lib/calc-kinds";
 import type { ReadingRow } from "./types";
 

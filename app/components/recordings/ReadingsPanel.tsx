@@ -4,20 +4,16 @@ import { toSI } from "~/lib/calc";
 import {
   DEPTH_UNITS,
   POSITION_FIELD_WORDS,
-  QUANTITIES,
   boreCylinders,
   depthEntered,
-  displayUnit,
-  formatTime,
   labelPlaceholder,
   positionFieldsFor,
   positionText,
-  quantityDef,
-  toStoredSI,
-  unitsFor,
   type DepthUnit,
   type PositionField,
-} from "~/lib/recordings/rules";
+} from "~/lib/recordings/positions";
+import { QUANTITIES, displayUnit, quantityDef, toStoredSI, unitsFor } from "~/lib/recordings/quantities";
+import { formatTime } from "~/lib/time-format";
 import { issuesByPath, type ReadingRow } from "./types";
 import { useLandingTarget } from "~/components/search/LandingTarget";
 

@@ -2,7 +2,8 @@ import { useCallback, useEffect, useRef, useState } from "react";
 import { Link } from "react-router";
 import type { Upload as TusUpload } from "tus-js-client";
 import { StateBadge } from "./StateBadge";
-import { fileNameProblem, formatBytes, titleFromFileName } from "~/lib/recordings/rules";
+import { formatBytes } from "~/lib/byte-format";
+import { fileNameProblem, titleFromFileName } from "~/lib/recordings/upload-names";
 
 type Status = "waiting" | "uploading" | "paused" | "retrying" | "done" | "error" | "cancelled";
 type RecState = { state: "processing" | "ready" | "rejected" | "failed" | "damaged"; progress: number; stateReason: string | null };

@@ -1,6 +1,7 @@
 import { useMemo, useState } from "react";
 import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
-import { DEPTH_UNITS, POSITION_FIELD_WORDS, depthEntered, positionFieldsForSpec, positionText, quantityDef, type Position, type PositionField } from "~/lib/recordings/rules";
+import { DEPTH_UNITS, POSITION_FIELD_WORDS, depthEntered, positionFieldsForSpec, positionText, type Position, type PositionField } from "~/lib/recordings/positions";
+import { quantityDef } from "~/lib/recordings/quantities";
 import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
 import { fmtNum, ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
 import { limitsText, unitText } from "./units";

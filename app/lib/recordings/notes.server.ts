@@ -5,9 +5,11 @@ import { assertCan, forbidden, type SessionUser } from "../auth.server";
 import { db } from "../db.server";
 import { canOnOwned } from "../permissions";
 import { readableProcedureIds, UNREADABLE_PROCEDURE, type Reader } from "../procedures/visibility.server";
-import { invalid, notFound } from "./api.server";
+import { invalidInput, notFound } from "../edge.server";
 import { getRecording, listMarks, listReadings, procedureChoices } from "./library.server";
-import { markInputSchema, markPatchSchema, positionInputOf, readingInputSchema, toStoredSI } from "./rules";
+import { markInputSchema, markPatchSchema } from "./marks";
+import { positionInputOf } from "./positions";
+import { readingInputSchema, toStoredSI } from "./quantities";
 
 /**
  * Marks and readings: the rules the JSON API applies (validation against the recording's
@@ -16,7 +18,7 @@ import { markInputSchema, markPatchSchema, positionInputOf, readingInputSchema, 
 
 export async function recordingOr404(request: Request, id: string) {
   const rec = await getRecording(id);
-  if (!rec) notFound(request);
+  if (!rec) notFound(request, "recording");
   return rec;
 }
 
@@ -56,7 +58,7 @@ export async function createMark(request: Request, user: SessionUser, recordingI
   assertCan(request, user, "mark:create");
   const rec = await recordingOr404(request, recordingId);
   const parsed = markInputSchema(rec.durationS).safeParse(body);
-  if (!parsed.success) return invalid(parsed.error);
+  if (!parsed.success) return invalidInput(request, parsed.error);
   if (await procedureUnreadable(user, parsed.data.procedureId)) return unknownProcedure();
   const [row] = await db()
     .insert(marks)
@@ -85,7 +87,7 @@ export async function updateMark(request: Request, user: SessionUser, recordingI
   const m = await markOr404(request, recordingId, markId);
   if (!canOnOwned(user, "mark:edit", m.createdBy)) forbidden(request, "You can change only your own marks.");
   const parsed = markPatchSchema(rec.durationS).safeParse(body);
-  if (!parsed.success) return invalid(parsed.error);
+  if (!parsed.success) return invalidInput(request, parsed.error);
   const next = { ...m, ...Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined)) };
   if (next.tEnd != null && next.tEnd <= next.tStart) {
     return Response.json({ error: "invalid input", issues: [{ path: "tEnd", message: "A span must end after it starts." }] }, { status: 422 });
@@ -121,7 +123,7 @@ export async function createReadings(request: Request, user: SessionUser, record
   const isBatch = typeof body === "object" && body !== null && Array.isArray((body as { readings?: unknown }).readings);
   const schema = isBatch ? z.object({ readings: z.array(one).min(1, "Add at least one reading.").max(500, "At most 500 readings at once.") }) : one;
   const parsed = schema.safeParse(body);
-  if (!parsed.success) return invalid(parsed.error);
+  if (!parsed.success) return invalidInput(request, parsed.error);
   const items = isBatch ? (parsed.data as { readings: z.infer<typeof one>[] }).readings : [parsed.data as z.infer<typeof one>];
   const rows = await db()
     .insert(readings)
@@ -168,7 +170,7 @@ export async function updateReading(request: Request, user: SessionUser, recordi
     ...(typeof body === "object" && body ? body : {}),
   };
   const parsed = readingInputSchema(rec.durationS).safeParse(merged);
-  if (!parsed.success) return invalid(parsed.error);
+  if (!parsed.success) return invalidInput(request, parsed.error);
   const v = parsed.data;
   const [row] = await db()
     .update(readings)

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { boreCylinders, distortionFieldsFor, positionFieldsForSpec, positionFromLabel, positionText, readingInputSchema } from "./rules";
+import { boreCylinders, distortionFieldsFor, positionFieldsForSpec, positionFromLabel, positionText } from "./positions";
+import { readingInputSchema } from "./quantities";
 
 // Unit conversions checked against NIST SP 811 (2008), B.8: 1 in = 0.0254 m exactly.
 

@@ -12,7 +12,7 @@ import { POSITION_RANGES } from "~/lib/edge";
 
 export type PositionField = "fastener" | "cylinder" | "depth" | "angle" | "journal";
 
-/** Which position fields each quantity of `rules.ts` takes (none: the label says it all). */
+/** Which position fields each quantity of `quantities.ts` takes (none: the label says it all). */
 export const POSITION_FIELDS: Record<string, PositionField[]> = {
   torque: ["fastener"],
   "clamp-load": ["fastener"],

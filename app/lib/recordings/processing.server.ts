@@ -7,9 +7,9 @@ import { eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { recordings } from "~/db/schema";
 import { db } from "../db.server";
+import { formatTime } from "../time-format";
 import { env } from "../env.server";
 import { boss, enqueueProcessing, PROCESS_QUEUE, stopBoss } from "./queue.server";
-import { formatTime } from "./rules";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
 
 export type Probe = {

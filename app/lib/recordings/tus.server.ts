@@ -11,9 +11,10 @@ import { recordings, uploads } from "~/db/schema";
 import type { SessionUser } from "../auth.server";
 import { db } from "../db.server";
 import { env } from "../env.server";
-import { normalizeTags } from "../tags";
+import { normalizeTags, splitTags } from "../tags";
 import { enqueueProcessing } from "./queue.server";
-import { fileNameProblem, formatBytes, splitTags, titleFromFileName } from "./rules";
+import { formatBytes } from "../byte-format";
+import { fileNameProblem, titleFromFileName } from "./upload-names";
 import { originalPath, recordingDir, tusDir, tusFilePath } from "./storage.server";
 
 /**

@@ -22,7 +22,7 @@ const optionalSeconds = z
   .trim()
   .default("")
   .transform((s) => (s === "" ? null : Number(s.replace(",", "."))))
-  // No recording runs a million seconds (11 days): a larger number is a slip, as in recordings/rules.ts.
+  // No recording runs a million seconds (11 days): a larger number is a slip, as in recordings/video-time.ts.
   .refine((n) => n === null || (Number.isFinite(n) && n >= 0 && n <= 1e6), { message: "Seconds from the start of the recording, 0 up to the recording's length." });
 
 export const headerSchema = z

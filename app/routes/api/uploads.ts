@@ -4,7 +4,7 @@ import type { Route } from "./+types/uploads";
 import { recordings, uploads } from "~/db/schema";
 import { forbidden, requirePermission, type SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
-import { invalid } from "~/lib/recordings/api.server";
+import { invalidInput } from "~/lib/edge.server";
 import { discardUpload, handleTus, receivedBytes, unfinishedUploads, uploadIdFrom } from "~/lib/recordings/tus.server";
 
 /**
@@ -44,7 +44,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     return Response.json({ upload: { ...row, received: row.recordingId ? row.size : await receivedBytes(row.id) } });
   }
   const query = fileQuery.safeParse(Object.fromEntries(new URL(request.url).searchParams));
-  if (!query.success) return invalid(query.error);
+  if (!query.success) return invalidInput(request, query.error);
   const { fileName, size } = query.data;
   const file = fileName != null && size != null ? { fileName, size } : undefined;
   return Response.json({ unfinished: await unfinishedUploads(user.id, file) });

@@ -8,7 +8,7 @@ import { librarySearch } from "~/lib/edge";
 import { parseSearch } from "~/lib/edge.server";
 import { can } from "~/lib/permissions";
 import { libraryFacets, listRecordings } from "~/lib/recordings/library.server";
-import { formatDuration } from "~/lib/recordings/rules";
+import { formatDuration } from "~/lib/time-format";
 import { formatDay } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Recordings · Benchreel" }];

@@ -11,7 +11,7 @@ import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { discardUpload, unfinishedUploads, UPLOAD_EXPIRY_DAYS } from "~/lib/recordings/tus.server";
-import { formatBytes } from "~/lib/recordings/rules";
+import { formatBytes } from "~/lib/byte-format";
 import { formatDayMonthTime } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Recordings · Benchreel" }];

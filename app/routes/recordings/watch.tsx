@@ -3,7 +3,7 @@ import { lazy, Suspense, useCallback, useEffect, useMemo, useRef, useState } fro
 import { data, Form, Link, useNavigation, useRevalidator, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/watch";
-import { parseParams, readForm } from "~/lib/edge.server";
+import { notFound, parseParams, readForm } from "~/lib/edge.server";
 import { idParams } from "~/lib/edge";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
@@ -21,14 +21,14 @@ import { db } from "~/lib/db.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { can, canOnOwned } from "~/lib/permissions";
-import { notFound } from "~/lib/recordings/api.server";
 import { getRecording, listReadings } from "~/lib/recordings/library.server";
 import { marksFor, procedureChoicesFor } from "~/lib/recordings/notes.server";
 import { retryRecording } from "~/lib/recordings/processing.server";
-import { formatBytes, formatDuration, formatTime, splitTags } from "~/lib/recordings/rules";
+import { formatBytes } from "~/lib/byte-format";
+import { formatDuration, formatTime } from "~/lib/time-format";
 import { recordingDir } from "~/lib/recordings/storage.server";
 import { formatDay } from "~/lib/dates";
-import { normalizeTags } from "~/lib/tags";
+import { normalizeTags, splitTags } from "~/lib/tags";
 
 const Player = lazy(() => import("~/components/recordings/Player.client"));
 
@@ -37,7 +37,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.recordi
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const recording = await getRecording(parseParams(request, idParams, params, "recording").id);
-  if (!recording) notFound(request);
+  if (!recording) notFound(request, "recording");
   const [marks, readings, procedures] = await Promise.all([marksFor(user, recording.id), listReadings(recording.id), procedureChoicesFor(user)]);
   return {
     recording,
@@ -66,7 +66,7 @@ const detailsSchema = z.object({
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "recording:edit:own");
   const rec = await getRecording(parseParams(request, idParams, params, "recording").id);
-  if (!rec) notFound(request);
+  if (!rec) notFound(request, "recording");
   const form = await readForm(request);
   const intent = form.get("intent");
   if (intent === "retry") {

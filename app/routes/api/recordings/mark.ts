@@ -1,8 +1,7 @@
 import { z } from "zod";
 import type { Route } from "./+types/mark";
 import { requirePermission } from "~/lib/auth.server";
-import { methodNotAllowed } from "~/lib/recordings/api.server";
-import { parseParams, readJsonObject } from "~/lib/edge.server";
+import { methodNotAllowed, parseParams, readJsonObject } from "~/lib/edge.server";
 import { uuid } from "~/lib/edge";
 import { deleteMark, marksFor, recordingOr404, updateMark } from "~/lib/recordings/notes.server";
 

@@ -1,7 +1,6 @@
 import type { Route } from "./+types/marks";
 import { requirePermission } from "~/lib/auth.server";
-import { methodNotAllowed } from "~/lib/recordings/api.server";
-import { parseParams, readJsonObject } from "~/lib/edge.server";
+import { methodNotAllowed, parseParams, readJsonObject } from "~/lib/edge.server";
 import { idParams } from "~/lib/edge";
 import { createMark, marksFor, recordingOr404 } from "~/lib/recordings/notes.server";
 

@@ -1,9 +1,8 @@
 import type { Route } from "./+types/media";
 import { requirePermission } from "~/lib/auth.server";
 import { idParams } from "~/lib/edge";
-import { parseParams } from "~/lib/edge.server";
+import { notFound, parseParams } from "~/lib/edge.server";
 import { serveFile } from "~/lib/recordings/media.server";
-import { notFound } from "~/lib/recordings/api.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
 import { originalPath, renditionPath } from "~/lib/recordings/storage.server";
 
@@ -12,7 +11,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
   const { id } = parseParams(request, idParams, params, "recording");
   const r = await mediaFacts(id);
-  if (!r) notFound(request);
+  if (!r) notFound(request, "recording");
   if (r.state !== "ready") return Response.json({ error: "not ready", reason: `The recording is ${r.state}.` }, { status: 409 });
   const file = r.hasRendition ? renditionPath(r.id) : originalPath(r.id);
   return serveFile(request, file, { contentType: "video/mp4" });

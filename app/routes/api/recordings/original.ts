@@ -1,9 +1,8 @@
 import type { Route } from "./+types/original";
 import { requirePermission } from "~/lib/auth.server";
 import { idParams } from "~/lib/edge";
-import { parseParams } from "~/lib/edge.server";
+import { notFound, parseParams } from "~/lib/edge.server";
 import { serveFile } from "~/lib/recordings/media.server";
-import { notFound } from "~/lib/recordings/api.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
 import { originalPath } from "~/lib/recordings/storage.server";
 
@@ -12,7 +11,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "recording:download");
   const { id } = parseParams(request, idParams, params, "recording");
   const r = await mediaFacts(id);
-  if (!r) notFound(request);
+  if (!r) notFound(request, "recording");
   if (!r.hasOriginal) return Response.json({ error: "not found", reason: "The original file is not kept for this recording." }, { status: 404 });
   return serveFile(request, originalPath(r.id), { contentType: "application/octet-stream", download: r.originalName });
 }

@@ -1,9 +1,8 @@
 import type { Route } from "./+types/poster";
 import { requirePermission } from "~/lib/auth.server";
 import { idParams } from "~/lib/edge";
-import { parseParams } from "~/lib/edge.server";
+import { notFound, parseParams } from "~/lib/edge.server";
 import { serveFile } from "~/lib/recordings/media.server";
-import { notFound } from "~/lib/recordings/api.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
 import { posterPath } from "~/lib/recordings/storage.server";
 
@@ -12,7 +11,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
   const { id } = parseParams(request, idParams, params, "recording");
   const r = await mediaFacts(id);
-  if (!r) notFound(request);
+  if (!r) notFound(request, "recording");
   if (!r.hasPoster) return Response.json({ error: "not found", reason: "No poster frame yet." }, { status: 404 });
   return serveFile(request, posterPath(r.id), { contentType: "image/jpeg", cacheSeconds: 600 });
 }

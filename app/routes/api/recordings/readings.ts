@@ -1,11 +1,11 @@
 import type { Route } from "./+types/readings";
 import { requirePermission } from "~/lib/auth.server";
 import { spreadsheetCsv } from "~/lib/csv";
-import { methodNotAllowed } from "~/lib/recordings/api.server";
-import { parseParams, readJsonObject } from "~/lib/edge.server";
+import { methodNotAllowed, parseParams, readJsonObject } from "~/lib/edge.server";
 import { idParams } from "~/lib/edge";
 import { createReadings, listReadings, recordingOr404 } from "~/lib/recordings/notes.server";
-import { depthEntered, quantityDef } from "~/lib/recordings/rules";
+import { depthEntered } from "~/lib/recordings/positions";
+import { quantityDef } from "~/lib/recordings/quantities";
 
 /**
  * GET lists a recording's readings (JSON, or CSV with ?format=csv); POST adds one reading or

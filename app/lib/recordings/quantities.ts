@@ -1,15 +1,13 @@
 /**
- * Rules for marks and readings shared by the API, the pages and the tests: which quantities a
- * reading can have, which unit codes (calc-contract.md) fit each, and the zod schemas of the
- * JSON the API takes. Pure: no Node built-ins, safe in the browser.
+ * What a reading can measure: its quantities, the unit codes (calc-contract.md) that fit each,
+ * the SI value stored, and the zod schema of the JSON the API takes for a reading (with where
+ * it was taken, `positions.ts`). Pure: no Node built-ins, safe in the browser.
  */
 import { z } from "zod";
 import { UNIT_CODES, toSI, unitLabel, isUnitCode, type UnitCode, type UnitKind } from "~/lib/calc";
 import { quantityProblem } from "~/lib/edge";
-import { normalizeTags } from "~/lib/tags";
 import { positionFromLabel, positionInputSchema, positionIssues, storedPosition } from "./positions";
-
-export * from "./positions";
+import { pastTheEnd, tooLateMessage, videoSeconds } from "./video-time";
 
 export type QuantityId =
   | "torque"
@@ -70,59 +68,6 @@ export function toStoredSI(quantity: string, value: number, unit: string): numbe
 
 const FREE_UNIT = /^[\p{L}\p{N}%/.·°²³ -]{1,16}$/u;
 
-export const tagsSchema = z
-  .array(z.string().trim().min(1).max(40, "A tag is at most 40 characters."))
-  .max(12, "At most 12 tags.")
-  .default([])
-  .transform((tags) => normalizeTags(tags));
-
-/** "a, b ,c" → ["a","b","c"] for form fields. */
-export function splitTags(s: string | null | undefined): string[] {
-  return (s ?? "")
-    .split(",")
-    .map((t) => t.trim())
-    .filter(Boolean);
-}
-
-/** No video is longer than this (about 11 days); a larger time is a typing slip. */
-const MAX_SECONDS = 1e6;
-const seconds = z.number({ error: "Enter a time in seconds." }).finite("Enter a time in seconds.").max(MAX_SECONDS, "That is later than any video runs.");
-
-export function markInputSchema(durationS: number | null) {
-  return z
-    .object({
-      tStart: seconds.min(0, "A mark cannot be before the start of the video."),
-      tEnd: seconds.nullable().optional(),
-      text: z.string().trim().min(1, "Write what happens at this moment.").max(2000, "Keep a mark under 2000 characters."),
-      tags: tagsSchema,
-      procedureId: z.string().uuid("Choose a procedure from the list.").nullable().optional(),
-    })
-    .superRefine((m, ctx) => {
-      const limit = durationS ?? Infinity;
-      if (m.tStart > limit + 0.001)
-        ctx.addIssue({ code: "custom", path: ["tStart"], message: `The video is only ${formatTime(limit)} long.` });
-      if (m.tEnd != null) {
-        if (m.tEnd <= m.tStart) ctx.addIssue({ code: "custom", path: ["tEnd"], message: "A span must end after it starts." });
-        else if (m.tEnd > limit + 0.001) ctx.addIssue({ code: "custom", path: ["tEnd"], message: `The video is only ${formatTime(limit)} long.` });
-      }
-    });
-}
-
-export const markPatchSchema = (durationS: number | null) =>
-  z.object({
-    tStart: seconds.min(0, "A mark cannot be before the start of the video.").optional(),
-    tEnd: seconds.nullable().optional(),
-    text: z.string().trim().min(1, "Write what happens at this moment.").max(2000).optional(),
-    tags: tagsSchema.optional(),
-    procedureId: z.string().uuid("Choose a procedure from the list.").nullable().optional(),
-  }).superRefine((m, ctx) => {
-    const limit = durationS ?? Infinity;
-    if (m.tStart != null && m.tStart > limit + 0.001)
-      ctx.addIssue({ code: "custom", path: ["tStart"], message: `The video is only ${formatTime(limit)} long.` });
-    if (m.tEnd != null && m.tEnd > limit + 0.001)
-      ctx.addIssue({ code: "custom", path: ["tEnd"], message: `The video is only ${formatTime(limit)} long.` });
-  });
-
 const conditionsSchema = z
   .object({
     lube: z.string().trim().max(80).optional(),
@@ -141,7 +86,7 @@ export function readingInputSchema(durationS: number | null) {
       unit: z.string().trim().min(1, "Choose a unit."),
       label: z.string().trim().max(120, "Keep the label under 120 characters.").default(""),
       conditions: conditionsSchema,
-      t: seconds.min(0, "A reading cannot be before the start of the video.").nullable().optional(),
+      t: videoSeconds.min(0, "A reading cannot be before the start of the video.").nullable().optional(),
       ...positionInputSchema.shape,
     })
     .superRefine((r, ctx) => {
@@ -169,8 +114,7 @@ export function readingInputSchema(durationS: number | null) {
       const outOfRange = (r.quantity === "other" || allowed.includes(r.unit)) && r.quantity !== "leak-down" ? quantityProblem(r.value, r.unit) : null;
       if (outOfRange && !(r.quantity === "temperature" && toStoredSI(r.quantity, r.value, r.unit) <= 0))
         ctx.addIssue({ code: "custom", path: ["value"], message: outOfRange });
-      if (r.t != null && durationS != null && r.t > durationS + 0.001)
-        ctx.addIssue({ code: "custom", path: ["t"], message: `The video is only ${formatTime(durationS)} long.` });
+      if (r.t != null && pastTheEnd(r.t, durationS)) ctx.addIssue({ code: "custom", path: ["t"], message: tooLateMessage(durationS!) });
     })
     .transform(({ fastener, cylinder, journal, depth, angle, ...r }) => {
       const given = storedPosition({ fastener, cylinder, journal, depth, angle });
@@ -185,53 +129,3 @@ export function readingInputSchema(durationS: number | null) {
 }
 
 export type ReadingInput = z.infer<ReturnType<typeof readingInputSchema>>;
-export type MarkInput = z.infer<ReturnType<typeof markInputSchema>>;
-
-/** 83.5 → "1:23.5"; 3725 → "1:02:05.0". */
-export function formatTime(s: number | null | undefined): string {
-  if (s == null || !Number.isFinite(s)) return "–";
-  const neg = s < 0;
-  const a = Math.abs(s);
-  const h = Math.floor(a / 3600);
-  const m = Math.floor((a % 3600) / 60);
-  const sec = a % 60;
-  const ss = sec.toFixed(1).padStart(4, "0");
-  return `${neg ? "-" : ""}${h ? `${h}:${String(m).padStart(2, "0")}` : m}:${ss}`;
-}
-
-export function formatDuration(s: number | null | undefined): string {
-  if (s == null || !Number.isFinite(s)) return "–";
-  const a = Math.round(s);
-  const h = Math.floor(a / 3600);
-  const m = Math.floor((a % 3600) / 60);
-  const sec = a % 60;
-  return h ? `${h}:${String(m).padStart(2, "0")}:${String(sec).padStart(2, "0")}` : `${m}:${String(sec).padStart(2, "0")}`;
-}
-
-export function formatBytes(n: number): string {
-  if (n < 1024) return `${n} B`;
-  const units = ["kB", "MB", "GB", "TB"];
-  let v = n / 1024;
-  let i = 0;
-  while (v >= 1024 && i < units.length - 1) {
-    v /= 1024;
-    i++;
-  }
-  return `${v.toFixed(v < 10 ? 1 : 0)} ${units[i]}`;
-}
-
-/** An upload's file name must be a plain name: no path separators, no control characters. */
-export function fileNameProblem(name: string): string | null {
-  if (!name || !name.trim()) return "The file has no name.";
-  if (name.length > 255) return "The file name is longer than 255 characters.";
-  if (/[/\\]/.test(name)) return "The file name contains a path separator (/ or \\); rename the file and try again.";
-  // eslint-disable-next-line no-control-regex
-  if (/[\u0000-\u001f\u007f]/.test(name)) return "The file name contains control characters; rename the file and try again.";
-  if (name === "." || name === "..") return "That is not a file name.";
-  return null;
-}
-
-/** "Bench test 2 - moly.mov" → "Bench test 2 - moly" */
-export function titleFromFileName(name: string): string {
-  return name.replace(/\.[A-Za-z0-9]{1,5}$/, "").replace(/[_]+/g, " ").trim().slice(0, 200) || "Untitled recording";
-}

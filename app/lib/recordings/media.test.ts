@@ -1,61 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { fileNameProblem, formatTime, markInputSchema, readingInputSchema, titleFromFileName, toStoredSI, unitsFor } from "./rules";
 import { parseRange } from "./media.server";
 import { damageReason, planFor, type Probe } from "./processing.server";
-
-describe("reading rules", () => {
-  const schema = readingInputSchema(120);
-  it("accepts the contract's units for each quantity and stores SI", () => {
-    expect(unitsFor("torque")).toEqual(["N.m", "ft.lbf", "in.lbf"]);
-    expect(unitsFor("leak-down")).toEqual(["%"]);
-    expect(toStoredSI("clamp-load", 51, "kN")).toBe(51000);
-    expect(toStoredSI("bore-diameter", 3.4650, "in")).toBeCloseTo(0.088011, 6);
-    expect(toStoredSI("temperature", 90, "degC")).toBeCloseTo(363.15, 9);
-    expect(toStoredSI("leak-down", 6, "%")).toBeCloseTo(0.06, 12);
-    expect(toStoredSI("other", 3200, "rpm")).toBe(3200);
-  });
-  it("refuses a unit of another kind, with the units that fit in the message", () => {
-    const r = schema.safeParse({ quantity: "clamp-load", value: 51, unit: "N.m" });
-    expect(r.success).toBe(false);
-    expect(r.error!.issues[0]).toMatchObject({ path: ["unit"], message: "N.m is not a unit of clamp load; use N, kN, lbf." });
-  });
-  it("refuses impossible values and times beyond the video", () => {
-    const msg = (x: unknown) => schema.safeParse(x).error?.issues[0]?.message;
-    expect(msg({ quantity: "temperature", value: -300, unit: "degC" })).toBe("That is below absolute zero.");
-    expect(msg({ quantity: "bore-diameter", value: 0, unit: "mm" })).toBe("This measurement must be greater than zero.");
-    expect(msg({ quantity: "torque", value: 110, unit: "N.m", t: 121 })).toBe("The video is only 2:00.0 long.");
-    expect(msg({ quantity: "other", value: 1, unit: "a/b/c/d/e/f/g/h/i" })).toMatch(/short unit/);
-    expect(schema.safeParse({ quantity: "torque", value: 110, unit: "N.m", conditions: { pass: 3, lube: " moly " } }).data?.conditions).toEqual({ pass: "3", lube: "moly" });
-  });
-});
-
-describe("mark rules", () => {
-  it("checks times against the duration and spans for order", () => {
-    const s = markInputSchema(10);
-    expect(s.safeParse({ tStart: 2, tEnd: 4, text: "x" }).success).toBe(true);
-    expect(s.safeParse({ tStart: 10.5, text: "x" }).error?.issues[0].path).toEqual(["tStart"]);
-    expect(s.safeParse({ tStart: 4, tEnd: 4, text: "x" }).error?.issues[0].path).toEqual(["tEnd"]);
-    expect(s.safeParse({ tStart: 1, text: "x", tags: ["Torque", "torque ", "moly"] }).data?.tags).toEqual(["Torque", "moly"]);
-    // Unknown duration (not probed yet): only the lower bound applies.
-    expect(markInputSchema(null).safeParse({ tStart: 99999, text: "x" }).success).toBe(true);
-  });
-});
-
-describe("names and times", () => {
-  it("refuses path separators and control characters in file names", () => {
-    expect(fileNameProblem("IMG_0412.MOV")).toBeNull();
-    expect(fileNameProblem("../x.mp4")).toMatch(/path separator/);
-    expect(fileNameProblem("a\\b.mp4")).toMatch(/path separator/);
-    expect(fileNameProblem("a\u0000b.mp4")).toMatch(/control characters/);
-    expect(fileNameProblem("  ")).toMatch(/no name/);
-  });
-  it("formats times and titles", () => {
-    expect(formatTime(83.5)).toBe("1:23.5");
-    expect(formatTime(3725)).toBe("1:02:05.0");
-    expect(formatTime(0)).toBe("0:00.0");
-    expect(titleFromFileName("stud_test_4.mp4")).toBe("stud test 4");
-  });
-});
 
 describe("Range parsing", () => {
   it("reads one range against the size", () => {
