@@ -113,6 +113,8 @@ export const readings = pgTable(
     valueSi: doublePrecision("value_si").notNull(),
     valueEntered: doublePrecision("value_entered").notNull(),
     unitEntered: text("unit_entered").notNull(),
+    /** Decimals typed (88.010 → 3: the double keeps 88.01); null when not known (shown as the value reads). Migration 0026. */
+    valueDecimals: integer("value_decimals"),
     conditions: jsonb("conditions").$type<ReadingConditions>().notNull().default({}),
     ...positionColumns(),
     t: doublePrecision("t"),

@@ -61,6 +61,8 @@ export const testRecordReadings = pgTable(
     position: integer("position").notNull(),
     valueEntered: doublePrecision("value_entered").notNull(),
     unitEntered: text("unit_entered").notNull(),
+    /** Decimals typed (88.010 → 3: the double keeps 88.01); null when not known (shown as the value reads). Migration 0026. */
+    valueDecimals: integer("value_decimals"),
     valueSi: doublePrecision("value_si").notNull(),
     /** The value in the spec's own unit, as compared with its limits. */
     valueInSpecUnit: doublePrecision("value_in_spec_unit").notNull(),
