@@ -1,8 +1,9 @@
 // `npm test`: the same set-up as `npm start`, on a throw-away PostgreSQL cluster, database,
-// ports and build folder of its own; then typecheck, Vitest (unit + integration) and
+// ports and build folder of its own; then lint, typecheck, Vitest (unit + integration) and
 // Playwright (Debian's chromium). Stops everything it started; exits non-zero on failure.
 //
 //   npm test                          everything
+//   npm test -- --only lint           Biome and knip (npm run lint); `npm run format` fixes the format
 //   npm test -- --only unit           unit tests only (no services)
 //   npm test -- --only integration tests/integration/auth.test.ts
 //   npm test -- --only e2e tests/e2e/auth.spec.ts
@@ -72,6 +73,8 @@ try {
   ensureNpmPackages();
   ensureDebianTools({ postgres: needsServices, ffmpeg: needsServices, chromium: wants("e2e") });
 
+  // Biome (lint rules, the app/lib layering, the format) and knip (dead files, exports, dependencies).
+  if (wants("lint")) await phase("lint (biome, knip)", () => runWith("npm", ["run", "-s", "lint"]));
   if (wants("typecheck")) await phase("typecheck", () => runWith("npm", ["run", "-s", "typecheck"]));
   if (wants("unit")) {
     await phase("unit (vitest)", () => runWith(bin("vitest"), ["run", "--project", "unit", ...(only.has("unit") ? filters : [])], { NODE_ENV: "test" }));
