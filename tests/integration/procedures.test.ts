@@ -3,7 +3,7 @@
 import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { procedureConflictCopies, procedureLinks, procedureRevisions, procedures, procedureSpecs } from "~/db/schema";
+import { procedureConflictCopies, procedureLinks, procedureRevisionReturns, procedureRevisions, procedures, procedureSpecs } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { createUser, http, mailTo, type TestUser } from "../support/app";
 
@@ -141,7 +141,8 @@ describe("procedures workflow", () => {
     expect(mail.text).toContain("Add the washer lube to the spec note");
     const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, revisionId));
     expect(rev.state).toBe("draft");
-    expect(rev.returnReason).toBe("Add the washer lube to the spec note");
+    const returns = await db().select().from(procedureRevisionReturns).where(eq(procedureRevisionReturns.revisionId, revisionId));
+    expect(returns.map((r) => [r.returnedBy, r.reason])).toEqual([[editor.id, "Add the washer lube to the spec note"]]);
   });
 
   it("publishes after resubmission and e-mails the author and watchers", async () => {

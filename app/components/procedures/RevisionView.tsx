@@ -10,6 +10,31 @@ export type SpecRowView = { id: string; specKey: string; label: string; quantity
 
 export const fmtDate = formatDay;
 
+/** One return to Draft as a page shows it (`by` is null for an account since removed). */
+export type ReturnView = { by: string | null; reason: string; at: Date | string };
+
+/**
+ * Every return of a revision to Draft, oldest first, each with its editor and reason. The one the
+ * draft still waits on (`waiting`: the latest, not yet submitted again) stands out; every other
+ * was followed by a new submission.
+ */
+export function ReturnList({ returns, waiting, waitingTestId = "return-reason", className = "" }: { returns: ReturnView[]; waiting: boolean; waitingTestId?: string; className?: string }) {
+  if (!returns.length) return null;
+  return (
+    <ol className={`space-y-1.5 text-sm ${className}`} aria-label="Returns to Draft" data-testid="returns">
+      {returns.map((r, i) => {
+        const open = waiting && i === returns.length - 1;
+        return (
+          <li key={`${String(r.at)}-${i}`} className={open ? "rounded-md border border-brass/60 bg-brass-soft/60 px-3 py-1.5" : "px-3"} data-testid={open ? waitingTestId : "return-earlier"}>
+            <span className="font-semibold">Returned to Draft</span> by {r.by ?? "former staff"} on {fmtDate(r.at)}: {r.reason}
+            {!open && <span className="text-graphite-soft"> (changed and submitted again)</span>}
+          </li>
+        );
+      })}
+    </ol>
+  );
+}
+
 export function StateBadge({ state }: { state: RevisionState }) {
   const cls =
     state === "published" ? "bg-ok-soft text-ok" : state === "in_review" ? "bg-brass-soft text-brass" : state === "superseded" ? "bg-paper-deep text-graphite-soft line-through decoration-1" : "bg-paper-deep text-graphite";

@@ -6,6 +6,7 @@ import { and, asc, desc, eq, inArray, or, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { procedureLinks, procedureRevisions, procedures, procedureSpecs, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
+import { returnsJson, toReturns, waitingOnAuthor, waitingReturn } from "./review.server";
 import type { Actor } from "./state";
 import { OPEN_STATES } from "./visibility.server";
 
@@ -25,22 +26,20 @@ export async function linkedFrom(procedureId: string) {
 }
 
 const publisher = alias(users, "publisher");
-const returner = alias(users, "returner");
 
+/** Every revision of a procedure, newest first, with its people and every return to Draft in order. */
 export async function history(procedureId: string) {
-  return db()
+  const rows = await db()
     .select({
       id: procedureRevisions.id,
       number: procedureRevisions.number,
       state: procedureRevisions.state,
       title: procedureRevisions.title,
       changeNote: procedureRevisions.changeNote,
-      returnReason: procedureRevisions.returnReason,
       authorId: procedureRevisions.authorId,
       author: users.name,
       publishedBy: publisher.name,
-      returnedBy: returner.name,
-      returnedAt: procedureRevisions.returnedAt,
+      returns: returnsJson(procedureRevisions.id),
       createdAt: procedureRevisions.createdAt,
       updatedAt: procedureRevisions.updatedAt,
       submittedAt: procedureRevisions.submittedAt,
@@ -52,9 +51,12 @@ export async function history(procedureId: string) {
     .from(procedureRevisions)
     .leftJoin(users, eq(users.id, procedureRevisions.authorId))
     .leftJoin(publisher, eq(publisher.id, procedureRevisions.publishedBy))
-    .leftJoin(returner, eq(returner.id, procedureRevisions.returnedBy))
     .where(eq(procedureRevisions.procedureId, procedureId))
     .orderBy(desc(procedureRevisions.number));
+  return rows.map((r) => {
+    const returns = toReturns(r.returns);
+    return { ...r, returns, waiting: waitingReturn(r, returns) };
+  });
 }
 
 /** The open revision's number, state and author only (the read page shows no more of it; its document can be large). */
@@ -109,7 +111,7 @@ export async function openRevisionsFor(user: Actor, opts: { reviewQueue: boolean
       updatedAt: procedureRevisions.updatedAt,
       submittedAt: procedureRevisions.submittedAt,
       changeNote: procedureRevisions.changeNote,
-      returnReason: procedureRevisions.returnReason,
+      returned: sql<boolean>`${waitingOnAuthor}`,
     })
     .from(procedureRevisions)
     .innerJoin(procedures, eq(procedures.id, procedureRevisions.procedureId))

@@ -17,7 +17,7 @@ export const STATE_LABELS: Record<RevisionState, string> = {
 
 export type Transition = "edit" | "submit" | "withdraw" | "return" | "publish" | "supersede" | "discard" | "restore";
 export type Actor = { id: string; role: Role };
-export type RevisionFacts = { state: RevisionState; authorId: string | null; returnReason?: string | null };
+export type RevisionFacts = { state: RevisionState; authorId: string | null };
 export type Context = {
   changeNote?: string | null;
   reason?: string | null;

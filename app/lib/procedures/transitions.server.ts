@@ -4,7 +4,7 @@
  * the mails it sends and its audit.
  */
 import { and, eq, inArray, ne, sql } from "drizzle-orm";
-import { procedureRevisions, procedures, procedureSlugs, procedureWatchers, users } from "~/db/schema";
+import { procedureRevisionReturns, procedureRevisions, procedures, procedureSlugs, procedureWatchers, users } from "~/db/schema";
 import { audit } from "~/lib/audit.server";
 import { db, type DbOrTx, type Tx } from "~/lib/db.server";
 import { DomainError } from "~/lib/domain-error";
@@ -57,7 +57,7 @@ export async function submitRevision(actor: Actor & { name: string }, revisionId
       });
     }
     const note = changeNote.trim();
-    await tx.update(procedureRevisions).set({ state: "in_review", changeNote: note, submittedAt: new Date(), returnReason: null, updatedAt: new Date() }).where(eq(procedureRevisions.id, rev.id));
+    await tx.update(procedureRevisions).set({ state: "in_review", changeNote: note, submittedAt: new Date(), updatedAt: new Date() }).where(eq(procedureRevisions.id, rev.id));
     for (const r of await reviewers(tx, actor.id)) {
       await enqueueMail(
         tx,
@@ -90,7 +90,9 @@ export async function returnRevision(actor: Actor & { name: string }, revisionId
     check("return", rev, actor, { reason });
     const why = reason.trim();
     const now = new Date();
-    await tx.update(procedureRevisions).set({ state: "draft", returnReason: why, returnedAt: now, returnedBy: actor.id, reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
+    await tx.update(procedureRevisions).set({ state: "draft", reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
+    // Every return is kept: a revision returned, submitted again and returned again shows both reasons.
+    await tx.insert(procedureRevisionReturns).values({ revisionId: rev.id, returnedBy: actor.id, reason: why, returnedAt: now });
     const author = await person(tx, rev.authorId);
     if (author) {
       await enqueueMail(

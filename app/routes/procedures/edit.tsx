@@ -9,8 +9,8 @@ import { docReferences } from "~/lib/procedures/body";
 import type { JSONNode } from "~/lib/procedures/document";
 import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { titlesFor } from "~/lib/procedures/lookup.server";
-import { reviewPeople } from "~/lib/procedures/review.server";
-import { formatDay } from "~/lib/dates";
+import { reviewPeople, waitingReturn } from "~/lib/procedures/review.server";
+import { ReturnList } from "~/components/procedures/RevisionView";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Editing: ${data?.draft.title ?? ""} · Benchreel` }];
 
@@ -24,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     slug: procedure.slug,
     hasPublished: Boolean(procedure.publishedRevisionId),
-    draft: { id: rev.id, procedureId: procedure.id, number: rev.number, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, titles, returnReason: rev.returnReason, returnedBy: people.returnedBy, returnedAt: rev.returnedAt },
+    draft: { id: rev.id, procedureId: procedure.id, number: rev.number, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, titles, returns: people.returns, waiting: Boolean(waitingReturn(rev, people.returns)) },
   };
 }
 
@@ -50,9 +50,7 @@ export default function EditDraft({ loaderData }: Route.ComponentProps) {
       >
         Changes save by themselves a moment after you stop typing.
       </PageHeader>
-      {draft.returnReason && (
-        <p className="mb-4 rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason"><span className="font-semibold">Returned to Draft{draft.returnedBy ? ` by ${draft.returnedBy}` : ""}{draft.returnedAt ? ` on ${formatDay(draft.returnedAt)}` : ""}:</span> {draft.returnReason}</p>
-      )}
+      <ReturnList returns={draft.returns} waiting={draft.waiting} className="mb-4" />
       <ProcedureEditor initial={draft} submitTo={`/procedures/${slug}/r/${draft.number}`} />
     </>
   );

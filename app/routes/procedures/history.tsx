@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/history";
 import { PageHeader } from "~/components/page";
-import { fmtDate, StateBadge } from "~/components/procedures/RevisionView";
+import { fmtDate, ReturnList, StateBadge } from "~/components/procedures/RevisionView";
 import { requirePermission } from "~/lib/auth.server";
 import { canSeeRevision, procedureOr404 } from "~/lib/procedures/routes.server";
 import { history } from "~/lib/procedures/pages.server";
@@ -43,15 +43,7 @@ export default function History({ loaderData }: Route.ComponentProps) {
                 </p>
               )}
               {r.changeNote && <p className="mt-1 text-sm"><span className="text-graphite-soft">Change note:</span> {r.changeNote}</p>}
-              {r.returnedAt && r.returnedBy && !(r.returnReason && r.state === "draft") && (
-                <p className="mt-1 text-sm text-graphite-soft" data-testid="history-returned-before">Returned to Draft by {r.returnedBy} on {fmtDate(r.returnedAt)}, then changed and submitted again.</p>
-              )}
-              {r.returnReason && r.state === "draft" && (
-                <p className="mt-2 rounded-md border border-brass/60 bg-brass-soft/60 px-3 py-1.5 text-sm" data-testid="history-returned">
-                  <span className="font-semibold">Returned to Draft</span> by {r.returnedBy ?? "former staff"}
-                  {r.returnedAt && <> on {fmtDate(r.returnedAt)}</>}: {r.returnReason}
-                </p>
-              )}
+              <ReturnList returns={r.returns} waiting={Boolean(r.waiting)} waitingTestId="history-returned" className="mt-2 -mx-3" />
             </div>
             <div className="flex flex-wrap gap-2 text-sm">
               {rows[i + 1] && <Link className="btn py-1 no-underline" to={`/procedures/${slug}/compare?from=${rows[i + 1].number}&to=${r.number}`}>Compare with revision {rows[i + 1].number}</Link>}

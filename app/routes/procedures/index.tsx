@@ -58,7 +58,7 @@ export default function Procedures({ loaderData }: Route.ComponentProps) {
                 </Link>
                 <span className="text-sm text-graphite-soft">
                   <span className={`mr-2 rounded px-1.5 py-0.5 text-xs font-semibold ${o.state === "in_review" ? "bg-brass-soft text-brass" : "bg-paper-deep"}`}>{STATE_LABELS[o.state]}</span>
-                  {o.returnReason && o.state === "draft" ? "returned · " : ""}
+                  {o.returned ? "returned · " : ""}
                   {o.author} · {fmt(o.updatedAt)}
                 </span>
               </li>

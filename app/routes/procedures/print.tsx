@@ -1,7 +1,8 @@
 import { data, Link } from "react-router";
 import type { Route } from "./+types/print";
 import "~/components/procedures/procedures.css";
-import { fmtDate, SpecTable } from "~/components/procedures/RevisionView";
+import { fmtDate, ReturnList, SpecTable } from "~/components/procedures/RevisionView";
+import { waitingReturn } from "~/lib/procedures/review.server";
 import { requirePermission } from "~/lib/auth.server";
 import { STATE_LABELS } from "~/lib/procedures/state";
 import { renderBody } from "~/components/procedures/render.server";
@@ -20,11 +21,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const rev = n ? await revisionOr404(request, user, procedure, n) : procedure.publishedRevisionId ? await revisionById(procedure.publishedRevisionId) : null;
   if (!rev) throw data({ message: "Nothing is published yet to print." }, { status: 404 });
   const [body, specs, people] = await Promise.all([renderBody(rev), specsOf(rev.id), reviewPeople(rev)]);
-  return { slug: procedure.slug, rev: { number: rev.number, title: rev.title, summary: rev.summary, area: rev.area, state: rev.state, publishedAt: rev.publishedAt, updatedAt: rev.updatedAt }, people, html: body.html, units: body.units, specs, printedAt: new Date().toISOString() };
+  return { slug: procedure.slug, rev: { number: rev.number, title: rev.title, summary: rev.summary, area: rev.area, state: rev.state, publishedAt: rev.publishedAt, updatedAt: rev.updatedAt }, people, waiting: Boolean(waitingReturn(rev, people.returns)), html: body.html, units: body.units, specs, printedAt: new Date().toISOString() };
 }
 
 export default function Print({ loaderData }: Route.ComponentProps) {
-  const { slug, rev, people, html, specs, printedAt } = loaderData;
+  const { slug, rev, people, waiting, html, specs, printedAt } = loaderData;
   return (
     <div className="print-sheet mx-auto max-w-3xl">
       <div className="no-print mb-4 flex gap-2">
@@ -41,6 +42,7 @@ export default function Print({ loaderData }: Route.ComponentProps) {
         </p>
         {rev.state !== "published" && <p className="mt-1 text-sm font-semibold text-spec-red">Not the published revision: do not work to this copy.</p>}
         {rev.summary && <p className="mt-1 font-serif text-sm">{rev.summary}</p>}
+        <ReturnList returns={people.returns} waiting={waiting} className="mt-2 -mx-3" />
       </header>
       {specs.length > 0 && <div className="mb-4"><SpecTable specs={specs} units={loaderData.units} /></div>}
       <div className="proc-body" dangerouslySetInnerHTML={{ __html: html }} />

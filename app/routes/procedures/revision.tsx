@@ -4,12 +4,12 @@ import { readForm } from "~/lib/edge.server";
 import { nulErrors } from "~/lib/forms";
 import "~/components/procedures/procedures.css";
 import { FormError } from "~/components/forms";
-import { fmtDate, RevisionArticle } from "~/components/procedures/RevisionView";
+import { ReturnList, RevisionArticle } from "~/components/procedures/RevisionView";
 import { requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { renderBody } from "~/components/procedures/render.server";
 import { domainFailure, unknownAction } from "~/lib/domain-error.server";
-import { reviewPeople } from "~/lib/procedures/review.server";
+import { reviewPeople, waitingReturn } from "~/lib/procedures/review.server";
 import { procedureOr404, revisionOr404 } from "~/lib/procedures/routes.server";
 import { available, STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
 import { startDraftFrom } from "~/lib/procedures/drafts.server";
@@ -32,8 +32,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const actions = available({ state: rev.state, authorId: rev.authorId }, user, { openRevisionNumber: open && open.id !== rev.id ? open.number : null });
   return {
     slug: procedure.slug,
-    rev: { id: rev.id, number: rev.number, state: rev.state as RevisionState, title: rev.title, summary: rev.summary, tags: rev.tags, changeNote: rev.changeNote, returnReason: rev.returnReason, returnedAt: rev.returnedAt, updatedAt: rev.updatedAt, publishedAt: rev.publishedAt, submittedAt: rev.submittedAt },
+    rev: { id: rev.id, number: rev.number, state: rev.state as RevisionState, title: rev.title, summary: rev.summary, tags: rev.tags, changeNote: rev.changeNote, updatedAt: rev.updatedAt, publishedAt: rev.publishedAt, submittedAt: rev.submittedAt },
     people,
+    waiting: Boolean(waitingReturn(rev, people.returns)),
     everPublished: Boolean(procedure.publishedRevisionId),
     html: body.html,
     widgets: body.widgets,
@@ -87,7 +88,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function RevisionPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { slug, rev, people, everPublished, html, widgets, specs, actions } = loaderData;
+  const { slug, rev, people, waiting, everPublished, html, widgets, specs, actions } = loaderData;
   const busy = useNavigation().state !== "idle";
   const errors: Record<string, string> = actionData?.errors ?? {};
   const has = (a: string) => actions.includes(a as never);
@@ -107,11 +108,7 @@ export default function RevisionPage({ loaderData, actionData }: Route.Component
           .flatMap((l, i) => (i ? [" · ", l] : [l]))}
       </p>
       {rev.changeNote && rev.state !== "draft" && <p className="text-sm"><span className="font-semibold">Change note:</span> {rev.changeNote}</p>}
-      {rev.returnReason && rev.state === "draft" && (
-        <p className="rounded-md border border-brass/60 bg-brass-soft/60 px-4 py-2 text-sm" data-testid="return-reason">
-          <span className="font-semibold">Returned to Draft{people.returnedBy ? ` by ${people.returnedBy}` : ""}{rev.returnedAt ? ` on ${fmtDate(rev.returnedAt)}` : ""}:</span> {rev.returnReason}
-        </p>
-      )}
+      <ReturnList returns={people.returns} waiting={waiting} />
       <FormError message={Object.values(errors)[0]} />
       {actions.length > 0 && (
         <div className="card flex flex-wrap items-start gap-4 p-4">
