@@ -2,6 +2,7 @@ import { env } from "./env.server";
 import securityHeaders from "./security-headers.json";
 import { forgetValidatedSessions, getUser, refreshedCookie } from "./auth.server";
 import { beginRender, cachedPage, forgetPerson, isCacheablePage, rememberPage } from "./page-cache.server";
+import { queryTiming } from "./db.server";
 import { requestStore } from "./request-store.server";
 import { declaredSizeRefusal, settleBody, urlRefusal } from "./edge.server";
 
@@ -72,7 +73,11 @@ async function inRequest(request: Request, next: () => Promise<Response>) {
   } catch {
     cookie = null;
   }
-  return withHeaders(res, SECURITY_HEADERS, cookie);
+  const out = withHeaders(res, SECURITY_HEADERS, cookie);
+  // The database work done before the headers go out (a page's loaders all finish first).
+  const timing = queryTiming();
+  if (timing) out.headers.append("Server-Timing", timing);
+  return out;
 }
 
 /** The read pages' rendered-page cache (app/lib/page-cache.server.ts); other requests pass through. */

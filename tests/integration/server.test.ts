@@ -105,4 +105,24 @@ describe("server.js", () => {
     expect(res.headers["x-frame-options"]).toBe("DENY");
     expect(res.headers["content-security-policy"]).toContain("frame-ancestors 'none'");
   });
+
+  it("reports in Server-Timing how many database queries the request made, each request its own", async () => {
+    const queries = (res: Response) => {
+      const m = /\bdb;desc="(\d+) quer(?:y|ies)";dur=[\d.]+/.exec(res.headers.get("server-timing") ?? "");
+      return m ? Number(m[1]) : null;
+    };
+    // Signed out, the sign-in page reads nothing from the database.
+    const signin = await http("/signin");
+    expect(signin.status).toBe(200);
+    expect(queries(signin)).toBeNull();
+    const { cookie } = await createUser("editor");
+    await http("/", { cookie }); // the first request also reads the session from the database
+    const alone = await http("/", { cookie });
+    expect(alone.status).toBe(200);
+    const count = queries(alone);
+    expect(count).toBeGreaterThan(0);
+    // Side by side, the requests' queries interleave on the pool; each still counts only its own.
+    const together = await Promise.all(Array.from({ length: 12 }, () => http("/", { cookie })));
+    expect(together.map(queries)).toEqual(together.map(() => count));
+  });
 });
