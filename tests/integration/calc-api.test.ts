@@ -72,6 +72,8 @@ describe("POST /api/calc/preload", () => {
     expect(body.error).toBe("invalid input");
     expect(body.issues.map((i: { path: string }) => i.path)).toContain("torque.value");
     for (const i of body.issues) expect(typeof i.message).toBe("string");
+    // Like every refusal of the API (DomainError), the first issue's message is the reason.
+    expect(body.reason).toBe(body.issues[0].message);
 
     const res2 = await post("preload", { thread: "M99x7", torque: { value: 50, unit: "lbf" }, method: { kind: "nut-factor", k: 0.15 } });
     expect(res2.status).toBe(422);

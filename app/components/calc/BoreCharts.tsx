@@ -5,40 +5,8 @@
  */
 import { convert, unitLabel, type BoreLevel, type UnitCode } from "~/lib/calc";
 import { decimalsFor, formatNumber } from "~/lib/calc-ui/units";
+import { depthValue, fittedDev, type DepthDisplay, type LevelDots } from "~/lib/calc-ui/distortion-view";
 import { Legend, Plot, niceTicks } from "./chart";
-
-export interface LevelDots {
-  depth_mm: number;
-  /** Deviation from the level's mean radius (mm) at each angle, over the full circle. */
-  dots: { angleDeg: number; dev_mm: number }[];
-}
-
-/** A "nice" exaggeration factor (1, 2 or 5 × 10^n) that makes the largest deviation about a quarter of the radius. */
-export function exaggerationFor(maxDev_mm: number, radius_mm: number): number {
-  if (!(maxDev_mm > 0)) return 1;
-  const raw = (0.28 * radius_mm) / maxDev_mm;
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  const pick = [5, 2, 1].map((m) => m * mag).find((f) => f <= raw) ?? mag;
-  return Math.max(1, pick);
-}
-
-/** The fitted radial deviation Σ A_k·cos(k·(θ − φ_k)) at angle θ (degrees). */
-export function fittedDev(level: BoreLevel, angleDeg: number): number {
-  let d = 0;
-  for (const o of level.orders) d += o.radialAmplitude_mm * Math.cos((o.order * (angleDeg - o.phaseDeg) * Math.PI) / 180);
-  return d;
-}
-
-/** How depths are shown: in the unit they were typed in, with as many decimals as were typed. */
-export interface DepthDisplay {
-  unit: UnitCode;
-  decimals: number;
-}
-
-/** A depth (computed in mm) in the unit it was typed in, without the unit: "0.472". */
-export function depthValue(depth_mm: number, d: DepthDisplay): string {
-  return formatNumber(convert(depth_mm, "mm", d.unit), d.decimals);
-}
 
 function depthText(depth_mm: number, d: DepthDisplay): string {
   return `${depthValue(depth_mm, d)} ${unitLabel(d.unit)}`;

@@ -1,13 +1,8 @@
 /** Cold and hot clearance (or recommended and measured gap) on one scale, against the spec band. */
 import { convert, unitLabel, type UnitCode } from "~/lib/calc";
+import type { Marker } from "~/lib/calc-ui/clearance-view";
 import { formatNumber, decimalsFor } from "~/lib/calc-ui/units";
 import { niceTicks, tickLabel } from "./chart";
-
-export interface Marker {
-  label: string;
-  value_mm: number;
-  tone: "cold" | "hot" | "bad";
-}
 
 export function ClearanceChart({
   markers,

@@ -1,10 +1,13 @@
 /**
  * The JSON API of the calculators: POST /api/calc/{preload|distortion|clearance} takes the
- * function's input JSON and answers its result (200), 422 with the ZodError's issues, 400 for
+ * function's input JSON and answers its result (200), 422 with the ZodError's issues (the first
+ * one's message as the reason, as every refusal of the API reads), 400 for
  * malformed JSON, 401/403 from the guard, 413 over the route's limit (app/lib/edge-limits.ts).
  */
 import { requirePermission } from "~/lib/auth.server";
 import { readText } from "~/lib/edge.server";
+import { DomainError } from "~/lib/domain-error";
+import { domainErrorJson } from "~/lib/domain-error.server";
 import { zodIssues } from "./outcome";
 
 const json = (body: unknown, status: number) =>
@@ -26,7 +29,7 @@ export async function calcApi(request: Request, compute: (input: never) => unkno
   } catch (err) {
     const issues = zodIssues(err);
     if (!issues) throw err;
-    return json({ error: "invalid input", issues }, 422);
+    return domainErrorJson(new DomainError(issues[0].message, { status: 422, field: issues[0].path, issues }));
   }
 }
 

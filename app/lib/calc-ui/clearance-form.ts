@@ -78,7 +78,9 @@ function readMaterial(values: FormValues, which: "bore" | "piston", errors: Fiel
   return { alphaPerK: micro * 1e-6 };
 }
 
-export function runClearanceForm(values: FormValues): Outcome<ClearanceResult> & { kind: ClearanceKind } {
+export type ClearanceOutcome = Outcome<ClearanceResult> & { kind: ClearanceKind };
+
+export function runClearanceForm(values: FormValues): ClearanceOutcome {
   const errors: FieldErrors = {};
   const kind: ClearanceKind = CLEARANCE_KINDS.some((k) => k.kind === values.kind) ? (values.kind as ClearanceKind) : "piston-to-wall";
   const q = (name: string, required = true) => readQuantity(values, name, errors, required, parseNumber);

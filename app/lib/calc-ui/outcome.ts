@@ -70,13 +70,6 @@ export function readQuantity(
   return { value: n, unit: values[`${name}.unit`] ?? "" };
 }
 
-/** The string fields of a submitted form. */
-export function formValues(form: FormData): FormValues {
-  const out: FormValues = {};
-  for (const [k, v] of form.entries()) if (typeof v === "string") out[k] = v;
-  return out;
-}
-
 /**
  * A calculator page's first values with the server's outcome of them, sent with the page so the
  * browser's first render shows the server's numbers. Computing them again in the browser is not
