@@ -68,9 +68,11 @@ export function ClearanceMethod() {
       <p>
         <strong>Piston-to-wall.</strong> Cold clearance is the bore minus the piston, both measured at the same temperature, the
         piston at its gauge point. Hot, each part grows by its diameter times its expansion coefficient times its rise in
-        temperature, ΔD = D·α·ΔT; the hot clearance is the grown bore minus the grown piston. The coefficients are mean values near
-        room temperature from the handbook named beside each material (ASM Handbook Vol. 1 and 2; Callister, Table B.6), taken over
-        20–100 °C: a part outside that range, or past where its material begins to melt, is warned about. The model
+        temperature, ΔD = D·α·ΔT; the hot clearance is the grown bore minus the grown piston. The coefficients are mean values from
+        the handbook named beside each material (ASM Handbook Vol. 1 and 2; Callister, Table B.6), taken over 20–100 °C. For the
+        piston alloys the handbook also gives the means from 20 °C to 200 and 300 °C; between them the mean is interpolated, so a
+        running piston at 200–300 °C is inside the figures. A part outside its material's range, or past where it begins to melt,
+        is warned about. The model
         treats each part as one uniform temperature and a plain cylinder: real pistons are cam-ground and tapered, hotter at the crown
         than the skirt, so take the hot figure as a comparison between choices, never as the piston maker's clearance.
       </p>

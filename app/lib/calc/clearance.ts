@@ -1,10 +1,11 @@
 /**
- * Clearances: piston-to-wall (optionally hot, with thermal growth ΔD = D·α·ΔT of each part),
+ * Clearances: piston-to-wall (optionally hot, with thermal growth ΔD = D·α·ΔT of each part, the
+ * piston alloys with their handbook means up to 300 °C: see thermalGrowth),
  * bearing oil clearance (direct, or housing bore − 2 × shell thickness) and ring end gap from
  * a gap factor (shop guidance), each checked against an optional spec. Temperatures outside
  * a table material's range, or past its melting point, are warned about.
  */
-import { OIL_CLEARANCE_RULE, materialById, type MaterialId } from "./materials";
+import { OIL_CLEARANCE_RULE, materialById, thermalGrowth, type MaterialId } from "./materials";
 import { clearanceInputSchema, type ClearanceInput } from "./schemas";
 import { toSI, type UnitCode } from "./units";
 
@@ -44,8 +45,9 @@ export const HOT_CLEARANCE_MIN_PER_DIAMETER = 0.00025;
 /** Upper end of the default ring-gap band without a spec: recommended gap × this factor (shop guidance). */
 export const RING_GAP_BAND_FACTOR = 1.25;
 
-function alphaOf(ref: MaterialId | { alphaPerK: number }): number {
-  return typeof ref === "string" ? materialById(ref).alphaPerK : ref.alphaPerK;
+/** ΔD/D of a part from ambient to its running temperature: a table material's means, or the typed coefficient. */
+function growthOf(ref: MaterialId | { alphaPerK: number }, from_K: number, to_K: number): number {
+  return thermalGrowth(typeof ref === "string" ? materialById(ref) : ref, from_K, to_K);
 }
 
 // A limit typed in another unit lands a rounding error away from it (212 °F is 373.15000000000003 K).
@@ -114,8 +116,8 @@ export function calculateClearance(input: ClearanceInput): ClearanceResult {
       const pistonT = toSI(t.pistonTemperature.value, t.pistonTemperature.unit);
       const dTb = boreT - ambient;
       const dTp = pistonT - ambient;
-      const hotBore = bore * (1 + alphaOf(t.boreMaterial) * dTb);
-      const hotPiston = piston * (1 + alphaOf(t.pistonMaterial) * dTp);
+      const hotBore = bore * (1 + growthOf(t.boreMaterial, ambient, boreT));
+      const hotPiston = piston * (1 + growthOf(t.pistonMaterial, ambient, pistonT));
       result.hotClearance_mm = hotBore - hotPiston;
       if (result.hotClearance_mm < 0) {
         result.hotCaution = "seize";

@@ -43,6 +43,8 @@ export {
   MATERIAL_IDS,
   MATERIALS,
   materialById,
+  meanAlphaFrom20,
+  thermalGrowth,
   resolveMaterialId,
   RING_GAP_FACTORS,
   OIL_CLEARANCE_RULE,

@@ -209,17 +209,31 @@ export interface Material {
    * extrapolation (α of these alloys rises with temperature), so the result is warned about.
    */
   alphaRange: { minK: number; maxK: number; source: string };
+  /**
+   * Mean coefficients from 20 °C up to higher temperatures, where a handbook tabulates them
+   * (20–200 °C, 20–300 °C), so that a running piston (200–300 °C) is inside the figures. `alphaPerK`
+   * is the mean up to 100 °C; between the tabulated temperatures the mean is interpolated
+   * linearly (see thermalGrowth).
+   */
+  alphaMeansFrom20?: { toK: number; alphaPerK: number }[];
   /** Where melting begins (solidus, or the eutectic for cast irons): above it no clearance means anything. */
   solidus: TemperatureLimit;
 }
 
 const C = (celsius: number) => celsius + 273.15;
 
-// The ASM values are means over 20–100 °C as printed. Callister's table gives a single value
-// per material without a temperature range; it is used over the same 20–100 °C.
-const ASM_ALPHA_RANGE = "ASM Handbook, Vol. 2 (1990): the coefficient is the mean over 20–100 °C";
+// Callister's table gives a single value per material without a temperature range; it is used
+// over 20–100 °C, like the ASM means over 20–100 °C as printed.
 const CALLISTER_ALPHA_RANGE =
   "Callister, Appendix B, Table B.6 gives one value without a range; used as a 20–100 °C mean like the handbook values (common practice, no published source)";
+// The piston alloys' means to 200 and 300 °C, as the handbook's data sheets tabulate them beside
+// the 20–100 °C mean. The figures are from memory of those tables, not checked against a copy:
+// verify before relying on the last digit.
+const ASM_WROUGHT_TO_300 =
+  "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys, the alloy's data sheet, coefficient of linear thermal expansion: means over 20–100, 20–200 and 20–300 °C (value from memory)";
+const ASM_CAST_TO_300 =
+  "ASM Handbook, Vol. 2 (1990), Properties of Cast Aluminum Alloys, 356.0 and A356.0 data sheet, coefficient of linear thermal expansion: means over 20–200 and 20–300 °C (value from memory); up to 100 °C Callister's Table B.6 value";
+
 // The iron–carbon eutectic, where cast irons begin to melt.
 const IRON_EUTECTIC = "Callister, Materials Science and Engineering: An Introduction, the iron–iron carbide phase diagram (Fig. 9.24): eutectic at 1147 °C";
 
@@ -230,8 +244,12 @@ export const MATERIALS: readonly Material[] = [
     label: "Forged aluminium 2618 (piston)",
     alphaPerK: 22.3e-6,
     use: ["piston"],
-    source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, 22.3 µm/m·K, 20–100 °C",
-    alphaRange: { minK: C(20), maxK: C(100), source: ASM_ALPHA_RANGE },
+    source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, 22.3 µm/m·K, 20–100 °C; 23.2 to 200 °C, 24.1 to 300 °C (value from memory)",
+    alphaRange: { minK: C(20), maxK: C(300), source: ASM_WROUGHT_TO_300 },
+    alphaMeansFrom20: [
+      { toK: C(200), alphaPerK: 23.2e-6 },
+      { toK: C(300), alphaPerK: 24.1e-6 },
+    ],
     solidus: { K: C(549), source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, melting range about 549–638 °C (value from memory, approximate)" },
   },
   {
@@ -239,8 +257,12 @@ export const MATERIALS: readonly Material[] = [
     label: "Forged aluminium 4032 (piston)",
     alphaPerK: 19.4e-6,
     use: ["piston"],
-    source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, 19.4 µm/m·K, 20–100 °C",
-    alphaRange: { minK: C(20), maxK: C(100), source: ASM_ALPHA_RANGE },
+    source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, 19.4 µm/m·K, 20–100 °C; 20.2 to 200 °C, 21.0 to 300 °C (value from memory)",
+    alphaRange: { minK: C(20), maxK: C(300), source: ASM_WROUGHT_TO_300 },
+    alphaMeansFrom20: [
+      { toK: C(200), alphaPerK: 20.2e-6 },
+      { toK: C(300), alphaPerK: 21.0e-6 },
+    ],
     solidus: { K: C(532), source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, melting range about 532–571 °C (value from memory, approximate)" },
   },
   {
@@ -248,8 +270,13 @@ export const MATERIALS: readonly Material[] = [
     label: "Cast aluminium A356-T6",
     alphaPerK: 21.5e-6,
     use: ["piston", "bore"],
-    source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (alloy 356.0): 21.5 × 10⁻⁶ /°C",
-    alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
+    source:
+      "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (alloy 356.0): 21.5 × 10⁻⁶ /°C; ASM Handbook, Vol. 2 (1990), Properties of Cast Aluminum Alloys (356.0, A356.0): 22.5 to 200 °C, 23.5 to 300 °C (value from memory)",
+    alphaRange: { minK: C(20), maxK: C(300), source: ASM_CAST_TO_300 },
+    alphaMeansFrom20: [
+      { toK: C(200), alphaPerK: 22.5e-6 },
+      { toK: C(300), alphaPerK: 23.5e-6 },
+    ],
     solidus: { K: C(555), source: "ASM Handbook, Vol. 2 (1990), Properties of Cast Aluminum Alloys: A356.0, melting range about 555–615 °C (value from memory, approximate)" },
   },
   {
@@ -318,6 +345,33 @@ export function materialById(id: MaterialId): Material {
   const m = MATERIALS.find((x) => x.id === id);
   if (!m) throw new Error(`unknown material ${id}`);
   return m;
+}
+
+const T20 = C(20);
+const T100 = C(100);
+
+/**
+ * The mean coefficient from 20 °C to `T_K`: `alphaPerK` up to 100 °C, then interpolated
+ * linearly between the tabulated means (20–100, 20–200, 20–300 °C), the last one beyond them.
+ */
+export function meanAlphaFrom20(m: Pick<Material, "alphaPerK" | "alphaMeansFrom20">, T_K: number): number {
+  let from = { toK: T100, alphaPerK: m.alphaPerK };
+  if (T_K <= T100 || !m.alphaMeansFrom20) return m.alphaPerK;
+  for (const to of m.alphaMeansFrom20) {
+    if (T_K <= to.toK) return from.alphaPerK + ((to.alphaPerK - from.alphaPerK) * (T_K - from.toK)) / (to.toK - from.toK);
+    from = to;
+  }
+  return from.alphaPerK;
+}
+
+/**
+ * The relative growth ΔL/L of a part from `from_K` to `to_K`. With one coefficient it is
+ * α·ΔT. With means from 20 °C (a handbook's ᾱ(20→T)) it is the difference of the strains
+ * from 20 °C, ᾱ(20→T)·(T − 20 °C) − ᾱ(20→T₀)·(T₀ − 20 °C), which is α·ΔT again below 100 °C.
+ */
+export function thermalGrowth(m: Pick<Material, "alphaPerK" | "alphaMeansFrom20">, from_K: number, to_K: number): number {
+  if (!m.alphaMeansFrom20 || Math.max(from_K, to_K) <= T100) return m.alphaPerK * (to_K - from_K);
+  return meanAlphaFrom20(m, to_K) * (to_K - T20) - meanAlphaFrom20(m, from_K) * (from_K - T20);
 }
 
 // ---------------------------------------------------------------------------------------------
