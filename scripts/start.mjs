@@ -17,9 +17,27 @@
 import fs from "node:fs";
 import path from "node:path";
 import {
-  ROOT, appEnv, bin, clusterDir, createDatabase, endLeftGroup, ensureDebianTools, ensureNpmPackages,
-  log, portFree, postgresAnswers, runWith, runningPostmaster, runsFile, spawnChild, startPostgres, stopChildren,
-  stopPostgres, supervise, tsx, waitForPort,
+  ROOT,
+  appEnv,
+  bin,
+  clusterDir,
+  createDatabase,
+  endLeftGroup,
+  ensureDebianTools,
+  ensureNpmPackages,
+  log,
+  portFree,
+  postgresAnswers,
+  runWith,
+  runningPostmaster,
+  runsFile,
+  spawnChild,
+  startPostgres,
+  stopChildren,
+  stopPostgres,
+  supervise,
+  tsx,
+  waitForPort,
 } from "./lib/stack.mjs";
 
 const reuseBuild = process.argv.slice(2).includes("--reuse-build");
@@ -54,7 +72,9 @@ fs.mkdirSync(dataDir, { recursive: true });
 const pgDir = clusterDir(dataName);
 const previous = readState();
 if (previous?.pid && previous.pid !== process.pid && runsFile(previous.pid, SELF)) {
-  console.error(`Benchreel is already running from this checkout (process ${previous.pid}) on http://127.0.0.1:${previous.ports?.app ?? appPort}.\nStop it with Ctrl-C in its terminal first.`);
+  console.error(
+    `Benchreel is already running from this checkout (process ${previous.pid}) on http://127.0.0.1:${previous.ports?.app ?? appPort}.\nStop it with Ctrl-C in its terminal first.`,
+  );
   process.exit(1);
 }
 
@@ -74,15 +94,24 @@ if (postmaster) {
     log(`PostgreSQL of this checkout is still running (pid ${postmaster.pid}, port ${dbPort}); taking it over`);
     pgRunning = true;
   } else {
-    log(`PostgreSQL of this checkout is still running (pid ${postmaster.pid}, port ${postmaster.port}); stopping it to start again on ${dbPort}`);
+    log(
+      `PostgreSQL of this checkout is still running (pid ${postmaster.pid}, port ${postmaster.port}); stopping it to start again on ${dbPort}`,
+    );
     stopPostgres(pgDir);
   }
 }
 
-for (const [port, what] of [[appPort, "app (PORT)"], [dbPort, "PostgreSQL"], [smtpPort, "fake SMTP"], [meiliPort, "fake search"]]) {
+for (const [port, what] of [
+  [appPort, "app (PORT)"],
+  [dbPort, "PostgreSQL"],
+  [smtpPort, "fake SMTP"],
+  [meiliPort, "fake search"],
+]) {
   if (port === dbPort && pgRunning) continue;
   if (!(await portFree(port))) {
-    console.error(`Port ${port} for the ${what} is taken, and not by anything a start of this checkout left behind; is another Benchreel (or something else) running?`);
+    console.error(
+      `Port ${port} for the ${what} is taken, and not by anything a start of this checkout left behind; is another Benchreel (or something else) running?`,
+    );
     process.exit(1);
   }
 }
@@ -167,7 +196,13 @@ try {
   );
   if (fs.existsSync(path.join(ROOT, "scripts/fakes/meili/server.ts"))) {
     keep("fake search", "scripts/fakes/meili/server.ts", () =>
-      tsx("scripts/fakes/meili/server.ts", ["--port", String(meiliPort), "--data", path.join(dataDir, "meili"), "--key", env.MEILI_API_KEY], env, null, detached),
+      tsx(
+        "scripts/fakes/meili/server.ts",
+        ["--port", String(meiliPort), "--data", path.join(dataDir, "meili"), "--key", env.MEILI_API_KEY],
+        env,
+        null,
+        detached,
+      ),
     );
   }
   await waitForPort(smtpPort, 30_000, "fake SMTP");

@@ -12,8 +12,22 @@ import fs from "node:fs";
 import http from "node:http";
 import path from "node:path";
 import {
-  ROOT, appEnv, bin, clusterDir, createDatabase, ensureDebianTools, ensureNpmPackages, freePort, log,
-  runWith, spawnChild, startPostgres, stopChildren, stopPostgres, tsx, waitForPort,
+  ROOT,
+  appEnv,
+  bin,
+  clusterDir,
+  createDatabase,
+  ensureDebianTools,
+  ensureNpmPackages,
+  freePort,
+  log,
+  runWith,
+  spawnChild,
+  startPostgres,
+  stopChildren,
+  stopPostgres,
+  tsx,
+  waitForPort,
 } from "./lib/stack.mjs";
 
 const argv = process.argv.slice(2);
@@ -46,14 +60,17 @@ async function teardown(code) {
   if (failedAny) {
     for (const f of logsToShow) {
       if (!fs.existsSync(f)) continue;
-      const lines = fs.readFileSync(f, "utf8").split("\n").filter((l) => !/^(GET|POST|HEAD|PATCH|OPTIONS|DELETE|PUT) \//.test(l));
+      const lines = fs
+        .readFileSync(f, "utf8")
+        .split("\n")
+        .filter((l) => !/^(GET|POST|HEAD|PATCH|OPTIONS|DELETE|PUT) \//.test(l));
       console.log(`\n--- last lines of ${path.basename(f)} (request lines left out) ---\n${lines.slice(-60).join("\n")}`);
     }
   }
   if (pgDir) stopPostgres(pgDir);
   if (pgDir) fs.rmSync(path.dirname(pgDir), { recursive: true, force: true });
   if (runDir) fs.rmSync(runDir, { recursive: true, force: true });
-  console.log("\n" + "-".repeat(60));
+  console.log(`\n${"-".repeat(60)}`);
   for (const r of results) console.log(`${r.code === 0 ? "ok  " : "FAIL"}  ${r.phase}`);
   const failed = results.filter((r) => r.code !== 0).length;
   console.log(`phases: ${results.length - failed} passed, ${failed} failed`);
@@ -77,7 +94,9 @@ try {
   if (wants("lint")) await phase("lint (biome, knip)", () => runWith("npm", ["run", "-s", "lint"]));
   if (wants("typecheck")) await phase("typecheck", () => runWith("npm", ["run", "-s", "typecheck"]));
   if (wants("unit")) {
-    await phase("unit (vitest)", () => runWith(bin("vitest"), ["run", "--project", "unit", ...(only.has("unit") ? filters : [])], { NODE_ENV: "test" }));
+    await phase("unit (vitest)", () =>
+      runWith(bin("vitest"), ["run", "--project", "unit", ...(only.has("unit") ? filters : [])], { NODE_ENV: "test" }),
+    );
   }
 
   if (needsServices) {
@@ -85,7 +104,14 @@ try {
     pgDir = clusterDir(id);
     runDir = path.join(ROOT, ".data", id, "run");
     fs.mkdirSync(runDir, { recursive: true });
-    const [dbPort, appPort, smtpPort, smtpControlPort, meiliPort, searchControlPort] = await Promise.all([freePort(), freePort(), freePort(), freePort(), freePort(), freePort()]);
+    const [dbPort, appPort, smtpPort, smtpControlPort, meiliPort, searchControlPort] = await Promise.all([
+      freePort(),
+      freePort(),
+      freePort(),
+      freePort(),
+      freePort(),
+      freePort(),
+    ]);
     await startPostgres(pgDir, dbPort);
     createDatabase(dbPort, "benchreel_test", { dropFirst: true });
     const buildDir = path.join(runDir, "build");
@@ -106,7 +132,11 @@ try {
     };
     if ((await runWith(bin("tsx"), ["scripts/migrate.ts"], env)) !== 0) throw new Error("migrations failed");
     if ((await runWith(bin("tsx"), ["scripts/seed.ts"], env)) !== 0) throw new Error("seeding failed");
-    tsx("scripts/fakes/smtp/server.ts", ["--port", String(smtpPort), "--control", String(smtpControlPort), "--dir", env.MAIL_FAKE_DIR], env);
+    tsx(
+      "scripts/fakes/smtp/server.ts",
+      ["--port", String(smtpPort), "--control", String(smtpControlPort), "--dir", env.MAIL_FAKE_DIR],
+      env,
+    );
     // The search fake can be stopped and started by tests (outage simulation) through a
     // small control server of this script's.
     let meili = null;
@@ -115,7 +145,12 @@ try {
     let killWorker = () => [];
     const startMeili = async () => {
       if (meili && meili.exitCode == null) return;
-      meili = tsx("scripts/fakes/meili/server.ts", ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY], env, path.join(runDir, "meili.log"));
+      meili = tsx(
+        "scripts/fakes/meili/server.ts",
+        ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY],
+        env,
+        path.join(runDir, "meili.log"),
+      );
       await waitForPort(meiliPort, 30_000, "fake search");
     };
     const stopMeili = () =>
@@ -155,7 +190,9 @@ try {
       worker = tsx("scripts/worker.ts", [], env, workerLog);
     };
     killWorker = () => {
-      const pids = worker?.pid ? fs.readFileSync(`/proc/${worker.pid}/task/${worker.pid}/children`, "utf8").trim().split(/\s+/).filter(Boolean).map(Number) : [];
+      const pids = worker?.pid
+        ? fs.readFileSync(`/proc/${worker.pid}/task/${worker.pid}/children`, "utf8").trim().split(/\s+/).filter(Boolean).map(Number)
+        : [];
       for (const pid of pids) process.kill(pid, "SIGKILL");
       return pids;
     };

@@ -32,22 +32,30 @@ describe("environment", () => {
     expect(() => parseEnv({ ...good, MAIL_RETRY_BASE_MS: "2.5" })).toThrow(/MAIL_RETRY_BASE_MS/);
   });
 
-  it("takes the worker's periods, tools and switches with their defaults", () => {
+  it("takes the worker's periods and tools with their defaults", () => {
     const e = parseEnv(good);
-    expect([e.MAIL_RETRY_BASE_MS, e.MAIL_POLL_MS, e.SEARCH_POLL_MS, e.SEARCH_RETRY_BASE_MS, e.SEARCH_CHECK_MS]).toEqual([5000, 1000, 500, 2000, 60_000]);
-    expect([e.FFPROBE_PATH, e.FFMPEG_PATH, e.SEARCH_INDEX, e.PORT, e.HOST]).toEqual(["/usr/bin/ffprobe", "/usr/bin/ffmpeg", "benchreel", 3000, "127.0.0.1"]);
-    expect([e.PAGE_CACHE, e.CHANGE_LISTENER]).toEqual(["on", "on"]);
-    expect(parseEnv({ ...good, MAIL_POLL_MS: "250", CHANGE_LISTENER: "off" })).toMatchObject({ MAIL_POLL_MS: 250, CHANGE_LISTENER: "off" });
+    expect([e.MAIL_RETRY_BASE_MS, e.MAIL_POLL_MS, e.SEARCH_POLL_MS, e.SEARCH_RETRY_BASE_MS, e.SEARCH_CHECK_MS]).toEqual([
+      5000, 1000, 500, 2000, 60_000,
+    ]);
+    expect([e.FFPROBE_PATH, e.FFMPEG_PATH, e.SEARCH_INDEX, e.PORT, e.HOST]).toEqual([
+      "/usr/bin/ffprobe",
+      "/usr/bin/ffmpeg",
+      "benchreel",
+      3000,
+      "127.0.0.1",
+    ]);
+    expect(parseEnv({ ...good, MAIL_POLL_MS: "250" })).toMatchObject({ MAIL_POLL_MS: 250 });
   });
 
-  it("refuses a switch that is neither on nor off, an index name the search service would refuse and a port out of range", () => {
-    expect(() => parseEnv({ ...good, PAGE_CACHE: "false" })).toThrow(/PAGE_CACHE: must be on or off/);
+  it("refuses an index name the search service would refuse and a port out of range", () => {
     expect(() => parseEnv({ ...good, SEARCH_INDEX: "bench reel" })).toThrow(/SEARCH_INDEX: must be letters, digits/);
     expect(() => parseEnv({ ...good, PORT: "70000" })).toThrow(/PORT/);
   });
 
   it("never repeats a value in its message (it may be a secret)", () => {
-    expect(() => parseEnv({ ...good, SESSION_SECRET: "hunter2" })).toThrow(expect.objectContaining({ message: expect.not.stringContaining("hunter2") }));
+    expect(() => parseEnv({ ...good, SESSION_SECRET: "hunter2" })).toThrow(
+      expect.objectContaining({ message: expect.not.stringContaining("hunter2") }),
+    );
   });
 
   it("coerces numbers from strings", () => {

@@ -12,8 +12,6 @@ const millis = (fallback: number) =>
     .max(2 ** 31 - 1, "must be at most 2147483647 ms (about 24 days)")
     .default(fallback);
 
-/** `off` turns a feature off; anything else is a typo, not "on". */
-const onOff = z.enum(["on", "off"], { error: "must be on or off" }).default("on");
 
 /**
  * Every environment variable the server and the worker read, validated once at start (the
@@ -51,14 +49,15 @@ export const envSchema = z.object({
   SEARCH_RETRY_BASE_MS: millis(2000),
   SEARCH_CHECK_MS: millis(60_000),
   UPLOAD_DIR: z.string().default("uploads"),
-  MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(20 * 1024 ** 3),
+  MAX_UPLOAD_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(20 * 1024 ** 3),
   FFPROBE_PATH: z.string().min(1).default("/usr/bin/ffprobe"),
   FFMPEG_PATH: z.string().min(1).default("/usr/bin/ffmpeg"),
   /** How many reverse proxies stand in front of the app; 0 means X-Forwarded-For is never read (app/lib/client-address.ts). */
   TRUST_PROXY: z.coerce.number().int().min(0).max(10).default(0),
-  PAGE_CACHE: onOff,
-  /** `off`: no LISTEN connection (for a pooler that cannot hold one); caches that follow the database are off with it. */
-  CHANGE_LISTENER: onOff,
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -79,7 +79,10 @@ export async function waitForPort(port, timeoutMs = 60_000, label = `port ${port
   while (Date.now() < deadline) {
     const ok = await new Promise((resolve) => {
       const sock = net.connect(port, "127.0.0.1");
-      sock.once("connect", () => (sock.destroy(), resolve(true)));
+      sock.once("connect", () => {
+        sock.destroy();
+        resolve(true);
+      });
       sock.once("error", () => resolve(false));
     });
     if (ok) return;
@@ -123,17 +126,21 @@ export async function startPostgres(dir, port) {
   fs.chmodSync(dir, 0o700);
   if (!fs.existsSync(path.join(dir, "PG_VERSION"))) {
     log(`creating a PostgreSQL cluster in ${dir}`);
-    run(...asPostgres(path.join(PG_BIN, "initdb"), ["-D", dir, "-A", "trust", "-U", "postgres", "-E", "UTF8", "--no-locale"], { stdio: "ignore" }));
+    run(
+      ...asPostgres(path.join(PG_BIN, "initdb"), ["-D", dir, "-A", "trust", "-U", "postgres", "-E", "UTF8", "--no-locale"], {
+        stdio: "ignore",
+      }),
+    );
   }
   const logFile = path.join(path.dirname(dir), "postgres.log");
   if (!fs.existsSync(logFile)) fs.writeFileSync(logFile, "");
   chownPostgres(logFile);
   run(
-    ...asPostgres(path.join(PG_BIN, "pg_ctl"), [
-      "-D", dir, "-w", "-t", "60", "-l", logFile,
-      "-o", `-p ${port} -c listen_addresses=127.0.0.1 -k ${dir} -c fsync=on`,
-      "start",
-    ], { stdio: "ignore" }),
+    ...asPostgres(
+      path.join(PG_BIN, "pg_ctl"),
+      ["-D", dir, "-w", "-t", "60", "-l", logFile, "-o", `-p ${port} -c listen_addresses=127.0.0.1 -k ${dir} -c fsync=on`, "start"],
+      { stdio: "ignore" },
+    ),
   );
   log(`PostgreSQL on 127.0.0.1:${port}`);
 }
@@ -143,7 +150,9 @@ export function stopPostgres(dir) {
   // "fast" ends sessions and checkpoints; "immediate" only if that did not finish (it
   // needs crash recovery at the next start, which PostgreSQL does by itself).
   for (const mode of ["fast", "immediate"]) {
-    const [cmd, args, opts] = asPostgres(path.join(PG_BIN, "pg_ctl"), ["-D", dir, "-m", mode, "-w", "-t", "30", "stop"], { stdio: "ignore" });
+    const [cmd, args, opts] = asPostgres(path.join(PG_BIN, "pg_ctl"), ["-D", dir, "-m", mode, "-w", "-t", "30", "stop"], {
+      stdio: "ignore",
+    });
     if (spawnSync(cmd, args, { cwd: ROOT, ...opts }).status === 0 || !runningPostmaster(dir)) break;
   }
   log("PostgreSQL stopped");
@@ -252,7 +261,10 @@ export async function stopChildren() {
       new Promise((resolve) => {
         if (c.exitCode != null) return resolve();
         const t = setTimeout(() => signalChild(c, "SIGKILL"), 6000);
-        c.once("exit", () => (clearTimeout(t), resolve()));
+        c.once("exit", () => {
+          clearTimeout(t);
+          resolve();
+        });
         signalChild(c, "SIGTERM");
       }),
   );
@@ -336,7 +348,14 @@ const sleep = (ms) => new Promise((r) => setTimeout(r, ms));
 export async function endLeftGroup(pgid, file, graceMs = 5000) {
   const found = groupRunning(pgid, file);
   const left = () => found.filter((pid) => processInfo(pid));
-  const signal = (pids, sig) => pids.forEach((pid) => { try { process.kill(pid, sig); } catch { /* gone */ } });
+  const signal = (pids, sig) =>
+    pids.forEach((pid) => {
+      try {
+        process.kill(pid, sig);
+      } catch {
+        /* gone */
+      }
+    });
   const waitGone = async (ms) => {
     const deadline = Date.now() + ms;
     while (left().length && Date.now() < deadline) await sleep(100);

@@ -24,17 +24,42 @@ export async function seedRecordings(db: Db): Promise<number> {
   const file = path.join(dir, "original");
   // 24 s test pattern with a tone, H.264/AAC; small (well under 1 MB).
   execFileSync("/usr/bin/ffmpeg", [
-    "-hide_banner", "-loglevel", "error", "-y",
-    "-f", "lavfi", "-i", "testsrc2=duration=24:size=640x360:rate=25",
-    "-f", "lavfi", "-i", "sine=frequency=440:duration=24",
-    "-c:v", "libx264", "-preset", "veryfast", "-crf", "32", "-pix_fmt", "yuv420p", "-c:a", "aac", "-b:a", "48k",
-    "-movflags", "+faststart", "-f", "mp4", file,
+    "-hide_banner",
+    "-loglevel",
+    "error",
+    "-y",
+    "-f",
+    "lavfi",
+    "-i",
+    "testsrc2=duration=24:size=640x360:rate=25",
+    "-f",
+    "lavfi",
+    "-i",
+    "sine=frequency=440:duration=24",
+    "-c:v",
+    "libx264",
+    "-preset",
+    "veryfast",
+    "-crf",
+    "32",
+    "-pix_fmt",
+    "yuv420p",
+    "-c:a",
+    "aac",
+    "-b:a",
+    "48k",
+    "-movflags",
+    "+faststart",
+    "-f",
+    "mp4",
+    file,
   ]);
   const size = fs.statSync(file).size;
   await db.insert(recordings).values({
     id: DEMO_ID,
     title: "Head stud clamp-load test, M12×1.5, moly lube (LEW-24-0117)",
-    description: "Marcus torques studs 1–4 of the 2.3 L block in three passes on the load-cell fixture; Tomás reads the clamp load off the cell after each pass.",
+    description:
+      "Marcus torques studs 1–4 of the 2.3 L block in three passes on the load-cell fixture; Tomás reads the clamp load off the cell after each pass.",
     tags: ["head studs", "clamp load", "moly"],
     state: "processing",
     originalName: "IMG_0412 stud test.mp4",
@@ -42,22 +67,62 @@ export async function seedRecordings(db: Db): Promise<number> {
     uploadedBy: "demo-marcus",
   });
   await db.insert(marks).values([
-    { recordingId: DEMO_ID, tStart: 1.5, text: "Studs chased and cleaned; moly on threads and under the nut", tags: ["prep", "moly"], createdBy: "demo-marcus" },
+    {
+      recordingId: DEMO_ID,
+      tStart: 1.5,
+      text: "Studs chased and cleaned; moly on threads and under the nut",
+      tags: ["prep", "moly"],
+      createdBy: "demo-marcus",
+    },
     { recordingId: DEMO_ID, tStart: 6, tEnd: 11, text: "Pass 1 to 40 N·m, centre out", tags: ["torque"], createdBy: "demo-marcus" },
     { recordingId: DEMO_ID, tStart: 13.2, text: "Pass 2 to 75 N·m", tags: ["torque"], createdBy: "demo-marcus" },
-    { recordingId: DEMO_ID, tStart: 18.4, text: "Final pass 110 N·m; stud 4 reads 51 kN", tags: ["torque", "clamp load"], createdBy: "demo-tomas" },
+    {
+      recordingId: DEMO_ID,
+      tStart: 18.4,
+      text: "Final pass 110 N·m; stud 4 reads 51 kN",
+      tags: ["torque", "clamp load"],
+      createdBy: "demo-tomas",
+    },
   ]);
   const pass = (n: number) => ({ pass: String(n), lube: "moly", tool: "click wrench #3" });
   // Each reading names its stud in the position field (positions.ts), not in the label.
-  const torque = (t: number, stud: number, n: number, at: number) => ({ recordingId: DEMO_ID, quantity: "torque", fastener: stud, valueEntered: t, unitEntered: "N.m", valueSi: t, conditions: pass(n), t: at, createdBy: "demo-tomas" });
-  const clamp = (kN: number, stud: number, n: number, at: number) => ({ recordingId: DEMO_ID, quantity: "clamp-load", fastener: stud, valueEntered: kN, unitEntered: "kN", valueSi: kN * 1000, conditions: pass(n), t: at, createdBy: "demo-tomas" });
-  await db.insert(readings).values([
-    torque(40, 4, 1, 10.5), clamp(18.1, 4, 1, 10.9),
-    torque(75, 4, 2, 15.0), clamp(34.6, 4, 2, 15.4),
-    torque(110, 1, 3, 19.0), clamp(49.8, 1, 3, 19.3),
-    torque(110, 2, 3, 20.1), clamp(52.3, 2, 3, 20.4),
-    torque(110, 3, 3, 21.2), clamp(50.6, 3, 3, 21.5),
-    torque(110, 4, 3, 22.3), clamp(51.0, 4, 3, 22.6),
-  ]);
+  const torque = (t: number, stud: number, n: number, at: number) => ({
+    recordingId: DEMO_ID,
+    quantity: "torque",
+    fastener: stud,
+    valueEntered: t,
+    unitEntered: "N.m",
+    valueSi: t,
+    conditions: pass(n),
+    t: at,
+    createdBy: "demo-tomas",
+  });
+  const clamp = (kN: number, stud: number, n: number, at: number) => ({
+    recordingId: DEMO_ID,
+    quantity: "clamp-load",
+    fastener: stud,
+    valueEntered: kN,
+    unitEntered: "kN",
+    valueSi: kN * 1000,
+    conditions: pass(n),
+    t: at,
+    createdBy: "demo-tomas",
+  });
+  await db
+    .insert(readings)
+    .values([
+      torque(40, 4, 1, 10.5),
+      clamp(18.1, 4, 1, 10.9),
+      torque(75, 4, 2, 15.0),
+      clamp(34.6, 4, 2, 15.4),
+      torque(110, 1, 3, 19.0),
+      clamp(49.8, 1, 3, 19.3),
+      torque(110, 2, 3, 20.1),
+      clamp(52.3, 2, 3, 20.4),
+      torque(110, 3, 3, 21.2),
+      clamp(50.6, 3, 3, 21.5),
+      torque(110, 4, 3, 22.3),
+      clamp(51.0, 4, 3, 22.6),
+    ]);
   return 1;
 }

@@ -10,7 +10,16 @@ import { evaluateRecord, readingVerdict } from "../../app/lib/test-records/verdi
 
 type Db = NodePgDatabase<Record<string, unknown>>;
 type R = [value: number, unit: string, note?: string];
-type Demo = { slug: string; workOrder: string; title: string; engineSerial: string; daysAgo: number; by: string; notes: string; readings: Record<string, R[]> };
+type Demo = {
+  slug: string;
+  workOrder: string;
+  title: string;
+  engineSerial: string;
+  daysAgo: number;
+  by: string;
+  notes: string;
+  readings: Record<string, R[]>;
+};
 
 const bores = (cyl: number, d: number[]): R[] =>
   [10, 60].flatMap((depth, li) => [0, 45, 90, 135].map((a, ai): R => [d[li * 4 + ai], "mm", `cyl ${cyl}, ${depth} mm down, ${a}°`]));
@@ -25,8 +34,14 @@ const DEMOS: Demo[] = [
     by: "demo-tomas",
     notes: "Plate torqued to the head stud figure, block at 21 °C. Two-point gauge zeroed on the 88.000 ring.",
     readings: {
-      "bore-dia": [...bores(1, [88.006, 88.004, 88.003, 88.005, 88.005, 88.004, 88.004, 88.005]), ...bores(2, [88.007, 88.005, 88.004, 88.005, 88.006, 88.005, 88.005, 88.006])],
-      "bore-oor": [[0.003, "mm", "cyl 1"], [0.003, "mm", "cyl 2"]],
+      "bore-dia": [
+        ...bores(1, [88.006, 88.004, 88.003, 88.005, 88.005, 88.004, 88.004, 88.005]),
+        ...bores(2, [88.007, 88.005, 88.004, 88.005, 88.006, 88.005, 88.005, 88.006]),
+      ],
+      "bore-oor": [
+        [0.003, "mm", "cyl 1"],
+        [0.003, "mm", "cyl 2"],
+      ],
     },
   },
   {
@@ -37,7 +52,14 @@ const DEMOS: Demo[] = [
     daysAgo: 8,
     by: "demo-tomas",
     notes: "Skirt measured at the gauge point, 12 mm up from the bottom of the skirt.",
-    readings: { "ptw-2618": [[0.068, "mm", "cyl 1"], [0.066, "mm", "cyl 2"], [0.071, "mm", "cyl 3"], [0.069, "mm", "cyl 4"]] },
+    readings: {
+      "ptw-2618": [
+        [0.068, "mm", "cyl 1"],
+        [0.066, "mm", "cyl 2"],
+        [0.071, "mm", "cyl 3"],
+        [0.069, "mm", "cyl 4"],
+      ],
+    },
   },
   {
     slug: "head-stud-installation-and-torque-sequence",
@@ -48,8 +70,16 @@ const DEMOS: Demo[] = [
     by: "demo-tomas",
     notes: "Final pass checked with the click wrench after the third stage.",
     readings: {
-      "studs-protrusion": [[52.1, "mm", "stud 1"], [52.0, "mm", "stud 4"], [51.9, "mm", "stud 7"], [52.2, "mm", "stud 10"]],
-      "studs-final": [[110, "N.m", "stud 4"], [111, "N.m", "stud 5"]],
+      "studs-protrusion": [
+        [52.1, "mm", "stud 1"],
+        [52.0, "mm", "stud 4"],
+        [51.9, "mm", "stud 7"],
+        [52.2, "mm", "stud 10"],
+      ],
+      "studs-final": [
+        [110, "N.m", "stud 4"],
+        [111, "N.m", "stud 5"],
+      ],
     },
   },
   {
@@ -60,7 +90,15 @@ const DEMOS: Demo[] = [
     daysAgo: 5,
     by: "demo-tomas",
     notes: "Main 3 measured loose twice; the crank goes back to be checked for journal size and the shell set replaced.",
-    readings: { "main-oil": [[0.052, "mm", "main 1"], [0.055, "mm", "main 2"], [0.071, "mm", "main 3"], [0.054, "mm", "main 4"], [0.05, "mm", "main 5"]] },
+    readings: {
+      "main-oil": [
+        [0.052, "mm", "main 1"],
+        [0.055, "mm", "main 2"],
+        [0.071, "mm", "main 3"],
+        [0.054, "mm", "main 4"],
+        [0.05, "mm", "main 5"],
+      ],
+    },
   },
   {
     slug: "air-cooled-flat-four-barrel-and-head-torque",
@@ -71,8 +109,16 @@ const DEMOS: Demo[] = [
     by: "demo-tomas",
     notes: "94 mm barrels, new 4032 pistons.",
     readings: {
-      "ac-ptw": [[0.0019, "in", "cyl 1"], [0.002, "in", "cyl 2"], [0.0018, "in", "cyl 3"], [0.0019, "in", "cyl 4"]],
-      "ac-stud": [[32, "N.m", "cyl 1–2 head"], [32, "N.m", "cyl 3–4 head"]],
+      "ac-ptw": [
+        [0.0019, "in", "cyl 1"],
+        [0.002, "in", "cyl 2"],
+        [0.0018, "in", "cyl 3"],
+        [0.0019, "in", "cyl 4"],
+      ],
+      "ac-stud": [
+        [32, "N.m", "cyl 1–2 head"],
+        [32, "N.m", "cyl 3–4 head"],
+      ],
     },
   },
   {
@@ -83,7 +129,14 @@ const DEMOS: Demo[] = [
     daysAgo: 2,
     by: "demo-tomas",
     notes: "Engine at operating temperature, each cylinder at TDC on compression.",
-    readings: { "leak-pct": [[0.35, "bar", "cyl 1"], [0.42, "bar", "cyl 2"], [0.38, "bar", "cyl 3"], [0.4, "bar", "cyl 4"]] },
+    readings: {
+      "leak-pct": [
+        [0.35, "bar", "cyl 1"],
+        [0.42, "bar", "cyl 2"],
+        [0.38, "bar", "cyl 3"],
+        [0.4, "bar", "cyl 4"],
+      ],
+    },
   },
 ];
 
@@ -96,31 +149,78 @@ export async function seedTestRecords(db: Db): Promise<number | "skipped"> {
     const [p] = await db.select().from(procedures).where(eq(procedures.slug, d.slug));
     if (!p?.publishedRevisionId) continue;
     found++;
-    const [dup] = await db.select({ id: testRecords.id }).from(testRecords).where(and(eq(testRecords.workOrder, d.workOrder), eq(testRecords.title, d.title)));
+    const [dup] = await db
+      .select({ id: testRecords.id })
+      .from(testRecords)
+      .where(and(eq(testRecords.workOrder, d.workOrder), eq(testRecords.title, d.title)));
     if (dup) continue;
     const [rev] = await db.select().from(procedureRevisions).where(eq(procedureRevisions.id, p.publishedRevisionId));
     const specs = await db.select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, rev.id)).orderBy(asc(procedureSpecs.position));
     const typed: Record<string, { value: number; unit: string; note: string }[]> = {};
-    for (const s of specs) for (const [value, unit, note] of d.readings[s.specKey] ?? []) (typed[s.id] ??= []).push({ value, unit, note: note ?? "" });
-    const limits = specs.map((s) => ({ id: s.id, label: s.label, quantity: s.quantity, unit: s.unit, min: s.min, max: s.max, nominal: s.nominal }));
+    for (const s of specs) {
+      const readings = d.readings[s.specKey];
+      if (readings?.length) typed[s.id] = readings.map(([value, unit, note]) => ({ value, unit, note: note ?? "" }));
+    }
+    const limits = specs.map((s) => ({
+      id: s.id,
+      label: s.label,
+      quantity: s.quantity,
+      unit: s.unit,
+      min: s.min,
+      max: s.max,
+      nominal: s.nominal,
+    }));
     const evaluation = evaluateRecord(limits, typed);
     if (!evaluation.verdict) continue; // the procedure's specs changed: nothing of this demo fits
     const when = new Date(Date.now() - d.daysAgo * 86_400_000);
     await db.transaction(async (tx) => {
       const [rec] = await tx
         .insert(testRecords)
-        .values({ procedureId: p.id, revisionId: rev.id, title: d.title, workOrder: d.workOrder, engineSerial: d.engineSerial, testedOn: isoDay(d.daysAgo), notes: d.notes, verdict: evaluation.verdict!, createdBy: d.by, createdAt: when })
+        .values({
+          procedureId: p.id,
+          revisionId: rev.id,
+          title: d.title,
+          workOrder: d.workOrder,
+          engineSerial: d.engineSerial,
+          testedOn: isoDay(d.daysAgo),
+          notes: d.notes,
+          verdict: evaluation.verdict!,
+          createdBy: d.by,
+          createdAt: when,
+        })
         .returning({ id: testRecords.id });
       const rows = specs.flatMap((s) =>
         (typed[s.id] ?? []).map((r, i) => {
           const v = readingVerdict(limits.find((l) => l.id === s.id)!, r);
           // "cyl 2, 10 mm down, 45°" goes into the position fields that fit the spec; the rest stays a note.
           const where = positionFromLabel(positionFieldsForSpec(s), r.note);
-          return { recordId: rec.id, version: 0, specId: s.id, specKey: s.specKey, position: i, valueEntered: r.value, unitEntered: r.unit, valueSi: toSI(r.value, r.unit as UnitCode), valueInSpecUnit: v.valueInSpecUnit, verdict: v.verdict, note: where.label, ...where.position, createdAt: when };
+          return {
+            recordId: rec.id,
+            version: 0,
+            specId: s.id,
+            specKey: s.specKey,
+            position: i,
+            valueEntered: r.value,
+            unitEntered: r.unit,
+            valueSi: toSI(r.value, r.unit as UnitCode),
+            valueInSpecUnit: v.valueInSpecUnit,
+            verdict: v.verdict,
+            note: where.label,
+            ...where.position,
+            createdAt: when,
+          };
         }),
       );
       await tx.insert(testRecordReadings).values(rows);
-      await tx.insert(auditLog).values({ actorId: d.by, action: "create", entity: "test_record", entityId: rec.id, detail: { workOrder: d.workOrder, revision: rev.number, verdict: evaluation.verdict, seeded: true } });
+      await tx
+        .insert(auditLog)
+        .values({
+          actorId: d.by,
+          action: "create",
+          entity: "test_record",
+          entityId: rec.id,
+          detail: { workOrder: d.workOrder, revision: rev.number, verdict: evaluation.verdict, seeded: true },
+        });
     });
     added++;
   }

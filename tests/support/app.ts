@@ -18,7 +18,9 @@ export async function createUser(role: Role, opts: { password?: string; name?: s
   const email = `${role}-${id.slice(0, 8)}@test.larkspur.example`;
   const password = opts.password ?? "test-password-123";
   const name = opts.name ?? `Test ${role} ${id.slice(0, 4)}`;
-  await db().insert(users).values({ id, email, name, role, passwordHash: await hashPassword(password) });
+  await db()
+    .insert(users)
+    .values({ id, email, name, role, passwordHash: await hashPassword(password) });
   const session = await lucia().createSession(id, {});
   return { id, email, name, role, password, cookie: cookieHeader(lucia().createSessionCookie(session.id).serialize()) };
 }
@@ -36,13 +38,18 @@ export function cookieHeader(setCookie: string): string {
 }
 
 export function cookiesFrom(res: Response): string {
-  return res.headers
-    .getSetCookie()
-    .map(cookieHeader)
-    .join("; ");
+  return res.headers.getSetCookie().map(cookieHeader).join("; ");
 }
 
-type Req = { method?: string; cookie?: string; form?: Record<string, string>; json?: unknown; headers?: Record<string, string>; origin?: string | null; body?: BodyInit };
+type Req = {
+  method?: string;
+  cookie?: string;
+  form?: Record<string, string>;
+  json?: unknown;
+  headers?: Record<string, string>;
+  origin?: string | null;
+  body?: BodyInit;
+};
 
 /** A request like the browser's: same-origin Origin header, no redirects followed. */
 export async function http(path: string, req: Req = {}): Promise<Response> {
@@ -87,5 +94,5 @@ export async function waitFor<T>(fn: () => Promise<T | null | undefined | false>
 }
 
 export async function mailTo(email: string, subjectPart: string, timeoutMs = 15_000): Promise<Captured> {
-  return waitFor(async () => (await mailbox()).find((m) => m.to.includes(email) && m.subject.includes(subjectPart)));
+  return waitFor(async () => (await mailbox()).find((m) => m.to.includes(email) && m.subject.includes(subjectPart)), timeoutMs);
 }

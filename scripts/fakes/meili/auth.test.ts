@@ -36,7 +36,12 @@ describe("master key", () => {
     const r = await failure(new Meilisearch({ host: fake.url, apiKey: "wrong" }).index("x").search("q"));
     expect(r).toEqual({
       status: 403,
-      body: { message: "The provided API key is invalid.", code: "invalid_api_key", type: "auth", link: "https://docs.meilisearch.com/errors#invalid_api_key" },
+      body: {
+        message: "The provided API key is invalid.",
+        code: "invalid_api_key",
+        type: "auth",
+        link: "https://docs.meilisearch.com/errors#invalid_api_key",
+      },
     });
   });
 

@@ -27,7 +27,14 @@ import { tokenize } from "./tokenizer";
 export type BenchDoc = { id: string; kind: "procedure" | "mark" | "reading"; title: string; tags: string[]; body: string };
 export type Corpus = { docs: BenchDoc[]; vocabulary: string[]; df: Map<string, number> };
 export type Stat = { p50: number; p95: number; mean: number; samples: number };
-export type BenchCase = { queries: string[]; sdk: Stat; engine: Stat; minisearch?: Stat; ratioSdkToEngineP95: number; meanEstimatedTotalHits: number };
+export type BenchCase = {
+  queries: string[];
+  sdk: Stat;
+  engine: Stat;
+  minisearch?: Stat;
+  ratioSdkToEngineP95: number;
+  meanEstimatedTotalHits: number;
+};
 export type BenchResult = {
   docs: number;
   vocabulary: number;
@@ -53,7 +60,38 @@ function rng(seed: number) {
   };
 }
 
-const SYLLABLES = ["ka", "ro", "mi", "te", "lu", "sa", "no", "vi", "de", "ra", "po", "zu", "fe", "li", "go", "ta", "be", "ni", "xo", "qu", "sha", "dre", "kel", "mor", "tin", "vas", "bru", "ple", "gan", "sor"];
+const SYLLABLES = [
+  "ka",
+  "ro",
+  "mi",
+  "te",
+  "lu",
+  "sa",
+  "no",
+  "vi",
+  "de",
+  "ra",
+  "po",
+  "zu",
+  "fe",
+  "li",
+  "go",
+  "ta",
+  "be",
+  "ni",
+  "xo",
+  "qu",
+  "sha",
+  "dre",
+  "kel",
+  "mor",
+  "tin",
+  "vas",
+  "bru",
+  "ple",
+  "gan",
+  "sor",
+];
 
 /** Invented words only, so that no real term (or product) is ever part of the data. */
 export function generateCorpus(opts: { docs?: number; vocabulary?: number; seed?: number } = {}): Corpus {
@@ -93,7 +131,13 @@ export function generateCorpus(opts: { docs?: number; vocabulary?: number; seed?
     const long = i % 4 === 0;
     const kind = long ? "procedure" : i % 4 === 1 ? "reading" : "mark";
     const bodyLen = long ? 500 + Math.floor(rand() * 2501) : 10 + Math.floor(rand() * 31);
-    const doc: BenchDoc = { id: `d${i}`, kind, title: words(3 + Math.floor(rand() * 5)).join(" "), tags: words(2), body: words(bodyLen).join(" ") };
+    const doc: BenchDoc = {
+      id: `d${i}`,
+      kind,
+      title: words(3 + Math.floor(rand() * 5)).join(" "),
+      tags: words(2),
+      body: words(bodyLen).join(" "),
+    };
     for (const w of new Set([...doc.title.split(" "), ...doc.tags, ...doc.body.split(" ")])) df.set(w, (df.get(w) ?? 0) + 1);
     docs.push(doc);
   }
@@ -206,8 +250,16 @@ export async function runMeiliBench(
       }
       const s = stat(sdk);
       const e = stat(eng);
-      cases[name] = { queries: qs.slice(0, 3), sdk: s, engine: e, ratioSdkToEngineP95: Math.round((s.p95 / Math.max(e.p95, 0.01)) * 100) / 100, meanEstimatedTotalHits: Math.round(hits / qs.length) };
-      log(`${name.padEnd(18)} sdk p50 ${s.p50} p95 ${s.p95} ms | engine p50 ${e.p50} p95 ${e.p95} ms | ~${cases[name].meanEstimatedTotalHits} hits`);
+      cases[name] = {
+        queries: qs.slice(0, 3),
+        sdk: s,
+        engine: e,
+        ratioSdkToEngineP95: Math.round((s.p95 / Math.max(e.p95, 0.01)) * 100) / 100,
+        meanEstimatedTotalHits: Math.round(hits / qs.length),
+      };
+      log(
+        `${name.padEnd(18)} sdk p50 ${s.p50} p95 ${s.p95} ms | engine p50 ${e.p50} p95 ${e.p95} ms | ~${cases[name].meanEstimatedTotalHits} hits`,
+      );
     }
 
     let minisearchMs: number | undefined;
@@ -231,7 +283,11 @@ export async function runMeiliBench(
         const xs: number[] = [];
         for (const q of qs) {
           const a = performance.now();
-          ms.search(q, { prefix: (_t, i, terms) => i === terms.length - 1, fuzzy: (t) => (t.length >= 9 ? 2 : t.length >= 5 ? 1 : 0), combineWith: "OR" });
+          ms.search(q, {
+            prefix: (_t, i, terms) => i === terms.length - 1,
+            fuzzy: (t) => (t.length >= 9 ? 2 : t.length >= 5 ? 1 : 0),
+            combineWith: "OR",
+          });
           xs.push(performance.now() - a);
         }
         cases[name].minisearch = stat(xs);
@@ -254,7 +310,11 @@ export async function runMeiliBench(
       vocabulary: corpus.vocabulary.length,
       longDocs: corpus.docs.filter((d) => d.kind === "procedure").length,
       totalWords,
-      indexing: { ms: Math.round(indexMs), docsPerSecond: Math.round(N / (indexMs / 1000)), minisearchMs: minisearchMs && Math.round(minisearchMs) },
+      indexing: {
+        ms: Math.round(indexMs),
+        docsPerSecond: Math.round(N / (indexMs / 1000)),
+        minisearchMs: minisearchMs && Math.round(minisearchMs),
+      },
       memory,
       machine: { cpus: os.cpus().length, loadBefore, loadAfter: Math.round(os.loadavg()[0] * 100) / 100 },
       cases,
@@ -281,12 +341,23 @@ if (import.meta.url === `file://${process.argv[1]}`) {
   if (asJson) console.log(JSON.stringify(result, null, 2));
   else {
     console.log(`\nmachine: ${result.machine.cpus} CPUs, load average ${result.machine.loadBefore} → ${result.machine.loadAfter}`);
-    console.log(`indexing: ${result.indexing.ms} ms (${result.indexing.docsPerSecond} docs/s); heap ${result.memory.heapUsedMB} MB (fake ≈ ${result.memory.fakeHeapDeltaMB} MB), rss ${result.memory.rssMB} MB`);
+    console.log(
+      `indexing: ${result.indexing.ms} ms (${result.indexing.docsPerSecond} docs/s); heap ${result.memory.heapUsedMB} MB (fake ≈ ${result.memory.fakeHeapDeltaMB} MB), rss ${result.memory.rssMB} MB`,
+    );
     console.table(
       Object.fromEntries(
         Object.entries(result.cases).map(([k, c]) => [
           k,
-          { "sdk p50": c.sdk.p50, "sdk p95": c.sdk.p95, "engine p50": c.engine.p50, "engine p95": c.engine.p95, "minisearch p50": c.minisearch?.p50, "minisearch p95": c.minisearch?.p95, "sdk/engine": c.ratioSdkToEngineP95, hits: c.meanEstimatedTotalHits },
+          {
+            "sdk p50": c.sdk.p50,
+            "sdk p95": c.sdk.p95,
+            "engine p50": c.engine.p50,
+            "engine p95": c.engine.p95,
+            "minisearch p50": c.minisearch?.p50,
+            "minisearch p95": c.minisearch?.p95,
+            "sdk/engine": c.ratioSdkToEngineP95,
+            hits: c.meanEstimatedTotalHits,
+          },
         ]),
       ),
     );

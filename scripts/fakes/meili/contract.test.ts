@@ -32,9 +32,36 @@ const DOCS: Doc[] = [
     year: 2023,
     hours: 2,
   },
-  { id: "m1", kind: "mark", title: "Ring gap check", body: "Top ring gap measured at 0.018 in on cylinder 3.", tags: ["rings"], state: "published", year: 2022, hours: 0.25 },
-  { id: "m2", kind: "mark", title: "PTW re-check after honing", body: "Clearance grew by a tenth after the final hone.", tags: ["pistons"], state: "published", year: 2024, hours: 0.5 },
-  { id: "r1", kind: "reading", title: "Bore diameter", body: "Cylinder 2 bore 4.0005 in, taper within limits.", tags: ["bore"], state: "published", year: 2020, hours: 0.1 },
+  {
+    id: "m1",
+    kind: "mark",
+    title: "Ring gap check",
+    body: "Top ring gap measured at 0.018 in on cylinder 3.",
+    tags: ["rings"],
+    state: "published",
+    year: 2022,
+    hours: 0.25,
+  },
+  {
+    id: "m2",
+    kind: "mark",
+    title: "PTW re-check after honing",
+    body: "Clearance grew by a tenth after the final hone.",
+    tags: ["pistons"],
+    state: "published",
+    year: 2024,
+    hours: 0.5,
+  },
+  {
+    id: "r1",
+    kind: "reading",
+    title: "Bore diameter",
+    body: "Cylinder 2 bore 4.0005 in, taper within limits.",
+    tags: ["bore"],
+    state: "published",
+    year: 2020,
+    hours: 0.1,
+  },
   ...Array.from({ length: 30 }, (_, i) => ({
     id: `f${i}`,
     kind: "mark",
@@ -47,7 +74,9 @@ const DOCS: Doc[] = [
   })),
 ];
 
-async function apiError(p: Promise<unknown>): Promise<{ status: number; body: { message: string; code: string; type: string; link: string } }> {
+async function apiError(
+  p: Promise<unknown>,
+): Promise<{ status: number; body: { message: string; code: string; type: string; link: string } }> {
   try {
     await p;
   } catch (e) {
@@ -80,7 +109,9 @@ if (process.env.MEILI_HOST) {
   });
 } else {
   // Not a skipped test: the suite below simply has one target fewer. Said in the output.
-  console.info("[meili contract] MEILI_HOST is not set: the suite runs against the fake only; set MEILI_HOST (and MEILI_API_KEY) to run it against a real Meilisearch too.");
+  console.info(
+    "[meili contract] MEILI_HOST is not set: the suite runs against the fake only; set MEILI_HOST (and MEILI_API_KEY) to run it against a real Meilisearch too.",
+  );
 }
 
 for (const target of targets) {
@@ -124,7 +155,9 @@ for (const target of targets) {
         expect(await client.health()).toEqual({ status: "available" });
         expect(await client.isHealthy()).toBe(true);
         const v = await client.getVersion();
-        expect(v).toEqual(expect.objectContaining({ commitSha: expect.any(String), commitDate: expect.any(String), pkgVersion: expect.any(String) }));
+        expect(v).toEqual(
+          expect.objectContaining({ commitSha: expect.any(String), commitDate: expect.any(String), pkgVersion: expect.any(String) }),
+        );
       });
     });
 
@@ -135,7 +168,13 @@ for (const target of targets) {
       it("creates, gets, lists, updates and deletes an index through tasks", async () => {
         const name = `${run}_tmp`;
         const enqueued = await client.createIndex(name);
-        expect(enqueued).toEqual({ taskUid: expect.any(Number), indexUid: name, status: "enqueued", type: "indexCreation", enqueuedAt: expect.any(String) });
+        expect(enqueued).toEqual({
+          taskUid: expect.any(Number),
+          indexUid: name,
+          status: "enqueued",
+          type: "indexCreation",
+          enqueuedAt: expect.any(String),
+        });
         const task = await client.tasks.waitForTask(enqueued.taskUid);
         expect(task).toEqual(
           expect.objectContaining({
@@ -154,7 +193,9 @@ for (const target of targets) {
         expect(task.details).toEqual(expect.objectContaining({ primaryKey: null }));
 
         const raw = await client.getRawIndex(name);
-        expect(raw).toEqual(expect.objectContaining({ uid: name, primaryKey: null, createdAt: expect.any(String), updatedAt: expect.any(String) }));
+        expect(raw).toEqual(
+          expect.objectContaining({ uid: name, primaryKey: null, createdAt: expect.any(String), updatedAt: expect.any(String) }),
+        );
         const fetched = await client.getIndex(name);
         expect(fetched.uid).toBe(name);
 
@@ -168,7 +209,12 @@ for (const target of targets) {
 
         const dup = await client.createIndex(name).waitTask();
         expect(dup.status).toBe("failed");
-        expect(dup.error).toEqual({ message: expect.any(String), code: "index_already_exists", type: "invalid_request", link: expect.any(String) });
+        expect(dup.error).toEqual({
+          message: expect.any(String),
+          code: "index_already_exists",
+          type: "invalid_request",
+          link: expect.any(String),
+        });
 
         const del = await client.deleteIndex(name).waitTask();
         expect(del).toEqual(expect.objectContaining({ status: "succeeded", type: "indexDeletion" }));
@@ -320,7 +366,12 @@ for (const target of targets) {
       it("fails the task for an invalid document id, and for a filter on a non-filterable attribute", async () => {
         const t = await index.addDocuments([{ ...DOCS[0], id: "bad id!" }]).waitTask();
         expect(t.status).toBe("failed");
-        expect(t.error).toEqual({ message: expect.any(String), code: "invalid_document_id", type: "invalid_request", link: expect.any(String) });
+        expect(t.error).toEqual({
+          message: expect.any(String),
+          code: "invalid_document_id",
+          type: "invalid_request",
+          link: expect.any(String),
+        });
         const f = await index.deleteDocuments({ filter: "title = x" }).waitTask();
         expect(f.status).toBe("failed");
         expect(f.error?.code).toBe("invalid_document_filter");
@@ -337,7 +388,14 @@ for (const target of targets) {
       it("answers the response shape for POST and GET", async () => {
         const r = await index.search("piston");
         expect(r).toEqual(
-          expect.objectContaining({ hits: expect.any(Array), query: "piston", processingTimeMs: expect.any(Number), limit: 20, offset: 0, estimatedTotalHits: expect.any(Number) }),
+          expect.objectContaining({
+            hits: expect.any(Array),
+            query: "piston",
+            processingTimeMs: expect.any(Number),
+            limit: 20,
+            offset: 0,
+            estimatedTotalHits: expect.any(Number),
+          }),
         );
         expect(r.hits.map((h) => h.id)).toContain("p1");
         expect(r.hits[0]).not.toHaveProperty("_formatted");
@@ -403,7 +461,9 @@ for (const target of targets) {
           link: "https://docs.meilisearch.com/errors#invalid_search_filter",
         });
         const quote = await apiError(index.search("", { filter: ["kind = 'procedure"] }));
-        expect(quote.body.message).toBe("Expression `\\'procedure` is missing the following closing delimiter: `'`.\n8:18 kind = 'procedure");
+        expect(quote.body.message).toBe(
+          "Expression `\\'procedure` is missing the following closing delimiter: `'`.\n8:18 kind = 'procedure",
+        );
       });
 
       // Published: filtering on an attribute not in `filterableAttributes` answers `invalid_search_filter`
@@ -444,11 +504,23 @@ for (const target of targets) {
         expect(r.hits[0]._formatted?.body).toContain("<mark>moly</mark>");
         expect(r.hits[0]._formatted?.title).toBe(DOCS[1].title);
 
-        const c = await index.search("torque", { filter: "kind = procedure", attributesToCrop: ["body"], cropLength: 5, cropMarker: "[…]", attributesToHighlight: ["body"] });
+        const c = await index.search("torque", {
+          filter: "kind = procedure",
+          attributesToCrop: ["body"],
+          cropLength: 5,
+          cropMarker: "[…]",
+          attributesToHighlight: ["body"],
+        });
         const body = c.hits[0]._formatted?.body as string;
         expect(body).toContain("<em>torque</em>");
         expect(body.startsWith("[…]") || body.endsWith("[…]")).toBe(true);
-        expect(body.replace(/<\/?em>/g, "").replace(/\[…\]/g, "").trim().split(/\s+/).length).toBeLessThanOrEqual(6);
+        expect(
+          body
+            .replace(/<\/?em>/g, "")
+            .replace(/\[…\]/g, "")
+            .trim()
+            .split(/\s+/).length,
+        ).toBeLessThanOrEqual(6);
 
         const whole = await index.search("ring", { attributesToHighlight: ["*"], filter: "kind = mark AND tags = rings" });
         expect(whole.hits[0]._formatted?.title).toBe("<em>Ring</em> gap check");
@@ -551,7 +623,12 @@ for (const target of targets) {
       it("answers 404 index_not_found for an unknown index", async () => {
         const r = await apiError(client.index(`${run}_missing`).search("x"));
         expect(r.status).toBe(404);
-        expect(r.body).toEqual({ message: `Index \`${run}_missing\` not found.`, code: "index_not_found", type: "invalid_request", link: "https://docs.meilisearch.com/errors#index_not_found" });
+        expect(r.body).toEqual({
+          message: `Index \`${run}_missing\` not found.`,
+          code: "index_not_found",
+          type: "invalid_request",
+          link: "https://docs.meilisearch.com/errors#index_not_found",
+        });
       });
 
       // Published: POST /multi-search answers `results`, one per query, each with its `indexUid`
@@ -577,7 +654,12 @@ for (const target of targets) {
         { id: "reading", title: "stud 4 torque 110 N·m", lines: ["pass 3 lube moly"], kindWeight: 1 },
         { id: "spec", title: "Head stud final torque", lines: ["moly on threads and washer face"], kindWeight: 5 },
         { id: "note", title: "Stud torque", lines: ["dry threads"], kindWeight: 9 },
-        { id: "bench", title: "Clamp load readings", lines: ["stud 1 moly 49.8 kN", "stud 2 dry 47.1 kN", "stud 3 moly 50.6 kN"], kindWeight: 1 },
+        {
+          id: "bench",
+          title: "Clamp load readings",
+          lines: ["stud 1 moly 49.8 kN", "stud 2 dry 47.1 kN", "stud 3 moly 50.6 kN"],
+          kindWeight: 1,
+        },
       ];
       let ix: Index<Item>;
       beforeAll(async () => {
@@ -634,7 +716,13 @@ for (const target of targets) {
       // `error` (https://www.meilisearch.com/docs/reference/api/tasks#get-tasks).
       it("lists tasks with filters and paging", async () => {
         const r = await client.tasks.getTasks({ indexUids: [uid], limit: 2 });
-        expect(r).toEqual({ results: expect.any(Array), total: expect.any(Number), limit: 2, from: expect.any(Number), next: expect.any(Number) });
+        expect(r).toEqual({
+          results: expect.any(Array),
+          total: expect.any(Number),
+          limit: 2,
+          from: expect.any(Number),
+          next: expect.any(Number),
+        });
         expect(r.results).toHaveLength(2);
         expect(r.results[0].uid).toBeGreaterThan(r.results[1].uid);
         for (const t of r.results) expect(t.indexUid).toBe(uid);
@@ -644,7 +732,12 @@ for (const target of targets) {
         expect(failed.results.length).toBeGreaterThan(0);
         for (const t of failed.results) {
           expect(t.status).toBe("failed");
-          expect(t.error).toEqual({ message: expect.any(String), code: expect.any(String), type: expect.any(String), link: expect.any(String) });
+          expect(t.error).toEqual({
+            message: expect.any(String),
+            code: expect.any(String),
+            type: expect.any(String),
+            link: expect.any(String),
+          });
         }
         const types = await client.tasks.getTasks({ types: ["settingsUpdate"], indexUids: [uid] });
         for (const t of types.results) expect(t.type).toBe("settingsUpdate");
@@ -663,10 +756,20 @@ for (const target of targets) {
         expect(refused.body.code).toBe("missing_task_filters");
         const done = await index.updateSettings({ stopWords: [] }).waitTask();
         const cancel = await client.tasks.cancelTasks({ uids: [done.uid] });
-        expect(cancel).toEqual(expect.objectContaining({ taskUid: expect.any(Number), indexUid: null, status: "enqueued", type: "taskCancelation", enqueuedAt: expect.any(String) }));
+        expect(cancel).toEqual(
+          expect.objectContaining({
+            taskUid: expect.any(Number),
+            indexUid: null,
+            status: "enqueued",
+            type: "taskCancelation",
+            enqueuedAt: expect.any(String),
+          }),
+        );
         const finished = await client.tasks.waitForTask(cancel.taskUid);
         expect(finished).toEqual(expect.objectContaining({ status: "succeeded", type: "taskCancelation", indexUid: null, error: null }));
-        expect(finished.details).toEqual(expect.objectContaining({ matchedTasks: 1, canceledTasks: 0, originalFilter: `?uids=${done.uid}` }));
+        expect(finished.details).toEqual(
+          expect.objectContaining({ matchedTasks: 1, canceledTasks: 0, originalFilter: `?uids=${done.uid}` }),
+        );
         expect((await client.tasks.getTask(done.uid)).status).toBe("succeeded");
         const badFilter = await apiError(client.tasks.cancelTasks({ statuses: ["nonsense" as never] }));
         expect(badFilter.body.code).toBe("invalid_task_statuses");

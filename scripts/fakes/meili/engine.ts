@@ -17,7 +17,16 @@
  */
 import SearchableMap from "minisearch/SearchableMap";
 import { bad, documentNotFound, invalidType, MeiliError } from "./errors";
-import { filterFields, FilterSyntaxError, FilterTypeError, parseFilterParam, type FilterNode, type ParsedFilter, type ParsedFilterNode, type Token } from "./filter";
+import {
+  filterFields,
+  FilterSyntaxError,
+  FilterTypeError,
+  parseFilterParam,
+  type FilterNode,
+  type ParsedFilter,
+  type ParsedFilterNode,
+  type Token,
+} from "./filter";
 import { applySettings, defaultSettings, type GranularFilterable, type Settings } from "./settings";
 import { formatText, matchSpans, type HitMatch } from "./format";
 import { indexTerms, isNumericTerm, normalizeTerm, scanChunks, type Chunk } from "./tokenizer";
@@ -124,7 +133,12 @@ function valuesAt(doc: unknown, path: string): unknown[] {
 }
 
 function globToRegExp(p: string) {
-  return new RegExp(`^${p.split("*").map((s) => s.replace(/[.+?^${}()|[\]\\]/g, "\\$&")).join(".*")}$`);
+  return new RegExp(
+    `^${p
+      .split("*")
+      .map((s) => s.replace(/[.+?^${}()|[\]\\]/g, "\\$&"))
+      .join(".*")}$`,
+  );
 }
 
 /** An attribute-pattern list (filterable, sortable, displayed...) as a predicate on paths. */
@@ -143,7 +157,8 @@ const DOC_ID_RE = /^[a-zA-Z0-9_-]{1,511}$/;
 
 function docIdOf(doc: Doc, pk: string): string {
   const v = doc[pk];
-  if (v === undefined || v === null) throw new MeiliError(400, "missing_document_id", `Document doesn't have a \`${pk}\` attribute: \`${JSON.stringify(doc)}\`.`);
+  if (v === undefined || v === null)
+    throw new MeiliError(400, "missing_document_id", `Document doesn't have a \`${pk}\` attribute: \`${JSON.stringify(doc)}\`.`);
   if (typeof v === "number" && Number.isInteger(v) && v >= 0) return String(v);
   if (typeof v === "string" && DOC_ID_RE.test(v)) return v;
   throw new MeiliError(
@@ -238,7 +253,13 @@ export function checkSearchParams(body: unknown, ignore: string[] = []): SearchP
   for (const [k, v] of Object.entries(body)) {
     if (ignore.includes(k)) continue;
     const kind = SEARCH_FIELDS[k];
-    if (!kind) throw bad("bad_request", `Unknown field \`${k}\`: expected one of ${Object.keys(SEARCH_FIELDS).map((x) => `\`${x}\``).join(", ")}`);
+    if (!kind)
+      throw bad(
+        "bad_request",
+        `Unknown field \`${k}\`: expected one of ${Object.keys(SEARCH_FIELDS)
+          .map((x) => `\`${x}\``)
+          .join(", ")}`,
+      );
     if (v === null || v === undefined) continue;
     const code = `invalid_search_${snake(k)}`;
     if (kind === "string" && typeof v !== "string") throw invalidType(code, k, "a string", v);
@@ -344,7 +365,11 @@ export class MeiliIndex {
 
   private compileSettings() {
     const patterns = this.settings.filterableAttributes.flatMap((f) =>
-      typeof f === "string" ? [f] : (f as GranularFilterable).features?.filter?.equality === false && (f as GranularFilterable).features?.filter?.comparison === false ? [] : f.attributePatterns,
+      typeof f === "string"
+        ? [f]
+        : (f as GranularFilterable).features?.filter?.equality === false && (f as GranularFilterable).features?.filter?.comparison === false
+          ? []
+          : f.attributePatterns,
     );
     this.isFilterable = patternMatcher(patterns);
     this.isDisplayed = patternMatcher(this.settings.displayedAttributes);
@@ -442,7 +467,8 @@ export class MeiliIndex {
       else if (typeof v === "number") {
         let l = f.numbers.get(v);
         if (!l) {
-          f.numbers.set(v, (l = new IntList()));
+          l = new IntList();
+          f.numbers.set(v, l);
           f.sorted = null;
         }
         l.push(id);
@@ -452,7 +478,8 @@ export class MeiliIndex {
         const key = normalizeTerm(s.trim());
         let e = f.strings.get(key);
         if (!e) {
-          f.strings.set(key, (e = { orig: s, ids: new IntList() }));
+          e = { orig: s, ids: new IntList() };
+          f.strings.set(key, e);
           f.sorted = null;
         }
         if (e.ids.len === 0 || e.ids.a[e.ids.len - 1] !== id) e.ids.push(id);
@@ -561,7 +588,7 @@ export class MeiliIndex {
 
   addDocuments(docs: Doc[], opts: { primaryKey?: string | null; update?: boolean }): number {
     if (opts.primaryKey && this.primaryKey && opts.primaryKey !== this.primaryKey)
-      throw new MeiliError(400, "index_primary_key_already_exists", "Index already has a primary key: `" + this.primaryKey + "`.");
+      throw new MeiliError(400, "index_primary_key_already_exists", `Index already has a primary key: \`${this.primaryKey}\`.`);
     let pk = this.primaryKey ?? opts.primaryKey ?? null;
     if (!pk && docs.length > 0) pk = inferPrimaryKey(docs[0]);
     if (!pk) return 0;
@@ -635,13 +662,13 @@ export class MeiliIndex {
     const limit = q.limit ?? 20;
     const set = this.evalFilterParam(q.filter, "invalid_document_filter");
     let ids: number[];
-    if (q.ids && q.ids.length) ids = q.ids.map((x) => this.idMap.get(String(x))).filter((x): x is number => x !== undefined);
+    if (q.ids?.length) ids = q.ids.map((x) => this.idMap.get(String(x))).filter((x): x is number => x !== undefined);
     else {
       ids = [];
       for (let i = 0; i < this.nextId; i++) if (this.alive[i]) ids.push(i);
     }
     if (set) ids = ids.filter((i) => set[i]);
-    if (q.sort && q.sort.length) {
+    if (q.sort?.length) {
       const rules = this.parseSort(q.sort, "invalid_document_sort");
       const keys = rules.map((r) => ids.map((i) => sortKey(this.docs[i]!, r.field, r.asc)));
       const order = ids.map((_, k) => k);
@@ -675,7 +702,7 @@ export class MeiliIndex {
 
   /** Keeps the displayed attributes, then the requested ones (`*` or names, dotted or not). */
   private project(doc: Doc, fields?: string[] | null): Doc {
-    const want = fields && fields.length ? patternMatcher(fields) : null;
+    const want = fields?.length ? patternMatcher(fields) : null;
     const wantsPrefix = (p: string) => !fields || fields.includes("*") || fields.some((f) => f.startsWith(`${p}.`));
     const pick = (obj: Record<string, unknown>, prefix: string): Doc => {
       const out: Doc = {};
@@ -705,7 +732,10 @@ export class MeiliIndex {
     const tail = patterns.length
       ? `Available filterable attribute patterns are: \`${patterns.join(", ")}\`.`
       : "This index does not have configured filterable attributes.";
-    return bad(code, FilterSyntaxError.format(`Index \`${this.uid}\`: Attribute \`${fid.value}\` is not filterable. ${tail}`, source, fid.start, fid.end));
+    return bad(
+      code,
+      FilterSyntaxError.format(`Index \`${this.uid}\`: Attribute \`${fid.value}\` is not filterable. ${tail}`, source, fid.start, fid.end),
+    );
   }
 
   /** Evaluates a `filter` parameter to a set (1 = passes) or null when there is no filter. */
@@ -805,7 +835,14 @@ export class MeiliIndex {
           default: {
             const x = Number(c.value.value);
             if (Number.isNaN(x)) return out;
-            const test = c.op === ">" ? (k: number) => k > x : c.op === ">=" ? (k: number) => k >= x : c.op === "<" ? (k: number) => k < x : (k: number) => k <= x;
+            const test =
+              c.op === ">"
+                ? (k: number) => k > x
+                : c.op === ">="
+                  ? (k: number) => k >= x
+                  : c.op === "<"
+                    ? (k: number) => k < x
+                    : (k: number) => k <= x;
             for (const [k, l] of f.numbers) if (test(k)) mark(l);
             return out;
           }
@@ -827,7 +864,8 @@ export class MeiliIndex {
     const isSortable = patternMatcher(sortable);
     return sort.map((s) => {
       const m = /^(.+):(asc|desc)$/.exec(s);
-      if (!m) throw bad(code, `Invalid syntax for the sort parameter: expected expression ending by \`:asc\` or \`:desc\`, found \`${s}\`.`);
+      if (!m)
+        throw bad(code, `Invalid syntax for the sort parameter: expected expression ending by \`:asc\` or \`:desc\`, found \`${s}\`.`);
       const field = m[1];
       if (field.startsWith("_geo"))
         throw bad(code, `\`${field.split("(")[0]}\` is a reserved keyword and thus can't be used as a sort expression.`);
@@ -876,7 +914,7 @@ export class MeiliIndex {
   private derive(term: string, opts: { prefix: boolean; typo: boolean }, match: MatchInfo): Derived[] {
     const out: Derived[] = [];
     const exact = this.terms.get(term);
-    if (exact && exact.len) out.push({ term, postings: exact, typo: 0, weight: 1, exact: true });
+    if (exact?.len) out.push({ term, postings: exact, typo: 0, weight: 1, exact: true });
     match.set(term, { prefix: 0, postings: null });
     const taken = new Set([term]);
     if (opts.prefix && this.settings.prefixSearch !== "disabled") {
@@ -952,7 +990,7 @@ export class MeiliIndex {
     const phrases: string[][] = [];
     // phrases in double quotes, and negative words/phrases with a leading '-'
     const re = /(-?)"([^"]*)"?|(\S+)/g;
-    let rawWords: { text: string; neg: boolean; end: number }[] = [];
+    const rawWords: { text: string; neg: boolean; end: number }[] = [];
     for (let m = re.exec(q); m !== null; m = re.exec(q)) {
       if (m[2] !== undefined) {
         const terms = scanChunks(m[2]).flatMap(chunkParts);
@@ -968,7 +1006,12 @@ export class MeiliIndex {
     const stop = new Set(this.settings.stopWords.map((w) => normalizeTerm(w)));
     for (let i = 0; i < rawWords.length; i++) {
       const chunks = scanChunks(rawWords[i].text);
-      chunks.forEach((c, j) => items.push({ chunk: c, last: i === rawWords.length - 1 && j === chunks.length - 1 && !endsWithSpace && rawWords[i].end === q.length }));
+      chunks.forEach((c, j) =>
+        items.push({
+          chunk: c,
+          last: i === rawWords.length - 1 && j === chunks.length - 1 && !endsWithSpace && rawWords[i].end === q.length,
+        }),
+      );
     }
     let kept = items.filter((it) => !stop.has(it.chunk.term));
     if (kept.length === 0) kept = items;
@@ -1042,15 +1085,21 @@ export class MeiliIndex {
     const page = params.page ?? 1;
     const offset = finite ? Math.max(0, page - 1) * hitsPerPage : (params.offset ?? 0);
     const limit = finite ? (page === 0 ? 0 : hitsPerPage) : (params.limit ?? 20);
-    const sortRules = params.sort && params.sort.length ? this.parseSort(params.sort, "invalid_search_sort") : [];
+    const sortRules = params.sort?.length ? this.parseSort(params.sort, "invalid_search_sort") : [];
     if (sortRules.length && !s.rankingRules.includes("sort"))
-      throw bad("invalid_search_sort", `Index \`${this.uid}\`: You must specify where \`sort\` is listed in the rankingRules setting to use the sort parameter at search time.`);
+      throw bad(
+        "invalid_search_sort",
+        `Index \`${this.uid}\`: You must specify where \`sort\` is listed in the rankingRules setting to use the sort parameter at search time.`,
+      );
     const facetNames = this.checkFacets(params.facets);
     const filterSet = this.evalFilterParam(params.filter);
     const strategy = params.matchingStrategy ?? "last";
     const distinctAttr = params.distinct ?? s.distinctAttribute;
     if (params.distinct && !this.isFilterable(params.distinct))
-      throw bad("invalid_search_distinct", `Index \`${this.uid}\`: Attribute \`${params.distinct}\` is not filterable and thus, cannot be used as distinct attribute.`);
+      throw bad(
+        "invalid_search_distinct",
+        `Index \`${this.uid}\`: Attribute \`${params.distinct}\` is not filterable and thus, cannot be used as distinct attribute.`,
+      );
     let searchMask = 0x7fff;
     if (params.attributesToSearchOn && !params.attributesToSearchOn.includes("*")) {
       searchMask = 0;
@@ -1061,7 +1110,8 @@ export class MeiliIndex {
             "invalid_search_attributes_to_search_on",
             `Index \`${this.uid}\`: Attribute \`${a}\` is not searchable. Available searchable attributes are: \`${sa.join(", ")}\`.`,
           );
-        for (const path of this.fieldOrder) if (path === a || path.startsWith(`${a}.`)) searchMask |= 1 << Math.min(Math.max(this.searchRank(path), 0), 14);
+        for (const path of this.fieldOrder)
+          if (path === a || path.startsWith(`${a}.`)) searchMask |= 1 << Math.min(Math.max(this.searchRank(path), 0), 14);
       }
     }
 
@@ -1072,7 +1122,7 @@ export class MeiliIndex {
 
     // allowed = alive, passing the filter, holding no excluded term
     let allowed: Uint8Array = this.alive;
-    if (filterSet || (plan && plan.exclude.length)) {
+    if (filterSet || plan?.exclude.length) {
       allowed = new Uint8Array(n);
       for (let i = 0; i < n; i++) allowed[i] = this.alive[i] & (filterSet ? filterSet[i] : 1);
       for (const ex of plan?.exclude ?? []) {
@@ -1091,7 +1141,7 @@ export class MeiliIndex {
     let cn = 0;
     let cWords: Int32Array | null = null;
     let totalWords = 0;
-    if (plan && plan.slots.length) {
+    if (plan?.slots.length) {
       const r = this.accumulate(plan.slots, allowed, searchMask);
       const order = plan.slots.map((_, i) => i);
       if (strategy === "frequency") order.sort((a, b) => plan.slots[a].df - plan.slots[b].df);
@@ -1155,16 +1205,27 @@ export class MeiliIndex {
     if (facetNames) ({ facetDistribution, facetStats } = this.facetCounts(facetNames, cand, cn));
 
     const maxTypoCount = plan ? plan.slots.reduce((x, sl) => x + sl.maxTypos, 0) : 0;
-    const hits = pageIdx.map((i) => this.formatHit(cand[i], params, match, hasQuery ? { words: cWords![i], totalWords, maxTypoCount } : null, sortRules));
+    const hits = pageIdx.map((i) =>
+      this.formatHit(cand[i], params, match, hasQuery ? { words: cWords![i], totalWords, maxTypoCount } : null, sortRules),
+    );
     if (params.rankingScoreThreshold != null) {
       // keep the hits at or above the threshold (the page only; total is an estimate)
-      for (let i = hits.length - 1; i >= 0; i--) if (((hits[i]._rankingScore as number) ?? 1) < params.rankingScoreThreshold) hits.splice(i, 1);
+      for (let i = hits.length - 1; i >= 0; i--)
+        if (((hits[i]._rankingScore as number) ?? 1) < params.rankingScoreThreshold) hits.splice(i, 1);
       if (!params.showRankingScore) for (const h of hits) delete h._rankingScore;
     }
     const processingTimeMs = Math.round(performance.now() - t0);
     const shownTotal = Math.min(total, maxTotal);
     const out: SearchResult = finite
-      ? { hits, query: q, processingTimeMs, hitsPerPage, page, totalPages: hitsPerPage ? Math.ceil(shownTotal / hitsPerPage) : 0, totalHits: shownTotal }
+      ? {
+          hits,
+          query: q,
+          processingTimeMs,
+          hitsPerPage,
+          page,
+          totalPages: hitsPerPage ? Math.ceil(shownTotal / hitsPerPage) : 0,
+          totalHits: shownTotal,
+        }
       : { hits, query: q, processingTimeMs, limit, offset, estimatedTotalHits: total };
     if (facetDistribution) out.facetDistribution = facetDistribution;
     if (facetStats && Object.keys(facetStats).length) out.facetStats = facetStats;
@@ -1177,7 +1238,8 @@ export class MeiliIndex {
     const ep = ++this.epoch;
     const N = Math.max(1, this.aliveCount);
     const avgLen = this.aliveCount ? this.totalLen / this.aliveCount : 1;
-    const { stamp, wordMask, typos, attr, exactCnt, score, slotMark, slotTypo, slotExact, altMark, altCount, altScore, altAttr, docLen } = this;
+    const { stamp, wordMask, typos, attr, exactCnt, score, slotMark, slotTypo, slotExact, altMark, altCount, altScore, altAttr, docLen } =
+      this;
     const restrict = searchMask !== 0x7fff;
 
     for (let si = 0; si < slots.length; si++) {
@@ -1227,9 +1289,7 @@ export class MeiliIndex {
         }
         // every term of the alternative must be present: count, rarest term first
         const aep = ++this.altEpoch;
-        const order = alt
-          .map((ds, j) => ({ ds, j, len: ds.reduce((x, y) => x + y.postings.len, 0) }))
-          .sort((a, b) => a.len - b.len);
+        const order = alt.map((ds, j) => ({ ds, j, len: ds.reduce((x, y) => x + y.postings.len, 0) })).sort((a, b) => a.len - b.len);
         const altDocs = new IntList(64);
         order.forEach(({ ds }, j) => {
           for (const dv of ds) {
@@ -1329,8 +1389,11 @@ export class MeiliIndex {
     const bad_ = facets.filter((f) => !this.isFilterable(f));
     if (bad_.length) {
       const patterns = this.filterablePatterns().sort();
-      const what = bad_.length === 1 ? `Attribute \`${bad_[0]}\` is not filterable.` : `Attributes \`${bad_.join(", ")}\` are not filterable.`;
-      const tail = patterns.length ? `Available filterable attributes patterns are: \`${patterns.join(", ")}\`.` : "This index does not have configured filterable attributes.";
+      const what =
+        bad_.length === 1 ? `Attribute \`${bad_[0]}\` is not filterable.` : `Attributes \`${bad_.join(", ")}\` are not filterable.`;
+      const tail = patterns.length
+        ? `Available filterable attributes patterns are: \`${patterns.join(", ")}\`.`
+        : "This index does not have configured filterable attributes.";
       throw bad("invalid_search_facets", `Invalid facet distribution: ${what} ${tail}`);
     }
     return facets;
@@ -1388,7 +1451,13 @@ export class MeiliIndex {
     return { facetDistribution, facetStats };
   }
 
-  facetSearch(body: { facetName?: string; facetQuery?: string; q?: string; filter?: unknown; matchingStrategy?: "last" | "all" | "frequency" }) {
+  facetSearch(body: {
+    facetName?: string;
+    facetQuery?: string;
+    q?: string;
+    filter?: unknown;
+    matchingStrategy?: "last" | "all" | "frequency";
+  }) {
     const t0 = performance.now();
     if (typeof body.facetName !== "string") throw bad("missing_facet_search_facet_name", "Missing field `facetName`");
     if (!this.isFilterable(body.facetName)) {
@@ -1398,11 +1467,24 @@ export class MeiliIndex {
         `Attribute \`${body.facetName}\` is not facet-searchable. ${patterns.length ? `Available facet-searchable attributes patterns are: \`${patterns.join(", ")}\`.` : "This index does not have configured facet-searchable attributes."}`,
       );
     }
-    const r = this.search({ q: body.q ?? "", filter: body.filter, facets: [body.facetName], limit: 0, matchingStrategy: body.matchingStrategy });
+    const r = this.search({
+      q: body.q ?? "",
+      filter: body.filter,
+      facets: [body.facetName],
+      limit: 0,
+      matchingStrategy: body.matchingStrategy,
+    });
     const dist = (r.facetDistribution as Record<string, Record<string, number>>)[body.facetName] ?? {};
     const fq = body.facetQuery ? normalizeTerm(body.facetQuery) : "";
     const facetHits = Object.entries(dist)
-      .filter(([v]) => !fq || normalizeTerm(v).split(/\s+/).some((w) => w.startsWith(fq)) || normalizeTerm(v).startsWith(fq))
+      .filter(
+        ([v]) =>
+          !fq ||
+          normalizeTerm(v)
+            .split(/\s+/)
+            .some((w) => w.startsWith(fq)) ||
+          normalizeTerm(v).startsWith(fq),
+      )
       .map(([value, count]) => ({ value, count }));
     return { facetHits, facetQuery: body.facetQuery ?? null, processingTimeMs: Math.round(performance.now() - t0) };
   }
@@ -1458,7 +1540,9 @@ export class MeiliIndex {
         formatted[k] = fmt(v, k);
         any = true;
       }
-      const touchesDisplayed = [...hl, ...cropPatterns].some((a) => a === "*" || this.fieldOrder.some((f) => (f === a || f.startsWith(`${a}.`)) && this.isDisplayed(f)));
+      const touchesDisplayed = [...hl, ...cropPatterns].some(
+        (a) => a === "*" || this.fieldOrder.some((f) => (f === a || f.startsWith(`${a}.`)) && this.isDisplayed(f)),
+      );
       if (any && touchesDisplayed) hit._formatted = formatted;
     }
     if (p.showMatchesPosition) {
@@ -1466,13 +1550,13 @@ export class MeiliIndex {
       flatten(this.project(doc, null), "", (path, v) => {
         if (typeof v !== "string" && typeof v !== "number") return;
         const spans = matchSpans(String(v), hitMatch);
-        if (spans.length) (positions[path] ??= []).push(...spans.map(([s, e]) => ({ start: s, length: e - s })));
+        if (spans.length) positions[path] = [...(positions[path] ?? []), ...spans.map(([s, e]) => ({ start: s, length: e - s }))];
       });
       hit._matchesPosition = positions;
     }
     if (p.showRankingScore || p.rankingScoreThreshold != null) {
       let sc = 1;
-      if (rank && rank.totalWords) {
+      if (rank?.totalWords) {
         const typoPart = 1 - this.typos[id] / (2 * rank.totalWords + 1);
         const attrPart = 1 - Math.min(this.attr[id], 15) / 32;
         sc = (rank.words / rank.totalWords) * (0.7 + 0.15 * typoPart + 0.15 * attrPart);
@@ -1497,24 +1581,35 @@ export class MeiliIndex {
     const sa = this.settings.searchableAttributes;
     const attrCount = Math.max(1, Math.min(15, sa.includes("*") ? this.fieldOrder.length : sa.length));
     const round = (x: number) => Math.round(x * 1e6) / 1e6;
-    const valueOf = (field: string) => valuesAt(doc, field)[0] ?? null;
+    const firstValue = (field: string) => valuesAt(doc, field)[0] ?? null;
     this.settings.rankingRules.forEach((rule, order) => {
       if (rank && rule === "words") {
         out.words = { order, matchingWords: rank.words, maxMatchingWords: rank.totalWords, score: round(rank.words / rank.totalWords) };
       } else if (rank && rule === "typo") {
         const typoCount = Math.min(this.typos[id], rank.maxTypoCount);
-        out.typo = { order, typoCount, maxTypoCount: rank.maxTypoCount, score: round((rank.maxTypoCount + 1 - typoCount) / (rank.maxTypoCount + 1)) };
+        out.typo = {
+          order,
+          typoCount,
+          maxTypoCount: rank.maxTypoCount,
+          score: round((rank.maxTypoCount + 1 - typoCount) / (rank.maxTypoCount + 1)),
+        };
       } else if (rank && (rule === "attribute" || rule === "attributeRank")) {
         const orderScore = round(1 - Math.min(this.attr[id], attrCount - 1) / attrCount);
         out[rule] = { order, attributeRankingOrderScore: orderScore, queryWordDistanceScore: 1, score: orderScore };
       } else if (rank && rule === "exactness") {
         const exact = Math.min(this.exactCnt[id], rank.totalWords);
-        out.exactness = { order, matchType: "noExactMatch", matchingWords: exact, maxMatchingWords: rank.totalWords, score: round(exact / rank.totalWords) };
+        out.exactness = {
+          order,
+          matchType: "noExactMatch",
+          matchingWords: exact,
+          maxMatchingWords: rank.totalWords,
+          score: round(exact / rank.totalWords),
+        };
       } else if (rule === "sort") {
-        for (const r of sortRules) out[`${r.field}:${r.asc ? "asc" : "desc"}`] = { order, value: valueOf(r.field) };
+        for (const r of sortRules) out[`${r.field}:${r.asc ? "asc" : "desc"}`] = { order, value: firstValue(r.field) };
       } else {
         const m = /^(.+):(asc|desc)$/.exec(rule);
-        if (m) out[rule] = { order, value: valueOf(m[1]) };
+        if (m) out[rule] = { order, value: firstValue(m[1]) };
       }
     });
     return out;

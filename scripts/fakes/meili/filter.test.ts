@@ -91,22 +91,43 @@ describe("filter parser: valid expressions", () => {
 describe("filter parser: malformed expressions give Meilisearch's diagnostics", () => {
   // expected messages as the real filter parser words them
   it.each([
-    ["channel = Ponce = 12", "Found unexpected characters at the end of the filter: `= 12`. You probably forgot an `OR` or an `AND` rule.\n17:21 channel = Ponce = 12"],
+    [
+      "channel = Ponce = 12",
+      "Found unexpected characters at the end of the filter: `= 12`. You probably forgot an `OR` or an `AND` rule.\n17:21 channel = Ponce = 12",
+    ],
     ["channel =    ", "Was expecting a value but instead got nothing.\n14:14 channel =    "],
     ["channel = 🐻", "Was expecting a value but instead got `🐻`.\n11:12 channel = 🐻"],
     ["'OR'", `Was expecting an operation ${OPS} at \`\\'OR\\'\`.\n1:5 'OR'`],
-    ["OR", "Was expecting a value but instead got `OR`, which is a reserved keyword. To use `OR` as a field name or a value, surround it by quotes.\n1:3 OR"],
+    [
+      "OR",
+      "Was expecting a value but instead got `OR`, which is a reserved keyword. To use `OR` as a field name or a value, surround it by quotes.\n1:3 OR",
+    ],
     ["channel Ponce", `Was expecting an operation ${OPS} at \`channel Ponce\`.\n1:14 channel Ponce`],
     ["channel = Ponce OR", `Was expecting an operation ${OPS} but instead got nothing.\n19:19 channel = Ponce OR`],
     ["channel = 'ponce", "Expression `\\'ponce` is missing the following closing delimiter: `'`.\n11:17 channel = 'ponce"],
-    ["channel = mv OR (followers >= 1000", "Expression `(followers >= 1000` is missing the following closing delimiter: `)`.\n17:35 channel = mv OR (followers >= 1000"],
-    ["channel = mv OR followers >= 1000)", "Found unexpected characters at the end of the filter: `)`. You probably forgot an `OR` or an `AND` rule.\n34:35 channel = mv OR followers >= 1000)"],
+    [
+      "channel = mv OR (followers >= 1000",
+      "Expression `(followers >= 1000` is missing the following closing delimiter: `)`.\n17:35 channel = mv OR (followers >= 1000",
+    ],
+    [
+      "channel = mv OR followers >= 1000)",
+      "Found unexpected characters at the end of the filter: `)`. You probably forgot an `OR` or an `AND` rule.\n34:35 channel = mv OR followers >= 1000)",
+    ],
     ["colour IN blue, green]", "Expected `[` after `IN` keyword.\n11:23 colour IN blue, green]"],
-    ["colour IN [blue, green, 'blue' > 2]", "Expected only comma-separated field names inside `IN[..]` but instead found `> 2]`.\n32:36 colour IN [blue, green, 'blue' > 2]"],
+    [
+      "colour IN [blue, green, 'blue' > 2]",
+      "Expected only comma-separated field names inside `IN[..]` but instead found `> 2]`.\n32:36 colour IN [blue, green, 'blue' > 2]",
+    ],
     ["colour IN [blue, green", "Expected matching `]` after the list of field names given to `IN[`\n23:23 colour IN [blue, green"],
-    ["x = EXISTS", "Was expecting a value but instead got `EXISTS`, which is a reserved keyword. To use `EXISTS` as a field name or a value, surround it by quotes.\n5:11 x = EXISTS"],
+    [
+      "x = EXISTS",
+      "Was expecting a value but instead got `EXISTS`, which is a reserved keyword. To use `EXISTS` as a field name or a value, surround it by quotes.\n5:11 x = EXISTS",
+    ],
     ["title & Glass", `Was expecting an operation ${OPS} at \`title & Glass\`.\n1:14 title & Glass`],
-    ["title = Glass XOR title = Glass", "Found unexpected characters at the end of the filter: `XOR title = Glass`. You probably forgot an `OR` or an `AND` rule.\n15:32 title = Glass XOR title = Glass"],
+    [
+      "title = Glass XOR title = Glass",
+      "Found unexpected characters at the end of the filter: `XOR title = Glass`. You probably forgot an `OR` or an `AND` rule.\n15:32 title = Glass XOR title = Glass",
+    ],
   ])("%j", (input, message) => {
     expect(err(input)).toBe(message);
   });

@@ -35,7 +35,22 @@ export type FilterNode =
 
 const OPERATIONS =
   "`=`, `!=`, `>=`, `>`, `<=`, `<`, `IN`, `NOT IN`, `TO`, `EXISTS`, `NOT EXISTS`, `IS NULL`, `IS NOT NULL`, `IS EMPTY`, `IS NOT EMPTY`, `CONTAINS`, `NOT CONTAINS`, `STARTS WITH`, `NOT STARTS WITH`, `_geoRadius`, or `_geoBoundingBox`";
-const KEYWORDS = new Set(["AND", "OR", "IN", "NOT", "TO", "EXISTS", "IS", "NULL", "EMPTY", "CONTAINS", "STARTS", "WITH", "_geoRadius", "_geoBoundingBox"]);
+const KEYWORDS = new Set([
+  "AND",
+  "OR",
+  "IN",
+  "NOT",
+  "TO",
+  "EXISTS",
+  "IS",
+  "NULL",
+  "EMPTY",
+  "CONTAINS",
+  "STARTS",
+  "WITH",
+  "_geoRadius",
+  "_geoBoundingBox",
+]);
 const MAX_DEPTH = 200;
 
 const isValueChar = (c: string) => /[\p{L}\p{N}_\-.]/u.test(c);
@@ -44,7 +59,10 @@ const isWs = (c: string | undefined) => c !== undefined && /\s/.test(c);
 
 /** Rust's `str::escape_debug`, which the real messages use to quote input. */
 function escapeDebug(s: string): string {
-  return s.replace(/[\\'"\n\r\t\0]/g, (c) => ({ "\\": "\\\\", "'": "\\'", '"': '\\"', "\n": "\\n", "\r": "\\r", "\t": "\\t", "\0": "\\0" })[c]!);
+  return s.replace(
+    /[\\'"\n\r\t\0]/g,
+    (c) => ({ "\\": "\\\\", "'": "\\'", '"': '\\"', "\n": "\\n", "\r": "\\r", "\t": "\\t", "\0": "\\0" })[c]!,
+  );
 }
 
 /** A parse error: `message` is the diagnostic line, [start, end) the context in the input. */
@@ -125,7 +143,7 @@ class Parser {
       if (c === "\\") {
         const n = this.s[i + 1];
         if (n === undefined) throw this.err({ k: "MissingClosingDelimiter", c: q }, pos - 1, this.s.length, true);
-        out += n === q || n === "\\" ? n : n === "n" ? "\n" : n === "t" ? "\t" : n === "r" ? "\r" : "\\" + n;
+        out += n === q || n === "\\" ? n : n === "n" ? "\n" : n === "t" ? "\t" : n === "r" ? "\r" : `\\${n}`;
         i += 2;
         continue;
       }

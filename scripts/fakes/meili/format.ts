@@ -137,7 +137,7 @@ function chooseWindow(words: Word[], L: number): number {
 /** Words of text[from, to), each with the spans' terms it holds. */
 function wordsIn(text: string, from: number, to: number, spans: Span[], max = Infinity): Word[] {
   const words: Word[] = [];
-  const re = /[\p{L}\p{N}]+(?:[.·⋅∙•\/\-‐‑_×][\p{L}\p{N}]+)*/gu;
+  const re = /[\p{L}\p{N}]+(?:[.·⋅∙•/\-‐‑_×][\p{L}\p{N}]+)*/gu;
   re.lastIndex = from;
   let k = 0;
   for (let m = re.exec(text); m !== null && m.index < to && words.length < max; m = re.exec(text)) {

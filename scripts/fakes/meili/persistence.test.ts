@@ -28,11 +28,13 @@ async function populate(client: Meilisearch) {
   const idx = client.index("kb");
   await client.createIndex("kb", { primaryKey: "id" }).waitTask();
   await idx.updateSettings({ filterableAttributes: ["kind"], synonyms: { ptw: ["piston to wall"] } }).waitTask();
-  await idx.addDocuments([
-    { id: 1, kind: "spec", title: "Piston to wall clearance" },
-    { id: 2, kind: "mark", title: "Deck height" },
-    { id: 3, kind: "mark", title: "Cam card" },
-  ]).waitTask();
+  await idx
+    .addDocuments([
+      { id: 1, kind: "spec", title: "Piston to wall clearance" },
+      { id: 2, kind: "mark", title: "Deck height" },
+      { id: 3, kind: "mark", title: "Cam card" },
+    ])
+    .waitTask();
   await idx.updateDocuments([{ id: 2, title: "Deck height, block 7" }]).waitTask();
   await idx.deleteDocument(3).waitTask();
   return (await client.tasks.getTasks({ limit: 1 })).results[0].uid;

@@ -7,17 +7,91 @@ import { Meilisearch, type Index } from "meilisearch";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startMeiliFake, type MeiliFake } from "./server";
 
-type Doc = { id: number; kind: string; title: string; body: string; tags?: string[]; state?: string; year?: number; meta?: { state: string } };
+type Doc = {
+  id: number;
+  kind: string;
+  title: string;
+  body: string;
+  tags?: string[];
+  state?: string;
+  year?: number;
+  meta?: { state: string };
+};
 
 const DOCS: Doc[] = [
-  { id: 1, kind: "spec", title: "Piston to wall clearance", body: "Piston-to-wall 0.0030–0.0035 in (0.076–0.089 mm) for forged 4032 pistons.", tags: ["pistons"], state: "published", year: 2021 },
-  { id: 2, kind: "procedure", title: "Head studs", body: "Torque the M12x1.5 head studs to 110 N·m with molybdenum disulfide paste.", tags: ["head"], state: "published", year: 2022 },
-  { id: 3, kind: "mark", title: "PTW measured", body: "Cylinder 4 ptw at the skirt.", tags: ["pistons"], state: "draft", year: 2023, meta: { state: "draft" } },
-  { id: 4, kind: "reading", title: "Thread check", body: "Gauge reads M12 x 1.5 on the spare stud; clamp load verified.", tags: ["head"], state: "published", year: 2020 },
-  { id: 5, kind: "spec", title: "Ring end gap", body: "Top ring 0.0045 in per inch of bore; second ring 0.0050 in.", tags: ["rings"], state: "published", year: 2019 },
-  { id: 6, kind: "procedure", title: "Preload check for main caps", body: "Stretch gauge on every cap bolt, thou readings logged.", tags: ["bottom end"], state: "published", year: 2024 },
-  { id: 7, kind: "mark", title: "Oil pressure at idle", body: "Warm idle pressure noted on the dyno sheet.", tags: ["oil"], state: "published", year: 2024 },
-  { id: 8, kind: "mark", title: "Bearing clearance", body: "Main bearing clearance 0.0025 in with plastigage strip.", tags: ["bottom end"], state: "published", year: 2018 },
+  {
+    id: 1,
+    kind: "spec",
+    title: "Piston to wall clearance",
+    body: "Piston-to-wall 0.0030–0.0035 in (0.076–0.089 mm) for forged 4032 pistons.",
+    tags: ["pistons"],
+    state: "published",
+    year: 2021,
+  },
+  {
+    id: 2,
+    kind: "procedure",
+    title: "Head studs",
+    body: "Torque the M12x1.5 head studs to 110 N·m with molybdenum disulfide paste.",
+    tags: ["head"],
+    state: "published",
+    year: 2022,
+  },
+  {
+    id: 3,
+    kind: "mark",
+    title: "PTW measured",
+    body: "Cylinder 4 ptw at the skirt.",
+    tags: ["pistons"],
+    state: "draft",
+    year: 2023,
+    meta: { state: "draft" },
+  },
+  {
+    id: 4,
+    kind: "reading",
+    title: "Thread check",
+    body: "Gauge reads M12 x 1.5 on the spare stud; clamp load verified.",
+    tags: ["head"],
+    state: "published",
+    year: 2020,
+  },
+  {
+    id: 5,
+    kind: "spec",
+    title: "Ring end gap",
+    body: "Top ring 0.0045 in per inch of bore; second ring 0.0050 in.",
+    tags: ["rings"],
+    state: "published",
+    year: 2019,
+  },
+  {
+    id: 6,
+    kind: "procedure",
+    title: "Preload check for main caps",
+    body: "Stretch gauge on every cap bolt, thou readings logged.",
+    tags: ["bottom end"],
+    state: "published",
+    year: 2024,
+  },
+  {
+    id: 7,
+    kind: "mark",
+    title: "Oil pressure at idle",
+    body: "Warm idle pressure noted on the dyno sheet.",
+    tags: ["oil"],
+    state: "published",
+    year: 2024,
+  },
+  {
+    id: 8,
+    kind: "mark",
+    title: "Bearing clearance",
+    body: "Main bearing clearance 0.0025 in with plastigage strip.",
+    tags: ["bottom end"],
+    state: "published",
+    year: 2018,
+  },
 ];
 
 let fake: MeiliFake;
@@ -85,7 +159,12 @@ describe("ranking", () => {
   });
 
   it("ranks an exact word before a typo", async () => {
-    await idx.addDocuments([{ id: 100, kind: "mark", title: "Gauge zeroed", body: "gauges" }, { id: 101, kind: "mark", title: "Guage note", body: "misspelt" }]).waitTask();
+    await idx
+      .addDocuments([
+        { id: 100, kind: "mark", title: "Gauge zeroed", body: "gauges" },
+        { id: 101, kind: "mark", title: "Guage note", body: "misspelt" },
+      ])
+      .waitTask();
     const r = await idx.search("guage");
     expect(r.hits[0].id).toBe(101);
     expect(ids(r)).toContain(100);
@@ -101,7 +180,10 @@ describe("ranking", () => {
     const r = await idx.search("ring gap", { showRankingScore: true });
     const scores = r.hits.map((h) => h._rankingScore!);
     expect(scores.length).toBeGreaterThan(0);
-    for (const s of scores) expect(s).toBeGreaterThan(0), expect(s).toBeLessThanOrEqual(1);
+    for (const s of scores) {
+      expect(s).toBeGreaterThan(0);
+      expect(s).toBeLessThanOrEqual(1);
+    }
     expect([...scores].sort((a, b) => b - a)).toEqual(scores);
   });
 });
@@ -250,8 +332,14 @@ describe("facets, distinct, display and filters", () => {
 
 describe("index swaps, task deletion, compaction", () => {
   it("swaps two indexes", async () => {
-    await client.index("swap_a").addDocuments([{ id: 1, v: "a" }]).waitTask();
-    await client.index("swap_b").addDocuments([{ id: 1, v: "b" }]).waitTask();
+    await client
+      .index("swap_a")
+      .addDocuments([{ id: 1, v: "a" }])
+      .waitTask();
+    await client
+      .index("swap_b")
+      .addDocuments([{ id: 1, v: "b" }])
+      .waitTask();
     const t = await client.swapIndexes([{ indexes: ["swap_a", "swap_b"], rename: false }]).waitTask();
     expect(t).toEqual(expect.objectContaining({ status: "succeeded", type: "indexSwap", indexUid: null }));
     expect(await client.index("swap_a").getDocument(1)).toEqual({ id: 1, v: "b" });
@@ -270,7 +358,9 @@ describe("index swaps, task deletion, compaction", () => {
     const many = client.index<{ id: number; text: string; n: number }>("churn");
     await many.updateSettings({ filterableAttributes: ["n"], typoTolerance: { enabled: false } }).waitTask();
     for (let round = 0; round < 4; round++)
-      await many.addDocuments(Array.from({ length: 1500 }, (_, i) => ({ id: i, text: `round${round} common word${i % 10}`, n: i % 10 }))).waitTask();
+      await many
+        .addDocuments(Array.from({ length: 1500 }, (_, i) => ({ id: i, text: `round${round} common word${i % 10}`, n: i % 10 })))
+        .waitTask();
     await many.deleteDocuments({ filter: "n >= 5" }).waitTask();
     const r = await many.search("common", { limit: 0 });
     expect(r.estimatedTotalHits).toBe(750);

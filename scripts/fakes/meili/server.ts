@@ -44,7 +44,13 @@ function readBody(req: http.IncomingMessage): Promise<Buffer> {
     req.on("data", (c: Buffer) => {
       size += c.length;
       if (size > MAX_PAYLOAD) {
-        reject(new MeiliError(413, "payload_too_large", "The provided payload reached the size limit. The maximum accepted payload size is 100 MiB."));
+        reject(
+          new MeiliError(
+            413,
+            "payload_too_large",
+            "The provided payload reached the size limit. The maximum accepted payload size is 100 MiB.",
+          ),
+        );
         req.destroy();
         return;
       }
@@ -81,19 +87,26 @@ function intParam(params: URLSearchParams, name: string, code: string): number |
   const v = params.get(name);
   if (v === null) return undefined;
   const n = Number(v);
-  if (!/^\d+$/.test(v) || !Number.isSafeInteger(n)) throw bad(code, `Invalid value in parameter \`${name}\`: could not parse \`${v}\` as a positive integer`);
+  if (!/^\d+$/.test(v) || !Number.isSafeInteger(n))
+    throw bad(code, `Invalid value in parameter \`${name}\`: could not parse \`${v}\` as a positive integer`);
   return n;
 }
 
 const listParam = (params: URLSearchParams, name: string) => {
   const v = params.get(name);
-  return v === null ? undefined : v.split(",").map((s) => s.trim()).filter(Boolean);
+  return v === null
+    ? undefined
+    : v
+        .split(",")
+        .map((s) => s.trim())
+        .filter(Boolean);
 };
 
 function boolParam(params: URLSearchParams, name: string, code: string): boolean | undefined {
   const v = params.get(name);
   if (v === null) return undefined;
-  if (v !== "true" && v !== "false") throw bad(code, `Invalid value in parameter \`${name}\`: could not parse \`${v}\` as a boolean, expected either \`true\` or \`false\``);
+  if (v !== "true" && v !== "false")
+    throw bad(code, `Invalid value in parameter \`${name}\`: could not parse \`${v}\` as a boolean, expected either \`true\` or \`false\``);
   return v === "true";
 }
 
@@ -122,7 +135,10 @@ function searchParamsFromQuery(p: URLSearchParams): SearchParams {
 }
 
 function documentsPayload(req: Req): Record<string, unknown>[] {
-  const ct = String(req.headers["content-type"] ?? "application/json").split(";")[0].trim().toLowerCase();
+  const ct = String(req.headers["content-type"] ?? "application/json")
+    .split(";")[0]
+    .trim()
+    .toLowerCase();
   const text = req.body.toString("utf8");
   if (text.trim() === "") throw bad("missing_payload", `A ${ct === "application/x-ndjson" ? "ndjson" : "json"} payload is missing.`);
   let docs: unknown;
@@ -130,7 +146,10 @@ function documentsPayload(req: Req): Record<string, unknown>[] {
     try {
       docs = JSON.parse(text);
     } catch (e) {
-      throw bad("malformed_payload", `The \`json\` payload provided is malformed. \`Couldn't serialize document value: ${(e as Error).message}\`.`);
+      throw bad(
+        "malformed_payload",
+        `The \`json\` payload provided is malformed. \`Couldn't serialize document value: ${(e as Error).message}\`.`,
+      );
     }
     if (!Array.isArray(docs)) docs = [docs];
   } else if (ct === "application/x-ndjson") {
@@ -140,7 +159,10 @@ function documentsPayload(req: Req): Record<string, unknown>[] {
         .filter((l) => l.trim())
         .map((l) => JSON.parse(l));
     } catch (e) {
-      throw bad("malformed_payload", `The \`ndjson\` payload provided is malformed. \`Couldn't serialize document value: ${(e as Error).message}\`.`);
+      throw bad(
+        "malformed_payload",
+        `The \`ndjson\` payload provided is malformed. \`Couldn't serialize document value: ${(e as Error).message}\`.`,
+      );
     }
   } else {
     throw new MeiliError(
@@ -151,7 +173,10 @@ function documentsPayload(req: Req): Record<string, unknown>[] {
   }
   for (const d of docs as unknown[])
     if (!d || typeof d !== "object" || Array.isArray(d))
-      throw bad("malformed_payload", "The `json` payload provided is malformed. `Couldn't serialize document value: data are neither an object nor a list of objects`.");
+      throw bad(
+        "malformed_payload",
+        "The `json` payload provided is malformed. `Couldn't serialize document value: data are neither an object nor a list of objects`.",
+      );
   return docs as Record<string, unknown>[];
 }
 
@@ -174,7 +199,9 @@ function route(store: Store, req: Req): Res {
 
   if (seg.length === 1 && seg[0] === "health") return method === "GET" ? json(200, { status: "available" }) : notAllowed();
   if (seg.length === 1 && seg[0] === "version")
-    return method === "GET" ? json(200, { commitSha: "benchreel-search-fake", commitDate: "2026-01-01T00:00:00Z", pkgVersion: FAKE_VERSION }) : notAllowed();
+    return method === "GET"
+      ? json(200, { commitSha: "benchreel-search-fake", commitDate: "2026-01-01T00:00:00Z", pkgVersion: FAKE_VERSION })
+      : notAllowed();
   if (seg.length === 1 && seg[0] === "stats") {
     if (method !== "GET") return notAllowed();
     const indexes: Record<string, unknown> = {};
@@ -187,19 +214,31 @@ function route(store: Store, req: Req): Res {
     if (seg.length === 1 && method === "DELETE") {
       const query = parseTaskQuery(params, false);
       if (Object.keys(query).length === 0 && ![...params.keys()].length)
-        throw bad("missing_task_filters", "Query parameters to filter the tasks to delete are missing. Available query parameters are: `uids`, `indexUids`, `statuses`, `types`, `canceledBy`, `beforeEnqueuedAt`, `afterEnqueuedAt`, `beforeStartedAt`, `afterStartedAt`, `beforeFinishedAt`, `afterFinishedAt`.");
+        throw bad(
+          "missing_task_filters",
+          "Query parameters to filter the tasks to delete are missing. Available query parameters are: `uids`, `indexUids`, `statuses`, `types`, `canceledBy`, `beforeEnqueuedAt`, `afterEnqueuedAt`, `beforeStartedAt`, `afterStartedAt`, `beforeFinishedAt`, `afterFinishedAt`.",
+        );
       const originalFilter = `?${params.toString()}`;
-      return accepted("taskDeletion", null, { matchedTasks: null, deletedTasks: null, originalFilter }, { kind: "deleteTasks", query, originalFilter });
+      return accepted(
+        "taskDeletion",
+        null,
+        { matchedTasks: null, deletedTasks: null, originalFilter },
+        { kind: "deleteTasks", query, originalFilter },
+      );
     }
     if (seg.length === 2 && seg[1] === "cancel") {
       if (method !== "POST") return notAllowed();
       const query = parseTaskQuery(params, false);
       if (Object.keys(query).length === 0 && ![...params.keys()].length)
-        throw bad("missing_task_filters", "Query parameters to filter the tasks to cancel are missing. Available query parameters are: `uids`, `indexUids`, `statuses`, `types`, `canceledBy`, `beforeEnqueuedAt`, `afterEnqueuedAt`, `beforeStartedAt`, `afterStartedAt`, `beforeFinishedAt`, `afterFinishedAt`.");
+        throw bad(
+          "missing_task_filters",
+          "Query parameters to filter the tasks to cancel are missing. Available query parameters are: `uids`, `indexUids`, `statuses`, `types`, `canceledBy`, `beforeEnqueuedAt`, `afterEnqueuedAt`, `beforeStartedAt`, `afterStartedAt`, `beforeFinishedAt`, `afterFinishedAt`.",
+        );
       return json(202, store.cancel(query, `?${params.toString()}`, params.get("customMetadata") ?? undefined));
     }
     if (seg.length === 2 && method === "GET") {
-      if (!/^\d+$/.test(seg[1])) throw bad("invalid_task_uids", `Invalid value in parameter \`taskUid\`: could not parse \`${seg[1]}\` as a positive integer`);
+      if (!/^\d+$/.test(seg[1]))
+        throw bad("invalid_task_uids", `Invalid value in parameter \`taskUid\`: could not parse \`${seg[1]}\` as a positive integer`);
       return json(200, store.getTask(Number(seg[1])));
     }
     return notAllowed();
@@ -269,7 +308,8 @@ function route(store: Store, req: Req): Res {
     if (method === "GET") return json(200, store.getIndex(uid).info());
     if (method === "PATCH") {
       const body = (parseJson(req.body, false) ?? {}) as { primaryKey?: unknown; uid?: unknown };
-      if (body.uid !== undefined && body.uid !== uid) throw bad("bad_request", "Renaming an index is not implemented by the Benchreel search fake.");
+      if (body.uid !== undefined && body.uid !== uid)
+        throw bad("bad_request", "Renaming an index is not implemented by the Benchreel search fake.");
       const pk = body.primaryKey ?? null;
       if (pk !== null && typeof pk !== "string") throw invalidType("invalid_index_primary_key", "primaryKey", "a string", pk);
       return accepted("indexUpdate", uid, { primaryKey: pk }, { kind: "updateIndex", uid, primaryKey: pk as string | null });
@@ -280,7 +320,8 @@ function route(store: Store, req: Req): Res {
 
   const sub = seg[2];
 
-  if (sub === "stats" && seg.length === 3) return method === "GET" ? json(200, store.getIndex(uid).stats(store.isIndexing(uid))) : notAllowed();
+  if (sub === "stats" && seg.length === 3)
+    return method === "GET" ? json(200, store.getIndex(uid).stats(store.isIndexing(uid))) : notAllowed();
 
   if (sub === "search" && seg.length === 3) {
     if (method === "POST") {
@@ -352,7 +393,13 @@ function route(store: Store, req: Req): Res {
           { kind: "addDocuments", uid, docs, primaryKey, update: method === "PUT" },
         );
       }
-      if (method === "DELETE") return accepted("documentDeletion", uid, { providedIds: 0, deletedDocuments: null, originalFilter: null }, { kind: "deleteAll", uid });
+      if (method === "DELETE")
+        return accepted(
+          "documentDeletion",
+          uid,
+          { providedIds: 0, deletedDocuments: null, originalFilter: null },
+          { kind: "deleteAll", uid },
+        );
       return notAllowed();
     }
     const action = seg[3];
@@ -395,7 +442,8 @@ function route(store: Store, req: Req): Res {
     if (seg.length === 4) {
       const id = action;
       if (method === "GET") return json(200, store.getIndex(uid).getDocument(id, listParam(params, "fields")));
-      if (method === "DELETE") return accepted("documentDeletion", uid, { providedIds: 1, deletedDocuments: null }, { kind: "deleteDocuments", uid, ids: [id] });
+      if (method === "DELETE")
+        return accepted("documentDeletion", uid, { providedIds: 1, deletedDocuments: null }, { kind: "deleteDocuments", uid, ids: [id] });
       return notAllowed();
     }
   }
@@ -409,7 +457,13 @@ function notFound(method: string, path: string): Res {
 function checkAuth(masterKey: string | undefined, req: Req) {
   if (!masterKey || req.path === "/health") return;
   const h = req.headers.authorization;
-  if (!h) throw new MeiliError(401, "missing_authorization_header", "The Authorization header is missing. It must use the bearer authorization method.", "auth");
+  if (!h)
+    throw new MeiliError(
+      401,
+      "missing_authorization_header",
+      "The Authorization header is missing. It must use the bearer authorization method.",
+      "auth",
+    );
   const m = /^Bearer\s+(.+)$/.exec(h);
   if (!m || m[1].trim() !== masterKey) throw new MeiliError(403, "invalid_api_key", "The provided API key is invalid.", "auth");
 }
@@ -430,7 +484,13 @@ export async function startMeiliFake(opts: MeiliFakeOptions): Promise<MeiliFake>
     };
     try {
       const url = new URL(hreq.url ?? "/", "http://localhost");
-      const req: Req = { method: hreq.method ?? "GET", path: url.pathname.replace(/\/+$/, "") || "/", params: url.searchParams, headers: hreq.headers, body: Buffer.alloc(0) };
+      const req: Req = {
+        method: hreq.method ?? "GET",
+        path: url.pathname.replace(/\/+$/, "") || "/",
+        params: url.searchParams,
+        headers: hreq.headers,
+        body: Buffer.alloc(0),
+      };
       checkAuth(opts.masterKey, req);
       req.body = await readBody(hreq);
       const r = route(store, req);

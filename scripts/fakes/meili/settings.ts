@@ -206,8 +206,7 @@ export function checkSettingsPayload(payload: unknown): Record<string, unknown> 
   const known = Object.keys(defaultSettings());
   const base = defaultSettings();
   for (const [k, v] of Object.entries(payload)) {
-    if (!known.includes(k))
-      throw bad("bad_request", `Unknown field \`${k}\`: expected one of ${known.map((x) => `\`${x}\``).join(", ")}`);
+    if (!known.includes(k)) throw bad("bad_request", `Unknown field \`${k}\`: expected one of ${known.map((x) => `\`${x}\``).join(", ")}`);
     if (v !== null) validate(k as keyof Settings, v, base);
   }
   return payload as Record<string, unknown>;

@@ -116,7 +116,10 @@ export class Store {
   }
 
   isIndexing(uid: string): boolean {
-    return this.queue.some((q) => q.task.indexUid === uid) || [...this.tasks.values()].some((t) => t.indexUid === uid && t.status === "processing");
+    return (
+      this.queue.some((q) => q.task.indexUid === uid) ||
+      [...this.tasks.values()].some((t) => t.indexUid === uid && t.status === "processing")
+    );
   }
 
   enqueue(type: TaskType, indexUid: string | null, details: Record<string, unknown> | null, op: Op, customMetadata?: string) {
@@ -249,7 +252,9 @@ export class Store {
         task.details = this.apply(op, task.startedAt, task.details);
         ok = true;
       } catch (e) {
-        task.error = (e instanceof MeiliError ? e : new MeiliError(500, "internal", String((e as Error)?.message ?? e), "internal")).toJSON();
+        task.error = (
+          e instanceof MeiliError ? e : new MeiliError(500, "internal", String((e as Error)?.message ?? e), "internal")
+        ).toJSON();
         task.details = failedDetails(op, task.details);
       }
       task.finishedAt = new Date().toISOString();
@@ -264,7 +269,12 @@ export class Store {
         // the effect is applied in memory but not on disk: say so rather than claim success
         console.error(`[meili-fake] could not write the journal: ${(e as Error).message}`);
         task.status = "failed";
-        task.error = new MeiliError(500, "io_error", `The search fake could not persist this task: ${(e as Error).message}`, "system").toJSON();
+        task.error = new MeiliError(
+          500,
+          "io_error",
+          `The search fake could not persist this task: ${(e as Error).message}`,
+          "system",
+        ).toJSON();
       }
       this.trimTasks();
     }
@@ -294,7 +304,8 @@ export class Store {
       case "updateIndex": {
         const idx = this.getIndex(op.uid);
         if (op.primaryKey !== null && op.primaryKey !== idx.primaryKey) {
-          if (idx.numberOfDocuments > 0) throw new MeiliError(400, "index_primary_key_already_exists", "Index already has a primary key: `" + idx.primaryKey + "`.");
+          if (idx.numberOfDocuments > 0)
+            throw new MeiliError(400, "index_primary_key_already_exists", `Index already has a primary key: \`${idx.primaryKey}\`.`);
           idx.primaryKey = op.primaryKey;
         }
         idx.touch(now);
@@ -312,7 +323,13 @@ export class Store {
           const ib = this.indexes.get(b);
           const missing = [!ia && a, !ib && !s.rename && b].filter(Boolean);
           if (missing.length)
-            throw new MeiliError(404, "index_not_found", missing.length === 1 ? `Index \`${missing[0]}\` not found.` : `Indexes ${missing.map((m) => `\`${m}\``).join(", ")} not found.`);
+            throw new MeiliError(
+              404,
+              "index_not_found",
+              missing.length === 1
+                ? `Index \`${missing[0]}\` not found.`
+                : `Indexes ${missing.map((m) => `\`${m}\``).join(", ")} not found.`,
+            );
           if (s.rename && ib) throw new MeiliError(409, "index_already_exists", `Index \`${b}\` already exists.`);
           this.indexes.delete(a);
           this.indexes.delete(b);
@@ -385,7 +402,7 @@ export class Store {
 
   private journal(entry: { task: Task; op?: Op }) {
     if (this.journalFd === null) return;
-    const line = JSON.stringify(entry) + "\n";
+    const line = `${JSON.stringify(entry)}\n`;
     fs.writeSync(this.journalFd, line);
     fs.fdatasyncSync(this.journalFd);
     this.journalBytes += Buffer.byteLength(line);
@@ -399,7 +416,7 @@ export class Store {
     if (fs.existsSync(snap)) {
       let pending: { uid: string; docs: Doc[] } | null = null;
       const flush = () => {
-        if (pending && pending.docs.length) this.indexes.get(pending.uid)!.addDocuments(pending.docs, {});
+        if (pending?.docs.length) this.indexes.get(pending.uid)!.addDocuments(pending.docs, {});
         if (pending) pending.docs = [];
       };
       for (const line of readLines(snap)) {
@@ -461,13 +478,20 @@ export class Store {
     const snap = path.join(dir, "snapshot.ndjson");
     const tmp = `${snap}.tmp`;
     const fd = fs.openSync(tmp, "w");
-    const w = (o: unknown) => fs.writeSync(fd, JSON.stringify(o) + "\n");
+    const w = (o: unknown) => fs.writeSync(fd, `${JSON.stringify(o)}\n`);
     w({ type: "meta", version: 1, nextTaskUid: this.nextTaskUid, nextBatchUid: this.nextBatchUid });
     for (const idx of this.indexes.values()) {
-      w({ type: "index", uid: idx.uid, primaryKey: idx.primaryKey, createdAt: idx.createdAt, updatedAt: idx.updatedAt, settings: idx.settings });
+      w({
+        type: "index",
+        uid: idx.uid,
+        primaryKey: idx.primaryKey,
+        createdAt: idx.createdAt,
+        updatedAt: idx.updatedAt,
+        settings: idx.settings,
+      });
       let buf = "";
       for (const doc of idx.documents()) {
-        buf += JSON.stringify({ type: "doc", doc }) + "\n";
+        buf += `${JSON.stringify({ type: "doc", doc })}\n`;
         if (buf.length > 1 << 20) {
           fs.writeSync(fd, buf);
           buf = "";
@@ -558,13 +582,19 @@ export function parseTaskQuery(params: URLSearchParams, allowPaging: boolean) {
   const list = (name: string) => {
     const v = params.get(name);
     if (v === null || v === "*") return undefined;
-    return v.split(",").map((x) => x.trim()).filter(Boolean);
+    return v
+      .split(",")
+      .map((x) => x.trim())
+      .filter(Boolean);
   };
   const nums = (name: string) =>
     list(name)?.map((x) => {
       const n = Number(x);
       if (!Number.isInteger(n) || n < 0)
-        throw bad(`invalid_task_${name.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`, `Invalid value in parameter \`${name}\`: could not parse \`${x}\` as a positive integer`);
+        throw bad(
+          `invalid_task_${name.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`,
+          `Invalid value in parameter \`${name}\`: could not parse \`${x}\` as a positive integer`,
+        );
       return n;
     });
   q.uids = nums("uids");
@@ -573,17 +603,33 @@ export function parseTaskQuery(params: URLSearchParams, allowPaging: boolean) {
   q.statuses = list("statuses");
   for (const s of q.statuses ?? [])
     if (!STATUSES.includes(s))
-      throw bad("invalid_task_statuses", `Invalid value in parameter \`statuses\`: \`${s}\` is not a valid task status. Available statuses are ${STATUSES.map((x) => `\`${x}\``).join(", ")}.`);
+      throw bad(
+        "invalid_task_statuses",
+        `Invalid value in parameter \`statuses\`: \`${s}\` is not a valid task status. Available statuses are ${STATUSES.map((x) => `\`${x}\``).join(", ")}.`,
+      );
   q.types = list("types");
   for (const s of q.types ?? [])
     if (!TYPES.includes(s))
-      throw bad("invalid_task_types", `Invalid value in parameter \`types\`: \`${s}\` is not a valid task type. Available types are ${TYPES.map((x) => `\`${x}\``).join(", ")}.`);
+      throw bad(
+        "invalid_task_types",
+        `Invalid value in parameter \`types\`: \`${s}\` is not a valid task type. Available types are ${TYPES.map((x) => `\`${x}\``).join(", ")}.`,
+      );
   q.indexUids = list("indexUids");
-  for (const k of ["afterEnqueuedAt", "beforeEnqueuedAt", "afterStartedAt", "beforeStartedAt", "afterFinishedAt", "beforeFinishedAt"] as const) {
+  for (const k of [
+    "afterEnqueuedAt",
+    "beforeEnqueuedAt",
+    "afterStartedAt",
+    "beforeStartedAt",
+    "afterFinishedAt",
+    "beforeFinishedAt",
+  ] as const) {
     const v = params.get(k);
     if (v && v !== "*") {
       if (Number.isNaN(Date.parse(v)))
-        throw bad(`invalid_task_${k.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`, `Invalid value in parameter \`${k}\`: \`${v}\` is an invalid date-time.`);
+        throw bad(
+          `invalid_task_${k.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`,
+          `Invalid value in parameter \`${k}\`: \`${v}\` is an invalid date-time.`,
+        );
       q[k] = v;
     }
   }
@@ -591,13 +637,15 @@ export function parseTaskQuery(params: URLSearchParams, allowPaging: boolean) {
     const limit = params.get("limit");
     if (limit !== null) {
       const n = Number(limit);
-      if (!Number.isInteger(n) || n < 0) throw bad("invalid_task_limit", `Invalid value in parameter \`limit\`: could not parse \`${limit}\` as a positive integer`);
+      if (!Number.isInteger(n) || n < 0)
+        throw bad("invalid_task_limit", `Invalid value in parameter \`limit\`: could not parse \`${limit}\` as a positive integer`);
       q.limit = n;
     }
     const from = params.get("from");
     if (from !== null) {
       const n = Number(from);
-      if (!Number.isInteger(n) || n < 0) throw bad("invalid_task_from", `Invalid value in parameter \`from\`: could not parse \`${from}\` as a positive integer`);
+      if (!Number.isInteger(n) || n < 0)
+        throw bad("invalid_task_from", `Invalid value in parameter \`from\`: could not parse \`${from}\` as a positive integer`);
       q.from = n;
     }
     const rev = params.get("reverse");

@@ -1,6 +1,6 @@
 /** The asynchronous task model, observed through the SDK: enqueued → processing → succeeded / failed. */
 import { Meilisearch, MeilisearchTaskTimeOutError } from "meilisearch";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, onTestFinished } from "vitest";
 import { startMeiliFake, type MeiliFake } from "./server";
 
 let fake: MeiliFake;
@@ -15,13 +15,20 @@ afterAll(() => fake.close());
 
 describe("task lifecycle", () => {
   it("goes enqueued → processing → succeeded, with timestamps and a duration", async () => {
+    // A fake of its own keeps each task 1 s in processing: with 150 ms a busy machine (2 cores,
+    // several test runs) had started the second task before the test asked for it.
+    const slow = await startMeiliFake({ port: 0, processingDelayMs: 1_000 });
+    onTestFinished(() => slow.close());
+    const client = new Meilisearch({ host: slow.url });
     const first = await client.createIndex("life", { primaryKey: "id" });
     const second = await client.index("life").addDocuments([{ id: 1, title: "Cam timing" }]);
     expect(first.status).toBe("enqueued");
     expect(second.taskUid).toBe(first.taskUid + 1);
 
     const queued = await client.tasks.getTask(second.taskUid);
-    expect(queued).toEqual(expect.objectContaining({ status: "enqueued", startedAt: null, finishedAt: null, duration: null, batchUid: null }));
+    expect(queued).toEqual(
+      expect.objectContaining({ status: "enqueued", startedAt: null, finishedAt: null, duration: null, batchUid: null }),
+    );
     expect(queued.details).toEqual({ receivedDocuments: 1, indexedDocuments: null });
 
     const seen = new Set<string>();
@@ -37,14 +44,27 @@ describe("task lifecycle", () => {
 
     const done = await client.tasks.waitForTask(second.taskUid);
     expect(done).toEqual(
-      expect.objectContaining({ status: "succeeded", type: "documentAdditionOrUpdate", error: null, batchUid: expect.any(Number), duration: expect.stringMatching(/^PT/) }),
+      expect.objectContaining({
+        status: "succeeded",
+        type: "documentAdditionOrUpdate",
+        error: null,
+        batchUid: expect.any(Number),
+        duration: expect.stringMatching(/^PT/),
+      }),
     );
     expect(done.details).toEqual({ receivedDocuments: 1, indexedDocuments: 1 });
-    expect(Date.parse(done.enqueuedAt) <= Date.parse(done.startedAt!) && Date.parse(done.startedAt!) <= Date.parse(done.finishedAt!)).toBe(true);
+    expect(Date.parse(done.enqueuedAt) <= Date.parse(done.startedAt!) && Date.parse(done.startedAt!) <= Date.parse(done.finishedAt!)).toBe(
+      true,
+    );
     expect((await client.index("life").getStats()).isIndexing).toBe(false);
   });
 
   it("processes tasks in order: a search sees a write only once its task succeeded", async () => {
+    // the index that this test and the next share
+    await client
+      .index("life")
+      .addDocuments([{ id: 1, title: "Cam timing" }], { primaryKey: "id" })
+      .waitTask();
     const t = await client.index("life").addDocuments([{ id: 2, title: "Valve lash" }]);
     expect((await client.index("life").search("lash")).hits).toEqual([]);
     await client.tasks.waitForTask(t);
@@ -67,19 +87,30 @@ describe("task lifecycle", () => {
     expect((await client.tasks.getTask(a.taskUid)).status).toBe("processing");
     expect((await client.tasks.getTask(b.taskUid)).status).toBe("enqueued");
     const cancel = await client.tasks.cancelTasks({ indexUids: ["cancel"], statuses: ["enqueued", "processing"] }).waitTask();
-    expect(cancel.details).toEqual({ matchedTasks: 2, canceledTasks: 2, originalFilter: "?indexUids=cancel&statuses=enqueued%2Cprocessing" });
+    expect(cancel.details).toEqual({
+      matchedTasks: 2,
+      canceledTasks: 2,
+      originalFilter: "?indexUids=cancel&statuses=enqueued%2Cprocessing",
+    });
     for (const uid of [a.taskUid, b.taskUid]) {
       const t = await client.tasks.waitForTask(uid);
-      expect(t).toEqual(expect.objectContaining({ status: "canceled", canceledBy: cancel.uid, error: null, finishedAt: expect.any(String) }));
+      expect(t).toEqual(
+        expect.objectContaining({ status: "canceled", canceledBy: cancel.uid, error: null, finishedAt: expect.any(String) }),
+      );
       expect(t.details).toEqual({ receivedDocuments: 1, indexedDocuments: 0 });
     }
     expect((await client.index("cancel").getDocuments()).results).toEqual([]);
-    expect((await client.tasks.getTasks({ canceledBy: [cancel.uid] })).results.map((t) => t.uid).sort()).toEqual([a.taskUid, b.taskUid].sort());
+    expect((await client.tasks.getTasks({ canceledBy: [cancel.uid] })).results.map((t) => t.uid).sort()).toEqual(
+      [a.taskUid, b.taskUid].sort(),
+    );
     await slow.close();
   }, 15_000);
 
   it("reports a failed task with its error (waitTask does not throw)", async () => {
-    const t = await client.index("life").addDocuments([{ title: "no id" }]).waitTask();
+    const t = await client
+      .index("life")
+      .addDocuments([{ title: "no id" }])
+      .waitTask();
     expect(t.status).toBe("failed");
     expect(t.error).toEqual({
       message: 'Document doesn\'t have a `id` attribute: `{"title":"no id"}`.',
@@ -93,10 +124,16 @@ describe("task lifecycle", () => {
   });
 
   it("fails primary key inference clearly", async () => {
-    const t = await client.index("nokey").addDocuments([{ name: "x" }]).waitTask();
+    const t = await client
+      .index("nokey")
+      .addDocuments([{ name: "x" }])
+      .waitTask();
     expect(t.status).toBe("failed");
     expect(t.error?.code).toBe("index_primary_key_no_candidate_found");
-    const m = await client.index("twokeys").addDocuments([{ id: 1, part_id: 2 }]).waitTask();
+    const m = await client
+      .index("twokeys")
+      .addDocuments([{ id: 1, part_id: 2 }])
+      .waitTask();
     expect(m.error?.code).toBe("index_primary_key_multiple_candidates_found");
   });
 

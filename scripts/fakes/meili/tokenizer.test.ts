@@ -18,7 +18,7 @@ describe("tokenizer", () => {
 
   it("lower-cases and strips accents, splits at other punctuation", () => {
     expect(normalizeTerm("Pésti")).toBe("pesti");
-    expect(tokenize("Ring gap (top): 0.018\", checked!")).toEqual(["ring", "gap", "top", "0.018", "018", "checked"]);
+    expect(tokenize('Ring gap (top): 0.018", checked!')).toEqual(["ring", "gap", "top", "0.018", "018", "checked"]);
   });
 
   it("gives offsets of chunks and parts in the original text", () => {

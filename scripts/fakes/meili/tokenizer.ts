@@ -13,7 +13,7 @@
 
 // letters/digits, then any number of (one joiner + letters/digits)
 // (group 1 is non-empty when the chunk holds joiners)
-const CHUNK_RE = /[\p{L}\p{N}]+((?:[.·⋅∙•\/\-‐‑_×][\p{L}\p{N}]+)*)/gu;
+const CHUNK_RE = /[\p{L}\p{N}]+((?:[.·⋅∙•/\-‐‑_×][\p{L}\p{N}]+)*)/gu;
 const DIGIT_X_DIGIT = /\d[xX]\d/;
 
 /** Whether a chunk can have parts: it holds a joiner, or an x between two digits. */
@@ -69,7 +69,8 @@ function splitParts(text: string, offset: number): Part[] | null {
  */
 export function forEachChunk(text: string, cb: (start: number, end: number, raw: string, term: string, hasParts: boolean) => void) {
   CHUNK_RE.lastIndex = 0;
-  for (let m = CHUNK_RE.exec(text); m !== null; m = CHUNK_RE.exec(text)) cb(m.index, m.index + m[0].length, m[0], normalizeTerm(m[0]), mayHaveParts(m));
+  for (let m = CHUNK_RE.exec(text); m !== null; m = CHUNK_RE.exec(text))
+    cb(m.index, m.index + m[0].length, m[0], normalizeTerm(m[0]), mayHaveParts(m));
 }
 
 export function partsOfChunk(raw: string, offset: number): Part[] | null {
@@ -82,7 +83,12 @@ export function scanChunks(text: string): Chunk[] {
   CHUNK_RE.lastIndex = 0;
   for (let m = CHUNK_RE.exec(text); m !== null; m = CHUNK_RE.exec(text)) {
     const raw = m[0];
-    out.push({ start: m.index, end: m.index + raw.length, term: normalizeTerm(raw), parts: mayHaveParts(m) ? splitParts(raw, m.index) : null });
+    out.push({
+      start: m.index,
+      end: m.index + raw.length,
+      term: normalizeTerm(raw),
+      parts: mayHaveParts(m) ? splitParts(raw, m.index) : null,
+    });
   }
   return out;
 }

@@ -30,8 +30,7 @@ describe("fake SMTP server", () => {
     await rm(dir, { recursive: true, force: true });
   });
 
-  const transport = () =>
-    nodemailer.createTransport({ host: "127.0.0.1", port, secure: false, ignoreTLS: true });
+  const transport = () => nodemailer.createTransport({ host: "127.0.0.1", port, secure: false, ignoreTLS: true });
 
   it("stores a message sent by nodemailer with text, html and links", async () => {
     await transport().sendMail({
@@ -53,9 +52,9 @@ describe("fake SMTP server", () => {
 
   it("refuses connections while stopped and accepts again after start", async () => {
     await fetch(`${fake.controlUrl}/smtp/stop`, { method: "POST" });
-    await expect(
-      transport().sendMail({ from: "a@larkspur.example", to: "b@larkspur.example", subject: "x", text: "x" }),
-    ).rejects.toThrow(/ECONNREFUSED/);
+    await expect(transport().sendMail({ from: "a@larkspur.example", to: "b@larkspur.example", subject: "x", text: "x" })).rejects.toThrow(
+      /ECONNREFUSED/,
+    );
     await fetch(`${fake.controlUrl}/smtp/start`, { method: "POST" });
     await transport().sendMail({ from: "a@larkspur.example", to: "b@larkspur.example", subject: "back", text: "x" });
     expect((await listMessages(dir)).map((m) => m.subject)).toContain("back");

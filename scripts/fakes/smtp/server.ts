@@ -104,8 +104,14 @@ export async function startSmtpFake(opts: { smtpPort: number; controlPort?: numb
       };
       try {
         if (req.method === "GET" && req.url === "/messages") return send(200, await listMessages(opts.dir));
-        if (req.method === "POST" && req.url === "/smtp/stop") return await unlisten(), send(200, { listening: false });
-        if (req.method === "POST" && req.url === "/smtp/start") return await listen(), send(200, { listening: true });
+        if (req.method === "POST" && req.url === "/smtp/stop") {
+          await unlisten();
+          return send(200, { listening: false });
+        }
+        if (req.method === "POST" && req.url === "/smtp/start") {
+          await listen();
+          return send(200, { listening: true });
+        }
         if (req.method === "GET" && req.url === "/health") return send(200, { listening: Boolean(smtp) });
         send(404, { error: "not found" });
       } catch (err) {
