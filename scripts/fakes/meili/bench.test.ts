@@ -20,8 +20,10 @@ describe("bench", () => {
     const r = await runMeiliBench({ docs: 300, vocabulary: 1500, samples: 4 });
     expect(r.docs).toBe(300);
     expect(r.indexing.ms).toBeGreaterThan(0);
+    expect(Object.keys(r.cases)).toHaveLength(6);
     for (const c of Object.values(r.cases)) {
-      for (const s of [c.sdk, c.engine, c.minisearch!]) expect(s.p95).toBeGreaterThanOrEqual(s.p50);
+      // every query of the case went through each of the three paths
+      for (const s of [c.sdk, c.engine, c.minisearch!]) expect(s.samples).toBe(4);
       expect(c.meanEstimatedTotalHits).toBeGreaterThan(0);
     }
     expect(Object.keys(r.targets)).toHaveLength(5);
