@@ -1,4 +1,4 @@
-import { and, asc, isNull, lte, sql } from "drizzle-orm";
+import { and, asc, desc, isNull, lte, sql } from "drizzle-orm";
 import nodemailer, { type Transporter } from "nodemailer";
 import { mailOutbox } from "~/db/schema";
 import { db, type DbOrTx } from "./db.server";
@@ -118,4 +118,13 @@ export async function mailStatus(): Promise<{ pending: number; failing: number }
     })
     .from(mailOutbox);
   return r ?? { pending: 0, failing: 0 };
+}
+
+/** The newest messages of the outbox, sent or not, with their delivery state (the admin's Outbox page). */
+export async function recentOutbox(limit = 30) {
+  return db()
+    .select({ id: mailOutbox.id, to: mailOutbox.to, subject: mailOutbox.subject, attempts: mailOutbox.attempts, lastError: mailOutbox.lastError, sentAt: mailOutbox.sentAt, createdAt: mailOutbox.createdAt })
+    .from(mailOutbox)
+    .orderBy(desc(mailOutbox.id))
+    .limit(limit);
 }

@@ -1,25 +1,35 @@
 import { randomUUID } from "node:crypto";
-import { and, eq, gt, isNull, ne, sql } from "drizzle-orm";
+import { and, desc, eq, gt, isNull, ne, sql } from "drizzle-orm";
 import { invitations, passwordResets, sessions, users } from "~/db/schema";
 import { audit } from "./audit.server";
-import { endAllSessions, forgetValidatedSessions, hashPassword, verifyPassword } from "./auth.server";
+import { endAllSessions, hashPassword, verifyPassword } from "./auth.server";
 import { db, type Tx } from "./db.server";
+import { DomainError } from "./domain-error";
 import { env } from "./env.server";
 import { composeMail, enqueueMail } from "./mail.server";
 import { ROLE_LABELS, type Role } from "./permissions";
 import { passwordRefusalMessage, throttledPasswordCheck, throttleResetRequest, type Refusal } from "./throttle.server";
 import { INVITATION_TTL_MS, newToken, RESET_TTL_MS, hashToken, tokenState, type TokenState } from "./tokens.server";
 
-export class PeopleError extends Error {
-  constructor(
-    message: string,
-    readonly field: string = "form",
-  ) {
-    super(message);
-  }
+const link = (p: string) => new URL(p, env().PUBLIC_URL).toString();
+
+/** Everyone with an account, active or not, by name (the admin's list). */
+export async function listPeople() {
+  return db()
+    .select({ id: users.id, name: users.name, email: users.email, role: users.role, deactivatedAt: users.deactivatedAt, createdAt: users.createdAt })
+    .from(users)
+    .orderBy(users.name);
 }
 
-const link = (p: string) => new URL(p, env().PUBLIC_URL).toString();
+/** Invitations not yet accepted (expired ones included, so the admin sees them lapse), newest first. */
+export async function openInvitations(limit = 50) {
+  return db()
+    .select({ id: invitations.id, email: invitations.email, role: invitations.role, expiresAt: invitations.expiresAt, createdAt: invitations.createdAt })
+    .from(invitations)
+    .where(isNull(invitations.usedAt))
+    .orderBy(desc(invitations.createdAt))
+    .limit(limit);
+}
 
 export async function findUserByEmail(email: string) {
   const [row] = await db().select().from(users).where(sql`lower(${users.email}) = ${email.trim().toLowerCase()}`).limit(1);
@@ -29,7 +39,7 @@ export async function findUserByEmail(email: string) {
 /** Saves the invitation and its e-mail in one transaction; the worker sends the mail. */
 export async function invite(actor: { id: string; name: string }, emailInput: string, role: Role) {
   const email = emailInput.trim().toLowerCase();
-  if (await findUserByEmail(email)) throw new PeopleError("Someone with this e-mail already has an account.", "email");
+  if (await findUserByEmail(email)) throw new DomainError("Someone with this e-mail already has an account.", { field: "email" });
   const { token, hash } = newToken();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   await db().transaction(async (tx) => {
@@ -67,11 +77,11 @@ export async function acceptInvitation(token: string, name: string, password: st
   return db().transaction(async (tx) => {
     const [inv] = await tx.select().from(invitations).where(eq(invitations.tokenHash, hashToken(token))).for("update").limit(1);
     const state = invitationState(inv ?? null);
-    if (state === "unknown") throw new PeopleError("This invitation link is not valid.");
-    if (state === "used") throw new PeopleError("This invitation has already been used. Sign in instead.");
-    if (state === "expired") throw new PeopleError("This invitation has expired. Ask the admin for a new one.");
+    if (state === "unknown") throw new DomainError("This invitation link is not valid.");
+    if (state === "used") throw new DomainError("This invitation has already been used. Sign in instead.");
+    if (state === "expired") throw new DomainError("This invitation has expired. Ask the admin for a new one.");
     const [existing] = await tx.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = ${inv.email}`);
-    if (existing) throw new PeopleError("An account with this e-mail already exists. Sign in instead.");
+    if (existing) throw new DomainError("An account with this e-mail already exists. Sign in instead.");
     const id = randomUUID();
     await tx.insert(users).values({ id, email: inv.email, name: name.trim(), role: inv.role, passwordHash });
     await tx.update(invitations).set({ usedAt: new Date() }).where(eq(invitations.id, inv.id));
@@ -136,16 +146,15 @@ export async function resetPassword(token: string, password: string): Promise<st
   const passwordHash = await hashPassword(password);
   const userId = await db().transaction(async (tx) => {
     const [row] = await tx.select().from(passwordResets).where(eq(passwordResets.tokenHash, hashToken(token))).for("update").limit(1);
-    if (!row) throw new PeopleError("This reset link is not valid.");
+    if (!row) throw new DomainError("This reset link is not valid.");
     const state = tokenState(row);
-    if (state === "used") throw new PeopleError("This reset link has already been used. Ask for a new one.");
-    if (state === "expired") throw new PeopleError("This reset link has expired. Ask for a new one.");
+    if (state === "used") throw new DomainError("This reset link has already been used. Ask for a new one.");
+    if (state === "expired") throw new DomainError("This reset link has expired. Ask for a new one.");
     await tx.update(passwordResets).set({ usedAt: new Date() }).where(eq(passwordResets.id, row.id));
     await setPassword(tx, row.userId, passwordHash, null);
     await audit(tx, row.userId, "reset-password", "user", row.userId);
     return row.userId;
   });
-  forgetValidatedSessions();
   return userId;
 }
 
@@ -173,7 +182,6 @@ export async function changePassword(
     await setPassword(tx, person.id, passwordHash, keepSessionId);
     await audit(tx, person.id, "change-password", "user", person.id);
   });
-  forgetValidatedSessions();
   return { ok: true };
 }
 
@@ -194,9 +202,9 @@ async function activeAdminsOtherThan(userId: string): Promise<number> {
 
 export async function changeRole(actor: { id: string }, userId: string, role: Role) {
   const [target] = await db().select().from(users).where(eq(users.id, userId));
-  if (!target) throw new PeopleError("No such person.");
+  if (!target) throw new DomainError("No such person.");
   if (target.role === "admin" && role !== "admin" && (await activeAdminsOtherThan(userId)) === 0) {
-    throw new PeopleError("The shop needs at least one active admin.");
+    throw new DomainError("The shop needs at least one active admin.");
   }
   await db().transaction(async (tx) => {
     await tx.update(users).set({ role }).where(eq(users.id, userId));
@@ -207,10 +215,10 @@ export async function changeRole(actor: { id: string }, userId: string, role: Ro
 /** Deactivating ends every session of the person at once. */
 export async function setActive(actor: { id: string }, userId: string, active: boolean) {
   const [target] = await db().select().from(users).where(eq(users.id, userId));
-  if (!target) throw new PeopleError("No such person.");
-  if (!active && userId === actor.id) throw new PeopleError("You cannot deactivate your own account.");
+  if (!target) throw new DomainError("No such person.");
+  if (!active && userId === actor.id) throw new DomainError("You cannot deactivate your own account.");
   if (!active && target.role === "admin" && (await activeAdminsOtherThan(userId)) === 0) {
-    throw new PeopleError("The shop needs at least one active admin.");
+    throw new DomainError("The shop needs at least one active admin.");
   }
   await db().transaction(async (tx) => {
     await tx.update(users).set({ deactivatedAt: active ? null : new Date() }).where(eq(users.id, userId));

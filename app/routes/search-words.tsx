@@ -5,11 +5,12 @@ import { readForm } from "~/lib/edge.server";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { requirePermission } from "~/lib/auth.server";
+import { domainFailure, formValues, unknownAction } from "~/lib/domain-error.server";
 import { formatDay } from "~/lib/dates";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { groupProblem, MAX_WORDS, parseWordList } from "~/lib/search/synonyms";
-import { addWordGroup, removeWordGroup, updateWordGroup, WordGroupError, wordGroups, wordsPending } from "~/lib/search/words.server";
+import { addWordGroup, removeWordGroup, updateWordGroup, wordGroups, wordsPending } from "~/lib/search/words.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Search words · Benchreel" }];
 
@@ -22,14 +23,7 @@ const addSchema = z.object({ intent: z.literal("add"), words: wordsField });
 const changeSchema = z.object({ intent: z.literal("change"), id: z.string().uuid(), loadedAt: z.coerce.number().int().min(0).max(8.64e15), words: wordsField });
 const removeSchema = z.object({ intent: z.literal("remove"), id: z.string().uuid() });
 
-type Failure = {
-  intent: string;
-  id?: string;
-  errors: Record<string, string>;
-  values: Record<string, string>;
-  /** On a conflict: the group as it is now, and its time (a second save replaces it). */
-  current?: { words: string[]; loadedAt: number };
-};
+type Failure = { intent: string; errors: Record<string, string>; values: Record<string, string> };
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requirePermission(request, "search:words:edit");
@@ -41,7 +35,7 @@ export async function action({ request }: Route.ActionArgs) {
   const actor = await requirePermission(request, "search:words:edit");
   const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
-  const fail = (f: Failure, status = 400) => data(f, { status });
+  const fail = (f: Failure) => data(f, { status: 400 });
   try {
     if (intent === "add") {
       const parsed = parseForm(addSchema, form);
@@ -54,10 +48,10 @@ export async function action({ request }: Route.ActionArgs) {
     }
     if (intent === "change") {
       const parsed = parseForm(changeSchema, form);
-      if (!parsed.ok) return fail({ intent, id: String(form.get("id") ?? ""), errors: parsed.errors, values: parsed.values });
+      if (!parsed.ok) return fail({ intent, errors: parsed.errors, values: parsed.values });
       const words = parseWordList(parsed.data.words);
       const problem = groupProblem(words, []);
-      if (problem) return fail({ intent, id: parsed.data.id, errors: { words: problem }, values: parsed.values });
+      if (problem) return fail({ intent, errors: { words: problem }, values: parsed.values });
       await updateWordGroup(actor, parsed.data.id, words, parsed.data.loadedAt);
       return redirectWithFlash("/search/words", { kind: "ok", message: `Saved: ${words.join(", ")}.` });
     }
@@ -68,14 +62,9 @@ export async function action({ request }: Route.ActionArgs) {
       return redirectWithFlash("/search/words", removed ? { kind: "ok", message: "Group removed." } : { kind: "ok", message: "That group was already gone." });
     }
   } catch (err) {
-    if (err instanceof WordGroupError) {
-      const values = Object.fromEntries([...form].filter(([, v]) => typeof v === "string")) as Record<string, string>;
-      const current = err.current && { words: err.current.words, loadedAt: err.current.updatedAt.getTime() };
-      return fail({ intent, id: String(form.get("id") ?? "") || undefined, errors: { [err.field]: err.message }, values, current }, 409);
-    }
-    throw err;
+    return domainFailure(request, err, intent, formValues(form));
   }
-  return fail({ intent: "unknown", errors: { form: "Unknown action." }, values: {} });
+  return unknownAction(request, intent);
 }
 
 export default function SearchWords({ loaderData, actionData }: Route.ComponentProps) {
@@ -125,7 +114,11 @@ export default function SearchWords({ loaderData, actionData }: Route.ComponentP
           ) : (
             <ul>
               {groups.map((g) => {
-                const mine = failed?.intent === "change" && failed.id === g.id ? failed : undefined;
+                const mine = failed?.intent === "change" && failed.values.id === g.id ? failed : undefined;
+                // The list is loaded again after every post: when the group's time is no longer
+                // the one the refused save was made against, someone changed it meanwhile, and
+                // the form shows it as it is now and carries its new time (saving again replaces it).
+                const changedMeanwhile = mine !== undefined && mine.values.loadedAt !== String(g.loadedAt);
                 return (
                   <li key={g.id} className="border-b border-rule/70 px-4 py-3 last:border-0" data-testid="word-group">
                     <div className="flex flex-wrap items-start justify-between gap-3">
@@ -153,10 +146,10 @@ export default function SearchWords({ loaderData, actionData }: Route.ComponentP
                       <Form method="post" className="mt-2 space-y-2" noValidate>
                         <input type="hidden" name="intent" value="change" />
                         <input type="hidden" name="id" value={g.id} />
-                        <input type="hidden" name="loadedAt" value={mine?.current ? mine.current.loadedAt : g.loadedAt} />
-                        {mine?.current && (
+                        <input type="hidden" name="loadedAt" value={g.loadedAt} />
+                        {changedMeanwhile && (
                           <p className="text-sm">
-                            Now reads: <strong>{mine.current.words.join(", ")}</strong>
+                            Now reads: <strong>{g.words.join(", ")}</strong>
                           </p>
                         )}
                         <FormError message={mine?.errors.form} />

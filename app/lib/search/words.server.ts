@@ -3,21 +3,10 @@ import { searchOutbox, searchWordGroups, users } from "~/db/schema";
 import { audit } from "~/lib/audit.server";
 import type { SessionUser } from "~/lib/auth.server";
 import { db, type Tx } from "~/lib/db.server";
+import { DomainError } from "~/lib/domain-error";
 import { groupProblem, synonymsSetting } from "./synonyms";
 
 export type WordGroup = { id: string; words: string[]; createdAt: Date; updatedAt: Date; updatedBy: string | null };
-
-/** A change that cannot be saved, with the field it belongs to and what is wrong. */
-export class WordGroupError extends Error {
-  constructor(
-    readonly field: "words" | "form",
-    message: string,
-    /** On a conflict: the group as it is now. */
-    readonly current?: { words: string[]; updatedAt: Date },
-  ) {
-    super(message);
-  }
-}
 
 /** In the order of each group's first word (the list people read, and the examples on /search). */
 const byFirstWord = [sql`${searchWordGroups.words}[1]`, searchWordGroups.id];
@@ -56,7 +45,7 @@ const lockGroups = (tx: Tx) => tx.execute(sql`lock table search_word_groups in s
 async function check(tx: Tx, words: string[], selfId?: string) {
   const others = await tx.select({ id: searchWordGroups.id, words: searchWordGroups.words }).from(searchWordGroups);
   const problem = groupProblem(words, others, selfId);
-  if (problem) throw new WordGroupError("words", problem);
+  if (problem) throw new DomainError(problem, { field: "words" });
 }
 
 export async function addWordGroup(actor: SessionUser, words: string[]): Promise<void> {
@@ -70,19 +59,18 @@ export async function addWordGroup(actor: SessionUser, words: string[]): Promise
 
 /**
  * Saves a group's new words, unless someone changed the group after the editor loaded it
- * (`loadedAt`, the group's updatedAt then): nothing is saved, and the error carries the group
- * as it is now. Saving again with that group's time overwrites it on purpose.
+ * (`loadedAt`, the group's updatedAt then): nothing is saved (a 409; the page shows the group
+ * as it is now, with its new time). Saving again with that time overwrites it on purpose.
  */
 export async function updateWordGroup(actor: SessionUser, id: string, words: string[], loadedAt: number): Promise<void> {
   await db().transaction(async (tx) => {
     await lockGroups(tx);
     const [current] = await tx.select().from(searchWordGroups).where(eq(searchWordGroups.id, id));
-    if (!current) throw new WordGroupError("form", "That group was removed while you were editing it. Add your words as a new group.");
+    if (!current) throw new DomainError("That group was removed while you were editing it. Add your words as a new group.");
     if (current.updatedAt.getTime() !== loadedAt) {
-      throw new WordGroupError(
-        "words",
+      throw new DomainError(
         "Someone changed this group while you were editing it. It now reads as shown above; your words are still in the field. Save again to replace theirs.",
-        { words: current.words, updatedAt: current.updatedAt },
+        { field: "words" },
       );
     }
     await check(tx, words, id);

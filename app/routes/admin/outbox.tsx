@@ -1,12 +1,10 @@
-import { desc } from "drizzle-orm";
 import { data } from "react-router";
 import type { Route } from "./+types/outbox";
 import { EmptyState, PageHeader } from "~/components/page";
-import { mailOutbox } from "~/db/schema";
 import { requirePermission } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
 import { readFakeMailbox } from "~/lib/fake-mailbox.server";
+import { recentOutbox } from "~/lib/mail.server";
 import { formatDayTime } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "Outbox · Benchreel" }];
@@ -18,12 +16,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!dir) throw data({ message: "Mail goes to a real provider; there is no local outbox." }, { status: 404 });
   const [messages, queue] = await Promise.all([
     readFakeMailbox(dir),
-    db().select().from(mailOutbox).orderBy(desc(mailOutbox.id)).limit(30),
+    recentOutbox(),
   ]);
-  return {
-    messages: messages.slice(0, 100),
-    queue: queue.map((q) => ({ id: q.id, to: q.to, subject: q.subject, attempts: q.attempts, lastError: q.lastError, sentAt: q.sentAt, createdAt: q.createdAt })),
-  };
+  return { messages: messages.slice(0, 100), queue };
 }
 
 const when = formatDayTime;

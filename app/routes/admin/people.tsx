@@ -1,16 +1,14 @@
-import { desc, isNull } from "drizzle-orm";
 import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/people";
 import { readForm } from "~/lib/edge.server";
 import { Field, FormError, SelectField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
-import { invitations, users } from "~/db/schema";
 import { requirePermission } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { domainFailure, formValues, unknownAction } from "~/lib/domain-error.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
-import { changeRole, invite, PeopleError, setActive } from "~/lib/people.server";
+import { changeRole, invite, listPeople, openInvitations, setActive } from "~/lib/people.server";
 import { ROLE_LABELS, ROLES } from "~/lib/permissions";
 import { formatDay } from "~/lib/dates";
 
@@ -23,23 +21,14 @@ const activeSchema = z.object({ intent: z.enum(["deactivate", "reactivate"]), us
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requirePermission(request, "user:manage");
-  const people = await db()
-    .select({ id: users.id, name: users.name, email: users.email, role: users.role, deactivatedAt: users.deactivatedAt, createdAt: users.createdAt })
-    .from(users)
-    .orderBy(users.name);
-  const pending = await db()
-    .select({ id: invitations.id, email: invitations.email, role: invitations.role, expiresAt: invitations.expiresAt, createdAt: invitations.createdAt })
-    .from(invitations)
-    .where(isNull(invitations.usedAt))
-    .orderBy(desc(invitations.createdAt))
-    .limit(50);
+  const [people, pending] = await Promise.all([listPeople(), openInvitations()]);
   return { people, pending };
 }
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requirePermission(request, "user:manage");
   const form = await readForm(request);
-  const intent = form.get("intent");
+  const intent = String(form.get("intent") ?? "");
   try {
     if (intent === "invite") {
       const parsed = parseForm(inviteSchema, form);
@@ -63,12 +52,9 @@ export async function action({ request }: Route.ActionArgs) {
       });
     }
   } catch (err) {
-    if (err instanceof PeopleError) {
-      return data({ intent, errors: { [err.field]: err.message } as Record<string, string>, values: Object.fromEntries([...form].filter(([, v]) => typeof v === "string")) as Record<string, string> }, { status: 409 });
-    }
-    throw err;
+    return domainFailure(request, err, intent, formValues(form));
   }
-  return data({ intent: "unknown", errors: { form: "Unknown action." } as Record<string, string>, values: {} as Record<string, string> }, { status: 400 });
+  return unknownAction(request, intent);
 }
 
 const fmt = formatDay;

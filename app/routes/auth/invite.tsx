@@ -7,7 +7,8 @@ import { Field, FormError } from "~/components/forms";
 import { startSession } from "~/lib/auth.server";
 import { parseForm } from "~/lib/forms";
 import { newPasswordSchema } from "~/lib/password";
-import { acceptInvitation, findInvitation, invitationState, PeopleError } from "~/lib/people.server";
+import { domainFailure } from "~/lib/domain-error.server";
+import { acceptInvitation, findInvitation, invitationState } from "~/lib/people.server";
 import { ROLE_LABELS } from "~/lib/permissions";
 import { redirectWithFlash } from "~/lib/flash.server";
 
@@ -36,8 +37,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const cookie = await startSession(request, userId);
     return redirectWithFlash("/", { kind: "ok", message: `Welcome to Benchreel, ${parsed.data.name}.` }, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
-    if (err instanceof PeopleError) return data({ errors: { form: err.message }, values: parsed.values }, { status: 409 });
-    throw err;
+    return domainFailure(request, err, "", parsed.values);
   }
 }
 

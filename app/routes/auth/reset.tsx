@@ -7,7 +7,8 @@ import { Field, FormError } from "~/components/forms";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { newPasswordSchema } from "~/lib/password";
-import { findReset, PeopleError, resetPassword } from "~/lib/people.server";
+import { domainFailure } from "~/lib/domain-error.server";
+import { findReset, resetPassword } from "~/lib/people.server";
 import { tokenState } from "~/lib/tokens.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Choose a new password · Benchreel" }];
@@ -28,8 +29,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     await resetPassword(params.token, parsed.data.password);
   } catch (err) {
-    if (err instanceof PeopleError) return data({ errors: { form: err.message } as Record<string, string> }, { status: 409 });
-    throw err;
+    return domainFailure(request, err);
   }
   return redirectWithFlash("/signin", { kind: "ok", message: "Password changed. Sign in with the new one." });
 }
