@@ -3,7 +3,9 @@
 import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { procedureConflictCopies, procedureLinks, procedureRevisionReturns, procedureRevisions, procedures, procedureSpecs } from "~/db/schema";
+import { marks, procedureConflictCopies, procedureLinks, procedureRevisionReturns, procedureRevisions, procedures, procedureSpecs, recordings } from "~/db/schema";
+import { createProcedure } from "~/lib/procedures/drafts.server";
+import { publishRevision, submitRevision } from "~/lib/procedures/transitions.server";
 import { db } from "~/lib/db.server";
 import { createUser, http, mailTo, type TestUser } from "../support/app";
 
@@ -283,5 +285,38 @@ describe("incomplete blocks in a draft (issue 14)", () => {
     expect(await json(ok)).toMatchObject({ available: true, results: expect.any(Array) });
     const long = await http(`/api/procedures/recordings?q=${"x".repeat(101)}`, { cookie: builder.cookie });
     expect(long.status).toBe(422);
+  });
+});
+
+describe("the read page's database work (issue 15 §2)", () => {
+  it("renders a published procedure with specs, links, a video moment, marks and a procedure linking to it in at most 6 queries, the session's included", async () => {
+    const [author, reviewer, reader] = await Promise.all([createUser("builder"), createUser("editor"), createUser("apprentice")]);
+    const [rec] = await db().insert(recordings).values({ title: `Counted recording ${tag}`, originalName: "q.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: author.id }).returning();
+    const publish = async (title: string, content: unknown[]) => {
+      const c = await createProcedure(author, { title, area: "fasteners", summary: "", tags: [tag], doc: { type: "doc", content } });
+      await submitRevision(author, c.revision.id, "First version");
+      await publishRevision(reviewer, c.revision.id);
+      return c.procedure;
+    };
+    const linkTo = (id: string) => ({ type: "paragraph", content: [{ type: "text", text: "See: " }, { type: "procedureLink", attrs: { procedureId: id } }] });
+    const target = await publish(`Hone the bores first ${tag}`, [{ type: "paragraph", content: [{ type: "text", text: "Hone with the plate on." }] }]);
+    const counted = await publish(`Counted read page ${tag}`, [
+      ...doc().content,
+      { type: "spec", attrs: { id: "s_stretch", label: "Stud stretch", quantity: "length", unit: "mm", nominal: null, min: 0.15, max: 0.2, note: "" } },
+      linkTo(target.id),
+      { type: "videoMoment", attrs: { recordingId: rec.id, start: 12, end: null, caption: "Washer seating" } },
+    ]);
+    await publish(`Links to the counted page ${tag}`, [linkTo(counted.id)]);
+    await db().insert(marks).values({ recordingId: rec.id, tStart: 5, text: `Points at the counted page ${tag}`, procedureId: counted.id, createdBy: author.id });
+
+    const res = await http(`/procedures/${counted.slug}`, { cookie: reader.cookie });
+    expect(res.status).toBe(200);
+    const html = await res.text();
+    // Everything the page shows came out of those queries.
+    for (const shown of ["Final torque", "Stud stretch", `Hone the bores first ${tag}`, `Counted recording ${tag}`, `Links to the counted page ${tag}`, `Points at the counted page ${tag}`]) expect(html).toContain(shown);
+    const queries = /db;desc="(\d+) quer/.exec(res.headers.get("server-timing") ?? "");
+    expect(queries, "Server-Timing names the request's queries").not.toBeNull();
+    expect(Number(queries![1])).toBeGreaterThan(0);
+    expect(Number(queries![1])).toBeLessThanOrEqual(6);
   });
 });

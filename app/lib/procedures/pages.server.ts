@@ -1,10 +1,10 @@
 /**
- * What the procedure pages list and show: a revision's specs, who links here, the history, the
+ * What the procedure pages list and show: a revision's specs, the history with every return, the
  * published list and its tags, the open revisions a person works on, the review queue.
  */
 import { and, asc, desc, eq, inArray, or, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
-import { procedureLinks, procedureRevisions, procedures, procedureSpecs, users } from "~/db/schema";
+import { procedureRevisions, procedures, procedureSpecs, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { returnsJson, toReturns, waitingOnAuthor, waitingReturn } from "./review.server";
 import type { Actor } from "./state";
@@ -14,16 +14,6 @@ export async function specsOf(revisionId: string) {
   return db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position));
 }
 
-
-/** Published procedures whose published revision links here. */
-export async function linkedFrom(procedureId: string) {
-  return db()
-    .select({ title: procedures.title, slug: procedures.slug, area: procedures.area })
-    .from(procedureLinks)
-    .innerJoin(procedures, and(eq(procedures.id, procedureLinks.fromProcedureId), eq(procedures.publishedRevisionId, procedureLinks.revisionId)))
-    .where(eq(procedureLinks.toProcedureId, procedureId))
-    .orderBy(procedures.title);
-}
 
 const publisher = alias(users, "publisher");
 
@@ -57,16 +47,6 @@ export async function history(procedureId: string) {
     const returns = toReturns(r.returns);
     return { ...r, returns, waiting: waitingReturn(r, returns) };
   });
-}
-
-/** The open revision's number, state and author only (the read page shows no more of it; its document can be large). */
-export async function openRevisionSummary(procedureId: string) {
-  const [r] = await db()
-    .select({ id: procedureRevisions.id, number: procedureRevisions.number, state: procedureRevisions.state, authorId: procedureRevisions.authorId })
-    .from(procedureRevisions)
-    .where(and(eq(procedureRevisions.procedureId, procedureId), inArray(procedureRevisions.state, OPEN_STATES)))
-    .limit(1);
-  return r ?? null;
 }
 
 export async function listPublished(tag?: string | null) {

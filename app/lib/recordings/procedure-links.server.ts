@@ -1,25 +1,15 @@
 /**
- * Recordings as procedures see them: the marks that point at a procedure (its read page), the
- * ready recordings the editor's video-moment picker offers, and recording titles for the
- * moments in a document.
+ * Recordings as procedures see them: the ready recordings the editor's video-moment picker
+ * offers, recording titles for the moments in a document, and the shape of a mark pointing at a
+ * procedure (the read page asks for those with its other data, read-page.server.ts).
  */
 import { and, asc, eq, ilike, inArray } from "drizzle-orm";
-import { marks, recordings } from "~/db/schema";
+import { recordings } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { isUuid } from "~/lib/edge";
 
+/** A mark that points at a procedure, as its read page lists it. */
 export type MarkRef = { id: string; recordingId: string; recordingTitle: string; tStart: number; tEnd: number | null; text: string };
-
-/** Marks whose procedure is this one, by recording title then time (at most 100). */
-export async function marksReferencing(procedureId: string): Promise<MarkRef[]> {
-  return db()
-    .select({ id: marks.id, recordingId: marks.recordingId, recordingTitle: recordings.title, tStart: marks.tStart, tEnd: marks.tEnd, text: marks.text })
-    .from(marks)
-    .innerJoin(recordings, eq(recordings.id, marks.recordingId))
-    .where(eq(marks.procedureId, procedureId))
-    .orderBy(asc(recordings.title), asc(marks.tStart))
-    .limit(100);
-}
 
 export type RecordingOption = { id: string; title: string; durationS: number | null };
 

@@ -8,17 +8,15 @@ import { assertCan, requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { can, canOnOwned } from "~/lib/permissions";
 import { formatSeconds } from "~/lib/procedures/format";
-import { renderBody } from "~/components/procedures/render.server";
+import { renderRevisionBody } from "~/components/procedures/render.server";
 import { domainFailure, unknownAction } from "~/lib/domain-error.server";
 import { DomainError } from "~/lib/domain-error";
-import { procedureOr404 } from "~/lib/procedures/routes.server";
+import { foundOr404, procedureOr404, slugOr404 } from "~/lib/procedures/routes.server";
+import { readPage } from "~/lib/procedures/read-page.server";
 import { STATE_LABELS } from "~/lib/procedures/state";
 import { startDraftFrom } from "~/lib/procedures/drafts.server";
-import { openRevisionOf, revisionById } from "~/lib/procedures/lookup.server";
-import { linkedFrom, openRevisionSummary, specsOf } from "~/lib/procedures/pages.server";
-import { isWatching, setWatching } from "~/lib/procedures/watching.server";
-import { marksReferencing } from "~/lib/recordings/procedure-links.server";
-import { reviewPeople } from "~/lib/procedures/review.server";
+import { openRevisionOf } from "~/lib/procedures/lookup.server";
+import { setWatching } from "~/lib/procedures/watching.server";
 import { ProcedureTestRecords } from "~/components/test-records/parts";
 import { testRecordsForProcedure } from "~/lib/test-records/records.server";
 
@@ -26,35 +24,25 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.procedu
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const procedure = await procedureOr404(request, params.slug);
-  // The open revision and the published one are independent look-ups: ask for both at once.
-  const [open, rev] = await Promise.all([
-    openRevisionSummary(procedure.id),
-    procedure.publishedRevisionId ? revisionById(procedure.publishedRevisionId) : Promise.resolve(null),
-  ]);
-  const openVisible = open && canOnOwned(user, "procedure:view-drafts", open.authorId) ? { number: open.number, state: open.state, authorId: open.authorId } : null;
+  const slug = slugOr404(params.slug);
+  const { procedure, rev, open, watching, around, titles, author, publishedBy } = foundOr404(request, slug, await readPage(slug, user.id));
+  const openVisible = open && canOnOwned(user, "procedure:view-drafts", open.authorId) ? open : null;
   const flags = {
     canWatch: can(user.role, "procedure:watch"),
     canDraft: can(user.role, "procedure:draft"),
     canEditOpen: open ? canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft" : false,
     canReview: can(user.role, "procedure:review"),
   };
-  if (!procedure.publishedRevisionId || !rev) {
+  const summary = { id: procedure.id, slug: procedure.slug, title: procedure.title };
+  if (!rev || !around) {
     if (!openVisible) throw data({ message: "This procedure has not been published yet." }, { status: 404 });
-    return { procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title }, published: null, open: openVisible, flags, watching: false } as const;
+    return { procedure: summary, published: null, open: openVisible, flags, watching: false } as const;
   }
-  const [body, specs, from, marks, watching, people, testRecords] = await Promise.all([
-    renderBody(rev),
-    specsOf(rev.id),
-    linkedFrom(procedure.id),
-    marksReferencing(procedure.id),
-    isWatching(user.id, procedure.id),
-    reviewPeople(rev),
-    testRecordsForProcedure(procedure.id),
-  ]);
+  const testRecords = await testRecordsForProcedure(procedure.id);
+  const body = renderRevisionBody(rev, titles);
   return {
-    procedure: { id: procedure.id, slug: procedure.slug, title: procedure.title },
-    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author: people.author, publishedBy: people.publishedBy, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, units: body.units, specs, from, marks },
+    procedure: summary,
+    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author, publishedBy, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, units: body.units, specs: around.specs, from: around.from, marks: around.marks },
     open: openVisible,
     flags,
     watching,

@@ -5,6 +5,7 @@
  * its recording's): a save or a rename renders anew, nothing stale is served, and a published
  * revision, which never changes, renders once per process.
  */
+import { LRUCache } from "lru-cache";
 import { renderToStaticMarkup } from "react-dom/server";
 import { bodyWidgets, type Widget } from "~/lib/procedures/body";
 import type { JSONNode } from "~/lib/procedures/document";
@@ -12,38 +13,22 @@ import { docTitles } from "~/lib/procedures/lookup.server";
 import { renderDoc, type RenderContext } from "./DocView";
 
 /** `units`: the label of every unit code the body's specs and calculators use, so that the client needs no unit tables. */
-export type Rendered = { html: string; widgets: Widget[]; units: Record<string, string> };
+type Rendered = { html: string; widgets: Widget[]; units: Record<string, string> };
 
 type Source = { id: string; version: number; doc: unknown };
 
-const MAX_ENTRIES = 64;
-const MAX_BYTES = 16 * 1024 * 1024;
-const cache = new Map<string, Rendered>(); // insertion order = least recently used first
-let bytes = 0;
-
-function remember(key: string, value: Rendered) {
-  cache.set(key, value);
-  bytes += value.html.length * 2;
-  while (cache.size > MAX_ENTRIES || bytes > MAX_BYTES) {
-    const [oldest, v] = cache.entries().next().value as [string, Rendered];
-    cache.delete(oldest);
-    bytes -= v.html.length * 2;
-  }
-}
+// A few dozen bodies, at most 16 MB of HTML (UTF-16 in memory), the least recently used dropped first.
+const cache = new LRUCache<string, Rendered>({ max: 64, maxSize: 16 * 1024 * 1024, sizeCalculation: (r) => Math.max(1, r.html.length * 2) });
 
 /** The body of one revision, with the titles it shows already looked up (`titles`). */
 export function renderRevisionBody(rev: Source, titles: RenderContext): Rendered {
   // A revision's document changes only with its version; the titles are part of the key.
   const key = JSON.stringify([rev.id, rev.version, [...titles.procedures].sort(), [...titles.recordings].sort()]);
   const hit = cache.get(key);
-  if (hit) {
-    cache.delete(key); // refresh its place
-    cache.set(key, hit);
-    return hit;
-  }
+  if (hit) return hit;
   const doc = rev.doc as JSONNode;
-  const rendered = { html: renderToStaticMarkup(<>{renderDoc(doc, titles)}</>), ...bodyWidgets(doc) };
-  remember(key, rendered);
+  const rendered = { html: renderToStaticMarkup(renderDoc(doc, titles)), ...bodyWidgets(doc) };
+  cache.set(key, rendered);
   return rendered;
 }
 
