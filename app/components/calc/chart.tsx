@@ -48,6 +48,8 @@ export function Plot({
   margin = { l: 64, r: 16, t: 16, b: 48 },
   testId,
   yDown = false,
+  xTickLabel = tickLabel,
+  className = "h-auto w-full",
 }: {
   width?: number;
   height?: number;
@@ -61,6 +63,9 @@ export function Plot({
   testId?: string;
   /** Values grow downwards (depth below the deck). */
   yDown?: boolean;
+  /** The text of an x tick (a video time reads as 1:05, not 65). */
+  xTickLabel?: (v: number, step: number) => string;
+  className?: string;
 }) {
   const f: Frame = {
     left: margin.l,
@@ -78,14 +83,14 @@ export function Plot({
   const xs = xt.length > 1 ? xt[1] - xt[0] : 1;
   const ys = yt.length > 1 ? yt[1] - yt[0] : 1;
   return (
-    <svg viewBox={`0 0 ${width} ${height}`} className="h-auto w-full" role="img" aria-label={title} data-testid={testId}>
+    <svg viewBox={`0 0 ${width} ${height}`} className={className} role="img" aria-label={title} data-testid={testId}>
       <title>{title}</title>
       <rect x={f.left} y={f.top} width={f.right - f.left} height={f.bottom - f.top} className="fill-card stroke-rule" />
       {xt.map((v) => (
         <g key={`x${v}`}>
           <line x1={f.x(v)} x2={f.x(v)} y1={f.top} y2={f.bottom} className="stroke-rule" strokeWidth={0.6} />
           <text x={f.x(v)} y={f.bottom + 16} textAnchor="middle" className="fill-graphite-soft text-[11px]">
-            {tickLabel(v, xs)}
+            {xTickLabel(v, xs)}
           </text>
         </g>
       ))}

@@ -3,47 +3,16 @@ import { NUT_FACTOR_R_SQUARED_LABEL, THREAD_PRESETS, fitNutFactor, fromSI, isUni
 import { displayUnit, quantityDef } from "~/lib/recordings/quantities";
 import { formatTime } from "~/lib/time-format";
 import { CALC_CAUTION } from "~/lib/calc-kinds";
+import { Plot } from "~/components/calc/chart";
 import type { ReadingRow } from "./types";
 
-const W = 560;
-const H = 240;
-const PAD = { l: 56, r: 16, t: 14, b: 38 };
-
-function niceTicks(min: number, max: number, count = 5): number[] {
-  if (!(max > min)) return [min];
-  const span = max - min;
-  const step0 = span / count;
-  const mag = 10 ** Math.floor(Math.log10(step0));
-  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= step0) ?? step0;
-  const out: number[] = [];
-  for (let v = Math.ceil(min / step) * step; v <= max + step * 1e-9; v += step) out.push(Number(v.toPrecision(10)));
-  return out;
-}
+// One size for both charts of a recording, on the calculators' chart kit.
+const SIZE = { width: 560, height: 240, margin: { l: 56, r: 16, t: 14, b: 38 }, className: "num h-auto w-full" };
 
 function fromStored(r: ReadingRow, unit: string): number {
   if (unit === "%") return r.valueSi * 100;
   if (isUnitCode(unit) && isUnitCode(r.unitEntered)) return fromSI(r.valueSi, unit as UnitCode);
   return r.valueEntered;
-}
-
-function Axes({ x, y, xLabel, yLabel, sx, sy }: { x: number[]; y: number[]; xLabel: string; yLabel: string; sx: (v: number) => number; sy: (v: number) => number }) {
-  return (
-    <g fontSize="11" fill="#5d584f">
-      {y.map((v) => (
-        <g key={`y${v}`}>
-          <line x1={PAD.l} x2={W - PAD.r} y1={sy(v)} y2={sy(v)} stroke="#ddd2bd" strokeWidth="1" />
-          <text x={PAD.l - 6} y={sy(v) + 4} textAnchor="end">{Number(v.toPrecision(6))}</text>
-        </g>
-      ))}
-      {x.map((v) => (
-        <text key={`x${v}`} x={sx(v)} y={H - PAD.b + 16} textAnchor="middle">{xLabel.startsWith("Video time") ? formatTime(v).replace(/\.0$/, "") : Number(v.toPrecision(6))}</text>
-      ))}
-      <line x1={PAD.l} x2={W - PAD.r} y1={H - PAD.b} y2={H - PAD.b} stroke="#5d584f" />
-      <line x1={PAD.l} x2={PAD.l} y1={PAD.t} y2={H - PAD.b} stroke="#5d584f" />
-      <text x={(PAD.l + W - PAD.r) / 2} y={H - 6} textAnchor="middle" fill="#2b2a27">{xLabel}</text>
-      <text transform={`translate(12 ${(PAD.t + H - PAD.b) / 2}) rotate(-90)`} textAnchor="middle" fill="#2b2a27">{yLabel}</text>
-    </g>
-  );
 }
 
 /** Value against video time for one quantity. */
@@ -61,8 +30,6 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
   const vMax = Math.max(...data.map((d) => d.v));
   const lo = vMin === vMax ? vMin - Math.abs(vMin || 1) * 0.1 : vMin - (vMax - vMin) * 0.08;
   const hi = vMin === vMax ? vMax + Math.abs(vMax || 1) * 0.1 : vMax + (vMax - vMin) * 0.08;
-  const sx = (t: number) => PAD.l + (t / tMax) * (W - PAD.l - PAD.r);
-  const sy = (v: number) => H - PAD.b - ((v - lo) / (hi - lo)) * (H - PAD.t - PAD.b);
   const label = quantityDef(active)?.label ?? active;
   return (
     <figure>
@@ -72,14 +39,23 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
           {quantities.map((x) => <option key={x} value={x}>{quantityDef(x)?.label ?? x}</option>)}
         </select>
       </div>
-      <svg viewBox={`0 0 ${W} ${H}`} className="num w-full" role="img" aria-label={`${label} against video time, ${data.length} readings`}>
-        <Axes x={niceTicks(0, tMax)} y={niceTicks(lo, hi)} xLabel="Video time" yLabel={`${label} (${displayUnit(unit)})`} sx={sx} sy={sy} />
-        {data.map((d) => (
-          <circle key={d.r.id} cx={sx(d.t)} cy={sy(d.v)} r="4.5" fill="#1d6b67" stroke="#fffdf8" strokeWidth="1.5" className="cursor-pointer" onClick={() => onSeek(d.t)}>
-            <title>{`${formatTime(d.t)} · ${d.r.label || label}: ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}</title>
-          </circle>
-        ))}
-      </svg>
+      <Plot
+        {...SIZE}
+        title={`${label} against video time, ${data.length} readings`}
+        xDomain={[0, tMax]}
+        yDomain={[lo, hi]}
+        xTitle="Video time"
+        yTitle={`${label} (${displayUnit(unit)})`}
+        xTickLabel={(v) => formatTime(v).replace(/\.0$/, "")}
+      >
+        {(f) =>
+          data.map((d) => (
+            <circle key={d.r.id} cx={f.x(d.t)} cy={f.y(d.v)} r="4.5" className="cursor-pointer fill-teal stroke-card" strokeWidth="1.5" onClick={() => onSeek(d.t)}>
+              <title>{`${formatTime(d.t)} · ${d.r.label || label}: ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}</title>
+            </circle>
+          ))
+        }
+      </Plot>
       <figcaption className="text-xs text-graphite-soft">Click a point to play from its moment.</figcaption>
     </figure>
   );
@@ -119,8 +95,6 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
   const pts = pairs.map((p) => ({ x: p.torque.valueSi, y: p.clamp.valueSi / 1000, p }));
   const xMax = Math.max(...pts.map((d) => d.x)) * 1.1;
   const yMax = Math.max(...pts.map((d) => d.y), fit ? (fit.slope_N_per_Nm * xMax) / 1000 : 0) * 1.08;
-  const sx = (v: number) => PAD.l + (v / xMax) * (W - PAD.l - PAD.r);
-  const sy = (v: number) => H - PAD.b - (v / yMax) * (H - PAD.t - PAD.b);
   return (
     <figure data-testid="nut-factor-chart">
       <div className="mb-2 flex flex-wrap items-center gap-2">
@@ -130,15 +104,18 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
         </select>
         <span className="text-xs text-graphite-soft">{pairs.length} torque / clamp-load {pairs.length === 1 ? "pair" : "pairs"}, matched by label and pass</span>
       </div>
-      <svg viewBox={`0 0 ${W} ${H}`} className="num w-full" role="img" aria-label="Clamp load against torque with the fitted nut-factor line">
-        <Axes x={niceTicks(0, xMax)} y={niceTicks(0, yMax)} xLabel="Torque (N·m)" yLabel="Clamp load (kN)" sx={sx} sy={sy} />
-        {fit && <line x1={sx(0)} y1={sy(0)} x2={sx(xMax)} y2={sy((fit.slope_N_per_Nm * xMax) / 1000)} stroke="#9a6f22" strokeWidth="2" strokeDasharray="6 4" />}
-        {pts.map((d) => (
-          <circle key={d.p.key} cx={sx(d.x)} cy={sy(d.y)} r="4.5" fill="#1d6b67" stroke="#fffdf8" strokeWidth="1.5">
-            <title>{`${d.p.torque.label || "–"}${d.p.torque.conditions?.pass ? `, pass ${d.p.torque.conditions.pass}` : ""}: ${Number(d.x.toPrecision(5))} N·m → ${Number(d.y.toPrecision(5))} kN`}</title>
-          </circle>
-        ))}
-      </svg>
+      <Plot {...SIZE} title="Clamp load against torque with the fitted nut-factor line" xDomain={[0, xMax]} yDomain={[0, yMax]} xTitle="Torque (N·m)" yTitle="Clamp load (kN)">
+        {(f) => (
+          <>
+            {fit && <line x1={f.x(0)} y1={f.y(0)} x2={f.x(xMax)} y2={f.y((fit.slope_N_per_Nm * xMax) / 1000)} className="stroke-brass" strokeWidth="2" strokeDasharray="6 4" />}
+            {pts.map((d) => (
+              <circle key={d.p.key} cx={f.x(d.x)} cy={f.y(d.y)} r="4.5" className="fill-teal stroke-card" strokeWidth="1.5">
+                <title>{`${d.p.torque.label || "–"}${d.p.torque.conditions?.pass ? `, pass ${d.p.torque.conditions.pass}` : ""}: ${Number(d.x.toPrecision(5))} N·m → ${Number(d.y.toPrecision(5))} kN`}</title>
+              </circle>
+            ))}
+          </>
+        )}
+      </Plot>
       {fit && (
         <figcaption className="mt-1 space-y-1 text-sm">
           <p data-testid="nut-factor-result">
