@@ -12,7 +12,6 @@ const millis = (fallback: number) =>
     .max(2 ** 31 - 1, "must be at most 2147483647 ms (about 24 days)")
     .default(fallback);
 
-
 /**
  * Every environment variable the server and the worker read, validated once at start (the
  * server's entry and the worker call `env()` before anything else). `npm start` and `npm test`
@@ -20,7 +19,7 @@ const millis = (fallback: number) =>
  */
 export const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
-  PORT: z.coerce.number({ error: "must be a port number" }).int().min(1).max(65535).default(3000),
+  PORT: z.coerce.number({ error: "must be a port number" }).int().min(0).max(65535).default(3000),
   HOST: z.string().min(1).default("127.0.0.1"),
   DATABASE_URL: z
     .string()
