@@ -171,6 +171,59 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
   }
 });
 
+test("Bore distortion on a record takes each diameter's depth and angle from its place fields; 88.010 stays 88.010", async ({ page }) => {
+  const proc = await makeProcedure();
+  await signIn(page, "tomas@larkspur.example");
+  await page.goto(`/test-records/new?procedure=${proc.slug}`);
+  await page.getByLabel("Work order").fill(`LEW-24-${String(2000 + Math.floor(Math.random() * 7000))}`);
+  const bore = page.getByTestId("spec-readings").filter({ hasText: "Bore diameter, plate fitted" });
+  const rows: [string, string, string, string][] = [
+    ["88.010", "10", "0", "plate on"],
+    ["88.000", "10", "90", ""],
+    ["88.004", "60", "0", "12 mm feeler"],
+    ["88.004", "60", "90", ""],
+  ];
+  for (const [i, [value, depth, angle, note]] of rows.entries()) {
+    const n = i + 1;
+    if (i > 0) await bore.getByRole("button", { name: "+ Another reading" }).click();
+    await bore.getByLabel(`Bore diameter, plate fitted reading ${n}`, { exact: true }).fill(value);
+    await bore.getByLabel(`Bore diameter, plate fitted reading ${n} cylinder`).fill("2");
+    await bore.getByLabel(`Bore diameter, plate fitted reading ${n} depth below deck`).fill(depth);
+    await bore.getByLabel(`Bore diameter, plate fitted reading ${n} angle (°)`).fill(angle);
+    if (note) await bore.getByLabel(`Bore diameter, plate fitted reading ${n} note`).fill(note);
+  }
+  await page.getByRole("button", { name: "File the test record" }).click();
+  await page.waitForURL(/\/test-records\/[0-9a-f-]{36}$/);
+
+  // Each reading at the resolution typed.
+  const spec = page.getByTestId("spec-row").filter({ hasText: "Bore diameter" });
+  await expect(spec.getByTestId("reading-typed").first()).toHaveText("88.010 mm");
+  await expect(spec.getByTestId("reading-typed").nth(1)).toHaveText("88.000 mm");
+
+  const run = page.getByTestId("distortion-run");
+  await run.locator("summary").click();
+  // The places filed with the readings, not typed again, and not the note's "12 mm".
+  await expect(run.getByTestId("filed-depth")).toHaveText(["10 mm", "10 mm", "60 mm", "60 mm"]);
+  await expect(run.getByTestId("filed-angle")).toHaveText(["0°", "90°", "0°", "90°"]);
+  await expect(run.getByRole("textbox")).toHaveCount(0);
+  await expect(run.getByTestId("distortion-reading").first()).toContainText("88.010 mm");
+  if (process.env.SHOTS_TR) {
+    for (const [w, width] of [["desktop", 1366], ["tablet", 768]] as const) {
+      await page.setViewportSize({ width, height: 1000 });
+      await page.screenshot({ path: `${process.env.SHOTS_TR}/record-distortion-${w}.png`, fullPage: true });
+    }
+    await page.setViewportSize({ width: 1366, height: 900 });
+  }
+  await run.getByRole("button", { name: "Run Bore distortion" }).click();
+  await expect(page.getByTestId("flash")).toContainText("Bore distortion computed and kept with the record.");
+  const calc = page.getByTestId("calc-run");
+  await expect(calc).toContainText("Bore distortion: Bore diameter, plate fitted");
+  // Two levels, at the filed depths: 10 mm (88.010 − 88.000 = 0.010 mm out of round) and 60 mm (round).
+  await expect(calc.getByRole("row").nth(1)).toContainText("10 mm");
+  await expect(calc.getByRole("row").nth(1)).toContainText("0.0100 mm");
+  await expect(calc.getByRole("row").nth(2)).toContainText("60 mm");
+});
+
 test("an apprentice reads test records but cannot file or amend one", async ({ page }) => {
   await signIn(page, "jamie@larkspur.example");
   await page.goto("/test-records");

@@ -116,3 +116,33 @@ test("Filing an out-of-spec record confirms it in red; a converted reading shows
   await expect(row).toContainText("122 N·m");
   await expect(row).not.toContainText("122.0");
 });
+
+test("A recording's reading typed 88.010 shows 88.010, after saving, after a reload and in its edit line", async ({ page }) => {
+  await signIn(page, "marcus@larkspur.example", "/recordings");
+  await page.getByTestId("recording-card").filter({ hasText: "Head stud clamp-load test" }).getByRole("link").first().click();
+  const grid = page.getByTestId("readings-grid");
+  // A cylinder of its own, so this test's row is told from the others' on the shared recording.
+  const cyl = String(5 + Math.floor(Math.random() * 19));
+  await grid.getByLabel("Line 1 quantity").selectOption("bore-diameter");
+  await grid.getByLabel("Line 1 cylinder").fill(cyl);
+  await grid.getByLabel("Line 1 depth below deck").fill("20");
+  await grid.getByLabel("Line 1 angle (°)").fill("90");
+  await grid.getByLabel("Line 1 value").fill("88.010");
+  await grid.getByLabel("Line 1 label").fill(`resolution check ${cyl}`);
+  await page.getByTestId("save-readings").click();
+  const row = page.getByTestId("reading-row").filter({ hasText: `resolution check ${cyl}` });
+  await expect(row).toContainText("88.010 mm");
+  await page.reload();
+  await expect(row).toContainText("88.010 mm");
+  await expect(row).not.toContainText("88.01 mm");
+  if (process.env.SHOTS_TR) {
+    for (const [w, width] of [["desktop", 1366], ["tablet", 768]] as const) {
+      await page.setViewportSize({ width, height: 1000 });
+      await row.scrollIntoViewIfNeeded();
+      await page.screenshot({ path: `${process.env.SHOTS_TR}/recording-readings-${w}.png`, fullPage: true });
+    }
+    await page.setViewportSize({ width: 1366, height: 900 });
+  }
+  await row.getByRole("button", { name: "Edit" }).click();
+  await expect(page.getByLabel("Reading value")).toHaveValue("88.010");
+});

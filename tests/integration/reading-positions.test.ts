@@ -98,6 +98,34 @@ describe("readings API with positions", () => {
   });
 });
 
+describe("readings API: the resolution typed", () => {
+  type Typed = { id: string; valueEntered: number; valueDecimals: number | null };
+  it("keeps the decimals typed beside the value (88.010 arrives as 88.01), lists them, and guesses them when not given", async () => {
+    const res = await http(url(), { cookie: builder.cookie, json: { readings: [{ quantity: "bore-diameter", value: 88.01, valueDecimals: 3, unit: "mm", cylinder: 4 }, { quantity: "torque", value: 110, unit: "N.m" }] } });
+    expect(res.status).toBe(201);
+    const [bore, torque] = ((await res.json()) as { readings: Typed[] }).readings;
+    expect([bore.valueEntered, bore.valueDecimals]).toEqual([88.01, 3]);
+    expect(torque.valueDecimals).toBe(0);
+    const list = ((await (await http(url(), { cookie: other.cookie })).json()) as { readings: Typed[] }).readings;
+    expect(list.find((r) => r.id === bore.id)?.valueDecimals).toBe(3);
+
+    // A PATCH of the label keeps them; a PATCH of the value says them anew, or they are the value's own.
+    const one = `${url()}/${bore.id}`;
+    const label = await http(one, { method: "PATCH", cookie: builder.cookie, json: { label: "plate on" } });
+    expect(((await label.json()) as { reading: Typed }).reading.valueDecimals).toBe(3);
+    const value = await http(one, { method: "PATCH", cookie: builder.cookie, json: { value: 88.5 } });
+    expect(((await value.json()) as { reading: Typed }).reading.valueDecimals).toBe(1);
+  });
+
+  it("answers 422 for decimals fewer than the value has, or not a small whole number", async () => {
+    for (const valueDecimals of [1, -1, 2.5, 40, "3"]) {
+      const res = await http(url(), { cookie: builder.cookie, json: { quantity: "bore-diameter", value: 88.012, valueDecimals, unit: "mm" } });
+      expect(res.status, String(valueDecimals)).toBe(422);
+      expect((await issues(res)).map((i) => i.path)).toEqual(["valueDecimals"]);
+    }
+  });
+});
+
 describe("migration 0022: the place out of an old label", () => {
   const migration = fs.readFileSync("drizzle/0022_reading_positions_from_labels.sql", "utf8");
   const statements = migration.split("--> statement-breakpoint").map((s) => s.trim()).filter(Boolean);

@@ -304,22 +304,39 @@ describe("test records", () => {
     expect(await dbError(db().update(testRecordReadings).set({ valueEntered: 1 }).where(eq(testRecordReadings.recordId, id)))).toContain("readings are immutable");
   });
 
-  it("runs Bore distortion on the readings and keeps the result with the record", async () => {
+  it("runs Bore distortion on the readings at the depth and angle of their position fields, per cylinder, and keeps the result", async () => {
     const b = fx.specs.bore.id;
+    // Cylinder 1 at two depths and four angles; cylinder 2 (three readings) a run of its own. The
+    // notes are the inspector's words: "12 mm feeler" is not where the gauge sat.
     const vals = [88.01, 88.005, 88.0, 88.005, 88.004, 88.004, 88.004, 88.004];
     const f: Record<string, string> = {};
     vals.forEach((v, i) => {
-      f[`r.${b}.${i}.value`] = String(v);
-      f[`r.${b}.${i}.unit`] = "mm";
-      f[`r.${b}.${i}.note`] = `${i < 4 ? 10 : 60} mm, ${(i % 4) * 45}°`;
+      Object.assign(f, {
+        [`r.${b}.${i}.value`]: String(v),
+        [`r.${b}.${i}.unit`]: "mm",
+        [`r.${b}.${i}.cylinder`]: "1",
+        [`r.${b}.${i}.depth`]: String(i < 4 ? 10 : 60),
+        [`r.${b}.${i}.depthUnit`]: "mm",
+        // The third diameter was filed without its angle: the page asks for it.
+        [`r.${b}.${i}.angle`]: i === 2 ? "" : String((i % 4) * 45),
+        [`r.${b}.${i}.note`]: i === 0 ? "12 mm feeler, plate on" : "plate on",
+      });
+    });
+    [88.02, 88.02, 88.02].forEach((v, j) => {
+      const i = 8 + j;
+      Object.assign(f, { [`r.${b}.${i}.value`]: String(v), [`r.${b}.${i}.unit`]: "mm", [`r.${b}.${i}.cylinder`]: "2", [`r.${b}.${i}.depth`]: "10", [`r.${b}.${i}.angle`]: String(j * 60) });
     });
     const id = idFrom(await file(qc, form(fx.rev.id, f)));
     const rs = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.position);
-    const body: Record<string, string> = { intent: "distortion", specId: b };
-    rs.forEach((r, i) => {
-      body[`depth.${r.id}`] = String(i < 4 ? 10 : 60);
-      body[`angle.${r.id}`] = i === 2 ? "" : String((i % 4) * 45);
-    });
+    const page = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
+    expect(wordsOf(page)).toContain("Bore distortion from the 8 readings of “Bore diameter”, cyl 1");
+    expect(wordsOf(page)).toContain("Bore distortion from the 3 readings of “Bore diameter”, cyl 2");
+    // Only the missing angle is asked for; the filed places are shown, not typed again.
+    expect(page).toContain(`name="angle.${rs[2].id}"`);
+    expect(page).not.toContain(`name="depth.${rs[0].id}"`);
+    expect(page).not.toContain(`name="angle.${rs[0].id}"`);
+
+    const body: Record<string, string> = { intent: "distortion", specId: b, cylinder: "1" };
     const bad = await http(`/test-records/${id}`, { form: body, cookie: qc.cookie });
     expect(bad.status).toBe(400);
     expect(await textOf(bad)).toContain("Give every reading its depth and angle.");
@@ -327,10 +344,33 @@ describe("test records", () => {
     const res = await http(`/test-records/${id}`, { form: body, cookie: qc.cookie });
     expect(res.status).toBe(302);
     const [c] = await db().select().from(testRecordCalcs).where(eq(testRecordCalcs.recordId, id));
+    expect(c.label).toBe("Bore distortion: Bore diameter (cyl 1)");
+    const input = c.input as { readings: { depth: { value: number; unit: string }; angleDeg: number }[] };
+    expect(input.readings.map((r) => `${r.depth.value} ${r.depth.unit} ${r.angleDeg}°`)).toEqual(["10 mm 0°", "10 mm 45°", "10 mm 90°", "10 mm 135°", "60 mm 0°", "60 mm 45°", "60 mm 90°", "60 mm 135°"]);
     const result = c.result as { levels: { outOfRound_mm: number }[] };
     expect(result.levels.map((l) => Number(l.outOfRound_mm.toFixed(6)))).toEqual([0.01, 0]);
     const apprentice = await createUser("apprentice");
     expect((await http(`/test-records/${id}`, { form: body, cookie: apprentice.cookie })).status).toBe(403);
+    const unknown = await http(`/test-records/${id}`, { form: { intent: "erase" }, cookie: qc.cookie });
+    expect(unknown.status).toBe(400);
+    expect(await textOf(unknown)).toContain("This form asked for something this page does not do.");
+  });
+
+  it("keeps a reading at the resolution it was typed: 88.010 stays 88.010 on the record, the amend form and converted", async () => {
+    const b = fx.specs.bore.id;
+    const res = await file(qc, form(fx.rev.id, { [`r.${b}.0.value`]: "88.010", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "3.46500", [`r.${b}.1.unit`]: "in" }));
+    expect(res.status).toBe(302);
+    const id = idFrom(res);
+    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.position);
+    expect(rows.map((r) => [r.valueEntered, r.valueDecimals])).toEqual([[88.01, 3], [3.465, 5]]);
+    const page = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
+    expect(page).toContain("88.010 mm");
+    expect(page).toContain("3.46500 in");
+    // 3.46500 in = 88.011 mm; a step of 0.00001 in is 0.000254 mm, so four decimals (1 in = 25.4 mm).
+    expect(page).toContain("88.0110 mm");
+    const amend = await textOf(await http(`/test-records/${id}/amend`, { cookie: qc.cookie }));
+    expect(amend).toContain('value="88.010"');
+    expect(amend).toContain('value="3.46500"');
   });
 
   it("files from a recording: its readings are offered, pulled in with a link to their moment, and the span is kept", async () => {

@@ -1,6 +1,7 @@
 import { useEffect, useMemo, useRef, useState } from "react";
 import { Link, useFetcher, useFetchers } from "react-router";
-import { toSI } from "~/lib/calc";
+import { isUnitCode, toSI } from "~/lib/calc";
+import { formatMeasured, formatNumber } from "~/lib/calc-ui/units";
 import {
   DEPTH_UNITS,
   POSITION_FIELD_WORDS,
@@ -14,6 +15,7 @@ import {
 } from "~/lib/recordings/positions";
 import { QUANTITIES, displayUnit, quantityDef, toStoredSI, unitsFor } from "~/lib/recordings/quantities";
 import { formatTime } from "~/lib/time-format";
+import { guessedDecimals, typedDecimals, typedText } from "~/lib/typed-number";
 import { issuesByPath, type ReadingRow } from "./types";
 import { useLandingTarget } from "~/components/search/LandingTarget";
 
@@ -51,6 +53,7 @@ function pendingRow(id: string, r: GridValue): ReadingRow {
     quantity: r.quantity,
     label: r.label ?? "",
     valueEntered: value,
+    valueDecimals: r.valueDecimals ?? null,
     unitEntered: r.unit,
     valueSi: Number.isFinite(value) ? toStoredSI(r.quantity, value, r.unit) : 0,
     conditions: r.conditions ?? {},
@@ -67,8 +70,10 @@ function pendingRow(id: string, r: GridValue): ReadingRow {
   };
 }
 
-function fmtValue(v: number) {
-  return Number(v.toPrecision(6)).toString();
+/** A reading at the resolution it was typed in (88.010 stays 88.010), in its own unit. */
+function fmtValue(r: Pick<ReadingRow, "valueEntered" | "valueDecimals" | "unitEntered">) {
+  const decimals = r.valueDecimals ?? guessedDecimals(r.valueEntered);
+  return isUnitCode(r.unitEntered) ? formatMeasured(r.valueEntered, r.unitEntered, r.unitEntered, 0, decimals) : formatNumber(r.valueEntered, decimals);
 }
 
 type Draft = {
@@ -110,7 +115,7 @@ function draftOf(r: ReadingRow): Draft {
   return {
     t: r.t != null ? String(r.t) : "",
     quantity: r.quantity,
-    value: String(r.valueEntered),
+    value: typedText(r.valueEntered, r.valueDecimals),
     unit: r.unitEntered,
     label: r.label,
     fastener: str(r.fastener),
@@ -141,6 +146,8 @@ function draftToBody(d: Draft) {
   return {
     quantity: d.quantity,
     value: d.value.trim() === "" ? Number.NaN : Number(d.value.replace(",", ".")),
+    // The number loses its trailing zeros on the way: the decimals typed travel beside it.
+    valueDecimals: typedDecimals(d.value),
     unit: d.unit,
     label: d.label,
     fastener: pick("fastener", d.fastener),
@@ -255,7 +262,7 @@ function ReadingLine({ recordingId, reading: r, canEdit, onEdit }: { recordingId
         {r.label && <span className="text-graphite-soft">{r.label}</span>}
         {!where && !r.label && <span className="text-graphite-soft">–</span>}
       </td>
-      <td className="whitespace-nowrap px-3 py-2 text-right font-semibold">{fmtValue(r.valueEntered)} {displayUnit(r.unitEntered)}</td>
+      <td className="whitespace-nowrap px-3 py-2 text-right font-semibold">{fmtValue(r)} {displayUnit(r.unitEntered)}</td>
       <td className="px-3 py-2 text-graphite-soft">{conditions || "–"}</td>
       <td className="whitespace-nowrap px-3 py-2 text-right text-xs">
         {canEdit && (

@@ -21,6 +21,8 @@ export type ReadingRow = {
   label: string;
   valueSi: number;
   valueEntered: number;
+  /** Decimals typed (88.010 → 3); null when not known. */
+  valueDecimals: number | null;
   unitEntered: string;
   conditions: { lube?: string; tool?: string; pass?: string; note?: string };
   t: number | null;

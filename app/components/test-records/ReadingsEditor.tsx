@@ -1,18 +1,16 @@
 import { useMemo, useState } from "react";
 import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
-import { DEPTH_UNITS, POSITION_FIELD_WORDS, depthEntered, positionFieldsForSpec, positionText, type Position, type PositionField } from "~/lib/recordings/positions";
+import { DEPTH_UNITS, POSITION_FIELD_WORDS, positionFieldsForSpec, positionText, type Position, type PositionField } from "~/lib/recordings/positions";
 import { quantityDef } from "~/lib/recordings/quantities";
 import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
-import { fmtNum, ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
-import { limitsText, unitText } from "./units";
+import { PLACE_KEYS, placeFields, type PlaceKey } from "~/lib/test-records/form";
+import { typedText } from "~/lib/typed-number";
+import { ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
+import { limitsText, typedReadingText, unitText } from "./units";
 
 export type EditorSpec = SpecLimits & { note: string };
 type Row = { value: string; unit: string; note: string; src: string } & Record<PlaceKey, string>;
-export type PullReading = { id: string; quantity: string; label: string; valueEntered: number; unitEntered: string; t: number | null } & Partial<Position>;
-
-/** The place of a row, as the form's fields r.<specId>.<i>.<key> (depthUnit: mm or in). */
-const PLACE_KEYS = ["fastener", "cylinder", "journal", "depth", "depthUnit", "angle"] as const;
-type PlaceKey = (typeof PLACE_KEYS)[number];
+export type PullReading = { id: string; quantity: string; label: string; valueEntered: number; valueDecimals: number | null; unitEntered: string; t: number | null } & Partial<Position>;
 
 const blankRow = (unit: string, keep?: Partial<Row>): Row => ({
   value: "",
@@ -26,13 +24,6 @@ const blankRow = (unit: string, keep?: Partial<Row>): Row => ({
   depthUnit: keep?.depthUnit || "mm",
   angle: "",
 });
-
-/** A stored place as the row's text fields (a recording's reading pulled in, or a filed one). */
-export function placeFields(p: Partial<Position>): Record<PlaceKey, string> {
-  const depth = depthEntered({ depthM: p.depthM ?? null, depthUnit: p.depthUnit ?? null });
-  const str = (x: number | null | undefined) => (x == null ? "" : String(x));
-  return { fastener: str(p.fastener), cylinder: str(p.cylinder), journal: str(p.journal), depth: depth ? String(depth.value) : "", depthUnit: depth?.unit ?? "mm", angle: str(p.angleDeg) };
-}
 
 const PLACE_WIDTH: Record<PositionField, string> = { fastener: "w-16", cylinder: "w-16", journal: "w-16", depth: "w-20", angle: "w-16" };
 
@@ -121,7 +112,7 @@ export function ReadingsEditor({
               return (
                 <li key={p.id} className="flex flex-wrap items-center gap-2 py-1.5" data-testid="pull-reading">
                   <span className="num w-14 text-graphite-soft">{p.t != null ? clock(p.t) : "—"}</span>
-                  <span className="num font-semibold">{fmtNum(p.valueEntered)} {unitText(p.unitEntered)}</span>
+                  <span className="num font-semibold">{typedReadingText(p)}</span>
                   <span className="min-w-0 flex-1 truncate">{[where, p.label].filter(Boolean).join(" · ")}</span>
                   {used.has(p.id) ? (
                     <span className="text-graphite-soft">pulled in</span>
@@ -132,7 +123,7 @@ export function ReadingsEditor({
                       value=""
                       onChange={(e) => {
                         if (!e.target.value) return;
-                        add(e.target.value, { value: String(p.valueEntered), unit: p.unitEntered, note: p.label, src: p.id, ...placeFields(p) });
+                        add(e.target.value, { value: typedText(p.valueEntered, p.valueDecimals), unit: p.unitEntered, note: p.label, src: p.id, ...placeFields(p) });
                         setUsed((u) => new Set(u).add(p.id));
                       }}
                     >

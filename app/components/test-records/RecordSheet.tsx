@@ -1,10 +1,10 @@
 import { Link } from "react-router";
 import type { SpecVerdict } from "~/lib/test-records/verdict";
-import { fmtDay, fmtNum, ReadingVerdictTag, SpecVerdictTag } from "./parts";
-import { inSpecUnitText, limitsText, unitText } from "./units";
+import { fmtDay, ReadingVerdictTag, SpecVerdictTag } from "./parts";
+import { inSpecUnitText, limitsText, typedReadingText } from "./units";
 
 type Spec = { id: string; specKey: string; label: string; unit: string; min: number | null; max: number | null; nominal: number | null; note: string };
-type Reading = { id: string; specId: string; position: number; valueEntered: number; unitEntered: string; valueInSpecUnit: number; verdict: "within" | "below" | "above" | "unchecked"; note: string; sourceReadingId: string | null };
+type Reading = { id: string; specId: string; position: number; valueEntered: number; valueDecimals: number | null; unitEntered: string; valueInSpecUnit: number; verdict: "within" | "below" | "above" | "unchecked"; note: string; sourceReadingId: string | null };
 
 /** Readings grouped by spec, each with its verdict; specs without readings say "Not measured". */
 export function ReadingsTable({
@@ -60,7 +60,7 @@ export function ReadingsTable({
               rs.map((r, i) => (
                 <tr key={r.id}>
                   {i === 0 && head}
-                  <td className="whitespace-nowrap px-3 py-1 text-right">{fmtNum(r.valueEntered)} {unitText(r.unitEntered)}</td>
+                  <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">{typedReadingText(r)}</td>
                   <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">{r.unitEntered === s.unit ? "" : inSpecUnitText(r, s)}</td>
                   <td className="px-3 py-1"><ReadingVerdictTag verdict={r.verdict} /></td>
                   <td className="px-3 py-1 font-sans text-graphite-soft">

@@ -113,10 +113,11 @@ function decimalsForStep(step: number): number {
  * its last typed digit, converted, decides the decimals (81 ft·lbf is 1.36 N·m a step, so
  * "110 N·m", not "109.8212538"), and never fewer than `atLeast` (the spec's own decimals, so a
  * reading lines up with the limits it is compared with). Only the text is rounded: the value
- * kept and checked stays exact. In the unit it was typed in, it reads as typed.
+ * kept and checked stays exact. In the unit it was typed in, it reads as typed. `decimals` is
+ * how many were typed when known (88.010 is stored as 88.01; app/lib/typed-number.ts).
  */
-export function formatMeasured(typed: number, from: UnitCode, to: UnitCode, atLeast = 0): string {
-  const own = decimalsOf(typed);
+export function formatMeasured(typed: number, from: UnitCode, to: UnitCode, atLeast = 0, decimals?: number | null): string {
+  const own = Math.max(decimalsOf(typed), decimals ?? 0);
   if (from === to) return formatNumber(typed, Math.max(own, atLeast));
   // A step as a difference, so temperatures (with an offset) convert their step, not a point.
   const step = Math.abs(convert(typed + 10 ** -own, from, to) - convert(typed, from, to));

@@ -87,6 +87,7 @@ export async function listReadings(recordingId: string) {
       label: readings.label,
       valueSi: readings.valueSi,
       valueEntered: readings.valueEntered,
+      valueDecimals: readings.valueDecimals,
       unitEntered: readings.unitEntered,
       conditions: readings.conditions,
       fastener: readings.fastener,

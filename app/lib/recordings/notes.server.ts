@@ -133,6 +133,7 @@ export async function createReadings(request: Request, user: SessionUser, record
         quantity: r.quantity,
         label: r.label,
         valueEntered: r.value,
+        valueDecimals: r.valueDecimals,
         unitEntered: r.unit,
         valueSi: toStoredSI(r.quantity, r.value, r.unit),
         conditions: r.conditions,
@@ -160,6 +161,8 @@ export async function updateReading(request: Request, user: SessionUser, recordi
   const merged = {
     quantity: r.quantity,
     value: r.valueEntered,
+    // The decimals typed go with the stored value: a patch of the value says them anew (or they are guessed from it).
+    ...(typeof body === "object" && body && "value" in body ? {} : { valueDecimals: r.valueDecimals }),
     unit: r.unitEntered,
     label: r.label,
     conditions: r.conditions,
@@ -174,7 +177,7 @@ export async function updateReading(request: Request, user: SessionUser, recordi
   const v = parsed.data;
   const [row] = await db()
     .update(readings)
-    .set({ quantity: v.quantity, label: v.label, valueEntered: v.value, unitEntered: v.unit, valueSi: toStoredSI(v.quantity, v.value, v.unit), conditions: v.conditions, ...v.position, t: v.t ?? null, updatedAt: new Date() })
+    .set({ quantity: v.quantity, label: v.label, valueEntered: v.value, valueDecimals: v.valueDecimals, unitEntered: v.unit, valueSi: toStoredSI(v.quantity, v.value, v.unit), conditions: v.conditions, ...v.position, t: v.t ?? null, updatedAt: new Date() })
     .where(eq(readings.id, readingId))
     .returning();
   return Response.json({ reading: row });

@@ -6,6 +6,7 @@
 import { z } from "zod";
 import { UNIT_CODES, toSI, unitLabel, isUnitCode, type UnitCode, type UnitKind } from "~/lib/calc";
 import { quantityProblem } from "~/lib/edge";
+import { guessedDecimals, MAX_TYPED_DECIMALS } from "~/lib/typed-number";
 import { positionFromLabel, positionInputSchema, positionIssues, storedPosition } from "./positions";
 import { pastTheEnd, tooLateMessage, videoSeconds } from "./video-time";
 
@@ -83,6 +84,14 @@ export function readingInputSchema(durationS: number | null) {
     .object({
       quantity: z.enum(QUANTITY_IDS, { error: "Choose what was measured." }),
       value: z.number({ error: "Enter the value as a number." }).finite("Enter the value as a number."),
+      // JSON keeps no trailing zero (88.010 arrives as 88.01): how many decimals were typed, if known.
+      valueDecimals: z
+        .number({ error: "The decimals typed, as a whole number." })
+        .int("The decimals typed, as a whole number.")
+        .min(0, "The decimals typed, as a whole number.")
+        .max(MAX_TYPED_DECIMALS, `At most ${MAX_TYPED_DECIMALS} decimals.`)
+        .nullable()
+        .optional(),
       unit: z.string().trim().min(1, "Choose a unit."),
       label: z.string().trim().max(120, "Keep the label under 120 characters.").default(""),
       conditions: conditionsSchema,
@@ -91,6 +100,10 @@ export function readingInputSchema(durationS: number | null) {
     })
     .superRefine((r, ctx) => {
       const allowed = unitsFor(r.quantity);
+      // (zod runs this after a failed check of its own too: only a valid count is compared.)
+      const decimalsValid = Number.isInteger(r.valueDecimals) && r.valueDecimals! >= 0 && r.valueDecimals! <= MAX_TYPED_DECIMALS;
+      if (decimalsValid && Number.isFinite(r.value) && guessedDecimals(r.value) > r.valueDecimals!)
+        ctx.addIssue({ code: "custom", path: ["valueDecimals"], message: `${r.value} has more decimals than ${r.valueDecimals}.` });
       for (const i of positionIssues(r.quantity, r, quantityDef(r.quantity)!.label)) ctx.addIssue({ code: "custom", path: [i.path], message: i.message });
       if (r.quantity === "other") {
         if (!FREE_UNIT.test(r.unit)) ctx.addIssue({ code: "custom", path: ["unit"], message: "Type a short unit (letters, digits, % / ·)." });
@@ -116,15 +129,15 @@ export function readingInputSchema(durationS: number | null) {
         ctx.addIssue({ code: "custom", path: ["value"], message: outOfRange });
       if (r.t != null && pastTheEnd(r.t, durationS)) ctx.addIssue({ code: "custom", path: ["t"], message: tooLateMessage(durationS!) });
     })
-    .transform(({ fastener, cylinder, journal, depth, angle, ...r }) => {
+    .transform(({ fastener, cylinder, journal, depth, angle, valueDecimals, ...r }) => {
       const given = storedPosition({ fastener, cylinder, journal, depth, angle });
       // A reading sent the old way, its place written in the label ("cyl 3, 20 mm down, 90°"),
       // gets the place in its fields as migration 0021 did for the stored ones.
       if (Object.values(given).every((v) => v == null) && r.label) {
         const parsed = positionFromLabel(r.quantity, r.label);
-        return { ...r, label: parsed.label, position: parsed.position };
+        return { ...r, valueDecimals: valueDecimals ?? guessedDecimals(r.value), label: parsed.label, position: parsed.position };
       }
-      return { ...r, position: given };
+      return { ...r, valueDecimals: valueDecimals ?? guessedDecimals(r.value), position: given };
     });
 }
 

@@ -6,11 +6,13 @@
 import { z } from "zod";
 import { unitKind } from "~/lib/calc";
 import { isRealDate, isUuid, quantityProblem } from "~/lib/edge";
-import type { FieldErrors } from "~/lib/forms";
-import { positionFieldsForSpec, positionFromLabel, positionInputSchema, positionIssues, storedPosition, type Position, type PositionField } from "~/lib/recordings/positions";
+import { parseForm, type FieldErrors } from "~/lib/forms";
+import { depthEntered, positionFieldsForSpec, positionFromLabel, positionInputSchema, positionIssues, storedPosition, type Position, type PositionField } from "~/lib/recordings/positions";
+import { typedDecimals, typedText } from "~/lib/typed-number";
 import { readingVerdict, VerdictInputError, type SpecLimits } from "./verdict";
 
-export type TypedReading = { value: number; unit: string; note: string; position: Position; sourceReadingId: string | null };
+/** `decimals`: as many as were typed ("88.010" → 3), kept beside the value (migration 0026). */
+export type TypedReading = { value: number; decimals: number; unit: string; note: string; position: Position; sourceReadingId: string | null };
 
 /** No engine was bench-tested before this; an earlier date is a typing slip. */
 export const EARLIEST_TEST_DATE = "1900-01-01";
@@ -68,6 +70,22 @@ export const amendSchema = z
   })
   .and(headerSchema);
 
+const ROW_VALUE = /^[-+]?(\d+([.,]\d*)?|[.,]\d+)(e[-+]?\d+)?$/i;
+
+/** One reading row's own fields (its place is read by `readPosition`, per spec). */
+const readingRowSchema = z.object({
+  value: z
+    .string()
+    .refine((raw) => ROW_VALUE.test(raw) && Number.isFinite(Number(raw.replace(",", "."))), { message: "Enter a number, e.g. 88.006." })
+    .transform((raw) => ({ value: Number(raw.replace(",", ".")), decimals: typedDecimals(raw) ?? 0 })),
+  unit: z.string().refine((u) => unitKind(u) != null, { message: "Choose a unit." }),
+  note: z.string().transform((n) => n.slice(0, 200)),
+  src: z.string().refine((s) => s === "" || isUuid(s), { message: "That recording reading does not exist: pull the reading in again from the recording." }),
+});
+
+// A bad pulled-in link is the value's problem: the row shows no field for it.
+const ROW_FIELD_OF: Record<string, string> = { value: "value", unit: "unit", note: "note", src: "value" };
+
 /** Reads the reading rows from the form; blank rows are ignored; bad rows get field errors. */
 export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: Record<string, TypedReading[]>; errors: FieldErrors; count: number } {
   const readings: Record<string, TypedReading[]> = {};
@@ -82,32 +100,24 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
   const sorted = [...rows.values()].sort((a, b) => (a.specId === b.specId ? a.i - b.i : 0));
   for (const { specId, i } of sorted) {
     const base = `r.${specId}.${i}`;
+    const field = (f: string) => String(form.get(`${base}.${f}`) ?? "").trim();
+    if (field("value") === "") continue;
     const spec = byId.get(specId);
-    const raw = String(form.get(`${base}.value`) ?? "").trim();
-    const unit = String(form.get(`${base}.unit`) ?? "").trim();
-    const note = String(form.get(`${base}.note`) ?? "").trim().slice(0, 200);
-    const src = String(form.get(`${base}.src`) ?? "").trim();
-    if (raw === "") continue;
     if (!spec) {
       errors[`${base}.value`] = "This spec is not in the revision the record is filed against.";
       continue;
     }
-    const value = Number(raw.replace(",", "."));
-    if (!/^[-+]?(\d+([.,]\d*)?|[.,]\d+)(e[-+]?\d+)?$/i.test(raw) || !Number.isFinite(value)) {
-      errors[`${base}.value`] = "Enter a number, e.g. 88.006.";
+    const row = readingRowSchema.safeParse({ value: field("value"), unit: field("unit"), note: field("note"), src: field("src") });
+    if (!row.success) {
+      const first = row.error.issues[0];
+      errors[`${base}.${ROW_FIELD_OF[String(first.path[0])] ?? "value"}`] = first.message;
       continue;
     }
-    if (!unitKind(unit)) {
-      errors[`${base}.unit`] = "Choose a unit.";
-      continue;
-    }
+    const { value, decimals } = row.data.value;
+    const { unit, note, src } = row.data;
     const outOfRange = quantityProblem(value, unit);
     if (outOfRange) {
       errors[`${base}.value`] = outOfRange;
-      continue;
-    }
-    if (src !== "" && !isUuid(src)) {
-      errors[`${base}.value`] = "That recording reading does not exist: pull the reading in again from the recording.";
       continue;
     }
     const where = readPosition(form, base, positionFieldsForSpec(spec));
@@ -126,7 +136,7 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
     }
     // A form sent the old way, the place written in the note, gets it in the fields as the readings API does.
     const typed = Object.values(where.position).every((v) => v == null) ? positionFromLabel(positionFieldsForSpec(spec), note) : { position: where.position, label: note };
-    (readings[specId] ??= []).push({ value, unit, note: typed.label, position: typed.position, sourceReadingId: src === "" ? null : src });
+    (readings[specId] ??= []).push({ value, decimals, unit, note: typed.label, position: typed.position, sourceReadingId: src === "" ? null : src });
     count++;
   }
   return { readings, errors, count };
@@ -149,4 +159,47 @@ function readPosition(form: FormData, base: string, fits: PositionField[]): { po
   if (!parsed.success) for (const i of parsed.error.issues) errors[`${base}.${String(i.path[0])}`] ??= i.message;
   else for (const i of positionIssues(fits, parsed.data, "")) errors[`${base}.${i.path}`] ??= i.message;
   return Object.keys(errors).length || !parsed.success ? { errors } : { position: storedPosition(parsed.data) };
+}
+
+/** The place of a row, as the form's fields r.<specId>.<i>.<key> (depthUnit: mm or in). */
+export const PLACE_KEYS = ["fastener", "cylinder", "journal", "depth", "depthUnit", "angle"] as const;
+export type PlaceKey = (typeof PLACE_KEYS)[number];
+
+/** A stored place as a row's text fields (a recording's reading pulled in, or a filed one). */
+export function placeFields(p: Partial<Position>): Record<PlaceKey, string> {
+  const depth = depthEntered({ depthM: p.depthM ?? null, depthUnit: p.depthUnit ?? null });
+  const str = (x: number | null | undefined) => (x == null ? "" : String(x));
+  return { fastener: str(p.fastener), cylinder: str(p.cylinder), journal: str(p.journal), depth: depth ? String(depth.value) : "", depthUnit: depth?.unit ?? "mm", angle: str(p.angleDeg) };
+}
+
+/**
+ * The amend form's reading fields from the readings in force, each value as it was typed
+ * (88.010 stays 88.010) and its place in the fields.
+ */
+export function amendFormValues(
+  readings: ({ specId: string; position: number; valueEntered: number; valueDecimals: number | null; unitEntered: string; noteText: string; sourceReadingId: string | null } & Partial<Position>)[],
+): Record<string, string> {
+  const values: Record<string, string> = {};
+  for (const r of readings) {
+    const base = `r.${r.specId}.${r.position}`;
+    values[`${base}.value`] = typedText(r.valueEntered, r.valueDecimals);
+    values[`${base}.unit`] = r.unitEntered;
+    values[`${base}.note`] = r.noteText;
+    for (const [k, v] of Object.entries(placeFields(r))) values[`${base}.${k}`] = v;
+    if (r.sourceReadingId) values[`${base}.src`] = r.sourceReadingId;
+  }
+  return values;
+}
+
+/**
+ * A new-record or amend form as a whole: its header through `schema`, its reading rows checked
+ * against the revision's specs; at least one reading (`noReadings` says so otherwise).
+ */
+export function parseRecordForm<S extends z.ZodType>(schema: S, form: FormData, specs: SpecLimits[], noReadings: string) {
+  const parsed = parseForm(schema, form);
+  const r = parseReadings(form, specs);
+  const errors: FieldErrors = { ...(parsed.ok ? {} : parsed.errors), ...r.errors };
+  if (!Object.keys(r.errors).length && r.count === 0) errors.readings = noReadings;
+  if (!parsed.ok || Object.keys(errors).length) return { ok: false as const, errors, values: parsed.values };
+  return { ok: true as const, data: parsed.data as z.infer<S>, readings: r.readings, values: parsed.values };
 }

@@ -4,6 +4,7 @@
  */
 import type { AmendmentChange } from "~/db/schema/test-records";
 import { unitLabel, type UnitCode } from "~/lib/calc";
+import { typedText } from "~/lib/typed-number";
 
 export type HeaderFields = { title: string; engineSerial: string; testedOn: string; notes: string; recordingStartS: number | null; recordingEndS: number | null };
 export const HEADER_LABELS: Record<keyof HeaderFields, string> = {
@@ -15,7 +16,8 @@ export const HEADER_LABELS: Record<keyof HeaderFields, string> = {
   recordingEndS: "Recording to (s)",
 };
 
-export type VersionedReading = { specId: string; value: number; unit: string; note: string };
+/** `decimals`: as many as were typed (88.010 → 3), so the history reads as typed. */
+export type VersionedReading = { specId: string; value: number; decimals?: number | null; unit: string; note: string };
 
 function unitText(u: string): string {
   try {
@@ -27,7 +29,7 @@ function unitText(u: string): string {
 
 /** "88.012 mm (cyl 1 top)" — how a reading reads in the history. */
 export function readingText(r: VersionedReading): string {
-  return `${r.value} ${unitText(r.unit)}${r.note ? ` (${r.note})` : ""}`;
+  return `${typedText(r.value, r.decimals)} ${unitText(r.unit)}${r.note ? ` (${r.note})` : ""}`;
 }
 
 export function diffAmendment(

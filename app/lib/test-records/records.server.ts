@@ -17,25 +17,17 @@ import {
   users,
   type AmendmentChange,
 } from "~/db/schema";
+import { data } from "react-router";
 import { audit } from "~/lib/audit.server";
+import { DomainError } from "~/lib/domain-error";
 import { db, type DbOrTx } from "~/lib/db.server";
 import { toSI, type UnitCode } from "~/lib/calc";
-import { isRealDate } from "~/lib/edge";
 import { positionText, type Position } from "~/lib/recordings/positions";
 import type { TypedReading } from "./form";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
 import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
 import { RECORD_VERDICT_LABELS, RECORD_VERDICTS } from "./labels";
 
-export class TestRecordError extends Error {
-  constructor(
-    message: string,
-    readonly status: number,
-    readonly field?: string,
-  ) {
-    super(message);
-  }
-}
 
 type Actor = { id: string; name?: string };
 export type SpecRow = typeof procedureSpecs.$inferSelect;
@@ -63,6 +55,12 @@ export async function procedureForFiling(slugOrId: string) {
   return { procedure: p, revision: rev, specs };
 }
 
+/** The limits of a revision's specs, to check a posted form's readings against ([] for no such revision). */
+export async function revisionSpecLimits(revisionId: string) {
+  if (!/^[0-9a-f-]{36}$/.test(revisionId)) return [];
+  return (await specsOfRevision(db(), revisionId)).map(limitsOf);
+}
+
 export async function publishedProcedureOptions() {
   return db()
     .select({ id: procedures.id, slug: procedures.slug, title: procedures.title })
@@ -81,6 +79,7 @@ export async function recordingForFiling(id: string) {
       quantity: recordingReadings.quantity,
       label: recordingReadings.label,
       valueEntered: recordingReadings.valueEntered,
+      valueDecimals: recordingReadings.valueDecimals,
       unitEntered: recordingReadings.unitEntered,
       t: recordingReadings.t,
       fastener: recordingReadings.fastener,
@@ -116,6 +115,7 @@ function rowsFor(recordId: string, version: number, specs: SpecRow[], typed: Rec
         position: i,
         valueEntered: r.value,
         unitEntered: r.unit,
+        valueDecimals: r.decimals,
         valueSi: toSI(r.value, r.unit as UnitCode),
         valueInSpecUnit: v.valueInSpecUnit,
         verdict: v.verdict,
@@ -136,7 +136,7 @@ async function assertSourceReadings(tx: DbOrTx, typed: Record<string, TypedReadi
   const ids = [...new Set(Object.values(typed).flat().map((r) => r.sourceReadingId).filter((id): id is string => id != null))];
   if (!ids.length) return;
   const found = await tx.select({ id: recordingReadings.id }).from(recordingReadings).where(inArray(recordingReadings.id, ids));
-  if (found.length < ids.length) throw new TestRecordError("That recording reading does not exist (any more): pull the reading in again from the recording.", 400, "readings");
+  if (found.length < ids.length) throw new DomainError("That recording reading does not exist (any more): pull the reading in again from the recording.", { status: 400, field: "readings" });
 }
 
 /**
@@ -146,24 +146,23 @@ async function assertSourceReadings(tx: DbOrTx, typed: Record<string, TypedReadi
 export async function createTestRecord(actor: Actor, input: NewRecordInput): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number }> {
   return db().transaction(async (tx) => {
     const [rev] = await tx.select().from(procedureRevisions).where(eq(procedureRevisions.id, input.revisionId));
-    if (!rev) throw new TestRecordError("That procedure revision does not exist.", 400, "revisionId");
+    if (!rev) throw new DomainError("That procedure revision does not exist.", { status: 400, field: "revisionId" });
     const [proc] = await tx.select().from(procedures).where(eq(procedures.id, rev.procedureId)).for("share");
     if (!proc || proc.publishedRevisionId !== rev.id) {
       const [now] = proc?.publishedRevisionId ? await tx.select({ number: procedureRevisions.number }).from(procedureRevisions).where(eq(procedureRevisions.id, proc.publishedRevisionId)) : [];
-      throw new TestRecordError(
+      throw new DomainError(
         now
           ? `Revision ${now.number} of this procedure was published while the form was open; reload the form to check the readings against its specs.`
           : "This procedure has no published revision to file against.",
-        409,
-        "revisionId",
+        { status: 409, field: "revisionId" },
       );
     }
     const specs = await specsOfRevision(tx, rev.id);
     const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
-    if (!evaluation.verdict) throw new TestRecordError("Type at least one reading.", 400, "readings");
+    if (!evaluation.verdict) throw new DomainError("Type at least one reading.", { status: 400, field: "readings" });
     if (input.recordingId) {
       const [r] = await tx.select({ id: recordings.id }).from(recordings).where(eq(recordings.id, input.recordingId));
-      if (!r) throw new TestRecordError("That recording does not exist.", 400, "recordingId");
+      if (!r) throw new DomainError("That recording does not exist.", { status: 400, field: "recordingId" });
     }
     const [rec] = await tx
       .insert(testRecords)
@@ -202,7 +201,7 @@ export type AmendInput = HeaderFields & { reason: string; readings: Record<strin
 export async function amendTestRecord(actor: Actor, recordId: string, input: AmendInput): Promise<{ version: number; verdict: RecordVerdict; notMeasured: number; changes: AmendmentChange[] }> {
   return db().transaction(async (tx) => {
     const [rec] = await tx.select().from(testRecords).where(eq(testRecords.id, recordId)).for("update");
-    if (!rec) throw new TestRecordError("No such test record.", 404);
+    if (!rec) throw new DomainError("No such test record.", { status: 404 });
     const specs = await specsOfRevision(tx, rec.revisionId);
     const current = await tx
       .select()
@@ -210,21 +209,21 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
       .where(and(eq(testRecordReadings.recordId, rec.id), eq(testRecordReadings.version, rec.currentVersion)))
       .orderBy(asc(testRecordReadings.position));
     const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
-    if (!evaluation.verdict) throw new TestRecordError("An amended record still needs at least one reading.", 400, "readings");
+    if (!evaluation.verdict) throw new DomainError("An amended record still needs at least one reading.", { status: 400, field: "readings" });
     const order = new Map(specs.map((s, i) => [s.id, i]));
     const sortReadings = <T extends { specId: string }>(rs: T[]) => [...rs].sort((a, b) => (order.get(a.specId) ?? 0) - (order.get(b.specId) ?? 0));
     const changes = diffAmendment(
       {
         header: { title: rec.title, engineSerial: rec.engineSerial, testedOn: rec.testedOn, notes: rec.notes, recordingStartS: rec.recordingStartS, recordingEndS: rec.recordingEndS },
-        readings: sortReadings(current).map((r) => ({ specId: r.specId, value: r.valueEntered, unit: r.unitEntered, note: whereText(r, r.note) })),
+        readings: sortReadings(current).map((r) => ({ specId: r.specId, value: r.valueEntered, decimals: r.valueDecimals, unit: r.unitEntered, note: whereText(r, r.note) })),
       },
       {
         header: { title: input.title, engineSerial: input.engineSerial, testedOn: input.testedOn, notes: input.notes, recordingStartS: rec.recordingId ? input.recordingStartS : null, recordingEndS: rec.recordingId ? input.recordingEndS : null },
-        readings: specs.flatMap((s) => (input.readings[s.id] ?? []).map((r) => ({ specId: s.id, value: r.value, unit: r.unit, note: whereText(r.position, r.note) }))),
+        readings: specs.flatMap((s) => (input.readings[s.id] ?? []).map((r) => ({ specId: s.id, value: r.value, decimals: r.decimals, unit: r.unit, note: whereText(r.position, r.note) }))),
       },
       new Map(specs.map((s) => [s.id, s.label])),
     );
-    if (!changes.length) throw new TestRecordError("Nothing was changed: the amendment would be the same as the record.", 400, "form");
+    if (!changes.length) throw new DomainError("Nothing was changed: the amendment would be the same as the record.", { status: 400, field: "form" });
     const version = rec.currentVersion + 1;
     const readingsChanged = changes.some((c) => c.kind === "spec");
     if (readingsChanged) {
@@ -233,7 +232,7 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
     } else {
       // Same readings: carry the set over unchanged so each version is complete on its own.
       await tx.insert(testRecordReadings).values(
-        current.map((r) => ({ recordId: r.recordId, version, specId: r.specId, specKey: r.specKey, position: r.position, valueEntered: r.valueEntered, unitEntered: r.unitEntered, valueSi: r.valueSi, valueInSpecUnit: r.valueInSpecUnit, verdict: r.verdict, note: r.note, fastener: r.fastener, cylinder: r.cylinder, journal: r.journal, depthM: r.depthM, depthUnit: r.depthUnit, angleDeg: r.angleDeg, sourceReadingId: r.sourceReadingId })),
+        current.map((r) => ({ recordId: r.recordId, version, specId: r.specId, specKey: r.specKey, position: r.position, valueEntered: r.valueEntered, unitEntered: r.unitEntered, valueDecimals: r.valueDecimals, valueSi: r.valueSi, valueInSpecUnit: r.valueInSpecUnit, verdict: r.verdict, note: r.note, fastener: r.fastener, cylinder: r.cylinder, journal: r.journal, depthM: r.depthM, depthUnit: r.depthUnit, angleDeg: r.angleDeg, sourceReadingId: r.sourceReadingId })),
       );
     }
     await tx.insert(testRecordAmendments).values({ recordId: rec.id, version, reason: input.reason, changes, verdictBefore: rec.verdict, verdictAfter: evaluation.verdict, createdBy: actor.id });
@@ -331,17 +330,17 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
 
 export type TestRecordView = NonNullable<Awaited<ReturnType<typeof getTestRecord>>>;
 
+/** The record for a page or its action: a 404 page when there is none. */
+export async function testRecordOr404(id: string, opts: { version?: number } = {}): Promise<TestRecordView> {
+  const view = await getTestRecord(id, opts);
+  if (!view) throw data({ message: "No such test record." }, { status: 404 });
+  return view;
+}
+
 // ---- lists ------------------------------------------------------------------------------------
 
-export type ListFilters = { procedure?: string | null; verdict?: string | null; workOrder?: string | null; from?: string | null; to?: string | null };
-
-export function filtersFrom(url: URL): ListFilters {
-  const g = (k: string) => url.searchParams.get(k)?.trim() || null;
-  // A filter that cannot be a day (2024-02-30: JavaScript rolls it over, PostgreSQL refuses it) is no filter.
-  const date = (s: string | null) => (s && isRealDate(s) ? s : null);
-  const verdict = g("verdict");
-  return { procedure: g("procedure"), verdict: RECORD_VERDICTS.find((v) => v === verdict) ?? null, workOrder: g("workOrder")?.slice(0, 40) ?? null, from: date(g("from")), to: date(g("to")) };
-}
+export type { ListFilters } from "./filters";
+import type { ListFilters } from "./filters";
 
 function whereOf(f: ListFilters): SQL | undefined {
   const w: SQL[] = [];

@@ -5,33 +5,19 @@ import { idParams } from "~/lib/edge";
 import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { VerdictBadge } from "~/components/test-records/parts";
-import { placeFields, ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
+import { ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
 import { requirePermission } from "~/lib/auth.server";
 import { redirectWithFlash } from "~/lib/flash.server";
-import { parseForm, type FieldErrors } from "~/lib/forms";
-import { amendSchema, parseReadings } from "~/lib/test-records/form";
-import { amendTestRecord, getTestRecord, limitsOf, TestRecordError } from "~/lib/test-records/records.server";
+import { domainFailure } from "~/lib/domain-error.server";
+import { amendFormValues, amendSchema, parseRecordForm } from "~/lib/test-records/form";
+import { amendTestRecord, limitsOf, testRecordOr404 } from "~/lib/test-records/records.server";
 import { flashKindOf, recordVerdictText } from "~/lib/test-records/labels";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Amend ${data?.record.workOrder ?? "test record"} · Benchreel` }];
 
-async function recordOr404(id: string) {
-  const r = await getTestRecord(id);
-  if (!r) throw data({ message: "No such test record." }, { status: 404 });
-  return r;
-}
-
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "testrecord:amend");
-  const view = await recordOr404(parseParams(request, idParams, params, "test record").id);
-  const values: Record<string, string> = {};
-  for (const r of view.readings) {
-    values[`r.${r.specId}.${r.position}.value`] = String(r.valueEntered);
-    values[`r.${r.specId}.${r.position}.unit`] = r.unitEntered;
-    values[`r.${r.specId}.${r.position}.note`] = r.noteText;
-    for (const [k, v] of Object.entries(placeFields(r))) values[`r.${r.specId}.${r.position}.${k}`] = v;
-    if (r.sourceReadingId) values[`r.${r.specId}.${r.position}.src`] = r.sourceReadingId;
-  }
+  const view = await testRecordOr404(parseParams(request, idParams, params, "test record").id);
   return {
     record: view.record,
     procedure: view.procedure,
@@ -39,26 +25,21 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     specs: view.specs.map((s) => ({ ...limitsOf(s), note: s.note })),
     verdict: view.evaluation.verdict,
     notMeasured: view.evaluation.notMeasured.length,
-    readingValues: values,
+    readingValues: amendFormValues(view.readings),
   };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "testrecord:amend");
-  const view = await recordOr404(parseParams(request, idParams, params, "test record").id);
+  const view = await testRecordOr404(parseParams(request, idParams, params, "test record").id);
   const form = await readForm(request);
-  const parsed = parseForm(amendSchema, form);
-  const r = parseReadings(form, view.specs.map(limitsOf));
-  const errors: FieldErrors = { ...(parsed.ok ? {} : parsed.errors), ...r.errors };
-  if (!Object.keys(r.errors).length && r.count === 0) errors.readings = "An amended record still needs at least one reading.";
-  if (!parsed.ok || Object.keys(errors).length) return data({ errors, values: parsed.values }, { status: 400 });
-  const d = parsed.data;
+  const parsed = parseRecordForm(amendSchema, form, view.specs.map(limitsOf), "An amended record still needs at least one reading.");
+  if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   try {
-    const out = await amendTestRecord(user, view.record.id, { ...d, readings: r.readings });
+    const out = await amendTestRecord(user, view.record.id, { ...parsed.data, readings: parsed.readings });
     return redirectWithFlash(`/test-records/${view.record.id}`, { kind: flashKindOf(out.verdict), message: `Amendment ${out.version} saved (${out.changes.length} change${out.changes.length === 1 ? "" : "s"}); the record is ${recordVerdictText(out.verdict, out.notMeasured)}. The original stays in the history.` });
   } catch (err) {
-    if (err instanceof TestRecordError) return data({ errors: { [err.field ?? "form"]: err.message }, values: parsed.values }, { status: err.status });
-    throw err;
+    return domainFailure(request, err, "", parsed.values);
   }
 }
 

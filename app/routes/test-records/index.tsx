@@ -3,17 +3,18 @@ import type { Route } from "./+types/index";
 import { EmptyState, PageHeader } from "~/components/page";
 import { fmtDay, VerdictBadge } from "~/components/test-records/parts";
 import { requirePermission } from "~/lib/auth.server";
+import { parseSearch } from "~/lib/edge.server";
+import { listSearch } from "~/lib/test-records/filters";
 import { can } from "~/lib/permissions";
-import { filtersFrom, listTestRecords, publishedProcedureOptions } from "~/lib/test-records/records.server";
+import { listTestRecords, publishedProcedureOptions } from "~/lib/test-records/records.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Test records · Benchreel" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const url = new URL(request.url);
-  const filters = filtersFrom(url);
+  const filters = parseSearch(request, listSearch);
   const [rows, procedures] = await Promise.all([listTestRecords(filters), publishedProcedureOptions()]);
-  return { rows, procedures, filters, query: url.search, canCreate: can(user.role, "testrecord:create") };
+  return { rows, procedures, filters, query: new URL(request.url).search, canCreate: can(user.role, "testrecord:create") };
 }
 
 export default function TestRecords({ loaderData }: Route.ComponentProps) {

@@ -2,20 +2,17 @@ import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/new";
 import { z } from "zod";
 import { parseSearch, readForm } from "~/lib/edge.server";
-import { isUuid, optionalSearch, slug as slugSchema, uuid } from "~/lib/edge";
+import { optionalSearch, slug as slugSchema, uuid } from "~/lib/edge";
 import { Field, FormError, SelectField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { SafetyNote } from "~/components/test-records/parts";
 import { ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
-import { procedureSpecs } from "~/db/schema";
 import { requirePermission } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { domainFailure } from "~/lib/domain-error.server";
 import { redirectWithFlash } from "~/lib/flash.server";
-import { parseForm, type FieldErrors } from "~/lib/forms";
-import { newRecordSchema, parseReadings } from "~/lib/test-records/form";
-import { createTestRecord, limitsOf, procedureForFiling, publishedProcedureOptions, recordingForFiling, TestRecordError } from "~/lib/test-records/records.server";
+import { newRecordSchema, parseRecordForm } from "~/lib/test-records/form";
+import { createTestRecord, limitsOf, procedureForFiling, publishedProcedureOptions, recordingForFiling, revisionSpecLimits } from "~/lib/test-records/records.server";
 import { flashKindOf, recordVerdictText } from "~/lib/test-records/labels";
-import { asc, eq } from "drizzle-orm";
 
 export const meta: Route.MetaFunction = () => [{ title: "File a test record · Benchreel" }];
 
@@ -46,33 +43,15 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const user = await requirePermission(request, "testrecord:create");
   const form = await readForm(request);
-  const parsed = parseForm(newRecordSchema, form);
-  const revisionId = String(form.get("revisionId") ?? "");
-  const specs = isUuid(revisionId)
-    ? await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position))
-    : [];
-  const r = parseReadings(form, specs.map(limitsOf));
-  const errors: FieldErrors = { ...(parsed.ok ? {} : parsed.errors), ...r.errors };
-  if (!Object.keys(r.errors).length && r.count === 0) errors.readings = "Type at least one reading: the verdict is computed from them.";
-  if (!parsed.ok || Object.keys(errors).length) return data({ errors, values: parsed.values }, { status: 400 });
+  const specs = await revisionSpecLimits(String(form.get("revisionId") ?? ""));
+  const parsed = parseRecordForm(newRecordSchema, form, specs, "Type at least one reading: the verdict is computed from them.");
+  if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   const d = parsed.data;
   try {
-    const rec = await createTestRecord(user, {
-      title: d.title,
-      workOrder: d.workOrder,
-      engineSerial: d.engineSerial,
-      testedOn: d.testedOn,
-      notes: d.notes,
-      revisionId: d.revisionId,
-      recordingId: d.recordingId || null,
-      recordingStartS: d.recordingStartS,
-      recordingEndS: d.recordingEndS,
-      readings: r.readings,
-    });
+    const rec = await createTestRecord(user, { ...d, recordingId: d.recordingId || null, readings: parsed.readings });
     return redirectWithFlash(`/test-records/${rec.id}`, { kind: flashKindOf(rec.verdict), message: `Test record filed for ${d.workOrder}: ${recordVerdictText(rec.verdict, rec.notMeasured)}.` });
   } catch (err) {
-    if (err instanceof TestRecordError) return data({ errors: { [err.field ?? "form"]: err.message, ...(err.field === "revisionId" ? { form: err.message } : {}) }, values: parsed.values }, { status: err.status });
-    throw err;
+    return domainFailure(request, err, "", parsed.values);
   }
 }
 

@@ -1,19 +1,18 @@
-import { data, Link } from "react-router";
+import { Link } from "react-router";
 import type { Route } from "./+types/print";
 import { fmtDay, SafetyNote, VerdictBadge } from "~/components/test-records/parts";
 import { ReadingsTable } from "~/components/test-records/RecordSheet";
 import { requirePermission } from "~/lib/auth.server";
 import { idParams, versionSearch } from "~/lib/edge";
 import { parseParams, parseSearch } from "~/lib/edge.server";
-import { getTestRecord } from "~/lib/test-records/records.server";
+import { testRecordOr404 } from "~/lib/test-records/records.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Record sheet ${data?.record.workOrder ?? ""} · Benchreel` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
   const { id } = parseParams(request, idParams, params, "test record");
-  const view = await getTestRecord(id, { version: parseSearch(request, versionSearch).v });
-  if (!view) throw data({ message: "No such test record." }, { status: 404 });
+  const view = await testRecordOr404(id, { version: parseSearch(request, versionSearch).v });
   return { ...view, printedAt: new Date().toISOString() };
 }
 
