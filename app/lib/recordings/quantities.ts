@@ -1,5 +1,5 @@
 /**
- * What a reading can measure: its quantities, the unit codes (calc-contract.md) that fit each,
+ * What a reading can measure: its quantities, the unit codes (docs/calculations.md) that fit each,
  * the SI value stored, and the zod schema of the JSON the API takes for a reading (with where
  * it was taken, `positions.ts`). Pure: no Node built-ins, safe in the browser.
  */
