@@ -6,8 +6,7 @@ import { isRouteErrorResponse, ServerRouter, type HandleErrorFunction } from "re
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import { newNonce, nonceContext, pagePolicy } from "./lib/csp.server";
-import { answerSearchDirect } from "./lib/search/answer.server";
+import { newNonce, pagePolicy } from "./lib/csp.server";
 import { noteServerError } from "./lib/outage.server";
 import { env } from "./lib/env.server";
 
@@ -15,11 +14,8 @@ import { env } from "./lib/env.server";
 // instead of failing the first request that reads it.
 env();
 
-// React Router's own server entry (from `react-router reveal entry.server`), with one export of
-// ours: the GET paths server.js answers without React Router's request handling, because the
-// header search box calls them on every pause in typing (docs/decisions/008). Each function
-// takes what the session checks read of a request and returns its answer as plain parts.
-export const directAnswers = { "/api/search": answerSearchDirect };
+// React Router's own server entry (from `react-router reveal entry.server`), with the page's
+// Content-Security-Policy nonce and the database-outage note added.
 
 // Every error a loader, action or render threw, as React Router's default logs it; an error
 // that means PostgreSQL is not answering is also noted, so that the request is answered with
@@ -38,12 +34,12 @@ export default function handleRequest(
   responseStatusCode: number,
   responseHeaders: Headers,
   routerContext: EntryContext,
-  loadContext: RouterContextProvider,
+  _loadContext: RouterContextProvider,
 ) {
-  // The page's Content-Security-Policy allows the inline scripts that carry this request's
-  // nonce (made by the root middleware, app/lib/csp.server.ts); React Router writes it on its
-  // scripts and React on the chunks it streams.
-  const nonce = loadContext.get(nonceContext) || newNonce();
+  // The page's Content-Security-Policy allows the inline scripts that carry this response's
+  // nonce (app/lib/csp.server.ts); React Router writes it on its scripts and React on the
+  // chunks it streams.
+  const nonce = newNonce();
   responseHeaders.set("Content-Security-Policy", pagePolicy(nonce));
 
   // https://httpwg.org/specs/rfc9110.html#HEAD

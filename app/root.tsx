@@ -3,15 +3,12 @@ import type { Route } from "./+types/root";
 import { config as zodConfig } from "zod";
 import "./app.css";
 import { getUser } from "./lib/auth.server";
-import { cspMiddleware } from "./lib/csp.server";
 import { clientEnv } from "./lib/env.server";
 import { readFlash } from "./lib/flash.server";
 import { securityMiddleware } from "./lib/http.server";
 import { databaseOutageMiddleware } from "./lib/outage.server";
 
-// The CSP nonce comes first so that it also reaches pages the security middleware's read-page
-// cache answers (app/lib/csp.server.ts).
-export const middleware: Route.MiddlewareFunction[] = [cspMiddleware, securityMiddleware, databaseOutageMiddleware];
+export const middleware: Route.MiddlewareFunction[] = [securityMiddleware, databaseOutageMiddleware];
 
 // Two libraries would break the page's Content-Security-Policy (app/lib/csp.server.ts) unless told
 // before their first use, which is why it happens here, in the first module the browser runs:

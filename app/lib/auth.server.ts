@@ -7,7 +7,6 @@ import { sessions, users } from "~/db/schema";
 import { db, isDatabaseDown, pool } from "./db.server";
 import { env } from "./env.server";
 import { can, forbiddenReason, type Permission, type Role } from "./permissions";
-import { CONTENT_CHANNEL, listening, onListenerReset, onNotify, SESSIONS_CHANNEL } from "./notify.server";
 import { memoForRequest } from "./request-store.server";
 import { clientAddress } from "./client-address.server";
 import { accountKey, throttledPasswordCheck, type Refusal } from "./throttle.server";
@@ -96,10 +95,7 @@ export type SessionUser = {
   unitSystem: "metric" | "inch";
 };
 
-/**
- * What the session checks read of a request: its URL and its headers (the cookie). A fetch
- * Request is one; server.js hands the search API a plain one (docs/decisions/008).
- */
+/** What the session checks read of a request: its URL and its headers (the cookie). */
 export type RequestLike = { readonly url: string; readonly headers: Pick<Headers, "get"> };
 
 type Validated = { user: SessionUser; session: Session } | null;
@@ -109,50 +105,17 @@ function readSessionId(request: RequestLike): string | null {
   return lucia().readSessionCookie(request.headers.get("cookie") ?? "");
 }
 
-/**
- * Recently validated sessions, kept for a few seconds so that a page and the API calls it makes
- * do not each ask PostgreSQL. Any change to sessions or people (a sign-out, a deactivation, a
- * role change) is notified by triggers (migrations 0008, 0009) and empties this at once; while
- * the notification connection is down nothing is kept. A validation that raced a change is not
- * stored (the generation moved on meanwhile).
- */
-const SESSION_TTL_MS = 5_000;
-const SESSION_CACHE_MAX = 5_000;
-const validated = new Map<string, { value: NonNullable<Validated>; until: number }>();
-let sessionGeneration = 0;
-/** Forgets every kept session; called on notifications, and by this process's own writes. */
-export function forgetValidatedSessions() {
-  sessionGeneration++;
-  validated.clear();
-}
-onNotify(SESSIONS_CHANNEL, forgetValidatedSessions);
-onNotify(CONTENT_CHANNEL, forgetValidatedSessions); // people's names, roles and deactivation live in users
-onListenerReset(forgetValidatedSessions);
-
+/** The session and its person, read from PostgreSQL (one query); a deactivated person's sessions end. */
 async function validate(request: RequestLike): Promise<Validated> {
   const id = readSessionId(request);
   if (!id) return null;
-  const now = Date.now();
-  const kept = listening() ? validated.get(id) : undefined;
-  if (kept && kept.until > now && kept.value.session.expiresAt.getTime() > now) return kept.value;
-  const generation = sessionGeneration;
   const { session, user } = await lucia().validateSession(id);
   if (!session || !user) return null;
   if (user.deactivatedAt) {
     await lucia().invalidateUserSessions(user.id);
     return null;
   }
-  const value = {
-    session,
-    user: { id: user.id, email: user.email, name: user.name, role: user.role, unitSystem: user.unitSystem },
-  };
-  // A session lucia just extended is "fresh" (its cookie must be sent again): not kept, so that
-  // only this request sends the cookie. Extending notifies anyway.
-  if (!session.fresh && generation === sessionGeneration && listening()) {
-    if (validated.size >= SESSION_CACHE_MAX) validated.delete(validated.keys().next().value!);
-    validated.set(id, { value, until: now + SESSION_TTL_MS });
-  }
-  return value;
+  return { session, user: { id: user.id, email: user.email, name: user.name, role: user.role, unitSystem: user.unitSystem } };
 }
 
 /** A 503 the ErrorBoundary shows as "database unavailable" instead of a stack trace. */
@@ -252,20 +215,17 @@ export async function startSession(request: Request, userId: string): Promise<st
   const previous = readSessionId(request);
   if (previous) await lucia().invalidateSession(previous);
   const session = await lucia().createSession(userId, {});
-  forgetValidatedSessions();
   return lucia().createSessionCookie(session.id).serialize();
 }
 
 export async function signOut(request: Request): Promise<string> {
   const id = readSessionId(request);
   if (id) await lucia().invalidateSession(id);
-  forgetValidatedSessions();
   return lucia().createBlankSessionCookie().serialize();
 }
 
 export async function endAllSessions(userId: string): Promise<void> {
   await lucia().invalidateUserSessions(userId);
-  forgetValidatedSessions();
 }
 
 /** Cookie to set when lucia extended the session, for the root middleware. */

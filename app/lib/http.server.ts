@@ -1,7 +1,6 @@
 import { env } from "./env.server";
 import securityHeaders from "./security-headers.json";
-import { forgetValidatedSessions, getUser, refreshedCookie } from "./auth.server";
-import { beginRender, cachedPage, forgetPerson, isCacheablePage, rememberPage } from "./page-cache.server";
+import { refreshedCookie } from "./auth.server";
 import { queryTiming } from "./db.server";
 import { requestStore } from "./request-store.server";
 import { declaredSizeRefusal, settleBody, urlRefusal } from "./edge.server";
@@ -51,8 +50,8 @@ function withHeaders(res: Response, extra: Record<string, string>, cookie: strin
 
 /**
  * Root middleware: CSRF refusal, the edge's refusals that need no route (a declared body above
- * the route's limit, before anything reads it; a NUL in the address), security headers, and
- * lucia's session extension.
+ * the route's limit, before anything reads it; a NUL in the address), security headers,
+ * lucia's session extension, and the request's database queries in Server-Timing.
  */
 export async function securityMiddleware({ request }: { request: Request }, next: () => Promise<Response>) {
   const refused = csrfRefusal(request);
@@ -66,7 +65,7 @@ export async function securityMiddleware({ request }: { request: Request }, next
 }
 
 async function inRequest(request: Request, next: () => Promise<Response>) {
-  const res = await throughPageCache(request, next);
+  const res = await next();
   let cookie: string | null = null;
   try {
     cookie = await refreshedCookie(request);
@@ -78,29 +77,4 @@ async function inRequest(request: Request, next: () => Promise<Response>) {
   const timing = queryTiming();
   if (timing) out.headers.append("Server-Timing", timing);
   return out;
-}
-
-/** The read pages' rendered-page cache (app/lib/page-cache.server.ts); other requests pass through. */
-async function throughPageCache(request: Request, next: () => Promise<Response>): Promise<Response> {
-  if (!SAFE_METHODS.has(request.method)) {
-    try {
-      return await next();
-    } finally {
-      // This process's own writes take effect here at once; other processes hear the
-      // notification. People and sessions change only through pages (sign-in and out,
-      // account, admin, invitations, resets), never through /api.
-      if (!new URL(request.url).pathname.startsWith("/api/")) forgetValidatedSessions();
-      const user = await getUser(request).catch(() => null);
-      if (user) forgetPerson(user.id);
-    }
-  }
-  if (!isCacheablePage(request)) return next();
-  // The generation is taken before the session is read: the person's name and role on the page
-  // come from that read, so a change landing after it must keep this render out of the cache.
-  const started = beginRender();
-  const user = await getUser(request).catch(() => null);
-  if (!user) return next();
-  const hit = cachedPage(user.id, request);
-  if (hit) return hit;
-  return rememberPage(user.id, request, started, await next());
 }

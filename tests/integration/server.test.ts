@@ -74,16 +74,10 @@ describe("server.js", () => {
     expectSecurityHeaders(res);
   });
 
-  it("compresses pages but not small JSON that states its length", async () => {
+  it("compresses pages", async () => {
     const page = await http("/signin", { headers: { "accept-encoding": "gzip" } });
     expect(page.headers.get("content-encoding")).toBe("gzip");
     expect(await page.text()).toContain("</html>");
-    const person = await createUser("apprentice");
-    const search = await http("/api/search?q=torque", { cookie: person.cookie, headers: { "accept-encoding": "gzip" } });
-    expect(search.status).toBe(200);
-    expect(search.headers.get("content-encoding")).toBeNull();
-    expect(Number(search.headers.get("content-length"))).toBeGreaterThan(0);
-    expect((await search.json()).query).toBe("torque");
   });
 
   it("passes request bodies through to React Router (a JSON API call)", async () => {

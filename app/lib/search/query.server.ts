@@ -4,7 +4,7 @@ import { searchOutbox } from "~/db/schema";
 import type { SessionUser } from "~/lib/auth.server";
 import { db } from "~/lib/db.server";
 import { can } from "~/lib/permissions";
-import { searchIndex, type SearchKind } from "./client.server";
+import { searchErrorMessage, searchIndex, type SearchKind } from "./client.server";
 import { HL_POST, HL_PRE } from "./highlight";
 
 export const KINDS: SearchKind[] = ["procedure", "spec", "mark", "reading", "recording", "test_record"];
@@ -209,20 +209,32 @@ export async function runSearch(user: SessionUser, p: SearchParams, timings?: Se
   };
 }
 
-let behindCache: { at: number; value: Promise<boolean> } | null = null;
-
-/** True when changes older than a few seconds are still waiting to be indexed (asked at most once a second). */
-export function indexIsBehind(): Promise<boolean> {
-  if (behindCache && Date.now() - behindCache.at < 1000) return behindCache.value;
-  const value = countBehind().catch(() => false);
-  behindCache = { at: Date.now(), value };
-  return value;
-}
-
-async function countBehind(): Promise<boolean> {
+/** True when changes older than a few seconds are still waiting to be indexed. */
+export async function indexIsBehind(): Promise<boolean> {
   const [r] = await db()
     .select({ n: sql<number>`count(*)::int` })
     .from(searchOutbox)
     .where(and(isNull(searchOutbox.doneAt), lt(searchOutbox.createdAt, sql`now() - interval '5 seconds'`)));
   return (r?.n ?? 0) > 0;
+}
+
+const NO_STORE = { "Cache-Control": "private, no-store" };
+
+/**
+ * The search API's answer (GET /api/search, which the header box calls on every pause in
+ * typing): the hits with `behind`, and Server-Timing for where the time went; a 503 with a
+ * reason while the search service is down (changes are still saved and queued).
+ */
+export async function searchAnswer(user: SessionUser, p: SearchParams): Promise<Response> {
+  const behind = indexIsBehind().catch(() => false);
+  try {
+    const t: SearchTimings = { service: 0, shaping: 0 };
+    const result = await runSearch(user, p, t);
+    const timing = `search;dur=${t.service.toFixed(2)}, shape;dur=${t.shaping.toFixed(2)}`;
+    return Response.json({ ...result, behind: await behind }, { headers: { ...NO_STORE, "Server-Timing": timing } });
+  } catch (err) {
+    console.error("[search]", searchErrorMessage(err));
+    const reason = "The search service is not answering. Your changes are saved and will be searchable when it is back.";
+    return Response.json({ error: "search unavailable", reason, behind: true }, { status: 503, headers: NO_STORE });
+  }
 }
