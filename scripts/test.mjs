@@ -3,7 +3,7 @@
 // Playwright (Debian's chromium). Stops everything it started; exits non-zero on failure.
 //
 //   npm test                          everything
-//   npm test -- --only lint           Biome and knip (npm run lint); `npm run format` fixes the format
+//   npm test -- --only lint           Biome (lint, format) and knip (dead code); `npm run format` fixes the format
 //   npm test -- --only unit           unit tests only (no services)
 //   npm test -- --only integration tests/integration/auth.test.ts
 //   npm test -- --only e2e tests/e2e/auth.spec.ts
@@ -91,7 +91,11 @@ try {
   ensureDebianTools({ postgres: needsServices, ffmpeg: needsServices, chromium: wants("e2e") });
 
   // Biome (lint rules, the app/lib layering, the format) and knip (dead files, exports, dependencies).
-  if (wants("lint")) await phase("lint (biome, knip)", () => runWith("npm", ["run", "-s", "lint"]));
+  // Two phases, so that a lint failure still shows what knip finds.
+  if (wants("lint")) {
+    await phase("lint (biome)", () => runWith(bin("biome"), ["ci", "."]));
+    await phase("dead code (knip)", () => runWith(bin("knip"), []));
+  }
   if (wants("typecheck")) await phase("typecheck", () => runWith("npm", ["run", "-s", "typecheck"]));
   if (wants("unit")) {
     await phase("unit (vitest)", () =>
