@@ -8,8 +8,6 @@ const runId = process.env.BENCHREEL_RUN_DIR ? path.basename(path.dirname(process
 // Run through `npm test`, which starts the app and sets BASE_URL. Debian's chromium only.
 export default defineConfig({
   testDir: "./e2e",
-  // screens.spec.ts takes screenshots for people to look at; it joins only when asked for.
-  testIgnore: process.env.SCREENSHOTS ? [] : ["**/screens.spec.ts"],
   workers: 1,
   retries: process.env.CI ? 1 : 0,
   timeout: 60_000,
