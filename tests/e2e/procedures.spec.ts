@@ -1,6 +1,7 @@
 // A builder writes a procedure with a link, a calculator and a spec and submits it; the editor
 // compares and publishes; the apprentice reads it and the calculator computes; mail reaches the fake.
 import { expect, test, type Page } from "@playwright/test";
+import { demoClipOffered, editorOutline as outline, newDraft } from "../support/browser";
 
 const SHOTS = "/tmp/shots-procedures";
 const stamp = Date.now().toString(36);
@@ -205,28 +206,6 @@ test("a never-published procedure offers no comparison; a returned draft waits o
 
 const EDITOR_SHOTS = process.env.SCREENSHOTS ?? "/tmp/shots-editor";
 
-async function newDraft(page: Page, title: string) {
-  await signIn(page, "marcus@larkspur.example");
-  await page.goto("/procedures/new");
-  await page.getByLabel("Title").fill(title);
-  await page.getByLabel("Shop area").selectOption("fasteners");
-  await page.getByRole("button", { name: "Start the draft" }).click();
-  await expect(page).toHaveURL(/\/r\/1\/edit$/);
-  const editor = page.getByTestId("editor");
-  await expect(editor).toBeVisible();
-  return editor;
-}
-
-/** The editor's top-level blocks, in order: "p:text" for paragraphs, the block's type for custom blocks. */
-async function outline(page: Page) {
-  return page.getByTestId("editor").evaluate((el) =>
-    [...el.children].map((c) => {
-      const block = c.getAttribute("data-block") ?? c.querySelector("[data-block]")?.getAttribute("data-block");
-      return block ?? `${c.tagName.toLowerCase()}:${c.textContent ?? ""}`;
-    }),
-  );
-}
-
 test("an unfinished Spec block saves, marked on the block; the submit dialog lists what is missing and jumps to it", async ({ page }) => {
   test.setTimeout(120_000);
   const editor = await newDraft(page, `Half-written stud torque ${stamp}`);
@@ -269,11 +248,7 @@ test("an unfinished Spec block saves, marked on the block; the submit dialog lis
 test("a Video moment takes its time from a mark of the chosen recording, or from the preview's frame", async ({ page }) => {
   test.setTimeout(180_000); // the worker may still be processing the demo clip
   const editor = await newDraft(page, `Moment from a mark ${stamp}`);
-  // The demo clip is processed by the worker after seeding: wait until it is offered.
-  await expect(async () => {
-    const j = await (await page.request.get("/api/procedures/recordings")).json();
-    expect(j.results.map((r: { title: string }) => r.title).join("|")).toContain("Head stud clamp-load test");
-  }).toPass({ timeout: 90_000 });
+  await demoClipOffered(page);
   await editor.locator("p").first().click();
   await page.keyboard.type("Watch the final pass.");
   await page.getByRole("button", { name: "Video moment" }).click();
@@ -339,9 +314,9 @@ test("clicking below the last block gives a place to type, and a new block goes 
   await expect(editor.locator("p").first()).toHaveText("First step. Wipe dry.");
   // A block inserted with the cursor at the end of the first step (where the typing above left it) lands right after it.
   await page.getByRole("button", { name: "Video moment" }).click();
-  expect(await outline(page)).toEqual(["p:First step. Wipe dry.", "videoMoment", "p:", "p:Second step.", "spec", "p:After the spec."]);
-  // Typing carries on right below the new block.
-  await page.keyboard.type("Then watch the clip.");
-  expect(await outline(page)).toEqual(["p:First step. Wipe dry.", "videoMoment", "p:Then watch the clip.", "p:Second step.", "spec", "p:After the spec."]);
+  expect(await outline(page)).toEqual(["p:First step. Wipe dry.", "videoMoment", "p:Second step.", "spec", "p:After the spec."]);
+  // No empty paragraph is left behind: typing carries on at the start of the text below the new block.
+  await page.keyboard.type("Then: ");
+  expect(await outline(page)).toEqual(["p:First step. Wipe dry.", "videoMoment", "p:Then: Second step.", "spec", "p:After the spec."]);
   await expect(page.getByTestId("save-status")).toHaveText(/^Saved/, { timeout: 15_000 });
 });

@@ -46,6 +46,7 @@ export default function Player({
   activeMarkId,
   onReady,
   onTime,
+  compact = false,
 }: {
   src: string;
   poster?: string;
@@ -57,6 +58,8 @@ export default function Player({
   activeMarkId?: string | null;
   onReady: (api: PlayerApi) => void;
   onTime: (t: number) => void;
+  /** A small preview (the procedure editor's Video moment): finding a frame only, no speed, volume or full screen. */
+  compact?: boolean;
 }) {
   const frame = useRef<HTMLDivElement>(null);
   const screen = useRef<HTMLDivElement>(null);
@@ -303,6 +306,7 @@ export default function Player({
             <span className="sr-only"> of </span>
             <span>{formatTime(d || null)}</span>
           </p>
+          {!compact && (<>
           <span className="br-spacer" />
           <label className="br-rate">
             <span className="sr-only">Playback speed</span>
@@ -344,6 +348,7 @@ export default function Player({
               <FullscreenIcon leave={fullscreen} />
             </button>
           )}
+          </>)}
         </div>
       </div>
     </div>

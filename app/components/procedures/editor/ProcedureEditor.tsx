@@ -3,7 +3,8 @@ import Placeholder from "@tiptap/extension-placeholder";
 import { EditorContent, useEditor, type Editor } from "@tiptap/react";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import type { Node as PMNode } from "@tiptap/pm/model";
-import { NodeSelection, TextSelection } from "@tiptap/pm/state";
+import { GapCursor } from "@tiptap/pm/gapcursor";
+import { NodeSelection, Selection, TextSelection, type EditorState, type Transaction } from "@tiptap/pm/state";
 import type { EditorView } from "@tiptap/pm/view";
 import { Form, useBeforeUnload, useBlocker, useFetcher, useNavigation } from "react-router";
 import { DEFAULT_PRESETS, type CalcKind } from "~/lib/procedures/calc-presets";
@@ -42,18 +43,54 @@ const AUTOSAVE_MS = 1200;
  * Where a new block goes: where the cursor is. A selected block (spec, calculator…) is not
  * replaced: the new one goes after it. In an empty paragraph the block takes its place; at the
  * start or end of a paragraph it goes before or after it; in the middle the paragraph is split
- * first. `at` is a position between blocks (or the empty paragraph's range); null means
- * "replace the selected text".
+ * there (`split`: the cursor's position, the text before staying above). `at` is a position
+ * between blocks (or the empty paragraph's range); null means "replace the selected text".
  */
-function blockInsertPoint(editor: Editor): { at: number | { from: number; to: number }; split?: boolean } | null {
-  const sel = editor.state.selection;
+function blockInsertPoint(state: EditorState): { at: number | { from: number; to: number }; split?: number } | null {
+  const sel = state.selection;
   if (sel instanceof NodeSelection) return { at: sel.to };
   const { $from, empty } = sel;
   if (!empty || !$from.parent.isTextblock || $from.depth === 0) return null;
   if ($from.parent.content.size === 0) return { at: { from: $from.before(), to: $from.after() } };
   if ($from.parentOffset === $from.parent.content.size) return { at: $from.after() };
   if ($from.parentOffset === 0) return { at: $from.before() };
-  return { at: $from.before(), split: true };
+  return { at: $from.pos + 1, split: $from.pos };
+}
+
+/**
+ * Puts `node` where the cursor is, in one step of the history, and leaves no empty paragraph
+ * behind: the cursor goes to the start of the text that follows the block (the second half of
+ * a split paragraph, or the next paragraph). Only a block that ends the document (or its list
+ * item, caution…) gets a paragraph after it, the one TipTap's trailing node would add, so there
+ * is a place to type; before another block the cursor waits in the gap between the two, where
+ * typing starts a paragraph.
+ */
+function insertBlockAt(tr: Transaction, point: NonNullable<ReturnType<typeof blockInsertPoint>>, node: PMNode) {
+  if (point.split != null) tr.split(point.split);
+  let start: number;
+  if (typeof point.at === "number") {
+    start = point.at;
+    tr.insert(start, node);
+  } else {
+    start = point.at.from;
+    tr.replaceWith(point.at.from, point.at.to, node);
+  }
+  const end = start + node.nodeSize;
+  const $end = tr.doc.resolve(end);
+  const after = $end.nodeAfter;
+  const paragraph = tr.doc.type.schema.nodes.paragraph;
+  const next = after && Selection.findFrom($end, 1, true);
+  if (!after && $end.parent.canReplaceWith($end.index(), $end.index(), paragraph)) {
+    tr.insert(end, paragraph.create());
+    tr.setSelection(TextSelection.create(tr.doc, end + 1));
+  } else if (after && next && next.from < end + after.nodeSize) {
+    tr.setSelection(next); // the first place to type in what follows
+  } else if (after?.isAtom) {
+    tr.setSelection(new GapCursor($end));
+  } else {
+    tr.setSelection(NodeSelection.create(tr.doc, start));
+  }
+  return tr.scrollIntoView();
 }
 
 /**
@@ -161,23 +198,11 @@ function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; proce
   }, [editor]);
   const c = () => editor.chain().focus();
   const insertBlock = (content: Record<string, unknown>): boolean => {
-    const point = blockInsertPoint(editor);
+    const point = blockInsertPoint(editor.state);
     if (!point) return c().insertContent(content).run();
-    if (point.split) {
-      c().splitBlock().run(); // the cursor is now at the start of the second half
-      return insertBlock(content);
-    }
-    const start = typeof point.at === "number" ? point.at : point.at.from;
-    // The cursor goes to an empty paragraph right after the new block (made if there is none), so typing carries on below it.
     return c()
-      .insertContentAt(point.at, content)
       .command(({ tr }) => {
-        const node = tr.doc.nodeAt(start);
-        if (!node) return true;
-        const end = start + node.nodeSize;
-        const after = tr.doc.resolve(end).nodeAfter;
-        if (!(after?.type.name === "paragraph" && after.content.size === 0)) tr.insert(end, tr.doc.type.schema.nodes.paragraph.create());
-        tr.setSelection(TextSelection.create(tr.doc, end + 1));
+        insertBlockAt(tr, point, editor.schema.nodeFromJSON(content));
         return true;
       })
       .run();

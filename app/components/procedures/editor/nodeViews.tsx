@@ -1,6 +1,7 @@
 /** React node views for our custom blocks in the editor (the schema itself lives in app/lib/procedures/nodes.ts). */
 import { NodeViewContent, NodeViewWrapper, ReactNodeViewRenderer, type ReactNodeViewProps } from "@tiptap/react";
-import { useEffect, useId, useMemo, useRef, useState } from "react";
+import { lazy, Suspense, useEffect, useId, useMemo, useRef, useState } from "react";
+import type { PlayerApi } from "~/components/recordings/Player.client";
 import { UNIT_CODES, unitLabel, type UnitCode, type UnitKind } from "~/lib/calc";
 import { CALC_KINDS, DEFAULT_PRESETS, numericLeaves, runCalculator, setAtPath, type CalcKind } from "~/lib/procedures/calc-presets";
 import { blockProblems, calcLabel, formatSeconds, QUANTITY_KINDS, type JSONNode } from "~/lib/procedures/document";
@@ -135,6 +136,10 @@ function CalculatorView({ node, updateAttributes, selected }: ReactNodeViewProps
   );
 }
 
+// Our player (video.js plays, the controls are ours), loaded only when a preview is shown.
+const Player = lazy(() => import("~/components/recordings/Player.client"));
+const ignoreTime = () => {};
+
 type RecordingOption = { id: string; title: string; durationS: number | null };
 type MarkOption = { id: string; tStart: number; tEnd: number | null; text: string };
 
@@ -151,7 +156,7 @@ function VideoMomentView({ node, updateAttributes, selected }: ReactNodeViewProp
   const [available, setAvailable] = useState(true);
   const [marks, setMarks] = useState<MarkOption[] | null>(null);
   const [markId, setMarkId] = useState("");
-  const video = useRef<HTMLVideoElement>(null);
+  const player = useRef<PlayerApi | null>(null);
   useEffect(() => {
     fetch("/api/procedures/recordings").then((r) => r.json()).then((j: { available: boolean; results: RecordingOption[] }) => { setOptions(j.results); setAvailable(j.available); }).catch(() => setOptions([]));
   }, []);
@@ -169,17 +174,17 @@ function VideoMomentView({ node, updateAttributes, selected }: ReactNodeViewProp
     const m = marks?.find((x) => x.id === id);
     if (!m) return;
     updateAttributes({ start: m.tStart, end: m.tEnd ?? null, ...(a.caption.trim() ? {} : { caption: m.text }) });
-    if (video.current) video.current.currentTime = m.tStart;
+    player.current?.seek(m.tStart);
   };
   const frame = (which: "start" | "end") => {
-    const t = video.current?.currentTime;
+    const t = player.current?.currentTime();
     if (t == null || !Number.isFinite(t)) return;
     setMarkId("");
     updateAttributes({ [which]: roundTenth(t) });
   };
   return (
     <BlockFrame node={node} label={`Video moment${title ? `: ${title}` : ""}`} selected={selected}>
-      <div className="grid gap-3 md:grid-cols-[minmax(0,1fr)_minmax(0,16rem)]">
+      <div className="grid gap-3 md:grid-cols-[minmax(0,1fr)_minmax(0,24rem)]">
         <div className="grid content-start gap-2">
           <label><span className="text-xs text-graphite-soft">Recording</span>
             {options && options.length > 0 ? (
@@ -208,7 +213,19 @@ function VideoMomentView({ node, updateAttributes, selected }: ReactNodeViewProp
         </div>
         {chosen && (
           <div className="grid content-start gap-2" data-testid="moment-preview">
-            <video ref={video} className="aspect-video w-full rounded border border-rule bg-graphite" src={`/api/recordings/${chosen}/media`} poster={`/api/recordings/${chosen}/poster`} preload="metadata" controls muted playsInline aria-label={`Preview of ${title ?? "the recording"}`} />
+            <Suspense fallback={<div className="aspect-video w-full rounded border border-rule bg-graphite" />}>
+              <Player
+                key={chosen}
+                compact
+                src={`/api/recordings/${chosen}/media`}
+                poster={`/api/recordings/${chosen}/poster`}
+                title={title ?? "the chosen recording"}
+                durationS={options?.find((o) => o.id === chosen)?.durationS}
+                marks={marks ?? []}
+                onReady={(api) => { player.current = api; }}
+                onTime={ignoreTime}
+              />
+            </Suspense>
             <div className="flex flex-wrap gap-2">
               <button type="button" className="btn px-3 py-1.5 text-sm" onClick={() => frame("start")}>Start at this frame</button>
               <button type="button" className="btn px-3 py-1.5 text-sm" onClick={() => frame("end")}>End at this frame</button>
