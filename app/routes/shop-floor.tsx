@@ -41,18 +41,32 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
       </PageHeader>
       {returned.length > 0 && (
         <section aria-labelledby="returned-h" className="card mb-6 border-l-4 border-l-brass" data-testid="returned-drafts">
-          <h2 id="returned-h" className="text-lg">Returned to you</h2>
+          <h2 id="returned-h" className="text-lg">
+            Returned to you
+          </h2>
           <p className="text-sm text-graphite-soft">An editor sent these drafts back with a reason. Change them and submit again.</p>
           <ul className="mt-2 divide-y divide-rule/70 text-sm">
             {returned.map((r) => (
               <li key={`${r.slug}-${r.number}`} className="flex flex-wrap items-start justify-between gap-x-4 gap-y-2 py-3">
                 <div className="min-w-0 flex-1">
-                  <p className="font-semibold">{r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span></p>
+                  <p className="font-semibold">
+                    {r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span>
+                  </p>
                   <p className="mt-0.5">
-                    <span className="text-graphite-soft">Returned by {r.returnedBy ?? "former staff"}{r.returnedAt ? ` on ${fmtDate(r.returnedAt)}` : ""}:</span> {r.reason}
+                    <span className="text-graphite-soft">
+                      Returned by {r.returnedBy ?? "former staff"}
+                      {r.returnedAt ? ` on ${fmtDate(r.returnedAt)}` : ""}:
+                    </span>{" "}
+                    {r.reason}
                   </p>
                 </div>
-                <Link className="btn btn-primary py-1.5 no-underline" to={`/procedures/${r.slug}/r/${r.number}/edit`} aria-label={`Continue editing ${r.title}`}>Continue editing</Link>
+                <Link
+                  className="btn btn-primary py-1.5 no-underline"
+                  to={`/procedures/${r.slug}/r/${r.number}/edit`}
+                  aria-label={`Continue editing ${r.title}`}
+                >
+                  Continue editing
+                </Link>
               </li>
             ))}
           </ul>
@@ -60,15 +74,25 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
       )}
       {review && (
         <section aria-labelledby="awaiting-review-h" className="card mb-6" data-testid="awaiting-review">
-          <h2 id="awaiting-review-h" className="text-lg">Awaiting review</h2>
+          <h2 id="awaiting-review-h" className="text-lg">
+            Awaiting review
+          </h2>
           {review.length === 0 ? (
             <p className="mt-1 text-sm text-graphite-soft">No procedure revision is waiting for review.</p>
           ) : (
             <ul className="mt-2 divide-y divide-rule/70 text-sm">
               {review.map((r) => (
                 <li key={`${r.slug}-${r.number}`} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
-                  <Link to={r.everPublished ? `/procedures/${r.slug}/compare?to=${r.number}` : `/procedures/${r.slug}/r/${r.number}`} className="font-semibold">{r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span></Link>
-                  <span className="text-graphite-soft">{r.author ?? "former staff"}{r.changeNote ? ` — ${r.changeNote}` : ""}</span>
+                  <Link
+                    to={r.everPublished ? `/procedures/${r.slug}/compare?to=${r.number}` : `/procedures/${r.slug}/r/${r.number}`}
+                    className="font-semibold"
+                  >
+                    {r.title} <span className="num font-normal text-graphite-soft">· revision {r.number}</span>
+                  </Link>
+                  <span className="text-graphite-soft">
+                    {r.author ?? "former staff"}
+                    {r.changeNote ? ` — ${r.changeNote}` : ""}
+                  </span>
                 </li>
               ))}
             </ul>
@@ -77,8 +101,12 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
       )}
       {loaderData.testRecords.length > 0 && (
         <section aria-labelledby="recent-tests-h" className="card mb-6" data-testid="recent-test-records">
-          <h2 id="recent-tests-h" className="text-lg">Recent test records</h2>
-          <p className="text-sm text-graphite-soft">Out of spec first, then incomplete, then the latest. <Link to="/test-records">All test records</Link></p>
+          <h2 id="recent-tests-h" className="text-lg">
+            Recent test records
+          </h2>
+          <p className="text-sm text-graphite-soft">
+            Out of spec first, then incomplete, then the latest. <Link to="/test-records">All test records</Link>
+          </p>
           <RecordMiniList rows={loaderData.testRecords} showProcedure />
         </section>
       )}

@@ -15,6 +15,8 @@ async function signIn(page: Page, email: string) {
 }
 
 test("write, submit, compare, publish, read", async ({ browser }) => {
+  // Three people, a whole review and full-page screenshots at two widths: more than the default minute on a busy machine.
+  test.setTimeout(120_000);
   const title = `Ring end gap check ${stamp}`;
   const builder = await (await browser.newContext()).newPage();
   await signIn(builder, "marcus@larkspur.example");
@@ -54,7 +56,10 @@ test("write, submit, compare, publish, read", async ({ browser }) => {
   await signIn(ed, "priya@larkspur.example");
   await ed.goto("/");
   await expect(ed.getByTestId("awaiting-review")).toContainText(title);
-  await ed.getByTestId("awaiting-review").getByRole("link", { name: new RegExp(title) }).click();
+  await ed
+    .getByTestId("awaiting-review")
+    .getByRole("link", { name: new RegExp(title) })
+    .click();
   // Never published: the review opens on the revision itself (nothing to compare it with).
   await expect(ed.getByTestId("procedure-body")).toContainText("File the top ring");
   await ed.screenshot({ path: `${SHOTS}/compare-1280.png`, fullPage: true });
@@ -128,7 +133,9 @@ async function shoot(page: Page, name: string) {
   }
 }
 
-test("the compare view shows both revisions as the reader sees them: headings, numbered steps, N·m, calculator settings in words", async ({ page }) => {
+test("the compare view shows both revisions as the reader sees them: headings, numbered steps, N·m, calculator settings in words", async ({
+  page,
+}) => {
   await signIn(page, "jamie@larkspur.example");
   await page.goto("/procedures/head-stud-installation-and-torque-sequence/history");
   await expect(page.getByTestId("history-rev-2").getByTestId("history-published")).toContainText(/Published .+ by Priya/);
@@ -159,7 +166,9 @@ test("the compare view shows both revisions as the reader sees them: headings, n
   await shoot(page, "read-header");
 });
 
-test("a never-published procedure offers no comparison; a returned draft waits on its author's Shop floor with the reason", async ({ browser }) => {
+test("a never-published procedure offers no comparison; a returned draft waits on its author's Shop floor with the reason", async ({
+  browser,
+}) => {
   const title = `Rod bolt stretch ${stamp}`;
   const author = await (await browser.newContext()).newPage();
   await signIn(author, "marcus@larkspur.example");
@@ -183,7 +192,10 @@ test("a never-published procedure offers no comparison; a returned draft waits o
   const editor = await (await browser.newContext()).newPage();
   await signIn(editor, "priya@larkspur.example");
   await editor.goto("/");
-  await editor.getByTestId("awaiting-review").getByRole("link", { name: new RegExp(title) }).click();
+  await editor
+    .getByTestId("awaiting-review")
+    .getByRole("link", { name: new RegExp(title) })
+    .click();
   await expect(editor).toHaveURL(new RegExp(`/procedures/${slug}/r/1$`));
   await expect(editor.getByRole("link", { name: /Compare/ })).toHaveCount(0);
   await editor.getByLabel("Reason for returning").fill("Give the stretch limit as a spec");
@@ -200,6 +212,30 @@ test("a never-published procedure offers no comparison; a returned draft waits o
   await author.goto(`/procedures/${slug}/history`);
   await expect(author.getByTestId("history-returned")).toContainText(/Returned to Draft by Priya .+: Give the stretch limit as a spec/);
   await shoot(author, "history-returned");
+
+  // Submitted again and returned again: the history keeps both returns, in order, each with its reason.
+  await author.goto(`/procedures/${slug}/r/1`);
+  await author.getByLabel("Change note").fill("Stretch limit given as a spec");
+  await author.getByRole("button", { name: "Submit for review" }).click();
+  await expect(author.getByTestId("state-badge")).toHaveText("In review");
+  await editor.goto(`/procedures/${slug}/r/1`);
+  await editor.getByLabel("Reason for returning").fill("Say which gauge measures the stretch");
+  await editor.getByRole("button", { name: "Return to Draft" }).click();
+  await expect(editor.getByTestId("return-reason")).toContainText(/Returned to Draft by Priya .+: Say which gauge measures the stretch/);
+  await author.goto(`/procedures/${slug}/history`);
+  const returns = author.getByTestId("history-rev-1").getByTestId("returns").getByRole("listitem");
+  await expect(returns).toHaveCount(2);
+  await expect(returns.nth(0)).toContainText(
+    /Returned to Draft by Priya .+: Give the stretch limit as a spec \(changed and submitted again\)/,
+  );
+  await expect(returns.nth(1)).toContainText(/Returned to Draft by Priya .+: Say which gauge measures the stretch$/);
+  await expect(author.getByTestId("history-returned")).toContainText("Say which gauge measures the stretch");
+  await shoot(author, "history-returned-twice");
+  await author.goto(`/procedures/${slug}/r/1`);
+  await shoot(author, "revision-returned-twice");
+  await author.goto(`/procedures/${slug}/print?rev=1`);
+  await expect(author.getByTestId("returns").getByRole("listitem")).toHaveCount(2);
+  await shoot(author, "print-returned-twice");
 });
 
 // ---- issue 14: writing a procedure ---------------------------------------------------------
@@ -269,7 +305,13 @@ test("a Video moment takes its time from a mark of the chosen recording, or from
   // The preview's current frame becomes the start.
   const preview = block.getByTestId("moment-preview").locator("video");
   await expect.poll(() => preview.evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 30_000 }).toBeGreaterThan(0);
-  await preview.evaluate((v: HTMLVideoElement) => new Promise((done) => { v.addEventListener("seeked", done, { once: true }); v.currentTime = 2.04; }));
+  await preview.evaluate(
+    (v: HTMLVideoElement) =>
+      new Promise((done) => {
+        v.addEventListener("seeked", done, { once: true });
+        v.currentTime = 2.04;
+      }),
+  );
   await block.getByRole("button", { name: "Start at this frame" }).click();
   await expect(block.getByLabel("Start seconds")).toHaveValue("2");
   // Typing stays possible.

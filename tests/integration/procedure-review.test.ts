@@ -35,14 +35,25 @@ async function words(path: string, user: TestUser): Promise<string> {
 const act = (user: TestUser, n: number, form: Record<string, string>) => http(`/procedures/${slug}/r/${n}`, { cookie: user.cookie, form });
 
 beforeAll(async () => {
-  [author, otherBuilder, returner, publisher] = await Promise.all([createUser("builder"), createUser("builder"), createUser("editor"), createUser("editor")]);
-  const r = await http("/procedures/new", { cookie: author.cookie, form: { title, area: "fasteners", summary: "Two passes.", tags: "torque" } });
+  [author, otherBuilder, returner, publisher] = await Promise.all([
+    createUser("builder"),
+    createUser("builder"),
+    createUser("editor"),
+    createUser("editor"),
+  ]);
+  const r = await http("/procedures/new", {
+    cookie: author.cookie,
+    form: { title, area: "fasteners", summary: "Two passes.", tags: "torque" },
+  });
   expect(r.status).toBe(302);
   slug = r.headers.get("location")!.split("/")[2];
   const [p] = await db().select().from(procedures).where(eq(procedures.slug, slug));
   const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.procedureId, p.id));
   const doc = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Torque the main caps in two passes." }] }] };
-  const s = await http(`/api/procedures/revisions/${rev.id}`, { cookie: author.cookie, json: { baseVersion: rev.version, title, summary: "Two passes.", area: "fasteners", tags: ["torque"], doc } });
+  const s = await http(`/api/procedures/revisions/${rev.id}`, {
+    cookie: author.cookie,
+    json: { baseVersion: rev.version, title, summary: "Two passes.", area: "fasteners", tags: ["torque"], doc },
+  });
   expect(s.status).toBe(200);
 });
 
@@ -86,7 +97,9 @@ describe("review that says who and what", () => {
     expect(await words("/", author)).not.toContain(reason); // submitted again: no longer waiting on the author
     expect((await act(returner, 1, { intent: "return", reason: reason2 })).status).toBe(302);
 
-    const both = new RegExp(`Returned to Draft by ${returner.name} on [^:]+: ${reason} \\(changed and submitted again\\) Returned to Draft by ${returner.name} on [^:]+: ${reason2}`);
+    const both = new RegExp(
+      `Returned to Draft by ${returner.name} on [^:]+: ${reason} \\(changed and submitted again\\) Returned to Draft by ${returner.name} on [^:]+: ${reason2}`,
+    );
     expect(await words(`/procedures/${slug}/history`, author)).toMatch(both);
     expect(await words(`/procedures/${slug}/r/1`, author)).toMatch(both);
     expect(await words(`/procedures/${slug}/r/1/edit`, author)).toMatch(both);
@@ -109,11 +122,20 @@ describe("review that says who and what", () => {
     expect(print).toMatch(new RegExp(`Revision 1 · Published \\d{1,2} \\w+ \\d{4} by ${publisher.name} · written by ${author.name}`));
     const history = await words(`/procedures/${slug}/history`, otherBuilder);
     expect(history).toMatch(new RegExp(`Published \\d{1,2} \\w+ \\d{4} by ${publisher.name}`));
-    expect(history).toMatch(new RegExp(`Returned to Draft by ${returner.name} on [^:]+: ${reason} .*Returned to Draft by ${returner.name} on [^:]+: ${reason2}`));
+    expect(history).toMatch(
+      new RegExp(`Returned to Draft by ${returner.name} on [^:]+: ${reason} .*Returned to Draft by ${returner.name} on [^:]+: ${reason2}`),
+    );
     const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.title, title));
     expect(rev).toMatchObject({ publishedBy: publisher.id });
-    const returns = await db().select().from(procedureRevisionReturns).where(eq(procedureRevisionReturns.revisionId, rev.id)).orderBy(procedureRevisionReturns.returnedAt);
-    expect(returns.map((r) => [r.returnedBy, r.reason])).toEqual([[returner.id, reason], [returner.id, reason2]]);
+    const returns = await db()
+      .select()
+      .from(procedureRevisionReturns)
+      .where(eq(procedureRevisionReturns.revisionId, rev.id))
+      .orderBy(procedureRevisionReturns.returnedAt);
+    expect(returns.map((r) => [r.returnedBy, r.reason])).toEqual([
+      [returner.id, reason],
+      [returner.id, reason2],
+    ]);
     // The published revision 1 has nothing before it: no comparison offered.
     expect(await words(`/procedures/${slug}/r/1`, otherBuilder)).not.toContain("Compare with");
   });
@@ -123,16 +145,45 @@ describe("review that says who and what", () => {
     const now = Date.now();
     const [old] = await db()
       .insert(procedureRevisions)
-      .values({ procedureId: p.id, number: 90, state: "superseded", title, area: "fasteners", doc: { type: "doc", content: [] }, publishedAt: new Date(now), supersededAt: new Date(now), reviewedBy: returner.id })
+      .values({
+        procedureId: p.id,
+        number: 90,
+        state: "superseded",
+        title,
+        area: "fasteners",
+        doc: { type: "doc", content: [] },
+        publishedAt: new Date(now),
+        supersededAt: new Date(now),
+        reviewedBy: returner.id,
+      })
       .returning();
-    await db().insert(auditLog).values([
-      { actorId: returner.id, action: "return", entity: "procedure_revision", entityId: old.id, detail: { reason: "older" }, at: new Date(now - 3000) },
-      { actorId: publisher.id, action: "return", entity: "procedure_revision", entityId: old.id, detail: { reason: "oldest but one" }, at: new Date(now - 2000) },
-      { actorId: publisher.id, action: "publish", entity: "procedure_revision", entityId: old.id, detail: {}, at: new Date(now - 1000) },
-    ]);
-    const statements = (file: string) => readFileSync(new URL(`../../drizzle/${file}`, import.meta.url), "utf8").split("--> statement-breakpoint");
+    await db()
+      .insert(auditLog)
+      .values([
+        {
+          actorId: returner.id,
+          action: "return",
+          entity: "procedure_revision",
+          entityId: old.id,
+          detail: { reason: "older" },
+          at: new Date(now - 3000),
+        },
+        {
+          actorId: publisher.id,
+          action: "return",
+          entity: "procedure_revision",
+          entityId: old.id,
+          detail: { reason: "oldest but one" },
+          at: new Date(now - 2000),
+        },
+        { actorId: publisher.id, action: "publish", entity: "procedure_revision", entityId: old.id, detail: {}, at: new Date(now - 1000) },
+      ]);
+    const statements = (file: string) =>
+      readFileSync(new URL(`../../drizzle/${file}`, import.meta.url), "utf8").split("--> statement-breakpoint");
     // 0020's publisher backfill (its returner columns are gone since 0025).
-    const publisherFill = statements("0020_revision_publisher_returner.sql").filter((s) => /^\s*(--[^\n]*\n\s*)*UPDATE "procedure_revisions" (r )?SET "published_by"/.test(s));
+    const publisherFill = statements("0020_revision_publisher_returner.sql").filter((s) =>
+      /^\s*(--[^\n]*\n\s*)*UPDATE "procedure_revisions" (r )?SET "published_by"/.test(s),
+    );
     expect(publisherFill.length).toBe(2);
     for (const statement of publisherFill) await db().execute(sql.raw(statement));
     // 0025's move of the returns the audit log holds (the other statements read columns it drops).
@@ -142,12 +193,20 @@ describe("review that says who and what", () => {
     await db().execute(sql.raw(returnsFill[0])); // a second run adds nothing
     const [after] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, old.id));
     expect(after).toMatchObject({ publishedBy: publisher.id });
-    const returns = await db().select().from(procedureRevisionReturns).where(eq(procedureRevisionReturns.revisionId, old.id)).orderBy(procedureRevisionReturns.returnedAt);
+    const returns = await db()
+      .select()
+      .from(procedureRevisionReturns)
+      .where(eq(procedureRevisionReturns.revisionId, old.id))
+      .orderBy(procedureRevisionReturns.returnedAt);
     expect(returns.map((r) => [r.returnedBy, r.reason, r.returnedAt.getTime()])).toEqual([
       [returner.id, "older", now - 3000],
       [publisher.id, "oldest but one", now - 2000],
     ]);
     const history = await words(`/procedures/${slug}/history`, otherBuilder);
-    expect(history).toMatch(new RegExp(`Revision 90 .*Returned to Draft by ${returner.name} on [^:]+: older .*Returned to Draft by ${publisher.name} on [^:]+: oldest but one`));
+    expect(history).toMatch(
+      new RegExp(
+        `Revision 90 .*Returned to Draft by ${returner.name} on [^:]+: older .*Returned to Draft by ${publisher.name} on [^:]+: oldest but one`,
+      ),
+    );
   });
 });

@@ -3,7 +3,16 @@
 import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { marks, procedureConflictCopies, procedureLinks, procedureRevisionReturns, procedureRevisions, procedures, procedureSpecs, recordings } from "~/db/schema";
+import {
+  marks,
+  procedureConflictCopies,
+  procedureLinks,
+  procedureRevisionReturns,
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  recordings,
+} from "~/db/schema";
 import { createProcedure } from "~/lib/procedures/drafts.server";
 import { publishRevision, submitRevision } from "~/lib/procedures/transitions.server";
 import { db } from "~/lib/db.server";
@@ -15,32 +24,64 @@ let slug = "";
 let revisionId = "";
 let otherId = "";
 
-const linkNode = () => ({ type: "paragraph", content: [{ type: "text", text: "Hone first: " }, { type: "procedureLink", attrs: { procedureId: otherId } }] });
+const linkNode = () => ({
+  type: "paragraph",
+  content: [
+    { type: "text", text: "Hone first: " },
+    { type: "procedureLink", attrs: { procedureId: otherId } },
+  ],
+});
 const doc = (extra: unknown[] = []) => ({
   type: "doc",
   content: [
     { type: "heading", attrs: { level: 2 }, content: [{ type: "text", text: "Steps" }] },
     { type: "paragraph", content: [{ type: "text", text: "Torque the studs in three passes." }] },
-    { type: "spec", attrs: { id: "s_torque", label: "Final torque", quantity: "torque", unit: "N.m", nominal: 110, min: 105, max: 115, note: "moly" } },
-    { type: "calculator", attrs: { kind: "preload", title: "", preset: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } } } },
+    {
+      type: "spec",
+      attrs: { id: "s_torque", label: "Final torque", quantity: "torque", unit: "N.m", nominal: 110, min: 105, max: 115, note: "moly" },
+    },
+    {
+      type: "calculator",
+      attrs: {
+        kind: "preload",
+        title: "",
+        preset: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } },
+      },
+    },
     ...extra,
   ],
 });
 
 async function json(res: Response) {
+  // biome-ignore lint/suspicious/noExplicitAny: the answers of several routes, read member by member
   return (await res.json()) as Record<string, any>;
 }
 
 async function save(user: TestUser, id: string, baseVersion: number, body: unknown, title = `Head stud torque ${tag}`) {
-  return http(`/api/procedures/revisions/${id}`, { cookie: user.cookie, json: { baseVersion, title, summary: "Three passes.", area: "fasteners", tags: ["torque", tag], doc: body } });
+  return http(`/api/procedures/revisions/${id}`, {
+    cookie: user.cookie,
+    json: { baseVersion, title, summary: "Three passes.", area: "fasteners", tags: ["torque", tag], doc: body },
+  });
 }
 
 beforeAll(async () => {
-  [builder, editor, apprentice, qc, watcher] = await Promise.all([createUser("builder"), createUser("editor"), createUser("apprentice"), createUser("qc"), createUser("apprentice")]);
+  [builder, editor, apprentice, qc, watcher] = await Promise.all([
+    createUser("builder"),
+    createUser("editor"),
+    createUser("apprentice"),
+    createUser("qc"),
+    createUser("apprentice"),
+  ]);
   // A second procedure to link to.
-  const r = await http("/procedures/new", { cookie: editor.cookie, form: { title: `Torque plate honing ${tag}`, area: "block", summary: "", tags: "" } });
+  const r = await http("/procedures/new", {
+    cookie: editor.cookie,
+    form: { title: `Torque plate honing ${tag}`, area: "block", summary: "", tags: "" },
+  });
   expect(r.status).toBe(302);
-  const [p] = await db().select().from(procedures).where(eq(procedures.title, `Torque plate honing ${tag}`));
+  const [p] = await db()
+    .select()
+    .from(procedures)
+    .where(eq(procedures.title, `Torque plate honing ${tag}`));
   otherId = p.id;
 });
 
@@ -55,7 +96,10 @@ describe("procedures workflow", () => {
   });
 
   it("lets a builder create a draft and autosave it, extracting specs and links", async () => {
-    const r = await http("/procedures/new", { cookie: builder.cookie, form: { title: `Head stud torque ${tag}`, area: "fasteners", summary: "Three passes.", tags: "torque" } });
+    const r = await http("/procedures/new", {
+      cookie: builder.cookie,
+      form: { title: `Head stud torque ${tag}`, area: "fasteners", summary: "Three passes.", tags: "torque" },
+    });
     expect(r.status).toBe(302);
     const loc = r.headers.get("location")!;
     expect(loc).toMatch(/\/procedures\/head-stud-torque-[a-z0-9-]+\/r\/1\/edit$/);
@@ -81,9 +125,19 @@ describe("procedures workflow", () => {
 
   it("refuses a stale save with a conflict and keeps the loser's text", async () => {
     const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, revisionId));
-    const mine = await save(builder, revisionId, rev.version, doc([{ type: "paragraph", content: [{ type: "text", text: "Builder's newer words." }] }]));
+    const mine = await save(
+      builder,
+      revisionId,
+      rev.version,
+      doc([{ type: "paragraph", content: [{ type: "text", text: "Builder's newer words." }] }]),
+    );
     expect(mine.status).toBe(200);
-    const theirs = await save(editor, revisionId, rev.version, doc([{ type: "paragraph", content: [{ type: "text", text: "Editor's stale words." }] }]));
+    const theirs = await save(
+      editor,
+      revisionId,
+      rev.version,
+      doc([{ type: "paragraph", content: [{ type: "text", text: "Editor's stale words." }] }]),
+    );
     expect(theirs.status).toBe(409);
     const c = await json(theirs);
     expect(c.error).toBe("conflict");
@@ -97,10 +151,24 @@ describe("procedures workflow", () => {
 
   it("refuses unsafe documents and strips unsafe links on save", async () => {
     const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, revisionId));
-    const raw = await save(builder, revisionId, rev.version, { type: "doc", content: [{ type: "rawHtml", attrs: { html: "<script>alert(1)</script>" } }] });
+    const raw = await save(builder, revisionId, rev.version, {
+      type: "doc",
+      content: [{ type: "rawHtml", attrs: { html: "<script>alert(1)</script>" } }],
+    });
     expect(raw.status).toBe(422);
     expect((await json(raw)).issues[0].message).toMatch(/unknown block type/);
-    const js = await save(builder, revisionId, rev.version, doc([linkNode(), { type: "paragraph", content: [{ type: "text", text: "click", marks: [{ type: "link", attrs: { href: "javascript:alert(1)" } }] }] }]));
+    const js = await save(
+      builder,
+      revisionId,
+      rev.version,
+      doc([
+        linkNode(),
+        {
+          type: "paragraph",
+          content: [{ type: "text", text: "click", marks: [{ type: "link", attrs: { href: "javascript:alert(1)" } }] }],
+        },
+      ]),
+    );
     expect(js.status).toBe(200);
     expect((await json(js)).warnings[0].message).toMatch(/link removed/);
     const page = await (await http(`/procedures/${slug}/r/1`, { cookie: builder.cookie })).text();
@@ -119,7 +187,10 @@ describe("procedures workflow", () => {
     const none = await http(`/procedures/${slug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "" } });
     expect(none.status).toBe(409);
     expect(await none.text()).toContain("Write a change note");
-    const ok = await http(`/procedures/${slug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "First version of the stud procedure" } });
+    const ok = await http(`/procedures/${slug}/r/1`, {
+      cookie: builder.cookie,
+      form: { intent: "submit", changeNote: "First version of the stud procedure" },
+    });
     expect(ok.status).toBe(302);
     const mail = await mailTo(editor.email, `Review requested: Head stud torque ${tag}`);
     expect(mail.text).toContain("First version of the stud procedure");
@@ -137,7 +208,10 @@ describe("procedures workflow", () => {
     expect((await http(`/procedures/${slug}/r/1`, { cookie: apprentice.cookie, form: { intent: "publish" } })).status).toBe(403);
     const noReason = await http(`/procedures/${slug}/r/1`, { cookie: editor.cookie, form: { intent: "return", reason: "" } });
     expect(noReason.status).toBe(409);
-    const ret = await http(`/procedures/${slug}/r/1`, { cookie: editor.cookie, form: { intent: "return", reason: "Add the washer lube to the spec note" } });
+    const ret = await http(`/procedures/${slug}/r/1`, {
+      cookie: editor.cookie,
+      form: { intent: "return", reason: "Add the washer lube to the spec note" },
+    });
     expect(ret.status).toBe(302);
     const mail = await mailTo(builder.email, "Returned to draft");
     expect(mail.text).toContain("Add the washer lube to the spec note");
@@ -152,7 +226,10 @@ describe("procedures workflow", () => {
     const [p] = await db().select().from(procedures).where(eq(procedures.slug, slug));
     const { procedureWatchers } = await import("~/db/schema");
     await db().insert(procedureWatchers).values({ procedureId: p.id, userId: watcher.id });
-    expect((await http(`/procedures/${slug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "Washer lube added" } })).status).toBe(302);
+    expect(
+      (await http(`/procedures/${slug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "Washer lube added" } }))
+        .status,
+    ).toBe(302);
     const pub = await http(`/procedures/${slug}/r/1`, { cookie: editor.cookie, form: { intent: "publish" } });
     expect(pub.status).toBe(302);
     expect(pub.headers.get("location")).toBe(`/procedures/${slug}`);
@@ -180,12 +257,20 @@ describe("procedures workflow", () => {
     expect(nd.status).toBe(302);
     expect(nd.headers.get("location")).toBe(`/procedures/${slug}/r/2/edit`);
     const [p] = await db().select().from(procedures).where(eq(procedures.slug, slug));
-    const [r2] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.procedureId, p.id)).orderBy(procedureRevisions.number).offset(1);
+    const [r2] = await db()
+      .select()
+      .from(procedureRevisions)
+      .where(eq(procedureRevisions.procedureId, p.id))
+      .orderBy(procedureRevisions.number)
+      .offset(1);
     const newTitle = `Head stud installation ${tag}`;
     const changed = doc();
     (changed.content[2] as { attrs: Record<string, unknown> }).attrs.max = 118;
     expect((await save(builder, r2.id, r2.version, changed, newTitle)).status).toBe(200);
-    expect((await http(`/procedures/${slug}/r/2`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "Rename; widen the max" } })).status).toBe(302);
+    expect(
+      (await http(`/procedures/${slug}/r/2`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "Rename; widen the max" } }))
+        .status,
+    ).toBe(302);
     const cmp = await (await http(`/procedures/${slug}/compare?from=1&to=2`, { cookie: editor.cookie })).text();
     expect(cmp).toContain("Changed: max");
     expect((await http(`/procedures/${slug}/r/2`, { cookie: editor.cookie, form: { intent: "publish" } })).status).toBe(302);
@@ -213,7 +298,14 @@ describe("procedures workflow", () => {
   });
 
   it("shows the review queue on the shop floor to editors only", async () => {
-    expect((await http(`/procedures/${slug}/r/3`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "Back to the first wording" } })).status).toBe(302);
+    expect(
+      (
+        await http(`/procedures/${slug}/r/3`, {
+          cookie: builder.cookie,
+          form: { intent: "submit", changeNote: "Back to the first wording" },
+        })
+      ).status,
+    ).toBe(302);
     const floor = await (await http("/", { cookie: editor.cookie })).text();
     expect(floor).toContain("Awaiting review");
     expect(floor).toContain(`Head stud torque ${tag}`); // revision 3 restored revision 1, title included
@@ -235,7 +327,10 @@ describe("incomplete blocks in a draft (issue 14)", () => {
   };
 
   beforeAll(async () => {
-    const r = await http("/procedures/new", { cookie: builder.cookie, form: { title: `Half-written studs ${tag}`, area: "fasteners", summary: "", tags: "" } });
+    const r = await http("/procedures/new", {
+      cookie: builder.cookie,
+      form: { title: `Half-written studs ${tag}`, area: "fasteners", summary: "", tags: "" },
+    });
     expect(r.status).toBe(302);
     draftSlug = r.headers.get("location")!.split("/")[2];
     const [p] = await db().select().from(procedures).where(eq(procedures.slug, draftSlug));
@@ -248,13 +343,28 @@ describe("incomplete blocks in a draft (issue 14)", () => {
     expect(res.status).toBe(200);
     const body = await json(res);
     expect(body.incomplete).toEqual([
-      { path: [1], type: "spec", name: "Spec 1", problems: [{ field: "label", message: "Give the spec a label" }, { field: "nominal", message: "Give a nominal value or a limit" }] },
-      { path: [2], type: "videoMoment", name: "Video moment 1: Washer seating", problems: [{ field: "recording", message: "Choose a recording" }] },
+      {
+        path: [1],
+        type: "spec",
+        name: "Spec 1",
+        problems: [
+          { field: "label", message: "Give the spec a label" },
+          { field: "nominal", message: "Give a nominal value or a limit" },
+        ],
+      },
+      {
+        path: [2],
+        type: "videoMoment",
+        name: "Video moment 1: Washer seating",
+        problems: [{ field: "recording", message: "Choose a recording" }],
+      },
     ]);
     expect(JSON.stringify(body)).not.toMatch(/doc\.content|attrs\./);
     const [now] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, draftId));
     expect(JSON.stringify(now.doc)).toContain("Words typed before the blocks.");
-    expect(now.doc).toMatchObject({ content: [{}, { attrs: { label: "", nominal: null } }, { attrs: { recordingId: null, caption: "Washer seating" } }] });
+    expect(now.doc).toMatchObject({
+      content: [{}, { attrs: { label: "", nominal: null } }, { attrs: { recordingId: null, caption: "Washer seating" } }],
+    });
     // Half a spec is no row for test records or search to use.
     expect(await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, draftId))).toHaveLength(0);
     // The preview of the draft still opens.
@@ -262,10 +372,15 @@ describe("incomplete blocks in a draft (issue 14)", () => {
   });
 
   it("refuses to submit it for review with the list of what is missing by block, then accepts it once complete", async () => {
-    const refused = await http(`/procedures/${draftSlug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "First version" } });
+    const refused = await http(`/procedures/${draftSlug}/r/1`, {
+      cookie: builder.cookie,
+      form: { intent: "submit", changeNote: "First version" },
+    });
     expect(refused.status).toBe(422);
     const text = await refused.text();
-    expect(text).toContain("Not ready for review. Finish these 2 blocks first: Spec 1: Give the spec a label; Give a nominal value or a limit. Video moment 1: Washer seating: Choose a recording.");
+    expect(text).toContain(
+      "Not ready for review. Finish these 2 blocks first: Spec 1: Give the spec a label; Give a nominal value or a limit. Video moment 1: Washer seating: Choose a recording.",
+    );
     const [still] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, draftId));
     expect(still.state).toBe("draft");
     const done = structuredClone(unfinished);
@@ -275,7 +390,10 @@ describe("incomplete blocks in a draft (issue 14)", () => {
     expect(saved.status).toBe(200);
     expect((await json(saved)).incomplete).toEqual([]);
     expect(await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, draftId))).toHaveLength(1);
-    expect((await http(`/procedures/${draftSlug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "First version" } })).status).toBe(302);
+    expect(
+      (await http(`/procedures/${draftSlug}/r/1`, { cookie: builder.cookie, form: { intent: "submit", changeNote: "First version" } }))
+        .status,
+    ).toBe(302);
   });
 
   it("the video-moment picker's recording list reads its search through the edge", async () => {
@@ -291,29 +409,60 @@ describe("incomplete blocks in a draft (issue 14)", () => {
 describe("the read page's database work (issue 15 §2)", () => {
   it("renders a published procedure with specs, links, a video moment, marks and a procedure linking to it in at most 6 queries, the session's included", async () => {
     const [author, reviewer, reader] = await Promise.all([createUser("builder"), createUser("editor"), createUser("apprentice")]);
-    const [rec] = await db().insert(recordings).values({ title: `Counted recording ${tag}`, originalName: "q.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: author.id }).returning();
+    const [rec] = await db()
+      .insert(recordings)
+      .values({
+        title: `Counted recording ${tag}`,
+        originalName: "q.mp4",
+        originalSize: 1,
+        state: "ready",
+        durationS: 60,
+        uploadedBy: author.id,
+      })
+      .returning();
     const publish = async (title: string, content: unknown[]) => {
       const c = await createProcedure(author, { title, area: "fasteners", summary: "", tags: [tag], doc: { type: "doc", content } });
       await submitRevision(author, c.revision.id, "First version");
       await publishRevision(reviewer, c.revision.id);
       return c.procedure;
     };
-    const linkTo = (id: string) => ({ type: "paragraph", content: [{ type: "text", text: "See: " }, { type: "procedureLink", attrs: { procedureId: id } }] });
-    const target = await publish(`Hone the bores first ${tag}`, [{ type: "paragraph", content: [{ type: "text", text: "Hone with the plate on." }] }]);
+    const linkTo = (id: string) => ({
+      type: "paragraph",
+      content: [
+        { type: "text", text: "See: " },
+        { type: "procedureLink", attrs: { procedureId: id } },
+      ],
+    });
+    const target = await publish(`Hone the bores first ${tag}`, [
+      { type: "paragraph", content: [{ type: "text", text: "Hone with the plate on." }] },
+    ]);
     const counted = await publish(`Counted read page ${tag}`, [
       ...doc().content,
-      { type: "spec", attrs: { id: "s_stretch", label: "Stud stretch", quantity: "length", unit: "mm", nominal: null, min: 0.15, max: 0.2, note: "" } },
+      {
+        type: "spec",
+        attrs: { id: "s_stretch", label: "Stud stretch", quantity: "length", unit: "mm", nominal: null, min: 0.15, max: 0.2, note: "" },
+      },
       linkTo(target.id),
       { type: "videoMoment", attrs: { recordingId: rec.id, start: 12, end: null, caption: "Washer seating" } },
     ]);
     await publish(`Links to the counted page ${tag}`, [linkTo(counted.id)]);
-    await db().insert(marks).values({ recordingId: rec.id, tStart: 5, text: `Points at the counted page ${tag}`, procedureId: counted.id, createdBy: author.id });
+    await db()
+      .insert(marks)
+      .values({ recordingId: rec.id, tStart: 5, text: `Points at the counted page ${tag}`, procedureId: counted.id, createdBy: author.id });
 
     const res = await http(`/procedures/${counted.slug}`, { cookie: reader.cookie });
     expect(res.status).toBe(200);
     const html = await res.text();
     // Everything the page shows came out of those queries.
-    for (const shown of ["Final torque", "Stud stretch", `Hone the bores first ${tag}`, `Counted recording ${tag}`, `Links to the counted page ${tag}`, `Points at the counted page ${tag}`]) expect(html).toContain(shown);
+    for (const shown of [
+      "Final torque",
+      "Stud stretch",
+      `Hone the bores first ${tag}`,
+      `Counted recording ${tag}`,
+      `Links to the counted page ${tag}`,
+      `Points at the counted page ${tag}`,
+    ])
+      expect(html).toContain(shown);
     const queries = /db;desc="(\d+) quer/.exec(res.headers.get("server-timing") ?? "");
     expect(queries, "Server-Timing names the request's queries").not.toBeNull();
     expect(Number(queries![1])).toBeGreaterThan(0);

@@ -32,7 +32,10 @@ describe("readingsGrid (the Bore distortion block's depth × angle table)", () =
   });
 
   it("keeps readings without a depth in one row", () => {
-    const g = readingsGrid([0, 60, 120].map((a) => ({ angleDeg: a, diameter: mm(88) })), "diameter")!;
+    const g = readingsGrid(
+      [0, 60, 120].map((a) => ({ angleDeg: a, diameter: mm(88) })),
+      "diameter",
+    )!;
     expect(g.depths).toEqual([null]);
     expect(g.angles).toEqual([0, 60, 120]);
   });

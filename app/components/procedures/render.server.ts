@@ -18,7 +18,11 @@ type Rendered = { html: string; widgets: Widget[]; units: Record<string, string>
 type Source = { id: string; version: number; doc: unknown };
 
 // A few dozen bodies, at most 16 MB of HTML (UTF-16 in memory), the least recently used dropped first.
-const cache = new LRUCache<string, Rendered>({ max: 64, maxSize: 16 * 1024 * 1024, sizeCalculation: (r) => Math.max(1, r.html.length * 2) });
+const cache = new LRUCache<string, Rendered>({
+  max: 64,
+  maxSize: 16 * 1024 * 1024,
+  sizeCalculation: (r) => Math.max(1, r.html.length * 2),
+});
 
 /** The body of one revision, with the titles it shows already looked up (`titles`). */
 export function renderRevisionBody(rev: Source, titles: RenderContext): Rendered {

@@ -2,7 +2,16 @@
 import { diffArrays } from "diff";
 import type { ReaderBlock } from "./reader-blocks";
 
-export type SpecRow = { specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
+export type SpecRow = {
+  specKey: string;
+  label: string;
+  quantity: string;
+  unit: string;
+  nominal: number | null;
+  min: number | null;
+  max: number | null;
+  note: string;
+};
 export type SpecField = "label" | "unit" | "nominal" | "min" | "max" | "note" | "quantity";
 export type SpecChange =
   | { kind: "added"; after: SpecRow }
@@ -51,7 +60,12 @@ export type BlockChange =
 
 /** What makes two blocks the same for a reader; a step's number is left out, so inserting a step does not mark every later one. */
 const sameBlock = (l: ReaderBlock, r: ReaderBlock) =>
-  l.kind === r.kind && l.text === r.text && (l.title ?? "") === (r.title ?? "") && (l.level ?? 0) === (r.level ?? 0) && Boolean(l.caution) === Boolean(r.caution) && Boolean(l.quote) === Boolean(r.quote);
+  l.kind === r.kind &&
+  l.text === r.text &&
+  (l.title ?? "") === (r.title ?? "") &&
+  (l.level ?? 0) === (r.level ?? 0) &&
+  Boolean(l.caution) === Boolean(r.caution) &&
+  Boolean(l.quote) === Boolean(r.quote);
 
 /** Words, spaces and signs; a number with its decimals is one word, so 0.15 → 0.18 reads as a new figure, not "0." plus digits. */
 const tokens = (s: string) => s.match(/\d+(?:[.,]\d+)*|[\p{L}\p{N}_]+|\s+|[^\s\p{L}\p{N}_]/gu) ?? [];
@@ -62,7 +76,9 @@ const tokens = (s: string) => s.match(/\d+(?:[.,]\d+)*|[\p{L}\p{N}_]+|\s+|[^\s\p
  * one follows, instead of alternating word by word.
  */
 function pieces(a: string, b: string): Piece[] {
-  const raw = diffArrays(tokens(a), tokens(b)).map((c): Piece => ({ text: c.value.join(""), op: c.added ? "add" : c.removed ? "del" : "same" }));
+  const raw = diffArrays(tokens(a), tokens(b)).map(
+    (c): Piece => ({ text: c.value.join(""), op: c.added ? "add" : c.removed ? "del" : "same" }),
+  );
   const out: Piece[] = [];
   const push = (p: Piece) => {
     const last = out[out.length - 1];
@@ -118,7 +134,13 @@ export function diffBlocks(before: ReaderBlock[], after: ReaderBlock[]): BlockCh
         const d = dels[k];
         const a = adds[k];
         if (d && a && d.kind === a.kind) {
-          out.push({ op: "change", block: a, before: d, pieces: pieces(d.text, a.text), titlePieces: (d.title ?? "") === (a.title ?? "") ? null : pieces(d.title ?? "", a.title ?? "") });
+          out.push({
+            op: "change",
+            block: a,
+            before: d,
+            pieces: pieces(d.text, a.text),
+            titlePieces: (d.title ?? "") === (a.title ?? "") ? null : pieces(d.title ?? "", a.title ?? ""),
+          });
         } else {
           if (d) out.push({ op: "del", block: d });
           if (a) out.push({ op: "add", block: a });

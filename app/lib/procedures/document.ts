@@ -43,7 +43,6 @@ export type SpecAttrs = {
 /** The attributes of complete blocks; a draft's incomplete block may hold null where `blockProblems` names what is missing. */
 export type MomentAttrs = { recordingId: string; start: number; end: number | null; caption: string };
 export type CalculatorAttrs = { kind: CalcKind; title: string; preset: Record<string, unknown> };
-export type ProcedureLinkAttrs = { procedureId: string };
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const SPEC_KEY = /^[A-Za-z0-9_-]{1,40}$/;
@@ -60,11 +59,13 @@ type Ctx = { errors: Issue[]; warnings: Issue[]; nodes: number; specKeys: Set<st
 const drop = { keep: false } as const;
 const keep = (value: unknown) => ({ keep: true as const, value });
 
-const intIn = (lo: number, hi: number, fallback?: number): AttrRule => (v) => {
-  const n = typeof v === "string" && /^\d+$/.test(v) ? Number(v) : v;
-  if (typeof n === "number" && Number.isInteger(n) && n >= lo && n <= hi) return keep(n);
-  return fallback === undefined ? drop : keep(fallback);
-};
+const intIn =
+  (lo: number, hi: number, fallback?: number): AttrRule =>
+  (v) => {
+    const n = typeof v === "string" && /^\d+$/.test(v) ? Number(v) : v;
+    if (typeof n === "number" && Number.isInteger(n) && n >= lo && n <= hi) return keep(n);
+    return fallback === undefined ? drop : keep(fallback);
+  };
 
 /** Link targets we allow: http(s), mailto, and paths inside the app. Everything else (javascript:, data:, vbscript:, file:, protocol-relative) is refused. */
 export function safeHref(raw: unknown): string | null {
@@ -83,24 +84,28 @@ export function safeHref(raw: unknown): string | null {
   return null;
 }
 
-const str = (max: number): AttrRule => (v, ctx, path) => {
-  if (v == null || v === "") return keep("");
-  if (typeof v !== "string") {
-    ctx.errors.push({ path, message: "must be text" });
-    return drop;
-  }
-  const t = v.trim();
-  if (t.length > max) {
-    ctx.errors.push({ path, message: `is longer than ${max} characters` });
-    return drop;
-  }
-  return keep(t);
-};
+const str =
+  (max: number): AttrRule =>
+  (v, ctx, path) => {
+    if (v == null || v === "") return keep("");
+    if (typeof v !== "string") {
+      ctx.errors.push({ path, message: "must be text" });
+      return drop;
+    }
+    const t = v.trim();
+    if (t.length > max) {
+      ctx.errors.push({ path, message: `is longer than ${max} characters` });
+      return drop;
+    }
+    return keep(t);
+  };
 /** A number, or null when it is missing or not a number yet (the block names what is missing). */
-const num = (fallback: number | null = null): AttrRule => (v) => {
-  const n = typeof v === "string" && v.trim() !== "" ? Number(v) : v;
-  return keep(typeof n === "number" && Number.isFinite(n) ? n : fallback);
-};
+const num =
+  (fallback: number | null = null): AttrRule =>
+  (v) => {
+    const n = typeof v === "string" && v.trim() !== "" ? Number(v) : v;
+    return keep(typeof n === "number" && Number.isFinite(n) ? n : fallback);
+  };
 const uuid: AttrRule = (v, ctx, path) => {
   if (typeof v === "string" && UUID.test(v)) return keep(v.toLowerCase());
   ctx.errors.push({ path, message: "must be a valid id" });
@@ -164,8 +169,10 @@ const NODES: Record<string, NodeRule> = {
       // Values a gauge can read (app/lib/edge.ts): a nominal of 1e308 is a slip, not a spec, and
       // the edge refuses it even in a draft.
       for (const k of ["nominal", "min", "max"] as const) {
-        const problem = typeof a[k] === "number" && typeof a.unit === "string" && unitKind(a.unit) ? quantityProblem(a[k] as number, a.unit) : null;
-        if (problem) ctx.errors.push({ path: `${path}.${k}`, message: `Spec “${a.label || "without a label"}”, ${SPEC_FIELD_NAMES[k]}: ${problem}` });
+        const problem =
+          typeof a[k] === "number" && typeof a.unit === "string" && unitKind(a.unit) ? quantityProblem(a[k] as number, a.unit) : null;
+        if (problem)
+          ctx.errors.push({ path: `${path}.${k}`, message: `Spec “${a.label || "without a label"}”, ${SPEC_FIELD_NAMES[k]}: ${problem}` });
       }
     },
   },
@@ -282,7 +289,10 @@ function sanitizeNode(input: unknown, ctx: Ctx, path: string, depth: number): JS
 let keyCounter = 0;
 /** A short random id for a new spec block. */
 export function newSpecKey(): string {
-  const rnd = typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID().replace(/-/g, "").slice(0, 12) : `${Date.now().toString(36)}${(keyCounter++).toString(36)}`;
+  const rnd =
+    typeof crypto !== "undefined" && "randomUUID" in crypto
+      ? crypto.randomUUID().replace(/-/g, "").slice(0, 12)
+      : `${Date.now().toString(36)}${(keyCounter++).toString(36)}`;
   return `s_${rnd}`;
 }
 
@@ -334,7 +344,6 @@ export function inlineText(node: JSONNode, titleOf?: (id: string) => string | un
   return (node.content ?? []).map((c) => inlineText(c, titleOf)).join("");
 }
 
-
 // ---- incomplete blocks -----------------------------------------------------------------------
 
 const SPEC_FIELD_NAMES = { nominal: "nominal", min: "minimum", max: "maximum" } as const;
@@ -351,11 +360,13 @@ export function blockProblems(node: JSONNode): BlockProblem[] {
     if (typeof a.label !== "string" || !a.label.trim()) out.push({ field: "label", message: "Give the spec a label" });
     const quantity = typeof a.quantity === "string" && (QUANTITY_KINDS as string[]).includes(a.quantity) ? (a.quantity as UnitKind) : null;
     if (!quantity) out.push({ field: "quantity", message: "Choose what the spec measures" });
-    else if (typeof a.unit !== "string" || unitKind(a.unit) !== quantity) out.push({ field: "unit", message: `Choose a unit of ${quantity}` });
+    else if (typeof a.unit !== "string" || unitKind(a.unit) !== quantity)
+      out.push({ field: "unit", message: `Choose a unit of ${quantity}` });
     const [nominal, min, max] = [a.nominal, a.min, a.max].map((v) => (isNum(v) ? v : null));
     if (nominal == null && min == null && max == null) out.push({ field: "nominal", message: "Give a nominal value or a limit" });
     if (min != null && max != null && min > max) out.push({ field: "min", message: "The minimum is above the maximum" });
-    else if (nominal != null && ((min != null && nominal < min) || (max != null && nominal > max))) out.push({ field: "nominal", message: "The nominal lies outside the limits" });
+    else if (nominal != null && ((min != null && nominal < min) || (max != null && nominal > max)))
+      out.push({ field: "nominal", message: "The nominal lies outside the limits" });
   }
   if (node.type === "videoMoment") {
     if (typeof a.recordingId !== "string" || !UUID.test(a.recordingId)) out.push({ field: "recording", message: "Choose a recording" });
@@ -363,7 +374,8 @@ export function blockProblems(node: JSONNode): BlockProblem[] {
     else if (a.end != null && (!isNum(a.end) || a.end <= a.start)) out.push({ field: "end", message: "The end must come after the start" });
   }
   if (node.type === "calculator") {
-    const problem = a.preset && typeof a.preset === "object" ? checkCalculatorPreset(a.kind as CalcKind, a.preset) : "the inputs are missing";
+    const problem =
+      a.preset && typeof a.preset === "object" ? checkCalculatorPreset(a.kind as CalcKind, a.preset) : "the inputs are missing";
     if (problem) out.push({ field: "preset", message: `Check the calculator's inputs (${problem})` });
   }
   return out;
@@ -436,14 +448,17 @@ export function blockTexts(doc: JSONNode, titleOf?: (id: string) => string | und
   };
   walk(doc, (n, anc) => {
     const containers = anc.map((a) => a.type).filter((t) => t !== "doc");
-    const typeName = [...containers.filter((t) => ["caution", "blockquote", "bulletList", "orderedList", "table"].includes(t)), n.type].join("/");
+    const typeName = [
+      ...containers.filter((t) => ["caution", "blockquote", "bulletList", "orderedList", "table"].includes(t)),
+      n.type,
+    ].join("/");
     switch (n.type) {
       case "paragraph":
       case "heading":
       case "codeBlock": {
         const inCaution = containers.includes("caution");
         const list = containers.includes("bulletList") || containers.includes("orderedList");
-        const prefix = n.type === "heading" ? "#".repeat(Number(n.attrs?.level ?? 2)) + " " : list ? "• " : "";
+        const prefix = n.type === "heading" ? `${"#".repeat(Number(n.attrs?.level ?? 2))} ` : list ? "• " : "";
         push(typeName, (inCaution ? CONTAINER_PREFIX.caution : "") + prefix + inlineText(n, titleOf));
         break;
       }
@@ -451,18 +466,23 @@ export function blockTexts(doc: JSONNode, titleOf?: (id: string) => string | und
         push("spec", specText(n.attrs as SpecAttrs), String(n.attrs?.id ?? ""));
         break;
       case "calculator":
-        push("calculator", `Calculator: ${calcLabel(n.attrs?.kind as CalcKind)}${n.attrs?.title ? ` — ${n.attrs.title}` : ""}: ${presetText(n.attrs?.preset ?? {})}`);
+        push(
+          "calculator",
+          `Calculator: ${calcLabel(n.attrs?.kind as CalcKind)}${n.attrs?.title ? ` — ${n.attrs.title}` : ""}: ${presetText(n.attrs?.preset ?? {})}`,
+        );
         break;
       case "videoMoment": {
         const a = n.attrs as MomentAttrs;
-        push("videoMoment", `Video moment at ${formatSeconds(a.start)}${a.end != null ? `–${formatSeconds(a.end)}` : ""}: ${a.caption ?? ""}`);
+        push(
+          "videoMoment",
+          `Video moment at ${formatSeconds(a.start)}${a.end != null ? `–${formatSeconds(a.end)}` : ""}: ${a.caption ?? ""}`,
+        );
         break;
       }
     }
   });
   return out;
 }
-
 
 export function countWords(doc: JSONNode): number {
   let n = 0;

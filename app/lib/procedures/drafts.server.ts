@@ -4,7 +4,15 @@
  * its extraction (links, specs, moments) and audit.
  */
 import { and, eq, inArray, sql } from "drizzle-orm";
-import { procedureConflictCopies, procedureLinks, procedureMoments, procedureRevisions, procedures, procedureSpecs, users } from "~/db/schema";
+import {
+  procedureConflictCopies,
+  procedureLinks,
+  procedureMoments,
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  users,
+} from "~/db/schema";
 import { audit } from "~/lib/audit.server";
 import { db, type Tx } from "~/lib/db.server";
 import { DomainError } from "~/lib/domain-error";
@@ -21,7 +29,8 @@ export function validateDocument(input: unknown): { doc: ProcedureDoc; warnings:
   const issues = r.ok ? [] : r.errors;
   const problem = r.ok ? structureProblem(r.doc) : null;
   if (problem) issues.push({ path: "doc", message: problem });
-  if (!r.ok || issues.length) throw new DomainError(`The document was not saved: ${issues.map((i) => i.message).join("; ")}`, { status: 422, issues });
+  if (!r.ok || issues.length)
+    throw new DomainError(`The document was not saved: ${issues.map((i) => i.message).join("; ")}`, { status: 422, issues });
   return { doc: r.doc, warnings: r.warnings };
 }
 
@@ -32,23 +41,48 @@ async function writeExtraction(tx: Tx, rev: { id: string; procedureId: string },
   const targets = x.links.filter((id) => id !== rev.procedureId);
   if (targets.length) {
     const existing = await tx.select({ id: procedures.id }).from(procedures).where(inArray(procedures.id, targets));
-    if (existing.length) await tx.insert(procedureLinks).values(existing.map((e) => ({ revisionId: rev.id, fromProcedureId: rev.procedureId, toProcedureId: e.id })));
+    if (existing.length)
+      await tx
+        .insert(procedureLinks)
+        .values(existing.map((e) => ({ revisionId: rev.id, fromProcedureId: rev.procedureId, toProcedureId: e.id })));
   }
   const keys = x.specs.map((s) => s.specKey);
-  await tx
-    .delete(procedureSpecs)
-    .where(keys.length ? and(eq(procedureSpecs.revisionId, rev.id), sql`${procedureSpecs.specKey} not in (${sql.join(keys.map((k) => sql`${k}`), sql`, `)})`) : eq(procedureSpecs.revisionId, rev.id));
+  await tx.delete(procedureSpecs).where(
+    keys.length
+      ? and(
+          eq(procedureSpecs.revisionId, rev.id),
+          sql`${procedureSpecs.specKey} not in (${sql.join(
+            keys.map((k) => sql`${k}`),
+            sql`, `,
+          )})`,
+        )
+      : eq(procedureSpecs.revisionId, rev.id),
+  );
   for (const s of x.specs) {
     await tx
       .insert(procedureSpecs)
       .values({ ...s, revisionId: rev.id, procedureId: rev.procedureId })
       .onConflictDoUpdate({
         target: [procedureSpecs.revisionId, procedureSpecs.specKey],
-        set: { position: s.position, label: s.label, quantity: s.quantity, unit: s.unit, nominal: s.nominal, min: s.min, max: s.max, siUnit: s.siUnit, nominalSi: s.nominalSi, minSi: s.minSi, maxSi: s.maxSi, note: s.note },
+        set: {
+          position: s.position,
+          label: s.label,
+          quantity: s.quantity,
+          unit: s.unit,
+          nominal: s.nominal,
+          min: s.min,
+          max: s.max,
+          siUnit: s.siUnit,
+          nominalSi: s.nominalSi,
+          minSi: s.minSi,
+          maxSi: s.maxSi,
+          note: s.note,
+        },
       });
   }
   await tx.delete(procedureMoments).where(eq(procedureMoments.revisionId, rev.id));
-  if (x.moments.length) await tx.insert(procedureMoments).values(x.moments.map((m) => ({ ...m, revisionId: rev.id, procedureId: rev.procedureId })));
+  if (x.moments.length)
+    await tx.insert(procedureMoments).values(x.moments.map((m) => ({ ...m, revisionId: rev.id, procedureId: rev.procedureId })));
 }
 
 export async function createProcedure(
@@ -64,7 +98,19 @@ export async function createProcedure(
       .returning();
     const [revision] = await tx
       .insert(procedureRevisions)
-      .values({ procedureId: procedure.id, number: 1, state: "draft", title: input.title, summary: input.summary, area: input.area, tags: input.tags, doc, wordCount: countWords(doc), authorId: actor.id, lastSavedBy: actor.id })
+      .values({
+        procedureId: procedure.id,
+        number: 1,
+        state: "draft",
+        title: input.title,
+        summary: input.summary,
+        area: input.area,
+        tags: input.tags,
+        doc,
+        wordCount: countWords(doc),
+        authorId: actor.id,
+        lastSavedBy: actor.id,
+      })
       .returning();
     await writeExtraction(tx, revision, doc);
     await audit(tx, actor.id, "create", "procedure", procedure.id, { slug, title: input.title });
@@ -115,7 +161,16 @@ export type SaveResult =
       ok: false;
       conflict: true;
       copyId: string;
-      current: { version: number; title: string; summary: string; area: Area; tags: string[]; doc: unknown; updatedAt: Date; savedBy: string | null };
+      current: {
+        version: number;
+        title: string;
+        summary: string;
+        area: Area;
+        tags: string[];
+        doc: unknown;
+        updatedAt: Date;
+        savedBy: string | null;
+      };
     };
 
 /** Autosave: refused with a conflict (both versions kept) when someone saved in between. */
@@ -131,29 +186,63 @@ export async function saveDraft(actor: Actor, revisionId: string, input: SaveInp
     if (rev.version !== input.baseVersion) {
       const [copy] = await tx
         .insert(procedureConflictCopies)
-        .values({ revisionId, userId: actor.id, baseVersion: input.baseVersion, title: input.title, summary: input.summary, tags: input.tags, doc })
+        .values({
+          revisionId,
+          userId: actor.id,
+          baseVersion: input.baseVersion,
+          title: input.title,
+          summary: input.summary,
+          tags: input.tags,
+          doc,
+        })
         .returning({ id: procedureConflictCopies.id });
-      await audit(tx, actor.id, "save-conflict", "procedure_revision", revisionId, { baseVersion: input.baseVersion, current: rev.version, copy: copy.id });
+      await audit(tx, actor.id, "save-conflict", "procedure_revision", revisionId, {
+        baseVersion: input.baseVersion,
+        current: rev.version,
+        copy: copy.id,
+      });
       let savedBy: string | null = null;
       if (rev.lastSavedBy) [{ name: savedBy }] = await tx.select({ name: users.name }).from(users).where(eq(users.id, rev.lastSavedBy));
       return {
         ok: false as const,
         conflict: true as const,
         copyId: copy.id,
-        current: { version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, updatedAt: rev.updatedAt, savedBy },
+        current: {
+          version: rev.version,
+          title: rev.title,
+          summary: rev.summary,
+          area: rev.area,
+          tags: rev.tags,
+          doc: rev.doc,
+          updatedAt: rev.updatedAt,
+          savedBy,
+        },
       };
     }
     const now = new Date();
     const [saved] = await tx
       .update(procedureRevisions)
-      .set({ title: input.title, summary: input.summary, area: input.area, tags: input.tags, doc, wordCount: countWords(doc), version: rev.version + 1, lastSavedBy: actor.id, updatedAt: now })
+      .set({
+        title: input.title,
+        summary: input.summary,
+        area: input.area,
+        tags: input.tags,
+        doc,
+        wordCount: countWords(doc),
+        version: rev.version + 1,
+        lastSavedBy: actor.id,
+        updatedAt: now,
+      })
       .where(and(eq(procedureRevisions.id, revisionId), eq(procedureRevisions.version, rev.version)))
       .returning();
     await writeExtraction(tx, rev, doc);
     // A procedure that was never published shows its draft's title in lists and URLs.
     const [proc] = await tx.select().from(procedures).where(eq(procedures.id, rev.procedureId));
     if (!proc.publishedRevisionId && proc.title !== input.title) {
-      await tx.update(procedures).set({ title: input.title, area: input.area, summary: input.summary, tags: input.tags, updatedAt: now }).where(eq(procedures.id, proc.id));
+      await tx
+        .update(procedures)
+        .set({ title: input.title, area: input.area, summary: input.summary, tags: input.tags, updatedAt: now })
+        .where(eq(procedures.id, proc.id));
     }
     return { ok: true as const, version: saved.version, updatedAt: saved.updatedAt, warnings, incomplete: incompleteBlocks(doc) };
   });

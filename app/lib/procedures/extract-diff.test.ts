@@ -13,9 +13,21 @@ describe("extract", () => {
     const doc: JSONNode = {
       type: "doc",
       content: [
-        { type: "paragraph", content: [{ type: "procedureLink", attrs: { procedureId: A } }, { type: "procedureLink", attrs: { procedureId: A } }] },
-        { type: "spec", attrs: { id: "s1", label: "Torque", quantity: "torque", unit: "ft.lbf", nominal: 80, min: null, max: 85, note: "" } },
-        { type: "spec", attrs: { id: "s2", label: "Piston-to-wall", quantity: "length", unit: "thou", nominal: null, min: 2.5, max: 3.0, note: "2618" } },
+        {
+          type: "paragraph",
+          content: [
+            { type: "procedureLink", attrs: { procedureId: A } },
+            { type: "procedureLink", attrs: { procedureId: A } },
+          ],
+        },
+        {
+          type: "spec",
+          attrs: { id: "s1", label: "Torque", quantity: "torque", unit: "ft.lbf", nominal: 80, min: null, max: 85, note: "" },
+        },
+        {
+          type: "spec",
+          attrs: { id: "s2", label: "Piston-to-wall", quantity: "length", unit: "thou", nominal: null, min: 2.5, max: 3.0, note: "2618" },
+        },
         { type: "caution", content: [{ type: "videoMoment", attrs: { recordingId: REC, start: 42, end: null, caption: "third pass" } }] },
       ],
     };
@@ -23,14 +35,25 @@ describe("extract", () => {
     expect(x.links).toEqual([A]);
     expect(x.specs).toHaveLength(2);
     expect(x.specs[0]).toMatchObject({ specKey: "s1", unit: "ft.lbf", siUnit: "N.m", nominal: 80, minSi: null });
-    expect(x.specs[0].nominalSi).toBeCloseTo(80 * 1.3558179483314004, 9);
+    // NIST SP 811 (2008), appendix B.9: 1 ft·lbf = 0.3048 m × 4.448 221 615 260 5 N (exact by definition).
+    expect(x.specs[0].nominalSi).toBeCloseTo(80 * 0.3048 * 4.4482216152605, 9);
     expect(x.specs[1].minSi).toBeCloseTo(2.5 * 0.0000254, 12);
     expect(x.specs[1].siUnit).toBe("m");
     expect(x.moments).toEqual([{ position: 0, recordingId: REC, startS: 42, endS: null, caption: "third pass" }]);
   });
 });
 
-const spec = (k: string, over: Partial<SpecRow> = {}): SpecRow => ({ specKey: k, label: `Spec ${k}`, quantity: "torque", unit: "N.m", nominal: 100, min: 95, max: 105, note: "", ...over });
+const spec = (k: string, over: Partial<SpecRow> = {}): SpecRow => ({
+  specKey: k,
+  label: `Spec ${k}`,
+  quantity: "torque",
+  unit: "N.m",
+  nominal: 100,
+  min: 95,
+  max: 105,
+  note: "",
+  ...over,
+});
 
 describe("diffSpecs", () => {
   it("reports added, removed, changed (with the fields) and unchanged specs", () => {
@@ -51,10 +74,25 @@ describe("diffSpecs", () => {
 });
 
 describe("diffBlocks", () => {
-  const doc = (...texts: string[]): JSONNode => ({ type: "doc", content: texts.map((t) => ({ type: "paragraph", content: [{ type: "text", text: t }] })) });
-  const steps = (...texts: string[]): JSONNode => ({ type: "doc", content: [{ type: "orderedList", attrs: { start: 1 }, content: texts.map((t) => ({ type: "listItem", content: [{ type: "paragraph", content: [{ type: "text", text: t }] }] })) }] });
+  const doc = (...texts: string[]): JSONNode => ({
+    type: "doc",
+    content: texts.map((t) => ({ type: "paragraph", content: [{ type: "text", text: t }] })),
+  });
+  const steps = (...texts: string[]): JSONNode => ({
+    type: "doc",
+    content: [
+      {
+        type: "orderedList",
+        attrs: { start: 1 },
+        content: texts.map((t) => ({ type: "listItem", content: [{ type: "paragraph", content: [{ type: "text", text: t }] }] })),
+      },
+    ],
+  });
   it("shows word changes inside a changed block, and whole added or removed blocks", () => {
-    const d = diffBlocks(readerBlocks(doc("Clean the threads.", "Torque to 100 N·m in three passes.", "Check the gasket.")), readerBlocks(doc("Clean the threads.", "Torque to 110 N·m in three passes.", "Mark each stud.")));
+    const d = diffBlocks(
+      readerBlocks(doc("Clean the threads.", "Torque to 100 N·m in three passes.", "Check the gasket.")),
+      readerBlocks(doc("Clean the threads.", "Torque to 110 N·m in three passes.", "Mark each stud.")),
+    );
     expect(d[0]).toEqual({ op: "same", block: { kind: "paragraph", text: "Clean the threads." } });
     expect(d[1].op).toBe("change");
     if (d[1].op === "change") {
@@ -63,11 +101,17 @@ describe("diffBlocks", () => {
     }
     expect(summarize(d)).toEqual({ added: 0, removed: 0, changed: 2 });
     const add = diffBlocks(readerBlocks(doc("A.")), readerBlocks(doc("A.", "B.")));
-    expect(add).toEqual([{ op: "same", block: { kind: "paragraph", text: "A." } }, { op: "add", block: { kind: "paragraph", text: "B." } }]);
+    expect(add).toEqual([
+      { op: "same", block: { kind: "paragraph", text: "A." } },
+      { op: "add", block: { kind: "paragraph", text: "B." } },
+    ]);
   });
 
   it("a step inserted at the top is one added step, not every later step renumbered", () => {
-    const d = diffBlocks(readerBlocks(steps("Clean the threads.", "Oil the studs.")), readerBlocks(steps("Chase the threads.", "Clean the threads.", "Oil the studs.")));
+    const d = diffBlocks(
+      readerBlocks(steps("Clean the threads.", "Oil the studs.")),
+      readerBlocks(steps("Chase the threads.", "Clean the threads.", "Oil the studs.")),
+    );
     expect(d.map((c) => c.op)).toEqual(["add", "same", "same"]);
     expect(d.map((c) => c.block.marker)).toEqual(["1.", "2.", "3."]);
   });
@@ -83,7 +127,10 @@ describe("diffBlocks", () => {
   });
 
   it("a rewritten phrase is struck through once and followed by the new one, not word by word", () => {
-    const [c] = diffBlocks(readerBlocks(doc("K = 0.15, the usual figure for moly paste.")), readerBlocks(doc("K = 0.18, the nut factor our clamp-load test fits for moly paste.")));
+    const [c] = diffBlocks(
+      readerBlocks(doc("K = 0.15, the usual figure for moly paste.")),
+      readerBlocks(doc("K = 0.18, the nut factor our clamp-load test fits for moly paste.")),
+    );
     expect(c.op === "change" && c.pieces).toEqual([
       { op: "same", text: "K = " },
       { op: "del", text: "0.15" },
@@ -98,7 +145,10 @@ describe("diffBlocks", () => {
   it("a heading that became a paragraph is removed and added, not a word change", () => {
     const h: JSONNode = { type: "doc", content: [{ type: "heading", attrs: { level: 2 }, content: [{ type: "text", text: "Why" }] }] };
     const d = diffBlocks(readerBlocks(h), readerBlocks(doc("Why")));
-    expect(d.map((c) => [c.op, c.block.kind])).toEqual([["del", "heading"], ["add", "paragraph"]]);
+    expect(d.map((c) => [c.op, c.block.kind])).toEqual([
+      ["del", "heading"],
+      ["add", "paragraph"],
+    ]);
   });
 });
 

@@ -53,7 +53,13 @@ export function extract(doc: JSONNode): Extracted {
     }
     if (n.type === "videoMoment") {
       const a = n.attrs as MomentAttrs;
-      moments.push({ position: moments.length, recordingId: a.recordingId, startS: a.start, endS: a.end ?? null, caption: a.caption ?? "" });
+      moments.push({
+        position: moments.length,
+        recordingId: a.recordingId,
+        startS: a.start,
+        endS: a.end ?? null,
+        caption: a.caption ?? "",
+      });
     }
   });
   return { links: [...links], specs, moments };

@@ -35,7 +35,11 @@ export async function movedTo(slug: string): Promise<{ movedTo: string } | null>
 async function slugTaken(tx: DbOrTx, slug: string, exceptProcedureId?: string): Promise<boolean> {
   const [p] = await tx.select({ id: procedures.id }).from(procedures).where(eq(procedures.slug, slug)).limit(1);
   if (p && p.id !== exceptProcedureId) return true;
-  const [o] = await tx.select({ procedureId: procedureSlugs.procedureId }).from(procedureSlugs).where(eq(procedureSlugs.slug, slug)).limit(1);
+  const [o] = await tx
+    .select({ procedureId: procedureSlugs.procedureId })
+    .from(procedureSlugs)
+    .where(eq(procedureSlugs.slug, slug))
+    .limit(1);
   return Boolean(o && o.procedureId !== exceptProcedureId);
 }
 
@@ -77,7 +81,10 @@ export async function openRevisionOf(procedureId: string, tx: DbOrTx = db()) {
 /** Current titles and slugs of procedures a document links to. */
 export async function titlesFor(ids: string[]) {
   if (!ids.length) return new Map<string, { title: string; slug: string }>();
-  const rows = await db().select({ id: procedures.id, title: procedures.title, slug: procedures.slug }).from(procedures).where(inArray(procedures.id, ids));
+  const rows = await db()
+    .select({ id: procedures.id, title: procedures.title, slug: procedures.slug })
+    .from(procedures)
+    .where(inArray(procedures.id, ids));
   return new Map(rows.map((r) => [r.id, { title: r.title, slug: r.slug }]));
 }
 

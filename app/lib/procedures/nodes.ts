@@ -57,7 +57,12 @@ export const VideoMomentNode = Node.create({
   group: "block",
   atom: true,
   draggable: true,
-  addAttributes: () => ({ recordingId: plain("recording-id"), start: numeric("start", 0), end: numeric("end"), caption: plain("caption", "") }),
+  addAttributes: () => ({
+    recordingId: plain("recording-id"),
+    start: numeric("start", 0),
+    end: numeric("end"),
+    caption: plain("caption", ""),
+  }),
   parseHTML: () => [{ tag: "figure[data-video-moment]" }],
   renderHTML: ({ HTMLAttributes }) => ["figure", mergeAttributes(HTMLAttributes, { "data-video-moment": "" })],
 });

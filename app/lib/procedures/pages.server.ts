@@ -14,7 +14,6 @@ export async function specsOf(revisionId: string) {
   return db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position));
 }
 
-
 const publisher = alias(users, "publisher");
 
 /** Every revision of a procedure, newest first, with its people and every return to Draft in order. */

@@ -17,7 +17,17 @@ const published = alias(procedureRevisions, "published");
 const author = alias(users, "author");
 const publisher = alias(users, "publisher");
 
-export type ReadSpec = { id: string; specKey: string; label: string; quantity: string; unit: string; nominal: number | null; min: number | null; max: number | null; note: string };
+export type ReadSpec = {
+  id: string;
+  specKey: string;
+  label: string;
+  quantity: string;
+  unit: string;
+  nominal: number | null;
+  min: number | null;
+  max: number | null;
+  note: string;
+};
 type OpenSummary = { number: number; state: RevisionState; authorId: string | null };
 type Around = {
   specs: ReadSpec[];

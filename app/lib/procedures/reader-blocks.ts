@@ -26,7 +26,10 @@ export type ReaderBlock = {
   title?: string;
 };
 
-export type ReaderContext = { titleOf?: (procedureId: string) => string | undefined; recordingOf?: (recordingId: string) => string | undefined };
+export type ReaderContext = {
+  titleOf?: (procedureId: string) => string | undefined;
+  recordingOf?: (recordingId: string) => string | undefined;
+};
 
 export const unitSign = (u: unknown): string => (isUnitCode(u) ? unitLabel(u) : String(u ?? ""));
 const n = (v: number) => String(tidyNumber(v));
@@ -43,11 +46,16 @@ export function specLimitsText(a: Pick<SpecAttrs, "nominal" | "min" | "max" | "u
 }
 
 type Q = { value: number; unit: string };
-const isQ = (v: unknown): v is Q => Boolean(v) && typeof v === "object" && typeof (v as Q).value === "number" && typeof (v as Q).unit === "string";
+const isQ = (v: unknown): v is Q =>
+  Boolean(v) && typeof v === "object" && typeof (v as Q).value === "number" && typeof (v as Q).unit === "string";
 const q = (v: unknown) => (isQ(v) ? `${n(v.value)} ${unitSign(v.unit)}` : typeof v === "number" ? n(v) : String(v ?? ""));
 
 const DIRECTION: Record<string, string> = { "torque-to-preload": "torque → preload", "preload-to-torque": "preload → torque" };
-const CLEARANCE: Record<string, string> = { "piston-to-wall": "piston-to-wall", bearing: "bearing oil clearance", "ring-gap": "ring end gap" };
+const CLEARANCE: Record<string, string> = {
+  "piston-to-wall": "piston-to-wall",
+  bearing: "bearing oil clearance",
+  "ring-gap": "ring end gap",
+};
 const WORDS: Record<string, string> = {
   torque: "torque",
   preload: "preload",
@@ -77,11 +85,17 @@ const WORDS: Record<string, string> = {
   angleDeg: "angle",
 };
 /** A key the table above does not know, in words: "shellThickness" → "shell thickness". */
-const words = (key: string) => WORDS[key] ?? key.replace(/([a-z])([A-Z])/g, "$1 $2").replace(/-/g, " ").toLowerCase();
+const words = (key: string) =>
+  WORDS[key] ??
+  key
+    .replace(/([a-z])([A-Z])/g, "$1 $2")
+    .replace(/-/g, " ")
+    .toLowerCase();
 
 function material(v: unknown): string {
   if (typeof v === "string") return (MATERIAL_IDS as readonly string[]).includes(v) ? materialById(v as MaterialId).label : v;
-  if (v && typeof v === "object" && typeof (v as { alphaPerK?: unknown }).alphaPerK === "number") return `α ${(v as { alphaPerK: number }).alphaPerK} per K`;
+  if (v && typeof v === "object" && typeof (v as { alphaPerK?: unknown }).alphaPerK === "number")
+    return `α ${(v as { alphaPerK: number }).alphaPerK} per K`;
   return String(v ?? "");
 }
 
@@ -146,7 +160,8 @@ export function presetWords(kind: CalcKind, preset: Record<string, unknown>): st
       if (key === "kind") continue;
       if (key === "spec") out.push(spec(v));
       else if (key === "thermal" && v && typeof v === "object") {
-        for (const [tk, tv] of Object.entries(v as Record<string, unknown>)) out.push(tk.endsWith("Material") ? `${words(tk)} ${material(tv)}` : `${words(tk)} ${q(tv)}`);
+        for (const [tk, tv] of Object.entries(v as Record<string, unknown>))
+          out.push(tk.endsWith("Material") ? `${words(tk)} ${material(tv)}` : `${words(tk)} ${q(tv)}`);
       } else add(key, v);
     }
   }
@@ -176,7 +191,16 @@ export function readerBlocks(doc: JSONNode, ctx: ReaderContext = {}): ReaderBloc
         push({ kind: "heading", level: Math.min(4, Math.max(1, Number(node.attrs?.level ?? 2))), text: inline(node, ctx), ...flags });
         return;
       case "paragraph":
-        push(marker !== undefined ? { kind: "item", marker, depth: where.depth - 1, text: inline(node, ctx), ...flags } : { kind: where.depth ? "item" : "paragraph", ...(where.depth ? { depth: where.depth - 1 } : {}), text: inline(node, ctx), ...flags });
+        push(
+          marker !== undefined
+            ? { kind: "item", marker, depth: where.depth - 1, text: inline(node, ctx), ...flags }
+            : {
+                kind: where.depth ? "item" : "paragraph",
+                ...(where.depth ? { depth: where.depth - 1 } : {}),
+                text: inline(node, ctx),
+                ...flags,
+              },
+        );
         return;
       case "codeBlock":
         push({ kind: "code", text: inline(node, ctx), ...flags });
@@ -193,13 +217,20 @@ export function readerBlocks(doc: JSONNode, ctx: ReaderContext = {}): ReaderBloc
         (node.content ?? []).forEach((item, i) => {
           const m = node.type === "orderedList" ? `${start + i}.` : "•";
           // The marker goes on the item's first paragraph; what follows continues the same step.
-          (item.content ?? []).forEach((c, k) => visit(c, { ...where, depth: where.depth + 1 }, k === 0 && c.type === "paragraph" ? m : undefined));
+          (item.content ?? []).forEach((c, k) =>
+            visit(c, { ...where, depth: where.depth + 1 }, k === 0 && c.type === "paragraph" ? m : undefined),
+          );
         });
         return;
       }
       case "table":
         for (const row of node.content ?? []) {
-          const cells = (row.content ?? []).map((cell) => (cell.content ?? []).map((c) => inline(c, ctx)).join(" ").trim());
+          const cells = (row.content ?? []).map((cell) =>
+            (cell.content ?? [])
+              .map((c) => inline(c, ctx))
+              .join(" ")
+              .trim(),
+          );
           push({ kind: "row", header: (row.content ?? []).every((c) => c.type === "tableHeader"), text: cells.join(" | "), ...flags });
         }
         return;
@@ -210,14 +241,24 @@ export function readerBlocks(doc: JSONNode, ctx: ReaderContext = {}): ReaderBloc
       }
       case "calculator": {
         const a = node.attrs as CalculatorAttrs;
-        push({ kind: "calculator", title: `${calcLabel(a.kind)} calculator${a.title ? ` — ${a.title}` : ""}`, text: presetWords(a.kind, a.preset ?? {}), ...flags });
+        push({
+          kind: "calculator",
+          title: `${calcLabel(a.kind)} calculator${a.title ? ` — ${a.title}` : ""}`,
+          text: presetWords(a.kind, a.preset ?? {}),
+          ...flags,
+        });
         return;
       }
       case "videoMoment": {
         const a = node.attrs as MomentAttrs;
         const rec = ctx.recordingOf?.(a.recordingId);
         const time = `${formatSeconds(a.start)}${a.end != null ? `–${formatSeconds(a.end)}` : ""}`;
-        push({ kind: "moment", title: "Video moment", text: [time, a.caption, rec ? `from “${rec}”` : ""].filter(Boolean).join(" · "), ...flags });
+        push({
+          kind: "moment",
+          title: "Video moment",
+          text: [time, a.caption, rec ? `from “${rec}”` : ""].filter(Boolean).join(" · "),
+          ...flags,
+        });
         return;
       }
       default:

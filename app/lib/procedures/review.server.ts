@@ -13,7 +13,8 @@ export type ReviewPeople = { author: string | null; publishedBy: string | null; 
 
 export type ReturnJson = { by: string | null; reason: string; at: string };
 /** The returns as the JSON column below gives them, with their times as dates. */
-export const toReturns = (rows: ReturnJson[] | null): RevisionReturn[] => (rows ?? []).map((r) => ({ by: r.by, reason: r.reason, at: new Date(r.at) }));
+export const toReturns = (rows: ReturnJson[] | null): RevisionReturn[] =>
+  (rows ?? []).map((r) => ({ by: r.by, reason: r.reason, at: new Date(r.at) }));
 
 /** The returns of the revision `revisionId` (an id or a column) as a JSON array, oldest first: a column for a select. */
 export const returnsJson = (revisionId: unknown) => sql<ReturnJson[]>`(

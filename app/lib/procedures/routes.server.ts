@@ -39,7 +39,12 @@ export function canSeeRevision(user: SessionUser, rev: Pick<Revision, "state" | 
   return canOnOwned(user, "procedure:view-drafts", rev.authorId);
 }
 
-export async function revisionOr404(request: Request, user: SessionUser, procedure: Procedure, numberParam: string | undefined): Promise<Revision> {
+export async function revisionOr404(
+  request: Request,
+  user: SessionUser,
+  procedure: Procedure,
+  numberParam: string | undefined,
+): Promise<Revision> {
   // Digits within PostgreSQL's integer only: 2³¹ and up cannot name a revision (and made the query fail).
   const parsed = positiveIntParam.safeParse(numberParam);
   if (!parsed.success) throw data({ message: "No such revision." }, { status: 404 });

@@ -11,9 +11,3 @@ export function slugify(title: string): string {
     .replace(/-+$/g, "");
   return s || "procedure";
 }
-
-/** The first free slug: base, base-2, base-3 … */
-export function firstFree(base: string, taken: (s: string) => boolean): string {
-  if (!taken(base)) return base;
-  for (let i = 2; ; i++) if (!taken(`${base}-${i}`)) return `${base}-${i}`;
-}

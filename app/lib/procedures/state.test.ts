@@ -41,8 +41,14 @@ describe("revision state machine", () => {
   });
 
   it("needs a change note to submit and a reason to return", () => {
-    expect(decide("submit", rev("draft"), author, { changeNote: "  " })).toMatchObject({ ok: false, reason: expect.stringMatching(/change note/) });
-    expect(decide("return", rev("in_review"), editor, { reason: "" })).toMatchObject({ ok: false, reason: expect.stringMatching(/reason/) });
+    expect(decide("submit", rev("draft"), author, { changeNote: "  " })).toMatchObject({
+      ok: false,
+      reason: expect.stringMatching(/change note/),
+    });
+    expect(decide("return", rev("in_review"), editor, { reason: "" })).toMatchObject({
+      ok: false,
+      reason: expect.stringMatching(/reason/),
+    });
   });
 
   it("keeps publishing and returning to editors and admins", () => {
@@ -68,7 +74,10 @@ describe("revision state machine", () => {
   });
 
   it("refuses a restore while another revision is open, and discarding the only revision", () => {
-    expect(decide("restore", rev("published"), author, { openRevisionNumber: 4 })).toMatchObject({ ok: false, reason: expect.stringMatching(/Revision 4/) });
+    expect(decide("restore", rev("published"), author, { openRevisionNumber: 4 })).toMatchObject({
+      ok: false,
+      reason: expect.stringMatching(/Revision 4/),
+    });
     expect(decide("discard", rev("draft"), author, { onlyRevision: true }).ok).toBe(false);
     expect(decide("submit", rev("draft"), null, ctx).ok).toBe(false);
   });

@@ -65,7 +65,11 @@ const WHY_NOT: Partial<Record<Transition, Partial<Record<RevisionState, string>>
     draft: "This revision is still a draft; open it to keep working on it.",
     in_review: "This revision is in review; it cannot be restored while the editor reviews it.",
   },
-  discard: { in_review: "A revision in review cannot be discarded; withdraw it first.", published: "A published revision cannot be discarded.", superseded: "History is kept: a superseded revision cannot be discarded." },
+  discard: {
+    in_review: "A revision in review cannot be discarded; withdraw it first.",
+    published: "A published revision cannot be discarded.",
+    superseded: "History is kept: a superseded revision cannot be discarded.",
+  },
   supersede: { draft: "Only the published revision can be superseded." },
 };
 
@@ -78,18 +82,22 @@ export function decide(t: Transition, rev: RevisionFacts, actor: Actor | null, c
   switch (t) {
     case "edit":
     case "discard":
-      if (!canOnOwned(actor, "procedure:edit", rev.authorId)) return { ok: false, reason: "Only the draft's author or an editor can change this draft." };
-      if (t === "discard" && ctx.onlyRevision) return { ok: false, reason: "This is the procedure's only revision; there would be nothing left. Keep it and edit it instead." };
+      if (!canOnOwned(actor, "procedure:edit", rev.authorId))
+        return { ok: false, reason: "Only the draft's author or an editor can change this draft." };
+      if (t === "discard" && ctx.onlyRevision)
+        return { ok: false, reason: "This is the procedure's only revision; there would be nothing left. Keep it and edit it instead." };
       break;
     case "submit": {
-      if (!canOnOwned(actor, "procedure:edit", rev.authorId)) return { ok: false, reason: "Only the draft's author or an editor can submit this draft." };
+      if (!canOnOwned(actor, "procedure:edit", rev.authorId))
+        return { ok: false, reason: "Only the draft's author or an editor can submit this draft." };
       const note = (ctx.changeNote ?? "").trim();
       if (note.length < 3) return { ok: false, reason: "Write a change note: what changed and why (at least a few words)." };
       if (note.length > 1000) return { ok: false, reason: "Keep the change note under 1,000 characters." };
       break;
     }
     case "withdraw":
-      if (!canOnOwned(actor, "procedure:edit", rev.authorId)) return { ok: false, reason: "Only the author or an editor can withdraw this revision." };
+      if (!canOnOwned(actor, "procedure:edit", rev.authorId))
+        return { ok: false, reason: "Only the author or an editor can withdraw this revision." };
       break;
     case "return": {
       if (!can(actor.role, "procedure:review")) return { ok: false, reason: "Only editors and admins return drafts." };
@@ -106,7 +114,11 @@ export function decide(t: Transition, rev: RevisionFacts, actor: Actor | null, c
       break;
     case "restore":
       if (!can(actor.role, "procedure:draft")) return { ok: false, reason: "Your role cannot start drafts." };
-      if (ctx.openRevisionNumber != null) return { ok: false, reason: `Revision ${ctx.openRevisionNumber} is already open as a draft or in review; finish or discard it first.` };
+      if (ctx.openRevisionNumber != null)
+        return {
+          ok: false,
+          reason: `Revision ${ctx.openRevisionNumber} is already open as a draft or in review; finish or discard it first.`,
+        };
       break;
   }
   return { ok: true, to: rule.to };
@@ -115,5 +127,7 @@ export function decide(t: Transition, rev: RevisionFacts, actor: Actor | null, c
 /** The transitions a person can take on a revision now (for the buttons). */
 export function available(rev: RevisionFacts, actor: Actor | null, ctx: Context = {}): Transition[] {
   const probe: Context = { ...ctx, changeNote: "probe", reason: "probe" };
-  return (["edit", "submit", "withdraw", "return", "publish", "discard", "restore"] as Transition[]).filter((t) => decide(t, rev, actor, probe).ok);
+  return (["edit", "submit", "withdraw", "return", "publish", "discard", "restore"] as Transition[]).filter(
+    (t) => decide(t, rev, actor, probe).ok,
+  );
 }

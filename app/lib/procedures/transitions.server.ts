@@ -40,7 +40,10 @@ async function reviewers(tx: DbOrTx, exceptId: string) {
 
 async function person(tx: DbOrTx, id: string | null) {
   if (!id) return null;
-  const [u] = await tx.select({ id: users.id, email: users.email, name: users.name, deactivatedAt: users.deactivatedAt }).from(users).where(eq(users.id, id));
+  const [u] = await tx
+    .select({ id: users.id, email: users.email, name: users.name, deactivatedAt: users.deactivatedAt })
+    .from(users)
+    .where(eq(users.id, id));
   return u && !u.deactivatedAt ? u : null;
 }
 
@@ -51,13 +54,19 @@ export async function submitRevision(actor: Actor & { name: string }, revisionId
     // A draft saves with blocks half done; review needs every block complete.
     const incomplete = incompleteBlocks(rev.doc as ProcedureDoc);
     if (incomplete.length) {
-      throw new DomainError(`Not ready for review. Finish ${incomplete.length === 1 ? "this block" : `these ${incomplete.length} blocks`} first: ${incompleteText(incomplete)}.`, {
-        status: 422,
-        details: { blocks: incomplete },
-      });
+      throw new DomainError(
+        `Not ready for review. Finish ${incomplete.length === 1 ? "this block" : `these ${incomplete.length} blocks`} first: ${incompleteText(incomplete)}.`,
+        {
+          status: 422,
+          details: { blocks: incomplete },
+        },
+      );
     }
     const note = changeNote.trim();
-    await tx.update(procedureRevisions).set({ state: "in_review", changeNote: note, submittedAt: new Date(), updatedAt: new Date() }).where(eq(procedureRevisions.id, rev.id));
+    await tx
+      .update(procedureRevisions)
+      .set({ state: "in_review", changeNote: note, submittedAt: new Date(), updatedAt: new Date() })
+      .where(eq(procedureRevisions.id, rev.id));
     for (const r of await reviewers(tx, actor.id)) {
       await enqueueMail(
         tx,
@@ -83,14 +92,16 @@ export async function withdrawRevision(actor: Actor, revisionId: string) {
   });
 }
 
-
 export async function returnRevision(actor: Actor & { name: string }, revisionId: string, reason: string) {
   return db().transaction(async (tx) => {
     const { rev, proc } = await lockRevision(tx, revisionId);
     check("return", rev, actor, { reason });
     const why = reason.trim();
     const now = new Date();
-    await tx.update(procedureRevisions).set({ state: "draft", reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
+    await tx
+      .update(procedureRevisions)
+      .set({ state: "draft", reviewedBy: actor.id, updatedAt: now })
+      .where(eq(procedureRevisions.id, rev.id));
     // Every return is kept: a revision returned, submitted again and returned again shows both reasons.
     await tx.insert(procedureRevisionReturns).values({ revisionId: rev.id, returnedBy: actor.id, reason: why, returnedAt: now });
     const author = await person(tx, rev.authorId);
@@ -124,7 +135,10 @@ export async function publishRevision(actor: Actor & { name: string }, revisionI
       check("supersede", prev, actor);
       await tx.update(procedureRevisions).set({ state: "superseded", supersededAt: now }).where(eq(procedureRevisions.id, prev.id));
     }
-    await tx.update(procedureRevisions).set({ state: "published", publishedAt: now, publishedBy: actor.id, reviewedBy: actor.id, updatedAt: now }).where(eq(procedureRevisions.id, rev.id));
+    await tx
+      .update(procedureRevisions)
+      .set({ state: "published", publishedAt: now, publishedBy: actor.id, reviewedBy: actor.id, updatedAt: now })
+      .where(eq(procedureRevisions.id, rev.id));
     let slug = proc.slug;
     if (rev.title !== proc.title || slugify(rev.title) !== slugify(proc.title)) {
       const wanted = await freeSlug(tx, rev.title, proc.id);
@@ -137,7 +151,16 @@ export async function publishRevision(actor: Actor & { name: string }, revisionI
     }
     await tx
       .update(procedures)
-      .set({ slug, title: rev.title, area: rev.area, summary: rev.summary, tags: rev.tags, publishedRevisionId: rev.id, publishedAt: now, updatedAt: now })
+      .set({
+        slug,
+        title: rev.title,
+        area: rev.area,
+        summary: rev.summary,
+        tags: rev.tags,
+        publishedRevisionId: rev.id,
+        publishedAt: now,
+        updatedAt: now,
+      })
       .where(eq(procedures.id, proc.id));
 
     const author = await person(tx, rev.authorId);
@@ -174,7 +197,10 @@ export async function publishRevision(actor: Actor & { name: string }, revisionI
 export async function discardDraft(actor: Actor, revisionId: string) {
   return db().transaction(async (tx) => {
     const { rev } = await lockRevision(tx, revisionId);
-    const [{ n }] = await tx.select({ n: sql<number>`count(*)::int` }).from(procedureRevisions).where(eq(procedureRevisions.procedureId, rev.procedureId));
+    const [{ n }] = await tx
+      .select({ n: sql<number>`count(*)::int` })
+      .from(procedureRevisions)
+      .where(eq(procedureRevisions.procedureId, rev.procedureId));
     check("discard", rev, actor, { onlyRevision: n === 1 });
     await tx.delete(procedureRevisions).where(eq(procedureRevisions.id, rev.id));
     await audit(tx, actor.id, "discard", "procedure_revision", rev.id, { number: rev.number });

@@ -24,7 +24,13 @@ export function readableBy(reader: Reader): SQL {
   const ownOpenRevision = db()
     .select({ one: sql`1` })
     .from(procedureRevisions)
-    .where(and(eq(procedureRevisions.procedureId, procedures.id), inArray(procedureRevisions.state, OPEN_STATES), eq(procedureRevisions.authorId, reader.id)));
+    .where(
+      and(
+        eq(procedureRevisions.procedureId, procedures.id),
+        inArray(procedureRevisions.state, OPEN_STATES),
+        eq(procedureRevisions.authorId, reader.id),
+      ),
+    );
   return or(published, exists(ownOpenRevision))!;
 }
 

@@ -5,5 +5,8 @@ import { db } from "~/lib/db.server";
 
 export async function setWatching(userId: string, procedureId: string, on: boolean) {
   if (on) await db().insert(procedureWatchers).values({ procedureId, userId }).onConflictDoNothing();
-  else await db().delete(procedureWatchers).where(and(eq(procedureWatchers.procedureId, procedureId), eq(procedureWatchers.userId, userId)));
+  else
+    await db()
+      .delete(procedureWatchers)
+      .where(and(eq(procedureWatchers.procedureId, procedureId), eq(procedureWatchers.userId, userId)));
 }

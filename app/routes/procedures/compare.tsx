@@ -62,46 +62,108 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { ...base, from: { number: from.number, state: from.state }, blocks, summary: summarize(blocks), specs, meta };
 }
 
-const FIELD_WORDS: Record<SpecField, string> = { label: "label", quantity: "quantity", unit: "unit", nominal: "nominal", min: "min", max: "max", note: "note" };
+const FIELD_WORDS: Record<SpecField, string> = {
+  label: "label",
+  quantity: "quantity",
+  unit: "unit",
+  nominal: "nominal",
+  min: "min",
+  max: "max",
+  note: "note",
+};
 const specValue = (s: SpecRow) => `${specLimitsText(s)}${s.note ? ` — ${s.note}` : ""}`;
-const revisionOption = (r: { number: number; state: keyof typeof STATE_LABELS }) => `Revision ${r.number} (${STATE_LABELS[r.state].toLowerCase()})`;
+const revisionOption = (r: { number: number; state: keyof typeof STATE_LABELS }) =>
+  `Revision ${r.number} (${STATE_LABELS[r.state].toLowerCase()})`;
 
 export default function Compare({ loaderData }: Route.ComponentProps) {
   const { slug, title, revisions, from, to, blocks, summary, specs, meta, canPublish, canReturn } = loaderData;
   return (
     <>
-      <PageHeader title={title} kicker="Compare revisions" actions={<Link className="btn no-underline" to={`/procedures/${slug}/history`}>History</Link>}>
+      <PageHeader
+        title={title}
+        kicker="Compare revisions"
+        actions={
+          <Link className="btn no-underline" to={`/procedures/${slug}/history`}>
+            History
+          </Link>
+        }
+      >
         {from && revisions.length > 1 && (
           <Form method="get" className="flex flex-wrap items-end gap-2 text-sm">
-            <label>From <select name="from" defaultValue={from.number} className="field inline-block w-auto py-1">{revisions.map((r) => <option key={r.number} value={r.number}>{revisionOption(r)}</option>)}</select></label>
-            <label>to <select name="to" defaultValue={to.number} className="field inline-block w-auto py-1">{revisions.map((r) => <option key={r.number} value={r.number}>{revisionOption(r)}</option>)}</select></label>
-            <button className="btn py-1" type="submit">Compare</button>
+            <label>
+              From{" "}
+              <select name="from" defaultValue={from.number} className="field inline-block w-auto py-1">
+                {revisions.map((r) => (
+                  <option key={r.number} value={r.number}>
+                    {revisionOption(r)}
+                  </option>
+                ))}
+              </select>
+            </label>
+            <label>
+              to{" "}
+              <select name="to" defaultValue={to.number} className="field inline-block w-auto py-1">
+                {revisions.map((r) => (
+                  <option key={r.number} value={r.number}>
+                    {revisionOption(r)}
+                  </option>
+                ))}
+              </select>
+            </label>
+            <button className="btn py-1" type="submit">
+              Compare
+            </button>
           </Form>
         )}
       </PageHeader>
 
       {from && summary ? (
         <p className="mb-4 flex flex-wrap items-center gap-2 text-sm">
-          <span className="num font-semibold">Revision {from.number}</span> <StateBadge state={from.state} /> <span aria-hidden="true">→</span><span className="sr-only">to</span> <span className="num font-semibold">Revision {to.number}</span> <StateBadge state={to.state} />
-          <span className="num text-graphite-soft">· {summary.changed} changed, {summary.added} added, {summary.removed} removed · {specs.length} spec {specs.length === 1 ? "change" : "changes"}</span>
+          <span className="num font-semibold">Revision {from.number}</span> <StateBadge state={from.state} />{" "}
+          <span aria-hidden="true">→</span>
+          <span className="sr-only">to</span> <span className="num font-semibold">Revision {to.number}</span>{" "}
+          <StateBadge state={to.state} />
+          <span className="num text-graphite-soft">
+            · {summary.changed} changed, {summary.added} added, {summary.removed} removed · {specs.length} spec{" "}
+            {specs.length === 1 ? "change" : "changes"}
+          </span>
         </p>
       ) : (
         <p className="card mb-4 text-sm" data-testid="nothing-to-compare">
-          Revision {to.number} is the first revision of this procedure; there is no earlier one to compare it with. <Link to={`/procedures/${slug}/r/${to.number}`}>Read revision {to.number} in full</Link>.
+          Revision {to.number} is the first revision of this procedure; there is no earlier one to compare it with.{" "}
+          <Link to={`/procedures/${slug}/r/${to.number}`}>Read revision {to.number} in full</Link>.
         </p>
       )}
-      {to.changeNote && <p className="mb-4 text-sm"><span className="font-semibold">Change note:</span> {to.changeNote}</p>}
+      {to.changeNote && (
+        <p className="mb-4 text-sm">
+          <span className="font-semibold">Change note:</span> {to.changeNote}
+        </p>
+      )}
 
       {(canPublish || canReturn) && (
         <div className="card mb-6 flex flex-wrap items-end gap-4 p-4">
           {canPublish && (
-            <Form method="post" action={`/procedures/${slug}/r/${to.number}`}><input type="hidden" name="intent" value="publish" /><button className="btn btn-primary" type="submit">Publish revision {to.number}</button></Form>
+            <Form method="post" action={`/procedures/${slug}/r/${to.number}`}>
+              <input type="hidden" name="intent" value="publish" />
+              <button className="btn btn-primary" type="submit">
+                Publish revision {to.number}
+              </button>
+            </Form>
           )}
           {canReturn && (
-            <Form method="post" action={`/procedures/${slug}/r/${to.number}`} className="flex min-w-[18rem] flex-1 flex-wrap items-end gap-2">
+            <Form
+              method="post"
+              action={`/procedures/${slug}/r/${to.number}`}
+              className="flex min-w-[18rem] flex-1 flex-wrap items-end gap-2"
+            >
               <input type="hidden" name="intent" value="return" />
-              <label className="min-w-[14rem] flex-1"><span className="label">Reason for returning</span><input name="reason" className="field" required placeholder="What the author should change" /></label>
-              <button className="btn" type="submit">Return to Draft</button>
+              <label className="min-w-[14rem] flex-1">
+                <span className="label">Reason for returning</span>
+                <input name="reason" className="field" required placeholder="What the author should change" />
+              </label>
+              <button className="btn" type="submit">
+                Return to Draft
+              </button>
             </Form>
           )}
         </div>
@@ -109,28 +171,52 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
 
       {from && meta.length > 0 && (
         <section className="card mb-6 p-4" aria-labelledby="meta-diff-h">
-          <h2 id="meta-diff-h" className="text-lg">Page details</h2>
-          <dl className="mt-2 space-y-1 text-sm">{meta.map((m) => <div key={m.field}><dt className="inline font-semibold">{m.field}: </dt><dd className="inline"><BeforeAfter before={m.before} after={m.after} /></dd></div>)}</dl>
+          <h2 id="meta-diff-h" className="text-lg">
+            Page details
+          </h2>
+          <dl className="mt-2 space-y-1 text-sm">
+            {meta.map((m) => (
+              <div key={m.field}>
+                <dt className="inline font-semibold">{m.field}: </dt>
+                <dd className="inline">
+                  <BeforeAfter before={m.before} after={m.after} />
+                </dd>
+              </div>
+            ))}
+          </dl>
         </section>
       )}
 
       {from && (
         <section className="card mb-6 overflow-x-auto p-0" aria-labelledby="spec-diff-h">
-          <h2 id="spec-diff-h" className="px-4 pt-3 text-lg">Spec changes</h2>
+          <h2 id="spec-diff-h" className="px-4 pt-3 text-lg">
+            Spec changes
+          </h2>
           {specs.length === 0 ? (
             <p className="px-4 pb-4 pt-1 text-sm text-graphite-soft">No spec changed.</p>
           ) : (
             <table className="mt-2 w-full text-left text-sm" data-testid="spec-diff">
               <thead className="border-y border-rule bg-paper-deep/60 text-xs uppercase tracking-wide text-graphite-soft">
-                <tr><th className="px-4 py-1.5">Change</th><th className="px-3 py-1.5">Spec</th><th className="px-3 py-1.5">Before</th><th className="px-3 py-1.5">After</th></tr>
+                <tr>
+                  <th className="px-4 py-1.5">Change</th>
+                  <th className="px-3 py-1.5">Spec</th>
+                  <th className="px-3 py-1.5">Before</th>
+                  <th className="px-3 py-1.5">After</th>
+                </tr>
               </thead>
               <tbody className="num">
-                {specs.map((c, i) => {
+                {specs.map((c) => {
                   const before = c.kind === "added" ? undefined : c.before;
                   const after = c.kind === "removed" ? undefined : c.after;
                   return (
-                    <tr key={i} className="border-b border-rule/60 align-top last:border-0">
-                      <td className="px-4 py-1.5 font-semibold">{c.kind === "added" ? "Added" : c.kind === "removed" ? "Removed" : `Changed: ${c.kind === "changed" ? c.fields.map((f) => FIELD_WORDS[f]).join(", ") : ""}`}</td>
+                    <tr key={(after ?? before)?.specKey} className="border-b border-rule/60 align-top last:border-0">
+                      <td className="px-4 py-1.5 font-semibold">
+                        {c.kind === "added"
+                          ? "Added"
+                          : c.kind === "removed"
+                            ? "Removed"
+                            : `Changed: ${c.kind === "changed" ? c.fields.map((f) => FIELD_WORDS[f]).join(", ") : ""}`}
+                      </td>
                       <td className="px-3 py-1.5">{(after ?? before)?.label}</td>
                       <td className="px-3 py-1.5">{before ? <Del>{specValue(before)}</Del> : "—"}</td>
                       <td className="px-3 py-1.5">{after ? <Ins>{specValue(after)}</Ins> : "—"}</td>
@@ -145,9 +231,12 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
 
       {from && (
         <section aria-labelledby="text-diff-h">
-          <h2 id="text-diff-h" className="mb-1 text-lg">The page, block by block</h2>
+          <h2 id="text-diff-h" className="mb-1 text-lg">
+            The page, block by block
+          </h2>
           <p className="mb-3 text-sm text-graphite-soft">
-            As the reader sees revision {to.number}. <Ins>Added words</Ins> are underlined, <Del>removed words</Del> struck through; each changed block is labelled in the margin.
+            As the reader sees revision {to.number}. <Ins>Added words</Ins> are underlined, <Del>removed words</Del> struck through; each
+            changed block is labelled in the margin.
           </p>
           <div className="card">
             <CompareBlocks changes={blocks} />

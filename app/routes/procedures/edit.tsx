@@ -18,13 +18,27 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "procedure:edit:own");
   const procedure = await procedureOr404(request, params.slug);
   const rev = await revisionOr404(request, user, procedure, params.number);
-  if (rev.state !== "draft" || !canOnOwned(user, "procedure:edit", rev.authorId)) throw redirect(`/procedures/${procedure.slug}/r/${rev.number}`);
+  if (rev.state !== "draft" || !canOnOwned(user, "procedure:edit", rev.authorId))
+    throw redirect(`/procedures/${procedure.slug}/r/${rev.number}`);
   const [titleMap, people] = await Promise.all([titlesFor(docReferences(rev.doc as JSONNode).procedureIds), reviewPeople(rev)]);
   const titles = Object.fromEntries(titleMap);
   return {
     slug: procedure.slug,
     hasPublished: Boolean(procedure.publishedRevisionId),
-    draft: { id: rev.id, procedureId: procedure.id, number: rev.number, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, titles, returns: people.returns, waiting: Boolean(waitingReturn(rev, people.returns)) },
+    draft: {
+      id: rev.id,
+      procedureId: procedure.id,
+      number: rev.number,
+      version: rev.version,
+      title: rev.title,
+      summary: rev.summary,
+      area: rev.area,
+      tags: rev.tags,
+      doc: rev.doc,
+      titles,
+      returns: people.returns,
+      waiting: Boolean(waitingReturn(rev, people.returns)),
+    },
   };
 }
 
@@ -43,8 +57,14 @@ export default function EditDraft({ loaderData }: Route.ComponentProps) {
         kicker="Editing"
         actions={
           <>
-            <Link className="btn no-underline" to={`/procedures/${slug}/r/${draft.number}`}>Preview</Link>
-            {hasPublished && <Link className="btn no-underline" to={`/procedures/${slug}/compare?to=${draft.number}`}>Compare</Link>}
+            <Link className="btn no-underline" to={`/procedures/${slug}/r/${draft.number}`}>
+              Preview
+            </Link>
+            {hasPublished && (
+              <Link className="btn no-underline" to={`/procedures/${slug}/compare?to=${draft.number}`}>
+                Compare
+              </Link>
+            )}
           </>
         }
       >

@@ -32,8 +32,15 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = parseForm(schema, await readForm(request));
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   try {
-    const { procedure, revision } = await createProcedure(user, { ...parsed.data, tags: normalizeTags(parsed.data.tags), doc: starterDocument() });
-    return redirectWithFlash(`/procedures/${procedure.slug}/r/${revision.number}/edit`, { kind: "ok", message: "Draft started. It saves as you type." });
+    const { procedure, revision } = await createProcedure(user, {
+      ...parsed.data,
+      tags: normalizeTags(parsed.data.tags),
+      doc: starterDocument(),
+    });
+    return redirectWithFlash(`/procedures/${procedure.slug}/r/${revision.number}/edit`, {
+      kind: "ok",
+      message: "Draft started. It saves as you type.",
+    });
   } catch (err) {
     return domainFailure(request, err, "create", parsed.values);
   }
@@ -48,15 +55,30 @@ export default function NewProcedure({ actionData }: Route.ComponentProps) {
       <PageHeader title="Write a new procedure" kicker="Procedures" />
       <Form method="post" className="card max-w-2xl space-y-4" noValidate>
         <FormError message={e.form} />
-        <Field label="Title" name="title" required defaultValue={v.title} error={e.title} hint="Say what is done, e.g. “Head stud installation and torque sequence”." />
+        <Field
+          label="Title"
+          name="title"
+          required
+          defaultValue={v.title}
+          error={e.title}
+          hint="Say what is done, e.g. “Head stud installation and torque sequence”."
+        />
         <SelectField label="Shop area" name="area" defaultValue={v.area ?? "block"} error={e.area}>
-          {AREAS.map((a) => <option key={a} value={a}>{AREA_LABELS[a]}</option>)}
+          {AREAS.map((a) => (
+            <option key={a} value={a}>
+              {AREA_LABELS[a]}
+            </option>
+          ))}
         </SelectField>
         <Field label="Summary" name="summary" defaultValue={v.summary} error={e.summary} hint="One or two sentences shown in the list." />
         <Field label="Tags" name="tags" defaultValue={v.tags} error={e.tags} hint="Comma-separated, e.g. head studs, torque, moly." />
         <div className="flex gap-2">
-          <button className="btn btn-primary" type="submit" disabled={busy}>Start the draft</button>
-          <Link to="/procedures" className="btn no-underline">Cancel</Link>
+          <button className="btn btn-primary" type="submit" disabled={busy}>
+            Start the draft
+          </button>
+          <Link to="/procedures" className="btn no-underline">
+            Cancel
+          </Link>
         </div>
       </Form>
     </>

@@ -42,7 +42,23 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const body = renderRevisionBody(rev, titles);
   return {
     procedure: summary,
-    published: { id: rev.id, number: rev.number, title: rev.title, summary: rev.summary, tags: rev.tags, publishedAt: rev.publishedAt, author, publishedBy, changeNote: rev.changeNote, html: body.html, widgets: body.widgets, units: body.units, specs: around.specs, from: around.from, marks: around.marks },
+    published: {
+      id: rev.id,
+      number: rev.number,
+      title: rev.title,
+      summary: rev.summary,
+      tags: rev.tags,
+      publishedAt: rev.publishedAt,
+      author,
+      publishedBy,
+      changeNote: rev.changeNote,
+      html: body.html,
+      widgets: body.widgets,
+      units: body.units,
+      specs: around.specs,
+      from: around.from,
+      marks: around.marks,
+    },
     open: openVisible,
     flags,
     watching,
@@ -59,19 +75,28 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (intent === "watch" || intent === "unwatch") {
     assertCan(request, user, "procedure:watch");
     await setWatching(user.id, procedure.id, intent === "watch");
-    return redirectWithFlash(`/procedures/${procedure.slug}`, { kind: "ok", message: intent === "watch" ? "You will get an e-mail when a new revision is published." : "You no longer watch this procedure." });
+    return redirectWithFlash(`/procedures/${procedure.slug}`, {
+      kind: "ok",
+      message: intent === "watch" ? "You will get an e-mail when a new revision is published." : "You no longer watch this procedure.",
+    });
   }
   if (intent === "new-draft") {
     assertCan(request, user, "procedure:draft");
     try {
       const open = await openRevisionOf(procedure.id);
       if (open) {
-        if (canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft") throw redirect(`/procedures/${procedure.slug}/r/${open.number}/edit`);
-        throw new DomainError(`Revision ${open.number} is already ${STATE_LABELS[open.state].toLowerCase()}; only one revision is open at a time.`);
+        if (canOnOwned(user, "procedure:edit", open.authorId) && open.state === "draft")
+          throw redirect(`/procedures/${procedure.slug}/r/${open.number}/edit`);
+        throw new DomainError(
+          `Revision ${open.number} is already ${STATE_LABELS[open.state].toLowerCase()}; only one revision is open at a time.`,
+        );
       }
       if (!procedure.publishedRevisionId) throw new DomainError("Nothing is published yet to start from.");
       const rev = await startDraftFrom(user, procedure.publishedRevisionId);
-      return redirectWithFlash(`/procedures/${procedure.slug}/r/${rev.number}/edit`, { kind: "ok", message: `Revision ${rev.number} started from the published page.` });
+      return redirectWithFlash(`/procedures/${procedure.slug}/r/${rev.number}/edit`, {
+        kind: "ok",
+        message: `Revision ${rev.number} started from the published page.`,
+      });
     } catch (err) {
       return domainFailure(request, err, String(intent));
     }
@@ -89,7 +114,8 @@ export default function ReadProcedure({ loaderData, actionData }: Route.Componen
       <>
         <PageHeader title={procedure.title} kicker="Not published yet" />
         <p className="card">
-          Revision {open!.number} is {STATE_LABELS[open!.state].toLowerCase()}. <Link to={openLink!}>Open it</Link> · <Link to={`/procedures/${slug}/history`}>History</Link>
+          Revision {open!.number} is {STATE_LABELS[open!.state].toLowerCase()}. <Link to={openLink!}>Open it</Link> ·{" "}
+          <Link to={`/procedures/${slug}/history`}>History</Link>
         </p>
       </>
     );
@@ -108,36 +134,60 @@ export default function ReadProcedure({ loaderData, actionData }: Route.Componen
         {flags.canDraft && !open && (
           <Form method="post">
             <input type="hidden" name="intent" value="new-draft" />
-            <button className="btn w-full" type="submit">Start a new draft</button>
+            <button className="btn w-full" type="submit">
+              Start a new draft
+            </button>
           </Form>
         )}
         {open && openLink && (
           <p className="rounded-md bg-brass-soft/60 px-3 py-2">
-            Revision {open.number} is {STATE_LABELS[open.state].toLowerCase()}. <Link to={openLink}>{flags.canEditOpen ? "Continue the draft" : "Open it"}</Link>
-            {open.state === "in_review" && flags.canReview && <> · <Link to={`/procedures/${slug}/compare?to=${open.number}`}>Compare</Link></>}
+            Revision {open.number} is {STATE_LABELS[open.state].toLowerCase()}.{" "}
+            <Link to={openLink}>{flags.canEditOpen ? "Continue the draft" : "Open it"}</Link>
+            {open.state === "in_review" && flags.canReview && (
+              <>
+                {" "}
+                · <Link to={`/procedures/${slug}/compare?to=${open.number}`}>Compare</Link>
+              </>
+            )}
           </p>
         )}
         <p className="flex flex-wrap gap-x-3 gap-y-1 pt-1">
           <Link to={`/procedures/${slug}/history`}>History</Link>
           <Link to={`/procedures/${slug}/print`}>Print view</Link>
         </p>
-        {err && <p role="alert" className="text-spec-red">{err}</p>}
+        {err && (
+          <p role="alert" className="text-spec-red">
+            {err}
+          </p>
+        )}
       </div>
       <section className="card p-4" aria-labelledby="linked-h">
-        <h2 id="linked-h" className="text-base">Linked from</h2>
+        <h2 id="linked-h" className="text-base">
+          Linked from
+        </h2>
         {published.from.length ? (
-          <ul className="mt-1 space-y-1">{published.from.map((f) => <li key={f.slug}><Link to={`/procedures/${f.slug}`}>{f.title}</Link></li>)}</ul>
+          <ul className="mt-1 space-y-1">
+            {published.from.map((f) => (
+              <li key={f.slug}>
+                <Link to={`/procedures/${f.slug}`}>{f.title}</Link>
+              </li>
+            ))}
+          </ul>
         ) : (
           <p className="mt-1 text-graphite-soft">No published procedure links here yet.</p>
         )}
       </section>
       <section className="card p-4" aria-labelledby="marks-h">
-        <h2 id="marks-h" className="text-base">Referenced in recordings</h2>
+        <h2 id="marks-h" className="text-base">
+          Referenced in recordings
+        </h2>
         {published.marks.length ? (
           <ul className="mt-1 space-y-1.5">
             {published.marks.map((m) => (
               <li key={m.id}>
-                <Link to={`/recordings/${m.recordingId}?t=${Math.floor(m.tStart)}`}><span className="num font-semibold">{formatSeconds(m.tStart)}</span> {m.text}</Link>
+                <Link to={`/recordings/${m.recordingId}?t=${Math.floor(m.tStart)}`}>
+                  <span className="num font-semibold">{formatSeconds(m.tStart)}</span> {m.text}
+                </Link>
                 <div className="text-xs text-graphite-soft">{m.recordingTitle}</div>
               </li>
             ))}
@@ -164,7 +214,13 @@ export default function ReadProcedure({ loaderData, actionData }: Route.Componen
       units={published.units}
       specs={published.specs}
       aside={aside}
-      banner={published.changeNote ? <p className="no-print mb-3 text-sm text-graphite-soft">Latest change ({fmtDate(published.publishedAt)}): {published.changeNote}</p> : null}
+      banner={
+        published.changeNote ? (
+          <p className="no-print mb-3 text-sm text-graphite-soft">
+            Latest change ({fmtDate(published.publishedAt)}): {published.changeNote}
+          </p>
+        ) : null
+      }
     />
   );
 }

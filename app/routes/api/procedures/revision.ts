@@ -24,8 +24,20 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "procedure:view-drafts:own");
   const rev = await revisionById(parseParams(request, idParams, params, "revision").id);
   if (!rev) return Response.json({ error: "not found" }, { status: 404 });
-  if (!canSeeRevision(user, rev)) return Response.json({ error: "forbidden", reason: "Drafts are open to their author and the editors." }, { status: 403 });
-  return Response.json({ id: rev.id, number: rev.number, state: rev.state, version: rev.version, title: rev.title, summary: rev.summary, area: rev.area, tags: rev.tags, doc: rev.doc, updatedAt: rev.updatedAt });
+  if (!canSeeRevision(user, rev))
+    return Response.json({ error: "forbidden", reason: "Drafts are open to their author and the editors." }, { status: 403 });
+  return Response.json({
+    id: rev.id,
+    number: rev.number,
+    state: rev.state,
+    version: rev.version,
+    title: rev.title,
+    summary: rev.summary,
+    area: rev.area,
+    tags: rev.tags,
+    doc: rev.doc,
+    updatedAt: rev.updatedAt,
+  });
 }
 
 /** Autosave: JSON { baseVersion, title, summary, area, tags, doc }. 409 on a conflict (the loser's text is kept as a conflict copy); 422 only for what no draft may hold. */
@@ -37,7 +49,15 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!parsed.success) return invalidInput(request, parsed.error);
   try {
     const r = await saveDraft(user, id, { ...parsed.data, tags: normalizeTags(parsed.data.tags) });
-    if (!r.ok) return Response.json({ error: "conflict", message: `${r.current.savedBy ?? "Someone"} saved this draft while you were editing. Your version was not lost: it is kept as a conflict copy.`, ...r }, { status: 409 });
+    if (!r.ok)
+      return Response.json(
+        {
+          error: "conflict",
+          message: `${r.current.savedBy ?? "Someone"} saved this draft while you were editing. Your version was not lost: it is kept as a conflict copy.`,
+          ...r,
+        },
+        { status: 409 },
+      );
     // Saved even with blocks half done: `incomplete` lists them, for the editor's marks and the submit check.
     return Response.json({ ok: true, version: r.version, savedAt: r.updatedAt, warnings: r.warnings, incomplete: r.incomplete });
   } catch (err) {

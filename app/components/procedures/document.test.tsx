@@ -1,12 +1,16 @@
+// The stored document from sanitizing to the read view's HTML: what is kept, refused, and never rendered live.
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
-import { renderDoc } from "~/components/procedures/DocView";
-import { blockTexts, countWords, incompleteBlocks, safeHref, sanitizeDocument, type JSONNode } from "./document";
-import { structureProblem } from "./schema-check.server";
+import { renderDoc } from "./DocView";
+import { blockTexts, countWords, incompleteBlocks, safeHref, sanitizeDocument, type JSONNode } from "~/lib/procedures/document";
+import { structureProblem } from "~/lib/procedures/schema-check.server";
 
-const para = (text: string, marks?: JSONNode["marks"]): JSONNode => ({ type: "paragraph", content: [{ type: "text", text, ...(marks ? { marks } : {}) }] });
+const para = (text: string, marks?: JSONNode["marks"]): JSONNode => ({
+  type: "paragraph",
+  content: [{ type: "text", text, ...(marks ? { marks } : {}) }],
+});
 const docOf = (...content: unknown[]) => ({ type: "doc", content });
-const render = (doc: JSONNode) => renderToStaticMarkup(<>{renderDoc(doc, { procedures: new Map(), recordings: new Map() })}</>);
+const render = (doc: JSONNode) => renderToStaticMarkup(renderDoc(doc, { procedures: new Map(), recordings: new Map() }));
 
 describe("sanitizeDocument", () => {
   it("keeps a valid document with our blocks", () => {
@@ -23,14 +27,21 @@ describe("sanitizeDocument", () => {
 
   it("refuses unknown node and mark types, and documents that are not documents", () => {
     expect(sanitizeDocument(docOf({ type: "iframe", attrs: { src: "https://x" } })).ok).toBe(false);
-    expect(sanitizeDocument(docOf({ type: "paragraph", content: [{ type: "text", text: "x", marks: [{ type: "onclick" }] }] })).ok).toBe(false);
+    expect(sanitizeDocument(docOf({ type: "paragraph", content: [{ type: "text", text: "x", marks: [{ type: "onclick" }] }] })).ok).toBe(
+      false,
+    );
     expect(sanitizeDocument({ type: "paragraph" }).ok).toBe(false);
     expect(sanitizeDocument("<p>hi</p>").ok).toBe(false);
     expect(sanitizeDocument(null).ok).toBe(false);
   });
 
   it("drops attributes outside the schema", () => {
-    const r = sanitizeDocument(docOf({ type: "paragraph", attrs: { style: "x", onclick: "alert(1)" }, content: [{ type: "text", text: "a" }] }, { type: "heading", attrs: { level: 2, class: "evil", id: "x" }, content: [{ type: "text", text: "h" }] }));
+    const r = sanitizeDocument(
+      docOf(
+        { type: "paragraph", attrs: { style: "x", onclick: "alert(1)" }, content: [{ type: "text", text: "a" }] },
+        { type: "heading", attrs: { level: 2, class: "evil", id: "x" }, content: [{ type: "text", text: "h" }] },
+      ),
+    );
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.doc.content![0].attrs).toBeUndefined();
@@ -38,7 +49,13 @@ describe("sanitizeDocument", () => {
   });
 
   it("keeps an incomplete spec block and names what it lacks in plain words; refuses values no gauge reads", () => {
-    const spec = (a: Record<string, unknown>) => sanitizeDocument(docOf({ type: "spec", attrs: { id: "s", label: "Bore", quantity: "length", unit: "mm", nominal: null, min: null, max: null, ...a } }));
+    const spec = (a: Record<string, unknown>) =>
+      sanitizeDocument(
+        docOf({
+          type: "spec",
+          attrs: { id: "s", label: "Bore", quantity: "length", unit: "mm", nominal: null, min: null, max: null, ...a },
+        }),
+      );
     const problems = (a: Record<string, unknown>) => {
       const r = spec(a);
       expect(r.ok).toBe(true);
@@ -49,7 +66,10 @@ describe("sanitizeDocument", () => {
     expect(problems({})).toEqual(["Give a nominal value or a limit"]);
     expect(problems({ min: 2, max: 1 })).toEqual(["The minimum is above the maximum"]);
     expect(problems({ nominal: 5, min: 6, max: 7 })).toEqual(["The nominal lies outside the limits"]);
-    expect(problems({ label: "", quantity: null, unit: null, nominal: 1 })).toEqual(["Give the spec a label", "Choose what the spec measures"]);
+    expect(problems({ label: "", quantity: null, unit: null, nominal: 1 })).toEqual([
+      "Give the spec a label",
+      "Choose what the spec measures",
+    ]);
     const huge = spec({ nominal: 1e308 });
     expect(huge.ok).toBe(false);
     if (!huge.ok) expect(huge.errors[0].message).toMatch(/^Spec “Bore”, nominal: .*gauge/);
@@ -79,7 +99,15 @@ describe("sanitizeDocument", () => {
       docOf(
         { type: "heading", attrs: { level: 2 }, content: [{ type: "text", text: "Tools and parts" }] },
         { type: "bulletList", content: [item({ type: "paragraph" })] },
-        { type: "orderedList", attrs: { start: 1 }, content: [item(para("Chase the threads.")), item({ type: "paragraph" }), item(para("Blow out."), { type: "bulletList", content: [item({ type: "paragraph" })] })] },
+        {
+          type: "orderedList",
+          attrs: { start: 1 },
+          content: [
+            item(para("Chase the threads.")),
+            item({ type: "paragraph" }),
+            item(para("Blow out."), { type: "bulletList", content: [item({ type: "paragraph" })] }),
+          ],
+        },
       ),
     );
     expect(r.ok).toBe(true);
@@ -101,14 +129,34 @@ describe("sanitizeDocument", () => {
   });
 
   it("checks calculator presets against the calc schemas and video moments' times", () => {
-    expect(sanitizeDocument(docOf({ type: "calculator", attrs: { kind: "preload", preset: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } } } })).ok).toBe(true);
-    const bad = sanitizeDocument(docOf({ type: "calculator", attrs: { kind: "preload", preset: { thread: "M99z", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } } } }));
+    expect(
+      sanitizeDocument(
+        docOf({
+          type: "calculator",
+          attrs: {
+            kind: "preload",
+            preset: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } },
+          },
+        }),
+      ).ok,
+    ).toBe(true);
+    const bad = sanitizeDocument(
+      docOf({
+        type: "calculator",
+        attrs: {
+          kind: "preload",
+          preset: { thread: "M99z", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } },
+        },
+      }),
+    );
     expect(bad.ok && incompleteBlocks(bad.doc)[0].problems[0].message).toMatch(/^Check the calculator's inputs/);
     expect(sanitizeDocument(docOf({ type: "calculator", attrs: { kind: "rocket", preset: {} } })).ok).toBe(false);
     const id = "5eed0000-0000-4000-8000-00000000c1a9";
     expect(sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: id, start: 12, end: 20, caption: "x" } })).ok).toBe(true);
     const backwards = sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: id, start: 12, end: 5 } }));
-    expect(backwards.ok && incompleteBlocks(backwards.doc)[0].problems.map((p) => p.message)).toEqual(["The end must come after the start"]);
+    expect(backwards.ok && incompleteBlocks(backwards.doc)[0].problems.map((p) => p.message)).toEqual([
+      "The end must come after the start",
+    ]);
     // Not a recording id: stored as no recording at all, and the block asks for one.
     const odd = sanitizeDocument(docOf({ type: "videoMoment", attrs: { recordingId: "../../etc/passwd", start: 1 } }));
     expect(odd.ok && odd.doc.content![0].attrs!.recordingId).toBeNull();
@@ -161,14 +209,45 @@ const VECTORS: unknown[] = [
   para("click", [{ type: "link", attrs: { href: "vbscript:msgbox(1)" } }]),
   para("click", [{ type: "link", attrs: { href: 'https://ok.example" onmouseover="alert(1)' } }]),
   para("click", [{ type: "link", attrs: { href: "https://ok.example", onclick: "alert(1)", target: "_self" } }]),
-  { type: "paragraph", attrs: { onclick: "alert(1)", style: "background:url(javascript:alert(1))" }, content: [{ type: "text", text: "a" }] },
+  {
+    type: "paragraph",
+    attrs: { onclick: "alert(1)", style: "background:url(javascript:alert(1))" },
+    content: [{ type: "text", text: "a" }],
+  },
   { type: "heading", attrs: { level: '2 onmouseover="alert(1)"' }, content: [{ type: "text", text: "h" }] },
   { type: "codeBlock", attrs: { language: '"><script>alert(1)</script>' }, content: [{ type: "text", text: "code" }] },
   { type: "orderedList", attrs: { start: '1" onclick="alert(1)' }, content: [{ type: "listItem", content: [para("a")] }] },
-  { type: "spec", attrs: { id: 's"><script>alert(1)</script>', label: "<script>alert(1)</script>", quantity: "torque", unit: "N.m", nominal: 1, note: "<img src=x onerror=alert(1)>" } },
-  { type: "calculator", attrs: { kind: "preload", title: "<script>alert(1)</script>", preset: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } } } },
+  {
+    type: "spec",
+    attrs: {
+      id: 's"><script>alert(1)</script>',
+      label: "<script>alert(1)</script>",
+      quantity: "torque",
+      unit: "N.m",
+      nominal: 1,
+      note: "<img src=x onerror=alert(1)>",
+    },
+  },
+  {
+    type: "calculator",
+    attrs: {
+      kind: "preload",
+      title: "<script>alert(1)</script>",
+      preset: { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 } },
+    },
+  },
   { type: "videoMoment", attrs: { recordingId: "5eed0000-0000-4000-8000-00000000c1a9", start: 1, caption: "<script>alert(1)</script>" } },
-  { type: "table", content: [{ type: "tableRow", content: [{ type: "tableCell", attrs: { colspan: '1" onclick="alert(1)', style: "x" }, content: [para("<b onmouseover=alert(1)>x</b>")] }] }] },
+  {
+    type: "table",
+    content: [
+      {
+        type: "tableRow",
+        content: [
+          { type: "tableCell", attrs: { colspan: '1" onclick="alert(1)', style: "x" }, content: [para("<b onmouseover=alert(1)>x</b>")] },
+        ],
+      },
+    ],
+  },
   { type: "caution", content: [para("<a href=javascript:alert(1)>x</a>")] },
   { type: "paragraph", content: [{ type: "text", text: "x", marks: [{ type: "bold", attrs: { onclick: "alert(1)" } }] }] },
   { type: "blockquote", content: [para("<style>body{background:url(javascript:alert(1))}</style>")] },
@@ -205,12 +284,35 @@ describe("plain text per block", () => {
     const id = "0b7f3d5e-1c44-4f7b-9a34-6f8d2e1a0c11";
     const doc = docOf(
       { type: "heading", attrs: { level: 2 }, content: [{ type: "text", text: "Steps" }] },
-      { type: "orderedList", content: [{ type: "listItem", content: [para("Clean the threads.")] }, { type: "listItem", content: [{ type: "paragraph", content: [{ type: "text", text: "See " }, { type: "procedureLink", attrs: { procedureId: id } }] }] }] },
+      {
+        type: "orderedList",
+        content: [
+          { type: "listItem", content: [para("Clean the threads.")] },
+          {
+            type: "listItem",
+            content: [
+              {
+                type: "paragraph",
+                content: [
+                  { type: "text", text: "See " },
+                  { type: "procedureLink", attrs: { procedureId: id } },
+                ],
+              },
+            ],
+          },
+        ],
+      },
       { type: "caution", content: [para("Do not reuse studs.")] },
       { type: "spec", attrs: { id: "s1", label: "Torque", quantity: "torque", unit: "N.m", nominal: 110 } },
     ) as JSONNode;
     const blocks = blockTexts(doc, (x) => (x === id ? "Thread chasing" : undefined));
-    expect(blocks.map((b) => b.text)).toEqual(["## Steps", "• Clean the threads.", "• See → Thread chasing", "Caution: Do not reuse studs.", "Spec: Torque — nominal 110 N.m"]);
+    expect(blocks.map((b) => b.text)).toEqual([
+      "## Steps",
+      "• Clean the threads.",
+      "• See → Thread chasing",
+      "Caution: Do not reuse studs.",
+      "Spec: Torque — nominal 110 N.m",
+    ]);
     expect(blocks[4]).toMatchObject({ type: "spec", key: "s1" });
     expect(countWords(doc)).toBe(9);
   });
