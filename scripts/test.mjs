@@ -93,7 +93,7 @@ try {
   // Biome (lint rules, the app/lib layering, the format) and knip (dead files, exports, dependencies).
   // Two phases, so that a lint failure still shows what knip finds.
   if (wants("lint")) {
-    await phase("lint (biome)", () => runWith(bin("biome"), ["ci", "."]));
+    await phase("lint (biome)", () => runWith(bin("biome"), ["ci", "--error-on-warnings", "."]));
     await phase("dead code (knip)", () => runWith(bin("knip"), []));
   }
   if (wants("typecheck")) await phase("typecheck", () => runWith("npm", ["run", "-s", "typecheck"]));

@@ -23,19 +23,25 @@ export function AppHeader({ user, searchSlot }: { user: SessionUser; searchSlot?
   return (
     <header className="no-print border-b border-rule bg-paper-deep/70">
       {/* The first Tab of every page offers to jump past the header and the menu. */}
-      <a href="#main" className="btn sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:z-50">Skip to the page</a>
+      <a href="#main" className="btn sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:z-50">
+        Skip to the page
+      </a>
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-5 pt-3">
         <Wordmark />
-        <div className="order-3 w-full md:order-none md:w-auto md:flex-1">
-          {searchSlot ?? <HeaderSearch />}
-        </div>
+        <div className="order-3 w-full md:order-none md:w-auto md:flex-1">{searchSlot ?? <HeaderSearch />}</div>
         <div className="ml-auto flex items-center gap-3 text-sm">
           <Link to="/account" className="text-right leading-tight text-graphite no-underline hover:underline">
-            <span className="block font-semibold" data-testid="user-name">{user.name}</span>
-            <span className="block text-xs text-graphite-soft" data-testid="user-role">{ROLE_LABELS[user.role]}</span>
+            <span className="block font-semibold" data-testid="user-name">
+              {user.name}
+            </span>
+            <span className="block text-xs text-graphite-soft" data-testid="user-role">
+              {ROLE_LABELS[user.role]}
+            </span>
           </Link>
           <Form method="post" action="/signout">
-            <button type="submit" className="btn py-1.5">Sign out</button>
+            <button type="submit" className="btn py-1.5">
+              Sign out
+            </button>
           </Form>
         </div>
       </div>
@@ -73,7 +79,12 @@ export function FlashBanner({ flash }: { flash: { kind: keyof typeof FLASH_TONES
   if (!flash) return null;
   const tone = FLASH_TONES[flash.kind] ?? FLASH_TONES.ok;
   return (
-    <div role="status" className={`mb-6 rounded-md border px-4 py-3 text-sm font-semibold ${tone}`} data-testid="flash" data-kind={flash.kind}>
+    <div
+      role="status"
+      className={`mb-6 rounded-md border px-4 py-3 text-sm font-semibold ${tone}`}
+      data-testid="flash"
+      data-kind={flash.kind}
+    >
       {flash.message}
     </div>
   );

@@ -8,7 +8,9 @@ export function Field({ label, name, error, hint, id, ...rest }: FieldProps) {
   const fieldId = id ?? `f-${name}`;
   return (
     <div>
-      <label htmlFor={fieldId} className="label">{label}</label>
+      <label htmlFor={fieldId} className="label">
+        {label}
+      </label>
       <input
         id={fieldId}
         name={name}
@@ -18,7 +20,11 @@ export function Field({ label, name, error, hint, id, ...rest }: FieldProps) {
         {...rest}
       />
       {hint && !error && <p className="mt-1 text-sm text-graphite-soft">{hint}</p>}
-      {error && <p id={`${fieldId}-error`} className="field-error" role="alert">{error}</p>}
+      {error && (
+        <p id={`${fieldId}-error`} className="field-error" role="alert">
+          {error}
+        </p>
+      )}
     </div>
   );
 }
@@ -29,11 +35,24 @@ export function SelectField({ label, name, error, id, children, ...rest }: Selec
   const fieldId = id ?? `f-${name}`;
   return (
     <div>
-      <label htmlFor={fieldId} className="label">{label}</label>
-      <select id={fieldId} name={name} className="field" aria-invalid={error ? true : undefined} aria-describedby={error ? `${fieldId}-error` : undefined} {...rest}>
+      <label htmlFor={fieldId} className="label">
+        {label}
+      </label>
+      <select
+        id={fieldId}
+        name={name}
+        className="field"
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${fieldId}-error` : undefined}
+        {...rest}
+      >
         {children}
       </select>
-      {error && <p id={`${fieldId}-error`} className="field-error" role="alert">{error}</p>}
+      {error && (
+        <p id={`${fieldId}-error`} className="field-error" role="alert">
+          {error}
+        </p>
+      )}
     </div>
   );
 }
@@ -41,7 +60,12 @@ export function SelectField({ label, name, error, id, children, ...rest }: Selec
 export function FormError({ message }: { message?: string }) {
   if (!message) return null;
   return (
-    <div role="alert" tabIndex={-1} data-form-error className="rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-3 text-sm text-spec-red">
+    <div
+      role="alert"
+      tabIndex={-1}
+      data-form-error
+      className="rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-3 text-sm text-spec-red"
+    >
       {message}
     </div>
   );

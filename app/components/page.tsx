@@ -1,6 +1,16 @@
 import type { ReactNode } from "react";
 
-export function PageHeader({ title, kicker, actions, children }: { title: string; kicker?: string; actions?: ReactNode; children?: ReactNode }) {
+export function PageHeader({
+  title,
+  kicker,
+  actions,
+  children,
+}: {
+  title: string;
+  kicker?: string;
+  actions?: ReactNode;
+  children?: ReactNode;
+}) {
   return (
     <header className="mb-6 flex flex-wrap items-end justify-between gap-4 border-b border-rule pb-4">
       <div className="min-w-0">

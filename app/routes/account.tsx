@@ -22,7 +22,12 @@ const profileSchema = z.object({
   unitSystem: z.enum(["metric", "inch"], { message: "Choose metric or inch." }),
 });
 const passwordSchema = z
-  .object({ intent: z.literal("password"), current: z.string().min(1, "Enter your current password."), password: newPasswordSchema, confirm: z.string() })
+  .object({
+    intent: z.literal("password"),
+    current: z.string().min(1, "Enter your current password."),
+    password: newPasswordSchema,
+    confirm: z.string(),
+  })
   .refine((v) => v.password === v.confirm, { message: "The two passwords differ.", path: ["confirm"] });
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -40,7 +45,10 @@ export async function action({ request }: Route.ActionArgs) {
     const change = await changePassword(user, session!.session.id, clientAddress(request), parsed.data.current, parsed.data.password);
     if (!change.ok) {
       const headers = change.retryAfterSec ? { "Retry-After": String(change.retryAfterSec) } : undefined;
-      return data({ intent: "password", errors: { current: change.message } as Record<string, string> }, { status: change.status, headers });
+      return data(
+        { intent: "password", errors: { current: change.message } as Record<string, string> },
+        { status: change.status, headers },
+      );
     }
     return redirectWithFlash("/account", { kind: "ok", message: "Password changed. Your other sessions are signed out." });
   }
@@ -56,7 +64,9 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
   const pw: Record<string, string> = actionData?.intent === "password" ? actionData.errors : {};
   return (
     <>
-      <PageHeader title="Your account" kicker={ROLE_LABELS[user.role]}>{user.email}</PageHeader>
+      <PageHeader title="Your account" kicker={ROLE_LABELS[user.role]}>
+        {user.email}
+      </PageHeader>
       <div className="grid gap-6 md:grid-cols-2">
         <Form method="post" className="card space-y-4">
           <h2 className="text-lg">Profile and units</h2>
@@ -67,16 +77,27 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
             <option value="inch">Inch (in, ft·lbf, lbf, °F)</option>
           </SelectField>
           <p className="text-sm text-graphite-soft">Calculators and readings open in these units; you can still switch any field.</p>
-          <button className="btn btn-primary" type="submit">Save</button>
+          <button className="btn btn-primary" type="submit">
+            Save
+          </button>
         </Form>
         <Form method="post" className="card space-y-4">
           <h2 className="text-lg">Password</h2>
           <input type="hidden" name="intent" value="password" />
           <FormError message={pw.form} />
           <Field label="Current password" name="current" type="password" autoComplete="current-password" error={pw.current} />
-          <Field label="New password" name="password" type="password" autoComplete="new-password" error={pw.password} hint="At least 10 characters." />
+          <Field
+            label="New password"
+            name="password"
+            type="password"
+            autoComplete="new-password"
+            error={pw.password}
+            hint="At least 10 characters."
+          />
           <Field label="New password again" name="confirm" type="password" autoComplete="new-password" error={pw.confirm} />
-          <button className="btn" type="submit">Change password</button>
+          <button className="btn" type="submit">
+            Change password
+          </button>
         </Form>
       </div>
     </>

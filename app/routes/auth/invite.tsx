@@ -1,4 +1,4 @@
-import { data, Form, Link, redirect } from "react-router";
+import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/invite";
 import { readForm } from "~/lib/edge.server";
@@ -35,7 +35,11 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     const userId = await acceptInvitation(params.token, parsed.data.name, parsed.data.password);
     const cookie = await startSession(request, userId);
-    return redirectWithFlash("/", { kind: "ok", message: `Welcome to Benchreel, ${parsed.data.name}.` }, { headers: { "Set-Cookie": cookie } });
+    return redirectWithFlash(
+      "/",
+      { kind: "ok", message: `Welcome to Benchreel, ${parsed.data.name}.` },
+      { headers: { "Set-Cookie": cookie } },
+    );
   } catch (err) {
     return domainFailure(request, err, "", parsed.values);
   }
@@ -44,11 +48,17 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function Invite({ loaderData, actionData }: Route.ComponentProps) {
   const errors: Record<string, string> = actionData?.errors ?? {};
   if (loaderData.state !== "valid") {
-    const why = { used: "This invitation has already been used.", expired: "This invitation has expired.", unknown: "This invitation link is not valid." }[loaderData.state];
+    const why = {
+      used: "This invitation has already been used.",
+      expired: "This invitation has expired.",
+      unknown: "This invitation link is not valid.",
+    }[loaderData.state];
     return (
       <AuthCard title="Invitation">
         <p>{why}</p>
-        <p className="mt-3 text-sm text-graphite-soft">Ask the shop's admin for a new invitation, or <Link to="/signin">sign in</Link> if you already have an account.</p>
+        <p className="mt-3 text-sm text-graphite-soft">
+          Ask the shop's admin for a new invitation, or <Link to="/signin">sign in</Link> if you already have an account.
+        </p>
       </AuthCard>
     );
   }
@@ -60,9 +70,19 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
       <Form method="post" className="space-y-4" noValidate>
         <FormError message={errors.form} />
         <Field label="Your name" name="name" autoComplete="name" required defaultValue={actionData?.values?.name} error={errors.name} />
-        <Field label="Password" name="password" type="password" autoComplete="new-password" required error={errors.password} hint="At least 10 characters." />
+        <Field
+          label="Password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          required
+          error={errors.password}
+          hint="At least 10 characters."
+        />
         <Field label="Password again" name="confirm" type="password" autoComplete="new-password" required error={errors.confirm} />
-        <button className="btn btn-primary w-full" type="submit">Create my account</button>
+        <button className="btn btn-primary w-full" type="submit">
+          Create my account
+        </button>
       </Form>
     </AuthCard>
   );

@@ -25,7 +25,10 @@ export async function action({ request }: Route.ActionArgs) {
   const refused = await requestPasswordReset(parsed.data.email, clientAddress(request));
   if (refused) {
     const headers = { "Retry-After": String(refused.retryAfterSec) };
-    return data({ errors: { form: resetRefusalMessage(refused) } as Record<string, string>, values: parsed.values, sent: false }, { status: 429, headers });
+    return data(
+      { errors: { form: resetRefusalMessage(refused) } as Record<string, string>, values: parsed.values, sent: false },
+      { status: 429, headers },
+    );
   }
   return { errors: {} as Record<string, string>, values: parsed.values, sent: true };
 }
@@ -34,7 +37,10 @@ export default function ResetRequest({ actionData }: Route.ComponentProps) {
   if (actionData?.sent) {
     return (
       <AuthCard title="Check your e-mail" footer={<Link to="/signin">Back to sign-in</Link>}>
-        <p>If an account uses <strong>{actionData.values.email}</strong>, a link to choose a new password is on its way. It works once, for one hour.</p>
+        <p>
+          If an account uses <strong>{actionData.values.email}</strong>, a link to choose a new password is on its way. It works once, for
+          one hour.
+        </p>
       </AuthCard>
     );
   }
@@ -43,8 +49,18 @@ export default function ResetRequest({ actionData }: Route.ComponentProps) {
     <AuthCard title="Reset your password" footer={<Link to="/signin">Back to sign-in</Link>}>
       <Form method="post" className="space-y-4" noValidate>
         <FormError message={errors.form} />
-        <Field label="E-mail" name="email" type="email" autoComplete="username" required defaultValue={actionData?.values?.email} error={errors.email} />
-        <button className="btn btn-primary w-full" type="submit">Send me a link</button>
+        <Field
+          label="E-mail"
+          name="email"
+          type="email"
+          autoComplete="username"
+          required
+          defaultValue={actionData?.values?.email}
+          error={errors.email}
+        />
+        <button className="btn btn-primary w-full" type="submit">
+          Send me a link
+        </button>
       </Form>
     </AuthCard>
   );

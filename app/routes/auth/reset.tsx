@@ -37,7 +37,11 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function Reset({ loaderData, actionData }: Route.ComponentProps) {
   const errors: Record<string, string> = actionData?.errors ?? {};
   if (loaderData.state !== "valid") {
-    const why = { used: "This reset link has already been used.", expired: "This reset link has expired.", unknown: "This reset link is not valid." }[loaderData.state];
+    const why = {
+      used: "This reset link has already been used.",
+      expired: "This reset link has expired.",
+      unknown: "This reset link is not valid.",
+    }[loaderData.state];
     return (
       <AuthCard title="Reset link" footer={<Link to="/reset">Ask for a new link</Link>}>
         <p>{why}</p>
@@ -48,9 +52,19 @@ export default function Reset({ loaderData, actionData }: Route.ComponentProps) 
     <AuthCard title="Choose a new password">
       <Form method="post" className="space-y-4" noValidate>
         <FormError message={errors.form} />
-        <Field label="New password" name="password" type="password" autoComplete="new-password" required error={errors.password} hint="At least 10 characters." />
+        <Field
+          label="New password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          required
+          error={errors.password}
+          hint="At least 10 characters."
+        />
         <Field label="New password again" name="confirm" type="password" autoComplete="new-password" required error={errors.confirm} />
-        <button className="btn btn-primary w-full" type="submit">Save the new password</button>
+        <button className="btn btn-primary w-full" type="submit">
+          Save the new password
+        </button>
       </Form>
     </AuthCard>
   );

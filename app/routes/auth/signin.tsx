@@ -58,9 +58,20 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
       <Form method="post" className="space-y-4" noValidate>
         <FormError message={errors.form} />
         <input type="hidden" name="next" value={loaderData.next} />
-        <Field label="E-mail" name="email" type="email" autoComplete="username" required defaultValue={actionData?.values?.email} error={errors.email} autoFocus />
+        <Field
+          label="E-mail"
+          name="email"
+          type="email"
+          autoComplete="username"
+          required
+          defaultValue={actionData?.values?.email}
+          error={errors.email}
+          autoFocus
+        />
         <Field label="Password" name="password" type="password" autoComplete="current-password" required error={errors.password} />
-        <button type="submit" className="btn btn-primary w-full" disabled={busy}>{busy ? "Signing in…" : "Sign in"}</button>
+        <button type="submit" className="btn btn-primary w-full" disabled={busy}>
+          {busy ? "Signing in…" : "Sign in"}
+        </button>
       </Form>
     </AuthCard>
   );
