@@ -77,7 +77,6 @@ export function parseSearch<S extends z.ZodType>(request: Request, schema: S): z
 /**
  * A NUL in any search param (or a malformed one) is refused for every route at once, by the
  * root middleware: no query of ours can use it, and PostgreSQL refuses it in any text.
- * (GET /api/search, answered without React Router, calls it too.)
  */
 export function urlRefusal(request: { url: string }): Response | null {
   let url: URL;

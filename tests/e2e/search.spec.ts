@@ -15,7 +15,7 @@ test("the header box shows grouped results as you type; a mark hit opens the pla
     await page.keyboard.press("/");
     await expect(page.locator("#header-search")).toBeFocused({ timeout: 500 });
   }).toPass({ timeout: 10_000 });
-  // The box's fetcher asks /api/search for plain JSON (the path server.js answers directly),
+  // The box's fetcher asks /api/search for plain JSON (the route's clientLoader),
   // never React Router's `.data` request.
   const asked: string[] = [];
   page.on("request", (r) => {
