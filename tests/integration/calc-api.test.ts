@@ -184,19 +184,9 @@ describe("POST /api/calc/distortion", () => {
 
 describe("POST /api/calc/clearance", () => {
   it("piston-to-wall, cold and hot (ΔD = D·α·ΔT), within its spec", async () => {
-    const res = await post("clearance", {
-      kind: "piston-to-wall",
-      bore: { value: 88.0, unit: "mm" },
-      piston: { value: 87.93, unit: "mm" },
-      thermal: {
-        ambient: { value: 20, unit: "degC" },
-        boreTemperature: { value: 100, unit: "degC" },
-        pistonTemperature: { value: 200, unit: "degC" },
-        boreMaterial: { alphaPerK: 11e-6 },
-        pistonMaterial: { alphaPerK: 22e-6 },
-      },
-      spec: { min: { value: 0.06, unit: "mm" }, max: { value: 0.08, unit: "mm" } },
-    });
+    // 88.0 mm bore, 87.93 mm piston, from 20 °C, with the coefficients typed
+    const thermal = { boreTemperature: { value: 100, unit: "degC" }, pistonTemperature: { value: 200, unit: "degC" }, boreMaterial: { alphaPerK: 11e-6 }, pistonMaterial: { alphaPerK: 22e-6 } };
+    const res = await post("clearance", { ...hotPistonToWall(thermal), spec: { min: { value: 0.06, unit: "mm" }, max: { value: 0.08, unit: "mm" } } });
     expect(res.status).toBe(200);
     const body = await res.json();
     expect(body.clearance_mm).toBeCloseTo(0.07, 9);

@@ -56,6 +56,18 @@ export function UnitSelect({
   );
 }
 
+/** Under a field: its error when it has one (named by the field's aria-describedby), else its hint. */
+function FieldNote({ id, hint, error, block }: { id: string; hint?: ReactNode; error?: string; block?: boolean }) {
+  if (error)
+    return (
+      <p id={`${id}-error`} className="field-error" role="alert">
+        {error}
+      </p>
+    );
+  if (!hint) return null;
+  return block ? <div className="mt-1 text-xs text-graphite-soft">{hint}</div> : <p className="mt-1 text-xs text-graphite-soft">{hint}</p>;
+}
+
 /** A number field with its unit selector beside it: fields `${name}.value` and `${name}.unit`. */
 export function QuantityField({
   name,
@@ -100,12 +112,7 @@ export function QuantityField({
         />
         <UnitSelect name={`${name}.unit`} kind={kind} values={values} set={set} label={`${label}: unit`} units={units} />
       </div>
-      {hint && !error && <p className="mt-1 text-xs text-graphite-soft">{hint}</p>}
-      {error && (
-        <p id={`${id}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      )}
+      <FieldNote id={id} hint={hint} error={error} />
     </div>
   );
 }
@@ -151,12 +158,7 @@ export function TextField({
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${id}-error` : undefined}
       />
-      {hint && !error && <p className="mt-1 text-xs text-graphite-soft">{hint}</p>}
-      {error && (
-        <p id={`${id}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      )}
+      <FieldNote id={id} hint={hint} error={error} />
     </div>
   );
 }
@@ -203,12 +205,7 @@ export function Choice({
           </option>
         ))}
       </select>
-      {hint && !error && <div className="mt-1 text-xs text-graphite-soft">{hint}</div>}
-      {error && (
-        <p className="field-error" role="alert">
-          {error}
-        </p>
-      )}
+      <FieldNote id={id} hint={hint} error={error} block />
     </div>
   );
 }

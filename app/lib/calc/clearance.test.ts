@@ -159,13 +159,8 @@ describe("piston-to-wall", () => {
     // hot bore   = 88.000 × (1 + 11.4e-6 × 80) = 88.080256 mm
     // hot piston = 87.935 × (1 + 22.3e-6 × 70) = 88.0722666… mm → hot clearance 0.0079895 mm
     // The limit, 0.00025 in per in of bore (0.022 mm here), is common practice, no published source.
-    const thermal = (pistonC: number) => ({
-      ambient: { value: 20, unit: "degC" as const },
-      boreTemperature: { value: 100, unit: "degC" as const },
-      pistonTemperature: { value: pistonC, unit: "degC" as const },
-      boreMaterial: { alphaPerK: 11.4e-6 },
-      pistonMaterial: { alphaPerK: 22.3e-6 },
-    });
+    const thermal = (pistonC: number) =>
+      hotPistonToWall({ boreTemperature: { value: 100, unit: "degC" }, pistonTemperature: { value: pistonC, unit: "degC" }, boreMaterial: { alphaPerK: 11.4e-6 }, pistonMaterial: { alphaPerK: 22.3e-6 } }).thermal as never;
     const spec = { min: { value: 0.05, unit: "mm" as const }, max: { value: 0.08, unit: "mm" as const } };
     const tight = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.935, unit: "mm" }, thermal: thermal(90), spec });
     expect(tight.hotClearance_mm).toBeCloseTo(88 * (1 + 11.4e-6 * 80) - 87.935 * (1 + 22.3e-6 * 70), 12);
