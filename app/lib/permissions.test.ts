@@ -17,6 +17,17 @@ describe("permissions", () => {
     }
   });
 
+  it("an unfinished upload is its starter's to continue or discard, and any admin's", () => {
+    const builder = { id: "u1", role: "builder" as const };
+    const admin = { id: "u2", role: "admin" as const };
+    const apprentice = { id: "u3", role: "apprentice" as const };
+    expect(canOnOwned(builder, "upload:manage", "u1")).toBe(true);
+    expect(canOnOwned(builder, "upload:manage", "u9")).toBe(false);
+    expect(canOnOwned(admin, "upload:manage", "u9")).toBe(true);
+    expect(canOnOwned(apprentice, "upload:manage", "u3")).toBe(false);
+    expect(ROLES.filter((r) => can(r, "upload:manage:any"))).toEqual(["admin"]);
+  });
+
   it("only editors and admins review procedures", () => {
     expect(ROLES.filter((r) => can(r, "procedure:review"))).toEqual(["admin", "editor"]);
   });

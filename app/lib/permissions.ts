@@ -32,6 +32,9 @@ export const PERMISSIONS = {
   "recording:edit:own": staff,
   "recording:edit:any": ["admin", "editor"],
   "recording:retry": ["admin", "editor"],
+  // An unfinished upload (continue it, ask after it, discard it): its starter's, or anyone's.
+  "upload:manage:own": staff,
+  "upload:manage:any": ["admin"],
   "mark:create": staff,
   "mark:edit:own": staff,
   "mark:edit:any": ["admin", "editor"],
@@ -71,7 +74,7 @@ export function can(role: Role | null | undefined, permission: Permission): bool
  */
 export function canOnOwned(
   user: { id: string; role: Role } | null | undefined,
-  base: "recording:edit" | "mark:edit" | "reading:edit" | "procedure:edit" | "procedure:view-drafts",
+  base: "recording:edit" | "upload:manage" | "mark:edit" | "reading:edit" | "procedure:edit" | "procedure:view-drafts",
   ownerId: string | null | undefined,
 ): boolean {
   if (!user) return false;
@@ -121,6 +124,8 @@ export const CAPABILITY_WORDS: Record<Permission, string> = {
   "recording:edit:own": "change a recording's details",
   "recording:edit:any": "change other people's recordings",
   "recording:retry": "start a recording's processing again",
+  "upload:manage:own": "continue or discard their unfinished uploads",
+  "upload:manage:any": "continue or discard other people's unfinished uploads",
   "mark:create": "add marks to a recording",
   "mark:edit:own": "change marks",
   "mark:edit:any": "change other people's marks",

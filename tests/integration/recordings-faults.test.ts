@@ -3,10 +3,11 @@
 // transcode takes its ffmpeg with it, and the retried job publishes a rendition that decodes
 // in full. The worker is killed and started again through the test run's control server
 // (scripts/test.mjs, WORKER_CONTROL_URL).
-import { execFileSync, spawn } from "node:child_process";
+import { execFile, spawn } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
+import { promisify } from "node:util";
 import { beforeAll, describe, expect, it } from "vitest";
 import { killLeftovers } from "~/lib/recordings/processing.server";
 import { recordingDir } from "~/lib/recordings/storage.server";
@@ -19,8 +20,12 @@ const b64 = (s: string) => Buffer.from(s).toString("base64");
 
 let builder: TestUser;
 
-function ffmpeg(args: string[]) {
-  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args]);
+// ffmpeg runs without blocking the event loop: a test that blocked it for seconds would send its
+// next request on a kept-alive connection the server had closed meanwhile ("other side closed").
+const run = promisify(execFile);
+
+async function ffmpeg(args: string[]) {
+  await run("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args]);
 }
 
 /** Uploads bytes in one PATCH; the recording's id. */
@@ -37,11 +42,11 @@ const recording = async (id: string) => ((await (await http(`/api/recordings/${i
 const settled = (id: string, timeoutMs = 60_000) => waitFor(async () => ((r) => (r.state !== "processing" ? r : null))(await recording(id)), timeoutMs, 300);
 
 /** Frames and seconds that decode from a file, and whether ffmpeg's error check passes. */
-function decode(file: string): { frames: number; seconds: number; clean: boolean } {
+async function decode(file: string): Promise<{ frames: number; seconds: number; clean: boolean }> {
   let clean = true;
   let out = "";
   try {
-    out = execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", "-f", "null", "-"]).toString();
+    out = (await run("/usr/bin/ffmpeg", ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", "-f", "null", "-"])).stdout;
   } catch (err) {
     clean = false;
     out = String((err as { stdout?: Buffer }).stdout ?? "");
@@ -76,7 +81,7 @@ beforeAll(async () => {
 describe("damaged video", () => {
   it("marks the first 6,000 bytes of a faststart MP4 damaged with the reason, not ready; the original is kept", async () => {
     const whole = path.join(work, "faststart.mp4");
-    ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    await ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
     const head = fs.readFileSync(whole).subarray(0, 6000);
     const id = await uploadBytes(head, "cut-short.mp4");
     const rec = await settled(id);
@@ -91,9 +96,36 @@ describe("damaged video", () => {
     expect(page).toContain("The video is damaged");
   });
 
+  it("is not offered to Save as readings, and refuses readings with the reason (409, nothing stored); a ready one takes them", async () => {
+    const whole = path.join(work, "faststart-for-readings.mp4");
+    await ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    const damaged = await uploadBytes(fs.readFileSync(whole).subarray(0, 6000), "cut-short-readings.mp4");
+    const ready = await uploadBytes(fs.readFileSync(whole), "whole-readings.mp4");
+    expect((await settled(damaged)).state).toBe("damaged");
+    expect((await settled(ready)).state).toBe("ready");
+
+    type Listed = { recordings: { id: string; state: string }[] };
+    const listed = async (q: string) => ((await (await http(`/api/recordings?${q}`, { cookie: builder.cookie })).json()) as Listed).recordings.map((r) => r.id);
+    // The library lists both; the list the calculators' "Save as readings" asks for has only the ready one.
+    expect(await listed("sort=newest")).toEqual(expect.arrayContaining([damaged, ready]));
+    const targets = await listed("sort=newest&for=readings");
+    expect(targets).toContain(ready);
+    expect(targets).not.toContain(damaged);
+    expect((await http("/api/recordings?for=marks", { cookie: builder.cookie })).status).toBe(422);
+
+    const bench = { readings: [{ quantity: "torque", value: 110, unit: "N.m", label: "bench point 1" }, { quantity: "clamp-load", value: 51, unit: "kN", label: "bench point 1" }] };
+    const post = (id: string) => http(`/api/recordings/${id}/readings`, { method: "POST", cookie: builder.cookie, json: bench });
+    const refused = await post(damaged);
+    expect(refused.status).toBe(409);
+    expect(await refused.json()).toMatchObject({ error: "conflict", reason: expect.stringMatching(/video is damaged/), state: "damaged" });
+    const stored = (await (await http(`/api/recordings/${damaged}/readings`, { cookie: builder.cookie })).json()) as { readings: unknown[] };
+    expect(stored.readings).toHaveLength(0);
+    expect((await post(ready)).status).toBe(201);
+  });
+
   it("still makes a whole video ready", async () => {
     const whole = path.join(work, "whole.mp4");
-    ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    await ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
     const rec = await settled(await uploadBytes(fs.readFileSync(whole), "whole.mp4"));
     expect(rec).toMatchObject({ state: "ready", stateReason: null });
   });
@@ -104,8 +136,8 @@ describe("worker killed during a transcode", () => {
     // MPEG-4 Part 2 in Matroska: not browser-safe, so it is transcoded to H.264 (long enough
     // to be killed in the middle on this machine).
     const src = path.join(work, "long-take.mkv");
-    ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=40:size=1280x720:rate=25", "-c:v", "mpeg4", "-q:v", "5", src]);
-    const source = decode(src);
+    await ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=40:size=1280x720:rate=25", "-c:v", "mpeg4", "-q:v", "5", src]);
+    const source = await decode(src);
     expect(source).toMatchObject({ frames: 1000, clean: true });
 
     const id = await uploadBytes(fs.readFileSync(src), "long-take.mkv");
@@ -129,7 +161,7 @@ describe("worker killed during a transcode", () => {
     const media = await http(`/api/recordings/${id}/media`, { cookie: builder.cookie });
     const out = path.join(work, "published.mp4");
     fs.writeFileSync(out, Buffer.from(await media.arrayBuffer()));
-    const published = decode(out);
+    const published = await decode(out);
     console.log(
       `[worker kill] ffmpeg at kill: ${before.join(",")} (progress ${Math.round(progressAtKill * 100)} %), gone ${goneAfterMs} ms after the worker; temp files left by the killed attempt: ${leftTemps.length}; ` +
         `source ${source.frames} frames / ${source.seconds.toFixed(2)} s; published rendition ${published.frames} frames / ${published.seconds.toFixed(2)} s, clean decode: ${published.clean}`,

@@ -11,10 +11,10 @@ import * as tus from "tus-js-client";
 // The Node build exports FileUrlStorage; the package's type definitions describe the browser build only.
 const { FileUrlStorage } = tus as unknown as { FileUrlStorage: new (path: string) => tus.UrlStorage };
 import { beforeAll, describe, expect, it } from "vitest";
-import { eq } from "drizzle-orm";
-import { recordings, uploads } from "~/db/schema";
+import { and, eq } from "drizzle-orm";
+import { auditLog, marks, recordings, uploads } from "~/db/schema";
 import { cleanUpExpiredUploads, receivedBytes } from "~/lib/recordings/tus.server";
-import { tusFilePath } from "~/lib/recordings/storage.server";
+import { recordingDir, tusFilePath } from "~/lib/recordings/storage.server";
 import { db } from "~/lib/db.server";
 import { BASE_URL, createUser, http, waitFor, type TestUser } from "../support/app";
 
@@ -231,6 +231,32 @@ describe("tus upload", () => {
     expect((await http(`/api/uploads/${id}`, { cookie: builder.cookie })).status).toBe(404);
   });
 
+  it("lets its starter or an admin (nobody else) discard an unfinished upload from the upload page; another's gets the reason and the upload stays", async () => {
+    const admin = await createUser("admin");
+    const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "100", "Upload-Metadata": `filename ${Buffer.from("half-sent.mp4").toString("base64")}` };
+    const start = async () => path.basename((await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie })).headers.get("location")!);
+    const discard = (cookie: string, uploadId: string) => http("/recordings/upload", { cookie, form: { intent: "discard", uploadId } });
+    const status = (cookie: string, id: string) => http(`/api/uploads/${id}`, { cookie });
+
+    const mine = await start();
+    const refused = await discard(builder2.cookie, mine);
+    expect(refused.status).toBe(404);
+    expect(await refused.text()).toContain("That unfinished upload is gone or not yours.");
+    expect((await status(builder.cookie, mine)).status).toBe(200);
+    // An admin may ask after anyone's upload, and discard it.
+    expect((await status(admin.cookie, mine)).status).toBe(200);
+    expect((await status(builder2.cookie, mine)).status).toBe(403);
+    expect((await discard(admin.cookie, mine)).status).toBe(302);
+    expect((await status(builder.cookie, mine)).status).toBe(404);
+
+    const own = await start();
+    expect((await discard(builder.cookie, own)).status).toBe(302);
+    expect((await status(builder.cookie, own)).status).toBe(404);
+    // Already gone: the same answer; and a form that asks for something else is a 400.
+    expect((await discard(builder.cookie, own)).status).toBe(404);
+    expect((await http("/recordings/upload", { cookie: builder.cookie, form: { intent: "rename", uploadId: own } })).status).toBe(400);
+  });
+
   it("discards unfinished uploads that received no bytes for two weeks, bytes and row, and keeps one still receiving", async () => {
     const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "100", "Upload-Metadata": `filename ${Buffer.from("old.mp4").toString("base64")}` };
     const start = async () => {
@@ -336,6 +362,10 @@ describe("processing", () => {
     expect(rec.stateReason).toMatch(/not a video/);
     expect((await http(`/api/recordings/${rec.id}/original`, { cookie: builder.cookie })).status).toBe(404);
     expect((await http(`/api/recordings/${rec.id}/media`, { cookie: builder.cookie })).status).toBe(409);
+    // Nothing is left to process again: the page says so (409) instead of starting a job.
+    const retry = await http(`/recordings/${rec.id}`, { cookie: editor.cookie, form: { intent: "retry" } });
+    expect(retry.status).toBe(409);
+    expect(await retry.text()).toContain("A rejected recording has no file left to process; upload it again.");
   });
 
   it("rejects a truncated video (its index never arrived)", async () => {
@@ -347,6 +377,38 @@ describe("processing", () => {
     const rec = await waitState((await promise).recordingId!, builder.cookie);
     expect(rec.state).toBe("rejected");
     expect(rec.stateReason).toMatch(/truncated/);
+  });
+});
+
+describe("the recording's page", () => {
+  it("lets its uploader change the details (tags kept as the shop's tags) and delete it with its marks, files and an audit entry; others may not", async () => {
+    const { promise, upload: u } = upload(clip, builder, { name: "details-then-delete.mp4" });
+    u.start();
+    const id = (await promise).recordingId!;
+    await waitState(id, builder.cookie);
+    const post = (cookie: string, form: Record<string, string>) => http(`/recordings/${id}`, { cookie, form });
+
+    const blank = await post(builder.cookie, { intent: "details", title: "  ", tags: "" });
+    expect(blank.status).toBe(400);
+    expect(await blank.text()).toContain("Give the recording a title.");
+    expect((await post(builder2.cookie, { intent: "details", title: "Not mine" })).status).toBe(403);
+    const saved = await post(builder.cookie, { intent: "details", title: "Head stud stretch, pass 2", description: "Moly on the threads.", tags: "Head studs, head studs , moly,," });
+    expect(saved.status).toBe(302);
+    const [rec] = await db().select().from(recordings).where(eq(recordings.id, id));
+    expect(rec).toMatchObject({ title: "Head stud stretch, pass 2", description: "Moly on the threads.", tags: ["Head studs", "moly"] });
+    expect((await post(builder.cookie, { intent: "rename" })).status).toBe(400);
+
+    expect((await http(`/api/recordings/${id}/marks`, { cookie: builder.cookie, json: { tStart: 1, text: "First stud" } })).status).toBe(201);
+    expect(fs.existsSync(recordingDir(id))).toBe(true);
+    expect((await post(builder2.cookie, { intent: "delete" })).status).toBe(403);
+    const deleted = await post(builder.cookie, { intent: "delete" });
+    expect(deleted.status).toBe(302);
+    expect(deleted.headers.get("location")).toBe("/recordings");
+    expect((await http(`/api/recordings/${id}`, { cookie: builder.cookie })).status).toBe(404);
+    expect(await db().select().from(marks).where(eq(marks.recordingId, id))).toHaveLength(0);
+    expect(fs.existsSync(recordingDir(id))).toBe(false);
+    const entries = await db().select().from(auditLog).where(and(eq(auditLog.entity, "recording"), eq(auditLog.entityId, id)));
+    expect(entries.map((e) => e.action).sort()).toEqual(["recording.delete", "recording.edit"]);
   });
 });
 

@@ -31,10 +31,11 @@ export function SaveAsReadings({
 
   useEffect(() => {
     if (!open || recordings) return;
-    fetch("/api/recordings?sort=newest", { headers: { accept: "application/json" } })
+    // Only the recordings that take readings (not a damaged video, not a refused file).
+    fetch("/api/recordings?sort=newest&for=readings", { headers: { accept: "application/json" } })
       .then((r) => (r.ok ? r.json() : Promise.reject(new Error(`the recordings list answered ${r.status}`))))
       .then((b: { recordings: RecordingOption[] }) => {
-        const usable = b.recordings.filter((r) => r.state !== "rejected");
+        const usable = b.recordings;
         setRecordings(usable);
         if (usable[0]) setRecordingId(usable[0].id);
       })

@@ -1,8 +1,10 @@
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, notInArray, sql } from "drizzle-orm";
 import { marks, procedures, readings, recordings, users } from "~/db/schema";
 import { db } from "../db.server";
+import { STATES_WITHOUT_READINGS } from "./reading-targets";
 
-export type LibraryFilter = { tag?: string | null; uploader?: string | null; sort?: "newest" | "oldest"; q?: string | null };
+/** `takesReadings`: only recordings new readings may go to (reading-targets.ts). */
+export type LibraryFilter = { tag?: string | null; uploader?: string | null; sort?: "newest" | "oldest"; q?: string | null; takesReadings?: boolean };
 
 const markCount = sql<number>`(select count(*)::int from ${marks} where ${marks.recordingId} = ${recordings.id})`;
 const readingCount = sql<number>`(select count(*)::int from ${readings} where ${readings.recordingId} = ${recordings.id})`;
@@ -12,6 +14,7 @@ export async function listRecordings(f: LibraryFilter = {}) {
   // Tags are compared without case; each keeps its author's spelling (app/lib/tags.ts).
   if (f.tag) where.push(sql`exists (select 1 from unnest(${recordings.tags}) t where lower(t) = lower(${f.tag}))`);
   if (f.uploader) where.push(eq(recordings.uploadedBy, f.uploader));
+  if (f.takesReadings) where.push(notInArray(recordings.state, [...STATES_WITHOUT_READINGS]));
   if (f.q) where.push(sql`${recordings.title} ilike ${"%" + f.q.replace(/[%_\\]/g, (c) => "\\" + c) + "%"}`);
   return db()
     .select({

@@ -10,6 +10,7 @@ import { getRecording, listMarks, listReadings, procedureChoices } from "./libra
 import { markInputSchema, markPatchSchema } from "./marks";
 import { positionInputOf } from "./positions";
 import { readingInputSchema, toStoredSI } from "./quantities";
+import { assertTakesReadings } from "./reading-targets";
 
 /**
  * Marks and readings: the rules the JSON API applies (validation against the recording's
@@ -119,6 +120,7 @@ export { listReadings };
 export async function createReadings(request: Request, user: SessionUser, recordingId: string, body: unknown) {
   assertCan(request, user, "reading:create");
   const rec = await recordingOr404(request, recordingId);
+  assertTakesReadings(rec);
   const one = readingInputSchema(rec.durationS);
   const isBatch = typeof body === "object" && body !== null && Array.isArray((body as { readings?: unknown }).readings);
   const schema = isBatch ? z.object({ readings: z.array(one).min(1, "Add at least one reading.").max(500, "At most 500 readings at once.") }) : one;

@@ -284,12 +284,15 @@ export async function receivedBytes(uploadId: string): Promise<number> {
   }
 }
 
+const UNFINISHED_SHOWN = 50;
+
 /**
  * The caller's unfinished uploads, newest first, with the bytes the server holds; given a
  * file's name and size, only the ones of that file (how a browser that has no record of an
- * upload, another profile or machine, finds it to continue).
+ * upload, another profile or machine, finds it to continue). The upload page and the API list
+ * the same ones, at most `UNFINISHED_SHOWN` (far more than anyone leaves unfinished).
  */
-export async function unfinishedUploads(userId: string, file?: { fileName: string; size: number }, limit = 50) {
+export async function unfinishedUploads(userId: string, file?: { fileName: string; size: number }) {
   const where = [eq(uploads.userId, userId), isNull(uploads.recordingId)];
   if (file) where.push(eq(uploads.fileName, file.fileName), eq(uploads.size, file.size));
   const rows = await db()
@@ -297,7 +300,7 @@ export async function unfinishedUploads(userId: string, file?: { fileName: strin
     .from(uploads)
     .where(and(...where))
     .orderBy(desc(uploads.createdAt))
-    .limit(limit);
+    .limit(UNFINISHED_SHOWN);
   return Promise.all(rows.map(async (r) => ({ ...r, received: await receivedBytes(r.id), expiresAt: await expiresAt(r) })));
 }
 

@@ -1,11 +1,9 @@
-import { eq } from "drizzle-orm";
 import { z } from "zod";
 import type { Route } from "./+types/uploads";
-import { recordings, uploads } from "~/db/schema";
-import { forbidden, requirePermission, type SessionUser } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { requirePermission, type SessionUser } from "~/lib/auth.server";
 import { invalidInput } from "~/lib/edge.server";
-import { discardUpload, handleTus, receivedBytes, unfinishedUploads, uploadIdFrom } from "~/lib/recordings/tus.server";
+import { discardUpload, handleTus, unfinishedUploads, uploadIdFrom } from "~/lib/recordings/tus.server";
+import { assertMayHandleUpload, uploadStatus } from "~/lib/recordings/uploads.server";
 
 /**
  * /api/uploads and /api/uploads/:id — the tus endpoint (OPTIONS/HEAD via the loader,
@@ -17,10 +15,7 @@ import { discardUpload, handleTus, receivedBytes, unfinishedUploads, uploadIdFro
 async function guard(request: Request): Promise<{ user: SessionUser; uploadId: string | null }> {
   const user = await requirePermission(request, "recording:upload");
   const uploadId = uploadIdFrom(new URL(request.url).pathname);
-  if (uploadId) {
-    const [row] = await db().select({ userId: uploads.userId }).from(uploads).where(eq(uploads.id, uploadId));
-    if (row && row.userId !== user.id && user.role !== "admin") forbidden(request, "This upload was started by someone else.");
-  }
+  if (uploadId) await assertMayHandleUpload(request, user, uploadId);
   return { user, uploadId };
 }
 
@@ -35,13 +30,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   const { user, uploadId } = await guard(request);
   if (request.method !== "GET") return handleTus(request, user);
   if (uploadId) {
-    const [row] = await db()
-      .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, recordingId: uploads.recordingId, createdAt: uploads.createdAt, state: recordings.state, stateReason: recordings.stateReason, progress: recordings.progress })
-      .from(uploads)
-      .leftJoin(recordings, eq(recordings.id, uploads.recordingId))
-      .where(eq(uploads.id, uploadId));
-    if (!row) return Response.json({ error: "not found" }, { status: 404 });
-    return Response.json({ upload: { ...row, received: row.recordingId ? row.size : await receivedBytes(row.id) } });
+    const upload = await uploadStatus(uploadId);
+    if (!upload) return Response.json({ error: "not found" }, { status: 404 });
+    return Response.json({ upload });
   }
   const query = fileQuery.safeParse(Object.fromEntries(new URL(request.url).searchParams));
   if (!query.success) return invalidInput(request, query.error);

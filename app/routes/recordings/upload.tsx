@@ -1,16 +1,16 @@
 import { useCallback, useState } from "react";
-import { and, eq, isNull } from "drizzle-orm";
 import { Link, useFetcher, useRevalidator } from "react-router";
 import type { Route } from "./+types/upload";
 import { readForm } from "~/lib/edge.server";
+import { FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { UploadQueue } from "~/components/recordings/UploadQueue";
-import { uploads } from "~/db/schema";
 import { requirePermission } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { domainFailure, unknownAction } from "~/lib/domain-error.server";
 import { env } from "~/lib/env.server";
 import { redirectWithFlash } from "~/lib/flash.server";
-import { discardUpload, unfinishedUploads, UPLOAD_EXPIRY_DAYS } from "~/lib/recordings/tus.server";
+import { unfinishedUploads, UPLOAD_EXPIRY_DAYS } from "~/lib/recordings/tus.server";
+import { discardUnfinishedUpload } from "~/lib/recordings/uploads.server";
 import { formatBytes } from "~/lib/byte-format";
 import { formatDayMonthTime } from "~/lib/dates";
 
@@ -18,25 +18,30 @@ export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Record
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "recording:upload");
-  const unfinished = await unfinishedUploads(user.id, undefined, 20);
+  const unfinished = await unfinishedUploads(user.id);
   return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished, expiryDays: UPLOAD_EXPIRY_DAYS };
 }
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requirePermission(request, "recording:upload");
   const form = await readForm(request);
+  const intent = form.get("intent");
   const id = String(form.get("uploadId") ?? "");
-  if (form.get("intent") !== "discard" || !id) return { error: "Unknown action." };
-  const [row] = await db().select().from(uploads).where(and(eq(uploads.id, id), isNull(uploads.recordingId)));
-  if (!row || (row.userId !== user.id && user.role !== "admin")) return { error: "That unfinished upload is gone or not yours." };
-  await discardUpload(id);
-  return redirectWithFlash("/recordings/upload", { kind: "ok", message: `Discarded the partial upload of ${row.fileName}.` });
+  if (intent !== "discard" || !id) return unknownAction(request, intent);
+  try {
+    const { fileName } = await discardUnfinishedUpload(user, id);
+    return redirectWithFlash("/recordings/upload", { kind: "ok", message: `Discarded the partial upload of ${fileName}.` });
+  } catch (err) {
+    return domainFailure(request, err, "discard");
+  }
 }
 
 const fmt = formatDayMonthTime;
 
-export default function UploadPage({ loaderData }: Route.ComponentProps) {
-  const discard = useFetcher();
+export default function UploadPage({ loaderData, actionData }: Route.ComponentProps) {
+  const discard = useFetcher<typeof action>();
+  // A refused discard (gone, or someone else's): from the fetcher, or from the page's own post without JavaScript.
+  const refused = discard.state === "idle" ? (discard.data ?? actionData)?.errors?.form : undefined;
   // The panel follows the queue: an upload being sent from this page is not "unfinished"
   // here, and one that finishes or is cancelled leaves the panel without a reload.
   const [inQueue, setInQueue] = useState<string[]>([]);
@@ -62,6 +67,7 @@ export default function UploadPage({ loaderData }: Route.ComponentProps) {
           <section className="card text-sm" aria-labelledby="unfinished-h">
             <h2 id="unfinished-h" className="text-lg">Unfinished uploads</h2>
             <p className="mt-1 text-xs text-graphite-soft">A partial upload that receives no bytes for {loaderData.expiryDays} days is discarded.</p>
+            {refused && <div className="mt-2"><FormError message={refused} /></div>}
             {unfinished.length === 0 ? (
               <p className="mt-2 text-graphite-soft">None. An upload interrupted by a reload or a closed browser shows here until you finish or discard it.</p>
             ) : (

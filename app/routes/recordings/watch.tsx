@@ -1,7 +1,5 @@
-import { eq } from "drizzle-orm";
 import { lazy, Suspense, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { data, Form, Link, useNavigation, useRevalidator, useSearchParams } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/watch";
 import { notFound, parseParams, readForm } from "~/lib/edge.server";
 import { idParams } from "~/lib/edge";
@@ -9,26 +7,24 @@ import { Field, FormError } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { currentMarkId, MarksPanel, useOptimisticMarks, type MarksPanelHandle } from "~/components/recordings/MarksPanel";
 import type { PlayerApi } from "~/components/recordings/Player.client";
-import { Poster } from "~/components/recordings/Poster";
+import { PlayerPlaceholder } from "~/components/recordings/PlayerPlaceholder";
 import { ReadingsChart } from "~/components/recordings/ReadingsChart";
 import { ReadingsPanel, useOptimisticReadings } from "~/components/recordings/ReadingsPanel";
+import { RecordingStatePanel } from "~/components/recordings/RecordingStatePanel";
 import { StateBadge } from "~/components/recordings/StateBadge";
 import type { MarkRow, ReadingRow } from "~/components/recordings/types";
-import { recordings } from "~/db/schema";
-import { audit } from "~/lib/audit.server";
-import { forbidden, requirePermission } from "~/lib/auth.server";
-import { db } from "~/lib/db.server";
+import { useWatchKeys, WatchKeyHelp } from "~/components/recordings/useWatchKeys";
+import { assertCan, forbidden, requirePermission } from "~/lib/auth.server";
+import { domainFailure, unknownAction } from "~/lib/domain-error.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { can, canOnOwned } from "~/lib/permissions";
 import { getRecording, listReadings } from "~/lib/recordings/library.server";
+import { deleteRecording, recordingDetailsSchema, retryProcessing, saveRecordingDetails } from "~/lib/recordings/manage.server";
 import { marksFor, procedureChoicesFor } from "~/lib/recordings/notes.server";
-import { retryRecording } from "~/lib/recordings/processing.server";
 import { formatBytes } from "~/lib/byte-format";
-import { formatDuration, formatTime } from "~/lib/time-format";
-import { recordingDir } from "~/lib/recordings/storage.server";
+import { formatDuration } from "~/lib/time-format";
 import { formatDay } from "~/lib/dates";
-import { normalizeTags, splitTags } from "~/lib/tags";
 
 const Player = lazy(() => import("~/components/recordings/Player.client"));
 
@@ -56,64 +52,33 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const detailsSchema = z.object({
-  intent: z.literal("details"),
-  title: z.string().trim().min(1, "Give the recording a title.").max(200, "Keep the title under 200 characters."),
-  description: z.string().trim().max(4000, "Keep the description under 4000 characters.").default(""),
-  tags: z.string().max(600).default(""),
-});
-
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requirePermission(request, "recording:edit:own");
   const rec = await getRecording(parseParams(request, idParams, params, "recording").id);
   if (!rec) notFound(request, "recording");
   const form = await readForm(request);
   const intent = form.get("intent");
-  if (intent === "retry") {
-    if (!can(user.role, "recording:retry")) forbidden(request, "Only editors and admins can retry processing.");
-    if (rec.state === "rejected" || !rec.hasOriginal) return data({ intent, errors: { form: "A rejected recording has no file left to process; upload it again." } as Record<string, string>, values: {} as Record<string, string> }, { status: 409 });
-    await retryRecording(rec.id);
-    await db().transaction((tx) => audit(tx, user.id, "recording.retry", "recording", rec.id, {}));
-    return redirectWithFlash(`/recordings/${rec.id}`, { kind: "ok", message: "Processing started again." });
+  try {
+    if (intent === "retry") {
+      assertCan(request, user, "recording:retry");
+      await retryProcessing(user.id, rec);
+      return redirectWithFlash(`/recordings/${rec.id}`, { kind: "ok", message: "Processing started again." });
+    }
+    if (!canOnOwned(user, "recording:edit", rec.uploadedBy)) forbidden(request, "You can change only recordings you uploaded.");
+    if (intent === "details") {
+      const parsed = parseForm(recordingDetailsSchema, form);
+      if (!parsed.ok) return data({ intent, errors: parsed.errors, values: parsed.values }, { status: 400 });
+      await saveRecordingDetails(user.id, rec.id, parsed.data);
+      return redirectWithFlash(`/recordings/${rec.id}`, { kind: "ok", message: "Details saved." });
+    }
+    if (intent === "delete") {
+      await deleteRecording(user.id, rec);
+      return redirectWithFlash("/recordings", { kind: "ok", message: `Deleted “${rec.title}” with its marks and readings.` });
+    }
+  } catch (err) {
+    return domainFailure(request, err, String(intent ?? ""));
   }
-  if (!canOnOwned(user, "recording:edit", rec.uploadedBy)) forbidden(request, "You can change only recordings you uploaded.");
-  if (intent === "details") {
-    const parsed = parseForm(detailsSchema, form);
-    if (!parsed.ok) return data({ intent, errors: parsed.errors, values: parsed.values }, { status: 400 });
-    const tags = normalizeTags(splitTags(parsed.data.tags));
-    await db().transaction(async (tx) => {
-      await tx.update(recordings).set({ title: parsed.data.title, description: parsed.data.description, tags, updatedAt: new Date() }).where(eq(recordings.id, rec.id));
-      await audit(tx, user.id, "recording.edit", "recording", rec.id, { title: parsed.data.title });
-    });
-    return redirectWithFlash(`/recordings/${rec.id}`, { kind: "ok", message: "Details saved." });
-  }
-  if (intent === "delete") {
-    await db().transaction(async (tx) => {
-      await tx.delete(recordings).where(eq(recordings.id, rec.id));
-      await audit(tx, user.id, "recording.delete", "recording", rec.id, { title: rec.title });
-    });
-    const { rm } = await import("node:fs/promises");
-    await rm(recordingDir(rec.id), { recursive: true, force: true });
-    return redirectWithFlash("/recordings", { kind: "ok", message: `Deleted “${rec.title}” with its marks and readings.` });
-  }
-  return data({ intent: "unknown", errors: { form: "Unknown action." } as Record<string, string>, values: {} as Record<string, string> }, { status: 400 });
-}
-
-const fmtDate = formatDay;
-
-function isTyping(el: EventTarget | null) {
-  const e = el as HTMLElement | null;
-  if (!e) return false;
-  // The player's position and volume bars are inputs too, but nobody types in them: the page's
-  // keys (arrows ±5 s, frames) work there as everywhere else.
-  if (e.tagName === "INPUT" && (e as HTMLInputElement).type === "range") return false;
-  return e.isContentEditable || ["INPUT", "TEXTAREA", "SELECT"].includes(e.tagName);
-}
-
-/** Space on a focused button, link or disclosure presses it, as everywhere else; it does not play. */
-function pressesSomething(el: EventTarget | null) {
-  const e = el as HTMLElement | null;
-  return Boolean(e?.closest?.("button, a[href], summary, [role=button]"));
+  return unknownAction(request, intent);
 }
 
 const reducedMotion = () => typeof window !== "undefined" && window.matchMedia("(prefers-reduced-motion: reduce)").matches;
@@ -129,7 +94,6 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
   const [mounted, setMounted] = useState(false);
   useEffect(() => setMounted(true), []);
   const [time, setTime] = useState(startAt ?? 0);
-  const [spanStart, setSpanStart] = useState<number | null>(null);
   const [showDetails, setShowDetails] = useState(false);
   const api = useRef<PlayerApi | null>(null);
   const marksPanel = useRef<MarksPanelHandle>(null);
@@ -156,58 +120,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
     document.getElementById("player-region")?.scrollIntoView({ block: "nearest", behavior: reducedMotion() ? "auto" : "smooth" });
   }, []);
 
-  useEffect(() => {
-    if (r.state !== "ready") return;
-    const onKey = (e: KeyboardEvent) => {
-      if (isTyping(e.target) || e.ctrlKey || e.metaKey || e.altKey) return;
-      const p = api.current;
-      if (!p) return;
-      let handled = true;
-      switch (e.key) {
-        case " ":
-          if (pressesSomething(e.target)) return;
-          p.togglePlay();
-          break;
-        case "ArrowLeft":
-          p.seek(p.currentTime() - 5);
-          break;
-        case "ArrowRight":
-          p.seek(Math.min(p.duration() || Infinity, p.currentTime() + 5));
-          break;
-        case ",":
-          p.step(-1, fps);
-          break;
-        case ".":
-          p.step(1, fps);
-          break;
-        case "m":
-        case "M":
-          if (!perms.mark) return;
-          marksPanel.current?.openNew(Number(p.currentTime().toFixed(2)));
-          break;
-        case "s":
-        case "S":
-          if (!perms.mark) return;
-          if (spanStart == null) setSpanStart(Number(p.currentTime().toFixed(2)));
-          else {
-            const end = Number(p.currentTime().toFixed(2));
-            const [a, b] = end > spanStart ? [spanStart, end] : [end, spanStart];
-            setSpanStart(null);
-            if (b - a < 0.05) return;
-            marksPanel.current?.openNew(a, b);
-          }
-          break;
-        default:
-          handled = false;
-      }
-      if (handled) {
-        e.preventDefault();
-        e.stopPropagation();
-      }
-    };
-    window.addEventListener("keydown", onKey, true);
-    return () => window.removeEventListener("keydown", onKey, true);
-  }, [r.state, fps, perms.mark, spanStart]);
+  const spanStart = useWatchKeys({ enabled: r.state === "ready", player: api, marksPanel, fps, canMark: perms.mark });
 
   const errors: Record<string, string> = actionData?.errors ?? {};
   // The same permission table as the server (app/lib/permissions.ts) decides what to offer.
@@ -238,7 +151,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
       >
         <span className="flex flex-wrap items-center gap-x-3 gap-y-1 text-sm">
           <StateBadge state={r.state} progress={r.progress} />
-          <span>{r.uploaderName ?? "Former staff"} · {fmtDate(r.createdAt)}</span>
+          <span>{r.uploaderName ?? "Former staff"} · {formatDay(r.createdAt)}</span>
           <span className="num">{facts.join(" · ")}</span>
         </span>
       </PageHeader>
@@ -284,7 +197,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
               ) : (
                 <PlayerPlaceholder recording={r} startAt={startAt} />
               )}
-              <KeyHelp canMark={perms.mark} />
+              <WatchKeyHelp canMark={perms.mark} />
             </div>
             <MarksPanel
               ref={marksPanel}
@@ -305,88 +218,8 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
           </div>
         </>
       ) : (
-        <StatePanel recording={r} canRetry={perms.retry} busy={busy} />
+        <RecordingStatePanel recording={r} canRetry={perms.retry} busy={busy} />
       )}
     </>
-  );
-}
-
-/**
- * What shows before the player has loaded, in the player's shape so nothing jumps: the poster, or,
- * when the page opens at a moment (?t=), no poster at all (the marked frame comes first).
- */
-function PlayerPlaceholder({ recording: r, startAt }: { recording: Route.ComponentProps["loaderData"]["recording"]; startAt: number | null }) {
-  return (
-    <div className="overflow-hidden rounded-[0.6rem] border border-rule bg-card" data-testid="player-placeholder">
-      {startAt != null ? (
-        <div className="flex aspect-video w-full items-center justify-center bg-graphite text-paper" role="status">
-          Opening at <span className="num mx-1 font-mono">{formatTime(startAt)}</span>…
-        </div>
-      ) : (
-        <Poster id={r.id} hasPoster={r.hasPoster} title={r.title} className="rounded-none" />
-      )}
-      <div className="h-[6.4rem] border-t border-rule min-[1025px]:h-[5.35rem]" />
-    </div>
-  );
-}
-
-/** Keys of the watch page; shown only where a keyboard is likely (a fine pointer that hovers). */
-function KeyHelp({ canMark }: { canMark: boolean }) {
-  const k = "rounded border border-rule bg-card px-1 font-mono text-[11px] text-graphite";
-  return (
-    <p className="keyboard-only flex flex-wrap gap-x-3 gap-y-1 text-xs text-graphite-soft" aria-label="Keyboard" data-testid="key-help">
-      <span><kbd className={k}>Space</kbd> play / pause</span>
-      <span><kbd className={k}>←</kbd> <kbd className={k}>→</kbd> 5 s</span>
-      <span><kbd className={k}>,</kbd> <kbd className={k}>.</kbd> one frame</span>
-      {canMark && <span><kbd className={k}>M</kbd> mark here</span>}
-      {canMark && <span><kbd className={k}>S</kbd> … <kbd className={k}>S</kbd> mark a span</span>}
-    </p>
-  );
-}
-
-function StatePanel({ recording: r, canRetry, busy }: { recording: Route.ComponentProps["loaderData"]["recording"]; canRetry: boolean; busy: boolean }) {
-  return (
-    <div className="grid gap-5 md:grid-cols-[20rem_1fr]">
-      <Poster id={r.id} hasPoster={r.hasPoster} title={r.title} />
-      <div className="card space-y-3">
-        {r.state === "processing" && (
-          <>
-            <h2 className="text-lg">Processing</h2>
-            <p className="text-sm text-graphite-soft">The server is checking the file, taking a poster frame and, if needed, making a copy every browser plays. This page updates by itself.</p>
-            <div role="progressbar" aria-label="Processing" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(r.progress * 100)} className="h-2.5 overflow-hidden rounded-full bg-paper-deep">
-              <div className="h-full rounded-full bg-brass transition-all" style={{ width: `${Math.max(3, r.progress * 100)}%` }} />
-            </div>
-            {r.stateReason && <p className="text-sm text-graphite-soft">{r.stateReason}</p>}
-          </>
-        )}
-        {r.state === "rejected" && (
-          <>
-            <h2 className="text-lg text-spec-red">Not a video</h2>
-            <p className="text-sm" data-testid="state-reason">{r.stateReason}</p>
-            <p className="text-sm text-graphite-soft">The file's bytes were removed. Check that you picked the right file, then <Link to="/recordings/upload">upload again</Link>.</p>
-          </>
-        )}
-        {r.state === "damaged" && (
-          <>
-            <h2 className="text-lg text-spec-red">The video is damaged</h2>
-            <p className="text-sm" data-testid="state-reason">{r.stateReason}</p>
-          </>
-        )}
-        {r.state === "failed" && (
-          <>
-            <h2 className="text-lg text-spec-red">Processing failed</h2>
-            <p className="text-sm" data-testid="state-reason">{r.stateReason}</p>
-            {!canRetry && <p className="text-sm text-graphite-soft">An editor can retry it; the original file is kept.</p>}
-          </>
-        )}
-        {canRetry && (r.state === "failed" || r.state === "processing") && r.hasOriginal && (
-          <Form method="post">
-            <input type="hidden" name="intent" value="retry" />
-            <button type="submit" className="btn" disabled={busy}>{r.state === "failed" ? "Retry processing" : "Start processing again"}</button>
-          </Form>
-        )}
-        <p className="num text-xs text-graphite-soft">{r.originalName} · {formatBytes(r.originalSize)}</p>
-      </div>
-    </div>
   );
 }

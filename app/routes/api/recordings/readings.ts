@@ -1,5 +1,6 @@
 import type { Route } from "./+types/readings";
 import { requirePermission } from "~/lib/auth.server";
+import { domainFailure } from "~/lib/domain-error.server";
 import { spreadsheetCsv } from "~/lib/csv";
 import { methodNotAllowed, parseParams, readJsonObject } from "~/lib/edge.server";
 import { idParams } from "~/lib/edge";
@@ -51,5 +52,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   parseParams(request, idParams, params, "recording");
   if (request.method !== "POST") return methodNotAllowed("GET, POST");
   const body = await readJsonObject(request);
-  return createReadings(request, user, params.id, body);
+  try {
+    return await createReadings(request, user, params.id, body);
+  } catch (err) {
+    return domainFailure(request, err);
+  }
 }
