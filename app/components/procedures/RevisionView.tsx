@@ -2,21 +2,10 @@ import type { ReactNode } from "react";
 import { Link } from "react-router";
 import { STATE_LABELS, type RevisionState } from "~/lib/procedures/state";
 import type { Widget } from "~/lib/procedures/body";
+import type { SpecView } from "~/lib/procedures/diff";
 import { ProcedureBody } from "./ProcedureBody";
 import { formatDay } from "~/lib/dates";
 import { useLandingTarget } from "~/components/search/LandingTarget";
-
-export type SpecRowView = {
-  id: string;
-  specKey: string;
-  label: string;
-  quantity: string;
-  unit: string;
-  nominal: number | null;
-  min: number | null;
-  max: number | null;
-  note: string;
-};
 
 export const fmtDate = formatDay;
 
@@ -81,7 +70,7 @@ export function SpecTable({
   caption = "Specs",
   units = {},
 }: {
-  specs: SpecRowView[];
+  specs: SpecView[];
   caption?: string;
   units?: Record<string, string>;
 }) {
@@ -146,7 +135,7 @@ export function RevisionArticle({
   publishedBy?: string | null;
   html: string;
   widgets: Widget[];
-  specs: SpecRowView[];
+  specs: SpecView[];
   units?: Record<string, string>;
   banner?: ReactNode;
   aside?: ReactNode;

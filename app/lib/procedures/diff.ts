@@ -12,6 +12,8 @@ export type SpecRow = {
   max: number | null;
   note: string;
 };
+/** A spec as the pages show it: its row id is the anchor a search hit lands on. */
+export type SpecView = SpecRow & { id: string };
 export type SpecField = "label" | "unit" | "nominal" | "min" | "max" | "note" | "quantity";
 export type SpecChange =
   | { kind: "added"; after: SpecRow }

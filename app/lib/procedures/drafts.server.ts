@@ -85,6 +85,18 @@ async function writeExtraction(tx: Tx, rev: { id: string; procedureId: string },
     await tx.insert(procedureMoments).values(x.moments.map((m) => ({ ...m, revisionId: rev.id, procedureId: rev.procedureId })));
 }
 
+type Text = { title: string; summary: string; area: Area; tags: string[] };
+
+/** A revision's text columns for a checked document: what create and autosave both write. */
+const textColumns = (input: Text, doc: ProcedureDoc) => ({
+  title: input.title,
+  summary: input.summary,
+  area: input.area,
+  tags: input.tags,
+  doc,
+  wordCount: countWords(doc),
+});
+
 export async function createProcedure(
   actor: Actor & { name: string },
   input: { title: string; area: Area; summary: string; tags: string[]; doc?: unknown },
@@ -102,12 +114,7 @@ export async function createProcedure(
         procedureId: procedure.id,
         number: 1,
         state: "draft",
-        title: input.title,
-        summary: input.summary,
-        area: input.area,
-        tags: input.tags,
-        doc,
-        wordCount: countWords(doc),
+        ...textColumns(input, doc),
         authorId: actor.id,
         lastSavedBy: actor.id,
       })
@@ -223,12 +230,7 @@ export async function saveDraft(actor: Actor, revisionId: string, input: SaveInp
     const [saved] = await tx
       .update(procedureRevisions)
       .set({
-        title: input.title,
-        summary: input.summary,
-        area: input.area,
-        tags: input.tags,
-        doc,
-        wordCount: countWords(doc),
+        ...textColumns(input, doc),
         version: rev.version + 1,
         lastSavedBy: actor.id,
         updatedAt: now,

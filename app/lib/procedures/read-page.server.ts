@@ -10,6 +10,7 @@ import { alias } from "drizzle-orm/pg-core";
 import { procedureRevisions, procedures, users } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import type { MarkRef } from "~/lib/recordings/procedure-links.server";
+import type { SpecView } from "./diff";
 import { movedTo } from "./lookup.server";
 import type { RevisionState } from "./state";
 
@@ -17,20 +18,9 @@ const published = alias(procedureRevisions, "published");
 const author = alias(users, "author");
 const publisher = alias(users, "publisher");
 
-export type ReadSpec = {
-  id: string;
-  specKey: string;
-  label: string;
-  quantity: string;
-  unit: string;
-  nominal: number | null;
-  min: number | null;
-  max: number | null;
-  note: string;
-};
 type OpenSummary = { number: number; state: RevisionState; authorId: string | null };
 type Around = {
-  specs: ReadSpec[];
+  specs: SpecView[];
   from: { title: string; slug: string; area: string }[];
   marks: MarkRef[];
   linkTitles: { id: string; title: string; slug: string }[];
