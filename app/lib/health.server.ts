@@ -26,7 +26,12 @@ export async function health(): Promise<Health> {
     mail = { ok: m.failing === 0, ...m };
     if (!env().MEILI_HOST) return { status: "ok", database, mail };
     const s = await searchBacklog();
-    return { status: "ok", database, mail, search: { ok: s.failing === 0 && s.setAside === 0, pending: s.pending, failing: s.failing, setAside: s.setAside } };
+    return {
+      status: "ok",
+      database,
+      mail,
+      search: { ok: s.failing === 0 && s.setAside === 0, pending: s.pending, failing: s.failing, setAside: s.setAside },
+    };
   } catch {
     return { status: "down", database: { ok: false, error: "database unreachable" }, mail };
   }

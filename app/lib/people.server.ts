@@ -16,7 +16,14 @@ const link = (p: string) => new URL(p, env().PUBLIC_URL).toString();
 /** Everyone with an account, active or not, by name (the admin's list). */
 export async function listPeople() {
   return db()
-    .select({ id: users.id, name: users.name, email: users.email, role: users.role, deactivatedAt: users.deactivatedAt, createdAt: users.createdAt })
+    .select({
+      id: users.id,
+      name: users.name,
+      email: users.email,
+      role: users.role,
+      deactivatedAt: users.deactivatedAt,
+      createdAt: users.createdAt,
+    })
     .from(users)
     .orderBy(users.name);
 }
@@ -24,7 +31,13 @@ export async function listPeople() {
 /** Invitations not yet accepted (expired ones included, so the admin sees them lapse), newest first. */
 export async function openInvitations(limit = 50) {
   return db()
-    .select({ id: invitations.id, email: invitations.email, role: invitations.role, expiresAt: invitations.expiresAt, createdAt: invitations.createdAt })
+    .select({
+      id: invitations.id,
+      email: invitations.email,
+      role: invitations.role,
+      expiresAt: invitations.expiresAt,
+      createdAt: invitations.createdAt,
+    })
     .from(invitations)
     .where(isNull(invitations.usedAt))
     .orderBy(desc(invitations.createdAt))
@@ -63,7 +76,11 @@ export async function invite(actor: { id: string; name: string }, emailInput: st
 }
 
 export async function findInvitation(token: string) {
-  const [row] = await db().select().from(invitations).where(eq(invitations.tokenHash, hashToken(token))).limit(1);
+  const [row] = await db()
+    .select()
+    .from(invitations)
+    .where(eq(invitations.tokenHash, hashToken(token)))
+    .limit(1);
   return row ?? null;
 }
 
@@ -75,7 +92,12 @@ export function invitationState(row: { expiresAt: Date; usedAt: Date | null } | 
 export async function acceptInvitation(token: string, name: string, password: string): Promise<string> {
   const passwordHash = await hashPassword(password);
   return db().transaction(async (tx) => {
-    const [inv] = await tx.select().from(invitations).where(eq(invitations.tokenHash, hashToken(token))).for("update").limit(1);
+    const [inv] = await tx
+      .select()
+      .from(invitations)
+      .where(eq(invitations.tokenHash, hashToken(token)))
+      .for("update")
+      .limit(1);
     const state = invitationState(inv ?? null);
     if (state === "unknown") throw new DomainError("This invitation link is not valid.");
     if (state === "used") throw new DomainError("This invitation has already been used. Sign in instead.");
@@ -122,7 +144,11 @@ export async function requestPasswordReset(emailInput: string, client: string): 
 }
 
 export async function findReset(token: string) {
-  const [row] = await db().select().from(passwordResets).where(eq(passwordResets.tokenHash, hashToken(token))).limit(1);
+  const [row] = await db()
+    .select()
+    .from(passwordResets)
+    .where(eq(passwordResets.tokenHash, hashToken(token)))
+    .limit(1);
   return row ?? null;
 }
 
@@ -138,14 +164,21 @@ async function setPassword(tx: Tx, userId: string, passwordHash: string, keepSes
     .update(passwordResets)
     .set({ expiresAt: now })
     .where(and(eq(passwordResets.userId, userId), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, now)));
-  await tx.delete(sessions).where(keepSessionId ? and(eq(sessions.userId, userId), ne(sessions.id, keepSessionId)) : eq(sessions.userId, userId));
+  await tx
+    .delete(sessions)
+    .where(keepSessionId ? and(eq(sessions.userId, userId), ne(sessions.id, keepSessionId)) : eq(sessions.userId, userId));
 }
 
 /** Sets the new password once; the person's other reset links and all their sessions end. */
 export async function resetPassword(token: string, password: string): Promise<string> {
   const passwordHash = await hashPassword(password);
   const userId = await db().transaction(async (tx) => {
-    const [row] = await tx.select().from(passwordResets).where(eq(passwordResets.tokenHash, hashToken(token))).for("update").limit(1);
+    const [row] = await tx
+      .select()
+      .from(passwordResets)
+      .where(eq(passwordResets.tokenHash, hashToken(token)))
+      .for("update")
+      .limit(1);
     if (!row) throw new DomainError("This reset link is not valid.");
     const state = tokenState(row);
     if (state === "used") throw new DomainError("This reset link has already been used. Ask for a new one.");
@@ -172,7 +205,11 @@ export async function changePassword(
   password: string,
 ): Promise<PasswordChange> {
   const [row] = await db().select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, person.id));
-  const outcome = await throttledPasswordCheck(person.email, client, async () => Boolean(row?.passwordHash) && verifyPassword(row.passwordHash!, current));
+  const outcome = await throttledPasswordCheck(
+    person.email,
+    client,
+    async () => Boolean(row?.passwordHash) && verifyPassword(row.passwordHash!, current),
+  );
   if ("refused" in outcome) {
     return { ok: false, status: 429, message: passwordRefusalMessage(outcome.refused), retryAfterSec: outcome.refused.retryAfterSec };
   }
@@ -221,7 +258,10 @@ export async function setActive(actor: { id: string }, userId: string, active: b
     throw new DomainError("The shop needs at least one active admin.");
   }
   await db().transaction(async (tx) => {
-    await tx.update(users).set({ deactivatedAt: active ? null : new Date() }).where(eq(users.id, userId));
+    await tx
+      .update(users)
+      .set({ deactivatedAt: active ? null : new Date() })
+      .where(eq(users.id, userId));
     await audit(tx, actor.id, active ? "reactivate" : "deactivate", "user", userId);
   });
   if (!active) await endAllSessions(userId);

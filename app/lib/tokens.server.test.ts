@@ -7,7 +7,7 @@ describe("link tokens", () => {
     expect(hash).not.toContain(token);
     expect(hash).toMatch(/^[0-9a-f]{64}$/);
     expect(tokenMatches(token, hash)).toBe(true);
-    expect(tokenMatches(token + "x", hash)).toBe(false);
+    expect(tokenMatches(`${token}x`, hash)).toBe(false);
     // SHA-256 of "abc" (FIPS 180-2, Appendix B.1 example).
     expect(hashToken("abc")).toBe("ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
   });

@@ -18,9 +18,18 @@ export const meta: Route.MetaFunction = () => [{ title: "Search words · Benchre
 export const shouldRevalidate: ShouldRevalidateFunction = ({ formMethod, defaultShouldRevalidate }) =>
   formMethod && formMethod.toUpperCase() !== "GET" ? true : defaultShouldRevalidate;
 
-const wordsField = z.string().trim().min(1, "Type the words or phrases that mean the same, separated by commas.").max(600, "Keep the group under 600 characters.");
+const wordsField = z
+  .string()
+  .trim()
+  .min(1, "Type the words or phrases that mean the same, separated by commas.")
+  .max(600, "Keep the group under 600 characters.");
 const addSchema = z.object({ intent: z.literal("add"), words: wordsField });
-const changeSchema = z.object({ intent: z.literal("change"), id: z.string().uuid(), loadedAt: z.coerce.number().int().min(0).max(8.64e15), words: wordsField });
+const changeSchema = z.object({
+  intent: z.literal("change"),
+  id: z.string().uuid(),
+  loadedAt: z.coerce.number().int().min(0).max(8.64e15),
+  words: wordsField,
+});
 const removeSchema = z.object({ intent: z.literal("remove"), id: z.string().uuid() });
 
 type Failure = { intent: string; errors: Record<string, string>; values: Record<string, string> };
@@ -59,7 +68,10 @@ export async function action({ request }: Route.ActionArgs) {
       const parsed = parseForm(removeSchema, form);
       if (!parsed.ok) return fail({ intent, errors: { form: "Choose a group to remove." }, values: parsed.values });
       const removed = await removeWordGroup(actor, parsed.data.id);
-      return redirectWithFlash("/search/words", removed ? { kind: "ok", message: "Group removed." } : { kind: "ok", message: "That group was already gone." });
+      return redirectWithFlash(
+        "/search/words",
+        removed ? { kind: "ok", message: "Group removed." } : { kind: "ok", message: "That group was already gone." },
+      );
     }
   } catch (err) {
     return domainFailure(request, err, intent, formValues(form));
@@ -75,8 +87,8 @@ export default function SearchWords({ loaderData, actionData }: Route.ComponentP
   return (
     <>
       <PageHeader title="Search words" kicker="Search">
-        Words and phrases that mean the same on this floor. Searching for any word of a group also finds the others, in the header box and on the{" "}
-        <Link to="/search">search page</Link>.
+        Words and phrases that mean the same on this floor. Searching for any word of a group also finds the others, in the header box and
+        on the <Link to="/search">search page</Link>.
       </PageHeader>
       {status.pending && (
         <p role="status" className="mb-4 rounded-md border border-brass/50 bg-brass-soft px-4 py-3 text-sm">
@@ -99,7 +111,9 @@ export default function SearchWords({ loaderData, actionData }: Route.ComponentP
               error={addErrors.words}
               hint="Separate with commas, e.g. tdc, top dead centre"
             />
-            <button className="btn btn-primary w-full" type="submit" disabled={busy}>Add the group</button>
+            <button className="btn btn-primary w-full" type="submit" disabled={busy}>
+              Add the group
+            </button>
           </Form>
           <p className="mt-3 text-sm text-graphite-soft">
             Each word belongs to one group. Phrases are matched as a whole; letter case does not matter.
@@ -124,10 +138,17 @@ export default function SearchWords({ loaderData, actionData }: Route.ComponentP
                     <div className="flex flex-wrap items-start justify-between gap-3">
                       <ul className="flex min-w-0 flex-wrap gap-1.5" aria-label="Words in this group">
                         {g.words.map((w) => (
-                          <li key={w} className="rounded border border-rule bg-paper-deep/60 px-2 py-0.5 text-sm">{w}</li>
+                          <li key={w} className="rounded border border-rule bg-paper-deep/60 px-2 py-0.5 text-sm">
+                            {w}
+                          </li>
                         ))}
                       </ul>
-                      <Form method="post" onSubmit={(e) => { if (!confirm(`Remove the group “${g.words.join(", ")}”?`)) e.preventDefault(); }}>
+                      <Form
+                        method="post"
+                        onSubmit={(e) => {
+                          if (!confirm(`Remove the group “${g.words.join(", ")}”?`)) e.preventDefault();
+                        }}
+                      >
                         <input type="hidden" name="id" value={g.id} />
                         <button className="btn btn-danger py-1 text-xs" name="intent" value="remove" type="submit" disabled={busy}>
                           Remove<span className="sr-only"> the group {g.words.join(", ")}</span>
@@ -161,7 +182,9 @@ export default function SearchWords({ loaderData, actionData }: Route.ComponentP
                           error={mine?.errors.words}
                           hint={`Separate with commas; ${MAX_WORDS} at most.`}
                         />
-                        <button className="btn py-1 text-sm" type="submit" disabled={busy}>Save the group</button>
+                        <button className="btn py-1 text-sm" type="submit" disabled={busy}>
+                          Save the group
+                        </button>
                       </Form>
                     </details>
                   </li>

@@ -21,7 +21,9 @@ async function shoot(page: Page, name: string) {
   }
 }
 
-test("a block inserted mid-paragraph splits it: the text before stays above, the text after goes below, no empty paragraph", async ({ page }) => {
+test("a block inserted mid-paragraph splits it: the text before stays above, the text after goes below, no empty paragraph", async ({
+  page,
+}) => {
   await page.setViewportSize({ width: 1366, height: 900 });
   const editor = await newDraft(page, `Split around a block ${stamp}`);
   await blankPage(page, editor);
@@ -33,22 +35,46 @@ test("a block inserted mid-paragraph splits it: the text before stays above, the
   await page.keyboard.press("End");
   for (let i = 0; i < "Let the gasket settle.".length; i++) await page.keyboard.press("ArrowLeft");
   await page.getByRole("button", { name: "Spec", exact: true }).click();
-  expect(await outline(page)).toEqual(["p:Torque the studs in three passes. ", "spec", "p:Let the gasket settle.", "p:Check the deck height."]);
+  expect(await outline(page)).toEqual([
+    "p:Torque the studs in three passes. ",
+    "spec",
+    "p:Let the gasket settle.",
+    "p:Check the deck height.",
+  ]);
   // Typing carries on where the cursor was: at the start of the text after the block.
   await page.keyboard.type("Then, ");
-  expect(await outline(page)).toEqual(["p:Torque the studs in three passes. ", "spec", "p:Then, Let the gasket settle.", "p:Check the deck height."]);
+  expect(await outline(page)).toEqual([
+    "p:Torque the studs in three passes. ",
+    "spec",
+    "p:Then, Let the gasket settle.",
+    "p:Check the deck height.",
+  ]);
 
   // At the end of a paragraph that other text follows, the block goes between them, with no empty paragraph.
   await editor.getByText("Then, Let the gasket settle.").click();
   await page.keyboard.press("End");
   await page.getByRole("button", { name: "Preload calculator" }).click();
-  expect(await outline(page)).toEqual(["p:Torque the studs in three passes. ", "spec", "p:Then, Let the gasket settle.", "calculator", "p:Check the deck height."]);
+  expect(await outline(page)).toEqual([
+    "p:Torque the studs in three passes. ",
+    "spec",
+    "p:Then, Let the gasket settle.",
+    "calculator",
+    "p:Check the deck height.",
+  ]);
 
   // At the end of the last paragraph, the block is last: one paragraph after it gives the place to type.
   await editor.getByText("Check the deck height.").click();
   await page.keyboard.press("End");
   await page.getByRole("button", { name: "Spec", exact: true }).click();
-  expect(await outline(page)).toEqual(["p:Torque the studs in three passes. ", "spec", "p:Then, Let the gasket settle.", "calculator", "p:Check the deck height.", "spec", "p:"]);
+  expect(await outline(page)).toEqual([
+    "p:Torque the studs in three passes. ",
+    "spec",
+    "p:Then, Let the gasket settle.",
+    "calculator",
+    "p:Check the deck height.",
+    "spec",
+    "p:",
+  ]);
   await page.keyboard.type("Record the readings.");
   expect((await outline(page)).at(-1)).toBe("p:Record the readings.");
 
@@ -56,7 +82,15 @@ test("a block inserted mid-paragraph splits it: the text before stays above, the
   await expect(page.getByTestId("save-status")).toHaveText(/^Saved/, { timeout: 15_000 });
   await page.reload();
   await expect(page.getByTestId("editor")).toContainText("Record the readings.");
-  expect(await outline(page)).toEqual(["p:Torque the studs in three passes. ", "spec", "p:Then, Let the gasket settle.", "calculator", "p:Check the deck height.", "spec", "p:Record the readings."]);
+  expect(await outline(page)).toEqual([
+    "p:Torque the studs in three passes. ",
+    "spec",
+    "p:Then, Let the gasket settle.",
+    "calculator",
+    "p:Check the deck height.",
+    "spec",
+    "p:Record the readings.",
+  ]);
   await shoot(page, "editor-split");
 });
 
@@ -78,7 +112,8 @@ test("the Video moment block previews the recording in our player, and its frame
   await expect(preview.getByLabel("Video: Head stud clamp-load test").first()).toBeAttached();
   const play = controls.getByRole("button", { name: "Play" });
   await expect(play).toBeEnabled({ timeout: 30_000 });
-  for (const name of ["Back 5 seconds", "Forward 5 seconds", "One frame back", "One frame on"]) await expect(controls.getByRole("button", { name })).toBeVisible();
+  for (const name of ["Back 5 seconds", "Forward 5 seconds", "One frame back", "One frame on"])
+    await expect(controls.getByRole("button", { name })).toBeVisible();
   // The marks are ticks on the preview's bar.
   await expect(preview.locator("[data-mark-id]")).not.toHaveCount(0);
 

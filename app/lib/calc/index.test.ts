@@ -13,7 +13,10 @@ describe("the module's entry and purity", () => {
   });
 
   test("source files import only zod and each other: no DOM, no Node built-ins, no database", () => {
-    const sources = import.meta.glob(["./*.ts", "!./*.test.ts"], { query: "?raw", import: "default", eager: true }) as Record<string, string>;
+    const sources = import.meta.glob(["./*.ts", "!./*.test.ts"], { query: "?raw", import: "default", eager: true }) as Record<
+      string,
+      string
+    >;
     expect(Object.keys(sources).length).toBeGreaterThan(5);
     for (const [file, text] of Object.entries(sources)) {
       const imports = [...text.matchAll(/\bfrom\s+"([^"]+)"/g)].map((m) => m[1]);

@@ -14,14 +14,23 @@ const byFirstWord = [sql`${searchWordGroups.words}[1]`, searchWordGroups.id];
 /** Every group, with who changed it last. */
 export async function wordGroups(): Promise<WordGroup[]> {
   return db()
-    .select({ id: searchWordGroups.id, words: searchWordGroups.words, createdAt: searchWordGroups.createdAt, updatedAt: searchWordGroups.updatedAt, updatedBy: users.name })
+    .select({
+      id: searchWordGroups.id,
+      words: searchWordGroups.words,
+      createdAt: searchWordGroups.createdAt,
+      updatedAt: searchWordGroups.updatedAt,
+      updatedBy: users.name,
+    })
     .from(searchWordGroups)
     .leftJoin(users, eq(users.id, searchWordGroups.updatedBy))
     .orderBy(...byFirstWord);
 }
 
 export async function wordGroupLists(): Promise<string[][]> {
-  const rows = await db().select({ words: searchWordGroups.words }).from(searchWordGroups).orderBy(...byFirstWord);
+  const rows = await db()
+    .select({ words: searchWordGroups.words })
+    .from(searchWordGroups)
+    .orderBy(...byFirstWord);
   return rows.map((r) => r.words);
 }
 

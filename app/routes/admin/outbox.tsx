@@ -14,10 +14,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const dir = env().MAIL_FAKE_DIR;
   // Only exists while mail goes to the local stand-in; with a real provider there is nothing to show.
   if (!dir) throw data({ message: "Mail goes to a real provider; there is no local outbox." }, { status: 404 });
-  const [messages, queue] = await Promise.all([
-    readFakeMailbox(dir),
-    recentOutbox(),
-  ]);
+  const [messages, queue] = await Promise.all([readFakeMailbox(dir), recentOutbox()]);
   return { messages: messages.slice(0, 100), queue };
 }
 
@@ -27,13 +24,18 @@ export default function Outbox({ loaderData }: Route.ComponentProps) {
   const pending = loaderData.queue.filter((q) => !q.sentAt);
   return (
     <>
-      <PageHeader title="Outbox" kicker="Admin">Messages caught by the local mail stand-in. A real mail provider replaces it in production.</PageHeader>
+      <PageHeader title="Outbox" kicker="Admin">
+        Messages caught by the local mail stand-in. A real mail provider replaces it in production.
+      </PageHeader>
       {pending.length > 0 && (
         <section className="card mb-6">
           <h2 className="text-lg">Waiting to be sent ({pending.length})</h2>
           <ul className="mt-2 space-y-1 text-sm">
             {pending.map((q) => (
-              <li key={q.id}>{q.subject} → {q.to} · {q.attempts} attempt{q.attempts === 1 ? "" : "s"}{q.lastError ? ` · last error: ${q.lastError}` : ""}</li>
+              <li key={q.id}>
+                {q.subject} → {q.to} · {q.attempts} attempt{q.attempts === 1 ? "" : "s"}
+                {q.lastError ? ` · last error: ${q.lastError}` : ""}
+              </li>
             ))}
           </ul>
         </section>
@@ -53,7 +55,11 @@ export default function Outbox({ loaderData }: Route.ComponentProps) {
               {m.links.length > 0 && (
                 <ul className="mt-3 space-y-1 text-sm">
                   {m.links.map((l) => (
-                    <li key={l}><a href={l} className="break-all">{l}</a></li>
+                    <li key={l}>
+                      <a href={l} className="break-all">
+                        {l}
+                      </a>
+                    </li>
                   ))}
                 </ul>
               )}

@@ -71,31 +71,55 @@ export default function People({ loaderData, actionData }: Route.ComponentProps)
         <section className="card overflow-x-auto p-0">
           <table className="w-full text-left text-sm">
             <thead className="border-b border-rule bg-paper-deep/60 text-xs uppercase tracking-wide text-graphite-soft">
-              <tr><th className="px-4 py-2">Person</th><th className="px-4 py-2">Role</th><th className="px-4 py-2">Status</th><th className="px-4 py-2"><span className="sr-only">Actions</span></th></tr>
+              <tr>
+                <th className="px-4 py-2">Person</th>
+                <th className="px-4 py-2">Role</th>
+                <th className="px-4 py-2">Status</th>
+                <th className="px-4 py-2">
+                  <span className="sr-only">Actions</span>
+                </th>
+              </tr>
             </thead>
             <tbody>
               {loaderData.people.map((p) => (
                 <tr key={p.id} className="border-b border-rule/70 last:border-0" data-testid={`person-${p.email}`}>
-                  <td className="px-4 py-3"><div className="font-semibold">{p.name}</div><div className="text-graphite-soft">{p.email}</div></td>
+                  <td className="px-4 py-3">
+                    <div className="font-semibold">{p.name}</div>
+                    <div className="text-graphite-soft">{p.email}</div>
+                  </td>
                   <td className="px-4 py-3">
                     <Form method="post" className="flex items-center gap-2">
                       <input type="hidden" name="intent" value="role" />
                       <input type="hidden" name="userId" value={p.id} />
-                      <label className="sr-only" htmlFor={`role-${p.id}`}>Role of {p.name}</label>
+                      <label className="sr-only" htmlFor={`role-${p.id}`}>
+                        Role of {p.name}
+                      </label>
                       <select id={`role-${p.id}`} name="role" defaultValue={p.role} className="field w-auto py-1 text-sm">
-                        {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
+                        {ROLES.map((r) => (
+                          <option key={r} value={r}>
+                            {ROLE_LABELS[r]}
+                          </option>
+                        ))}
                       </select>
-                      <button className="btn py-1 text-xs" type="submit" disabled={busy}>Set</button>
+                      <button className="btn py-1 text-xs" type="submit" disabled={busy}>
+                        Set
+                      </button>
                     </Form>
                   </td>
-                  <td className="px-4 py-3">{p.deactivatedAt ? <span className="text-spec-red">Deactivated {fmt(p.deactivatedAt)}</span> : <span>Active</span>}</td>
+                  <td className="px-4 py-3">
+                    {p.deactivatedAt ? <span className="text-spec-red">Deactivated {fmt(p.deactivatedAt)}</span> : <span>Active</span>}
+                  </td>
                   <td className="px-4 py-3 text-right">
                     <Form method="post">
                       <input type="hidden" name="userId" value={p.id} />
                       {p.deactivatedAt ? (
-                        <button className="btn py-1 text-xs" name="intent" value="reactivate" type="submit">Reactivate</button>
+                        <button className="btn py-1 text-xs" name="intent" value="reactivate" type="submit">
+                          Reactivate
+                        </button>
                       ) : (
-                        <button className="btn btn-danger py-1 text-xs" name="intent" value="deactivate" type="submit">Deactivate</button>
+                        <button className="btn btn-danger py-1 text-xs" name="intent" value="deactivate" type="submit">
+                          Deactivate
+                        </button>
                       )}
                     </Form>
                   </td>
@@ -109,11 +133,24 @@ export default function People({ loaderData, actionData }: Route.ComponentProps)
             <h2 className="text-lg">Invite someone</h2>
             <input type="hidden" name="intent" value="invite" />
             <FormError message={ie.form} />
-            <Field label="E-mail" name="email" type="email" required defaultValue={actionData?.intent === "invite" ? actionData.values.email : ""} error={ie.email} />
+            <Field
+              label="E-mail"
+              name="email"
+              type="email"
+              required
+              defaultValue={actionData?.intent === "invite" ? actionData.values.email : ""}
+              error={ie.email}
+            />
             <SelectField label="Role" name="role" defaultValue="apprentice" error={ie.role}>
-              {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
+              {ROLES.map((r) => (
+                <option key={r} value={r}>
+                  {ROLE_LABELS[r]}
+                </option>
+              ))}
             </SelectField>
-            <button className="btn btn-primary w-full" type="submit" disabled={busy}>Send invitation</button>
+            <button className="btn btn-primary w-full" type="submit" disabled={busy}>
+              Send invitation
+            </button>
           </Form>
           <section className="card">
             <h2 className="text-lg">Open invitations</h2>
@@ -124,7 +161,9 @@ export default function People({ loaderData, actionData }: Route.ComponentProps)
                 {loaderData.pending.map((i) => (
                   <li key={i.id}>
                     <div className="font-semibold">{i.email}</div>
-                    <div className="text-graphite-soft">{ROLE_LABELS[i.role]} · {new Date(i.expiresAt) < new Date() ? "expired" : `expires ${fmt(i.expiresAt)}`}</div>
+                    <div className="text-graphite-soft">
+                      {ROLE_LABELS[i.role]} · {new Date(i.expiresAt) < new Date() ? "expired" : `expires ${fmt(i.expiresAt)}`}
+                    </div>
                   </li>
                 ))}
               </ul>

@@ -31,11 +31,30 @@ export type DraftInitial = {
 
 type SaveReply =
   | { ok: true; version: number; savedAt: string; warnings: { path: string; message: string }[]; incomplete: IncompleteBlock[] }
-  | { error: "conflict"; message: string; copyId: string; current: { version: number; title: string; summary: string; area: string; tags: string[]; doc: unknown; updatedAt: string; savedBy: string | null } }
+  | {
+      error: "conflict";
+      message: string;
+      copyId: string;
+      current: {
+        version: number;
+        title: string;
+        summary: string;
+        area: string;
+        tags: string[];
+        doc: unknown;
+        updatedAt: string;
+        savedBy: string | null;
+      };
+    }
   | { error: "invalid input"; issues: { path: string; message: string }[] }
   | { ok?: undefined; error: "forbidden" | "refused" | "not found"; reason?: string };
 
-type Status = { kind: "saved"; at: Date | null } | { kind: "dirty" } | { kind: "saving" } | { kind: "error"; message: string } | { kind: "conflict" };
+type Status =
+  | { kind: "saved"; at: Date | null }
+  | { kind: "dirty" }
+  | { kind: "saving" }
+  | { kind: "error"; message: string }
+  | { kind: "conflict" };
 
 const AUTOSAVE_MS = 1200;
 
@@ -99,7 +118,8 @@ function insertBlockAt(tr: Transaction, point: NonNullable<ReturnType<typeof blo
  */
 function writeBelowLastBlock(view: EditorView, event: MouseEvent, beside = false): boolean {
   const last = view.dom.lastElementChild;
-  if ((!beside && event.target !== view.dom) || event.button !== 0 || !last || event.clientY <= last.getBoundingClientRect().bottom) return false;
+  if ((!beside && event.target !== view.dom) || event.button !== 0 || !last || event.clientY <= last.getBoundingClientRect().bottom)
+    return false;
   event.preventDefault();
   const { doc, schema } = view.state;
   const tr = view.state.tr;
@@ -152,32 +172,96 @@ function goToBlock(editor: Editor, block: IncompleteBlock) {
   field.focus({ preventScroll: true });
 }
 
-function Btn({ onClick, active, label, children, disabled }: { onClick: () => void; active?: boolean; label: string; children: React.ReactNode; disabled?: boolean }) {
+function Btn({
+  onClick,
+  active,
+  label,
+  children,
+  disabled,
+}: {
+  onClick: () => void;
+  active?: boolean;
+  label: string;
+  children: React.ReactNode;
+  disabled?: boolean;
+}) {
   return (
-    <button type="button" onMouseDown={(e) => e.preventDefault()} onClick={onClick} aria-pressed={active} aria-label={label} title={label} disabled={disabled}
-      className={`rounded px-2 py-1 text-sm font-semibold ${active ? "bg-graphite text-paper" : "text-graphite hover:bg-paper-deep"} disabled:opacity-40`}>
+    <button
+      type="button"
+      onMouseDown={(e) => e.preventDefault()}
+      onClick={onClick}
+      aria-pressed={active}
+      aria-label={label}
+      title={label}
+      disabled={disabled}
+      className={`rounded px-2 py-1 text-sm font-semibold ${active ? "bg-graphite text-paper" : "text-graphite hover:bg-paper-deep"} disabled:opacity-40`}
+    >
       {children}
     </button>
   );
 }
 
-function LinkPicker({ editor, procedureId, onPick, onClose }: { editor: Editor; procedureId: string; onPick: (r: { id: string; title: string; slug: string }) => void; onClose: () => void }) {
+function LinkPicker({
+  editor,
+  procedureId,
+  onPick,
+  onClose,
+}: {
+  editor: Editor;
+  procedureId: string;
+  onPick: (r: { id: string; title: string; slug: string }) => void;
+  onClose: () => void;
+}) {
+  // The picker opens on the author's press: its search field takes the focus, as a menu would.
+  const search = useRef<HTMLInputElement>(null);
+  useEffect(() => search.current?.focus(), []);
   const [q, setQ] = useState("");
   const [results, setResults] = useState<{ id: string; title: string; slug: string; areaLabel: string }[]>([]);
   useEffect(() => {
     const ctl = new AbortController();
     const t = setTimeout(() => {
-      fetch(`/api/procedures/titles?q=${encodeURIComponent(q)}&except=${procedureId}`, { signal: ctl.signal }).then((r) => r.json()).then((j) => setResults(j.results)).catch(() => {});
+      fetch(`/api/procedures/titles?q=${encodeURIComponent(q)}&except=${procedureId}`, { signal: ctl.signal })
+        .then((r) => r.json())
+        .then((j) => setResults(j.results))
+        .catch(() => {});
     }, 150);
-    return () => { clearTimeout(t); ctl.abort(); };
+    return () => {
+      clearTimeout(t);
+      ctl.abort();
+    };
   }, [q, procedureId]);
   return (
-    <div className="absolute left-0 top-full z-20 mt-1 w-80 rounded-md border border-rule bg-card p-2 shadow-lg" role="dialog" aria-label="Link a procedure">
-      <input autoFocus className="field py-1 text-sm" placeholder="Search procedure titles…" value={q} onChange={(e) => setQ(e.target.value)} aria-label="Search procedure titles" onKeyDown={(e) => e.key === "Escape" && onClose()} />
+    <div
+      className="absolute left-0 top-full z-20 mt-1 w-80 rounded-md border border-rule bg-card p-2 shadow-lg"
+      role="dialog"
+      aria-label="Link a procedure"
+    >
+      <input
+        ref={search}
+        className="field py-1 text-sm"
+        placeholder="Search procedure titles…"
+        value={q}
+        onChange={(e) => setQ(e.target.value)}
+        aria-label="Search procedure titles"
+        onKeyDown={(e) => e.key === "Escape" && onClose()}
+      />
       <ul className="mt-1 max-h-60 overflow-auto text-sm">
         {results.map((r) => (
           <li key={r.id}>
-            <button type="button" className="w-full rounded px-2 py-1 text-left hover:bg-paper-deep" onClick={() => { onPick(r); editor.chain().focus().insertContent({ type: "procedureLink", attrs: { procedureId: r.id } }).insertContent(" ").run(); onClose(); }}>
+            <button
+              type="button"
+              className="w-full rounded px-2 py-1 text-left hover:bg-paper-deep"
+              onClick={() => {
+                onPick(r);
+                editor
+                  .chain()
+                  .focus()
+                  .insertContent({ type: "procedureLink", attrs: { procedureId: r.id } })
+                  .insertContent(" ")
+                  .run();
+                onClose();
+              }}
+            >
               {r.title} <span className="text-xs text-graphite-soft">· {r.areaLabel}</span>
             </button>
           </li>
@@ -188,13 +272,23 @@ function LinkPicker({ editor, procedureId, onPick, onClose }: { editor: Editor; 
   );
 }
 
-function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; procedureId: string; rememberTitle: (id: string, t: { title: string; slug: string }) => void }) {
+function Toolbar({
+  editor,
+  procedureId,
+  rememberTitle,
+}: {
+  editor: Editor;
+  procedureId: string;
+  rememberTitle: (id: string, t: { title: string; slug: string }) => void;
+}) {
   const [picker, setPicker] = useState(false);
   const [, force] = useState(0);
   useEffect(() => {
     const f = () => force((n) => n + 1);
     editor.on("transaction", f);
-    return () => { editor.off("transaction", f); };
+    return () => {
+      editor.off("transaction", f);
+    };
   }, [editor]);
   const c = () => editor.chain().focus();
   const insertBlock = (content: Record<string, unknown>): boolean => {
@@ -216,40 +310,107 @@ function Toolbar({ editor, procedureId, rememberTitle }: { editor: Editor; proce
     else c().extendMarkRange("link").setLink({ href: href.trim() }).run();
   };
   return (
-    <div className="sticky top-0 z-10 flex flex-wrap items-center gap-0.5 border-b border-rule bg-card/95 px-2 py-1 backdrop-blur" role="toolbar" aria-label="Formatting and blocks">
-      <Btn label="Bold" active={editor.isActive("bold")} onClick={() => c().toggleBold().run()}><b>B</b></Btn>
-      <Btn label="Italic" active={editor.isActive("italic")} onClick={() => c().toggleItalic().run()}><i>I</i></Btn>
-      <Btn label="Strike through" active={editor.isActive("strike")} onClick={() => c().toggleStrike().run()}><s>S</s></Btn>
-      <Btn label="Inline code" active={editor.isActive("code")} onClick={() => c().toggleCode().run()}><code>{"{}"}</code></Btn>
-      <Btn label="Web link" active={editor.isActive("link")} onClick={setLink}>Link</Btn>
+    <div
+      className="sticky top-0 z-10 flex flex-wrap items-center gap-0.5 border-b border-rule bg-card/95 px-2 py-1 backdrop-blur"
+      role="toolbar"
+      aria-label="Formatting and blocks"
+    >
+      <Btn label="Bold" active={editor.isActive("bold")} onClick={() => c().toggleBold().run()}>
+        <b>B</b>
+      </Btn>
+      <Btn label="Italic" active={editor.isActive("italic")} onClick={() => c().toggleItalic().run()}>
+        <i>I</i>
+      </Btn>
+      <Btn label="Strike through" active={editor.isActive("strike")} onClick={() => c().toggleStrike().run()}>
+        <s>S</s>
+      </Btn>
+      <Btn label="Inline code" active={editor.isActive("code")} onClick={() => c().toggleCode().run()}>
+        <code>{"{}"}</code>
+      </Btn>
+      <Btn label="Web link" active={editor.isActive("link")} onClick={setLink}>
+        Link
+      </Btn>
       <span className="mx-1 h-5 w-px bg-rule" aria-hidden />
-      <Btn label="Section heading" active={editor.isActive("heading", { level: 2 })} onClick={() => c().toggleHeading({ level: 2 }).run()}>H2</Btn>
-      <Btn label="Sub-heading" active={editor.isActive("heading", { level: 3 })} onClick={() => c().toggleHeading({ level: 3 }).run()}>H3</Btn>
-      <Btn label="Bulleted list" active={editor.isActive("bulletList")} onClick={() => c().toggleBulletList().run()}>• List</Btn>
-      <Btn label="Numbered steps" active={editor.isActive("orderedList")} onClick={() => c().toggleOrderedList().run()}>1. Steps</Btn>
-      <Btn label="Quote" active={editor.isActive("blockquote")} onClick={() => c().toggleBlockquote().run()}>“ ”</Btn>
-      <Btn label="Table" onClick={() => c().insertTable({ rows: 3, cols: 3, withHeaderRow: true }).run()}>Table</Btn>
+      <Btn label="Section heading" active={editor.isActive("heading", { level: 2 })} onClick={() => c().toggleHeading({ level: 2 }).run()}>
+        H2
+      </Btn>
+      <Btn label="Sub-heading" active={editor.isActive("heading", { level: 3 })} onClick={() => c().toggleHeading({ level: 3 }).run()}>
+        H3
+      </Btn>
+      <Btn label="Bulleted list" active={editor.isActive("bulletList")} onClick={() => c().toggleBulletList().run()}>
+        • List
+      </Btn>
+      <Btn label="Numbered steps" active={editor.isActive("orderedList")} onClick={() => c().toggleOrderedList().run()}>
+        1. Steps
+      </Btn>
+      <Btn label="Quote" active={editor.isActive("blockquote")} onClick={() => c().toggleBlockquote().run()}>
+        “ ”
+      </Btn>
+      <Btn label="Table" onClick={() => c().insertTable({ rows: 3, cols: 3, withHeaderRow: true }).run()}>
+        Table
+      </Btn>
       {editor.isActive("table") && (
         <>
-          <Btn label="Add row" onClick={() => c().addRowAfter().run()}>+row</Btn>
-          <Btn label="Add column" onClick={() => c().addColumnAfter().run()}>+col</Btn>
-          <Btn label="Delete table" onClick={() => c().deleteTable().run()}>×table</Btn>
+          <Btn label="Add row" onClick={() => c().addRowAfter().run()}>
+            +row
+          </Btn>
+          <Btn label="Add column" onClick={() => c().addColumnAfter().run()}>
+            +col
+          </Btn>
+          <Btn label="Delete table" onClick={() => c().deleteTable().run()}>
+            ×table
+          </Btn>
         </>
       )}
-      <Btn label="Undo" onClick={() => c().undo().run()} disabled={!editor.can().undo()}>↶</Btn>
-      <Btn label="Redo" onClick={() => c().redo().run()} disabled={!editor.can().redo()}>↷</Btn>
+      <Btn label="Undo" onClick={() => c().undo().run()} disabled={!editor.can().undo()}>
+        ↶
+      </Btn>
+      <Btn label="Redo" onClick={() => c().redo().run()} disabled={!editor.can().redo()}>
+        ↷
+      </Btn>
       <span className="mx-1 h-5 w-px bg-rule" aria-hidden />
       <span className="px-1 text-xs font-semibold uppercase tracking-wide text-brass">Insert</span>
       <span className="relative">
-        <Btn label="Procedure link" onClick={() => setPicker((p) => !p)} active={picker}>Procedure link</Btn>
-        {picker && <LinkPicker editor={editor} procedureId={procedureId} onPick={(r) => rememberTitle(r.id, r)} onClose={() => setPicker(false)} />}
+        <Btn label="Procedure link" onClick={() => setPicker((p) => !p)} active={picker}>
+          Procedure link
+        </Btn>
+        {picker && (
+          <LinkPicker editor={editor} procedureId={procedureId} onPick={(r) => rememberTitle(r.id, r)} onClose={() => setPicker(false)} />
+        )}
       </span>
-      <Btn label="Spec" onClick={() => insertBlock({ type: "spec", attrs: { id: newSpecKey(), label: "", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, note: "" } })}>Spec</Btn>
-      <Btn label="Caution" active={editor.isActive("caution")} onClick={() => (editor.isActive("caution") ? c().lift("caution").run() : c().wrapIn("caution").run())}>Caution</Btn>
-      <Btn label="Preload calculator" onClick={() => insertCalc("preload")}>Preload</Btn>
-      <Btn label="Bore distortion calculator" onClick={() => insertCalc("distortion")}>Bore distortion</Btn>
-      <Btn label="Clearances calculator" onClick={() => insertCalc("clearance")}>Clearances</Btn>
-      <Btn label="Video moment" onClick={() => insertBlock({ type: "videoMoment", attrs: { recordingId: null, start: 0, end: null, caption: "" } })}>Video moment</Btn>
+      <Btn
+        label="Spec"
+        onClick={() =>
+          insertBlock({
+            type: "spec",
+            attrs: { id: newSpecKey(), label: "", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, note: "" },
+          })
+        }
+      >
+        Spec
+      </Btn>
+      <Btn
+        label="Caution"
+        active={editor.isActive("caution")}
+        onClick={() => (editor.isActive("caution") ? c().lift("caution").run() : c().wrapIn("caution").run())}
+      >
+        Caution
+      </Btn>
+      <Btn label="Preload calculator" onClick={() => insertCalc("preload")}>
+        Preload
+      </Btn>
+      <Btn label="Bore distortion calculator" onClick={() => insertCalc("distortion")}>
+        Bore distortion
+      </Btn>
+      <Btn label="Clearances calculator" onClick={() => insertCalc("clearance")}>
+        Clearances
+      </Btn>
+      <Btn
+        label="Video moment"
+        onClick={() => insertBlock({ type: "videoMoment", attrs: { recordingId: null, start: 0, end: null, caption: "" } })}
+      >
+        Video moment
+      </Btn>
     </div>
   );
 }
@@ -283,7 +444,15 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
     // TipTap adds a <style> of base styles; the page's Content-Security-Policy wants its nonce.
     injectNonce: documentNonce(),
     // TipTap's trailing node keeps a paragraph after the last block, so a click below it has a place to type.
-    extensions: [starterKit.configure({ trailingNode: {} }), Table.configure({ resizable: false }), TableRow, TableHeader, TableCell, ...editorNodes, Placeholder.configure({ placeholder: "Write the step, or insert a block from the toolbar…" })],
+    extensions: [
+      starterKit.configure({ trailingNode: {} }),
+      Table.configure({ resizable: false }),
+      TableRow,
+      TableHeader,
+      TableCell,
+      ...editorNodes,
+      Placeholder.configure({ placeholder: "Write the step, or insert a block from the toolbar…" }),
+    ],
     content: initial.doc as JSONNode,
     editorProps: {
       attributes: { class: "proc-body prose-proc", "aria-label": "Procedure text", "data-testid": "editor" },
@@ -295,7 +464,9 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
       e.view.dispatch(e.state.tr.setMeta("addToHistory", false));
       settling.current = false;
     },
-    onUpdate: () => { if (!settling.current) markDirty(); },
+    onUpdate: () => {
+      if (!settling.current) markDirty();
+    },
   });
   const [incomplete, setIncomplete] = useState<IncompleteBlock[]>([]);
   useEffect(() => {
@@ -303,7 +474,9 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
     const f = () => setIncomplete(incompleteBlocks(editor.getJSON() as JSONNode));
     f();
     editor.on("update", f);
-    return () => { editor.off("update", f); };
+    return () => {
+      editor.off("update", f);
+    };
   }, [editor]);
 
   const dirty = status.kind === "dirty" || status.kind === "saving" || status.kind === "error" || status.kind === "conflict";
@@ -315,10 +488,11 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
       return;
     }
     setStatus({ kind: "saving" });
-    fetcher.submit(
-      { baseVersion: version.current, title, summary, area, tags, doc: editor.getJSON() } as never,
-      { method: "post", action: `/api/procedures/revisions/${initial.id}`, encType: "application/json" },
-    );
+    fetcher.submit({ baseVersion: version.current, title, summary, area, tags, doc: editor.getJSON() } as never, {
+      method: "post",
+      action: `/api/procedures/revisions/${initial.id}`,
+      encType: "application/json",
+    });
   }, [editor, fetcher, title, summary, area, tags, initial.id]);
 
   const saveRef = useRef(save);
@@ -330,10 +504,14 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
   }
 
   const first = useRef(true);
+  // biome-ignore lint/correctness/useExhaustiveDependencies: runs when a field changes; markDirty is a new function every render and only schedules the save
   useEffect(() => {
-    if (first.current) { first.current = false; return; }
+    if (first.current) {
+      first.current = false;
+      return;
+    }
     markDirty();
-  }, [title, summary, area, tags]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [title, summary, area, tags]);
 
   useEffect(() => {
     if (fetcher.state !== "idle" || !fetcher.data) return;
@@ -341,8 +519,10 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
     if ("ok" in d && d.ok) {
       version.current = d.version;
       setIssues(d.warnings ?? []);
-      if (pendingAgain.current) { pendingAgain.current = false; saveRef.current(); }
-      else setStatus((s) => (s.kind === "saving" ? { kind: "saved", at: new Date(d.savedAt) } : s));
+      if (pendingAgain.current) {
+        pendingAgain.current = false;
+        saveRef.current();
+      } else setStatus((s) => (s.kind === "saving" ? { kind: "saved", at: new Date(d.savedAt) } : s));
       return;
     }
     setSubmitPending(false);
@@ -360,7 +540,17 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
     }
   }, [fetcher.state, fetcher.data]);
 
-  useBeforeUnload(useCallback((e) => { if (dirty) { e.preventDefault(); e.returnValue = ""; } }, [dirty]));
+  useBeforeUnload(
+    useCallback(
+      (e) => {
+        if (dirty) {
+          e.preventDefault();
+          e.returnValue = "";
+        }
+      },
+      [dirty],
+    ),
+  );
   const blocker = useBlocker(({ currentLocation, nextLocation }) => dirty && currentLocation.pathname !== nextLocation.pathname);
   useEffect(() => {
     if (blocker.state === "blocked") {
@@ -385,7 +575,10 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
     version.current = cur.version;
     editor.commands.setContent(cur.doc as JSONNode, { emitUpdate: false });
     first.current = true;
-    setTitle(cur.title); setSummary(cur.summary); setArea(cur.area); setTags(cur.tags.join(", "));
+    setTitle(cur.title);
+    setSummary(cur.summary);
+    setArea(cur.area);
+    setTags(cur.tags.join(", "));
     setConflict(null);
     setIncomplete(incompleteBlocks(editor.getJSON() as JSONNode));
     setStatus({ kind: "saved", at: new Date(cur.updatedAt) });
@@ -419,51 +612,117 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
   };
 
   const statusText =
-    status.kind === "saved" ? (status.at ? `Saved ${status.at.toLocaleTimeString("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit" })}` : "No changes yet")
-    : status.kind === "saving" ? "Saving…" : status.kind === "dirty" ? "Unsaved changes" : status.kind === "conflict" ? "Not saved: conflict" : status.message;
+    status.kind === "saved"
+      ? status.at
+        ? `Saved ${status.at.toLocaleTimeString("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit" })}`
+        : "No changes yet"
+      : status.kind === "saving"
+        ? "Saving…"
+        : status.kind === "dirty"
+          ? "Unsaved changes"
+          : status.kind === "conflict"
+            ? "Not saved: conflict"
+            : status.message;
 
   return (
     <EditorSharedContext.Provider value={{ titles, rememberTitle, procedureId: initial.procedureId }}>
       <div className="space-y-4">
         <div className="flex flex-wrap items-center justify-between gap-2">
           <p className="text-sm" role="status" aria-live="polite">
-            <span className={`font-semibold ${status.kind === "error" || status.kind === "conflict" ? "text-spec-red" : status.kind === "saved" ? "text-ok" : "text-brass"}`} data-testid="save-status">{statusText}</span>
+            <span
+              className={`font-semibold ${status.kind === "error" || status.kind === "conflict" ? "text-spec-red" : status.kind === "saved" ? "text-ok" : "text-brass"}`}
+              data-testid="save-status"
+            >
+              {statusText}
+            </span>
             {incomplete.length > 0 && status.kind !== "error" && status.kind !== "conflict" && (
-              <span className="text-graphite-soft" data-testid="incomplete-count"> · {blocksText(incomplete.length)} to finish before review</span>
+              <span className="text-graphite-soft" data-testid="incomplete-count">
+                {" "}
+                · {blocksText(incomplete.length)} to finish before review
+              </span>
             )}
           </p>
-          <button type="button" className="btn py-1 text-sm" onClick={() => save()} disabled={!editor || status.kind === "saving" || status.kind === "conflict"}>Save now</button>
+          <button
+            type="button"
+            className="btn py-1 text-sm"
+            onClick={() => save()}
+            disabled={!editor || status.kind === "saving" || status.kind === "conflict"}
+          >
+            Save now
+          </button>
         </div>
         {conflict && (
           <div role="alert" className="rounded-lg border border-spec-red/50 bg-spec-red-soft/60 p-4 text-sm" data-testid="conflict">
             <p className="font-semibold text-spec-red">{conflict.message}</p>
-            <p className="mt-1">Your text is still in the editor below. Their version (saved {new Date(conflict.current.updatedAt).toLocaleTimeString("en-GB")}):</p>
+            <p className="mt-1">
+              Your text is still in the editor below. Their version (saved{" "}
+              {new Date(conflict.current.updatedAt).toLocaleTimeString("en-GB")}):
+            </p>
             <div className="mt-2 max-h-48 overflow-auto rounded border border-rule bg-card p-2 font-serif">
               <p className="font-semibold">{conflict.current.title}</p>
-              {theirs.map((b) => <p key={b.index}>{b.text}</p>)}
+              {theirs.map((b) => (
+                <p key={b.index}>{b.text}</p>
+              ))}
             </div>
             <div className="mt-3 flex flex-wrap gap-2">
-              <button type="button" className="btn" onClick={keepMine}>Keep mine (save over theirs)</button>
-              <button type="button" className="btn" onClick={takeTheirs}>Load theirs (mine stays as a conflict copy)</button>
+              <button type="button" className="btn" onClick={keepMine}>
+                Keep mine (save over theirs)
+              </button>
+              <button type="button" className="btn" onClick={takeTheirs}>
+                Load theirs (mine stays as a conflict copy)
+              </button>
             </div>
           </div>
         )}
         <div className="card grid gap-3 p-4 md:grid-cols-[2fr_1fr]">
-          <label className="md:col-span-2"><span className="label">Title</span><input className="field font-serif text-lg" value={title} onChange={(e) => setTitle(e.target.value)} aria-invalid={issues.some((i) => i.path === "title") || undefined} /></label>
-          <label><span className="label">Summary</span><input className="field" value={summary} onChange={(e) => setSummary(e.target.value)} placeholder="One or two sentences for the list" /></label>
-          <label><span className="label">Shop area</span>
-            <select className="field" value={area} onChange={(e) => setArea(e.target.value)}>{AREA_OPTIONS.map((a) => <option key={a.value} value={a.value}>{a.label}</option>)}</select>
+          <label className="md:col-span-2">
+            <span className="label">Title</span>
+            <input
+              className="field font-serif text-lg"
+              value={title}
+              onChange={(e) => setTitle(e.target.value)}
+              aria-invalid={issues.some((i) => i.path === "title") || undefined}
+            />
           </label>
-          <label className="md:col-span-2"><span className="label">Tags</span><input className="field" value={tags} onChange={(e) => setTags(e.target.value)} placeholder="comma-separated" /></label>
+          <label>
+            <span className="label">Summary</span>
+            <input
+              className="field"
+              value={summary}
+              onChange={(e) => setSummary(e.target.value)}
+              placeholder="One or two sentences for the list"
+            />
+          </label>
+          <label>
+            <span className="label">Shop area</span>
+            <select className="field" value={area} onChange={(e) => setArea(e.target.value)}>
+              {AREA_OPTIONS.map((a) => (
+                <option key={a.value} value={a.value}>
+                  {a.label}
+                </option>
+              ))}
+            </select>
+          </label>
+          <label className="md:col-span-2">
+            <span className="label">Tags</span>
+            <input className="field" value={tags} onChange={(e) => setTags(e.target.value)} placeholder="comma-separated" />
+          </label>
         </div>
         {issues.length > 0 && (
           <ul className="rounded-md border border-brass/60 bg-brass-soft/50 px-4 py-2 text-sm" data-testid="save-issues">
-            {issues.map((i, k) => <li key={k}>{sentence(i)}</li>)}
+            {issues.map((i) => (
+              <li key={`${i.path}:${i.message}`}>{sentence(i)}</li>
+            ))}
           </ul>
         )}
         <div className="proc-editor rounded-lg border border-rule bg-card shadow-sm">
-          {editor ? <Toolbar editor={editor} procedureId={initial.procedureId} rememberTitle={rememberTitle} /> : <div className="h-10 border-b border-rule" />}
+          {editor ? (
+            <Toolbar editor={editor} procedureId={initial.procedureId} rememberTitle={rememberTitle} />
+          ) : (
+            <div className="h-10 border-b border-rule" />
+          )}
           {/* The text keeps a reading measure; a press in the card's blank space beside it still reaches the text. */}
+          {/* biome-ignore lint/a11y/noStaticElementInteractions: only a pointer lands in the blank space beside the text; the keyboard is in the text already */}
           <div onMouseDown={(e) => editor && !editor.view.dom.contains(e.target as Node) && writeBeside(editor.view, e.nativeEvent)}>
             <EditorContent editor={editor} />
           </div>
@@ -471,17 +730,38 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
         </div>
         <Form ref={submitForm} method="post" action={submitTo} className="card flex flex-wrap items-end gap-3 p-4" onSubmit={onSubmit}>
           <input type="hidden" name="intent" value="submit" />
-          <label className="min-w-[16rem] flex-1"><span className="label">Change note (for the editor and the history)</span><input name="changeNote" className="field" placeholder="What changed and why" required minLength={3} /></label>
-          <button className="btn btn-primary" type="submit" disabled={busy || !editor}>{submitPending ? "Saving, then submitting…" : "Submit for review"}</button>
+          <label className="min-w-[16rem] flex-1">
+            <span className="label">Change note (for the editor and the history)</span>
+            <input name="changeNote" className="field" placeholder="What changed and why" required minLength={3} />
+          </label>
+          <button className="btn btn-primary" type="submit" disabled={busy || !editor}>
+            {submitPending ? "Saving, then submitting…" : "Submit for review"}
+          </button>
         </Form>
-        <dialog ref={missingDialog} aria-labelledby="missing-title" className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-lg border border-rule bg-card p-0 text-graphite shadow-xl backdrop:bg-graphite/40" data-testid="submit-missing">
+        <dialog
+          ref={missingDialog}
+          aria-labelledby="missing-title"
+          className="m-auto w-[min(36rem,calc(100vw-2rem))] rounded-lg border border-rule bg-card p-0 text-graphite shadow-xl backdrop:bg-graphite/40"
+          data-testid="submit-missing"
+        >
           <div className="p-5">
-            <h2 id="missing-title" className="font-serif text-xl">Finish {incomplete.length === 1 ? "this block" : `these ${blocksText(incomplete.length)}`} before review</h2>
-            <p className="mt-1 text-sm text-graphite-soft">Your draft is saved as it is. Review needs every block complete; choose one to go to it.</p>
+            <h2 id="missing-title" className="font-serif text-xl">
+              Finish {incomplete.length === 1 ? "this block" : `these ${blocksText(incomplete.length)}`} before review
+            </h2>
+            <p className="mt-1 text-sm text-graphite-soft">
+              Your draft is saved as it is. Review needs every block complete; choose one to go to it.
+            </p>
             <ul className="mt-3 divide-y divide-rule rounded-md border border-rule">
               {incomplete.map((b) => (
                 <li key={b.path.join(".")} className="px-3 py-2">
-                  <button type="button" className="min-h-11 text-left font-semibold text-teal underline decoration-teal/40 underline-offset-2 hover:decoration-teal" onClick={() => { missingDialog.current?.close(); if (editor) goToBlock(editor, b); }}>
+                  <button
+                    type="button"
+                    className="min-h-11 text-left font-semibold text-teal underline decoration-teal/40 underline-offset-2 hover:decoration-teal"
+                    onClick={() => {
+                      missingDialog.current?.close();
+                      if (editor) goToBlock(editor, b);
+                    }}
+                  >
                     {b.name}
                   </button>
                   <p className="text-sm">{b.problems.map((p) => p.message).join(" · ")}</p>
@@ -489,7 +769,9 @@ export function ProcedureEditor({ initial, submitTo }: { initial: DraftInitial; 
               ))}
             </ul>
             <div className="mt-4 flex justify-end">
-              <button type="button" className="btn" onClick={() => missingDialog.current?.close()}>Keep writing</button>
+              <button type="button" className="btn" onClick={() => missingDialog.current?.close()}>
+                Keep writing
+              </button>
             </div>
           </div>
         </dialog>
