@@ -169,6 +169,8 @@ test("the compare view shows both revisions as the reader sees them: headings, n
 test("a never-published procedure offers no comparison; a returned draft waits on its author's Shop floor with the reason", async ({
   browser,
 }) => {
+  // Two people through two returns, with screenshots at two widths: more than the default minute on a busy machine.
+  test.setTimeout(150_000);
   const title = `Rod bolt stretch ${stamp}`;
   const author = await (await browser.newContext()).newPage();
   await signIn(author, "marcus@larkspur.example");
