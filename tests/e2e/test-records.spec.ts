@@ -102,6 +102,8 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
   await expect(page.getByTestId("procedure-test-records").getByTestId("verdict")).toHaveText(/Incomplete: ?1 spec not measured/);
 
   if (process.env.SHOTS_TR) {
+    // Some thirty full-page screenshots at two widths: more than a test's minute on a shared machine.
+    test.setTimeout(240_000);
     const dir = process.env.SHOTS_TR;
     fs.mkdirSync(dir, { recursive: true });
     const recordUrl = await page.getByTestId("procedure-test-records").getByRole("link", { name: wo }).getAttribute("href");
