@@ -99,7 +99,6 @@ export type SessionUser = {
 export type RequestLike = { readonly url: string; readonly headers: Pick<Headers, "get"> };
 
 type Validated = { user: SessionUser; session: Session } | null;
-const cache = new WeakMap<RequestLike, Promise<Validated>>();
 
 function readSessionId(request: RequestLike): string | null {
   return lucia().readSessionCookie(request.headers.get("cookie") ?? "");
@@ -125,20 +124,18 @@ export function databaseUnavailable(request?: RequestLike) {
   return data({ message: reason }, { status: 503 });
 }
 
-/** The signed-in person for this request, or null. Validated once per request. */
+/**
+ * The signed-in person for this request, or null. Validated once per request: React Router
+ * hands each loader its own Request, so the result is kept in the request store by session id.
+ */
 export function getSession(request: RequestLike): Promise<Validated> {
-  let p = cache.get(request);
-  if (!p) {
-    const run = () =>
-      validate(request).catch((err) => {
-        if (isDatabaseDown(err)) throw databaseUnavailable(request);
-        throw err;
-      });
-    const id = readSessionId(request);
-    p = id ? memoForRequest(`session:${id}`, run) : run();
-    cache.set(request, p);
-  }
-  return p;
+  const run = () =>
+    validate(request).catch((err) => {
+      if (isDatabaseDown(err)) throw databaseUnavailable(request);
+      throw err;
+    });
+  const id = readSessionId(request);
+  return id ? memoForRequest(`session:${id}`, run) : run();
 }
 
 export async function getUser(request: RequestLike): Promise<SessionUser | null> {

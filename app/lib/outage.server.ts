@@ -4,7 +4,7 @@ import { requestStore } from "./request-store.server";
 
 // A loader or action that could not reach PostgreSQL throws the driver's error, which React
 // Router answers with a bare 500. The session check answers 503 "database unavailable" itself,
-// but public routes (sign-in, reset, invitations, sign-out) and work after a kept session
+// but public routes (sign-in, reset, invitations, sign-out) and work after the session check
 // reach the database first elsewhere. React Router hands every such error to the server
 // entry's handleError, which notes it here for the request; the root middleware then answers
 // the request with the same 503 page (or JSON under /api) as the session check does.
