@@ -18,7 +18,7 @@ import { Meilisearch } from "meilisearch";
 import { marks, recordings, searchOutbox } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
-import { INDEX_UID, KIND_WEIGHT, type SearchDoc } from "~/lib/search/client.server";
+import { INDEX_UID, KIND_WEIGHT, searchErrorMessage, type SearchDoc } from "~/lib/search/client.server";
 import { reindexAll, repairIndex, withSearchLock } from "~/lib/search/indexer.server";
 import { createUser, http } from "../../tests/support/app";
 import { benchQueries, generateCorpus } from "../fakes/meili/bench";
@@ -77,10 +77,23 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
 
   // Indexing through the SDK into the app's index, timed until every task succeeded. The fake
   // indexes on its one thread, so a task poll may wait long on a busy machine: a generous limit.
-  const index = new Meilisearch({ host: env().MEILI_HOST!, apiKey: env().MEILI_API_KEY, timeout: 120_000 }).index<SearchDoc>(INDEX_UID);
+  // A poll that fails (a socket the busy fake dropped) is asked again.
+  const client = new Meilisearch({ host: env().MEILI_HOST!, apiKey: env().MEILI_API_KEY, timeout: 120_000 });
+  const index = client.index<SearchDoc>(INDEX_UID);
+  const finished = async (uid: number) => {
+    for (let tries = 1; ; tries++) {
+      try {
+        return await client.tasks.waitForTask(uid, { timeout: 600_000, interval: 20 });
+      } catch (err) {
+        if (tries === 5) throw err;
+        log(`polling task ${uid} failed (${searchErrorMessage(err)}: ${String((err as { cause?: unknown }).cause)}); asking again`);
+      }
+    }
+  };
   const t0 = performance.now();
   for (let i = 0; i < docs.length; i += 1000) {
-    const task = await index.addDocuments(docs.slice(i, i + 1000), { primaryKey: "id" }).waitTask({ timeout: 600_000, interval: 20 });
+    const enqueued = await index.addDocuments(docs.slice(i, i + 1000), { primaryKey: "id" });
+    const task = await finished(enqueued.taskUid);
     if (task.status !== "succeeded") throw new Error(`indexing failed: ${task.error?.message}`);
   }
   const indexingMs = performance.now() - t0;
