@@ -6,6 +6,7 @@ import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { expect, test, type Page } from "@playwright/test";
+import pg from "pg";
 
 const shots = process.env.RECORDINGS_SHOTS;
 const work = path.join(process.env.BENCHREEL_RUN_DIR ?? "/tmp", "recordings-e2e");
@@ -21,7 +22,10 @@ async function signIn(page: Page, email = "marcus@larkspur.example") {
 async function shot(page: Page, name: string) {
   if (!shots) return;
   fs.mkdirSync(shots, { recursive: true });
-  for (const [w, h, tag] of [[1280, 900, "desktop"], [768, 1024, "tablet"]] as const) {
+  for (const [w, h, tag] of [
+    [1280, 900, "desktop"],
+    [768, 1024, "tablet"],
+  ] as const) {
     await page.setViewportSize({ width: w, height: h });
     await page.waitForTimeout(300);
     await page.screenshot({ path: path.join(shots, `${name}-${tag}.png`), fullPage: true });
@@ -29,13 +33,35 @@ async function shot(page: Page, name: string) {
   await page.setViewportSize({ width: 1280, height: 860 });
 }
 
-const videoTime = (page: Page) => page.locator("video").first().evaluate((v: HTMLVideoElement) => v.currentTime);
+const videoTime = (page: Page) =>
+  page
+    .locator("video")
+    .first()
+    .evaluate((v: HTMLVideoElement) => v.currentTime);
 
 test("a builder uploads a video, marks a moment with the keyboard, seeks by the mark, types readings and exports CSV", async ({ page }) => {
   test.setTimeout(120_000);
   fs.mkdirSync(work, { recursive: true });
   const clip = path.join(work, "bench-clip.mp4");
-  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc2=duration=12:size=640x360:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-preset", "veryfast", "-movflags", "+faststart", clip]);
+  execFileSync("/usr/bin/ffmpeg", [
+    "-hide_banner",
+    "-loglevel",
+    "error",
+    "-y",
+    "-f",
+    "lavfi",
+    "-i",
+    "testsrc2=duration=12:size=640x360:rate=25",
+    "-pix_fmt",
+    "yuv420p",
+    "-c:v",
+    "libx264",
+    "-preset",
+    "veryfast",
+    "-movflags",
+    "+faststart",
+    clip,
+  ]);
   const title = `Stud stretch check ${Date.now().toString(36)}`;
 
   await signIn(page);
@@ -122,7 +148,9 @@ test("a builder uploads a video, marks a moment with the keyboard, seeks by the 
 
   const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("readings-csv").click()]);
   const csv = fs.readFileSync(await download.path(), "utf8");
-  expect(csv.split("\n")[0]).toBe("time_s,quantity,label,fastener,cylinder,journal,depth,depth_unit,angle_deg,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
+  expect(csv.split("\n")[0]).toBe(
+    "time_s,quantity,label,fastener,cylinder,journal,depth,depth_unit,angle_deg,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at",
+  );
   expect(csv).toContain("Torque,,4,,,,,,110,N.m,110");
   expect(csv).toContain("Clamp load,,4,,,,,,51,kN,51000");
 
@@ -148,12 +176,37 @@ test("an apprentice watches but cannot upload or mark", async ({ page }) => {
   await shot(page, "watch-apprentice");
 });
 
-test("an upload cut off in one browser continues in a fresh profile from where the server has it, with the title typed before; the Unfinished panel follows by itself", async ({ page, browser }) => {
+test("an upload cut off in one browser continues in a fresh profile from where the server has it, with the title typed before; the Unfinished panel follows by itself", async ({
+  page,
+  browser,
+}) => {
   test.setTimeout(150_000);
   fs.mkdirSync(work, { recursive: true });
   const big = path.join(work, "long-take.mp4");
   // ~20-30 MB: more than one 16 MiB chunk.
-  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc2=duration=2:size=640x360:rate=25", "-vf", "noise=alls=80:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", "-movflags", "+faststart", big]);
+  execFileSync("/usr/bin/ffmpeg", [
+    "-hide_banner",
+    "-loglevel",
+    "error",
+    "-y",
+    "-f",
+    "lavfi",
+    "-i",
+    "testsrc2=duration=2:size=640x360:rate=25",
+    "-vf",
+    "noise=alls=80:allf=t",
+    "-c:v",
+    "libx264",
+    "-preset",
+    "ultrafast",
+    "-qp",
+    "0",
+    "-pix_fmt",
+    "yuv420p",
+    "-movflags",
+    "+faststart",
+    big,
+  ]);
   const size = fs.statSync(big).size;
   expect(size).toBeGreaterThan(17 * 1024 * 1024);
   const title = `Crank end-play, take ${Date.now().toString(36)}`;
@@ -228,7 +281,9 @@ async function openDemo(page: Page, query = "") {
   return video;
 }
 
-test("the player's controls are ours: named for a screen reader, used by keyboard, 44 px on the tablet, no stock skin", async ({ page }) => {
+test("the player's controls are ours: named for a screen reader, used by keyboard, 44 px on the tablet, no stock skin", async ({
+  page,
+}) => {
   test.setTimeout(120_000);
   await signIn(page);
   await openDemo(page);
@@ -255,14 +310,24 @@ test("the player's controls are ours: named for a screen reader, used by keyboar
   await controls.getByRole("button", { name: "Mute" }).focus();
   await page.keyboard.press("Space");
   await expect(controls.getByRole("button", { name: "Mute" })).toHaveAttribute("aria-pressed", "true");
-  expect(await page.locator("video").first().evaluate((v: HTMLVideoElement) => v.paused)).toBe(true);
+  expect(
+    await page
+      .locator("video")
+      .first()
+      .evaluate((v: HTMLVideoElement) => v.paused),
+  ).toBe(true);
   await controls.getByRole("button", { name: "Play" }).focus();
   await page.keyboard.press("Space");
   await expect(controls.getByRole("button", { name: "Pause" })).toBeVisible();
   await page.keyboard.press("Space");
   await expect(controls.getByRole("button", { name: "Play" })).toBeVisible();
   await controls.getByRole("combobox", { name: "Playback speed" }).selectOption({ label: "½×" });
-  expect(await page.locator("video").first().evaluate((v: HTMLVideoElement) => v.playbackRate)).toBe(0.5);
+  expect(
+    await page
+      .locator("video")
+      .first()
+      .evaluate((v: HTMLVideoElement) => v.playbackRate),
+  ).toBe(0.5);
   await expect(page.getByTestId("key-help")).toBeVisible();
 
   // The tablet: every control a finger can hit, at least 44 px each way.
@@ -374,7 +439,14 @@ test("the shop's everyday screens say things in the shop's words", async ({ page
   await expect(page.getByText(/^Source: Derived with the ISO 16047/)).toBeVisible();
   expect(await developerWords(page)).toEqual([]);
 
-  for (const path of ["/procedures/head-stud-installation-and-torque-sequence", "/recordings/5eed0000-0000-4000-8000-00000000c1a9", "/procedures", "/recordings", "/test-records", "/"]) {
+  for (const path of [
+    "/procedures/head-stud-installation-and-torque-sequence",
+    "/recordings/5eed0000-0000-4000-8000-00000000c1a9",
+    "/procedures",
+    "/recordings",
+    "/test-records",
+    "/",
+  ]) {
     await page.goto(path);
     await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
     expect({ path, words: await developerWords(page) }).toEqual({ path, words: [] });
@@ -442,4 +514,27 @@ test("bore readings carry cylinder, depth and angle, the lines keep what was cho
   await expect(page.locator('input[name="m.0.0"]')).toHaveValue("88.012");
   await expect(page.locator('input[name="m.1.1"]')).toHaveValue("88.006");
   await expect(page.getByTestId("calc-result").first()).toBeVisible();
+});
+
+test("Save as readings on the Preload calculator does not offer a recording whose video is damaged", async ({ page }) => {
+  // A damaged recording, as processing leaves one (recordings-faults.test.ts makes a real one).
+  const title = `Cut-short bench take ${Date.now().toString(36)}`;
+  const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+  await client.connect();
+  try {
+    await client.query(
+      `insert into recordings (title, state, state_reason, original_name, original_size, uploaded_by) values ($1, 'damaged', 'The video is damaged: playback breaks off at 0:00.0 of 0:03.0.', 'cut-short.mp4', 6000, 'demo-marcus')`,
+      [title],
+    );
+  } finally {
+    await client.end();
+  }
+  await signIn(page);
+  await page.goto("/calculators/preload");
+  await expect(page.getByRole("button", { name: "Calculate" })).toHaveCount(0);
+  await page.getByLabel("Torque and measured clamp load, one pair a line").fill(["60, 25", "90, 37.5"].join("\n"));
+  await page.getByTestId("save-readings-open").click();
+  const choices = page.getByTestId("save-readings").getByLabel("Recording").locator("option");
+  await expect(choices.filter({ hasText: "Head stud clamp-load test" })).toHaveCount(1);
+  await expect(choices.filter({ hasText: title })).toHaveCount(0);
 });

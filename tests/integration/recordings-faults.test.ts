@@ -30,23 +30,52 @@ async function ffmpeg(args: string[]) {
 
 /** Uploads bytes in one PATCH; the recording's id. */
 async function uploadBytes(bytes: Buffer, name: string): Promise<string> {
-  const created = await http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { ...TUS, "Upload-Length": String(bytes.length), "Upload-Metadata": `filename ${b64(name)}` } });
+  const created = await http("/api/uploads", {
+    method: "POST",
+    cookie: builder.cookie,
+    headers: { ...TUS, "Upload-Length": String(bytes.length), "Upload-Metadata": `filename ${b64(name)}` },
+  });
   const id = path.basename(created.headers.get("location")!);
-  const done = await http(`/api/uploads/${id}`, { method: "PATCH", cookie: builder.cookie, headers: { ...TUS, "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" }, body: new Uint8Array(bytes) });
+  const done = await http(`/api/uploads/${id}`, {
+    method: "PATCH",
+    cookie: builder.cookie,
+    headers: { ...TUS, "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" },
+    body: new Uint8Array(bytes),
+  });
   expect(done.status).toBe(204);
   return done.headers.get("benchreel-recording")!;
 }
 
 type Rec = { id: string; state: string; stateReason: string | null; progress: number; durationS: number; hasRendition: boolean };
-const recording = async (id: string) => ((await (await http(`/api/recordings/${id}`, { cookie: builder.cookie })).json()) as { recording: Rec }).recording;
-const settled = (id: string, timeoutMs = 60_000) => waitFor(async () => ((r) => (r.state !== "processing" ? r : null))(await recording(id)), timeoutMs, 300);
+const recording = async (id: string) =>
+  ((await (await http(`/api/recordings/${id}`, { cookie: builder.cookie })).json()) as { recording: Rec }).recording;
+const settled = (id: string, timeoutMs = 60_000) =>
+  waitFor(async () => ((r) => (r.state !== "processing" ? r : null))(await recording(id)), timeoutMs, 300);
 
 /** Frames and seconds that decode from a file, and whether ffmpeg's error check passes. */
 async function decode(file: string): Promise<{ frames: number; seconds: number; clean: boolean }> {
   let clean = true;
   let out = "";
   try {
-    out = (await run("/usr/bin/ffmpeg", ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", "-f", "null", "-"])).stdout;
+    out = (
+      await run("/usr/bin/ffmpeg", [
+        "-hide_banner",
+        "-nostdin",
+        "-v",
+        "error",
+        "-xerror",
+        "-progress",
+        "pipe:1",
+        "-nostats",
+        "-i",
+        file,
+        "-map",
+        "0:v:0",
+        "-f",
+        "null",
+        "-",
+      ])
+    ).stdout;
   } catch (err) {
     clean = false;
     out = String((err as { stdout?: Buffer }).stdout ?? "");
@@ -81,7 +110,19 @@ beforeAll(async () => {
 describe("damaged video", () => {
   it("marks the first 6,000 bytes of a faststart MP4 damaged with the reason, not ready; the original is kept", async () => {
     const whole = path.join(work, "faststart.mp4");
-    await ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    await ffmpeg([
+      "-f",
+      "lavfi",
+      "-i",
+      "testsrc=duration=3:size=320x240:rate=25",
+      "-pix_fmt",
+      "yuv420p",
+      "-c:v",
+      "libx264",
+      "-movflags",
+      "+faststart",
+      whole,
+    ]);
     const head = fs.readFileSync(whole).subarray(0, 6000);
     const id = await uploadBytes(head, "cut-short.mp4");
     const rec = await settled(id);
@@ -98,14 +139,27 @@ describe("damaged video", () => {
 
   it("is not offered to Save as readings, and refuses readings with the reason (409, nothing stored); a ready one takes them", async () => {
     const whole = path.join(work, "faststart-for-readings.mp4");
-    await ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    await ffmpeg([
+      "-f",
+      "lavfi",
+      "-i",
+      "testsrc=duration=3:size=320x240:rate=25",
+      "-pix_fmt",
+      "yuv420p",
+      "-c:v",
+      "libx264",
+      "-movflags",
+      "+faststart",
+      whole,
+    ]);
     const damaged = await uploadBytes(fs.readFileSync(whole).subarray(0, 6000), "cut-short-readings.mp4");
     const ready = await uploadBytes(fs.readFileSync(whole), "whole-readings.mp4");
     expect((await settled(damaged)).state).toBe("damaged");
     expect((await settled(ready)).state).toBe("ready");
 
     type Listed = { recordings: { id: string; state: string }[] };
-    const listed = async (q: string) => ((await (await http(`/api/recordings?${q}`, { cookie: builder.cookie })).json()) as Listed).recordings.map((r) => r.id);
+    const listed = async (q: string) =>
+      ((await (await http(`/api/recordings?${q}`, { cookie: builder.cookie })).json()) as Listed).recordings.map((r) => r.id);
     // The library lists both; the list the calculators' "Save as readings" asks for has only the ready one.
     expect(await listed("sort=newest")).toEqual(expect.arrayContaining([damaged, ready]));
     const targets = await listed("sort=newest&for=readings");
@@ -113,19 +167,38 @@ describe("damaged video", () => {
     expect(targets).not.toContain(damaged);
     expect((await http("/api/recordings?for=marks", { cookie: builder.cookie })).status).toBe(422);
 
-    const bench = { readings: [{ quantity: "torque", value: 110, unit: "N.m", label: "bench point 1" }, { quantity: "clamp-load", value: 51, unit: "kN", label: "bench point 1" }] };
+    const bench = {
+      readings: [
+        { quantity: "torque", value: 110, unit: "N.m", label: "bench point 1" },
+        { quantity: "clamp-load", value: 51, unit: "kN", label: "bench point 1" },
+      ],
+    };
     const post = (id: string) => http(`/api/recordings/${id}/readings`, { method: "POST", cookie: builder.cookie, json: bench });
     const refused = await post(damaged);
     expect(refused.status).toBe(409);
     expect(await refused.json()).toMatchObject({ error: "conflict", reason: expect.stringMatching(/video is damaged/), state: "damaged" });
-    const stored = (await (await http(`/api/recordings/${damaged}/readings`, { cookie: builder.cookie })).json()) as { readings: unknown[] };
+    const stored = (await (await http(`/api/recordings/${damaged}/readings`, { cookie: builder.cookie })).json()) as {
+      readings: unknown[];
+    };
     expect(stored.readings).toHaveLength(0);
     expect((await post(ready)).status).toBe(201);
   });
 
   it("still makes a whole video ready", async () => {
     const whole = path.join(work, "whole.mp4");
-    await ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", whole]);
+    await ffmpeg([
+      "-f",
+      "lavfi",
+      "-i",
+      "testsrc=duration=3:size=320x240:rate=25",
+      "-pix_fmt",
+      "yuv420p",
+      "-c:v",
+      "libx264",
+      "-movflags",
+      "+faststart",
+      whole,
+    ]);
     const rec = await settled(await uploadBytes(fs.readFileSync(whole), "whole.mp4"));
     expect(rec).toMatchObject({ state: "ready", stateReason: null });
   });
@@ -175,7 +248,10 @@ describe("worker killed during a transcode", () => {
     const id = randomUUID();
     fs.mkdirSync(recordingDir(id), { recursive: true });
     const endless = ["-hide_banner", "-nostdin", "-v", "error", "-re", "-f", "lavfi", "-i", "testsrc=size=64x64:rate=5", "-f", "mp4"];
-    const leftover = spawn("/usr/bin/ffmpeg", [...endless, path.join(recordingDir(id), "web.mp4.1-dead.tmp.mp4")], { stdio: "ignore", detached: true });
+    const leftover = spawn("/usr/bin/ffmpeg", [...endless, path.join(recordingDir(id), "web.mp4.1-dead.tmp.mp4")], {
+      stdio: "ignore",
+      detached: true,
+    });
     const unrelated = spawn("/usr/bin/ffmpeg", [...endless, path.join(work, "unrelated.tmp.mp4")], { stdio: "ignore", detached: true });
     try {
       await waitFor(async () => ffmpegFor(id).length === 1, 10_000, 100);

@@ -33,7 +33,15 @@ type UploadResult = { url: string; recordingId: string | null };
 function upload(
   data: Buffer,
   user: TestUser,
-  opts: { name: string; title?: string; chunkSize?: number; fingerprint?: string; storage?: tus.UrlStorage; onProgress?: (sent: number, u: tus.Upload) => void; tags?: string } = { name: "clip.mp4" },
+  opts: {
+    name: string;
+    title?: string;
+    chunkSize?: number;
+    fingerprint?: string;
+    storage?: tus.UrlStorage;
+    onProgress?: (sent: number, u: tus.Upload) => void;
+    tags?: string;
+  } = { name: "clip.mp4" },
 ): { promise: Promise<UploadResult>; upload: tus.Upload } {
   let recordingId: string | null = null;
   let resolve!: (v: UploadResult) => void;
@@ -63,11 +71,15 @@ function upload(
 }
 
 async function waitState(id: string, cookie: string, timeoutMs = 45_000) {
-  return waitFor(async () => {
-    const res = await http(`/api/recordings/${id}`, { cookie });
-    const { recording } = (await res.json()) as { recording: Record<string, unknown> & { state: string } };
-    return recording.state !== "processing" ? recording : null;
-  }, timeoutMs, 300);
+  return waitFor(
+    async () => {
+      const res = await http(`/api/recordings/${id}`, { cookie });
+      const { recording } = (await res.json()) as { recording: Record<string, unknown> & { state: string } };
+      return recording.state !== "processing" ? recording : null;
+    },
+    timeoutMs,
+    300,
+  );
 }
 
 let builder: TestUser;
@@ -78,16 +90,49 @@ let clip: Buffer;
 let readyId: string;
 
 beforeAll(async () => {
-  [builder, builder2, editor, apprentice] = await Promise.all([createUser("builder"), createUser("builder"), createUser("editor"), createUser("apprentice")]);
+  [builder, builder2, editor, apprentice] = await Promise.all([
+    createUser("builder"),
+    createUser("builder"),
+    createUser("editor"),
+    createUser("apprentice"),
+  ]);
   const clipPath = path.join(work, "clip.mp4");
-  ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=10:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", clipPath]);
+  ffmpeg([
+    "-f",
+    "lavfi",
+    "-i",
+    "testsrc=duration=10:size=320x240:rate=25",
+    "-pix_fmt",
+    "yuv420p",
+    "-c:v",
+    "libx264",
+    "-movflags",
+    "+faststart",
+    clipPath,
+  ]);
   clip = fs.readFileSync(clipPath);
 });
 
 describe("tus upload", () => {
   it("uploads in chunks, survives an abort half-way, resumes from the stored URL, and keeps the bytes identical", async () => {
     const bigPath = path.join(work, "big.mp4");
-    ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=1:size=480x270:rate=25", "-vf", "noise=alls=80:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", bigPath]);
+    ffmpeg([
+      "-f",
+      "lavfi",
+      "-i",
+      "testsrc2=duration=1:size=480x270:rate=25",
+      "-vf",
+      "noise=alls=80:allf=t",
+      "-c:v",
+      "libx264",
+      "-preset",
+      "ultrafast",
+      "-qp",
+      "0",
+      "-pix_fmt",
+      "yuv420p",
+      bigPath,
+    ]);
     const big = fs.readFileSync(bigPath);
     expect(big.length).toBeGreaterThan(2 * 1024 * 1024);
     const storage = new FileUrlStorage(path.join(work, `tus-urls-${Date.now()}.json`));
@@ -111,7 +156,8 @@ describe("tus upload", () => {
       return body.upload.received >= big.length / 2 - 256 * 1024 ? body.upload : null;
     });
     const uploadId = path.basename(first.upload.url!);
-    const half = ((await (await http(`/api/uploads/${uploadId}`, { cookie: builder.cookie })).json()) as { upload: { received: number } }).upload.received;
+    const half = ((await (await http(`/api/uploads/${uploadId}`, { cookie: builder.cookie })).json()) as { upload: { received: number } })
+      .upload.received;
     expect(half).toBeGreaterThan(0);
     expect(half).toBeLessThan(big.length);
 
@@ -162,7 +208,23 @@ describe("tus upload", () => {
       return child;
     };
     const bigPath = path.join(work, "killed.mp4");
-    ffmpeg(["-f", "lavfi", "-i", "testsrc2=duration=1:size=480x270:rate=25", "-vf", "noise=alls=60:allf=t", "-c:v", "libx264", "-preset", "ultrafast", "-qp", "0", "-pix_fmt", "yuv420p", bigPath]);
+    ffmpeg([
+      "-f",
+      "lavfi",
+      "-i",
+      "testsrc2=duration=1:size=480x270:rate=25",
+      "-vf",
+      "noise=alls=60:allf=t",
+      "-c:v",
+      "libx264",
+      "-preset",
+      "ultrafast",
+      "-qp",
+      "0",
+      "-pix_fmt",
+      "yuv420p",
+      bigPath,
+    ]);
     const big = fs.readFileSync(bigPath);
     let server = await start();
     let killedAt = 0;
@@ -203,7 +265,11 @@ describe("tus upload", () => {
   });
 
   it("refuses an apprentice, a signed-out caller, and someone else continuing an upload", async () => {
-    const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "10", "Upload-Metadata": `filename ${Buffer.from("x.mp4").toString("base64")}` };
+    const tusHeaders = {
+      "Tus-Resumable": "1.0.0",
+      "Upload-Length": "10",
+      "Upload-Metadata": `filename ${Buffer.from("x.mp4").toString("base64")}`,
+    };
     const anon = await http("/api/uploads", { method: "POST", headers: tusHeaders });
     expect(anon.status).toBe(401);
     const appr = await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: apprentice.cookie });
@@ -233,8 +299,13 @@ describe("tus upload", () => {
 
   it("lets its starter or an admin (nobody else) discard an unfinished upload from the upload page; another's gets the reason and the upload stays", async () => {
     const admin = await createUser("admin");
-    const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "100", "Upload-Metadata": `filename ${Buffer.from("half-sent.mp4").toString("base64")}` };
-    const start = async () => path.basename((await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie })).headers.get("location")!);
+    const tusHeaders = {
+      "Tus-Resumable": "1.0.0",
+      "Upload-Length": "100",
+      "Upload-Metadata": `filename ${Buffer.from("half-sent.mp4").toString("base64")}`,
+    };
+    const start = async () =>
+      path.basename((await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie })).headers.get("location")!);
     const discard = (cookie: string, uploadId: string) => http("/recordings/upload", { cookie, form: { intent: "discard", uploadId } });
     const status = (cookie: string, id: string) => http(`/api/uploads/${id}`, { cookie });
 
@@ -258,13 +329,25 @@ describe("tus upload", () => {
   });
 
   it("discards unfinished uploads that received no bytes for two weeks, bytes and row, and keeps one still receiving", async () => {
-    const tusHeaders = { "Tus-Resumable": "1.0.0", "Upload-Length": "100", "Upload-Metadata": `filename ${Buffer.from("old.mp4").toString("base64")}` };
+    const tusHeaders = {
+      "Tus-Resumable": "1.0.0",
+      "Upload-Length": "100",
+      "Upload-Metadata": `filename ${Buffer.from("old.mp4").toString("base64")}`,
+    };
     const start = async () => {
       const created = await http("/api/uploads", { method: "POST", headers: tusHeaders, cookie: builder.cookie });
       const id = path.basename(created.headers.get("location")!);
-      await http(`/api/uploads/${id}`, { method: "PATCH", cookie: builder.cookie, headers: { "Tus-Resumable": "1.0.0", "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" }, body: "x".repeat(40) });
+      await http(`/api/uploads/${id}`, {
+        method: "PATCH",
+        cookie: builder.cookie,
+        headers: { "Tus-Resumable": "1.0.0", "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" },
+        body: "x".repeat(40),
+      });
       expect(await receivedBytes(id)).toBe(40);
-      await db().update(uploads).set({ createdAt: new Date(Date.now() - 15 * 24 * 3600 * 1000) }).where(eq(uploads.id, id));
+      await db()
+        .update(uploads)
+        .set({ createdAt: new Date(Date.now() - 15 * 24 * 3600 * 1000) })
+        .where(eq(uploads.id, id));
       return id;
     };
     const abandoned = await start();
@@ -280,7 +363,15 @@ describe("tus upload", () => {
 
   it("refuses a file over the size limit before a byte is sent, an empty file, and bad file names", async () => {
     const post = (length: string, name: string) =>
-      http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { "Tus-Resumable": "1.0.0", "Upload-Length": length, "Upload-Metadata": `filename ${Buffer.from(name).toString("base64")}` } });
+      http("/api/uploads", {
+        method: "POST",
+        cookie: builder.cookie,
+        headers: {
+          "Tus-Resumable": "1.0.0",
+          "Upload-Length": length,
+          "Upload-Metadata": `filename ${Buffer.from(name).toString("base64")}`,
+        },
+      });
     const huge = await post(String(21 * 1024 ** 3), "whole-day.mov");
     expect(huge.status).toBe(413);
     expect(await huge.text()).toMatch(/larger than the shop's limit of 20 GB/);
@@ -298,12 +389,24 @@ describe("tus upload", () => {
 
 describe("processing", () => {
   it("probes a small video, grabs a poster and marks it ready", async () => {
-    const { promise, upload: u } = upload(clip, builder, { name: "stud test 4.mp4", title: "Stud 4 clamp-load test", tags: "head studs, Clamp load" });
+    const { promise, upload: u } = upload(clip, builder, {
+      name: "stud test 4.mp4",
+      title: "Stud 4 clamp-load test",
+      tags: "head studs, Clamp load",
+    });
     u.start();
     const done = await promise;
     readyId = done.recordingId!;
     const rec = await waitState(readyId, builder.cookie);
-    expect(rec).toMatchObject({ state: "ready", width: 320, height: 240, videoCodec: "h264", hasPoster: true, hasRendition: false, title: "Stud 4 clamp-load test" });
+    expect(rec).toMatchObject({
+      state: "ready",
+      width: 320,
+      height: 240,
+      videoCodec: "h264",
+      hasPoster: true,
+      hasRendition: false,
+      title: "Stud 4 clamp-load test",
+    });
     expect(rec.durationS as number).toBeCloseTo(10, 0);
     expect(rec.frameRate as number).toBeCloseTo(25, 3);
     const poster = await http(`/api/recordings/${readyId}/poster`, { cookie: apprentice.cookie });
@@ -312,13 +415,31 @@ describe("processing", () => {
     const jpeg = Buffer.from(await poster.arrayBuffer());
     expect(jpeg.subarray(0, 2).toString("hex")).toBe("ffd8");
     // It is in the library with its tags (lower-cased) and uploader filter.
-    const lib = (await (await http(`/api/recordings?uploader=${builder.id}&tag=clamp%20load`, { cookie: apprentice.cookie })).json()) as { recordings: { id: string }[] };
+    const lib = (await (await http(`/api/recordings?uploader=${builder.id}&tag=clamp%20load`, { cookie: apprentice.cookie })).json()) as {
+      recordings: { id: string }[];
+    };
     expect(lib.recordings.map((r) => r.id)).toContain(readyId);
   });
 
   it("makes a browser-safe H.264 MP4 rendition of an HEVC QuickTime file and keeps the original", async () => {
     const movPath = path.join(work, "hevc.mov");
-    ffmpeg(["-f", "lavfi", "-i", "testsrc=duration=2:size=320x240:rate=25", "-c:v", "libx265", "-preset", "ultrafast", "-x265-params", "log-level=error", "-tag:v", "hvc1", "-pix_fmt", "yuv420p", movPath]);
+    ffmpeg([
+      "-f",
+      "lavfi",
+      "-i",
+      "testsrc=duration=2:size=320x240:rate=25",
+      "-c:v",
+      "libx265",
+      "-preset",
+      "ultrafast",
+      "-x265-params",
+      "log-level=error",
+      "-tag:v",
+      "hvc1",
+      "-pix_fmt",
+      "yuv420p",
+      movPath,
+    ]);
     const mov = fs.readFileSync(movPath);
     const { promise, upload: u } = upload(mov, builder, { name: "IMG_2231.MOV" });
     u.start();
@@ -328,7 +449,9 @@ describe("processing", () => {
     const bytes = Buffer.from(await media.arrayBuffer());
     const out = path.join(work, "rendition.mp4");
     fs.writeFileSync(out, bytes);
-    const probe = JSON.parse(execFileSync("/usr/bin/ffprobe", ["-v", "error", "-print_format", "json", "-show_streams", "-show_format", out]).toString());
+    const probe = JSON.parse(
+      execFileSync("/usr/bin/ffprobe", ["-v", "error", "-print_format", "json", "-show_streams", "-show_format", out]).toString(),
+    );
     expect(probe.streams[0].codec_name).toBe("h264");
     expect(probe.format.format_name).toContain("mp4");
     // moov before mdat (faststart)
@@ -343,7 +466,10 @@ describe("processing", () => {
     const id = (await promise).recordingId!;
     await waitState(id, builder.cookie);
     // As if the last attempt had failed.
-    await db().update(recordings).set({ state: "failed", stateReason: "Processing failed: ffmpeg failed: test", hasPoster: false }).where(eq(recordings.id, id));
+    await db()
+      .update(recordings)
+      .set({ state: "failed", stateReason: "Processing failed: ffmpeg failed: test", hasPoster: false })
+      .where(eq(recordings.id, id));
     const page = await http(`/recordings/${id}`, { cookie: editor.cookie });
     expect(await page.text()).toContain("Retry processing");
     expect((await http(`/recordings/${id}`, { cookie: builder.cookie, form: { intent: "retry" } })).status).toBe(403);
@@ -392,13 +518,20 @@ describe("the recording's page", () => {
     expect(blank.status).toBe(400);
     expect(await blank.text()).toContain("Give the recording a title.");
     expect((await post(builder2.cookie, { intent: "details", title: "Not mine" })).status).toBe(403);
-    const saved = await post(builder.cookie, { intent: "details", title: "Head stud stretch, pass 2", description: "Moly on the threads.", tags: "Head studs, head studs , moly,," });
+    const saved = await post(builder.cookie, {
+      intent: "details",
+      title: "Head stud stretch, pass 2",
+      description: "Moly on the threads.",
+      tags: "Head studs, head studs , moly,,",
+    });
     expect(saved.status).toBe(302);
     const [rec] = await db().select().from(recordings).where(eq(recordings.id, id));
     expect(rec).toMatchObject({ title: "Head stud stretch, pass 2", description: "Moly on the threads.", tags: ["Head studs", "moly"] });
     expect((await post(builder.cookie, { intent: "rename" })).status).toBe(400);
 
-    expect((await http(`/api/recordings/${id}/marks`, { cookie: builder.cookie, json: { tStart: 1, text: "First stud" } })).status).toBe(201);
+    expect((await http(`/api/recordings/${id}/marks`, { cookie: builder.cookie, json: { tStart: 1, text: "First stud" } })).status).toBe(
+      201,
+    );
     expect(fs.existsSync(recordingDir(id))).toBe(true);
     expect((await post(builder2.cookie, { intent: "delete" })).status).toBe(403);
     const deleted = await post(builder.cookie, { intent: "delete" });
@@ -407,7 +540,10 @@ describe("the recording's page", () => {
     expect((await http(`/api/recordings/${id}`, { cookie: builder.cookie })).status).toBe(404);
     expect(await db().select().from(marks).where(eq(marks.recordingId, id))).toHaveLength(0);
     expect(fs.existsSync(recordingDir(id))).toBe(false);
-    const entries = await db().select().from(auditLog).where(and(eq(auditLog.entity, "recording"), eq(auditLog.entityId, id)));
+    const entries = await db()
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, "recording"), eq(auditLog.entityId, id)));
     expect(entries.map((e) => e.action).sort()).toEqual(["recording.delete", "recording.edit"]);
   });
 });
@@ -477,7 +613,9 @@ describe("marks API", () => {
     expect(a.status).toBe(201);
     const b = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 2, tEnd: 4.5, text: "Lube applied" } });
     expect(b.status).toBe(201);
-    const list = (await (await http(marksUrl(), { cookie: apprentice.cookie })).json()) as { marks: { tStart: number; tEnd: number | null; tags: string[] }[] };
+    const list = (await (await http(marksUrl(), { cookie: apprentice.cookie })).json()) as {
+      marks: { tStart: number; tEnd: number | null; tags: string[] }[];
+    };
     const mine = list.marks.filter((m) => [7.5, 2].includes(m.tStart));
     expect(mine.map((m) => m.tStart)).toEqual([2, 7.5]);
     // A tag keeps its author's spelling (app/lib/tags.ts).
@@ -493,9 +631,17 @@ describe("marks API", () => {
     expect((await issues(backwards))[0].path).toBe("tEnd");
     const noText = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 1, text: "  " } });
     expect((await issues(noText))[0]).toEqual({ path: "text", message: "Write what happens at this moment." });
-    const badProc = await http(marksUrl(), { cookie: builder.cookie, json: { tStart: 1, text: "x", procedureId: "00000000-0000-4000-8000-0000000000aa" } });
+    const badProc = await http(marksUrl(), {
+      cookie: builder.cookie,
+      json: { tStart: 1, text: "x", procedureId: "00000000-0000-4000-8000-0000000000aa" },
+    });
     expect((await issues(badProc))[0].path).toBe("procedureId");
-    const notJson = await http(marksUrl(), { method: "POST", cookie: builder.cookie, headers: { "content-type": "application/json" }, body: "{nope" });
+    const notJson = await http(marksUrl(), {
+      method: "POST",
+      cookie: builder.cookie,
+      headers: { "content-type": "application/json" },
+      body: "{nope",
+    });
     expect(notJson.status).toBe(422);
   });
 
@@ -509,7 +655,10 @@ describe("marks API", () => {
     expect((await http(one, { method: "DELETE", cookie: apprentice.cookie })).status).toBe(403);
     const own = await http(one, { method: "PATCH", cookie: builder.cookie, json: { text: "Wrench clicks at 110 N·m", tEnd: 3.8 } });
     expect(own.status).toBe(200);
-    expect(((await own.json()) as { mark: { text: string; tEnd: number } }).mark).toMatchObject({ text: "Wrench clicks at 110 N·m", tEnd: 3.8 });
+    expect(((await own.json()) as { mark: { text: string; tEnd: number } }).mark).toMatchObject({
+      text: "Wrench clicks at 110 N·m",
+      tEnd: 3.8,
+    });
     const bad = await http(one, { method: "PATCH", cookie: builder.cookie, json: { tEnd: 1 } });
     expect(bad.status).toBe(422);
     expect((await http(one, { method: "PATCH", cookie: editor.cookie, json: { tags: ["checked"] } })).status).toBe(200);
@@ -523,10 +672,15 @@ describe("readings API", () => {
   const issues = async (res: Response) => ((await res.json()) as { issues: { path: string; message: string }[] }).issues;
 
   it("stores SI with the unit entered, refuses a unit that does not fit, and saves a batch all or nothing", async () => {
-    const one = await http(url(), { cookie: builder.cookie, json: { quantity: "torque", value: 81, unit: "ft.lbf", label: "stud 4", conditions: { pass: 3, lube: "moly" }, t: 7.5 } });
+    const one = await http(url(), {
+      cookie: builder.cookie,
+      json: { quantity: "torque", value: 81, unit: "ft.lbf", label: "stud 4", conditions: { pass: 3, lube: "moly" }, t: 7.5 },
+    });
     expect(one.status).toBe(201);
-    const { reading } = (await one.json()) as { reading: { valueSi: number; valueEntered: number; unitEntered: string; conditions: Record<string, string> } };
-    expect(reading.valueSi).toBeCloseTo(81 * 1.3558179483314004, 9);
+    const { reading } = (await one.json()) as {
+      reading: { valueSi: number; valueEntered: number; unitEntered: string; conditions: Record<string, string> };
+    };
+    expect(reading.valueSi).toBeCloseTo(81 * 1.3558179483314, 9);
     expect(reading).toMatchObject({ valueEntered: 81, unitEntered: "ft.lbf", conditions: { pass: "3", lube: "moly" } });
 
     const wrongUnit = await http(url(), { cookie: builder.cookie, json: { quantity: "torque", value: 110, unit: "mm" } });
@@ -540,7 +694,12 @@ describe("readings API", () => {
     const before = ((await (await http(url(), { cookie: builder.cookie })).json()) as { readings: unknown[] }).readings.length;
     const batchBad = await http(url(), {
       cookie: builder.cookie,
-      json: { readings: [{ quantity: "clamp-load", value: 51, unit: "kN", label: "stud 4", conditions: { pass: "3" } }, { quantity: "bore-diameter", value: "88.01", unit: "mm" }] },
+      json: {
+        readings: [
+          { quantity: "clamp-load", value: 51, unit: "kN", label: "stud 4", conditions: { pass: "3" } },
+          { quantity: "bore-diameter", value: "88.01", unit: "mm" },
+        ],
+      },
     });
     expect(batchBad.status).toBe(422);
     expect((await issues(batchBad))[0].path).toBe("readings.1.value");
@@ -549,7 +708,13 @@ describe("readings API", () => {
 
     const batch = await http(url(), {
       cookie: builder.cookie,
-      json: { readings: [{ quantity: "clamp-load", value: 51, unit: "kN", label: "stud 4", conditions: { pass: "3" }, t: 7.9 }, { quantity: "bore-diameter", value: 88.012, unit: "mm", label: "cyl 2, 20 mm down, 90°" }, { quantity: "leak-down", value: 6, unit: "%" }] },
+      json: {
+        readings: [
+          { quantity: "clamp-load", value: 51, unit: "kN", label: "stud 4", conditions: { pass: "3" }, t: 7.9 },
+          { quantity: "bore-diameter", value: 88.012, unit: "mm", label: "cyl 2, 20 mm down, 90°" },
+          { quantity: "leak-down", value: 6, unit: "%" },
+        ],
+      },
     });
     expect(batch.status).toBe(201);
     const rows = ((await batch.json()) as { readings: { valueSi: number }[] }).readings;
@@ -563,7 +728,9 @@ describe("readings API", () => {
     expect(csv.headers.get("content-disposition")).toMatch(/attachment; filename="Stud-4-clamp-load-test-readings\.csv"/);
     const text = await csv.text();
     const lines = text.trim().split("\n");
-    expect(lines[0]).toBe("time_s,quantity,label,fastener,cylinder,journal,depth,depth_unit,angle_deg,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at");
+    expect(lines[0]).toBe(
+      "time_s,quantity,label,fastener,cylinder,journal,depth,depth_unit,angle_deg,value,unit,value_si,lube,tool,pass,note,entered_by,entered_at",
+    );
     // Sent the old way, the place in the label: it is in the position columns (issue 14 §2).
     expect(text).toContain(",Bore diameter,,,2,,20,mm,90,88.012,mm,");
     expect(text).toMatch(/7\.5,Torque,,4,,,,,,81,ft\.lbf,/);
@@ -578,7 +745,11 @@ describe("readings API", () => {
     expect((await issues(unitChange))[0].path).toBe("unit");
     const ok = await http(one, { method: "PATCH", cookie: editor.cookie, json: { value: 110, unit: "N.m" } });
     expect(ok.status).toBe(200);
-    expect(((await ok.json()) as { reading: { valueSi: number; label: string } }).reading).toMatchObject({ valueSi: 110, label: "", fastener: 4 });
+    expect(((await ok.json()) as { reading: { valueSi: number; label: string } }).reading).toMatchObject({
+      valueSi: 110,
+      label: "",
+      fastener: 4,
+    });
     expect((await http(one, { method: "DELETE", cookie: builder2.cookie })).status).toBe(403);
     expect((await http(one, { method: "DELETE", cookie: builder.cookie })).status).toBe(204);
   });

@@ -25,10 +25,22 @@ export function useOptimisticMarks(recordingId: string, marks: MarkRow[]): MarkR
     const base = `/api/recordings/${recordingId}/marks`;
     let list = [...marks];
     for (const f of fetchers) {
-      if (!f.formAction || !f.formAction.startsWith(base)) continue;
-      const json = f.json as Partial<MarkRow> & { tags?: string[] } | undefined;
+      if (!f.formAction?.startsWith(base)) continue;
+      const json = f.json as (Partial<MarkRow> & { tags?: string[] }) | undefined;
       if (f.formMethod === "POST" && f.formAction === base && json) {
-        list.push({ id: `pending-${f.key}`, tStart: Number(json.tStart), tEnd: json.tEnd ?? null, text: String(json.text ?? ""), tags: json.tags ?? [], procedureId: json.procedureId ?? null, procedureTitle: null, procedureSlug: null, createdBy: null, authorName: "you", pending: true });
+        list.push({
+          id: `pending-${f.key}`,
+          tStart: Number(json.tStart),
+          tEnd: json.tEnd ?? null,
+          text: String(json.text ?? ""),
+          tags: json.tags ?? [],
+          procedureId: json.procedureId ?? null,
+          procedureTitle: null,
+          procedureSlug: null,
+          createdBy: null,
+          authorName: "you",
+          pending: true,
+        });
       } else if (f.formMethod === "DELETE") {
         list = list.filter((m) => `${base}/${m.id}` !== f.formAction);
       } else if (f.formMethod === "PATCH" && json) {
@@ -75,15 +87,27 @@ export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPane
   return (
     <section className="card flex max-h-[34rem] flex-col p-0" aria-labelledby="marks-h">
       <div className="flex items-center justify-between gap-2 border-b border-rule px-4 py-3">
-        <h2 id="marks-h" className="text-lg">Marks <span className="num text-sm font-normal text-graphite-soft">({marks.length})</span></h2>
+        <h2 id="marks-h" className="text-lg">
+          Marks <span className="num text-sm font-normal text-graphite-soft">({marks.length})</span>
+        </h2>
         {canCreate && !draft && (
-          <button type="button" className="btn py-1 text-xs" onClick={() => { setDraft({ tStart: currentTime, tEnd: null }); setTimeout(() => textRef.current?.focus(), 0); }}>
+          <button
+            type="button"
+            className="btn py-1 text-xs"
+            onClick={() => {
+              setDraft({ tStart: currentTime, tEnd: null });
+              setTimeout(() => textRef.current?.focus(), 0);
+            }}
+          >
             Mark at {formatTime(currentTime)}
           </button>
         )}
       </div>
       {spanStart != null && (
-        <p className="border-b border-rule bg-brass-soft/60 px-4 py-2 text-sm" role="status">Span started at <span className="num font-semibold">{formatTime(spanStart)}</span>; press <kbd className="rounded border border-rule bg-card px-1 font-mono text-xs">S</kbd> again at its end.</p>
+        <p className="border-b border-rule bg-brass-soft/60 px-4 py-2 text-sm" role="status">
+          Span started at <span className="num font-semibold">{formatTime(spanStart)}</span>; press{" "}
+          <kbd className="rounded border border-rule bg-card px-1 font-mono text-xs">S</kbd> again at its end.
+        </p>
       )}
       {draft && canCreate && (
         <MarkForm
@@ -98,16 +122,41 @@ export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPane
         />
       )}
       {marks.length === 0 && !draft ? (
-        <p className="px-4 py-6 text-sm text-graphite-soft">No marks yet.{canCreate && <span className="keyboard-only"> Press <kbd className="rounded border border-rule bg-card px-1 font-mono text-xs">M</kbd> while watching to mark the moment that matters.</span>}{canCreate && <span className="touch-only"> Tap “Mark at” above at the moment that matters.</span>}</p>
+        <p className="px-4 py-6 text-sm text-graphite-soft">
+          No marks yet.
+          {canCreate && (
+            <span className="keyboard-only">
+              {" "}
+              Press <kbd className="rounded border border-rule bg-card px-1 font-mono text-xs">M</kbd> while watching to mark the moment
+              that matters.
+            </span>
+          )}
+          {canCreate && <span className="touch-only"> Tap “Mark at” above at the moment that matters.</span>}
+        </p>
       ) : (
         <ol ref={listRef} className="min-h-0 flex-1 overflow-y-auto" data-testid="mark-list">
           {marks.map((m) =>
             editing === m.id ? (
               <li key={m.id} className="border-b border-rule/70">
-                <MarkForm recordingId={recordingId} procedures={procedures} initial={m} markId={m.id} durationS={durationS} onDone={() => setEditing(null)} />
+                <MarkForm
+                  recordingId={recordingId}
+                  procedures={procedures}
+                  initial={m}
+                  markId={m.id}
+                  durationS={durationS}
+                  onDone={() => setEditing(null)}
+                />
               </li>
             ) : (
-              <MarkItem key={m.id} recordingId={recordingId} mark={m} active={m.id === current} canEdit={!m.pending && canEdit(m)} onSeek={onSeek} onEdit={() => setEditing(m.id)} />
+              <MarkItem
+                key={m.id}
+                recordingId={recordingId}
+                mark={m}
+                active={m.id === current}
+                canEdit={!m.pending && canEdit(m)}
+                onSeek={onSeek}
+                onEdit={() => setEditing(m.id)}
+              />
             ),
           )}
         </ol>
@@ -116,7 +165,21 @@ export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPane
   );
 });
 
-function MarkItem({ recordingId, mark, active, canEdit, onSeek, onEdit }: { recordingId: string; mark: MarkRow; active: boolean; canEdit: boolean; onSeek: (t: number) => void; onEdit: () => void }) {
+function MarkItem({
+  recordingId,
+  mark,
+  active,
+  canEdit,
+  onSeek,
+  onEdit,
+}: {
+  recordingId: string;
+  mark: MarkRow;
+  active: boolean;
+  canEdit: boolean;
+  onSeek: (t: number) => void;
+  onEdit: () => void;
+}) {
   const del = useFetcher({ key: `mark-del-${mark.id}` });
   return (
     <li
@@ -125,29 +188,49 @@ function MarkItem({ recordingId, mark, active, canEdit, onSeek, onEdit }: { reco
       aria-current={active ? "true" : undefined}
       className={`group border-b border-rule/70 border-l-4 px-3 py-2.5 ${active ? "border-l-brass bg-brass-soft/50" : "border-l-transparent"} ${mark.pending ? "opacity-60" : ""}`}
     >
-      <button type="button" onClick={() => onSeek(mark.tStart)} className="block w-full text-left" aria-label={`Play from ${formatTime(mark.tStart)}: ${mark.text}`}>
+      <button
+        type="button"
+        onClick={() => onSeek(mark.tStart)}
+        className="block w-full text-left"
+        aria-label={`Play from ${formatTime(mark.tStart)}: ${mark.text}`}
+      >
         <span className="num mr-2 font-mono text-sm font-semibold text-teal" data-testid="mark-time">
-          {formatTime(mark.tStart)}{mark.tEnd != null && <> – {formatTime(mark.tEnd)}</>}
+          {formatTime(mark.tStart)}
+          {mark.tEnd != null && <> – {formatTime(mark.tEnd)}</>}
         </span>
         <span className="text-sm">{mark.text}</span>
       </button>
       {(mark.tags.length > 0 || mark.procedureTitle) && (
         <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs">
-          {mark.tags.map((t) => <span key={t} className="rounded-full bg-teal-soft px-2 py-0.5 font-semibold text-teal">{t}</span>)}
+          {mark.tags.map((t) => (
+            <span key={t} className="rounded-full bg-teal-soft px-2 py-0.5 font-semibold text-teal">
+              {t}
+            </span>
+          ))}
           {/* No address: a procedure this person may not read (marksFor in notes.server.ts). */}
-          {mark.procedureTitle && (mark.procedureSlug ? <a href={`/procedures/${mark.procedureSlug}`} className="font-semibold">↳ {mark.procedureTitle}</a> : <span className="italic">↳ {mark.procedureTitle}</span>)}
+          {mark.procedureTitle &&
+            (mark.procedureSlug ? (
+              <a href={`/procedures/${mark.procedureSlug}`} className="font-semibold">
+                ↳ {mark.procedureTitle}
+              </a>
+            ) : (
+              <span className="italic">↳ {mark.procedureTitle}</span>
+            ))}
         </div>
       )}
       <div className="mt-1 flex items-center gap-3 text-xs text-graphite-soft">
         <span>{mark.authorName ?? "Former staff"}</span>
         {canEdit && (
           <>
-            <button type="button" className="font-semibold text-teal hover:underline" onClick={onEdit}>Edit</button>
+            <button type="button" className="font-semibold text-teal hover:underline" onClick={onEdit}>
+              Edit
+            </button>
             <button
               type="button"
               className="font-semibold text-spec-red hover:underline"
               onClick={() => {
-                if (confirm(`Delete the mark at ${formatTime(mark.tStart)}?`)) del.submit(null, { method: "DELETE", action: `/api/recordings/${recordingId}/marks/${mark.id}` });
+                if (confirm(`Delete the mark at ${formatTime(mark.tStart)}?`))
+                  del.submit(null, { method: "DELETE", action: `/api/recordings/${recordingId}/marks/${mark.id}` });
               }}
             >
               Delete
@@ -167,7 +250,16 @@ function parseTime(s: string): number | null {
   return parts.reduce((acc, p) => acc * 60 + p, 0);
 }
 
-function MarkForm({ recordingId, procedures, initial, markId, textRef, durationS, onDone, fetcherKey }: {
+function MarkForm({
+  recordingId,
+  procedures,
+  initial,
+  markId,
+  textRef,
+  durationS,
+  onDone,
+  fetcherKey,
+}: {
   fetcherKey?: string;
   recordingId: string;
   procedures: ProcedureChoice[];
@@ -207,46 +299,121 @@ function MarkForm({ recordingId, procedures, initial, markId, textRef, durationS
     if (Object.keys(errs).length) return;
     submitted.current = true;
     const body = { tStart, tEnd: tEnd ?? null, text, tags: splitTags(tags), procedureId: procedureId || null };
-    fetcher.submit(body, { method: markId ? "PATCH" : "POST", action: `/api/recordings/${recordingId}/marks${markId ? `/${markId}` : ""}`, encType: "application/json" });
+    fetcher.submit(body, {
+      method: markId ? "PATCH" : "POST",
+      action: `/api/recordings/${recordingId}/marks${markId ? `/${markId}` : ""}`,
+      encType: "application/json",
+    });
   };
 
   return (
-    <form onSubmit={submit} className="space-y-2 border-b border-rule bg-paper/60 px-4 py-3" noValidate aria-label={markId ? "Edit mark" : "New mark"} onKeyDown={(e) => { if (e.key === "Escape") onDone(); }}>
+    <form
+      onSubmit={submit}
+      className="space-y-2 border-b border-rule bg-paper/60 px-4 py-3"
+      noValidate
+      aria-label={markId ? "Edit mark" : "New mark"}
+      onKeyDown={(e) => {
+        if (e.key === "Escape") onDone();
+      }}
+    >
       <div className="grid grid-cols-2 gap-2">
         <div>
-          <label className="label text-xs" htmlFor={`ms-${id}`}>{end ? "From" : "At"}</label>
-          <input id={`ms-${id}`} className="field num py-1 font-mono text-sm" value={start} onChange={(e) => setStart(e.target.value)} aria-invalid={errors.tStart ? true : undefined} />
+          <label className="label text-xs" htmlFor={`ms-${id}`}>
+            {end ? "From" : "At"}
+          </label>
+          <input
+            id={`ms-${id}`}
+            className="field num py-1 font-mono text-sm"
+            value={start}
+            onChange={(e) => setStart(e.target.value)}
+            aria-invalid={errors.tStart ? true : undefined}
+          />
         </div>
         <div>
-          <label className="label text-xs" htmlFor={`me-${id}`}>To <span className="font-normal text-graphite-soft">(span, optional)</span></label>
-          <input id={`me-${id}`} className="field num py-1 font-mono text-sm" value={end} placeholder="–" onChange={(e) => setEnd(e.target.value)} aria-invalid={errors.tEnd ? true : undefined} />
+          <label className="label text-xs" htmlFor={`me-${id}`}>
+            To <span className="font-normal text-graphite-soft">(span, optional)</span>
+          </label>
+          <input
+            id={`me-${id}`}
+            className="field num py-1 font-mono text-sm"
+            value={end}
+            placeholder="–"
+            onChange={(e) => setEnd(e.target.value)}
+            aria-invalid={errors.tEnd ? true : undefined}
+          />
         </div>
       </div>
-      {(errors.tStart || errors.tEnd) && <p className="field-error" role="alert">{errors.tStart ?? errors.tEnd}</p>}
+      {(errors.tStart || errors.tEnd) && (
+        <p className="field-error" role="alert">
+          {errors.tStart ?? errors.tEnd}
+        </p>
+      )}
       <div>
-        <label className="label text-xs" htmlFor={`mt-${id}`}>What happens here</label>
-        <input ref={textRef} id={`mt-${id}`} data-testid="mark-text" className="field py-1 text-sm" value={text} maxLength={2000} onChange={(e) => setText(e.target.value)} aria-invalid={errors.text ? true : undefined} placeholder="Stud 4 reaches 110 N·m, third pass" />
-        {errors.text && <p className="field-error" role="alert">{errors.text}</p>}
+        <label className="label text-xs" htmlFor={`mt-${id}`}>
+          What happens here
+        </label>
+        <input
+          ref={textRef}
+          id={`mt-${id}`}
+          data-testid="mark-text"
+          className="field py-1 text-sm"
+          value={text}
+          maxLength={2000}
+          onChange={(e) => setText(e.target.value)}
+          aria-invalid={errors.text ? true : undefined}
+          placeholder="Stud 4 reaches 110 N·m, third pass"
+        />
+        {errors.text && (
+          <p className="field-error" role="alert">
+            {errors.text}
+          </p>
+        )}
       </div>
       <div className="grid gap-2 sm:grid-cols-2">
         <div>
-          <label className="label text-xs" htmlFor={`mg-${id}`}>Tags</label>
-          <input id={`mg-${id}`} className="field py-1 text-sm" value={tags} onChange={(e) => setTags(e.target.value)} placeholder="torque, moly" />
+          <label className="label text-xs" htmlFor={`mg-${id}`}>
+            Tags
+          </label>
+          <input
+            id={`mg-${id}`}
+            className="field py-1 text-sm"
+            value={tags}
+            onChange={(e) => setTags(e.target.value)}
+            placeholder="torque, moly"
+          />
         </div>
         <div>
-          <label className="label text-xs" htmlFor={`mp-${id}`}>Procedure</label>
+          <label className="label text-xs" htmlFor={`mp-${id}`}>
+            Procedure
+          </label>
           <select id={`mp-${id}`} className="field py-1 text-sm" value={procedureId} onChange={(e) => setProcedureId(e.target.value)}>
             <option value="">None</option>
-            {procedures.map((p) => <option key={p.id} value={p.id}>{p.title}</option>)}
+            {procedures.map((p) => (
+              <option key={p.id} value={p.id}>
+                {p.title}
+              </option>
+            ))}
           </select>
-          {errors.procedureId && <p className="field-error" role="alert">{errors.procedureId}</p>}
+          {errors.procedureId && (
+            <p className="field-error" role="alert">
+              {errors.procedureId}
+            </p>
+          )}
         </div>
       </div>
-      {errors.form && <p className="field-error" role="alert">{errors.form}</p>}
+      {errors.form && (
+        <p className="field-error" role="alert">
+          {errors.form}
+        </p>
+      )}
       {durationS != null && <p className="sr-only">The video is {formatTime(durationS)} long.</p>}
       <div className="flex gap-2">
-        <button type="submit" className="btn btn-primary py-1 text-sm" disabled={fetcher.state !== "idle"}>{fetcher.state !== "idle" ? "Saving…" : markId ? "Save" : "Add mark"}</button>
-        <button type="button" className="btn py-1 text-sm" onClick={onDone}>Cancel</button>
+        <button type="submit" className="btn btn-primary py-1 text-sm" disabled={fetcher.state !== "idle"}>
+          {fetcher.state !== "idle" ? "Saving…" : markId ? "Save" : "Add mark"}
+        </button>
+        <button type="button" className="btn py-1 text-sm" onClick={onDone}>
+          Cancel
+        </button>
       </div>
     </form>
   );

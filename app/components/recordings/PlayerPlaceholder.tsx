@@ -5,7 +5,13 @@ import { Poster } from "./Poster";
  * What shows before the player has loaded, in the player's shape so nothing jumps: the poster, or,
  * when the page opens at a moment (?t=), no poster at all (the marked frame comes first).
  */
-export function PlayerPlaceholder({ recording: r, startAt }: { recording: { id: string; title: string; hasPoster: boolean }; startAt: number | null }) {
+export function PlayerPlaceholder({
+  recording: r,
+  startAt,
+}: {
+  recording: { id: string; title: string; hasPoster: boolean };
+  startAt: number | null;
+}) {
   return (
     <div className="overflow-hidden rounded-[0.6rem] border border-rule bg-card" data-testid="player-placeholder">
       {startAt != null ? (

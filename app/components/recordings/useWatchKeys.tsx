@@ -98,12 +98,27 @@ export function useWatchKeys({
 export function WatchKeyHelp({ canMark }: { canMark: boolean }) {
   const k = "rounded border border-rule bg-card px-1 font-mono text-[11px] text-graphite";
   return (
-    <p className="keyboard-only flex flex-wrap gap-x-3 gap-y-1 text-xs text-graphite-soft" aria-label="Keyboard" data-testid="key-help">
-      <span><kbd className={k}>Space</kbd> play / pause</span>
-      <span><kbd className={k}>←</kbd> <kbd className={k}>→</kbd> 5 s</span>
-      <span><kbd className={k}>,</kbd> <kbd className={k}>.</kbd> one frame</span>
-      {canMark && <span><kbd className={k}>M</kbd> mark here</span>}
-      {canMark && <span><kbd className={k}>S</kbd> … <kbd className={k}>S</kbd> mark a span</span>}
+    <p className="keyboard-only flex flex-wrap gap-x-3 gap-y-1 text-xs text-graphite-soft" data-testid="key-help">
+      <span className="sr-only">Keyboard:</span>
+      <span>
+        <kbd className={k}>Space</kbd> play / pause
+      </span>
+      <span>
+        <kbd className={k}>←</kbd> <kbd className={k}>→</kbd> 5 s
+      </span>
+      <span>
+        <kbd className={k}>,</kbd> <kbd className={k}>.</kbd> one frame
+      </span>
+      {canMark && (
+        <span>
+          <kbd className={k}>M</kbd> mark here
+        </span>
+      )}
+      {canMark && (
+        <span>
+          <kbd className={k}>S</kbd> … <kbd className={k}>S</kbd> mark a span
+        </span>
+      )}
     </p>
   );
 }

@@ -18,21 +18,29 @@ import { recordingDir } from "./storage.server";
 export const recordingDetailsSchema = z.object({
   title: z.string().trim().min(1, "Give the recording a title.").max(200, "Keep the title under 200 characters."),
   description: z.string().trim().max(4000, "Keep the description under 4000 characters.").default(""),
-  tags: z.string().max(600).default("").transform((s) => normalizeTags(s)),
+  tags: z
+    .string()
+    .max(600)
+    .default("")
+    .transform((s) => normalizeTags(s)),
 });
 
 export type RecordingDetails = z.infer<typeof recordingDetailsSchema>;
 
 export async function saveRecordingDetails(actorId: string, recordingId: string, details: RecordingDetails): Promise<void> {
   await db().transaction(async (tx) => {
-    await tx.update(recordings).set({ ...details, updatedAt: new Date() }).where(eq(recordings.id, recordingId));
+    await tx
+      .update(recordings)
+      .set({ ...details, updatedAt: new Date() })
+      .where(eq(recordings.id, recordingId));
     await audit(tx, actorId, "recording.edit", "recording", recordingId, { title: details.title });
   });
 }
 
 /** Processing again from the kept original; a rejected recording has none left (409). */
 export async function retryProcessing(actorId: string, rec: { id: string; state: string; hasOriginal: boolean }): Promise<void> {
-  if (rec.state === "rejected" || !rec.hasOriginal) throw new DomainError("A rejected recording has no file left to process; upload it again.");
+  if (rec.state === "rejected" || !rec.hasOriginal)
+    throw new DomainError("A rejected recording has no file left to process; upload it again.");
   await retryRecording(rec.id);
   await db().transaction((tx) => audit(tx, actorId, "recording.retry", "recording", rec.id, {}));
 }

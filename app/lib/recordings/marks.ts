@@ -38,8 +38,8 @@ export const markPatchSchema = (durationS: number | null) =>
       procedureId,
     })
     .superRefine((m, ctx) => {
-      if (m.tStart != null && pastTheEnd(m.tStart, durationS)) ctx.addIssue({ code: "custom", path: ["tStart"], message: tooLateMessage(durationS!) });
-      if (m.tEnd != null && pastTheEnd(m.tEnd, durationS)) ctx.addIssue({ code: "custom", path: ["tEnd"], message: tooLateMessage(durationS!) });
+      if (m.tStart != null && pastTheEnd(m.tStart, durationS))
+        ctx.addIssue({ code: "custom", path: ["tStart"], message: tooLateMessage(durationS!) });
+      if (m.tEnd != null && pastTheEnd(m.tEnd, durationS))
+        ctx.addIssue({ code: "custom", path: ["tEnd"], message: tooLateMessage(durationS!) });
     });
-
-export type MarkInput = z.infer<ReturnType<typeof markInputSchema>>;

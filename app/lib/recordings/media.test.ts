@@ -22,13 +22,22 @@ describe("Range parsing", () => {
 });
 
 describe("rendition plan", () => {
-  const base: Probe = { formatName: "mov,mp4,m4a,3gp,3g2,mj2", majorBrand: "isom", durationS: 10, videoDurationS: 10, video: { codec: "h264", profile: "High", pixFmt: "yuv420p", width: 1920, height: 1080, frameRate: 30 }, audio: { codec: "aac" } };
+  const base: Probe = {
+    formatName: "mov,mp4,m4a,3gp,3g2,mj2",
+    majorBrand: "isom",
+    durationS: 10,
+    videoDurationS: 10,
+    video: { codec: "h264", profile: "High", pixFmt: "yuv420p", width: 1920, height: 1080, frameRate: 30 },
+    audio: { codec: "aac" },
+  };
   it("serves a faststart H.264/AAC MP4 as it is, remuxes other containers or a late index, transcodes the rest", () => {
     expect(planFor(base, ["ftyp", "moov", "mdat"])).toBe("as-is");
     expect(planFor(base, ["ftyp", "mdat", "moov"])).toBe("remux");
     expect(planFor({ ...base, majorBrand: "qt" }, ["ftyp", "moov", "mdat"])).toBe("remux");
     expect(planFor({ ...base, video: { ...base.video!, codec: "hevc" } }, ["ftyp", "moov", "mdat"])).toBe("transcode");
-    expect(planFor({ ...base, video: { ...base.video!, pixFmt: "yuv420p10le", profile: "High 10" } }, ["ftyp", "moov", "mdat"])).toBe("transcode");
+    expect(planFor({ ...base, video: { ...base.video!, pixFmt: "yuv420p10le", profile: "High 10" } }, ["ftyp", "moov", "mdat"])).toBe(
+      "transcode",
+    );
     expect(planFor({ ...base, audio: { codec: "pcm_s16le" } }, ["ftyp", "moov", "mdat"])).toBe("transcode");
     expect(planFor({ ...base, audio: null }, ["ftyp", "moov", "mdat"])).toBe("as-is");
   });

@@ -61,7 +61,7 @@ export function displayUnit(code: string): string {
  * The SI value of a typed reading: contract units go through `toSI` (m, N, N·m, Pa, K),
  * a percentage is kept as a fraction (40 % → 0.4), a free-form unit is stored as typed.
  */
-export function toStoredSI(quantity: string, value: number, unit: string): number {
+export function toStoredSI(_quantity: string, value: number, unit: string): number {
   if (unit === "%") return value / 100;
   if (isUnitCode(unit)) return toSI(value, unit as UnitCode);
   return value;
@@ -104,9 +104,11 @@ export function readingInputSchema(durationS: number | null) {
       const decimalsValid = Number.isInteger(r.valueDecimals) && r.valueDecimals! >= 0 && r.valueDecimals! <= MAX_TYPED_DECIMALS;
       if (decimalsValid && Number.isFinite(r.value) && guessedDecimals(r.value) > r.valueDecimals!)
         ctx.addIssue({ code: "custom", path: ["valueDecimals"], message: `${r.value} has more decimals than ${r.valueDecimals}.` });
-      for (const i of positionIssues(r.quantity, r, quantityDef(r.quantity)!.label)) ctx.addIssue({ code: "custom", path: [i.path], message: i.message });
+      for (const i of positionIssues(r.quantity, r, quantityDef(r.quantity)!.label))
+        ctx.addIssue({ code: "custom", path: [i.path], message: i.message });
       if (r.quantity === "other") {
-        if (!FREE_UNIT.test(r.unit)) ctx.addIssue({ code: "custom", path: ["unit"], message: "Type a short unit (letters, digits, % / ·)." });
+        if (!FREE_UNIT.test(r.unit))
+          ctx.addIssue({ code: "custom", path: ["unit"], message: "Type a short unit (letters, digits, % / ·)." });
       } else if (!allowed.includes(r.unit)) {
         const q = quantityDef(r.quantity)!;
         ctx.addIssue({
@@ -124,7 +126,8 @@ export function readingInputSchema(durationS: number | null) {
       if (r.quantity === "temperature" && allowed.includes(r.unit) && toStoredSI(r.quantity, r.value, r.unit) <= 0)
         ctx.addIssue({ code: "custom", path: ["value"], message: "That is below absolute zero." });
       // What a gauge can read, in SI (app/lib/edge.ts): 1e308 lbf is a slip, and its SI value is Infinity.
-      const outOfRange = (r.quantity === "other" || allowed.includes(r.unit)) && r.quantity !== "leak-down" ? quantityProblem(r.value, r.unit) : null;
+      const outOfRange =
+        (r.quantity === "other" || allowed.includes(r.unit)) && r.quantity !== "leak-down" ? quantityProblem(r.value, r.unit) : null;
       if (outOfRange && !(r.quantity === "temperature" && toStoredSI(r.quantity, r.value, r.unit) <= 0))
         ctx.addIssue({ code: "custom", path: ["value"], message: outOfRange });
       if (r.t != null && pastTheEnd(r.t, durationS)) ctx.addIssue({ code: "custom", path: ["t"], message: tooLateMessage(durationS!) });
@@ -140,5 +143,3 @@ export function readingInputSchema(durationS: number | null) {
       return { ...r, valueDecimals: valueDecimals ?? guessedDecimals(r.value), position: given };
     });
 }
-
-export type ReadingInput = z.infer<ReturnType<typeof readingInputSchema>>;

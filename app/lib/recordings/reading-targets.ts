@@ -11,10 +11,12 @@ export const STATES_WITHOUT_READINGS = ["rejected", "damaged"] as const;
 
 const WHY_NOT: Record<(typeof STATES_WITHOUT_READINGS)[number], string> = {
   rejected: "This recording is not a video (its file was refused), so it takes no readings. Choose another recording.",
-  damaged: "This recording's video is damaged, so readings on it could not be checked against it. Choose another recording, or upload the video again.",
+  damaged:
+    "This recording's video is damaged, so readings on it could not be checked against it. Choose another recording, or upload the video again.",
 };
 
-const isWithout = (state: string): state is (typeof STATES_WITHOUT_READINGS)[number] => (STATES_WITHOUT_READINGS as readonly string[]).includes(state);
+const isWithout = (state: string): state is (typeof STATES_WITHOUT_READINGS)[number] =>
+  (STATES_WITHOUT_READINGS as readonly string[]).includes(state);
 
 /** Refuses new readings on a recording whose video cannot be watched (409, with the reason). */
 export function assertTakesReadings(rec: { state: string }): void {

@@ -2,7 +2,7 @@
 
 /** An upload's file name must be a plain name: no path separators, no control characters. */
 export function fileNameProblem(name: string): string | null {
-  if (!name || !name.trim()) return "The file has no name.";
+  if (!name?.trim()) return "The file has no name.";
   if (name.length > 255) return "The file name is longer than 255 characters.";
   if (/[/\\]/.test(name)) return "The file name contains a path separator (/ or \\); rename the file and try again.";
   // eslint-disable-next-line no-control-regex
@@ -13,5 +13,11 @@ export function fileNameProblem(name: string): string | null {
 
 /** "Bench test 2 - moly.mov" → "Bench test 2 - moly" */
 export function titleFromFileName(name: string): string {
-  return name.replace(/\.[A-Za-z0-9]{1,5}$/, "").replace(/[_]+/g, " ").trim().slice(0, 200) || "Untitled recording";
+  return (
+    name
+      .replace(/\.[A-Za-z0-9]{1,5}$/, "")
+      .replace(/[_]+/g, " ")
+      .trim()
+      .slice(0, 200) || "Untitled recording"
+  );
 }

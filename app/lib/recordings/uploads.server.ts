@@ -20,7 +20,17 @@ export async function assertMayHandleUpload(request: Request, user: SessionUser,
 /** An upload as its client follows it: the bytes received, and once finished its recording's state. */
 export async function uploadStatus(uploadId: string) {
   const [row] = await db()
-    .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, recordingId: uploads.recordingId, createdAt: uploads.createdAt, state: recordings.state, stateReason: recordings.stateReason, progress: recordings.progress })
+    .select({
+      id: uploads.id,
+      fileName: uploads.fileName,
+      size: uploads.size,
+      title: uploads.title,
+      recordingId: uploads.recordingId,
+      createdAt: uploads.createdAt,
+      state: recordings.state,
+      stateReason: recordings.stateReason,
+      progress: recordings.progress,
+    })
     .from(uploads)
     .leftJoin(recordings, eq(recordings.id, uploads.recordingId))
     .where(eq(uploads.id, uploadId));
@@ -33,8 +43,12 @@ export async function uploadStatus(uploadId: string) {
  * A finished, discarded or someone else's upload gets the same answer, so no one learns of others' files.
  */
 export async function discardUnfinishedUpload(user: SessionUser, uploadId: string): Promise<{ fileName: string }> {
-  const [row] = await db().select({ userId: uploads.userId, fileName: uploads.fileName }).from(uploads).where(and(eq(uploads.id, uploadId), isNull(uploads.recordingId)));
-  if (!row || !canOnOwned(user, "upload:manage", row.userId)) throw new DomainError("That unfinished upload is gone or not yours.", { status: 404 });
+  const [row] = await db()
+    .select({ userId: uploads.userId, fileName: uploads.fileName })
+    .from(uploads)
+    .where(and(eq(uploads.id, uploadId), isNull(uploads.recordingId)));
+  if (!row || !canOnOwned(user, "upload:manage", row.userId))
+    throw new DomainError("That unfinished upload is gone or not yours.", { status: 404 });
   await discardUpload(uploadId);
   return { fileName: row.fileName };
 }

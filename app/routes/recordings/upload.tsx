@@ -56,31 +56,59 @@ export default function UploadPage({ loaderData, actionData }: Route.ComponentPr
   const unfinished = loaderData.unfinished.filter((u) => !inQueue.includes(u.id));
   return (
     <>
-      <PageHeader title="Upload videos" kicker="Recordings" actions={<Link to="/recordings" className="btn no-underline">Back to recordings</Link>} />
+      <PageHeader
+        title="Upload videos"
+        kicker="Recordings"
+        actions={
+          <Link to="/recordings" className="btn no-underline">
+            Back to recordings
+          </Link>
+        }
+      />
       <div className="grid gap-6 lg:grid-cols-[1fr_18rem]">
         <UploadQueue maxBytes={loaderData.maxBytes} onUploadsChange={onUploadsChange} />
         <aside className="space-y-4">
           <section className="card text-sm">
             <h2 className="text-lg">After the upload</h2>
-            <p className="mt-2 text-graphite-soft">The shop server checks that the file really is a video, grabs a poster frame and, for HEVC or QuickTime files, makes a copy every browser can play. The original is kept for download.</p>
+            <p className="mt-2 text-graphite-soft">
+              The shop server checks that the file really is a video, grabs a poster frame and, for HEVC or QuickTime files, makes a copy
+              every browser can play. The original is kept for download.
+            </p>
           </section>
           <section className="card text-sm" aria-labelledby="unfinished-h">
-            <h2 id="unfinished-h" className="text-lg">Unfinished uploads</h2>
-            <p className="mt-1 text-xs text-graphite-soft">A partial upload that receives no bytes for {loaderData.expiryDays} days is discarded.</p>
-            {refused && <div className="mt-2"><FormError message={refused} /></div>}
+            <h2 id="unfinished-h" className="text-lg">
+              Unfinished uploads
+            </h2>
+            <p className="mt-1 text-xs text-graphite-soft">
+              A partial upload that receives no bytes for {loaderData.expiryDays} days is discarded.
+            </p>
+            {refused && (
+              <div className="mt-2">
+                <FormError message={refused} />
+              </div>
+            )}
             {unfinished.length === 0 ? (
-              <p className="mt-2 text-graphite-soft">None. An upload interrupted by a reload or a closed browser shows here until you finish or discard it.</p>
+              <p className="mt-2 text-graphite-soft">
+                None. An upload interrupted by a reload or a closed browser shows here until you finish or discard it.
+              </p>
             ) : (
               <ul className="mt-2 space-y-3" data-testid="unfinished-uploads">
                 {unfinished.map((u) => (
                   <li key={u.id}>
                     <p className="break-all font-semibold">{u.fileName}</p>
-                    <p className="num text-graphite-soft">{formatBytes(u.received)} of {formatBytes(u.size)} on the server · started {fmt(u.createdAt)}</p>
-                    <p className="text-graphite-soft">Choose the same file above to continue, in any browser. Discarded by itself on {fmt(u.expiresAt)} if no more bytes arrive.</p>
+                    <p className="num text-graphite-soft">
+                      {formatBytes(u.received)} of {formatBytes(u.size)} on the server · started {fmt(u.createdAt)}
+                    </p>
+                    <p className="text-graphite-soft">
+                      Choose the same file above to continue, in any browser. Discarded by itself on {fmt(u.expiresAt)} if no more bytes
+                      arrive.
+                    </p>
                     <discard.Form method="post" className="mt-1">
                       <input type="hidden" name="intent" value="discard" />
                       <input type="hidden" name="uploadId" value={u.id} />
-                      <button type="submit" className="btn btn-danger py-1 text-xs">Discard</button>
+                      <button type="submit" className="btn btn-danger py-1 text-xs">
+                        Discard
+                      </button>
                     </discard.Form>
                   </li>
                 ))}

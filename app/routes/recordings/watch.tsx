@@ -34,7 +34,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const recording = await getRecording(parseParams(request, idParams, params, "recording").id);
   if (!recording) notFound(request, "recording");
-  const [marks, readings, procedures] = await Promise.all([marksFor(user, recording.id), listReadings(recording.id), procedureChoicesFor(user)]);
+  const [marks, readings, procedures] = await Promise.all([
+    marksFor(user, recording.id),
+    listReadings(recording.id),
+    procedureChoicesFor(user),
+  ]);
   return {
     recording,
     marks,
@@ -143,15 +147,29 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
         kicker="Recording"
         actions={
           <>
-            {perms.download && r.hasOriginal && <a className="btn no-underline" href={`/api/recordings/${r.id}/original`} download>Download original</a>}
-            {perms.edit && <button type="button" className="btn" onClick={() => setShowDetails((v) => !v)} aria-expanded={showDetails}>Edit details</button>}
-            {perms.fileTestRecord && <Link className="btn no-underline" to={`/test-records/new?recording=${r.id}`}>File a test record from this recording</Link>}
+            {perms.download && r.hasOriginal && (
+              <a className="btn no-underline" href={`/api/recordings/${r.id}/original`} download>
+                Download original
+              </a>
+            )}
+            {perms.edit && (
+              <button type="button" className="btn" onClick={() => setShowDetails((v) => !v)} aria-expanded={showDetails}>
+                Edit details
+              </button>
+            )}
+            {perms.fileTestRecord && (
+              <Link className="btn no-underline" to={`/test-records/new?recording=${r.id}`}>
+                File a test record from this recording
+              </Link>
+            )}
           </>
         }
       >
         <span className="flex flex-wrap items-center gap-x-3 gap-y-1 text-sm">
           <StateBadge state={r.state} progress={r.progress} />
-          <span>{r.uploaderName ?? "Former staff"} · {formatDay(r.createdAt)}</span>
+          <span>
+            {r.uploaderName ?? "Former staff"} · {formatDay(r.createdAt)}
+          </span>
           <span className="num">{facts.join(" · ")}</span>
         </span>
       </PageHeader>
@@ -160,15 +178,48 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
       {(showDetails || actionData?.intent === "details") && perms.edit && (
         <Form method="post" className="card mb-6 grid gap-4 md:grid-cols-2" noValidate>
           <input type="hidden" name="intent" value="details" />
-          <Field label="Title" name="title" defaultValue={actionData?.values?.title ?? r.title} error={errors.title} required maxLength={200} />
-          <Field label="Tags (comma-separated)" name="tags" defaultValue={actionData?.values?.tags ?? r.tags.join(", ")} error={errors.tags} />
+          <Field
+            label="Title"
+            name="title"
+            defaultValue={actionData?.values?.title ?? r.title}
+            error={errors.title}
+            required
+            maxLength={200}
+          />
+          <Field
+            label="Tags (comma-separated)"
+            name="tags"
+            defaultValue={actionData?.values?.tags ?? r.tags.join(", ")}
+            error={errors.tags}
+          />
           <div className="md:col-span-2">
-            <label className="label" htmlFor="f-description">Description</label>
-            <textarea id="f-description" name="description" className="field min-h-20" defaultValue={actionData?.values?.description ?? r.description} maxLength={4000} />
+            <label className="label" htmlFor="f-description">
+              Description
+            </label>
+            <textarea
+              id="f-description"
+              name="description"
+              className="field min-h-20"
+              defaultValue={actionData?.values?.description ?? r.description}
+              maxLength={4000}
+            />
           </div>
           <div className="flex flex-wrap gap-2 md:col-span-2">
-            <button className="btn btn-primary" type="submit" disabled={busy}>Save details</button>
-            <button className="btn btn-danger ml-auto" type="submit" name="intent" value="delete" disabled={busy} onClick={(e) => { if (!confirm("Delete this recording with all its marks and readings? This cannot be undone.")) e.preventDefault(); }}>Delete recording</button>
+            <button className="btn btn-primary" type="submit" disabled={busy}>
+              Save details
+            </button>
+            <button
+              className="btn btn-danger ml-auto"
+              type="submit"
+              name="intent"
+              value="delete"
+              disabled={busy}
+              onClick={(e) => {
+                if (!confirm("Delete this recording with all its marks and readings? This cannot be undone.")) e.preventDefault();
+              }}
+            >
+              Delete recording
+            </button>
           </div>
         </Form>
       )}
@@ -190,7 +241,9 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
                     fps={fps}
                     marks={ticks}
                     activeMarkId={activeMark}
-                    onReady={(p) => { api.current = p; }}
+                    onReady={(p) => {
+                      api.current = p;
+                    }}
                     onTime={setTime}
                   />
                 </Suspense>
@@ -213,7 +266,13 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
             />
           </div>
           <div className="mt-6 space-y-5">
-            <ReadingsPanel recordingId={r.id} readings={readings} currentTime={() => api.current?.currentTime() ?? time} canCreate={perms.read} canEdit={canEditReading} />
+            <ReadingsPanel
+              recordingId={r.id}
+              readings={readings}
+              currentTime={() => api.current?.currentTime() ?? time}
+              canCreate={perms.read}
+              canEdit={canEditReading}
+            />
             <ReadingsChart readings={readings} onSeek={seek} durationS={r.durationS} />
           </div>
         </>

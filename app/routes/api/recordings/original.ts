@@ -12,6 +12,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { id } = parseParams(request, idParams, params, "recording");
   const r = await mediaFacts(id);
   if (!r) notFound(request, "recording");
-  if (!r.hasOriginal) return Response.json({ error: "not found", reason: "The original file is not kept for this recording." }, { status: 404 });
+  if (!r.hasOriginal)
+    return Response.json({ error: "not found", reason: "The original file is not kept for this recording." }, { status: 404 });
   return serveFile(request, originalPath(r.id), { contentType: "application/octet-stream", download: r.originalName });
 }
