@@ -28,6 +28,25 @@ async function ffmpeg(args: string[]) {
   await run("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args]);
 }
 
+/** A 3 s H.264 clip with its index first (faststart), as a phone's upload; its path. */
+async function faststartClip(name: string): Promise<string> {
+  const file = path.join(work, name);
+  await ffmpeg([
+    "-f",
+    "lavfi",
+    "-i",
+    "testsrc=duration=3:size=320x240:rate=25",
+    "-pix_fmt",
+    "yuv420p",
+    "-c:v",
+    "libx264",
+    "-movflags",
+    "+faststart",
+    file,
+  ]);
+  return file;
+}
+
 /** Uploads bytes in one PATCH; the recording's id. */
 async function uploadBytes(bytes: Buffer, name: string): Promise<string> {
   const created = await http("/api/uploads", {
@@ -109,20 +128,7 @@ beforeAll(async () => {
 
 describe("damaged video", () => {
   it("marks the first 6,000 bytes of a faststart MP4 damaged with the reason, not ready; the original is kept", async () => {
-    const whole = path.join(work, "faststart.mp4");
-    await ffmpeg([
-      "-f",
-      "lavfi",
-      "-i",
-      "testsrc=duration=3:size=320x240:rate=25",
-      "-pix_fmt",
-      "yuv420p",
-      "-c:v",
-      "libx264",
-      "-movflags",
-      "+faststart",
-      whole,
-    ]);
+    const whole = await faststartClip("faststart.mp4");
     const head = fs.readFileSync(whole).subarray(0, 6000);
     const id = await uploadBytes(head, "cut-short.mp4");
     const rec = await settled(id);
@@ -138,20 +144,7 @@ describe("damaged video", () => {
   });
 
   it("is not offered to Save as readings, and refuses readings with the reason (409, nothing stored); a ready one takes them", async () => {
-    const whole = path.join(work, "faststart-for-readings.mp4");
-    await ffmpeg([
-      "-f",
-      "lavfi",
-      "-i",
-      "testsrc=duration=3:size=320x240:rate=25",
-      "-pix_fmt",
-      "yuv420p",
-      "-c:v",
-      "libx264",
-      "-movflags",
-      "+faststart",
-      whole,
-    ]);
+    const whole = await faststartClip("faststart-for-readings.mp4");
     const damaged = await uploadBytes(fs.readFileSync(whole).subarray(0, 6000), "cut-short-readings.mp4");
     const ready = await uploadBytes(fs.readFileSync(whole), "whole-readings.mp4");
     expect((await settled(damaged)).state).toBe("damaged");
@@ -185,20 +178,7 @@ describe("damaged video", () => {
   });
 
   it("still makes a whole video ready", async () => {
-    const whole = path.join(work, "whole.mp4");
-    await ffmpeg([
-      "-f",
-      "lavfi",
-      "-i",
-      "testsrc=duration=3:size=320x240:rate=25",
-      "-pix_fmt",
-      "yuv420p",
-      "-c:v",
-      "libx264",
-      "-movflags",
-      "+faststart",
-      whole,
-    ]);
+    const whole = await faststartClip("whole.mp4");
     const rec = await settled(await uploadBytes(fs.readFileSync(whole), "whole.mp4"));
     expect(rec).toMatchObject({ state: "ready", stateReason: null });
   });
