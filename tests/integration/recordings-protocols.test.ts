@@ -1,6 +1,6 @@
 // Recordings, protocols as their specifications say: tus 1.0.0 (version, OPTIONS, content
 // type, extensions offered, expiration, overrun, a finished upload resumed from its stored
-// URL), continuing an unfinished upload found by the file's name and size, and Range
+// URL), continuing an unfinished upload found by the file's name, size and fingerprint, and Range
 // (RFC 9110 §14) on the media routes.
 import { execFileSync } from "node:child_process";
 import fs from "node:fs";
@@ -12,6 +12,7 @@ import { recordings, uploads } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { tusFilePath } from "~/lib/recordings/storage.server";
 import { UPLOAD_EXPIRY_DAYS, receivedBytes } from "~/lib/recordings/tus.server";
+import { fileFingerprint, fingerprintMetadata, type FileFingerprint } from "~/lib/recordings/file-fingerprint";
 import { BASE_URL, createUser, http, waitFor, type TestUser } from "../support/app";
 
 const work = path.join(process.env.BENCHREEL_RUN_DIR ?? fs.mkdtempSync("/tmp/br-rec-"), "recordings-protocols");
@@ -26,8 +27,9 @@ let builder2: TestUser;
 let clip: Buffer;
 
 /** POST a new upload of `size` bytes; its id. */
-async function create(user: TestUser, name: string, size: number, title = name): Promise<{ id: string; res: Response }> {
-  const res = await http("/api/uploads", { method: "POST", cookie: user.cookie, headers: { ...TUS, "Upload-Length": String(size), "Upload-Metadata": `filename ${b64(name)},title ${b64(title)}` } });
+async function create(user: TestUser, name: string, size: number, title = name, meta: Record<string, string> = {}): Promise<{ id: string; res: Response }> {
+  const metadata = Object.entries({ filename: name, title, ...meta }).map(([k, v]) => `${k} ${b64(v)}`).join(",");
+  const res = await http("/api/uploads", { method: "POST", cookie: user.cookie, headers: { ...TUS, "Upload-Length": String(size), "Upload-Metadata": metadata } });
   expect(res.status).toBe(201);
   return { id: path.basename(res.headers.get("location")!), res };
 }
@@ -203,30 +205,46 @@ describe("tus 1.0.0", () => {
   });
 });
 
+/** The question the upload page asks: an unfinished upload of this file, with what tells it apart. */
+function fileQueryOf(file: File, fp: FileFingerprint, only: "both" | "lastModified" | "neither" = "both"): string {
+  const q: Record<string, string> = { fileName: file.name, size: String(file.size) };
+  if (only !== "neither") q.lastModified = fp.lastModified;
+  if (only === "both" && fp.sample) q.sample = fp.sample;
+  return new URLSearchParams(q).toString();
+}
+
 describe("continuing an upload from another browser", () => {
-  it("finds the person's unfinished upload by file name and size (with the details given when it began), and nobody else's", async () => {
+  const find = (user: TestUser, q: string) => http(`/api/uploads?${q}`, { cookie: user.cookie });
+  const found = async (user: TestUser, q: string) => ((await (await find(user, q)).json()) as { unfinished: { id: string; received: number; title: string; expiresAt: string }[] }).unfinished;
+
+  it("finds the person's unfinished upload by file name, size and fingerprint (with the details given when it began), and nobody else's", async () => {
     const name = `long-take-${Date.now()}.mp4`;
-    const { id } = await create(builder, name, 1000, "Head gasket retorque, pass 2");
+    const file = new File([Buffer.alloc(1000, "x")], name, { lastModified: Date.parse("2026-11-30T08:15:00Z") });
+    const fp = await fileFingerprint(file);
+    expect(fp.sample).toMatch(/^[0-9a-f]{64}$/);
+    const { id } = await create(builder, name, 1000, "Head gasket retorque, pass 2", fingerprintMetadata(fp));
     await patch(builder, id, 0, "x".repeat(400));
-    const find = (user: TestUser, q: string) => http(`/api/uploads?${q}`, { cookie: user.cookie });
-    const mine = (await (await find(builder, new URLSearchParams({ fileName: name, size: "1000" }).toString())).json()) as { unfinished: { id: string; received: number; title: string; expiresAt: string }[] };
-    expect(mine.unfinished).toHaveLength(1);
-    expect(mine.unfinished[0]).toMatchObject({ id, received: 400, title: "Head gasket retorque, pass 2" });
-    expect(Date.parse(mine.unfinished[0].expiresAt)).toBeGreaterThan(Date.now() + (UPLOAD_EXPIRY_DAYS - 1) * DAY);
-    const otherSize = (await (await find(builder, new URLSearchParams({ fileName: name, size: "999" }).toString())).json()) as { unfinished: unknown[] };
-    expect(otherSize.unfinished).toHaveLength(0);
-    const someoneElse = (await (await find(builder2, new URLSearchParams({ fileName: name, size: "1000" }).toString())).json()) as { unfinished: unknown[] };
-    expect(someoneElse.unfinished).toHaveLength(0);
+    const mine = await found(builder, fileQueryOf(file, fp));
+    expect(mine).toHaveLength(1);
+    expect(mine[0]).toMatchObject({ id, received: 400, title: "Head gasket retorque, pass 2" });
+    expect(Date.parse(mine[0].expiresAt)).toBeGreaterThan(Date.now() + (UPLOAD_EXPIRY_DAYS - 1) * DAY);
+    // The same file copied to another machine keeps its bytes but may get a new time: the sample decides.
+    expect(await found(builder, fileQueryOf(new File([file], name, { lastModified: Date.now() }), { ...fp, lastModified: String(Date.now()) }))).toHaveLength(1);
+    expect(await found(builder, new URLSearchParams({ fileName: name, size: "999", lastModified: fp.lastModified, sample: fp.sample! }).toString())).toHaveLength(0);
+    expect(await found(builder2, fileQueryOf(file, fp))).toHaveLength(0);
     const bad = await find(builder, "fileName=x&size=-4");
     expect(bad.status).toBe(422);
     expect(((await bad.json()) as { issues: { path: string }[] }).issues[0].path).toBe("size");
+    const badSample = await find(builder, `fileName=x&size=4&sample=${"z".repeat(64)}`);
+    expect(badSample.status).toBe(422);
+    expect(((await badSample.json()) as { issues: { path: string }[] }).issues[0].path).toBe("sample");
 
     // A client that only knows the URL the server gave continues from the server's offset.
     const offsets: string[] = [];
     await new Promise<void>((resolve, reject) => {
       const u = new tus.Upload(Buffer.alloc(1000, "x"), {
         endpoint: `${BASE_URL}/api/uploads`,
-        uploadUrl: `${BASE_URL}/api/uploads/${mine.unfinished[0].id}`,
+        uploadUrl: `${BASE_URL}/api/uploads/${mine[0].id}`,
         retryDelays: [],
         headers: { Origin: BASE_URL, Cookie: builder.cookie },
         onBeforeRequest: (req) => void (req.getMethod() === "PATCH" && offsets.push(req.getHeader("Upload-Offset") ?? "")),
@@ -240,6 +258,29 @@ describe("continuing an upload from another browser", () => {
     expect(row.recordingId).toBeTruthy();
     const [rec] = await db().select({ title: recordings.title }).from(recordings).where(eq(recordings.id, row.recordingId!));
     expect(rec.title).toBe("Head gasket retorque, pass 2");
+  });
+
+  it("never joins two different files that share name, size and owner: the fingerprint tells them apart", async () => {
+    const name = `bench-take-${Date.now()}.mp4`;
+    const at = Date.parse("2026-12-01T07:00:00Z");
+    // Same name, size, owner and even the same time; different bytes.
+    const first = new File([Buffer.alloc(3 * 1024 * 1024, "a")], name, { lastModified: at });
+    const second = new File([Buffer.alloc(3 * 1024 * 1024, "b")], name, { lastModified: at });
+    const [fpFirst, fpSecond] = [await fileFingerprint(first), await fileFingerprint(second)];
+    const { id } = await create(builder, name, first.size, "First take", fingerprintMetadata(fpFirst));
+    await patch(builder, id, 0, "a".repeat(1000));
+    expect(await found(builder, fileQueryOf(second, fpSecond))).toEqual([]);
+    expect((await found(builder, fileQueryOf(first, fpFirst))).map((u) => u.id)).toEqual([id]);
+    // Name and size alone say nothing about the bytes: no join.
+    expect(await found(builder, fileQueryOf(first, fpFirst, "neither"))).toEqual([]);
+
+    // A browser without Web Crypto (plain http on the shop's network) sends the time alone.
+    const older = new File([Buffer.alloc(2000, "c")], `no-crypto-${name}`, { lastModified: at });
+    const newer = new File([Buffer.alloc(2000, "d")], older.name, { lastModified: at + 60_000 });
+    const plain = (f: File): FileFingerprint => ({ lastModified: String(f.lastModified), sample: null });
+    const { id: olderId } = await create(builder, older.name, older.size, "Older take", fingerprintMetadata(plain(older)));
+    expect(await found(builder, fileQueryOf(newer, plain(newer), "lastModified"))).toEqual([]);
+    expect((await found(builder, fileQueryOf(older, plain(older), "lastModified"))).map((u) => u.id)).toEqual([olderId]);
   });
 });
 

@@ -4,6 +4,7 @@ import type { Upload as TusUpload } from "tus-js-client";
 import { StateBadge } from "./StateBadge";
 import { formatBytes } from "~/lib/byte-format";
 import { fileNameProblem, titleFromFileName } from "~/lib/recordings/upload-names";
+import { fileFingerprint, fingerprintMetadata } from "~/lib/recordings/file-fingerprint";
 
 type Status = "waiting" | "uploading" | "paused" | "retrying" | "done" | "error" | "cancelled";
 type RecState = { state: "processing" | "ready" | "rejected" | "failed" | "damaged"; progress: number; stateReason: string | null };
@@ -58,10 +59,11 @@ function serverMessage(err: unknown): string {
   return "The connection to the shop server was lost and retries ran out. Press Resume to continue from where the server has it.";
 }
 
-/** Asks the server for an unfinished upload of this file (same name and size) by this person. */
+/** Asks the server for an unfinished upload of this file (same name, size and fingerprint) by this person. */
 async function findEarlier(file: File): Promise<Earlier | null> {
   try {
-    const res = await fetch(`/api/uploads?${new URLSearchParams({ fileName: file.name, size: String(file.size) })}`);
+    const fp = await fileFingerprint(file);
+    const res = await fetch(`/api/uploads?${new URLSearchParams({ fileName: file.name, size: String(file.size), ...(fp.sample ? { sample: fp.sample } : {}), lastModified: fp.lastModified })}`);
     if (!res.ok) return null;
     const { unfinished } = (await res.json()) as { unfinished: Earlier[] };
     return unfinished[0] ?? null;
@@ -108,8 +110,8 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
         });
       }
       setItems((list) => [...list, ...next]);
-      // The server knows this person's unfinished uploads by file name and size, whichever
-      // browser started them: such a file continues where the server has it, with the title,
+      // The server knows this person's unfinished uploads by file name, size and fingerprint,
+      // whichever browser started them: such a file continues where the server has it, with the title,
       // description and tags given when it began.
       for (const item of next) {
         if (item.status !== "waiting") continue;
@@ -132,6 +134,7 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
       let lastAt = performance.now();
       let lastBytes = item.sent;
       if (!upload) {
+        const fingerprint = fingerprintMetadata(await fileFingerprint(item.file));
         upload = new tus.Upload(item.file, {
           endpoint: "/api/uploads",
           chunkSize: CHUNK,
@@ -139,7 +142,7 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
           // Continuing is decided by the server (findEarlier), not by this browser's storage.
           storeFingerprintForResuming: false,
           ...(item.earlier ? { uploadUrl: `/api/uploads/${item.earlier.id}` } : {}),
-          metadata: { filename: item.file.name, filetype: item.file.type || "application/octet-stream", title: item.title, description: item.description, tags: item.tags },
+          metadata: { filename: item.file.name, filetype: item.file.type || "application/octet-stream", title: item.title, description: item.description, tags: item.tags, ...fingerprint },
           onShouldRetry: (err) => {
             const s = err.originalResponse?.getStatus() ?? 0;
             const retry = s === 0 || s === 409 || s === 423 || s >= 500;

@@ -15,6 +15,7 @@ import { normalizeTags, splitTags } from "../tags";
 import { enqueueProcessing } from "./queue.server";
 import { formatBytes } from "../byte-format";
 import { fileNameProblem, titleFromFileName } from "./upload-names";
+import { sameFile, type FileFingerprint } from "./file-fingerprint";
 import { originalPath, recordingDir, tusDir, tusFilePath } from "./storage.server";
 
 /**
@@ -286,21 +287,34 @@ export async function receivedBytes(uploadId: string): Promise<number> {
 
 const UNFINISHED_SHOWN = 50;
 
+/** The fingerprint an upload was begun with (tus keeps its metadata in the upload's sidecar). */
+async function storedFingerprint(uploadId: string): Promise<Partial<FileFingerprint>> {
+  const meta: Record<string, string | null> = await tusServer()
+    .datastore.getUpload(uploadId)
+    .then((u) => u.metadata ?? {}, () => ({}));
+  return { lastModified: meta.lastmodified ?? undefined, sample: meta.sample ?? undefined };
+}
+
 /**
  * The caller's unfinished uploads, newest first, with the bytes the server holds; given a
- * file's name and size, only the ones of that file (how a browser that has no record of an
- * upload, another profile or machine, finds it to continue). The upload page and the API list
- * the same ones, at most `UNFINISHED_SHOWN` (far more than anyone leaves unfinished).
+ * file's name, size and fingerprint, only the ones of that file (how a browser that has no
+ * record of an upload, another profile or machine, finds it to continue): name and size alone
+ * never join, two files can share them (`sameFile`). The upload page and the API list the
+ * same ones, at most `UNFINISHED_SHOWN` (far more than anyone leaves unfinished).
  */
-export async function unfinishedUploads(userId: string, file?: { fileName: string; size: number }) {
+export async function unfinishedUploads(userId: string, file?: { fileName: string; size: number } & Partial<FileFingerprint>) {
   const where = [eq(uploads.userId, userId), isNull(uploads.recordingId)];
   if (file) where.push(eq(uploads.fileName, file.fileName), eq(uploads.size, file.size));
-  const rows = await db()
+  let rows = await db()
     .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, description: uploads.description, tags: uploads.tags, createdAt: uploads.createdAt })
     .from(uploads)
     .where(and(...where))
     .orderBy(desc(uploads.createdAt))
     .limit(UNFINISHED_SHOWN);
+  if (file) {
+    const same = await Promise.all(rows.map(async (r) => sameFile(await storedFingerprint(r.id), file)));
+    rows = rows.filter((_, i) => same[i]);
+  }
   return Promise.all(rows.map(async (r) => ({ ...r, received: await receivedBytes(r.id), expiresAt: await expiresAt(r) })));
 }
 
