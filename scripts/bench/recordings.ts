@@ -1,19 +1,26 @@
 // Benchmark of the recordings path (not a test): a large tus upload over loopback against the
 // running app, beside the raw write speed of the same disk (dd … conv=fdatasync) measured in
-// the same run; the app server's memory (RSS) while it streams the upload; and the time to
-// first byte of Range requests into the middle of the uploaded file.
+// the same run; the app server's memory (RSS) while it streams the upload; the time to first
+// byte of Range requests into the middle of the uploaded file; and processing, from the end
+// of an upload to "Ready", for a 60 s 1080p clip that is remuxed and one that is transcoded,
+// beside ffmpeg run bare with the same arguments.
 //
-//   npx tsx scripts/bench/recordings.ts --size 1G [--env .data/…/run/env.json] [--chunk 64M] [--ranges 200]
+//   npx tsx scripts/bench/recordings.ts --size 1G [--env .data/…/run/env.json] [--chunk 64M] [--ranges 200] [--processing-runs 2]
 //
-// It needs a running stack (BENCHREEL_URL, DATABASE_URL, UPLOAD_DIR in the environment, or
-// --env pointing at the env.json that `npm test -- --keep` writes). Targets (issue 4): upload
-// ≥ 60 % of the raw write speed; server memory grows by < 150 MB during a 2 GB upload; Range
-// time to first byte p95 ≤ 10 ms.
+// It needs a running stack with its worker (BENCHREEL_URL, DATABASE_URL, UPLOAD_DIR in the
+// environment, or --env pointing at the env.json that `npm test -- --keep` writes). Targets
+// (issue 15): upload ≥ 60 % of the raw write speed; Range time to first byte p95 ≤ 15 ms;
+// upload done → Ready ≤ 1.15 × bare ffmpeg for the transcoded clip, ≤ 3 s for the remuxed
+// one (medians). Kept from issue 4: server memory grows by < 150 MB during a 2 GB upload.
 import { execFileSync } from "node:child_process";
 import { randomBytes, randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
+import os from "node:os";
+import { renditionArgs } from "../../app/lib/recordings/processing.server";
 import { listenerPid, rssBytes } from "./proc";
+
+const FFMPEG = "/usr/bin/ffmpeg";
 
 export type RecordingsBenchOptions = {
   baseUrl: string;
@@ -22,6 +29,8 @@ export type RecordingsBenchOptions = {
   sizeBytes: number;
   chunkBytes?: number;
   ranges?: number;
+  /** Transcode runs of the processing benchmark (remux: one more); 0 leaves processing out. */
+  processingRuns?: number;
   workDir?: string;
   log?: (line: string) => void;
 };
@@ -37,6 +46,7 @@ export type RecordingsBenchResult = {
   baselineTTFB: { n: number; medianMs: number; p95Ms: number; maxMs: number };
   loadAverage: number[];
   targets: { uploadRatio: boolean; memory: boolean | null; rangeP95: boolean };
+  processing: ProcessingBenchResult | null;
 };
 
 const MB = 1e6;
@@ -62,7 +72,7 @@ function rssMB(pid: number): number | null {
 /** A source file: a tiny faststart H.264 clip (so the app accepts it as a video) padded with random bytes. */
 function makeSource(file: string, size: number, log: (s: string) => void) {
   const head = `${file}.head.mp4`;
-  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc=duration=5:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", head]);
+  execFileSync(FFMPEG, ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc=duration=5:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", head]);
   const fd = fs.openSync(file, "w");
   const clip = fs.readFileSync(head);
   fs.writeSync(fd, clip);
@@ -90,7 +100,7 @@ function rawDisk(dir: string, size: number): { seconds: number; MBps: number } {
   return { seconds, MBps: (count * bs) / MB / seconds };
 }
 
-async function tusUpload(opts: RecordingsBenchOptions, file: string): Promise<{ seconds: number; recordingId: string | null }> {
+async function tusUpload(opts: RecordingsBenchOptions, file: string, fileName = "bench-run.mp4"): Promise<{ seconds: number; recordingId: string | null; doneAt: number }> {
   const tus = await import("tus-js-client");
   const size = fs.statSync(file).size;
   let recordingId: string | null = null;
@@ -108,7 +118,7 @@ async function tusUpload(opts: RecordingsBenchOptions, file: string): Promise<{ 
       chunkSize: opts.chunkBytes ?? 64 * 1024 * 1024,
       retryDelays: [0, 1000, 3000],
       headers: { Origin: opts.baseUrl, Cookie: opts.cookie },
-      metadata: { filename: "bench-run.mp4", filetype: "video/mp4", title: `Benchmark upload ${new Date().toISOString()}`, tags: "benchmark" },
+      metadata: { filename: fileName, filetype: fileName.endsWith(".mov") ? "video/quicktime" : "video/mp4", title: `Benchmark upload ${new Date().toISOString()}`, tags: "benchmark" },
       onAfterResponse: (_req, res) => {
         recordingId = res.getHeader("Benchreel-Recording") ?? recordingId;
       },
@@ -117,7 +127,7 @@ async function tusUpload(opts: RecordingsBenchOptions, file: string): Promise<{ 
     });
     u.start();
   });
-  return { seconds: (performance.now() - t0) / 1000, recordingId };
+  return { seconds: (performance.now() - t0) / 1000, recordingId, doneAt: Date.now() };
 }
 
 async function ttfb(opts: RecordingsBenchOptions, n: number, request: () => { url: string; headers: Record<string, string>; status: number }) {
@@ -142,6 +152,100 @@ function rangeTTFB(opts: RecordingsBenchOptions, recordingId: string, size: numb
     const start = Math.floor(size * (0.25 + 0.5 * Math.random()));
     return { url, headers: { Range: `bytes=${start}-${start + 65535}` }, status: 206 };
   });
+}
+
+/**
+ * The processing clips, 60 s of 1080p at 25 fps from ffmpeg's test source with a tone: H.264
+ * (8-bit 4:2:0) and AAC in an MP4 whose index comes last, which processing only remuxes; and
+ * MPEG-4 part 2 with PCM sound in a QuickTime file, which it transcodes. Made once and kept
+ * in the temporary folder (they take a minute or two to encode here).
+ */
+function processingClips(log: (s: string) => void): { remux: string; transcode: string } {
+  const dir = path.join(os.tmpdir(), "benchreel-bench-clips-v1");
+  fs.mkdirSync(dir, { recursive: true });
+  const src = ["-f", "lavfi", "-i", "testsrc2=duration=60:size=1920x1080:rate=25", "-f", "lavfi", "-i", "sine=frequency=440:duration=60"];
+  const clips = {
+    remux: { file: path.join(dir, "h264-1080p-60s.mp4"), codecs: ["-pix_fmt", "yuv420p", "-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-c:a", "aac"] },
+    transcode: { file: path.join(dir, "mpeg4-1080p-60s.mov"), codecs: ["-c:v", "mpeg4", "-q:v", "4", "-c:a", "pcm_s16le"] },
+  };
+  for (const c of Object.values(clips)) {
+    if (fs.existsSync(c.file)) continue;
+    log(`making ${path.basename(c.file)}…`);
+    execFileSync(FFMPEG, ["-hide_banner", "-loglevel", "error", "-y", ...src, ...c.codecs, `${c.file}.part${path.extname(c.file)}`]);
+    fs.renameSync(`${c.file}.part${path.extname(c.file)}`, c.file);
+  }
+  return { remux: clips.remux.file, transcode: clips.transcode.file };
+}
+
+/** ffmpeg alone with the rendition's own arguments: the floor processing is measured against. */
+function bareRendition(plan: "remux" | "transcode", src: string, workDir: string): number {
+  const out = path.join(workDir, `bare-${plan}.mp4`);
+  const t0 = performance.now();
+  execFileSync(FFMPEG, ["-hide_banner", "-nostdin", "-y", "-v", "error", ...renditionArgs(plan, src, out)]);
+  const seconds = (performance.now() - t0) / 1000;
+  fs.rmSync(out, { force: true });
+  return seconds;
+}
+
+/** Upload a clip through tus; seconds from the upload's completion to the recording's readyAt. */
+async function uploadToReady(opts: RecordingsBenchOptions, file: string): Promise<number> {
+  const { db } = await import("../../app/lib/db.server");
+  const { recordings } = await import("../../app/db/schema");
+  const { eq } = await import("drizzle-orm");
+  const up = await tusUpload(opts, file, path.basename(file));
+  if (!up.recordingId) throw new Error("the upload finished without a recording id");
+  const deadline = Date.now() + 900_000;
+  for (;;) {
+    const [r] = await db().select({ state: recordings.state, reason: recordings.stateReason, readyAt: recordings.readyAt }).from(recordings).where(eq(recordings.id, up.recordingId));
+    if (r?.state === "ready" && r.readyAt) return (r.readyAt.getTime() - up.doneAt) / 1000;
+    if (r && r.state !== "processing") throw new Error(`${path.basename(file)}: recording ${r.state}: ${r.reason}`);
+    if (Date.now() > deadline) throw new Error(`${path.basename(file)}: not ready in 15 minutes`);
+    await new Promise((res) => setTimeout(res, 50));
+  }
+}
+
+const median = (xs: number[]) => quantile(xs, 0.5);
+
+export type ProcessingBenchResult = {
+  remux: { readySeconds: number[]; medianS: number; bareFfmpegS: number[] };
+  transcode: { readySeconds: number[]; medianS: number; bareFfmpegS: number[]; bareMedianS: number; ratio: number };
+  loadAverage: number[];
+  targets: { remux: boolean; transcodeRatio: boolean };
+};
+
+/**
+ * Processing, measured as a person feels it: from the end of the upload to "Ready", beside
+ * ffmpeg run bare with the same arguments in the same run. The transcode runs alternate
+ * (bare, app, app, bare…) so that a change in the machine's load falls on both sides.
+ */
+export async function benchProcessing(opts: RecordingsBenchOptions & { runs?: number }): Promise<ProcessingBenchResult> {
+  const log = opts.log ?? console.log;
+  const runs = opts.runs ?? 2;
+  const workDir = fs.mkdtempSync(path.join(os.tmpdir(), "benchreel-bench-proc-"));
+  const clips = processingClips(log);
+  const remux = { readySeconds: [] as number[], bareFfmpegS: [] as number[] };
+  for (let i = 0; i < runs + 1; i++) {
+    remux.bareFfmpegS.push(bareRendition("remux", clips.remux, workDir));
+    remux.readySeconds.push(await uploadToReady(opts, clips.remux));
+  }
+  log(`remux: upload done → Ready ${remux.readySeconds.map((x) => x.toFixed(2)).join(", ")} s (bare ffmpeg remux ${remux.bareFfmpegS.map((x) => x.toFixed(2)).join(", ")} s)`);
+  const transcode = { readySeconds: [] as number[], bareFfmpegS: [] as number[] };
+  for (let i = 0; i < runs; i++) {
+    const bareFirst = i % 2 === 0;
+    if (bareFirst) transcode.bareFfmpegS.push(bareRendition("transcode", clips.transcode, workDir));
+    transcode.readySeconds.push(await uploadToReady(opts, clips.transcode));
+    if (!bareFirst) transcode.bareFfmpegS.push(bareRendition("transcode", clips.transcode, workDir));
+  }
+  fs.rmSync(workDir, { recursive: true, force: true });
+  const medianS = median(transcode.readySeconds);
+  const bareMedianS = median(transcode.bareFfmpegS);
+  log(`transcode: upload done → Ready ${transcode.readySeconds.map((x) => x.toFixed(1)).join(", ")} s; bare ffmpeg ${transcode.bareFfmpegS.map((x) => x.toFixed(1)).join(", ")} s; ratio of medians ${(medianS / bareMedianS).toFixed(2)}`);
+  return {
+    remux: { ...remux, medianS: median(remux.readySeconds) },
+    transcode: { ...transcode, medianS, bareMedianS, ratio: medianS / bareMedianS },
+    loadAverage: os.loadavg().map((x) => Number(x.toFixed(2))),
+    targets: { remux: median(remux.readySeconds) <= 3, transcodeRatio: medianS / bareMedianS <= 1.15 },
+  };
 }
 
 export async function benchRecordings(opts: RecordingsBenchOptions): Promise<RecordingsBenchResult> {
@@ -183,6 +287,8 @@ export async function benchRecordings(opts: RecordingsBenchOptions): Promise<Rec
 
   const growth = rssBefore != null && peak != null ? peak - rssBefore : null;
   const ratio = uploadMBps / disk.MBps;
+  const loadAverage = os.loadavg().map((x) => Number(x.toFixed(2)));
+  const processing = opts.processingRuns === 0 ? null : await benchProcessing({ ...opts, runs: opts.processingRuns });
   return {
     sizeBytes: size,
     upload: { seconds: up.seconds, MBps: uploadMBps },
@@ -191,8 +297,9 @@ export async function benchRecordings(opts: RecordingsBenchOptions): Promise<Rec
     serverMemory: { pid, baselineMB: rssBefore, peakMB: peak, growthMB: growth },
     rangeTTFB: ranges,
     baselineTTFB: baseline,
-    loadAverage: (await import("node:os")).loadavg().map((x) => Number(x.toFixed(2))),
-    targets: { uploadRatio: ratio >= 0.6, memory: growth == null ? null : growth < 150, rangeP95: ranges.p95Ms <= 10 },
+    loadAverage,
+    targets: { uploadRatio: ratio >= 0.6, memory: growth == null ? null : growth < 150, rangeP95: ranges.p95Ms <= 15 },
+    processing,
   };
 }
 
@@ -230,6 +337,7 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     sizeBytes,
     chunkBytes: arg("chunk") ? parseSize(arg("chunk")!) : undefined,
     ranges: arg("ranges") ? Number(arg("ranges")) : undefined,
+    processingRuns: arg("processing-runs") ? Number(arg("processing-runs")) : undefined,
   });
   console.log(JSON.stringify(result, null, 2));
   const { pool } = await import("../../app/lib/db.server");

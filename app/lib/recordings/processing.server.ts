@@ -9,7 +9,7 @@ import { recordings } from "~/db/schema";
 import { db } from "../db.server";
 import { formatTime } from "../time-format";
 import { env } from "../env.server";
-import { boss, enqueueProcessing, PROCESS_QUEUE, stopBoss } from "./queue.server";
+import { boss, enqueueProcessing, listenForJobs, PROCESS_QUEUE, stopBoss } from "./queue.server";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
 
 export type Probe = {
@@ -145,6 +145,15 @@ export function planFor(p: Probe, boxes: string[]): Plan {
   return moov >= 0 && (mdat < 0 || moov < mdat) ? "as-is" : "remux";
 }
 
+/** ffmpeg's arguments for the browser-safe rendition (also run bare by scripts/bench/recordings.ts). */
+export function renditionArgs(plan: Exclude<Plan, "as-is">, src: string, out: string): string[] {
+  const codecs =
+    plan === "remux"
+      ? ["-c", "copy"]
+      : ["-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-pix_fmt", "yuv420p", "-vf", "scale='min(1920,iw)':-2", "-threads", "2", "-c:a", "aac", "-b:a", "128k"];
+  return ["-i", src, "-map", "0:v:0", "-map", "0:a:0?", ...codecs, "-movflags", "+faststart", "-f", "mp4", out];
+}
+
 async function setProgress(id: string, progress: number) {
   await db().update(recordings).set({ progress, updatedAt: new Date() }).where(eq(recordings.id, id));
 }
@@ -178,11 +187,23 @@ export type DecodeCheck = { ok: boolean; decodedS: number; error: string | null 
  * error check (-xerror stops at the first decoding error). A file whose index promises more
  * than its data holds (the first kilobytes of a faststart MP4) probes fine but fails here.
  */
-export async function decodeCheck(file: string, onSeconds: (s: number) => void = () => {}): Promise<DecodeCheck> {
+export function decodeCheck(file: string, onSeconds: (s: number) => void = () => {}): Promise<DecodeCheck> {
+  return readThrough(file, [], onSeconds);
+}
+
+/**
+ * Reads every packet of the first video stream without decoding it (a copy to nowhere): a
+ * file cut short, or whose index promises more than its data holds, fails or comes out short.
+ */
+export function packetCheck(file: string): Promise<DecodeCheck> {
+  return readThrough(file, ["-c", "copy"], () => {});
+}
+
+async function readThrough(file: string, codec: string[], onSeconds: (s: number) => void): Promise<DecodeCheck> {
   let decodedS = 0;
   const r = await run(
     env().FFMPEG_PATH,
-    ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", "-f", "null", "-"],
+    ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", ...codec, "-f", "null", "-"],
     progressParser((sec) => {
       decodedS = sec;
       onSeconds(sec);
@@ -264,10 +285,12 @@ async function reject(id: string, reason: string) {
 }
 
 /**
- * The processing job: probe, decode check, poster, rendition when needed → ready (or
- * rejected, or damaged). Idempotent. Each attempt first kills leftovers of an earlier one and
- * writes only to temporary files of its own; a rendition replaces nothing until it decodes
- * in full and lasts as long as the source.
+ * The processing job: one probe, then the source checked once (every packet read for a file
+ * that is already H.264, every picture decoded by the transcode itself for one that is not)
+ * with the poster and a remux running beside it → ready (or rejected, or damaged); a file that
+ * was not transcoded has its pictures decoded after "Ready". Idempotent. Each attempt first kills leftovers of an earlier one and writes only
+ * to temporary files of its own; a rendition replaces nothing until every packet of it reads
+ * back and it lasts as long as the source (docs/decisions/003).
  */
 export async function processRecording(id: string): Promise<"ready" | "rejected" | "damaged" | "skipped"> {
   const [rec] = await db().select().from(recordings).where(eq(recordings.id, id));
@@ -309,52 +332,105 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     })
     .where(eq(recordings.id, id));
 
-  // The whole stream must decode: the container's index can promise more than the data holds.
+  // One ffprobe said what the file is; the plan follows from it and the box order.
   const expectedS = p.videoDurationS ?? p.durationS;
-  const source = await decodeCheck(src, throttled(id, (sec) => 0.08 + 0.1 * Math.min(1, sec / expectedS)));
-  const damage = damageReason(source, expectedS);
-  if (damage) {
-    await db().update(recordings).set({ state: "damaged", stateReason: damage, progress: 1, updatedAt: new Date() }).where(eq(recordings.id, id));
+  const plan = planFor(p, await topLevelBoxes(src).catch(() => []));
+  // The poster (one frame) is made while the long work runs and shown as soon as it is there.
+  const poster = makePoster(id, src, p.durationS, attemptTemp(posterPath(id), attempt, ".jpg"));
+  poster.catch(() => {}); // awaited below; never an unhandled rejection meanwhile
+  const tmp = attemptTemp(renditionPath(id), attempt, ".mp4");
+  let made = plan === "transcode" ? await transcodeChecked(id, src, expectedS, tmp) : await decodeAndCopy(src, expectedS, plan, tmp);
+  if (!("damage" in made) && plan !== "as-is") {
+    // Verified before it replaces anything: every packet of the new file reads back and it
+    // lasts as long as the source decoded. A transcode that comes out short may be the
+    // source's fault (its audio can outlast a cut-off picture): then the source is checked.
+    const check = await packetCheck(tmp);
+    if (!check.ok || Math.abs(check.decodedS - made.decodedS) > durationTolerance(made.decodedS)) {
+      await fs.rm(tmp, { force: true });
+      const damage = plan === "transcode" ? damageReason(await decodeCheck(src), expectedS) : null;
+      if (!damage) throw new Error(`the browser copy did not verify (${check.ok ? `it lasts ${formatTime(check.decodedS)}, the source ${formatTime(made.decodedS)}` : `it does not read back: ${check.error}`})`);
+      made = { damage };
+    }
+  }
+  if ("damage" in made) {
+    await Promise.allSettled([poster]);
+    await removeTemps(id);
+    await db().update(recordings).set({ state: "damaged", stateReason: made.damage, progress: 1, updatedAt: new Date() }).where(eq(recordings.id, id));
     return "damaged";
   }
-
-  // Poster: a frame a little way in (or the first), at most 640 px wide.
-  const posterTmp = attemptTemp(posterPath(id), attempt, ".jpg");
-  const at = Math.min(2, p.durationS / 10);
-  await ffmpeg(["-ss", at.toFixed(2), "-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp]).catch(() =>
-    ffmpeg(["-i", src, "-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", posterTmp]),
-  );
-  await fs.rename(posterTmp, posterPath(id));
-  await db().update(recordings).set({ hasPoster: true, progress: 0.2, updatedAt: new Date() }).where(eq(recordings.id, id));
-
-  const plan = planFor(p, await topLevelBoxes(src).catch(() => []));
-  if (plan !== "as-is") {
-    const tmp = attemptTemp(renditionPath(id), attempt, ".mp4");
-    const onSeconds = throttled(id, (sec) => 0.2 + 0.7 * Math.min(1, sec / p.durationS!));
-    const common = ["-movflags", "+faststart", "-f", "mp4", tmp];
-    if (plan === "remux") {
-      await ffmpeg(["-i", src, "-map", "0:v:0", "-map", "0:a:0?", "-c", "copy", ...common], onSeconds);
-    } else {
-      await ffmpeg(
-        ["-i", src, "-map", "0:v:0", "-map", "0:a:0?", "-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-pix_fmt", "yuv420p",
-          "-vf", "scale='min(1920,iw)':-2", "-threads", "2", "-c:a", "aac", "-b:a", "128k", ...common],
-        onSeconds,
-      );
-    }
-    // Verified before it replaces anything: it decodes in full and lasts as long as the source.
-    const made = await decodeCheck(tmp, throttled(id, (sec) => 0.9 + 0.08 * Math.min(1, sec / source.decodedS)));
-    const short = Math.abs(made.decodedS - source.decodedS) > durationTolerance(source.decodedS);
-    if (!made.ok || short) {
-      await fs.rm(tmp, { force: true });
-      throw new Error(`the browser copy did not verify (${made.ok ? `it lasts ${formatTime(made.decodedS)}, the source ${formatTime(source.decodedS)}` : `it does not decode: ${made.error}`})`);
-    }
-    await fs.rename(tmp, renditionPath(id));
-  }
+  await poster;
+  if (plan !== "as-is") await fs.rename(tmp, renditionPath(id));
   await db()
     .update(recordings)
     .set({ state: "ready", stateReason: null, progress: 1, hasRendition: plan !== "as-is", readyAt: new Date(), updatedAt: new Date() })
     .where(eq(recordings.id, id));
+  if (plan !== "transcode" && !(await laterDecodeCheck(id, src, expectedS))) return "damaged";
   return "ready";
+}
+
+/** Poster: a frame a little way in (or the first, when seeking fails), at most 640 px wide. */
+async function makePoster(id: string, src: string, durationS: number, tmp: string): Promise<void> {
+  const frame = ["-frames:v", "1", "-vf", "scale='min(640,iw)':-2", "-q:v", "4", tmp];
+  const at = Math.min(2, durationS / 10);
+  await ffmpeg(["-ss", at.toFixed(2), "-i", src, ...frame]).catch(() => ffmpeg(["-i", src, ...frame]));
+  await fs.rename(tmp, posterPath(id));
+  await db().update(recordings).set({ hasPoster: true, updatedAt: new Date() }).where(eq(recordings.id, id));
+}
+
+type Made = { decodedS: number } | { damage: string };
+
+/**
+ * A file that is already H.264 is checked before "Ready" by reading every packet of its video
+ * (a file cut short, or whose index promises more than its data holds, fails or comes out
+ * short) while the remux, which copies packets, runs beside it. Its pictures are decoded after
+ * "Ready" (`laterDecodeCheck`): that costs as long as playing the file through at full speed.
+ */
+async function decodeAndCopy(src: string, expectedS: number, plan: "as-is" | "remux", out: string): Promise<Made> {
+  const copy = plan === "remux" ? ffmpeg(renditionArgs("remux", src, out)) : Promise.resolve();
+  copy.catch(() => {}); // awaited below, after the check
+  const source = await packetCheck(src);
+  const damage = damageReason(source, expectedS);
+  if (damage) {
+    await Promise.allSettled([copy]);
+    return { damage };
+  }
+  await copy;
+  return { decodedS: source.decodedS };
+}
+
+/**
+ * Every picture of a file that was not transcoded, decoded after it became ready: a file whose
+ * packets are all there but whose pictures do not decode is then marked damaged with the reason.
+ */
+async function laterDecodeCheck(id: string, src: string, expectedS: number): Promise<boolean> {
+  const damage = damageReason(await decodeCheck(src), expectedS);
+  if (damage) await db().update(recordings).set({ state: "damaged", stateReason: damage, updatedAt: new Date() }).where(eq(recordings.id, id));
+  return !damage;
+}
+
+/**
+ * A file that needs transcoding is decoded once, by the transcode itself, which stops at the
+ * first decoding error (-xerror) like the damage check. Only when that run fails or comes out
+ * short is the source checked on its own: damaged, or not (a source whose picture decodes
+ * cleanly is transcoded once more without the error stop, as it always was).
+ */
+async function transcodeChecked(id: string, src: string, expectedS: number, out: string): Promise<Made> {
+  let reached = 0;
+  const progress = throttled(id, (sec) => 0.08 + 0.9 * Math.min(1, sec / expectedS));
+  const failed = await ffmpeg(["-xerror", ...renditionArgs("transcode", src, out)], (sec) => {
+    reached = sec;
+    progress(sec);
+  }).then(
+    () => false,
+    () => true,
+  );
+  if (!failed && reached >= expectedS - durationTolerance(expectedS)) return { decodedS: expectedS };
+  const source = await decodeCheck(src);
+  const damage = damageReason(source, expectedS);
+  if (damage) return { damage };
+  if (!failed) return { decodedS: source.decodedS };
+  await ffmpeg(renditionArgs("transcode", src, out), progress);
+  return { decodedS: source.decodedS };
 }
 
 /** Progress as seconds of media done, mapped to 0..1 and written at most once a second. */
@@ -371,7 +447,7 @@ function throttled(id: string, toProgress: (sec: number) => number): (sec: numbe
 /** The worker side: work the queue; a throw is retried by pg-boss, the last failure is shown. */
 export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> }> {
   const b = await boss({ worker: true });
-  await b.work<{ recordingId: string }>(
+  const workerId = await b.work<{ recordingId: string }>(
     PROCESS_QUEUE,
     { batchSize: 1, pollingIntervalSeconds: 1, includeMetadata: true },
     async ([job]: PgBoss.JobWithMetadata<{ recordingId: string }>[]) => {
@@ -404,8 +480,10 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
     where r.state = 'processing'
       and not exists (select 1 from pgboss.job j where j.name = ${PROCESS_QUEUE} and j.data->>'recordingId' = r.id::text and j.state in ('created','retry'))`);
   for (const r of rows) await enqueueProcessing(r.id);
+  const listener = listenForJobs(() => b.notifyWorker(workerId));
   return {
     async stop() {
+      await listener.stop();
       await b.offWork(PROCESS_QUEUE);
       await stopBoss();
     },

@@ -1,3 +1,4 @@
+import pg from "pg";
 import PgBoss from "pg-boss";
 import { env } from "../env.server";
 
@@ -35,9 +36,52 @@ export function boss(opts: { worker?: boolean } = {}): Promise<PgBoss> {
   return g.__benchreelBoss;
 }
 
+/** Wakes the worker when a job is sent (it polls once a second as well, in case it missed one). */
+export const WAKE_CHANNEL = "benchreel_recording_jobs";
+
 export async function enqueueProcessing(recordingId: string): Promise<void> {
   const b = await boss();
   await b.send(PROCESS_QUEUE, { recordingId }, JOB_OPTIONS);
+  await b.getDb().executeSql("select pg_notify($1, '')", [WAKE_CHANNEL]);
+}
+
+/**
+ * The worker's side: a LISTEN connection that calls `wake` on every job sent, so a finished
+ * upload is picked up at once instead of at the next poll. A dropped connection is opened
+ * again after a pause; meanwhile the poll still finds the jobs.
+ */
+export function listenForJobs(wake: () => void): { stop: () => Promise<void> } {
+  let client: pg.Client | null = null;
+  let stopped = false;
+  const open = async () => {
+    if (stopped) return;
+    const c = new pg.Client({ connectionString: env().DATABASE_URL, application_name: "benchreel-recording-jobs", keepAlive: true });
+    const drop = () => {
+      if (client !== c) return;
+      client = null;
+      void c.end().catch(() => {});
+      if (!stopped) setTimeout(open, 2000).unref();
+    };
+    c.on("error", drop);
+    c.on("end", drop);
+    c.on("notification", wake);
+    client = c;
+    try {
+      await c.connect();
+      await c.query(`LISTEN ${WAKE_CHANNEL}`);
+    } catch {
+      drop();
+    }
+  };
+  void open();
+  return {
+    async stop() {
+      stopped = true;
+      const c = client;
+      client = null;
+      await c?.end().catch(() => {});
+    },
+  };
 }
 
 export async function stopBoss(): Promise<void> {
