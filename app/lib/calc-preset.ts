@@ -4,7 +4,14 @@
  * the input JSON of that calculator's function in app/lib/calc.
  */
 import { z } from "zod";
-import { clearanceInputSchema, distortionInputSchema, preloadInputSchema, type ClearanceInput, type DistortionInput, type PreloadInput } from "~/lib/calc";
+import {
+  clearanceInputSchema,
+  distortionInputSchema,
+  preloadInputSchema,
+  type ClearanceInput,
+  type DistortionInput,
+  type PreloadInput,
+} from "~/lib/calc";
 import type { CalcKind } from "~/lib/calc-kinds";
 
 /** The preset: which calculator, and that calculator's input. */

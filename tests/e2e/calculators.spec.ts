@@ -14,6 +14,7 @@ async function signIn(page: Page, email: string, path: string) {
   await expect(page.getByRole("button", { name: "Calculate" })).toHaveCount(0);
 }
 
+// biome-ignore lint/performance/useDomNodeTextContent: Playwright's Locator.innerText(), the text as rendered, not the DOM property
 const num = async (page: Page, testId: string) => Number((await page.getByTestId(testId).innerText()).replace(/,/g, ""));
 
 test("Preload computes as you type, switches units consistently, marks past 90 % of yield", async ({ page }) => {
@@ -133,8 +134,26 @@ test("Preload: bench points are saved as readings on a recording, paired for its
   await expect(page).toHaveURL(/\/recordings\/[0-9a-f-]+$/);
   await expect(page.getByText(`${label} 3`).first()).toBeVisible();
   // The stud is in the readings' position field (issue 14 §2).
-  await expect(page.getByTestId("reading-row").filter({ hasText: `${label} 3` }).first().getByTestId("reading-where")).toContainText("stud 7");
+  await expect(
+    page
+      .getByTestId("reading-row")
+      .filter({ hasText: `${label} 3` })
+      .first()
+      .getByTestId("reading-where"),
+  ).toContainText("stud 7");
   await expect(page.getByTestId("nut-factor-chart")).toBeVisible();
+  // The readings chart's points play from their moment by keyboard too (the demo's first torque is at 0:10.5).
+  const point = page.getByRole("button", { name: /^Play from 0:10\.5: / });
+  await point.focus();
+  await page.keyboard.press("Enter");
+  await expect
+    .poll(() =>
+      page
+        .locator("video")
+        .first()
+        .evaluate((v: HTMLVideoElement) => v.currentTime),
+    )
+    .toBeCloseTo(10.5, 0);
 });
 
 test("Preload: an apprentice is not offered to save readings", async ({ page }) => {
@@ -159,5 +178,6 @@ test("on a tablet the main figures stay in view at the bottom while one types", 
   await page.setViewportSize({ width: 768, height: 1000 });
   await page.goto("/calculators/distortion");
   await expect(page.getByTestId("result-peek")).toContainText("Worst out-of-round");
+  // biome-ignore lint/performance/useDomNodeTextContent: Playwright's Locator.innerText(), the text as rendered, not the DOM property
   await expect(page.getByTestId("result-peek")).toContainText(await page.getByTestId("result-oor").first().innerText());
 });

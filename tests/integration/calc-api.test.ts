@@ -39,7 +39,7 @@ describe("POST /api/calc/preload", () => {
     expect(body.thread.stressArea_mm2).toBeCloseTo(As, 6);
     expect(body.stress_MPa).toBeCloseTo(F / As, 6);
     // ISO 898-1 class 12.9: minimum yield 1100 MPa.
-    expect(body.percentOfYield).toBeCloseTo(((F / As) / 1100) * 100, 6);
+    expect(body.percentOfYield).toBeCloseTo((F / As / 1100) * 100, 6);
     // δ = F·L/(As·E) with L = 100 mm, E = 205 000 MPa.
     expect(body.elongation_mm).toBeCloseTo((F * 100) / (As * 205000), 9);
     expect(Array.isArray(body.warnings)).toBe(true);
@@ -86,14 +86,24 @@ describe("POST /api/calc/preload", () => {
   // looked up as a plain object used to find them, and the API answered 500.
   it("422, not 500, for a property class named after Object.prototype's members", async () => {
     for (const propertyClass of ["constructor", "__proto__", "toString"]) {
-      const res = await post("preload", { thread: "M12x1.5", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 }, material: { propertyClass } });
+      const res = await post("preload", {
+        thread: "M12x1.5",
+        torque: { value: 110, unit: "N.m" },
+        method: { kind: "nut-factor", k: 0.15 },
+        material: { propertyClass },
+      });
       expect(res.status, propertyClass).toBe(422);
       expect((await res.json()).issues.map((i: { path: string }) => i.path)).toEqual(["material.propertyClass"]);
     }
   });
 
   it("400 for malformed JSON", async () => {
-    const res = await http("/api/calc/preload", { method: "POST", cookie: user.cookie, body: '{"thread": "M12x1.5",', headers: { "content-type": "application/json" } });
+    const res = await http("/api/calc/preload", {
+      method: "POST",
+      cookie: user.cookie,
+      body: '{"thread": "M12x1.5",',
+      headers: { "content-type": "application/json" },
+    });
     expect(res.status).toBe(400);
     expect((await res.json()).error).toMatch(/JSON/);
   });
@@ -107,7 +117,12 @@ describe("POST /api/calc/preload", () => {
 
   it("413 over 256 kB, by Content-Length and when streamed without one", async () => {
     const big = JSON.stringify({ thread: "M12x1.5", pad: "x".repeat(300 * 1024) });
-    const res = await http("/api/calc/preload", { method: "POST", cookie: user.cookie, body: big, headers: { "content-type": "application/json" } });
+    const res = await http("/api/calc/preload", {
+      method: "POST",
+      cookie: user.cookie,
+      body: big,
+      headers: { "content-type": "application/json" },
+    });
     expect(res.status).toBe(413);
     await res.body?.cancel();
 
@@ -134,7 +149,12 @@ describe("POST /api/calc/preload", () => {
 
     // Just under the limit is read (and here rejected only as invalid input).
     const under = JSON.stringify({ pad: "x".repeat(200 * 1024) });
-    const res3 = await http("/api/calc/preload", { method: "POST", cookie: user.cookie, body: under, headers: { "content-type": "application/json" } });
+    const res3 = await http("/api/calc/preload", {
+      method: "POST",
+      cookie: user.cookie,
+      body: under,
+      headers: { "content-type": "application/json" },
+    });
     expect(res3.status).toBe(422);
     await res3.body?.cancel();
   });
@@ -143,9 +163,13 @@ describe("POST /api/calc/preload", () => {
 describe("POST /api/calc/distortion", () => {
   // A two-point gauge on an oval (order 2) bore: D(θ) = 88 + 2·A·cos(2θ), A = 0.005 mm.
   const A = 0.005;
-  const D = (deg: number) => 88 + 2 * A * Math.cos((2 * deg * Math.PI) / 180);
+  const diameterAt = (deg: number) => 88 + 2 * A * Math.cos((2 * deg * Math.PI) / 180);
   const level = (depth: number, offset: number) =>
-    [0, 45, 90, 135].map((a) => ({ depth: { value: depth, unit: "mm" }, angleDeg: a, diameter: { value: D(a) + offset, unit: "mm" } }));
+    [0, 45, 90, 135].map((a) => ({
+      depth: { value: depth, unit: "mm" },
+      angleDeg: a,
+      diameter: { value: diameterAt(a) + offset, unit: "mm" },
+    }));
 
   it("levels, out-of-round, order 2 and taper", async () => {
     const res = await post("distortion", { readings: [...level(10, 0), ...level(60, 0.004)], reference: { value: 88, unit: "mm" } });
@@ -175,7 +199,9 @@ describe("POST /api/calc/distortion", () => {
   });
 
   it("422 paths into the readings", async () => {
-    const res = await post("distortion", { readings: [{ depth: { value: 10, unit: "mm" }, angleDeg: 0, diameter: { value: -88, unit: "mm" } }] });
+    const res = await post("distortion", {
+      readings: [{ depth: { value: 10, unit: "mm" }, angleDeg: 0, diameter: { value: -88, unit: "mm" } }],
+    });
     expect(res.status).toBe(422);
     const body = await res.json();
     expect(body.issues.map((i: { path: string }) => i.path)).toContain("readings.0.diameter.value");
@@ -185,8 +211,16 @@ describe("POST /api/calc/distortion", () => {
 describe("POST /api/calc/clearance", () => {
   it("piston-to-wall, cold and hot (ΔD = D·α·ΔT), within its spec", async () => {
     // 88.0 mm bore, 87.93 mm piston, from 20 °C, with the coefficients typed
-    const thermal = { boreTemperature: { value: 100, unit: "degC" }, pistonTemperature: { value: 200, unit: "degC" }, boreMaterial: { alphaPerK: 11e-6 }, pistonMaterial: { alphaPerK: 22e-6 } };
-    const res = await post("clearance", { ...hotPistonToWall(thermal), spec: { min: { value: 0.06, unit: "mm" }, max: { value: 0.08, unit: "mm" } } });
+    const thermal = {
+      boreTemperature: { value: 100, unit: "degC" },
+      pistonTemperature: { value: 200, unit: "degC" },
+      boreMaterial: { alphaPerK: 11e-6 },
+      pistonMaterial: { alphaPerK: 22e-6 },
+    };
+    const res = await post("clearance", {
+      ...hotPistonToWall(thermal),
+      spec: { min: { value: 0.06, unit: "mm" }, max: { value: 0.08, unit: "mm" } },
+    });
     expect(res.status).toBe(200);
     const body = await res.json();
     expect(body.clearance_mm).toBeCloseTo(0.07, 9);
@@ -285,7 +319,14 @@ describe("calculator pages without JavaScript", () => {
     const res = await http("/calculators/preload", {
       cookie: user.cookie,
       headers: { accept: "text/html" },
-      form: { thread: "M12x1.5", direction: "torque-to-preload", "torque.value": "eleven", "torque.unit": "N.m", "method.kind": "nut-factor", nutCondition: "oiled" },
+      form: {
+        thread: "M12x1.5",
+        direction: "torque-to-preload",
+        "torque.value": "eleven",
+        "torque.unit": "N.m",
+        "method.kind": "nut-factor",
+        nutCondition: "oiled",
+      },
     });
     expect(res.status).toBe(400);
     const page = await html(res);
@@ -297,7 +338,14 @@ describe("calculator pages without JavaScript", () => {
     const res = await http("/calculators/clearance", {
       cookie: user.cookie,
       headers: { accept: "text/html" },
-      form: { kind: "piston-to-wall", "bore.value": "88.000", "bore.unit": "mm", "piston.value": "87.930", "piston.unit": "mm", "out.small": "thou" },
+      form: {
+        kind: "piston-to-wall",
+        "bore.value": "88.000",
+        "bore.unit": "mm",
+        "piston.value": "87.930",
+        "piston.unit": "mm",
+        "out.small": "thou",
+      },
     });
     expect(res.status).toBe(200);
     const page = await html(res);
@@ -305,7 +353,7 @@ describe("calculator pages without JavaScript", () => {
     expect(page).toMatch(new RegExp(`data-testid="result-clearance"[^>]*>${thou.replace(".", "\\.")}<`));
   });
 
-  it("Clearances: a material named \"constructor\" is a field error (400), not a 500", async () => {
+  it('Clearances: a material named "constructor" is a field error (400), not a 500', async () => {
     const res = await http("/calculators/clearance", {
       cookie: user.cookie,
       headers: { accept: "text/html" },
@@ -332,7 +380,15 @@ describe("calculator pages without JavaScript", () => {
   });
 
   it("Bore distortion: the grid posts and the out-of-round comes back", async () => {
-    const form: Record<string, string> = { mode: "diametral", depths: "10", "depth.unit": "mm", angles: "0, 45, 90, 135", "reading.unit": "mm", "out.small": "um", "out.length": "mm" };
+    const form: Record<string, string> = {
+      mode: "diametral",
+      depths: "10",
+      "depth.unit": "mm",
+      angles: "0, 45, 90, 135",
+      "reading.unit": "mm",
+      "out.small": "um",
+      "out.length": "mm",
+    };
     ["88.010", "88.000", "87.990", "88.000"].forEach((v, j) => (form[`m.0.${j}`] = v));
     const res = await http("/calculators/distortion", { cookie: user.cookie, headers: { accept: "text/html" }, form });
     expect(res.status).toBe(200);

@@ -13,7 +13,7 @@ function depthText(depth_mm: number, d: DepthDisplay): string {
 }
 
 function pathFor(points: [number, number][]): string {
-  return points.map(([x, y], i) => `${i ? "L" : "M"}${x.toFixed(2)} ${y.toFixed(2)}`).join(" ") + " Z";
+  return `${points.map(([x, y], i) => `${i ? "L" : "M"}${x.toFixed(2)} ${y.toFixed(2)}`).join(" ")} Z`;
 }
 
 export function BorePolar({
@@ -61,7 +61,12 @@ export function BorePolar({
   const tick = maxTick(level, compared);
   return (
     <figure className="rounded-md border border-rule bg-card p-2" data-testid="bore-polar">
-      <svg viewBox={`0 0 ${S} ${S + 26}`} className="h-auto w-full" role="img" aria-label={`Shape of the bore at ${depthText(level.depth_mm, depth)} deep, deviations × ${factor}`}>
+      <svg
+        viewBox={`0 0 ${S} ${S + 26}`}
+        className="h-auto w-full"
+        role="img"
+        aria-label={`Shape of the bore at ${depthText(level.depth_mm, depth)} deep, deviations × ${factor}`}
+      >
         <circle cx={c} cy={c} r={R} className="fill-none stroke-graphite-soft" strokeWidth={0.8} strokeDasharray="2 3" />
         {tick > 0 &&
           [-tick, tick].map((t) => <circle key={t} cx={c} cy={c} r={ring(t)} className="fill-none stroke-rule" strokeWidth={0.8} />)}
@@ -69,17 +74,27 @@ export function BorePolar({
           const [x2, y2] = [c + (R + 24) * Math.sin((a * Math.PI) / 180), c - (R + 24) * Math.cos((a * Math.PI) / 180)];
           return (
             <g key={a}>
-              <line x1={c} y1={c} x2={c + (R + 12) * Math.sin((a * Math.PI) / 180)} y2={c - (R + 12) * Math.cos((a * Math.PI) / 180)} className="stroke-rule" strokeWidth={0.6} />
+              <line
+                x1={c}
+                y1={c}
+                x2={c + (R + 12) * Math.sin((a * Math.PI) / 180)}
+                y2={c - (R + 12) * Math.cos((a * Math.PI) / 180)}
+                className="stroke-rule"
+                strokeWidth={0.6}
+              />
               <text x={x2} y={y2 + 4} textAnchor="middle" className="fill-graphite-soft text-[10px]">
                 {a}°
               </text>
             </g>
           );
         })}
-        {compared && comparedDots && <path d={curve(compared, comparedDots)} className="fill-none stroke-teal" strokeWidth={1.5} strokeDasharray="5 3" />}
+        {compared && comparedDots && (
+          <path d={curve(compared, comparedDots)} className="fill-none stroke-teal" strokeWidth={1.5} strokeDasharray="5 3" />
+        )}
         <path d={curve(level, dots)} className="fill-brass-soft/40 stroke-graphite" strokeWidth={1.8} />
         {dots.map((p, i) => {
           const [x, y] = at(p.angleDeg, p.dev_mm);
+          // biome-ignore lint/suspicious/noArrayIndexKey: the dots never reorder, and two readings may share an angle
           return <circle key={i} cx={x} cy={y} r={2.6} className="fill-brass" />;
         })}
         <text x={6} y={14} className="fill-graphite text-[11px] font-semibold">
@@ -90,7 +105,9 @@ export function BorePolar({
         </text>
         <text x={c} y={S + 6} textAnchor="middle" className="fill-graphite-soft text-[10px]">
           Out-of-round {formatNumber(convert(level.outOfRound_mm, "mm", smallUnit), smallUnit === "um" ? 1 : 3)} {unitLabel(smallUnit)}
-          {compared ? ` (${compareLabel}: ${formatNumber(convert(compared.outOfRound_mm, "mm", smallUnit), smallUnit === "um" ? 1 : 3)})` : ""}
+          {compared
+            ? ` (${compareLabel}: ${formatNumber(convert(compared.outOfRound_mm, "mm", smallUnit), smallUnit === "um" ? 1 : 3)})`
+            : ""}
         </text>
         {tick > 0 && (
           <text x={c} y={S + 20} textAnchor="middle" className="fill-graphite-soft text-[9px]">
@@ -159,7 +176,10 @@ export function BoreProfile({
         {(f) => {
           const y = (depth_mm: number) => f.y(dIn(depth_mm));
           const band = (ls: BoreLevel[]) =>
-            [...ls.map((l) => `${f.x(dx(l.minDiameter_mm))},${y(l.depth_mm)}`), ...[...ls].reverse().map((l) => `${f.x(dx(l.maxDiameter_mm))},${y(l.depth_mm)}`)].join(" ");
+            [
+              ...ls.map((l) => `${f.x(dx(l.minDiameter_mm))},${y(l.depth_mm)}`),
+              ...[...ls].reverse().map((l) => `${f.x(dx(l.maxDiameter_mm))},${y(l.depth_mm)}`),
+            ].join(" ");
           const mean = (ls: BoreLevel[]) => ls.map((l) => `${f.x(dx(l.meanDiameter_mm))},${y(l.depth_mm)}`).join(" ");
           return (
             <>
@@ -184,12 +204,24 @@ export function BoreProfile({
       </Plot>
       <Legend
         items={[
-          { label: `${mainLabel}: mean diameter`, swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-graphite" strokeWidth={2} /> },
-          { label: `${mainLabel}: min to max`, swatch: <rect x="0" y="1" width="22" height="8" className="fill-brass-soft stroke-brass" /> },
-          ...(compared && compared.length
+          {
+            label: `${mainLabel}: mean diameter`,
+            swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-graphite" strokeWidth={2} />,
+          },
+          {
+            label: `${mainLabel}: min to max`,
+            swatch: <rect x="0" y="1" width="22" height="8" className="fill-brass-soft stroke-brass" />,
+          },
+          ...(compared?.length
             ? [
-                { label: `${compareLabel}: mean`, swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-teal" strokeWidth={1.8} strokeDasharray="6 3" /> },
-                { label: `${compareLabel}: min to max`, swatch: <rect x="0" y="1" width="22" height="8" className="fill-teal-soft stroke-teal" /> },
+                {
+                  label: `${compareLabel}: mean`,
+                  swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-teal" strokeWidth={1.8} strokeDasharray="6 3" />,
+                },
+                {
+                  label: `${compareLabel}: min to max`,
+                  swatch: <rect x="0" y="1" width="22" height="8" className="fill-teal-soft stroke-teal" />,
+                },
               ]
             : []),
           { label: "Reference bore", swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-graphite-soft" strokeDasharray="2 3" /> },

@@ -20,7 +20,12 @@ export function ClearanceChart({
   const L = 24;
   const R = W - 24;
   const v = (mm: number) => convert(mm, "mm", unit);
-  const xs = [0, ...markers.map((m) => v(m.value_mm)), ...(band?.min_mm !== undefined ? [v(band.min_mm)] : []), ...(band?.max_mm !== undefined ? [v(band.max_mm)] : [])];
+  const xs = [
+    0,
+    ...markers.map((m) => v(m.value_mm)),
+    ...(band?.min_mm !== undefined ? [v(band.min_mm)] : []),
+    ...(band?.max_mm !== undefined ? [v(band.max_mm)] : []),
+  ];
   let lo = Math.min(...xs);
   let hi = Math.max(...xs);
   const pad = (hi - lo) * 0.12 || 1;
@@ -66,9 +71,22 @@ export function ClearanceChart({
           const anchor = cx > (L + R) / 2 ? "end" : "start";
           return (
             <g key={m.label}>
-              <line x1={x(0 > lo ? 0 : lo)} x2={cx} y1={y} y2={y} className={m.tone === "bad" ? "stroke-spec-red" : "stroke-graphite-soft"} strokeWidth={1} strokeDasharray="2 2" />
+              <line
+                x1={x(Math.max(0, lo))}
+                x2={cx}
+                y1={y}
+                y2={y}
+                className={m.tone === "bad" ? "stroke-spec-red" : "stroke-graphite-soft"}
+                strokeWidth={1}
+                strokeDasharray="2 2"
+              />
               <circle cx={cx} cy={y} r={6} className={`${cls} stroke-card`} strokeWidth={2} />
-              <text x={anchor === "end" ? cx - 10 : cx + 10} y={y + 4} textAnchor={anchor} className={`text-[12px] font-semibold ${m.tone === "bad" ? "fill-spec-red" : "fill-graphite"}`}>
+              <text
+                x={anchor === "end" ? cx - 10 : cx + 10}
+                y={y + 4}
+                textAnchor={anchor}
+                className={`text-[12px] font-semibold ${m.tone === "bad" ? "fill-spec-red" : "fill-graphite"}`}
+              >
                 {m.label} {formatNumber(v(m.value_mm), decimalsFor(unit))} {unitLabel(unit)}
               </text>
             </g>

@@ -20,7 +20,18 @@ export function ClearanceResultView({ outcome, values, set }: { outcome: Clearan
         <Caution />
       </ResultPanel>
     );
-  const { kind, out, hotBad, measured, markers, band, bandLabel, verdict: verdictText, hotCaution, mainLabel } = clearanceView({ ...outcome, result: r });
+  const {
+    kind,
+    out,
+    hotBad,
+    measured,
+    markers,
+    band,
+    bandLabel,
+    verdict: verdictText,
+    hotCaution,
+    mainLabel,
+  } = clearanceView({ ...outcome, result: r });
   const verdict = verdictText && (
     <p
       data-testid="clearance-verdict"
@@ -32,23 +43,52 @@ export function ClearanceResultView({ outcome, values, set }: { outcome: Clearan
   );
   // The verdict judges the cold clearance only: the hot one says its own, beside it.
   const hotVerdict = hotCaution && (
-    <p data-testid="hot-verdict" role="alert" className="inline-flex rounded-md bg-spec-red-soft px-3 py-1 text-sm font-semibold text-spec-red">
+    <p
+      data-testid="hot-verdict"
+      role="alert"
+      className="inline-flex rounded-md bg-spec-red-soft px-3 py-1 text-sm font-semibold text-spec-red"
+    >
       {hotCaution}
     </p>
   );
   return (
     <ResultPanel bad={out || hotBad}>
       <div className="grid gap-4 sm:grid-cols-2">
-        <Figure label={mainLabel} value={formatIn(r.clearance_mm, "mm", su, 1)} testId="result-clearance" tone={out ? "bad" : undefined} unitSelect={unitSel} />
-        {r.hotClearance_mm !== undefined && <Figure label="Hot clearance" value={`${formatIn(r.hotClearance_mm, "mm", su, 1)} ${unitLabel(su)}`} testId="result-hot" tone={hotBad ? "bad" : undefined} />}
+        <Figure
+          label={mainLabel}
+          value={formatIn(r.clearance_mm, "mm", su, 1)}
+          testId="result-clearance"
+          tone={out ? "bad" : undefined}
+          unitSelect={unitSel}
+        />
+        {r.hotClearance_mm !== undefined && (
+          <Figure
+            label="Hot clearance"
+            value={`${formatIn(r.hotClearance_mm, "mm", su, 1)} ${unitLabel(su)}`}
+            testId="result-hot"
+            tone={hotBad ? "bad" : undefined}
+          />
+        )}
         {r.recommendedGap_mm !== undefined && kind === "ring-gap" && measured && (
-          <Figure label="Recommended gap (shop guidance)" value={`${formatIn(r.recommendedGap_mm, "mm", su, 1)} ${unitLabel(su)}`} testId="result-recommended" />
+          <Figure
+            label="Recommended gap (shop guidance)"
+            value={`${formatIn(r.recommendedGap_mm, "mm", su, 1)} ${unitLabel(su)}`}
+            testId="result-recommended"
+          />
         )}
         {r.perInchOfDiameter !== undefined && (
-          <Figure label={kind === "bearing" ? "Per inch of journal" : "Per inch of bore"} value={`${formatNumber(r.perInchOfDiameter * 1000, 2)} thou/in`} />
+          <Figure
+            label={kind === "bearing" ? "Per inch of journal" : "Per inch of bore"}
+            value={`${formatNumber(r.perInchOfDiameter * 1000, 2)} thou/in`}
+          />
         )}
       </div>
-      {(verdict || hotVerdict) && <div className="flex flex-wrap gap-2">{verdict}{hotVerdict}</div>}
+      {(verdict || hotVerdict) && (
+        <div className="flex flex-wrap gap-2">
+          {verdict}
+          {hotVerdict}
+        </div>
+      )}
       <Warnings warnings={r.warnings} red={(w) => /spec|seize|interference|butt|negative|melt|near zero/i.test(w)} />
       <Caution />
       <ClearanceChart markers={markers} band={band} bandLabel={bandLabel} unit={su} />

@@ -6,7 +6,17 @@ import type { FieldErrors, FormValues } from "~/lib/calc-ui/outcome";
 import { unitOr } from "~/lib/calc-ui/units";
 import { Choice, Fieldset, QuantityField, TextField, UnitSelect, type SetValue } from "./controls";
 
-export function MeasuredHow({ values, set, errors: e, radial }: { values: FormValues; set: SetValue; errors: FieldErrors; radial: boolean }) {
+export function MeasuredHow({
+  values,
+  set,
+  errors: e,
+  radial,
+}: {
+  values: FormValues;
+  set: SetValue;
+  errors: FieldErrors;
+  radial: boolean;
+}) {
   return (
     <Fieldset legend="How it was measured">
       <Choice
@@ -19,20 +29,47 @@ export function MeasuredHow({ values, set, errors: e, radial }: { values: FormVa
           { value: "diametral", label: "Two-point gauge: diameters" },
           { value: "radial", label: "Radial: radii about a centre" },
         ]}
-        hint={radial ? "Radial readings see every order, odd ones included." : "A two-point gauge cannot see odd orders such as the three-lobed shape (see below)."}
+        hint={
+          radial
+            ? "Radial readings see every order, odd ones included."
+            : "A two-point gauge cannot see odd orders such as the three-lobed shape (see below)."
+        }
       />
       <div className="grid grid-cols-[minmax(0,1fr)_auto] items-end gap-1.5">
-        <TextField name="depths" label="Depths below the deck" values={values} set={set} errors={e} hint="Separated by commas, e.g. 12, 45, 80." />
+        <TextField
+          name="depths"
+          label="Depths below the deck"
+          values={values}
+          set={set}
+          errors={e}
+          hint="Separated by commas, e.g. 12, 45, 80."
+        />
         <div className={e.depths ? "mb-7" : "mb-5"}>
           <UnitSelect name="depth.unit" kind="length" values={values} set={set} label="Unit of the depths" />
         </div>
       </div>
-      <TextField name="angles" label="Angles (degrees)" values={values} set={set} errors={e} hint={radial ? "Equally spaced over 360° (2k + 1 angles show order k)." : "Equally spaced over 180° (k + 1 angles show order k)."} />
+      <TextField
+        name="angles"
+        label="Angles (degrees)"
+        values={values}
+        set={set}
+        errors={e}
+        hint={radial ? "Equally spaced over 360° (2k + 1 angles show order k)." : "Equally spaced over 180° (k + 1 angles show order k)."}
+      />
       <div>
         <span className="label">Readings are in</span>
         <UnitSelect name="reading.unit" kind="length" values={values} set={set} label="Unit of the readings" />
       </div>
-      <QuantityField name="reference" label="Nominal bore" kind="length" optional values={values} set={set} errors={e} hint="The finished size; the profile is drawn against it." />
+      <QuantityField
+        name="reference"
+        label="Nominal bore"
+        kind="length"
+        optional
+        values={values}
+        set={set}
+        errors={e}
+        hint="The finished size; the profile is drawn against it."
+      />
     </Fieldset>
   );
 }
@@ -59,7 +96,15 @@ export function ReadingGrid({
   const depthUnit = unitLabel(unitOr(values["depth.unit"], "mm"));
   return (
     <Fieldset legend={legend}>
-      <TextField name={labelName} label="Name of this state" numeric={false} values={values} set={set} errors={errors} className="max-w-sm" />
+      <TextField
+        name={labelName}
+        label="Name of this state"
+        numeric={false}
+        values={values}
+        set={set}
+        errors={errors}
+        className="max-w-sm"
+      />
       {depths.length > 0 && angles.length > 0 ? (
         <div className="overflow-x-auto">
           <table className="border-separate border-spacing-1 text-sm" data-testid={`grid-${prefix}`}>
@@ -70,18 +115,25 @@ export function ReadingGrid({
               <tr>
                 <th className="px-1 text-left text-xs font-semibold text-graphite-soft">Depth</th>
                 {angles.map((a, j) => (
-                  <th key={j} className="px-1 text-center text-xs font-semibold text-graphite-soft">{a}°</th>
+                  // biome-ignore lint/suspicious/noArrayIndexKey: the grid's cells are named by position (m.0.3), so the position is the row's and column's identity
+                  <th key={j} className="px-1 text-center text-xs font-semibold text-graphite-soft">
+                    {a}°
+                  </th>
                 ))}
               </tr>
             </thead>
             <tbody>
               {depths.map((d, i) => (
+                // biome-ignore lint/suspicious/noArrayIndexKey: the grid's cells are named by position (m.0.3), so the position is the row's and column's identity
                 <tr key={i}>
-                  <th scope="row" className="num pr-1 text-left text-xs font-semibold">{d}</th>
+                  <th scope="row" className="num pr-1 text-left text-xs font-semibold">
+                    {d}
+                  </th>
                   {angles.map((a, j) => {
                     const name = `${prefix}.${i}.${j}`;
                     const err = errors[name];
                     return (
+                      // biome-ignore lint/suspicious/noArrayIndexKey: the grid's cells are named by position (m.0.3), so the position is the row's and column's identity
                       <td key={j}>
                         <input
                           name={name}
@@ -116,4 +168,3 @@ export function ReadingGrid({
     </Fieldset>
   );
 }
-

@@ -40,9 +40,15 @@ export function DistortionResultView({ outcome, values, set }: { outcome: Distor
         {r.compared && <Summary title={compareLabel} s={r.compared} su={su} />}
         {r.difference && (
           <div className="rounded-md border border-rule bg-paper px-3 py-2">
-            <div className="text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">Change ({mainLabel} − {compareLabel})</div>
-            <p className="num mt-1 text-sm">Taper {signedIn(r.difference.taper_mm, su)} {unitLabel(su)}</p>
-            <p className="num text-sm">Top-to-bottom {signedIn(r.difference.taperTopToBottom_mm, su)} {unitLabel(su)}</p>
+            <div className="text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">
+              Change ({mainLabel} − {compareLabel})
+            </div>
+            <p className="num mt-1 text-sm">
+              Taper {signedIn(r.difference.taper_mm, su)} {unitLabel(su)}
+            </p>
+            <p className="num text-sm">
+              Top-to-bottom {signedIn(r.difference.taperTopToBottom_mm, su)} {unitLabel(su)}
+            </p>
             <p className="num text-sm">
               Out-of-round, largest change {signedIn(largestChange(r.difference.levels.map((l) => l.outOfRound_mm)), su)} {unitLabel(su)}
             </p>
@@ -76,14 +82,26 @@ export function DistortionResultView({ outcome, values, set }: { outcome: Distor
           })}
         </div>
         <p className="mt-2 text-xs text-graphite-soft">
-          Looking down the bore, 0° at the top, angles clockwise. Solid: {mainLabel} (dots are the readings{values.mode === "radial" ? "" : ", each shown at both ends of its diameter"}); dashed: {compareLabel}. Deviations from round are drawn {new Intl.NumberFormat("en-US").format(factor)} times larger than the bore.
+          Looking down the bore, 0° at the top, angles clockwise. Solid: {mainLabel} (dots are the readings
+          {values.mode === "radial" ? "" : ", each shown at both ends of its diameter"}); dashed: {compareLabel}. Deviations from round are
+          drawn {new Intl.NumberFormat("en-US").format(factor)} times larger than the bore.
         </p>
       </div>
 
       <div className="grid items-start gap-6 lg:grid-cols-2">
         <div>
           <h3 className="mb-2 text-lg">Diameter along the bore</h3>
-          <BoreProfile levels={r.levels} compared={r.compared?.levels} reference_mm={reference_mm} smallUnit={su} lengthUnit={lu} depth={depth} mainLabel={mainLabel} compareLabel={compareLabel} shape={shapeText} />
+          <BoreProfile
+            levels={r.levels}
+            compared={r.compared?.levels}
+            reference_mm={reference_mm}
+            smallUnit={su}
+            lengthUnit={lu}
+            depth={depth}
+            mainLabel={mainLabel}
+            compareLabel={compareLabel}
+            shape={shapeText}
+          />
         </div>
         <div className="overflow-x-auto">
           <h3 className="mb-2 text-lg">Figures by depth</h3>
@@ -102,17 +120,37 @@ function Summary({ title, s, su, testId }: { title: string; s: BoreStateResult; 
     <div className="rounded-md border border-rule bg-paper px-3 py-2" data-testid={testId}>
       <div className="text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">{title}</div>
       <p className="num mt-1 text-sm">
-        Worst out-of-round <span className="font-serif text-lg font-semibold" data-testid={testId ? "result-oor" : undefined}>{formatIn(oor, "mm", su)}</span> {unitLabel(su)}
+        Worst out-of-round{" "}
+        <span className="font-serif text-lg font-semibold" data-testid={testId ? "result-oor" : undefined}>
+          {formatIn(oor, "mm", su)}
+        </span>{" "}
+        {unitLabel(su)}
       </p>
       <p className="num text-sm">
         Taper <span data-testid={testId ? "result-taper" : undefined}>{formatIn(s.taper_mm, "mm", su)}</span> {unitLabel(su)}
       </p>
-      <p className="num text-sm">Top-to-bottom {signedIn(s.taperTopToBottom_mm, su)} {unitLabel(su)}</p>
+      <p className="num text-sm">
+        Top-to-bottom {signedIn(s.taperTopToBottom_mm, su)} {unitLabel(su)}
+      </p>
     </div>
   );
 }
 
-function LevelTable({ title, levels, lu, su, depth, small }: { title: string; levels: BoreLevel[]; lu: UnitCode; su: UnitCode; depth: DepthDisplay; small: (mm: number) => string }) {
+function LevelTable({
+  title,
+  levels,
+  lu,
+  su,
+  depth,
+  small,
+}: {
+  title: string;
+  levels: BoreLevel[];
+  lu: UnitCode;
+  su: UnitCode;
+  depth: DepthDisplay;
+  small: (mm: number) => string;
+}) {
   const orders = [...new Set(levels.flatMap((l) => l.orders.map((o) => o.order)))].sort((a, b) => a - b).slice(0, 4);
   return (
     <table className="mb-4 w-full text-sm">

@@ -57,7 +57,14 @@ export function PreloadChart({
                     className="fill-spec-red-soft"
                     opacity={0.6}
                   />
-                  <line x1={f.left} x2={f.right} y1={f.y(fy(yieldForce_N))} y2={f.y(fy(yieldForce_N))} className="stroke-spec-red" strokeWidth={1.5} />
+                  <line
+                    x1={f.left}
+                    x2={f.right}
+                    y1={f.y(fy(yieldForce_N))}
+                    y2={f.y(fy(yieldForce_N))}
+                    className="stroke-spec-red"
+                    strokeWidth={1.5}
+                  />
                   <text x={f.left + 6} y={f.y(fy(yieldForce_N)) - 5} className="fill-spec-red text-[11px] font-semibold">
                     Yield ({formatNumber(fy(yieldForce_N), forceUnit === "N" || forceUnit === "lbf" ? 0 : 1)} {unitLabel(forceUnit)})
                   </text>
@@ -75,7 +82,14 @@ export function PreloadChart({
                   </text>
                 </>
               )}
-              <line x1={f.x(0)} y1={f.y(0)} x2={f.x(lineEndT)} y2={f.y(fy(convert(lineEndT, torqueUnit, "N.m") / perN))} className="stroke-graphite" strokeWidth={2} />
+              <line
+                x1={f.x(0)}
+                y1={f.y(0)}
+                x2={f.x(lineEndT)}
+                y2={f.y(fy(convert(lineEndT, torqueUnit, "N.m") / perN))}
+                className="stroke-graphite"
+                strokeWidth={2}
+              />
               {fit && fit.slope_N_per_Nm > 0 && (
                 <line
                   x1={f.x(0)}
@@ -87,9 +101,19 @@ export function PreloadChart({
                   strokeDasharray="3 3"
                 />
               )}
-              {(points ?? []).map((p, i) => (
-                <circle key={i} cx={f.x(tx(p.torque_Nm))} cy={f.y(fy(p.preload_N))} r={4} className="fill-teal stroke-card" strokeWidth={1} />
-              ))}
+              {(points ?? []).map((p, i) => {
+                const key = i; // the pasted points never reorder, and two may be the same: the position is the identity
+                return (
+                  <circle
+                    key={key}
+                    cx={f.x(tx(p.torque_Nm))}
+                    cy={f.y(fy(p.preload_N))}
+                    r={4}
+                    className="fill-teal stroke-card"
+                    strokeWidth={1}
+                  />
+                );
+              })}
               {fit && (
                 <text x={f.right - 8} y={f.top + 16} textAnchor="end" className="fill-teal text-[12px] font-semibold">
                   Fitted K = {formatNumber(fit.k, 3)} ± {formatNumber(fit.kStdDev, 3)} (n = {fit.n})
@@ -112,14 +136,23 @@ export function PreloadChart({
           { label: "This result", swatch: <circle cx="11" cy="5" r="4" className={over90 ? "fill-spec-red" : "fill-brass"} /> },
           ...(yieldForce_N !== undefined
             ? [
-                { label: "Yield of the material", swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-spec-red" strokeWidth={1.5} /> },
-                { label: "90 % of yield", swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-brass" strokeWidth={1.5} strokeDasharray="6 4" /> },
+                {
+                  label: "Yield of the material",
+                  swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-spec-red" strokeWidth={1.5} />,
+                },
+                {
+                  label: "90 % of yield",
+                  swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-brass" strokeWidth={1.5} strokeDasharray="6 4" />,
+                },
               ]
             : []),
           ...(points?.length
             ? [
                 { label: "Measured points", swatch: <circle cx="11" cy="5" r="4" className="fill-teal" /> },
-                { label: "Fitted through the origin", swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-teal" strokeWidth={1.5} strokeDasharray="3 3" /> },
+                {
+                  label: "Fitted through the origin",
+                  swatch: <line x1="0" y1="5" x2="22" y2="5" className="stroke-teal" strokeWidth={1.5} strokeDasharray="3 3" />,
+                },
               ]
             : []),
         ]}

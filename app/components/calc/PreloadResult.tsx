@@ -9,7 +9,17 @@ import { PreloadChart } from "./PreloadChart";
 import { FigureTable, NoResult, ResultPanel } from "./ResultPanel";
 import { SaveAsReadings } from "./SaveAsReadings";
 
-export function PreloadResultView({ outcome, values, set, canSaveReadings }: { outcome: PreloadOutcome; values: FormValues; set: SetValue; canSaveReadings: boolean }) {
+export function PreloadResultView({
+  outcome,
+  values,
+  set,
+  canSaveReadings,
+}: {
+  outcome: PreloadOutcome;
+  values: FormValues;
+  set: SetValue;
+  canSaveReadings: boolean;
+}) {
   const r = outcome.result;
   const { fu, tu, su, lu, toTorque, modelLabel, over, yieldForce_N: yieldForce, limits } = preloadView(outcome, values);
   if (!r)
@@ -55,24 +65,39 @@ export function PreloadResultView({ outcome, values, set, canSaveReadings }: { o
         )}
       </div>
       {over && (
-        <div role="alert" data-testid="yield-alert" className="rounded-md border border-spec-red/50 bg-spec-red-soft px-3 py-2 text-sm font-semibold text-spec-red">
-          Out of spec: the stress is {formatNumber(pct!, 1)} % of the material's minimum yield, past the {YIELD_LIMIT_PERCENT} % limit. Lower the torque, use a stronger
-          class, or check the nut factor.
+        <div
+          role="alert"
+          data-testid="yield-alert"
+          className="rounded-md border border-spec-red/50 bg-spec-red-soft px-3 py-2 text-sm font-semibold text-spec-red"
+        >
+          Out of spec: the stress is {formatNumber(pct!, 1)} % of the material's minimum yield, past the {YIELD_LIMIT_PERCENT} % limit.
+          Lower the torque, use a stronger class, or check the nut factor.
         </div>
       )}
       <Warnings warnings={shownWarnings(r)} red={(w) => /yield/.test(w)} />
       <Caution />
-      <PreloadChart result={r} yieldForce_N={yieldForce} fit={outcome.fit} points={outcome.points} torqueUnit={tu} forceUnit={fu} modelLabel={modelLabel} />
+      <PreloadChart
+        result={r}
+        yieldForce_N={yieldForce}
+        fit={outcome.fit}
+        points={outcome.points}
+        torqueUnit={tu}
+        forceUnit={fu}
+        modelLabel={modelLabel}
+      />
       {outcome.fit && (
         <div className="rounded-md border border-teal/40 bg-teal-soft/50 px-3 py-2 text-sm" data-testid="fit-summary">
           <p className="font-semibold text-teal">
             Bench readings give K = {formatNumber(outcome.fit.k, 3)} ± {formatNumber(outcome.fit.kStdDev, 3)}
           </p>
           <p className="text-graphite-soft">
-            {outcome.fit.n} points, scatter {formatNumber(outcome.fit.kCoefficientOfVariation * 100, 1)} % (coefficient of variation), {NUT_FACTOR_R_SQUARED_LABEL} {formatNumber(outcome.fit.rSquared, 3)}.
+            {outcome.fit.n} points, scatter {formatNumber(outcome.fit.kCoefficientOfVariation * 100, 1)} % (coefficient of variation),{" "}
+            {NUT_FACTOR_R_SQUARED_LABEL} {formatNumber(outcome.fit.rSquared, 3)}.
           </p>
           {outcome.fit.warnings.map((w) => (
-            <p key={w} className="text-graphite-soft">{w}</p>
+            <p key={w} className="text-graphite-soft">
+              {w}
+            </p>
           ))}
         </div>
       )}
@@ -102,7 +127,10 @@ export function PreloadResultView({ outcome, values, set, canSaveReadings }: { o
           {r.torqueSplit && (
             <FigureTable
               caption="Where the torque goes"
-              rows={torqueShares(r).map((p) => [p.what, `${formatIn(p.torque_Nm, "N.m", tu)} ${unitLabel(tu)} (${formatNumber(p.percent, 0)} %)`])}
+              rows={torqueShares(r).map((p) => [
+                p.what,
+                `${formatIn(p.torque_Nm, "N.m", tu)} ${unitLabel(tu)} (${formatNumber(p.percent, 0)} %)`,
+              ])}
             />
           )}
           {r.elongation_mm !== undefined && (

@@ -19,7 +19,9 @@ export function ResultPanel({ children, bad, label = "Result" }: { children: Rea
 export function FigureTable({ rows, caption }: { rows: [string, ReactNode][]; caption?: string }) {
   return (
     <table className="w-full text-sm">
-      {caption && <caption className="mb-1 text-left text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">{caption}</caption>}
+      {caption && (
+        <caption className="mb-1 text-left text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">{caption}</caption>
+      )}
       <tbody>
         {rows.map(([k, v]) => (
           <tr key={k} className="border-t border-rule/70">
@@ -38,7 +40,10 @@ export function FigureTable({ rows, caption }: { rows: [string, ReactNode][]; ca
 export function NoResult({ errors }: { errors: Record<string, string> }) {
   const n = Object.keys(errors).length;
   return (
-    <div className="rounded-md border border-dashed border-rule px-4 py-6 text-center text-sm text-graphite-soft" data-testid="calc-no-result">
+    <div
+      className="rounded-md border border-dashed border-rule px-4 py-6 text-center text-sm text-graphite-soft"
+      data-testid="calc-no-result"
+    >
       {n > 0 ? `Fix the ${n === 1 ? "field" : `${n} fields`} marked in the form to see a result.` : "Fill in the form to see a result."}
       {errors.form && <p className="mt-2 text-spec-red">{errors.form}</p>}
     </div>

@@ -27,7 +27,9 @@ export function SaveAsReadings({
   const [pass, setPass] = useState("bench");
   const [stud, setStud] = useState("");
   const [lubeText, setLube] = useState(lube);
-  const [state, setState] = useState<{ kind: "idle" | "saving" } | { kind: "saved"; n: number; id: string; title: string } | { kind: "error"; message: string }>({ kind: "idle" });
+  const [state, setState] = useState<
+    { kind: "idle" | "saving" } | { kind: "saved"; n: number; id: string; title: string } | { kind: "error"; message: string }
+  >({ kind: "idle" });
 
   useEffect(() => {
     if (!open || recordings) return;
@@ -84,7 +86,8 @@ export function SaveAsReadings({
   return (
     <section className="rounded-md border border-rule bg-paper/60 p-3 text-sm" aria-label="Save as readings" data-testid="save-readings">
       <p className="mb-2 text-graphite-soft">
-        Each bench point becomes a torque reading ({unitLabel(torqueUnit as UnitCode)}) and a clamp-load reading ({unitLabel(forceUnit as UnitCode)}) with the same label, stud and pass.
+        Each bench point becomes a torque reading ({unitLabel(torqueUnit as UnitCode)}) and a clamp-load reading (
+        {unitLabel(forceUnit as UnitCode)}) with the same label, stud and pass.
       </p>
       {recordings && recordings.length === 0 && <p>No recordings yet. Upload the bench-test video first.</p>}
       {recordings && recordings.length > 0 && (
@@ -93,7 +96,9 @@ export function SaveAsReadings({
             <span className="label">Recording</span>
             <select className="field" value={recordingId} onChange={(e) => setRecordingId(e.target.value)}>
               {recordings.map((r) => (
-                <option key={r.id} value={r.id}>{r.title}</option>
+                <option key={r.id} value={r.id}>
+                  {r.title}
+                </option>
               ))}
             </select>
           </label>
@@ -107,7 +112,14 @@ export function SaveAsReadings({
           </label>
           <label>
             <span className="label">Stud no. on the fixture (optional)</span>
-            <input className="field" inputMode="numeric" value={stud} onChange={(e) => setStud(e.target.value)} maxLength={4} placeholder="4" />
+            <input
+              className="field"
+              inputMode="numeric"
+              value={stud}
+              onChange={(e) => setStud(e.target.value)}
+              maxLength={4}
+              placeholder="4"
+            />
           </label>
           <label>
             <span className="label">Lube</span>
@@ -117,7 +129,9 @@ export function SaveAsReadings({
             <button type="button" className="btn btn-primary" disabled={!recordingId || state.kind === "saving"} onClick={save}>
               {state.kind === "saving" ? "Saving…" : `Save ${points.length * 2} readings`}
             </button>
-            <button type="button" className="btn" onClick={() => setOpen(false)}>Close</button>
+            <button type="button" className="btn" onClick={() => setOpen(false)}>
+              Close
+            </button>
           </div>
         </div>
       )}
@@ -126,7 +140,11 @@ export function SaveAsReadings({
           Saved {state.n} readings to <Link to={`/recordings/${state.id}`}>{state.title}</Link>.
         </p>
       )}
-      {state.kind === "error" && <p role="alert" className="mt-2 text-spec-red">{state.message}</p>}
+      {state.kind === "error" && (
+        <p role="alert" className="mt-2 text-spec-red">
+          {state.message}
+        </p>
+      )}
     </section>
   );
 }

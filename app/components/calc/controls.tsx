@@ -263,7 +263,19 @@ export function Warnings({ warnings, red }: { warnings: string[]; red?: (w: stri
 }
 
 /** The result's key figure: a large number with its label and a unit selector. */
-export function Figure({ label, value, unitSelect, tone, testId }: { label: string; value: string; unitSelect?: ReactNode; tone?: "bad" | "ok"; testId?: string }) {
+export function Figure({
+  label,
+  value,
+  unitSelect,
+  tone,
+  testId,
+}: {
+  label: string;
+  value: string;
+  unitSelect?: ReactNode;
+  tone?: "bad" | "ok";
+  testId?: string;
+}) {
   return (
     <div className="min-w-0">
       <div className="text-xs font-semibold uppercase tracking-[0.12em] text-graphite-soft">{label}</div>
@@ -305,13 +317,20 @@ export function CopyBlock({ calculator, input }: { calculator: CalcKind; input: 
           Copy as calculator block
         </button>
         <span role="status" className="text-sm text-graphite-soft">
-          {state === "copied" ? "Copied: paste it into a procedure's calculator block." : state === "failed" ? "The browser refused the clipboard; copy the text below and paste it into the block's “Paste inputs from a calculator page”." : ""}
+          {state === "copied"
+            ? "Copied: paste it into a procedure's calculator block."
+            : state === "failed"
+              ? "The browser refused the clipboard; copy the text below and paste it into the block's “Paste inputs from a calculator page”."
+              : ""}
         </span>
       </div>
       {text && (
         <details className="text-sm">
           <summary className="cursor-pointer text-teal">Show the text to paste into a procedure's calculator block</summary>
-          <pre data-testid="calc-preset-json" className="mt-2 max-h-64 overflow-auto rounded-md border border-rule bg-paper px-3 py-2 font-mono text-xs">
+          <pre
+            data-testid="calc-preset-json"
+            className="mt-2 max-h-64 overflow-auto rounded-md border border-rule bg-paper px-3 py-2 font-mono text-xs"
+          >
             {text}
           </pre>
         </details>

@@ -21,6 +21,7 @@ export function useCalcForm<O>(opts: {
   useEffect(() => {
     if (actionData) setValues(actionData.values);
   }, [actionData]);
+  // biome-ignore lint/correctness/useExhaustiveDependencies: the outcome follows what was typed; run and the first values are the page's own and do not change
   const outcome = useMemo(
     () =>
       actionData && values === actionData.values
@@ -28,7 +29,6 @@ export function useCalcForm<O>(opts: {
         : values === initial.values
           ? (initial.outcome as O)
           : run(values),
-    // eslint-disable-next-line react-hooks/exhaustive-deps
     [values, actionData],
   );
   const set: SetValue = (name, value) =>

@@ -1,6 +1,13 @@
 import { useEffect, useMemo, useState } from "react";
-import { CALC_CAUTION, calcLabel, numericLeaves, setAtPath, tidyNumber, type CalcKind, type CalcOutcome } from "~/lib/procedures/calc-shared";
-
+import {
+  CALC_CAUTION,
+  calcLabel,
+  numericLeaves,
+  setAtPath,
+  tidyNumber,
+  type CalcKind,
+  type CalcOutcome,
+} from "~/lib/procedures/calc-shared";
 
 // The math (app/lib/calc with its zod schemas) loads only when a reader changes a number.
 let math: Promise<typeof import("~/lib/procedures/calc-presets")> | undefined;
@@ -38,6 +45,7 @@ export function CalculatorWidget({
   const key = JSON.stringify(values);
   const changed = key !== JSON.stringify(preset);
   const [live, setLive] = useState<{ key: string; outcome: CalcOutcome } | null>(null);
+  // biome-ignore lint/correctness/useExhaustiveDependencies: key is the values in words, so the effect runs again exactly when a number changes
   useEffect(() => {
     if (!changed) return;
     let stale = false;
@@ -47,7 +55,6 @@ export function CalculatorWidget({
     return () => {
       stale = true;
     };
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [kind, key, changed]);
   const computing = changed && live?.key !== key;
   const outcome = changed ? (live?.outcome ?? presetOutcome) : presetOutcome;
@@ -56,10 +63,15 @@ export function CalculatorWidget({
   const label = (u?: string) => (u ? (units[u] ?? u) : "");
   const idp = `calc-${index}`;
   return (
-    <section className="calc-block not-prose my-5 rounded-lg border border-brass/50 bg-card shadow-sm" aria-label={`${calcLabel(kind)} calculator`} data-calc-kind={kind}>
+    <section
+      className="calc-block not-prose my-5 rounded-lg border border-brass/50 bg-card shadow-sm"
+      aria-label={`${calcLabel(kind)} calculator`}
+      data-calc-kind={kind}
+    >
       <header className="flex flex-wrap items-baseline justify-between gap-2 border-b border-brass/30 bg-brass-soft/40 px-4 py-2">
         <h3 className="font-sans text-sm font-semibold uppercase tracking-[0.12em] text-brass">
-          {calcLabel(kind)} calculator{title ? <span className="ml-2 font-serif text-base normal-case tracking-normal text-graphite">{title}</span> : null}
+          {calcLabel(kind)} calculator
+          {title ? <span className="ml-2 font-serif text-base normal-case tracking-normal text-graphite">{title}</span> : null}
         </h3>
         {changed && <span className="text-xs font-semibold text-teal">Your numbers (not saved to the page)</span>}
       </header>
@@ -68,10 +80,23 @@ export function CalculatorWidget({
           <p className="text-xs font-semibold uppercase tracking-wide text-graphite-soft">Inputs</p>
           <dl className="mt-1 space-y-0.5 text-sm">
             {thread && (
-              <div className="flex justify-between gap-3"><dt className="text-graphite-soft">thread</dt><dd className="num font-semibold">{thread}</dd></div>
+              <div className="flex justify-between gap-3">
+                <dt className="text-graphite-soft">thread</dt>
+                <dd className="num font-semibold">{thread}</dd>
+              </div>
             )}
-            {method?.kind && <div className="flex justify-between gap-3"><dt className="text-graphite-soft">method</dt><dd>{method.kind === "nut-factor" ? "nut factor" : "friction (ISO 16047)"}</dd></div>}
-            {typeof values.kind === "string" && <div className="flex justify-between gap-3"><dt className="text-graphite-soft">check</dt><dd>{String(values.kind)}</dd></div>}
+            {method?.kind && (
+              <div className="flex justify-between gap-3">
+                <dt className="text-graphite-soft">method</dt>
+                <dd>{method.kind === "nut-factor" ? "nut factor" : "friction (ISO 16047)"}</dd>
+              </div>
+            )}
+            {typeof values.kind === "string" && (
+              <div className="flex justify-between gap-3">
+                <dt className="text-graphite-soft">check</dt>
+                <dd>{String(values.kind)}</dd>
+              </div>
+            )}
             {listed.map((l) => (
               <div key={l.path.join(".")} className="flex items-center justify-between gap-3">
                 <dt className="text-graphite-soft">
@@ -91,7 +116,9 @@ export function CalculatorWidget({
                       }}
                     />
                   ) : (
-                    <span id={`${idp}-${l.path.join("-")}`} className="num font-semibold">{tidyNumber(l.value)}</span>
+                    <span id={`${idp}-${l.path.join("-")}`} className="num font-semibold">
+                      {tidyNumber(l.value)}
+                    </span>
                   )}
                   <span className="w-10 text-graphite-soft">{label(l.unit)}</span>
                 </dd>
@@ -100,11 +127,26 @@ export function CalculatorWidget({
           </dl>
           {interactive && (
             <div className="no-print mt-3 flex gap-2">
-              <button type="button" className="btn py-1 text-xs" onClick={() => { if (!open) void loadMath(); setOpen((o) => !o); }} aria-expanded={open}>
+              <button
+                type="button"
+                className="btn py-1 text-xs"
+                onClick={() => {
+                  if (!open) void loadMath();
+                  setOpen((o) => !o);
+                }}
+                aria-expanded={open}
+              >
                 {open ? "Done" : "Try your numbers"}
               </button>
               {changed && (
-                <button type="button" className="btn py-1 text-xs" onClick={() => { setValues(preset); setOpen(false); }}>
+                <button
+                  type="button"
+                  className="btn py-1 text-xs"
+                  onClick={() => {
+                    setValues(preset);
+                    setOpen(false);
+                  }}
+                >
                   Back to the page's values
                 </button>
               )}
@@ -112,7 +154,9 @@ export function CalculatorWidget({
           )}
         </div>
         <div aria-live="polite" aria-busy={computing}>
-          <p className="text-xs font-semibold uppercase tracking-wide text-graphite-soft">Result{computing && <span className="ml-2 normal-case tracking-normal">computing…</span>}</p>
+          <p className="text-xs font-semibold uppercase tracking-wide text-graphite-soft">
+            Result{computing && <span className="ml-2 normal-case tracking-normal">computing…</span>}
+          </p>
           {outcome.ok ? (
             <>
               <dl className={`mt-1 space-y-0.5 text-sm ${computing ? "opacity-50" : ""}`} data-testid="calc-result">
@@ -125,12 +169,18 @@ export function CalculatorWidget({
               </dl>
               {outcome.warnings.length > 0 && (
                 <ul className="mt-2 list-none space-y-1 p-0 text-xs text-graphite">
-                  {outcome.warnings.map((w) => <li key={w} className="border-l-2 border-brass pl-2">{w}</li>)}
+                  {outcome.warnings.map((w) => (
+                    <li key={w} className="border-l-2 border-brass pl-2">
+                      {w}
+                    </li>
+                  ))}
                 </ul>
               )}
             </>
           ) : (
-            <p className="mt-1 text-sm text-spec-red" role="alert">Cannot compute: {outcome.message}</p>
+            <p className="mt-1 text-sm text-spec-red" role="alert">
+              Cannot compute: {outcome.message}
+            </p>
           )}
         </div>
       </div>
@@ -162,7 +212,8 @@ type Grid = {
   values: number[];
 };
 
-const isQuantity = (q: unknown): q is Quantity => !!q && typeof (q as Quantity).value === "number" && typeof (q as Quantity).unit === "string";
+const isQuantity = (q: unknown): q is Quantity =>
+  !!q && typeof (q as Quantity).value === "number" && typeof (q as Quantity).unit === "string";
 
 /**
  * The preset's bore readings as depths × angles, or null when they do not form one (then the
@@ -195,7 +246,13 @@ export function readingsGrid(readings: unknown, field: "diameter" | "radius"): G
   };
 }
 
-function ReadingsTable({ grid, editing, unitLabel, idp, onChange }: {
+function ReadingsTable({
+  grid,
+  editing,
+  unitLabel,
+  idp,
+  onChange,
+}: {
   grid: Grid;
   editing: boolean;
   unitLabel: (u?: string) => string;
@@ -215,16 +272,22 @@ function ReadingsTable({ grid, editing, unitLabel, idp, onChange }: {
         <table className="readings-grid num w-auto border-collapse text-sm" data-testid="readings-grid" aria-describedby={captionId}>
           <thead>
             <tr>
-              <th scope="col" className="px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">depth</th>
+              <th scope="col" className="px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">
+                depth
+              </th>
               {grid.angles.map((a) => (
-                <th key={a} scope="col" className="px-1.5 py-0.5 text-right text-xs font-semibold text-graphite-soft">{tidyNumber(a)}°</th>
+                <th key={a} scope="col" className="px-1.5 py-0.5 text-right text-xs font-semibold text-graphite-soft">
+                  {tidyNumber(a)}°
+                </th>
               ))}
             </tr>
           </thead>
           <tbody>
             {grid.depths.map((d) => (
               <tr key={String(d)} className="border-t border-rule">
-                <th scope="row" className="whitespace-nowrap px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">{depthText(d)}</th>
+                <th scope="row" className="whitespace-nowrap px-1.5 py-0.5 text-left text-xs font-semibold text-graphite-soft">
+                  {depthText(d)}
+                </th>
                 {grid.angles.map((a) => {
                   const i = grid.cells.get(`${d}|${a}`);
                   if (i == null)

@@ -34,9 +34,15 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
   return (
     <figure>
       <div className="mb-2 flex items-center gap-2">
-        <label htmlFor="chart-q" className="text-sm font-semibold">Quantity</label>
+        <label htmlFor="chart-q" className="text-sm font-semibold">
+          Quantity
+        </label>
         <select id="chart-q" className="field w-auto py-1 text-sm" value={active} onChange={(e) => setQ(e.target.value)}>
-          {quantities.map((x) => <option key={x} value={x}>{quantityDef(x)?.label ?? x}</option>)}
+          {quantities.map((x) => (
+            <option key={x} value={x}>
+              {quantityDef(x)?.label ?? x}
+            </option>
+          ))}
         </select>
       </div>
       <Plot
@@ -50,7 +56,25 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
       >
         {(f) =>
           data.map((d) => (
-            <circle key={d.r.id} cx={f.x(d.t)} cy={f.y(d.v)} r="4.5" className="cursor-pointer fill-teal stroke-card" strokeWidth="1.5" onClick={() => onSeek(d.t)}>
+            // biome-ignore lint/a11y/useSemanticElements: an SVG point cannot be a <button>; the role, the focus and the keys make it one
+            <circle
+              key={d.r.id}
+              cx={f.x(d.t)}
+              cy={f.y(d.v)}
+              r="4.5"
+              className="cursor-pointer fill-teal stroke-card focus:outline-none focus-visible:stroke-graphite"
+              strokeWidth="1.5"
+              role="button"
+              tabIndex={0}
+              aria-label={`Play from ${formatTime(d.t)}: ${d.r.label || label}, ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}
+              onClick={() => onSeek(d.t)}
+              onKeyDown={(e) => {
+                if (e.key === "Enter" || e.key === " ") {
+                  e.preventDefault();
+                  onSeek(d.t);
+                }
+              }}
+            >
               <title>{`${formatTime(d.t)} · ${d.r.label || label}: ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}</title>
             </circle>
           ))
@@ -85,7 +109,10 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
   let problem: string | null = null;
   if (pairs.length) {
     try {
-      fit = fitNutFactor(pairs.map((p) => ({ torque: { value: p.torque.valueSi, unit: "N.m" }, preload: { value: p.clamp.valueSi, unit: "N" } })), thread);
+      fit = fitNutFactor(
+        pairs.map((p) => ({ torque: { value: p.torque.valueSi, unit: "N.m" }, preload: { value: p.clamp.valueSi, unit: "N" } })),
+        thread,
+      );
     } catch (err) {
       const issues = (err as { issues?: { message: string }[] }).issues;
       problem = issues?.[0]?.message ?? (err as Error).message;
@@ -98,16 +125,41 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
   return (
     <figure data-testid="nut-factor-chart">
       <div className="mb-2 flex flex-wrap items-center gap-2">
-        <label htmlFor="chart-thread" className="text-sm font-semibold">Thread</label>
+        <label htmlFor="chart-thread" className="text-sm font-semibold">
+          Thread
+        </label>
         <select id="chart-thread" className="field w-auto py-1 text-sm" value={thread} onChange={(e) => setThread(e.target.value)}>
-          {THREAD_PRESETS.map((t) => <option key={t.designation} value={t.designation}>{t.designation}</option>)}
+          {THREAD_PRESETS.map((t) => (
+            <option key={t.designation} value={t.designation}>
+              {t.designation}
+            </option>
+          ))}
         </select>
-        <span className="text-xs text-graphite-soft">{pairs.length} torque / clamp-load {pairs.length === 1 ? "pair" : "pairs"}, matched by label and pass</span>
+        <span className="text-xs text-graphite-soft">
+          {pairs.length} torque / clamp-load {pairs.length === 1 ? "pair" : "pairs"}, matched by label and pass
+        </span>
       </div>
-      <Plot {...SIZE} title="Clamp load against torque with the fitted nut-factor line" xDomain={[0, xMax]} yDomain={[0, yMax]} xTitle="Torque (N·m)" yTitle="Clamp load (kN)">
+      <Plot
+        {...SIZE}
+        title="Clamp load against torque with the fitted nut-factor line"
+        xDomain={[0, xMax]}
+        yDomain={[0, yMax]}
+        xTitle="Torque (N·m)"
+        yTitle="Clamp load (kN)"
+      >
         {(f) => (
           <>
-            {fit && <line x1={f.x(0)} y1={f.y(0)} x2={f.x(xMax)} y2={f.y((fit.slope_N_per_Nm * xMax) / 1000)} className="stroke-brass" strokeWidth="2" strokeDasharray="6 4" />}
+            {fit && (
+              <line
+                x1={f.x(0)}
+                y1={f.y(0)}
+                x2={f.x(xMax)}
+                y2={f.y((fit.slope_N_per_Nm * xMax) / 1000)}
+                className="stroke-brass"
+                strokeWidth="2"
+                strokeDasharray="6 4"
+              />
+            )}
             {pts.map((d) => (
               <circle key={d.p.key} cx={f.x(d.x)} cy={f.y(d.y)} r="4.5" className="fill-teal stroke-card" strokeWidth="1.5">
                 <title>{`${d.p.torque.label || "–"}${d.p.torque.conditions?.pass ? `, pass ${d.p.torque.conditions.pass}` : ""}: ${Number(d.x.toPrecision(5))} N·m → ${Number(d.y.toPrecision(5))} kN`}</title>
@@ -120,23 +172,47 @@ function NutFactorChart({ readings }: { readings: ReadingRow[] }) {
         <figcaption className="mt-1 space-y-1 text-sm">
           <p data-testid="nut-factor-result">
             Effective nut factor <span className="font-semibold">K = {fit.k.toFixed(3)}</span>
-            {fit.n > 1 && <> ± {fit.kStdDev.toFixed(3)} (1 s.d., {(fit.kCoefficientOfVariation * 100).toFixed(1)} % scatter)</>} · n = {fit.n} · {NUT_FACTOR_R_SQUARED_LABEL} = {fit.rSquared.toFixed(3)}
+            {fit.n > 1 && (
+              <>
+                {" "}
+                ± {fit.kStdDev.toFixed(3)} (1 s.d., {(fit.kCoefficientOfVariation * 100).toFixed(1)} % scatter)
+              </>
+            )}{" "}
+            · n = {fit.n} · {NUT_FACTOR_R_SQUARED_LABEL} = {fit.rSquared.toFixed(3)}
           </p>
-          {fit.warnings.map((w) => <p key={w} className="text-graphite-soft">{w}</p>)}
+          {fit.warnings.map((w) => (
+            <p key={w} className="text-graphite-soft">
+              {w}
+            </p>
+          ))}
           <p className="text-xs text-graphite-soft">Least-squares line through the origin, F = T / (K·d). {CALC_CAUTION}</p>
         </figcaption>
       )}
-      {problem && <p className="field-error" role="alert">Cannot fit a nut factor: {problem}</p>}
+      {problem && (
+        <p className="field-error" role="alert">
+          Cannot fit a nut factor: {problem}
+        </p>
+      )}
     </figure>
   );
 }
 
-export function ReadingsChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; onSeek: (t: number) => void; durationS: number | null }) {
+export function ReadingsChart({
+  readings,
+  onSeek,
+  durationS,
+}: {
+  readings: ReadingRow[];
+  onSeek: (t: number) => void;
+  durationS: number | null;
+}) {
   if (!readings.length) return null;
   const hasPairs = pairTorqueClamp(readings).length > 0;
   return (
     <section className="card" aria-labelledby="chart-h">
-      <h2 id="chart-h" className="mb-4 text-lg">Readings chart</h2>
+      <h2 id="chart-h" className="mb-4 text-lg">
+        Readings chart
+      </h2>
       <div className={`grid gap-8 ${hasPairs ? "lg:grid-cols-2" : ""}`}>
         <div>
           <h3 className="mb-2 text-base">Against video time</h3>

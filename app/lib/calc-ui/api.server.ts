@@ -11,7 +11,10 @@ import { domainErrorJson } from "~/lib/domain-error.server";
 import { zodIssues } from "./outcome";
 
 const json = (body: unknown, status: number) =>
-  new Response(JSON.stringify(body), { status, headers: { "content-type": "application/json; charset=utf-8", "cache-control": "no-store" } });
+  new Response(JSON.stringify(body), {
+    status,
+    headers: { "content-type": "application/json; charset=utf-8", "cache-control": "no-store" },
+  });
 
 export async function calcApi(request: Request, compute: (input: never) => unknown): Promise<Response> {
   await requirePermission(request, "calc:use");

@@ -16,48 +16,48 @@ export type ClearanceKind = (typeof CLEARANCE_KINDS)[number]["kind"];
 
 export function clearanceDefaults(system: UnitSystem): FormValues {
   const u = DEFAULT_UNITS[system];
-  const L = (mm: number, extra = 1) => fieldValue(mm, "mm", u.length, extra);
-  const S = (mm: number) => fieldValue(mm, "mm", u.small, 1);
-  const Spec = (mm: number) => fieldValue(mm, "mm", u.small, system === "inch" ? -1 : 0);
-  const T = (c: number) => fieldValue(c, "degC", u.temperature, 0);
+  const len = (mm: number, extra = 1) => fieldValue(mm, "mm", u.length, extra);
+  const small = (mm: number) => fieldValue(mm, "mm", u.small, 1);
+  const spec = (mm: number) => fieldValue(mm, "mm", u.small, system === "inch" ? -1 : 0);
+  const temp = (c: number) => fieldValue(c, "degC", u.temperature, 0);
   const boosted = RING_GAP_FACTORS.find((r) => r.application === "boosted-street") ?? RING_GAP_FACTORS[0];
   return {
     kind: "piston-to-wall",
-    "bore.value": L(88),
+    "bore.value": len(88),
     "bore.unit": u.length,
-    "piston.value": L(87.91),
+    "piston.value": len(87.91),
     "piston.unit": u.length,
     "thermal.on": "on",
-    "thermal.ambient.value": T(20),
+    "thermal.ambient.value": temp(20),
     "thermal.ambient.unit": u.temperature,
-    "thermal.boreTemperature.value": T(95),
+    "thermal.boreTemperature.value": temp(95),
     "thermal.boreTemperature.unit": u.temperature,
-    "thermal.pistonTemperature.value": T(100),
+    "thermal.pistonTemperature.value": temp(100),
     "thermal.pistonTemperature.unit": u.temperature,
     "thermal.boreMaterial": "grey-cast-iron",
     "thermal.boreAlpha": "",
     "thermal.pistonMaterial": "forged-2618",
     "thermal.pistonAlpha": "",
-    "spec.piston-to-wall.min.value": Spec(0.08),
+    "spec.piston-to-wall.min.value": spec(0.08),
     "spec.piston-to-wall.min.unit": u.small,
-    "spec.piston-to-wall.max.value": Spec(0.1),
+    "spec.piston-to-wall.max.value": spec(0.1),
     "spec.piston-to-wall.max.unit": u.small,
     bearingMode: "direct",
-    "journal.value": L(52),
+    "journal.value": len(52),
     "journal.unit": u.length,
-    "bearingBore.value": L(52.05),
+    "bearingBore.value": len(52.05),
     "bearingBore.unit": u.length,
-    "housingBore.value": L(55.5),
+    "housingBore.value": len(55.5),
     "housingBore.unit": u.length,
-    "shellThickness.value": S(1.725),
+    "shellThickness.value": small(1.725),
     "shellThickness.unit": u.small,
-    "spec.bearing.min.value": Spec(0.04),
+    "spec.bearing.min.value": spec(0.04),
     "spec.bearing.min.unit": u.small,
-    "spec.bearing.max.value": Spec(0.065),
+    "spec.bearing.max.value": spec(0.065),
     "spec.bearing.max.unit": u.small,
     application: boosted.application,
     gapPerBore: String(boosted.gapPerBore),
-    "measuredGap.value": S(0.5),
+    "measuredGap.value": small(0.5),
     "measuredGap.unit": u.small,
     "spec.ring-gap.min.value": "",
     "spec.ring-gap.min.unit": u.small,
@@ -123,8 +123,10 @@ export function runClearanceForm(values: FormValues): ClearanceOutcome {
       const rest = path.slice(5) || "min";
       return `spec.${kind}.${rest.replace(/\.unit$/, ".value").replace(/^(min|max)$/, "$1.value")}`;
     }
-    if (path.startsWith("thermal.boreMaterial")) return values["thermal.boreMaterial"] === "custom" ? "thermal.boreAlpha" : "thermal.boreMaterial";
-    if (path.startsWith("thermal.pistonMaterial")) return values["thermal.pistonMaterial"] === "custom" ? "thermal.pistonAlpha" : "thermal.pistonMaterial";
+    if (path.startsWith("thermal.boreMaterial"))
+      return values["thermal.boreMaterial"] === "custom" ? "thermal.boreAlpha" : "thermal.boreMaterial";
+    if (path.startsWith("thermal.pistonMaterial"))
+      return values["thermal.pistonMaterial"] === "custom" ? "thermal.pistonAlpha" : "thermal.pistonMaterial";
     if (path.endsWith(".unit")) return path.replace(/\.unit$/, ".value");
     if (/^(bore|piston|journal|bearingBore|housingBore|shellThickness|measuredGap)$/.test(path)) return `${path}.value`;
     return path;

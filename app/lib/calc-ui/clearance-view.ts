@@ -4,7 +4,15 @@
  * band of the chart (the spec, else the shop guidance for ring gaps), the material choices,
  * and the edits that keep related fields in step.
  */
-import { MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_BAND_FACTOR, RING_GAP_FACTORS, toSI, type ClearanceResult, type UnitCode } from "~/lib/calc";
+import {
+  MATERIALS,
+  OIL_CLEARANCE_RULE,
+  RING_GAP_BAND_FACTOR,
+  RING_GAP_FACTORS,
+  toSI,
+  type ClearanceResult,
+  type UnitCode,
+} from "~/lib/calc";
 import type { ClearanceOutcome } from "./clearance-form";
 import type { FormValues } from "./outcome";
 import { followInputSystem, formatNumber } from "./units";
@@ -41,7 +49,14 @@ export function peekNote(outcome: ClearanceOutcome): string | undefined {
   if (!r) return undefined;
   const out = isOutOfSpec(r);
   const judged = judgedOf(outcome.kind, outcome.input);
-  return [r.verdict ? `${judged} ${out ? `out of spec (${r.verdict})` : "within spec"}` : null, r.hotCaution ? HOT_CAUTION_TEXT[r.hotCaution] : null].filter(Boolean).join(" · ") || undefined;
+  return (
+    [
+      r.verdict ? `${judged} ${out ? `out of spec (${r.verdict})` : "within spec"}` : null,
+      r.hotCaution ? HOT_CAUTION_TEXT[r.hotCaution] : null,
+    ]
+      .filter(Boolean)
+      .join(" · ") || undefined
+  );
 }
 
 /** The result in words and on the chart: what is judged and how, the markers, and the band they are judged against. */
@@ -54,14 +69,20 @@ export function clearanceView(outcome: ClearanceOutcome & { result: ClearanceRes
   const judged = judgedOf(kind, input);
   const measured = input.measuredGap !== undefined;
   const markers: Marker[] = [];
-  let band: { min_mm?: number; max_mm?: number } | undefined = input.spec ? { min_mm: mmOf(input.spec.min), max_mm: mmOf(input.spec.max) } : undefined;
+  let band: { min_mm?: number; max_mm?: number } | undefined = input.spec
+    ? { min_mm: mmOf(input.spec.min), max_mm: mmOf(input.spec.max) }
+    : undefined;
   let bandLabel = "Spec";
   if (kind === "piston-to-wall") {
     markers.push({ label: "Cold", value_mm: r.clearance_mm, tone: out ? "bad" : "cold" });
     if (r.hotClearance_mm !== undefined) markers.push({ label: "Hot", value_mm: r.hotClearance_mm, tone: hotBad ? "bad" : "hot" });
   } else if (kind === "bearing") {
     markers.push({ label: "Oil clearance", value_mm: r.clearance_mm, tone: out ? "bad" : "cold" });
-    markers.push({ label: "Shop guidance, 0.001 in per in", value_mm: (mmOf(input.journal) ?? 0) * OIL_CLEARANCE_RULE.perInchOfDiameter, tone: "hot" });
+    markers.push({
+      label: "Shop guidance, 0.001 in per in",
+      value_mm: (mmOf(input.journal) ?? 0) * OIL_CLEARANCE_RULE.perInchOfDiameter,
+      tone: "hot",
+    });
   } else {
     markers.push({ label: "Recommended", value_mm: r.recommendedGap_mm!, tone: "hot" });
     if (measured) markers.push({ label: "Measured", value_mm: r.clearance_mm, tone: out ? "bad" : "cold" });
@@ -73,13 +94,28 @@ export function clearanceView(outcome: ClearanceOutcome & { result: ClearanceRes
   const verdict = r.verdict
     ? `${out ? `${judged} out of spec: ${r.verdict} the ${r.verdict === "below" ? "minimum" : "maximum"}` : `${judged} within spec`}${kind === "ring-gap" && !input.spec ? " (against the shop guidance band)" : ""}`
     : undefined;
-  return { kind, out, hotBad, measured, markers, band, bandLabel, verdict, hotCaution: r.hotCaution && HOT_CAUTION_TEXT[r.hotCaution], mainLabel: judged };
+  return {
+    kind,
+    out,
+    hotBad,
+    measured,
+    markers,
+    band,
+    bandLabel,
+    verdict,
+    hotCaution: r.hotCaution && HOT_CAUTION_TEXT[r.hotCaution],
+    mainLabel: judged,
+  };
 }
 
 /** The material choices: the ones usual for this part first, then the rest, then a typed coefficient. */
 export function materialOptions(usual: typeof MATERIALS): { value: string; label: string }[] {
   const option = (m: (typeof MATERIALS)[number]) => ({ value: m.id, label: `${m.label}: ${formatNumber(m.alphaPerK * 1e6, 1)} µm/(m·K)` });
-  return [...usual.map(option), ...MATERIALS.filter((m) => !usual.includes(m)).map(option), { value: "custom", label: "Other: type its coefficient" }];
+  return [
+    ...usual.map(option),
+    ...MATERIALS.filter((m) => !usual.includes(m)).map(option),
+    { value: "custom", label: "Other: type its coefficient" },
+  ];
 }
 
 export const materialSource = (id: string | undefined): string | undefined => MATERIALS.find((m) => m.id === id)?.source;

@@ -17,7 +17,10 @@ export interface DistortionOutcome extends Outcome<DistortionResult> {
   blank: number;
 }
 
-export const DEFAULT_ANGLES = { diametral: "0, 30, 60, 90, 120, 150", radial: "0, 30, 60, 90, 120, 150, 180, 210, 240, 270, 300, 330" } as const;
+export const DEFAULT_ANGLES = {
+  diametral: "0, 30, 60, 90, 120, 150",
+  radial: "0, 30, 60, 90, 120, 150, 180, 210, 240, 270, 300, 330",
+} as const;
 
 // Invented readings for an 88.0 mm iron-lined bore, two-point gauge, 1 µm resolution:
 // with the torque plate on (the main state) and free (the compared state).
@@ -49,7 +52,9 @@ export function distortionDefaults(system: UnitSystem): FormValues {
     "out.small": system === "inch" ? "thou" : "um",
     "out.length": u.length,
   };
-  DEMO_PLATE.forEach((row, i) => row.forEach((d, j) => (v[`m.${i}.${j}`] = fieldValue(d, "mm", u.length, system === "inch" ? 1 : 0, true))));
+  DEMO_PLATE.forEach((row, i) =>
+    row.forEach((d, j) => (v[`m.${i}.${j}`] = fieldValue(d, "mm", u.length, system === "inch" ? 1 : 0, true))),
+  );
   DEMO_FREE.forEach((row, i) => row.forEach((d, j) => (v[`c.${i}.${j}`] = fieldValue(d, "mm", u.length, system === "inch" ? 1 : 0, true))));
   return v;
 }

@@ -131,6 +131,7 @@ export function deriveDistortion(next: FormValues, name: string, value: string, 
   if (name === "reading.unit") Object.assign(next, resultUnitsOfReadings(next));
   if (name === "mode") {
     const other = value === "radial" ? DEFAULT_ANGLES.diametral : DEFAULT_ANGLES.radial;
-    if (previous.angles?.replace(/\s/g, "") === other.replace(/\s/g, "")) next.angles = value === "radial" ? DEFAULT_ANGLES.radial : DEFAULT_ANGLES.diametral;
+    if (previous.angles?.replace(/\s/g, "") === other.replace(/\s/g, ""))
+      next.angles = value === "radial" ? DEFAULT_ANGLES.radial : DEFAULT_ANGLES.diametral;
   }
 }

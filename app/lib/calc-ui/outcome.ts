@@ -28,12 +28,7 @@ export function zodIssues(err: unknown): Issue[] | null {
 }
 
 /** Runs `fn(input)`, turning a ZodError into field errors through `fieldOf` (path → field name). */
-export function runChecked<R>(
-  fn: (input: never) => R,
-  input: unknown,
-  errors: FieldErrors,
-  fieldOf: (path: string) => string,
-): Outcome<R> {
+export function runChecked<R>(fn: (input: never) => R, input: unknown, errors: FieldErrors, fieldOf: (path: string) => string): Outcome<R> {
   if (Object.keys(errors).length > 0) return { input, errors };
   try {
     return { input, result: fn(input as never), errors };

@@ -32,8 +32,10 @@ export async function calcPageLoader<O, X extends object = object>(
  */
 export async function distortionPageLoader(request: Request) {
   const user = await requirePermission(request, "calc:use");
-  const initialOf = (prefill: FormValues | null) => initialForm(resultUnitsOfReadings(prefill ?? distortionDefaults(user.unitSystem)), runDistortionForm);
-  if (!new URL(request.url).searchParams.has("recording")) return { unitSystem: user.unitSystem, boreSource: null, prefill: null, initial: initialOf(null) };
+  const initialOf = (prefill: FormValues | null) =>
+    initialForm(resultUnitsOfReadings(prefill ?? distortionDefaults(user.unitSystem)), runDistortionForm);
+  if (!new URL(request.url).searchParams.has("recording"))
+    return { unitSystem: user.unitSystem, boreSource: null, prefill: null, initial: initialOf(null) };
   assertCan(request, user, "shop:read");
   const boreSource = await boreSourceFor(request);
   const prefill = boreSource && distortionValuesFor(boreSource, distortionDefaults(user.unitSystem));

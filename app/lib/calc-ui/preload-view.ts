@@ -23,7 +23,11 @@ export const overYieldLimit = (r: PreloadResult): boolean => (r.percentOfYield ?
 /** The limits for this thread at the model's torque per clamp load: at yield, at the limit, and the torque for the limit (SI). */
 export function yieldLimits(r: PreloadResult, yieldForce_N: number) {
   const share = YIELD_LIMIT_PERCENT / 100;
-  return { atYield_N: yieldForce_N, atLimit_N: share * yieldForce_N, torqueForLimit_Nm: share * yieldForce_N * (r.torque_Nm / r.preload_N) };
+  return {
+    atYield_N: yieldForce_N,
+    atLimit_N: share * yieldForce_N,
+    torqueForLimit_Nm: share * yieldForce_N * (r.torque_Nm / r.preload_N),
+  };
 }
 
 /** The friction model's split of the torque, each part with its share of the whole (%). */
@@ -41,7 +45,8 @@ export function torqueShares(r: PreloadResult): { what: string; torque_Nm: numbe
 export const shownWarnings = (r: PreloadResult): string[] => r.warnings.filter((w) => !(overYieldLimit(r) && /above 90 %/.test(w)));
 
 /** The nut-factor condition's name to store with saved readings ("" for a custom K). */
-export const lubeOf = (values: FormValues): string => NUT_FACTOR_PRESETS.find((p) => p.condition === values.nutCondition && p.condition !== "custom")?.label ?? "";
+export const lubeOf = (values: FormValues): string =>
+  NUT_FACTOR_PRESETS.find((p) => p.condition === values.nutCondition && p.condition !== "custom")?.label ?? "";
 
 /** Everything the result view needs besides the result: units, the yield figures, the model in words. */
 export function preloadView(outcome: PreloadOutcome, values: FormValues) {
@@ -53,9 +58,19 @@ export function preloadView(outcome: PreloadOutcome, values: FormValues) {
   };
   const r = outcome.result;
   const toTorque = values.direction === "preload-to-torque";
-  const model = values["method.kind"] === "friction" ? "friction model" : `K = ${(outcome.input as { method?: { k?: number } } | undefined)?.method?.k}`;
+  const model =
+    values["method.kind"] === "friction"
+      ? "friction model"
+      : `K = ${(outcome.input as { method?: { k?: number } } | undefined)?.method?.k}`;
   const yieldForce_N = r && yieldForceOf(r);
-  return { ...units, toTorque, modelLabel: `Model, ${model}`, over: r ? overYieldLimit(r) : false, yieldForce_N, limits: r && yieldForce_N !== undefined ? yieldLimits(r, yieldForce_N) : undefined };
+  return {
+    ...units,
+    toTorque,
+    modelLabel: `Model, ${model}`,
+    over: r ? overYieldLimit(r) : false,
+    yieldForce_N,
+    limits: r && yieldForce_N !== undefined ? yieldLimits(r, yieldForce_N) : undefined,
+  };
 }
 
 /** Keeps related fields in step as one types (see the module's comment). */

@@ -18,7 +18,10 @@ export const UNIT_CHOICES = {
 export type ChoiceKind = keyof typeof UNIT_CHOICES;
 
 /** Default units per unit system: "length" for parts (bores, pistons), "small" for clearances and gaps. */
-export const DEFAULT_UNITS: Record<UnitSystem, { length: UnitCode; small: UnitCode; torque: UnitCode; force: UnitCode; temperature: UnitCode; stress: UnitCode; modulus: UnitCode }> = {
+export const DEFAULT_UNITS: Record<
+  UnitSystem,
+  { length: UnitCode; small: UnitCode; torque: UnitCode; force: UnitCode; temperature: UnitCode; stress: UnitCode; modulus: UnitCode }
+> = {
   metric: { length: "mm", small: "mm", torque: "N.m", force: "kN", temperature: "degC", stress: "MPa", modulus: "GPa" },
   inch: { length: "in", small: "thou", torque: "ft.lbf", force: "lbf", temperature: "degF", stress: "ksi", modulus: "ksi" },
 };
@@ -40,7 +43,11 @@ export function systemOf(unit: string | undefined, fallback: UnitSystem = "metri
  * system, each named result field shows in that system's default ({ "out.force": "force" }).
  * The person can still pick the other system for a result afterwards.
  */
-export function followInputSystem(next: Record<string, string>, inputUnit: string, fields: Record<string, keyof (typeof DEFAULT_UNITS)["metric"]>): void {
+export function followInputSystem(
+  next: Record<string, string>,
+  inputUnit: string,
+  fields: Record<string, keyof (typeof DEFAULT_UNITS)["metric"]>,
+): void {
   const units = DEFAULT_UNITS[systemOf(inputUnit)];
   for (const [field, kind] of Object.entries(fields)) next[field] = units[kind];
 }
@@ -142,7 +149,10 @@ export function fieldValue(value: number, from: UnitCode, to: UnitCode, extraDec
  */
 export function parseNumber(raw: string | undefined | null): number | undefined {
   if (raw == null) return undefined;
-  let s = String(raw).trim().replace(/[\s\u00a0\u2009]/g, "").replace(/\u2212/g, "-");
+  let s = String(raw)
+    .trim()
+    .replace(/[\s\u00a0\u2009]/g, "")
+    .replace(/\u2212/g, "-");
   if (s === "") return undefined;
   if (!s.includes(".") && /^[-+]?\d+,\d+$/.test(s)) s = s.replace(",", ".");
   if (!/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(s)) return Number.NaN;

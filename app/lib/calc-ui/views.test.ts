@@ -8,7 +8,13 @@ import { overYieldLimit, torqueShares, yieldForceOf, yieldLimits } from "./prelo
 describe("Preload: the yield figures and the torque split", () => {
   // M12x1.5, class 12.9: ISO 898-1:2013 Table 3, Rp0.2 min 1100 MPa; stress area from ISO 898-1's
   // formula As = π/4·((d2 + d3)/2)² = 88.126 mm² (88.1 in its table). Clamp load at yield = Rp0.2·As.
-  const r = calculatePreload({ thread: "M12x1.5", direction: "torque-to-preload", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.15 }, material: { propertyClass: "12.9" } });
+  const r = calculatePreload({
+    thread: "M12x1.5",
+    direction: "torque-to-preload",
+    torque: { value: 110, unit: "N.m" },
+    method: { kind: "nut-factor", k: 0.15 },
+    material: { propertyClass: "12.9" },
+  });
 
   test("clamp load at yield is the minimum yield times the stress area (ISO 898-1 Table 3)", () => {
     expect(yieldForceOf(r)).toBeCloseTo(1100 * r.thread.stressArea_mm2, 6);
@@ -24,7 +30,12 @@ describe("Preload: the yield figures and the torque split", () => {
   });
 
   test("the friction model's torque split adds up to the whole (ISO 16047: pitch, thread and head friction)", () => {
-    const f = calculatePreload({ thread: "M12x1.5", direction: "preload-to-torque", preload: { value: 30, unit: "kN" }, method: { kind: "friction", muThread: 0.1, muHead: 0.1, headDiameter: { value: 15, unit: "mm" } } });
+    const f = calculatePreload({
+      thread: "M12x1.5",
+      direction: "preload-to-torque",
+      preload: { value: 30, unit: "kN" },
+      method: { kind: "friction", muThread: 0.1, muHead: 0.1, headDiameter: { value: 15, unit: "mm" } },
+    });
     const shares = torqueShares(f);
     expect(shares.map((s) => s.what)).toEqual(["Stretching the bolt", "Thread friction", "Head friction"]);
     expect(shares.reduce((a, s) => a + s.percent, 0)).toBeCloseTo(100, 9);
@@ -66,7 +77,12 @@ describe("Bore distortion: the measured dots and their drawing", () => {
 describe("Clearances: the verdict in words and the chart's band", () => {
   test("a ring gap without a spec is judged against the shop guidance band, recommended to +25 % (common practice, no published source)", () => {
     // 4.000 in bore × 0.0045 in/in = 0.018 in recommended (the rule of thumb, shop guidance)
-    const input = { kind: "ring-gap" as const, bore: { value: 4, unit: "in" as const }, gapPerBore: 0.0045, measuredGap: { value: 0.02, unit: "in" as const } };
+    const input = {
+      kind: "ring-gap" as const,
+      bore: { value: 4, unit: "in" as const },
+      gapPerBore: 0.0045,
+      measuredGap: { value: 0.02, unit: "in" as const },
+    };
     const r = calculateClearance(input);
     const v = clearanceView({ kind: "ring-gap", input, result: r, errors: {} });
     expect(v.bandLabel).toBe("Shop guidance band");

@@ -1,7 +1,17 @@
 import { describe, expect, test } from "vitest";
 import { ZodError } from "zod";
 import { hotPistonToWall } from "../../../tests/support/calc-inputs";
-import { HOT_CLEARANCE_MIN_PER_DIAMETER, MATERIALS, OIL_CLEARANCE_RULE, RING_GAP_FACTORS, calculateClearance, convert, materialById, meanAlphaFrom20, thermalGrowth } from "./index";
+import {
+  HOT_CLEARANCE_MIN_PER_DIAMETER,
+  MATERIALS,
+  OIL_CLEARANCE_RULE,
+  RING_GAP_FACTORS,
+  calculateClearance,
+  convert,
+  materialById,
+  meanAlphaFrom20,
+  thermalGrowth,
+} from "./index";
 
 describe("thermal expansion coefficients against named handbook tables", () => {
   test("Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (10⁻⁶ /°C)", () => {
@@ -25,8 +35,11 @@ describe("thermal expansion coefficients against named handbook tables", () => {
 });
 
 describe("part temperatures a material's figures do not cover", () => {
-  const hot = (pistonTemperature: { value: number; unit: string }, pistonMaterial: unknown = "forged-2618", boreTemperature = { value: 95, unit: "degC" }) =>
-    calculateClearance(hotPistonToWall({ pistonTemperature, pistonMaterial, boreTemperature }) as never).warnings.join(" ");
+  const hot = (
+    pistonTemperature: { value: number; unit: string },
+    pistonMaterial: unknown = "forged-2618",
+    boreTemperature = { value: 95, unit: "degC" },
+  ) => calculateClearance(hotPistonToWall({ pistonTemperature, pistonMaterial, boreTemperature }) as never).warnings.join(" ");
 
   test("every table material states the range of its coefficient and where it begins to melt, with a source", () => {
     for (const m of MATERIALS) {
@@ -56,7 +69,9 @@ describe("part temperatures a material's figures do not cover", () => {
   });
 
   test("a bore material without means past 100 °C still warns there (Callister B.6 gives one value, used over 20–100 °C)", () => {
-    expect(hot({ value: 250, unit: "degC" }, "forged-2618", { value: 150, unit: "degC" })).toMatch(/bore temperature \(150 °C\) is outside 20 °C to 100 °C/);
+    expect(hot({ value: 250, unit: "degC" }, "forged-2618", { value: 150, unit: "degC" })).toMatch(
+      /bore temperature \(150 °C\) is outside 20 °C to 100 °C/,
+    );
   });
 
   test("a coefficient typed by the user has no known range: no such warning", () => {
@@ -73,10 +88,10 @@ describe("part temperatures a material's figures do not cover", () => {
 // 200 and 300 °C figures here are from memory of those tables (2618: 22.3, 23.2, 24.1;
 // 4032: 19.4, 20.2, 21.0; A356: 22.5 and 23.5 µm/m·K to 200 and 300 °C).
 describe("a running piston, 200–300 °C, inside the piston alloys' figures", () => {
-  const C = (c: number) => c + 273.15;
+  const kelvin = (c: number) => c + 273.15;
 
   test("the means from 20 °C to 200 and 300 °C of each piston alloy (ASM Handbook Vol. 2 data sheets, value from memory)", () => {
-    const means = (id: Parameters<typeof materialById>[0]) => [200, 300].map((c) => meanAlphaFrom20(materialById(id), C(c)));
+    const means = (id: Parameters<typeof materialById>[0]) => [200, 300].map((c) => meanAlphaFrom20(materialById(id), kelvin(c)));
     expect(means("forged-2618")[0]).toBeCloseTo(23.2e-6, 12);
     expect(means("forged-2618")[1]).toBeCloseTo(24.1e-6, 12);
     expect(means("forged-4032")[0]).toBeCloseTo(20.2e-6, 12);
@@ -84,7 +99,7 @@ describe("a running piston, 200–300 °C, inside the piston alloys' figures", (
     expect(means("a356-t6")[0]).toBeCloseTo(22.5e-6, 12);
     expect(means("a356-t6")[1]).toBeCloseTo(23.5e-6, 12);
     for (const m of MATERIALS.filter((x) => x.use.includes("piston"))) {
-      expect(m.alphaRange.maxK, m.id).toBeCloseTo(C(300), 9);
+      expect(m.alphaRange.maxK, m.id).toBeCloseTo(kelvin(300), 9);
       expect(m.alphaRange.source, m.id).toMatch(/ASM Handbook, Vol\. 2 .*20–300 °C.*value from memory/);
     }
   });
@@ -92,7 +107,9 @@ describe("a running piston, 200–300 °C, inside the piston alloys' figures", (
   test("a 2618 piston at 250 °C: the mean interpolated between the 20–200 and 20–300 °C means, and no range warning", () => {
     // ᾱ(20→250 °C) = (23.2 + 24.1) / 2 = 23.65 µm/m·K (linear between the tabulated means)
     // hot piston = 87.930 × (1 + 23.65e-6 × 230) = 88.408295… mm; hot bore (grey iron, Callister B.6) = 88 × (1 + 11.4e-6 × 80)
-    const r = calculateClearance(hotPistonToWall({ pistonTemperature: { value: 250, unit: "degC" }, boreTemperature: { value: 100, unit: "degC" } }) as never);
+    const r = calculateClearance(
+      hotPistonToWall({ pistonTemperature: { value: 250, unit: "degC" }, boreTemperature: { value: 100, unit: "degC" } }) as never,
+    );
     expect(r.hotClearance_mm).toBeCloseTo(88 * (1 + 11.4e-6 * 80) - 87.93 * (1 + 23.65e-6 * 230), 12);
     expect(r.warnings.join(" ")).not.toMatch(/outside/);
     expect(r.hotCaution).toBe("seize");
@@ -100,11 +117,11 @@ describe("a running piston, 200–300 °C, inside the piston alloys' figures", (
 
   test("from an ambient other than 20 °C: the difference of the strains from 20 °C", () => {
     // 2618 from 30 °C to 250 °C: 23.65e-6 × 230 − 22.3e-6 × 10 = 5.2165e-3
-    expect(thermalGrowth(materialById("forged-2618"), C(30), C(250))).toBeCloseTo(23.65e-6 * 230 - 22.3e-6 * 10, 15);
+    expect(thermalGrowth(materialById("forged-2618"), kelvin(30), kelvin(250))).toBeCloseTo(23.65e-6 * 230 - 22.3e-6 * 10, 15);
     // up to 100 °C it is α·ΔT with the 20–100 °C mean (ASM: 22.3), whatever the ambient
-    expect(thermalGrowth(materialById("forged-2618"), C(15), C(95))).toBeCloseTo(22.3e-6 * 80, 15);
+    expect(thermalGrowth(materialById("forged-2618"), kelvin(15), kelvin(95))).toBeCloseTo(22.3e-6 * 80, 15);
     // and it is continuous at 100 °C, where the tabulated means take over
-    expect(thermalGrowth(materialById("forged-2618"), C(20), C(100.001))).toBeCloseTo(22.3e-6 * 80.001, 8);
+    expect(thermalGrowth(materialById("forged-2618"), kelvin(20), kelvin(100.001))).toBeCloseTo(22.3e-6 * 80.001, 8);
   });
 });
 
@@ -131,7 +148,12 @@ describe("piston-to-wall", () => {
       boreMaterial: "grey-cast-iron",
       pistonMaterial: "forged-2618",
     };
-    const r = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, thermal });
+    const r = calculateClearance({
+      kind: "piston-to-wall",
+      bore: { value: 88, unit: "mm" },
+      piston: { value: 87.93, unit: "mm" },
+      thermal,
+    });
     expect(r.clearance_mm).toBeCloseTo(0.07, 12);
     expect(r.hotClearance_mm).toBeCloseTo(hotBore - hotPiston, 12);
     expect(r.warnings.join(" ")).toMatch(/negative/);
@@ -150,7 +172,12 @@ describe("piston-to-wall", () => {
     });
     expect(f.hotClearance_mm).toBeCloseTo(hotBore - hotPiston, 9);
     // common spellings of the table's ids are accepted
-    const alias = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, thermal: { ...thermal, pistonMaterial: "2618" } });
+    const alias = calculateClearance({
+      kind: "piston-to-wall",
+      bore: { value: 88, unit: "mm" },
+      piston: { value: 87.93, unit: "mm" },
+      thermal: { ...thermal, pistonMaterial: "2618" },
+    });
     expect(alias.hotClearance_mm).toBeCloseTo(hotBore - hotPiston, 12);
   });
 
@@ -160,9 +187,20 @@ describe("piston-to-wall", () => {
     // hot piston = 87.935 × (1 + 22.3e-6 × 70) = 88.0722666… mm → hot clearance 0.0079895 mm
     // The limit, 0.00025 in per in of bore (0.022 mm here), is common practice, no published source.
     const thermal = (pistonC: number) =>
-      hotPistonToWall({ boreTemperature: { value: 100, unit: "degC" }, pistonTemperature: { value: pistonC, unit: "degC" }, boreMaterial: { alphaPerK: 11.4e-6 }, pistonMaterial: { alphaPerK: 22.3e-6 } }).thermal as never;
+      hotPistonToWall({
+        boreTemperature: { value: 100, unit: "degC" },
+        pistonTemperature: { value: pistonC, unit: "degC" },
+        boreMaterial: { alphaPerK: 11.4e-6 },
+        pistonMaterial: { alphaPerK: 22.3e-6 },
+      }).thermal as never;
     const spec = { min: { value: 0.05, unit: "mm" as const }, max: { value: 0.08, unit: "mm" as const } };
-    const tight = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.935, unit: "mm" }, thermal: thermal(90), spec });
+    const tight = calculateClearance({
+      kind: "piston-to-wall",
+      bore: { value: 88, unit: "mm" },
+      piston: { value: 87.935, unit: "mm" },
+      thermal: thermal(90),
+      spec,
+    });
     expect(tight.hotClearance_mm).toBeCloseTo(88 * (1 + 11.4e-6 * 80) - 87.935 * (1 + 22.3e-6 * 70), 12);
     expect(tight.hotClearance_mm).toBeCloseTo(0.008, 3);
     expect(tight.verdict).toBe("within"); // the cold clearance, 0.065 mm, is within 0.05–0.08
@@ -170,12 +208,22 @@ describe("piston-to-wall", () => {
     expect(tight.warnings.join(" ")).toMatch(/Hot clearance is near zero/);
     expect(HOT_CLEARANCE_MIN_PER_DIAMETER * 88).toBeCloseTo(0.022, 12);
     // 87.90 mm at 90 °C: hot clearance 88.080256 − 88.0372119 = 0.0430 mm, over the limit: no caution.
-    const roomy = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.9, unit: "mm" }, thermal: thermal(90) });
+    const roomy = calculateClearance({
+      kind: "piston-to-wall",
+      bore: { value: 88, unit: "mm" },
+      piston: { value: 87.9, unit: "mm" },
+      thermal: thermal(90),
+    });
     expect(roomy.hotClearance_mm).toBeCloseTo(0.043044, 5);
     expect(roomy.hotCaution).toBeUndefined();
     expect(roomy.warnings).toEqual([]);
     // negative: the seize warning, not the near-zero one
-    const seize = calculateClearance({ kind: "piston-to-wall", bore: { value: 88, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, thermal: thermal(150) });
+    const seize = calculateClearance({
+      kind: "piston-to-wall",
+      bore: { value: 88, unit: "mm" },
+      piston: { value: 87.93, unit: "mm" },
+      thermal: thermal(150),
+    });
     expect(seize.hotCaution).toBe("seize");
     expect(seize.warnings.join(" ")).not.toMatch(/near zero/);
   });
@@ -197,7 +245,9 @@ describe("piston-to-wall", () => {
     expect(below.warnings.join(" ")).toMatch(/below the spec minimum/);
     const above = calculateClearance({ ...base, piston: { value: 93.93, unit: "mm" }, spec });
     expect(above.verdict).toBe("above");
-    expect(calculateClearance({ ...base, piston: { value: 93.93, unit: "mm" }, spec: { min: { value: 0.04, unit: "mm" } } }).verdict).toBe("within");
+    expect(calculateClearance({ ...base, piston: { value: 93.93, unit: "mm" }, spec: { min: { value: 0.04, unit: "mm" } } }).verdict).toBe(
+      "within",
+    );
   });
 });
 

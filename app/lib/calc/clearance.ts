@@ -108,7 +108,8 @@ export function calculateClearance(input: ClearanceInput): ClearanceResult {
     const result: ClearanceResult = { clearance_mm, perInchOfDiameter: clearance_mm / bore, warnings };
     if (clearance_mm < 0) warnings.push(`The piston is larger than the bore: interference of ${fmt(-clearance_mm)}.`);
     else if (clearance_mm === 0) warnings.push("The piston is the same size as the bore: no clearance.");
-    if (Math.abs(clearance_mm) > 0.05 * bore) warnings.push("The clearance is more than 5 % of the bore; check the units of bore and piston.");
+    if (Math.abs(clearance_mm) > 0.05 * bore)
+      warnings.push("The clearance is more than 5 % of the bore; check the units of bore and piston.");
     if (v.thermal) {
       const t = v.thermal;
       const ambient = toSI(t.ambient.value, t.ambient.unit);

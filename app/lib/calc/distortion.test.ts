@@ -9,8 +9,7 @@ interface Shape {
   R0: number;
   orders: { k: number; A: number; phiDeg: number }[];
 }
-const radius = (s: Shape, thetaDeg: number) =>
-  s.R0 + s.orders.reduce((sum, o) => sum + o.A * Math.cos(o.k * rad(thetaDeg - o.phiDeg)), 0);
+const radius = (s: Shape, thetaDeg: number) => s.R0 + s.orders.reduce((sum, o) => sum + o.A * Math.cos(o.k * rad(thetaDeg - o.phiDeg)), 0);
 
 /** Radial readings at n equally spaced angles over 360°. */
 function radialReadings(s: Shape, n: number, depth = 20, start = 0): BoreReading[] {
@@ -53,9 +52,18 @@ describe("Fourier orders recovered from synthetic bores", () => {
   });
 
   test("phases are in [0°, 360°/k) and follow the readings' start angle and order", () => {
-    const s: Shape = { R0: 47, orders: [{ k: 2, A: 0.008, phiDeg: 170 }, { k: 3, A: 0.003, phiDeg: 115 }] };
+    const s: Shape = {
+      R0: 47,
+      orders: [
+        { k: 2, A: 0.008, phiDeg: 170 },
+        { k: 3, A: 0.003, phiDeg: 115 },
+      ],
+    };
     // start at 7°, give the readings shuffled and with angles written as negative or above 360°
-    const readings = radialReadings(s, 12, 30, 7).map((x, j) => ({ ...x, angleDeg: j % 3 === 0 ? x.angleDeg - 360 : j % 3 === 1 ? x.angleDeg + 360 : x.angleDeg }));
+    const readings = radialReadings(s, 12, 30, 7).map((x, j) => ({
+      ...x,
+      angleDeg: j % 3 === 0 ? x.angleDeg - 360 : j % 3 === 1 ? x.angleDeg + 360 : x.angleDeg,
+    }));
     readings.reverse();
     const r = calculateDistortion({ mode: "radial", readings });
     // φ2 = 170° lies in [0, 180); φ3 = 115° lies in [0, 120)
@@ -66,7 +74,10 @@ describe("Fourier orders recovered from synthetic bores", () => {
       expect(o.phaseDeg).toBeLessThan(360 / o.order);
     }
     // a phase given outside [0, 360/k) is reported inside it: cos(2(θ − 200°)) = cos(2(θ − 20°))
-    const wrapped = calculateDistortion({ mode: "radial", readings: radialReadings({ R0: 40, orders: [{ k: 2, A: 0.01, phiDeg: 200 }] }, 8) });
+    const wrapped = calculateDistortion({
+      mode: "radial",
+      readings: radialReadings({ R0: 40, orders: [{ k: 2, A: 0.01, phiDeg: 200 }] }, 8),
+    });
     expect(order(wrapped, 2)!.phaseDeg).toBeCloseTo(20, 7);
   });
 
@@ -76,7 +87,10 @@ describe("Fourier orders recovered from synthetic bores", () => {
     const r = calculateDistortion({ mode: "radial", readings });
     const fft = new FFT(n);
     const out = fft.createComplexArray() as number[];
-    fft.realTransform(out, readings.map((x) => x.radius!.value));
+    fft.realTransform(
+      out,
+      readings.map((x) => x.radius!.value),
+    );
     fft.completeSpectrum(out);
     for (let k = 1; k <= 7; k++) {
       const re = out[2 * k];

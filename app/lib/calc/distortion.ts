@@ -5,7 +5,7 @@
  * versus torque plate).
  */
 import type { z } from "zod";
-import { boreReadingSchema, distortionInputSchema, type DistortionInput } from "./schemas";
+import { type boreReadingSchema, distortionInputSchema, type DistortionInput } from "./schemas";
 import { toSI, type UnitCode } from "./units";
 
 /** One Fourier order of the radial deviation r(θ) = R0 + Σ A_k·cos(k·(θ − φ_k)). */
@@ -114,12 +114,7 @@ function phaseOf(c: number, s: number, k: number, amplitude: number, scale: numb
   return phi;
 }
 
-function analyseLevel(
-  depth_mm: number,
-  readings: RawReading[],
-  mode: Mode,
-  notes: Map<string, number[]>,
-): BoreLevel {
+function analyseLevel(depth_mm: number, readings: RawReading[], mode: Mode, notes: Map<string, number[]>): BoreLevel {
   const period = mode === "diametral" ? 180 : 360;
   // Distinct angles (normalised into [0, period)); repeats at one angle are averaged.
   const byAngle = new Map<number, { angle: number; sum: number; n: number }>();
@@ -163,8 +158,7 @@ function analyseLevel(
       orders.push({ order: k, radialAmplitude_mm: amp, phaseDeg: phaseOf(c, s, k, amp, mean) });
     }
     for (const k of [2, 4]) {
-      if (k > n - 1)
-        note(`Order ${k} cannot be resolved with ${n} angles over 180° (it needs ${k + 1}); it is left out`);
+      if (k > n - 1) note(`Order ${k} cannot be resolved with ${n} angles over 180° (it needs ${k + 1}); it is left out`);
     }
   } else {
     // r(θ) = R0 + Σ A_k cos(k(θ − φ_k)); order k needs 2k + 1 angles over 360°.
@@ -174,8 +168,7 @@ function analyseLevel(
       orders.push({ order: k, radialAmplitude_mm: amp, phaseDeg: phaseOf(c, s, k, amp, mean) });
     }
     for (const k of [2, 3, 4]) {
-      if (2 * k + 1 > n)
-        note(`Order ${k} cannot be resolved with ${n} angles over 360° (it needs ${2 * k + 1}); it is left out`);
+      if (2 * k + 1 > n) note(`Order ${k} cannot be resolved with ${n} angles over 360° (it needs ${2 * k + 1}); it is left out`);
     }
   }
 
@@ -201,7 +194,8 @@ function analyseLevel(
       // No opposite readings: the diameter from the fitted profile, in which only even orders survive.
       diameters = angles.map((a) => {
         let d = meanDiameter;
-        for (const o of orders) if (o.order % 2 === 0) d += 2 * o.radialAmplitude_mm * Math.cos(((o.order * (a - o.phaseDeg)) * Math.PI) / 180);
+        for (const o of orders)
+          if (o.order % 2 === 0) d += 2 * o.radialAmplitude_mm * Math.cos((o.order * (a - o.phaseDeg) * Math.PI) / 180);
         return d;
       });
       note("No radial reading has one opposite it; min and max diameter come from the fitted profile");
@@ -247,9 +241,7 @@ function analyseState(
     else groups.set(key, { depth: r.depth_mm, items: [r] });
   }
   const notes = new Map<string, number[]>();
-  const levels = [...groups.values()]
-    .sort((a, b) => a.depth - b.depth)
-    .map((g) => analyseLevel(g.depth, g.items, mode, notes));
+  const levels = [...groups.values()].sort((a, b) => a.depth - b.depth).map((g) => analyseLevel(g.depth, g.items, mode, notes));
 
   const warnings: string[] = [];
   for (const [msg, depths] of notes) {
@@ -310,7 +302,9 @@ export function calculateDistortion(input: DistortionInput): DistortionResult {
     }
     unmatched += other.levels.filter((o) => !main.levels.some((l) => Math.abs(o.depth_mm - l.depth_mm) < 1e-6)).length;
     if (unmatched > 0)
-      result.warnings.push(`${unmatched} level${unmatched > 1 ? "s have" : " has"} no reading at the same depth in the other state and ${unmatched > 1 ? "are" : "is"} left out of the differences.`);
+      result.warnings.push(
+        `${unmatched} level${unmatched > 1 ? "s have" : " has"} no reading at the same depth in the other state and ${unmatched > 1 ? "are" : "is"} left out of the differences.`,
+      );
     result.difference = {
       taper_mm: main.taper_mm - other.taper_mm,
       taperTopToBottom_mm: main.taperTopToBottom_mm - other.taperTopToBottom_mm,

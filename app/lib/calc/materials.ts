@@ -78,8 +78,22 @@ export const PROPERTY_CLASSES: readonly PropertyClass[] = [
     standard: "SAE J429",
     source: SAE_SOURCE,
     rows: [
-      { dMin_mm: 6.35, dMax_mm: 25.4, sizeRange: "1/4 in to 1 in", yield_MPa: 92 * KSI_MPA, proof_MPa: 85 * KSI_MPA, tensile_MPa: 120 * KSI_MPA },
-      { dMin_mm: 25.4, dMax_mm: 38.1, sizeRange: "over 1 in to 1-1/2 in", yield_MPa: 81 * KSI_MPA, proof_MPa: 74 * KSI_MPA, tensile_MPa: 105 * KSI_MPA },
+      {
+        dMin_mm: 6.35,
+        dMax_mm: 25.4,
+        sizeRange: "1/4 in to 1 in",
+        yield_MPa: 92 * KSI_MPA,
+        proof_MPa: 85 * KSI_MPA,
+        tensile_MPa: 120 * KSI_MPA,
+      },
+      {
+        dMin_mm: 25.4,
+        dMax_mm: 38.1,
+        sizeRange: "over 1 in to 1-1/2 in",
+        yield_MPa: 81 * KSI_MPA,
+        proof_MPa: 74 * KSI_MPA,
+        tensile_MPa: 105 * KSI_MPA,
+      },
     ],
   },
   {
@@ -87,7 +101,16 @@ export const PROPERTY_CLASSES: readonly PropertyClass[] = [
     label: "SAE J429 grade 8",
     standard: "SAE J429",
     source: SAE_SOURCE,
-    rows: [{ dMin_mm: 6.35, dMax_mm: 38.1, sizeRange: "1/4 in to 1-1/2 in", yield_MPa: 130 * KSI_MPA, proof_MPa: 120 * KSI_MPA, tensile_MPa: 150 * KSI_MPA }],
+    rows: [
+      {
+        dMin_mm: 6.35,
+        dMax_mm: 38.1,
+        sizeRange: "1/4 in to 1-1/2 in",
+        yield_MPa: 130 * KSI_MPA,
+        proof_MPa: 120 * KSI_MPA,
+        tensile_MPa: 150 * KSI_MPA,
+      },
+    ],
   },
 ];
 
@@ -142,7 +165,8 @@ export const NUT_FACTOR_PRESETS: readonly NutFactorPreset[] = [
     condition: "dry",
     label: "Dry, as received",
     k: 0.2,
-    source: "Shigley's Mechanical Engineering Design, 9th ed., §8-8 (K = 0.20 when the condition is not stated) and Table 8-15 (zinc-plated 0.20)",
+    source:
+      "Shigley's Mechanical Engineering Design, 9th ed., §8-8 (K = 0.20 when the condition is not stated) and Table 8-15 (zinc-plated 0.20)",
   },
   {
     condition: "dry-black-oxide",
@@ -235,7 +259,8 @@ const ASM_CAST_TO_300 =
   "ASM Handbook, Vol. 2 (1990), Properties of Cast Aluminum Alloys, 356.0 and A356.0 data sheet, coefficient of linear thermal expansion: means over 20–200 and 20–300 °C (value from memory); up to 100 °C Callister's Table B.6 value";
 
 // The iron–carbon eutectic, where cast irons begin to melt.
-const IRON_EUTECTIC = "Callister, Materials Science and Engineering: An Introduction, the iron–iron carbide phase diagram (Fig. 9.24): eutectic at 1147 °C";
+const IRON_EUTECTIC =
+  "Callister, Materials Science and Engineering: An Introduction, the iron–iron carbide phase diagram (Fig. 9.24): eutectic at 1147 °C";
 
 /** Piston and bore materials with α (per K) and the handbook table each value comes from. */
 export const MATERIALS: readonly Material[] = [
@@ -244,26 +269,36 @@ export const MATERIALS: readonly Material[] = [
     label: "Forged aluminium 2618 (piston)",
     alphaPerK: 22.3e-6,
     use: ["piston"],
-    source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, 22.3 µm/m·K, 20–100 °C; 23.2 to 200 °C, 24.1 to 300 °C (value from memory)",
+    source:
+      "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, 22.3 µm/m·K, 20–100 °C; 23.2 to 200 °C, 24.1 to 300 °C (value from memory)",
     alphaRange: { minK: C(20), maxK: C(300), source: ASM_WROUGHT_TO_300 },
     alphaMeansFrom20: [
       { toK: C(200), alphaPerK: 23.2e-6 },
       { toK: C(300), alphaPerK: 24.1e-6 },
     ],
-    solidus: { K: C(549), source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, melting range about 549–638 °C (value from memory, approximate)" },
+    solidus: {
+      K: C(549),
+      source:
+        "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 2618, melting range about 549–638 °C (value from memory, approximate)",
+    },
   },
   {
     id: "forged-4032",
     label: "Forged aluminium 4032 (piston)",
     alphaPerK: 19.4e-6,
     use: ["piston"],
-    source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, 19.4 µm/m·K, 20–100 °C; 20.2 to 200 °C, 21.0 to 300 °C (value from memory)",
+    source:
+      "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, 19.4 µm/m·K, 20–100 °C; 20.2 to 200 °C, 21.0 to 300 °C (value from memory)",
     alphaRange: { minK: C(20), maxK: C(300), source: ASM_WROUGHT_TO_300 },
     alphaMeansFrom20: [
       { toK: C(200), alphaPerK: 20.2e-6 },
       { toK: C(300), alphaPerK: 21.0e-6 },
     ],
-    solidus: { K: C(532), source: "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, melting range about 532–571 °C (value from memory, approximate)" },
+    solidus: {
+      K: C(532),
+      source:
+        "ASM Handbook, Vol. 2 (1990), Properties of Wrought Aluminum and Aluminum Alloys: 4032, melting range about 532–571 °C (value from memory, approximate)",
+    },
   },
   {
     id: "a356-t6",
@@ -277,14 +312,19 @@ export const MATERIALS: readonly Material[] = [
       { toK: C(200), alphaPerK: 22.5e-6 },
       { toK: C(300), alphaPerK: 23.5e-6 },
     ],
-    solidus: { K: C(555), source: "ASM Handbook, Vol. 2 (1990), Properties of Cast Aluminum Alloys: A356.0, melting range about 555–615 °C (value from memory, approximate)" },
+    solidus: {
+      K: C(555),
+      source:
+        "ASM Handbook, Vol. 2 (1990), Properties of Cast Aluminum Alloys: A356.0, melting range about 555–615 °C (value from memory, approximate)",
+    },
   },
   {
     id: "grey-cast-iron",
     label: "Grey cast iron (liner or block)",
     alphaPerK: 11.4e-6,
     use: ["bore"],
-    source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (gray irons G1800–G4000): 11.4 × 10⁻⁶ /°C",
+    source:
+      "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (gray irons G1800–G4000): 11.4 × 10⁻⁶ /°C",
     alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
     solidus: { K: C(1147), source: IRON_EUTECTIC },
   },
@@ -294,8 +334,14 @@ export const MATERIALS: readonly Material[] = [
     alphaPerK: 11.0e-6,
     use: ["bore"],
     // From memory of the handbook's physical-properties table, not checked against it: verify.
-    source: "ASM Handbook, Vol. 1 (1990), Stefanescu, Compacted Graphite Iron, physical properties: about 11 µm/m·K near room temperature (approximate)",
-    alphaRange: { minK: C(20), maxK: C(100), source: "ASM Handbook, Vol. 1 (1990), Compacted Graphite Iron: given near room temperature; used as a 20–100 °C mean (common practice, no published source)" },
+    source:
+      "ASM Handbook, Vol. 1 (1990), Stefanescu, Compacted Graphite Iron, physical properties: about 11 µm/m·K near room temperature (approximate)",
+    alphaRange: {
+      minK: C(20),
+      maxK: C(100),
+      source:
+        "ASM Handbook, Vol. 1 (1990), Compacted Graphite Iron: given near room temperature; used as a 20–100 °C mean (common practice, no published source)",
+    },
     solidus: { K: C(1147), source: IRON_EUTECTIC },
   },
   {
@@ -305,7 +351,11 @@ export const MATERIALS: readonly Material[] = [
     use: ["fastener", "connecting rod"],
     source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (steel alloy 4340): 12.3 × 10⁻⁶ /°C",
     alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
-    solidus: { K: C(1450), source: "Callister, the iron–iron carbide phase diagram (Fig. 9.24): the γ solidus at 0.40 wt% C read as about 1450 °C (alloying lowers it slightly; approximate)" },
+    solidus: {
+      K: C(1450),
+      source:
+        "Callister, the iron–iron carbide phase diagram (Fig. 9.24): the γ solidus at 0.40 wt% C read as about 1450 °C (alloying lowers it slightly; approximate)",
+    },
   },
   {
     id: "ti-6al-4v",
@@ -314,7 +364,11 @@ export const MATERIALS: readonly Material[] = [
     use: ["fastener", "connecting rod"],
     source: "Callister, Materials Science and Engineering: An Introduction, Appendix B, Table B.6 (alloy Ti-6Al-4V): 8.6 × 10⁻⁶ /°C",
     alphaRange: { minK: C(20), maxK: C(100), source: CALLISTER_ALPHA_RANGE },
-    solidus: { K: C(1604), source: "ASM Handbook, Vol. 2 (1990), Titanium and Titanium Alloys: Ti-6Al-4V, melting range about 1604–1660 °C (value from memory, approximate)" },
+    solidus: {
+      K: C(1604),
+      source:
+        "ASM Handbook, Vol. 2 (1990), Titanium and Titanium Alloys: Ti-6Al-4V, melting range about 1604–1660 °C (value from memory, approximate)",
+    },
   },
 ];
 
@@ -392,8 +446,18 @@ export interface RingGapFactor {
  */
 export const RING_GAP_FACTORS: readonly RingGapFactor[] = [
   { application: "street-na", label: "Street, naturally aspirated", gapPerBore: 0.004, guidance: "shop guidance (common practice)" },
-  { application: "performance-na", label: "Performance, naturally aspirated", gapPerBore: 0.0045, guidance: "shop guidance (common practice)" },
-  { application: "boosted-street", label: "Turbo or supercharged, street", gapPerBore: 0.0055, guidance: "shop guidance (common practice)" },
+  {
+    application: "performance-na",
+    label: "Performance, naturally aspirated",
+    gapPerBore: 0.0045,
+    guidance: "shop guidance (common practice)",
+  },
+  {
+    application: "boosted-street",
+    label: "Turbo or supercharged, street",
+    gapPerBore: 0.0055,
+    guidance: "shop guidance (common practice)",
+  },
   { application: "nitrous", label: "Nitrous oxide", gapPerBore: 0.006, guidance: "shop guidance (common practice)" },
   { application: "boosted-race", label: "Turbo or supercharged, race", gapPerBore: 0.0065, guidance: "shop guidance (common practice)" },
 ];

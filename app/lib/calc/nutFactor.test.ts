@@ -45,7 +45,14 @@ describe("fitNutFactor", () => {
     //   44 N·m / (20 000 N × 0.010 m) = 0.22
     //   54 N·m / (30 000 N × 0.010 m) = 0.18
     // mean 0.20; sample std dev sqrt((0 + 0.02² + 0.02²)/2) = 0.02; CV = 0.1
-    const fit = fitNutFactor(pts([[20, 10000], [44, 20000], [54, 30000]]), "M10");
+    const fit = fitNutFactor(
+      pts([
+        [20, 10000],
+        [44, 20000],
+        [54, 30000],
+      ]),
+      "M10",
+    );
     expect(fit.kStdDev).toBeCloseTo(0.02, 12);
     expect(fit.kCoefficientOfVariation).toBeCloseTo(0.1, 12);
     // Least squares through the origin: slope = ΣTF/ΣT² = (20·1e4 + 44·2e4 + 54·3e4)/(20² + 44² + 54²)
@@ -78,7 +85,13 @@ describe("fitNutFactor", () => {
       // slope = ΣTF/ΣT² = (10·10 000 + 20·30 000)/(10² + 20²) = 700 000/500 = 1400
       // residuals 10 000 − 14 000 = −4000 and 30 000 − 28 000 = 2000: SSres = 2e7
       // ΣF² = 1e8 + 9e8 = 1e9, so R² = 1 − 2e7/1e9 = 0.98 (about the mean: 1 − 2e7/2e8 = 0.9)
-      const fit = fitNutFactor(pts([[10, 10000], [20, 30000]]), "M10");
+      const fit = fitNutFactor(
+        pts([
+          [10, 10000],
+          [20, 30000],
+        ]),
+        "M10",
+      );
       expect(fit.slope_N_per_Nm).toBeCloseTo(1400, 9);
       expect(fit.rSquared).toBeCloseTo(0.98, 12);
       const m = mathjsFit([10, 20], [10000, 30000]);
@@ -88,7 +101,13 @@ describe("fitNutFactor", () => {
 
     test("two nearly equal clamp loads: R² stays in [0, 1] and agrees with mathjs", () => {
       // About the mean, SStot = 2·(0.0015 N)² and R² would be about −4e13.
-      const fit = fitNutFactor(pts([[50, 30000], [100, 30000.003]]), "M12x1.5");
+      const fit = fitNutFactor(
+        pts([
+          [50, 30000],
+          [100, 30000.003],
+        ]),
+        "M12x1.5",
+      );
       const m = mathjsFit([50, 100], [30000, 30000.003]);
       expect(fit.rSquared).toBeGreaterThanOrEqual(0);
       expect(fit.rSquared).toBeLessThanOrEqual(1);
@@ -99,12 +118,18 @@ describe("fitNutFactor", () => {
     test("any bench readings give R² in [0, 1], equal to mathjs's (fast-check)", () => {
       fc.assert(
         fc.property(
-          fc.array(fc.tuple(fc.double({ min: 1, max: 500, noNaN: true }), fc.double({ min: 100, max: 2e5, noNaN: true })), { minLength: 1, maxLength: 10 }),
+          fc.array(fc.tuple(fc.double({ min: 1, max: 500, noNaN: true }), fc.double({ min: 100, max: 2e5, noNaN: true })), {
+            minLength: 1,
+            maxLength: 10,
+          }),
           (rows) => {
             const fit = fitNutFactor(pts(rows), "M12x1.5");
             expect(fit.rSquared).toBeGreaterThanOrEqual(0);
             expect(fit.rSquared).toBeLessThanOrEqual(1);
-            const m = mathjsFit(rows.map((r) => r[0]), rows.map((r) => r[1]));
+            const m = mathjsFit(
+              rows.map((r) => r[0]),
+              rows.map((r) => r[1]),
+            );
             expect(Math.abs(fit.rSquared - Math.min(1, Math.max(0, m.rSquared)))).toBeLessThan(1e-9);
           },
         ),
@@ -131,7 +156,13 @@ describe("fitNutFactor", () => {
     });
 
     test("torques 0.01 % apart are different settings: no warning", () => {
-      const fit = fitNutFactor(pts([[100, 40000], [100.01, 41000]]), "M12x1.5");
+      const fit = fitNutFactor(
+        pts([
+          [100, 40000],
+          [100.01, 41000],
+        ]),
+        "M12x1.5",
+      );
       expect(fit.warnings.join(" ")).not.toMatch(/same torque/);
     });
   });
@@ -177,11 +208,21 @@ describe("fitNutFactor", () => {
       throw new Error("did not throw");
     };
     expect(paths(() => fitNutFactor([], "M12x1.5"))).toContain("points");
-    expect(paths(() => fitNutFactor(pts([[50, 20000], [60, 0]]), "M12x1.5"))).toContain("points.1.preload.value");
+    expect(
+      paths(() =>
+        fitNutFactor(
+          pts([
+            [50, 20000],
+            [60, 0],
+          ]),
+          "M12x1.5",
+        ),
+      ),
+    ).toContain("points.1.preload.value");
     expect(paths(() => fitNutFactor(pts([[Number.NaN, 20000]]), "M12x1.5"))).toContain("points.0.torque.value");
     expect(paths(() => fitNutFactor(pts([[50, 20000]]), "M13x1.5"))).toContain("thread");
-    expect(
-      paths(() => fitNutFactor([{ torque: { value: 50, unit: "mm" as "N.m" }, preload: { value: 1, unit: "kN" } }], "M12")),
-    ).toContain("points.0.torque.unit");
+    expect(paths(() => fitNutFactor([{ torque: { value: 50, unit: "mm" as "N.m" }, preload: { value: 1, unit: "kN" } }], "M12"))).toContain(
+      "points.0.torque.unit",
+    );
   });
 });

@@ -95,7 +95,8 @@ export function fitNutFactor(points: NutFactorPoint[], thread: string): NutFacto
 
   if (n >= 2 && cv > 0.1)
     warnings.push(`The per-point K scatters by ${Math.round(cv * 1000) / 10} % (coefficient of variation above 10 %); check the readings.`);
-  if (k < 0.05 || k > 0.5) warnings.push(`An effective nut factor of ${Math.round(k * 1000) / 1000} is unusual; check the units of the readings.`);
+  if (k < 0.05 || k > 0.5)
+    warnings.push(`An effective nut factor of ${Math.round(k * 1000) / 1000} is unusual; check the units of the readings.`);
   if (n >= 2 && T.every((t) => sameTorque(t, T[0])))
     warnings.push("All points have the same torque: the fit shows the scatter at one torque, not the trend.");
 

@@ -80,7 +80,7 @@ describe("friction model (ISO 16047 / VDI 2230 form)", () => {
       method: { kind: "friction", muThread: 0.1, muHead: 0.14, headDiameter: { value: 14.5, unit: "mm" } },
     });
     const d2 = 10 - 0.649519 * 1.25;
-    const vdi = 30000 * (0.16 * 1.25 + 0.58 * d2 * 0.1 + (0.14 * 14.5) / 2) / 1000;
+    const vdi = (30000 * (0.16 * 1.25 + 0.58 * d2 * 0.1 + (0.14 * 14.5) / 2)) / 1000;
     expect(Math.abs(r.torque_Nm - vdi) / vdi).toBeLessThan(0.005);
   });
 

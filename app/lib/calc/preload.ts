@@ -99,7 +99,9 @@ export function calculatePreload(input: PreloadInput): PreloadResult {
   const stress_MPa = preload_N / thread.stressArea_mm2;
   const result: PreloadResult = { preload_N, torque_Nm, thread, stress_MPa, warnings };
   if (stress_MPa > 2000)
-    warnings.push(`The stress (${Math.round(stress_MPa)} MPa) is beyond the tensile strength of any bolt steel; check the inputs and their units.`);
+    warnings.push(
+      `The stress (${Math.round(stress_MPa)} MPa) is beyond the tensile strength of any bolt steel; check the inputs and their units.`,
+    );
 
   if (v.material) {
     let yield_MPa: number;
@@ -123,8 +125,7 @@ export function calculatePreload(input: PreloadInput): PreloadResult {
     result.percentOfYield = percent;
     if (percent > 90)
       warnings.push(`The stress (${round1(stress_MPa)} MPa) is ${round1(percent)} % of the yield strength of ${label}: above 90 %.`);
-    if (percent > 100)
-      warnings.push(`The stress passes the yield strength (${round1(percent)} %): the bolt would yield at this preload.`);
+    if (percent > 100) warnings.push(`The stress passes the yield strength (${round1(percent)} %): the bolt would yield at this preload.`);
   }
 
   if (v.grip) {

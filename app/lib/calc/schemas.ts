@@ -14,10 +14,9 @@ const finiteNumber = z.number({ error: "must be a finite number" });
 /** Any quantity `{ value, unit }` with a finite value and one of the contract's unit codes. */
 export const quantitySchema = z.object({
   value: finiteNumber,
-  unit: z.enum(
-    [...UNIT_CODES.length, ...UNIT_CODES.force, ...UNIT_CODES.torque, ...UNIT_CODES.stress, ...UNIT_CODES.temperature],
-    { error: "unknown unit code" },
-  ),
+  unit: z.enum([...UNIT_CODES.length, ...UNIT_CODES.force, ...UNIT_CODES.torque, ...UNIT_CODES.stress, ...UNIT_CODES.temperature], {
+    error: "unknown unit code",
+  }),
 });
 
 interface Bounds {
@@ -123,7 +122,10 @@ export function resolvePropertyClass(name: string): PropertyClassId | undefined 
   if (typeof name !== "string") return undefined;
   const t = name.trim();
   if ((PROPERTY_CLASS_IDS as readonly string[]).includes(t)) return t as PropertyClassId;
-  const key = t.toLowerCase().replace(/^iso\s*898-1\s*/, "").replace(/^class\s*/, "");
+  const key = t
+    .toLowerCase()
+    .replace(/^iso\s*898-1\s*/, "")
+    .replace(/^class\s*/, "");
   return PROPERTY_CLASS_ALIASES.get(key) ?? PROPERTY_CLASS_ALIASES.get(key.replace(/[^a-z0-9]/g, ""));
 }
 
@@ -271,14 +273,12 @@ const partDiameter = (what: string) => kindQuantity("length", { what, gt: 0, ge:
 const specLimit = kindQuantity("length", { what: "spec limit", ge: -1, le: 1, show: "mm" });
 
 /** Optional spec band for a clearance: min and/or max (lengths). */
-export const specSchema = z
-  .object({ min: specLimit.optional(), max: specLimit.optional() })
-  .superRefine((s, ctx) => {
-    if (s.min === undefined && s.max === undefined)
-      ctx.addIssue({ code: "custom", message: "a spec needs a min, a max or both", path: ["min"] });
-    if (s.min && s.max && toSI(s.min.value, s.min.unit) > toSI(s.max.value, s.max.unit))
-      ctx.addIssue({ code: "custom", message: "spec min is above spec max", path: ["max"] });
-  });
+export const specSchema = z.object({ min: specLimit.optional(), max: specLimit.optional() }).superRefine((s, ctx) => {
+  if (s.min === undefined && s.max === undefined)
+    ctx.addIssue({ code: "custom", message: "a spec needs a min, a max or both", path: ["min"] });
+  if (s.min && s.max && toSI(s.min.value, s.min.unit) > toSI(s.max.value, s.max.unit))
+    ctx.addIssue({ code: "custom", message: "spec min is above spec max", path: ["max"] });
+});
 
 /** A material for thermal growth: an id of the material table (or a common spelling of it) or `{ alphaPerK }`. */
 const unknownMaterial = `unknown material: use one of ${MATERIAL_IDS.join(", ")} or { "alphaPerK": number }`;
@@ -350,11 +350,9 @@ export const ringGapInputSchema = z.object({
 });
 
 /** Clearance calculator input: one of piston-to-wall, bearing, ring-gap (by `kind`). */
-export const clearanceInputSchema = z.discriminatedUnion(
-  "kind",
-  [pistonToWallInputSchema, bearingInputSchema, ringGapInputSchema],
-  { error: 'kind must be "piston-to-wall", "bearing" or "ring-gap"' },
-);
+export const clearanceInputSchema = z.discriminatedUnion("kind", [pistonToWallInputSchema, bearingInputSchema, ringGapInputSchema], {
+  error: 'kind must be "piston-to-wall", "bearing" or "ring-gap"',
+});
 
 // ---------------------------------------------------------------------------------------------
 // Types

@@ -32,7 +32,9 @@ describe("conversion factors against NIST SP 811 Appendix B", () => {
     // docs/calculations.md, "Quantities and unit codes".
     expect(convert(1, "in", "mm")).toBe(25.4);
     expect(convert(1, "lbf", "N")).toBe(4.4482216152605);
-    expect(convert(1, "ft.lbf", "N.m")).toBeCloseTo(1.3558179483314004, 15);
+    // 1 ft·lbf = 0.3048 m × 4.4482216152605 N = 1.3558179483314004 N·m (NIST SP 811, B.8), written as the product:
+    // the 17-digit decimal is not a double.
+    expect(convert(1, "ft.lbf", "N.m")).toBeCloseTo(0.3048 * 4.4482216152605, 15);
   });
 
   test("temperatures are affine (SP 811 B.8: T/K = t/°C + 273.15; T/K = (t/°F + 459.67)/1.8)", () => {
@@ -146,10 +148,15 @@ describe("convert: temperatures below absolute zero are refused", () => {
   test("any value below absolute zero is refused in every temperature unit (fast-check)", () => {
     const codes = UNIT_CODES.temperature;
     fc.assert(
-      fc.property(fc.constantFrom(...codes), fc.constantFrom(...codes), fc.double({ min: 1e-6, max: 1e6, noNaN: true }), (from, to, below) => {
-        const zero = mathUnit(0, "K").toNumber(from);
-        expect(() => convert(zero - below, from, to)).toThrow(ZodError);
-      }),
+      fc.property(
+        fc.constantFrom(...codes),
+        fc.constantFrom(...codes),
+        fc.double({ min: 1e-6, max: 1e6, noNaN: true }),
+        (from, to, below) => {
+          const zero = mathUnit(0, "K").toNumber(from);
+          expect(() => convert(zero - below, from, to)).toThrow(ZodError);
+        },
+      ),
     );
   });
 });

@@ -94,7 +94,7 @@ export function unitLabel(code: UnitCode): string {
 
 /** True when `code` is one of the contract's unit codes. */
 export function isUnitCode(code: unknown): code is UnitCode {
-  return typeof code === "string" && Object.prototype.hasOwnProperty.call(UNITS, code);
+  return typeof code === "string" && Object.hasOwn(UNITS, code);
 }
 
 /** The kind of a unit code, or undefined for an unknown code. */

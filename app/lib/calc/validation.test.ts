@@ -42,9 +42,21 @@ describe("preload: invalid input is a ZodError with a path", () => {
     ["thread not a string", { thread: 12 }, "thread"],
     ["zero nut factor", { method: { kind: "nut-factor", k: 0 } }, "method.k"],
     ["nut factor above 1", { method: { kind: "nut-factor", k: 1.5 } }, "method.k"],
-    ["friction above 1", { method: { kind: "friction", muThread: 1.2, muHead: 0.1, headDiameter: { value: 17, unit: "mm" } } }, "method.muThread"],
-    ["negative head friction", { method: { kind: "friction", muThread: 0.1, muHead: -0.1, headDiameter: { value: 17, unit: "mm" } } }, "method.muHead"],
-    ["head diameter in N", { method: { kind: "friction", muThread: 0.1, muHead: 0.1, headDiameter: { value: 17, unit: "N" } } }, "method.headDiameter.unit"],
+    [
+      "friction above 1",
+      { method: { kind: "friction", muThread: 1.2, muHead: 0.1, headDiameter: { value: 17, unit: "mm" } } },
+      "method.muThread",
+    ],
+    [
+      "negative head friction",
+      { method: { kind: "friction", muThread: 0.1, muHead: -0.1, headDiameter: { value: 17, unit: "mm" } } },
+      "method.muHead",
+    ],
+    [
+      "head diameter in N",
+      { method: { kind: "friction", muThread: 0.1, muHead: 0.1, headDiameter: { value: 17, unit: "N" } } },
+      "method.headDiameter.unit",
+    ],
     ["unknown method", { method: { kind: "guess" } }, "method.kind"],
     ["unknown property class", { material: { propertyClass: "9.9" } }, "material.propertyClass"],
     ["yield in mm", { material: { yieldStrength: { value: 900, unit: "mm" } } }, "material.yieldStrength.unit"],
@@ -57,8 +69,14 @@ describe("preload: invalid input is a ZodError with a path", () => {
 
   test("the quantity for the direction is required", () => {
     expect(issuePaths(() => calculatePreload({ thread: "M10", method: nut }))).toContain("torque");
-    expect(issuePaths(() => calculatePreload({ thread: "M10", direction: "preload-to-torque", torque: { value: 50, unit: "N.m" }, method: nut }))).toContain("preload");
-    expect(issuePaths(() => calculatePreload({ thread: "M10", direction: "preload-to-torque", preload: { value: 0, unit: "kN" }, method: nut }))).toContain("preload.value");
+    expect(
+      issuePaths(() =>
+        calculatePreload({ thread: "M10", direction: "preload-to-torque", torque: { value: 50, unit: "N.m" }, method: nut }),
+      ),
+    ).toContain("preload");
+    expect(
+      issuePaths(() => calculatePreload({ thread: "M10", direction: "preload-to-torque", preload: { value: 0, unit: "kN" }, method: nut })),
+    ).toContain("preload.value");
   });
 
   test("threadGeometry and the schema agree on unknown threads", () => {
@@ -88,15 +106,28 @@ describe("names of the module's tables: only the tables' own entries", () => {
   });
 
   test("common spellings still resolve, and the parsed input names the table's id", () => {
-    const p = preloadInputSchema.parse({ thread: "M12x1.5", torque: { value: 80, unit: "N.m" }, method: nut, material: { propertyClass: "Grade 8" } });
+    const p = preloadInputSchema.parse({
+      thread: "M12x1.5",
+      torque: { value: 80, unit: "N.m" },
+      method: nut,
+      material: { propertyClass: "Grade 8" },
+    });
     expect(p.material?.propertyClass).toBe("SAE-8");
     const c = clearanceInputSchema.parse(hotPistonToWall({ pistonMaterial: "2618", boreMaterial: "CGI" }));
-    expect(c.kind === "piston-to-wall" && c.thermal).toMatchObject({ pistonMaterial: "forged-2618", boreMaterial: "compacted-graphite-iron" });
+    expect(c.kind === "piston-to-wall" && c.thermal).toMatchObject({
+      pistonMaterial: "forged-2618",
+      boreMaterial: "compacted-graphite-iron",
+    });
   });
 });
 
 describe("distortion and clearance: invalid input is a ZodError with a path", () => {
-  const reading = (over: Record<string, unknown> = {}) => ({ depth: { value: 10, unit: "mm" }, angleDeg: 0, diameter: { value: 88, unit: "mm" }, ...over });
+  const reading = (over: Record<string, unknown> = {}) => ({
+    depth: { value: 10, unit: "mm" },
+    angleDeg: 0,
+    diameter: { value: 88, unit: "mm" },
+    ...over,
+  });
 
   test.each([
     ["no readings", { readings: [] }, "readings"],
@@ -108,7 +139,11 @@ describe("distortion and clearance: invalid input is a ZodError with a path", ()
     ["negative depth", { readings: [reading({ depth: { value: -1, unit: "mm" } })] }, "readings.0.depth.value"],
     ["radial reading without radius", { mode: "radial", readings: [reading()] }, "readings.0.radius"],
     ["unknown mode", { mode: "three-point", readings: [reading()] }, "mode"],
-    ["bad compared state", { readings: [reading()], compareTo: { readings: [reading({ diameter: undefined })] } }, "compareTo.readings.0.diameter"],
+    [
+      "bad compared state",
+      { readings: [reading()], compareTo: { readings: [reading({ diameter: undefined })] } },
+      "compareTo.readings.0.diameter",
+    ],
   ])("distortion: %s", (_what, input, path) => {
     expect(issuePaths(() => calculateDistortion(input as never))).toContain(path);
   });
@@ -121,17 +156,50 @@ describe("distortion and clearance: invalid input is a ZodError with a path", ()
     ["absurd bore", { kind: "piston-to-wall", bore: q(1e12), piston: q(87.9) }, "bore.value"],
     [
       "below absolute zero",
-      { kind: "piston-to-wall", bore: q(88), piston: q(87.9), thermal: { ambient: q(-300, "degC"), boreTemperature: q(90, "degC"), pistonTemperature: q(150, "degC"), boreMaterial: "grey-cast-iron", pistonMaterial: "forged-2618" } },
+      {
+        kind: "piston-to-wall",
+        bore: q(88),
+        piston: q(87.9),
+        thermal: {
+          ambient: q(-300, "degC"),
+          boreTemperature: q(90, "degC"),
+          pistonTemperature: q(150, "degC"),
+          boreMaterial: "grey-cast-iron",
+          pistonMaterial: "forged-2618",
+        },
+      },
       "thermal.ambient.value",
     ],
     [
       "unknown material",
-      { kind: "piston-to-wall", bore: q(88), piston: q(87.9), thermal: { ambient: q(20, "degC"), boreTemperature: q(90, "degC"), pistonTemperature: q(150, "degC"), boreMaterial: "unobtainium", pistonMaterial: "forged-2618" } },
+      {
+        kind: "piston-to-wall",
+        bore: q(88),
+        piston: q(87.9),
+        thermal: {
+          ambient: q(20, "degC"),
+          boreTemperature: q(90, "degC"),
+          pistonTemperature: q(150, "degC"),
+          boreMaterial: "unobtainium",
+          pistonMaterial: "forged-2618",
+        },
+      },
       "thermal.boreMaterial",
     ],
     [
       "alpha typed in µm/m·K",
-      { kind: "piston-to-wall", bore: q(88), piston: q(87.9), thermal: { ambient: q(20, "degC"), boreTemperature: q(90, "degC"), pistonTemperature: q(150, "degC"), boreMaterial: "grey-cast-iron", pistonMaterial: { alphaPerK: 22.3 } } },
+      {
+        kind: "piston-to-wall",
+        bore: q(88),
+        piston: q(87.9),
+        thermal: {
+          ambient: q(20, "degC"),
+          boreTemperature: q(90, "degC"),
+          pistonTemperature: q(150, "degC"),
+          boreMaterial: "grey-cast-iron",
+          pistonMaterial: { alphaPerK: 22.3 },
+        },
+      },
       "thermal.pistonMaterial.alphaPerK",
     ],
     ["bearing without bore", { kind: "bearing", journal: q(50) }, "bearingBore"],
@@ -166,8 +234,13 @@ describe("fuzz: any input gives a ZodError or a result with only finite numbers 
     fc.oneof({ arbitrary: fc.double({ min, max, noNaN: true }), weight: good }, { arbitrary: wild, weight: 1 });
   const units = Object.values(UNIT_CODES).flat() as string[];
   const unit = (likely: string[], good = 12) =>
-    fc.oneof({ arbitrary: fc.constantFrom(...likely), weight: good }, { arbitrary: fc.constantFrom(...units), weight: 1 }, { arbitrary: fc.string(), weight: 1 });
-  const quantity = (likely: string[], min: number, max: number, good = 12) => fc.record({ value: num(min, max, good), unit: unit(likely, good) });
+    fc.oneof(
+      { arbitrary: fc.constantFrom(...likely), weight: good },
+      { arbitrary: fc.constantFrom(...units), weight: 1 },
+      { arbitrary: fc.string(), weight: 1 },
+    );
+  const quantity = (likely: string[], min: number, max: number, good = 12) =>
+    fc.record({ value: num(min, max, good), unit: unit(likely, good) });
   const temperature = quantity(["degC", "degF", "K"], -50, 400, 40);
   const thread = fc.oneof(
     { arbitrary: fc.constantFrom("M12x1.5", "M10", "M9x1.25", "M6", "7/16-20", "1/2-13 UNC", "#10-32", "M24x2", "1-8"), weight: 12 },
@@ -214,13 +287,18 @@ describe("fuzz: any input gives a ZodError or a result with only finite numbers 
       },
       { requiredKeys: ["thread", "method", "torque", "preload"] },
     );
-    fc.assert(fc.property(input, (i) => expectSafe(() => calculatePreload(i as never))), { numRuns: 1500 });
+    fc.assert(
+      fc.property(input, (i) => expectSafe(() => calculatePreload(i as never))),
+      { numRuns: 1500 },
+    );
   });
 
   test("fitNutFactor", () => {
     const point = fc.record({ torque: quantity(["N.m", "ft.lbf"], 0.01, 2000, 60), preload: quantity(["N", "lbf", "kN"], 0.01, 1e6, 60) });
     fc.assert(
-      fc.property(fc.array(point, { minLength: 0, maxLength: 8 }), thread, (points, t) => expectSafe(() => fitNutFactor(points as never, t))),
+      fc.property(fc.array(point, { minLength: 0, maxLength: 8 }), thread, (points, t) =>
+        expectSafe(() => fitNutFactor(points as never, t)),
+      ),
       { numRuns: 1000 },
     );
   });
@@ -235,14 +313,26 @@ describe("fuzz: any input gives a ZodError or a result with only finite numbers 
       { requiredKeys: ["depth", "angleDeg", "diameter", "radius"] },
     );
     const state = fc.record(
-      { mode: fc.constantFrom("diametral", "radial"), readings: fc.array(reading, { minLength: 1, maxLength: 16 }), reference: length(1, 200) },
+      {
+        mode: fc.constantFrom("diametral", "radial"),
+        readings: fc.array(reading, { minLength: 1, maxLength: 16 }),
+        reference: length(1, 200),
+      },
       { requiredKeys: ["readings"] },
     );
     const input = fc.record(
-      { mode: fc.constantFrom("diametral", "radial"), readings: fc.array(reading, { minLength: 0, maxLength: 24 }), reference: length(1, 200), compareTo: state },
+      {
+        mode: fc.constantFrom("diametral", "radial"),
+        readings: fc.array(reading, { minLength: 0, maxLength: 24 }),
+        reference: length(1, 200),
+        compareTo: state,
+      },
       { requiredKeys: ["readings"] },
     );
-    fc.assert(fc.property(input, (i) => expectSafe(() => calculateDistortion(i as never))), { numRuns: 1500 });
+    fc.assert(
+      fc.property(input, (i) => expectSafe(() => calculateDistortion(i as never))),
+      { numRuns: 1500 },
+    );
   });
 
   test("calculateClearance", () => {
@@ -258,7 +348,13 @@ describe("fuzz: any input gives a ZodError or a result with only finite numbers 
           kind: fc.constant("piston-to-wall"),
           bore: length,
           piston: length,
-          thermal: fc.record({ ambient: temperature, boreTemperature: temperature, pistonTemperature: temperature, boreMaterial: material, pistonMaterial: material }),
+          thermal: fc.record({
+            ambient: temperature,
+            boreTemperature: temperature,
+            pistonTemperature: temperature,
+            boreMaterial: material,
+            pistonMaterial: material,
+          }),
           spec,
         },
         { requiredKeys: ["kind", "bore", "piston"] },
@@ -272,6 +368,9 @@ describe("fuzz: any input gives a ZodError or a result with only finite numbers 
         { requiredKeys: ["kind", "bore", "gapPerBore"] },
       ),
     );
-    fc.assert(fc.property(input, (i) => expectSafe(() => calculateClearance(i as never))), { numRuns: 1500 });
+    fc.assert(
+      fc.property(input, (i) => expectSafe(() => calculateClearance(i as never))),
+      { numRuns: 1500 },
+    );
   });
 });

@@ -14,8 +14,18 @@ import {
   type PreloadInput,
 } from "~/lib/calc";
 
-import { CALC_KINDS, type CalcKind, type CalcOutcome, type ResultRow } from "./calc-shared";
-export { CALC_CAUTION, CALC_KINDS, calcLabel, numericLeaves, setAtPath, type CalcKind, type CalcOutcome, type NumericLeaf, type ResultRow } from "./calc-shared";
+import type { CalcKind, CalcOutcome, ResultRow } from "./calc-shared";
+export {
+  CALC_CAUTION,
+  CALC_KINDS,
+  calcLabel,
+  numericLeaves,
+  setAtPath,
+  type CalcKind,
+  type CalcOutcome,
+  type NumericLeaf,
+  type ResultRow,
+} from "./calc-shared";
 
 export const DEFAULT_PRESETS: Record<CalcKind, Record<string, unknown>> = {
   preload: {
@@ -54,8 +64,8 @@ export function checkCalculatorPreset(kind: CalcKind, preset: unknown): string |
   return `${i.path.join(".") || "input"}: ${i.message}`;
 }
 
-
-const f = (v: number, digits = 3) => (Number.isFinite(v) ? Number(v.toFixed(digits)).toLocaleString("en-GB", { maximumFractionDigits: digits }) : "—");
+const f = (v: number, digits = 3) =>
+  Number.isFinite(v) ? Number(v.toFixed(digits)).toLocaleString("en-GB", { maximumFractionDigits: digits }) : "—";
 
 /** Runs the preset through the shared math module; never throws. */
 export function runCalculator(kind: CalcKind, preset: unknown): CalcOutcome {
@@ -69,22 +79,36 @@ export function runCalculator(kind: CalcKind, preset: unknown): CalcOutcome {
         { label: "Torque", value: `${f(r.torque_Nm, 1)} N·m` },
         { label: "Stress in the stress area", value: `${f(r.stress_MPa, 0)} MPa` },
       ];
-      if (r.percentOfYield != null) rows.push({ label: "Of yield", value: `${f(r.percentOfYield, 1)} %`, tone: r.percentOfYield > 90 ? "bad" : "ok" });
+      if (r.percentOfYield != null)
+        rows.push({ label: "Of yield", value: `${f(r.percentOfYield, 1)} %`, tone: r.percentOfYield > 90 ? "bad" : "ok" });
       if (r.elongation_mm != null) rows.push({ label: "Elongation (stress-area simplification)", value: `${f(r.elongation_mm, 3)} mm` });
       return { ok: true, rows, warnings: r.warnings };
     }
     if (kind === "distortion") {
       const r = calculateDistortion(preset as DistortionInput);
-      const rows: ResultRow[] = r.levels.map((l) => ({ label: `Out-of-round at ${f(l.depth_mm, 1)} mm`, value: `${f(l.outOfRound_mm * 1000, 1)} µm` }));
+      const rows: ResultRow[] = r.levels.map((l) => ({
+        label: `Out-of-round at ${f(l.depth_mm, 1)} mm`,
+        value: `${f(l.outOfRound_mm * 1000, 1)} µm`,
+      }));
       if (r.levels.length > 1) rows.push({ label: "Taper", value: `${f(r.taper_mm * 1000, 1)} µm` });
-      for (const l of r.levels) for (const o of l.orders) rows.push({ label: `Order ${o.order} at ${f(l.depth_mm, 1)} mm`, value: `${f(o.radialAmplitude_mm * 1000, 1)} µm at ${f(o.phaseDeg, 0)}°` });
+      for (const l of r.levels)
+        for (const o of l.orders)
+          rows.push({
+            label: `Order ${o.order} at ${f(l.depth_mm, 1)} mm`,
+            value: `${f(o.radialAmplitude_mm * 1000, 1)} µm at ${f(o.phaseDeg, 0)}°`,
+          });
       return { ok: true, rows, warnings: r.warnings };
     }
     const r = calculateClearance(preset as ClearanceInput);
     const input = preset as ClearanceInput;
     // Each verdict names what it judges: the spec judges the cold clearance; the hot one has its own caution.
     const judged = input.kind === "piston-to-wall" ? "Cold clearance" : input.kind === "bearing" ? "Oil clearance" : "Gap";
-    const rows: ResultRow[] = [{ label: r.hotClearance_mm != null ? "Cold clearance" : "Clearance", value: `${f(r.clearance_mm, 3)} mm (${f(r.clearance_mm / 0.0254, 2)} thou)` }];
+    const rows: ResultRow[] = [
+      {
+        label: r.hotClearance_mm != null ? "Cold clearance" : "Clearance",
+        value: `${f(r.clearance_mm, 3)} mm (${f(r.clearance_mm / 0.0254, 2)} thou)`,
+      },
+    ];
     if (r.hotClearance_mm != null)
       rows.push({
         label: "Hot clearance",
@@ -93,7 +117,12 @@ export function runCalculator(kind: CalcKind, preset: unknown): CalcOutcome {
       });
     if (r.perInchOfDiameter != null) rows.push({ label: "Per inch of diameter", value: `${f(r.perInchOfDiameter * 1000, 2)} thou/in` });
     if (r.recommendedGap_mm != null) rows.push({ label: "Recommended gap", value: `${f(r.recommendedGap_mm, 3)} mm` });
-    if (r.verdict) rows.push({ label: `${judged} against spec`, value: r.verdict === "within" ? "Within spec" : r.verdict === "below" ? "Out of spec (below)" : "Out of spec (above)", tone: r.verdict === "within" ? "ok" : "bad" });
+    if (r.verdict)
+      rows.push({
+        label: `${judged} against spec`,
+        value: r.verdict === "within" ? "Within spec" : r.verdict === "below" ? "Out of spec (below)" : "Out of spec (above)",
+        tone: r.verdict === "within" ? "ok" : "bad",
+      });
     return { ok: true, rows, warnings: r.warnings };
   } catch (err) {
     return { ok: false, message: (err as Error).message };

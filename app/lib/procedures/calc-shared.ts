@@ -4,7 +4,6 @@
  * apart from calc-presets.ts (which runs app/lib/calc and its zod schemas) so that the read page
  * can ship without the math until a reader changes a number.
  */
-import type { CalcKind } from "~/lib/calc-kinds";
 export { CALC_CAUTION, CALC_KINDS, calcLabel, type CalcKind } from "~/lib/calc-kinds";
 
 export type ResultRow = { label: string; value: string; tone?: "warn" | "bad" | "ok" };
@@ -56,7 +55,8 @@ function leafLabel(path: (string | number)[]): string {
   for (let i = 0; i < path.length; i++) {
     const p = path[i];
     if (typeof p === "number") parts.push(`#${p + 1}`);
-    else if (p !== "value" && p !== "method" && p !== "material" && p !== "thermal" && p !== "spec" && p !== "grip") parts.push(WORDS[p] ?? p);
+    else if (p !== "value" && p !== "method" && p !== "material" && p !== "thermal" && p !== "spec" && p !== "grip")
+      parts.push(WORDS[p] ?? p);
     else if ((p === "spec" || p === "grip") && i === path.length - 2) parts.push(p);
   }
   return parts.join(" ") || "value";

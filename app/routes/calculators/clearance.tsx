@@ -36,13 +36,30 @@ export default function ClearancePage({ loaderData, actionData }: Route.Componen
 
   return (
     <>
-      <PageHeader title="Clearances" kicker="Calculators" actions={<Link to="/calculators" className="btn">All calculators</Link>}>
+      <PageHeader
+        title="Clearances"
+        kicker="Calculators"
+        actions={
+          <Link to="/calculators" className="btn">
+            All calculators
+          </Link>
+        }
+      >
         Piston-to-wall cold and hot, bearing oil clearance, and ring end gap, each checked against its spec.
       </PageHeader>
-      <Form method="post" noValidate onSubmit={(ev) => hydrated && ev.preventDefault()} className="grid items-start gap-6 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]">
+      <Form
+        method="post"
+        noValidate
+        onSubmit={(ev) => hydrated && ev.preventDefault()}
+        className="grid items-start gap-6 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]"
+      >
         <div className="grid gap-5">
           <ClearanceInputs kind={outcome.kind} values={values} set={set} errors={outcome.errors} hydrated={hydrated} />
-          {!hydrated && <button type="submit" className="btn btn-primary justify-self-start">Calculate</button>}
+          {!hydrated && (
+            <button type="submit" className="btn btn-primary justify-self-start">
+              Calculate
+            </button>
+          )}
           {hydrated && r && (
             <ResultPeek
               bad={isOutOfSpec(r) || r.hotCaution !== undefined}

@@ -38,14 +38,22 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
 
   return (
     <>
-      <PageHeader title="Bore distortion" kicker="Calculators" actions={<Link to="/calculators" className="btn">All calculators</Link>}>
-        How far a bore is from round and straight: out-of-round and its lobes at each depth, taper along the bore, and the change
-        between two states (torque plate on and free, or before and after).
+      <PageHeader
+        title="Bore distortion"
+        kicker="Calculators"
+        actions={
+          <Link to="/calculators" className="btn">
+            All calculators
+          </Link>
+        }
+      >
+        How far a bore is from round and straight: out-of-round and its lobes at each depth, taper along the bore, and the change between
+        two states (torque plate on and free, or before and after).
       </PageHeader>
       {loaderData.boreSource && (
         <p className="card mb-4 p-3 text-sm" data-testid="bore-source">
-          {loaderData.prefill ? "Readings of" : "No bore readings with a depth and an angle for"} cylinder {loaderData.boreSource.cylinder} from{" "}
-          <Link to={`/recordings/${loaderData.boreSource.recordingId}`}>{loaderData.boreSource.title}</Link>
+          {loaderData.prefill ? "Readings of" : "No bore readings with a depth and an angle for"} cylinder {loaderData.boreSource.cylinder}{" "}
+          from <Link to={`/recordings/${loaderData.boreSource.recordingId}`}>{loaderData.boreSource.title}</Link>
           {loaderData.prefill ? ", laid out by depth and angle." : "; the example readings are shown instead."}
         </p>
       )}
@@ -53,13 +61,39 @@ export default function DistortionPage({ loaderData, actionData }: Route.Compone
         <div className="grid items-start gap-5 lg:grid-cols-[minmax(0,4fr)_minmax(0,8fr)]">
           <MeasuredHow values={values} set={set} errors={outcome.errors} radial={radial} />
           <div className="grid gap-5">
-            <ReadingGrid prefix="m" labelName="label.main" legend="Measured state" outcome={outcome} values={values} set={set} radial={radial} />
+            <ReadingGrid
+              prefix="m"
+              labelName="label.main"
+              legend="Measured state"
+              outcome={outcome}
+              values={values}
+              set={set}
+              radial={radial}
+            />
             <div className="grid gap-3">
               <Check name="compare.on" label="Compare with a second state" values={values} set={set} />
-              {(compare || !hydrated) && <ReadingGrid prefix="c" labelName="label.compare" legend="Compared state" outcome={outcome} values={values} set={set} radial={radial} />}
+              {(compare || !hydrated) && (
+                <ReadingGrid
+                  prefix="c"
+                  labelName="label.compare"
+                  legend="Compared state"
+                  outcome={outcome}
+                  values={values}
+                  set={set}
+                  radial={radial}
+                />
+              )}
             </div>
-            {outcome.errors.grid && <p className="field-error" role="alert">{outcome.errors.grid}</p>}
-            {!hydrated && <button type="submit" className="btn btn-primary justify-self-start">Calculate</button>}
+            {outcome.errors.grid && (
+              <p className="field-error" role="alert">
+                {outcome.errors.grid}
+              </p>
+            )}
+            {!hydrated && (
+              <button type="submit" className="btn btn-primary justify-self-start">
+                Calculate
+              </button>
+            )}
             {hydrated && r && r.levels.length > 0 && (
               <ResultPeek
                 items={[

@@ -37,14 +37,30 @@ export default function PreloadPage({ loaderData, actionData }: Route.ComponentP
 
   return (
     <>
-      <PageHeader title="Preload" kicker="Calculators" actions={<Link to="/calculators" className="btn">All calculators</Link>}>
-        Clamp load from tightening torque, or the torque for a wanted clamp load, with the stress in the thread and how close it runs to yield.
+      <PageHeader
+        title="Preload"
+        kicker="Calculators"
+        actions={
+          <Link to="/calculators" className="btn">
+            All calculators
+          </Link>
+        }
+      >
+        Clamp load from tightening torque, or the torque for a wanted clamp load, with the stress in the thread and how close it runs to
+        yield.
       </PageHeader>
-      <Form method="post" noValidate onSubmit={(ev) => hydrated && ev.preventDefault()} className="grid items-start gap-6 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]">
+      <Form
+        method="post"
+        noValidate
+        onSubmit={(ev) => hydrated && ev.preventDefault()}
+        className="grid items-start gap-6 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]"
+      >
         <div className="grid gap-5">
           <PreloadInputs values={values} set={set} errors={outcome.errors} hydrated={hydrated} />
           {!hydrated && (
-            <button type="submit" className="btn btn-primary justify-self-start">Calculate</button>
+            <button type="submit" className="btn btn-primary justify-self-start">
+              Calculate
+            </button>
           )}
           {hydrated && r && (
             <ResultPeek
