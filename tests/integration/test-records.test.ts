@@ -236,6 +236,32 @@ describe("test records", () => {
     expect(Object.fromEntries(rows.map((r) => [r.id, r.verdict]))).toEqual({ [old]: "incomplete", [full]: "within" });
   });
 
+  it("migration 0026 guesses the decimals of readings stored before it from the value as it reads", async () => {
+    const b = fx.specs.bore.id;
+    const [rec] = await db()
+      .insert(testRecords)
+      .values({ procedureId: fx.procedure.id, revisionId: fx.rev.id, title: "Filed before 0026", workOrder: workOrder(), testedOn: "2024-05-02", verdict: "within" })
+      .returning();
+    // 88.00600000000001 is what arithmetic leaves of 88.006; 1e-7 prints in exponent form.
+    const values = [88.01, 88.00600000000001, 88, 1e-7];
+    await db().insert(testRecordReadings).values(values.map((v, i) => ({ recordId: rec.id, version: 0, specId: b, specKey: "bore", position: i, valueEntered: v, unitEntered: "mm", valueSi: v / 1000, valueInSpecUnit: v, verdict: "within" as const })));
+    const [recording] = await db().insert(recordings).values({ title: "Before 0026", state: "ready", originalName: "b.mp4", originalSize: 1, durationS: 10 }).returning();
+    const [reading] = await db().insert(readings).values({ recordingId: recording.id, quantity: "bore-diameter", valueEntered: 88.01, unitEntered: "mm", valueSi: 0.08801 }).returning();
+    const fs = await import("node:fs");
+    const statements = fs.readFileSync("drizzle/0026_reading_typed_decimals.sql", "utf8").split("--> statement-breakpoint");
+    const from = statements.findIndex((st) => st.includes("UPDATE readings"));
+    expect(from).toBeGreaterThan(0);
+    await db().transaction(async (tx) => {
+      for (const st of statements.slice(from)) await tx.execute(sql.raw(st));
+    });
+    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, rec.id)).orderBy(testRecordReadings.position);
+    expect(rows.map((r) => r.valueDecimals)).toEqual([2, 3, 0, 7]);
+    const [after] = await db().select().from(readings).where(eq(readings.id, reading.id));
+    expect(after.valueDecimals).toBe(2);
+    // The filed readings stay immutable after it.
+    expect(await dbError(db().update(testRecordReadings).set({ valueDecimals: 4 }).where(eq(testRecordReadings.recordId, rec.id)))).toContain("readings are immutable");
+  });
+
   it("pins the record to the revision in force; a later revision supersedes it and both limits show", async () => {
     const p = await makeProcedure(BORE);
     const res = await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.011", [`r.${p.specs.bore.id}.0.unit`]: "mm" }));
