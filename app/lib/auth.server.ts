@@ -33,7 +33,14 @@ export async function verifyPassword(passwordHash: string, password: string): Pr
 class SessionAdapter extends DrizzlePostgreSQLAdapter {
   override async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
     const { rows } = await pool().query<{
-      id: string; user_id: string; expires_at: Date; email: string; name: string; role: Role; unit_system: "metric" | "inch"; deactivated_at: Date | null;
+      id: string;
+      user_id: string;
+      expires_at: Date;
+      email: string;
+      name: string;
+      role: Role;
+      unit_system: "metric" | "inch";
+      deactivated_at: Date | null;
     }>({
       name: "benchreel-session-and-user",
       text: `select s.id, s.user_id, s.expires_at, u.email, u.name, u.role, u.unit_system, u.deactivated_at
@@ -44,7 +51,10 @@ class SessionAdapter extends DrizzlePostgreSQLAdapter {
     if (!r) return [null, null];
     return [
       { id: r.id, userId: r.user_id, expiresAt: r.expires_at, attributes: {} },
-      { id: r.user_id, attributes: { email: r.email, name: r.name, role: r.role, unitSystem: r.unit_system, deactivatedAt: r.deactivated_at } },
+      {
+        id: r.user_id,
+        attributes: { email: r.email, name: r.name, role: r.role, unitSystem: r.unit_system, deactivatedAt: r.deactivated_at },
+      },
     ];
   }
 }

@@ -34,13 +34,29 @@ const stat = (xs: number[]): Stat => {
 const t = (text: string, marks?: JSONNode["marks"]): JSONNode => ({ type: "text", text, ...(marks ? { marks } : {}) });
 const p = (...c: (string | JSONNode)[]): JSONNode => ({ type: "paragraph", content: c.map((x) => (typeof x === "string" ? t(x) : x)) });
 const h = (text: string, level = 2): JSONNode => ({ type: "heading", attrs: { level }, content: [t(text)] });
-const steps = (items: string[]): JSONNode => ({ type: "orderedList", attrs: { start: 1 }, content: items.map((i) => ({ type: "listItem", content: [p(i)] })) });
+const steps = (items: string[]): JSONNode => ({
+  type: "orderedList",
+  attrs: { start: 1 },
+  content: items.map((i) => ({ type: "listItem", content: [p(i)] })),
+});
 const caution = (...texts: string[]): JSONNode => ({ type: "caution", content: texts.map((x) => p(x)) });
-const spec = (id: string, label: string, quantity: string, unit: string, nominal: number | null, min: number | null, max: number | null, note = ""): JSONNode => ({
+const spec = (
+  id: string,
+  label: string,
+  quantity: string,
+  unit: string,
+  nominal: number | null,
+  min: number | null,
+  max: number | null,
+  note = "",
+): JSONNode => ({
   type: "spec",
   attrs: { id, label, quantity, unit, nominal, min, max, note },
 });
-const calc = (kind: string, title: string, preset: Record<string, unknown>): JSONNode => ({ type: "calculator", attrs: { kind, title, preset } });
+const calc = (kind: string, title: string, preset: Record<string, unknown>): JSONNode => ({
+  type: "calculator",
+  attrs: { kind, title, preset },
+});
 
 // Invented workshop prose (Larkspur Engine Works scenario), recombined into ~3,000 words.
 const SENTENCES = [
@@ -72,9 +88,16 @@ function prose(seed: number, words: number): string {
 }
 
 function benchDoc(linkId: string, recordingId: string, variant: number): JSONNode {
-  const section = (i: number): JSONNode[] => [h(`Stage ${i + 1}`), p(prose(i + variant, 100)), p(prose(i + variant + 5, 90)), steps([prose(i + 2, 25), prose(i + 3, 25), prose(i + 4, 25)])];
+  const section = (i: number): JSONNode[] => [
+    h(`Stage ${i + 1}`),
+    p(prose(i + variant, 100)),
+    p(prose(i + variant + 5, 90)),
+    steps([prose(i + 2, 25), prose(i + 3, 25), prose(i + 4, 25)]),
+  ];
   const content: JSONNode[] = [
-    caution("The torque and machining values here are the shop's planning figures. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice."),
+    caution(
+      "The torque and machining values here are the shop's planning figures. The fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.",
+    ),
     h("Why"),
     p(prose(variant, 140)),
     ...section(0),
@@ -85,17 +108,37 @@ function benchDoc(linkId: string, recordingId: string, variant: number): JSONNod
     calc("distortion", "Cylinder 2, plate fitted", {
       mode: "diametral",
       reference: { value: 88.0, unit: "mm" },
-      readings: [0, 45, 90, 135].flatMap((a, i) => [10, 50].map((d) => ({ depth: { value: d, unit: "mm" }, angleDeg: a, diameter: { value: [88.004, 88.007, 88.005, 88.002][i] + (d === 50 ? -0.001 : 0), unit: "mm" } }))),
+      readings: [0, 45, 90, 135].flatMap((a, i) =>
+        [10, 50].map((d) => ({
+          depth: { value: d, unit: "mm" },
+          angleDeg: a,
+          diameter: { value: [88.004, 88.007, 88.005, 88.002][i] + (d === 50 ? -0.001 : 0), unit: "mm" },
+        })),
+      ),
     }),
     ...section(3),
-    calc("preload", "M12×1.5 plate studs, moly", { thread: "M12x1.5", direction: "torque-to-preload", torque: { value: 110, unit: "N.m" }, method: { kind: "nut-factor", k: 0.14 }, material: { propertyClass: "12.9" } }),
+    calc("preload", "M12×1.5 plate studs, moly", {
+      thread: "M12x1.5",
+      direction: "torque-to-preload",
+      torque: { value: 110, unit: "N.m" },
+      method: { kind: "nut-factor", k: 0.14 },
+      material: { propertyClass: "12.9" },
+    }),
     spec("bench-stud-torque", "Plate stud final torque", "torque", "N.m", 110, 105, 115, "moly on threads and washer face"),
     ...section(4),
     caution("Do not hone without the plate fitted on the aluminium blocks: the bore will not be round under the head."),
     ...section(5),
-    calc("clearance", "2618 piston in the 88.0 mm bore", { kind: "piston-to-wall", bore: { value: 88.0, unit: "mm" }, piston: { value: 87.93, unit: "mm" }, spec: { min: { value: 0.06, unit: "mm" }, max: { value: 0.08, unit: "mm" } } }),
+    calc("clearance", "2618 piston in the 88.0 mm bore", {
+      kind: "piston-to-wall",
+      bore: { value: 88.0, unit: "mm" },
+      piston: { value: 87.93, unit: "mm" },
+      spec: { min: { value: 0.06, unit: "mm" }, max: { value: 0.08, unit: "mm" } },
+    }),
     ...section(6),
-    { type: "videoMoment", attrs: { recordingId, start: 42, end: 75, caption: "Bore gauge zeroed on the setting ring, then cylinder 2 at 10 mm down" } },
+    {
+      type: "videoMoment",
+      attrs: { recordingId, start: 42, end: 75, caption: "Bore gauge zeroed on the setting ring, then cylinder 2 at 10 mm down" },
+    },
     ...section(7),
     p("The plate studs are torqued to the head stud procedure: ", { type: "procedureLink", attrs: { procedureId: linkId } }, "."),
     ...section(8),
@@ -126,28 +169,56 @@ export async function setUpBenchProcedure(log: (s: string) => void) {
   const apprentice = await createUser("apprentice", { name: "Bench Apprentice" });
   const [rec] = await db()
     .insert(recordings)
-    .values({ title: "Bench: bore gauge on cylinder 2", originalName: "bench.mp4", originalSize: 1, state: "ready", uploadedBy: builder.id, durationS: 600 })
+    .values({
+      title: "Bench: bore gauge on cylinder 2",
+      originalName: "bench.mp4",
+      originalSize: 1,
+      state: "ready",
+      uploadedBy: builder.id,
+      durationS: 600,
+    })
     .returning();
 
   const tag = Math.random().toString(36).slice(2, 8);
-  const target = await createProcedure(builder, { title: `Bench head stud torque ${tag}`, area: "fasteners", summary: "Link target for the benchmark.", tags: ["bench"], doc: { type: "doc", content: [p("Head stud passes, planning figures only; the makers' published values take precedence.")] } });
+  const target = await createProcedure(builder, {
+    title: `Bench head stud torque ${tag}`,
+    area: "fasteners",
+    summary: "Link target for the benchmark.",
+    tags: ["bench"],
+    doc: { type: "doc", content: [p("Head stud passes, planning figures only; the makers' published values take precedence.")] },
+  });
   await publishNew(editor, builder, target.revision.id, "First version");
 
-  const first = await createProcedure(builder, { title: `Bench torque-plate honing ${tag}`, area: "block", summary: "A long procedure with 40 revisions for the read-page benchmark.", tags: ["bench", "honing", "torque plate"], doc: benchDoc(target.procedure.id, rec.id, 0) });
+  const first = await createProcedure(builder, {
+    title: `Bench torque-plate honing ${tag}`,
+    area: "block",
+    summary: "A long procedure with 40 revisions for the read-page benchmark.",
+    tags: ["bench", "honing", "torque plate"],
+    doc: benchDoc(target.procedure.id, rec.id, 0),
+  });
   await publishNew(editor, builder, first.revision.id, "Revision 1");
   let published = first.revision.id;
   const t0 = performance.now();
   for (let n = 2; n <= 40; n++) {
     const draft = await startDraftFrom(builder, published);
     const doc = benchDoc(target.procedure.id, rec.id, n);
-    const saved = await saveDraft(builder, draft.id, { baseVersion: draft.version, title: first.procedure.title, summary: first.procedure.summary, area: "block", tags: first.procedure.tags, doc });
+    const saved = await saveDraft(builder, draft.id, {
+      baseVersion: draft.version,
+      title: first.procedure.title,
+      summary: first.procedure.summary,
+      area: "block",
+      tags: first.procedure.tags,
+      doc,
+    });
     if (!saved.ok) throw new Error("bench save conflicted");
     await publishNew(editor, builder, draft.id, `Revision ${n}: wording of stage ${n % 9}`);
     published = draft.id;
   }
   log(`set up 40 revisions in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
   const finalDoc = benchDoc(target.procedure.id, rec.id, 40);
-  const words = JSON.stringify(finalDoc).match(/"text":"([^"]*)"/g)!.reduce((a, s) => a + s.slice(8, -1).split(/\s+/).filter(Boolean).length, 0);
+  const words = JSON.stringify(finalDoc)
+    .match(/"text":"([^"]*)"/g)!
+    .reduce((a, s) => a + s.slice(8, -1).split(/\s+/).filter(Boolean).length, 0);
   // The edit page needs an open draft: the 41st revision, left as a draft (not counted in the 40).
   const open = await startDraftFrom(builder, published);
   return { slug: first.procedure.slug, words, blocks: countBlocks(finalDoc), builder, apprentice, draftNumber: open.number };
@@ -184,15 +255,26 @@ async function cannon(url: string, cookie: string | string[]): Promise<{ result:
   // One cookie for all 20 connections, or one person per connection.
   const cookies = Array.isArray(cookie) ? cookie : [cookie];
   let next = 0;
-  const setupClient = (client: { setHeaders(h: Record<string, string>): void }) => client.setHeaders({ cookie: cookies[next++ % cookies.length] });
+  const setupClient = (client: { setHeaders(h: Record<string, string>): void }) =>
+    client.setHeaders({ cookie: cookies[next++ % cookies.length] });
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const inst = autocannon({ url, connections: 20, duration: 10, headers: { cookie: cookies[0] }, setupClient, timeout: 20 }, (err, r) => (err ? reject(err) : resolve(r)));
+    const inst = autocannon({ url, connections: 20, duration: 10, headers: { cookie: cookies[0] }, setupClient, timeout: 20 }, (err, r) =>
+      err ? reject(err) : resolve(r),
+    );
     inst.on("response", (_client: unknown, _status: number, _bytes: number, responseTime: number) => times.push(responseTime));
   });
   return { result, times };
 }
 
-type JsReport = { files: number; rawBytes: number; gzipBytes: number; kB: number; lazyFiles: number; lazyGzipKB: number; largest: { file: string; gzipKB: number }[] };
+type JsReport = {
+  files: number;
+  rawBytes: number;
+  gzipBytes: number;
+  kB: number;
+  lazyFiles: number;
+  lazyGzipKB: number;
+  largest: { file: string; gzipKB: number }[];
+};
 
 /** Every JS module the page loads before it is interactive, gzipped; lazy (import()) chunks apart. */
 async function shippedJs(url: string, cookie: string): Promise<JsReport> {
@@ -245,7 +327,15 @@ async function shippedJs(url: string, cookie: string): Promise<JsReport> {
     if (r.status === 200) lazyGz += gzipSync(Buffer.from(await r.text()), { level: 9 }).length;
   }
   sizes.sort((a, b) => b.gzipKB - a.gzipKB);
-  return { files: body.size, rawBytes: raw, gzipBytes: gz, kB: +(gz / 1024).toFixed(1), lazyFiles: lazy.size, lazyGzipKB: +(lazyGz / 1024).toFixed(1), largest: sizes.slice(0, 6) };
+  return {
+    files: body.size,
+    rawBytes: raw,
+    gzipBytes: gz,
+    kB: +(gz / 1024).toFixed(1),
+    lazyFiles: lazy.size,
+    lazyGzipKB: +(lazyGz / 1024).toFixed(1),
+    largest: sizes.slice(0, 6),
+  };
 }
 
 export async function benchProcedures(opts: { log?: (s: string) => void } = {}) {
@@ -257,7 +347,9 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
   const editUrl = `${origin}/procedures/${s.slug}/r/${s.draftNumber}/edit`;
 
   const seq = await ttfbLoop(readUrl, s.apprentice.cookie, 200);
-  log(`read page TTFB, one client: p50 ${seq.p50} ms, p95 ${seq.p95} ms (${seq.samples} requests); database queries per render: ${seq.queries.join(", ")}`);
+  log(
+    `read page TTFB, one client: p50 ${seq.p50} ms, p95 ${seq.p95} ms (${seq.samples} requests); database queries per render: ${seq.queries.join(", ")}`,
+  );
   await cannon(readUrl, s.apprentice.cookie); // warm-up round, discarded
   const load0 = os.loadavg()[0];
   const { result: c, times } = await cannon(readUrl, s.apprentice.cookie);
@@ -277,13 +369,22 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
     loadAverage: [+load0.toFixed(2), +load1.toFixed(2)],
   };
   const p95 = concurrent.p95;
-  log(`read page, 20 clients (autocannon, per response): p50 ${concurrent.p50} ms, p95 ${p95} ms, p99 ${concurrent.p99} ms, ${concurrent.requestsPerSec} req/s; load average ${load0.toFixed(1)} → ${load1.toFixed(1)}`);
+  log(
+    `read page, 20 clients (autocannon, per response): p50 ${concurrent.p50} ms, p95 ${p95} ms, p99 ${concurrent.p99} ms, ${concurrent.requestsPerSec} req/s; load average ${load0.toFixed(1)} → ${load1.toFixed(1)}`,
+  );
 
   // The floor of this stack: the same load on a light page (the calculators index, no procedure data).
   const { result: b, times: bt } = await cannon(`${origin}/calculators`, s.apprentice.cookie);
   const bs = [...bt].sort((x, y) => x - y);
   const bq = (f: number) => +bs[Math.min(bs.length - 1, Math.floor(f * bs.length))].toFixed(2);
-  const baseline = { path: "/calculators", p50: bq(0.5), p95: bq(0.95), p99: bq(0.99), requestsPerSec: +b.requests.average.toFixed(1), non2xx: b.non2xx };
+  const baseline = {
+    path: "/calculators",
+    p50: bq(0.5),
+    p95: bq(0.95),
+    p99: bq(0.99),
+    requestsPerSec: +b.requests.average.toFixed(1),
+    non2xx: b.non2xx,
+  };
   log(`baseline /calculators, 20 clients: p50 ${baseline.p50} ms, p95 ${baseline.p95} ms, ${baseline.requestsPerSec} req/s`);
 
   const readJs = await shippedJs(readUrl, s.apprentice.cookie);

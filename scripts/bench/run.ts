@@ -17,7 +17,12 @@ const benches: Bench[] = [
       const m = /^(\d+(?:\.\d+)?)([KMG]?)$/i.exec(size);
       if (!m) throw new Error(`BENCH_UPLOAD_SIZE=${size}: use e.g. 512M, 1G, 2G`);
       const sizeBytes = Math.round(Number(m[1]) * 1024 ** ({ "": 0, K: 1, M: 2, G: 3 } as Record<string, number>)[m[2].toUpperCase()]);
-      return r.benchRecordings({ baseUrl: process.env.BENCHREEL_URL!, cookie: await r.benchSession(), uploadDir: process.env.UPLOAD_DIR!, sizeBytes });
+      return r.benchRecordings({
+        baseUrl: process.env.BENCHREEL_URL!,
+        cookie: await r.benchSession(),
+        uploadDir: process.env.UPLOAD_DIR!,
+        sizeBytes,
+      });
     },
   },
   { name: "search", run: async () => (await import("./search")).benchSearch() },

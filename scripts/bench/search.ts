@@ -116,7 +116,8 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
 
   // A warm-up round over a few queries of every kind: the first measured must not pay for the
   // indexing just done (collections in the fake, code not yet compiled in the app).
-  for (const list of Object.values(queries)) for (const q of list.slice(0, 5)) for (const typed of asTyped(q)) await ask(people[0].cookie, typed);
+  for (const list of Object.values(queries))
+    for (const q of list.slice(0, 5)) for (const typed of asTyped(q)) await ask(people[0].cookie, typed);
 
   // Every person types every kind's queries, each starting at another point of the list.
   const kinds = Object.entries(queries);
@@ -142,18 +143,39 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   const load1 = os.loadavg()[0];
   const overall = stat(all);
   const cases = Object.fromEntries(Object.entries(times).map(([k, v]) => [k, stat(v)]));
-  for (const [k, s] of Object.entries(cases)) log(`${k.padEnd(18)} /api/search, ${TYPISTS} typing at once: p50 ${s.p50} ms, p95 ${s.p95} ms (${s.samples})`);
+  for (const [k, s] of Object.entries(cases))
+    log(`${k.padEnd(18)} /api/search, ${TYPISTS} typing at once: p50 ${s.p50} ms, p95 ${s.p95} ms (${s.samples})`);
   const dbQueries = { min: Math.min(...queriesPerAnswer), max: Math.max(...queriesPerAnswer) };
-  log(`all kinds: p50 ${overall.p50} ms, p95 ${overall.p95} ms over ${overall.samples} answers; ${dbQueries.min}–${dbQueries.max} database queries per answer; load average ${load0.toFixed(1)} → ${load1.toFixed(1)}`);
+  log(
+    `all kinds: p50 ${overall.p50} ms, p95 ${overall.p95} ms over ${overall.samples} answers; ${dbQueries.min}–${dbQueries.max} database queries per answer; load average ${load0.toFixed(1)} → ${load1.toFixed(1)}`,
+  );
 
   // Full reindex from PostgreSQL of 20,000 stored marks.
   const owner = people[0];
-  const [rec] = await db().insert(recordings).values({ title: "Benchmark recording", originalName: "bench.mp4", originalSize: 1, state: "ready", uploadedBy: owner.id, durationS: 3600 }).returning();
+  const [rec] = await db()
+    .insert(recordings)
+    .values({
+      title: "Benchmark recording",
+      originalName: "bench.mp4",
+      originalSize: 1,
+      state: "ready",
+      uploadedBy: owner.id,
+      durationS: 3600,
+    })
+    .returning();
   const short = corpus.docs.filter((d) => d.kind !== "procedure");
   for (let i = 0; i < N; i += 2000) {
     await db()
       .insert(marks)
-      .values(Array.from({ length: Math.min(2000, N - i) }, (_, j) => ({ id: randomUUID(), recordingId: rec.id, tStart: (i + j) % 3600, text: short[(i + j) % short.length].body, createdBy: owner.id })));
+      .values(
+        Array.from({ length: Math.min(2000, N - i) }, (_, j) => ({
+          id: randomUUID(),
+          recordingId: rec.id,
+          tStart: (i + j) % 3600,
+          text: short[(i + j) % short.length].body,
+          createdBy: owner.id,
+        })),
+      );
   }
   await db().update(searchOutbox).set({ doneAt: new Date() }).where(sql`${searchOutbox.doneAt} is null`); // the rebuild below covers them
   const r0 = performance.now();

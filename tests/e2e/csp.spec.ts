@@ -73,7 +73,9 @@ test("a script injected into a page is refused, and each response has its own no
     remote.src = "https://elsewhere.example/x.js";
     document.body.appendChild(remote);
   });
-  await expect.poll(async () => (await watch.reported()).map((v) => v.directive).sort()).toEqual(["script-src-attr", "script-src-elem", "script-src-elem"]);
+  await expect
+    .poll(async () => (await watch.reported()).map((v) => v.directive).sort())
+    .toEqual(["script-src-attr", "script-src-elem", "script-src-elem"]);
   expect(await page.evaluate(() => window.__injectedRan ?? false)).toBe(false);
   const reported = await watch.reported();
   expect(reported.find((v) => v.blocked === "inline" && v.directive === "script-src-elem")).toBeTruthy();
@@ -111,7 +113,9 @@ test("a video or an image opened on its own still shows under the static policy"
   await signIn(page, "jamie@larkspur.example");
   const res = await page.goto(`/api/recordings/${DEMO_RECORDING}/media`);
   expect(res!.headers()["content-security-policy"]).toContain("default-src 'none'");
-  await expect.poll(() => page.locator("video").evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 15_000 }).toBeGreaterThanOrEqual(1);
+  await expect
+    .poll(() => page.locator("video").evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 15_000 })
+    .toBeGreaterThanOrEqual(1);
   await page.goto("/favicon.svg");
   await expect(page.locator("svg")).toBeVisible();
   expect(watch.console).toEqual([]);

@@ -74,7 +74,9 @@ test("Enter opens the search page with facets and counts; a facet filters", asyn
 test("an editor adds a group of search words (a lone word is refused with a field error) and changes it", async ({ page }) => {
   await signIn(page, "priya@larkspur.example");
   // Words of this run only, so that a retry does not meet the group the first try added.
-  const tag = Date.now().toString(36).replace(/[0-9]/g, (d) => "abcdefghij"[Number(d)]);
+  const tag = Date.now()
+    .toString(36)
+    .replace(/[0-9]/g, (d) => "abcdefghij"[Number(d)]);
   const [snout, nose, third] = [`snout${tag}`, `nose${tag}`, `front${tag}`];
   await page.goto("/search");
   await page.getByRole("link", { name: "Edit search words" }).click();
@@ -96,11 +98,18 @@ test("an editor adds a group of search words (a lone word is refused with a fiel
   await group.getByLabel("Words that mean the same").fill(`crank ${snout}, crankshaft ${nose}, crank ${third}`);
   await group.getByRole("button", { name: "Save the group" }).click();
   await expect(page.getByText(`Saved: crank ${snout}, crankshaft ${nose}, crank ${third}.`)).toBeVisible();
-  await expect(page.getByTestId("word-group").filter({ hasText: `crank ${third}` }).getByRole("listitem")).toHaveCount(3);
+  await expect(
+    page
+      .getByTestId("word-group")
+      .filter({ hasText: `crank ${third}` })
+      .getByRole("listitem"),
+  ).toHaveCount(3);
 });
 
 test("two editors change one group: the later save shows the group as it is now and keeps the typed words", async ({ browser }) => {
-  const tag = Date.now().toString(36).replace(/[0-9]/g, (d) => "abcdefghij"[Number(d)]);
+  const tag = Date.now()
+    .toString(36)
+    .replace(/[0-9]/g, (d) => "abcdefghij"[Number(d)]);
   const open = async (email: string) => {
     const page = await (await browser.newContext()).newPage();
     await signIn(page, email);
@@ -152,7 +161,9 @@ test("a spec hit opens the procedure scrolled to the spec, marked (no motion whe
   expect(await page.evaluate(() => document.querySelector(":target")?.id)).toBe("spec-studs-final");
 });
 
-test("a recording's readings are one result listing those that matched; one opens the recording at it, its row marked", async ({ page }) => {
+test("a recording's readings are one result listing those that matched; one opens the recording at it, its row marked", async ({
+  page,
+}) => {
   await signIn(page, "marcus@larkspur.example");
   await page.goto(`/search?q=${encodeURIComponent("torque moly")}&type=reading`);
   // Other tests add recordings with torque readings of their own to the shared database, so
@@ -179,7 +190,12 @@ test("a recording's readings are one result listing those that matched; one open
 test("a procedure hit found in a step opens the page at that step (a text fragment, loaded as a page)", async ({ page }) => {
   await signIn(page, "jamie@larkspur.example");
   await page.goto(`/search?q=${encodeURIComponent("chase every block thread")}&type=procedure`);
-  const hit = page.getByTestId("search-result").filter({ hasText: "Head stud installation and torque sequence" }).first().getByRole("link").first();
+  const hit = page
+    .getByTestId("search-result")
+    .filter({ hasText: "Head stud installation and torque sequence" })
+    .first()
+    .getByRole("link")
+    .first();
   expect(await hit.getAttribute("href")).toMatch(/^\/procedures\/head-stud-installation-and-torque-sequence#:~:text=Chase/);
   await hit.click();
   await page.waitForURL(/\/procedures\/head-stud-installation-and-torque-sequence/);
@@ -199,6 +215,7 @@ test("on a 768 px tablet the header box's results are readable and each is at le
     expect(box.height).toBeGreaterThanOrEqual(44);
     // The hit's title at 16 px, its snippet at no less than 14 px (it was 12 px).
     expect(await hit.evaluate((el) => parseFloat(getComputedStyle(el).fontSize))).toBeGreaterThanOrEqual(16);
-    for (const size of await hit.locator("span").evaluateAll((els) => els.map((e) => parseFloat(getComputedStyle(e).fontSize)))) expect(size).toBeGreaterThanOrEqual(14);
+    for (const size of await hit.locator("span").evaluateAll((els) => els.map((e) => parseFloat(getComputedStyle(e).fontSize))))
+      expect(size).toBeGreaterThanOrEqual(14);
   }
 });

@@ -57,10 +57,16 @@ describe("with the database down", () => {
     let sent = 0;
     for (const { path } of routes) {
       // Any value will do for a param: nothing can be looked up anyway.
-      const url = path.replace(/:(\w+)/g, (_, name: string) => (name === "number" ? "1" : "00000000-0000-4000-8000-000000000000")).replace("*", "x");
+      const url = path
+        .replace(/:(\w+)/g, (_, name: string) => (name === "number" ? "1" : "00000000-0000-4000-8000-000000000000"))
+        .replace("*", "x");
       for (const cookie of [undefined, signedIn.cookie]) {
         for (const method of ["GET", "POST"]) {
-          const res = await http(url, { method, cookie, ...(method === "POST" ? { form: { intent: "x", email: "someone@larkspur.example", password: "a-password-1" } } : {}) });
+          const res = await http(url, {
+            method,
+            cookie,
+            ...(method === "POST" ? { form: { intent: "x", email: "someone@larkspur.example", password: "a-password-1" } } : {}),
+          });
           const body = await res.text();
           sent++;
           if (res.status < 500 || path === "/healthz") continue;
@@ -70,9 +76,18 @@ describe("with the database down", () => {
         }
       }
     }
-    console.log(`database down: ${routes.length} routes, ${sent} requests, ${seen.length} answered 503 "database unavailable", none another 5xx`);
+    console.log(
+      `database down: ${routes.length} routes, ${sent} requests, ${seen.length} answered 503 "database unavailable", none another 5xx`,
+    );
     // The public routes that reach the database first are among them.
-    expect(seen).toEqual(expect.arrayContaining(["POST /signin", "POST /reset", "GET /invite/00000000-0000-4000-8000-000000000000", "POST /signout (signed in)"]));
+    expect(seen).toEqual(
+      expect.arrayContaining([
+        "POST /signin",
+        "POST /reset",
+        "GET /invite/00000000-0000-4000-8000-000000000000",
+        "POST /signout (signed in)",
+      ]),
+    );
   });
 
   it("health says the database is down", async () => {

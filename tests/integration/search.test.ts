@@ -7,10 +7,19 @@ import { rmSync } from "node:fs";
 import path from "node:path";
 import { and, eq, isNull, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
-import { marks, procedureRevisions, procedures, procedureSpecs, recordings, searchOutbox, searchSetAside, sessions, users } from "~/db/schema";
+import {
+  marks,
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  recordings,
+  searchOutbox,
+  searchSetAside,
+  sessions,
+  users,
+} from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { Meilisearch, MeilisearchApiError, MeilisearchRequestError } from "meilisearch";
-import { env } from "~/lib/env.server";
 import { INDEX_UID, SEARCH_SETTINGS, searchErrorMessage, searchIndex, searchServiceAway } from "~/lib/search/client.server";
 import { HL_PRE } from "~/lib/search/highlight";
 import { reindexAll } from "~/lib/search/indexer.server";
@@ -20,7 +29,15 @@ const word = () => `zq${randomUUID().replace(/-/g, "").slice(0, 10)}`; // a term
 
 async function search(cookie: string, q: string, extra = "") {
   const res = await http(`/api/search?q=${encodeURIComponent(q)}${extra}`, { cookie });
-  return { status: res.status, body: (await res.json()) as { hits: { id: string; kind: string; url: string; t?: number; title: string; snippet: string }[]; total: number; facets: Record<string, Record<string, number>>; error?: string } };
+  return {
+    status: res.status,
+    body: (await res.json()) as {
+      hits: { id: string; kind: string; url: string; t?: number; title: string; snippet: string }[];
+      total: number;
+      facets: Record<string, Record<string, number>>;
+      error?: string;
+    },
+  };
 }
 
 async function indexed() {
@@ -30,17 +47,51 @@ async function indexed() {
   }, 20_000);
 }
 
-async function makeProcedure(opts: { state: "published" | "draft" | "in_review"; authorId: string; title: string; body: string; summary?: string; spec?: { label: string; unit: string; min: number; max: number } }) {
+async function makeProcedure(opts: {
+  state: "published" | "draft" | "in_review";
+  authorId: string;
+  title: string;
+  body: string;
+  summary?: string;
+  spec?: { label: string; unit: string; min: number; max: number };
+}) {
   const slug = `p-${randomUUID().slice(0, 8)}`;
   return db().transaction(async (tx) => {
     const [p] = await tx.insert(procedures).values({ slug, title: opts.title, area: "assembly", createdBy: opts.authorId }).returning();
-    const doc = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Intro paragraph." }] }, { type: "paragraph", content: [{ type: "text", text: opts.body }] }] };
+    const doc = {
+      type: "doc",
+      content: [
+        { type: "paragraph", content: [{ type: "text", text: "Intro paragraph." }] },
+        { type: "paragraph", content: [{ type: "text", text: opts.body }] },
+      ],
+    };
     const [rev] = await tx
       .insert(procedureRevisions)
-      .values({ procedureId: p.id, number: 1, state: opts.state, title: opts.title, summary: opts.summary ?? "", area: "assembly", doc, authorId: opts.authorId, publishedAt: opts.state === "published" ? new Date() : null })
+      .values({
+        procedureId: p.id,
+        number: 1,
+        state: opts.state,
+        title: opts.title,
+        summary: opts.summary ?? "",
+        area: "assembly",
+        doc,
+        authorId: opts.authorId,
+        publishedAt: opts.state === "published" ? new Date() : null,
+      })
       .returning();
     if (opts.spec) {
-      await tx.insert(procedureSpecs).values({ revisionId: rev.id, procedureId: p.id, specKey: "s1", position: 0, label: opts.spec.label, quantity: "length", unit: opts.spec.unit, min: opts.spec.min, max: opts.spec.max, siUnit: "m" });
+      await tx.insert(procedureSpecs).values({
+        revisionId: rev.id,
+        procedureId: p.id,
+        specKey: "s1",
+        position: 0,
+        label: opts.spec.label,
+        quantity: "length",
+        unit: opts.spec.unit,
+        min: opts.spec.min,
+        max: opts.spec.max,
+        siUnit: "m",
+      });
     }
     return { procedure: p, revision: rev };
   });
@@ -57,7 +108,10 @@ async function outage(during: () => Promise<unknown>) {
 }
 
 async function makeRecording(uploaderId: string, title: string) {
-  const [rec] = await db().insert(recordings).values({ title, originalName: "clip.mp4", originalSize: 1000, state: "ready", uploadedBy: uploaderId, durationS: 120 }).returning();
+  const [rec] = await db()
+    .insert(recordings)
+    .values({ title, originalName: "clip.mp4", originalSize: 1000, state: "ready", uploadedBy: uploaderId, durationS: 120 })
+    .returning();
   return rec;
 }
 
@@ -71,7 +125,8 @@ describe("search", () => {
     await makeProcedure({ state: "draft", authorId: builder.id, title: `Draft about ${term}`, body: `steps for ${term}` });
     await makeProcedure({ state: "published", authorId: builder.id, title: `Published about ${term}`, body: `steps for ${term}` });
     await indexed();
-    const kinds = async (cookie: string) => (await search(cookie, term, "&type=procedure")).body.hits.map((h) => h.title.replace(/[\uE000\uE001]/g, "")).sort();
+    const kinds = async (cookie: string) =>
+      (await search(cookie, term, "&type=procedure")).body.hits.map((h) => h.title.replace(/[\uE000\uE001]/g, "")).sort();
     expect(await kinds(apprentice.cookie)).toEqual([`Published about ${term}`]);
     expect(await kinds(other.cookie)).toEqual([`Published about ${term}`]);
     expect(await kinds(builder.cookie)).toEqual([`Draft about ${term}`, `Published about ${term}`]);
@@ -81,7 +136,12 @@ describe("search", () => {
   it("a procedure hit points at the block that matched, highlighted", async () => {
     const builder = await createUser("builder");
     const term = word();
-    const { procedure } = await makeProcedure({ state: "published", authorId: builder.id, title: "Head stud installation", body: `Torque the studs with ${term} lube in three passes.` });
+    const { procedure } = await makeProcedure({
+      state: "published",
+      authorId: builder.id,
+      title: "Head stud installation",
+      body: `Torque the studs with ${term} lube in three passes.`,
+    });
     await indexed();
     const { body } = await search(builder.cookie, term);
     const hit = body.hits.find((h) => h.kind === "procedure")!;
@@ -93,7 +153,13 @@ describe("search", () => {
   it("a procedure found by its title alone opens at the top and shows its summary", async () => {
     const builder = await createUser("builder");
     const term = word();
-    const { procedure } = await makeProcedure({ state: "published", authorId: builder.id, title: `Valve lash ${term}`, summary: "Cold engine, feeler gauge, both banks.", body: "Set each rocker to the figure on the sheet." });
+    const { procedure } = await makeProcedure({
+      state: "published",
+      authorId: builder.id,
+      title: `Valve lash ${term}`,
+      summary: "Cold engine, feeler gauge, both banks.",
+      body: "Set each rocker to the figure on the sheet.",
+    });
     await indexed();
     const hit = (await search(builder.cookie, term)).body.hits.find((h) => h.kind === "procedure")!;
     expect(hit.url).toBe(`/procedures/${procedure.slug}`);
@@ -105,7 +171,9 @@ describe("search", () => {
     const qc = await createUser("qc");
     const term = word();
     const rec = await makeRecording(qc.id, `Bench test ${term}`);
-    await db().insert(marks).values({ recordingId: rec.id, tStart: 83.5, text: `Clamp load settles ${term}`, createdBy: qc.id });
+    await db()
+      .insert(marks)
+      .values({ recordingId: rec.id, tStart: 83.5, text: `Clamp load settles ${term}`, createdBy: qc.id });
     await indexed();
     const { body } = await search(qc.cookie, `settles ${term}`, "&type=mark");
     expect(body.hits).toHaveLength(1);
@@ -116,7 +184,13 @@ describe("search", () => {
   it("finds specs through trade synonyms, with limits written in both systems", async () => {
     const builder = await createUser("builder");
     const term = word();
-    await makeProcedure({ state: "published", authorId: builder.id, title: `Pistons ${term}`, body: "Measure at the skirt.", spec: { label: `piston-to-wall ${term}`, unit: "in", min: 0.003, max: 0.0035 } });
+    await makeProcedure({
+      state: "published",
+      authorId: builder.id,
+      title: `Pistons ${term}`,
+      body: "Measure at the skirt.",
+      spec: { label: `piston-to-wall ${term}`, unit: "in", min: 0.003, max: 0.0035 },
+    });
     await indexed();
     // Documents holding every word rank first; other piston-to-wall specs may follow.
     const { body } = await search(builder.cookie, `ptw ${term}`, "&type=spec");
@@ -138,7 +212,9 @@ describe("search", () => {
       const down = await search(qc.cookie, term);
       expect(down.status).toBe(503);
       for (let i = 0; i < 50; i++) {
-        await db().insert(marks).values({ recordingId: rec.id, tStart: i, text: `outage mark ${i} ${term}`, createdBy: qc.id });
+        await db()
+          .insert(marks)
+          .values({ recordingId: rec.id, tStart: i, text: `outage mark ${i} ${term}`, createdBy: qc.id });
       }
       await waitFor(async () => {
         const rows = await db().select().from(searchOutbox).where(isNull(searchOutbox.doneAt));
@@ -159,11 +235,19 @@ describe("search", () => {
     expect((await search(apprentice.cookie, term)).body.total).toBe(1);
     const { searchClient } = await import("~/lib/search/client.server");
     const settingsAreOurs = async () => {
-      const st = await searchIndex().getSettings().catch(() => null);
+      const st = await searchIndex()
+        .getSettings()
+        .catch(() => null);
       return st?.searchableAttributes?.join() === SEARCH_SETTINGS.searchableAttributes.join();
     };
     const stray = `stray-${term}`;
-    const strayGone = () => searchIndex().getDocument(stray).then(() => false, () => true); // the service answers 404
+    const strayGone = () =>
+      searchIndex()
+        .getDocument(stray)
+        .then(
+          () => false,
+          () => true,
+        ); // the service answers 404
 
     // 1. The service lost the index (a new or reset instance): nothing is findable, then the
     //    worker's check (SEARCH_CHECK_MS, 2 s in tests) rebuilds it from PostgreSQL.
@@ -175,7 +259,12 @@ describe("search", () => {
     // 2. The index is there but with the service's default settings, and holds a document the
     //    database does not know: rebuilt with ours, and the stray document removed.
     await searchIndex().resetSettings().waitTask();
-    await searchIndex().addDocuments([{ id: stray, kind: "mark", title: "stray", text: "stray", tags: [], visibility: ["all"], url: "/", date: 0, kindWeight: 2 }], { primaryKey: "id" }).waitTask();
+    await searchIndex()
+      .addDocuments(
+        [{ id: stray, kind: "mark", title: "stray", text: "stray", tags: [], visibility: ["all"], url: "/", date: 0, kindWeight: 2 }],
+        { primaryKey: "id" },
+      )
+      .waitTask();
     await waitFor(async () => (await settingsAreOurs()) && (await strayGone()), 10_000);
     expect((await search(apprentice.cookie, term)).body.total).toBe(1);
   });
@@ -190,11 +279,19 @@ describe("search", () => {
     await outage(async () => {
       // A new, empty instance: the stopped fake's files are gone.
       rmSync(path.join(process.env.BENCHREEL_RUN_DIR!, "meili"), { recursive: true, force: true });
-      await makeProcedure({ state: "published", authorId: builder.id, title: `Cam timing ${during}`, body: `degree the cam for ${during}` });
+      await makeProcedure({
+        state: "published",
+        authorId: builder.id,
+        title: `Cam timing ${during}`,
+        body: `degree the cam for ${during}`,
+      });
     });
     // The drainer makes the index anew and sends the one pending change; the check then owes
     // a full rebuild, which brings back what was indexed before the outage.
-    await waitFor(async () => (await search(apprentice.cookie, during)).body.total === 1 && (await search(apprentice.cookie, before)).body.total === 1, 20_000);
+    await waitFor(
+      async () => (await search(apprentice.cookie, during)).body.total === 1 && (await search(apprentice.cookie, before)).body.total === 1,
+      20_000,
+    );
   });
 
   it("a full reindex from PostgreSQL equals the incremental index", async () => {
@@ -224,32 +321,48 @@ describe("search", () => {
     const before = word();
     const after = word();
     const u = await createUser("builder", { name: `Pat ${before}` });
-    const [rec] = await db().insert(recordings).values({ title: `Rename check ${word()}`, originalName: "r.mp4", originalSize: 1, state: "ready", uploadedBy: u.id, durationS: 60 }).returning();
-    await db().insert(marks).values({ recordingId: rec.id, tStart: 12, text: `Gauge zeroed ${word()}`, createdBy: u.id });
+    const [rec] = await db()
+      .insert(recordings)
+      .values({ title: `Rename check ${word()}`, originalName: "r.mp4", originalSize: 1, state: "ready", uploadedBy: u.id, durationS: 60 })
+      .returning();
+    await db()
+      .insert(marks)
+      .values({ recordingId: rec.id, tStart: 12, text: `Gauge zeroed ${word()}`, createdBy: u.id });
     await makeProcedure({ state: "published", authorId: u.id, title: `Renamed author ${word()}`, body: "Torque in three passes." });
     await indexed();
     const kinds = async (q: string) => new Set((await search(u.cookie, q)).body.hits.map((h) => h.kind));
     expect(await kinds(before)).toEqual(new Set(["recording", "mark", "procedure"]));
-    await db().update(users).set({ name: `Pat ${after}` }).where(eq(users.id, u.id));
+    await db()
+      .update(users)
+      .set({ name: `Pat ${after}` })
+      .where(eq(users.id, u.id));
     await indexed();
     expect(await kinds(after)).toEqual(new Set(["recording", "mark", "procedure"]));
     expect((await search(u.cookie, before)).body.hits).toEqual([]);
   });
 
   it("tells the service's refusal (its code in the message) from a service that is away (unreachable, or silent past the time limit)", async () => {
-    const err = await searchIndex().search("x", { filter: "kind = (" }).catch((e: unknown) => e);
+    const err = await searchIndex()
+      .search("x", { filter: "kind = (" })
+      .catch((e: unknown) => e);
     expect(err).toBeInstanceOf(MeilisearchApiError);
     expect(searchErrorMessage(err)).toBe(`${(err as MeilisearchApiError).message} (invalid_search_filter)`); // what logs and the outbox record
     expect(searchServiceAway(err)).toBe(false);
     // Nobody listening: a request error, which the outbox waits out (and the header box shows its 503 message).
-    const down = await new Meilisearch({ host: "http://127.0.0.1:9" }).index(INDEX_UID).search("x").catch((e: unknown) => e);
+    const down = await new Meilisearch({ host: "http://127.0.0.1:9" })
+      .index(INDEX_UID)
+      .search("x")
+      .catch((e: unknown) => e);
     expect(down).toBeInstanceOf(MeilisearchRequestError);
     expect(searchServiceAway(down)).toBe(true);
     const silent = createServer(() => {}); // reads the request, never answers
     await new Promise<void>((r) => silent.listen(0, "127.0.0.1", r));
     try {
       const port = (silent.address() as AddressInfo).port;
-      const late = await new Meilisearch({ host: `http://127.0.0.1:${port}`, timeout: 300 }).index(INDEX_UID).search("x").catch((e: unknown) => e);
+      const late = await new Meilisearch({ host: `http://127.0.0.1:${port}`, timeout: 300 })
+        .index(INDEX_UID)
+        .search("x")
+        .catch((e: unknown) => e);
       expect(late).toBeInstanceOf(MeilisearchRequestError);
       expect(searchServiceAway(late)).toBe(true);
     } finally {
@@ -273,7 +386,10 @@ describe("search", () => {
     await makeProcedure({ state: "published", authorId: builder.id, title: `Lapping ${term}`, body: `lap the seat for ${term}` });
     await makeProcedure({ state: "draft", authorId: builder.id, title: `Draft ${term}`, body: `not yet for ${term}` });
     await indexed();
-    for (const [who, cookie] of [["builder", builder.cookie], ["apprentice", apprentice.cookie]] as const) {
+    for (const [who, cookie] of [
+      ["builder", builder.cookie],
+      ["apprentice", apprentice.cookie],
+    ] as const) {
       const res = await http(`/api/search?q=${term}`, { cookie });
       expect([who, res.status, res.headers.get("content-type")]).toEqual([who, 200, "application/json"]);
       expect((await res.json()).hits.length).toBe(who === "builder" ? 2 : 1); // the draft only for its author
@@ -290,11 +406,21 @@ describe("search", () => {
     const u = await createUser("apprentice");
     const url = new URL(BASE_URL);
     const res = await new Promise<{ status: number; type?: string; timing?: string; bytes: number }>((resolve, reject) => {
-      const req = nodeRequest({ host: url.hostname, port: url.port, method: "HEAD", path: "/api/search?q=torque", headers: { cookie: u.cookie } }, (r) => {
-        let bytes = 0;
-        r.on("data", (c: Buffer) => (bytes += c.length));
-        r.on("end", () => resolve({ status: r.statusCode ?? 0, type: r.headers["content-type"], timing: String(r.headers["server-timing"] ?? ""), bytes }));
-      });
+      const req = nodeRequest(
+        { host: url.hostname, port: url.port, method: "HEAD", path: "/api/search?q=torque", headers: { cookie: u.cookie } },
+        (r) => {
+          let bytes = 0;
+          r.on("data", (c: Buffer) => (bytes += c.length));
+          r.on("end", () =>
+            resolve({
+              status: r.statusCode ?? 0,
+              type: r.headers["content-type"],
+              timing: String(r.headers["server-timing"] ?? ""),
+              bytes,
+            }),
+          );
+        },
+      );
       req.on("error", reject);
       req.end();
     });
@@ -322,23 +448,36 @@ describe("search", () => {
     const qc = await createUser("qc");
     const term = word();
     const lash = word();
-    const { revision } = await makeProcedure({ state: "published", authorId: builder.id, title: `Valve lash ${lash}`, body: `set the lash for ${lash}` });
+    const { revision } = await makeProcedure({
+      state: "published",
+      authorId: builder.id,
+      title: `Valve lash ${lash}`,
+      body: `set the lash for ${lash}`,
+    });
     const rec = await makeRecording(qc.id, `Head build ${term}`);
     await indexed();
     // A revision whose spec block lost its attributes (written by hand in the database, as a
     // repair script might): the document builder cannot read it. The same transaction adds an
     // unrelated mark, so that both changes are in one batch of the worker.
     await db().transaction(async (tx) => {
-      await tx.update(procedureRevisions).set({ title: `Valve lash ${lash} amended`, doc: { type: "doc", content: [{ type: "spec" }] } }).where(eq(procedureRevisions.id, revision.id));
+      await tx
+        .update(procedureRevisions)
+        .set({ title: `Valve lash ${lash} amended`, doc: { type: "doc", content: [{ type: "spec" }] } })
+        .where(eq(procedureRevisions.id, revision.id));
       await tx.insert(marks).values({ recordingId: rec.id, tStart: 12, text: `lash gap checked ${term}`, createdBy: qc.id });
     });
     // The mark is findable: the bad record held nothing back.
     await waitFor(async () => (await search(qc.cookie, term, "&type=mark")).body.total === 1, 10_000);
     await indexed();
-    const [entry] = await db().select().from(searchSetAside).where(and(eq(searchSetAside.kind, "revision"), eq(searchSetAside.entityId, revision.id)));
+    const [entry] = await db()
+      .select()
+      .from(searchSetAside)
+      .where(and(eq(searchSetAside.kind, "revision"), eq(searchSetAside.entityId, revision.id)));
     expect(entry.reason).toMatch(/Cannot read properties of undefined/);
     // The revision's search entry stays as it was until it can be built again.
-    expect((await search(qc.cookie, lash, "&type=procedure")).body.hits.map((h) => h.title.replace(/[\uE000\uE001]/g, ""))).toEqual([`Valve lash ${lash}`]);
+    expect((await search(qc.cookie, lash, "&type=procedure")).body.hits.map((h) => h.title.replace(/[\uE000\uE001]/g, ""))).toEqual([
+      `Valve lash ${lash}`,
+    ]);
 
     // /healthz counts it; the admin page names it and says why.
     const health = (await (await http("/healthz")).json()) as { search: { ok: boolean; setAside: number } };
@@ -352,37 +491,62 @@ describe("search", () => {
     expect(html).toContain("Cannot read properties of undefined");
 
     // "Try again" while it is still broken: tried, set aside again with one more attempt.
-    expect((await http("/admin/search", { cookie: qc.cookie, form: { intent: "retry", kind: "revision", entityId: revision.id } })).status).toBe(403);
+    expect(
+      (await http("/admin/search", { cookie: qc.cookie, form: { intent: "retry", kind: "revision", entityId: revision.id } })).status,
+    ).toBe(403);
     const retry = await http("/admin/search", { cookie: admin.cookie, form: { intent: "retry", kind: "revision", entityId: revision.id } });
     expect(retry.status).toBe(302);
     await waitFor(async () => {
-      const [e] = await db().select().from(searchSetAside).where(and(eq(searchSetAside.kind, "revision"), eq(searchSetAside.entityId, revision.id)));
+      const [e] = await db()
+        .select()
+        .from(searchSetAside)
+        .where(and(eq(searchSetAside.kind, "revision"), eq(searchSetAside.entityId, revision.id)));
       return e?.attempts === 2;
     }, 10_000);
-    expect((await http("/admin/search", { cookie: admin.cookie, form: { intent: "retry", kind: "revision", entityId: "not-set-aside" } })).status).toBe(404);
+    expect(
+      (await http("/admin/search", { cookie: admin.cookie, form: { intent: "retry", kind: "revision", entityId: "not-set-aside" } }))
+        .status,
+    ).toBe(404);
 
     // Repaired, the record changes again: indexed, and no longer set aside.
     const doc = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: `set the lash for ${lash}` }] }] };
     await db().update(procedureRevisions).set({ doc }).where(eq(procedureRevisions.id, revision.id));
     await waitFor(async () => (await search(qc.cookie, lash, "&type=procedure")).body.hits[0]?.title.includes("amended"), 10_000);
     await indexed();
-    expect(await db().select().from(searchSetAside).where(and(eq(searchSetAside.kind, "revision"), eq(searchSetAside.entityId, revision.id)))).toEqual([]);
+    expect(
+      await db()
+        .select()
+        .from(searchSetAside)
+        .where(and(eq(searchSetAside.kind, "revision"), eq(searchSetAside.entityId, revision.id))),
+    ).toEqual([]);
   });
 
-  it("indexes what changed during an outage within 10 s of the service's return, however long the back-off had grown", { timeout: 120_000 }, async () => {
+  it("indexes what changed during an outage within 10 s of the service's return, however long the back-off had grown", {
+    timeout: 120_000,
+  }, async () => {
     const qc = await createUser("qc");
     const term = word();
     const rec = await makeRecording(qc.id, `Long outage ${term}`);
     await indexed();
     await outage(async () => {
-      const [mark] = await db().insert(marks).values({ recordingId: rec.id, tStart: 5, text: `made during the outage ${term}`, createdBy: qc.id }).returning();
+      const [mark] = await db()
+        .insert(marks)
+        .values({ recordingId: rec.id, tStart: 5, text: `made during the outage ${term}`, createdBy: qc.id })
+        .returning();
       // Stay down until the worker's next try of that change is more than 10 s away (its
       // back-off grows with each failed try; 300 ms doubled in tests), so that a worker that
       // only waited out its back-off would miss the bound below.
-      await waitFor(async () => {
-        const rows = await db().select().from(searchOutbox).where(and(isNull(searchOutbox.doneAt), eq(searchOutbox.kind, "mark"), eq(searchOutbox.entityId, mark.id)));
-        return rows.length > 0 && rows.every((r) => r.nextAttemptAt.getTime() - Date.now() > 10_000);
-      }, 90_000, 100);
+      await waitFor(
+        async () => {
+          const rows = await db()
+            .select()
+            .from(searchOutbox)
+            .where(and(isNull(searchOutbox.doneAt), eq(searchOutbox.kind, "mark"), eq(searchOutbox.entityId, mark.id)));
+          return rows.length > 0 && rows.every((r) => r.nextAttemptAt.getTime() - Date.now() > 10_000);
+        },
+        90_000,
+        100,
+      );
     });
     // The issue's bound: findable within 10 s of the service answering again.
     await waitFor(async () => (await search(qc.cookie, term, "&type=mark")).body.total === 1, 10_000);

@@ -5,7 +5,10 @@ import { describe, expect, it } from "vitest";
 import { BASE_URL, createUser, http } from "../support/app";
 
 /** A raw request through node:http (fetch hides what a HEAD answer's body holds, and normalizes paths). */
-function raw(method: string, path: string): Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: Buffer }> {
+function raw(
+  method: string,
+  path: string,
+): Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: Buffer }> {
   const url = new URL(BASE_URL);
   return new Promise((resolve, reject) => {
     const req = nodeRequest({ host: url.hostname, port: url.port, method, path }, (res) => {

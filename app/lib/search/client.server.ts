@@ -109,7 +109,27 @@ export const SEARCH_SETTINGS = {
   sortableAttributes: ["date"],
   // `body` (a procedure's blocks) is displayed so that the service can crop and highlight it;
   // searches ask for its crop only, never the whole text (RETURNED in query.server.ts).
-  displayedAttributes: ["id", "kind", "title", "text", "body", "tags", "visibility", "url", "state", "uploader", "procedureTitle", "recordingTitle", "area", "t", "date", "group", "readings", "readingIds", "readingTimes"],
+  displayedAttributes: [
+    "id",
+    "kind",
+    "title",
+    "text",
+    "body",
+    "tags",
+    "visibility",
+    "url",
+    "state",
+    "uploader",
+    "procedureTitle",
+    "recordingTitle",
+    "area",
+    "t",
+    "date",
+    "group",
+    "readings",
+    "readingIds",
+    "readingTimes",
+  ],
 };
 
 /**
@@ -129,7 +149,9 @@ export async function ensureIndex(): Promise<{ created: boolean }> {
     }
     created = task.status === "succeeded";
   }
-  const task = await searchIndex().updateSettings({ ...SEARCH_SETTINGS, synonyms: await currentSynonyms() }).waitTask();
+  const task = await searchIndex()
+    .updateSettings({ ...SEARCH_SETTINGS, synonyms: await currentSynonyms() })
+    .waitTask();
   if (task.status !== "succeeded") throw new Error(`search settings failed: ${task.error?.message ?? task.status}`);
   return { created };
 }

@@ -47,7 +47,12 @@ export function readingUrl(recordingUrl: string, id: string, t: number | null | 
 }
 
 /** The readings of a recording's document that hold highlighted words, in the document's order. */
-export function matchingReadings(recordingUrl: string, formatted: unknown, ids: unknown, times: unknown): { listed: ReadingMatch[]; more: number } {
+export function matchingReadings(
+  recordingUrl: string,
+  formatted: unknown,
+  ids: unknown,
+  times: unknown,
+): { listed: ReadingMatch[]; more: number } {
   const lines = Array.isArray(formatted) ? formatted : [];
   const idList = Array.isArray(ids) ? ids : [];
   const timeList = Array.isArray(times) ? times : [];
@@ -118,7 +123,10 @@ export function bestLine(cropped: string): string | null {
   let best: string | null = null;
   let most = [0, 0];
   for (const line of cropped.split("\n")) {
-    const marked = line.split(HL_PRE).slice(1).map((part) => part.split(HL_POST)[0].toLowerCase());
+    const marked = line
+      .split(HL_PRE)
+      .slice(1)
+      .map((part) => part.split(HL_POST)[0].toLowerCase());
     const score = [new Set(marked).size, marked.length];
     if (score[0] > most[0] || (score[0] === most[0] && score[1] > most[1])) [best, most] = [line, score];
   }
