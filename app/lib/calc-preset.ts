@@ -38,3 +38,20 @@ export const calculatorPresetSchema = z.discriminatedUnion(
 export function presetText(calculator: CalcKind, input: unknown): string {
   return JSON.stringify({ calculator, input }, null, 2);
 }
+
+/**
+ * What the procedure editor's "Paste inputs" box makes of a pasted value: the whole copied
+ * preset `{ calculator, input }` gives its calculator and input (checked against that
+ * calculator's schema); anything else is taken as the block's input itself, for the block's
+ * own check to judge.
+ */
+export function readPastedPreset(value: unknown): { ok: true; calculator?: CalcKind; input: unknown } | { ok: false; message: string } {
+  if (value === null || typeof value !== "object" || !("calculator" in value)) return { ok: true, input: value };
+  const parsed = calculatorPresetSchema.safeParse(value);
+  if (parsed.success) return { ok: true, calculator: parsed.data.calculator, input: parsed.data.input };
+  const first = parsed.error.issues[0];
+  return {
+    ok: false,
+    message: `The copied inputs do not fit their calculator: ${[first?.path.join("."), first?.message].filter(Boolean).join(" ")}`,
+  };
+}

@@ -135,3 +135,20 @@ test("the Video moment block previews the recording in our player, and its frame
   await expect(page.getByTestId("save-status")).toHaveText(/^Saved/, { timeout: 15_000 });
   await shoot(page, "editor-moment-player");
 });
+
+test("inputs copied from a calculator page, pasted into a calculator block, become the block's kind and inputs", async ({ page }) => {
+  await page.setViewportSize({ width: 1366, height: 900 });
+  const editor = await newDraft(page, `Pasted calculator ${stamp}`);
+  await blankPage(page, editor);
+  await page.getByRole("button", { name: "Preload calculator" }).click();
+  await page.getByText("Paste inputs from a calculator page").click();
+  // What "Copy as calculator block" on the Clearances page puts on the clipboard: { calculator, input }.
+  const copied = JSON.stringify({
+    calculator: "clearance",
+    input: { kind: "piston-to-wall", bore: { value: 101.6, unit: "mm" }, piston: { value: 101.53, unit: "mm" } },
+  });
+  await page.getByLabel("Calculator inputs copied from a calculator page").fill(copied);
+  await expect(page.getByLabel("Calculator kind")).toHaveValue("clearance");
+  await expect(page.getByText(/Cannot compute/)).toHaveCount(0);
+  await expect(page.locator("input[aria-label^='Preset']").first()).toHaveValue("101.6");
+});

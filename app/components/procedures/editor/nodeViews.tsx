@@ -3,6 +3,7 @@ import { NodeViewContent, NodeViewWrapper, ReactNodeViewRenderer, type ReactNode
 import { lazy, Suspense, useEffect, useId, useMemo, useRef, useState } from "react";
 import type { PlayerApi } from "~/components/recordings/Player.client";
 import { UNIT_CODES, unitLabel, type UnitCode, type UnitKind } from "~/lib/calc";
+import { readPastedPreset } from "~/lib/calc-preset";
 import { CALC_KINDS, DEFAULT_PRESETS, numericLeaves, runCalculator, setAtPath, type CalcKind } from "~/lib/procedures/calc-presets";
 import { blockProblems, calcLabel, formatSeconds, QUANTITY_KINDS, type JSONNode } from "~/lib/procedures/document";
 import { CalculatorNode, CautionNode, ProcedureLinkNode, SpecNode, VideoMomentNode } from "~/lib/procedures/nodes";
@@ -279,9 +280,11 @@ function CalculatorView({ node, updateAttributes, selected }: ReactNodeViewProps
           onChange={(e) => {
             setJson(e.target.value);
             try {
-              const v = JSON.parse(e.target.value);
+              const pasted = readPastedPreset(JSON.parse(e.target.value));
+              if (!pasted.ok) return setJsonError(pasted.message);
               setJsonError(null);
-              updateAttributes({ preset: v });
+              // A whole copied preset brings its calculator along: the block becomes that kind.
+              updateAttributes(pasted.calculator ? { kind: pasted.calculator, preset: pasted.input } : { preset: pasted.input });
             } catch {
               setJsonError("This is not the whole copied text yet; the last complete inputs are kept.");
             }
