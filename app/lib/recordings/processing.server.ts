@@ -364,7 +364,7 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     .update(recordings)
     .set({ state: "ready", stateReason: null, progress: 1, hasRendition: plan !== "as-is", readyAt: new Date(), updatedAt: new Date() })
     .where(eq(recordings.id, id));
-  if (plan !== "transcode" && !(await laterDecodeCheck(id, src, expectedS))) return "damaged";
+  if (plan !== "transcode") queueLaterDecodeCheck(id, src, expectedS);
   return "ready";
 }
 
@@ -383,7 +383,7 @@ type Made = { decodedS: number } | { damage: string };
  * A file that is already H.264 is checked before "Ready" by reading every packet of its video
  * (a file cut short, or whose index promises more than its data holds, fails or comes out
  * short) while the remux, which copies packets, runs beside it. Its pictures are decoded after
- * "Ready" (`laterDecodeCheck`): that costs as long as playing the file through at full speed.
+ * "Ready" (`queueLaterDecodeCheck`): that costs as long as playing the file through at full speed.
  */
 async function decodeAndCopy(src: string, expectedS: number, plan: "as-is" | "remux", out: string): Promise<Made> {
   const copy = plan === "remux" ? ffmpeg(renditionArgs("remux", src, out)) : Promise.resolve();
@@ -398,14 +398,22 @@ async function decodeAndCopy(src: string, expectedS: number, plan: "as-is" | "re
   return { decodedS: source.decodedS };
 }
 
+let laterChecks: Promise<void> = Promise.resolve();
+
 /**
- * Every picture of a file that was not transcoded, decoded after it became ready: a file whose
+ * Every picture of a file that was not transcoded, decoded after it became ready, one file at
+ * a time and outside the job, so the next upload's job does not wait for it: a file whose
  * packets are all there but whose pictures do not decode is then marked damaged with the reason.
  */
-async function laterDecodeCheck(id: string, src: string, expectedS: number): Promise<boolean> {
-  const damage = damageReason(await decodeCheck(src), expectedS);
-  if (damage) await db().update(recordings).set({ state: "damaged", stateReason: damage, updatedAt: new Date() }).where(eq(recordings.id, id));
-  return !damage;
+function queueLaterDecodeCheck(id: string, src: string, expectedS: number): void {
+  laterChecks = laterChecks
+    .then(async () => {
+      const damage = damageReason(await decodeCheck(src), expectedS);
+      if (!damage) return;
+      await db().update(recordings).set({ state: "damaged", stateReason: damage, updatedAt: new Date() }).where(eq(recordings.id, id));
+      console.log(`[recordings] ${id}: damaged (found after ready)`);
+    })
+    .catch((err) => console.error(`[recordings] ${id}: the decode check after ready failed: ${(err as Error).message}`));
 }
 
 /**
