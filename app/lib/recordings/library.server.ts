@@ -115,23 +115,16 @@ export async function procedureChoices() {
 }
 
 type MediaFacts = { id: string; state: string; hasRendition: boolean; hasPoster: boolean; hasOriginal: boolean; originalName: string };
-const mediaCache = new Map<string, { at: number; facts: MediaFacts | null }>();
-
 /**
- * What the media routes need to know about a recording, from one narrow query, remembered
- * for a second (a player asks for many ranges in a row). The session is still checked on
- * every request; only these facts are reused.
+ * What the media routes need to know about a recording, from one narrow query by primary key
+ * (a fraction of a millisecond; the Range target in `npm run bench -- recordings` is met
+ * without remembering it between a player's many range requests).
  */
 export async function mediaFacts(id: string): Promise<MediaFacts | null> {
   if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
-  const hit = mediaCache.get(id);
-  if (hit && Date.now() - hit.at < 1000) return hit.facts;
   const [row] = await db()
     .select({ id: recordings.id, state: recordings.state, hasRendition: recordings.hasRendition, hasPoster: recordings.hasPoster, hasOriginal: recordings.hasOriginal, originalName: recordings.originalName })
     .from(recordings)
     .where(eq(recordings.id, id));
-  const facts = row ?? null;
-  if (mediaCache.size > 500) mediaCache.clear();
-  mediaCache.set(id, { at: Date.now(), facts });
-  return facts;
+  return row ?? null;
 }
