@@ -8,7 +8,10 @@ import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { promisify } from "node:util";
+import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
+import { recordings } from "~/db/schema";
+import { db } from "~/lib/db.server";
 import { killLeftovers } from "~/lib/recordings/processing.server";
 import { recordingDir } from "~/lib/recordings/storage.server";
 import { createUser, http, waitFor, type TestUser } from "../support/app";
@@ -45,6 +48,26 @@ async function faststartClip(name: string): Promise<string> {
     file,
   ]);
   return file;
+}
+
+/**
+ * The bytes of an MP4 with a run of the middle of its media data (mdat) overwritten: the boxes,
+ * the index and every packet's size stay as they were, so every packet reads, but the pictures
+ * there do not decode.
+ */
+function garbledMediaData(file: string, at = 0.5): Buffer {
+  const bytes = Buffer.from(fs.readFileSync(file));
+  for (let pos = 0; pos + 8 <= bytes.length; ) {
+    const size = bytes.readUInt32BE(pos);
+    if (bytes.toString("latin1", pos + 4, pos + 8) === "mdat") {
+      const start = pos + 8 + Math.floor((size - 8) * at);
+      for (let i = 0; i < 2000; i++) bytes[start + i] = (i * 73 + 17) & 0xff;
+      return bytes;
+    }
+    if (size < 8) break;
+    pos += size;
+  }
+  throw new Error(`${file} has no mdat box`);
 }
 
 /** Uploads bytes in one PATCH; the recording's id. */
@@ -175,6 +198,30 @@ describe("damaged video", () => {
     };
     expect(stored.readings).toHaveLength(0);
     expect((await post(ready)).status).toBe(201);
+  });
+
+  it("marks an H.264 file whose packets all read but whose pictures do not decode damaged after it was Ready; readings are then refused", async () => {
+    const whole = await faststartClip("faststart-garbled.mp4");
+    const garbled = garbledMediaData(whole);
+    expect(garbled.length).toBe(fs.statSync(whole).size);
+    const id = await uploadBytes(garbled, "garbled.mp4");
+    // Every packet reads, so the job makes it ready; the decode after Ready finds the damage.
+    const rec = await waitFor(async () => ((r) => (r.state === "damaged" ? r : null))(await recording(id)), 20_000, 300);
+    expect(rec.stateReason).toMatch(/^The video is damaged: playback breaks off at /);
+    expect(rec.stateReason).toMatch(/of 0:03\.0/);
+    // It was Ready first (the job's own damage verdict never sets readyAt).
+    const [row] = await db().select({ readyAt: recordings.readyAt }).from(recordings).where(eq(recordings.id, id));
+    expect(row.readyAt).toBeInstanceOf(Date);
+    expect((await http(`/api/recordings/${id}/media`, { cookie: builder.cookie })).status).toBe(409);
+    const page = await (await http(`/recordings/${id}`, { cookie: builder.cookie })).text();
+    expect(page).toContain("The video is damaged");
+    const refused = await http(`/api/recordings/${id}/readings`, {
+      method: "POST",
+      cookie: builder.cookie,
+      json: { readings: [{ quantity: "torque", value: 110, unit: "N.m", label: "bench point 1" }] },
+    });
+    expect(refused.status).toBe(409);
+    expect(await refused.json()).toMatchObject({ error: "conflict", reason: expect.stringMatching(/video is damaged/), state: "damaged" });
   });
 
   it("still makes a whole video ready", async () => {
