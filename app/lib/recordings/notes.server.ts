@@ -5,6 +5,8 @@ import { assertCan, forbidden, type SessionUser } from "../auth.server";
 import { db } from "../db.server";
 import { canOnOwned } from "../permissions";
 import { readableProcedureIds, UNREADABLE_PROCEDURE, type Reader } from "../procedures/visibility.server";
+import { DomainError } from "../domain-error";
+import { domainErrorJson } from "../domain-error.server";
 import { invalidInput, notFound } from "../edge.server";
 import { getRecording, listMarks, listReadings, procedureChoices } from "./library.server";
 import { markInputSchema, markPatchSchema } from "./marks";
@@ -33,8 +35,10 @@ async function procedureUnreadable(reader: Reader, id: string | null | undefined
   return !(await readableProcedureIds(reader, [id])).has(id);
 }
 
-const unknownProcedure = () =>
-  Response.json({ error: "invalid input", issues: [{ path: "procedureId", message: "That procedure does not exist, or it is not published yet." }] }, { status: 422 });
+/** A value the rules refuse, as the API's 422 with the field it belongs to. */
+const refused = (path: string, message: string) => domainErrorJson(new DomainError(message, { status: 422, field: path, issues: [{ path, message }] }));
+
+const unknownProcedure = () => refused("procedureId", "That procedure does not exist, or it is not published yet.");
 
 /**
  * A recording's marks as `reader` may see them: a link to a procedure the reader may not read
@@ -91,7 +95,7 @@ export async function updateMark(request: Request, user: SessionUser, recordingI
   if (!parsed.success) return invalidInput(request, parsed.error);
   const next = { ...m, ...Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined)) };
   if (next.tEnd != null && next.tEnd <= next.tStart) {
-    return Response.json({ error: "invalid input", issues: [{ path: "tEnd", message: "A span must end after it starts." }] }, { status: 422 });
+    return refused("tEnd", "A span must end after it starts.");
   }
   // A link kept as it was is not checked again: the author of a mark may edit its text even when
   // its procedure has since become one they may not read.

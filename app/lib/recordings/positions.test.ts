@@ -99,4 +99,8 @@ describe("bore readings into the Bore distortion form", () => {
     // 3.465 in × 25.4 = 88.011 mm (NIST SP 811 B.8)
     expect(distortionFieldsFor(rs, 1)!["m.0.2"]).toBe("88.011");
   });
+  it("keeps the digits a diameter was typed with (88.010 stays 88.010, not 88.01)", () => {
+    const rs = [{ ...bore(1, 12, 0, 88.01), valueDecimals: 3 }, bore(1, 12, 90, 88.004)];
+    expect(distortionFieldsFor(rs, 1)!["m.0.0"]).toBe("88.010");
+  });
 });

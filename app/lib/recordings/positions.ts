@@ -9,6 +9,7 @@
 import { z } from "zod";
 import { fromSI, toSI } from "~/lib/calc";
 import { POSITION_RANGES } from "~/lib/edge";
+import { typedText } from "~/lib/typed-number";
 
 export type PositionField = "fastener" | "cylinder" | "depth" | "angle" | "journal";
 
@@ -245,7 +246,7 @@ export function positionFromLabel(quantity: string | PositionField[], label: str
 
 // ---- Bore distortion ---------------------------------------------------------------------------
 
-export type BoreReadingLike = Partial<Position> & { quantity: string; valueEntered: number; unitEntered: string; valueSi: number };
+export type BoreReadingLike = Partial<Position> & { quantity: string; valueEntered: number; unitEntered: string; valueSi: number; valueDecimals?: number | null };
 
 /** The cylinders of a recording's bore-diameter readings that have a depth and an angle. */
 export function boreCylinders(readings: BoreReadingLike[]): number[] {
@@ -277,7 +278,8 @@ export function distortionFieldsFor(readings: BoreReadingLike[], cylinder: numbe
   for (const r of mine) {
     const i = depths.indexOf(r.depthM!);
     const j = angles.indexOf(r.angleDeg!);
-    v[`m.${i}.${j}`] = r.unitEntered === unit ? fmt(r.valueEntered) : fmt(fromSI(r.valueSi, unit as never));
+    // A diameter typed in the form's unit keeps the digits typed (88.010 stays 88.010).
+    v[`m.${i}.${j}`] = r.unitEntered === unit ? typedText(r.valueEntered, r.valueDecimals) : fmt(fromSI(r.valueSi, unit as never));
   }
   return v;
 }

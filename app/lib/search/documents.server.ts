@@ -233,7 +233,7 @@ async function readingsDoc(recordingId: string, unindexable: Unindexable[]): Pro
       .filter(([, v]) => v)
       .map(([k, v]) => `${k} ${v}`)
       .join(", ");
-    const value = bothSystems(r.valueEntered, r.unitEntered);
+    const value = bothSystems(r.valueEntered, r.unitEntered, r.valueDecimals);
     return [{ id: r.id, t: r.t, by: who.get(r.createdBy ?? "") ?? "", line: `${[positionText(r, ", "), r.label].filter(Boolean).join(", ") || r.quantity}: ${value} — ${r.quantity}${cond ? ` (${cond})` : ""}` }];
   }) ?? []);
   if (!lines.length) return [];

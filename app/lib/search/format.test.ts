@@ -9,10 +9,13 @@ describe("search text in both unit systems", () => {
   });
 
   it("writes a reading's value in both systems", () => {
-    // 110 N·m ÷ 1.3558179483314004 N·m per ft·lbf = 81.13 ft·lbf (NIST SP 811 B.8).
-    expect(bothSystems(110, "N.m")).toBe("110.0 N·m (81.13 ft·lbf)");
-    // 51 kN = 51000 N ÷ 4.4482216152605 N/lbf = 11465 lbf.
-    expect(bothSystems(51, "kN")).toBe("51.00 kN (11465 lbf)");
+    // 110 N·m ÷ 1.3558179483314004 N·m per ft·lbf = 81.13 ft·lbf (NIST SP 811 B.8); typed to 1 N·m,
+    // a step of 0.74 ft·lbf, so shown to 0.1 ft·lbf.
+    expect(bothSystems(110, "N.m")).toBe("110 N·m (81.1 ft·lbf)");
+    // 51 kN = 51000 N ÷ 4.4482216152605 N/lbf = 11465 lbf (a step of 225 lbf: whole pounds), no separator.
+    expect(bothSystems(51, "kN")).toBe("51 kN (11465 lbf)");
+    // Typed as 88.010 mm: the zero stays; 88.010 ÷ 25.4 = 3.46496 in (a step of 0.00004 in).
+    expect(bothSystems(88.01, "mm", 3)).toBe("88.010 mm (3.46496 in)");
     expect(otherUnit("degF")).toBe("degC");
   });
 });

@@ -1,4 +1,5 @@
 import { convert, unitKind, unitLabel, type UnitCode, type UnitKind } from "~/lib/calc";
+import { formatMeasured } from "~/lib/calc-ui/units";
 
 /** The unit in the other system that a reader of that system would use. */
 const COUNTERPART: Record<UnitKind, { metric: UnitCode; inch: UnitCode }> = {
@@ -38,12 +39,17 @@ const label = (u: string) => {
   }
 };
 
-/** "110 N·m (81.1 ft·lbf)": the value as entered and in the other system. */
-export function bothSystems(value: number, unit: string): string {
+/**
+ * "110 N·m (81.1 ft·lbf)": a reading as it was typed (`decimals`: the digits typed, so 88.010
+ * stays 88.010) and in the other system at the same resolution, by the one formatter of shown
+ * numbers. Without thousands separators: a person searching types 11465, not 11,465.
+ */
+export function bothSystems(value: number, unit: string, decimals?: number | null): string {
+  const plain = (s: string) => s.replace(/,/g, "");
   const other = otherUnit(unit);
-  const first = `${formatNumber(value, unit)} ${label(unit)}`;
+  const first = `${plain(formatMeasured(value, unit as UnitCode, unit as UnitCode, 0, decimals))} ${label(unit)}`;
   if (!other) return first;
-  return `${first} (${formatNumber(convert(value, unit, other), other)} ${label(other)})`;
+  return `${first} (${plain(formatMeasured(value, unit as UnitCode, other, 0, decimals))} ${label(other)})`;
 }
 
 /** "0.0030–0.0035 in (0.076–0.089 mm)" for a spec's limits. */
