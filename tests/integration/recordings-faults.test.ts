@@ -1,7 +1,8 @@
-// Recordings, faults: a damaged video (its index promises more than its data holds) is marked
-// damaged with the reason, never ready; and a worker killed with SIGKILL in the middle of a
-// transcode takes its ffmpeg with it, and the retried job publishes a rendition that decodes
-// in full. The worker is killed and started again through the test run's control server
+// Recordings, faults: a damaged video (its index promises more than its data holds, or its
+// pictures do not decode: found after Ready) is marked damaged with the reason; and a worker
+// killed with SIGKILL in the middle of a transcode takes its ffmpeg with it, and the retried job publishes a rendition that decodes
+// in full; a worker killed during the decode after Ready leaves that decode to the next worker.
+// The worker is killed and started again through the test run's control server
 // (scripts/test.mjs, WORKER_CONTROL_URL).
 import { execFile, spawn } from "node:child_process";
 import { randomUUID } from "node:crypto";
@@ -31,22 +32,10 @@ async function ffmpeg(args: string[]) {
   await run("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args]);
 }
 
-/** A 3 s H.264 clip with its index first (faststart), as a phone's upload; its path. */
-async function faststartClip(name: string): Promise<string> {
+/** An H.264 clip (3 s unless told) with its index first (faststart), as a phone's upload; its path. */
+async function faststartClip(name: string, lavfi = "testsrc=duration=3:size=320x240:rate=25", encoder: string[] = []): Promise<string> {
   const file = path.join(work, name);
-  await ffmpeg([
-    "-f",
-    "lavfi",
-    "-i",
-    "testsrc=duration=3:size=320x240:rate=25",
-    "-pix_fmt",
-    "yuv420p",
-    "-c:v",
-    "libx264",
-    "-movflags",
-    "+faststart",
-    file,
-  ]);
+  await ffmpeg(["-f", "lavfi", "-i", lavfi, ...encoder, "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", file]);
   return file;
 }
 
@@ -290,4 +279,23 @@ describe("worker killed during a transcode", () => {
       unrelated.kill("SIGKILL");
     }
   });
+});
+
+describe("worker killed during the decode after Ready", () => {
+  it("hands the decode after Ready of a worker killed during it to the next worker, which marks the garbled file damaged", async () => {
+    // H.264 with its index first, served as it is; garbled near the end, so the decode after
+    // Ready runs long enough to be killed in the middle.
+    const src = await faststartClip("long-garbled.mp4", "testsrc2=duration=60:size=1280x720:rate=25", ["-preset", "ultrafast"]);
+    const id = await uploadBytes(garbledMediaData(src, 0.95), "long-garbled.mp4");
+    // Ready, and the decode of its pictures at work.
+    await waitFor(async () => (await recording(id)).state === "ready" && ffmpegFor(id).length > 0, 90_000, 50);
+    expect((await (await control("kill")).json()) as { killed: number[] }).toMatchObject({ killed: [expect.any(Number)] });
+    await waitFor(async () => ffmpegFor(id).length === 0, 5_000, 50);
+    // Nobody checks it while no worker runs.
+    expect(await recording(id)).toMatchObject({ state: "ready", stateReason: null });
+
+    expect((await control("start")).status).toBe(200);
+    const rec = await waitFor(async () => ((r) => (r.state === "damaged" ? r : null))(await recording(id)), 120_000, 300);
+    expect(rec.stateReason).toMatch(/^The video is damaged: playback breaks off at .* of 1:00\.0/);
+  }, 300_000);
 });

@@ -3,13 +3,13 @@ import { randomBytes } from "node:crypto";
 import fs from "node:fs/promises";
 import { createReadStream, existsSync } from "node:fs";
 import path from "node:path";
-import { eq, sql } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { recordings } from "~/db/schema";
 import { db } from "../db.server";
 import { formatTime } from "../time-format";
 import { env } from "../env.server";
-import { boss, enqueueProcessing, listenForJobs, PROCESS_QUEUE, stopBoss } from "./queue.server";
+import { boss, DECODE_QUEUE, enqueueDecodeCheck, enqueueProcessing, listenForJobs, PROCESS_QUEUE, stopBoss } from "./queue.server";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
 
 export type Probe = {
@@ -360,11 +360,12 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
   }
   await poster;
   if (plan !== "as-is") await fs.rename(tmp, renditionPath(id));
+  // Sent before "Ready" is written, so no moment exists where the file is ready with no check to come.
+  if (plan !== "transcode") await enqueueDecodeCheck(id, expectedS);
   await db()
     .update(recordings)
     .set({ state: "ready", stateReason: null, progress: 1, hasRendition: plan !== "as-is", readyAt: new Date(), updatedAt: new Date() })
     .where(eq(recordings.id, id));
-  if (plan !== "transcode") queueLaterDecodeCheck(id, src, expectedS);
   return "ready";
 }
 
@@ -383,7 +384,7 @@ type Made = { decodedS: number } | { damage: string };
  * A file that is already H.264 is checked before "Ready" by reading every packet of its video
  * (a file cut short, or whose index promises more than its data holds, fails or comes out
  * short) while the remux, which copies packets, runs beside it. Its pictures are decoded after
- * "Ready" (`queueLaterDecodeCheck`): that costs as long as playing the file through at full speed.
+ * "Ready" (`checkDecodeAfterReady`): that costs as long as playing the file through at full speed.
  */
 async function decodeAndCopy(src: string, expectedS: number, plan: "as-is" | "remux", out: string): Promise<Made> {
   const copy = plan === "remux" ? ffmpeg(renditionArgs("remux", src, out)) : Promise.resolve();
@@ -398,22 +399,24 @@ async function decodeAndCopy(src: string, expectedS: number, plan: "as-is" | "re
   return { decodedS: source.decodedS };
 }
 
-let laterChecks: Promise<void> = Promise.resolve();
-
 /**
- * Every picture of a file that was not transcoded, decoded after it became ready, one file at
- * a time and outside the job, so the next upload's job does not wait for it: a file whose
- * packets are all there but whose pictures do not decode is then marked damaged with the reason.
+ * Every picture of a file that was not transcoded, decoded after it became ready (a job of its
+ * own, DECODE_QUEUE, one file at a time beside the processing jobs, so the next upload's job
+ * does not wait for it): a file whose packets are all there but whose pictures do not decode is
+ * then marked damaged with the reason.
  */
-function queueLaterDecodeCheck(id: string, src: string, expectedS: number): void {
-  laterChecks = laterChecks
-    .then(async () => {
-      const damage = damageReason(await decodeCheck(src), expectedS);
-      if (!damage) return;
-      await db().update(recordings).set({ state: "damaged", stateReason: damage, updatedAt: new Date() }).where(eq(recordings.id, id));
-      console.log(`[recordings] ${id}: damaged (found after ready)`);
-    })
-    .catch((err) => console.error(`[recordings] ${id}: the decode check after ready failed: ${(err as Error).message}`));
+export async function checkDecodeAfterReady(id: string, expectedS: number): Promise<"ok" | "damaged" | "skipped"> {
+  const [rec] = await db().select({ state: recordings.state }).from(recordings).where(eq(recordings.id, id));
+  // The job is sent a moment before "Ready" is written; one that starts in that moment is retried.
+  if (rec?.state === "processing") throw new Error("not ready yet");
+  if (rec?.state !== "ready") return "skipped";
+  const damage = damageReason(await decodeCheck(originalPath(id)), expectedS);
+  if (!damage) return "ok";
+  await db()
+    .update(recordings)
+    .set({ state: "damaged", stateReason: damage, updatedAt: new Date() })
+    .where(and(eq(recordings.id, id), eq(recordings.state, "ready")));
+  return "damaged";
 }
 
 /**
@@ -488,11 +491,20 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
     where r.state = 'processing'
       and not exists (select 1 from pgboss.job j where j.name = ${PROCESS_QUEUE} and j.data->>'recordingId' = r.id::text and j.state in ('created','retry'))`);
   for (const r of rows) await enqueueProcessing(r.id);
+  // A decode check still active belonged to a worker that died during it (this one has not
+  // started any yet): failing it hands it to pg-boss's retry now instead of at its expiry.
+  const orphans = await db().execute<{ id: string }>(sql`select id from pgboss.job where name = ${DECODE_QUEUE} and state = 'active'`);
+  if (orphans.rows.length) await b.fail(DECODE_QUEUE, orphans.rows.map((r) => r.id));
+  await b.work<{ recordingId: string; expectedS: number }>(DECODE_QUEUE, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
+    const outcome = await checkDecodeAfterReady(job.data.recordingId, job.data.expectedS);
+    if (outcome === "damaged") console.log(`[recordings] ${job.data.recordingId}: damaged (found after ready)`);
+  });
   const listener = listenForJobs(() => b.notifyWorker(workerId));
   return {
     async stop() {
       await listener.stop();
       await b.offWork(PROCESS_QUEUE);
+      await b.offWork(DECODE_QUEUE);
       await stopBoss();
     },
   };

@@ -8,6 +8,12 @@ import { env } from "../env.server";
  */
 export const PROCESS_QUEUE = "recording-process";
 export const JOB_OPTIONS = { retryLimit: 3, retryDelay: 5, retryBackoff: true, expireInSeconds: 6 * 3600 } as const;
+/**
+ * The decode of a not-transcoded file's pictures after "Ready": a job of its own, so a worker
+ * that dies during it leaves the job to the next worker instead of the file unchecked.
+ */
+export const DECODE_QUEUE = "recording-decode-check";
+const QUEUES = [PROCESS_QUEUE, DECODE_QUEUE];
 
 const g = globalThis as unknown as { __benchreelBoss?: Promise<PgBoss> };
 
@@ -23,9 +29,10 @@ export function boss(opts: { worker?: boolean } = {}): Promise<PgBoss> {
     });
     b.on("error", (err) => console.error("[queue]", err.message));
     await b.start();
-    if (!(await b.getQueue(PROCESS_QUEUE))) {
-      await b.createQueue(PROCESS_QUEUE, { name: PROCESS_QUEUE, ...JOB_OPTIONS }).catch(async (err) => {
-        if (!(await b.getQueue(PROCESS_QUEUE))) throw err; // lost a race with the other process: fine
+    for (const name of QUEUES) {
+      if (await b.getQueue(name)) continue;
+      await b.createQueue(name, { name, ...JOB_OPTIONS }).catch(async (err) => {
+        if (!(await b.getQueue(name))) throw err; // lost a race with the other process: fine
       });
     }
     return b;
@@ -43,6 +50,11 @@ export async function enqueueProcessing(recordingId: string): Promise<void> {
   const b = await boss();
   await b.send(PROCESS_QUEUE, { recordingId }, JOB_OPTIONS);
   await b.getDb().executeSql("select pg_notify($1, '')", [WAKE_CHANNEL]);
+}
+
+/** Sent by the worker just before it marks the recording ready; a job that starts earlier is retried. */
+export async function enqueueDecodeCheck(recordingId: string, expectedS: number): Promise<void> {
+  await (await boss()).send(DECODE_QUEUE, { recordingId, expectedS }, JOB_OPTIONS);
 }
 
 /**
