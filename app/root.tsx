@@ -1,4 +1,15 @@
-import { data, isRouteErrorResponse, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, useLocation, useRouteLoaderData } from "react-router";
+import {
+  data,
+  isRouteErrorResponse,
+  Link,
+  Links,
+  Meta,
+  Outlet,
+  Scripts,
+  ScrollRestoration,
+  useLocation,
+  useRouteLoaderData,
+} from "react-router";
 import type { Route } from "./+types/root";
 import { config as zodConfig } from "zod";
 import "./app.css";
@@ -68,7 +79,10 @@ const MESSAGES: Record<number, { title: string; body: string }> = {
   400: { title: "Not understood", body: "Part of that request could not be read." },
   413: { title: "Too large", body: "That request was larger than the shop allows." },
   415: { title: "Not a form", body: "That was not sent as a form, the way a browser sends one." },
-  503: { title: "Database unavailable", body: "The shop database is not answering. Try again in a minute; if it persists, tell the admin." },
+  503: {
+    title: "Database unavailable",
+    body: "The shop database is not answering. Try again in a minute; if it persists, tell the admin.",
+  },
 };
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
@@ -82,7 +96,10 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   } else if (import.meta.env.DEV && error instanceof Error) {
     detail = error.stack;
   }
-  const msg = MESSAGES[status] ?? { title: "Something went wrong", body: "The error has been logged. Try again, or go back to the shop floor." };
+  const msg = MESSAGES[status] ?? {
+    title: "Something went wrong",
+    body: "The error has been logged. Try again, or go back to the shop floor.",
+  };
   const next = encodeURIComponent(location.pathname + location.search);
   return (
     <main className="mx-auto max-w-xl px-6 py-20">
@@ -92,7 +109,9 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
       {/* A refusal's reason already says, in the shop's words, what the role can and cannot do
           and whom to ask (forbiddenReason in app/lib/permissions.ts): it replaces the general line. */}
       {status === 403 && detail ? (
-        <p className="mt-4 text-graphite" data-testid="forbidden-reason">{detail}</p>
+        <p className="mt-4 text-graphite" data-testid="forbidden-reason">
+          {detail}
+        </p>
       ) : (
         <p className="mt-4 text-graphite-soft">{msg.body}</p>
       )}
@@ -100,9 +119,13 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
       {detail && status === 500 && <pre className="mt-4 overflow-auto text-xs">{detail}</pre>}
       <div className="mt-8 flex gap-3">
         {status === 401 ? (
-          <a className="btn btn-primary" href={`/signin?next=${next}`}>Sign in</a>
+          <a className="btn btn-primary" href={`/signin?next=${next}`}>
+            Sign in
+          </a>
         ) : (
-          <Link className="btn" to="/">Back to the shop floor</Link>
+          <Link className="btn" to="/">
+            Back to the shop floor
+          </Link>
         )}
       </div>
     </main>

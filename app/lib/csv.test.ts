@@ -6,7 +6,7 @@ import { spreadsheetCsv } from "./csv";
 
 describe("spreadsheetCsv", () => {
   it("puts a quote before text a spreadsheet would run as a formula", () => {
-    const line = spreadsheetCsv([["=HYPERLINK(\"http://x.example\",\"x\")", "+1+1", "-2+3", "@SUM(A1:A9)", "\tcmd", "\uFF1D1"]]);
+    const line = spreadsheetCsv([['=HYPERLINK("http://x.example","x")', "+1+1", "-2+3", "@SUM(A1:A9)", "\tcmd", "\uFF1D1"]]);
     expect(line).toBe(`"'=HYPERLINK(""http://x.example"",""x"")",'+1+1,'-2+3,'@SUM(A1:A9),'\tcmd,'\uFF1D1\n`);
   });
 
@@ -15,7 +15,9 @@ describe("spreadsheetCsv", () => {
   });
 
   it("leaves numbers alone, negative ones included, and text that only contains the characters", () => {
-    expect(spreadsheetCsv([[-5, -0.25, 3.5, 0, "a-b", "stud 4 = 51 kN", "2024-02-01"]])).toBe("-5,-0.25,3.5,0,a-b,stud 4 = 51 kN,2024-02-01\n");
+    expect(spreadsheetCsv([[-5, -0.25, 3.5, 0, "a-b", "stud 4 = 51 kN", "2024-02-01"]])).toBe(
+      "-5,-0.25,3.5,0,a-b,stud 4 = 51 kN,2024-02-01\n",
+    );
   });
 
   it("keeps the options it is given (header row, byte order mark)", () => {

@@ -46,7 +46,11 @@ export function domainFailure(request: { url: string }, err: unknown, intent = "
 
 /** The answer to a form posted with an intent the route does not know (400). */
 export function unknownAction(request: { url: string }, intent: unknown = "") {
-  return domainFailure(request, new DomainError("This form asked for something this page does not do. Reload the page and try again.", { status: 400 }), typeof intent === "string" ? intent : "");
+  return domainFailure(
+    request,
+    new DomainError("This form asked for something this page does not do. Reload the page and try again.", { status: 400 }),
+    typeof intent === "string" ? intent : "",
+  );
 }
 
 /** The text values of a form, to give back to it with its errors. */

@@ -24,7 +24,14 @@ export function invalidJson(issues: Issue[], status = 422): Response {
 }
 
 /** A refusal with a reason, in the form the caller reads: JSON for the API, the error page otherwise. */
-function refusal(request: { url: string }, status: number, error: string, reason: string, extra: Record<string, unknown> = {}, headers: Record<string, string> = {}): Response {
+function refusal(
+  request: { url: string },
+  status: number,
+  error: string,
+  reason: string,
+  extra: Record<string, unknown> = {},
+  headers: Record<string, string> = {},
+): Response {
   if (isApiRequest(request)) return Response.json({ error, reason, ...extra }, { status, headers });
   // Thrown from a loader or action, this renders the root ErrorBoundary with the reason.
   return data({ message: reason }, { status, headers }) as unknown as Response;
@@ -88,7 +95,12 @@ export function urlRefusal(request: { url: string }): Response | null {
   for (const [k, v] of url.searchParams) {
     if (hasNul(k) || hasNul(v)) {
       if (isApiRequest(request)) return invalidJson([{ path: k.replace(/\0/g, "\\0"), message: NUL_MESSAGE }]);
-      return refusal(request, 400, "invalid input", `The address's “${k.replace(/\0/g, "\\0")}” holds a NUL character, which no page can use.`);
+      return refusal(
+        request,
+        400,
+        "invalid input",
+        `The address's “${k.replace(/\0/g, "\\0")}” holds a NUL character, which no page can use.`,
+      );
     }
   }
   return null;
@@ -236,7 +248,12 @@ export async function readForm(request: Request): Promise<FormData> {
   const bytes = await readBytes(request);
   if (!FORM_TYPES.includes(mediaType)) {
     if (bytes.byteLength === 0) return new FormData();
-    throw refusal(request, 415, "unsupported media type", "Send the form as application/x-www-form-urlencoded or multipart/form-data, as a browser does.");
+    throw refusal(
+      request,
+      415,
+      "unsupported media type",
+      "Send the form as application/x-www-form-urlencoded or multipart/form-data, as a browser does.",
+    );
   }
   try {
     return await new Response(bytes, { headers: { "content-type": type } }).formData();
@@ -251,6 +268,7 @@ export async function readForm(request: Request): Promise<FormData> {
  */
 export async function readJsonObject(request: Request): Promise<Record<string, unknown>> {
   const body = await readJson(request);
-  if (body === null || typeof body !== "object" || Array.isArray(body)) throw invalidJson([{ path: "", message: "The body must be a JSON object." }]);
+  if (body === null || typeof body !== "object" || Array.isArray(body))
+    throw invalidJson([{ path: "", message: "The body must be a JSON object." }]);
   return body as Record<string, unknown>;
 }

@@ -8,14 +8,29 @@ import { sanitizeDocument } from "./procedures/document";
 import { readingInputSchema } from "./recordings/quantities";
 import { parseReadings, headerSchema } from "./test-records/form";
 import { bodyLimitFor, DEFAULT_BODY_LIMIT } from "./edge-limits";
-import { INT4_MAX, isRealDate, isUuid, nulPath, optionalParam, optionalSearch, positiveInt, positiveIntParam, quantityProblem, searchObject, slug, uuid, versionSearch } from "./edge";
+import {
+  INT4_MAX,
+  isRealDate,
+  isUuid,
+  nulPath,
+  optionalParam,
+  optionalSearch,
+  positiveInt,
+  positiveIntParam,
+  quantityProblem,
+  searchObject,
+  slug,
+  uuid,
+  versionSearch,
+} from "./edge";
 import { parseForm } from "./forms";
 
 describe("ids, numbers and slugs in addresses", () => {
   it("takes UUIDs of any version and nothing else", () => {
     expect(uuid.safeParse("00000000-0000-4000-8000-000000000000").success).toBe(true);
     expect(uuid.safeParse("6F9619FF-8B86-D011-B42D-00C04FC964FF").success).toBe(true);
-    for (const bad of ["not-a-uuid", "------------------------------------", "00000000-0000-0000-0000-00000000000g", "", "1"]) expect(uuid.safeParse(bad).success, bad).toBe(false);
+    for (const bad of ["not-a-uuid", "------------------------------------", "00000000-0000-0000-0000-00000000000g", "", "1"])
+      expect(uuid.safeParse(bad).success, bad).toBe(false);
     expect(isUuid(42)).toBe(false);
   });
 
@@ -23,7 +38,8 @@ describe("ids, numbers and slugs in addresses", () => {
     expect(INT4_MAX).toBe(2 ** 31 - 1);
     expect(positiveIntParam.parse("1")).toBe(1);
     expect(positiveIntParam.parse("2147483647")).toBe(2147483647);
-    for (const bad of ["2147483648", "99999999999999999999", "0", "-1", "1.5", "1e3", "abc", "", " 1"]) expect(positiveIntParam.safeParse(bad).success, bad).toBe(false);
+    for (const bad of ["2147483648", "99999999999999999999", "0", "-1", "1.5", "1e3", "abc", "", " 1"])
+      expect(positiveIntParam.safeParse(bad).success, bad).toBe(false);
     expect(positiveInt.safeParse(2147483648).success).toBe(false);
     expect(positiveInt.safeParse(2147483647).success).toBe(true);
     expect(versionSearch.parse({ v: "0" })).toEqual({ v: 0 }); // a test record as filed
@@ -52,7 +68,8 @@ describe("dates that exist", () => {
   it("a test record's header: a real day, not before 1900, not in the future; a recording span in range", () => {
     const base = { title: "Bore check", engineSerial: "", notes: "" };
     expect(headerSchema.safeParse({ ...base, testedOn: "2024-02-29" }).success).toBe(true);
-    for (const d of ["2024-02-30", "0000-01-01", "1899-12-31", "9999-01-01"]) expect(headerSchema.safeParse({ ...base, testedOn: d }).success, d).toBe(false);
+    for (const d of ["2024-02-30", "0000-01-01", "1899-12-31", "9999-01-01"])
+      expect(headerSchema.safeParse({ ...base, testedOn: d }).success, d).toBe(false);
     expect(headerSchema.safeParse({ ...base, testedOn: "2024-02-29", recordingStartS: "1e308" }).success).toBe(false);
     expect(headerSchema.safeParse({ ...base, testedOn: "2024-02-29", recordingStartS: "12.5" }).success).toBe(true);
   });
@@ -113,7 +130,13 @@ describe("quantities within what a gauge can read (SI)", () => {
   });
 
   it("a spec's nominal, min and max are within range", () => {
-    const spec = (a: Record<string, unknown>) => sanitizeDocument({ type: "doc", content: [{ type: "spec", attrs: { id: "s", label: "Torque", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, ...a } }] });
+    const spec = (a: Record<string, unknown>) =>
+      sanitizeDocument({
+        type: "doc",
+        content: [
+          { type: "spec", attrs: { id: "s", label: "Torque", quantity: "torque", unit: "N.m", nominal: null, min: null, max: null, ...a } },
+        ],
+      });
     expect(spec({ nominal: 110 }).ok).toBe(true);
     const huge = spec({ nominal: 1e308 });
     expect(huge.ok).toBe(false);
@@ -122,7 +145,15 @@ describe("quantities within what a gauge can read (SI)", () => {
   });
 
   it("a test record's typed reading past the range is that row's error", () => {
-    const spec = { id: "00000000-0000-4000-8000-000000000001", label: "Bore", quantity: "length", unit: "mm", min: 87.9, max: 88.1, nominal: 88 };
+    const spec = {
+      id: "00000000-0000-4000-8000-000000000001",
+      label: "Bore",
+      quantity: "length",
+      unit: "mm",
+      min: 87.9,
+      max: 88.1,
+      nominal: 88,
+    };
     const form = new FormData();
     form.set(`r.${spec.id}.0.value`, "1e308");
     form.set(`r.${spec.id}.0.unit`, "mm");

@@ -34,10 +34,17 @@ export const wholeNumberParam = z
 export const positiveIntParam = wholeNumberParam.refine((n) => n >= 1, { message: "Expected a whole number from 1 up." });
 
 /** A positive whole number in JSON (a version the client last saw). */
-export const positiveInt = z.number({ error: "Expected a whole number." }).int("Expected a whole number.").min(1).max(INT4_MAX, `At most ${INT4_MAX}.`);
+export const positiveInt = z
+  .number({ error: "Expected a whole number." })
+  .int("Expected a whole number.")
+  .min(1)
+  .max(INT4_MAX, `At most ${INT4_MAX}.`);
 
 /** A procedure slug as `slugify` makes them (old slugs too): lower-case ASCII words and hyphens. */
-export const slug = z.string().max(200, { message: "No procedure has an address that long." }).regex(/^[a-z0-9][a-z0-9-]*$/, { message: "Not a procedure address." });
+export const slug = z
+  .string()
+  .max(200, { message: "No procedure has an address that long." })
+  .regex(/^[a-z0-9][a-z0-9-]*$/, { message: "Not a procedure address." });
 
 const DAYS_IN_MONTH = [31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
 

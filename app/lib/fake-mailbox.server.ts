@@ -16,7 +16,10 @@ export type CapturedMessage = {
 export async function readFakeMailbox(dir: string): Promise<CapturedMessage[]> {
   let names: string[];
   try {
-    names = (await readdir(dir)).filter((n) => n.endsWith(".json")).sort().reverse();
+    names = (await readdir(dir))
+      .filter((n) => n.endsWith(".json"))
+      .sort()
+      .reverse();
   } catch {
     return [];
   }

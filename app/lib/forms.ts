@@ -6,7 +6,8 @@ export type FieldErrors = Record<string, string>;
 /** The fields holding a NUL character, each with its error; empty when none does. */
 export function nulErrors(formData: FormData): FieldErrors {
   const errors: FieldErrors = {};
-  for (const [k, v] of formData.entries()) if (typeof v === "string" && (hasNul(v) || hasNul(k))) errors[k.replace(/\0/g, "")] ??= NUL_MESSAGE;
+  for (const [k, v] of formData.entries())
+    if (typeof v === "string" && (hasNul(v) || hasNul(k))) errors[k.replace(/\0/g, "")] ??= NUL_MESSAGE;
   return errors;
 }
 

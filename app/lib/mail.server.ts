@@ -123,7 +123,15 @@ export async function mailStatus(): Promise<{ pending: number; failing: number }
 /** The newest messages of the outbox, sent or not, with their delivery state (the admin's Outbox page). */
 export async function recentOutbox(limit = 30) {
   return db()
-    .select({ id: mailOutbox.id, to: mailOutbox.to, subject: mailOutbox.subject, attempts: mailOutbox.attempts, lastError: mailOutbox.lastError, sentAt: mailOutbox.sentAt, createdAt: mailOutbox.createdAt })
+    .select({
+      id: mailOutbox.id,
+      to: mailOutbox.to,
+      subject: mailOutbox.subject,
+      attempts: mailOutbox.attempts,
+      lastError: mailOutbox.lastError,
+      sentAt: mailOutbox.sentAt,
+      createdAt: mailOutbox.createdAt,
+    })
     .from(mailOutbox)
     .orderBy(desc(mailOutbox.id))
     .limit(limit);

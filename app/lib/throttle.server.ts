@@ -179,7 +179,10 @@ export async function throttledPasswordCheck(
     return { ok: true };
   }
   // The failure that reaches a limit starts a full lock from now.
-  await Promise.all([reached(p, L.pair) ? guesses.pairLock.start(pair) : null, reached(c, L.client) ? guesses.clientLock.start(client) : null]);
+  await Promise.all([
+    reached(p, L.pair) ? guesses.pairLock.start(pair) : null,
+    reached(c, L.client) ? guesses.clientLock.start(client) : null,
+  ]);
   return { ok: false };
 }
 

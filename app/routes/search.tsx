@@ -18,7 +18,14 @@ export async function loader({ request }: Route.LoaderArgs) {
   const behind = await indexIsBehind().catch(() => true);
   const canEditWords = can(user.role, "search:words:edit");
   if (!parsed.success) {
-    return { q: String(raw.q ?? ""), result: null as SearchResponse | null, error: parsed.error.issues[0]?.message ?? "Bad query.", behind, canEditWords, examples: [] as string[][] };
+    return {
+      q: String(raw.q ?? ""),
+      result: null as SearchResponse | null,
+      error: parsed.error.issues[0]?.message ?? "Bad query.",
+      behind,
+      canEditWords,
+      examples: [] as string[][],
+    };
   }
   const p = parsed.data;
   if (!p.q && !p.type && !p.tag && !p.state && !p.uploader) {
@@ -28,7 +35,14 @@ export async function loader({ request }: Route.LoaderArgs) {
   try {
     return { q: p.q, result: await runSearch(user, p), error: null, behind, canEditWords, examples: [] };
   } catch {
-    return { q: p.q, result: null, error: "The search service is not answering right now. Your changes are saved and will be searchable when it is back.", behind: true, canEditWords, examples: [] };
+    return {
+      q: p.q,
+      result: null,
+      error: "The search service is not answering right now. Your changes are saved and will be searchable when it is back.",
+      behind: true,
+      canEditWords,
+      examples: [],
+    };
   }
 }
 
@@ -58,29 +72,57 @@ export default function Search({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader
         title="Search"
-        actions={loaderData.canEditWords && <Link to="/search/words" className="btn no-underline">Edit search words</Link>}
+        actions={
+          loaderData.canEditWords && (
+            <Link to="/search/words" className="btn no-underline">
+              Edit search words
+            </Link>
+          )
+        }
       />
       <Form method="get" className="mb-6 flex max-w-2xl gap-2" role="search">
-        <label htmlFor="search-page-q" className="sr-only">Search</label>
-        <input id="search-page-q" name="q" type="search" defaultValue={q} className="field" placeholder="e.g. head stud torque moly, piston to wall 4032, M12x1.5" />
+        <label htmlFor="search-page-q" className="sr-only">
+          Search
+        </label>
+        <input
+          id="search-page-q"
+          name="q"
+          type="search"
+          defaultValue={q}
+          className="field"
+          placeholder="e.g. head stud torque moly, piston to wall 4032, M12x1.5"
+        />
         {["type", "tag", "state", "uploader"].map((k) => params.get(k) && <input key={k} type="hidden" name={k} value={params.get(k)!} />)}
-        <button className="btn btn-primary" type="submit">Search</button>
+        <button className="btn btn-primary" type="submit">
+          Search
+        </button>
       </Form>
       {behind && (
         <p role="status" className="mb-4 rounded-md border border-brass/40 bg-brass-soft px-4 py-2 text-sm" data-testid="search-behind">
           Recent changes are still being indexed; results may be a little behind.
         </p>
       )}
-      {error && <p role="alert" className="mb-4 rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-2 text-sm text-spec-red">{error}</p>}
+      {error && (
+        <p role="alert" className="mb-4 rounded-md border border-spec-red/40 bg-spec-red-soft px-4 py-2 text-sm text-spec-red">
+          {error}
+        </p>
+      )}
       {!result && !error && (
         <EmptyState title="Search the shop's knowledge">
-          Procedures, specs, marks in recordings, readings and recordings. Typos and word starts are fine; numbers and sizes too (“0.0035”, “M12x1.5”).
-          {loaderData.examples.length ? <> Trade words match each other, e.g. {loaderData.examples.map((g) => g.join(" ↔ ")).join("; ")}.</> : null}
+          Procedures, specs, marks in recordings, readings and recordings. Typos and word starts are fine; numbers and sizes too (“0.0035”,
+          “M12x1.5”).
+          {loaderData.examples.length ? (
+            <> Trade words match each other, e.g. {loaderData.examples.map((g) => g.join(" ↔ ")).join("; ")}.</>
+          ) : null}
         </EmptyState>
       )}
       {result && result.total === 0 && (
         <EmptyState title={q ? `Nothing found for “${q}”` : "Nothing found"}>
-          <span data-testid="search-total">Try fewer words, or another word for the same thing{params.get("type") || params.get("tag") || params.get("state") || params.get("uploader") ? ", or drop a filter" : ""}. Typos and word starts are fine.</span>
+          <span data-testid="search-total">
+            Try fewer words, or another word for the same thing
+            {params.get("type") || params.get("tag") || params.get("state") || params.get("uploader") ? ", or drop a filter" : ""}. Typos
+            and word starts are fine.
+          </span>
         </EmptyState>
       )}
       {result && result.total > 0 && (
@@ -88,7 +130,9 @@ export default function Search({ loaderData }: Route.ComponentProps) {
           <aside aria-label="Filters" className="space-y-5 text-sm">
             {FACETS.map((f) => {
               const dist = result.facets[f.key] ?? {};
-              const entries = Object.entries(dist).sort((a, b) => b[1] - a[1]).slice(0, 12);
+              const entries = Object.entries(dist)
+                .sort((a, b) => b[1] - a[1])
+                .slice(0, 12);
               if (!entries.length) return null;
               return (
                 <section key={f.key}>
@@ -98,7 +142,11 @@ export default function Search({ loaderData }: Route.ComponentProps) {
                       const active = params.get(f.param) === value;
                       return (
                         <li key={value}>
-                          <Link to={withParam(f.param, value)} className={`flex min-h-11 items-center justify-between rounded px-2 py-1 no-underline lg:min-h-0 ${active ? "bg-brass-soft font-semibold text-graphite" : "text-graphite hover:bg-paper-deep"}`} data-testid={`facet-${f.key}`}>
+                          <Link
+                            to={withParam(f.param, value)}
+                            className={`flex min-h-11 items-center justify-between rounded px-2 py-1 no-underline lg:min-h-0 ${active ? "bg-brass-soft font-semibold text-graphite" : "text-graphite hover:bg-paper-deep"}`}
+                            data-testid={`facet-${f.key}`}
+                          >
                             <span>{f.label ? f.label(value) : value}</span>
                             <span className="num text-graphite-soft">{count}</span>
                           </Link>
@@ -119,24 +167,42 @@ export default function Search({ loaderData }: Route.ComponentProps) {
               {result.hits.map((h) => (
                 <li key={h.id} className="card py-3" data-testid="search-result">
                   <div className="flex flex-wrap items-baseline gap-x-3 gap-y-1">
-                    <span className="rounded bg-paper-deep px-1.5 py-0.5 text-xs font-semibold text-graphite-soft">{KIND_LABELS[h.kind] ?? h.kind}</span>
+                    <span className="rounded bg-paper-deep px-1.5 py-0.5 text-xs font-semibold text-graphite-soft">
+                      {KIND_LABELS[h.kind] ?? h.kind}
+                    </span>
                     <Link to={h.url} reloadDocument={opensAtText(h.url)} className="font-serif text-lg">
                       <Highlighted text={h.title} />
                     </Link>
                     {h.t != null && h.kind !== "reading" && <span className="num text-sm text-teal">at {clock(h.t)}</span>}
-                    {h.state && h.state !== "published" && <span className="text-xs font-semibold text-brass">{STATE_LABELS[h.state] ?? h.state}</span>}
+                    {h.state && h.state !== "published" && (
+                      <span className="text-xs font-semibold text-brass">{STATE_LABELS[h.state] ?? h.state}</span>
+                    )}
                   </div>
                   {h.context && <p className="text-sm text-graphite-soft">{h.context}</p>}
-                  {h.snippet && <p className="mt-1 text-sm"><Highlighted text={h.snippet} /></p>}
+                  {h.snippet && (
+                    <p className="mt-1 text-sm">
+                      <Highlighted text={h.snippet} />
+                    </p>
+                  )}
                   <ReadingMatches hit={h} />
                 </li>
               ))}
             </ol>
             {result.pages > 1 && (
               <nav aria-label="Pages" className="mt-6 flex items-center gap-3 text-sm">
-                {result.page > 1 && <Link to={page(result.page - 1)} className="btn">← Previous</Link>}
-                <span className="num">Page {result.page} of {result.pages}</span>
-                {result.page < result.pages && <Link to={page(result.page + 1)} className="btn">Next →</Link>}
+                {result.page > 1 && (
+                  <Link to={page(result.page - 1)} className="btn">
+                    ← Previous
+                  </Link>
+                )}
+                <span className="num">
+                  Page {result.page} of {result.pages}
+                </span>
+                {result.page < result.pages && (
+                  <Link to={page(result.page + 1)} className="btn">
+                    Next →
+                  </Link>
+                )}
               </nav>
             )}
           </section>

@@ -72,7 +72,23 @@ function rssMB(pid: number): number | null {
 /** A source file: a tiny faststart H.264 clip (so the app accepts it as a video) padded with random bytes. */
 function makeSource(file: string, size: number, log: (s: string) => void) {
   const head = `${file}.head.mp4`;
-  execFileSync(FFMPEG, ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc=duration=5:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", head]);
+  execFileSync(FFMPEG, [
+    "-hide_banner",
+    "-loglevel",
+    "error",
+    "-y",
+    "-f",
+    "lavfi",
+    "-i",
+    "testsrc=duration=5:size=320x240:rate=25",
+    "-pix_fmt",
+    "yuv420p",
+    "-c:v",
+    "libx264",
+    "-movflags",
+    "+faststart",
+    head,
+  ]);
   const fd = fs.openSync(file, "w");
   const clip = fs.readFileSync(head);
   fs.writeSync(fd, clip);
@@ -100,7 +116,11 @@ function rawDisk(dir: string, size: number): { seconds: number; MBps: number } {
   return { seconds, MBps: (count * bs) / MB / seconds };
 }
 
-async function tusUpload(opts: RecordingsBenchOptions, file: string, fileName = "bench-run.mp4"): Promise<{ seconds: number; recordingId: string | null; doneAt: number }> {
+async function tusUpload(
+  opts: RecordingsBenchOptions,
+  file: string,
+  fileName = "bench-run.mp4",
+): Promise<{ seconds: number; recordingId: string | null; doneAt: number }> {
   const tus = await import("tus-js-client");
   const size = fs.statSync(file).size;
   let recordingId: string | null = null;
@@ -118,7 +138,12 @@ async function tusUpload(opts: RecordingsBenchOptions, file: string, fileName = 
       chunkSize: opts.chunkBytes ?? 64 * 1024 * 1024,
       retryDelays: [0, 1000, 3000],
       headers: { Origin: opts.baseUrl, Cookie: opts.cookie },
-      metadata: { filename: fileName, filetype: fileName.endsWith(".mov") ? "video/quicktime" : "video/mp4", title: `Benchmark upload ${new Date().toISOString()}`, tags: "benchmark" },
+      metadata: {
+        filename: fileName,
+        filetype: fileName.endsWith(".mov") ? "video/quicktime" : "video/mp4",
+        title: `Benchmark upload ${new Date().toISOString()}`,
+        tags: "benchmark",
+      },
       onAfterResponse: (_req, res) => {
         recordingId = res.getHeader("Benchreel-Recording") ?? recordingId;
       },
@@ -130,7 +155,11 @@ async function tusUpload(opts: RecordingsBenchOptions, file: string, fileName = 
   return { seconds: (performance.now() - t0) / 1000, recordingId, doneAt: Date.now() };
 }
 
-async function ttfb(opts: RecordingsBenchOptions, n: number, request: () => { url: string; headers: Record<string, string>; status: number }) {
+async function ttfb(
+  opts: RecordingsBenchOptions,
+  n: number,
+  request: () => { url: string; headers: Record<string, string>; status: number },
+) {
   const times: number[] = [];
   for (let i = 0; i < n + 5; i++) {
     const r = request();
@@ -165,7 +194,10 @@ function processingClips(log: (s: string) => void): { remux: string; transcode: 
   fs.mkdirSync(dir, { recursive: true });
   const src = ["-f", "lavfi", "-i", "testsrc2=duration=60:size=1920x1080:rate=25", "-f", "lavfi", "-i", "sine=frequency=440:duration=60"];
   const clips = {
-    remux: { file: path.join(dir, "h264-1080p-60s.mp4"), codecs: ["-pix_fmt", "yuv420p", "-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-c:a", "aac"] },
+    remux: {
+      file: path.join(dir, "h264-1080p-60s.mp4"),
+      codecs: ["-pix_fmt", "yuv420p", "-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-c:a", "aac"],
+    },
     transcode: { file: path.join(dir, "mpeg4-1080p-60s.mov"), codecs: ["-c:v", "mpeg4", "-q:v", "4", "-c:a", "pcm_s16le"] },
   };
   for (const c of Object.values(clips)) {
@@ -196,7 +228,10 @@ async function uploadToReady(opts: RecordingsBenchOptions, file: string): Promis
   if (!up.recordingId) throw new Error("the upload finished without a recording id");
   const deadline = Date.now() + 900_000;
   for (;;) {
-    const [r] = await db().select({ state: recordings.state, reason: recordings.stateReason, readyAt: recordings.readyAt }).from(recordings).where(eq(recordings.id, up.recordingId));
+    const [r] = await db()
+      .select({ state: recordings.state, reason: recordings.stateReason, readyAt: recordings.readyAt })
+      .from(recordings)
+      .where(eq(recordings.id, up.recordingId));
     if (r?.state === "ready" && r.readyAt) {
       // Each run starts with the worker idle: the decode check that follows "Ready" for a file
       // that was not transcoded is waited out here, outside the measure.
@@ -251,7 +286,9 @@ export async function benchProcessing(opts: RecordingsBenchOptions & { runs?: nu
     remux.bareFfmpegS.push(bareRendition("remux", clips.remux, workDir));
     remux.readySeconds.push(await uploadToReady(opts, clips.remux));
   }
-  log(`remux: upload done → Ready ${remux.readySeconds.map((x) => x.toFixed(2)).join(", ")} s (bare ffmpeg remux ${remux.bareFfmpegS.map((x) => x.toFixed(2)).join(", ")} s)`);
+  log(
+    `remux: upload done → Ready ${remux.readySeconds.map((x) => x.toFixed(2)).join(", ")} s (bare ffmpeg remux ${remux.bareFfmpegS.map((x) => x.toFixed(2)).join(", ")} s)`,
+  );
   const transcode = { readySeconds: [] as number[], bareFfmpegS: [] as number[] };
   for (let i = 0; i < runs; i++) {
     const bareFirst = i % 2 === 0;
@@ -262,7 +299,9 @@ export async function benchProcessing(opts: RecordingsBenchOptions & { runs?: nu
   fs.rmSync(workDir, { recursive: true, force: true });
   const medianS = median(transcode.readySeconds);
   const bareMedianS = median(transcode.bareFfmpegS);
-  log(`transcode: upload done → Ready ${transcode.readySeconds.map((x) => x.toFixed(1)).join(", ")} s; bare ffmpeg ${transcode.bareFfmpegS.map((x) => x.toFixed(1)).join(", ")} s; ratio of medians ${(medianS / bareMedianS).toFixed(2)}`);
+  log(
+    `transcode: upload done → Ready ${transcode.readySeconds.map((x) => x.toFixed(1)).join(", ")} s; bare ffmpeg ${transcode.bareFfmpegS.map((x) => x.toFixed(1)).join(", ")} s; ratio of medians ${(medianS / bareMedianS).toFixed(2)}`,
+  );
   return {
     remux: { ...remux, medianS: median(remux.readySeconds) },
     transcode: { ...transcode, medianS, bareMedianS, ratio: medianS / bareMedianS },
@@ -290,7 +329,9 @@ export async function benchRecordings(opts: RecordingsBenchOptions): Promise<Rec
   }, 100);
   const up = await tusUpload(opts, file).finally(() => clearInterval(sampler));
   const uploadMBps = size / MB / up.seconds;
-  log(`tus upload: ${uploadMBps.toFixed(0)} MB/s (${up.seconds.toFixed(1)} s); server RSS ${rssBefore?.toFixed(0)} → peak ${peak?.toFixed(0)} MB`);
+  log(
+    `tus upload: ${uploadMBps.toFixed(0)} MB/s (${up.seconds.toFixed(1)} s); server RSS ${rssBefore?.toFixed(0)} → peak ${peak?.toFixed(0)} MB`,
+  );
   if (!up.recordingId) throw new Error("the upload finished without a recording id");
 
   // Wait for processing (probe + poster; the padded file is served as it is).
@@ -305,7 +346,9 @@ export async function benchRecordings(opts: RecordingsBenchOptions): Promise<Rec
   }
   const ranges = await rangeTTFB(opts, up.recordingId, size, opts.ranges ?? 200);
   const baseline = await ttfb(opts, opts.ranges ?? 200, () => ({ url: `${opts.baseUrl}/api/me`, headers: {}, status: 200 }));
-  log(`Range TTFB over ${ranges.n} requests: median ${ranges.medianMs.toFixed(2)} ms, p95 ${ranges.p95Ms.toFixed(2)} ms (GET /api/me: median ${baseline.medianMs.toFixed(2)} ms, p95 ${baseline.p95Ms.toFixed(2)} ms)`);
+  log(
+    `Range TTFB over ${ranges.n} requests: median ${ranges.medianMs.toFixed(2)} ms, p95 ${ranges.p95Ms.toFixed(2)} ms (GET /api/me: median ${baseline.medianMs.toFixed(2)} ms, p95 ${baseline.p95Ms.toFixed(2)} ms)`,
+  );
   fs.rmSync(workDir, { recursive: true, force: true });
 
   const growth = rssBefore != null && peak != null ? peak - rssBefore : null;
@@ -332,7 +375,15 @@ export async function benchSession(): Promise<string> {
   const { hashPassword, lucia } = await import("../../app/lib/auth.server");
   const { db } = await import("../../app/lib/db.server");
   const id = randomUUID();
-  await db().insert(users).values({ id, email: `bench-${id.slice(0, 8)}@test.larkspur.example`, name: "Benchmark builder", role: "builder", passwordHash: await hashPassword(randomUUID()) });
+  await db()
+    .insert(users)
+    .values({
+      id,
+      email: `bench-${id.slice(0, 8)}@test.larkspur.example`,
+      name: "Benchmark builder",
+      role: "builder",
+      passwordHash: await hashPassword(randomUUID()),
+    });
   const session = await lucia().createSession(id, {});
   return lucia().createSessionCookie(session.id).serialize().split(";")[0];
 }

@@ -372,19 +372,17 @@ export async function seedProcedures(db: Db): Promise<number> {
     await db.transaction(async (tx) => {
       const published = d.revs.find((r) => r.state === "published");
       const day = (n: number) => new Date(Date.now() - n * 86_400_000);
-      await tx
-        .insert(procedures)
-        .values({
-          id: d.id,
-          slug: d.slug,
-          title: d.title,
-          area: d.area,
-          summary: d.summary,
-          tags: d.tags,
-          createdBy: d.revs[0].author,
-          createdAt: day(d.revs[0].daysAgo),
-          publishedAt: published ? day(published.daysAgo) : null,
-        });
+      await tx.insert(procedures).values({
+        id: d.id,
+        slug: d.slug,
+        title: d.title,
+        area: d.area,
+        summary: d.summary,
+        tags: d.tags,
+        createdBy: d.revs[0].author,
+        createdAt: day(d.revs[0].daysAgo),
+        publishedAt: published ? day(published.daysAgo) : null,
+      });
       let publishedId: string | null = null;
       for (const r of d.revs) {
         let doc = r.doc;

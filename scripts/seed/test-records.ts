@@ -212,15 +212,13 @@ export async function seedTestRecords(db: Db): Promise<number | "skipped"> {
         }),
       );
       await tx.insert(testRecordReadings).values(rows);
-      await tx
-        .insert(auditLog)
-        .values({
-          actorId: d.by,
-          action: "create",
-          entity: "test_record",
-          entityId: rec.id,
-          detail: { workOrder: d.workOrder, revision: rev.number, verdict: evaluation.verdict, seeded: true },
-        });
+      await tx.insert(auditLog).values({
+        actorId: d.by,
+        action: "create",
+        entity: "test_record",
+        entityId: rec.id,
+        detail: { workOrder: d.workOrder, revision: rev.number, verdict: evaluation.verdict, seeded: true },
+      });
     });
     added++;
   }

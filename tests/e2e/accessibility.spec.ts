@@ -31,7 +31,12 @@ async function mailedLink(to: string, kind: "invite" | "reset"): Promise<string>
   let link = "";
   await expect(async () => {
     const stored = (await (await fetch(`${process.env.SMTP_CONTROL_URL}/messages`)).json()) as { to: string[]; links: string[] }[];
-    link = stored.filter((m) => m.to.includes(to)).flatMap((m) => m.links).filter((l) => new URL(l).pathname.startsWith(`/${kind}/`)).at(-1) ?? "";
+    link =
+      stored
+        .filter((m) => m.to.includes(to))
+        .flatMap((m) => m.links)
+        .filter((l) => new URL(l).pathname.startsWith(`/${kind}/`))
+        .at(-1) ?? "";
     expect(link).not.toBe("");
   }).toPass({ timeout: 20_000 });
   return new URL(link).pathname;
@@ -43,9 +48,10 @@ async function lookUpParams(browser: Browser): Promise<Params> {
   const page = await context.newPage();
   await signIn(page, PEOPLE.admin);
   await page.goto("/test-records");
-  const href = await page.locator('a[href^="/test-records/"]').filter({ hasNot: page.locator('[href$="/new"]') }).evaluateAll((as) =>
-    as.map((a) => a.getAttribute("href")!).find((h) => /^\/test-records\/[0-9a-f-]{36}$/.test(h)),
-  );
+  const href = await page
+    .locator('a[href^="/test-records/"]')
+    .filter({ hasNot: page.locator('[href$="/new"]') })
+    .evaluateAll((as) => as.map((a) => a.getAttribute("href")!).find((h) => /^\/test-records\/[0-9a-f-]{36}$/.test(h)));
   expect(href, "a demo test record").toBeTruthy();
   // An invitation (its link is a page for the invitee) and a reset link for a demo person.
   const invitee = `a11y-${Date.now()}@larkspur.example`;
@@ -73,7 +79,12 @@ async function lookUpParams(browser: Browser): Promise<Params> {
   await p.getByLabel("E-mail").fill(PEOPLE.qc);
   await p.getByRole("button", { name: "Send me a link" }).click();
   await anon.close();
-  return { testRecord: href!.split("/")[2], draftSlug, invite: await mailedLink(invitee, "invite"), reset: await mailedLink(PEOPLE.qc, "reset") };
+  return {
+    testRecord: href!.split("/")[2],
+    draftSlug,
+    invite: await mailedLink(invitee, "invite"),
+    reset: await mailedLink(PEOPLE.qc, "reset"),
+  };
 }
 
 /** A route path with its params filled; a param this table does not know fails the run (add it here). */
@@ -102,12 +113,21 @@ async function audit(page: Page, who: string, path: string) {
     const result = await new AxeBuilder({ page }).withTags(WCAG_TAGS).analyze();
     checked.count++;
     for (const v of result.violations) {
-      findings.push({ who, width: w.label, path, rule: v.id, impact: v.impact ?? "", help: v.help, targets: v.nodes.slice(0, 4).map((n) => n.target.join(" ")) });
+      findings.push({
+        who,
+        width: w.label,
+        path,
+        rule: v.id,
+        impact: v.impact ?? "",
+        help: v.help,
+        targets: v.nodes.slice(0, 4).map((n) => n.target.join(" ")),
+      });
     }
   }
 }
 
-const summary = (fs: Finding[]) => fs.map((f) => `${f.who} @${f.width} ${f.path}: ${f.rule} (${f.impact}) ${f.help} — ${f.targets.join(" | ")}`).join("\n");
+const summary = (fs: Finding[]) =>
+  fs.map((f) => `${f.who} @${f.width} ${f.path}: ${f.rule} (${f.impact}) ${f.help} — ${f.targets.join(" | ")}`).join("\n");
 
 let params: Params;
 test.beforeAll(async ({ browser }) => {
@@ -155,7 +175,8 @@ test("every public page, signed out, at 1366 and 768 px: no WCAG 2.1 A/AA violat
 
 test.afterAll(() => {
   // For the run's log: how much was checked and what was found.
-  console.log(`accessibility: ${PAGES.length} pages of the route config (+ the not-found page), ${checked.count} page × role × width checks, ${findings.length} violations`);
+  console.log(
+    `accessibility: ${PAGES.length} pages of the route config (+ the not-found page), ${checked.count} page × role × width checks, ${findings.length} violations`,
+  );
   if (findings.length) console.log(summary(findings));
 });
-

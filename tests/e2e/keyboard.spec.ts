@@ -13,8 +13,15 @@ async function focused(page: Page): Promise<Focused> {
   return page.evaluate(() => {
     const el = document.activeElement as HTMLElement;
     const cs = getComputedStyle(el);
-    const label = el.getAttribute("aria-label") || (el as HTMLInputElement).labels?.[0]?.textContent || el.textContent || el.id || el.tagName;
-    return { label: label.trim().slice(0, 60), outlineStyle: cs.outlineStyle, outlineWidth: parseFloat(cs.outlineWidth), outlineColor: cs.outlineColor, tag: el.tagName };
+    const label =
+      el.getAttribute("aria-label") || (el as HTMLInputElement).labels?.[0]?.textContent || el.textContent || el.id || el.tagName;
+    return {
+      label: label.trim().slice(0, 60),
+      outlineStyle: cs.outlineStyle,
+      outlineWidth: parseFloat(cs.outlineWidth),
+      outlineColor: cs.outlineColor,
+      tag: el.tagName,
+    };
   });
 }
 
@@ -79,7 +86,10 @@ test("an apprentice signs in, searches and opens a hit by keyboard alone, the fo
 test("after a link inside the page opens another page, the focus is on the new page's content", async ({ page }) => {
   await signIn(page, "jamie@larkspur.example");
   await page.goto("/procedures");
-  const link = page.locator("main#main").getByRole("link", { name: /Head stud installation and torque sequence/ }).first();
+  const link = page
+    .locator("main#main")
+    .getByRole("link", { name: /Head stud installation and torque sequence/ })
+    .first();
   await link.focus();
   await page.keyboard.press("Enter");
   await page.waitForURL(/\/procedures\/head-stud-installation-and-torque-sequence$/);

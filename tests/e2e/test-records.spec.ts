@@ -6,7 +6,15 @@ import { randomUUID } from "node:crypto";
 import { expect, test, type Page } from "@playwright/test";
 import pg from "pg";
 
-const DOC = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Hone with the plate fitted; measure each bore at two depths and four angles." }] }] };
+const DOC = {
+  type: "doc",
+  content: [
+    {
+      type: "paragraph",
+      content: [{ type: "text", text: "Hone with the plate fitted; measure each bore at two depths and four angles." }],
+    },
+  ],
+};
 
 async function makeProcedure(): Promise<{ slug: string; title: string }> {
   const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
@@ -70,7 +78,12 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
   await expect(bore.getByLabel("Bore diameter, plate fitted reading 2 cylinder")).toHaveValue("1");
   await bore.getByLabel("Bore diameter, plate fitted reading 2 depth below deck").fill("10");
   await bore.getByLabel("Bore diameter, plate fitted reading 2 angle (°)").fill("90");
-  await expect(page.getByTestId("spec-readings").filter({ hasText: "Piston-to-wall" }).getByLabel("Piston-to-wall, forged 2618 in iron liner reading 1 depth below deck")).toHaveCount(0);
+  await expect(
+    page
+      .getByTestId("spec-readings")
+      .filter({ hasText: "Piston-to-wall" })
+      .getByLabel("Piston-to-wall, forged 2618 in iron liner reading 1 depth below deck"),
+  ).toHaveCount(0);
   await bore.getByLabel("Bore diameter, plate fitted reading 2", { exact: true }).fill("3.4655");
   await bore.getByLabel("Bore diameter, plate fitted reading 2 unit").selectOption("in");
   await expect(bore.getByTestId("reading-verdict").nth(1)).toHaveText("above max");
@@ -116,7 +129,10 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
       ["procedure", `/procedures/${proc.slug}`],
       ["shop-floor", "/"],
     ];
-    for (const [w, width] of [["desktop", 1280], ["tablet", 768]] as const) {
+    for (const [w, width] of [
+      ["desktop", 1280],
+      ["tablet", 768],
+    ] as const) {
       await page.setViewportSize({ width, height: 1000 });
       for (const [name, path] of shots) {
         await page.goto(path);
@@ -130,7 +146,10 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
     try {
       const { rows } = await client.query(`select p.id, p.published_revision_id as rid from procedures p where p.slug = $1`, [proc.slug]);
       await client.query(`update procedure_revisions set state = 'superseded', superseded_at = now() where id = $1`, [rows[0].rid]);
-      const r2 = await client.query(`insert into procedure_revisions (procedure_id, number, state, title, area, doc, published_at) values ($1, 2, 'published', $2, 'block', $3, now()) returning id`, [rows[0].id, proc.title, JSON.stringify(DOC)]);
+      const r2 = await client.query(
+        `insert into procedure_revisions (procedure_id, number, state, title, area, doc, published_at) values ($1, 2, 'published', $2, 'block', $3, now()) returning id`,
+        [rows[0].id, proc.title, JSON.stringify(DOC)],
+      );
       await client.query(
         `insert into procedure_specs (revision_id, procedure_id, spec_key, position, label, quantity, unit, nominal, min, max, si_unit, note)
          select $1, procedure_id, spec_key, position, label, quantity, unit, nominal, min, case when spec_key = 'bore-dia' then 88.008 else max end, si_unit, note from procedure_specs where revision_id = $2`,
@@ -140,7 +159,10 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
     } finally {
       await client.end();
     }
-    for (const [w, width] of [["desktop", 1280], ["tablet", 768]] as const) {
+    for (const [w, width] of [
+      ["desktop", 1280],
+      ["tablet", 768],
+    ] as const) {
       await page.setViewportSize({ width, height: 1000 });
       await page.goto(recordUrl!);
       await expect(page.getByTestId("superseded-note")).toContainText("superseded by revision 2");
@@ -159,7 +181,9 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
     const honing = page.getByRole("link", { name: /Bore finish after torque-plate honing/ });
     if (await honing.count()) {
       await honing.first().click();
-      const d = page.locator("details").filter({ has: page.locator("summary", { hasText: /Bore distortion from the 8 readings of .*, cyl 1$/ }) });
+      const d = page
+        .locator("details")
+        .filter({ has: page.locator("summary", { hasText: /Bore distortion from the 8 readings of .*, cyl 1$/ }) });
       await d.locator("summary").click();
       await d.getByRole("button", { name: "Run Bore distortion" }).click();
       await expect(page.getByTestId("flash")).toContainText("Bore distortion computed");
@@ -210,7 +234,10 @@ test("Bore distortion on a record takes each diameter's depth and angle from its
   await expect(run.getByRole("textbox")).toHaveCount(0);
   await expect(run.getByTestId("distortion-reading").first()).toContainText("88.010 mm");
   if (process.env.SHOTS_TR) {
-    for (const [w, width] of [["desktop", 1366], ["tablet", 768]] as const) {
+    for (const [w, width] of [
+      ["desktop", 1366],
+      ["tablet", 768],
+    ] as const) {
       await page.setViewportSize({ width, height: 1000 });
       await page.screenshot({ path: `${process.env.SHOTS_TR}/record-distortion-${w}.png`, fullPage: true });
     }

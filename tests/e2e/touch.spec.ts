@@ -7,7 +7,22 @@ import { DEMO_PEOPLE, DEMO_PROCEDURE as STUDS, DEMO_RECORDING, signIn } from "..
 // toggles it. Links inside running text are exempt (2.5.5's "inline" exception: their size is
 // set by the line of text), so only links in a nav are measured here. Visually hidden controls
 // (1 px, reached through a visible label or drop zone) are not targets.
-const TOUCH_PAGES = ["/", "/procedures", `/procedures/${STUDS}`, "/recordings", `/recordings/${DEMO_RECORDING}`, "/test-records", "/test-records/new", "/calculators", "/calculators/preload", "/calculators/distortion", "/calculators/clearance", "/search?q=head+stud", "/account", "/admin/people"];
+const TOUCH_PAGES = [
+  "/",
+  "/procedures",
+  `/procedures/${STUDS}`,
+  "/recordings",
+  `/recordings/${DEMO_RECORDING}`,
+  "/test-records",
+  "/test-records/new",
+  "/calculators",
+  "/calculators/preload",
+  "/calculators/distortion",
+  "/calculators/clearance",
+  "/search?q=head+stud",
+  "/account",
+  "/admin/people",
+];
 
 test("touch targets on the tablet (768 px) are at least 44 px on the main pages", async ({ browser }) => {
   test.setTimeout(600_000);
@@ -24,12 +39,26 @@ test("touch targets on the tablet (768 px) are at least 44 px on the main pages"
       const sel = 'button, [role="button"], [role="tab"], a.btn, select, textarea, input:not([type="hidden"]), nav a';
       for (const el of document.querySelectorAll<HTMLElement>(sel)) {
         let target: HTMLElement = el;
-        if (el instanceof HTMLInputElement && (el.type === "checkbox" || el.type === "radio")) target = el.closest("label") ?? el.labels?.[0] ?? el;
+        if (el instanceof HTMLInputElement && (el.type === "checkbox" || el.type === "radio"))
+          target = el.closest("label") ?? el.labels?.[0] ?? el;
         const r = target.getBoundingClientRect();
         const cs = getComputedStyle(target);
         if (r.width <= 1 || r.height <= 1 || cs.visibility === "hidden" || target.closest("[hidden], [aria-hidden='true']")) continue;
-        const name = (el.getAttribute("aria-label") || el.textContent || (el as HTMLInputElement).labels?.[0]?.textContent || el.getAttribute("name") || "").trim().replace(/\s+/g, " ").slice(0, 40);
-        out.push({ what: `${el.tagName.toLowerCase()}${el.getAttribute("type") ? `[${el.getAttribute("type")}]` : ""} “${name}”`, w: Math.round(r.width * 10) / 10, h: Math.round(r.height * 10) / 10 });
+        const name = (
+          el.getAttribute("aria-label") ||
+          el.textContent ||
+          (el as HTMLInputElement).labels?.[0]?.textContent ||
+          el.getAttribute("name") ||
+          ""
+        )
+          .trim()
+          .replace(/\s+/g, " ")
+          .slice(0, 40);
+        out.push({
+          what: `${el.tagName.toLowerCase()}${el.getAttribute("type") ? `[${el.getAttribute("type")}]` : ""} “${name}”`,
+          w: Math.round(r.width * 10) / 10,
+          h: Math.round(r.height * 10) / 10,
+        });
       }
       return out;
     });

@@ -22,7 +22,10 @@ function errorsOf(page: Page): string[] {
   return errors;
 }
 
-for (const [who, email] of [["a metric", "dana@larkspur.example"], ["an inch", "marcus@larkspur.example"]] as const) {
+for (const [who, email] of [
+  ["a metric", "dana@larkspur.example"],
+  ["an inch", "marcus@larkspur.example"],
+] as const) {
   test(`Bore distortion loads without a hydration error for ${who} person`, async ({ page }) => {
     await signIn(page, email, "/calculators/distortion");
     const errors = errorsOf(page);
@@ -66,7 +69,12 @@ test("Clearances: the verdict names the cold clearance; a hot clearance near zer
   // Bore 88.000 at the default temperatures; a piston this close gives a hot clearance near zero
   // while the cold one (0.035 mm) is within a 0.02–0.08 mm spec.
   await page.getByLabel("Piston at the gauge point", { exact: true }).fill("87.965");
-  const hot = Number(await page.getByTestId("result-hot").innerText().then((t) => t.replace(/[^\d.-]/g, "")));
+  const hot = Number(
+    await page
+      .getByTestId("result-hot")
+      .innerText()
+      .then((t) => t.replace(/[^\d.-]/g, "")),
+  );
   expect(hot).toBeLessThan(0.022);
   await expect(page.getByTestId("hot-verdict")).toBeVisible();
   await expect(page.getByTestId("hot-verdict")).toHaveClass(/text-spec-red/);
@@ -80,7 +88,10 @@ async function makeProcedure(): Promise<{ slug: string }> {
   try {
     const slug = `torque-check-${randomUUID().slice(0, 8)}`;
     const title = `Head stud torque check ${slug.slice(-4)}`;
-    const doc = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Torque the studs in three steps; record the final torque." }] }] };
+    const doc = {
+      type: "doc",
+      content: [{ type: "paragraph", content: [{ type: "text", text: "Torque the studs in three steps; record the final torque." }] }],
+    };
     const p = await client.query(`insert into procedures (slug, title, area) values ($1, $2, 'fasteners') returning id`, [slug, title]);
     const r = await client.query(
       `insert into procedure_revisions (procedure_id, number, state, title, area, doc, published_at) values ($1, 1, 'published', $2, 'fasteners', $3, now()) returning id`,
@@ -90,7 +101,10 @@ async function makeProcedure(): Promise<{ slug: string }> {
       `insert into procedure_specs (revision_id, procedure_id, spec_key, position, label, quantity, unit, nominal, min, max, si_unit) values ($1,$2,'final',0,'Head stud final torque','torque','N.m',110,105,115,'N.m'), ($1,$2,'stretch',1,'Stud stretch','length','mm',null,0.15,0.2,'m')`,
       [r.rows[0].id, p.rows[0].id],
     );
-    await client.query(`update procedures set published_revision_id = $1, published_at = now() where id = $2`, [r.rows[0].id, p.rows[0].id]);
+    await client.query(`update procedures set published_revision_id = $1, published_at = now() where id = $2`, [
+      r.rows[0].id,
+      p.rows[0].id,
+    ]);
     return { slug };
   } finally {
     await client.end();
@@ -136,7 +150,10 @@ test("A recording's reading typed 88.010 shows 88.010, after saving, after a rel
   await expect(row).toContainText("88.010 mm");
   await expect(row).not.toContainText("88.01 mm");
   if (process.env.SHOTS_TR) {
-    for (const [w, width] of [["desktop", 1366], ["tablet", 768]] as const) {
+    for (const [w, width] of [
+      ["desktop", 1366],
+      ["tablet", 768],
+    ] as const) {
       await page.setViewportSize({ width, height: 1000 });
       await row.scrollIntoViewIfNeeded();
       await page.screenshot({ path: `${process.env.SHOTS_TR}/recording-readings-${w}.png`, fullPage: true });

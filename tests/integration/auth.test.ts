@@ -61,7 +61,10 @@ describe("sign-in", () => {
   it("answers 401 JSON on the API and a sign-in redirect with the return path on pages", async () => {
     const api = await http("/api/me");
     expect(api.status).toBe(401);
-    expect(await api.json()).toEqual({ error: "sign-in required", reason: "You are signed out (the session ended or was closed). Sign in again." });
+    expect(await api.json()).toEqual({
+      error: "sign-in required",
+      reason: "You are signed out (the session ended or was closed). Sign in again.",
+    });
     const page = await http("/admin/people?x=1");
     expect(page.status).toBe(302);
     expect(page.headers.get("location")).toBe("/signin?next=%2Fadmin%2Fpeople%3Fx%3D1");
@@ -71,10 +74,18 @@ describe("sign-in", () => {
 describe("CSRF and headers", () => {
   it("refuses a state-changing request from another origin or without one", async () => {
     const admin = await createUser("admin");
-    const evil = await http("/admin/people", { form: { intent: "invite", email: "x@evil.example", role: "admin" }, cookie: admin.cookie, origin: "http://evil.example" });
+    const evil = await http("/admin/people", {
+      form: { intent: "invite", email: "x@evil.example", role: "admin" },
+      cookie: admin.cookie,
+      origin: "http://evil.example",
+    });
     // React Router's own origin check answers 400 for page actions before our middleware's 403.
     expect([400, 403]).toContain(evil.status);
-    const none = await http("/admin/people", { form: { intent: "invite", email: "y@evil.example", role: "admin" }, cookie: admin.cookie, origin: null });
+    const none = await http("/admin/people", {
+      form: { intent: "invite", email: "y@evil.example", role: "admin" },
+      cookie: admin.cookie,
+      origin: null,
+    });
     expect(none.status).toBe(403);
     const rows = await db().select().from(invitations).where(sql`${invitations.email} in ('x@evil.example','y@evil.example')`);
     expect(rows).toHaveLength(0);
@@ -119,8 +130,12 @@ describe("people administration", () => {
     const admin = await createUser("admin");
     const target = await createUser("apprentice");
     const editor = await createUser("editor");
-    expect((await http("/admin/people", { form: { intent: "role", userId: target.id, role: "qc" }, cookie: editor.cookie })).status).toBe(403);
-    expect((await http("/admin/people", { form: { intent: "role", userId: target.id, role: "qc" }, cookie: admin.cookie })).status).toBe(302);
+    expect((await http("/admin/people", { form: { intent: "role", userId: target.id, role: "qc" }, cookie: editor.cookie })).status).toBe(
+      403,
+    );
+    expect((await http("/admin/people", { form: { intent: "role", userId: target.id, role: "qc" }, cookie: admin.cookie })).status).toBe(
+      302,
+    );
     const [row] = await db().select().from(users).where(eq(users.id, target.id));
     expect(row.role).toBe("qc");
     const me = await (await http("/api/me", { cookie: target.cookie })).json();
@@ -211,7 +226,10 @@ describe("password reset", () => {
     await http("/reset", { form: { email: u.email } });
     const mail = await mailTo(u.email, "Reset");
     const token = tokenFromLink(mail.links.find((l) => l.includes("/reset/"))!, "/reset");
-    await db().update(passwordResets).set({ expiresAt: sql`now() - interval '1 second'` }).where(eq(passwordResets.tokenHash, hashToken(token)));
+    await db()
+      .update(passwordResets)
+      .set({ expiresAt: sql`now() - interval '1 second'` })
+      .where(eq(passwordResets.tokenHash, hashToken(token)));
     const res = await http(`/reset/${token}`, { form: { password: "brand-new-password", confirm: "brand-new-password" } });
     expect(res.status).toBe(409);
     expect(await res.text()).toContain("expired");
@@ -279,16 +297,27 @@ function httpFrom(localAddress: string, path: string, req: { form?: Record<strin
   });
 }
 
-const signInFrom = (address: string, email: string, password: string) => httpFrom(address, "/signin", { form: { email, password, next: "/" } });
+const signInFrom = (address: string, email: string, password: string) =>
+  httpFrom(address, "/signin", { form: { email, password, next: "/" } });
 
 /** Ends every throttle window whose key mentions `part` (as if the minutes had passed). */
 async function letTimePass(part: string) {
-  await db().update(rateLimits).set({ expire: sql`now() - interval '1 second'` }).where(like(rateLimits.key, `%${part}%`));
+  await db()
+    .update(rateLimits)
+    .set({ expire: sql`now() - interval '1 second'` })
+    .where(like(rateLimits.key, `%${part}%`));
 }
 
 describe("the return path after sign-in", () => {
   // Each would send a signed-in person off the site if followed (app/lib/return-path.test.ts has the why).
-  const offSite = ["/\\evil.example", "/\t/evil.example", "/\\\\evil.example", "/.//evil.example", "//evil.example", "https://evil.example/x"];
+  const offSite = [
+    "/\\evil.example",
+    "/\t/evil.example",
+    "/\\\\evil.example",
+    "/.//evil.example",
+    "//evil.example",
+    "https://evil.example/x",
+  ];
 
   it("GET /signin sends a signed-in person only to a path on this site", async () => {
     const u = await createUser("qc");
@@ -374,7 +403,10 @@ describe("sign-in throttles", () => {
     const u = await createUser("editor");
     const desk = newClientAddress();
     const change = (current: string) =>
-      httpFrom(desk, "/account", { cookie: u.cookie, form: { intent: "password", current, password: "a-new-password-1", confirm: "a-new-password-1" } });
+      httpFrom(desk, "/account", {
+        cookie: u.cookie,
+        form: { intent: "password", current, password: "a-new-password-1", confirm: "a-new-password-1" },
+      });
     for (let i = 0; i < PASSWORD_LIMITS.pair.max; i++) {
       const res = await change(`guess-${i}`);
       expect(res.status).toBe(400);
@@ -391,7 +423,8 @@ describe("reset mail limits", () => {
   it("stops sending reset mails to one address after its limit, and says so", async () => {
     const u = await createUser("builder");
     const from = newClientAddress();
-    for (let i = 0; i < RESET_LIMITS.account.max; i++) expect((await httpFrom(from, "/reset", { form: { email: u.email } })).status).toBe(200);
+    for (let i = 0; i < RESET_LIMITS.account.max; i++)
+      expect((await httpFrom(from, "/reset", { form: { email: u.email } })).status).toBe(200);
     const refused = await httpFrom(newClientAddress(), "/reset", { form: { email: u.email } }); // another computer too
     expect(refused.status).toBe(429);
     expect(await refused.text()).toContain("Enough reset links have been asked for this address for now");
@@ -447,7 +480,10 @@ describe("password lifecycle", () => {
     const otherSession = await sessionCookieFor(u.email);
     await httpFrom(newClientAddress(), "/reset", { form: { email: u.email } });
     const [token] = await resetTokensFor(u.email, 1);
-    const res = await http("/account", { cookie: u.cookie, form: { intent: "password", current: u.password, password: "changed-password-1", confirm: "changed-password-1" } });
+    const res = await http("/account", {
+      cookie: u.cookie,
+      form: { intent: "password", current: u.password, password: "changed-password-1", confirm: "changed-password-1" },
+    });
     expect(res.status).toBe(302);
     expect((await http("/api/me", { cookie: u.cookie })).status).toBe(200);
     expect((await http("/api/me", { cookie: otherSession })).status).toBe(401);

@@ -32,15 +32,60 @@ function methodsOf(src: string): string[] {
   return out;
 }
 
-const uniq = <T,>(xs: T[]) => [...new Set(xs)];
+const uniq = <T>(xs: T[]) => [...new Set(xs)];
 const all = (re: RegExp, s: string) => [...s.matchAll(re)].map((m) => m[1]);
 
 /** Query names every route is tried with, and those its module reads. */
-const COMMON_QUERY = ["q", "page", "limit", "rev", "from", "to", "v", "tag", "sort", "type", "state", "uploader", "format", "next", "procedure", "recording", "except", "t"];
-const queryNamesOf = (src: string) => uniq([...all(/searchParams\.get\("([\w.-]+)"\)/g, src), ...all(/\bu\.searchParams\.get\("([\w.-]+)"\)/g, src)]);
+const COMMON_QUERY = [
+  "q",
+  "page",
+  "limit",
+  "rev",
+  "from",
+  "to",
+  "v",
+  "tag",
+  "sort",
+  "type",
+  "state",
+  "uploader",
+  "format",
+  "next",
+  "procedure",
+  "recording",
+  "except",
+  "t",
+];
+const queryNamesOf = (src: string) =>
+  uniq([...all(/searchParams\.get\("([\w.-]+)"\)/g, src), ...all(/\bu\.searchParams\.get\("([\w.-]+)"\)/g, src)]);
 
 /** Form fields: those the module names (inputs, form.get, schema keys) and the shop's common ones. */
-const COMMON_FIELDS = ["title", "text", "name", "email", "password", "next", "notes", "workOrder", "engineSerial", "testedOn", "revisionId", "recordingId", "reason", "summary", "area", "tags", "words", "role", "active", "userId", "changeNote", "value", "unit", "label"];
+const COMMON_FIELDS = [
+  "title",
+  "text",
+  "name",
+  "email",
+  "password",
+  "next",
+  "notes",
+  "workOrder",
+  "engineSerial",
+  "testedOn",
+  "revisionId",
+  "recordingId",
+  "reason",
+  "summary",
+  "area",
+  "tags",
+  "words",
+  "role",
+  "active",
+  "userId",
+  "changeNote",
+  "value",
+  "unit",
+  "label",
+];
 const fieldsOf = (src: string) =>
   uniq([...all(/name="([\w.-]+)"/g, src), ...all(/form\.get\("([\w.-]+)"\)/g, src), ...all(/^\s+(\w+): z\./gm, src), ...COMMON_FIELDS]);
 const intentsOf = (src: string) => uniq([...all(/intent === "([\w-]+)"/g, src), ...all(/case "([\w-]+)":/g, src), "__none__"]);
@@ -59,17 +104,48 @@ const BAD_PARAMS = [
   "x".repeat(2000),
   "%E2%80%AE%F0%9F%94%A7",
 ];
-const BAD_VALUES = ["a\u0000b", "\u0000", "99999999999999999999", "1e308", "-1e308", "NaN", "Infinity", "2024-02-30", "0000-01-01", "x".repeat(20_000)];
+const BAD_VALUES = [
+  "a\u0000b",
+  "\u0000",
+  "99999999999999999999",
+  "1e308",
+  "-1e308",
+  "NaN",
+  "Infinity",
+  "2024-02-30",
+  "0000-01-01",
+  "x".repeat(20_000),
+];
 const JSON_BODIES = ["null", "true", "1", '"str"', "[]", "{}", '{"a":', "[[[[[[[[[[", '{"__proto__":{"x":1}}'];
 
 /** A procedure with revision 1 published and one bore spec, made directly. */
 async function publishedProcedure(prefix: string) {
   const tag = randomUUID().slice(0, 8);
-  const [p] = await db().insert(procedures).values({ slug: `${prefix}-${tag}`, title: `Bad input check ${tag}`, area: "block" }).returning();
-  const [rev] = await db().insert(procedureRevisions).values({ procedureId: p.id, number: 1, state: "published", title: p.title, area: "block", doc: DOC, publishedAt: new Date() }).returning();
+  const [p] = await db()
+    .insert(procedures)
+    .values({ slug: `${prefix}-${tag}`, title: `Bad input check ${tag}`, area: "block" })
+    .returning();
+  const [rev] = await db()
+    .insert(procedureRevisions)
+    .values({ procedureId: p.id, number: 1, state: "published", title: p.title, area: "block", doc: DOC, publishedAt: new Date() })
+    .returning();
   const [spec] = await db()
     .insert(procedureSpecs)
-    .values({ revisionId: rev.id, procedureId: p.id, specKey: "bore", position: 0, label: "Bore", quantity: "length", unit: "mm", nominal: 88, min: 87.9, max: 88.1, siUnit: "m", minSi: 0.0879, maxSi: 0.0881 })
+    .values({
+      revisionId: rev.id,
+      procedureId: p.id,
+      specKey: "bore",
+      position: 0,
+      label: "Bore",
+      quantity: "length",
+      unit: "mm",
+      nominal: 88,
+      min: 87.9,
+      max: 88.1,
+      siUnit: "m",
+      minSi: 0.0879,
+      maxSi: 0.0881,
+    })
     .returning();
   await db().update(procedures).set({ publishedRevisionId: rev.id, publishedAt: new Date() }).where(eq(procedures.id, p.id));
   return { procedure: p, rev, spec };
@@ -88,17 +164,44 @@ describe("bad-input matrix", () => {
   beforeAll(async () => {
     admin = await createUser("admin");
     const { procedure: p, rev, spec } = await publishedProcedure("bad-input");
-    const [draft] = await db().insert(procedureRevisions).values({ procedureId: p.id, number: 2, state: "draft", title: p.title, area: "block", doc: DOC, authorId: admin.id }).returning();
-    const [rec] = await db().insert(recordings).values({ title: `Bad input ${p.slug}`, originalName: "b.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: admin.id }).returning();
+    const [draft] = await db()
+      .insert(procedureRevisions)
+      .values({ procedureId: p.id, number: 2, state: "draft", title: p.title, area: "block", doc: DOC, authorId: admin.id })
+      .returning();
+    const [rec] = await db()
+      .insert(recordings)
+      .values({ title: `Bad input ${p.slug}`, originalName: "b.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: admin.id })
+      .returning();
     const [mark] = await db().insert(marks).values({ recordingId: rec.id, tStart: 3, text: "A mark", createdBy: admin.id }).returning();
-    const [reading] = await db().insert(readings).values({ recordingId: rec.id, quantity: "torque", valueSi: 110, valueEntered: 110, unitEntered: "N.m", t: 3, createdBy: admin.id }).returning();
+    const [reading] = await db()
+      .insert(readings)
+      .values({ recordingId: rec.id, quantity: "torque", valueSi: 110, valueEntered: 110, unitEntered: "N.m", t: 3, createdBy: admin.id })
+      .returning();
     const filed = await http(`/test-records/new?procedure=${p.slug}`, {
       cookie: admin.cookie,
-      form: { revisionId: rev.id, title: "Bore check", workOrder: "LEW-24-1234", engineSerial: "X1", testedOn: new Date().toISOString().slice(0, 10), [`r.${spec.id}.0.value`]: "88", [`r.${spec.id}.0.unit`]: "mm" },
+      form: {
+        revisionId: rev.id,
+        title: "Bore check",
+        workOrder: "LEW-24-1234",
+        engineSerial: "X1",
+        testedOn: new Date().toISOString().slice(0, 10),
+        [`r.${spec.id}.0.value`]: "88",
+        [`r.${spec.id}.0.unit`]: "mm",
+      },
     });
     const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(filed.headers.get("location") ?? "")?.[1];
     if (!recordId) throw new Error(`could not file the fixture test record (${filed.status})`);
-    Object.assign(good, { slug: p.slug, number: "2", revision: draft.id, recording: rec.id, mark: mark.id, reading: reading.id, record: recordId, spec: spec.id, published: rev.id });
+    Object.assign(good, {
+      slug: p.slug,
+      number: "2",
+      revision: draft.id,
+      recording: rec.id,
+      mark: mark.id,
+      reading: reading.id,
+      record: recordId,
+      spec: spec.id,
+      published: rev.id,
+    });
   });
 
   afterAll(() => {
@@ -109,26 +212,37 @@ describe("bad-input matrix", () => {
 
   /** The path with good values for every param, except `bad` for the one named. */
   function fill(pattern: string, badParam?: string, bad?: string): string {
-    return pattern.replace(/:(\w+)|\*/g, (whole, name: string | undefined) => {
-      const key = name ?? "*";
-      if (key === badParam) return bad!;
-      if (key === "*") return "";
-      if (name === "slug") return good.slug;
-      if (name === "number") return good.number;
-      if (name === "token") return "not-a-real-token";
-      if (name === "markId") return good.mark;
-      if (name === "readingId") return good.reading;
-      if (pattern.startsWith("/api/procedures/revisions")) return good.revision;
-      if (pattern.includes("recordings/")) return good.recording;
-      if (pattern.includes("test-records/")) return good.record;
-      return randomUUID();
-    }).replace(/\/$/, "") || "/";
+    return (
+      pattern
+        .replace(/:(\w+)|\*/g, (whole, name: string | undefined) => {
+          const key = name ?? "*";
+          if (key === badParam) return bad!;
+          if (key === "*") return "";
+          if (name === "slug") return good.slug;
+          if (name === "number") return good.number;
+          if (name === "token") return "not-a-real-token";
+          if (name === "markId") return good.mark;
+          if (name === "readingId") return good.reading;
+          if (pattern.startsWith("/api/procedures/revisions")) return good.revision;
+          if (pattern.includes("recordings/")) return good.recording;
+          if (pattern.includes("test-records/")) return good.record;
+          return randomUUID();
+        })
+        .replace(/\/$/, "") || "/"
+    );
   }
 
   /** A fresh admin session per route: a route may sign the person out (POST /signout). */
-  const cookieFor = async (route: string) => (route === "/signin" || route.startsWith("/reset") || route.startsWith("/invite") ? undefined : sessionCookieFor(admin.email));
+  const cookieFor = async (route: string) =>
+    route === "/signin" || route.startsWith("/reset") || route.startsWith("/invite") ? undefined : sessionCookieFor(admin.email);
 
-  async function send(route: string, method: string, what: string, url: string, init: { cookie?: string; body?: BodyInit; type?: string | null } = {}) {
+  async function send(
+    route: string,
+    method: string,
+    what: string,
+    url: string,
+    init: { cookie?: string; body?: BodyInit; type?: string | null } = {},
+  ) {
     const headers: Record<string, string> = {};
     if (init.type) headers["content-type"] = init.type;
     const res = await http(url, { method, cookie: init.cookie, body: init.body, headers });
@@ -141,7 +255,11 @@ describe("bad-input matrix", () => {
   function oversized(url: string, cookie: string | undefined, how: "declared" | "chunked", bytes: number): Promise<number> {
     return new Promise((resolve, reject) => {
       const u = new URL(url, BASE_URL);
-      const headers: Record<string, string | number> = { origin: BASE_URL, "content-type": "application/x-www-form-urlencoded", ...(cookie ? { cookie } : {}) };
+      const headers: Record<string, string | number> = {
+        origin: BASE_URL,
+        "content-type": "application/x-www-form-urlencoded",
+        ...(cookie ? { cookie } : {}),
+      };
       if (how === "declared") headers["content-length"] = bytes;
       else headers["transfer-encoding"] = "chunked";
       const req = nodeHttp.request(u, { method: "POST", headers }, (res) => {
@@ -179,14 +297,21 @@ describe("bad-input matrix", () => {
       for (const p of params) {
         for (const bad of BAD_PARAMS) {
           const url = fill(route, p, bad);
-          for (const m of methods) await send(route, m, `param ${p}=${bad.slice(0, 20)}`, url, { cookie, ...(m === "GET" ? {} : { body: new URLSearchParams({ a: "1" }), type: "application/x-www-form-urlencoded" }) });
+          for (const m of methods)
+            await send(route, m, `param ${p}=${bad.slice(0, 20)}`, url, {
+              cookie,
+              ...(m === "GET" ? {} : { body: new URLSearchParams({ a: "1" }), type: "application/x-www-form-urlencoded" }),
+            });
         }
       }
 
       if (methods.includes("GET")) {
         const names = uniq([...queryNamesOf(src), "q", "page"]);
-        for (const n of names) for (const v of BAD_VALUES) await send(route, "GET", `?${n}=${v.slice(0, 12)}`, `${base}?${new URLSearchParams({ [n]: v })}`, { cookie });
-        for (const v of BAD_VALUES) await send(route, "GET", `?all=${v.slice(0, 12)}`, `${base}?${new URLSearchParams(COMMON_QUERY.map((n) => [n, v]))}`, { cookie });
+        for (const n of names)
+          for (const v of BAD_VALUES)
+            await send(route, "GET", `?${n}=${v.slice(0, 12)}`, `${base}?${new URLSearchParams({ [n]: v })}`, { cookie });
+        for (const v of BAD_VALUES)
+          await send(route, "GET", `?all=${v.slice(0, 12)}`, `${base}?${new URLSearchParams(COMMON_QUERY.map((n) => [n, v]))}`, { cookie });
         await send(route, "GET", "broken percent-encoding", `${base}?q=%E0%A4%A&next=%`, { cookie });
       }
 
@@ -197,23 +322,50 @@ describe("bad-input matrix", () => {
         await send(route, m, "no content-type", base, { cookie, body: new TextEncoder().encode("title=x&name=y") });
         await send(route, m, "text/plain", base, { cookie, body: "title=x", type: "text/plain" });
         await send(route, m, "multipart without boundary", base, { cookie, body: "--x\r\n", type: "multipart/form-data" });
-        await send(route, m, "broken multipart", base, { cookie, body: "--XYZ\r\nContent-Disposition: form-data; name=\"title\"\r\n\r\nabc", type: "multipart/form-data; boundary=XYZ" });
-        await send(route, m, "not UTF-8", base, { cookie, body: new Uint8Array([0x74, 0x3d, 0xff, 0xfe, 0xc3]), type: "application/x-www-form-urlencoded" });
+        await send(route, m, "broken multipart", base, {
+          cookie,
+          body: '--XYZ\r\nContent-Disposition: form-data; name="title"\r\n\r\nabc',
+          type: "multipart/form-data; boundary=XYZ",
+        });
+        await send(route, m, "not UTF-8", base, {
+          cookie,
+          body: new Uint8Array([0x74, 0x3d, 0xff, 0xfe, 0xc3]),
+          type: "application/x-www-form-urlencoded",
+        });
         for (const j of JSON_BODIES) await send(route, m, `json ${j}`, base, { cookie, body: j, type: "application/json" });
         for (const v of ["a\u0000b", 1e308, -1e308, 2147483648, 99999999999999999999, "2024-02-30", "0000-01-01"]) {
           const body = Object.fromEntries(fields.map((f) => [f, v]));
-          await send(route, m, `json fields=${String(v).slice(0, 12)}`, base, { cookie, body: JSON.stringify(body), type: "application/json" });
+          await send(route, m, `json fields=${String(v).slice(0, 12)}`, base, {
+            cookie,
+            body: JSON.stringify(body),
+            type: "application/json",
+          });
         }
-        await send(route, m, "json value 1e309", base, { cookie, body: '{"value":1e309,"quantity":"clamp-load","unit":"lbf","tStart":1e309,"baseVersion":1e309}', type: "application/json" });
+        await send(route, m, "json value 1e309", base, {
+          cookie,
+          body: '{"value":1e309,"quantity":"clamp-load","unit":"lbf","tStart":1e309,"baseVersion":1e309}',
+          type: "application/json",
+        });
         // forms: every intent the module knows, every field bad at once
         for (const intent of intentsOf(src)) {
           for (const v of BAD_VALUES) {
             const form = new URLSearchParams(fields.map((f) => [f, v]));
             if (intent !== "__none__") form.set("intent", intent);
-            await send(route, m, `form ${intent} fields=${v.slice(0, 12)}`, base, { cookie, body: form, type: "application/x-www-form-urlencoded" });
+            await send(route, m, `form ${intent} fields=${v.slice(0, 12)}`, base, {
+              cookie,
+              body: form,
+              type: "application/x-www-form-urlencoded",
+            });
           }
         }
-        await send(route, m, "multipart with a NUL field", base, { cookie, body: (() => { const f = new FormData(); for (const n of fields) f.set(n, "a\u0000b"); return f; })() });
+        await send(route, m, "multipart with a NUL field", base, {
+          cookie,
+          body: (() => {
+            const f = new FormData();
+            for (const n of fields) f.set(n, "a\u0000b");
+            return f;
+          })(),
+        });
       }
 
       // bodies past the route's limit: refused with 413 (tus routes apply their own limit)
@@ -245,9 +397,15 @@ describe("the cases the outside testers found", () => {
   beforeAll(async () => {
     qc = await createUser("qc");
     const tag = randomUUID().slice(0, 8);
-    const [rec] = await db().insert(recordings).values({ title: `Edge ${tag}`, originalName: "e.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: qc.id }).returning();
+    const [rec] = await db()
+      .insert(recordings)
+      .values({ title: `Edge ${tag}`, originalName: "e.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: qc.id })
+      .returning();
     recordingId = rec.id;
-    const [r] = await db().insert(readings).values({ recordingId, quantity: "torque", valueSi: 110, valueEntered: 110, unitEntered: "N.m", t: 3, createdBy: qc.id }).returning();
+    const [r] = await db()
+      .insert(readings)
+      .values({ recordingId, quantity: "torque", valueSi: 110, valueEntered: 110, unitEntered: "N.m", t: 3, createdBy: qc.id })
+      .returning();
     readingId = r.id;
     const { procedure: p, rev, spec } = await publishedProcedure("edge");
     slug = p.slug;
@@ -270,28 +428,60 @@ describe("the cases the outside testers found", () => {
 
   it("ids that are not UUIDs are a 404 on pages and the API", async () => {
     const admin = await createUser("admin");
-    for (const url of ["/recordings/1", "/test-records/abc", "/test-records/abc/amend", "/test-records/abc/print", "/api/recordings/abc", "/api/recordings/abc/marks", "/api/recordings/abc/readings", `/api/recordings/${recordingId}/readings/abc`, "/api/procedures/revisions/abc", "/api/procedures/revisions/------------------------------------", "/test-records/------------------------------------"]) {
+    for (const url of [
+      "/recordings/1",
+      "/test-records/abc",
+      "/test-records/abc/amend",
+      "/test-records/abc/print",
+      "/api/recordings/abc",
+      "/api/recordings/abc/marks",
+      "/api/recordings/abc/readings",
+      `/api/recordings/${recordingId}/readings/abc`,
+      "/api/procedures/revisions/abc",
+      "/api/procedures/revisions/------------------------------------",
+      "/test-records/------------------------------------",
+    ]) {
       const res = await http(url, { cookie: admin.cookie });
       expect(res.status, url).toBe(404);
     }
   });
 
   it("revision numbers past PostgreSQL's integer are a 404", async () => {
-    for (const url of [`/procedures/${slug}/r/99999999999999999999`, `/procedures/${slug}/r/2147483648`, `/procedures/${slug}/r/2147483648/edit`, `/procedures/${slug}/print?rev=2147483648`, `/procedures/${slug}/compare?from=2147483648&to=1`, `/procedures/${slug}/compare?from=1&to=99999999999999999999`]) {
+    for (const url of [
+      `/procedures/${slug}/r/99999999999999999999`,
+      `/procedures/${slug}/r/2147483648`,
+      `/procedures/${slug}/r/2147483648/edit`,
+      `/procedures/${slug}/print?rev=2147483648`,
+      `/procedures/${slug}/compare?from=2147483648&to=1`,
+      `/procedures/${slug}/compare?from=1&to=99999999999999999999`,
+    ]) {
       const res = await http(url, { cookie: (await createUser("editor")).cookie });
       expect(res.status, url).toBe(404);
     }
     const editor = await createUser("editor");
-    const save = await http(`/api/procedures/revisions/${revisionId}`, { cookie: editor.cookie, json: { baseVersion: 2147483648, title: "Edge check", area: "block", doc: {} } });
+    const save = await http(`/api/procedures/revisions/${revisionId}`, {
+      cookie: editor.cookie,
+      json: { baseVersion: 2147483648, title: "Edge check", area: "block", doc: {} },
+    });
     expect(save.status).toBe(422);
   });
 
   it("a spec with a nominal of 1e308, or a NUL in the document, is not saved", async () => {
     const editor = await createUser("editor");
     const [p] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, revisionId));
-    const [draft] = await db().insert(procedureRevisions).values({ procedureId: p.procedureId, number: 2, state: "draft", title: p.title, area: "block", doc: DOC, authorId: editor.id }).returning();
-    const spec = { type: "spec", attrs: { id: "s1", label: "Torque", quantity: "torque", unit: "N.m", nominal: 1e308, min: null, max: null, note: "" } };
-    const save = (doc: unknown) => http(`/api/procedures/revisions/${draft.id}`, { cookie: editor.cookie, json: { baseVersion: draft.version, title: p.title, area: "block", doc } });
+    const [draft] = await db()
+      .insert(procedureRevisions)
+      .values({ procedureId: p.procedureId, number: 2, state: "draft", title: p.title, area: "block", doc: DOC, authorId: editor.id })
+      .returning();
+    const spec = {
+      type: "spec",
+      attrs: { id: "s1", label: "Torque", quantity: "torque", unit: "N.m", nominal: 1e308, min: null, max: null, note: "" },
+    };
+    const save = (doc: unknown) =>
+      http(`/api/procedures/revisions/${draft.id}`, {
+        cookie: editor.cookie,
+        json: { baseVersion: draft.version, title: p.title, area: "block", doc },
+      });
     const huge = await save({ type: "doc", content: [spec] });
     expect(huge.status).toBe(422);
     expect(JSON.stringify(await huge.json())).toMatch(/nominal/);
@@ -302,12 +492,22 @@ describe("the cases the outside testers found", () => {
   });
 
   it("impossible dates and an unknown source reading in a test record are field errors", async () => {
-    const base = { revisionId, title: "Bore check", workOrder: "LEW-24-1234", engineSerial: "X1", [`r.${specId}.0.value`]: "88", [`r.${specId}.0.unit`]: "mm" };
+    const base = {
+      revisionId,
+      title: "Bore check",
+      workOrder: "LEW-24-1234",
+      engineSerial: "X1",
+      [`r.${specId}.0.value`]: "88",
+      [`r.${specId}.0.unit`]: "mm",
+    };
     for (const testedOn of ["2024-02-30", "0000-01-01", "2023-13-01"]) {
       const res = await http(`/test-records/new?procedure=${slug}`, { cookie: qc.cookie, form: { ...base, testedOn } });
       expect(res.status, testedOn).toBe(400);
     }
-    const res = await http(`/test-records/new?procedure=${slug}`, { cookie: qc.cookie, form: { ...base, testedOn: "2024-02-29", [`r.${specId}.0.src`]: randomUUID() } });
+    const res = await http(`/test-records/new?procedure=${slug}`, {
+      cookie: qc.cookie,
+      form: { ...base, testedOn: "2024-02-29", [`r.${specId}.0.src`]: randomUUID() },
+    });
     expect(res.status).toBe(400);
     expect(await res.text()).toContain("That recording reading does not exist");
   });
@@ -319,34 +519,67 @@ describe("the cases the outside testers found", () => {
       expect(none.status, `${url} no content-type`).toBe(415);
       const json = await http(url, { method: "POST", cookie, json: { email: "a@b.c" } });
       expect(json.status, `${url} JSON`).toBe(415);
-      const broken = await http(url, { method: "POST", cookie, body: "--XYZ\r\nbroken", headers: { "content-type": "multipart/form-data; boundary=XYZ" } });
+      const broken = await http(url, {
+        method: "POST",
+        cookie,
+        body: "--XYZ\r\nbroken",
+        headers: { "content-type": "multipart/form-data; boundary=XYZ" },
+      });
       expect(broken.status, `${url} broken multipart`).toBe(400);
     }
   });
 
   it("a reading PATCH whose body is not an object is a 422 and changes nothing", async () => {
     for (const body of ["null", "true", "1", '"str"', "[]"]) {
-      const res = await http(`/api/recordings/${recordingId}/readings/${readingId}`, { method: "PATCH", cookie: qc.cookie, body, headers: { "content-type": "application/json" } });
+      const res = await http(`/api/recordings/${recordingId}/readings/${readingId}`, {
+        method: "PATCH",
+        cookie: qc.cookie,
+        body,
+        headers: { "content-type": "application/json" },
+      });
       expect(res.status, body).toBe(422);
     }
   });
 
   it("a value past what a gauge can read is refused, never stored as Infinity", async () => {
     for (const value of [1e308, 1e12, -5e7]) {
-      const res = await http(`/api/recordings/${recordingId}/readings`, { cookie: qc.cookie, json: { quantity: "clamp-load", value, unit: "lbf" } });
+      const res = await http(`/api/recordings/${recordingId}/readings`, {
+        cookie: qc.cookie,
+        json: { quantity: "clamp-load", value, unit: "lbf" },
+      });
       expect(res.status, String(value)).toBe(422);
       expect(((await res.json()) as { issues: { path: string }[] }).issues[0].path).toBe("value");
     }
-    const ok = await http(`/api/recordings/${recordingId}/readings`, { cookie: qc.cookie, json: { quantity: "clamp-load", value: 12000, unit: "lbf" } });
+    const ok = await http(`/api/recordings/${recordingId}/readings`, {
+      cookie: qc.cookie,
+      json: { quantity: "clamp-load", value: 12000, unit: "lbf" },
+    });
     expect(ok.status).toBe(201);
-    const res = await http(`/test-records/new?procedure=${slug}`, { cookie: qc.cookie, form: { revisionId, title: "Bore check", workOrder: "LEW-24-1234", testedOn: "2024-02-29", [`r.${specId}.0.value`]: "1e308", [`r.${specId}.0.unit`]: "mm" } });
+    const res = await http(`/test-records/new?procedure=${slug}`, {
+      cookie: qc.cookie,
+      form: {
+        revisionId,
+        title: "Bore check",
+        workOrder: "LEW-24-1234",
+        testedOn: "2024-02-29",
+        [`r.${specId}.0.value`]: "1e308",
+        [`r.${specId}.0.unit`]: "mm",
+      },
+    });
     expect(res.status).toBe(400);
-    const stored = await db().select().from(testRecords).where(and(eq(testRecords.revisionId, revisionId), eq(testRecords.title, "Bore check")));
+    const stored = await db()
+      .select()
+      .from(testRecords)
+      .where(and(eq(testRecords.revisionId, revisionId), eq(testRecords.title, "Bore check")));
     expect(stored).toEqual([]);
   });
 
   it("a calculator form that computes, with display units that are no unit codes, still renders", async () => {
-    for (const [path, defaults] of [["/calculators/preload", preloadDefaults], ["/calculators/distortion", distortionDefaults], ["/calculators/clearance", clearanceDefaults]] as const) {
+    for (const [path, defaults] of [
+      ["/calculators/preload", preloadDefaults],
+      ["/calculators/distortion", distortionDefaults],
+      ["/calculators/clearance", clearanceDefaults],
+    ] as const) {
       const form = defaults("metric");
       for (const k of ["out.force", "out.torque", "out.stress", "out.length", "out.small"]) form[k] = "furlong";
       const res = await http(path, { cookie: qc.cookie, form: form as Record<string, string> });
@@ -357,11 +590,18 @@ describe("the cases the outside testers found", () => {
 
   it("a declared body past a route's limit is a 413 with the reason, before the body is read", async () => {
     const res = await new Promise<{ status: number; body: string }>((resolve, reject) => {
-      const req = nodeHttp.request(new URL("/reset", BASE_URL), { method: "POST", headers: { origin: BASE_URL, "content-type": "application/x-www-form-urlencoded", "content-length": 200 * 1024 * 1024 } }, (r) => {
-        let body = "";
-        r.on("data", (c) => (body += c));
-        r.on("end", () => resolve({ status: r.statusCode ?? 0, body }));
-      });
+      const req = nodeHttp.request(
+        new URL("/reset", BASE_URL),
+        {
+          method: "POST",
+          headers: { origin: BASE_URL, "content-type": "application/x-www-form-urlencoded", "content-length": 200 * 1024 * 1024 },
+        },
+        (r) => {
+          let body = "";
+          r.on("data", (c) => (body += c));
+          r.on("end", () => resolve({ status: r.statusCode ?? 0, body }));
+        },
+      );
       req.on("error", reject);
       req.write("email=");
     });

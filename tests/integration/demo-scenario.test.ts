@@ -34,7 +34,8 @@ describe("demo scenario", () => {
     const texts: string[] = [];
     walk(proc.doc as JSONNode, (n) => {
       const preset = n.type === "calculator" ? (n.attrs?.preset as { thread?: string; method?: { kind?: string; k?: number } }) : null;
-      if (preset?.thread === "M12x1.5" && preset.method?.kind === "nut-factor" && typeof preset.method.k === "number") presetKs.push(preset.method.k);
+      if (preset?.thread === "M12x1.5" && preset.method?.kind === "nut-factor" && typeof preset.method.k === "number")
+        presetKs.push(preset.method.k);
       if (n.type === "text" && typeof n.text === "string") texts.push(n.text);
     });
     expect(presetKs).toHaveLength(1);

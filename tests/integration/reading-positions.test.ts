@@ -13,14 +13,31 @@ let builder: TestUser;
 let other: TestUser;
 let recordingId: string;
 const url = () => `/api/recordings/${recordingId}/readings`;
-type Row = { id: string; quantity: string; label: string; fastener: number | null; cylinder: number | null; journal: number | null; depthM: number | null; depthUnit: string | null; angleDeg: number | null };
+type Row = {
+  id: string;
+  quantity: string;
+  label: string;
+  fastener: number | null;
+  cylinder: number | null;
+  journal: number | null;
+  depthM: number | null;
+  depthUnit: string | null;
+  angleDeg: number | null;
+};
 
 beforeAll(async () => {
   builder = await createUser("builder");
   other = await createUser("qc");
   const [rec] = await db()
     .insert(recordings)
-    .values({ title: `Bore check ${Date.now()}`, state: "ready", originalName: "bores.mp4", originalSize: 1, durationS: 60, uploadedBy: builder.id })
+    .values({
+      title: `Bore check ${Date.now()}`,
+      state: "ready",
+      originalName: "bores.mp4",
+      originalSize: 1,
+      durationS: 60,
+      uploadedBy: builder.id,
+    })
     .returning();
   recordingId = rec.id;
 });
@@ -29,13 +46,26 @@ const issues = async (res: Response) => ((await res.json()) as { issues: { path:
 
 describe("readings API with positions", () => {
   it("stores a bore reading's cylinder, depth and angle, and lists them", async () => {
-    const bore = (depth: number, angle: number, value: number) => ({ quantity: "bore-diameter", value, unit: "mm", cylinder: 3, depth: { value: depth, unit: "mm" }, angle });
-    const res = await http(url(), { cookie: builder.cookie, json: { readings: [bore(12, 0, 88.012), bore(12, 90, 88.004), bore(45, 0, 88.01), bore(45, 90, 88.006)] } });
+    const bore = (depth: number, angle: number, value: number) => ({
+      quantity: "bore-diameter",
+      value,
+      unit: "mm",
+      cylinder: 3,
+      depth: { value: depth, unit: "mm" },
+      angle,
+    });
+    const res = await http(url(), {
+      cookie: builder.cookie,
+      json: { readings: [bore(12, 0, 88.012), bore(12, 90, 88.004), bore(45, 0, 88.01), bore(45, 90, 88.006)] },
+    });
     expect(res.status).toBe(201);
     const rows = ((await res.json()) as { readings: Row[] }).readings;
     expect(rows[1]).toMatchObject({ cylinder: 3, depthM: 0.012, depthUnit: "mm", angleDeg: 90, fastener: null, journal: null, label: "" });
 
-    const torque = await http(url(), { cookie: builder.cookie, json: { quantity: "torque", value: 110, unit: "N.m", fastener: 4, label: "final pass" } });
+    const torque = await http(url(), {
+      cookie: builder.cookie,
+      json: { quantity: "torque", value: 110, unit: "N.m", fastener: 4, label: "final pass" },
+    });
     expect(((await torque.json()) as { reading: Row }).reading).toMatchObject({ fastener: 4, cylinder: null, label: "final pass" });
     const main = await http(url(), { cookie: builder.cookie, json: { quantity: "clearance", value: 0.052, unit: "mm", journal: 2 } });
     expect(((await main.json()) as { reading: Row }).reading).toMatchObject({ journal: 2 });
@@ -73,17 +103,34 @@ describe("readings API with positions", () => {
   });
 
   it("keeps the place on a PATCH of the value, and drops it when the quantity changes", async () => {
-    const created = await http(url(), { cookie: builder.cookie, json: { quantity: "bore-diameter", value: 88.02, unit: "mm", cylinder: 1, depth: { value: 0.5, unit: "in" }, angle: 45 } });
+    const created = await http(url(), {
+      cookie: builder.cookie,
+      json: { quantity: "bore-diameter", value: 88.02, unit: "mm", cylinder: 1, depth: { value: 0.5, unit: "in" }, angle: 45 },
+    });
     const { reading } = (await created.json()) as { reading: Row };
     const one = `${url()}/${reading.id}`;
     const value = await http(one, { method: "PATCH", cookie: builder.cookie, json: { value: 88.021 } });
     expect(value.status).toBe(200);
-    expect(((await value.json()) as { reading: Row }).reading).toMatchObject({ cylinder: 1, depthM: expect.closeTo(0.0127, 12), depthUnit: "in", angleDeg: 45 });
+    expect(((await value.json()) as { reading: Row }).reading).toMatchObject({
+      cylinder: 1,
+      depthM: expect.closeTo(0.0127, 12),
+      depthUnit: "in",
+      angleDeg: 45,
+    });
     const angle = await http(one, { method: "PATCH", cookie: builder.cookie, json: { angle: 135 } });
     expect(((await angle.json()) as { reading: Row }).reading).toMatchObject({ cylinder: 1, angleDeg: 135 });
-    const changed = await http(one, { method: "PATCH", cookie: builder.cookie, json: { quantity: "ring-gap", value: 0.3, unit: "mm", cylinder: 1 } });
+    const changed = await http(one, {
+      method: "PATCH",
+      cookie: builder.cookie,
+      json: { quantity: "ring-gap", value: 0.3, unit: "mm", cylinder: 1 },
+    });
     expect(changed.status).toBe(200);
-    expect(((await changed.json()) as { reading: Row }).reading).toMatchObject({ quantity: "ring-gap", cylinder: 1, depthM: null, angleDeg: null });
+    expect(((await changed.json()) as { reading: Row }).reading).toMatchObject({
+      quantity: "ring-gap",
+      cylinder: 1,
+      depthM: null,
+      angleDeg: null,
+    });
   });
 
   it("opens a cylinder's bore readings in Bore distortion, laid out by depth and angle", async () => {
@@ -101,7 +148,15 @@ describe("readings API with positions", () => {
 describe("readings API: the resolution typed", () => {
   type Typed = { id: string; valueEntered: number; valueDecimals: number | null };
   it("keeps the decimals typed beside the value (88.010 arrives as 88.01), lists them, and guesses them when not given", async () => {
-    const res = await http(url(), { cookie: builder.cookie, json: { readings: [{ quantity: "bore-diameter", value: 88.01, valueDecimals: 3, unit: "mm", cylinder: 4 }, { quantity: "torque", value: 110, unit: "N.m" }] } });
+    const res = await http(url(), {
+      cookie: builder.cookie,
+      json: {
+        readings: [
+          { quantity: "bore-diameter", value: 88.01, valueDecimals: 3, unit: "mm", cylinder: 4 },
+          { quantity: "torque", value: 110, unit: "N.m" },
+        ],
+      },
+    });
     expect(res.status).toBe(201);
     const [bore, torque] = ((await res.json()) as { readings: Typed[] }).readings;
     expect([bore.valueEntered, bore.valueDecimals]).toEqual([88.01, 3]);
@@ -119,7 +174,10 @@ describe("readings API: the resolution typed", () => {
 
   it("answers 422 for decimals fewer than the value has, or not a small whole number", async () => {
     for (const valueDecimals of [1, -1, 2.5, 40, "3"]) {
-      const res = await http(url(), { cookie: builder.cookie, json: { quantity: "bore-diameter", value: 88.012, valueDecimals, unit: "mm" } });
+      const res = await http(url(), {
+        cookie: builder.cookie,
+        json: { quantity: "bore-diameter", value: 88.012, valueDecimals, unit: "mm" },
+      });
       expect(res.status, String(valueDecimals)).toBe(422);
       expect((await issues(res)).map((i) => i.path)).toEqual(["valueDecimals"]);
     }
@@ -128,31 +186,70 @@ describe("readings API: the resolution typed", () => {
 
 describe("migration 0022: the place out of an old label", () => {
   const migration = fs.readFileSync("drizzle/0022_reading_positions_from_labels.sql", "utf8");
-  const statements = migration.split("--> statement-breakpoint").map((s) => s.trim()).filter(Boolean);
+  const statements = migration
+    .split("--> statement-breakpoint")
+    .map((s) => s.trim())
+    .filter(Boolean);
 
   it("moves cylinder, depth and angle of an old bore label into the fields and keeps the rest", async () => {
     const [old] = await db()
       .insert(readings)
       .values([
-        { recordingId, quantity: "bore-diameter", label: "cyl 3, 20 mm down, 90°, plate on", valueEntered: 88.01, unitEntered: "mm", valueSi: 0.08801, createdBy: builder.id },
+        {
+          recordingId,
+          quantity: "bore-diameter",
+          label: "cyl 3, 20 mm down, 90°, plate on",
+          valueEntered: 88.01,
+          unitEntered: "mm",
+          valueSi: 0.08801,
+          createdBy: builder.id,
+        },
         { recordingId, quantity: "torque", label: "stud 7", valueEntered: 110, unitEntered: "N.m", valueSi: 110, createdBy: builder.id },
-        { recordingId, quantity: "temperature", label: "cyl 3 head", valueEntered: 90, unitEntered: "degC", valueSi: 363.15, createdBy: builder.id },
+        {
+          recordingId,
+          quantity: "temperature",
+          label: "cyl 3 head",
+          valueEntered: 90,
+          unitEntered: "degC",
+          valueSi: 363.15,
+          createdBy: builder.id,
+        },
       ])
       .returning();
     for (const s of statements) await db().execute(sql.raw(s));
     const [bore] = await db().select().from(readings).where(eq(readings.id, old.id));
-    expect(bore).toMatchObject({ cylinder: 3, depthM: 0.02, depthUnit: "mm", angleDeg: 90, label: "plate on", fastener: null, journal: null });
+    expect(bore).toMatchObject({
+      cylinder: 3,
+      depthM: 0.02,
+      depthUnit: "mm",
+      angleDeg: 90,
+      label: "plate on",
+      fastener: null,
+      journal: null,
+    });
     const mine = await db().select().from(readings).where(eq(readings.recordingId, recordingId));
-    expect(mine.find((r) => r.quantity === "torque" && r.valueEntered === 110 && r.createdBy === builder.id && r.fastener === 7)).toMatchObject({ label: "" });
+    expect(
+      mine.find((r) => r.quantity === "torque" && r.valueEntered === 110 && r.createdBy === builder.id && r.fastener === 7),
+    ).toMatchObject({ label: "" });
     expect(mine.find((r) => r.quantity === "temperature")).toMatchObject({ label: "cyl 3 head", cylinder: null });
   });
 
   it("moves the place of a filed test record's reading out of its note, past the immutability trigger, which stays on", async () => {
-    const [rec] = await db().select().from(testRecords).where(eq(testRecords.title, "Bore finish after torque-plate honing, cylinders 1–2"));
-    const [first] = await db().select().from(testRecordReadings).where(and(eq(testRecordReadings.recordId, rec.id), eq(testRecordReadings.specKey, "bore-dia"))).orderBy(asc(testRecordReadings.position)).limit(1);
+    const [rec] = await db()
+      .select()
+      .from(testRecords)
+      .where(eq(testRecords.title, "Bore finish after torque-plate honing, cylinders 1–2"));
+    const [first] = await db()
+      .select()
+      .from(testRecordReadings)
+      .where(and(eq(testRecordReadings.recordId, rec.id), eq(testRecordReadings.specKey, "bore-dia")))
+      .orderBy(asc(testRecordReadings.position))
+      .limit(1);
     // Put it back as filed before positions existed: the place in the note.
     await db().execute(sql`ALTER TABLE test_record_readings DISABLE TRIGGER test_record_readings_no_update`);
-    await db().execute(sql`UPDATE test_record_readings SET note = 'cyl 1, 10 mm down, 0°', cylinder = NULL, depth_m = NULL, depth_unit = NULL, angle_deg = NULL WHERE id = ${first.id}`);
+    await db().execute(
+      sql`UPDATE test_record_readings SET note = 'cyl 1, 10 mm down, 0°', cylinder = NULL, depth_m = NULL, depth_unit = NULL, angle_deg = NULL WHERE id = ${first.id}`,
+    );
     await db().execute(sql`ALTER TABLE test_record_readings ENABLE TRIGGER test_record_readings_no_update`);
     for (const s of statements) await db().execute(sql.raw(s));
     const [after] = await db().select().from(testRecordReadings).where(eq(testRecordReadings.id, first.id));
@@ -164,7 +261,7 @@ describe("migration 0022: the place out of an old label", () => {
     const labels = [
       "cyl 3, 20 mm down, 90°",
       "Cylinder 2; 1.5 in deep, plate on",
-      "bore #4, 0.75\" below deck, 45 deg",
+      'bore #4, 0.75" below deck, 45 deg',
       "stud 4, moly",
       "Bolt no. 12",
       "main 3",
@@ -176,15 +273,41 @@ describe("migration 0022: the place out of an old label", () => {
       "final pass",
       "",
     ];
-    const quantities = ["torque", "clamp-load", "bore-diameter", "out-of-round", "clearance", "ring-gap", "leak-down", "temperature", "other"];
+    const quantities = [
+      "torque",
+      "clamp-load",
+      "bore-diameter",
+      "out-of-round",
+      "clearance",
+      "ring-gap",
+      "leak-down",
+      "temperature",
+      "other",
+    ];
     for (const q of quantities) {
       for (const label of labels) {
-        const { rows } = await db().execute<{ fastener: number | null; cylinder: number | null; journal: number | null; depth_m: number | null; depth_unit: string | null; angle_deg: number | null; rest: string }>(
-          sql`SELECT * FROM reading_position_from_label(reading_position_fields(${q}), ${label})`,
-        );
+        const { rows } = await db().execute<{
+          fastener: number | null;
+          cylinder: number | null;
+          journal: number | null;
+          depth_m: number | null;
+          depth_unit: string | null;
+          angle_deg: number | null;
+          rest: string;
+        }>(sql`SELECT * FROM reading_position_from_label(reading_position_fields(${q}), ${label})`);
         const ts = positionFromLabel(q, label);
         const r = rows[0];
-        expect({ q, label, fastener: r.fastener, cylinder: r.cylinder, journal: r.journal, depthM: r.depth_m, depthUnit: r.depth_unit, angleDeg: r.angle_deg, rest: r.rest }).toEqual({ q, label, ...ts.position, rest: ts.label });
+        expect({
+          q,
+          label,
+          fastener: r.fastener,
+          cylinder: r.cylinder,
+          journal: r.journal,
+          depthM: r.depth_m,
+          depthUnit: r.depth_unit,
+          angleDeg: r.angle_deg,
+          rest: r.rest,
+        }).toEqual({ q, label, ...ts.position, rest: ts.label });
       }
     }
   });
@@ -211,7 +334,10 @@ describe("migration 0022: the place out of an old label", () => {
 describe("test record entry with positions", () => {
   async function demoBoreSpec() {
     const [p] = await db().select().from(procedures).where(eq(procedures.slug, "torque-plate-honing-iron-lined-block"));
-    const [spec] = await db().select().from(procedureSpecs).where(and(eq(procedureSpecs.revisionId, p.publishedRevisionId!), eq(procedureSpecs.specKey, "bore-dia")));
+    const [spec] = await db()
+      .select()
+      .from(procedureSpecs)
+      .where(and(eq(procedureSpecs.revisionId, p.publishedRevisionId!), eq(procedureSpecs.specKey, "bore-dia")));
     return { slug: p.slug, revisionId: p.publishedRevisionId!, spec };
   }
   const form = (revisionId: string, extra: Record<string, string>) => ({
@@ -230,12 +356,28 @@ describe("test record entry with positions", () => {
     const b = `r.${spec.id}.0`;
     const res = await http(`/test-records/new?procedure=${slug}`, {
       cookie: qc.cookie,
-      form: form(revisionId, { [`${b}.value`]: "88.006", [`${b}.unit`]: "mm", [`${b}.cylinder`]: "2", [`${b}.depth`]: "0.5", [`${b}.depthUnit`]: "in", [`${b}.angle`]: "45", [`${b}.note`]: "plate on" }),
+      form: form(revisionId, {
+        [`${b}.value`]: "88.006",
+        [`${b}.unit`]: "mm",
+        [`${b}.cylinder`]: "2",
+        [`${b}.depth`]: "0.5",
+        [`${b}.depthUnit`]: "in",
+        [`${b}.angle`]: "45",
+        [`${b}.note`]: "plate on",
+      }),
     });
     expect(res.status).toBe(302);
     const id = /\/test-records\/([0-9a-f-]{36})/.exec(res.headers.get("location") ?? "")![1];
     const [row] = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id));
-    expect(row).toMatchObject({ cylinder: 2, depthM: expect.closeTo(0.0127, 12), depthUnit: "in", angleDeg: 45, note: "plate on", fastener: null, journal: null });
+    expect(row).toMatchObject({
+      cylinder: 2,
+      depthM: expect.closeTo(0.0127, 12),
+      depthUnit: "in",
+      angleDeg: 45,
+      note: "plate on",
+      fastener: null,
+      journal: null,
+    });
     const page = (await (await http(`/test-records/${id}`, { cookie: qc.cookie })).text()).replaceAll("<!-- -->", "");
     expect(page).toContain("cyl 2, 0.5 in down, 45°, plate on");
   });

@@ -27,30 +27,68 @@ let builder2: TestUser;
 let clip: Buffer;
 
 /** POST a new upload of `size` bytes; its id. */
-async function create(user: TestUser, name: string, size: number, title = name, meta: Record<string, string> = {}): Promise<{ id: string; res: Response }> {
-  const metadata = Object.entries({ filename: name, title, ...meta }).map(([k, v]) => `${k} ${b64(v)}`).join(",");
-  const res = await http("/api/uploads", { method: "POST", cookie: user.cookie, headers: { ...TUS, "Upload-Length": String(size), "Upload-Metadata": metadata } });
+async function create(
+  user: TestUser,
+  name: string,
+  size: number,
+  title = name,
+  meta: Record<string, string> = {},
+): Promise<{ id: string; res: Response }> {
+  const metadata = Object.entries({ filename: name, title, ...meta })
+    .map(([k, v]) => `${k} ${b64(v)}`)
+    .join(",");
+  const res = await http("/api/uploads", {
+    method: "POST",
+    cookie: user.cookie,
+    headers: { ...TUS, "Upload-Length": String(size), "Upload-Metadata": metadata },
+  });
   expect(res.status).toBe(201);
   return { id: path.basename(res.headers.get("location")!), res };
 }
 
 function patch(user: TestUser, id: string, offset: number, body: BodyInit, headers: Record<string, string> = {}) {
-  return http(`/api/uploads/${id}`, { method: "PATCH", cookie: user.cookie, headers: { ...TUS, "Upload-Offset": String(offset), "Content-Type": "application/offset+octet-stream", ...headers }, body });
+  return http(`/api/uploads/${id}`, {
+    method: "PATCH",
+    cookie: user.cookie,
+    headers: { ...TUS, "Upload-Offset": String(offset), "Content-Type": "application/offset+octet-stream", ...headers },
+    body,
+  });
 }
 
-const head = (user: TestUser | null, id: string, headers: Record<string, string> = TUS) => http(`/api/uploads/${id}`, { method: "HEAD", cookie: user?.cookie, headers });
+const head = (user: TestUser | null, id: string, headers: Record<string, string> = TUS) =>
+  http(`/api/uploads/${id}`, { method: "HEAD", cookie: user?.cookie, headers });
 
 async function waitReady(id: string, cookie: string) {
-  return waitFor(async () => {
-    const { recording } = (await (await http(`/api/recordings/${id}`, { cookie })).json()) as { recording: { state: string } };
-    return recording.state !== "processing" ? recording : null;
-  }, 45_000, 300);
+  return waitFor(
+    async () => {
+      const { recording } = (await (await http(`/api/recordings/${id}`, { cookie })).json()) as { recording: { state: string } };
+      return recording.state !== "processing" ? recording : null;
+    },
+    45_000,
+    300,
+  );
 }
 
 beforeAll(async () => {
   [builder, builder2] = await Promise.all([createUser("builder"), createUser("builder")]);
   const p = path.join(work, "clip.mp4");
-  execFileSync("/usr/bin/ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-f", "lavfi", "-i", "testsrc=duration=3:size=320x240:rate=25", "-pix_fmt", "yuv420p", "-c:v", "libx264", "-movflags", "+faststart", p]);
+  execFileSync("/usr/bin/ffmpeg", [
+    "-hide_banner",
+    "-loglevel",
+    "error",
+    "-y",
+    "-f",
+    "lavfi",
+    "-i",
+    "testsrc=duration=3:size=320x240:rate=25",
+    "-pix_fmt",
+    "yuv420p",
+    "-c:v",
+    "libx264",
+    "-movflags",
+    "+faststart",
+    p,
+  ]);
   clip = fs.readFileSync(p);
 });
 
@@ -68,7 +106,11 @@ describe("tus 1.0.0", () => {
 
   it("answers an unsupported or missing Tus-Resumable with 412 and Tus-Version, and processes nothing", async () => {
     for (const headers of [{ "Tus-Resumable": "0.2.2" }, {}] as Record<string, string>[]) {
-      const res = await http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { ...headers, "Upload-Length": "10", "Upload-Metadata": `filename ${b64("v.mp4")}` } });
+      const res = await http("/api/uploads", {
+        method: "POST",
+        cookie: builder.cookie,
+        headers: { ...headers, "Upload-Length": "10", "Upload-Metadata": `filename ${b64("v.mp4")}` },
+      });
       expect(res.status).toBe(412);
       expect(res.headers.get("tus-version")).toBe("1.0.0");
       expect(await res.text()).toMatch(/1\.0\.0/);
@@ -87,11 +129,20 @@ describe("tus 1.0.0", () => {
       expect(res.status).toBe(415);
       expect(await res.text()).toMatch(/application\/offset\+octet-stream/);
     }
-    const bare = await http(`/api/uploads/${id}`, { method: "PATCH", cookie: builder.cookie, headers: { ...TUS, "Upload-Offset": "0" }, body: "0123456789" });
+    const bare = await http(`/api/uploads/${id}`, {
+      method: "PATCH",
+      cookie: builder.cookie,
+      headers: { ...TUS, "Upload-Offset": "0" },
+      body: "0123456789",
+    });
     expect(bare.status).toBe(415);
     expect(await receivedBytes(id)).toBe(0);
 
-    const deferred = await http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { ...TUS, "Upload-Defer-Length": "1", "Upload-Metadata": `filename ${b64("d.mp4")}` } });
+    const deferred = await http("/api/uploads", {
+      method: "POST",
+      cookie: builder.cookie,
+      headers: { ...TUS, "Upload-Defer-Length": "1", "Upload-Metadata": `filename ${b64("d.mp4")}` },
+    });
     expect(deferred.status).toBe(400);
     expect(await deferred.text()).toMatch(/size/);
   });
@@ -113,7 +164,13 @@ describe("tus 1.0.0", () => {
     });
     const res2 = await fetch(new URL(`/api/uploads/${id}`, BASE_URL), {
       method: "PATCH",
-      headers: { ...TUS, Cookie: builder.cookie, Origin: BASE_URL, "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream" },
+      headers: {
+        ...TUS,
+        Cookie: builder.cookie,
+        Origin: BASE_URL,
+        "Upload-Offset": "0",
+        "Content-Type": "application/offset+octet-stream",
+      },
       body: chunked,
       duplex: "half",
     } as RequestInit);
@@ -146,7 +203,17 @@ describe("tus 1.0.0", () => {
 
   it("takes bytes with the creation request as it advertises (creation-with-upload), a part or the whole file", async () => {
     const post = (name: string, body: BodyInit) =>
-      http("/api/uploads", { method: "POST", cookie: builder.cookie, headers: { ...TUS, "Upload-Length": String(clip.length), "Upload-Metadata": `filename ${b64(name)}`, "Content-Type": "application/offset+octet-stream" }, body });
+      http("/api/uploads", {
+        method: "POST",
+        cookie: builder.cookie,
+        headers: {
+          ...TUS,
+          "Upload-Length": String(clip.length),
+          "Upload-Metadata": `filename ${b64(name)}`,
+          "Content-Type": "application/offset+octet-stream",
+        },
+        body,
+      });
     const part = await post("part.mp4", new Uint8Array(clip.subarray(0, 1000)));
     expect(part.status).toBe(201);
     expect(part.headers.get("upload-offset")).toBe("1000");
@@ -215,7 +282,9 @@ function fileQueryOf(file: File, fp: FileFingerprint, only: "both" | "lastModifi
 
 describe("continuing an upload from another browser", () => {
   const find = (user: TestUser, q: string) => http(`/api/uploads?${q}`, { cookie: user.cookie });
-  const found = async (user: TestUser, q: string) => ((await (await find(user, q)).json()) as { unfinished: { id: string; received: number; title: string; expiresAt: string }[] }).unfinished;
+  const found = async (user: TestUser, q: string) =>
+    ((await (await find(user, q)).json()) as { unfinished: { id: string; received: number; title: string; expiresAt: string }[] })
+      .unfinished;
 
   it("finds the person's unfinished upload by file name, size and fingerprint (with the details given when it began), and nobody else's", async () => {
     const name = `long-take-${Date.now()}.mp4`;
@@ -229,8 +298,15 @@ describe("continuing an upload from another browser", () => {
     expect(mine[0]).toMatchObject({ id, received: 400, title: "Head gasket retorque, pass 2" });
     expect(Date.parse(mine[0].expiresAt)).toBeGreaterThan(Date.now() + (UPLOAD_EXPIRY_DAYS - 1) * DAY);
     // The same file copied to another machine keeps its bytes but may get a new time: the sample decides.
-    expect(await found(builder, fileQueryOf(new File([file], name, { lastModified: Date.now() }), { ...fp, lastModified: String(Date.now()) }))).toHaveLength(1);
-    expect(await found(builder, new URLSearchParams({ fileName: name, size: "999", lastModified: fp.lastModified, sample: fp.sample! }).toString())).toHaveLength(0);
+    expect(
+      await found(builder, fileQueryOf(new File([file], name, { lastModified: Date.now() }), { ...fp, lastModified: String(Date.now()) })),
+    ).toHaveLength(1);
+    expect(
+      await found(
+        builder,
+        new URLSearchParams({ fileName: name, size: "999", lastModified: fp.lastModified, sample: fp.sample! }).toString(),
+      ),
+    ).toHaveLength(0);
     expect(await found(builder2, fileQueryOf(file, fp))).toHaveLength(0);
     const bad = await find(builder, "fileName=x&size=-4");
     expect(bad.status).toBe(422);
@@ -304,7 +380,11 @@ describe("Range (RFC 9110 §14) on media", () => {
 
   it("ignores Range on HEAD: the whole file's headers, no Content-Range", async () => {
     for (const route of ["media", "original"]) {
-      const res = await http(`/api/recordings/${recId}/${route}`, { method: "HEAD", cookie: builder.cookie, headers: { Range: "bytes=0-99" } });
+      const res = await http(`/api/recordings/${recId}/${route}`, {
+        method: "HEAD",
+        cookie: builder.cookie,
+        headers: { Range: "bytes=0-99" },
+      });
       expect(res.status).toBe(200);
       expect(res.headers.get("content-length")).toBe(String(clip.length));
       expect(res.headers.get("content-range")).toBeNull();

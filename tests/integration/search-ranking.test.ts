@@ -10,7 +10,15 @@ import { db } from "~/lib/db.server";
 import { HL_POST, HL_PRE } from "~/lib/search/highlight";
 import { createUser, http, waitFor } from "../support/app";
 
-type Hit = { id: string; kind: string; title: string; url: string; t?: number; readings?: { id: string; text: string; url: string; t?: number }[]; moreReadings?: number };
+type Hit = {
+  id: string;
+  kind: string;
+  title: string;
+  url: string;
+  t?: number;
+  readings?: { id: string; text: string; url: string; t?: number }[];
+  moreReadings?: number;
+};
 
 const DEMO_RECORDING = "5eed0000-0000-4000-8000-00000000c1a9";
 const STUDS_SLUG = "head-stud-installation-and-torque-sequence";
@@ -45,11 +53,16 @@ describe("search ranking and landing", () => {
     expect(procedure, seen).toBeGreaterThanOrEqual(0);
     expect(spec, seen).toBeGreaterThanOrEqual(0);
     // Nothing of a lower kind (readings, marks, recordings, test records) comes before either.
-    expect(hits.slice(0, Math.max(procedure, spec)).every((h) => TOP_KINDS.has(h.kind)), seen).toBe(true);
+    expect(
+      hits.slice(0, Math.max(procedure, spec)).every((h) => TOP_KINDS.has(h.kind)),
+      seen,
+    ).toBe(true);
     expect(spec, seen).toBeLessThan(5);
     // Of the demo procedure's specs, the one about torque with moly comes first (the procedure's
     // tags do not give every spec all the words).
-    expect(plain(hits.find((h) => h.kind === "spec" && h.url.startsWith(`/procedures/${STUDS_SLUG}#`))!.title)).toBe("Head stud final torque");
+    expect(plain(hits.find((h) => h.kind === "spec" && h.url.startsWith(`/procedures/${STUDS_SLUG}#`))!.title)).toBe(
+      "Head stud final torque",
+    );
     // The spec hit opens the procedure at the spec.
     expect(hits[spec].url).toBe(`/procedures/${STUDS_SLUG}#spec-studs-final`);
   });
@@ -61,7 +74,10 @@ describe("search ranking and landing", () => {
     const seen = JSON.stringify(hits.slice(0, 8).map((h) => [h.kind, plain(h.title)]));
     const at = hits.findIndex((h) => h.kind === "procedure" && h.url.startsWith(`/procedures/${STUDS_SLUG}`));
     expect(at, seen).toBeGreaterThanOrEqual(0);
-    expect(hits.slice(0, at).every((h) => TOP_KINDS.has(h.kind)), seen).toBe(true);
+    expect(
+      hits.slice(0, at).every((h) => TOP_KINDS.has(h.kind)),
+      seen,
+    ).toBe(true);
     // Before it at most the head stud procedures and specs that hold the same words.
     expect(at, seen).toBeLessThanOrEqual(2);
   });
@@ -90,24 +106,80 @@ describe("search ranking and landing", () => {
     const term = word();
     const slug = `p-${randomUUID().slice(0, 8)}`;
     await db().transaction(async (tx) => {
-      const [p] = await tx.insert(procedures).values({ slug, title: `Rod bolt stretch ${term}`, area: "assembly", createdBy: builder.id }).returning();
-      const doc = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: `Stretch the rod bolts to the figure, ${term} on the threads.` }] }] };
+      const [p] = await tx
+        .insert(procedures)
+        .values({ slug, title: `Rod bolt stretch ${term}`, area: "assembly", createdBy: builder.id })
+        .returning();
+      const doc = {
+        type: "doc",
+        content: [{ type: "paragraph", content: [{ type: "text", text: `Stretch the rod bolts to the figure, ${term} on the threads.` }] }],
+      };
       const [rev] = await tx
         .insert(procedureRevisions)
-        .values({ procedureId: p.id, number: 1, state: "published", title: `Rod bolt stretch ${term}`, summary: "", area: "assembly", tags: [`tag ${term}`], doc, authorId: builder.id, publishedAt: new Date() })
+        .values({
+          procedureId: p.id,
+          number: 1,
+          state: "published",
+          title: `Rod bolt stretch ${term}`,
+          summary: "",
+          area: "assembly",
+          tags: [`tag ${term}`],
+          doc,
+          authorId: builder.id,
+          publishedAt: new Date(),
+        })
         .returning();
-      await tx.insert(procedureSpecs).values({ revisionId: rev.id, procedureId: p.id, specKey: "stretch", position: 0, label: `Rod bolt stretch ${term}`, quantity: "length", unit: "mm", min: 0.15, max: 0.17, siUnit: "m" });
+      await tx
+        .insert(procedureSpecs)
+        .values({
+          revisionId: rev.id,
+          procedureId: p.id,
+          specKey: "stretch",
+          position: 0,
+          label: `Rod bolt stretch ${term}`,
+          quantity: "length",
+          unit: "mm",
+          min: 0.15,
+          max: 0.17,
+          siUnit: "m",
+        });
     });
-    const [rec] = await db().insert(recordings).values({ title: `Rod bolt bench ${term}`, originalName: "clip.mp4", originalSize: 1000, state: "ready", uploadedBy: qc.id, durationS: 120 }).returning();
+    const [rec] = await db()
+      .insert(recordings)
+      .values({
+        title: `Rod bolt bench ${term}`,
+        originalName: "clip.mp4",
+        originalSize: 1000,
+        state: "ready",
+        uploadedBy: qc.id,
+        durationS: 120,
+      })
+      .returning();
     const rows = await db()
       .insert(readings)
-      .values(Array.from({ length: 8 }, (_, i) => ({ recordingId: rec.id, quantity: "length", label: `rod bolt stretch ${i + 1} ${term}`, valueEntered: 0.16, unitEntered: "mm", valueSi: 0.00016, t: 10 + i, createdBy: qc.id })))
+      .values(
+        Array.from({ length: 8 }, (_, i) => ({
+          recordingId: rec.id,
+          quantity: "length",
+          label: `rod bolt stretch ${i + 1} ${term}`,
+          valueEntered: 0.16,
+          unitEntered: "mm",
+          valueSi: 0.00016,
+          t: 10 + i,
+          createdBy: qc.id,
+        })),
+      )
       .returning();
     await indexed();
 
     const hits = await search(builder.cookie, `rod bolt stretch ${term}`);
     // The procedure and its spec, then the readings (all four words), then the recording (“stretch” missing).
-    expect(hits.slice(0, 2).map((h) => h.kind).sort()).toEqual(["procedure", "spec"]);
+    expect(
+      hits
+        .slice(0, 2)
+        .map((h) => h.kind)
+        .sort(),
+    ).toEqual(["procedure", "spec"]);
     expect(hits.slice(2).map((h) => h.kind)).toEqual(["reading", "recording"]);
     expect(hits.find((h) => h.kind === "spec")!.url).toBe(`/procedures/${slug}#spec-stretch`);
     const group = hits[2];
@@ -115,10 +187,18 @@ describe("search ranking and landing", () => {
     expect(group.readings).toHaveLength(5);
     expect(group.moreReadings).toBe(3);
     expect(group.readings!.map((r) => r.id)).toEqual(rows.slice(0, 5).map((r) => r.id)); // in the recording's order
-    expect(group.readings![0]).toEqual({ id: rows[0].id, t: 10, url: `/recordings/${rec.id}?t=10#reading-${rows[0].id}`, text: expect.stringContaining(`${HL_PRE}${term}${HL_POST}`) });
+    expect(group.readings![0]).toEqual({
+      id: rows[0].id,
+      t: 10,
+      url: `/recordings/${rec.id}?t=10#reading-${rows[0].id}`,
+      text: expect.stringContaining(`${HL_PRE}${term}${HL_POST}`),
+    });
 
     // The procedure's tag filters its specs too.
-    expect((await search(builder.cookie, "", `&tag=${encodeURIComponent(`tag ${term}`)}`)).map((h) => h.kind).sort()).toEqual(["procedure", "spec"]);
+    expect((await search(builder.cookie, "", `&tag=${encodeURIComponent(`tag ${term}`)}`)).map((h) => h.kind).sort()).toEqual([
+      "procedure",
+      "spec",
+    ]);
 
     // A reading deleted: its recording is rebuilt (the trigger queues the recording), the list shrinks.
     await db().delete(readings).where(eq(readings.id, rows[0].id));

@@ -7,7 +7,10 @@ import { auditLog, marks, recordings, searchOutbox, searchWordGroups } from "~/d
 import { db } from "~/lib/db.server";
 import { createUser, http, waitFor } from "../support/app";
 
-const word = () => `zw${randomUUID().replace(/[-0-9]/g, "").slice(0, 10)}`; // letters only, no other test's word
+const word = () =>
+  `zw${randomUUID()
+    .replace(/[-0-9]/g, "")
+    .slice(0, 10)}`; // letters only, no other test's word
 
 async function indexed() {
   await waitFor(async () => {
@@ -18,7 +21,17 @@ async function indexed() {
 
 async function markSaying(text: string) {
   const owner = await createUser("qc");
-  const [rec] = await db().insert(recordings).values({ title: `Words test ${randomUUID().slice(0, 6)}`, originalName: "clip.mp4", originalSize: 1000, state: "ready", uploadedBy: owner.id, durationS: 60 }).returning();
+  const [rec] = await db()
+    .insert(recordings)
+    .values({
+      title: `Words test ${randomUUID().slice(0, 6)}`,
+      originalName: "clip.mp4",
+      originalSize: 1000,
+      state: "ready",
+      uploadedBy: owner.id,
+      durationS: 60,
+    })
+    .returning();
   const [mark] = await db().insert(marks).values({ recordingId: rec.id, tStart: 12, text, createdBy: owner.id }).returning();
   return mark;
 }
@@ -60,7 +73,10 @@ describe("search words", () => {
     expect(await groupWith(a)).toBeUndefined();
     await indexed();
     expect(await findsMark(apprentice.cookie, a, mark.id)).toBe(false);
-    const [removal] = await db().select().from(auditLog).where(sql`${auditLog.entity} = 'search_words' and ${auditLog.entityId} = ${group.id} and ${auditLog.action} = 'remove'`);
+    const [removal] = await db()
+      .select()
+      .from(auditLog)
+      .where(sql`${auditLog.entity} = 'search_words' and ${auditLog.entityId} = ${group.id} and ${auditLog.action} = 'remove'`);
     expect(removal.actorId).toBe(editor.id);
     expect(removal.detail).toEqual({ words: [a, b] });
   });
@@ -101,7 +117,12 @@ describe("search words", () => {
     expect(now.updatedBy).toBe(second.id);
     // The page now carries the group's current time: saving again replaces it on purpose.
     expect(html).toContain(`name="loadedAt" value="${now.updatedAt.getTime()}"`);
-    const again = await post(first.cookie, { intent: "change", id: group.id, loadedAt: String(now.updatedAt.getTime()), words: `${a}, ${d}` });
+    const again = await post(first.cookie, {
+      intent: "change",
+      id: group.id,
+      loadedAt: String(now.updatedAt.getTime()),
+      words: `${a}, ${d}`,
+    });
     expect(again.status).toBe(302);
     expect((await groupWith(a)).words).toEqual([a, d]);
   });

@@ -12,7 +12,11 @@ const DOC = { type: "doc", content: [{ type: "paragraph", content: [{ type: "tex
 
 /** The cells of a CSV line whose cells hold no comma, quote or line break (all of this file's values). */
 const cellsOf = (line: string) => line.split(",");
-const linesOf = (text: string) => text.replace(/^\uFEFF/, "").split("\n").filter(Boolean);
+const linesOf = (text: string) =>
+  text
+    .replace(/^\uFEFF/, "")
+    .split("\n")
+    .filter(Boolean);
 
 describe("CSV exports: text a spreadsheet would run as a formula is written as text", () => {
   const tag = randomUUID().slice(0, 8);
@@ -21,19 +25,24 @@ describe("CSV exports: text a spreadsheet would run as a formula is written as t
 
   beforeAll(async () => {
     builder = await createUser("builder", { name: `@Builder ${tag}` });
-    const [rec] = await db().insert(recordings).values({ title: `CSV ${tag}`, originalName: "c.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: builder.id }).returning();
+    const [rec] = await db()
+      .insert(recordings)
+      .values({ title: `CSV ${tag}`, originalName: "c.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: builder.id })
+      .returning();
     recordingId = rec.id;
-    await db().insert(readings).values({
-      recordingId,
-      quantity: "torque",
-      label: "=1+2",
-      valueEntered: -12.5,
-      unitEntered: "N.m",
-      valueSi: -12.5,
-      conditions: { lube: "+SUM(A1:A3)", tool: "\tcalc", pass: "-2+3", note: "@SUM(A1)" },
-      t: 4,
-      createdBy: builder.id,
-    });
+    await db()
+      .insert(readings)
+      .values({
+        recordingId,
+        quantity: "torque",
+        label: "=1+2",
+        valueEntered: -12.5,
+        unitEntered: "N.m",
+        valueSi: -12.5,
+        conditions: { lube: "+SUM(A1:A3)", tool: "\tcalc", pass: "-2+3", note: "@SUM(A1)" },
+        t: 4,
+        createdBy: builder.id,
+      });
   });
 
   it("recording readings: labels, lube, tool, pass, note and names get a leading quote; the negative value stays a number", async () => {
@@ -43,7 +52,14 @@ describe("CSV exports: text a spreadsheet would run as a formula is written as t
     const [head, row, ...rest] = linesOf(await res.text());
     expect(rest).toEqual([]);
     const cell = Object.fromEntries(cellsOf(head).map((h, i) => [h, cellsOf(row)[i]]));
-    expect(cell).toMatchObject({ label: "'=1+2", lube: "'+SUM(A1:A3)", tool: "'\tcalc", pass: "'-2+3", note: "'@SUM(A1)", entered_by: `'@Builder ${tag}` });
+    expect(cell).toMatchObject({
+      label: "'=1+2",
+      lube: "'+SUM(A1:A3)",
+      tool: "'\tcalc",
+      pass: "'-2+3",
+      note: "'@SUM(A1)",
+      entered_by: `'@Builder ${tag}`,
+    });
     expect(cell.value).toBe("-12.5");
     expect(cell.value_si).toBe("-12.5");
     expect(cell.time_s).toBe("4");
@@ -51,18 +67,60 @@ describe("CSV exports: text a spreadsheet would run as a formula is written as t
 
   it("test records: title, work order, serial, spec label, reading note and the filer's name get a leading quote; numbers do not", async () => {
     const qc = await createUser("qc", { name: `-QC ${tag}` });
-    const [p] = await db().insert(procedures).values({ slug: `csv-${tag}`, title: `CSV check ${tag}`, area: "block" }).returning();
-    const [rev] = await db().insert(procedureRevisions).values({ procedureId: p.id, number: 1, state: "published", title: p.title, area: "block", doc: DOC, publishedAt: new Date() }).returning();
+    const [p] = await db()
+      .insert(procedures)
+      .values({ slug: `csv-${tag}`, title: `CSV check ${tag}`, area: "block" })
+      .returning();
+    const [rev] = await db()
+      .insert(procedureRevisions)
+      .values({ procedureId: p.id, number: 1, state: "published", title: p.title, area: "block", doc: DOC, publishedAt: new Date() })
+      .returning();
     await db().update(procedures).set({ publishedRevisionId: rev.id, publishedAt: new Date() }).where(eq(procedures.id, p.id));
     const [spec] = await db()
       .insert(procedureSpecs)
-      .values({ revisionId: rev.id, procedureId: p.id, specKey: "s1", position: 0, label: "+Deck flatness", quantity: "length", unit: "mm", min: -0.05, max: 0.05, siUnit: "m", minSi: -0.00005, maxSi: 0.00005 })
+      .values({
+        revisionId: rev.id,
+        procedureId: p.id,
+        specKey: "s1",
+        position: 0,
+        label: "+Deck flatness",
+        quantity: "length",
+        unit: "mm",
+        min: -0.05,
+        max: 0.05,
+        siUnit: "m",
+        minSi: -0.00005,
+        maxSi: 0.00005,
+      })
       .returning();
     const [rec] = await db()
       .insert(testRecords)
-      .values({ procedureId: p.id, revisionId: rev.id, title: "=HYPERLINK(x)", workOrder: `@WO${tag}`, engineSerial: "+44-1", testedOn: "2026-03-02", verdict: "out", createdBy: qc.id })
+      .values({
+        procedureId: p.id,
+        revisionId: rev.id,
+        title: "=HYPERLINK(x)",
+        workOrder: `@WO${tag}`,
+        engineSerial: "+44-1",
+        testedOn: "2026-03-02",
+        verdict: "out",
+        createdBy: qc.id,
+      })
       .returning();
-    await db().insert(testRecordReadings).values({ recordId: rec.id, version: 0, specId: spec.id, specKey: "s1", position: 0, valueEntered: -0.08, unitEntered: "mm", valueSi: -0.00008, valueInSpecUnit: -0.08, verdict: "below", note: "=2+5" });
+    await db()
+      .insert(testRecordReadings)
+      .values({
+        recordId: rec.id,
+        version: 0,
+        specId: spec.id,
+        specKey: "s1",
+        position: 0,
+        valueEntered: -0.08,
+        unitEntered: "mm",
+        valueSi: -0.00008,
+        valueInSpecUnit: -0.08,
+        verdict: "below",
+        note: "=2+5",
+      });
 
     const res = await http(`/test-records/export.csv?workOrder=WO${tag}`, { cookie: qc.cookie });
     expect(res.status).toBe(200);
@@ -78,7 +136,13 @@ describe("CSV exports: text a spreadsheet would run as a formula is written as t
       filed_by: `'-QC ${tag}`,
       tested_on: "2026-03-02",
     });
-    expect([cell.spec_min, cell.spec_max, cell.reading, cell.reading_in_spec_unit, cell.revision]).toEqual(["-0.05", "0.05", "-0.08", "-0.08", "1"]);
+    expect([cell.spec_min, cell.spec_max, cell.reading, cell.reading_in_spec_unit, cell.revision]).toEqual([
+      "-0.05",
+      "0.05",
+      "-0.08",
+      "-0.08",
+      "1",
+    ]);
   });
 });
 
@@ -99,16 +163,33 @@ describe("a never-published draft's title and address reach only those who may r
     editor = await createUser("editor");
     // The roles that may not read someone else's draft: another builder, QC, an apprentice.
     outsiders = [await createUser("builder"), await createUser("qc"), await createUser("apprentice")];
-    const [draft] = await db().insert(procedures).values({ slug: secretSlug, title: secretTitle, area: "heads", createdBy: author.id }).returning();
+    const [draft] = await db()
+      .insert(procedures)
+      .values({ slug: secretSlug, title: secretTitle, area: "heads", createdBy: author.id })
+      .returning();
     draftId = draft.id;
-    await db().insert(procedureRevisions).values({ procedureId: draft.id, number: 1, state: "draft", title: secretTitle, area: "heads", doc: DOC, authorId: author.id });
-    const [pub] = await db().insert(procedures).values({ slug: `zephyr-published-${tag}`, title: `Zephyr valve lash ${tag}`, area: "heads" }).returning();
+    await db()
+      .insert(procedureRevisions)
+      .values({ procedureId: draft.id, number: 1, state: "draft", title: secretTitle, area: "heads", doc: DOC, authorId: author.id });
+    const [pub] = await db()
+      .insert(procedures)
+      .values({ slug: `zephyr-published-${tag}`, title: `Zephyr valve lash ${tag}`, area: "heads" })
+      .returning();
     publishedId = pub.id;
-    const [rev] = await db().insert(procedureRevisions).values({ procedureId: pub.id, number: 1, state: "published", title: pub.title, area: "heads", doc: DOC, publishedAt: new Date() }).returning();
+    const [rev] = await db()
+      .insert(procedureRevisions)
+      .values({ procedureId: pub.id, number: 1, state: "published", title: pub.title, area: "heads", doc: DOC, publishedAt: new Date() })
+      .returning();
     await db().update(procedures).set({ publishedRevisionId: rev.id, publishedAt: new Date() }).where(eq(procedures.id, pub.id));
-    const [rec] = await db().insert(recordings).values({ title: `Cam timing ${tag}`, originalName: "t.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: author.id }).returning();
+    const [rec] = await db()
+      .insert(recordings)
+      .values({ title: `Cam timing ${tag}`, originalName: "t.mp4", originalSize: 1, state: "ready", durationS: 60, uploadedBy: author.id })
+      .returning();
     recordingId = rec.id;
-    const [m] = await db().insert(marks).values({ recordingId, tStart: 2, text: "Cam timing set", procedureId: draftId, createdBy: author.id }).returning();
+    const [m] = await db()
+      .insert(marks)
+      .values({ recordingId, tStart: 2, text: "Cam timing set", procedureId: draftId, createdBy: author.id })
+      .returning();
     markId = m.id;
   });
 
@@ -120,10 +201,15 @@ describe("a never-published draft's title and address reach only those who may r
       expect(res.status).toBe(200);
       const text = await res.text();
       expect(leaks(text), u.role).toBe(false);
-      expect((JSON.parse(text) as { results: { id: string }[] }).results.map((r) => r.id), u.role).toEqual([publishedId]);
+      expect(
+        (JSON.parse(text) as { results: { id: string }[] }).results.map((r) => r.id),
+        u.role,
+      ).toEqual([publishedId]);
     }
     for (const u of [author, editor]) {
-      const body = (await (await http(`/api/procedures/titles?q=${tag}`, { cookie: u.cookie })).json()) as { results: { id: string; title: string; slug: string }[] };
+      const body = (await (await http(`/api/procedures/titles?q=${tag}`, { cookie: u.cookie })).json()) as {
+        results: { id: string; title: string; slug: string }[];
+      };
       expect(body.results.map((r) => r.id).sort(), u.role).toEqual([draftId, publishedId].sort());
       expect(body.results.find((r) => r.id === draftId)).toMatchObject({ title: secretTitle, slug: secretSlug });
     }
@@ -158,13 +244,18 @@ describe("a never-published draft's title and address reach only those who may r
       const mark = (JSON.parse(oneText) as { mark: { procedureTitle: string | null; procedureSlug: string | null } }).mark;
       expect(mark).toMatchObject({ procedureTitle: "a procedure not yet published", procedureSlug: null });
     }
-    const seen = (await (await http(`/api/recordings/${recordingId}/marks/${markId}`, { cookie: author.cookie })).json()) as { mark: { procedureTitle: string; procedureSlug: string } };
+    const seen = (await (await http(`/api/recordings/${recordingId}/marks/${markId}`, { cookie: author.cookie })).json()) as {
+      mark: { procedureTitle: string; procedureSlug: string };
+    };
     expect(seen.mark).toMatchObject({ procedureTitle: secretTitle, procedureSlug: secretSlug });
 
     // Pointing a mark at it: refused (422) to every staff role that may not read it, like an
     // unknown procedure; the apprentice may not make marks at all.
     for (const u of outsiders) {
-      const res = await http(`/api/recordings/${recordingId}/marks`, { cookie: u.cookie, json: { tStart: 5, text: "Linked", procedureId: draftId } });
+      const res = await http(`/api/recordings/${recordingId}/marks`, {
+        cookie: u.cookie,
+        json: { tStart: 5, text: "Linked", procedureId: draftId },
+      });
       if (u.role === "apprentice") {
         expect(res.status).toBe(403);
         continue;
@@ -172,16 +263,29 @@ describe("a never-published draft's title and address reach only those who may r
       expect(res.status, u.role).toBe(422);
       const body = (await res.json()) as { issues: { path: string }[] };
       expect(body.issues.map((i) => i.path)).toEqual(["procedureId"]);
-      const unknown = await http(`/api/recordings/${recordingId}/marks`, { cookie: u.cookie, json: { tStart: 5, text: "Linked", procedureId: randomUUID() } });
+      const unknown = await http(`/api/recordings/${recordingId}/marks`, {
+        cookie: u.cookie,
+        json: { tStart: 5, text: "Linked", procedureId: randomUUID() },
+      });
       expect(await unknown.json()).toEqual(body);
       // Their own mark: linking it to the published one is fine, to the draft is not.
-      const own = await http(`/api/recordings/${recordingId}/marks`, { cookie: u.cookie, json: { tStart: 6, text: "Own", procedureId: publishedId } });
+      const own = await http(`/api/recordings/${recordingId}/marks`, {
+        cookie: u.cookie,
+        json: { tStart: 6, text: "Own", procedureId: publishedId },
+      });
       expect(own.status, u.role).toBe(201);
       const ownId = ((await own.json()) as { mark: { id: string } }).mark.id;
-      const patched = await http(`/api/recordings/${recordingId}/marks/${ownId}`, { method: "PATCH", cookie: u.cookie, json: { procedureId: draftId } });
+      const patched = await http(`/api/recordings/${recordingId}/marks/${ownId}`, {
+        method: "PATCH",
+        cookie: u.cookie,
+        json: { procedureId: draftId },
+      });
       expect(patched.status, u.role).toBe(422);
     }
-    const byAuthor = await http(`/api/recordings/${recordingId}/marks`, { cookie: author.cookie, json: { tStart: 7, text: "Mine", procedureId: draftId } });
+    const byAuthor = await http(`/api/recordings/${recordingId}/marks`, {
+      cookie: author.cookie,
+      json: { tStart: 7, text: "Mine", procedureId: draftId },
+    });
     expect(byAuthor.status).toBe(201);
   });
 });

@@ -22,7 +22,12 @@ const dataDir = path.join(ROOT, ".data", name);
 const stateFile = path.join(dataDir, "start.json");
 const logFile = path.join(dataDir, "npm-start.log");
 
-type State = { pid: number; pgDir: string; ports: { app: number; db: number; smtp: number; meili: number }; children: Record<string, { pid: number; file: string }> };
+type State = {
+  pid: number;
+  pgDir: string;
+  ports: { app: number; db: number; smtp: number; meili: number };
+  children: Record<string, { pid: number; file: string }>;
+};
 const readState = (): State | null => {
   try {
     return JSON.parse(fs.readFileSync(stateFile, "utf8")) as State;
@@ -61,7 +66,10 @@ function groupOf(pid: number): number | null {
 const alive = (pid: number) => groupOf(pid) !== null;
 /** The live processes of a process group (a supervised child leads one: tsx and its script). */
 const groupMembers = (pgid: number) =>
-  fs.readdirSync("/proc").filter((p) => /^\d+$/.test(p) && groupOf(Number(p)) === pgid).map(Number);
+  fs
+    .readdirSync("/proc")
+    .filter((p) => /^\d+$/.test(p) && groupOf(Number(p)) === pgid)
+    .map(Number);
 const postmasterPid = (pgDir: string) => {
   try {
     return Number(fs.readFileSync(path.join(pgDir, "postmaster.pid"), "utf8").split("\n")[0]);
@@ -83,7 +91,8 @@ function npmStart(): ChildProcess {
   return child;
 }
 const logTail = () => (fs.existsSync(logFile) ? fs.readFileSync(logFile, "utf8").split("\n").slice(-40).join("\n") : "(no log)");
-const exited = (child: ChildProcess) => (child.exitCode !== null || child.signalCode !== null ? Promise.resolve() : new Promise<void>((r) => child.once("exit", () => r())));
+const exited = (child: ChildProcess) =>
+  child.exitCode !== null || child.signalCode !== null ? Promise.resolve() : new Promise<void>((r) => child.once("exit", () => r()));
 
 /**
  * Waits until this start's supervisor has its app and worker running (not ones a killed start
@@ -91,11 +100,20 @@ const exited = (child: ChildProcess) => (child.exitCode !== null || child.signal
  */
 async function healthy(timeoutMs = 180_000, notFrom: State | null = null) {
   try {
-    await waitFor(async () => {
-      const s = readState();
-      if (!s?.children.app || !s.children.worker || (notFrom && (s.pid === notFrom.pid || s.children.app.pid === notFrom.children.app.pid))) return false;
-      return (await fetch(`http://127.0.0.1:${ports.app}/healthz`)).status === 200;
-    }, timeoutMs, 500);
+    await waitFor(
+      async () => {
+        const s = readState();
+        if (
+          !s?.children.app ||
+          !s.children.worker ||
+          (notFrom && (s.pid === notFrom.pid || s.children.app.pid === notFrom.children.app.pid))
+        )
+          return false;
+        return (await fetch(`http://127.0.0.1:${ports.app}/healthz`)).status === 200;
+      },
+      timeoutMs,
+      500,
+    );
   } catch (err) {
     throw new Error(`the app did not answer /healthz (${String(err)}); npm start said:\n${logTail()}`);
   }
@@ -103,12 +121,18 @@ async function healthy(timeoutMs = 180_000, notFrom: State | null = null) {
 
 async function signIn(email: string, password: string) {
   const origin = `http://127.0.0.1:${ports.app}`;
-  return fetch(`${origin}/signin`, { method: "POST", headers: { origin }, body: new URLSearchParams({ email, password, next: "/" }), redirect: "manual" });
+  return fetch(`${origin}/signin`, {
+    method: "POST",
+    headers: { origin },
+    body: new URLSearchParams({ email, password, next: "/" }),
+    redirect: "manual",
+  });
 }
 
 beforeAll(async () => {
   const buildDir = process.env.BENCHREEL_BUILD_DIR;
-  if (!buildDir || !fs.existsSync(path.join(buildDir, "server/index.js"))) throw new Error("run through `npm test`: it builds into BENCHREEL_BUILD_DIR, which this test reuses");
+  if (!buildDir || !fs.existsSync(path.join(buildDir, "server/index.js")))
+    throw new Error("run through `npm test`: it builds into BENCHREEL_BUILD_DIR, which this test reuses");
   const [app, db, smtp, meili] = await Promise.all([freePort(), freePort(), freePort(), freePort()]);
   ports = { app, db, smtp, meili };
   fs.mkdirSync(dataDir, { recursive: true });
@@ -169,7 +193,15 @@ describe("npm start after a hard stop", () => {
     // A row written through PostgreSQL before the kill.
     const pool = new pg.Pool({ connectionString: `postgres://postgres@127.0.0.1:${ports.db}/benchreel` });
     try {
-      await drizzle(pool).insert(users).values({ id: marker.id, email: marker.email, name: "Supervisor marker", role: "apprentice", passwordHash: await hashPassword(marker.password) });
+      await drizzle(pool)
+        .insert(users)
+        .values({
+          id: marker.id,
+          email: marker.email,
+          name: "Supervisor marker",
+          role: "apprentice",
+          passwordHash: await hashPassword(marker.password),
+        });
     } finally {
       await pool.end();
     }
@@ -204,10 +236,14 @@ describe("npm start after a hard stop", () => {
       const old = readState()!.children[label].pid;
       const members = groupMembers(old);
       process.kill(old, "SIGKILL");
-      const restarted = await waitFor(async () => {
-        const pid = readState()?.children[label]?.pid;
-        return pid && pid !== old && alive(pid) ? pid : null;
-      }, 30_000, 200).catch((err) => {
+      const restarted = await waitFor(
+        async () => {
+          const pid = readState()?.children[label]?.pid;
+          return pid && pid !== old && alive(pid) ? pid : null;
+        },
+        30_000,
+        200,
+      ).catch((err) => {
         throw new Error(`${label} was not started again (${String(err)}):\n${logTail()}`);
       });
       expect(restarted).not.toBe(old);

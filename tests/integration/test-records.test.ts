@@ -3,7 +3,18 @@
 import { randomUUID } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { auditLog, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecordAmendments, testRecordCalcs, testRecordReadings, testRecords } from "~/db/schema";
+import {
+  auditLog,
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  readings,
+  recordings,
+  testRecordAmendments,
+  testRecordCalcs,
+  testRecordReadings,
+  testRecords,
+} from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { createUser, http, waitFor, type TestUser } from "../support/app";
 
@@ -32,14 +43,33 @@ function parse(text: string, _opts: { columns: true; bom: true }): Record<string
   return body.map((r) => Object.fromEntries(head.map((h, i) => [h, r[i] ?? ""])));
 }
 
-type SpecDef = { key: string; label: string; quantity: string; unit: string; min: number | null; max: number | null; nominal?: number | null };
+type SpecDef = {
+  key: string;
+  label: string;
+  quantity: string;
+  unit: string;
+  min: number | null;
+  max: number | null;
+  nominal?: number | null;
+};
 const DOC = { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: "Measure and record." }] }] };
 
 async function publishRevision(procedureId: string, number: number, specs: SpecDef[]) {
-  await db().update(procedureRevisions).set({ state: "superseded", supersededAt: new Date() }).where(and(eq(procedureRevisions.procedureId, procedureId), eq(procedureRevisions.state, "published")));
+  await db()
+    .update(procedureRevisions)
+    .set({ state: "superseded", supersededAt: new Date() })
+    .where(and(eq(procedureRevisions.procedureId, procedureId), eq(procedureRevisions.state, "published")));
   const [rev] = await db()
     .insert(procedureRevisions)
-    .values({ procedureId, number, state: "published", title: `Bore check ${procedureId.slice(0, 6)}`, area: "block", doc: DOC, publishedAt: new Date() })
+    .values({
+      procedureId,
+      number,
+      state: "published",
+      title: `Bore check ${procedureId.slice(0, 6)}`,
+      area: "block",
+      doc: DOC,
+      publishedAt: new Date(),
+    })
     .returning();
   const rows = await db()
     .insert(procedureSpecs)
@@ -67,7 +97,10 @@ async function publishRevision(procedureId: string, number: number, specs: SpecD
 
 async function makeProcedure(specs: SpecDef[]) {
   const slug = `tr-test-${randomUUID().slice(0, 8)}`;
-  const [p] = await db().insert(procedures).values({ slug, title: `Bore check ${slug}`, area: "block" }).returning();
+  const [p] = await db()
+    .insert(procedures)
+    .values({ slug, title: `Bore check ${slug}`, area: "block" })
+    .returning();
   const { rev, specs: s } = await publishRevision(p.id, 1, specs);
   return { procedure: p, rev, specs: s };
 }
@@ -81,7 +114,15 @@ const BORE: SpecDef[] = [
 const workOrder = () => `LEW-24-${String(1000 + Math.floor(Math.random() * 8999))}`;
 
 function form(revisionId: string, extra: Record<string, string>) {
-  return { revisionId, title: "Bore finish after honing", workOrder: workOrder(), engineSerial: "LX23-0412", testedOn: new Date().toISOString().slice(0, 10), notes: "", ...extra };
+  return {
+    revisionId,
+    title: "Bore finish after honing",
+    workOrder: workOrder(),
+    engineSerial: "LX23-0412",
+    testedOn: new Date().toISOString().slice(0, 10),
+    notes: "",
+    ...extra,
+  };
 }
 
 /** Posts the form to the page it is on, as the browser does (/test-records/new?procedure=…). */
@@ -132,7 +173,10 @@ describe("test records", () => {
       expect(rec.verdict).toBe("incomplete");
     }
     const apprentice = await createUser("apprentice");
-    const res = await file(apprentice, form(fx.rev.id, { [`r.${fx.specs.bore.id}.0.value`]: "88.006", [`r.${fx.specs.bore.id}.0.unit`]: "mm" }));
+    const res = await file(
+      apprentice,
+      form(fx.rev.id, { [`r.${fx.specs.bore.id}.0.value`]: "88.006", [`r.${fx.specs.bore.id}.0.unit`]: "mm" }),
+    );
     expect(res.status).toBe(403);
     expect((await http("/test-records/new", { cookie: apprentice.cookie })).status).toBe(403);
   });
@@ -142,14 +186,23 @@ describe("test records", () => {
     const res = await file(
       qc,
       form(fx.rev.id, {
-        [`r.${b}.0.value`]: "88.004", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 1, 10 mm down, 0°",
-        [`r.${b}.1.value`]: "3.4655", [`r.${b}.1.unit`]: "in", [`r.${b}.1.note`]: "cyl 1, 10 mm down, 90°",
-        [`r.${fx.specs.gap.id}.0.value`]: "0.45", [`r.${fx.specs.gap.id}.0.unit`]: "mm",
+        [`r.${b}.0.value`]: "88.004",
+        [`r.${b}.0.unit`]: "mm",
+        [`r.${b}.0.note`]: "cyl 1, 10 mm down, 0°",
+        [`r.${b}.1.value`]: "3.4655",
+        [`r.${b}.1.unit`]: "in",
+        [`r.${b}.1.note`]: "cyl 1, 10 mm down, 90°",
+        [`r.${fx.specs.gap.id}.0.value`]: "0.45",
+        [`r.${fx.specs.gap.id}.0.unit`]: "mm",
       }),
     );
     expect(res.status).toBe(302);
     const id = idFrom(res);
-    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.position);
+    const rows = await db()
+      .select()
+      .from(testRecordReadings)
+      .where(eq(testRecordReadings.recordId, id))
+      .orderBy(testRecordReadings.position);
     const bore = rows.filter((r) => r.specId === b);
     expect(bore.map((r) => r.verdict)).toEqual(["within", "above"]);
     expect(bore[1].valueInSpecUnit).toBeCloseTo(88.0237, 4);
@@ -164,7 +217,11 @@ describe("test records", () => {
 
   it("answers bad input with field messages and keeps what was typed", async () => {
     const b = fx.specs.bore.id;
-    const res = await file(qc, { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88,0x6", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "88", [`r.${b}.1.unit`]: "N.m" }), workOrder: "job 17", testedOn: "" });
+    const res = await file(qc, {
+      ...form(fx.rev.id, { [`r.${b}.0.value`]: "88,0x6", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "88", [`r.${b}.1.unit`]: "N.m" }),
+      workOrder: "job 17",
+      testedOn: "",
+    });
     expect(res.status).toBe(400);
     const html = await textOf(res);
     expect(html).toContain("Work orders look like LEW-24-0117.");
@@ -181,14 +238,19 @@ describe("test records", () => {
   it("is Incomplete, never Within spec, while a spec is unmeasured; Within once every spec is measured and met", async () => {
     const b = fx.specs.bore.id;
     const all = {
-      [`r.${b}.0.value`]: "88.006", [`r.${b}.0.unit`]: "mm",
-      [`r.${fx.specs.oor.id}.0.value`]: "0.004", [`r.${fx.specs.oor.id}.0.unit`]: "mm",
-      [`r.${fx.specs.gap.id}.0.value`]: "0.5", [`r.${fx.specs.gap.id}.0.unit`]: "mm",
+      [`r.${b}.0.value`]: "88.006",
+      [`r.${b}.0.unit`]: "mm",
+      [`r.${fx.specs.oor.id}.0.value`]: "0.004",
+      [`r.${fx.specs.oor.id}.0.unit`]: "mm",
+      [`r.${fx.specs.gap.id}.0.value`]: "0.5",
+      [`r.${fx.specs.gap.id}.0.unit`]: "mm",
     };
     const complete = idFrom(await file(qc, form(fx.rev.id, all)));
     const [done] = await db().select().from(testRecords).where(eq(testRecords.id, complete));
     expect(done.verdict).toBe("within");
-    expect(await textOf(await http(`/test-records/${complete}`, { cookie: qc.cookie }))).toContain("Every spec of the revision was measured.");
+    expect(await textOf(await http(`/test-records/${complete}`, { cookie: qc.cookie }))).toContain(
+      "Every spec of the revision was measured.",
+    );
 
     const partial = Object.fromEntries(Object.entries(all).filter(([k]) => !k.startsWith(`r.${fx.specs.gap.id}.`)));
     const wo = workOrder();
@@ -206,7 +268,9 @@ describe("test records", () => {
     const list = await textOf(await http(`/test-records?workOrder=${wo}&verdict=incomplete`, { cookie: qc.cookie }));
     expect(list).toContain(`/test-records/${id}`);
     expect(wordsOf(list)).toContain("Incomplete: 1 spec not measured");
-    expect(await textOf(await http(`/test-records?workOrder=${wo}&verdict=within`, { cookie: qc.cookie }))).not.toContain(`/test-records/${id}`);
+    expect(await textOf(await http(`/test-records?workOrder=${wo}&verdict=within`, { cookie: qc.cookie }))).not.toContain(
+      `/test-records/${id}`,
+    );
   });
 
   it("migration 0024 turns a record stored as within with a spec unmeasured into incomplete, and leaves a complete one within", async () => {
@@ -215,11 +279,31 @@ describe("test records", () => {
     const insert = async (specIds: string[]) => {
       const [rec] = await db()
         .insert(testRecords)
-        .values({ procedureId: fx.procedure.id, revisionId: fx.rev.id, title: "Filed before 0024", workOrder: workOrder(), testedOn: "2024-05-02", verdict: "within" })
+        .values({
+          procedureId: fx.procedure.id,
+          revisionId: fx.rev.id,
+          title: "Filed before 0024",
+          workOrder: workOrder(),
+          testedOn: "2024-05-02",
+          verdict: "within",
+        })
         .returning();
-      await db().insert(testRecordReadings).values(
-        specIds.map((specId, i) => ({ recordId: rec.id, version: 0, specId, specKey: "k", position: i, valueEntered: 0.5, unitEntered: "mm", valueSi: 0.0005, valueInSpecUnit: 0.5, verdict: "within" as const })),
-      );
+      await db()
+        .insert(testRecordReadings)
+        .values(
+          specIds.map((specId, i) => ({
+            recordId: rec.id,
+            version: 0,
+            specId,
+            specKey: "k",
+            position: i,
+            valueEntered: 0.5,
+            unitEntered: "mm",
+            valueSi: 0.0005,
+            valueInSpecUnit: 0.5,
+            verdict: "within" as const,
+          })),
+        );
       return rec.id;
     };
     const old = await insert([b]);
@@ -232,7 +316,10 @@ describe("test records", () => {
     await db().transaction(async (tx) => {
       for (const s of statements.slice(from)) await tx.execute(sql.raw(s));
     });
-    const rows = await db().select({ id: testRecords.id, verdict: testRecords.verdict }).from(testRecords).where(sql`${testRecords.id} in (${old}, ${full})`);
+    const rows = await db()
+      .select({ id: testRecords.id, verdict: testRecords.verdict })
+      .from(testRecords)
+      .where(sql`${testRecords.id} in (${old}, ${full})`);
     expect(Object.fromEntries(rows.map((r) => [r.id, r.verdict]))).toEqual({ [old]: "incomplete", [full]: "within" });
   });
 
@@ -240,13 +327,41 @@ describe("test records", () => {
     const b = fx.specs.bore.id;
     const [rec] = await db()
       .insert(testRecords)
-      .values({ procedureId: fx.procedure.id, revisionId: fx.rev.id, title: "Filed before 0026", workOrder: workOrder(), testedOn: "2024-05-02", verdict: "within" })
+      .values({
+        procedureId: fx.procedure.id,
+        revisionId: fx.rev.id,
+        title: "Filed before 0026",
+        workOrder: workOrder(),
+        testedOn: "2024-05-02",
+        verdict: "within",
+      })
       .returning();
     // 88.00600000000001 is what arithmetic leaves of 88.006; 1e-7 prints in exponent form.
     const values = [88.01, 88.00600000000001, 88, 1e-7];
-    await db().insert(testRecordReadings).values(values.map((v, i) => ({ recordId: rec.id, version: 0, specId: b, specKey: "bore", position: i, valueEntered: v, unitEntered: "mm", valueSi: v / 1000, valueInSpecUnit: v, verdict: "within" as const })));
-    const [recording] = await db().insert(recordings).values({ title: "Before 0026", state: "ready", originalName: "b.mp4", originalSize: 1, durationS: 10 }).returning();
-    const [reading] = await db().insert(readings).values({ recordingId: recording.id, quantity: "bore-diameter", valueEntered: 88.01, unitEntered: "mm", valueSi: 0.08801 }).returning();
+    await db()
+      .insert(testRecordReadings)
+      .values(
+        values.map((v, i) => ({
+          recordId: rec.id,
+          version: 0,
+          specId: b,
+          specKey: "bore",
+          position: i,
+          valueEntered: v,
+          unitEntered: "mm",
+          valueSi: v / 1000,
+          valueInSpecUnit: v,
+          verdict: "within" as const,
+        })),
+      );
+    const [recording] = await db()
+      .insert(recordings)
+      .values({ title: "Before 0026", state: "ready", originalName: "b.mp4", originalSize: 1, durationS: 10 })
+      .returning();
+    const [reading] = await db()
+      .insert(readings)
+      .values({ recordingId: recording.id, quantity: "bore-diameter", valueEntered: 88.01, unitEntered: "mm", valueSi: 0.08801 })
+      .returning();
     const fs = await import("node:fs");
     const statements = fs.readFileSync("drizzle/0026_reading_typed_decimals.sql", "utf8").split("--> statement-breakpoint");
     const from = statements.findIndex((st) => st.includes("UPDATE readings"));
@@ -254,12 +369,18 @@ describe("test records", () => {
     await db().transaction(async (tx) => {
       for (const st of statements.slice(from)) await tx.execute(sql.raw(st));
     });
-    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, rec.id)).orderBy(testRecordReadings.position);
+    const rows = await db()
+      .select()
+      .from(testRecordReadings)
+      .where(eq(testRecordReadings.recordId, rec.id))
+      .orderBy(testRecordReadings.position);
     expect(rows.map((r) => r.valueDecimals)).toEqual([2, 3, 0, 7]);
     const [after] = await db().select().from(readings).where(eq(readings.id, reading.id));
     expect(after.valueDecimals).toBe(2);
     // The filed readings stay immutable after it.
-    expect(await dbError(db().update(testRecordReadings).set({ valueDecimals: 4 }).where(eq(testRecordReadings.recordId, rec.id)))).toContain("readings are immutable");
+    expect(
+      await dbError(db().update(testRecordReadings).set({ valueDecimals: 4 }).where(eq(testRecordReadings.recordId, rec.id))),
+    ).toContain("readings are immutable");
   });
 
   it("pins the record to the revision in force; a later revision supersedes it and both limits show", async () => {
@@ -279,45 +400,90 @@ describe("test records", () => {
     expect(stale.status).toBe(409);
     expect(await textOf(stale)).toContain("Revision 2 of this procedure was published while the form was open");
     // New records go to revision 2.
-    const fresh = await file(qc, form(next.rev.id, { [`r.${next.specs.bore.id}.0.value`]: "88.011", [`r.${next.specs.bore.id}.0.unit`]: "mm" }));
-    const [rec2] = await db().select().from(testRecords).where(eq(testRecords.id, idFrom(fresh)));
+    const fresh = await file(
+      qc,
+      form(next.rev.id, { [`r.${next.specs.bore.id}.0.value`]: "88.011", [`r.${next.specs.bore.id}.0.unit`]: "mm" }),
+    );
+    const [rec2] = await db()
+      .select()
+      .from(testRecords)
+      .where(eq(testRecords.id, idFrom(fresh)));
     expect(rec2.revisionId).toBe(next.rev.id);
     expect(rec2.verdict).toBe("out");
     // And the database itself refuses to move a record to another revision.
-    expect(await dbError(db().update(testRecords).set({ revisionId: next.rev.id }).where(eq(testRecords.id, id)))).toContain("stays pinned to the revision");
+    expect(await dbError(db().update(testRecords).set({ revisionId: next.rev.id }).where(eq(testRecords.id, id)))).toContain(
+      "stays pinned to the revision",
+    );
   });
 
   it("amends by a new version: the original stays, the change and its reason are in the history and the audit log", async () => {
     const b = fx.specs.bore.id;
     const wo = workOrder();
-    const id = idFrom(await file(qc, { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.015", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" }), workOrder: wo }));
+    const id = idFrom(
+      await file(qc, {
+        ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.015", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" }),
+        workOrder: wo,
+      }),
+    );
     const builder = await createUser("builder");
     expect((await http(`/test-records/${id}/amend`, { cookie: builder.cookie })).status).toBe(403);
-    const base = { title: "Bore finish after honing", engineSerial: "LX23-0412", testedOn: new Date().toISOString().slice(0, 10), notes: "" };
-    const noReason = await http(`/test-records/${id}/amend`, { form: { ...base, reason: "", [`r.${b}.0.value`]: "88.009", [`r.${b}.0.unit`]: "mm" }, cookie: qc.cookie });
+    const base = {
+      title: "Bore finish after honing",
+      engineSerial: "LX23-0412",
+      testedOn: new Date().toISOString().slice(0, 10),
+      notes: "",
+    };
+    const noReason = await http(`/test-records/${id}/amend`, {
+      form: { ...base, reason: "", [`r.${b}.0.value`]: "88.009", [`r.${b}.0.unit`]: "mm" },
+      cookie: qc.cookie,
+    });
     expect(noReason.status).toBe(400);
     expect(await textOf(noReason)).toContain("Say why the record is amended");
-    const same = await http(`/test-records/${id}/amend`, { form: { ...base, reason: "checking", [`r.${b}.0.value`]: "88.015", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" }, cookie: qc.cookie });
+    const same = await http(`/test-records/${id}/amend`, {
+      form: { ...base, reason: "checking", [`r.${b}.0.value`]: "88.015", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" },
+      cookie: qc.cookie,
+    });
     expect(same.status).toBe(400);
     expect(await textOf(same)).toContain("Nothing was changed");
 
     const editor = await createUser("editor");
-    const ok = await http(`/test-records/${id}/amend`, { form: { ...base, reason: "gauge re-zeroed on the ring, cyl 3 re-measured", [`r.${b}.0.value`]: "88.009", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: "cyl 3" }, cookie: editor.cookie });
+    const ok = await http(`/test-records/${id}/amend`, {
+      form: {
+        ...base,
+        reason: "gauge re-zeroed on the ring, cyl 3 re-measured",
+        [`r.${b}.0.value`]: "88.009",
+        [`r.${b}.0.unit`]: "mm",
+        [`r.${b}.0.note`]: "cyl 3",
+      },
+      cookie: editor.cookie,
+    });
     expect(ok.status).toBe(302);
     const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, id));
     expect(rec.currentVersion).toBe(1);
     expect(rec.verdict).toBe("incomplete");
     expect(rec.workOrder).toBe(wo);
-    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.version);
-    expect(rows.map((r) => [r.version, r.valueEntered, r.verdict])).toEqual([[0, 88.015, "above"], [1, 88.009, "within"]]);
+    const rows = await db()
+      .select()
+      .from(testRecordReadings)
+      .where(eq(testRecordReadings.recordId, id))
+      .orderBy(testRecordReadings.version);
+    expect(rows.map((r) => [r.version, r.valueEntered, r.verdict])).toEqual([
+      [0, 88.015, "above"],
+      [1, 88.009, "within"],
+    ]);
     const [a] = await db().select().from(testRecordAmendments).where(eq(testRecordAmendments.recordId, id));
     expect(a.createdBy).toBe(editor.id);
     expect(a.verdictBefore).toBe("out");
     expect(a.changes).toEqual([{ kind: "spec", key: b, label: "Bore diameter", before: "88.015 mm (cyl 3)", after: "88.009 mm (cyl 3)" }]);
-    const logs = await db().select().from(auditLog).where(and(eq(auditLog.entity, "test_record"), eq(auditLog.entityId, id)));
+    const logs = await db()
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, "test_record"), eq(auditLog.entityId, id)));
     expect(logs.map((l) => l.action).sort()).toEqual(["amend", "create"]);
     expect(logs.find((l) => l.action === "amend")!.actorId).toBe(editor.id);
-    expect((logs.find((l) => l.action === "amend")!.detail as { reason: string }).reason).toBe("gauge re-zeroed on the ring, cyl 3 re-measured");
+    expect((logs.find((l) => l.action === "amend")!.detail as { reason: string }).reason).toBe(
+      "gauge re-zeroed on the ring, cyl 3 re-measured",
+    );
 
     const now = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
     expect(now).toContain("gauge re-zeroed on the ring");
@@ -327,7 +493,9 @@ describe("test records", () => {
     expect(original).toContain("the record as originally filed");
     expect(original).toContain("88.015");
     // Filed readings cannot be changed in place, not even from the database.
-    expect(await dbError(db().update(testRecordReadings).set({ valueEntered: 1 }).where(eq(testRecordReadings.recordId, id)))).toContain("readings are immutable");
+    expect(await dbError(db().update(testRecordReadings).set({ valueEntered: 1 }).where(eq(testRecordReadings.recordId, id)))).toContain(
+      "readings are immutable",
+    );
   });
 
   it("runs Bore distortion on the readings at the depth and angle of their position fields, per cylinder, and keeps the result", async () => {
@@ -350,7 +518,13 @@ describe("test records", () => {
     });
     [88.02, 88.02, 88.02].forEach((v, j) => {
       const i = 8 + j;
-      Object.assign(f, { [`r.${b}.${i}.value`]: String(v), [`r.${b}.${i}.unit`]: "mm", [`r.${b}.${i}.cylinder`]: "2", [`r.${b}.${i}.depth`]: "10", [`r.${b}.${i}.angle`]: String(j * 60) });
+      Object.assign(f, {
+        [`r.${b}.${i}.value`]: String(v),
+        [`r.${b}.${i}.unit`]: "mm",
+        [`r.${b}.${i}.cylinder`]: "2",
+        [`r.${b}.${i}.depth`]: "10",
+        [`r.${b}.${i}.angle`]: String(j * 60),
+      });
     });
     const id = idFrom(await file(qc, form(fx.rev.id, f)));
     const rs = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.position);
@@ -372,7 +546,16 @@ describe("test records", () => {
     const [c] = await db().select().from(testRecordCalcs).where(eq(testRecordCalcs.recordId, id));
     expect(c.label).toBe("Bore distortion: Bore diameter (cyl 1)");
     const input = c.input as { readings: { depth: { value: number; unit: string }; angleDeg: number }[] };
-    expect(input.readings.map((r) => `${r.depth.value} ${r.depth.unit} ${r.angleDeg}°`)).toEqual(["10 mm 0°", "10 mm 45°", "10 mm 90°", "10 mm 135°", "60 mm 0°", "60 mm 45°", "60 mm 90°", "60 mm 135°"]);
+    expect(input.readings.map((r) => `${r.depth.value} ${r.depth.unit} ${r.angleDeg}°`)).toEqual([
+      "10 mm 0°",
+      "10 mm 45°",
+      "10 mm 90°",
+      "10 mm 135°",
+      "60 mm 0°",
+      "60 mm 45°",
+      "60 mm 90°",
+      "60 mm 135°",
+    ]);
     const result = c.result as { levels: { outOfRound_mm: number }[] };
     expect(result.levels.map((l) => Number(l.outOfRound_mm.toFixed(6)))).toEqual([0.01, 0]);
     const apprentice = await createUser("apprentice");
@@ -384,11 +567,21 @@ describe("test records", () => {
 
   it("keeps a reading at the resolution it was typed: 88.010 stays 88.010 on the record, the amend form and converted", async () => {
     const b = fx.specs.bore.id;
-    const res = await file(qc, form(fx.rev.id, { [`r.${b}.0.value`]: "88.010", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "3.46500", [`r.${b}.1.unit`]: "in" }));
+    const res = await file(
+      qc,
+      form(fx.rev.id, { [`r.${b}.0.value`]: "88.010", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "3.46500", [`r.${b}.1.unit`]: "in" }),
+    );
     expect(res.status).toBe(302);
     const id = idFrom(res);
-    const rows = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id)).orderBy(testRecordReadings.position);
-    expect(rows.map((r) => [r.valueEntered, r.valueDecimals])).toEqual([[88.01, 3], [3.465, 5]]);
+    const rows = await db()
+      .select()
+      .from(testRecordReadings)
+      .where(eq(testRecordReadings.recordId, id))
+      .orderBy(testRecordReadings.position);
+    expect(rows.map((r) => [r.valueEntered, r.valueDecimals])).toEqual([
+      [88.01, 3],
+      [3.465, 5],
+    ]);
     const page = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
     expect(page).toContain("88.010 mm");
     expect(page).toContain("3.46500 in");
@@ -400,14 +593,33 @@ describe("test records", () => {
   });
 
   it("files from a recording: its readings are offered, pulled in with a link to their moment, and the span is kept", async () => {
-    const [rec] = await db().insert(recordings).values({ title: "Cyl 3 bore check after honing", state: "ready", originalName: "bore.mp4", originalSize: 1000, durationS: 240 }).returning();
-    const [rd] = await db().insert(readings).values({ recordingId: rec.id, quantity: "length", label: "cyl 3 bore, 10 mm down, 0°", valueSi: 0.088007, valueEntered: 88.007, unitEntered: "mm", t: 42 }).returning();
+    const [rec] = await db()
+      .insert(recordings)
+      .values({ title: "Cyl 3 bore check after honing", state: "ready", originalName: "bore.mp4", originalSize: 1000, durationS: 240 })
+      .returning();
+    const [rd] = await db()
+      .insert(readings)
+      .values({
+        recordingId: rec.id,
+        quantity: "length",
+        label: "cyl 3 bore, 10 mm down, 0°",
+        valueSi: 0.088007,
+        valueEntered: 88.007,
+        unitEntered: "mm",
+        t: 42,
+      })
+      .returning();
     const page = await textOf(await http(`/test-records/new?procedure=${fx.procedure.slug}&recording=${rec.id}`, { cookie: qc.cookie }));
     expect(page).toContain("Readings typed on the recording");
     expect(page).toContain("cyl 3 bore, 10 mm down, 0°");
     const b = fx.specs.bore.id;
     const res = await http(`/test-records/new?procedure=${fx.procedure.slug}&recording=${rec.id}`, {
-      form: { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.007", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: rd.label, [`r.${b}.0.src`]: rd.id }), recordingId: rec.id, recordingStartS: "30", recordingEndS: "95.5" },
+      form: {
+        ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.007", [`r.${b}.0.unit`]: "mm", [`r.${b}.0.note`]: rd.label, [`r.${b}.0.src`]: rd.id }),
+        recordingId: rec.id,
+        recordingStartS: "30",
+        recordingEndS: "95.5",
+      },
       cookie: qc.cookie,
     });
     expect(res.status).toBe(302);
@@ -419,7 +631,12 @@ describe("test records", () => {
     const html = await textOf(await http(`/test-records/${id}`, { cookie: qc.cookie }));
     expect(html).toContain(`/recordings/${rec.id}?t=30`);
     const backwards = await http(`/test-records/new?procedure=${fx.procedure.slug}&recording=${rec.id}`, {
-      form: { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.007", [`r.${b}.0.unit`]: "mm" }), recordingId: rec.id, recordingStartS: "95", recordingEndS: "30" },
+      form: {
+        ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.007", [`r.${b}.0.unit`]: "mm" }),
+        recordingId: rec.id,
+        recordingStartS: "95",
+        recordingEndS: "30",
+      },
       cookie: qc.cookie,
     });
     expect(backwards.status).toBe(400);
@@ -432,15 +649,31 @@ describe("test records", () => {
       { key: "piston", label: "Piston diameter at the gauge point", quantity: "length", unit: "mm", min: null, max: null, nominal: 87.935 },
       { key: "ptw", label: "Piston-to-wall clearance", quantity: "length", unit: "mm", min: 0.06, max: 0.08 },
     ]);
-    const id = idFrom(await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.006", [`r.${p.specs.bore.id}.0.unit`]: "mm", [`r.${p.specs.piston.id}.0.value`]: "3.4620", [`r.${p.specs.piston.id}.0.unit`]: "in" })));
+    const id = idFrom(
+      await file(
+        qc,
+        form(p.rev.id, {
+          [`r.${p.specs.bore.id}.0.value`]: "88.006",
+          [`r.${p.specs.bore.id}.0.unit`]: "mm",
+          [`r.${p.specs.piston.id}.0.value`]: "3.4620",
+          [`r.${p.specs.piston.id}.0.unit`]: "in",
+        }),
+      ),
+    );
     const rs = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, id));
     const bore = rs.find((r) => r.specId === p.specs.bore.id)!;
     const piston = rs.find((r) => r.specId === p.specs.piston.id)!;
     expect(piston.verdict).toBe("unchecked");
-    const same = await http(`/test-records/${id}`, { form: { intent: "piston-to-wall", boreReading: bore.id, pistonReading: bore.id, clearanceSpec: p.specs.ptw.id }, cookie: qc.cookie });
+    const same = await http(`/test-records/${id}`, {
+      form: { intent: "piston-to-wall", boreReading: bore.id, pistonReading: bore.id, clearanceSpec: p.specs.ptw.id },
+      cookie: qc.cookie,
+    });
     expect(same.status).toBe(400);
     expect(await textOf(same)).toContain("Choose two different readings.");
-    const res = await http(`/test-records/${id}`, { form: { intent: "piston-to-wall", boreReading: bore.id, pistonReading: piston.id, clearanceSpec: p.specs.ptw.id }, cookie: qc.cookie });
+    const res = await http(`/test-records/${id}`, {
+      form: { intent: "piston-to-wall", boreReading: bore.id, pistonReading: piston.id, clearanceSpec: p.specs.ptw.id },
+      cookie: qc.cookie,
+    });
     expect(res.status).toBe(302);
     const [c] = await db().select().from(testRecordCalcs).where(eq(testRecordCalcs.recordId, id));
     // 88.006 mm − 3.4620 in (87.9348 mm) = 0.0712 mm, inside 0.06–0.08.
@@ -452,7 +685,10 @@ describe("test records", () => {
   it("exports the filtered records with one row per reading and one per spec not measured", async () => {
     const wo = workOrder();
     const b = fx.specs.bore.id;
-    await file(qc, { ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.002", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "0.2", [`r.${b}.1.unit`]: "thou" }), workOrder: wo });
+    await file(qc, {
+      ...form(fx.rev.id, { [`r.${b}.0.value`]: "88.002", [`r.${b}.0.unit`]: "mm", [`r.${b}.1.value`]: "0.2", [`r.${b}.1.unit`]: "thou" }),
+      workOrder: wo,
+    });
     const apprentice = await createUser("apprentice");
     const res = await http(`/test-records/export.csv?workOrder=${wo}`, { cookie: apprentice.cookie });
     expect(res.status).toBe(200);
@@ -467,14 +703,19 @@ describe("test records", () => {
       ["Top ring end gap", "", "", "not measured"],
     ]);
     expect(Number(rows[1].reading_in_spec_unit)).toBeCloseTo(0.00508, 9);
-    const none = parse(await (await http(`/test-records/export.csv?workOrder=NOPE-00-0000`, { cookie: apprentice.cookie })).text(), { columns: true, bom: true });
+    const none = parse(await (await http(`/test-records/export.csv?workOrder=NOPE-00-0000`, { cookie: apprentice.cookie })).text(), {
+      columns: true,
+      bom: true,
+    });
     expect(none).toHaveLength(0);
   });
 
   it("is found by search: work order, verdict and notes, opening the record", async () => {
     const word = `zq${randomUUID().replace(/-/g, "").slice(0, 10)}`;
     const b = fx.specs.bore.id;
-    const id = idFrom(await file(qc, form(fx.rev.id, { [`r.${b}.0.value`]: "88.02", [`r.${b}.0.unit`]: "mm", notes: `bore 2 tight at the top ${word}` })));
+    const id = idFrom(
+      await file(qc, form(fx.rev.id, { [`r.${b}.0.value`]: "88.02", [`r.${b}.0.unit`]: "mm", notes: `bore 2 tight at the top ${word}` })),
+    );
     const apprentice = await createUser("apprentice");
     const hit = await waitFor(async () => {
       const res = await http(`/api/search?q=${word}`, { cookie: apprentice.cookie });
@@ -487,8 +728,12 @@ describe("test records", () => {
 
   it("lists with filters, and the procedure page lists the records that back it", async () => {
     const p = await makeProcedure(BORE);
-    const within = idFrom(await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.006", [`r.${p.specs.bore.id}.0.unit`]: "mm" })));
-    const out = idFrom(await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.02", [`r.${p.specs.bore.id}.0.unit`]: "mm" })));
+    const within = idFrom(
+      await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.006", [`r.${p.specs.bore.id}.0.unit`]: "mm" })),
+    );
+    const out = idFrom(
+      await file(qc, form(p.rev.id, { [`r.${p.specs.bore.id}.0.value`]: "88.02", [`r.${p.specs.bore.id}.0.unit`]: "mm" })),
+    );
     const list = await textOf(await http(`/test-records?procedure=${p.procedure.slug}&verdict=out`, { cookie: qc.cookie }));
     expect(list).toContain(`/test-records/${out}`);
     expect(list).not.toContain(`/test-records/${within}`);

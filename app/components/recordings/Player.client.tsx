@@ -32,7 +32,11 @@ const SKIP_S = 5;
 
 type VjsPlayer = ReturnType<typeof videojs>;
 type FullscreenElement = HTMLElement & { webkitRequestFullscreen?: () => void };
-type FullscreenDocument = Document & { webkitFullscreenElement?: Element | null; webkitExitFullscreen?: () => void; webkitFullscreenEnabled?: boolean };
+type FullscreenDocument = Document & {
+  webkitFullscreenElement?: Element | null;
+  webkitExitFullscreen?: () => void;
+  webkitFullscreenEnabled?: boolean;
+};
 type AppleVideo = HTMLVideoElement & { webkitEnterFullscreen?: () => void };
 
 export default function Player({
@@ -234,18 +238,18 @@ export default function Player({
 
   return (
     <div ref={frame} className={`br-player${fullscreen ? " br-full" : ""}`} data-testid="player-frame">
-      <div
-        className={`br-screen${covered ? " br-covered" : ""}`}
-        onClick={() => api?.togglePlay()}
-        data-testid="player-screen"
-      >
+      <div className={`br-screen${covered ? " br-covered" : ""}`} onClick={() => api?.togglePlay()} data-testid="player-screen">
         <div ref={screen} className="br-screen-video" />
         {covered && (
           <p className="br-opening" role="status">
             Opening at <span className="num font-mono">{formatTime(opening)}</span>…
           </p>
         )}
-        {failed && <p className="br-failed" role="alert">{failed}</p>}
+        {failed && (
+          <p className="br-failed" role="alert">
+            {failed}
+          </p>
+        )}
       </div>
 
       <div className="br-controls" role="group" aria-label="Video controls">
@@ -284,16 +288,45 @@ export default function Player({
         </div>
 
         <div className="br-buttons">
-          <button type="button" className="br-btn br-play" onClick={() => api?.togglePlay()} disabled={!ready} aria-label={paused ? "Play" : "Pause"} data-testid="player-play">
+          <button
+            type="button"
+            className="br-btn br-play"
+            onClick={() => api?.togglePlay()}
+            disabled={!ready}
+            aria-label={paused ? "Play" : "Pause"}
+            data-testid="player-play"
+          >
             {paused ? <PlayIcon /> : <PauseIcon />}
           </button>
-          <button type="button" className="br-btn" onClick={() => api?.seek(time - SKIP_S)} disabled={!ready} aria-label={`Back ${SKIP_S} seconds`}>
-            <span aria-hidden="true" className="num">−{SKIP_S} s</span>
+          <button
+            type="button"
+            className="br-btn"
+            onClick={() => api?.seek(time - SKIP_S)}
+            disabled={!ready}
+            aria-label={`Back ${SKIP_S} seconds`}
+          >
+            <span aria-hidden="true" className="num">
+              −{SKIP_S} s
+            </span>
           </button>
-          <button type="button" className="br-btn" onClick={() => api?.seek(time + SKIP_S)} disabled={!ready} aria-label={`Forward ${SKIP_S} seconds`}>
-            <span aria-hidden="true" className="num">+{SKIP_S} s</span>
+          <button
+            type="button"
+            className="br-btn"
+            onClick={() => api?.seek(time + SKIP_S)}
+            disabled={!ready}
+            aria-label={`Forward ${SKIP_S} seconds`}
+          >
+            <span aria-hidden="true" className="num">
+              +{SKIP_S} s
+            </span>
           </button>
-          <button type="button" className="br-btn br-narrow" onClick={() => api?.step(-1, fps)} disabled={!ready} aria-label="One frame back">
+          <button
+            type="button"
+            className="br-btn br-narrow"
+            onClick={() => api?.step(-1, fps)}
+            disabled={!ready}
+            aria-label="One frame back"
+          >
             <FrameIcon back />
           </button>
           <button type="button" className="br-btn br-narrow" onClick={() => api?.step(1, fps)} disabled={!ready} aria-label="One frame on">
@@ -306,49 +339,63 @@ export default function Player({
             <span className="sr-only"> of </span>
             <span>{formatTime(d || null)}</span>
           </p>
-          {!compact && (<>
-          <span className="br-spacer" />
-          <label className="br-rate">
-            <span className="sr-only">Playback speed</span>
-            <select value={rate} disabled={!ready} onChange={(e) => api?.setRate(Number(e.currentTarget.value))} data-testid="player-rate">
-              {PLAYBACK_RATES.map((r) => (
-                <option key={r} value={r}>{RATE_WORDS[r] ?? `${r}×`}</option>
-              ))}
-            </select>
-          </label>
-          <button
-            type="button"
-            className="br-btn"
-            onClick={() => playerRef.current?.muted(!muted)}
-            disabled={!ready}
-            aria-label="Mute"
-            aria-pressed={muted}
-          >
-            <SoundIcon off={muted} />
-          </button>
-          <input
-            type="range"
-            className="br-range br-volume"
-            min={0}
-            max={1}
-            step={0.05}
-            value={muted ? 0 : volume}
-            disabled={!ready}
-            aria-label="Volume"
-            aria-valuetext={`${Math.round((muted ? 0 : volume) * 100)} %`}
-            onChange={(e) => {
-              const p = playerRef.current;
-              if (!p) return;
-              p.volume(e.currentTarget.valueAsNumber);
-              p.muted(e.currentTarget.valueAsNumber === 0);
-            }}
-          />
-          {canFullscreen && (
-            <button type="button" className="br-btn" onClick={toggleFullscreen} aria-label={fullscreen ? "Leave full screen" : "Full screen"}>
-              <FullscreenIcon leave={fullscreen} />
-            </button>
+          {!compact && (
+            <>
+              <span className="br-spacer" />
+              <label className="br-rate">
+                <span className="sr-only">Playback speed</span>
+                <select
+                  value={rate}
+                  disabled={!ready}
+                  onChange={(e) => api?.setRate(Number(e.currentTarget.value))}
+                  data-testid="player-rate"
+                >
+                  {PLAYBACK_RATES.map((r) => (
+                    <option key={r} value={r}>
+                      {RATE_WORDS[r] ?? `${r}×`}
+                    </option>
+                  ))}
+                </select>
+              </label>
+              <button
+                type="button"
+                className="br-btn"
+                onClick={() => playerRef.current?.muted(!muted)}
+                disabled={!ready}
+                aria-label="Mute"
+                aria-pressed={muted}
+              >
+                <SoundIcon off={muted} />
+              </button>
+              <input
+                type="range"
+                className="br-range br-volume"
+                min={0}
+                max={1}
+                step={0.05}
+                value={muted ? 0 : volume}
+                disabled={!ready}
+                aria-label="Volume"
+                aria-valuetext={`${Math.round((muted ? 0 : volume) * 100)} %`}
+                onChange={(e) => {
+                  const p = playerRef.current;
+                  if (!p) return;
+                  p.volume(e.currentTarget.valueAsNumber);
+                  p.muted(e.currentTarget.valueAsNumber === 0);
+                }}
+              />
+              {canFullscreen && (
+                <button
+                  type="button"
+                  className="br-btn"
+                  onClick={toggleFullscreen}
+                  aria-label={fullscreen ? "Leave full screen" : "Full screen"}
+                >
+                  <FullscreenIcon leave={fullscreen} />
+                </button>
+              )}
+            </>
           )}
-          </>)}
         </div>
       </div>
     </div>
@@ -388,7 +435,13 @@ function SoundIcon({ off }: { off: boolean }) {
       {off ? (
         <path d="M12 6.5l4 5M16 6.5l-4 5" stroke="currentColor" strokeWidth="1.6" strokeLinecap="round" fill="none" />
       ) : (
-        <path d="M12 6.3a3.8 3.8 0 010 5.4M14 4.4a6.5 6.5 0 010 9.2" stroke="currentColor" strokeWidth="1.5" strokeLinecap="round" fill="none" />
+        <path
+          d="M12 6.3a3.8 3.8 0 010 5.4M14 4.4a6.5 6.5 0 010 9.2"
+          stroke="currentColor"
+          strokeWidth="1.5"
+          strokeLinecap="round"
+          fill="none"
+        />
       )}
     </svg>
   );

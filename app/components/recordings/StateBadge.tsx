@@ -7,11 +7,21 @@ const STYLE: Record<State, string> = {
   failed: "border-spec-red/40 bg-spec-red-soft text-spec-red",
   damaged: "border-spec-red/40 bg-spec-red-soft text-spec-red",
 };
-const LABEL: Record<State, string> = { processing: "Processing", ready: "Ready", rejected: "Rejected", failed: "Failed", damaged: "Damaged" };
+const LABEL: Record<State, string> = {
+  processing: "Processing",
+  ready: "Ready",
+  rejected: "Rejected",
+  failed: "Failed",
+  damaged: "Damaged",
+};
 
 export function StateBadge({ state, progress }: { state: State; progress?: number | null }) {
   return (
-    <span data-testid="recording-state" data-state={state} className={`inline-flex items-center gap-1 rounded-full border px-2 py-0.5 text-xs font-semibold ${STYLE[state]}`}>
+    <span
+      data-testid="recording-state"
+      data-state={state}
+      className={`inline-flex items-center gap-1 rounded-full border px-2 py-0.5 text-xs font-semibold ${STYLE[state]}`}
+    >
       {LABEL[state]}
       {state === "processing" && progress != null && progress > 0 && <span className="num">{Math.round(progress * 100)} %</span>}
     </span>

@@ -63,7 +63,9 @@ function serverMessage(err: unknown): string {
 async function findEarlier(file: File): Promise<Earlier | null> {
   try {
     const fp = await fileFingerprint(file);
-    const res = await fetch(`/api/uploads?${new URLSearchParams({ fileName: file.name, size: String(file.size), ...(fp.sample ? { sample: fp.sample } : {}), lastModified: fp.lastModified })}`);
+    const res = await fetch(
+      `/api/uploads?${new URLSearchParams({ fileName: file.name, size: String(file.size), ...(fp.sample ? { sample: fp.sample } : {}), lastModified: fp.lastModified })}`,
+    );
     if (!res.ok) return null;
     const { unfinished } = (await res.json()) as { unfinished: Earlier[] };
     return unfinished[0] ?? null;
@@ -72,7 +74,7 @@ async function findEarlier(file: File): Promise<Earlier | null> {
   }
 }
 
-const uploadIdOf = (url: string | null) => (url ? url.replace(/\/+$/, "").split("/").pop() ?? null : null);
+const uploadIdOf = (url: string | null) => (url ? (url.replace(/\/+$/, "").split("/").pop() ?? null) : null);
 
 export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; onUploadsChange?: (uploadIds: string[]) => void }) {
   const [items, setItems] = useState<QueueItem[]>([]);
@@ -89,7 +91,10 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
       const next: QueueItem[] = [];
       for (const file of Array.from(files)) {
         const problem = fileNameProblem(file.name);
-        const tooBig = file.size > maxBytes ? `This file is ${formatBytes(file.size)}; the shop's limit is ${formatBytes(maxBytes)}. Nothing was sent.` : null;
+        const tooBig =
+          file.size > maxBytes
+            ? `This file is ${formatBytes(file.size)}; the shop's limit is ${formatBytes(maxBytes)}. Nothing was sent.`
+            : null;
         const empty = file.size === 0 ? "This file is empty (0 bytes); there is nothing to upload." : null;
         next.push({
           key: `${file.name}-${file.size}-${file.lastModified}-${Math.random().toString(36).slice(2, 7)}`,
@@ -119,7 +124,16 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
           patch(item.key, (i) =>
             !earlier || i.status !== "waiting" || i.uploadId
               ? { checking: false }
-              : { checking: false, earlier, uploadId: earlier.id, title: earlier.title, description: earlier.description, tags: earlier.tags.join(", "), sent: earlier.received, resumedFrom: earlier.received },
+              : {
+                  checking: false,
+                  earlier,
+                  uploadId: earlier.id,
+                  title: earlier.title,
+                  description: earlier.description,
+                  tags: earlier.tags.join(", "),
+                  sent: earlier.received,
+                  resumedFrom: earlier.received,
+                },
           );
         });
       }
@@ -142,7 +156,14 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
           // Continuing is decided by the server (findEarlier), not by this browser's storage.
           storeFingerprintForResuming: false,
           ...(item.earlier ? { uploadUrl: `/api/uploads/${item.earlier.id}` } : {}),
-          metadata: { filename: item.file.name, filetype: item.file.type || "application/octet-stream", title: item.title, description: item.description, tags: item.tags, ...fingerprint },
+          metadata: {
+            filename: item.file.name,
+            filetype: item.file.type || "application/octet-stream",
+            title: item.title,
+            description: item.description,
+            tags: item.tags,
+            ...fingerprint,
+          },
           onShouldRetry: (err) => {
             const s = err.originalResponse?.getStatus() ?? 0;
             const retry = s === 0 || s === 409 || s === 423 || s >= 500;
@@ -160,7 +181,12 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
                 lastAt = now;
                 lastBytes = sent;
               }
-              return { sent: Math.min(sent, total), speed, status: i.status === "retrying" ? "uploading" : i.status, message: i.status === "retrying" ? null : i.message };
+              return {
+                sent: Math.min(sent, total),
+                speed,
+                status: i.status === "retrying" ? "uploading" : i.status,
+                message: i.status === "retrying" ? null : i.message,
+              };
             });
           },
           onUploadUrlAvailable: () => patch(item.key, { uploadId: uploadIdOf(upload?.url ?? null) }),
@@ -168,7 +194,14 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
             const id = res.getHeader("Benchreel-Recording");
             if (id) patch(item.key, { recordingId: id });
           },
-          onSuccess: () => patch(item.key, (i) => ({ status: "done", sent: i.file.size, speed: null, message: null, rec: i.rec ?? { state: "processing", progress: 0, stateReason: null } })),
+          onSuccess: () =>
+            patch(item.key, (i) => ({
+              status: "done",
+              sent: i.file.size,
+              speed: null,
+              message: null,
+              rec: i.rec ?? { state: "processing", progress: 0, stateReason: null },
+            })),
           onError: (err) => patch(item.key, { status: "error", speed: null, message: serverMessage(err) }),
         });
         uploads.current.set(item.key, upload);
@@ -249,8 +282,13 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
         className={`rounded-lg border-2 border-dashed px-6 py-8 text-center transition-colors ${dragging ? "border-brass bg-brass-soft/60" : "border-rule bg-card/70"}`}
       >
         <p className="font-serif text-lg">Drop video files here</p>
-        <p className="mt-1 text-sm text-graphite-soft">MP4 or MOV straight from the phone, H.264 or HEVC, up to {formatBytes(maxBytes)} each. Uploads continue after a dropped connection; choose the same file again to pick up an interrupted one.</p>
-        <button type="button" className="btn mt-4" onClick={() => inputRef.current?.click()}>Choose files…</button>
+        <p className="mt-1 text-sm text-graphite-soft">
+          MP4 or MOV straight from the phone, H.264 or HEVC, up to {formatBytes(maxBytes)} each. Uploads continue after a dropped
+          connection; choose the same file again to pick up an interrupted one.
+        </p>
+        <button type="button" className="btn mt-4" onClick={() => inputRef.current?.click()}>
+          Choose files…
+        </button>
         <input
           ref={inputRef}
           type="file"
@@ -269,18 +307,35 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
       {items.length > 0 && (
         <ul className="space-y-4" aria-label="Files to upload">
           {items.map((item) => (
-            <UploadRow key={item.key} item={item} onChange={(p) => patch(item.key, p)} onStart={() => start(item)} onPause={() => pause(item)} onCancel={() => cancel(item)} onRemove={() => setItems((l) => l.filter((x) => x.key !== item.key))} />
+            <UploadRow
+              key={item.key}
+              item={item}
+              onChange={(p) => patch(item.key, p)}
+              onStart={() => start(item)}
+              onPause={() => pause(item)}
+              onCancel={() => cancel(item)}
+              onRemove={() => setItems((l) => l.filter((x) => x.key !== item.key))}
+            />
           ))}
         </ul>
       )}
       {waiting.length > 1 && (
-        <button type="button" className="btn btn-primary" onClick={() => waiting.forEach((i) => start(i))}>Upload all ({waiting.length})</button>
+        <button type="button" className="btn btn-primary" onClick={() => waiting.forEach((i) => start(i))}>
+          Upload all ({waiting.length})
+        </button>
       )}
     </div>
   );
 }
 
-function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
+function UploadRow({
+  item,
+  onChange,
+  onStart,
+  onPause,
+  onCancel,
+  onRemove,
+}: {
   item: QueueItem;
   onChange: (p: Partial<QueueItem>) => void;
   onStart: () => void;
@@ -293,7 +348,8 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
   const editable = item.status === "waiting" && !item.earlier;
   const active = item.status === "uploading" || item.status === "retrying";
   const id = item.key.replace(/[^A-Za-z0-9]/g, "");
-  const blocked = item.status === "error" && item.sent === 0 && !item.recordingId && item.message && !item.message.startsWith("The connection");
+  const blocked =
+    item.status === "error" && item.sent === 0 && !item.recordingId && item.message && !item.message.startsWith("The connection");
   return (
     <li className="card space-y-3" data-testid="upload-item">
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -303,20 +359,47 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
       {editable ? (
         <div className="grid gap-3 md:grid-cols-[2fr_1fr]">
           <div>
-            <label className="label" htmlFor={`t-${id}`}>Title</label>
-            <input id={`t-${id}`} className="field" value={item.title} maxLength={200} onChange={(e) => onChange({ title: e.target.value })} />
+            <label className="label" htmlFor={`t-${id}`}>
+              Title
+            </label>
+            <input
+              id={`t-${id}`}
+              className="field"
+              value={item.title}
+              maxLength={200}
+              onChange={(e) => onChange({ title: e.target.value })}
+            />
           </div>
           <div>
-            <label className="label" htmlFor={`g-${id}`}>Tags <span className="font-normal text-graphite-soft">(comma-separated)</span></label>
-            <input id={`g-${id}`} className="field" value={item.tags} placeholder="head studs, clamp load" onChange={(e) => onChange({ tags: e.target.value })} />
+            <label className="label" htmlFor={`g-${id}`}>
+              Tags <span className="font-normal text-graphite-soft">(comma-separated)</span>
+            </label>
+            <input
+              id={`g-${id}`}
+              className="field"
+              value={item.tags}
+              placeholder="head studs, clamp load"
+              onChange={(e) => onChange({ tags: e.target.value })}
+            />
           </div>
           <div className="md:col-span-2">
-            <label className="label" htmlFor={`d-${id}`}>Description <span className="font-normal text-graphite-soft">(optional)</span></label>
-            <textarea id={`d-${id}`} className="field min-h-16" value={item.description} maxLength={4000} onChange={(e) => onChange({ description: e.target.value })} />
+            <label className="label" htmlFor={`d-${id}`}>
+              Description <span className="font-normal text-graphite-soft">(optional)</span>
+            </label>
+            <textarea
+              id={`d-${id}`}
+              className="field min-h-16"
+              value={item.description}
+              maxLength={4000}
+              onChange={(e) => onChange({ description: e.target.value })}
+            />
           </div>
         </div>
       ) : (
-        <p className="text-sm"><span className="font-semibold">{item.title}</span>{item.tags && <span className="text-graphite-soft"> · {item.tags}</span>}</p>
+        <p className="text-sm">
+          <span className="font-semibold">{item.title}</span>
+          {item.tags && <span className="text-graphite-soft"> · {item.tags}</span>}
+        </p>
       )}
 
       {!blocked && item.status !== "cancelled" && item.status !== "waiting" && (
@@ -330,11 +413,16 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
             data-testid="upload-progress"
             className="h-2.5 overflow-hidden rounded-full bg-paper-deep"
           >
-            <div className={`h-full rounded-full ${item.status === "done" ? "bg-ok" : item.status === "error" ? "bg-spec-red" : "bg-brass"}`} style={{ width: `${pct}%` }} />
+            <div
+              className={`h-full rounded-full ${item.status === "done" ? "bg-ok" : item.status === "error" ? "bg-spec-red" : "bg-brass"}`}
+              style={{ width: `${pct}%` }}
+            />
           </div>
           <p className="num mt-1.5 flex flex-wrap gap-x-4 text-sm text-graphite-soft">
             <span data-testid="upload-percent">{pct} %</span>
-            <span>{formatBytes(item.sent)} of {formatBytes(item.file.size)}</span>
+            <span>
+              {formatBytes(item.sent)} of {formatBytes(item.file.size)}
+            </span>
             {active && <span>{item.speed ? `${formatBytes(item.speed)}/s` : "measuring…"}</span>}
             {active && <span>{eta(item)} left</span>}
             {item.status === "paused" && <span>Paused</span>}
@@ -343,27 +431,61 @@ function UploadRow({ item, onChange, onStart, onPause, onCancel, onRemove }: {
       )}
 
       {item.message && (
-        <p role={item.status === "error" ? "alert" : "status"} className={`text-sm ${item.status === "error" ? "text-spec-red" : "text-graphite-soft"}`}>{item.message}</p>
+        <p
+          role={item.status === "error" ? "alert" : "status"}
+          className={`text-sm ${item.status === "error" ? "text-spec-red" : "text-graphite-soft"}`}
+        >
+          {item.message}
+        </p>
       )}
       {item.resumedFrom != null && item.status !== "done" && (
-        <p className="text-sm text-teal" data-testid="upload-continues">Continuing an earlier upload of this file ({formatBytes(item.resumedFrom)} of {formatBytes(item.file.size)} already on the server): only the rest is sent.</p>
+        <p className="text-sm text-teal" data-testid="upload-continues">
+          Continuing an earlier upload of this file ({formatBytes(item.resumedFrom)} of {formatBytes(item.file.size)} already on the
+          server): only the rest is sent.
+        </p>
       )}
 
       {item.status === "done" && (
         <div className="flex flex-wrap items-center gap-3 text-sm" data-testid="upload-done">
           <span className="font-semibold text-ok">Uploaded</span>
           {item.rec && <StateBadge state={item.rec.state} progress={item.rec.progress} />}
-          {item.rec?.stateReason && <span className={item.rec.state === "processing" ? "text-graphite-soft" : "text-spec-red"}>{item.rec.stateReason}</span>}
-          {item.recordingId && <Link to={`/recordings/${item.recordingId}`} data-testid="open-recording">Open the recording</Link>}
+          {item.rec?.stateReason && (
+            <span className={item.rec.state === "processing" ? "text-graphite-soft" : "text-spec-red"}>{item.rec.stateReason}</span>
+          )}
+          {item.recordingId && (
+            <Link to={`/recordings/${item.recordingId}`} data-testid="open-recording">
+              Open the recording
+            </Link>
+          )}
         </div>
       )}
 
       <div className="flex flex-wrap gap-2">
-        {item.status === "waiting" && <button type="button" className="btn btn-primary" onClick={onStart} disabled={!item.title.trim() || item.checking}>Upload</button>}
-        {active && <button type="button" className="btn" onClick={onPause}>Pause</button>}
-        {(item.status === "paused" || (item.status === "error" && !blocked)) && <button type="button" className="btn btn-primary" onClick={onStart}>Resume</button>}
-        {(active || item.status === "paused" || (item.status === "error" && !blocked)) && <button type="button" className="btn btn-danger" onClick={onCancel}>Cancel upload</button>}
-        {(item.status === "waiting" || item.status === "cancelled" || blocked) && <button type="button" className="btn" onClick={onRemove}>Remove from list</button>}
+        {item.status === "waiting" && (
+          <button type="button" className="btn btn-primary" onClick={onStart} disabled={!item.title.trim() || item.checking}>
+            Upload
+          </button>
+        )}
+        {active && (
+          <button type="button" className="btn" onClick={onPause}>
+            Pause
+          </button>
+        )}
+        {(item.status === "paused" || (item.status === "error" && !blocked)) && (
+          <button type="button" className="btn btn-primary" onClick={onStart}>
+            Resume
+          </button>
+        )}
+        {(active || item.status === "paused" || (item.status === "error" && !blocked)) && (
+          <button type="button" className="btn btn-danger" onClick={onCancel}>
+            Cancel upload
+          </button>
+        )}
+        {(item.status === "waiting" || item.status === "cancelled" || blocked) && (
+          <button type="button" className="btn" onClick={onRemove}>
+            Remove from list
+          </button>
+        )}
       </div>
     </li>
   );

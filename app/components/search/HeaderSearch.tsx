@@ -47,7 +47,9 @@ export function HeaderSearch() {
   return (
     <div className="relative max-w-md" onBlur={(e) => !e.currentTarget.contains(e.relatedTarget) && setOpen(false)}>
       <Form method="get" action="/search" role="search" onSubmit={() => setOpen(false)}>
-        <label htmlFor="header-search" className="sr-only">Search the shop's knowledge</label>
+        <label htmlFor="header-search" className="sr-only">
+          Search the shop's knowledge
+        </label>
         <input
           ref={input}
           id="header-search"
@@ -70,25 +72,53 @@ export function HeaderSearch() {
         />
         {/* The "/" shortcut is told only where there is a keyboard and a fine pointer, not on a tablet. */}
         {!q && (
-          <kbd aria-hidden="true" className="pointer-events-none absolute top-1/2 right-2 hidden -translate-y-1/2 rounded border border-rule bg-paper px-1.5 font-sans text-xs text-graphite-soft pointer-fine:block" data-testid="search-shortcut">/</kbd>
+          <kbd
+            aria-hidden="true"
+            className="pointer-events-none absolute top-1/2 right-2 hidden -translate-y-1/2 rounded border border-rule bg-paper px-1.5 font-sans text-xs text-graphite-soft pointer-fine:block"
+            data-testid="search-shortcut"
+          >
+            /
+          </kbd>
         )}
       </Form>
       {open && q.trim().length >= 2 && (
-        <div id={listId} className="absolute left-0 right-0 z-30 mt-1 max-h-[70vh] overflow-auto rounded-md border border-rule bg-card shadow-lg" data-testid="search-dropdown">
+        <div
+          id={listId}
+          className="absolute left-0 right-0 z-30 mt-1 max-h-[70vh] overflow-auto rounded-md border border-rule bg-card shadow-lg"
+          data-testid="search-dropdown"
+        >
           {data?.error && <p className="px-4 py-3 text-base text-graphite-soft lg:text-sm">{data.reason ?? "Search is unavailable."}</p>}
-          {!data?.error && hits.length === 0 && fetcher.state === "idle" && data && <p className="px-4 py-3 text-base text-graphite-soft lg:text-sm">Nothing found for “{q.trim()}”.</p>}
+          {!data?.error && hits.length === 0 && fetcher.state === "idle" && data && (
+            <p className="px-4 py-3 text-base text-graphite-soft lg:text-sm">Nothing found for “{q.trim()}”.</p>
+          )}
           {[...groups.entries()].map(([kind, list]) => (
             <section key={kind} className="border-b border-rule/70 last:border-0">
-              <h3 className="bg-paper-deep/60 px-4 py-1 font-sans text-sm font-semibold uppercase tracking-wide text-graphite-soft lg:text-xs">{KIND_LABELS[kind] ?? kind}</h3>
+              <h3 className="bg-paper-deep/60 px-4 py-1 font-sans text-sm font-semibold uppercase tracking-wide text-graphite-soft lg:text-xs">
+                {KIND_LABELS[kind] ?? kind}
+              </h3>
               <ul>
                 {list.map((h) => (
                   <li key={h.id}>
                     {/* Below 1024 px (a tablet) the text is a size up and each hit at least 44 px tall. */}
-                    <Link to={h.url} reloadDocument={opensAtText(h.url)} className="block min-h-11 px-4 py-2.5 text-base text-graphite no-underline hover:bg-paper lg:min-h-0 lg:py-2 lg:text-sm" onClick={() => setOpen(false)} data-testid="search-hit">
-                      <span className="font-semibold"><Highlighted text={h.title} /></span>
-                      {h.t != null && h.kind !== "reading" && <span className="num ml-2 text-sm text-teal lg:text-xs">at {clock(h.t)}</span>}
+                    <Link
+                      to={h.url}
+                      reloadDocument={opensAtText(h.url)}
+                      className="block min-h-11 px-4 py-2.5 text-base text-graphite no-underline hover:bg-paper lg:min-h-0 lg:py-2 lg:text-sm"
+                      onClick={() => setOpen(false)}
+                      data-testid="search-hit"
+                    >
+                      <span className="font-semibold">
+                        <Highlighted text={h.title} />
+                      </span>
+                      {h.t != null && h.kind !== "reading" && (
+                        <span className="num ml-2 text-sm text-teal lg:text-xs">at {clock(h.t)}</span>
+                      )}
                       {h.context && <span className="ml-2 text-sm text-graphite-soft lg:text-xs">· {h.context}</span>}
-                      {h.snippet && <span className="mt-0.5 block text-sm text-graphite-soft lg:text-xs"><Highlighted text={h.snippet} /></span>}
+                      {h.snippet && (
+                        <span className="mt-0.5 block text-sm text-graphite-soft lg:text-xs">
+                          <Highlighted text={h.snippet} />
+                        </span>
+                      )}
                     </Link>
                     <ReadingMatches hit={h} compact onOpen={() => setOpen(false)} />
                   </li>
@@ -97,7 +127,11 @@ export function HeaderSearch() {
             </section>
           ))}
           {hits.length > 0 && (
-            <button type="button" className="block min-h-11 w-full px-4 py-2.5 text-left text-base font-semibold text-teal hover:bg-paper lg:min-h-0 lg:py-2 lg:text-sm" onClick={() => navigate(`/search?q=${encodeURIComponent(q.trim())}`)}>
+            <button
+              type="button"
+              className="block min-h-11 w-full px-4 py-2.5 text-left text-base font-semibold text-teal hover:bg-paper lg:min-h-0 lg:py-2 lg:text-sm"
+              onClick={() => navigate(`/search?q=${encodeURIComponent(q.trim())}`)}
+            >
               All results for “{q.trim()}” →
             </button>
           )}

@@ -5,7 +5,9 @@ export function Highlighted({ text }: { text: string }) {
     <>
       {highlightPieces(text).map((p, i) =>
         p.hit ? (
-          <mark key={i} className="-mx-px rounded-sm bg-brass-soft px-px text-graphite">{p.text}</mark>
+          <mark key={i} className="-mx-px rounded-sm bg-brass-soft px-px text-graphite">
+            {p.text}
+          </mark>
         ) : (
           <span key={i}>{p.text}</span>
         ),

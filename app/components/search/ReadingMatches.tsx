@@ -21,7 +21,9 @@ export function ReadingMatches({ hit, onOpen, compact = false }: { hit: SearchHi
             data-testid="search-reading"
           >
             <span className="num w-12 shrink-0 text-teal">{r.t != null ? clock(r.t) : "–"}</span>
-            <span className="num"><Highlighted text={r.text} /></span>
+            <span className="num">
+              <Highlighted text={r.text} />
+            </span>
           </Link>
         </li>
       ))}

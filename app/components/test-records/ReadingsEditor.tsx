@@ -1,6 +1,13 @@
 import { useMemo, useState } from "react";
 import { UNIT_OPTIONS, type UnitKind } from "~/lib/calc";
-import { DEPTH_UNITS, POSITION_FIELD_WORDS, positionFieldsForSpec, positionText, type Position, type PositionField } from "~/lib/recordings/positions";
+import {
+  DEPTH_UNITS,
+  POSITION_FIELD_WORDS,
+  positionFieldsForSpec,
+  positionText,
+  type Position,
+  type PositionField,
+} from "~/lib/recordings/positions";
 import { quantityDef } from "~/lib/recordings/quantities";
 import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
 import { PLACE_KEYS, placeFields, type PlaceKey } from "~/lib/test-records/form";
@@ -10,7 +17,15 @@ import { limitsText, typedReadingText, unitText } from "./units";
 
 export type EditorSpec = SpecLimits & { note: string };
 type Row = { value: string; unit: string; note: string; src: string } & Record<PlaceKey, string>;
-export type PullReading = { id: string; quantity: string; label: string; valueEntered: number; valueDecimals: number | null; unitEntered: string; t: number | null } & Partial<Position>;
+export type PullReading = {
+  id: string;
+  quantity: string;
+  label: string;
+  valueEntered: number;
+  valueDecimals: number | null;
+  unitEntered: string;
+  t: number | null;
+} & Partial<Position>;
 
 const blankRow = (unit: string, keep?: Partial<Row>): Row => ({
   value: "",
@@ -63,7 +78,15 @@ export function ReadingsEditor({
   const [rows, setRows] = useState<Record<string, Row[]>>(() =>
     Object.fromEntries(specs.map((s) => [s.id, initial[s.id]?.length ? initial[s.id] : [blankRow(s.unit)]])),
   );
-  const [used, setUsed] = useState<Set<string>>(() => new Set(Object.values(initial).flat().map((r) => r.src).filter(Boolean)));
+  const [used, setUsed] = useState<Set<string>>(
+    () =>
+      new Set(
+        Object.values(initial)
+          .flat()
+          .map((r) => r.src)
+          .filter(Boolean),
+      ),
+  );
 
   const set = (specId: string, i: number, patch: Partial<Row>) =>
     setRows((prev) => ({ ...prev, [specId]: prev[specId].map((r, j) => (j === i ? { ...r, ...patch } : r)) }));
@@ -102,7 +125,9 @@ export function ReadingsEditor({
     <div className="space-y-4">
       {pull && pull.length > 0 && (
         <section className="card p-4" aria-labelledby="pull-h">
-          <h3 id="pull-h" className="text-base">Readings typed on the recording</h3>
+          <h3 id="pull-h" className="text-base">
+            Readings typed on the recording
+          </h3>
           <p className="text-sm text-graphite-soft">Pull a reading into the spec it belongs to; it keeps a link to its moment.</p>
           <ul className="mt-2 divide-y divide-rule/60 text-sm">
             {pull.map((p) => {
@@ -123,12 +148,22 @@ export function ReadingsEditor({
                       value=""
                       onChange={(e) => {
                         if (!e.target.value) return;
-                        add(e.target.value, { value: typedText(p.valueEntered, p.valueDecimals), unit: p.unitEntered, note: p.label, src: p.id, ...placeFields(p) });
+                        add(e.target.value, {
+                          value: typedText(p.valueEntered, p.valueDecimals),
+                          unit: p.unitEntered,
+                          note: p.label,
+                          src: p.id,
+                          ...placeFields(p),
+                        });
                         setUsed((u) => new Set(u).add(p.id));
                       }}
                     >
                       <option value="">Pull into…</option>
-                      {fits.map((s) => <option key={s.id} value={s.id}>{s.label}</option>)}
+                      {fits.map((s) => (
+                        <option key={s.id} value={s.id}>
+                          {s.label}
+                        </option>
+                      ))}
                     </select>
                   ) : (
                     <span className="text-graphite-soft">no {(quantityDef(p.quantity)?.label ?? p.quantity).toLowerCase()} spec</span>
@@ -149,7 +184,9 @@ export function ReadingsEditor({
             <legend className="sr-only">{s.label}</legend>
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <div>
-                <h3 className="text-base" aria-hidden="true">{s.label}</h3>
+                <h3 className="text-base" aria-hidden="true">
+                  {s.label}
+                </h3>
                 <p className="num text-sm text-graphite-soft">
                   Spec {limitsText(s)}
                   {s.note && <> · {s.note}</>}
@@ -186,8 +223,18 @@ export function ReadingsEditor({
                             value={r.value}
                             onChange={(e) => set(s.id, i, { value: e.target.value })}
                           />
-                          <select name={`${base}.unit`} className="field w-auto" aria-label={`${s.label} reading ${i + 1} unit`} value={r.unit} onChange={(e) => set(s.id, i, { unit: e.target.value })}>
-                            {(UNIT_OPTIONS[kind] ?? []).map((u) => <option key={u.code} value={u.code}>{u.label}</option>)}
+                          <select
+                            name={`${base}.unit`}
+                            className="field w-auto"
+                            aria-label={`${s.label} reading ${i + 1} unit`}
+                            value={r.unit}
+                            onChange={(e) => set(s.id, i, { unit: e.target.value })}
+                          >
+                            {(UNIT_OPTIONS[kind] ?? []).map((u) => (
+                              <option key={u.code} value={u.code}>
+                                {u.label}
+                              </option>
+                            ))}
                           </select>
                         </div>
                       </Small>
@@ -207,8 +254,18 @@ export function ReadingsEditor({
                               onChange={(e) => set(s.id, i, { [f]: e.target.value })}
                             />
                             {f === "depth" && (
-                              <select name={`${base}.depthUnit`} className="field w-auto" aria-label={`${s.label} reading ${i + 1} depth unit`} value={r.depthUnit} onChange={(e) => set(s.id, i, { depthUnit: e.target.value })}>
-                                {DEPTH_UNITS.map((u) => <option key={u} value={u}>{unitText(u)}</option>)}
+                              <select
+                                name={`${base}.depthUnit`}
+                                className="field w-auto"
+                                aria-label={`${s.label} reading ${i + 1} depth unit`}
+                                value={r.depthUnit}
+                                onChange={(e) => set(s.id, i, { depthUnit: e.target.value })}
+                              >
+                                {DEPTH_UNITS.map((u) => (
+                                  <option key={u} value={u}>
+                                    {unitText(u)}
+                                  </option>
+                                ))}
                               </select>
                             )}
                           </div>
@@ -226,24 +283,45 @@ export function ReadingsEditor({
                         />
                       </Small>
                       <div className="ml-auto flex items-center gap-2 whitespace-nowrap pb-2">
-                        <span className="inline-block w-20 text-right">{verdict ? <ReadingVerdictTag verdict={verdict.verdict} /> : <span className="text-sm text-graphite-soft">—</span>}</span>
-                        <button type="button" className="text-sm text-graphite-soft underline-offset-2 hover:underline" onClick={() => remove(s.id, i)} aria-label={`Remove ${s.label} reading ${i + 1}`}>
+                        <span className="inline-block w-20 text-right">
+                          {verdict ? (
+                            <ReadingVerdictTag verdict={verdict.verdict} />
+                          ) : (
+                            <span className="text-sm text-graphite-soft">—</span>
+                          )}
+                        </span>
+                        <button
+                          type="button"
+                          className="text-sm text-graphite-soft underline-offset-2 hover:underline"
+                          onClick={() => remove(s.id, i)}
+                          aria-label={`Remove ${s.label} reading ${i + 1}`}
+                        >
                           Remove
                         </button>
                       </div>
                       {r.src && <input type="hidden" name={`${base}.src`} value={r.src} />}
                     </div>
-                    {err && <p className="field-error" role="alert">{err}</p>}
+                    {err && (
+                      <p className="field-error" role="alert">
+                        {err}
+                      </p>
+                    )}
                   </div>
                 );
               })}
             </div>
-            <button type="button" className="btn mt-2 py-1 text-sm" onClick={() => add(s.id)}>+ Another reading</button>
+            <button type="button" className="btn mt-2 py-1 text-sm" onClick={() => add(s.id)}>
+              + Another reading
+            </button>
           </fieldset>
         );
       })}
 
-      <div className="card flex flex-wrap items-center justify-between gap-3 border-brass/40 bg-brass-soft/30 p-4" aria-live="polite" data-testid="verdict-preview">
+      <div
+        className="card flex flex-wrap items-center justify-between gap-3 border-brass/40 bg-brass-soft/30 p-4"
+        aria-live="polite"
+        data-testid="verdict-preview"
+      >
         <div>
           <p className="text-sm font-semibold">Verdict as typed</p>
           <p className="num text-sm text-graphite-soft">
@@ -258,10 +336,22 @@ export function ReadingsEditor({
 }
 
 /** A field with its small label above, so a reading's row can wrap on a tablet. */
-function Small({ label, htmlFor, className = "", children }: { label: string; htmlFor: string; className?: string; children: React.ReactNode }) {
+function Small({
+  label,
+  htmlFor,
+  className = "",
+  children,
+}: {
+  label: string;
+  htmlFor: string;
+  className?: string;
+  children: React.ReactNode;
+}) {
   return (
     <div className={`flex flex-col ${className}`}>
-      <label htmlFor={htmlFor} className="mb-0.5 text-xs font-semibold text-graphite-soft">{label}</label>
+      <label htmlFor={htmlFor} className="mb-0.5 text-xs font-semibold text-graphite-soft">
+        {label}
+      </label>
       {children}
     </div>
   );

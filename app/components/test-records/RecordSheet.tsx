@@ -3,8 +3,28 @@ import type { SpecVerdict } from "~/lib/test-records/verdict";
 import { fmtDay, ReadingVerdictTag, SpecVerdictTag } from "./parts";
 import { inSpecUnitText, limitsText, typedReadingText } from "./units";
 
-type Spec = { id: string; specKey: string; label: string; unit: string; min: number | null; max: number | null; nominal: number | null; note: string };
-type Reading = { id: string; specId: string; position: number; valueEntered: number; valueDecimals: number | null; unitEntered: string; valueInSpecUnit: number; verdict: "within" | "below" | "above" | "unchecked"; note: string; sourceReadingId: string | null };
+type Spec = {
+  id: string;
+  specKey: string;
+  label: string;
+  unit: string;
+  min: number | null;
+  max: number | null;
+  nominal: number | null;
+  note: string;
+};
+type Reading = {
+  id: string;
+  specId: string;
+  position: number;
+  valueEntered: number;
+  valueDecimals: number | null;
+  unitEntered: string;
+  valueInSpecUnit: number;
+  verdict: "within" | "below" | "above" | "unchecked";
+  note: string;
+  sourceReadingId: string | null;
+};
 
 /** Readings grouped by spec, each with its verdict; specs without readings say "Not measured". */
 export function ReadingsTable({
@@ -44,11 +64,18 @@ export function ReadingsTable({
           <>
             <td className="px-3 py-1.5 align-top font-semibold" rowSpan={Math.max(rs.length, 1)}>
               {s.label}
-              <div className="font-normal"><SpecVerdictTag verdict={sv} /></div>
+              <div className="font-normal">
+                <SpecVerdictTag verdict={sv} />
+              </div>
             </td>
-            <td className="num whitespace-nowrap px-3 py-1.5 align-top" rowSpan={Math.max(rs.length, 1)}>{limitsText(s)}</td>
+            <td className="num whitespace-nowrap px-3 py-1.5 align-top" rowSpan={Math.max(rs.length, 1)}>
+              {limitsText(s)}
+            </td>
             {currentSpecs && (
-              <td className={`num px-3 py-1.5 align-top ${changed ? "font-semibold text-brass" : "text-graphite-soft"}`} rowSpan={Math.max(rs.length, 1)}>
+              <td
+                className={`num px-3 py-1.5 align-top ${changed ? "font-semibold text-brass" : "text-graphite-soft"}`}
+                rowSpan={Math.max(rs.length, 1)}
+              >
                 {now ? `${limitsText(now)}${changed ? " (changed)" : ""}` : "no longer in the procedure"}
               </td>
             )}
@@ -60,19 +87,35 @@ export function ReadingsTable({
               rs.map((r, i) => (
                 <tr key={r.id}>
                   {i === 0 && head}
-                  <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">{typedReadingText(r)}</td>
-                  <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">{r.unitEntered === s.unit ? "" : inSpecUnitText(r, s)}</td>
-                  <td className="px-3 py-1"><ReadingVerdictTag verdict={r.verdict} /></td>
+                  <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">
+                    {typedReadingText(r)}
+                  </td>
+                  <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">
+                    {r.unitEntered === s.unit ? "" : inSpecUnitText(r, s)}
+                  </td>
+                  <td className="px-3 py-1">
+                    <ReadingVerdictTag verdict={r.verdict} />
+                  </td>
                   <td className="px-3 py-1 font-sans text-graphite-soft">
                     {r.note}
-                    {r.sourceReadingId && recording && <> · <Link to={`/recordings/${recording.id}`} className="no-print">from the recording</Link></>}
+                    {r.sourceReadingId && recording && (
+                      <>
+                        {" "}
+                        ·{" "}
+                        <Link to={`/recordings/${recording.id}`} className="no-print">
+                          from the recording
+                        </Link>
+                      </>
+                    )}
                   </td>
                 </tr>
               ))
             ) : (
               <tr>
                 {head}
-                <td className="px-3 py-1 text-right italic text-brass" colSpan={4}>not measured</td>
+                <td className="px-3 py-1 text-right italic text-brass" colSpan={4}>
+                  not measured
+                </td>
               </tr>
             )}
           </tbody>

@@ -1,5 +1,12 @@
 import { Link } from "react-router";
-import { READING_VERDICT_LABELS, recordVerdictParts, SPEC_VERDICT_LABELS, type ReadingVerdict, type RecordVerdict, type SpecVerdict } from "~/lib/test-records/labels";
+import {
+  READING_VERDICT_LABELS,
+  recordVerdictParts,
+  SPEC_VERDICT_LABELS,
+  type ReadingVerdict,
+  type RecordVerdict,
+  type SpecVerdict,
+} from "~/lib/test-records/labels";
 import { formatCalendarDay } from "~/lib/dates";
 
 export const fmtDay = formatCalendarDay;
@@ -21,15 +28,37 @@ const VERDICT_LOOK: Record<RecordVerdict, { cls: string; mark: string }> = {
  * The record's verdict, saying what is missing ("Incomplete: 1 spec not measured"): calm for
  * within, brass for incomplete; red is kept for "Out of spec".
  */
-export function VerdictBadge({ verdict, notMeasured = 0, size = "sm" }: { verdict: RecordVerdict | null; notMeasured?: number; size?: "sm" | "lg" }) {
+export function VerdictBadge({
+  verdict,
+  notMeasured = 0,
+  size = "sm",
+}: {
+  verdict: RecordVerdict | null;
+  notMeasured?: number;
+  size?: "sm" | "lg";
+}) {
   const big = size === "lg" ? "px-3 py-1 text-base" : "px-1.5 py-0.5 text-xs";
-  if (!verdict) return <span className={`inline-block rounded border border-dashed border-rule font-semibold text-graphite-soft ${big}`} data-testid="verdict">No readings yet</span>;
+  if (!verdict)
+    return (
+      <span
+        className={`inline-block rounded border border-dashed border-rule font-semibold text-graphite-soft ${big}`}
+        data-testid="verdict"
+      >
+        No readings yet
+      </span>
+    );
   const look = VERDICT_LOOK[verdict];
   const [head, tail] = recordVerdictParts(verdict, notMeasured);
   // Each part stays on one line; in a narrow column what is missing goes under the verdict.
   return (
-    <span className={`inline-flex flex-wrap items-center gap-x-1 rounded border font-semibold ${look.cls} ${big}`} data-testid="verdict" data-verdict={verdict}>
-      <span className="whitespace-nowrap"><span aria-hidden="true">{look.mark}</span> {head}</span>
+    <span
+      className={`inline-flex flex-wrap items-center gap-x-1 rounded border font-semibold ${look.cls} ${big}`}
+      data-testid="verdict"
+      data-verdict={verdict}
+    >
+      <span className="whitespace-nowrap">
+        <span aria-hidden="true">{look.mark}</span> {head}
+      </span>
       {tail && <span className="whitespace-nowrap">{tail}</span>}
     </span>
   );
@@ -37,13 +66,28 @@ export function VerdictBadge({ verdict, notMeasured = 0, size = "sm" }: { verdic
 
 export function SpecVerdictTag({ verdict }: { verdict: SpecVerdict }) {
   const cls =
-    verdict === "out" ? "text-spec-red" : verdict === "within" ? "text-ok" : verdict === "not-measured" ? "text-brass italic" : "text-graphite-soft";
-  return <span className={`text-sm font-semibold ${cls}`} data-testid="spec-verdict">{SPEC_VERDICT_LABELS[verdict]}</span>;
+    verdict === "out"
+      ? "text-spec-red"
+      : verdict === "within"
+        ? "text-ok"
+        : verdict === "not-measured"
+          ? "text-brass italic"
+          : "text-graphite-soft";
+  return (
+    <span className={`text-sm font-semibold ${cls}`} data-testid="spec-verdict">
+      {SPEC_VERDICT_LABELS[verdict]}
+    </span>
+  );
 }
 
 export function ReadingVerdictTag({ verdict }: { verdict: ReadingVerdict }) {
-  const cls = verdict === "below" || verdict === "above" ? "font-semibold text-spec-red" : verdict === "within" ? "text-ok" : "text-graphite-soft";
-  return <span className={`whitespace-nowrap text-sm ${cls}`} data-testid="reading-verdict">{READING_VERDICT_LABELS[verdict]}</span>;
+  const cls =
+    verdict === "below" || verdict === "above" ? "font-semibold text-spec-red" : verdict === "within" ? "text-ok" : "text-graphite-soft";
+  return (
+    <span className={`whitespace-nowrap text-sm ${cls}`} data-testid="reading-verdict">
+      {READING_VERDICT_LABELS[verdict]}
+    </span>
+  );
 }
 
 export type RecordRow = {
@@ -68,7 +112,9 @@ export function RecordMiniList({ rows, showProcedure = false }: { rows: RecordRo
       {rows.map((r) => (
         <li key={r.id} className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-0.5 py-1.5">
           <span className="min-w-0">
-            <Link to={`/test-records/${r.id}`} className="num font-semibold">{r.workOrder}</Link>{" "}
+            <Link to={`/test-records/${r.id}`} className="num font-semibold">
+              {r.workOrder}
+            </Link>{" "}
             <span className="num text-sm text-graphite-soft">
               {fmtDay(r.testedOn)} · rev. {r.revisionNumber}
               {r.revisionState === "superseded" && " (superseded)"}
@@ -88,20 +134,27 @@ export function ProcedureTestRecords({ rows, slug, canFile }: { rows: RecordRow[
   const incomplete = rows.filter((r) => r.verdict === "incomplete").length;
   return (
     <section className="card p-4" aria-labelledby="tests-h" data-testid="procedure-test-records">
-      <h2 id="tests-h" className="text-base">Test records</h2>
+      <h2 id="tests-h" className="text-base">
+        Test records
+      </h2>
       {rows.length ? (
         <>
           <p className="num mt-0.5 text-sm text-graphite-soft">
-            {rows.length} filed{out ? `, ${out} out of spec` : ""}{incomplete ? `, ${incomplete} incomplete` : ""}
+            {rows.length} filed{out ? `, ${out} out of spec` : ""}
+            {incomplete ? `, ${incomplete} incomplete` : ""}
           </p>
           <RecordMiniList rows={rows} />
-          <p className="mt-1 text-sm"><Link to={`/test-records?procedure=${encodeURIComponent(slug)}`}>All records for this procedure</Link></p>
+          <p className="mt-1 text-sm">
+            <Link to={`/test-records?procedure=${encodeURIComponent(slug)}`}>All records for this procedure</Link>
+          </p>
         </>
       ) : (
         <p className="mt-1 text-graphite-soft">No test record has been filed against this procedure yet.</p>
       )}
       {canFile && (
-        <Link to={`/test-records/new?procedure=${encodeURIComponent(slug)}`} className="btn mt-2 w-full no-underline">File a test record</Link>
+        <Link to={`/test-records/new?procedure=${encodeURIComponent(slug)}`} className="btn mt-2 w-full no-underline">
+          File a test record
+        </Link>
       )}
     </section>
   );
@@ -110,7 +163,8 @@ export function ProcedureTestRecords({ rows, slug, canFile }: { rows: RecordRow[
 export function SafetyNote() {
   return (
     <p className="text-xs text-graphite-soft">
-      Limits are the procedure revision's own. For torque, fastener and machining values the fastener maker's and the engine maker's published values take precedence; follow local codes and licensed practice.
+      Limits are the procedure revision's own. For torque, fastener and machining values the fastener maker's and the engine maker's
+      published values take precedence; follow local codes and licensed practice.
     </p>
   );
 }

@@ -25,13 +25,18 @@ export function limitsText(s: { min: number | null; max: number | null; nominal?
  * A reading converted into its spec's unit, at the resolution it was typed with (or the spec's,
  * whichever is finer), with the unit: "110 N·m" for 81 ft·lbf. The exact value stays stored.
  */
-export function inSpecUnitText(r: { valueEntered: number; valueDecimals?: number | null; unitEntered: string }, s: { unit: string; min: number | null; max: number | null; nominal?: number | null }): string {
+export function inSpecUnitText(
+  r: { valueEntered: number; valueDecimals?: number | null; unitEntered: string },
+  s: { unit: string; min: number | null; max: number | null; nominal?: number | null },
+): string {
   if (!isUnitCode(r.unitEntered) || !isUnitCode(s.unit)) return "—";
   return `${formatMeasured(r.valueEntered, r.unitEntered, s.unit, specDecimals(s), r.valueDecimals)} ${unitText(s.unit)}`;
 }
 
 /** A reading in the unit it was typed in, at the resolution typed: "88.010 mm". */
 export function typedReadingText(r: { valueEntered: number; valueDecimals?: number | null; unitEntered: string }): string {
-  const shown = isUnitCode(r.unitEntered) ? formatMeasured(r.valueEntered, r.unitEntered, r.unitEntered, 0, r.valueDecimals) : typedText(r.valueEntered, r.valueDecimals);
+  const shown = isUnitCode(r.unitEntered)
+    ? formatMeasured(r.valueEntered, r.unitEntered, r.unitEntered, 0, r.valueDecimals)
+    : typedText(r.valueEntered, r.valueDecimals);
   return `${shown} ${unitText(r.unitEntered)}`;
 }

@@ -10,10 +10,16 @@ import { distortionFieldsFor } from "./positions";
 
 export const boreSourceSearch = z.object({
   recording: optionalSearch(uuid),
-  cylinder: optionalSearch(wholeNumberParam.refine((n) => n >= POSITION_RANGES.cylinder.min && n <= POSITION_RANGES.cylinder.max, { message: "Not a cylinder number." })),
+  cylinder: optionalSearch(
+    wholeNumberParam.refine((n) => n >= POSITION_RANGES.cylinder.min && n <= POSITION_RANGES.cylinder.max, {
+      message: "Not a cylinder number.",
+    }),
+  ),
 });
 
-export type BoreSource = { recordingId: string; title: string; cylinder: number; values: Record<string, string> } | { recordingId: string; title: string; cylinder: number; values: null };
+export type BoreSource =
+  | { recordingId: string; title: string; cylinder: number; values: Record<string, string> }
+  | { recordingId: string; title: string; cylinder: number; values: null };
 
 /** The prefill the address asks for; null when it asks for none (a malformed one is a 400). */
 export async function boreSourceFor(request: Request): Promise<BoreSource | null> {
@@ -33,5 +39,12 @@ export async function boreSourceFor(request: Request): Promise<BoreSource | null
 export function distortionValuesFor(source: BoreSource, defaults: Record<string, string>): Record<string, string> | null {
   if (!source.values) return null;
   const kept = Object.fromEntries(Object.entries(defaults).filter(([k]) => !/^[mc]\.\d+\.\d+$/.test(k)));
-  return { ...kept, "compare.on": "", "reference.value": "", "reference.unit": source.values["reading.unit"], "label.main": `Cyl ${source.cylinder}`, ...source.values };
+  return {
+    ...kept,
+    "compare.on": "",
+    "reference.value": "",
+    "reference.unit": source.values["reading.unit"],
+    "label.main": `Cyl ${source.cylinder}`,
+    ...source.values,
+  };
 }

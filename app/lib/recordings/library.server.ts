@@ -4,7 +4,13 @@ import { db } from "../db.server";
 import { STATES_WITHOUT_READINGS } from "./reading-targets";
 
 /** `takesReadings`: only recordings new readings may go to (reading-targets.ts). */
-export type LibraryFilter = { tag?: string | null; uploader?: string | null; sort?: "newest" | "oldest"; q?: string | null; takesReadings?: boolean };
+export type LibraryFilter = {
+  tag?: string | null;
+  uploader?: string | null;
+  sort?: "newest" | "oldest";
+  q?: string | null;
+  takesReadings?: boolean;
+};
 
 const markCount = sql<number>`(select count(*)::int from ${marks} where ${marks.recordingId} = ${recordings.id})`;
 const readingCount = sql<number>`(select count(*)::int from ${readings} where ${readings.recordingId} = ${recordings.id})`;
@@ -41,7 +47,9 @@ export async function listRecordings(f: LibraryFilter = {}) {
 
 /** Tags and uploaders that occur, for the library's filters. */
 export async function libraryFacets() {
-  const tags = await db().execute<{ tag: string; n: number }>(sql`select mode() within group (order by t) as tag, count(*)::int as n from ${recordings}, unnest(${recordings.tags}) t group by lower(t) order by n desc, lower(t) limit 60`);
+  const tags = await db().execute<{ tag: string; n: number }>(
+    sql`select mode() within group (order by t) as tag, count(*)::int as n from ${recordings}, unnest(${recordings.tags}) t group by lower(t) order by n desc, lower(t) limit 60`,
+  );
   const uploaders = await db()
     .selectDistinct({ id: users.id, name: users.name })
     .from(recordings)
@@ -111,7 +119,11 @@ export async function listReadings(recordingId: string) {
 }
 
 export async function procedureChoices() {
-  return db().select({ id: procedures.id, title: procedures.title, area: procedures.area }).from(procedures).orderBy(procedures.title).limit(500);
+  return db()
+    .select({ id: procedures.id, title: procedures.title, area: procedures.area })
+    .from(procedures)
+    .orderBy(procedures.title)
+    .limit(500);
 }
 
 type MediaFacts = { id: string; state: string; hasRendition: boolean; hasPoster: boolean; hasOriginal: boolean; originalName: string };
@@ -123,7 +135,14 @@ type MediaFacts = { id: string; state: string; hasRendition: boolean; hasPoster:
 export async function mediaFacts(id: string): Promise<MediaFacts | null> {
   if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
   const [row] = await db()
-    .select({ id: recordings.id, state: recordings.state, hasRendition: recordings.hasRendition, hasPoster: recordings.hasPoster, hasOriginal: recordings.hasOriginal, originalName: recordings.originalName })
+    .select({
+      id: recordings.id,
+      state: recordings.state,
+      hasRendition: recordings.hasRendition,
+      hasPoster: recordings.hasPoster,
+      hasOriginal: recordings.hasOriginal,
+      originalName: recordings.originalName,
+    })
     .from(recordings)
     .where(eq(recordings.id, id));
   return row ?? null;

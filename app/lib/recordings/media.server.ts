@@ -59,7 +59,10 @@ export async function serveFile(request: Request, file: string, opts: ServeOptio
     Vary: "Cookie",
   });
   if (opts.download) {
-    headers.set("Content-Disposition", `attachment; filename="${asciiName(opts.download)}"; filename*=UTF-8''${encodeURIComponent(opts.download)}`);
+    headers.set(
+      "Content-Disposition",
+      `attachment; filename="${asciiName(opts.download)}"; filename*=UTF-8''${encodeURIComponent(opts.download)}`,
+    );
   }
   const inm = request.headers.get("if-none-match");
   if (inm && inm.split(",").some((t) => t.trim() === etag || t.trim() === "*")) return new Response(null, { status: 304, headers });

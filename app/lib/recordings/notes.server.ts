@@ -36,7 +36,8 @@ async function procedureUnreadable(reader: Reader, id: string | null | undefined
 }
 
 /** A value the rules refuse, as the API's 422 with the field it belongs to. */
-const refused = (path: string, message: string) => domainErrorJson(new DomainError(message, { status: 422, field: path, issues: [{ path, message }] }));
+const refused = (path: string, message: string) =>
+  domainErrorJson(new DomainError(message, { status: 422, field: path, issues: [{ path, message }] }));
 
 const unknownProcedure = () => refused("procedureId", "That procedure does not exist, or it is not published yet.");
 
@@ -46,14 +47,22 @@ const unknownProcedure = () => refused("procedureId", "That procedure does not e
  */
 export async function marksFor(reader: Reader, recordingId: string) {
   const rows = await listMarks(recordingId);
-  const readable = await readableProcedureIds(reader, rows.flatMap((m) => (m.procedureId ? [m.procedureId] : [])));
-  return rows.map((m) => (m.procedureId && !readable.has(m.procedureId) ? { ...m, procedureTitle: UNREADABLE_PROCEDURE, procedureSlug: null } : m));
+  const readable = await readableProcedureIds(
+    reader,
+    rows.flatMap((m) => (m.procedureId ? [m.procedureId] : [])),
+  );
+  return rows.map((m) =>
+    m.procedureId && !readable.has(m.procedureId) ? { ...m, procedureTitle: UNREADABLE_PROCEDURE, procedureSlug: null } : m,
+  );
 }
 
 /** The procedures a mark's link may be set to by `reader` (the watch page's choices). */
 export async function procedureChoicesFor(reader: Reader) {
   const all = await procedureChoices();
-  const readable = await readableProcedureIds(reader, all.map((p) => p.id));
+  const readable = await readableProcedureIds(
+    reader,
+    all.map((p) => p.id),
+  );
   return all.filter((p) => readable.has(p.id));
 }
 
@@ -82,7 +91,10 @@ export async function createMark(request: Request, user: SessionUser, recordingI
 
 async function markOr404(request: Request, recordingId: string, markId: string) {
   if (!z.string().uuid().safeParse(markId).success) notFound(request, "mark");
-  const [m] = await db().select().from(marks).where(and(eq(marks.id, markId), eq(marks.recordingId, recordingId)));
+  const [m] = await db()
+    .select()
+    .from(marks)
+    .where(and(eq(marks.id, markId), eq(marks.recordingId, recordingId)));
   if (!m) notFound(request, "mark");
   return m;
 }
@@ -127,7 +139,9 @@ export async function createReadings(request: Request, user: SessionUser, record
   assertTakesReadings(rec);
   const one = readingInputSchema(rec.durationS);
   const isBatch = typeof body === "object" && body !== null && Array.isArray((body as { readings?: unknown }).readings);
-  const schema = isBatch ? z.object({ readings: z.array(one).min(1, "Add at least one reading.").max(500, "At most 500 readings at once.") }) : one;
+  const schema = isBatch
+    ? z.object({ readings: z.array(one).min(1, "Add at least one reading.").max(500, "At most 500 readings at once.") })
+    : one;
   const parsed = schema.safeParse(body);
   if (!parsed.success) return invalidInput(request, parsed.error);
   const items = isBatch ? (parsed.data as { readings: z.infer<typeof one>[] }).readings : [parsed.data as z.infer<typeof one>];
@@ -154,7 +168,10 @@ export async function createReadings(request: Request, user: SessionUser, record
 
 async function readingOr404(request: Request, recordingId: string, readingId: string) {
   if (!z.string().uuid().safeParse(readingId).success) notFound(request, "reading");
-  const [r] = await db().select().from(readings).where(and(eq(readings.id, readingId), eq(readings.recordingId, recordingId)));
+  const [r] = await db()
+    .select()
+    .from(readings)
+    .where(and(eq(readings.id, readingId), eq(readings.recordingId, recordingId)));
   if (!r) notFound(request, "reading");
   return r;
 }
@@ -175,7 +192,9 @@ export async function updateReading(request: Request, user: SessionUser, recordi
     t: r.t,
     // The stored place goes with the stored quantity: a patch that changes the quantity says
     // the place anew (a bore's cylinder does not carry over to a torque).
-    ...(typeof body === "object" && body && "quantity" in body && (body as { quantity?: unknown }).quantity !== r.quantity ? {} : positionInputOf(r)),
+    ...(typeof body === "object" && body && "quantity" in body && (body as { quantity?: unknown }).quantity !== r.quantity
+      ? {}
+      : positionInputOf(r)),
     ...(typeof body === "object" && body ? body : {}),
   };
   const parsed = readingInputSchema(rec.durationS).safeParse(merged);
@@ -183,7 +202,18 @@ export async function updateReading(request: Request, user: SessionUser, recordi
   const v = parsed.data;
   const [row] = await db()
     .update(readings)
-    .set({ quantity: v.quantity, label: v.label, valueEntered: v.value, valueDecimals: v.valueDecimals, unitEntered: v.unit, valueSi: toStoredSI(v.quantity, v.value, v.unit), conditions: v.conditions, ...v.position, t: v.t ?? null, updatedAt: new Date() })
+    .set({
+      quantity: v.quantity,
+      label: v.label,
+      valueEntered: v.value,
+      valueDecimals: v.valueDecimals,
+      unitEntered: v.unit,
+      valueSi: toStoredSI(v.quantity, v.value, v.unit),
+      conditions: v.conditions,
+      ...v.position,
+      t: v.t ?? null,
+      updatedAt: new Date(),
+    })
     .where(eq(readings.id, readingId))
     .returning();
   return Response.json({ reading: row });

@@ -21,7 +21,10 @@ describe("a reading's position from an old label", () => {
     expect(positionFromLabel("clearance", "main 3")).toMatchObject({ position: { journal: 3 }, label: "" });
   });
   it("leaves out-of-range and repeated places in the label", () => {
-    expect(positionFromLabel("bore-diameter", "cyl 40, 400°")).toMatchObject({ position: { cylinder: null, angleDeg: null }, label: "cyl 40, 400°" });
+    expect(positionFromLabel("bore-diameter", "cyl 40, 400°")).toMatchObject({
+      position: { cylinder: null, angleDeg: null },
+      label: "cyl 40, 400°",
+    });
     expect(positionFromLabel("bore-diameter", "cyl 1, cyl 2")).toMatchObject({ position: { cylinder: 1 }, label: "cyl 2" });
     expect(positionFromLabel("other", "cyl 1")).toMatchObject({ label: "cyl 1" });
   });
@@ -45,26 +48,48 @@ describe("the reading schema's position fields", () => {
   const schema = readingInputSchema(120);
   const issues = (x: unknown) => schema.safeParse(x).error?.issues.map((i) => `${i.path.join(".")}: ${i.message}`);
   it("stores a bore reading's cylinder, depth (in metres, with the unit typed) and angle", () => {
-    const r = schema.parse({ quantity: "bore-diameter", value: 88.006, unit: "mm", cylinder: 3, depth: { value: 20, unit: "mm" }, angle: 90 });
+    const r = schema.parse({
+      quantity: "bore-diameter",
+      value: 88.006,
+      unit: "mm",
+      cylinder: 3,
+      depth: { value: 20, unit: "mm" },
+      angle: 90,
+    });
     expect(r.position).toEqual({ fastener: null, cylinder: 3, journal: null, depthM: 0.02, depthUnit: "mm", angleDeg: 90 });
   });
   it("refuses angles past 0–360°, cylinders that are not small whole numbers, and a place the quantity does not take", () => {
     expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", angle: 361 })).toEqual(["angle: An angle runs from 0 to 360°."]);
     expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", angle: -1 })).toEqual(["angle: An angle runs from 0 to 360°."]);
-    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: 2.5 })).toEqual(["cylinder: A cylinder number from 1 to 24."]);
-    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: 0 })).toEqual(["cylinder: A cylinder number from 1 to 24."]);
-    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: "3a" })).toEqual(["cylinder: A cylinder number from 1 to 24."]);
+    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: 2.5 })).toEqual([
+      "cylinder: A cylinder number from 1 to 24.",
+    ]);
+    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: 0 })).toEqual([
+      "cylinder: A cylinder number from 1 to 24.",
+    ]);
+    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: "3a" })).toEqual([
+      "cylinder: A cylinder number from 1 to 24.",
+    ]);
     expect(issues({ quantity: "clearance", value: 0.05, unit: "mm", journal: 17 })).toEqual(["journal: A journal number from 1 to 16."]);
-    expect(issues({ quantity: "torque", value: 110, unit: "N.m", cylinder: 3 })).toEqual(["cylinder: A torque reading has no cylinder; it takes stud number."]);
-    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", depth: { value: 2, unit: "m" } })).toEqual(["depth.unit: A depth is in mm or in."]);
-    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", depth: { value: 50, unit: "in" } })).toEqual(["depth: That is deeper than any bore (1 m); check the number and the unit."]);
+    expect(issues({ quantity: "torque", value: 110, unit: "N.m", cylinder: 3 })).toEqual([
+      "cylinder: A torque reading has no cylinder; it takes stud number.",
+    ]);
+    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", depth: { value: 2, unit: "m" } })).toEqual([
+      "depth.unit: A depth is in mm or in.",
+    ]);
+    expect(issues({ quantity: "bore-diameter", value: 88, unit: "mm", depth: { value: 50, unit: "in" } })).toEqual([
+      "depth: That is deeper than any bore (1 m); check the number and the unit.",
+    ]);
   });
   it("takes the place out of the label of a reading sent without position fields", () => {
     const r = schema.parse({ quantity: "bore-diameter", value: 88.006, unit: "mm", label: "cyl 3, 20 mm down, 90°, plate on" });
     expect(r.position).toMatchObject({ cylinder: 3, depthM: 0.02, angleDeg: 90 });
     expect(r.label).toBe("plate on");
     // with a field given, the label is the person's own words and stays whole
-    expect(schema.parse({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: 1, label: "cyl 3" })).toMatchObject({ label: "cyl 3", position: { cylinder: 1 } });
+    expect(schema.parse({ quantity: "bore-diameter", value: 88, unit: "mm", cylinder: 1, label: "cyl 3" })).toMatchObject({
+      label: "cyl 3",
+      position: { cylinder: 1 },
+    });
   });
 });
 

@@ -136,20 +136,39 @@ export const positionInputSchema = z.object({
 });
 export type PositionInput = z.infer<typeof positionInputSchema>;
 
-const FIELD_WORDS: Record<PositionField, string> = { fastener: "stud number", cylinder: "cylinder", depth: "depth", angle: "angle", journal: "journal" };
+const FIELD_WORDS: Record<PositionField, string> = {
+  fastener: "stud number",
+  cylinder: "cylinder",
+  depth: "depth",
+  angle: "angle",
+  journal: "journal",
+};
 
 /** Issues for a position that does not fit the quantity, or a depth outside the bore (zod ctx). */
-export function positionIssues(quantity: string | PositionField[], p: PositionInput, quantityLabel: string): { path: string; message: string }[] {
+export function positionIssues(
+  quantity: string | PositionField[],
+  p: PositionInput,
+  quantityLabel: string,
+): { path: string; message: string }[] {
   const fits = typeof quantity === "string" ? positionFieldsFor(quantity) : quantity;
   const out: { path: string; message: string }[] = [];
   for (const f of ["fastener", "cylinder", "journal", "depth", "angle"] as PositionField[]) {
     if (p[f] != null && !fits.includes(f))
-      out.push({ path: f, message: `A ${quantityLabel.toLowerCase()} reading has no ${FIELD_WORDS[f]}${fits.length ? `; it takes ${fits.map((x) => FIELD_WORDS[x]).join(", ")}` : ""}.` });
+      out.push({
+        path: f,
+        message: `A ${quantityLabel.toLowerCase()} reading has no ${FIELD_WORDS[f]}${fits.length ? `; it takes ${fits.map((x) => FIELD_WORDS[x]).join(", ")}` : ""}.`,
+      });
   }
   if (p.depth) {
     const m = toSI(p.depth.value, p.depth.unit);
     if (m < POSITION_RANGES.depthM.min || m > POSITION_RANGES.depthM.max)
-      out.push({ path: "depth", message: p.depth.value < 0 ? "A depth below the deck cannot be negative." : "That is deeper than any bore (1 m); check the number and the unit." });
+      out.push({
+        path: "depth",
+        message:
+          p.depth.value < 0
+            ? "A depth below the deck cannot be negative."
+            : "That is deeper than any bore (1 m); check the number and the unit.",
+      });
   }
   return out;
 }
@@ -246,12 +265,19 @@ export function positionFromLabel(quantity: string | PositionField[], label: str
 
 // ---- Bore distortion ---------------------------------------------------------------------------
 
-export type BoreReadingLike = Partial<Position> & { quantity: string; valueEntered: number; unitEntered: string; valueSi: number; valueDecimals?: number | null };
+export type BoreReadingLike = Partial<Position> & {
+  quantity: string;
+  valueEntered: number;
+  unitEntered: string;
+  valueSi: number;
+  valueDecimals?: number | null;
+};
 
 /** The cylinders of a recording's bore-diameter readings that have a depth and an angle. */
 export function boreCylinders(readings: BoreReadingLike[]): number[] {
   const set = new Set<number>();
-  for (const r of readings) if (r.quantity === "bore-diameter" && r.cylinder != null && r.depthM != null && r.angleDeg != null) set.add(r.cylinder);
+  for (const r of readings)
+    if (r.quantity === "bore-diameter" && r.cylinder != null && r.depthM != null && r.angleDeg != null) set.add(r.cylinder);
   return [...set].sort((a, b) => a - b);
 }
 
@@ -263,7 +289,8 @@ export function boreCylinders(readings: BoreReadingLike[]): number[] {
 export function distortionFieldsFor(readings: BoreReadingLike[], cylinder: number): Record<string, string> | null {
   const mine = readings.filter((r) => r.quantity === "bore-diameter" && r.cylinder === cylinder && r.depthM != null && r.angleDeg != null);
   if (!mine.length) return null;
-  const most = (xs: string[]) => [...xs.reduce((m, x) => m.set(x, (m.get(x) ?? 0) + 1), new Map<string, number>())].sort((a, b) => b[1] - a[1])[0][0];
+  const most = (xs: string[]) =>
+    [...xs.reduce((m, x) => m.set(x, (m.get(x) ?? 0) + 1), new Map<string, number>())].sort((a, b) => b[1] - a[1])[0][0];
   const depthUnit = most(mine.map((r) => (r.depthUnit === "in" ? "in" : "mm"))) as DepthUnit;
   const unit = most(mine.map((r) => r.unitEntered));
   const depths = [...new Set(mine.map((r) => r.depthM!))].sort((a, b) => a - b);

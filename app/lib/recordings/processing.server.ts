@@ -79,7 +79,9 @@ export async function probe(file: string): Promise<Probe | null> {
     return null;
   }
   const streams = j.streams ?? [];
-  const v = streams.find((s) => s.codec_type === "video" && !(s.disposition as { attached_pic?: number } | undefined)?.attached_pic) as Record<string, string & number> | undefined;
+  const v = streams.find((s) => s.codec_type === "video" && !(s.disposition as { attached_pic?: number } | undefined)?.attached_pic) as
+    | Record<string, string & number>
+    | undefined;
   const a = streams.find((s) => s.codec_type === "audio") as Record<string, string> | undefined;
   const duration = Number(j.format?.duration ?? v?.duration);
   const videoDuration = Number(v?.duration);
@@ -150,7 +152,24 @@ export function renditionArgs(plan: Exclude<Plan, "as-is">, src: string, out: st
   const codecs =
     plan === "remux"
       ? ["-c", "copy"]
-      : ["-c:v", "libx264", "-preset", "veryfast", "-crf", "23", "-pix_fmt", "yuv420p", "-vf", "scale='min(1920,iw)':-2", "-threads", "2", "-c:a", "aac", "-b:a", "128k"];
+      : [
+          "-c:v",
+          "libx264",
+          "-preset",
+          "veryfast",
+          "-crf",
+          "23",
+          "-pix_fmt",
+          "yuv420p",
+          "-vf",
+          "scale='min(1920,iw)':-2",
+          "-threads",
+          "2",
+          "-c:a",
+          "aac",
+          "-b:a",
+          "128k",
+        ];
   return ["-i", src, "-map", "0:v:0", "-map", "0:a:0?", ...codecs, "-movflags", "+faststart", "-f", "mp4", out];
 }
 
@@ -160,7 +179,11 @@ async function setProgress(id: string, progress: number) {
 
 /** Runs ffmpeg; onSeconds gets the output's time as it grows (from -progress). */
 async function ffmpeg(args: string[], onSeconds: (s: number) => void = () => {}): Promise<void> {
-  const r = await run(env().FFMPEG_PATH, ["-hide_banner", "-nostdin", "-y", "-progress", "pipe:1", "-nostats", ...args], progressParser(onSeconds));
+  const r = await run(
+    env().FFMPEG_PATH,
+    ["-hide_banner", "-nostdin", "-y", "-progress", "pipe:1", "-nostats", ...args],
+    progressParser(onSeconds),
+  );
   if (r.code !== 0) {
     const last = r.stderr.trim().split("\n").slice(-2).join(" ").slice(0, 400);
     throw new Error(`ffmpeg failed: ${last || `exit code ${r.code}`}`);
@@ -203,7 +226,24 @@ async function readThrough(file: string, codec: string[], onSeconds: (s: number)
   let decodedS = 0;
   const r = await run(
     env().FFMPEG_PATH,
-    ["-hide_banner", "-nostdin", "-v", "error", "-xerror", "-progress", "pipe:1", "-nostats", "-i", file, "-map", "0:v:0", ...codec, "-f", "null", "-"],
+    [
+      "-hide_banner",
+      "-nostdin",
+      "-v",
+      "error",
+      "-xerror",
+      "-progress",
+      "pipe:1",
+      "-nostats",
+      "-i",
+      file,
+      "-map",
+      "0:v:0",
+      ...codec,
+      "-f",
+      "null",
+      "-",
+    ],
     progressParser((sec) => {
       decodedS = sec;
       onSeconds(sec);
@@ -229,7 +269,10 @@ export function damageReason(check: DecodeCheck, expectedS: number): string | nu
 
 /** A process's command line as its arguments, or null when it has ended. */
 async function cmdline(pid: number): Promise<string[] | null> {
-  return fs.readFile(`/proc/${pid}/cmdline`, "latin1").then((s) => s.split("\0"), () => null);
+  return fs.readFile(`/proc/${pid}/cmdline`, "latin1").then(
+    (s) => s.split("\0"),
+    () => null,
+  );
 }
 
 /**
@@ -268,11 +311,15 @@ function attemptTemp(finalPath: string, attempt: string, ext: string): string {
 
 async function removeTemps(id: string): Promise<void> {
   const dir = recordingDir(id);
-  for (const f of await fs.readdir(dir).catch(() => [] as string[])) if (/\.tmp(\.\w+)?$/.test(f)) await fs.rm(path.join(dir, f), { force: true });
+  for (const f of await fs.readdir(dir).catch(() => [] as string[]))
+    if (/\.tmp(\.\w+)?$/.test(f)) await fs.rm(path.join(dir, f), { force: true });
 }
 
 async function exists(p: string) {
-  return fs.stat(p).then(() => true, () => false);
+  return fs.stat(p).then(
+    () => true,
+    () => false,
+  );
 }
 
 /** Reject: the bytes are not a video. The original is removed; the row keeps the reason. */
@@ -280,7 +327,15 @@ async function reject(id: string, reason: string) {
   await fs.rm(recordingDir(id), { recursive: true, force: true });
   await db()
     .update(recordings)
-    .set({ state: "rejected", stateReason: reason, hasOriginal: false, hasPoster: false, hasRendition: false, progress: 1, updatedAt: new Date() })
+    .set({
+      state: "rejected",
+      stateReason: reason,
+      hasOriginal: false,
+      hasPoster: false,
+      hasRendition: false,
+      progress: 1,
+      updatedAt: new Date(),
+    })
     .where(eq(recordings.id, id));
 }
 
@@ -298,19 +353,33 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
   await killLeftovers(id);
   await removeTemps(id);
   const attempt = `${process.pid}-${randomBytes(4).toString("hex")}`;
-  await db().update(recordings).set({ attempts: sql`${recordings.attempts} + 1`, state: "processing", stateReason: null, progress: 0.02, updatedAt: new Date() }).where(eq(recordings.id, id));
+  await db()
+    .update(recordings)
+    .set({ attempts: sql`${recordings.attempts} + 1`, state: "processing", stateReason: null, progress: 0.02, updatedAt: new Date() })
+    .where(eq(recordings.id, id));
   const src = originalPath(id);
   if (!(await exists(src))) {
-    await db().update(recordings).set({ state: "failed", stateReason: "The uploaded file is missing from the store.", hasOriginal: false, updatedAt: new Date() }).where(eq(recordings.id, id));
+    await db()
+      .update(recordings)
+      .set({ state: "failed", stateReason: "The uploaded file is missing from the store.", hasOriginal: false, updatedAt: new Date() })
+      .where(eq(recordings.id, id));
     return "skipped";
   }
   const p = await probe(src);
   if (!p) {
-    await reject(id, "This file is not a video the shop can read (ffprobe found no media in it). It may be another kind of file, or truncated.");
+    await reject(
+      id,
+      "This file is not a video the shop can read (ffprobe found no media in it). It may be another kind of file, or truncated.",
+    );
     return "rejected";
   }
   if (!p.video || p.video.width === 0) {
-    await reject(id, p.audio ? "This file has sound but no picture; only videos can be recordings." : "This file has no video stream; only videos can be recordings.");
+    await reject(
+      id,
+      p.audio
+        ? "This file has sound but no picture; only videos can be recordings."
+        : "This file has no video stream; only videos can be recordings.",
+    );
     return "rejected";
   }
   if (!p.durationS || /^(image2|png_pipe|jpeg_pipe|gif|webp_pipe)/.test(p.formatName)) {
@@ -348,14 +417,20 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     if (!check.ok || Math.abs(check.decodedS - made.decodedS) > durationTolerance(made.decodedS)) {
       await fs.rm(tmp, { force: true });
       const damage = plan === "transcode" ? damageReason(await decodeCheck(src), expectedS) : null;
-      if (!damage) throw new Error(`the browser copy did not verify (${check.ok ? `it lasts ${formatTime(check.decodedS)}, the source ${formatTime(made.decodedS)}` : `it does not read back: ${check.error}`})`);
+      if (!damage)
+        throw new Error(
+          `the browser copy did not verify (${check.ok ? `it lasts ${formatTime(check.decodedS)}, the source ${formatTime(made.decodedS)}` : `it does not read back: ${check.error}`})`,
+        );
       made = { damage };
     }
   }
   if ("damage" in made) {
     await Promise.allSettled([poster]);
     await removeTemps(id);
-    await db().update(recordings).set({ state: "damaged", stateReason: made.damage, progress: 1, updatedAt: new Date() }).where(eq(recordings.id, id));
+    await db()
+      .update(recordings)
+      .set({ state: "damaged", stateReason: made.damage, progress: 1, updatedAt: new Date() })
+      .where(eq(recordings.id, id));
     return "damaged";
   }
   await poster;
@@ -494,7 +569,11 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
   // A decode check still active belonged to a worker that died during it (this one has not
   // started any yet): failing it hands it to pg-boss's retry now instead of at its expiry.
   const orphans = await db().execute<{ id: string }>(sql`select id from pgboss.job where name = ${DECODE_QUEUE} and state = 'active'`);
-  if (orphans.rows.length) await b.fail(DECODE_QUEUE, orphans.rows.map((r) => r.id));
+  if (orphans.rows.length)
+    await b.fail(
+      DECODE_QUEUE,
+      orphans.rows.map((r) => r.id),
+    );
   await b.work<{ recordingId: string; expectedS: number }>(DECODE_QUEUE, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
     const outcome = await checkDecodeAfterReady(job.data.recordingId, job.data.expectedS);
     if (outcome === "damaged") console.log(`[recordings] ${job.data.recordingId}: damaged (found after ready)`);
@@ -512,7 +591,10 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
 
 /** Editors' "retry" of a failed recording. */
 export async function retryRecording(id: string): Promise<void> {
-  await db().update(recordings).set({ state: "processing", stateReason: null, progress: 0, updatedAt: new Date() }).where(eq(recordings.id, id));
+  await db()
+    .update(recordings)
+    .set({ state: "processing", stateReason: null, progress: 0, updatedAt: new Date() })
+    .where(eq(recordings.id, id));
   await enqueueProcessing(id);
 }
 

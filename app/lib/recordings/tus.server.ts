@@ -40,7 +40,10 @@ class UploadRefusal extends Error {
 
 function clean(s: string | null | undefined, max: number): string {
   // eslint-disable-next-line no-control-regex
-  return (s ?? "").replace(/[\u0000-\u001f\u007f]/g, " ").trim().slice(0, max);
+  return (s ?? "")
+    .replace(/[\u0000-\u001f\u007f]/g, " ")
+    .trim()
+    .slice(0, max);
 }
 
 async function onUploadCreate(req: Request, upload: Upload) {
@@ -116,7 +119,10 @@ class BufferedFileStore extends FileStore {
       // A body longer than the upload's declared length is tus's 413, answered as such.
       if ((err as { status_code?: number }).status_code === 413) throw err;
       // An aborted PATCH keeps what reached the file; the client resumes from the file size.
-      throw Object.assign(new Error("upload interrupted"), { status_code: 500, body: "Something went wrong receiving the file; the upload can continue.\n" });
+      throw Object.assign(new Error("upload interrupted"), {
+        status_code: 500,
+        body: "Something went wrong receiving the file; the upload can continue.\n",
+      });
     }
     return offset + out.bytesWritten;
   }
@@ -172,7 +178,15 @@ export function tusServer(): Server {
 export const TUS_VERSION = "1.0.0";
 
 function tusAnswer(status: number, body: string | null, headers: Record<string, string> = {}): Response {
-  return new Response(body, { status, headers: { "Tus-Resumable": TUS_VERSION, "Cache-Control": "no-store", ...(body ? { "Content-Type": "text/plain; charset=utf-8" } : {}), ...headers } });
+  return new Response(body, {
+    status,
+    headers: {
+      "Tus-Resumable": TUS_VERSION,
+      "Cache-Control": "no-store",
+      ...(body ? { "Content-Type": "text/plain; charset=utf-8" } : {}),
+      ...headers,
+    },
+  });
 }
 
 /**
@@ -186,7 +200,9 @@ export function protocolRefusal(request: Request): Response | null {
   if (method === "OPTIONS") return null;
   const version = request.headers.get("tus-resumable");
   if (version !== TUS_VERSION) {
-    const why = version ? `This server speaks tus ${TUS_VERSION}, not ${version}.` : `The Tus-Resumable header is required (tus ${TUS_VERSION}).`;
+    const why = version
+      ? `This server speaks tus ${TUS_VERSION}, not ${version}.`
+      : `The Tus-Resumable header is required (tus ${TUS_VERSION}).`;
     return tusAnswer(412, why, { "Tus-Version": TUS_VERSION });
   }
   if (method === "PATCH" && request.headers.get("content-type")?.trim() !== "application/offset+octet-stream") {
@@ -212,12 +228,19 @@ type UploadRow = typeof uploads.$inferSelect;
 
 /** When an unfinished upload expires: its last byte (the file's mtime) or its creation, plus the expiry time. */
 export async function expiresAt(row: Pick<UploadRow, "id" | "createdAt">): Promise<Date> {
-  const mtime = await fs.stat(tusFilePath(row.id)).then((s) => s.mtimeMs, () => 0);
+  const mtime = await fs.stat(tusFilePath(row.id)).then(
+    (s) => s.mtimeMs,
+    () => 0,
+  );
   return new Date(Math.max(row.createdAt.getTime(), mtime) + EXPIRY_MS);
 }
 
 function metadataHeader(row: UploadRow): string {
-  const pairs: [string, string][] = [["filename", row.fileName], ["filetype", row.fileType ?? ""], ["title", row.title]];
+  const pairs: [string, string][] = [
+    ["filename", row.fileName],
+    ["filetype", row.fileType ?? ""],
+    ["title", row.title],
+  ];
   return pairs.map(([k, v]) => (v ? `${k} ${Buffer.from(v).toString("base64")}` : k)).join(",");
 }
 
@@ -229,10 +252,12 @@ function metadataHeader(row: UploadRow): string {
  */
 function finishedAnswer(request: Request, row: UploadRow): Response {
   const done = { "Upload-Offset": String(row.size), "Benchreel-Recording": row.recordingId! };
-  if (request.method === "HEAD") return tusAnswer(200, null, { ...done, "Upload-Length": String(row.size), "Upload-Metadata": metadataHeader(row) });
+  if (request.method === "HEAD")
+    return tusAnswer(200, null, { ...done, "Upload-Length": String(row.size), "Upload-Metadata": metadataHeader(row) });
   if (request.method === "PATCH") {
     const offset = request.headers.get("upload-offset");
-    if (offset !== String(row.size)) return tusAnswer(409, `This upload is complete: all ${row.size} bytes arrived (Upload-Offset ${row.size}).`, done);
+    if (offset !== String(row.size))
+      return tusAnswer(409, `This upload is complete: all ${row.size} bytes arrived (Upload-Offset ${row.size}).`, done);
     if (Number(request.headers.get("content-length") ?? 0) > 0 || request.headers.has("transfer-encoding")) {
       return tusAnswer(413, `This upload is complete at its declared length of ${row.size} bytes; no more bytes can be added.`, done);
     }
@@ -256,7 +281,10 @@ export async function handleTus(request: Request, user: SessionUser | null): Pro
     if (row?.recordingId) return finishedAnswer(request, row);
     if (row && (await expiresAt(row)) < new Date()) {
       await discardUpload(row.id);
-      return tusAnswer(410, `This unfinished upload expired (no bytes for ${UPLOAD_EXPIRY_DAYS} days) and was discarded; start the upload again.`);
+      return tusAnswer(
+        410,
+        `This unfinished upload expired (no bytes for ${UPLOAD_EXPIRY_DAYS} days) and was discarded; start the upload again.`,
+      );
     }
   }
   if (user) requestUser.set(request, user);
@@ -291,7 +319,10 @@ const UNFINISHED_SHOWN = 50;
 async function storedFingerprint(uploadId: string): Promise<Partial<FileFingerprint>> {
   const meta: Record<string, string | null> = await tusServer()
     .datastore.getUpload(uploadId)
-    .then((u) => u.metadata ?? {}, () => ({}));
+    .then(
+      (u) => u.metadata ?? {},
+      () => ({}),
+    );
   return { lastModified: meta.lastmodified ?? undefined, sample: meta.sample ?? undefined };
 }
 
@@ -306,7 +337,15 @@ export async function unfinishedUploads(userId: string, file?: { fileName: strin
   const where = [eq(uploads.userId, userId), isNull(uploads.recordingId)];
   if (file) where.push(eq(uploads.fileName, file.fileName), eq(uploads.size, file.size));
   let rows = await db()
-    .select({ id: uploads.id, fileName: uploads.fileName, size: uploads.size, title: uploads.title, description: uploads.description, tags: uploads.tags, createdAt: uploads.createdAt })
+    .select({
+      id: uploads.id,
+      fileName: uploads.fileName,
+      size: uploads.size,
+      title: uploads.title,
+      description: uploads.description,
+      tags: uploads.tags,
+      createdAt: uploads.createdAt,
+    })
     .from(uploads)
     .where(and(...where))
     .orderBy(desc(uploads.createdAt))
@@ -346,7 +385,14 @@ export async function cleanUpExpiredUploads(now = new Date()): Promise<number> {
   for (const id of ids) {
     const [known] = await db().select({ id: uploads.id }).from(uploads).where(eq(uploads.id, id));
     if (known) continue;
-    const mtime = await fs.stat(tusFilePath(id)).then((s) => s.mtimeMs, () => fs.stat(`${tusFilePath(id)}.json`).then((s) => s.mtimeMs, () => now.getTime()));
+    const mtime = await fs.stat(tusFilePath(id)).then(
+      (s) => s.mtimeMs,
+      () =>
+        fs.stat(`${tusFilePath(id)}.json`).then(
+          (s) => s.mtimeMs,
+          () => now.getTime(),
+        ),
+    );
     if (mtime + EXPIRY_MS >= now.getTime()) continue;
     await discardUpload(id);
     n++;

@@ -31,14 +31,21 @@ export function isPassingFailure(err: unknown): boolean {
   const e = err as { code?: unknown; message?: unknown } | null;
   const code = typeof e?.code === "string" ? e.code : "";
   if (PASSING_SQLSTATE.test(code) || /^E[A-Z]+$/.test(code)) return true;
-  return typeof e?.message === "string" && /Connection terminated|connection timeout|timeout exceeded when trying to connect|Client has encountered a connection error/i.test(e.message);
+  return (
+    typeof e?.message === "string" &&
+    /Connection terminated|connection timeout|timeout exceeded when trying to connect|Client has encountered a connection error/i.test(
+      e.message,
+    )
+  );
 }
 
 /** The reason shown for a record set aside: the error's message (a validation error's issues, one line each). */
 export function failureReason(err: unknown): string {
   const issues = (err as { issues?: unknown } | null)?.issues;
   const message = Array.isArray(issues)
-    ? issues.map((i: { path?: unknown[]; message?: string }) => `${i.path?.length ? `${i.path.join(".")}: ` : ""}${i.message ?? ""}`).join("; ")
+    ? issues
+        .map((i: { path?: unknown[]; message?: string }) => `${i.path?.length ? `${i.path.join(".")}: ` : ""}${i.message ?? ""}`)
+        .join("; ")
     : err instanceof Error
       ? err.message
       : String(err);
@@ -181,7 +188,10 @@ async function revisionDocs(revisionId: string): Promise<IndexChange> {
 }
 
 async function procedureDocs(procedureId: string): Promise<IndexChange> {
-  const revs = await db().select({ id: procedureRevisions.id }).from(procedureRevisions).where(eq(procedureRevisions.procedureId, procedureId));
+  const revs = await db()
+    .select({ id: procedureRevisions.id })
+    .from(procedureRevisions)
+    .where(eq(procedureRevisions.procedureId, procedureId));
   const change = empty();
   for (const r of revs) {
     const c = await guardedAsync("revision", r.id, change.unindexable, () => revisionDocs(r.id));
@@ -197,21 +207,26 @@ async function markDocs(where: { markId?: string; recordingId?: string }, uninde
     .innerJoin(recordings, eq(recordings.id, marks.recordingId))
     .where(where.markId ? eq(marks.id, where.markId) : eq(marks.recordingId, where.recordingId!));
   const who = await names(rows.map((r) => r.mark.createdBy));
-  return rows.flatMap(({ mark, recTitle }) => guarded("mark", mark.id, unindexable, (): WithGroup[] => [{
-    id: `mark-${mark.id}`,
-    group: `rec-${mark.recordingId}`,
-    kind: "mark" as const,
-    title: mark.text.slice(0, 120),
-    text: `${mark.text} — at ${clock(mark.tStart)}${mark.tEnd != null ? `–${clock(mark.tEnd)}` : ""} in ${recTitle}`,
-    tags: mark.tags,
-    visibility: ["all"],
-    url: `/recordings/${mark.recordingId}?t=${mark.tStart}`,
-    recordingTitle: recTitle,
-    uploader: who.get(mark.createdBy ?? "") ?? "",
-    t: mark.tStart,
-    date: mark.createdAt.getTime(),
-    kindWeight: KIND_WEIGHT.mark,
-  }]) ?? []);
+  return rows.flatMap(
+    ({ mark, recTitle }) =>
+      guarded("mark", mark.id, unindexable, (): WithGroup[] => [
+        {
+          id: `mark-${mark.id}`,
+          group: `rec-${mark.recordingId}`,
+          kind: "mark" as const,
+          title: mark.text.slice(0, 120),
+          text: `${mark.text} — at ${clock(mark.tStart)}${mark.tEnd != null ? `–${clock(mark.tEnd)}` : ""} in ${recTitle}`,
+          tags: mark.tags,
+          visibility: ["all"],
+          url: `/recordings/${mark.recordingId}?t=${mark.tStart}`,
+          recordingTitle: recTitle,
+          uploader: who.get(mark.createdBy ?? "") ?? "",
+          t: mark.tStart,
+          date: mark.createdAt.getTime(),
+          kindWeight: KIND_WEIGHT.mark,
+        },
+      ]) ?? [],
+  );
 }
 
 /**
@@ -228,14 +243,24 @@ async function readingsDoc(recordingId: string, unindexable: Unindexable[]): Pro
     .orderBy(readings.t, readings.createdAt);
   if (!rows.length) return [];
   const who = await names(rows.map((x) => x.r.createdBy));
-  const lines = rows.flatMap(({ r }) => guarded("reading", r.id, unindexable, () => {
-    const cond = Object.entries(r.conditions ?? {})
-      .filter(([, v]) => v)
-      .map(([k, v]) => `${k} ${v}`)
-      .join(", ");
-    const value = bothSystems(r.valueEntered, r.unitEntered, r.valueDecimals);
-    return [{ id: r.id, t: r.t, by: who.get(r.createdBy ?? "") ?? "", line: `${[positionText(r, ", "), r.label].filter(Boolean).join(", ") || r.quantity}: ${value} — ${r.quantity}${cond ? ` (${cond})` : ""}` }];
-  }) ?? []);
+  const lines = rows.flatMap(
+    ({ r }) =>
+      guarded("reading", r.id, unindexable, () => {
+        const cond = Object.entries(r.conditions ?? {})
+          .filter(([, v]) => v)
+          .map(([k, v]) => `${k} ${v}`)
+          .join(", ");
+        const value = bothSystems(r.valueEntered, r.unitEntered, r.valueDecimals);
+        return [
+          {
+            id: r.id,
+            t: r.t,
+            by: who.get(r.createdBy ?? "") ?? "",
+            line: `${[positionText(r, ", "), r.label].filter(Boolean).join(", ") || r.quantity}: ${value} — ${r.quantity}${cond ? ` (${cond})` : ""}`,
+          },
+        ];
+      }) ?? [],
+  );
   if (!lines.length) return [];
   const doc: WithGroup = {
     id: `readings-${recordingId}`,
@@ -321,12 +346,16 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
 async function personDocs(userId: string): Promise<IndexChange> {
   const change = empty();
   const add = (c: IndexChange) => merge(change, c, { upserts: true });
-  const procs = await db().selectDistinct({ id: procedureRevisions.procedureId }).from(procedureRevisions).where(eq(procedureRevisions.authorId, userId));
+  const procs = await db()
+    .selectDistinct({ id: procedureRevisions.procedureId })
+    .from(procedureRevisions)
+    .where(eq(procedureRevisions.authorId, userId));
   for (const p of procs) add(await procedureDocs(p.id));
   const recIds = new Set<string>();
   for (const r of await db().select({ id: recordings.id }).from(recordings).where(eq(recordings.uploadedBy, userId))) recIds.add(r.id);
   for (const r of await db().selectDistinct({ id: marks.recordingId }).from(marks).where(eq(marks.createdBy, userId))) recIds.add(r.id);
-  for (const r of await db().selectDistinct({ id: readings.recordingId }).from(readings).where(eq(readings.createdBy, userId))) recIds.add(r.id);
+  for (const r of await db().selectDistinct({ id: readings.recordingId }).from(readings).where(eq(readings.createdBy, userId)))
+    recIds.add(r.id);
   for (const id of recIds) add(await recordingDocs(id));
   const filed = await db().select({ id: testRecords.id }).from(testRecords).where(eq(testRecords.createdBy, userId));
   for (const t of filed) change.upserts.push(...(await testRecordDocs(change.unindexable, t.id)));
@@ -341,22 +370,27 @@ async function testRecordDocs(unindexable: Unindexable[], id?: string): Promise<
     .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
     .leftJoin(users, eq(users.id, testRecords.createdBy))
     .where(id ? eq(testRecords.id, id) : undefined);
-  return rows.flatMap(({ r, procedureTitle, revision, by }) => guarded("test_record", r.id, unindexable, (): SearchDoc[] => {
-    const verdict = RECORD_VERDICT_LABELS[r.verdict];
-    return [{
-      id: `test_record-${r.id}`,
-      kind: "test_record" as const,
-      title: `${r.workOrder}: ${r.title}`,
-      text: `${r.workOrder} ${verdict} ${procedureTitle} revision ${revision}${r.engineSerial ? ` engine ${r.engineSerial}` : ""}${r.notes ? ` — ${r.notes}` : ""}`,
-      tags: [],
-      visibility: ["all"],
-      url: `/test-records/${r.id}`,
-      procedureTitle,
-      uploader: by ?? "",
-      date: Date.parse(`${r.testedOn}T12:00:00Z`),
-      kindWeight: KIND_WEIGHT.test_record,
-    }];
-  }) ?? []);
+  return rows.flatMap(
+    ({ r, procedureTitle, revision, by }) =>
+      guarded("test_record", r.id, unindexable, (): SearchDoc[] => {
+        const verdict = RECORD_VERDICT_LABELS[r.verdict];
+        return [
+          {
+            id: `test_record-${r.id}`,
+            kind: "test_record" as const,
+            title: `${r.workOrder}: ${r.title}`,
+            text: `${r.workOrder} ${verdict} ${procedureTitle} revision ${revision}${r.engineSerial ? ` engine ${r.engineSerial}` : ""}${r.notes ? ` — ${r.notes}` : ""}`,
+            tags: [],
+            visibility: ["all"],
+            url: `/test-records/${r.id}`,
+            procedureTitle,
+            uploader: by ?? "",
+            date: Date.parse(`${r.testedOn}T12:00:00Z`),
+            kindWeight: KIND_WEIGHT.test_record,
+          },
+        ];
+      }) ?? [],
+  );
 }
 
 /** Every document, for a full reindex, and the records whose documents could not be built. */

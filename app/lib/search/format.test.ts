@@ -35,12 +35,16 @@ describe("pointing a procedure hit at its block", () => {
   });
 
   it("shows a cropped body as one run of text, without the heading marks of its blocks", () => {
-    expect(bodySnippet(`…the heads leak.\n## Steps\n• Check that every case ${H("stud")} is…`)).toBe(`…the heads leak. Steps • Check that every case ${H("stud")} is…`);
+    expect(bodySnippet(`…the heads leak.\n## Steps\n• Check that every case ${H("stud")} is…`)).toBe(
+      `…the heads leak. Steps • Check that every case ${H("stud")} is…`,
+    );
     expect(bodySnippet("# Why\n\nplain")).toBe("Why plain");
   });
 
   it("builds a text fragment from the snippet's first words, without markers or prefixes", () => {
-    expect(blockFragment(`• Torque ${H("stud")} 4 to 110 N·m in three passes`)).toBe(`#:~:text=${encodeURIComponent("Torque stud 4 to 110 N·m")}`);
+    expect(blockFragment(`• Torque ${H("stud")} 4 to 110 N·m in three passes`)).toBe(
+      `#:~:text=${encodeURIComponent("Torque stud 4 to 110 N·m")}`,
+    );
     expect(blockFragment("…plate-honed bore checked")).toBe("#:~:text=plate%2Dhoned%20bore%20checked");
     expect(blockFragment("")).toBe("");
   });

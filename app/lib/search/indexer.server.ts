@@ -2,8 +2,25 @@ import { and, gt, inArray, isNull, lte, sql } from "drizzle-orm";
 import { searchOutbox } from "~/db/schema";
 import { db, pool } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
-import { ensureIndex, SEARCH_SETTINGS, searchClient, searchErrorCode, searchErrorMessage, searchIndex, searchServiceAway, type SearchDoc } from "./client.server";
-import { allDocuments, buildChange, failureReason, isPassingFailure, recordsOf, type IndexChange, type Unindexable } from "./documents.server";
+import {
+  ensureIndex,
+  SEARCH_SETTINGS,
+  searchClient,
+  searchErrorCode,
+  searchErrorMessage,
+  searchIndex,
+  searchServiceAway,
+  type SearchDoc,
+} from "./client.server";
+import {
+  allDocuments,
+  buildChange,
+  failureReason,
+  isPassingFailure,
+  recordsOf,
+  type IndexChange,
+  type Unindexable,
+} from "./documents.server";
 import { clearSetAside, setAside, setAsideCount } from "./set-aside.server";
 import { currentSynonyms } from "./words.server";
 
@@ -22,7 +39,10 @@ export async function applyChanges(upserts: SearchDoc[], deleteIds: string[], de
   const index = searchIndex();
   if (deleteGroups.length) {
     for (let i = 0; i < deleteGroups.length; i += 100) {
-      const list = deleteGroups.slice(i, i + 100).map((g) => JSON.stringify(g)).join(", ");
+      const list = deleteGroups
+        .slice(i, i + 100)
+        .map((g) => JSON.stringify(g))
+        .join(", ");
       await check(await index.deleteDocuments({ filter: `group IN [${list}]` }).waitTask(), "delete by group");
     }
   }
@@ -58,7 +78,10 @@ async function probeWhileAway() {
   lastProbe = Date.now();
   const back = await searchClient()
     .health()
-    .then((h) => h.status === "available", () => false);
+    .then(
+      (h) => h.status === "available",
+      () => false,
+    );
   if (!back) return;
   serviceAway = false;
   await db()
@@ -135,14 +158,21 @@ export async function drainSearchOutbox(limit = 500): Promise<{ done: number; fa
         for (const key of unindexable.keys()) indexed.delete(key);
         await applyChanges([...upserts.values()], [...deleteIds], [...deleteGroups]);
         // The search words as they are now, the whole list (a replay sends the same).
-        if (words) await check(await searchIndex().updateSynonyms(await currentSynonyms()).waitTask(), "synonyms");
+        if (words)
+          await check(
+            await searchIndex()
+              .updateSynonyms(await currentSynonyms())
+              .waitTask(),
+            "synonyms",
+          );
         await db().transaction(async (tx) => {
           await tx.update(searchOutbox).set({ doneAt: new Date(), lastError: null }).where(inArray(searchOutbox.id, ids));
           await clearSetAside(tx, [...indexed.values()]);
           await setAside(tx, [...unindexable.values()]);
         });
         serviceAway = false;
-        for (const u of unindexable.values()) console.error(`[search] set aside ${u.kind} ${u.entityId}, it could not be indexed: ${u.reason}`);
+        for (const u of unindexable.values())
+          console.error(`[search] set aside ${u.kind} ${u.entityId}, it could not be indexed: ${u.reason}`);
         return { done: ids.length, failed: 0, setAside: unindexable.size };
       } catch (err) {
         indexReady = false;
@@ -208,7 +238,10 @@ async function rebuild(): Promise<{ documents: number; removed: number }> {
   }
   if (stale.length) await check(await index.deleteDocuments(stale).waitTask(), "delete stale");
   await db().transaction(async (tx) => {
-    await tx.update(searchOutbox).set({ doneAt: new Date() }).where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
+    await tx
+      .update(searchOutbox)
+      .set({ doneAt: new Date() })
+      .where(and(isNull(searchOutbox.doneAt), lte(searchOutbox.createdAt, startedAt)));
     await clearSetAside(tx, docs.flatMap(recordsOf));
     await setAside(tx, unindexable);
   });

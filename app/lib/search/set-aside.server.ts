@@ -38,7 +38,15 @@ export async function setAsideCount(): Promise<number> {
   return r?.n ?? 0;
 }
 
-export type SetAsideEntry = Key & { reason: string; attempts: number; firstAt: Date; lastAt: Date; label: string; url: string | null; retryQueued: boolean };
+export type SetAsideEntry = Key & {
+  reason: string;
+  attempts: number;
+  firstAt: Date;
+  lastAt: Date;
+  label: string;
+  url: string | null;
+  retryQueued: boolean;
+};
 
 const KIND_LABELS: Record<string, string> = {
   revision: "Procedure revision",
@@ -66,13 +74,22 @@ async function describe(kind: string, id: string): Promise<{ label: string; url:
       const [r] = await db().select({ title: recordings.title }).from(recordings).where(eq(recordings.id, id));
       if (r) return { label: `${kindLabel}: ${r.title}`, url: `/recordings/${id}` };
     } else if (kind === "mark") {
-      const [r] = await db().select({ text: marks.text, recordingId: marks.recordingId, t: marks.tStart }).from(marks).where(eq(marks.id, id));
+      const [r] = await db()
+        .select({ text: marks.text, recordingId: marks.recordingId, t: marks.tStart })
+        .from(marks)
+        .where(eq(marks.id, id));
       if (r) return { label: `${kindLabel}: ${r.text.slice(0, 80)}`, url: `/recordings/${r.recordingId}?t=${r.t}` };
     } else if (kind === "reading") {
-      const [r] = await db().select({ label: readings.label, quantity: readings.quantity, recordingId: readings.recordingId }).from(readings).where(eq(readings.id, id));
+      const [r] = await db()
+        .select({ label: readings.label, quantity: readings.quantity, recordingId: readings.recordingId })
+        .from(readings)
+        .where(eq(readings.id, id));
       if (r) return { label: `${kindLabel}: ${r.label || r.quantity}`, url: `/recordings/${r.recordingId}` };
     } else if (kind === "test_record") {
-      const [r] = await db().select({ title: testRecords.title, workOrder: testRecords.workOrder }).from(testRecords).where(eq(testRecords.id, id));
+      const [r] = await db()
+        .select({ title: testRecords.title, workOrder: testRecords.workOrder })
+        .from(testRecords)
+        .where(eq(testRecords.id, id));
       if (r) return { label: `${kindLabel}: ${r.workOrder} ${r.title}`, url: `/test-records/${id}` };
     }
   }

@@ -30,7 +30,8 @@ export function groupProblem(words: string[], others: { id: string; words: strin
   for (const other of others) {
     if (other.id === selfId) continue;
     const shared = words.find((w) => other.words.includes(w));
-    if (shared) return `“${shared}” is already in the group “${other.words.join(", ")}”. A word belongs to one group; change that group instead.`;
+    if (shared)
+      return `“${shared}” is already in the group “${other.words.join(", ")}”. A word belongs to one group; change that group instead.`;
   }
   return null;
 }

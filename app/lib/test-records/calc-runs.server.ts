@@ -25,7 +25,10 @@ export async function runRecordCalc(actor: Actor, view: TestRecordView, form: Ca
     const group = form.cylinder === undefined ? null : boreGroups([spec], current).find((g) => g.cylinder === form.cylinder);
     const rs = form.cylinder === undefined ? current.filter((r) => r.specId === spec.id) : (group?.readings ?? []);
     if (rs.length < MIN_DISTORTION_READINGS) throw refuse("Bore distortion needs at least three diameters.");
-    const typed = typedPlaces(form, rs.map((r) => r.id));
+    const typed = typedPlaces(
+      form,
+      rs.map((r) => r.id),
+    );
     const { places, missing } = distortionPlaces(rs, typed.places);
     const errors: Record<string, string> = { ...typed.errors };
     for (const m of missing) {
@@ -37,7 +40,13 @@ export async function runRecordCalc(actor: Actor, view: TestRecordView, form: Ca
     const out = runDistortion(rs, places, nominal != null ? { value: nominal, unit: spec.unit } : null);
     if (!out.ok) throw refuse(out.errors.calc, issuesOf(out.errors));
     const label = group?.label ?? null;
-    await saveCalcRun(actor, view.record.id, { version: view.record.currentVersion, kind: "distortion", label: `Bore distortion: ${spec.label}${label ? ` (${label})` : ""}`, input: out.input, result: out.result });
+    await saveCalcRun(actor, view.record.id, {
+      version: view.record.currentVersion,
+      kind: "distortion",
+      label: `Bore distortion: ${spec.label}${label ? ` (${label})` : ""}`,
+      input: out.input,
+      result: out.result,
+    });
     return "Bore distortion computed and kept with the record.";
   }
   const bore = current.find((r) => r.id === form.boreReading);
@@ -50,6 +59,12 @@ export async function runRecordCalc(actor: Actor, view: TestRecordView, form: Ca
   const spec = form.clearanceSpec ? (specs.find((s) => s.id === form.clearanceSpec) ?? null) : null;
   const out = runPistonToWall(bore!, piston!, spec);
   if (!out.ok) throw refuse(out.errors.calc, issuesOf(out.errors));
-  await saveCalcRun(actor, view.record.id, { version: view.record.currentVersion, kind: "piston-to-wall", label: `Piston-to-wall${spec ? ` against ${spec.label}` : ""}`, input: out.input, result: out.result });
+  await saveCalcRun(actor, view.record.id, {
+    version: view.record.currentVersion,
+    kind: "piston-to-wall",
+    label: `Piston-to-wall${spec ? ` against ${spec.label}` : ""}`,
+    input: out.input,
+    result: out.result,
+  });
   return "Piston-to-wall computed and kept with the record.";
 }

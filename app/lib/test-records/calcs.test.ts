@@ -4,7 +4,14 @@ import { boreGroups, distortionInput, distortionPlaces, runDistortion, runPiston
 const BORE = { id: "bore", label: "Bore diameter", quantity: "length", unit: "mm", min: 88.0, max: 88.012, nominal: 88.006 };
 
 /** A filed bore reading at cylinder, depth (mm) and angle, with a note that is only words. */
-const at = (i: number, cylinder: number | null, depthMm: number | null, angleDeg: number | null, value: number, note = ""): StoredReading => ({
+const at = (
+  i: number,
+  cylinder: number | null,
+  depthMm: number | null,
+  angleDeg: number | null,
+  value: number,
+  note = "",
+): StoredReading => ({
   id: `r${i}`,
   specId: "bore",
   valueEntered: value,
@@ -40,7 +47,15 @@ describe("calculators on a record's readings", () => {
   });
 
   it("offers one run per cylinder of a bore spec, each with three diameters or more", () => {
-    const rows = [at(0, 1, 10, 0, 88.01), at(1, 1, 10, 90, 88.0), at(2, 1, 60, 0, 88.004), at(3, 2, 10, 0, 88.0), at(4, 2, 10, 90, 88.0), at(5, 2, 60, 0, 88.0), at(6, 3, 10, 0, 88.0)];
+    const rows = [
+      at(0, 1, 10, 0, 88.01),
+      at(1, 1, 10, 90, 88.0),
+      at(2, 1, 60, 0, 88.004),
+      at(3, 2, 10, 0, 88.0),
+      at(4, 2, 10, 90, 88.0),
+      at(5, 2, 60, 0, 88.0),
+      at(6, 3, 10, 0, 88.0),
+    ];
     const groups = boreGroups([BORE], rows);
     expect(groups.map((g) => [g.cylinder, g.label, g.readings.length])).toEqual([
       [1, "cyl 1", 3],
@@ -52,8 +67,14 @@ describe("calculators on a record's readings", () => {
   it("runs bore distortion on the diameters and piston-to-wall on a bore and a piston reading", () => {
     // Two levels, four angles over 180°: an oval of 0.010 mm at 10 mm, round at 60 mm.
     const rows = [
-      [10, 0, 88.01], [10, 45, 88.005], [10, 90, 88.0], [10, 135, 88.005],
-      [60, 0, 88.004], [60, 45, 88.004], [60, 90, 88.004], [60, 135, 88.004],
+      [10, 0, 88.01],
+      [10, 45, 88.005],
+      [10, 90, 88.0],
+      [10, 135, 88.005],
+      [60, 0, 88.004],
+      [60, 45, 88.004],
+      [60, 90, 88.004],
+      [60, 135, 88.004],
     ].map(([d, a, v], i) => at(i, 1, d, a, v));
     const d = runDistortion(rows, distortionPlaces(rows, new Map()).places, { value: 88, unit: "mm" });
     expect(d.ok).toBe(true);
@@ -63,7 +84,11 @@ describe("calculators on a record's readings", () => {
       expect(d.result.levels.map((l) => Number(l.outOfRound_mm.toFixed(6)))).toEqual([0.01, 0]);
       expect(d.result.taper_mm).toBeCloseTo(0.001, 9);
     }
-    const p = runPistonToWall(rows[4], { id: "p", specId: "piston", valueEntered: 87.94, unitEntered: "mm", note: "" }, { id: "c", label: "Piston-to-wall", quantity: "length", unit: "mm", min: 0.05, max: 0.07 });
+    const p = runPistonToWall(
+      rows[4],
+      { id: "p", specId: "piston", valueEntered: 87.94, unitEntered: "mm", note: "" },
+      { id: "c", label: "Piston-to-wall", quantity: "length", unit: "mm", min: 0.05, max: 0.07 },
+    );
     expect(p.ok && p.result.clearance_mm).toBeCloseTo(0.064, 9);
     expect(p.ok && p.result.verdict).toBe("within");
   });

@@ -14,7 +14,8 @@ export type StoredReading = { id: string; specId: string; valueEntered: number; 
 
 export const isBoreSpec = (s: SpecLimits) => s.quantity === "length" && /bore/i.test(s.label) && !/clearance|wall|gap/i.test(s.label);
 export const isPistonSpec = (s: SpecLimits) => s.quantity === "length" && /piston/i.test(s.label) && !/clearance|wall/i.test(s.label);
-export const isClearanceSpec = (s: SpecLimits) => s.quantity === "length" && /clearance|to-wall|to wall/i.test(s.label) && (s.min != null || s.max != null);
+export const isClearanceSpec = (s: SpecLimits) =>
+  s.quantity === "length" && /clearance|to-wall|to wall/i.test(s.label) && (s.min != null || s.max != null);
 
 /** Bore distortion needs a circle at a depth at least: three diameters. */
 export const MIN_DISTORTION_READINGS = 3;
@@ -37,7 +38,8 @@ export function boreGroups<R extends StoredReading>(specs: SpecLimits[], reading
     const cylinders = [...new Set(mine.map((r) => r.cylinder ?? null))].sort((a, b) => (a ?? Infinity) - (b ?? Infinity));
     for (const c of cylinders) {
       const rs = mine.filter((r) => (r.cylinder ?? null) === c);
-      if (rs.length >= MIN_DISTORTION_READINGS) out.push({ spec, cylinder: c, label: cylinders.length > 1 ? (cylinderLabel(c) ?? "no cylinder given") : null, readings: rs });
+      if (rs.length >= MIN_DISTORTION_READINGS)
+        out.push({ spec, cylinder: c, label: cylinders.length > 1 ? (cylinderLabel(c) ?? "no cylinder given") : null, readings: rs });
     }
   }
   return out;
@@ -75,7 +77,11 @@ function issuesOf(err: unknown): Record<string, string> {
 }
 
 /** The calculator's input: each diameter at its depth (in the unit typed) and angle. */
-export function distortionInput(readings: StoredReading[], places: Map<string, { depth: { value: number; unit: DepthUnit }; angleDeg: number }>, reference: { value: number; unit: string } | null) {
+export function distortionInput(
+  readings: StoredReading[],
+  places: Map<string, { depth: { value: number; unit: DepthUnit }; angleDeg: number }>,
+  reference: { value: number; unit: string } | null,
+) {
   return {
     mode: "diametral" as const,
     readings: readings.map((r) => ({
@@ -87,7 +93,11 @@ export function distortionInput(readings: StoredReading[], places: Map<string, {
   };
 }
 
-export function runDistortion(readings: StoredReading[], places: Map<string, { depth: { value: number; unit: DepthUnit }; angleDeg: number }>, reference: { value: number; unit: string } | null): CalcOutcome<DistortionResult> {
+export function runDistortion(
+  readings: StoredReading[],
+  places: Map<string, { depth: { value: number; unit: DepthUnit }; angleDeg: number }>,
+  reference: { value: number; unit: string } | null,
+): CalcOutcome<DistortionResult> {
   const input = distortionInput(readings, places, reference);
   try {
     return { ok: true, input, result: calculateDistortion(input as Parameters<typeof calculateDistortion>[0]) };
@@ -102,7 +112,12 @@ export function runPistonToWall(bore: StoredReading, piston: StoredReading, spec
     bore: { value: bore.valueEntered, unit: bore.unitEntered },
     piston: { value: piston.valueEntered, unit: piston.unitEntered },
     ...(spec && (spec.min != null || spec.max != null)
-      ? { spec: { ...(spec.min != null ? { min: { value: spec.min, unit: spec.unit } } : {}), ...(spec.max != null ? { max: { value: spec.max, unit: spec.unit } } : {}) } }
+      ? {
+          spec: {
+            ...(spec.min != null ? { min: { value: spec.min, unit: spec.unit } } : {}),
+            ...(spec.max != null ? { max: { value: spec.max, unit: spec.unit } } : {}),
+          },
+        }
       : {}),
   };
   try {

@@ -21,4 +21,10 @@ export const listSearch = z.object({
   to: day,
 });
 
-export type ListFilters = { procedure?: string | null; verdict?: string | null; workOrder?: string | null; from?: string | null; to?: string | null };
+export type ListFilters = {
+  procedure?: string | null;
+  verdict?: string | null;
+  workOrder?: string | null;
+  from?: string | null;
+  to?: string | null;
+};

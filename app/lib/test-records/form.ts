@@ -7,12 +7,28 @@ import { z } from "zod";
 import { unitKind } from "~/lib/calc";
 import { isRealDate, isUuid, quantityProblem } from "~/lib/edge";
 import { parseForm, type FieldErrors } from "~/lib/forms";
-import { depthEntered, positionFieldsForSpec, positionFromLabel, positionInputSchema, positionIssues, storedPosition, type Position, type PositionField } from "~/lib/recordings/positions";
+import {
+  depthEntered,
+  positionFieldsForSpec,
+  positionFromLabel,
+  positionInputSchema,
+  positionIssues,
+  storedPosition,
+  type Position,
+  type PositionField,
+} from "~/lib/recordings/positions";
 import { typedDecimals, typedText } from "~/lib/typed-number";
 import { readingVerdict, VerdictInputError, type SpecLimits } from "./verdict";
 
 /** `decimals`: as many as were typed ("88.010" → 3), kept beside the value (migration 0026). */
-export type TypedReading = { value: number; decimals: number; unit: string; note: string; position: Position; sourceReadingId: string | null };
+export type TypedReading = {
+  value: number;
+  decimals: number;
+  unit: string;
+  note: string;
+  position: Position;
+  sourceReadingId: string | null;
+};
 
 /** No engine was bench-tested before this; an earlier date is a typing slip. */
 export const EARLIEST_TEST_DATE = "1900-01-01";
@@ -25,11 +41,17 @@ const optionalSeconds = z
   .default("")
   .transform((s) => (s === "" ? null : Number(s.replace(",", "."))))
   // No recording runs a million seconds (11 days): a larger number is a slip, as in recordings/video-time.ts.
-  .refine((n) => n === null || (Number.isFinite(n) && n >= 0 && n <= 1e6), { message: "Seconds from the start of the recording, 0 up to the recording's length." });
+  .refine((n) => n === null || (Number.isFinite(n) && n >= 0 && n <= 1e6), {
+    message: "Seconds from the start of the recording, 0 up to the recording's length.",
+  });
 
 export const headerSchema = z
   .object({
-    title: z.string().trim().min(3, { message: "Give the record a title of at least 3 characters." }).max(200, { message: "At most 200 characters." }),
+    title: z
+      .string()
+      .trim()
+      .min(3, { message: "Give the record a title of at least 3 characters." })
+      .max(200, { message: "At most 200 characters." }),
     testedOn: z
       .string()
       .trim()
@@ -66,7 +88,11 @@ export const newRecordSchema = z
 
 export const amendSchema = z
   .object({
-    reason: z.string().trim().min(5, { message: "Say why the record is amended (at least 5 characters)." }).max(2000, { message: "At most 2000 characters." }),
+    reason: z
+      .string()
+      .trim()
+      .min(5, { message: "Say why the record is amended (at least 5 characters)." })
+      .max(2000, { message: "At most 2000 characters." }),
   })
   .and(headerSchema);
 
@@ -80,14 +106,21 @@ const readingRowSchema = z.object({
     .transform((raw) => ({ value: Number(raw.replace(",", ".")), decimals: typedDecimals(raw) ?? 0 })),
   unit: z.string().refine((u) => unitKind(u) != null, { message: "Choose a unit." }),
   note: z.string().transform((n) => n.slice(0, 200)),
-  src: z.string().refine((s) => s === "" || isUuid(s), { message: "That recording reading does not exist: pull the reading in again from the recording." }),
+  src: z
+    .string()
+    .refine((s) => s === "" || isUuid(s), {
+      message: "That recording reading does not exist: pull the reading in again from the recording.",
+    }),
 });
 
 // A bad pulled-in link is the value's problem: the row shows no field for it.
 const ROW_FIELD_OF: Record<string, string> = { value: "value", unit: "unit", note: "note", src: "value" };
 
 /** Reads the reading rows from the form; blank rows are ignored; bad rows get field errors. */
-export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: Record<string, TypedReading[]>; errors: FieldErrors; count: number } {
+export function parseReadings(
+  form: FormData,
+  specs: SpecLimits[],
+): { readings: Record<string, TypedReading[]>; errors: FieldErrors; count: number } {
   const readings: Record<string, TypedReading[]> = {};
   const errors: FieldErrors = {};
   let count = 0;
@@ -135,8 +168,17 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
       throw err;
     }
     // A form sent the old way, the place written in the note, gets it in the fields as the readings API does.
-    const typed = Object.values(where.position).every((v) => v == null) ? positionFromLabel(positionFieldsForSpec(spec), note) : { position: where.position, label: note };
-    (readings[specId] ??= []).push({ value, decimals, unit, note: typed.label, position: typed.position, sourceReadingId: src === "" ? null : src });
+    const typed = Object.values(where.position).every((v) => v == null)
+      ? positionFromLabel(positionFieldsForSpec(spec), note)
+      : { position: where.position, label: note };
+    (readings[specId] ??= []).push({
+      value,
+      decimals,
+      unit,
+      note: typed.label,
+      position: typed.position,
+      sourceReadingId: src === "" ? null : src,
+    });
     count++;
   }
   return { readings, errors, count };
@@ -148,7 +190,8 @@ export function parseReadings(form: FormData, specs: SpecLimits[]): { readings: 
  */
 function readPosition(form: FormData, base: string, fits: PositionField[]): { position: Position } | { errors: FieldErrors } {
   const text = (f: string) => String(form.get(`${base}.${f}`) ?? "").trim();
-  const num = (f: string) => (text(f) === "" ? null : /^[-+]?(\d+([.,]\d*)?|[.,]\d+)$/.test(text(f)) ? Number(text(f).replace(",", ".")) : text(f));
+  const num = (f: string) =>
+    text(f) === "" ? null : /^[-+]?(\d+([.,]\d*)?|[.,]\d+)$/.test(text(f)) ? Number(text(f).replace(",", ".")) : text(f);
   const input: Record<string, unknown> = {};
   for (const f of fits) {
     if (f === "depth") input.depth = num("depth") == null ? null : { value: num("depth"), unit: text("depthUnit") || "mm" };
@@ -169,7 +212,14 @@ export type PlaceKey = (typeof PLACE_KEYS)[number];
 export function placeFields(p: Partial<Position>): Record<PlaceKey, string> {
   const depth = depthEntered({ depthM: p.depthM ?? null, depthUnit: p.depthUnit ?? null });
   const str = (x: number | null | undefined) => (x == null ? "" : String(x));
-  return { fastener: str(p.fastener), cylinder: str(p.cylinder), journal: str(p.journal), depth: depth ? String(depth.value) : "", depthUnit: depth?.unit ?? "mm", angle: str(p.angleDeg) };
+  return {
+    fastener: str(p.fastener),
+    cylinder: str(p.cylinder),
+    journal: str(p.journal),
+    depth: depth ? String(depth.value) : "",
+    depthUnit: depth?.unit ?? "mm",
+    angle: str(p.angleDeg),
+  };
 }
 
 /**
@@ -177,7 +227,15 @@ export function placeFields(p: Partial<Position>): Record<PlaceKey, string> {
  * (88.010 stays 88.010) and its place in the fields.
  */
 export function amendFormValues(
-  readings: ({ specId: string; position: number; valueEntered: number; valueDecimals: number | null; unitEntered: string; noteText: string; sourceReadingId: string | null } & Partial<Position>)[],
+  readings: ({
+    specId: string;
+    position: number;
+    valueEntered: number;
+    valueDecimals: number | null;
+    unitEntered: string;
+    noteText: string;
+    sourceReadingId: string | null;
+  } & Partial<Position>)[],
 ): Record<string, string> {
   const values: Record<string, string> = {};
   for (const r of readings) {

@@ -1,7 +1,14 @@
 import { describe, expect, it } from "vitest";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
 
-const header: HeaderFields = { title: "Bore check after honing", engineSerial: "LX23-0412", testedOn: "2024-03-12", notes: "", recordingStartS: null, recordingEndS: null };
+const header: HeaderFields = {
+  title: "Bore check after honing",
+  engineSerial: "LX23-0412",
+  testedOn: "2024-03-12",
+  notes: "",
+  recordingStartS: null,
+  recordingEndS: null,
+};
 const labels = new Map([
   ["bore", "Bore diameter"],
   ["gap", "Top ring end gap"],
@@ -10,8 +17,20 @@ const labels = new Map([
 describe("amendment history", () => {
   it("names each changed field and each spec whose readings changed, with before and after", () => {
     const changes = diffAmendment(
-      { header, readings: [{ specId: "bore", value: 88.015, unit: "mm", note: "cyl 2 top" }, { specId: "gap", value: 0.5, unit: "mm", note: "" }] },
-      { header: { ...header, engineSerial: "LX23-0421" }, readings: [{ specId: "bore", value: 88.011, unit: "mm", note: "cyl 2 top" }, { specId: "gap", value: 0.5, unit: "mm", note: "" }] },
+      {
+        header,
+        readings: [
+          { specId: "bore", value: 88.015, unit: "mm", note: "cyl 2 top" },
+          { specId: "gap", value: 0.5, unit: "mm", note: "" },
+        ],
+      },
+      {
+        header: { ...header, engineSerial: "LX23-0421" },
+        readings: [
+          { specId: "bore", value: 88.011, unit: "mm", note: "cyl 2 top" },
+          { specId: "gap", value: 0.5, unit: "mm", note: "" },
+        ],
+      },
       labels,
     );
     expect(changes).toEqual([
@@ -23,7 +42,13 @@ describe("amendment history", () => {
   it("records a spec that gains or loses all its readings as not measured on that side", () => {
     const changes = diffAmendment(
       { header, readings: [{ specId: "bore", value: 88.006, unit: "mm", note: "" }] },
-      { header, readings: [{ specId: "bore", value: 88.006, unit: "mm", note: "" }, { specId: "gap", value: 0.02, unit: "in", note: "" }] },
+      {
+        header,
+        readings: [
+          { specId: "bore", value: 88.006, unit: "mm", note: "" },
+          { specId: "gap", value: 0.02, unit: "in", note: "" },
+        ],
+      },
       labels,
     );
     expect(changes).toEqual([{ kind: "spec", key: "gap", label: "Top ring end gap", before: "not measured", after: "0.02 in" }]);

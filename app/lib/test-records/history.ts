@@ -6,7 +6,14 @@ import type { AmendmentChange } from "~/db/schema/test-records";
 import { unitLabel, type UnitCode } from "~/lib/calc";
 import { typedText } from "~/lib/typed-number";
 
-export type HeaderFields = { title: string; engineSerial: string; testedOn: string; notes: string; recordingStartS: number | null; recordingEndS: number | null };
+export type HeaderFields = {
+  title: string;
+  engineSerial: string;
+  testedOn: string;
+  notes: string;
+  recordingStartS: number | null;
+  recordingEndS: number | null;
+};
 export const HEADER_LABELS: Record<keyof HeaderFields, string> = {
   title: "Title",
   engineSerial: "Engine serial",
@@ -50,7 +57,13 @@ export function diffAmendment(
     const b = before.readings.filter((r) => r.specId === specId).map(readingText);
     const a = after.readings.filter((r) => r.specId === specId).map(readingText);
     if (b.join("\n") !== a.join("\n")) {
-      changes.push({ kind: "spec", key: specId, label: specLabels.get(specId) ?? "Spec", before: b.join("; ") || "not measured", after: a.join("; ") || "not measured" });
+      changes.push({
+        kind: "spec",
+        key: specId,
+        label: specLabels.get(specId) ?? "Spec",
+        before: b.join("; ") || "not measured",
+        after: a.join("; ") || "not measured",
+      });
     }
   }
   return changes;

@@ -8,8 +8,18 @@ export type RecordVerdict = "within" | "out" | "incomplete";
 export const RECORD_VERDICTS = ["within", "out", "incomplete"] as const satisfies readonly RecordVerdict[];
 
 export const RECORD_VERDICT_LABELS: Record<RecordVerdict, string> = { within: "Within spec", out: "Out of spec", incomplete: "Incomplete" };
-export const READING_VERDICT_LABELS: Record<ReadingVerdict, string> = { within: "within", below: "below min", above: "above max", unchecked: "no limit" };
-export const SPEC_VERDICT_LABELS: Record<SpecVerdict, string> = { within: "Within spec", out: "Out of spec", "not-measured": "Not measured", unchecked: "Recorded (no limit)" };
+export const READING_VERDICT_LABELS: Record<ReadingVerdict, string> = {
+  within: "within",
+  below: "below min",
+  above: "above max",
+  unchecked: "no limit",
+};
+export const SPEC_VERDICT_LABELS: Record<SpecVerdict, string> = {
+  within: "Within spec",
+  out: "Out of spec",
+  "not-measured": "Not measured",
+  unchecked: "Recorded (no limit)",
+};
 
 /**
  * The record's verdict in words, saying what is missing: "Incomplete: 1 spec not measured".

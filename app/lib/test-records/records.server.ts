@@ -28,7 +28,6 @@ import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
 import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
 import { RECORD_VERDICT_LABELS, RECORD_VERDICTS } from "./labels";
 
-
 type Actor = { id: string; name?: string };
 export type SpecRow = typeof procedureSpecs.$inferSelect;
 
@@ -71,7 +70,10 @@ export async function publishedProcedureOptions() {
 
 export async function recordingForFiling(id: string) {
   if (!/^[0-9a-f-]{36}$/.test(id)) return null;
-  const [r] = await db().select({ id: recordings.id, title: recordings.title, durationS: recordings.durationS }).from(recordings).where(eq(recordings.id, id));
+  const [r] = await db()
+    .select({ id: recordings.id, title: recordings.title, durationS: recordings.durationS })
+    .from(recordings)
+    .where(eq(recordings.id, id));
   if (!r) return null;
   const rs = await db()
     .select({
@@ -95,7 +97,12 @@ export async function recordingForFiling(id: string) {
   return { ...r, readings: rs };
 }
 
-export type NewRecordInput = HeaderFields & { workOrder: string; revisionId: string; recordingId: string | null; readings: Record<string, TypedReading[]> };
+export type NewRecordInput = HeaderFields & {
+  workOrder: string;
+  revisionId: string;
+  recordingId: string | null;
+  readings: Record<string, TypedReading[]>;
+};
 
 /** A reading's place and note as one text: "cyl 2, 20 mm down, 90°, plate on". */
 function whereText(p: Partial<Position>, note: string): string {
@@ -133,23 +140,42 @@ function rowsFor(recordId: string, version: number, specs: SpecRow[], typed: Rec
  * unknown one would otherwise fail the insert on its foreign key (a 500, not a reason).
  */
 async function assertSourceReadings(tx: DbOrTx, typed: Record<string, TypedReading[]>) {
-  const ids = [...new Set(Object.values(typed).flat().map((r) => r.sourceReadingId).filter((id): id is string => id != null))];
+  const ids = [
+    ...new Set(
+      Object.values(typed)
+        .flat()
+        .map((r) => r.sourceReadingId)
+        .filter((id): id is string => id != null),
+    ),
+  ];
   if (!ids.length) return;
   const found = await tx.select({ id: recordingReadings.id }).from(recordingReadings).where(inArray(recordingReadings.id, ids));
-  if (found.length < ids.length) throw new DomainError("That recording reading does not exist (any more): pull the reading in again from the recording.", { status: 400, field: "readings" });
+  if (found.length < ids.length)
+    throw new DomainError("That recording reading does not exist (any more): pull the reading in again from the recording.", {
+      status: 400,
+      field: "readings",
+    });
 }
 
 /**
  * Files a record. The revision is the one published when the transaction runs; if another
  * revision was published since the form was opened, the inspector is told and nothing is lost.
  */
-export async function createTestRecord(actor: Actor, input: NewRecordInput): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number }> {
+export async function createTestRecord(
+  actor: Actor,
+  input: NewRecordInput,
+): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number }> {
   return db().transaction(async (tx) => {
     const [rev] = await tx.select().from(procedureRevisions).where(eq(procedureRevisions.id, input.revisionId));
     if (!rev) throw new DomainError("That procedure revision does not exist.", { status: 400, field: "revisionId" });
     const [proc] = await tx.select().from(procedures).where(eq(procedures.id, rev.procedureId)).for("share");
     if (!proc || proc.publishedRevisionId !== rev.id) {
-      const [now] = proc?.publishedRevisionId ? await tx.select({ number: procedureRevisions.number }).from(procedureRevisions).where(eq(procedureRevisions.id, proc.publishedRevisionId)) : [];
+      const [now] = proc?.publishedRevisionId
+        ? await tx
+            .select({ number: procedureRevisions.number })
+            .from(procedureRevisions)
+            .where(eq(procedureRevisions.id, proc.publishedRevisionId))
+        : [];
       throw new DomainError(
         now
           ? `Revision ${now.number} of this procedure was published while the form was open; reload the form to check the readings against its specs.`
@@ -198,7 +224,11 @@ export async function createTestRecord(actor: Actor, input: NewRecordInput): Pro
 
 export type AmendInput = HeaderFields & { reason: string; readings: Record<string, TypedReading[]> };
 
-export async function amendTestRecord(actor: Actor, recordId: string, input: AmendInput): Promise<{ version: number; verdict: RecordVerdict; notMeasured: number; changes: AmendmentChange[] }> {
+export async function amendTestRecord(
+  actor: Actor,
+  recordId: string,
+  input: AmendInput,
+): Promise<{ version: number; verdict: RecordVerdict; notMeasured: number; changes: AmendmentChange[] }> {
   return db().transaction(async (tx) => {
     const [rec] = await tx.select().from(testRecords).where(eq(testRecords.id, recordId)).for("update");
     if (!rec) throw new DomainError("No such test record.", { status: 404 });
@@ -209,21 +239,52 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
       .where(and(eq(testRecordReadings.recordId, rec.id), eq(testRecordReadings.version, rec.currentVersion)))
       .orderBy(asc(testRecordReadings.position));
     const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
-    if (!evaluation.verdict) throw new DomainError("An amended record still needs at least one reading.", { status: 400, field: "readings" });
+    if (!evaluation.verdict)
+      throw new DomainError("An amended record still needs at least one reading.", { status: 400, field: "readings" });
     const order = new Map(specs.map((s, i) => [s.id, i]));
-    const sortReadings = <T extends { specId: string }>(rs: T[]) => [...rs].sort((a, b) => (order.get(a.specId) ?? 0) - (order.get(b.specId) ?? 0));
+    const sortReadings = <T extends { specId: string }>(rs: T[]) =>
+      [...rs].sort((a, b) => (order.get(a.specId) ?? 0) - (order.get(b.specId) ?? 0));
     const changes = diffAmendment(
       {
-        header: { title: rec.title, engineSerial: rec.engineSerial, testedOn: rec.testedOn, notes: rec.notes, recordingStartS: rec.recordingStartS, recordingEndS: rec.recordingEndS },
-        readings: sortReadings(current).map((r) => ({ specId: r.specId, value: r.valueEntered, decimals: r.valueDecimals, unit: r.unitEntered, note: whereText(r, r.note) })),
+        header: {
+          title: rec.title,
+          engineSerial: rec.engineSerial,
+          testedOn: rec.testedOn,
+          notes: rec.notes,
+          recordingStartS: rec.recordingStartS,
+          recordingEndS: rec.recordingEndS,
+        },
+        readings: sortReadings(current).map((r) => ({
+          specId: r.specId,
+          value: r.valueEntered,
+          decimals: r.valueDecimals,
+          unit: r.unitEntered,
+          note: whereText(r, r.note),
+        })),
       },
       {
-        header: { title: input.title, engineSerial: input.engineSerial, testedOn: input.testedOn, notes: input.notes, recordingStartS: rec.recordingId ? input.recordingStartS : null, recordingEndS: rec.recordingId ? input.recordingEndS : null },
-        readings: specs.flatMap((s) => (input.readings[s.id] ?? []).map((r) => ({ specId: s.id, value: r.value, decimals: r.decimals, unit: r.unit, note: whereText(r.position, r.note) }))),
+        header: {
+          title: input.title,
+          engineSerial: input.engineSerial,
+          testedOn: input.testedOn,
+          notes: input.notes,
+          recordingStartS: rec.recordingId ? input.recordingStartS : null,
+          recordingEndS: rec.recordingId ? input.recordingEndS : null,
+        },
+        readings: specs.flatMap((s) =>
+          (input.readings[s.id] ?? []).map((r) => ({
+            specId: s.id,
+            value: r.value,
+            decimals: r.decimals,
+            unit: r.unit,
+            note: whereText(r.position, r.note),
+          })),
+        ),
       },
       new Map(specs.map((s) => [s.id, s.label])),
     );
-    if (!changes.length) throw new DomainError("Nothing was changed: the amendment would be the same as the record.", { status: 400, field: "form" });
+    if (!changes.length)
+      throw new DomainError("Nothing was changed: the amendment would be the same as the record.", { status: 400, field: "form" });
     const version = rec.currentVersion + 1;
     const readingsChanged = changes.some((c) => c.kind === "spec");
     if (readingsChanged) {
@@ -231,11 +292,43 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
       await tx.insert(testRecordReadings).values(rowsFor(rec.id, version, specs, input.readings));
     } else {
       // Same readings: carry the set over unchanged so each version is complete on its own.
-      await tx.insert(testRecordReadings).values(
-        current.map((r) => ({ recordId: r.recordId, version, specId: r.specId, specKey: r.specKey, position: r.position, valueEntered: r.valueEntered, unitEntered: r.unitEntered, valueDecimals: r.valueDecimals, valueSi: r.valueSi, valueInSpecUnit: r.valueInSpecUnit, verdict: r.verdict, note: r.note, fastener: r.fastener, cylinder: r.cylinder, journal: r.journal, depthM: r.depthM, depthUnit: r.depthUnit, angleDeg: r.angleDeg, sourceReadingId: r.sourceReadingId })),
-      );
+      await tx
+        .insert(testRecordReadings)
+        .values(
+          current.map((r) => ({
+            recordId: r.recordId,
+            version,
+            specId: r.specId,
+            specKey: r.specKey,
+            position: r.position,
+            valueEntered: r.valueEntered,
+            unitEntered: r.unitEntered,
+            valueDecimals: r.valueDecimals,
+            valueSi: r.valueSi,
+            valueInSpecUnit: r.valueInSpecUnit,
+            verdict: r.verdict,
+            note: r.note,
+            fastener: r.fastener,
+            cylinder: r.cylinder,
+            journal: r.journal,
+            depthM: r.depthM,
+            depthUnit: r.depthUnit,
+            angleDeg: r.angleDeg,
+            sourceReadingId: r.sourceReadingId,
+          })),
+        );
     }
-    await tx.insert(testRecordAmendments).values({ recordId: rec.id, version, reason: input.reason, changes, verdictBefore: rec.verdict, verdictAfter: evaluation.verdict, createdBy: actor.id });
+    await tx
+      .insert(testRecordAmendments)
+      .values({
+        recordId: rec.id,
+        version,
+        reason: input.reason,
+        changes,
+        verdictBefore: rec.verdict,
+        verdictAfter: evaluation.verdict,
+        createdBy: actor.id,
+      });
     await tx
       .update(testRecords)
       .set({
@@ -250,18 +343,36 @@ export async function amendTestRecord(actor: Actor, recordId: string, input: Ame
         amendedAt: new Date(),
       })
       .where(eq(testRecords.id, rec.id));
-    await audit(tx, actor.id, "amend", "test_record", rec.id, { version, reason: input.reason, changes, verdictBefore: rec.verdict, verdictAfter: evaluation.verdict });
+    await audit(tx, actor.id, "amend", "test_record", rec.id, {
+      version,
+      reason: input.reason,
+      changes,
+      verdictBefore: rec.verdict,
+      verdictAfter: evaluation.verdict,
+    });
     return { version, verdict: evaluation.verdict, notMeasured: evaluation.notMeasured.length, changes };
   });
 }
 
 // ---- calculators ------------------------------------------------------------------------------
 
-export async function saveCalcRun(actor: Actor, recordId: string, run: { version: number; kind: "distortion" | "piston-to-wall"; label: string; input: unknown; result: unknown }) {
+export async function saveCalcRun(
+  actor: Actor,
+  recordId: string,
+  run: { version: number; kind: "distortion" | "piston-to-wall"; label: string; input: unknown; result: unknown },
+) {
   return db().transaction(async (tx) => {
     const [c] = await tx
       .insert(testRecordCalcs)
-      .values({ recordId, version: run.version, kind: run.kind, label: run.label, input: run.input as object, result: run.result as object, createdBy: actor.id })
+      .values({
+        recordId,
+        version: run.version,
+        kind: run.kind,
+        label: run.label,
+        input: run.input as object,
+        result: run.result as object,
+        createdBy: actor.id,
+      })
       .returning({ id: testRecordCalcs.id });
     await audit(tx, actor.id, "calculate", "test_record", recordId, { kind: run.kind, calcId: c.id, version: run.version });
     return c.id;
@@ -273,7 +384,14 @@ export async function saveCalcRun(actor: Actor, recordId: string, run: { version
 export async function getTestRecord(id: string, opts: { version?: number } = {}) {
   if (!/^[0-9a-f-]{36}$/.test(id)) return null;
   const [row] = await db()
-    .select({ rec: testRecords, procTitle: procedures.title, slug: procedures.slug, publishedRevisionId: procedures.publishedRevisionId, rev: procedureRevisions, by: users.name })
+    .select({
+      rec: testRecords,
+      procTitle: procedures.title,
+      slug: procedures.slug,
+      publishedRevisionId: procedures.publishedRevisionId,
+      rev: procedureRevisions,
+      by: users.name,
+    })
     .from(testRecords)
     .innerJoin(procedures, eq(procedures.id, testRecords.procedureId))
     .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
@@ -284,7 +402,11 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
   const version = opts.version != null && opts.version >= 0 && opts.version <= rec.currentVersion ? opts.version : rec.currentVersion;
   const [specs, allReadings, amendments, calcs, recording] = await Promise.all([
     specsOfRevision(db(), rev.id),
-    db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, rec.id)).orderBy(asc(testRecordReadings.version), asc(testRecordReadings.position)),
+    db()
+      .select()
+      .from(testRecordReadings)
+      .where(eq(testRecordReadings.recordId, rec.id))
+      .orderBy(asc(testRecordReadings.version), asc(testRecordReadings.position)),
     db()
       .select({ a: testRecordAmendments, by: users.name })
       .from(testRecordAmendments)
@@ -297,7 +419,9 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
       .leftJoin(users, eq(users.id, testRecordCalcs.createdBy))
       .where(eq(testRecordCalcs.recordId, rec.id))
       .orderBy(desc(testRecordCalcs.createdAt)),
-    rec.recordingId ? db().select({ id: recordings.id, title: recordings.title }).from(recordings).where(eq(recordings.id, rec.recordingId)) : Promise.resolve([]),
+    rec.recordingId
+      ? db().select({ id: recordings.id, title: recordings.title }).from(recordings).where(eq(recordings.id, rec.recordingId))
+      : Promise.resolve([]),
   ]);
   const inForce = readingsAtVersion(allReadings, version);
   const typed: Record<string, { value: number; unit: string }[]> = {};
@@ -307,21 +431,35 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
   // A revision superseded since filing: show the limits now in force beside the pinned ones.
   let current: { number: number; specs: SpecRow[] } | null = null;
   if (row.publishedRevisionId && row.publishedRevisionId !== rev.id) {
-    const [now] = await db().select({ id: procedureRevisions.id, number: procedureRevisions.number }).from(procedureRevisions).where(eq(procedureRevisions.id, row.publishedRevisionId));
+    const [now] = await db()
+      .select({ id: procedureRevisions.id, number: procedureRevisions.number })
+      .from(procedureRevisions)
+      .where(eq(procedureRevisions.id, row.publishedRevisionId));
     if (now) current = { number: now.number, specs: await specsOfRevision(db(), now.id) };
   }
   return {
     record: rec,
     filedBy: row.by,
     procedure: { id: rec.procedureId, title: row.procTitle, slug: row.slug },
-    revision: { id: rev.id, number: rev.number, title: rev.title, state: rev.state, publishedAt: rev.publishedAt, supersededAt: rev.supersededAt },
+    revision: {
+      id: rev.id,
+      number: rev.number,
+      title: rev.title,
+      state: rev.state,
+      publishedAt: rev.publishedAt,
+      supersededAt: rev.supersededAt,
+    },
     current,
     specs,
     version,
     // `note` is how the reading reads on the record, sheet and history: its place, then the
     // inspector's own words ("cyl 2, 20 mm down, 90°, plate on"); `noteText` is those words alone.
     readings: inForce.map((r) => ({ ...r, note: whereText(r, r.note), noteText: r.note })),
-    evaluation: { verdict: evaluation.verdict, specs: evaluation.specs.map((e) => ({ specId: e.spec.id, verdict: e.verdict })), notMeasured: evaluation.notMeasured.map((s) => s.id) },
+    evaluation: {
+      verdict: evaluation.verdict,
+      specs: evaluation.specs.map((e) => ({ specId: e.spec.id, verdict: e.verdict })),
+      notMeasured: evaluation.notMeasured.map((s) => s.id),
+    },
     amendments: amendments.map(({ a, by }) => ({ ...a, by })),
     calcs: calcs.map(({ c, by }) => ({ ...c, by })),
     recording: recording[0] ?? null,
@@ -406,7 +544,12 @@ export async function recentTestRecords(limit = 6) {
     .innerJoin(procedureRevisions, eq(procedureRevisions.id, testRecords.revisionId))
     .leftJoin(users, eq(users.id, testRecords.createdBy))
     .where(gte(testRecords.testedOn, sql`(current_date - interval '120 days')::date`))
-    .orderBy(sql`${testRecords.verdict} = 'out' desc`, sql`${testRecords.verdict} = 'incomplete' desc`, desc(testRecords.testedOn), desc(testRecords.createdAt))
+    .orderBy(
+      sql`${testRecords.verdict} = 'out' desc`,
+      sql`${testRecords.verdict} = 'incomplete' desc`,
+      desc(testRecords.testedOn),
+      desc(testRecords.createdAt),
+    )
     .limit(limit);
 }
 
@@ -439,24 +582,56 @@ export async function csvRows(f: ListFilters): Promise<(string | number | null)[
   const recs = await listTestRecords(f, 5000);
   if (!recs.length) return [];
   const ids = recs.map((r) => r.id);
-  const fullRecs = await db().select({ id: testRecords.id, revisionId: testRecords.revisionId, currentVersion: testRecords.currentVersion }).from(testRecords).where(inArray(testRecords.id, ids));
+  const fullRecs = await db()
+    .select({ id: testRecords.id, revisionId: testRecords.revisionId, currentVersion: testRecords.currentVersion })
+    .from(testRecords)
+    .where(inArray(testRecords.id, ids));
   const revOf = new Map(fullRecs.map((r) => [r.id, r]));
   const revIds = [...new Set(fullRecs.map((r) => r.revisionId))];
-  const specs = await db().select().from(procedureSpecs).where(inArray(procedureSpecs.revisionId, revIds)).orderBy(asc(procedureSpecs.position));
+  const specs = await db()
+    .select()
+    .from(procedureSpecs)
+    .where(inArray(procedureSpecs.revisionId, revIds))
+    .orderBy(asc(procedureSpecs.position));
   const rs = await db()
     .select()
     .from(testRecordReadings)
-    .where(and(inArray(testRecordReadings.recordId, ids), sql`${testRecordReadings.version} = (select current_version from test_records t where t.id = ${testRecordReadings.recordId})`))
+    .where(
+      and(
+        inArray(testRecordReadings.recordId, ids),
+        sql`${testRecordReadings.version} = (select current_version from test_records t where t.id = ${testRecordReadings.recordId})`,
+      ),
+    )
     .orderBy(asc(testRecordReadings.position));
   const out: (string | number | null)[][] = [];
   for (const r of recs) {
     const meta = revOf.get(r.id)!;
-    const base = [r.id, r.workOrder, r.engineSerial, r.testedOn, r.title, r.procedureTitle, r.revisionNumber, RECORD_VERDICT_LABELS[r.verdict], r.currentVersion];
+    const base = [
+      r.id,
+      r.workOrder,
+      r.engineSerial,
+      r.testedOn,
+      r.title,
+      r.procedureTitle,
+      r.revisionNumber,
+      RECORD_VERDICT_LABELS[r.verdict],
+      r.currentVersion,
+    ];
     for (const s of specs.filter((x) => x.revisionId === meta.revisionId)) {
       const mine = rs.filter((x) => x.recordId === r.id && x.specId === s.id);
       const specCols = [s.label, s.unit, s.min, s.max];
       if (!mine.length) out.push([...base, ...specCols, null, null, null, "not measured", null, r.by ?? ""]);
-      for (const x of mine) out.push([...base, ...specCols, x.valueEntered, x.unitEntered, Number(x.valueInSpecUnit.toPrecision(12)), x.verdict, x.note, r.by ?? ""]);
+      for (const x of mine)
+        out.push([
+          ...base,
+          ...specCols,
+          x.valueEntered,
+          x.unitEntered,
+          Number(x.valueInSpecUnit.toPrecision(12)),
+          x.verdict,
+          x.note,
+          r.by ?? "",
+        ]);
     }
   }
   return out;

@@ -94,7 +94,10 @@ describe("specVerdict and evaluateRecord", () => {
 
   it("is out when one reading of one spec is out", () => {
     const e = evaluateRecord([bore, ringGap], {
-      bore: [{ value: 88.006, unit: "mm" }, { value: 88.015, unit: "mm" }],
+      bore: [
+        { value: 88.006, unit: "mm" },
+        { value: 88.015, unit: "mm" },
+      ],
       gap: [{ value: 0.5, unit: "mm" }],
     });
     expect(e.verdict).toBe("out");

@@ -96,4 +96,3 @@ export function evaluateRecord(specs: SpecLimits[], readingsBySpec: Record<strin
     counts: { within: evaluated.filter((e) => e.verdict === "within").length, out, notMeasured: notMeasured.length },
   };
 }
-

@@ -22,7 +22,9 @@ export default function AdminHome({ loaderData }: Route.ComponentProps) {
         </Link>
         <Link to="/admin/search" className="card block text-graphite no-underline hover:border-brass">
           <h2 className="text-lg">Search index</h2>
-          <p className="mt-1 text-sm text-graphite-soft">Changes waiting to be searchable, and records set aside because they could not be indexed.</p>
+          <p className="mt-1 text-sm text-graphite-soft">
+            Changes waiting to be searchable, and records set aside because they could not be indexed.
+          </p>
         </Link>
         {loaderData.mailFake && (
           <Link to="/admin/outbox" className="card block text-graphite no-underline hover:border-brass">

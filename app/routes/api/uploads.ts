@@ -21,11 +21,22 @@ async function guard(request: Request): Promise<{ user: SessionUser; uploadId: s
 
 /** ?fileName=…&size=…&lastModified=…&sample=…: the caller's unfinished uploads of that file (to continue it from any browser). */
 const fileQuery = z.object({
-  fileName: z.string().min(1).max(255).refine((s) => !s.includes("\u0000"), "The file name cannot contain NUL.").optional(),
+  fileName: z
+    .string()
+    .min(1)
+    .max(255)
+    .refine((s) => !s.includes("\u0000"), "The file name cannot contain NUL.")
+    .optional(),
   size: z.coerce.number().int("The size is a whole number of bytes.").min(1).max(Number.MAX_SAFE_INTEGER).optional(),
   // What tells two files of the same name and size apart (app/lib/recordings/file-fingerprint.ts).
-  lastModified: z.string().regex(/^\d{1,16}$/, "lastModified is the file's time in milliseconds.").optional(),
-  sample: z.string().regex(/^[0-9a-f]{64}$/, "sample is a SHA-256 in hex.").optional(),
+  lastModified: z
+    .string()
+    .regex(/^\d{1,16}$/, "lastModified is the file's time in milliseconds.")
+    .optional(),
+  sample: z
+    .string()
+    .regex(/^[0-9a-f]{64}$/, "sample is a SHA-256 in hex.")
+    .optional(),
 });
 
 export async function loader({ request }: Route.LoaderArgs) {

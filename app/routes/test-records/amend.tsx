@@ -37,7 +37,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   try {
     const out = await amendTestRecord(user, view.record.id, { ...parsed.data, readings: parsed.readings });
-    return redirectWithFlash(`/test-records/${view.record.id}`, { kind: flashKindOf(out.verdict), message: `Amendment ${out.version} saved (${out.changes.length} change${out.changes.length === 1 ? "" : "s"}); the record is ${recordVerdictText(out.verdict, out.notMeasured)}. The original stays in the history.` });
+    return redirectWithFlash(`/test-records/${view.record.id}`, {
+      kind: flashKindOf(out.verdict),
+      message: `Amendment ${out.version} saved (${out.changes.length} change${out.changes.length === 1 ? "" : "s"}); the record is ${recordVerdictText(out.verdict, out.notMeasured)}. The original stays in the history.`,
+    });
   } catch (err) {
     return domainFailure(request, err, "", parsed.values);
   }
@@ -53,42 +56,98 @@ export default function AmendTestRecord({ loaderData, actionData }: Route.Compon
   return (
     <>
       <PageHeader title={`Amend ${record.workOrder}`} kicker="Test record amendment">
-        {record.title} · {procedure.title}, <span className="num">revision {revision.number}</span> · now <VerdictBadge verdict={verdict} notMeasured={notMeasured} />
+        {record.title} · {procedure.title}, <span className="num">revision {revision.number}</span> · now{" "}
+        <VerdictBadge verdict={verdict} notMeasured={notMeasured} />
       </PageHeader>
       <p className="mb-4 max-w-3xl text-sm text-graphite-soft">
-        A filed record is not edited in place. An amendment keeps the record as it was, saves the corrected readings as a new version, and records who changed what and why. The work order and the revision it was filed against do not change.
+        A filed record is not edited in place. An amendment keeps the record as it was, saves the corrected readings as a new version, and
+        records who changed what and why. The work order and the revision it was filed against do not change.
       </p>
       <Form method="post" className="space-y-5" noValidate>
         <FormError message={errors.form} />
         <div className="card grid gap-4 sm:grid-cols-2">
           <div className="sm:col-span-2">
-            <label htmlFor="f-reason" className="label">Why is it amended?</label>
-            <textarea id="f-reason" name="reason" rows={2} className="field" required defaultValue={values.reason ?? ""} placeholder="e.g. bore 3 re-measured after the gauge was re-zeroed" aria-invalid={errors.reason ? true : undefined} aria-describedby={errors.reason ? "f-reason-error" : undefined} />
-            {errors.reason && <p id="f-reason-error" className="field-error" role="alert">{errors.reason}</p>}
+            <label htmlFor="f-reason" className="label">
+              Why is it amended?
+            </label>
+            <textarea
+              id="f-reason"
+              name="reason"
+              rows={2}
+              className="field"
+              required
+              defaultValue={values.reason ?? ""}
+              placeholder="e.g. bore 3 re-measured after the gauge was re-zeroed"
+              aria-invalid={errors.reason ? true : undefined}
+              aria-describedby={errors.reason ? "f-reason-error" : undefined}
+            />
+            {errors.reason && (
+              <p id="f-reason-error" className="field-error" role="alert">
+                {errors.reason}
+              </p>
+            )}
           </div>
           <div className="sm:col-span-2">
             <Field label="Title" name="title" required defaultValue={v("title", record.title)} error={errors.title} />
           </div>
-          <Field label="Engine serial" name="engineSerial" defaultValue={v("engineSerial", record.engineSerial)} error={errors.engineSerial} />
-          <Field label="Test date" name="testedOn" type="date" required defaultValue={v("testedOn", record.testedOn)} error={errors.testedOn} />
+          <Field
+            label="Engine serial"
+            name="engineSerial"
+            defaultValue={v("engineSerial", record.engineSerial)}
+            error={errors.engineSerial}
+          />
+          <Field
+            label="Test date"
+            name="testedOn"
+            type="date"
+            required
+            defaultValue={v("testedOn", record.testedOn)}
+            error={errors.testedOn}
+          />
           {record.recordingId && (
             <>
-              <Field label="Recording from (s)" name="recordingStartS" inputMode="decimal" defaultValue={v("recordingStartS", record.recordingStartS)} error={errors.recordingStartS} />
-              <Field label="Recording to (s)" name="recordingEndS" inputMode="decimal" defaultValue={v("recordingEndS", record.recordingEndS)} error={errors.recordingEndS} />
+              <Field
+                label="Recording from (s)"
+                name="recordingStartS"
+                inputMode="decimal"
+                defaultValue={v("recordingStartS", record.recordingStartS)}
+                error={errors.recordingStartS}
+              />
+              <Field
+                label="Recording to (s)"
+                name="recordingEndS"
+                inputMode="decimal"
+                defaultValue={v("recordingEndS", record.recordingEndS)}
+                error={errors.recordingEndS}
+              />
             </>
           )}
           <div className="sm:col-span-2">
-            <label htmlFor="f-notes" className="label">Notes</label>
+            <label htmlFor="f-notes" className="label">
+              Notes
+            </label>
             <textarea id="f-notes" name="notes" rows={3} className="field" defaultValue={v("notes", record.notes)} />
-            {errors.notes && <p className="field-error" role="alert">{errors.notes}</p>}
+            {errors.notes && (
+              <p className="field-error" role="alert">
+                {errors.notes}
+              </p>
+            )}
           </div>
         </div>
         <h2 className="text-xl">Readings</h2>
-        {errors.readings && <p className="field-error" role="alert">{errors.readings}</p>}
+        {errors.readings && (
+          <p className="field-error" role="alert">
+            {errors.readings}
+          </p>
+        )}
         <ReadingsEditor specs={specs} initial={initial} errors={errors} />
         <div className="flex gap-2">
-          <button className="btn btn-primary" type="submit" disabled={busy}>{busy ? "Saving…" : "Save the amendment"}</button>
-          <Link to={`/test-records/${record.id}`} className="btn no-underline">Cancel</Link>
+          <button className="btn btn-primary" type="submit" disabled={busy}>
+            {busy ? "Saving…" : "Save the amendment"}
+          </button>
+          <Link to={`/test-records/${record.id}`} className="btn no-underline">
+            Cancel
+          </Link>
         </div>
       </Form>
     </>

@@ -29,20 +29,34 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
         kicker="QC"
         actions={
           <>
-            <a className="btn no-underline" href={`/test-records/export.csv${query}`} download>Export CSV</a>
-            {canCreate && <Link className="btn btn-primary no-underline" to="/test-records/new">File a test record</Link>}
+            <a className="btn no-underline" href={`/test-records/export.csv${query}`} download>
+              Export CSV
+            </a>
+            {canCreate && (
+              <Link className="btn btn-primary no-underline" to="/test-records/new">
+                File a test record
+              </Link>
+            )}
           </>
         }
       >
         QC results filed against the procedure revision in force, with their readings and verdicts.
       </PageHeader>
 
-      <Form method="get" className="card mb-5 grid gap-3 p-4 sm:grid-cols-2 lg:grid-cols-[1.4fr_0.9fr_1fr_0.8fr_0.8fr_auto]" aria-label="Filter test records">
+      <Form
+        method="get"
+        className="card mb-5 grid gap-3 p-4 sm:grid-cols-2 lg:grid-cols-[1.4fr_0.9fr_1fr_0.8fr_0.8fr_auto]"
+        aria-label="Filter test records"
+      >
         <label className="text-sm">
           <span className="label">Procedure</span>
           <select name="procedure" className="field" defaultValue={filters.procedure ?? ""}>
             <option value="">All procedures</option>
-            {procedures.map((p) => <option key={p.id} value={p.slug}>{p.title}</option>)}
+            {procedures.map((p) => (
+              <option key={p.id} value={p.slug}>
+                {p.title}
+              </option>
+            ))}
           </select>
         </label>
         <label className="text-sm">
@@ -67,15 +81,24 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
           <input type="date" name="to" className="field" defaultValue={filters.to ?? ""} />
         </label>
         <div className="flex items-end gap-2">
-          <button className="btn" type="submit">Filter</button>
-          {filtered && <Link to="/test-records" className="whitespace-nowrap pb-2 text-sm">Clear</Link>}
+          <button className="btn" type="submit">
+            Filter
+          </button>
+          {filtered && (
+            <Link to="/test-records" className="whitespace-nowrap pb-2 text-sm">
+              Clear
+            </Link>
+          )}
         </div>
       </Form>
 
       {rows.length ? (
         <>
           <p className="num mb-2 text-sm text-graphite-soft" data-testid="result-count">
-            {rows.length} record{rows.length === 1 ? "" : "s"}{out ? `, ${out} out of spec` : ""}{incomplete ? `, ${incomplete} incomplete` : ""}{rows.length === 200 ? " (the 200 most recent; narrow the filters for older ones)" : ""}
+            {rows.length} record{rows.length === 1 ? "" : "s"}
+            {out ? `, ${out} out of spec` : ""}
+            {incomplete ? `, ${incomplete} incomplete` : ""}
+            {rows.length === 200 ? " (the 200 most recent; narrow the filters for older ones)" : ""}
           </p>
           <div className="card overflow-x-auto p-0">
             <table className="w-full text-left text-sm" data-testid="records-table">
@@ -99,9 +122,15 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
                       {r.currentVersion > 0 && <span className="ml-1 text-xs text-graphite-soft">amended</span>}
                     </td>
                     <td className="px-3 py-2 font-sans">
-                      {r.procedureTitle} <span className="num whitespace-nowrap text-graphite-soft">rev. {r.revisionNumber}{r.revisionState === "superseded" ? " (superseded)" : ""}</span>
+                      {r.procedureTitle}{" "}
+                      <span className="num whitespace-nowrap text-graphite-soft">
+                        rev. {r.revisionNumber}
+                        {r.revisionState === "superseded" ? " (superseded)" : ""}
+                      </span>
                     </td>
-                    <td className="px-3 py-2"><VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} /></td>
+                    <td className="px-3 py-2">
+                      <VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} />
+                    </td>
                     <td className="px-4 py-2 font-sans text-graphite-soft max-md:hidden">{r.by ?? "—"}</td>
                   </tr>
                 ))}
@@ -113,7 +142,13 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
         <EmptyState title="No test record matches these filters">Widen the dates or clear a filter.</EmptyState>
       ) : (
         <EmptyState title="No test records yet">
-          {canCreate ? <>File the first one from a procedure's page, or <Link to="/test-records/new">here</Link>.</> : "QC files test records against published procedures; they will be listed here."}
+          {canCreate ? (
+            <>
+              File the first one from a procedure's page, or <Link to="/test-records/new">here</Link>.
+            </>
+          ) : (
+            "QC files test records against published procedures; they will be listed here."
+          )}
         </EmptyState>
       )}
     </>

@@ -11,7 +11,14 @@ import { requirePermission } from "~/lib/auth.server";
 import { domainFailure } from "~/lib/domain-error.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { newRecordSchema, parseRecordForm } from "~/lib/test-records/form";
-import { createTestRecord, limitsOf, procedureForFiling, publishedProcedureOptions, recordingForFiling, revisionSpecLimits } from "~/lib/test-records/records.server";
+import {
+  createTestRecord,
+  limitsOf,
+  procedureForFiling,
+  publishedProcedureOptions,
+  recordingForFiling,
+  revisionSpecLimits,
+} from "~/lib/test-records/records.server";
 import { flashKindOf, recordVerdictText } from "~/lib/test-records/labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "File a test record · Benchreel" }];
@@ -27,7 +34,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (recordingId && !recording) throw data({ message: "That recording does not exist." }, { status: 404 });
   if (!slug) return { filing: null, options: await publishedProcedureOptions(), recording, today: new Date().toISOString().slice(0, 10) };
   const f = await procedureForFiling(slug);
-  if (!f) throw data({ message: "No published procedure by that name: a test record is filed against a published revision." }, { status: 404 });
+  if (!f)
+    throw data({ message: "No published procedure by that name: a test record is filed against a published revision." }, { status: 404 });
   return {
     filing: {
       procedure: { id: f.procedure.id, slug: f.procedure.slug, title: f.procedure.title },
@@ -49,7 +57,10 @@ export async function action({ request }: Route.ActionArgs) {
   const d = parsed.data;
   try {
     const rec = await createTestRecord(user, { ...d, recordingId: d.recordingId || null, readings: parsed.readings });
-    return redirectWithFlash(`/test-records/${rec.id}`, { kind: flashKindOf(rec.verdict), message: `Test record filed for ${d.workOrder}: ${recordVerdictText(rec.verdict, rec.notMeasured)}.` });
+    return redirectWithFlash(`/test-records/${rec.id}`, {
+      kind: flashKindOf(rec.verdict),
+      message: `Test record filed for ${d.workOrder}: ${recordVerdictText(rec.verdict, rec.notMeasured)}.`,
+    });
   } catch (err) {
     return domainFailure(request, err, "", parsed.values);
   }
@@ -73,10 +84,18 @@ export default function NewTestRecord({ loaderData, actionData }: Route.Componen
           {options.length ? (
             <>
               <SelectField label="Procedure" name="procedure" required defaultValue="">
-                <option value="" disabled>Choose a published procedure…</option>
-                {options.map((o) => <option key={o.id} value={o.slug}>{o.title}</option>)}
+                <option value="" disabled>
+                  Choose a published procedure…
+                </option>
+                {options.map((o) => (
+                  <option key={o.id} value={o.slug}>
+                    {o.title}
+                  </option>
+                ))}
               </SelectField>
-              <button className="btn btn-primary" type="submit">Continue</button>
+              <button className="btn btn-primary" type="submit">
+                Continue
+              </button>
             </>
           ) : (
             <p className="text-graphite-soft">No procedure is published yet, so there is nothing to file a test record against.</p>
@@ -91,7 +110,8 @@ export default function NewTestRecord({ loaderData, actionData }: Route.Componen
   return (
     <>
       <PageHeader title="File a test record" kicker="Test records">
-        Against <Link to={`/procedures/${procedure.slug}`}>{procedure.title}</Link>, <span className="num">revision {revision.number}</span> (the published one). The revision is recorded with the test and never changes afterwards.
+        Against <Link to={`/procedures/${procedure.slug}`}>{procedure.title}</Link>, <span className="num">revision {revision.number}</span>{" "}
+        (the published one). The revision is recorded with the test and never changes afterwards.
       </PageHeader>
       <Form method="post" className="space-y-5" noValidate>
         <input type="hidden" name="revisionId" value={revision.id} />
@@ -101,9 +121,33 @@ export default function NewTestRecord({ loaderData, actionData }: Route.Componen
           <div className="sm:col-span-2">
             <Field label="Title" name="title" required defaultValue={v("title", procedure.title)} error={errors.title} />
           </div>
-          <Field label="Work order" name="workOrder" required placeholder="LEW-24-0117" defaultValue={v("workOrder")} error={errors.workOrder} hint="As on the job card, e.g. LEW-24-0117." className="field num uppercase" autoComplete="off" />
-          <Field label="Engine serial" name="engineSerial" defaultValue={v("engineSerial")} error={errors.engineSerial} autoComplete="off" />
-          <Field label="Test date" name="testedOn" type="date" required defaultValue={v("testedOn", today)} max={today} error={errors.testedOn} />
+          <Field
+            label="Work order"
+            name="workOrder"
+            required
+            placeholder="LEW-24-0117"
+            defaultValue={v("workOrder")}
+            error={errors.workOrder}
+            hint="As on the job card, e.g. LEW-24-0117."
+            className="field num uppercase"
+            autoComplete="off"
+          />
+          <Field
+            label="Engine serial"
+            name="engineSerial"
+            defaultValue={v("engineSerial")}
+            error={errors.engineSerial}
+            autoComplete="off"
+          />
+          <Field
+            label="Test date"
+            name="testedOn"
+            type="date"
+            required
+            defaultValue={v("testedOn", today)}
+            max={today}
+            error={errors.testedOn}
+          />
           {recording && (
             <div className="sm:col-span-2">
               <p className="label">Recording</p>
@@ -112,32 +156,70 @@ export default function NewTestRecord({ loaderData, actionData }: Route.Componen
                 {recording.durationS != null && <span className="num text-graphite-soft"> · {Math.round(recording.durationS)} s long</span>}
               </p>
               <div className="mt-2 grid grid-cols-2 gap-3">
-                <Field label="Test from (s)" name="recordingStartS" inputMode="decimal" defaultValue={v("recordingStartS")} error={errors.recordingStartS} />
-                <Field label="Test to (s)" name="recordingEndS" inputMode="decimal" defaultValue={v("recordingEndS")} error={errors.recordingEndS} />
+                <Field
+                  label="Test from (s)"
+                  name="recordingStartS"
+                  inputMode="decimal"
+                  defaultValue={v("recordingStartS")}
+                  error={errors.recordingStartS}
+                />
+                <Field
+                  label="Test to (s)"
+                  name="recordingEndS"
+                  inputMode="decimal"
+                  defaultValue={v("recordingEndS")}
+                  error={errors.recordingEndS}
+                />
               </div>
             </div>
           )}
           <div className="sm:col-span-2">
-            <label htmlFor="f-notes" className="label">Notes</label>
-            <textarea id="f-notes" name="notes" rows={3} className="field" defaultValue={v("notes")} aria-invalid={errors.notes ? true : undefined} />
-            {errors.notes && <p className="field-error" role="alert">{errors.notes}</p>}
+            <label htmlFor="f-notes" className="label">
+              Notes
+            </label>
+            <textarea
+              id="f-notes"
+              name="notes"
+              rows={3}
+              className="field"
+              defaultValue={v("notes")}
+              aria-invalid={errors.notes ? true : undefined}
+            />
+            {errors.notes && (
+              <p className="field-error" role="alert">
+                {errors.notes}
+              </p>
+            )}
           </div>
         </div>
 
         <h2 className="text-xl">Readings</h2>
         {specs.length ? (
           <>
-            <p className="text-sm text-graphite-soft">Type each reading in the unit you measured in; it is converted to the spec's unit and checked against its limits (inclusive). Specs left empty are listed as not measured.</p>
-            {errors.readings && <p className="field-error" role="alert">{errors.readings}</p>}
+            <p className="text-sm text-graphite-soft">
+              Type each reading in the unit you measured in; it is converted to the spec's unit and checked against its limits (inclusive).
+              Specs left empty are listed as not measured.
+            </p>
+            {errors.readings && (
+              <p className="field-error" role="alert">
+                {errors.readings}
+              </p>
+            )}
             <ReadingsEditor specs={specs} initial={initial} errors={errors} pull={recording?.readings} />
           </>
         ) : (
-          <p className="card text-graphite-soft">Revision {revision.number} of this procedure has no specs, so there is nothing to check readings against.</p>
+          <p className="card text-graphite-soft">
+            Revision {revision.number} of this procedure has no specs, so there is nothing to check readings against.
+          </p>
         )}
         <SafetyNote />
         <div className="flex gap-2">
-          <button className="btn btn-primary" type="submit" disabled={busy || !specs.length}>{busy ? "Filing…" : "File the test record"}</button>
-          <Link to={`/procedures/${procedure.slug}`} className="btn no-underline">Cancel</Link>
+          <button className="btn btn-primary" type="submit" disabled={busy || !specs.length}>
+            {busy ? "Filing…" : "File the test record"}
+          </button>
+          <Link to={`/procedures/${procedure.slug}`} className="btn no-underline">
+            Cancel
+          </Link>
         </div>
       </Form>
     </>

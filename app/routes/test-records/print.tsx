@@ -17,13 +17,21 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export default function RecordSheetPrint({ loaderData }: Route.ComponentProps) {
-  const { record, procedure, revision, current, specs, readings, evaluation, amendments, recording, version, filedBy, printedAt, calcs } = loaderData;
+  const { record, procedure, revision, current, specs, readings, evaluation, amendments, recording, version, filedBy, printedAt, calcs } =
+    loaderData;
   const shown = amendments.filter((a) => a.version <= version);
   return (
-    <div className="record-sheet mx-auto max-w-3xl bg-card p-6 shadow-sm print:max-w-none print:bg-white print:p-0 print:shadow-none" data-testid="record-sheet">
+    <div
+      className="record-sheet mx-auto max-w-3xl bg-card p-6 shadow-sm print:max-w-none print:bg-white print:p-0 print:shadow-none"
+      data-testid="record-sheet"
+    >
       <div className="no-print mb-4 flex gap-2">
-        <button type="button" className="btn btn-primary" onClick={() => window.print()}>Print</button>
-        <Link className="btn no-underline" to={`/test-records/${record.id}`}>Back to the record</Link>
+        <button type="button" className="btn btn-primary" onClick={() => window.print()}>
+          Print
+        </button>
+        <Link className="btn no-underline" to={`/test-records/${record.id}`}>
+          Back to the record
+        </Link>
       </div>
       <header className="mb-4 border-b-2 border-graphite pb-2">
         <p className="text-xs font-semibold uppercase tracking-[0.14em] text-brass">Larkspur Engine Works · Test record</p>
@@ -32,32 +40,73 @@ export default function RecordSheetPrint({ loaderData }: Route.ComponentProps) {
           <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
         </div>
         <dl className="num mt-2 grid grid-cols-2 gap-x-6 gap-y-0.5 text-sm sm:grid-cols-4">
-          <div><dt className="text-xs text-graphite-soft">Work order</dt><dd className="font-semibold">{record.workOrder}</dd></div>
-          <div><dt className="text-xs text-graphite-soft">Engine serial</dt><dd>{record.engineSerial || "—"}</dd></div>
-          <div><dt className="text-xs text-graphite-soft">Test date</dt><dd>{fmtDay(record.testedOn)}</dd></div>
-          <div><dt className="text-xs text-graphite-soft">Inspector</dt><dd>{filedBy ?? "—"}</dd></div>
+          <div>
+            <dt className="text-xs text-graphite-soft">Work order</dt>
+            <dd className="font-semibold">{record.workOrder}</dd>
+          </div>
+          <div>
+            <dt className="text-xs text-graphite-soft">Engine serial</dt>
+            <dd>{record.engineSerial || "—"}</dd>
+          </div>
+          <div>
+            <dt className="text-xs text-graphite-soft">Test date</dt>
+            <dd>{fmtDay(record.testedOn)}</dd>
+          </div>
+          <div>
+            <dt className="text-xs text-graphite-soft">Inspector</dt>
+            <dd>{filedBy ?? "—"}</dd>
+          </div>
         </dl>
         <p className="mt-2 text-sm">
           Procedure: <strong>{procedure.title}</strong>, revision {revision.number}
           {revision.publishedAt && <> (published {fmtDay(revision.publishedAt)})</>}
           {current && <> — superseded since by revision {current.number}; both revisions' limits are shown.</>}
         </p>
-        {recording && <p className="text-sm">Recording: {recording.title}{record.recordingStartS != null && <span className="num"> from {record.recordingStartS} s</span>}</p>}
+        {recording && (
+          <p className="text-sm">
+            Recording: {recording.title}
+            {record.recordingStartS != null && <span className="num"> from {record.recordingStartS} s</span>}
+          </p>
+        )}
       </header>
-      <ReadingsTable specs={specs} readings={readings} specVerdicts={evaluation.specs} currentSpecs={current?.specs ?? null} currentNumber={current?.number} recording={null} />
+      <ReadingsTable
+        specs={specs}
+        readings={readings}
+        specVerdicts={evaluation.specs}
+        currentSpecs={current?.specs ?? null}
+        currentNumber={current?.number}
+        recording={null}
+      />
       {evaluation.notMeasured.length > 0 && (
-        <p className="mt-2 text-sm">Not measured: {evaluation.notMeasured.map((id) => specs.find((s) => s.id === id)?.label).join(", ")}.</p>
+        <p className="mt-2 text-sm">
+          Not measured: {evaluation.notMeasured.map((id) => specs.find((s) => s.id === id)?.label).join(", ")}.
+        </p>
       )}
       {calcs.filter((c) => c.version <= version).length > 0 && (
-        <p className="mt-2 text-sm">Calculations kept with the record: {calcs.filter((c) => c.version <= version).map((c) => c.label).join("; ")} (see the record page).</p>
+        <p className="mt-2 text-sm">
+          Calculations kept with the record:{" "}
+          {calcs
+            .filter((c) => c.version <= version)
+            .map((c) => c.label)
+            .join("; ")}{" "}
+          (see the record page).
+        </p>
       )}
-      {record.notes && <section className="mt-3"><h2 className="text-base">Notes</h2><p className="whitespace-pre-line font-serif text-sm">{record.notes}</p></section>}
+      {record.notes && (
+        <section className="mt-3">
+          <h2 className="text-base">Notes</h2>
+          <p className="whitespace-pre-line font-serif text-sm">{record.notes}</p>
+        </section>
+      )}
       {shown.length > 0 && (
         <section className="mt-3">
           <h2 className="text-base">Amendments</h2>
           <ol className="text-sm">
             {shown.map((a) => (
-              <li key={a.id} className="num">Amendment {a.version}, {fmtDay(a.createdAt)}, {a.by ?? "—"}: “{a.reason}” — {a.changes.map((c) => `${c.label}: ${c.before} → ${c.after}`).join("; ")}</li>
+              <li key={a.id} className="num">
+                Amendment {a.version}, {fmtDay(a.createdAt)}, {a.by ?? "—"}: “{a.reason}” —{" "}
+                {a.changes.map((c) => `${c.label}: ${c.before} → ${c.after}`).join("; ")}
+              </li>
             ))}
           </ol>
         </section>
@@ -66,8 +115,13 @@ export default function RecordSheetPrint({ loaderData }: Route.ComponentProps) {
         <div className="border-t border-graphite pt-1">Inspected by</div>
         <div className="border-t border-graphite pt-1">Checked by</div>
       </footer>
-      <div className="mt-4"><SafetyNote /></div>
-      <p className="num mt-2 text-xs text-graphite-soft">Record {record.id.slice(0, 8)} · {version === record.currentVersion ? "in force" : `version ${version}, not the one in force`} · printed {fmtDay(printedAt)}</p>
+      <div className="mt-4">
+        <SafetyNote />
+      </div>
+      <p className="num mt-2 text-xs text-graphite-soft">
+        Record {record.id.slice(0, 8)} · {version === record.currentVersion ? "in force" : `version ${version}, not the one in force`} ·
+        printed {fmtDay(printedAt)}
+      </p>
     </div>
   );
 }

@@ -46,7 +46,8 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function TestRecordPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { record, procedure, revision, current, specs, readings, evaluation, amendments, calcs, recording, version, flags, filedBy } = loaderData;
+  const { record, procedure, revision, current, specs, readings, evaluation, amendments, calcs, recording, version, flags, filedBy } =
+    loaderData;
   const historical = version !== record.currentVersion;
   return (
     <>
@@ -55,8 +56,14 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
         kicker={`Test record · ${record.workOrder}`}
         actions={
           <>
-            <Link className="btn no-underline" to={`/test-records/${record.id}/print${historical ? `?v=${version}` : ""}`}>Record sheet</Link>
-            {flags.canAmend && !historical && <Link className="btn no-underline" to={`/test-records/${record.id}/amend`}>Amend</Link>}
+            <Link className="btn no-underline" to={`/test-records/${record.id}/print${historical ? `?v=${version}` : ""}`}>
+              Record sheet
+            </Link>
+            {flags.canAmend && !historical && (
+              <Link className="btn no-underline" to={`/test-records/${record.id}/amend`}>
+                Amend
+              </Link>
+            )}
           </>
         }
       >
@@ -65,7 +72,8 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
 
       {historical && (
         <p className="mb-4 rounded-md border border-brass/50 bg-brass-soft/50 px-4 py-2 text-sm" data-testid="historical-note">
-          You are looking at {version === 0 ? "the record as originally filed" : `version ${version} (after amendment ${version})`}. <Link to={`/test-records/${record.id}`}>See the record in force</Link>.
+          You are looking at {version === 0 ? "the record as originally filed" : `version ${version} (after amendment ${version})`}.{" "}
+          <Link to={`/test-records/${record.id}`}>See the record in force</Link>.
         </p>
       )}
 
@@ -81,39 +89,65 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
               </p>
             </div>
             <dl className="num grid grid-cols-[auto_1fr] gap-x-3 text-sm">
-              <dt className="text-graphite-soft">Work order</dt><dd className="font-semibold">{record.workOrder}</dd>
-              <dt className="text-graphite-soft">Engine serial</dt><dd>{record.engineSerial || "—"}</dd>
-              <dt className="text-graphite-soft">Test date</dt><dd>{fmtDay(record.testedOn)}</dd>
+              <dt className="text-graphite-soft">Work order</dt>
+              <dd className="font-semibold">{record.workOrder}</dd>
+              <dt className="text-graphite-soft">Engine serial</dt>
+              <dd>{record.engineSerial || "—"}</dd>
+              <dt className="text-graphite-soft">Test date</dt>
+              <dd>{fmtDay(record.testedOn)}</dd>
             </dl>
           </section>
 
           {current && (
             <p className="rounded-md border border-brass/50 bg-brass-soft/40 px-4 py-2 text-sm" data-testid="superseded-note">
-              Filed against revision {revision.number}, which has since been superseded by revision {current.number}. The verdict stays the one against revision {revision.number}'s limits; the table shows both.
+              Filed against revision {revision.number}, which has since been superseded by revision {current.number}. The verdict stays the
+              one against revision {revision.number}'s limits; the table shows both.
             </p>
           )}
 
           <section className="card overflow-x-auto p-0" aria-labelledby="readings-h">
-            <h2 id="readings-h" className="px-4 pt-3 text-lg">Readings</h2>
+            <h2 id="readings-h" className="px-4 pt-3 text-lg">
+              Readings
+            </h2>
             <div className="mt-2">
-              <ReadingsTable specs={specs} readings={readings} specVerdicts={evaluation.specs} currentSpecs={current?.specs ?? null} currentNumber={current?.number} recording={recording} />
+              <ReadingsTable
+                specs={specs}
+                readings={readings}
+                specVerdicts={evaluation.specs}
+                currentSpecs={current?.specs ?? null}
+                currentNumber={current?.number}
+                recording={recording}
+              />
             </div>
           </section>
 
           {record.notes && (
             <section className="card" aria-labelledby="notes-h">
-              <h2 id="notes-h" className="text-lg">Notes</h2>
+              <h2 id="notes-h" className="text-lg">
+                Notes
+              </h2>
               <p className="mt-1 whitespace-pre-line font-serif">{record.notes}</p>
             </section>
           )}
 
-          <RecordCalcs specs={specs} readings={readings} calcs={calcs} currentVersion={record.currentVersion} canRun={flags.canCalc && !historical} actionData={actionData} />
+          <RecordCalcs
+            specs={specs}
+            readings={readings}
+            calcs={calcs}
+            currentVersion={record.currentVersion}
+            canRun={flags.canCalc && !historical}
+            actionData={actionData}
+          />
         </div>
 
         <aside className="space-y-4 text-sm">
           <section className="card p-4" aria-labelledby="proc-h">
-            <h2 id="proc-h" className="text-base">Procedure</h2>
-            <p className="mt-1"><Link to={`/procedures/${procedure.slug}`}>{procedure.title}</Link></p>
+            <h2 id="proc-h" className="text-base">
+              Procedure
+            </h2>
+            <p className="mt-1">
+              <Link to={`/procedures/${procedure.slug}`}>{procedure.title}</Link>
+            </p>
             <p className="num mt-0.5 text-graphite-soft">
               Filed against <Link to={`/procedures/${procedure.slug}/r/${revision.number}`}>revision {revision.number}</Link>
               {revision.state === "superseded" ? " (superseded)" : revision.state === "published" ? " (published)" : ""}
@@ -121,30 +155,51 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
           </section>
           {recording && (
             <section className="card p-4" aria-labelledby="rec-h">
-              <h2 id="rec-h" className="text-base">Recording</h2>
+              <h2 id="rec-h" className="text-base">
+                Recording
+              </h2>
               <p className="mt-1">
-                <Link to={`/recordings/${recording.id}${record.recordingStartS != null ? `?t=${Math.floor(record.recordingStartS)}` : ""}`}>{recording.title}</Link>
+                <Link to={`/recordings/${recording.id}${record.recordingStartS != null ? `?t=${Math.floor(record.recordingStartS)}` : ""}`}>
+                  {recording.title}
+                </Link>
               </p>
-              {record.recordingStartS != null && <p className="num text-graphite-soft">from {fmtNum(record.recordingStartS)} s{record.recordingEndS != null && <> to {fmtNum(record.recordingEndS)} s</>}</p>}
+              {record.recordingStartS != null && (
+                <p className="num text-graphite-soft">
+                  from {fmtNum(record.recordingStartS)} s{record.recordingEndS != null && <> to {fmtNum(record.recordingEndS)} s</>}
+                </p>
+              )}
             </section>
           )}
           <section className="card p-4" aria-labelledby="hist-h" data-testid="amendments">
-            <h2 id="hist-h" className="text-base">History</h2>
+            <h2 id="hist-h" className="text-base">
+              History
+            </h2>
             <ol className="mt-1 space-y-3">
               <li>
-                <p className="num"><strong>Filed</strong> {fmtDay(record.createdAt)} by {filedBy ?? "—"}</p>
+                <p className="num">
+                  <strong>Filed</strong> {fmtDay(record.createdAt)} by {filedBy ?? "—"}
+                </p>
                 {amendments.length > 0 && version !== 0 && <Link to={`/test-records/${record.id}?v=0`}>See the original</Link>}
               </li>
               {amendments.map((a) => (
                 <li key={a.id} className="border-t border-rule/60 pt-2" data-testid="amendment">
-                  <p className="num"><strong>Amendment {a.version}</strong> · {fmtDay(a.createdAt)} by {a.by ?? "—"}</p>
+                  <p className="num">
+                    <strong>Amendment {a.version}</strong> · {fmtDay(a.createdAt)} by {a.by ?? "—"}
+                  </p>
                   <p className="font-serif italic">“{a.reason}”</p>
                   <ul className="mt-1 space-y-0.5">
                     {a.changes.map((c) => (
-                      <li key={c.key} className="num"><span className="font-semibold">{c.label}:</span> <del className="text-graphite-soft">{c.before || "—"}</del> → {c.after || "—"}</li>
+                      <li key={c.key} className="num">
+                        <span className="font-semibold">{c.label}:</span> <del className="text-graphite-soft">{c.before || "—"}</del> →{" "}
+                        {c.after || "—"}
+                      </li>
                     ))}
                   </ul>
-                  {a.verdictBefore !== a.verdictAfter && <p className="mt-0.5">Verdict {RECORD_VERDICT_LABELS[a.verdictBefore]} → {RECORD_VERDICT_LABELS[a.verdictAfter]}</p>}
+                  {a.verdictBefore !== a.verdictAfter && (
+                    <p className="mt-0.5">
+                      Verdict {RECORD_VERDICT_LABELS[a.verdictBefore]} → {RECORD_VERDICT_LABELS[a.verdictAfter]}
+                    </p>
+                  )}
                   {version !== a.version && <Link to={`/test-records/${record.id}?v=${a.version}`}>See this version</Link>}
                 </li>
               ))}

@@ -39,11 +39,43 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       entered_by: r.authorName ?? "",
       entered_at: new Date(r.createdAt).toISOString(),
     })),
-    { header: true, columns: ["time_s", "quantity", "label", "fastener", "cylinder", "journal", "depth", "depth_unit", "angle_deg", "value", "unit", "value_si", "lube", "tool", "pass", "note", "entered_by", "entered_at"] },
+    {
+      header: true,
+      columns: [
+        "time_s",
+        "quantity",
+        "label",
+        "fastener",
+        "cylinder",
+        "journal",
+        "depth",
+        "depth_unit",
+        "angle_deg",
+        "value",
+        "unit",
+        "value_si",
+        "lube",
+        "tool",
+        "pass",
+        "note",
+        "entered_by",
+        "entered_at",
+      ],
+    },
   );
-  const name = `${rec.title.replace(/[^A-Za-z0-9 _-]+/g, "").trim().replace(/\s+/g, "-").slice(0, 60) || "recording"}-readings.csv`;
+  const name = `${
+    rec.title
+      .replace(/[^A-Za-z0-9 _-]+/g, "")
+      .trim()
+      .replace(/\s+/g, "-")
+      .slice(0, 60) || "recording"
+  }-readings.csv`;
   return new Response(csv, {
-    headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${name}"`, "Cache-Control": "private, no-store" },
+    headers: {
+      "Content-Type": "text/csv; charset=utf-8",
+      "Content-Disposition": `attachment; filename="${name}"`,
+      "Cache-Control": "private, no-store",
+    },
   });
 }
 
