@@ -4,21 +4,8 @@
  * the input JSON of that calculator's function in app/lib/calc.
  */
 import { z } from "zod";
-import {
-  clearanceInputSchema,
-  distortionInputSchema,
-  preloadInputSchema,
-  type ClearanceInput,
-  type DistortionInput,
-  type PreloadInput,
-} from "~/lib/calc";
+import { clearanceInputSchema, distortionInputSchema, preloadInputSchema } from "~/lib/calc";
 import type { CalcKind } from "~/lib/calc-kinds";
-
-/** The preset: which calculator, and that calculator's input. */
-export type CalculatorPreset =
-  | { calculator: "preload"; input: PreloadInput }
-  | { calculator: "distortion"; input: DistortionInput }
-  | { calculator: "clearance"; input: ClearanceInput };
 
 /**
  * Validates a preset (the input against its calculator's own schema). Parsing fills the

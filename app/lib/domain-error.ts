@@ -35,5 +35,3 @@ export class DomainError extends Error {
     this.details = options.details ?? {};
   }
 }
-
-export const isDomainError = (err: unknown): err is DomainError => err instanceof DomainError;

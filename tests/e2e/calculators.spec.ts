@@ -14,7 +14,6 @@ async function signIn(page: Page, email: string, path: string) {
   await expect(page.getByRole("button", { name: "Calculate" })).toHaveCount(0);
 }
 
-// biome-ignore lint/performance/useDomNodeTextContent: Playwright's Locator.innerText(), the text as rendered, not the DOM property
 const num = async (page: Page, testId: string) => Number((await page.getByTestId(testId).innerText()).replace(/,/g, ""));
 
 test("Preload computes as you type, switches units consistently, marks past 90 % of yield", async ({ page }) => {
@@ -178,6 +177,5 @@ test("on a tablet the main figures stay in view at the bottom while one types", 
   await page.setViewportSize({ width: 768, height: 1000 });
   await page.goto("/calculators/distortion");
   await expect(page.getByTestId("result-peek")).toContainText("Worst out-of-round");
-  // biome-ignore lint/performance/useDomNodeTextContent: Playwright's Locator.innerText(), the text as rendered, not the DOM property
   await expect(page.getByTestId("result-peek")).toContainText(await page.getByTestId("result-oor").first().innerText());
 });

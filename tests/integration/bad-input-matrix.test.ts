@@ -214,7 +214,7 @@ describe("bad-input matrix", () => {
   function fill(pattern: string, badParam?: string, bad?: string): string {
     return (
       pattern
-        .replace(/:(\w+)|\*/g, (whole, name: string | undefined) => {
+        .replace(/:(\w+)|\*/g, (_whole, name: string | undefined) => {
           const key = name ?? "*";
           if (key === badParam) return bad!;
           if (key === "*") return "";
@@ -333,7 +333,7 @@ describe("bad-input matrix", () => {
           type: "application/x-www-form-urlencoded",
         });
         for (const j of JSON_BODIES) await send(route, m, `json ${j}`, base, { cookie, body: j, type: "application/json" });
-        for (const v of ["a\u0000b", 1e308, -1e308, 2147483648, 99999999999999999999, "2024-02-30", "0000-01-01"]) {
+        for (const v of ["a\u0000b", 1e308, -1e308, 2147483648, 1e20, "2024-02-30", "0000-01-01"]) {
           const body = Object.fromEntries(fields.map((f) => [f, v]));
           await send(route, m, `json fields=${String(v).slice(0, 12)}`, base, {
             cookie,

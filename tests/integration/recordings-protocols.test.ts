@@ -253,7 +253,9 @@ describe("tus 1.0.0", () => {
         headers: { Origin: BASE_URL, Cookie: builder.cookie },
         metadata: { filename: "finished.mp4" },
         onBeforeRequest: (req) => void methods.push(req.getMethod()),
-        onAfterResponse: (_req, res) => void (seen = res.getHeader("Benchreel-Recording") ?? seen),
+        onAfterResponse: (_req, res) => {
+          seen = res.getHeader("Benchreel-Recording") ?? seen;
+        },
         onSuccess: () => resolve(),
         onError: reject,
       });

@@ -19,7 +19,7 @@ const STAFF: Role[] = ["admin", "editor", "builder", "qc"];
 
 type Entry = { path: string; sample?: string; get: Expect; post?: Expect; note?: string };
 
-export const MATRIX: Entry[] = [
+const MATRIX: Entry[] = [
   // ---- public ----
   { path: "/signin", get: { ...ALL(302), anon: 200 }, note: "signed-in people are sent on" },
   { path: "/signout", get: ALL(302) },

@@ -129,20 +129,18 @@ describe("search ranking and landing", () => {
           publishedAt: new Date(),
         })
         .returning();
-      await tx
-        .insert(procedureSpecs)
-        .values({
-          revisionId: rev.id,
-          procedureId: p.id,
-          specKey: "stretch",
-          position: 0,
-          label: `Rod bolt stretch ${term}`,
-          quantity: "length",
-          unit: "mm",
-          min: 0.15,
-          max: 0.17,
-          siUnit: "m",
-        });
+      await tx.insert(procedureSpecs).values({
+        revisionId: rev.id,
+        procedureId: p.id,
+        specKey: "stretch",
+        position: 0,
+        label: `Rod bolt stretch ${term}`,
+        quantity: "length",
+        unit: "mm",
+        min: 0.15,
+        max: 0.17,
+        siUnit: "m",
+      });
     });
     const [rec] = await db()
       .insert(recordings)

@@ -106,21 +106,19 @@ describe("CSV exports: text a spreadsheet would run as a formula is written as t
         createdBy: qc.id,
       })
       .returning();
-    await db()
-      .insert(testRecordReadings)
-      .values({
-        recordId: rec.id,
-        version: 0,
-        specId: spec.id,
-        specKey: "s1",
-        position: 0,
-        valueEntered: -0.08,
-        unitEntered: "mm",
-        valueSi: -0.00008,
-        valueInSpecUnit: -0.08,
-        verdict: "below",
-        note: "=2+5",
-      });
+    await db().insert(testRecordReadings).values({
+      recordId: rec.id,
+      version: 0,
+      specId: spec.id,
+      specKey: "s1",
+      position: 0,
+      valueEntered: -0.08,
+      unitEntered: "mm",
+      valueSi: -0.00008,
+      valueInSpecUnit: -0.08,
+      verdict: "below",
+      note: "=2+5",
+    });
 
     const res = await http(`/test-records/export.csv?workOrder=WO${tag}`, { cookie: qc.cookie });
     expect(res.status).toBe(200);

@@ -28,17 +28,27 @@ function parse(text: string, _opts: { columns: true; bom: true }): Record<string
   for (let i = 0; i < t.length; i++) {
     const ch = t[i];
     if (quoted) {
-      if (ch === '"' && t[i + 1] === '"') (cell += '"'), i++;
-      else if (ch === '"') quoted = false;
+      if (ch === '"' && t[i + 1] === '"') {
+        cell += '"';
+        i++;
+      } else if (ch === '"') quoted = false;
       else cell += ch;
     } else if (ch === '"') quoted = true;
-    else if (ch === ",") row.push(cell), (cell = "");
-    else if (ch === "\n" || ch === "\r") {
+    else if (ch === ",") {
+      row.push(cell);
+      cell = "";
+    } else if (ch === "\n" || ch === "\r") {
       if (ch === "\r" && t[i + 1] === "\n") i++;
-      row.push(cell), rows.push(row), (row = []), (cell = "");
+      row.push(cell);
+      rows.push(row);
+      row = [];
+      cell = "";
     } else cell += ch;
   }
-  if (cell || row.length) row.push(cell), rows.push(row);
+  if (cell || row.length) {
+    row.push(cell);
+    rows.push(row);
+  }
   const [head, ...body] = rows;
   return body.map((r) => Object.fromEntries(head.map((h, i) => [h, r[i] ?? ""])));
 }

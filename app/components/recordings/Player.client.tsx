@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useRef, useState } from "react";
+import { useCallback, useEffect, useEffectEvent, useRef, useState } from "react";
 import videojs from "video.js";
 import "video.js/dist/video-js.css";
 import { formatTime } from "~/lib/time-format";
@@ -84,8 +84,11 @@ export default function Player({
   const [fullscreen, setFullscreen] = useState(false);
   const [canFullscreen, setCanFullscreen] = useState(false);
   const [ready, setReady] = useState(false);
+  // What the player is made with; read when it is made, without making it again when they change.
+  const settings = useEffectEvent(() => ({ title, poster, opening }));
 
   useEffect(() => {
+    const { title, poster, opening } = settings();
     const el = document.createElement("video-js");
     // vjs-16-9 gives the picture its height: video.js's own size <style> is off under the page's
     // Content-Security-Policy (VIDEOJS_NO_DYNAMIC_STYLE, set in app/root.tsx).
@@ -182,7 +185,6 @@ export default function Player({
       player.dispose();
     };
     // The player is made once per source; a later ?t= goes through the effect below.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [src]);
 
   // A new ?t= on the same page (a link to another moment of this recording) seeks there.
@@ -233,7 +235,7 @@ export default function Player({
   }, []);
 
   const api = apiRef.current;
-  const d = duration > 0 ? duration : 0;
+  const d = Math.max(duration, 0);
   const played = d ? Math.min(100, (time / d) * 100) : 0;
 
   return (

@@ -27,7 +27,7 @@ export function useOptimisticReadings(recordingId: string, readings: ReadingRow[
     const base = `/api/recordings/${recordingId}/readings`;
     let list = [...readings];
     for (const f of fetchers) {
-      if (!f.formAction || !f.formAction.startsWith(base)) continue;
+      if (!f.formAction?.startsWith(base)) continue;
       const json = f.json as Record<string, unknown> | undefined;
       if (f.formMethod === "POST" && f.formAction === base && json) {
         const items = (Array.isArray(json.readings) ? json.readings : [json]) as GridValue[];
@@ -714,7 +714,7 @@ function AddGrid({ recordingId, currentTime }: { recordingId: string; currentTim
   const rowErrors = (i: number) => [...new Set(FIELDS.map((f) => cellError(i, f)).filter(Boolean) as string[])];
 
   return (
-    <div className="border-t border-rule px-4 py-4" aria-labelledby="add-readings-h">
+    <section className="border-t border-rule px-4 py-4" aria-labelledby="add-readings-h">
       <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
         <h3 id="add-readings-h" className="text-base">
           Add readings
@@ -776,6 +776,6 @@ function AddGrid({ recordingId, currentTime }: { recordingId: string; currentTim
           Add a line
         </button>
       </div>
-    </div>
+    </section>
   );
 }

@@ -1,4 +1,4 @@
-import { useEffect, useId, useRef, useState } from "react";
+import { useEffect, useEffectEvent, useId, useRef, useState } from "react";
 import { Form, Link, useFetcher, useNavigate } from "react-router";
 import { clock, KIND_LABELS, opensAtText } from "~/lib/search/highlight";
 import type { SearchHit } from "~/lib/search/query.server";
@@ -29,12 +29,13 @@ export function HeaderSearch() {
     return () => window.removeEventListener("keydown", onKey);
   }, []);
 
+  // The search runs on a pause in typing: only a change of the words starts the wait again.
+  const search = useEffectEvent((term: string) => fetcher.load(`/api/search?limit=12&q=${encodeURIComponent(term)}`));
   useEffect(() => {
     const term = q.trim();
     if (term.length < 2) return;
-    const timer = setTimeout(() => fetcher.load(`/api/search?limit=12&q=${encodeURIComponent(term)}`), 180);
+    const timer = setTimeout(() => search(term), 180);
     return () => clearTimeout(timer);
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [q]);
 
   const data = fetcher.data;
@@ -72,13 +73,13 @@ export function HeaderSearch() {
         />
         {/* The "/" shortcut is told only where there is a keyboard and a fine pointer, not on a tablet. */}
         {!q && (
-          <kbd
+          <span
             aria-hidden="true"
-            className="pointer-events-none absolute top-1/2 right-2 hidden -translate-y-1/2 rounded border border-rule bg-paper px-1.5 font-sans text-xs text-graphite-soft pointer-fine:block"
+            className="pointer-events-none absolute top-1/2 right-2 hidden -translate-y-1/2 pointer-fine:block"
             data-testid="search-shortcut"
           >
-            /
-          </kbd>
+            <kbd className="rounded border border-rule bg-paper px-1.5 font-sans text-xs text-graphite-soft">/</kbd>
+          </span>
         )}
       </Form>
       {open && q.trim().length >= 2 && (

@@ -112,7 +112,7 @@ export function ReadingsEditor({
         if (r.value.trim() === "" || !Number.isFinite(v)) continue;
         try {
           readingVerdict(s, { value: v, unit: r.unit });
-          (typed[s.id] ??= []).push({ value: v, unit: r.unit });
+          typed[s.id] = [...(typed[s.id] ?? []), { value: v, unit: r.unit }];
         } catch {
           /* shown at the field on submit */
         }
@@ -184,9 +184,10 @@ export function ReadingsEditor({
             <legend className="sr-only">{s.label}</legend>
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <div>
-                <h3 className="text-base" aria-hidden="true">
+                {/* The legend names the group for assistive technology; this is its visible twin. */}
+                <p className="font-serif text-base font-semibold text-graphite" aria-hidden="true">
                   {s.label}
-                </h3>
+                </p>
                 <p className="num text-sm text-graphite-soft">
                   Spec {limitsText(s)}
                   {s.note && <> · {s.note}</>}

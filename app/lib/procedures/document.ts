@@ -71,7 +71,6 @@ const intIn =
 export function safeHref(raw: unknown): string | null {
   if (typeof raw !== "string") return null;
   // Browsers ignore control characters and whitespace inside a scheme ("java\tscript:"); so do we, before deciding.
-  // eslint-disable-next-line no-control-regex
   const s = raw.replace(/[\u0000-\u0020\u007f-\u009f]/g, "");
   if (s.length === 0 || s.length > 2000) return null;
   if (/["'<>`\s]/.test(raw.trim())) return null; // quotes, angle brackets or spaces have no business in a link target

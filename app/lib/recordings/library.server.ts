@@ -21,7 +21,8 @@ export async function listRecordings(f: LibraryFilter = {}) {
   if (f.tag) where.push(sql`exists (select 1 from unnest(${recordings.tags}) t where lower(t) = lower(${f.tag}))`);
   if (f.uploader) where.push(eq(recordings.uploadedBy, f.uploader));
   if (f.takesReadings) where.push(notInArray(recordings.state, [...STATES_WITHOUT_READINGS]));
-  if (f.q) where.push(sql`${recordings.title} ilike ${"%" + f.q.replace(/[%_\\]/g, (c) => "\\" + c) + "%"}`);
+  // The title contains the words as typed: LIKE's own wildcards and escape in them are escaped.
+  if (f.q) where.push(sql`${recordings.title} ilike ${`%${f.q.replace(/[%_\\]/g, "\\$&")}%`}`);
   return db()
     .select({
       id: recordings.id,

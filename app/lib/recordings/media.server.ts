@@ -37,7 +37,6 @@ export function parseRange(header: string | null, size: number): Range {
 }
 
 function asciiName(name: string) {
-  // eslint-disable-next-line no-control-regex
   return name.replace(/[^\x20-\x7e]|["\\]/g, "_");
 }
 
@@ -65,7 +64,7 @@ export async function serveFile(request: Request, file: string, opts: ServeOptio
     );
   }
   const inm = request.headers.get("if-none-match");
-  if (inm && inm.split(",").some((t) => t.trim() === etag || t.trim() === "*")) return new Response(null, { status: 304, headers });
+  if (inm?.split(",").some((t) => t.trim() === etag || t.trim() === "*")) return new Response(null, { status: 304, headers });
 
   let range = request.method === "GET" ? parseRange(request.headers.get("range"), size) : null;
   const ifRange = request.headers.get("if-range");

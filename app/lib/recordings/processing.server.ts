@@ -1,7 +1,7 @@
 import { spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import fs from "node:fs/promises";
-import { createReadStream, existsSync } from "node:fs";
+import { existsSync } from "node:fs";
 import path from "node:path";
 import { and, eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
@@ -596,14 +596,6 @@ export async function retryRecording(id: string): Promise<void> {
     .set({ state: "processing", stateReason: null, progress: 0, updatedAt: new Date() })
     .where(eq(recordings.id, id));
   await enqueueProcessing(id);
-}
-
-/** sha256 of a file, streamed (tests and the benchmark). */
-export async function sha256File(file: string): Promise<string> {
-  const { createHash } = await import("node:crypto");
-  const h = createHash("sha256");
-  for await (const chunk of createReadStream(file)) h.update(chunk as Buffer);
-  return h.digest("hex");
 }
 
 let started: Promise<unknown> | null = null;

@@ -39,7 +39,6 @@ class UploadRefusal extends Error {
 }
 
 function clean(s: string | null | undefined, max: number): string {
-  // eslint-disable-next-line no-control-regex
   return (s ?? "")
     .replace(/[\u0000-\u001f\u007f]/g, " ")
     .trim()

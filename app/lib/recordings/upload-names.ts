@@ -5,7 +5,6 @@ export function fileNameProblem(name: string): string | null {
   if (!name?.trim()) return "The file has no name.";
   if (name.length > 255) return "The file name is longer than 255 characters.";
   if (/[/\\]/.test(name)) return "The file name contains a path separator (/ or \\); rename the file and try again.";
-  // eslint-disable-next-line no-control-regex
   if (/[\u0000-\u001f\u007f]/.test(name)) return "The file name contains control characters; rename the file and try again.";
   if (name === "." || name === "..") return "That is not a file name.";
   return null;

@@ -23,26 +23,28 @@ describe("search text in both unit systems", () => {
 import { bestLine, blockFragment, bodySnippet } from "./query.server";
 
 describe("pointing a procedure hit at its block", () => {
-  const H = (w: string) => `\uE000${w}\uE001`;
+  const hl = (w: string) => `\uE000${w}\uE001`;
   it("picks the line (block) of a cropped body with the most distinct highlighted words, the first of equals", () => {
-    const crop = `…values are ${H("torque")} figures\nRun head ${H("studs")} to ${H("torque")} in three passes\nCheck ${H("torque")} again…`;
-    expect(bestLine(crop)).toBe(`Run head ${H("studs")} to ${H("torque")} in three passes`);
+    const crop = `…values are ${hl("torque")} figures\nRun head ${hl("studs")} to ${hl("torque")} in three passes\nCheck ${hl("torque")} again…`;
+    expect(bestLine(crop)).toBe(`Run head ${hl("studs")} to ${hl("torque")} in three passes`);
     // One word said three times loses to two different words; among equals, more marks win.
-    expect(bestLine(`${H("torque")} ${H("torque")} ${H("Torque")}\n${H("stud")} ${H("torque")}`)).toBe(`${H("stud")} ${H("torque")}`);
-    expect(bestLine(`${H("stud")} once\n${H("stud")} and ${H("stud")}`)).toBe(`${H("stud")} and ${H("stud")}`);
-    expect(bestLine(`a ${H("x")}\nb ${H("y")}`)).toBe(`a ${H("x")}`);
+    expect(bestLine(`${hl("torque")} ${hl("torque")} ${hl("Torque")}\n${hl("stud")} ${hl("torque")}`)).toBe(
+      `${hl("stud")} ${hl("torque")}`,
+    );
+    expect(bestLine(`${hl("stud")} once\n${hl("stud")} and ${hl("stud")}`)).toBe(`${hl("stud")} and ${hl("stud")}`);
+    expect(bestLine(`a ${hl("x")}\nb ${hl("y")}`)).toBe(`a ${hl("x")}`);
     expect(bestLine("nothing highlighted\nhere")).toBeNull();
   });
 
   it("shows a cropped body as one run of text, without the heading marks of its blocks", () => {
-    expect(bodySnippet(`…the heads leak.\n## Steps\n• Check that every case ${H("stud")} is…`)).toBe(
-      `…the heads leak. Steps • Check that every case ${H("stud")} is…`,
+    expect(bodySnippet(`…the heads leak.\n## Steps\n• Check that every case ${hl("stud")} is…`)).toBe(
+      `…the heads leak. Steps • Check that every case ${hl("stud")} is…`,
     );
     expect(bodySnippet("# Why\n\nplain")).toBe("Why plain");
   });
 
   it("builds a text fragment from the snippet's first words, without markers or prefixes", () => {
-    expect(blockFragment(`• Torque ${H("stud")} 4 to 110 N·m in three passes`)).toBe(
+    expect(blockFragment(`• Torque ${hl("stud")} 4 to 110 N·m in three passes`)).toBe(
       `#:~:text=${encodeURIComponent("Torque stud 4 to 110 N·m")}`,
     );
     expect(blockFragment("…plate-honed bore checked")).toBe("#:~:text=plate%2Dhoned%20bore%20checked");

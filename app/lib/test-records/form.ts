@@ -106,11 +106,9 @@ const readingRowSchema = z.object({
     .transform((raw) => ({ value: Number(raw.replace(",", ".")), decimals: typedDecimals(raw) ?? 0 })),
   unit: z.string().refine((u) => unitKind(u) != null, { message: "Choose a unit." }),
   note: z.string().transform((n) => n.slice(0, 200)),
-  src: z
-    .string()
-    .refine((s) => s === "" || isUuid(s), {
-      message: "That recording reading does not exist: pull the reading in again from the recording.",
-    }),
+  src: z.string().refine((s) => s === "" || isUuid(s), {
+    message: "That recording reading does not exist: pull the reading in again from the recording.",
+  }),
 });
 
 // A bad pulled-in link is the value's problem: the row shows no field for it.
@@ -171,7 +169,8 @@ export function parseReadings(
     const typed = Object.values(where.position).every((v) => v == null)
       ? positionFromLabel(positionFieldsForSpec(spec), note)
       : { position: where.position, label: note };
-    (readings[specId] ??= []).push({
+    readings[specId] ??= [];
+    readings[specId].push({
       value,
       decimals,
       unit,

@@ -47,7 +47,7 @@ export async function procedureForFiling(slugOrId: string) {
     .select()
     .from(procedures)
     .where(isId ? eq(procedures.id, slugOrId) : eq(procedures.slug, slugOrId));
-  if (!p || !p.publishedRevisionId) return null;
+  if (!p?.publishedRevisionId) return null;
   const [rev] = await db().select().from(procedureRevisions).where(eq(procedureRevisions.id, p.publishedRevisionId));
   if (!rev) return null;
   const specs = await specsOfRevision(db(), rev.id);
@@ -292,43 +292,39 @@ export async function amendTestRecord(
       await tx.insert(testRecordReadings).values(rowsFor(rec.id, version, specs, input.readings));
     } else {
       // Same readings: carry the set over unchanged so each version is complete on its own.
-      await tx
-        .insert(testRecordReadings)
-        .values(
-          current.map((r) => ({
-            recordId: r.recordId,
-            version,
-            specId: r.specId,
-            specKey: r.specKey,
-            position: r.position,
-            valueEntered: r.valueEntered,
-            unitEntered: r.unitEntered,
-            valueDecimals: r.valueDecimals,
-            valueSi: r.valueSi,
-            valueInSpecUnit: r.valueInSpecUnit,
-            verdict: r.verdict,
-            note: r.note,
-            fastener: r.fastener,
-            cylinder: r.cylinder,
-            journal: r.journal,
-            depthM: r.depthM,
-            depthUnit: r.depthUnit,
-            angleDeg: r.angleDeg,
-            sourceReadingId: r.sourceReadingId,
-          })),
-        );
+      await tx.insert(testRecordReadings).values(
+        current.map((r) => ({
+          recordId: r.recordId,
+          version,
+          specId: r.specId,
+          specKey: r.specKey,
+          position: r.position,
+          valueEntered: r.valueEntered,
+          unitEntered: r.unitEntered,
+          valueDecimals: r.valueDecimals,
+          valueSi: r.valueSi,
+          valueInSpecUnit: r.valueInSpecUnit,
+          verdict: r.verdict,
+          note: r.note,
+          fastener: r.fastener,
+          cylinder: r.cylinder,
+          journal: r.journal,
+          depthM: r.depthM,
+          depthUnit: r.depthUnit,
+          angleDeg: r.angleDeg,
+          sourceReadingId: r.sourceReadingId,
+        })),
+      );
     }
-    await tx
-      .insert(testRecordAmendments)
-      .values({
-        recordId: rec.id,
-        version,
-        reason: input.reason,
-        changes,
-        verdictBefore: rec.verdict,
-        verdictAfter: evaluation.verdict,
-        createdBy: actor.id,
-      });
+    await tx.insert(testRecordAmendments).values({
+      recordId: rec.id,
+      version,
+      reason: input.reason,
+      changes,
+      verdictBefore: rec.verdict,
+      verdictAfter: evaluation.verdict,
+      createdBy: actor.id,
+    });
     await tx
       .update(testRecords)
       .set({
@@ -425,7 +421,10 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
   ]);
   const inForce = readingsAtVersion(allReadings, version);
   const typed: Record<string, { value: number; unit: string }[]> = {};
-  for (const r of inForce) (typed[r.specId] ??= []).push({ value: r.valueEntered, unit: r.unitEntered });
+  for (const r of inForce) {
+    typed[r.specId] ??= [];
+    typed[r.specId].push({ value: r.valueEntered, unit: r.unitEntered });
+  }
   const evaluation = evaluateRecord(specs.map(limitsOf), typed);
 
   // A revision superseded since filing: show the limits now in force beside the pinned ones.
@@ -519,8 +518,6 @@ export async function listTestRecords(f: ListFilters, limit = 200) {
     .orderBy(desc(testRecords.testedOn), desc(testRecords.createdAt))
     .limit(limit);
 }
-
-export type TestRecordListRow = Awaited<ReturnType<typeof listTestRecords>>[number];
 
 /** For the procedure page's "Test records" section. */
 export async function testRecordsForProcedure(procedureId: string, limit = 25) {

@@ -9,7 +9,7 @@ import { convert, unitKind, type UnitKind } from "~/lib/calc";
 
 import type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
 export type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
-export { READING_VERDICT_LABELS, RECORD_VERDICT_LABELS, recordVerdictText, SPEC_VERDICT_LABELS } from "./labels";
+export { recordVerdictText } from "./labels";
 
 export type SpecLimits = {
   id: string;
