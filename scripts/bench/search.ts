@@ -18,7 +18,7 @@ import { Meilisearch } from "meilisearch";
 import { marks, recordings, searchOutbox } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { env } from "~/lib/env.server";
-import { INDEX_UID, KIND_WEIGHT, searchErrorMessage, type SearchDoc } from "~/lib/search/client.server";
+import { indexUid, KIND_WEIGHT, searchErrorMessage, type SearchDoc } from "~/lib/search/client.server";
 import { reindexAll, repairIndex, withSearchLock } from "~/lib/search/indexer.server";
 import { createUser, http } from "../../tests/support/app";
 import { benchQueries, generateCorpus } from "../fakes/meili/bench";
@@ -79,7 +79,7 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   // indexes on its one thread, so a task poll may wait long on a busy machine: a generous limit.
   // A poll that fails (a socket the busy fake dropped) is asked again.
   const client = new Meilisearch({ host: env().MEILI_HOST!, apiKey: env().MEILI_API_KEY, timeout: 120_000 });
-  const index = client.index<SearchDoc>(INDEX_UID);
+  const index = client.index<SearchDoc>(indexUid());
   const finished = async (uid: number) => {
     for (let tries = 1; ; tries++) {
       try {

@@ -20,7 +20,7 @@ import {
 } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { Meilisearch, MeilisearchApiError, MeilisearchRequestError } from "meilisearch";
-import { INDEX_UID, SEARCH_SETTINGS, searchErrorMessage, searchIndex, searchServiceAway } from "~/lib/search/client.server";
+import { indexUid, SEARCH_SETTINGS, searchErrorMessage, searchIndex, searchServiceAway } from "~/lib/search/client.server";
 import { HL_PRE } from "~/lib/search/highlight";
 import { reindexAll } from "~/lib/search/indexer.server";
 import { BASE_URL, createUser, http, waitFor } from "../support/app";
@@ -251,7 +251,7 @@ describe("search", () => {
 
     // 1. The service lost the index (a new or reset instance): nothing is findable, then the
     //    worker's check (SEARCH_CHECK_MS, 2 s in tests) rebuilds it from PostgreSQL.
-    await searchClient().deleteIndex(INDEX_UID).waitTask();
+    await searchClient().deleteIndex(indexUid()).waitTask();
     expect((await search(apprentice.cookie, term)).status).toBe(503);
     await waitFor(async () => (await search(apprentice.cookie, term)).body.total === 1, 10_000);
     expect(await settingsAreOurs()).toBe(true);
@@ -350,7 +350,7 @@ describe("search", () => {
     expect(searchServiceAway(err)).toBe(false);
     // Nobody listening: a request error, which the outbox waits out (and the header box shows its 503 message).
     const down = await new Meilisearch({ host: "http://127.0.0.1:9" })
-      .index(INDEX_UID)
+      .index(indexUid())
       .search("x")
       .catch((e: unknown) => e);
     expect(down).toBeInstanceOf(MeilisearchRequestError);
@@ -360,7 +360,7 @@ describe("search", () => {
     try {
       const port = (silent.address() as AddressInfo).port;
       const late = await new Meilisearch({ host: `http://127.0.0.1:${port}`, timeout: 300 })
-        .index(INDEX_UID)
+        .index(indexUid())
         .search("x")
         .catch((e: unknown) => e);
       expect(late).toBeInstanceOf(MeilisearchRequestError);

@@ -3,7 +3,7 @@ import { env } from "~/lib/env.server";
 import { currentSynonyms } from "./words.server";
 
 /** One index holds every kind of document; `kind` tells them apart and is a facet. */
-export const INDEX_UID = process.env.SEARCH_INDEX ?? "benchreel";
+export const indexUid = () => env().SEARCH_INDEX;
 
 export type SearchKind = "procedure" | "spec" | "mark" | "reading" | "recording" | "test_record";
 
@@ -96,7 +96,7 @@ export function searchClient(): Meilisearch {
 }
 
 export function searchIndex() {
-  return searchClient().index<SearchDoc>(INDEX_UID);
+  return searchClient().index<SearchDoc>(indexUid());
 }
 
 export const SEARCH_SETTINGS = {
@@ -141,9 +141,9 @@ export async function ensureIndex(): Promise<{ created: boolean }> {
   const c = searchClient();
   let created = false;
   try {
-    await c.getIndex(INDEX_UID);
+    await c.getIndex(indexUid());
   } catch {
-    const task = await c.createIndex(INDEX_UID, { primaryKey: "id" }).waitTask();
+    const task = await c.createIndex(indexUid(), { primaryKey: "id" }).waitTask();
     if (task.status === "failed" && task.error?.code !== "index_already_exists") {
       throw new Error(`search index could not be created: ${task.error?.message}`);
     }
