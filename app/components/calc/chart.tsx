@@ -50,6 +50,7 @@ export function Plot({
   yDown = false,
   xTickLabel = tickLabel,
   className = "h-auto w-full",
+  interactive = false,
 }: {
   width?: number;
   height?: number;
@@ -66,6 +67,8 @@ export function Plot({
   /** The text of an x tick (a video time reads as 1:05, not 65). */
   xTickLabel?: (v: number, step: number) => string;
   className?: string;
+  /** Its marks take focus and clicks: a named group, since an image's inside is hidden from assistive technology. */
+  interactive?: boolean;
 }) {
   const f: Frame = {
     left: margin.l,
@@ -83,7 +86,13 @@ export function Plot({
   const xs = xt.length > 1 ? xt[1] - xt[0] : 1;
   const ys = yt.length > 1 ? yt[1] - yt[0] : 1;
   return (
-    <svg viewBox={`0 0 ${width} ${height}`} className={className} role="img" aria-label={title} data-testid={testId}>
+    <svg
+      viewBox={`0 0 ${width} ${height}`}
+      className={className}
+      role={interactive ? "group" : "img"}
+      aria-label={title}
+      data-testid={testId}
+    >
       <title>{title}</title>
       <rect x={f.left} y={f.top} width={f.right - f.left} height={f.bottom - f.top} className="fill-card stroke-rule" />
       {xt.map((v) => (

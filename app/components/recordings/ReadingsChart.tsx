@@ -47,6 +47,7 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
       </div>
       <Plot
         {...SIZE}
+        interactive
         title={`${label} against video time, ${data.length} readings`}
         xDomain={[0, tMax]}
         yDomain={[lo, hi]}
