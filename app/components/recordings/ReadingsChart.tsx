@@ -57,14 +57,12 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
       >
         {(f) =>
           data.map((d) => (
+            // A point is a button: a 44-unit transparent hit circle around the visible dot, so a
+            // finger finds it on the tablet (WCAG 2.5.5); the focus ring is drawn on the hit circle.
             // biome-ignore lint/a11y/useSemanticElements: an SVG point cannot be a <button>; the role, the focus and the keys make it one
-            <circle
+            <g
               key={d.r.id}
-              cx={f.x(d.t)}
-              cy={f.y(d.v)}
-              r="4.5"
-              className="cursor-pointer fill-teal stroke-card focus:outline-none focus-visible:stroke-graphite"
-              strokeWidth="1.5"
+              className="group cursor-pointer focus:outline-none"
               role="button"
               tabIndex={0}
               aria-label={`Play from ${formatTime(d.t)}: ${d.r.label || label}, ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}
@@ -77,7 +75,22 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
               }}
             >
               <title>{`${formatTime(d.t)} · ${d.r.label || label}: ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}</title>
-            </circle>
+              <circle
+                cx={f.x(d.t)}
+                cy={f.y(d.v)}
+                r="22"
+                fill="transparent"
+                className="stroke-transparent group-focus-visible:stroke-graphite"
+                strokeWidth="2"
+              />
+              <circle
+                cx={f.x(d.t)}
+                cy={f.y(d.v)}
+                r="4.5"
+                className="pointer-events-none fill-teal stroke-card group-hover:stroke-graphite"
+                strokeWidth="1.5"
+              />
+            </g>
           ))
         }
       </Plot>
