@@ -3,3 +3,4 @@ export * from "./procedures";
 export * from "./recordings";
 export * from "./search";
 export * from "./test-records";
+export * from "./builds";

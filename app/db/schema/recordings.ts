@@ -1,6 +1,7 @@
 import { sql } from "drizzle-orm";
 import { bigint, boolean, doublePrecision, index, integer, jsonb, pgEnum, pgTable, real, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import { users } from "./auth";
+import { builds } from "./builds";
 import { procedures } from "./procedures";
 
 // The recordings area: uploads (tus), recordings, marks and readings.
@@ -57,8 +58,14 @@ export const recordings = pgTable(
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
     readyAt: timestamp("ready_at", { withTimezone: true }),
+    /** The build (engine job) it was recorded for, if any (migration 0029). */
+    buildId: uuid("build_id").references(() => builds.id, { onDelete: "set null" }),
   },
-  (t) => [index("recordings_created_idx").on(t.createdAt), index("recordings_uploader_idx").on(t.uploadedBy)],
+  (t) => [
+    index("recordings_created_idx").on(t.createdAt),
+    index("recordings_uploader_idx").on(t.uploadedBy),
+    index("recordings_build_idx").on(t.buildId),
+  ],
 );
 
 /** A time-stamped note: a point (t_end null) or a span. Procedures link to /recordings/:id?t=<t_start>. */
@@ -70,6 +77,8 @@ export const marks = pgTable(
       .notNull()
       .references(() => recordings.id, { onDelete: "cascade" }),
     procedureId: uuid("procedure_id").references(() => procedures.id, { onDelete: "set null" }),
+    /** The build the mark is about, if any (migration 0029); a recording's build by default. */
+    buildId: uuid("build_id").references(() => builds.id, { onDelete: "set null" }),
     tStart: doublePrecision("t_start").notNull(),
     tEnd: doublePrecision("t_end"),
     text: text("text").notNull(),
@@ -78,7 +87,11 @@ export const marks = pgTable(
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("marks_recording_idx").on(t.recordingId, t.tStart), index("marks_procedure_idx").on(t.procedureId)],
+  (t) => [
+    index("marks_recording_idx").on(t.recordingId, t.tStart),
+    index("marks_procedure_idx").on(t.procedureId),
+    index("marks_build_idx").on(t.buildId),
+  ],
 );
 
 /**

@@ -1,5 +1,6 @@
 import { doublePrecision, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid, date } from "drizzle-orm/pg-core";
 import { users } from "./auth";
+import { builds } from "./builds";
 import { procedureRevisions, procedures, procedureSpecs } from "./procedures";
 import { positionColumns, readings, recordings } from "./recordings";
 
@@ -24,6 +25,8 @@ export const testRecords = pgTable(
       .references(() => procedureRevisions.id, { onDelete: "restrict" }),
     title: text("title").notNull(),
     workOrder: text("work_order").notNull(),
+    /** The build it was filed for (migration 0029); work_order keeps the build's number as text. */
+    buildId: uuid("build_id").references(() => builds.id, { onDelete: "restrict" }),
     engineSerial: text("engine_serial").notNull().default(""),
     testedOn: date("tested_on", { mode: "string" }).notNull(),
     recordingId: uuid("recording_id").references(() => recordings.id, { onDelete: "set null" }),
@@ -41,6 +44,7 @@ export const testRecords = pgTable(
   (t) => [
     index("test_records_procedure_idx").on(t.procedureId, t.testedOn),
     index("test_records_work_order_idx").on(t.workOrder),
+    index("test_records_build_idx").on(t.buildId),
     index("test_records_tested_on_idx").on(t.testedOn),
   ],
 );
