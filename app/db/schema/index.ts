@@ -4,3 +4,4 @@ export * from "./recordings";
 export * from "./search";
 export * from "./test-records";
 export * from "./builds";
+export * from "./captions";
