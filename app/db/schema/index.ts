@@ -5,3 +5,4 @@ export * from "./search";
 export * from "./test-records";
 export * from "./builds";
 export * from "./captions";
+export * from "./storage";
