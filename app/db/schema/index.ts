@@ -6,3 +6,4 @@ export * from "./test-records";
 export * from "./builds";
 export * from "./captions";
 export * from "./storage";
+export * from "./runs";
