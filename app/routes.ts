@@ -77,5 +77,9 @@ export default [
     route("recordings/:id/marks/:markId", "routes/api/recordings/mark.ts"),
     route("recordings/:id/readings", "routes/api/recordings/readings.ts"),
     route("recordings/:id/readings/:readingId", "routes/api/recordings/reading.ts"),
+    route("recordings/:id/captions", "routes/api/recordings/captions.ts"),
+    route("recordings/:id/captions/:cueId", "routes/api/recordings/captions.cue.ts"),
+    route("recordings/:id/captions.vtt", "routes/api/recordings/captions.as-vtt.ts"),
+    route("recordings/:id/captions.srt", "routes/api/recordings/captions.as-srt.ts"),
   ]),
 ] satisfies RouteConfig;

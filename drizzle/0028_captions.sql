@@ -55,3 +55,15 @@ CREATE TRIGGER search_caption_cues_insert AFTER INSERT ON caption_cues REFERENCI
 CREATE TRIGGER search_caption_cues_update AFTER UPDATE ON caption_cues REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION search_enqueue_captions();
 --> statement-breakpoint
 CREATE TRIGGER search_caption_cues_delete AFTER DELETE ON caption_cues REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION search_enqueue_captions();
+--> statement-breakpoint
+-- A caption line's document shows its recording's title and is hidden with a rejected recording.
+CREATE OR REPLACE FUNCTION search_enqueue_recording_captions() RETURNS trigger AS $$
+BEGIN
+  IF NEW.title IS DISTINCT FROM OLD.title OR NEW.state IS DISTINCT FROM OLD.state THEN
+    INSERT INTO search_outbox (kind, entity_id) SELECT 'captions', NEW.id::text WHERE EXISTS (SELECT 1 FROM caption_cues WHERE recording_id = NEW.id);
+  END IF;
+  RETURN NULL;
+END
+$$ LANGUAGE plpgsql;
+--> statement-breakpoint
+CREATE TRIGGER search_recording_captions AFTER UPDATE ON recordings FOR EACH ROW EXECUTE FUNCTION search_enqueue_recording_captions();

@@ -41,6 +41,8 @@ export const PERMISSIONS = {
   "reading:create": staff,
   "reading:edit:own": staff,
   "reading:edit:any": ["admin", "editor"],
+  // Captions belong to the recording: whoever may add and change marks may attach and correct them.
+  "caption:edit": staff,
 
   // Procedures and their revisions.
   "procedure:draft": ["admin", "editor", "builder"],
@@ -132,6 +134,7 @@ export const CAPABILITY_WORDS: Record<Permission, string> = {
   "reading:create": "enter readings",
   "reading:edit:own": "change readings",
   "reading:edit:any": "change other people's readings",
+  "caption:edit": "attach or correct a recording's captions",
   "procedure:draft": "write procedures",
   "procedure:edit:own": "change procedure drafts",
   "procedure:edit:any": "change other people's procedure drafts",

@@ -154,6 +154,30 @@ const MATRIX: Entry[] = [
     get: { ...ALL(404), anon: 401 },
     post: only(STAFF, 405, 401),
   },
+  {
+    path: "/api/recordings/:id/captions",
+    sample: "/api/recordings/00000000-0000-4000-8000-000000000000/captions",
+    get: { ...ALL(404), anon: 401 },
+    post: only(STAFF, 422, 401),
+    note: "POST: a form without a caption file is a 422 with the reason, before the recording is looked up",
+  },
+  {
+    path: "/api/recordings/:id/captions/:cueId",
+    sample: "/api/recordings/00000000-0000-4000-8000-000000000000/captions/00000000-0000-4000-8000-000000000001",
+    get: { ...ALL(404), anon: 401 },
+    post: only(STAFF, 405, 401),
+    note: "a correction is a PATCH (captions.test.ts)",
+  },
+  {
+    path: "/api/recordings/:id/captions.vtt",
+    sample: "/api/recordings/00000000-0000-4000-8000-000000000000/captions.vtt",
+    get: { ...ALL(404), anon: 401 },
+  },
+  {
+    path: "/api/recordings/:id/captions.srt",
+    sample: "/api/recordings/00000000-0000-4000-8000-000000000000/captions.srt",
+    get: { ...ALL(404), anon: 401 },
+  },
   { path: "/api/search", sample: "/api/search?q=torque", get: SIGNED_IN_API },
 ];
 

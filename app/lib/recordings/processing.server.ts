@@ -6,6 +6,7 @@ import path from "node:path";
 import { and, eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { recordings } from "~/db/schema";
+import { attachEmbeddedCaptions } from "../captions/captions.server";
 import { db } from "../db.server";
 import { formatTime } from "../time-format";
 import { env } from "../env.server";
@@ -20,6 +21,8 @@ export type Probe = {
   videoDurationS: number | null;
   video: { codec: string; profile: string | null; pixFmt: string | null; width: number; height: number; frameRate: number | null } | null;
   audio: { codec: string } | null;
+  /** The first subtitle track's codec (a phone's mov_text), read out as captions (issue 17). */
+  subtitle?: { codec: string } | null;
 };
 
 type Run = { code: number | null; stdout: string; stderr: string };
@@ -83,6 +86,7 @@ export async function probe(file: string): Promise<Probe | null> {
     | Record<string, string & number>
     | undefined;
   const a = streams.find((s) => s.codec_type === "audio") as Record<string, string> | undefined;
+  const sub = streams.find((s) => s.codec_type === "subtitle") as Record<string, string> | undefined;
   const duration = Number(j.format?.duration ?? v?.duration);
   const videoDuration = Number(v?.duration);
   return {
@@ -101,6 +105,7 @@ export async function probe(file: string): Promise<Probe | null> {
         }
       : null,
     audio: a ? { codec: String(a.codec_name) } : null,
+    subtitle: sub ? { codec: String(sub.codec_name) } : null,
   };
 }
 
@@ -407,6 +412,12 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
   // The poster (one frame) is made while the long work runs and shown as soon as it is there.
   const poster = makePoster(id, src, p.durationS, attemptTemp(posterPath(id), attempt, ".jpg"));
   poster.catch(() => {}); // awaited below; never an unhandled rejection meanwhile
+  // A subtitle track inside the file becomes the recording's captions, read out beside the long work.
+  const captions = p.subtitle
+    ? attachEmbeddedCaptions(id, src, p.durationS, p.subtitle.codec, (args) => run(env().FFMPEG_PATH, args)).catch((err) =>
+        console.warn(`[captions] ${id}: ${err instanceof Error ? err.message : err}`),
+      )
+    : undefined;
   const tmp = attemptTemp(renditionPath(id), attempt, ".mp4");
   let made = plan === "transcode" ? await transcodeChecked(id, src, expectedS, tmp) : await decodeAndCopy(src, expectedS, plan, tmp);
   if (!("damage" in made) && plan !== "as-is") {
@@ -434,6 +445,7 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     return "damaged";
   }
   await poster;
+  await captions;
   if (plan !== "as-is") await fs.rename(tmp, renditionPath(id));
   // Sent before "Ready" is written, so no moment exists where the file is ready with no check to come.
   if (plan !== "transcode") await enqueueDecodeCheck(id, expectedS);

@@ -5,7 +5,7 @@ import { currentSynonyms } from "./words.server";
 /** One index holds every kind of document; `kind` tells them apart and is a facet. */
 export const indexUid = () => env().SEARCH_INDEX;
 
-export type SearchKind = "procedure" | "spec" | "mark" | "reading" | "recording" | "test_record";
+export type SearchKind = "procedure" | "spec" | "mark" | "reading" | "recording" | "test_record" | "caption";
 
 export type SearchDoc = {
   id: string;
@@ -35,6 +35,10 @@ export type SearchDoc = {
   readings?: string[];
   readingIds?: string[];
   readingTimes?: (number | null)[];
+  /** A caption line's neighbours and recording, shown around the hit, never searched (one document per line). */
+  before?: string;
+  after?: string;
+  inRecording?: string;
 };
 
 /**
@@ -42,7 +46,15 @@ export type SearchDoc = {
  * and `typo`: among documents that hold the same query words as well, a procedure or one of
  * its specs comes before a recording, a mark or the readings of a recording.
  */
-export const KIND_WEIGHT: Record<SearchKind, number> = { procedure: 5, spec: 5, test_record: 3, recording: 3, mark: 2, reading: 1 };
+export const KIND_WEIGHT: Record<SearchKind, number> = {
+  procedure: 5,
+  spec: 5,
+  test_record: 3,
+  recording: 3,
+  mark: 2,
+  reading: 1,
+  caption: 1,
+};
 
 /** How long one call to the search service may take before it fails (ms). */
 const SEARCH_TIMEOUT_MS = 5_000;
@@ -129,6 +141,9 @@ export const SEARCH_SETTINGS = {
     "readings",
     "readingIds",
     "readingTimes",
+    "before",
+    "after",
+    "inRecording",
   ],
 };
 

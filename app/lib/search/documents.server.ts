@@ -1,5 +1,5 @@
 import { eq, inArray } from "drizzle-orm";
-import { marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords, users } from "~/db/schema";
+import { captionCues, marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords, users } from "~/db/schema";
 import { positionText } from "~/lib/recordings/positions";
 import { db } from "~/lib/db.server";
 import { blockTexts, type JSONNode } from "~/lib/procedures/document";
@@ -97,6 +97,7 @@ export function recordsOf(doc: SearchDoc): { kind: string; entityId: string }[] 
   if (doc.kind === "procedure") return [{ kind: "revision", entityId: doc.id.slice("rev-".length) }];
   if (doc.kind === "spec") return [];
   if (doc.kind === "reading") return (doc.readingIds ?? []).map((entityId) => ({ kind: "reading", entityId }));
+  if (doc.kind === "caption") return [{ kind: "captions", entityId: doc.url.slice("/recordings/".length).split("?")[0] }];
   return [{ kind: doc.kind, entityId: doc.id.slice(doc.kind.length + 1) }];
 }
 
@@ -282,6 +283,49 @@ async function readingsDoc(recordingId: string, unindexable: Unindexable[]): Pro
   return [doc];
 }
 
+/**
+ * What is said in a recording: one document per caption line, its neighbours beside it for the
+ * hit (shown, not searched, so a word finds the one line that says it), opening the recording
+ * at the line's second. In a group of their own (`cap-<recording>`), rebuilt as a whole when
+ * the captions change, or the recording's title or state (the outbox kind "captions", queued
+ * by migration 0028's triggers), not on every mark or reading of the recording.
+ */
+async function captionDocs(recordingId: string): Promise<IndexChange> {
+  const change = empty();
+  change.deleteGroups.push(`cap-${recordingId}`);
+  const [rec] = await db()
+    .select({ title: recordings.title, state: recordings.state })
+    .from(recordings)
+    .where(eq(recordings.id, recordingId));
+  if (!rec || rec.state === "rejected") return change;
+  const cues = await db()
+    .select({ id: captionCues.id, start: captionCues.startS, text: captionCues.text, updatedAt: captionCues.updatedAt })
+    .from(captionCues)
+    .where(eq(captionCues.recordingId, recordingId))
+    .orderBy(captionCues.position);
+  const oneLine = (s: string | undefined) => s?.replace(/\s*\n\s*/g, " ");
+  cues.forEach((c, i) => {
+    change.upserts.push({
+      id: `caption-${c.id}`,
+      group: `cap-${recordingId}`,
+      kind: "caption",
+      title: oneLine(c.text) ?? "",
+      text: "",
+      tags: [],
+      // Everyone who may watch the recording may read what is said in it (apprentices too).
+      visibility: ["all"],
+      url: `/recordings/${recordingId}?t=${c.start}`,
+      t: c.start,
+      before: oneLine(cues[i - 1]?.text),
+      after: oneLine(cues[i + 1]?.text),
+      inRecording: rec.title,
+      date: c.updatedAt.getTime(),
+      kindWeight: KIND_WEIGHT.caption,
+    } as WithGroup);
+  });
+  return change;
+}
+
 async function recordingDocs(recordingId: string): Promise<IndexChange> {
   const change = empty();
   change.deleteGroups.push(`rec-${recordingId}`);
@@ -314,6 +358,8 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
       return revisionDocs(entityId);
     case "recording":
       return recordingDocs(entityId);
+    case "captions":
+      return captionDocs(entityId);
     case "reading": {
       // Queued by an admin's "try again" or before migration 0023 (the trigger now queues the
       // recording): the reading's recording is rebuilt. A reading that is gone leaves only its
@@ -401,6 +447,8 @@ export async function allDocuments(): Promise<{ docs: SearchDoc[]; unindexable: 
   for (const r of await db().select({ id: recordings.id }).from(recordings)) {
     const c = await guardedAsync("recording", r.id, all.unindexable, () => recordingDocs(r.id));
     if (c) add(c);
+    const cap = await guardedAsync("captions", r.id, all.unindexable, () => captionDocs(r.id));
+    if (cap) add(cap);
   }
   all.upserts.push(...(await testRecordDocs(all.unindexable)));
   return { docs: all.upserts, unindexable: all.unindexable };

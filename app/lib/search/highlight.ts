@@ -9,6 +9,7 @@ export const KIND_LABELS: Record<string, string> = {
   reading: "Readings",
   recording: "Recordings",
   test_record: "Test records",
+  caption: "Said in recordings",
 };
 
 export const STATE_LABELS: Record<string, string> = { published: "Published", draft: "Draft", in_review: "In review" };

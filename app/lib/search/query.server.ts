@@ -7,7 +7,7 @@ import { can } from "~/lib/permissions";
 import { searchErrorMessage, searchIndex, type SearchKind } from "./client.server";
 import { HL_POST, HL_PRE } from "./highlight";
 
-export const KINDS: SearchKind[] = ["procedure", "spec", "mark", "reading", "recording", "test_record"];
+export const KINDS: SearchKind[] = ["procedure", "spec", "mark", "reading", "recording", "test_record", "caption"];
 
 export const searchParamsSchema = z.object({
   q: z.string().trim().max(200, "Keep the query under 200 characters.").default(""),
@@ -143,7 +143,22 @@ export function bodySnippet(cropped: string): string {
 }
 
 /** What a search hit needs from a document; the long texts come back only as crops. */
-const RETURNED = ["id", "kind", "title", "tags", "url", "state", "t", "procedureTitle", "recordingTitle", "readingIds", "readingTimes"];
+const RETURNED = [
+  "id",
+  "kind",
+  "title",
+  "tags",
+  "url",
+  "state",
+  "t",
+  "procedureTitle",
+  "recordingTitle",
+  "readingIds",
+  "readingTimes",
+  "before",
+  "after",
+  "inRecording",
+];
 
 /** The search request the app sends for a person and parameters (the benchmark sends the same). */
 export function searchRequest(user: SessionUser, p: SearchParams) {
@@ -186,6 +201,19 @@ export async function runSearch(user: SessionUser, p: SearchParams, timings?: Se
     }
     if (h.kind === "mark") context = h.recordingTitle;
     if (h.kind === "spec") context = h.procedureTitle;
+    if (h.kind === "caption") {
+      // A line said in a recording: the recording's title, the line (highlighted) between its neighbours.
+      const line = String(f.title ?? h.title);
+      return {
+        id: h.id,
+        kind: h.kind,
+        title: h.inRecording ?? "Recording",
+        snippet: [h.before, line, h.after].filter(Boolean).join(" "),
+        url,
+        tags: [],
+        t: h.t,
+      };
+    }
     if (h.kind === "reading") {
       // One hit per recording, listing the readings that matched; it opens at the first of them.
       const { listed, more } = matchingReadings(h.url, f.readings, h.readingIds, h.readingTimes);
