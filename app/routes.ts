@@ -38,6 +38,10 @@ export default [
     route("test-records/:id/amend", "routes/test-records/amend.tsx"),
     route("test-records/:id/print", "routes/test-records/print.tsx"),
 
+    // runs: a procedure worked step by step on a build
+    route("runs/start", "routes/runs/start.tsx"),
+    route("runs/:id", "routes/runs/run.tsx"),
+
     // calculators
     route("calculators", "routes/calculators/index.tsx"),
     route("calculators/preload", "routes/calculators/preload.tsx"),
@@ -77,6 +81,9 @@ export default [
     route("recordings/:id/marks/:markId", "routes/api/recordings/mark.ts"),
     route("recordings/:id/readings", "routes/api/recordings/readings.ts"),
     route("recordings/:id/readings/:readingId", "routes/api/recordings/reading.ts"),
+    route("runs/:id/entries", "routes/api/runs.entries.ts"),
+    route("runs/:id/photos", "routes/api/runs.photos.ts"),
+    route("runs/:id/photos/:photoId", "routes/api/runs.photo.ts"),
     route("recordings/:id/captions", "routes/api/recordings/captions.ts"),
     route("recordings/:id/captions/:cueId", "routes/api/recordings/captions.cue.ts"),
     route("recordings/:id/captions.vtt", "routes/api/recordings/captions.as-vtt.ts"),

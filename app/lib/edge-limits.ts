@@ -20,6 +20,7 @@ export const BODY_LIMITS: BodyLimit[] = [
   { pattern: /^\/api\/recordings\//, bytes: 1 * MB, why: "marks and readings: up to 500 readings at once" },
   { pattern: /^\/api\/calc\//, bytes: 256 * KB, why: "a calculator's input, bench points included" },
   { pattern: /^\/test-records\//, bytes: 1 * MB, why: "a test record with many readings and notes" },
+  { pattern: /^\/api\/runs\/[^/]+\/photos$/, bytes: 13 * MB, why: "a photo from the tablet's camera (up to 12 MB) with its form" },
 ];
 
 /** Every other route: page forms of a few fields. */

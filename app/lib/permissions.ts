@@ -57,6 +57,9 @@ export const PERMISSIONS = {
   "testrecord:create": staff,
   "testrecord:amend": ["admin", "editor", "qc"],
 
+  // Runs: a procedure worked step by step on a build (apprentices read them with shop:read).
+  "run:work": staff,
+
   // Administration.
   "user:manage": ["admin"],
   "outbox:view": ["admin"],
@@ -144,6 +147,7 @@ export const CAPABILITY_WORDS: Record<Permission, string> = {
   "procedure:watch": "follow procedures",
   "testrecord:create": "file test records",
   "testrecord:amend": "amend test records",
+  "run:work": "work procedures step by step on a build",
   "user:manage": "manage people's accounts",
   "outbox:view": "see the mail outbox",
   "search:repair": "repair the search index",

@@ -76,6 +76,15 @@ const MATRIX: Entry[] = [
     get: { ...ALL(404), anon: 302 },
     note: "unknown id",
   },
+  // runs (unknown ids: the guard answers first, then 404)
+  { path: "/runs/start", get: only(STAFF), post: only(STAFF, 400), note: "empty form: field errors" },
+  {
+    path: "/runs/:id",
+    sample: "/runs/00000000-0000-4000-8000-000000000000",
+    get: { ...ALL(404), anon: 302 },
+    post: only(STAFF, 404),
+    note: "unknown id; apprentices may read a run, not work it",
+  },
   { path: "/calculators", get: SIGNED_IN },
   { path: "/calculators/preload", get: SIGNED_IN, post: { ...ALL(400), anon: 302 }, note: "empty form: field errors" },
   { path: "/calculators/distortion", get: SIGNED_IN, post: { ...ALL(400), anon: 302 } },
@@ -176,6 +185,24 @@ const MATRIX: Entry[] = [
   {
     path: "/api/recordings/:id/captions.srt",
     sample: "/api/recordings/00000000-0000-4000-8000-000000000000/captions.srt",
+    get: { ...ALL(404), anon: 401 },
+  },
+  {
+    path: "/api/runs/:id/entries",
+    sample: "/api/runs/00000000-0000-4000-8000-000000000000/entries",
+    get: only(STAFF, 405, 401),
+    post: only(STAFF, 422, 401),
+    note: "an empty form is no entries: 422 before the run is looked up",
+  },
+  {
+    path: "/api/runs/:id/photos",
+    sample: "/api/runs/00000000-0000-4000-8000-000000000000/photos",
+    get: only(STAFF, 405, 401),
+    post: only(STAFF, 422, 401),
+  },
+  {
+    path: "/api/runs/:id/photos/:photoId",
+    sample: "/api/runs/00000000-0000-4000-8000-000000000000/photos/00000000-0000-4000-8000-000000000001",
     get: { ...ALL(404), anon: 401 },
   },
   { path: "/api/search", sample: "/api/search?q=torque", get: SIGNED_IN_API },

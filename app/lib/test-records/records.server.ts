@@ -99,6 +99,8 @@ export async function recordingForFiling(id: string) {
 
 export type NewRecordInput = HeaderFields & {
   workOrder: string;
+  /** The build it is filed for (a run's build); work_order keeps its number as text. */
+  buildId?: string | null;
   revisionId: string;
   recordingId: string | null;
   readings: Record<string, TypedReading[]>;
@@ -164,12 +166,16 @@ async function assertSourceReadings(tx: DbOrTx, typed: Record<string, TypedReadi
 export async function createTestRecord(
   actor: Actor,
   input: NewRecordInput,
+  // A run files inside its own transaction (the run closes with the filing), against the
+  // revision it was pinned to when it started, which may have been superseded since.
+  opts: { tx?: DbOrTx; pinned?: boolean } = {},
 ): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number }> {
-  return db().transaction(async (tx) => {
+  return (opts.tx ?? db()).transaction(async (tx) => {
     const [rev] = await tx.select().from(procedureRevisions).where(eq(procedureRevisions.id, input.revisionId));
     if (!rev) throw new DomainError("That procedure revision does not exist.", { status: 400, field: "revisionId" });
     const [proc] = await tx.select().from(procedures).where(eq(procedures.id, rev.procedureId)).for("share");
-    if (!proc || proc.publishedRevisionId !== rev.id) {
+    const pinnedOk = opts.pinned && proc && (rev.state === "published" || rev.state === "superseded");
+    if (!proc || (proc.publishedRevisionId !== rev.id && !pinnedOk)) {
       const [now] = proc?.publishedRevisionId
         ? await tx
             .select({ number: procedureRevisions.number })
@@ -197,6 +203,7 @@ export async function createTestRecord(
         revisionId: rev.id,
         title: input.title,
         workOrder: input.workOrder,
+        buildId: input.buildId ?? null,
         engineSerial: input.engineSerial,
         testedOn: input.testedOn,
         recordingId: input.recordingId,

@@ -1,0 +1,305 @@
+// Runs over HTTP: starting pins the revision in force, entries are stored exactly once under
+// retried idempotency keys, a newer publish is announced and the pin kept at filing, a run
+// with specs left unmeasured files an Incomplete record, and the bad input a tablet or a
+// clumsy client can send (ids, values, oversized and non-image photos) is answered 4xx.
+import { randomUUID } from "node:crypto";
+import { and, eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { builds, procedureRevisions, procedures, procedureSpecs, runEntries, runs, testRecordReadings, testRecords } from "~/db/schema";
+import { db } from "~/lib/db.server";
+import { listRunPhotos, listRunsForBuild, photosForTestRecord } from "~/lib/runs/runs.server";
+import { createUser, http, type TestUser } from "../support/app";
+
+const t = (text: string) => ({ type: "text", text });
+const p = (text: string) => ({ type: "paragraph", content: [t(text)] });
+const specNode = (id: string, label: string, unit: string, quantity: string, nominal: number, min: number, max: number) => ({
+  type: "spec",
+  attrs: { id, label, quantity, unit, nominal, min, max, note: "" },
+});
+const DOC = {
+  type: "doc",
+  content: [
+    { type: "caution", content: [p("Planning figures: the makers' values take precedence.")] },
+    { type: "heading", attrs: { level: 2 }, content: [t("Steps")] },
+    {
+      type: "orderedList",
+      attrs: { start: 1 },
+      content: [
+        { type: "listItem", content: [p("Measure the bore at the top of the ring travel.")] },
+        { type: "listItem", content: [p("Torque the stud to its final value.")] },
+      ],
+    },
+    specNode("bore", "Bore diameter", "mm", "length", 88.006, 88.0, 88.012),
+    specNode("final", "Stud final torque", "N.m", "torque", 110, 105, 115),
+  ],
+};
+const SPECS = [
+  { specKey: "bore", label: "Bore diameter", quantity: "length", unit: "mm", nominal: 88.006, min: 88.0, max: 88.012, siUnit: "m" },
+  { specKey: "final", label: "Stud final torque", quantity: "torque", unit: "N.m", nominal: 110, min: 105, max: 115, siUnit: "N.m" },
+];
+
+async function publishRevision(procedureId: string, number: number, title: string) {
+  const [rev] = await db()
+    .insert(procedureRevisions)
+    .values({ procedureId, number, state: "published", title, area: "block", doc: DOC, publishedAt: new Date() })
+    .returning();
+  await db()
+    .insert(procedureSpecs)
+    .values(SPECS.map((s, i) => ({ ...s, revisionId: rev.id, procedureId, position: i })));
+  return rev;
+}
+
+async function fixture() {
+  const tag = randomUUID().slice(0, 8);
+  const [proc] = await db()
+    .insert(procedures)
+    .values({ slug: `run-check-${tag}`, title: `Run check ${tag}`, area: "block" })
+    .returning();
+  const rev = await publishRevision(proc.id, 1, proc.title);
+  await db().update(procedures).set({ publishedRevisionId: rev.id, publishedAt: new Date() }).where(eq(procedures.id, proc.id));
+  const number = `RUN-26-${String(Math.floor(Math.random() * 90000) + 10000)}`;
+  const [build] = await db()
+    .insert(builds)
+    .values({ number, customerName: "Test customer", engine: "Test four", engineSerial: `SN-${tag}`, status: "on_bench" })
+    .returning();
+  return { proc, rev, build };
+}
+
+async function startRun(user: TestUser, slug: string, build: string): Promise<string> {
+  const res = await http("/runs/start", { cookie: user.cookie, form: { procedure: slug, build } });
+  expect(res.status).toBe(302);
+  const id = /\/runs\/([0-9a-f-]{36})$/.exec(res.headers.get("location") ?? "")?.[1];
+  if (!id) throw new Error(`no run started (${res.status})`);
+  return id;
+}
+
+const entry = (specKey: string, value: number | null, unit: string, extra: Record<string, unknown> = {}) => ({
+  key: randomUUID(),
+  specKey,
+  value,
+  unit,
+  decimals: value == null ? null : 3,
+  typedAt: new Date().toISOString(),
+  device: "test tablet",
+  ...extra,
+});
+
+const post = (user: TestUser, runId: string, json: unknown) =>
+  http(`/api/runs/${runId}/entries`, { method: "POST", cookie: user.cookie, json });
+
+describe("runs", () => {
+  let builder: TestUser;
+  let apprentice: TestUser;
+  beforeAll(async () => {
+    builder = await createUser("builder");
+    apprentice = await createUser("apprentice");
+  });
+
+  it("stores each entry exactly once however often its key is sent again", async () => {
+    const { proc, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    const bore = entry("bore", 88.006, "mm");
+    const torque = entry("final", 110, "N.m");
+    // The first send, then the same batch three more times (the answer lost on the way back), then in another order.
+    const first = await post(builder, runId, { entries: [bore, torque] });
+    expect(first.status).toBe(200);
+    expect(((await first.json()) as { saved: { duplicate: boolean }[] }).saved.map((s) => s.duplicate)).toEqual([false, false]);
+    const again = await Promise.all([1, 2, 3].map(() => post(builder, runId, { entries: [bore, torque] })));
+    for (const r of again) {
+      expect(r.status).toBe(200);
+      expect(((await r.json()) as { saved: { duplicate: boolean }[] }).saved.every((s) => s.duplicate)).toBe(true);
+    }
+    expect((await post(builder, runId, { entries: [torque, bore] })).status).toBe(200);
+    const rows = await db().select().from(runEntries).where(eq(runEntries.runId, runId));
+    expect(rows).toHaveLength(2);
+    expect(rows.find((r) => r.specKey === "bore")?.valueDecimals).toBe(3);
+
+    // The same key with a different value is the device's mistake, never an overwrite.
+    const misuse = await post(builder, runId, { entries: [{ ...bore, value: 88.01 }] });
+    expect(misuse.status).toBe(409);
+    expect((await db().select().from(runEntries).where(eq(runEntries.runId, runId))).length).toBe(2);
+
+    // The build page's list shows the progress: both specs measured.
+    const listed = (await listRunsForBuild(build.id)).find((r) => r.id === runId);
+    expect(listed).toMatchObject({ status: "open", measured: 2, total: 2 });
+  });
+
+  it("keeps the later typing as the value, whenever it arrives, and remembers the step for another device", async () => {
+    const { proc, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    const late = entry("bore", 88.011, "mm", { typedAt: "2026-01-01T10:00:05.000Z" });
+    const early = entry("bore", 88.004, "mm", { typedAt: "2026-01-01T10:00:01.000Z" });
+    // The later typing was sent first (the other device was offline); the earlier one arrives after it.
+    expect((await post(builder, runId, { entries: [late] })).status).toBe(200);
+    expect((await post(builder, runId, { entries: [early], step: 1 })).status).toBe(200);
+    const page = await http(`/runs/${runId}`, { cookie: apprentice.cookie });
+    expect(page.status).toBe(200);
+    const html = await page.text();
+    expect(html).toContain("88.011");
+    const [run] = await db().select().from(runs).where(eq(runs.id, runId));
+    expect(run.currentStep).toBe(1);
+  });
+
+  it("keeps its pin when a newer revision is published, says so, and files against the pinned revision", async () => {
+    const { proc, rev, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    expect((await post(builder, runId, { entries: [entry("bore", 88.006, "mm"), entry("final", 110, "N.m")] })).status).toBe(200);
+
+    await db().update(procedureRevisions).set({ state: "superseded", supersededAt: new Date() }).where(eq(procedureRevisions.id, rev.id));
+    const rev2 = await publishRevision(proc.id, 2, proc.title);
+    await db().update(procedures).set({ publishedRevisionId: rev2.id, publishedAt: new Date() }).where(eq(procedures.id, proc.id));
+
+    const page = await http(`/runs/${runId}`, { cookie: builder.cookie });
+    expect(await page.text()).toContain("Revision 2 of this procedure was published after this run began");
+
+    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish", notes: "Plate on." } });
+    expect(done.status).toBe(302);
+    const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
+    expect(recordId).toBeTruthy();
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId!));
+    expect(rec).toMatchObject({ revisionId: rev.id, verdict: "within", buildId: build.id, workOrder: build.number, notes: "Plate on." });
+    const [run] = await db().select().from(runs).where(eq(runs.id, runId));
+    expect(run).toMatchObject({ status: "finished", testRecordId: recordId });
+
+    // Finished: no more entries, and finishing twice files nothing twice.
+    expect((await post(builder, runId, { entries: [entry("bore", 88.0, "mm")] })).status).toBe(409);
+    expect((await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } })).status).toBe(409);
+    expect(await db().select().from(testRecords).where(eq(testRecords.buildId, build.id))).toHaveLength(1);
+  });
+
+  it("files a run with a spec left unmeasured (or cleared again) as Incomplete, never Within spec", async () => {
+    const { proc, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    const typed = entry("final", 110, "N.m", { typedAt: "2026-01-01T10:00:00.000Z" });
+    const cleared = entry("bore", 88.006, "mm", { typedAt: "2026-01-01T10:00:00.000Z" });
+    const clear = entry("bore", null, "mm", { typedAt: "2026-01-01T10:00:09.000Z" });
+    expect((await post(builder, runId, { entries: [typed, cleared, clear] })).status).toBe(200);
+    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    expect(done.status).toBe(302);
+    const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId!));
+    expect(rec.verdict).toBe("incomplete");
+    const readings = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, rec.id));
+    expect(readings.map((r) => r.specKey)).toEqual(["final"]);
+  });
+
+  it("refuses to file a run with nothing measured, and an abandoned run takes no entries", async () => {
+    const { proc, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    expect((await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } })).status).toBe(400);
+    expect((await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "abandon", reason: "" } })).status).toBe(400);
+    expect((await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "abandon", reason: "Wrong build" } })).status).toBe(302);
+    const refused = await post(builder, runId, { entries: [entry("bore", 88.0, "mm")] });
+    expect(refused.status).toBe(409);
+    expect(((await refused.json()) as { reason: string }).reason).toMatch(/abandoned/);
+  });
+
+  it("lets apprentices read a run but not work it, and refuses a delivered build", async () => {
+    const { proc, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    expect((await http(`/runs/${runId}`, { cookie: apprentice.cookie })).status).toBe(200);
+    const refused = await post(apprentice, runId, { entries: [entry("bore", 88.0, "mm")] });
+    expect(refused.status).toBe(403);
+    expect(((await refused.json()) as { reason: string }).reason).toMatch(/work procedures step by step/);
+    expect((await http("/runs/start", { cookie: apprentice.cookie, form: { procedure: proc.slug, build: build.number } })).status).toBe(
+      403,
+    );
+    await db().update(builds).set({ status: "delivered" }).where(eq(builds.id, build.id));
+    const delivered = await http("/runs/start", { cookie: builder.cookie, form: { procedure: proc.slug, build: build.number } });
+    expect(delivered.status).toBe(409);
+  });
+
+  it("answers bad ids, values and bodies with a 4xx naming the problem", async () => {
+    const { proc, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    expect((await post(builder, "not-a-run", { entries: [entry("bore", 88, "mm")] })).status).toBe(404);
+    expect((await post(builder, randomUUID(), { entries: [entry("bore", 88, "mm")] })).status).toBe(404);
+    const cases: [unknown, number, string][] = [
+      [{ entries: [entry("nope", 88, "mm")] }, 422, "entries.0.specKey"],
+      [{ entries: [entry("bore", 110, "N.m")] }, 422, "entries.0.unit"],
+      [{ entries: [entry("bore", 1e300, "mm")] }, 422, "entries.0.value"],
+      [{ entries: [entry("bore", 88, "furlong")] }, 422, "entries.0.unit"],
+      [{ entries: [entry("bore", 88, "mm", { key: "x" })] }, 422, "entries.0.key"],
+      [{ entries: [entry("bore", 88, "mm", { typedAt: "yesterday" })] }, 422, "entries.0.typedAt"],
+      [{ entries: [{ ...entry("bore", 88, "mm"), value: "88" }] }, 422, "entries.0.value"],
+      [{ entries: "all of them" }, 422, "entries"],
+      [{}, 422, "entries"],
+    ];
+    for (const [body, status, where] of cases) {
+      const res = await post(builder, runId, body);
+      expect(res.status, JSON.stringify(body)).toBe(status);
+      const out = (await res.json()) as { issues?: { path: string }[] };
+      if (out.issues) expect(out.issues.map((i) => i.path)).toContain(where);
+    }
+    const same = entry("bore", 88, "mm");
+    expect((await post(builder, runId, { entries: [same, same] })).status).toBe(422);
+    expect(await db().select().from(runEntries).where(eq(runEntries.runId, runId))).toHaveLength(0);
+    expect(
+      (await http("/runs/start", { cookie: builder.cookie, form: { procedure: "no-such-procedure", build: build.number } })).status,
+    ).toBe(422);
+    expect((await http("/runs/start", { cookie: builder.cookie, form: { procedure: proc.slug, build: "NO-00-0000" } })).status).toBe(422);
+  });
+
+  it("keeps a camera photo with an entry, refusing files that are not pictures and pictures too large", async () => {
+    const { proc, build } = await fixture();
+    const runId = await startRun(builder, proc.slug, build.number);
+    // The smallest PNG: a 1×1 pixel (signature, IHDR, IDAT, IEND per the PNG specification, ISO/IEC 15948).
+    const png = Buffer.from(
+      "89504e470d0a1a0a0000000d4948445200000001000000010806000000" +
+        "1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082",
+      "hex",
+    );
+    const send = (specKey: string, bytes: Uint8Array, name: string, type: string) => {
+      const form = new FormData();
+      form.set("specKey", specKey);
+      form.set("photo", new File([bytes], name, { type }));
+      return http(`/api/runs/${runId}/photos`, { method: "POST", cookie: builder.cookie, body: form });
+    };
+    const ok = await send("bore", png, "gauge.png", "image/png");
+    expect(ok.status).toBe(201);
+    const { url } = (await ok.json()) as { url: string };
+    const img = await http(url, { cookie: apprentice.cookie });
+    expect(img.status).toBe(200);
+    expect(img.headers.get("content-type")).toBe("image/png");
+    expect(Buffer.from(await img.arrayBuffer()).equals(png)).toBe(true);
+
+    // A script named like a photo and sent as one is still not a photo.
+    expect((await send("bore", new TextEncoder().encode("<script>alert(1)</script>"), "gauge.jpg", "image/jpeg")).status).toBe(415);
+    expect((await send("bore", new Uint8Array(0), "empty.jpg", "image/jpeg")).status).toBe(422);
+    expect((await send("nope", png, "gauge.png", "image/png")).status).toBe(422);
+    // Past the photo limit (12 MB) but inside the route's body limit: the reason comes back as JSON.
+    const big = new Uint8Array(12.5 * 1024 * 1024);
+    big.set(png);
+    const tooBig = await send("bore", big, "huge.png", "image/png");
+    expect(tooBig.status).toBe(413);
+    expect(((await tooBig.json()) as { reason: string }).reason).toMatch(/up to 12 MB/);
+
+    const photos = await listRunPhotos(runId);
+    expect(photos.map((p) => [p.specKey, p.specLabel])).toEqual([["bore", "Bore diameter"]]);
+    // Once the run files its record, the record's photos are the run's.
+    expect((await post(builder, runId, { entries: [entry("bore", 88.006, "mm")] })).status).toBe(200);
+    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
+    expect((await photosForTestRecord(recordId!)).map((p) => p.id)).toEqual(photos.map((p) => p.id));
+  });
+
+  it("lets several runs be open on one build at once", async () => {
+    const { proc, build } = await fixture();
+    const other = await createUser("qc");
+    const a = await startRun(builder, proc.slug, build.number);
+    const b = await startRun(other, proc.slug, build.number);
+    expect((await post(other, b, { entries: [entry("final", 112, "N.m")] })).status).toBe(200);
+    const listed = await listRunsForBuild(build.id);
+    expect(listed.map((r) => [r.id, r.measured]).sort()).toEqual(
+      [
+        [a, 0],
+        [b, 1],
+      ].sort(),
+    );
+    const rows = await db()
+      .select()
+      .from(runs)
+      .where(and(eq(runs.buildId, build.id), eq(runs.status, "open")));
+    expect(rows).toHaveLength(2);
+  });
+});
