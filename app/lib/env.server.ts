@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { storeConfigFrom } from "./storage/config";
 
 /**
  * A period in milliseconds. Capped at setTimeout's limit: a longer delay would wrap around to
@@ -55,14 +56,31 @@ export const envSchema = z.object({
     .default(20 * 1024 ** 3),
   FFPROBE_PATH: z.string().min(1).default("/usr/bin/ffprobe"),
   FFMPEG_PATH: z.string().min(1).default("/usr/bin/ffmpeg"),
+  /**
+   * Where recordings live (docs/deploying.md): unset keeps them under UPLOAD_DIR; an s3:// (or
+   * s3+http://) URL, or S3_BUCKET with the S3 variables, puts them in an S3-compatible store
+   * (app/lib/storage/config.ts, checked in `parseEnv`).
+   */
+  STORAGE_URL: z.string().optional(),
+  S3_BUCKET: z.string().optional(),
+  S3_ENDPOINT: z.string().optional(),
+  AWS_ACCESS_KEY_ID: z.string().optional(),
+  AWS_SECRET_ACCESS_KEY: z.string().optional(),
+  AWS_REGION: z.string().optional(),
   /** How many reverse proxies stand in front of the app; 0 means X-Forwarded-For is never read (app/lib/client-address.ts). */
   TRUST_PROXY: z.coerce.number().int().min(0).max(10).default(0),
+});
+
+/** The store's settings hang together (a bucket name, keys), which one field cannot say. */
+const checkedSchema = envSchema.superRefine((v, ctx) => {
+  const store = storeConfigFrom(v);
+  if (typeof store === "string") ctx.addIssue({ code: "custom", path: [v.STORAGE_URL ? "STORAGE_URL" : "S3_BUCKET"], message: store });
 });
 
 export type Env = z.infer<typeof envSchema>;
 
 export function parseEnv(source: Record<string, string | undefined>): Env {
-  const result = envSchema.safeParse(source);
+  const result = checkedSchema.safeParse(source);
   if (!result.success) {
     // Names and reasons only: a value may be a secret, and logs are read by many.
     const lines = result.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`);

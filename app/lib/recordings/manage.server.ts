@@ -13,6 +13,7 @@ import { DomainError } from "../domain-error";
 import { normalizeTags } from "../tags";
 import { retryRecording } from "./processing.server";
 import { recordingDir } from "./storage.server";
+import { placementOf, removePlaced } from "../storage/recordings.server";
 
 /** The "Edit details" form; tags are typed as a comma list and kept as the shop's tags (app/lib/tags.ts). */
 export const recordingDetailsSchema = z.object({
@@ -50,9 +51,12 @@ export async function retryProcessing(actorId: string, rec: { id: string; state:
  * failure to remove them leaves files no row names, never a row whose files are gone.
  */
 export async function deleteRecording(actorId: string, rec: { id: string; title: string }): Promise<void> {
+  // Where its bytes are is read before the row (and its placement, by cascade) goes.
+  const where = await placementOf(rec.id);
   await db().transaction(async (tx) => {
     await tx.delete(recordings).where(eq(recordings.id, rec.id));
     await audit(tx, actorId, "recording.delete", "recording", rec.id, { title: rec.title });
   });
   await rm(recordingDir(rec.id), { recursive: true, force: true });
+  await removePlaced(rec.id, where);
 }

@@ -1,8 +1,9 @@
-import fs from "node:fs";
 import { Readable } from "node:stream";
+import type { ObjectStore } from "../storage/store.server";
 
 /**
- * Serves a file with HTTP Range (RFC 9110 §14): 206 with Content-Range for one satisfiable
+ * Serves a stored object (the folder's file or the object store's, proxied with the range
+ * passed on: docs/decisions/013) with HTTP Range (RFC 9110 §14): 206 with Content-Range for one satisfiable
  * range, 416 for an unsatisfiable or malformed one, 200 for the whole file (also for several
  * ranges, which a server may answer with the full body), If-Range and If-None-Match honoured.
  * Range applies to GET only (§14.2): HEAD, and a range unit other than bytes, get the whole.
@@ -40,20 +41,16 @@ function asciiName(name: string) {
   return name.replace(/[^\x20-\x7e]|["\\]/g, "_");
 }
 
-export async function serveFile(request: Request, file: string, opts: ServeOptions): Promise<Response> {
-  let stat: fs.Stats;
-  try {
-    stat = await fs.promises.stat(file);
-  } catch {
-    return Response.json({ error: "not found", reason: "The file is not stored (yet)." }, { status: 404 });
-  }
+export async function serveObject(request: Request, store: ObjectStore, key: string, opts: ServeOptions): Promise<Response> {
+  const stat = await store.head(key);
+  if (!stat) return Response.json({ error: "not found", reason: "The file is not stored (yet)." }, { status: 404 });
   const size = stat.size;
-  const etag = `"${size.toString(16)}-${Math.floor(stat.mtimeMs).toString(16)}"`;
+  const etag = stat.etag;
   const headers = new Headers({
     "Accept-Ranges": "bytes",
     "Content-Type": opts.contentType,
     ETag: etag,
-    "Last-Modified": stat.mtime.toUTCString(),
+    "Last-Modified": stat.lastModified.toUTCString(),
     "Cache-Control": `private, max-age=${opts.cacheSeconds ?? 3600}`,
     Vary: "Cookie",
   });
@@ -80,7 +77,7 @@ export async function serveFile(request: Request, file: string, opts: ServeOptio
   if (range) headers.set("Content-Range", `bytes ${start}-${end}/${size}`);
   const status = range ? 206 : 200;
   if (request.method === "HEAD" || size === 0) return new Response(null, { status, headers });
-  const stream = fs.createReadStream(file, { start, end, highWaterMark: 256 * 1024 });
+  const stream = await store.read(key, { start, end });
   request.signal?.addEventListener("abort", () => stream.destroy(), { once: true });
   return new Response(Readable.toWeb(stream) as ReadableStream<Uint8Array>, { status, headers });
 }

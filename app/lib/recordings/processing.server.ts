@@ -12,6 +12,8 @@ import { formatTime } from "../time-format";
 import { env } from "../env.server";
 import { boss, DECODE_QUEUE, enqueueDecodeCheck, enqueueProcessing, listenForJobs, PROCESS_QUEUE, stopBoss } from "./queue.server";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
+import { dropScratch, fetchOriginal, publishOutput, removeStored } from "../storage/recordings.server";
+import { holdingJobLock, watchForOrphans } from "./job-liveness.server";
 
 export type Probe = {
   formatName: string;
@@ -329,6 +331,7 @@ async function exists(p: string) {
 
 /** Reject: the bytes are not a video. The original is removed; the row keeps the reason. */
 async function reject(id: string, reason: string) {
+  await removeStored(id);
   await fs.rm(recordingDir(id), { recursive: true, force: true });
   await db()
     .update(recordings)
@@ -363,7 +366,8 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     .set({ attempts: sql`${recordings.attempts} + 1`, state: "processing", stateReason: null, progress: 0.02, updatedAt: new Date() })
     .where(eq(recordings.id, id));
   const src = originalPath(id);
-  if (!(await exists(src))) {
+  // In object storage the worker works on a scratch copy (docs/decisions/013).
+  if (!(await fetchOriginal(id)) || !(await exists(src))) {
     await db()
       .update(recordings)
       .set({ state: "failed", stateReason: "The uploaded file is missing from the store.", hasOriginal: false, updatedAt: new Date() })
@@ -447,12 +451,14 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
   await poster;
   await captions;
   if (plan !== "as-is") await fs.rename(tmp, renditionPath(id));
+  if (plan !== "as-is") await publishOutput(id, "web.mp4");
   // Sent before "Ready" is written, so no moment exists where the file is ready with no check to come.
   if (plan !== "transcode") await enqueueDecodeCheck(id, expectedS);
   await db()
     .update(recordings)
     .set({ state: "ready", stateReason: null, progress: 1, hasRendition: plan !== "as-is", readyAt: new Date(), updatedAt: new Date() })
     .where(eq(recordings.id, id));
+  if (plan === "transcode") await dropScratch(id);
   return "ready";
 }
 
@@ -462,6 +468,7 @@ async function makePoster(id: string, src: string, durationS: number, tmp: strin
   const at = Math.min(2, durationS / 10);
   await ffmpeg(["-ss", at.toFixed(2), "-i", src, ...frame]).catch(() => ffmpeg(["-i", src, ...frame]));
   await fs.rename(tmp, posterPath(id));
+  await publishOutput(id, "poster.jpg");
   await db().update(recordings).set({ hasPoster: true, updatedAt: new Date() }).where(eq(recordings.id, id));
 }
 
@@ -497,7 +504,9 @@ export async function checkDecodeAfterReady(id: string, expectedS: number): Prom
   // The job is sent a moment before "Ready" is written; one that starts in that moment is retried.
   if (rec?.state === "processing") throw new Error("not ready yet");
   if (rec?.state !== "ready") return "skipped";
+  if (!(await fetchOriginal(id))) return "skipped";
   const damage = damageReason(await decodeCheck(originalPath(id)), expectedS);
+  await dropScratch(id);
   if (!damage) return "ok";
   await db()
     .update(recordings)
@@ -551,7 +560,7 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
     async ([job]: PgBoss.JobWithMetadata<{ recordingId: string }>[]) => {
       const id = job.data.recordingId;
       try {
-        const outcome = await processRecording(id);
+        const outcome = await holdingJobLock(job.id, () => processRecording(id));
         console.log(`[recordings] ${id}: ${outcome}`);
       } catch (err) {
         const message = (err as Error).message;
@@ -576,23 +585,20 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
   const { rows } = await db().execute<{ id: string }>(sql`
     select r.id from recordings r
     where r.state = 'processing'
-      and not exists (select 1 from pgboss.job j where j.name = ${PROCESS_QUEUE} and j.data->>'recordingId' = r.id::text and j.state in ('created','retry'))`);
+      and not exists (select 1 from pgboss.job j where j.name = ${PROCESS_QUEUE} and j.data->>'recordingId' = r.id::text and j.state in ('created','retry','active'))`);
   for (const r of rows) await enqueueProcessing(r.id);
-  // A decode check still active belonged to a worker that died during it (this one has not
-  // started any yet): failing it hands it to pg-boss's retry now instead of at its expiry.
-  const orphans = await db().execute<{ id: string }>(sql`select id from pgboss.job where name = ${DECODE_QUEUE} and state = 'active'`);
-  if (orphans.rows.length)
-    await b.fail(
-      DECODE_QUEUE,
-      orphans.rows.map((r) => r.id),
-    );
+  // A job still active whose worker died (no live worker holds its lock, with several workers
+  // on one database too) is failed into pg-boss's retry now instead of at its expiry, and
+  // another worker takes it over (job-liveness.server.ts).
+  const orphans = watchForOrphans(b, [PROCESS_QUEUE, DECODE_QUEUE]);
   await b.work<{ recordingId: string; expectedS: number }>(DECODE_QUEUE, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
-    const outcome = await checkDecodeAfterReady(job.data.recordingId, job.data.expectedS);
+    const outcome = await holdingJobLock(job.id, () => checkDecodeAfterReady(job.data.recordingId, job.data.expectedS));
     if (outcome === "damaged") console.log(`[recordings] ${job.data.recordingId}: damaged (found after ready)`);
   });
   const listener = listenForJobs(() => b.notifyWorker(workerId));
   return {
     async stop() {
+      orphans.stop();
       await listener.stop();
       await b.offWork(PROCESS_QUEUE);
       await b.offWork(DECODE_QUEUE);

@@ -5,9 +5,10 @@ import type { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 import { randomBytes } from "node:crypto";
 import { FileStore } from "@tus/file-store";
+import { S3Store } from "@tus/s3-store";
 import { Server, type Upload } from "@tus/server";
 import { and, desc, eq, isNull, lt } from "drizzle-orm";
-import { recordings, uploads } from "~/db/schema";
+import { recordings, uploadActivity, uploads } from "~/db/schema";
 import type { SessionUser } from "../auth.server";
 import { db } from "../db.server";
 import { env } from "../env.server";
@@ -17,6 +18,10 @@ import { formatBytes } from "../byte-format";
 import { fileNameProblem, titleFromFileName } from "./upload-names";
 import { sameFile, type FileFingerprint } from "./file-fingerprint";
 import { originalPath, recordingDir, tusDir, tusFilePath } from "./storage.server";
+import { storeConfigFrom } from "../storage/config";
+import { PgAdvisoryLocker } from "../storage/pg-locker.server";
+import { configuredBackend, placeRecording, storeOf } from "../storage/recordings.server";
+import { s3ClientConfig } from "../storage/store.server";
 
 /**
  * The tus server (resumable uploads) behind the resource route /api/uploads/*. One
@@ -87,9 +92,15 @@ async function onUploadFinish(_req: Request, upload: Upload) {
       uploadedBy: row.userId,
     })
     .returning({ id: recordings.id });
-  await fs.mkdir(recordingDir(rec.id), { recursive: true });
-  await fs.rename(tusFilePath(upload.id), originalPath(rec.id));
-  await fs.rm(`${tusFilePath(upload.id)}.json`, { force: true });
+  if (configuredBackend() === "s3") {
+    // The finished object stays where tus wrote it (no copy of gigabytes); the row says where.
+    await placeRecording(rec.id, "s3", upload.id);
+    await storeOf("s3").remove(`${upload.id}.info`);
+  } else {
+    await fs.mkdir(recordingDir(rec.id), { recursive: true });
+    await fs.rename(tusFilePath(upload.id), originalPath(rec.id));
+    await fs.rm(`${tusFilePath(upload.id)}.json`, { force: true });
+  }
   await db().update(uploads).set({ recordingId: rec.id, finishedAt: new Date() }).where(eq(uploads.id, upload.id));
   await enqueueProcessing(rec.id);
   return { headers: { "Benchreel-Recording": rec.id } };
@@ -127,12 +138,28 @@ class BufferedFileStore extends FileStore {
   }
 }
 
+/**
+ * Where unfinished uploads are kept: tus's folder under UPLOAD_DIR, or, with object storage,
+ * a multipart upload in the store (@tus/s3-store; objects <id>, <id>.info and <id>.part at
+ * the bucket's top), so any instance can continue it.
+ */
+function createDatastore() {
+  const c = storeConfigFrom(env());
+  if (typeof c === "string" || c.kind === "folder") return new BufferedFileStore({ directory: tusDir() });
+  const store = new S3Store({ partSize: 8 * 1024 ** 2, s3ClientConfig: { ...s3ClientConfig(c), bucket: c.bucket } });
+  store.extensions = ["creation", "creation-with-upload", "termination", "expiration"];
+  return store;
+}
+
 function createServer() {
   const max = env().MAX_UPLOAD_BYTES;
   return new Server({
     path: TUS_PATH,
     relativeLocation: true,
-    datastore: new BufferedFileStore({ directory: tusDir() }),
+    datastore: createDatastore(),
+    // Holds across app instances (PostgreSQL advisory locks): an upload begun through one
+    // instance can be continued through another, never by two requests at once.
+    locker: new PgAdvisoryLocker(),
     maxSize: max,
     namingFunction: () => randomBytes(16).toString("hex"),
     disableTerminationForFinishedUploads: true,
@@ -227,11 +254,20 @@ type UploadRow = typeof uploads.$inferSelect;
 
 /** When an unfinished upload expires: its last byte (the file's mtime) or its creation, plus the expiry time. */
 export async function expiresAt(row: Pick<UploadRow, "id" | "createdAt">): Promise<Date> {
-  const mtime = await fs.stat(tusFilePath(row.id)).then(
+  const mtime = await lastByteAt(row.id);
+  return new Date(Math.max(row.createdAt.getTime(), mtime) + EXPIRY_MS);
+}
+
+/** When the last bytes of an unfinished upload arrived (0 when none): the file's mtime, or the store's activity row. */
+async function lastByteAt(uploadId: string): Promise<number> {
+  if (configuredBackend() === "s3") {
+    const [a] = await db().select().from(uploadActivity).where(eq(uploadActivity.uploadId, uploadId));
+    return a?.lastByteAt.getTime() ?? 0;
+  }
+  return fs.stat(tusFilePath(uploadId)).then(
     (s) => s.mtimeMs,
     () => 0,
   );
-  return new Date(Math.max(row.createdAt.getTime(), mtime) + EXPIRY_MS);
 }
 
 function metadataHeader(row: UploadRow): string {
@@ -289,6 +325,13 @@ export async function handleTus(request: Request, user: SessionUser | null): Pro
   if (user) requestUser.set(request, user);
   const res = await tusServer().handleWeb(request);
   const created = request.method === "POST" && res.status === 201 ? uploadIdFrom(res.headers.get("location") ?? "") : null;
+  const wrote = created ?? (request.method === "PATCH" && res.status === 204 && row ? row.id : null);
+  if (wrote && configuredBackend() === "s3" && !res.headers.has("Benchreel-Recording")) {
+    await db()
+      .insert(uploadActivity)
+      .values({ uploadId: wrote })
+      .onConflictDoUpdate({ target: uploadActivity.uploadId, set: { lastByteAt: new Date() } });
+  }
   const about = created ?? (row && (request.method === "HEAD" || request.method === "PATCH") ? row.id : null);
   if (about && res.status < 300 && !res.headers.has("Benchreel-Recording")) {
     res.headers.set("Upload-Expires", (await expiresAt({ id: about, createdAt: row?.createdAt ?? new Date() })).toUTCString());
@@ -305,6 +348,14 @@ export function uploadIdFrom(pathname: string): string | null {
 
 /** Bytes the server holds for an unfinished upload (the file size; the sidecar's offset lags). */
 export async function receivedBytes(uploadId: string): Promise<number> {
+  if (configuredBackend() === "s3") {
+    return tusServer()
+      .datastore.getUpload(uploadId)
+      .then(
+        (u) => u.offset,
+        () => 0,
+      );
+  }
   try {
     return (await fs.stat(tusFilePath(uploadId))).size;
   } catch {
@@ -358,6 +409,10 @@ export async function unfinishedUploads(userId: string, file?: { fileName: strin
 
 /** Discard an unfinished upload: its bytes, its sidecar and its row. */
 export async function discardUpload(uploadId: string): Promise<void> {
+  if (configuredBackend() === "s3")
+    await tusServer()
+      .datastore.remove(uploadId)
+      .catch(() => {});
   await fs.rm(tusFilePath(uploadId), { force: true });
   await fs.rm(`${tusFilePath(uploadId)}.json`, { force: true });
   await db().delete(uploads).where(eq(uploads.id, uploadId));
@@ -379,6 +434,8 @@ export async function cleanUpExpiredUploads(now = new Date()): Promise<number> {
     await discardUpload(u.id);
     n++;
   }
+  // Objects in a store that no upload row knows are the store's lifecycle rules' to remove (docs/deploying.md).
+  if (configuredBackend() === "s3") return n;
   const names = await fs.readdir(tusDir());
   const ids = [...new Set(names.map((f) => f.replace(/\.json$/, "")))].filter((f) => /^[0-9a-f]{32}$/.test(f));
   for (const id of ids) {

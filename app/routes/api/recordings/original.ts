@@ -2,9 +2,9 @@ import type { Route } from "./+types/original";
 import { requirePermission } from "~/lib/auth.server";
 import { idParams } from "~/lib/edge";
 import { notFound, parseParams } from "~/lib/edge.server";
-import { serveFile } from "~/lib/recordings/media.server";
+import { serveObject } from "~/lib/recordings/media.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
-import { originalPath } from "~/lib/recordings/storage.server";
+import { placementOf } from "~/lib/storage/recordings.server";
 
 /** GET /api/recordings/:id/original — the file as uploaded, as a download (recording:download). */
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -14,5 +14,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!r) notFound(request, "recording");
   if (!r.hasOriginal)
     return Response.json({ error: "not found", reason: "The original file is not kept for this recording." }, { status: 404 });
-  return serveFile(request, originalPath(r.id), { contentType: "application/octet-stream", download: r.originalName });
+  const where = await placementOf(r.id);
+  return serveObject(request, where.store, where.original, { contentType: "application/octet-stream", download: r.originalName });
 }

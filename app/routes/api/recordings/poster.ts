@@ -2,9 +2,9 @@ import type { Route } from "./+types/poster";
 import { requirePermission } from "~/lib/auth.server";
 import { idParams } from "~/lib/edge";
 import { notFound, parseParams } from "~/lib/edge.server";
-import { serveFile } from "~/lib/recordings/media.server";
+import { serveObject } from "~/lib/recordings/media.server";
 import { mediaFacts } from "~/lib/recordings/library.server";
-import { posterPath } from "~/lib/recordings/storage.server";
+import { placementOf } from "~/lib/storage/recordings.server";
 
 /** GET /api/recordings/:id/poster — the poster frame (JPEG). */
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -13,5 +13,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const r = await mediaFacts(id);
   if (!r) notFound(request, "recording");
   if (!r.hasPoster) return Response.json({ error: "not found", reason: "No poster frame yet." }, { status: 404 });
-  return serveFile(request, posterPath(r.id), { contentType: "image/jpeg", cacheSeconds: 600 });
+  const where = await placementOf(r.id);
+  return serveObject(request, where.store, where.poster, { contentType: "image/jpeg", cacheSeconds: 600 });
 }
