@@ -51,6 +51,7 @@ export default function Player({
   onReady,
   onTime,
   compact = false,
+  captionsSrc,
 }: {
   src: string;
   poster?: string;
@@ -64,6 +65,8 @@ export default function Player({
   onTime: (t: number) => void;
   /** A small preview (the procedure editor's Video moment): finding a frame only, no speed, volume or full screen. */
   compact?: boolean;
+  /** The recording's captions as WebVTT (a new address after a correction loads them again); none, no captions control. */
+  captionsSrc?: string | null;
 }) {
   const frame = useRef<HTMLDivElement>(null);
   const screen = useRef<HTMLDivElement>(null);
@@ -84,6 +87,8 @@ export default function Player({
   const [fullscreen, setFullscreen] = useState(false);
   const [canFullscreen, setCanFullscreen] = useState(false);
   const [ready, setReady] = useState(false);
+  const [captionsOn, setCaptionsOn] = useState(true);
+  const [captionLines, setCaptionLines] = useState<string[]>([]);
   // What the player is made with; read when it is made, without making it again when they change.
   const settings = useEffectEvent(() => ({ title, poster, opening }));
 
@@ -187,6 +192,30 @@ export default function Player({
     // The player is made once per source; a later ?t= goes through the effect below.
   }, [src]);
 
+  // The captions are a text track the browser reads and times ("hidden": it draws nothing);
+  // the lines it says are current are drawn by us, over the picture, in the notebook's type.
+  useEffect(() => {
+    const player = playerRef.current;
+    if (!ready || !player || !captionsSrc) return;
+    const el = player.addRemoteTextTrack({ kind: "captions", src: captionsSrc, srclang: "en", label: "Captions", mode: "hidden" }, false);
+    const track = (el as unknown as { track: TextTrack }).track;
+    track.mode = "hidden";
+    const show = () => {
+      const lines: string[] = [];
+      for (const cue of Array.from(track.activeCues ?? [])) {
+        const vtt = cue as VTTCue;
+        lines.push(typeof vtt.getCueAsHTML === "function" ? (vtt.getCueAsHTML().textContent ?? "") : vtt.text);
+      }
+      setCaptionLines(lines);
+    };
+    track.addEventListener("cuechange", show);
+    return () => {
+      track.removeEventListener("cuechange", show);
+      player.removeRemoteTextTrack(el as unknown as HTMLTrackElement);
+      setCaptionLines([]);
+    };
+  }, [ready, captionsSrc]);
+
   // A new ?t= on the same page (a link to another moment of this recording) seeks there.
   const firstOpening = useRef(opening);
   useEffect(() => {
@@ -246,6 +275,14 @@ export default function Player({
           <p className="br-opening" role="status">
             Opening at <span className="num font-mono">{formatTime(opening)}</span>…
           </p>
+        )}
+        {captionsSrc && captionsOn && captionLines.length > 0 && !covered && (
+          <div className="br-captions" data-testid="player-captions">
+            {captionLines.map((line, i) => (
+              // biome-ignore lint/suspicious/noArrayIndexKey: the lines on screen at one moment, in the track's order
+              <p key={i}>{line}</p>
+            ))}
+          </div>
         )}
         {failed && (
           <p className="br-failed" role="alert">
@@ -359,6 +396,18 @@ export default function Player({
                   ))}
                 </select>
               </label>
+              {captionsSrc && (
+                <button
+                  type="button"
+                  className="br-btn br-cc"
+                  onClick={() => setCaptionsOn((v) => !v)}
+                  aria-label="Captions"
+                  aria-pressed={captionsOn}
+                  data-testid="player-captions-toggle"
+                >
+                  <span aria-hidden="true">CC</span>
+                </button>
+              )}
               <button
                 type="button"
                 className="br-btn"

@@ -25,6 +25,8 @@ import { marksFor, procedureChoicesFor } from "~/lib/recordings/notes.server";
 import { formatBytes } from "~/lib/byte-format";
 import { formatDuration } from "~/lib/time-format";
 import { formatDay } from "~/lib/dates";
+import { Transcript, type TranscriptCue, type TranscriptSource } from "~/components/recordings/Transcript";
+import { captionsFor } from "~/lib/captions/captions.server";
 
 const Player = lazy(() => import("~/components/recordings/Player.client"));
 
@@ -34,16 +36,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const recording = await getRecording(parseParams(request, idParams, params, "recording").id);
   if (!recording) notFound(request, "recording");
-  const [marks, readings, procedures] = await Promise.all([
+  const [marks, readings, procedures, captions] = await Promise.all([
     marksFor(user, recording.id),
     listReadings(recording.id),
     procedureChoicesFor(user),
+    captionsFor(recording.id),
   ]);
   return {
     recording,
     marks,
     readings,
     procedures,
+    captions,
     me: { id: user.id, role: user.role },
     can: {
       edit: canOnOwned(user, "recording:edit", recording.uploadedBy),
@@ -52,6 +56,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       fileTestRecord: can(user.role, "testrecord:create"),
       mark: can(user.role, "mark:create"),
       read: can(user.role, "reading:create"),
+      captions: can(user.role, "caption:edit"),
     },
   };
 }
@@ -107,6 +112,11 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
   const fps = r.frameRate && r.frameRate > 0 ? r.frameRate : 30;
   const activeMark = currentMarkId(marks, time);
   const busy = useNavigation().state !== "idle";
+  const cues = loaderData.captions.cues as TranscriptCue[];
+  // The player loads the captions anew after a correction or a new file (another address).
+  const captionsSrc = cues.length
+    ? `/api/recordings/${r.id}/captions.vtt?v=${new Date(loaderData.captions.source?.attachedAt ?? 0).getTime()}-${cues.reduce((n, c) => n + c.version, 0)}`
+    : null;
 
   // Processing: poll the page data until the state changes.
   const revalidator = useRevalidator();
@@ -245,6 +255,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
                       api.current = p;
                     }}
                     onTime={setTime}
+                    captionsSrc={captionsSrc}
                   />
                 </Suspense>
               ) : (
@@ -252,18 +263,30 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
               )}
               <WatchKeyHelp canMark={perms.mark} />
             </div>
-            <MarksPanel
-              ref={marksPanel}
-              recordingId={r.id}
-              marks={marks}
-              procedures={procedures}
-              currentTime={time}
-              canCreate={perms.mark}
-              canEdit={canEditMark}
-              onSeek={seek}
-              spanStart={spanStart}
-              durationS={r.durationS}
-            />
+            <div className="min-w-0 space-y-5">
+              <Transcript
+                recordingId={r.id}
+                cues={cues}
+                source={loaderData.captions.source as TranscriptSource}
+                currentTime={time}
+                onSeek={seek}
+                canEdit={perms.captions}
+                canMark={perms.mark}
+                durationS={r.durationS}
+              />
+              <MarksPanel
+                ref={marksPanel}
+                recordingId={r.id}
+                marks={marks}
+                procedures={procedures}
+                currentTime={time}
+                canCreate={perms.mark}
+                canEdit={canEditMark}
+                onSeek={seek}
+                spanStart={spanStart}
+                durationS={r.durationS}
+              />
+            </div>
           </div>
           <div className="mt-6 space-y-5">
             <ReadingsPanel
