@@ -249,10 +249,10 @@ describe("runs", () => {
         "1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082",
       "hex",
     );
-    const send = (specKey: string, bytes: Uint8Array, name: string, type: string) => {
+    const send = (specKey: string, bytes: Uint8Array<ArrayBuffer>, name: string, type: string) => {
       const form = new FormData();
       form.set("specKey", specKey);
-      form.set("photo", new File([bytes], name, { type }));
+      form.set("photo", new File([new Uint8Array(bytes)], name, { type }));
       return http(`/api/runs/${runId}/photos`, { method: "POST", cookie: builder.cookie, body: form });
     };
     const ok = await send("bore", png, "gauge.png", "image/png");

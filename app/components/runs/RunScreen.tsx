@@ -70,6 +70,8 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   const [online, setOnline] = useState(true);
   const [refusals, setRefusals] = useState<Record<string, string>>({});
   const [closed, setClosed] = useState<string | null>(null);
+  // Fields typed in whose pause has not come yet: not kept anywhere, so not "saved" either.
+  const [typing, setTyping] = useState<ReadonlySet<string>>(new Set());
   const timers = useRef(new Map<string, ReturnType<typeof setTimeout>>());
   const flushing = useRef(false);
 
@@ -143,6 +145,11 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   }, [run.id, flush]);
 
   function keep(spec: Spec, text: string) {
+    setTyping((t) => {
+      const next = new Set(t);
+      next.delete(spec.key);
+      return next;
+    });
     const value = parseNumber(text);
     if (value !== undefined && Number.isNaN(value)) return;
     const entry: QueuedEntry = {
@@ -162,6 +169,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
 
   function onType(spec: Spec, text: string) {
     setTexts((t) => ({ ...t, [spec.key]: text }));
+    setTyping((t) => new Set(t).add(spec.key));
     setRefusals((r) => {
       const { [spec.key]: _gone, ...rest } = r;
       return rest;
@@ -234,7 +242,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
       {run.status !== "open" && <ClosedNote view={view} />}
       {closed && <FormError message={closed} />}
 
-      {open && <SaveState online={online} unsent={unsent} sending={sending} refused={Object.keys(refusals).length} />}
+      {open && <SaveState online={online} unsent={unsent} typing={typing.size} sending={sending} refused={Object.keys(refusals).length} />}
 
       {step ? (
         <section aria-labelledby="step-h" className="card mt-4 space-y-5 p-5" data-testid="run-step" data-step={stepAt}>
@@ -308,21 +316,44 @@ export function RunScreen({ view, canWork, actionData }: Props) {
         </button>
       </nav>
 
-      {open && <FinishPanel measured={measured} total={specs.length} evaluation={evaluation} unsent={unsent} actionData={actionData} />}
+      {open && (
+        <FinishPanel
+          measured={measured}
+          typing={typing.size}
+          total={specs.length}
+          evaluation={evaluation}
+          unsent={unsent}
+          actionData={actionData}
+        />
+      )}
     </div>
   );
 }
 
-function SaveState({ online, unsent, sending, refused }: { online: boolean; unsent: number; sending: boolean; refused: number }) {
+function SaveState({
+  online,
+  unsent,
+  typing,
+  sending,
+  refused,
+}: {
+  online: boolean;
+  unsent: number;
+  typing: number;
+  sending: boolean;
+  refused: number;
+}) {
   const words =
     unsent === 0
-      ? "Every entry is saved on the server."
+      ? typing > 0
+        ? "Keeping what you type…"
+        : "Every entry is saved on the server."
       : !online
         ? `No network: ${unsent} ${unsent === 1 ? "entry is" : "entries are"} waiting on this device and will be sent when the network is back. Keep working.`
         : sending
           ? `Sending ${unsent} ${unsent === 1 ? "entry" : "entries"}…`
           : `${unsent} ${unsent === 1 ? "entry is" : "entries are"} waiting on this device; trying again…`;
-  const tone = unsent === 0 ? "border-ok/40 bg-ok-soft text-ok" : "border-brass bg-brass-soft text-graphite";
+  const tone = unsent === 0 && typing === 0 ? "border-ok/40 bg-ok-soft text-ok" : "border-brass bg-brass-soft text-graphite";
   return (
     <p
       className={`rounded-md border px-4 py-2 text-base font-semibold ${tone}`}
@@ -452,12 +483,14 @@ function StepCalculator({ prefilled }: { prefilled: ReturnType<typeof prefillCal
 
 function FinishPanel({
   measured,
+  typing,
   total,
   evaluation,
   unsent,
   actionData,
 }: {
   measured: number;
+  typing: number;
   total: number;
   evaluation: ReturnType<typeof evaluateRecord> | null;
   unsent: number;
@@ -485,7 +518,11 @@ function FinishPanel({
           Notes for the record (optional)
         </label>
         <textarea id="f-notes" name="notes" rows={2} className="field" maxLength={4000} />
-        <button type="submit" className="btn btn-primary min-h-12 px-5 text-base" disabled={busy || unsent > 0 || measured === 0}>
+        <button
+          type="submit"
+          className="btn btn-primary min-h-12 px-5 text-base"
+          disabled={busy || unsent > 0 || typing > 0 || measured === 0}
+        >
           {busy ? "Filing…" : "Finish and file the test record"}
         </button>
         {unsent > 0 && <p className="text-sm text-graphite-soft">Wait until the entries waiting on this device are sent.</p>}

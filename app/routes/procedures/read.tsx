@@ -64,6 +64,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     watching,
     testRecords,
     canFileTest: can(user.role, "testrecord:create"),
+    canRun: can(user.role, "run:work"),
   } as const;
 }
 
@@ -138,6 +139,11 @@ export default function ReadProcedure({ loaderData, actionData }: Route.Componen
               Start a new draft
             </button>
           </Form>
+        )}
+        {"canRun" in loaderData && loaderData.canRun && (
+          <Link to={`/runs/start?procedure=${slug}`} className="btn btn-primary w-full no-underline" data-testid="start-run">
+            Work it on a build, step by step
+          </Link>
         )}
         {open && openLink && (
           <p className="rounded-md bg-brass-soft/60 px-3 py-2">

@@ -1,0 +1,96 @@
+// A run worked on the tablet (768×1024): started from the procedure's page, stepped through
+// one screen at a time, values kept as they are typed; the network cut in the middle
+// (Playwright's offline mode), entries typed meanwhile wait on the device and the screen says
+// so; the network back, they are sent once; finishing files the test record.
+import { randomUUID } from "node:crypto";
+import { expect, test } from "@playwright/test";
+import pg from "pg";
+import { DEMO_PEOPLE, DEMO_PROCEDURE, signIn } from "../support/browser";
+
+test.use({ viewport: { width: 768, height: 1024 } });
+
+/** A build of our own on the bench, made directly (as integration tests make their data). */
+async function benchBuild(): Promise<string> {
+  const number = `LEW-26-${String(Math.floor(Math.random() * 90000) + 10000)}`;
+  const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+  await client.connect();
+  try {
+    await client.query(
+      "insert into builds (id, number, customer_name, engine, engine_serial, status) values ($1, $2, 'Run test customer', 'Inline four, 2.3 L', $3, 'on_bench')",
+      [randomUUID(), number, `RT-${number.slice(-5)}`],
+    );
+  } finally {
+    await client.end();
+  }
+  return number;
+}
+
+async function entriesOf(runId: string, specKey: string): Promise<number> {
+  const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+  await client.connect();
+  try {
+    const r = await client.query("select count(*)::int as n from run_entries where run_id = $1 and spec_key = $2", [runId, specKey]);
+    return r.rows[0].n as number;
+  } finally {
+    await client.end();
+  }
+}
+
+test("a whole run on the tablet, with the network cut in the middle", async ({ page, context }) => {
+  const build = await benchBuild();
+  await signIn(page, DEMO_PEOPLE.builder);
+  await page.goto(`/procedures/${DEMO_PROCEDURE}`);
+  await page.getByTestId("start-run").click();
+  await expect(page.getByRole("heading", { name: "Start a run" })).toBeVisible();
+  await page.getByLabel("Build (work order)").selectOption(build);
+  await page.getByRole("button", { name: "Start the run" }).click();
+  await expect(page).toHaveURL(/\/runs\/[0-9a-f-]{36}$/);
+  const runId = page.url().split("/").pop()!;
+
+  // One step at a time, the procedure's cautions in front of every one.
+  const step = page.getByTestId("run-step");
+  await expect(step.getByRole("note", { name: "Caution" })).toContainText("take precedence");
+  const torque = page.getByLabel("Head stud final torque", { exact: true });
+  for (let i = 0; i < 20 && !(await torque.isVisible()); i++) await page.getByRole("button", { name: "Next →" }).click();
+  await expect(torque).toBeVisible();
+
+  // The verdict as the number is typed; the calculator takes the torque just typed.
+  await torque.pressSequentially("118");
+  await expect(page.getByTestId("entry").filter({ has: torque }).getByTestId("entry-verdict")).toHaveText(/Out of spec: above max/);
+  await torque.fill("110");
+  await expect(page.getByTestId("entry").filter({ has: torque }).getByTestId("entry-verdict")).toHaveText("Within spec");
+  await expect(page.getByTestId("step-calculator")).toContainText("torque ← Head stud final torque");
+  await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.");
+
+  // The network goes: what is typed now waits on the tablet, and the screen says so.
+  await context.setOffline(true);
+  const protrusion = page.getByLabel("Stud protrusion above deck", { exact: true });
+  await protrusion.fill("52.10");
+  await expect(page.getByTestId("save-state")).toContainText("No network: 1 entry is waiting on this device");
+  await expect(page.getByTestId("save-state")).toHaveAttribute("data-waiting", "1");
+  expect(await entriesOf(runId, "studs-protrusion")).toBe(0);
+
+  // The network is back: sent, once.
+  await context.setOffline(false);
+  await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
+  expect(await entriesOf(runId, "studs-protrusion")).toBe(1);
+
+  // Picked up on another device: the server holds the values and the step.
+  const other = await context.browser()!.newContext({ viewport: { width: 768, height: 1024 } });
+  const tablet2 = await other.newPage();
+  await signIn(tablet2, DEMO_PEOPLE.qc);
+  await tablet2.goto(`/runs/${runId}`);
+  await expect(tablet2.getByLabel("Stud protrusion above deck", { exact: true })).toHaveValue("52.10");
+  await other.close();
+  expect(await entriesOf(runId, "studs-protrusion")).toBe(1);
+
+  // Finishing files the record against the run's revision.
+  await expect(page.getByTestId("run-progress")).toHaveText("2 of 2 specs measured");
+  await page.getByLabel("Notes for the record (optional)").fill("Worked on the bench tablet.");
+  await page.getByRole("button", { name: "Finish and file the test record" }).click();
+  await expect(page).toHaveURL(/\/test-records\/[0-9a-f-]{36}$/);
+  await expect(page.getByTestId("verdict").first()).toHaveText(/Within spec/);
+  await expect(page.locator("main")).toContainText(build);
+  await expect(page.locator("main")).toContainText("52.10");
+  await expect(page.locator("main")).toContainText("Worked on the bench tablet.");
+});
