@@ -153,7 +153,7 @@ function TranscriptLine({
             type="button"
             className="flex min-h-11 flex-1 items-baseline gap-3 px-3 py-2 text-left hover:bg-paper lg:min-h-0"
             onClick={() => onSeek(cue.start)}
-            aria-label={`Play from ${formatTime(cue.start)}: ${cue.text}`}
+            aria-label={`Play the line at ${formatTime(cue.start)}: ${cue.text}`}
             data-testid="transcript-line"
           >
             <span className="num shrink-0 font-mono text-xs text-teal">{formatTime(cue.start)}</span>
