@@ -16,8 +16,10 @@ const GRACE_SECONDS = 5;
 
 const g = globalThis as unknown as { __benchreelJobLocks?: pg.Pool };
 function lockPool(): pg.Pool {
-  g.__benchreelJobLocks ??= new pg.Pool({ connectionString: env().DATABASE_URL, max: 6, application_name: "benchreel-job-locks" });
-  g.__benchreelJobLocks.on("error", (err) => console.error("[jobs] lock connection:", err.message));
+  if (!g.__benchreelJobLocks) {
+    g.__benchreelJobLocks = new pg.Pool({ connectionString: env().DATABASE_URL, max: 6, application_name: "benchreel-job-locks" });
+    g.__benchreelJobLocks.on("error", (err) => console.error("[jobs] lock connection:", err.message));
+  }
   return g.__benchreelJobLocks;
 }
 

@@ -19,16 +19,14 @@ type Shared = { pool: pg.Pool; held: Map<string, RequestRelease>; listening: Pro
 const g = globalThis as unknown as { __benchreelTusLocks?: Shared };
 
 function shared(): Shared {
-  g.__benchreelTusLocks ??= {
+  if (!g.__benchreelTusLocks) {
     // Its own small pool: a PATCH holds its connection for as long as the bytes flow, which must
     // never starve the pages' pool.
-    pool: new pg.Pool({ connectionString: env().DATABASE_URL, max: 25, application_name: "benchreel-upload-locks" }),
-    held: new Map(),
-    listening: null,
-  };
-  const s = g.__benchreelTusLocks;
-  s.pool.on("error", (err) => console.error("[uploads] lock connection:", err.message));
-  return s;
+    const pool = new pg.Pool({ connectionString: env().DATABASE_URL, max: 25, application_name: "benchreel-upload-locks" });
+    pool.on("error", (err) => console.error("[uploads] lock connection:", err.message));
+    g.__benchreelTusLocks = { pool, held: new Map(), listening: null };
+  }
+  return g.__benchreelTusLocks;
 }
 
 /** One LISTEN connection per process, for other instances' requests to release a lock held here. */
