@@ -266,6 +266,17 @@ async function cannon(url: string, cookie: string | string[]): Promise<{ result:
   return { result, times };
 }
 
+/** The read page's size, and the part of it that hands the loader data to the browser. */
+async function pageSize(url: string, cookie: string) {
+  const res = await fetch(url, { headers: { cookie, "accept-encoding": "identity" }, redirect: "manual" });
+  const html = await res.text();
+  const kB = (s: string) => +(Buffer.byteLength(s) / 1024).toFixed(1);
+  const data = [...html.matchAll(/<script[^>]*>([\s\S]*?)<\/script>/g)].map((m) => m[1]).filter((x) => x.includes("__reactRouterContext"));
+  // What a client-side navigation to the page fetches: the loader data alone.
+  const nav = await (await fetch(`${url}.data`, { headers: { cookie, "accept-encoding": "identity" } })).text();
+  return { htmlKB: kB(html), dataKB: kB(data.join("")), navigationKB: kB(nav) };
+}
+
 type JsReport = {
   files: number;
   rawBytes: number;
@@ -346,6 +357,10 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
   const readUrl = `${origin}/procedures/${s.slug}`;
   const editUrl = `${origin}/procedures/${s.slug}/r/${s.draftNumber}/edit`;
 
+  const size = await pageSize(readUrl, s.apprentice.cookie);
+  log(
+    `read page: ${size.htmlKB} kB of HTML, of which ${size.dataKB} kB are the inline scripts carrying the loader data to the browser; a navigation's loader data ${size.navigationKB} kB`,
+  );
   const seq = await ttfbLoop(readUrl, s.apprentice.cookie, 200);
   log(
     `read page TTFB, one client: p50 ${seq.p50} ms, p95 ${seq.p95} ms (${seq.samples} requests); database queries per render: ${seq.queries.join(", ")}`,
@@ -396,6 +411,7 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
     words: s.words,
     embeddedBlocks: s.blocks,
     revisions: 40,
+    pageSize: size,
     ttfbSequential: seq,
     ttfb20Clients: concurrent,
     baseline20Clients: baseline,

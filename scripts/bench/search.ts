@@ -110,8 +110,11 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     await res.arrayBuffer();
     const ms = performance.now() - a;
     if (res.status !== 200) throw new Error(`/api/search answered ${res.status} for "${q}"`);
-    const queries = /\bdb;desc="(\d+) quer/.exec(res.headers.get("server-timing") ?? "");
-    return { ms, queries: queries ? Number(queries[1]) : 0 };
+    const timing = res.headers.get("server-timing") ?? "";
+    const queries = /\bdb;desc="(\d+) quer/.exec(timing);
+    // The app's own measure of the search service's answer (the SDK call, request to response).
+    const service = /\bsearch;dur=([\d.]+)/.exec(timing);
+    return { ms, queries: queries ? Number(queries[1]) : 0, serviceMs: service ? Number(service[1]) : Number.NaN };
   };
 
   // A warm-up round over a few queries of every kind: the first measured must not pay for the
@@ -124,6 +127,10 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   const times: Record<string, number[]> = Object.fromEntries(kinds.map(([k]) => [k, []]));
   const all: number[] = [];
   const queriesPerAnswer: number[] = [];
+  // Per answer: the search service's share (the SDK call) and the rest (the app: React Router,
+  // its middleware, the session and the outbox count, shaping, the connection).
+  const serviceTimes: number[] = [];
+  const appTimes: number[] = [];
   const load0 = os.loadavg()[0];
   await Promise.all(
     people.map(async (person, p) => {
@@ -131,8 +138,12 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
         const [kind, list] = kinds[(i + p) % kinds.length];
         for (const q of list) {
           for (const typed of asTyped(q)) {
-            const { ms, queries: n } = await ask(person.cookie, typed);
+            const { ms, queries: n, serviceMs } = await ask(person.cookie, typed);
             times[kind].push(ms);
+            if (Number.isFinite(serviceMs)) {
+              serviceTimes.push(serviceMs);
+              appTimes.push(ms - serviceMs);
+            }
             all.push(ms);
             queriesPerAnswer.push(n);
           }
@@ -145,6 +156,11 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
   const cases = Object.fromEntries(Object.entries(times).map(([k, v]) => [k, stat(v)]));
   for (const [k, s] of Object.entries(cases))
     log(`${k.padEnd(18)} /api/search, ${TYPISTS} typing at once: p50 ${s.p50} ms, p95 ${s.p95} ms (${s.samples})`);
+  const service = stat(serviceTimes);
+  const app = stat(appTimes);
+  log(
+    `of each answer: the search service p50 ${service.p50} ms, p95 ${service.p95} ms; the rest (the app and the connection) p50 ${app.p50} ms, p95 ${app.p95} ms`,
+  );
   const dbQueries = { min: Math.min(...queriesPerAnswer), max: Math.max(...queriesPerAnswer) };
   log(
     `all kinds: p50 ${overall.p50} ms, p95 ${overall.p95} ms over ${overall.samples} answers; ${dbQueries.min}–${dbQueries.max} database queries per answer; load average ${load0.toFixed(1)} → ${load1.toFixed(1)}`,
@@ -190,6 +206,7 @@ export async function benchSearch(opts: { docs?: number; samples?: number; log?:
     typists: TYPISTS,
     overall,
     cases,
+    split: { service, app },
     dbQueriesPerAnswer: dbQueries,
     loadAverage: [+load0.toFixed(2), +load1.toFixed(2)],
     reindex: { documents: rebuilt.documents, ms: Math.round(reindexMs) },
