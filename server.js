@@ -59,6 +59,10 @@ function handle(req, res) {
         // The socket's peer, for the sign-in throttles (app/lib/client-address.server.ts); always
         // overwritten here, so a client cannot set it.
         req.headers["x-benchreel-client"] = req.socket.remoteAddress ?? "";
+        // A page, or a client-side navigation's data (React Router's `.data` URLs)? The read page
+        // leaves a procedure's body out of the data it embeds in a page, which shows it already
+        // (app/lib/procedures/page-body.server.ts). Always overwritten too.
+        req.headers["x-benchreel-page"] = /\.data(?:\?|$)/.test(req.url) ? "0" : "1";
         toReactRouter(req, res);
       }),
     );

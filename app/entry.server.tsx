@@ -9,13 +9,16 @@ import { renderToPipeableStream } from "react-dom/server";
 import { newNonce, pagePolicy } from "./lib/csp.server";
 import { noteServerError } from "./lib/outage.server";
 import { env } from "./lib/env.server";
+import { pageBodyContext } from "./lib/procedures/page-body.server";
+import { PageBodyHtml } from "./components/procedures/ProcedureBody";
 
 // The environment is checked as the server loads, so a bad value stops the start with its name
 // instead of failing the first request that reads it.
 env();
 
 // React Router's own server entry (from `react-router reveal entry.server`), with the page's
-// Content-Security-Policy nonce and the database-outage note added.
+// Content-Security-Policy nonce, the database-outage note and a procedure body handed apart
+// from the loader data (app/lib/procedures/page-body.server.ts) added.
 
 // Every error a loader, action or render threw, as React Router's default logs it; an error
 // that means PostgreSQL is not answering is also noted, so that the request is answered with
@@ -34,7 +37,7 @@ export default function handleRequest(
   responseStatusCode: number,
   responseHeaders: Headers,
   routerContext: EntryContext,
-  _loadContext: RouterContextProvider,
+  loadContext: RouterContextProvider,
 ) {
   // The page's Content-Security-Policy allows the inline scripts that carry this response's
   // nonce (app/lib/csp.server.ts); React Router writes it on its scripts and React on the
@@ -63,7 +66,13 @@ export default function handleRequest(
     // flush down the rejected boundaries
     let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
 
-    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} nonce={nonce} />, {
+    // A procedure body the read page's loader left out of its data, to be written once, in the page.
+    const app = (
+      <PageBodyHtml value={loadContext.get(pageBodyContext)}>
+        <ServerRouter context={routerContext} url={request.url} nonce={nonce} />
+      </PageBodyHtml>
+    );
+    const { pipe, abort } = renderToPipeableStream(app, {
       nonce: { script: nonce, style: nonce },
       [readyOption]() {
         shellRendered = true;

@@ -468,4 +468,29 @@ describe("the read page's database work (issue 15 §2)", () => {
     expect(Number(queries![1])).toBeGreaterThan(0);
     expect(Number(queries![1])).toBeLessThanOrEqual(6);
   });
+
+  it("sends a procedure's body once: in the page and not again in the data the page embeds; a client-side navigation's data carries it", async () => {
+    const [author, reviewer, reader] = await Promise.all([createUser("builder"), createUser("editor"), createUser("apprentice")]);
+    const sentence = `Chase every thread before the plate goes on ${tag}`;
+    const c = await createProcedure(author, {
+      title: `Body sent once ${tag}`,
+      area: "block",
+      summary: "",
+      tags: [tag],
+      doc: { type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text: sentence }] }] },
+    });
+    await submitRevision(author, c.revision.id, "First version");
+    await publishRevision(reviewer, c.revision.id);
+
+    const page = await http(`/procedures/${c.procedure.slug}`, { cookie: reader.cookie });
+    expect(page.status).toBe(200);
+    const html = await page.text();
+    expect(html.split(sentence).length - 1, "the body's text appears once in the page").toBe(1);
+    expect(html).toMatch(new RegExp(`data-testid="procedure-body"[^>]*>[^]*${sentence}`));
+
+    // What React Router's client fetches when a person follows a link to the page.
+    const nav = await http(`/procedures/${c.procedure.slug}.data`, { cookie: reader.cookie });
+    expect(nav.status).toBe(200);
+    expect(await nav.text()).toContain(sentence);
+  });
 });

@@ -1,13 +1,24 @@
-import { useEffect, useRef, useState } from "react";
+import { createContext, useContext, useEffect, useRef, useState } from "react";
 import { createPortal } from "react-dom";
 import type { Widget } from "~/lib/procedures/body";
 import { CalculatorWidget } from "./CalculatorWidget";
 
 /**
+ * On the server, the body HTML of a page request whose loader data leaves it out
+ * (app/lib/procedures/page-body.server.ts); provided by app/entry.server.tsx.
+ */
+export const PageBodyHtml = createContext<string | null>(null);
+
+/**
  * The server-rendered body of a procedure. React leaves the HTML alone; after hydration each
  * calculator placeholder gets its interactive widget through a portal (the only parts that hydrate).
  */
-export function ProcedureBody({ html, widgets, units }: { html: string; widgets: Widget[]; units?: Record<string, string> }) {
+export function ProcedureBody({ html, widgets, units }: { html: string | null; widgets: Widget[]; units?: Record<string, string> }) {
+  // html null: on the server the render was handed the body apart; in the browser the page holds
+  // it, and hydration leaves a dangerouslySetInnerHTML element's content as the server wrote it
+  // (React does not compare it), so "" keeps the page's body until a navigation brings new HTML.
+  const handedApart = useContext(PageBodyHtml);
+  const markup = html ?? handedApart ?? "";
   const ref = useRef<HTMLDivElement>(null);
   const [targets, setTargets] = useState<HTMLElement[]>([]);
   // New HTML means new placeholders, which the effect finds through the ref.
@@ -15,11 +26,17 @@ export function ProcedureBody({ html, widgets, units }: { html: string; widgets:
     const els = Array.from(ref.current?.querySelectorAll<HTMLElement>("[data-widget='calculator']") ?? []);
     for (const el of els) el.replaceChildren();
     setTargets(els);
-  }, [html]);
+  }, [markup]);
   return (
     <>
-      {/* biome-ignore lint/security/noDangerouslySetInnerHtml: the body was sanitized at save (document.ts) and rendered by our own components on the server */}
-      <div ref={ref} className="proc-body prose-proc" data-testid="procedure-body" dangerouslySetInnerHTML={{ __html: html }} />
+      <div
+        ref={ref}
+        className="proc-body prose-proc"
+        data-testid="procedure-body"
+        // biome-ignore lint/security/noDangerouslySetInnerHtml: the body was sanitized at save (document.ts) and rendered by our own components on the server
+        dangerouslySetInnerHTML={{ __html: markup }}
+        suppressHydrationWarning
+      />
       {targets.map((el, i) => {
         const w = widgets[Number(el.dataset.widgetIndex ?? i)];
         return w

@@ -133,7 +133,8 @@ export function RevisionArticle({
   author: string | null;
   /** The editor who published it (published and superseded revisions). */
   publishedBy?: string | null;
-  html: string;
+  /** null: the page already holds the body (app/lib/procedures/page-body.server.ts). */
+  html: string | null;
   widgets: Widget[];
   specs: SpecView[];
   units?: Record<string, string>;

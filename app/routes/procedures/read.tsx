@@ -13,6 +13,7 @@ import { domainFailure, unknownAction } from "~/lib/domain-error.server";
 import { DomainError } from "~/lib/domain-error";
 import { foundOr404, procedureOr404, slugOr404 } from "~/lib/procedures/routes.server";
 import { readPage } from "~/lib/procedures/read-page.server";
+import { bodyForLoaderData } from "~/lib/procedures/page-body.server";
 import { STATE_LABELS } from "~/lib/procedures/state";
 import { startDraftFrom } from "~/lib/procedures/drafts.server";
 import { openRevisionOf } from "~/lib/procedures/lookup.server";
@@ -22,7 +23,7 @@ import { testRecordsForProcedure } from "~/lib/test-records/records.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.procedure.title ?? "Procedure"} · Benchreel` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const slug = slugOr404(params.slug);
   const { procedure, rev, open, watching, around, titles, author, publishedBy } = foundOr404(request, slug, await readPage(slug, user.id));
@@ -52,7 +53,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       author,
       publishedBy,
       changeNote: rev.changeNote,
-      html: body.html,
+      html: bodyForLoaderData(request, context, body.html),
       widgets: body.widgets,
       units: body.units,
       specs: around.specs,
