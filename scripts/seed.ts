@@ -6,6 +6,7 @@ import * as schema from "../app/db/schema";
 import { seedUsers } from "./seed/users";
 import { seedProcedures } from "./seed/procedures";
 import { seedRecordings } from "./seed/recordings";
+import { seedCaptions } from "./seed/captions";
 import { seedTestRecords } from "./seed/test-records";
 import { seedRuns } from "./seed/runs";
 
@@ -16,6 +17,8 @@ try {
   console.log(`[seed] demo people: ${n ? `${n} added` : "already there"}`);
   const r = await seedRecordings(db);
   console.log(`[seed] demo recordings: ${r ? `${r} added` : "already there"}`);
+  const c = await seedCaptions(db);
+  console.log(`[seed] demo captions: ${c ? `${c} recordings added` : "already there"}`);
   const pr = await seedProcedures(db);
   console.log(`[seed] demo procedures: ${pr ? `${pr} added` : "already there"}`);
   const tr = await seedTestRecords(db);

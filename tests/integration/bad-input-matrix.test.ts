@@ -9,7 +9,7 @@ import nodeHttp from "node:http";
 import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords } from "~/db/schema";
+import { captionCues, marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords } from "~/db/schema";
 import { clearanceDefaults } from "~/lib/calc-ui/clearance-form";
 import { distortionDefaults } from "~/lib/calc-ui/distortion-form";
 import { preloadDefaults } from "~/lib/calc-ui/preload-form";
@@ -177,6 +177,10 @@ describe("bad-input matrix", () => {
       .insert(readings)
       .values({ recordingId: rec.id, quantity: "torque", valueSi: 110, valueEntered: 110, unitEntered: "N.m", t: 3, createdBy: admin.id })
       .returning();
+    const [cue] = await db()
+      .insert(captionCues)
+      .values({ recordingId: rec.id, position: 1, startS: 1, endS: 2.5, text: "A caption line" })
+      .returning();
     const filed = await http(`/test-records/new?procedure=${p.slug}`, {
       cookie: admin.cookie,
       form: {
@@ -198,6 +202,7 @@ describe("bad-input matrix", () => {
       recording: rec.id,
       mark: mark.id,
       reading: reading.id,
+      cue: cue.id,
       record: recordId,
       spec: spec.id,
       published: rev.id,
@@ -223,6 +228,7 @@ describe("bad-input matrix", () => {
           if (name === "token") return "not-a-real-token";
           if (name === "markId") return good.mark;
           if (name === "readingId") return good.reading;
+          if (name === "cueId") return good.cue;
           if (pattern.startsWith("/api/procedures/revisions")) return good.revision;
           if (pattern.includes("recordings/")) return good.recording;
           if (pattern.includes("test-records/")) return good.record;

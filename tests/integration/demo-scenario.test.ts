@@ -5,7 +5,8 @@ import { and, eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { pairTorqueClamp } from "~/components/recordings/ReadingsChart";
 import type { ReadingRow } from "~/components/recordings/types";
-import { procedureRevisions, procedures, readings } from "~/db/schema";
+import { captionCues, captionEdits, captionSources, procedureRevisions, procedures, readings } from "~/db/schema";
+import { waitFor } from "../support/app";
 import { fitNutFactor } from "~/lib/calc";
 import { db } from "~/lib/db.server";
 import { walk, type JSONNode } from "~/lib/procedures/document";
@@ -44,5 +45,30 @@ describe("demo scenario", () => {
     // The words a builder reads say the same K as the calculator block.
     const said = texts.join("").match(/assumes K = (\d+\.\d+)/);
     expect(said && Number(said[1])).toBe(k);
+  });
+});
+
+describe("demo scenario: what is said in the recordings (issue 17)", () => {
+  const BORE_CLIP = "5eed0000-0000-4000-8000-0000000b04e1";
+  const lines = (recordingId: string) =>
+    db().select().from(captionCues).where(eq(captionCues.recordingId, recordingId)).orderBy(captionCues.position);
+
+  it("the stud test's captions came from a file, with the misheard “molly” corrected and kept in its history", async () => {
+    const cues = await lines(DEMO_RECORDING);
+    expect(cues.length).toBeGreaterThanOrEqual(5);
+    const corrected = cues.find((c) => c.version > 1);
+    expect(corrected?.text).toContain("moly on the threads");
+    const [edit] = await db().select().from(captionEdits).where(eq(captionEdits.cueId, corrected!.id));
+    expect(edit).toMatchObject({ textBefore: expect.stringContaining("molly"), editedBy: "demo-tomas" });
+  });
+
+  it("the bore clip's captions are read out of its own subtitle track by the worker", { timeout: 60_000 }, async () => {
+    const cues = await waitFor(async () => {
+      const got = await lines(BORE_CLIP);
+      return got.length > 0 && got;
+    }, 55_000);
+    expect(cues[0]).toMatchObject({ startS: 0.8, endS: 4, text: "Zeroing the bore gauge in the mic first, at the nominal size." });
+    const [source] = await db().select().from(captionSources).where(eq(captionSources.recordingId, BORE_CLIP));
+    expect(source.kind).toBe("embedded");
   });
 });

@@ -2,6 +2,7 @@ import { useCallback, useEffect, useRef, useState } from "react";
 import { Link } from "react-router";
 import type { Upload as TusUpload } from "tus-js-client";
 import { StateBadge } from "./StateBadge";
+import { CaptionFileField, CaptionsSent } from "./UploadCaptions";
 import { formatBytes } from "~/lib/byte-format";
 import { fileNameProblem, titleFromFileName } from "~/lib/recordings/upload-names";
 import { fileFingerprint, fingerprintMetadata } from "~/lib/recordings/file-fingerprint";
@@ -30,6 +31,8 @@ export type QueueItem = {
   checking: boolean;
   recordingId: string | null;
   rec: RecState | null;
+  /** An optional caption file, attached to the recording once it exists (issue 17). */
+  captions?: File | null;
 };
 
 const CHUNK = 16 * 1024 * 1024;
@@ -394,6 +397,7 @@ function UploadRow({
               onChange={(e) => onChange({ description: e.target.value })}
             />
           </div>
+          <CaptionFileField id={id} file={item.captions ?? null} onChange={(captions) => onChange({ captions })} />
         </div>
       ) : (
         <p className="text-sm">
@@ -452,6 +456,7 @@ function UploadRow({
           {item.rec?.stateReason && (
             <span className={item.rec.state === "processing" ? "text-graphite-soft" : "text-spec-red"}>{item.rec.stateReason}</span>
           )}
+          {item.recordingId && item.captions && <CaptionsSent recordingId={item.recordingId} file={item.captions} />}
           {item.recordingId && (
             <Link to={`/recordings/${item.recordingId}`} data-testid="open-recording">
               Open the recording

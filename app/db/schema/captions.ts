@@ -40,7 +40,10 @@ export const captionCues = pgTable(
     version: integer("version").notNull().default(1),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [uniqueIndex("caption_cues_position_idx").on(t.recordingId, t.position), index("caption_cues_start_idx").on(t.recordingId, t.startS)],
+  (t) => [
+    uniqueIndex("caption_cues_position_idx").on(t.recordingId, t.position),
+    index("caption_cues_start_idx").on(t.recordingId, t.startS),
+  ],
 );
 
 /** Every correction of a cue's text: before, after, who and when. */

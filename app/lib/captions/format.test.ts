@@ -91,9 +91,17 @@ describe("reading WebVTT", () => {
 
 describe("reading SRT", () => {
   // SRT's common form: counter, time line with a comma before the milliseconds, text, blank line.
-  const srt = ["1", "00:00:01,000 --> 00:00:03,500", "Torque the studs", "in three passes.", "", "2", "00:00:04,000 --> 00:00:06,000", "<i>Molly</i> on the threads.", ""].join(
-    "\r\n",
-  );
+  const srt = [
+    "1",
+    "00:00:01,000 --> 00:00:03,500",
+    "Torque the studs",
+    "in three passes.",
+    "",
+    "2",
+    "00:00:04,000 --> 00:00:06,000",
+    "<i>Molly</i> on the threads.",
+    "",
+  ].join("\r\n");
 
   it("converts to WebVTT (full stop before the milliseconds, the WEBVTT line first)", () => {
     const vtt = srtToWebVtt(srt);

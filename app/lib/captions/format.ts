@@ -30,7 +30,14 @@ const STYLING_TAGS = new Set(["c", "i", "b", "u", "ruby", "rt", "v", "lang"]);
 const Parser = webvtt.WebVTTParser;
 
 /** The character references WebVTT defines for cue text, with their semicolons (the parser's own list lacks them). */
-const ENTITIES: Record<string, string> = { "&amp;": "&", "&lt;": "<", "&gt;": ">", "&lrm;": "\u200e", "&rlm;": "\u200f", "&nbsp;": "\u00a0" };
+const ENTITIES: Record<string, string> = {
+  "&amp;": "&",
+  "&lt;": "<",
+  "&gt;": ">",
+  "&lrm;": "\u200e",
+  "&rlm;": "\u200f",
+  "&nbsp;": "\u00a0",
+};
 
 /** A file's text as the parsers want it: no byte order mark, LF line ends. */
 function normalised(text: string): string {
@@ -93,7 +100,9 @@ export function readCaptions(fileName: string, text: string, durationS: number |
   if (!format) {
     return {
       ok: false,
-      problems: [{ cue: null, message: "This is not a caption file: a WebVTT file begins with WEBVTT, an SRT file with a number and a time line." }],
+      problems: [
+        { cue: null, message: "This is not a caption file: a WebVTT file begins with WEBVTT, an SRT file with a number and a time line." },
+      ],
     };
   }
   let vtt: string;
