@@ -26,6 +26,7 @@ const benches: Bench[] = [
     },
   },
   { name: "search", run: async () => (await import("./search")).benchSearch() },
+  { name: "storage", run: async () => (await import("./storage")).benchStorage() },
   { name: "procedures", run: async () => (await import("./procedures")).benchProcedures() },
   { name: "search-fake", run: async () => (await import("../fakes/meili/bench")).runMeiliBench({ docs: 20_000, log: console.log }) },
 ];

@@ -8,10 +8,11 @@ import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import net from "node:net";
 import path from "node:path";
+import { fileURLToPath } from "node:url";
 import pg from "pg";
 import { hashPassword } from "~/lib/auth.server";
 
-const ROOT = path.resolve(__dirname, "../..");
+const ROOT = fileURLToPath(new URL("../..", import.meta.url));
 const runDir = process.env.BENCHREEL_RUN_DIR ?? fs.mkdtempSync("/tmp/br-stack-");
 
 function freePort(): Promise<number> {
