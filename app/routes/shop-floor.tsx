@@ -8,6 +8,8 @@ import { returnedDraftsOf } from "~/lib/procedures/review.server";
 import { fmtDate } from "~/components/procedures/RevisionView";
 import { RecordMiniList } from "~/components/test-records/parts";
 import { recentTestRecords } from "~/lib/test-records/records.server";
+import { OpenRuns } from "~/components/runs/RunList";
+import { listOpenRuns } from "~/lib/runs/runs.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Shop floor · Benchreel" }];
 
@@ -19,7 +21,8 @@ export async function loader({ request }: Route.LoaderArgs) {
     can(user.role, "procedure:draft") ? returnedDraftsOf(user.id) : [],
     recentTestRecords(),
   ]);
-  return { user, review, returned, testRecords };
+  const openRuns = await listOpenRuns();
+  return { user, review, returned, testRecords, openRuns };
 }
 
 type Tile = { to: string; title: string; body: string; show: boolean };
@@ -99,6 +102,7 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
           )}
         </section>
       )}
+      {loaderData.openRuns.length > 0 && <OpenRuns rows={loaderData.openRuns} />}
       {loaderData.testRecords.length > 0 && (
         <section aria-labelledby="recent-tests-h" className="card mb-6" data-testid="recent-test-records">
           <h2 id="recent-tests-h" className="text-lg">

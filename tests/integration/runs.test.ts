@@ -281,6 +281,8 @@ describe("runs", () => {
     const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
     const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
     expect((await photosForTestRecord(recordId!)).map((p) => p.id)).toEqual(photos.map((p) => p.id));
+    const recordPage = await http(`/test-records/${recordId}`, { cookie: apprentice.cookie });
+    expect(await recordPage.text()).toContain(`src="${url}"`);
   });
 
   it("lets several runs be open on one build at once", async () => {

@@ -92,3 +92,35 @@ export function RunPhotos({
     </div>
   );
 }
+
+/** A run's photos on the test record it filed (and the build's pages): spec by spec, each opening full size. */
+export function RunPhotoGallery({ photos }: { photos: Pick<RunPhoto, "id" | "url" | "specKey" | "specLabel" | "takenByName">[] }) {
+  const bySpec = new Map<string, typeof photos>();
+  for (const p of photos) bySpec.set(p.specLabel, [...(bySpec.get(p.specLabel) ?? []), p]);
+  return (
+    <section className="card" aria-labelledby="run-photos-h" data-testid="run-photos">
+      <h2 id="run-photos-h" className="text-lg">
+        Photos taken during the run
+      </h2>
+      {[...bySpec].map(([label, list]) => (
+        <div key={label} className="mt-2">
+          <h3 className="text-sm font-semibold">{label}</h3>
+          <ul className="mt-1 flex flex-wrap gap-2">
+            {list.map((p, i) => (
+              <li key={p.id}>
+                <a href={p.url} target="_blank" rel="noreferrer">
+                  <img
+                    src={p.url}
+                    alt={`${label}, shot ${i + 1} of ${list.length}${p.takenByName ? `, by ${p.takenByName}` : ""}`}
+                    className="h-28 w-28 rounded border border-rule object-cover"
+                    loading="lazy"
+                  />
+                </a>
+              </li>
+            ))}
+          </ul>
+        </div>
+      ))}
+    </section>
+  );
+}

@@ -15,6 +15,8 @@ import { can } from "~/lib/permissions";
 import { calcFormSchema } from "~/lib/test-records/calc-form";
 import { runRecordCalc } from "~/lib/test-records/calc-runs.server";
 import { testRecordOr404 } from "~/lib/test-records/records.server";
+import { RunPhotoGallery } from "~/components/runs/RunPhotos";
+import { photosForTestRecord } from "~/lib/runs/runs.server";
 import { RECORD_VERDICT_LABELS } from "~/lib/test-records/labels";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.record.workOrder ?? "Test record"} · Test records · Benchreel` }];
@@ -23,7 +25,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
   const { id } = parseParams(request, idParams, params, "test record");
   const view = await testRecordOr404(id, { version: parseSearch(request, versionSearch).v });
-  return { ...view, flags: { canAmend: can(user.role, "testrecord:amend"), canCalc: can(user.role, "testrecord:create") } };
+  return {
+    ...view,
+    photos: await photosForTestRecord(id),
+    flags: { canAmend: can(user.role, "testrecord:amend"), canCalc: can(user.role, "testrecord:create") },
+  };
 }
 
 /** Runs a calculator on the readings in force and keeps it with the record. */
@@ -129,6 +135,8 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
               <p className="mt-1 whitespace-pre-line font-serif">{record.notes}</p>
             </section>
           )}
+
+          {loaderData.photos.length > 0 && <RunPhotoGallery photos={loaderData.photos} />}
 
           <RecordCalcs
             specs={specs}
