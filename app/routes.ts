@@ -30,6 +30,15 @@ export default [
     route("recordings/upload", "routes/recordings/upload.tsx"),
     route("recordings/:id", "routes/recordings/watch.tsx"),
 
+    // builds (one engine job each, by work order number)
+    route("builds", "routes/builds/index.tsx"),
+    route("builds/new", "routes/builds/new.tsx"),
+    route("builds/:number", "routes/builds/build.tsx"),
+    route("builds/:number/edit", "routes/builds/edit.tsx"),
+    route("builds/:number/sheet", "routes/builds/sheet.tsx"),
+    route("builds/:number/sheet.pdf", "routes/builds/sheet-pdf.ts"),
+    route("builds/:number/readings.csv", "routes/builds/readings-csv.ts"),
+
     // test records
     route("test-records", "routes/test-records/index.tsx"),
     route("test-records/new", "routes/test-records/new.tsx"),
@@ -68,6 +77,7 @@ export default [
     route("calc/distortion", "routes/api/calc.distortion.ts"),
     route("calc/clearance", "routes/api/calc.clearance.ts"),
     route("search", "routes/api/search.ts"),
+    route("builds/:number", "routes/api/builds.ts"),
     route("procedures/titles", "routes/api/procedures/titles.ts"),
     route("procedures/recordings", "routes/api/procedures/recordings.ts"),
     route("procedures/revisions/:id", "routes/api/procedures/revision.ts"),

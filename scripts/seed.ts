@@ -8,6 +8,7 @@ import { seedProcedures } from "./seed/procedures";
 import { seedRecordings } from "./seed/recordings";
 import { seedCaptions } from "./seed/captions";
 import { seedTestRecords } from "./seed/test-records";
+import { seedBuilds } from "./seed/builds";
 import { seedRuns } from "./seed/runs";
 
 const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL });
@@ -23,6 +24,8 @@ try {
   console.log(`[seed] demo procedures: ${pr ? `${pr} added` : "already there"}`);
   const tr = await seedTestRecords(db);
   console.log(`[seed] demo test records: ${tr === "skipped" ? "skipped (no demo procedures)" : tr ? `${tr} added` : "already there"}`);
+  const b = await seedBuilds(db);
+  console.log(`[seed] demo builds: ${b ? `${b} added` : "already there"}`);
   const ru = await seedRuns(db);
   console.log(`[seed] demo runs: ${ru === "skipped" ? "skipped (no demo procedure or build on the bench)" : ru ? `${ru} added` : "already there"}`);
 } finally {

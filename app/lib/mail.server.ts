@@ -1,14 +1,16 @@
 import { and, asc, desc, isNull, lte, sql } from "drizzle-orm";
 import nodemailer, { type Transporter } from "nodemailer";
-import { mailOutbox } from "~/db/schema";
+import { mailAttachments, mailOutbox } from "~/db/schema";
 import { db, type DbOrTx } from "./db.server";
 import { env } from "./env.server";
 
 export type Mail = { to: string; subject: string; text: string; html: string };
+export type MailAttachment = { filename: string; contentType: string; content: Buffer };
 
-/** Writes the message to the outbox in the caller's transaction; the worker sends it. */
-export async function enqueueMail(tx: DbOrTx, mail: Mail): Promise<void> {
-  await tx.insert(mailOutbox).values(mail);
+/** Writes the message (and any files it carries) to the outbox in the caller's transaction; the worker sends it. */
+export async function enqueueMail(tx: DbOrTx, mail: Mail, attachments: MailAttachment[] = []): Promise<void> {
+  const [row] = await tx.insert(mailOutbox).values(mail).returning({ id: mailOutbox.id });
+  if (attachments.length) await tx.insert(mailAttachments).values(attachments.map((a) => ({ ...a, mailId: row.id })));
 }
 
 const escapeHtml = (s: string) =>
@@ -81,7 +83,12 @@ export async function drainOutbox(opts: { transport: Transporter; from?: string;
         .for("update", { skipLocked: true });
       if (!row) return "empty" as const;
       try {
-        await opts.transport.sendMail({ from, to: row.to, subject: row.subject, text: row.text, html: row.html });
+        const attachments = await tx
+          .select({ filename: mailAttachments.filename, contentType: mailAttachments.contentType, content: mailAttachments.content })
+          .from(mailAttachments)
+          .where(sql`${mailAttachments.mailId} = ${row.id}`)
+          .orderBy(asc(mailAttachments.id));
+        await opts.transport.sendMail({ from, to: row.to, subject: row.subject, text: row.text, html: row.html, attachments });
         await tx
           .update(mailOutbox)
           .set({ sentAt: new Date(), attempts: row.attempts + 1, lastError: null })

@@ -5,6 +5,7 @@ export type NavItem = { to: string; label: string; permission: Permission; end?:
 /** The whole product's navigation; each entry shows only to roles holding its permission. */
 export const NAV: NavItem[] = [
   { to: "/", label: "Shop floor", permission: "shop:read", end: true },
+  { to: "/builds", label: "Builds", permission: "builds:read" },
   { to: "/procedures", label: "Procedures", permission: "shop:read" },
   { to: "/recordings", label: "Recordings", permission: "shop:read" },
   { to: "/test-records", label: "Test records", permission: "shop:read" },

@@ -60,6 +60,10 @@ export const PERMISSIONS = {
   // Runs: a procedure worked step by step on a build (apprentices read them with shop:read).
   "run:work": staff,
 
+  // Builds: one engine job and everything measured and filed for it.
+  "builds:read": everyone,
+  "builds:write": staff,
+
   // Administration.
   "user:manage": ["admin"],
   "outbox:view": ["admin"],
@@ -148,6 +152,8 @@ export const CAPABILITY_WORDS: Record<Permission, string> = {
   "testrecord:create": "file test records",
   "testrecord:amend": "amend test records",
   "run:work": "work procedures step by step on a build",
+  "builds:read": "look at builds",
+  "builds:write": "open and change builds",
   "user:manage": "manage people's accounts",
   "outbox:view": "see the mail outbox",
   "search:repair": "repair the search index",

@@ -10,19 +10,23 @@ import { RecordMiniList } from "~/components/test-records/parts";
 import { recentTestRecords } from "~/lib/test-records/records.server";
 import { OpenRuns } from "~/components/runs/RunList";
 import { listOpenRuns } from "~/lib/runs/runs.server";
+import { BuildsInProgress } from "~/components/builds/BuildsInProgress";
+import { buildSummaries } from "~/lib/builds/builds.server";
+import { IN_PROGRESS } from "~/lib/builds/status";
 
 export const meta: Route.MetaFunction = () => [{ title: "Shop floor · Benchreel" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "shop:read");
-  const [review, returned, testRecords] = await Promise.all([
+  const [review, returned, testRecords, builds] = await Promise.all([
     can(user.role, "procedure:review") ? awaitingReview() : null,
     // Only an author's own drafts come back to them; a role that cannot write has none.
     can(user.role, "procedure:draft") ? returnedDraftsOf(user.id) : [],
     recentTestRecords(),
+    can(user.role, "builds:read") ? buildSummaries({ status: IN_PROGRESS, limit: 12 }) : [],
   ]);
   const openRuns = await listOpenRuns();
-  return { user, review, returned, testRecords, openRuns };
+  return { user, review, returned, testRecords, builds, openRuns };
 }
 
 type Tile = { to: string; title: string; body: string; show: boolean };
@@ -102,6 +106,7 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
           )}
         </section>
       )}
+      {loaderData.builds.length > 0 && <BuildsInProgress rows={loaderData.builds} />}
       {loaderData.openRuns.length > 0 && <OpenRuns rows={loaderData.openRuns} />}
       {loaderData.testRecords.length > 0 && (
         <section aria-labelledby="recent-tests-h" className="card mb-6" data-testid="recent-test-records">

@@ -8,7 +8,7 @@ import { eq } from "drizzle-orm";
 import type { NodePgDatabase } from "drizzle-orm/node-postgres";
 import { marks, readings, recordings } from "../../app/db/schema";
 
-const DEMO_ID = "5eed0000-0000-4000-8000-00000000c1a9";
+export const DEMO_ID = "5eed0000-0000-4000-8000-00000000c1a9";
 
 type Db = NodePgDatabase<Record<string, unknown>>;
 
@@ -57,7 +57,7 @@ export async function seedRecordings(db: Db): Promise<number> {
   const size = fs.statSync(file).size;
   await db.insert(recordings).values({
     id: DEMO_ID,
-    title: "Head stud clamp-load test, M12×1.5, moly lube (LEW-24-0117)",
+    title: "Head stud clamp-load test, M12×1.5, moly lube",
     description:
       "Marcus torques studs 1–4 of the 2.3 L block in three passes on the load-cell fixture; Tomás reads the clamp load off the cell after each pass.",
     tags: ["head studs", "clamp load", "moly"],

@@ -123,7 +123,7 @@ test("Preload: bench points are saved as readings on a recording, paired for its
   await expect(page.getByTestId("fit-summary")).toContainText("K = 0.200");
   await page.getByTestId("save-readings-open").click();
   const panel = page.getByTestId("save-readings");
-  await panel.getByLabel("Recording").selectOption({ label: "Head stud clamp-load test, M12×1.5, moly lube (LEW-24-0117)" });
+  await panel.getByLabel("Recording").selectOption({ label: "Head stud clamp-load test, M12×1.5, moly lube" });
   const label = `calc point ${Date.now().toString(36)}`;
   await panel.getByLabel("Label (numbered)").fill(label);
   await panel.getByLabel("Stud no. on the fixture (optional)").fill("7");

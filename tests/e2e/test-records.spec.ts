@@ -5,6 +5,7 @@ import fs from "node:fs";
 import { randomUUID } from "node:crypto";
 import { expect, test, type Page } from "@playwright/test";
 import pg from "pg";
+import { makeBuild } from "../support/build-fixture";
 
 const DOC = {
   type: "doc",
@@ -57,7 +58,7 @@ async function signIn(page: Page, email: string) {
 
 test("QC files a test record from a procedure, sees the verdict, and the procedure lists it", async ({ page }) => {
   const proc = await makeProcedure();
-  const wo = `LEW-24-${String(2000 + Math.floor(Math.random() * 7000))}`;
+  const wo = await makeBuild();
   await signIn(page, "tomas@larkspur.example");
   await page.goto(`/procedures/${proc.slug}`);
   const section = page.getByTestId("procedure-test-records");
@@ -66,7 +67,7 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
   await expect(page.getByRole("heading", { level: 1, name: "File a test record" })).toBeVisible();
   await expect(page.getByText("revision 1")).toBeVisible();
 
-  await page.getByLabel("Work order").fill(wo.toLowerCase());
+  await page.getByLabel("Build (work order)").selectOption(wo);
   await page.getByLabel("Engine serial").fill("LX23-0412");
   const bore = page.getByTestId("spec-readings").filter({ hasText: "Bore diameter, plate fitted" });
   await bore.getByLabel("Bore diameter, plate fitted reading 1", { exact: true }).fill("88.004");
@@ -201,7 +202,7 @@ test("Bore distortion on a record takes each diameter's depth and angle from its
   const proc = await makeProcedure();
   await signIn(page, "tomas@larkspur.example");
   await page.goto(`/test-records/new?procedure=${proc.slug}`);
-  await page.getByLabel("Work order").fill(`LEW-24-${String(2000 + Math.floor(Math.random() * 7000))}`);
+  await page.getByLabel("Build (work order)").selectOption(await makeBuild());
   const bore = page.getByTestId("spec-readings").filter({ hasText: "Bore diameter, plate fitted" });
   const rows: [string, string, string, string][] = [
     ["88.010", "10", "0", "plate on"],

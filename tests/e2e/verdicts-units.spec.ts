@@ -6,6 +6,7 @@ import { randomUUID } from "node:crypto";
 import { expect, test, type Page } from "@playwright/test";
 import pg from "pg";
 import { signIn as signInAs } from "../support/browser";
+import { makeBuild } from "../support/build-fixture";
 
 async function signIn(page: Page, email: string, path: string) {
   await signInAs(page, email);
@@ -115,7 +116,7 @@ test("Filing an out-of-spec record confirms it in red; a converted reading shows
   const { slug } = await makeProcedure();
   await signIn(page, "tomas@larkspur.example", `/test-records/new`);
   await page.goto(`/test-records/new?procedure=${slug}`);
-  await page.getByLabel("Work order").fill("LEW-24-0911");
+  await page.getByLabel("Build (work order)").selectOption(await makeBuild("LEW-24-0911"));
   await page.getByLabel("Head stud final torque reading 1", { exact: true }).fill("90");
   await page.getByLabel("Head stud final torque reading 1 unit", { exact: true }).selectOption("ft.lbf");
   await page.getByRole("button", { name: "File the test record" }).click();

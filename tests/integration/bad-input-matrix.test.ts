@@ -9,7 +9,7 @@ import nodeHttp from "node:http";
 import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { captionCues, marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords } from "~/db/schema";
+import { builds, captionCues, marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords } from "~/db/schema";
 import { clearanceDefaults } from "~/lib/calc-ui/clearance-form";
 import { distortionDefaults } from "~/lib/calc-ui/distortion-form";
 import { preloadDefaults } from "~/lib/calc-ui/preload-form";
@@ -181,12 +181,14 @@ describe("bad-input matrix", () => {
       .insert(captionCues)
       .values({ recordingId: rec.id, position: 1, startS: 1, endS: 2.5, text: "A caption line" })
       .returning();
+    // A test record is filed for a build (issue 16): this matrix's own, so its posts change no demo build.
+    await db().insert(builds).values({ number: "BADIN-24-0001", customerName: "Bad input matrix" }).onConflictDoNothing();
     const filed = await http(`/test-records/new?procedure=${p.slug}`, {
       cookie: admin.cookie,
       form: {
         revisionId: rev.id,
         title: "Bore check",
-        workOrder: "LEW-24-1234",
+        workOrder: "BADIN-24-0001",
         engineSerial: "X1",
         testedOn: new Date().toISOString().slice(0, 10),
         [`r.${spec.id}.0.value`]: "88",
@@ -198,6 +200,7 @@ describe("bad-input matrix", () => {
     Object.assign(good, {
       slug: p.slug,
       number: "2",
+      build: "BADIN-24-0001",
       revision: draft.id,
       recording: rec.id,
       mark: mark.id,
@@ -224,6 +227,7 @@ describe("bad-input matrix", () => {
           if (key === badParam) return bad!;
           if (key === "*") return "";
           if (name === "slug") return good.slug;
+          if (name === "number" && /^\/(api\/)?builds\//.test(pattern)) return good.build;
           if (name === "number") return good.number;
           if (name === "token") return "not-a-real-token";
           if (name === "markId") return good.mark;

@@ -4,10 +4,13 @@
 import fs from "node:fs";
 import { beforeAll, describe, expect, it } from "vitest";
 import { and, asc, eq, isNull, sql } from "drizzle-orm";
-import { procedures, procedureSpecs, readings, recordings, searchOutbox, testRecordReadings, testRecords } from "~/db/schema";
+import { readings, recordings, searchOutbox, testRecordReadings, testRecords } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { positionFieldsForSpec, positionFromLabel } from "~/lib/recordings/positions";
 import { createUser, http, waitFor, type TestUser } from "../support/app";
+import { demoBoreSpec, workOrderPool } from "../support/builds";
+
+const workOrder = workOrderPool("RP");
 
 let builder: TestUser;
 let other: TestUser;
@@ -332,18 +335,10 @@ describe("migration 0022: the place out of an old label", () => {
 });
 
 describe("test record entry with positions", () => {
-  async function demoBoreSpec() {
-    const [p] = await db().select().from(procedures).where(eq(procedures.slug, "torque-plate-honing-iron-lined-block"));
-    const [spec] = await db()
-      .select()
-      .from(procedureSpecs)
-      .where(and(eq(procedureSpecs.revisionId, p.publishedRevisionId!), eq(procedureSpecs.specKey, "bore-dia")));
-    return { slug: p.slug, revisionId: p.publishedRevisionId!, spec };
-  }
   const form = (revisionId: string, extra: Record<string, string>) => ({
     revisionId,
     title: "Bore finish, positions",
-    workOrder: `LEW-24-${String(1000 + Math.floor(Math.random() * 8999))}`,
+    workOrder: workOrder(),
     engineSerial: "LX23-0412",
     testedOn: new Date().toISOString().slice(0, 10),
     notes: "",

@@ -53,6 +53,14 @@ const MATRIX: Entry[] = [
     post: { ...only(STAFF, 404), apprentice: 403 },
     note: "unknown id: guard first, then 404",
   },
+  // builds (LEW-24-0117 is a demo build)
+  { path: "/builds", get: SIGNED_IN },
+  { path: "/builds/new", get: only(STAFF), post: only(STAFF, 400) },
+  { path: "/builds/:number", sample: "/builds/LEW-24-0117", get: SIGNED_IN, post: only(STAFF, 400), note: "an empty form names no action" },
+  { path: "/builds/:number/edit", sample: "/builds/LEW-24-0117/edit", get: only(STAFF), post: only(STAFF, 400) },
+  { path: "/builds/:number/sheet", sample: "/builds/LEW-24-0117/sheet", get: SIGNED_IN },
+  { path: "/builds/:number/sheet.pdf", sample: "/builds/LEW-24-0117/sheet.pdf", get: SIGNED_IN },
+  { path: "/builds/:number/readings.csv", sample: "/builds/LEW-24-0117/readings.csv", get: SIGNED_IN },
   { path: "/test-records", get: SIGNED_IN },
   { path: "/test-records/new", get: only(STAFF), post: only(STAFF, 400) },
   { path: "/test-records/export.csv", get: SIGNED_IN },
@@ -98,6 +106,7 @@ const MATRIX: Entry[] = [
 
   // ---- API ----
   { path: "/api/me", get: SIGNED_IN_API },
+  { path: "/api/builds/:number", sample: "/api/builds/LEW-24-0117", get: SIGNED_IN_API },
   {
     path: "/api/calc/preload",
     get: { ...ALL(405), anon: 401 },

@@ -17,41 +17,8 @@ import {
 } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { createUser, http, waitFor, type TestUser } from "../support/app";
-
-/** RFC 4180 reading, enough for the export: quoted fields, doubled quotes, CRLF or LF. */
-function parse(text: string, _opts: { columns: true; bom: true }): Record<string, string>[] {
-  const rows: string[][] = [];
-  let row: string[] = [];
-  let cell = "";
-  let quoted = false;
-  const t = text.replace(/^\uFEFF/, "");
-  for (let i = 0; i < t.length; i++) {
-    const ch = t[i];
-    if (quoted) {
-      if (ch === '"' && t[i + 1] === '"') {
-        cell += '"';
-        i++;
-      } else if (ch === '"') quoted = false;
-      else cell += ch;
-    } else if (ch === '"') quoted = true;
-    else if (ch === ",") {
-      row.push(cell);
-      cell = "";
-    } else if (ch === "\n" || ch === "\r") {
-      if (ch === "\r" && t[i + 1] === "\n") i++;
-      row.push(cell);
-      rows.push(row);
-      row = [];
-      cell = "";
-    } else cell += ch;
-  }
-  if (cell || row.length) {
-    row.push(cell);
-    rows.push(row);
-  }
-  const [head, ...body] = rows;
-  return body.map((r) => Object.fromEntries(head.map((h, i) => [h, r[i] ?? ""])));
-}
+import { workOrderPool } from "../support/builds";
+import { parse } from "../support/csv";
 
 type SpecDef = {
   key: string;
@@ -121,7 +88,7 @@ const BORE: SpecDef[] = [
   { key: "gap", label: "Top ring end gap", quantity: "length", unit: "mm", min: 0.45, max: null },
 ];
 
-const workOrder = () => `LEW-24-${String(1000 + Math.floor(Math.random() * 8999))}`;
+const workOrder = workOrderPool("TR");
 
 function form(revisionId: string, extra: Record<string, string>) {
   return {

@@ -66,7 +66,16 @@ export async function http(path: string, req: Req = {}): Promise<Response> {
   return fetch(new URL(path, BASE_URL), { method, headers, body, redirect: "manual" });
 }
 
-export type Captured = { id: string; to: string[]; subject: string; text: string; html: string; links: string[]; receivedAt: string };
+export type Captured = {
+  id: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+  links: string[];
+  receivedAt: string;
+  attachments?: { filename: string; contentType: string; size: number; contentBase64: string }[];
+};
 
 export async function mailbox(): Promise<Captured[]> {
   const res = await fetch(`${process.env.SMTP_CONTROL_URL}/messages`);

@@ -25,7 +25,7 @@ function mm(x: number | undefined) {
   return x == null || !Number.isFinite(x) ? "—" : formatQ(x, "mm", "mm", 1);
 }
 
-function CalcResult({ kind, result }: { kind: string; result: unknown }) {
+export function CalcResult({ kind, result }: { kind: string; result: unknown }) {
   if (kind === "distortion") {
     const r = result as DistortionResult;
     return (

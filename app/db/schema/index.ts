@@ -7,3 +7,4 @@ export * from "./builds";
 export * from "./captions";
 export * from "./storage";
 export * from "./runs";
+export * from "./mail-attachments";

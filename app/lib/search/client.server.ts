@@ -5,7 +5,7 @@ import { currentSynonyms } from "./words.server";
 /** One index holds every kind of document; `kind` tells them apart and is a facet. */
 export const indexUid = () => env().SEARCH_INDEX;
 
-export type SearchKind = "procedure" | "spec" | "mark" | "reading" | "recording" | "test_record" | "caption";
+export type SearchKind = "procedure" | "spec" | "mark" | "reading" | "recording" | "test_record" | "caption" | "build";
 
 export type SearchDoc = {
   id: string;
@@ -49,6 +49,8 @@ export type SearchDoc = {
 export const KIND_WEIGHT: Record<SearchKind, number> = {
   procedure: 5,
   spec: 5,
+  // A build by its number, customer, serial or engine comes before the records filed for it.
+  build: 4,
   test_record: 3,
   recording: 3,
   mark: 2,

@@ -1,5 +1,17 @@
 import { eq, inArray } from "drizzle-orm";
-import { captionCues, marks, procedureRevisions, procedures, procedureSpecs, readings, recordings, testRecords, users } from "~/db/schema";
+import {
+  builds,
+  captionCues,
+  marks,
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  readings,
+  recordings,
+  testRecords,
+  users,
+} from "~/db/schema";
+import { BUILD_STATUS_LABELS } from "~/lib/builds/status";
 import { positionText } from "~/lib/recordings/positions";
 import { db } from "~/lib/db.server";
 import { blockTexts, type JSONNode } from "~/lib/procedures/document";
@@ -377,6 +389,11 @@ export async function buildChange(kind: string, entityId: string): Promise<Index
     }
     case "person":
       return personDocs(entityId);
+    case "build": {
+      const unindexable: Unindexable[] = [];
+      const docs = await buildDocs(unindexable, entityId);
+      return { upserts: docs, deleteIds: docs.length || unindexable.length ? [] : [`build-${entityId}`], deleteGroups: [], unindexable };
+    }
     default:
       return empty();
   }
@@ -439,6 +456,39 @@ async function testRecordDocs(unindexable: Unindexable[], id?: string): Promise<
   );
 }
 
+/** A build: found by its work order number, customer, engine serial and engine (issue 16). */
+async function buildDocs(unindexable: Unindexable[], id?: string): Promise<SearchDoc[]> {
+  const rows = await db()
+    .select()
+    .from(builds)
+    .where(id ? eq(builds.id, id) : undefined);
+  return rows.flatMap(
+    (b) =>
+      guarded("build", b.id, unindexable, (): SearchDoc[] => [
+        {
+          id: `build-${b.id}`,
+          kind: "build" as const,
+          title: `${b.number}: ${b.customerName}`,
+          text: [
+            b.number,
+            b.customerName,
+            b.engine,
+            b.engineSerial ? `serial ${b.engineSerial}` : "",
+            BUILD_STATUS_LABELS[b.status],
+            b.notes,
+          ]
+            .filter(Boolean)
+            .join(" — "),
+          tags: [],
+          visibility: ["all"],
+          url: `/builds/${b.number}`,
+          date: b.updatedAt.getTime(),
+          kindWeight: KIND_WEIGHT.build,
+        },
+      ]) ?? [],
+  );
+}
+
 /** Every document, for a full reindex, and the records whose documents could not be built. */
 export async function allDocuments(): Promise<{ docs: SearchDoc[]; unindexable: Unindexable[] }> {
   const all = empty();
@@ -451,5 +501,6 @@ export async function allDocuments(): Promise<{ docs: SearchDoc[]; unindexable: 
     if (cap) add(cap);
   }
   all.upserts.push(...(await testRecordDocs(all.unindexable)));
+  all.upserts.push(...(await buildDocs(all.unindexable)));
   return { docs: all.upserts, unindexable: all.unindexable };
 }

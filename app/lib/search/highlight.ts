@@ -8,6 +8,7 @@ export const KIND_LABELS: Record<string, string> = {
   mark: "Marks in recordings",
   reading: "Readings",
   recording: "Recordings",
+  build: "Builds",
   test_record: "Test records",
   caption: "Said in recordings",
 };

@@ -8,6 +8,8 @@ import { PageHeader } from "~/components/page";
 import { SafetyNote } from "~/components/test-records/parts";
 import { ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
 import { requirePermission } from "~/lib/auth.server";
+import { buildChoices, getBuildByNumber } from "~/lib/builds/builds.server";
+import { workOrderNumber } from "~/lib/builds/form";
 import { domainFailure } from "~/lib/domain-error.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { newRecordSchema, parseRecordForm } from "~/lib/test-records/form";
@@ -23,7 +25,11 @@ import { flashKindOf, recordVerdictText } from "~/lib/test-records/labels";
 
 export const meta: Route.MetaFunction = () => [{ title: "File a test record · Benchreel" }];
 
-const filingSearch = z.object({ procedure: optionalSearch(slugSchema), recording: optionalSearch(uuid) });
+const filingSearch = z.object({
+  procedure: optionalSearch(slugSchema),
+  recording: optionalSearch(uuid),
+  build: optionalSearch(workOrderNumber),
+});
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requirePermission(request, "testrecord:create");
@@ -32,7 +38,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   const recordingId = q.recording ?? null;
   const recording = recordingId ? await recordingForFiling(recordingId) : null;
   if (recordingId && !recording) throw data({ message: "That recording does not exist." }, { status: 404 });
-  if (!slug) return { filing: null, options: await publishedProcedureOptions(), recording, today: new Date().toISOString().slice(0, 10) };
+  const today = new Date().toISOString().slice(0, 10);
+  const build = q.build ?? "";
+  if (!slug) return { filing: null, options: await publishedProcedureOptions(), recording, today, build, builds: [] };
   const f = await procedureForFiling(slug);
   if (!f)
     throw data({ message: "No published procedure by that name: a test record is filed against a published revision." }, { status: 404 });
@@ -44,7 +52,10 @@ export async function loader({ request }: Route.LoaderArgs) {
     },
     options: [],
     recording,
-    today: new Date().toISOString().slice(0, 10),
+    today,
+    build,
+    // The record is attached to a build by choosing it (the form posts its work order number).
+    builds: await buildChoices(),
   };
 }
 
@@ -55,8 +66,25 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = parseRecordForm(newRecordSchema, form, specs, "Type at least one reading: the verdict is computed from them.");
   if (!parsed.ok) return data({ errors: parsed.errors, values: parsed.values }, { status: 400 });
   const d = parsed.data;
+  // Old clients post the work order as text: it must name a build, whose number and serial the record takes.
+  const build = await getBuildByNumber(d.workOrder);
+  if (!build)
+    return data(
+      {
+        errors: { workOrder: `No build has the work order ${d.workOrder}: open the build first (Builds, Open a build).` },
+        values: parsed.values,
+      },
+      { status: 400 },
+    );
   try {
-    const rec = await createTestRecord(user, { ...d, recordingId: d.recordingId || null, readings: parsed.readings });
+    const rec = await createTestRecord(user, {
+      ...d,
+      workOrder: build.number,
+      buildId: build.id,
+      engineSerial: d.engineSerial || build.engineSerial,
+      recordingId: d.recordingId || null,
+      readings: parsed.readings,
+    });
     return redirectWithFlash(`/test-records/${rec.id}`, {
       kind: flashKindOf(rec.verdict),
       message: `Test record filed for ${d.workOrder}: ${recordVerdictText(rec.verdict, rec.notMeasured)}.`,
@@ -67,7 +95,7 @@ export async function action({ request }: Route.ActionArgs) {
 }
 
 export default function NewTestRecord({ loaderData, actionData }: Route.ComponentProps) {
-  const { filing, options, recording, today } = loaderData;
+  const { filing, options, recording, today, build, builds } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const values: Record<string, string> = actionData?.values ?? {};
   const busy = useNavigation().state === "submitting";
@@ -81,6 +109,7 @@ export default function NewTestRecord({ loaderData, actionData }: Route.Componen
         </PageHeader>
         <Form method="get" className="card max-w-xl space-y-3">
           {recording && <input type="hidden" name="recording" value={recording.id} />}
+          {build && <input type="hidden" name="build" value={build} />}
           {options.length ? (
             <>
               <SelectField label="Procedure" name="procedure" required defaultValue="">
@@ -121,22 +150,24 @@ export default function NewTestRecord({ loaderData, actionData }: Route.Componen
           <div className="sm:col-span-2">
             <Field label="Title" name="title" required defaultValue={v("title", procedure.title)} error={errors.title} />
           </div>
-          <Field
-            label="Work order"
-            name="workOrder"
-            required
-            placeholder="LEW-24-0117"
-            defaultValue={v("workOrder")}
-            error={errors.workOrder}
-            hint="As on the job card, e.g. LEW-24-0117."
-            className="field num uppercase"
-            autoComplete="off"
-          />
+          <SelectField label="Build (work order)" name="workOrder" required defaultValue={v("workOrder", build)} error={errors.workOrder}>
+            <option value="">Choose the build…</option>
+            {/* What an old client typed stays in view, beside its error, when no build has it. */}
+            {v("workOrder") && !builds.some((b) => b.number === v("workOrder")) && (
+              <option value={v("workOrder")}>{v("workOrder")} (no such build)</option>
+            )}
+            {builds.map((b) => (
+              <option key={b.id} value={b.number}>
+                {b.label}
+              </option>
+            ))}
+          </SelectField>
           <Field
             label="Engine serial"
             name="engineSerial"
             defaultValue={v("engineSerial")}
             error={errors.engineSerial}
+            hint="Left empty, the build's serial is used."
             autoComplete="off"
           />
           <Field

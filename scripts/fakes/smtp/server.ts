@@ -20,6 +20,8 @@ export type StoredMessage = {
   text: string;
   html: string;
   links: string[];
+  /** Files the message carried (a build sheet's PDF), with their bytes in base64. */
+  attachments: { filename: string; contentType: string; size: number; contentBase64: string }[];
 };
 
 export function extractLinks(text: string, html: string): string[] {
@@ -64,6 +66,12 @@ export async function startSmtpFake(opts: { smtpPort: number; controlPort?: numb
               text,
               html,
               links: extractLinks(text, html),
+              attachments: parsed.attachments.map((a) => ({
+                filename: a.filename ?? "",
+                contentType: a.contentType,
+                size: a.size,
+                contentBase64: a.content.toString("base64"),
+              })),
             };
             const name = `${Date.now().toString().padStart(15, "0")}-${String(seq++).padStart(6, "0")}.json`;
             await writeFile(path.join(opts.dir, name), JSON.stringify(msg, null, 2));

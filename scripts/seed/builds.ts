@@ -1,0 +1,162 @@
+// Demo builds for Larkspur Engine Works (invented): one per work order the demo test records
+// name. LEW-24-0117 is delivered with a full build sheet, LEW-24-0118 is on the bench, LEW-24-0119
+// has main 3 out of spec, LEW-24-0121 is finished. Customers and addresses are made up
+// (.example). Runs after the test records and recordings: it links them by work order number
+// and the demo recording by its id. Idempotent (by number; links only rows not yet linked).
+import { and, eq, isNull } from "drizzle-orm";
+import type { NodePgDatabase } from "drizzle-orm/node-postgres";
+import { buildEvents, builds, marks, recordings, testRecords } from "../../app/db/schema";
+import { DEMO_ID } from "./recordings";
+
+type Db = NodePgDatabase<Record<string, unknown>>;
+type Status = "open" | "on_bench" | "finished" | "delivered";
+
+type DemoBuild = {
+  number: string;
+  customerName: string;
+  customerContact: string;
+  engine: string;
+  engineSerial: string;
+  boreMm: [value: number, decimals: number];
+  strokeMm: [value: number, decimals: number];
+  notes: string;
+  lead: string;
+  receivedDaysAgo: number;
+  promisedDaysAhead: number;
+  /** Each status the build went through after Open, with how many days ago. */
+  moves: [Status, number][];
+};
+
+const DEMO_BUILDS: DemoBuild[] = [
+  {
+    number: "LEW-24-0117",
+    customerName: "Wren Valley Rally Club",
+    customerContact: "workshop@wrenvalley.example",
+    engine: "Inline four, 2.3 L, iron block, turbocharged, forged pistons",
+    engineSerial: "LX23-0412",
+    boreMm: [96.0, 2],
+    strokeMm: [79.5, 2],
+    notes: "Stage rally engine. Bored to the first oversize, torque-plate honed, forged 2618 pistons, head studs in place of bolts.",
+    lead: "demo-marcus",
+    receivedDaysAgo: 16,
+    promisedDaysAhead: -1,
+    moves: [
+      ["on_bench", 12],
+      ["finished", 2],
+      ["delivered", 1],
+    ],
+  },
+  {
+    number: "LEW-24-0118",
+    customerName: "Hollis Boatyard",
+    customerContact: "engines@hollisboatyard.example",
+    engine: "Inline four, 2.3 L, iron block, marine conversion",
+    engineSerial: "LX23-0415",
+    boreMm: [96.0, 2],
+    strokeMm: [79.5, 2],
+    notes: "Raw-water cooled; head studs and gasket replaced after overheating.",
+    lead: "demo-marcus",
+    receivedDaysAgo: 10,
+    promisedDaysAhead: 6,
+    moves: [["on_bench", 8]],
+  },
+  {
+    number: "LEW-24-0119",
+    customerName: "A. Brennan",
+    customerContact: "+44 1632 960 118",
+    engine: "Inline four, 2.3 L, iron block, naturally aspirated",
+    engineSerial: "LX23-0419",
+    boreMm: [96.0, 2],
+    strokeMm: [79.5, 2],
+    notes: "Spun bearing on main 3. Crank to be checked for journal size before the shells are chosen.",
+    lead: "demo-tomas",
+    receivedDaysAgo: 7,
+    promisedDaysAhead: 10,
+    moves: [["on_bench", 6]],
+  },
+  {
+    number: "LEW-24-0121",
+    customerName: "Kestrel Lane Motors",
+    customerContact: "parts@kestrellane.example",
+    engine: "Air-cooled flat four, 2.0 L",
+    engineSerial: "AC-1974-0088",
+    boreMm: [94.0, 1],
+    strokeMm: [71.0, 1],
+    notes: "Full rebuild with new 94 mm barrels and 4032 pistons.",
+    lead: "demo-marcus",
+    receivedDaysAgo: 6,
+    promisedDaysAhead: 2,
+    moves: [
+      ["on_bench", 5],
+      ["finished", 1],
+    ],
+  },
+];
+
+const ago = (days: number) => new Date(Date.now() - days * 86_400_000);
+const isoDay = (daysAgo: number) => ago(daysAgo).toISOString().slice(0, 10);
+
+export async function seedBuilds(db: Db): Promise<number> {
+  let added = 0;
+  for (const d of DEMO_BUILDS) {
+    let [b] = await db.select().from(builds).where(eq(builds.number, d.number));
+    if (!b) {
+      const last = d.moves.at(-1);
+      const finished = d.moves.find(([s]) => s === "finished");
+      const delivered = d.moves.find(([s]) => s === "delivered");
+      [b] = await db
+        .insert(builds)
+        .values({
+          number: d.number,
+          customerName: d.customerName,
+          customerContact: d.customerContact,
+          engine: d.engine,
+          engineSerial: d.engineSerial,
+          boreM: d.boreMm[0] / 1000,
+          boreUnit: "mm",
+          boreDecimals: d.boreMm[1],
+          strokeM: d.strokeMm[0] / 1000,
+          strokeUnit: "mm",
+          strokeDecimals: d.strokeMm[1],
+          notes: d.notes,
+          leadBuilderId: d.lead,
+          status: last?.[0] ?? "open",
+          receivedOn: isoDay(d.receivedDaysAgo),
+          promisedOn: isoDay(-d.promisedDaysAhead),
+          finishedAt: finished ? ago(finished[1]) : null,
+          deliveredAt: delivered ? ago(delivered[1]) : null,
+          createdBy: d.lead,
+          createdAt: ago(d.receivedDaysAgo),
+          updatedAt: ago(last?.[1] ?? d.receivedDaysAgo),
+        })
+        .returning();
+      let from: Status = "open";
+      await db.insert(buildEvents).values([
+        { buildId: b.id, kind: "created", detail: { customer: d.customerName }, actorId: d.lead, at: ago(d.receivedDaysAgo) },
+        ...d.moves.map(([to, days]) => {
+          const e = { buildId: b.id, kind: "status", detail: { from, to }, actorId: d.lead, at: ago(days) };
+          from = to;
+          return e;
+        }),
+      ]);
+      added++;
+    }
+    await db
+      .update(testRecords)
+      .set({ buildId: b.id })
+      .where(and(eq(testRecords.workOrder, d.number), isNull(testRecords.buildId)));
+  }
+  // The demo recording was titled with its work order before builds held it.
+  const [first] = await db.select().from(builds).where(eq(builds.number, "LEW-24-0117"));
+  if (first) {
+    await db
+      .update(recordings)
+      .set({ buildId: first.id })
+      .where(and(eq(recordings.id, DEMO_ID), isNull(recordings.buildId)));
+    await db
+      .update(marks)
+      .set({ buildId: first.id })
+      .where(and(eq(marks.recordingId, DEMO_ID), isNull(marks.buildId)));
+  }
+  return added;
+}
