@@ -21,7 +21,8 @@ const config: KnipConfig = {
   // An export that its own module uses is not dead code.
   ignoreExportsUsedInFile: true,
   // Debian's tools, called by the scripts that start PostgreSQL and measure processes.
-  ignoreBinaries: ["runuser", "ss"],
+  // pdftotext and pdfinfo: Debian's poppler-utils, with which the builds test reads the build sheet PDF.
+  ignoreBinaries: ["runuser", "ss", "pdftotext", "pdfinfo"],
   // React Router generates the route modules' `./+types/…` at typecheck, which runs after this phase: a fresh clone has none yet.
   ignoreUnresolved: [/\+types\//],
   compilers: {

@@ -45,11 +45,13 @@ function aptInstall(pkgs) {
 }
 
 /** Installs Debian's packages for whichever of the named tools are missing. */
-export function ensureDebianTools({ postgres = true, ffmpeg = true, chromium = false } = {}) {
+// poppler-utils goes with the services: the builds test reads the build sheet PDF's text and paper with pdftotext and pdfinfo.
+export function ensureDebianTools({ postgres = true, ffmpeg = true, chromium = false, poppler = ffmpeg } = {}) {
   const missing = [];
   if (postgres && !fs.existsSync(path.join(PG_BIN, "postgres"))) missing.push("postgresql");
   if (ffmpeg && !fs.existsSync("/usr/bin/ffprobe")) missing.push("ffmpeg");
   if (chromium && !fs.existsSync("/usr/bin/chromium")) missing.push("chromium");
+  if (poppler && !fs.existsSync("/usr/bin/pdftotext")) missing.push("poppler-utils");
   if (missing.length) aptInstall(missing);
 }
 
