@@ -72,7 +72,7 @@ test("captions given at upload: the transcript follows playback, a line plays fr
   await expect(words).toBeFocused();
   await words.fill(`Moly on the threads for the ${token} job.`);
   await transcript.getByRole("button", { name: "Save correction" }).click();
-  const second = transcript.locator("li").filter({ hasText: `Moly on the threads for the ${token} job.` });
+  const second = transcript.locator("li[data-cue-id]").filter({ hasText: `Moly on the threads for the ${token} job.` });
   await expect(second).toContainText("Corrected by Marcus Lind");
 
   // The header search finds the corrected word, and its hit opens the player at the line's second.
