@@ -247,10 +247,8 @@ export function RunScreen({ view, canWork, actionData }: Props) {
       {step ? (
         <section aria-labelledby="step-h" className="card mt-4 space-y-5 p-5" data-testid="run-step" data-step={stepAt}>
           <h2 id="step-h" className="text-xl">
-            <span className="num text-graphite-soft">
-              {stepAt + 1}/{steps.length}
-            </span>{" "}
             {stepTitle(step)}
+            <span className="num block text-sm font-normal text-graphite-soft">{`Screen ${stepAt + 1} of ${steps.length}`}</span>
           </h2>
           {step.cautions.length > 0 && (
             <div className="rounded-md border border-l-[6px] border-brass bg-brass-soft px-4 py-3" role="note" aria-label="Caution">
