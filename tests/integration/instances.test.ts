@@ -131,8 +131,12 @@ describe("two app instances, two workers, one database and one store", () => {
       uploads.map(async (u, i) => (await patch(i ? b : a, u, 0, clips[i])).headers.get("benchreel-recording") ?? ""),
     );
     for (const id of ids) expect((await waitReady(a, id)).state).toBe("ready");
-    const logs = stack.workerLogs.map((f) => fs.readFileSync(f, "utf8"));
-    const whoDid = ids.map((id) => logs.findIndex((log) => log.includes(`[recordings] ${id}: ready`)));
+    // "Ready" is written a moment before the worker logs which job it finished.
+    const whoDid = await waitFor(async () => {
+      const logs = stack.workerLogs.map((f) => fs.readFileSync(f, "utf8"));
+      const found = ids.map((id) => logs.findIndex((log) => log.includes(`[recordings] ${id}: ready`)));
+      return found.every((i) => i >= 0) ? found : null;
+    });
     expect(new Set(whoDid)).toEqual(new Set([0, 1]));
   }, 180_000);
 
@@ -153,8 +157,10 @@ describe("two app instances, two workers, one database and one store", () => {
     process.kill(owner, "SIGKILL");
     const other = pids.indexOf(owner) === 0 ? 1 : 0;
     expect((await waitReady(b, id, 150_000)).state).toBe("ready");
-    const log = fs.readFileSync(stack.workerLogs[other], "utf8");
+    const log = await waitFor(async () => {
+      const text = fs.readFileSync(stack.workerLogs[other], "utf8");
+      return text.includes(`[recordings] ${id}: ready`) ? text : null;
+    });
     expect(log).toMatch(/took over 1 job/);
-    expect(log).toContain(`[recordings] ${id}: ready`);
   }, 240_000);
 });
