@@ -27,7 +27,9 @@ try {
   const b = await seedBuilds(db);
   console.log(`[seed] demo builds: ${b ? `${b} added` : "already there"}`);
   const ru = await seedRuns(db);
-  console.log(`[seed] demo runs: ${ru === "skipped" ? "skipped (no demo procedure or build on the bench)" : ru ? `${ru} added` : "already there"}`);
+  console.log(
+    `[seed] demo runs: ${ru === "skipped" ? "skipped (no demo procedure or build on the bench)" : ru ? `${ru} added` : "already there"}`,
+  );
 } finally {
   await pool.end();
 }

@@ -9,6 +9,8 @@ import { captionCues, captionEdits, captionSources, procedureRevisions, procedur
 import { waitFor } from "../support/app";
 import { fitNutFactor } from "~/lib/calc";
 import { db } from "~/lib/db.server";
+import { getBuildByNumber } from "~/lib/builds/builds.server";
+import { listRunsForBuild } from "~/lib/runs/runs.server";
 import { walk, type JSONNode } from "~/lib/procedures/document";
 
 const DEMO_RECORDING = "5eed0000-0000-4000-8000-00000000c1a9";
@@ -70,5 +72,14 @@ describe("demo scenario: what is said in the recordings (issue 17)", () => {
     expect(cues[0]).toMatchObject({ startS: 0.8, endS: 4, text: "Zeroing the bore gauge in the mic first, at the nominal size." });
     const [source] = await db().select().from(captionSources).where(eq(captionSources.recordingId, BORE_CLIP));
     expect(source.kind).toBe("embedded");
+  });
+
+  it("the build on the bench has the demo's open run, partway through the head studs procedure", async () => {
+    const build = await getBuildByNumber("LEW-24-0118");
+    expect(build?.status).toBe("on_bench");
+    const run = (await listRunsForBuild(build!.id)).find((r) => r.id === "5eed0000-0000-4000-8000-00000000a001");
+    expect(run).toMatchObject({ status: "open", procedureSlug: STUDS_SLUG, startedByName: "Marcus Lind" });
+    expect(run!.measured).toBeGreaterThan(0);
+    expect(run!.measured).toBeLessThan(run!.total);
   });
 });

@@ -303,5 +303,10 @@ describe("runs", () => {
       .from(runs)
       .where(and(eq(runs.buildId, build.id), eq(runs.status, "open")));
     expect(rows).toHaveLength(2);
+    // The build page shows each one's progress.
+    const page = await (await http(`/builds/${build.number}`, { cookie: apprentice.cookie })).text();
+    expect(page).toContain(`href="/runs/${a}"`);
+    expect(page).toContain(`href="/runs/${b}"`);
+    expect(page.match(/data-testid="run-row-progress">(\d+)(?:<!-- -->)? of (?:<!-- -->)?(\d+)/g)?.length).toBe(2);
   });
 });

@@ -12,6 +12,8 @@ import { buildOr404 } from "~/lib/builds/builds.server";
 import { mailSheetSchema, reopenSchema, statusSchema } from "~/lib/builds/form";
 import { mailBuildSheet } from "~/lib/builds/mail.server";
 import { buildPage } from "~/lib/builds/page.server";
+import { BuildRuns } from "~/components/runs/RunList";
+import { listRunsForBuild } from "~/lib/runs/runs.server";
 import { BUILD_STATUS_LABELS, canReopen, nextStatus } from "~/lib/builds/status";
 import { moveBuild, reopenBuild } from "~/lib/builds/write.server";
 import { CALC_CAUTION } from "~/lib/calc-kinds";
@@ -29,7 +31,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { number } = await buildOr404(request, params);
   const page = await buildPage(number);
   if (!page) notFound(request, "build");
-  return { ...page, canWrite: can(user.role, "builds:write") };
+  return {
+    ...page,
+    canWrite: can(user.role, "builds:write"),
+    runs: await listRunsForBuild(page.build.id),
+    canRun: can(user.role, "run:work"),
+  };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -183,7 +190,7 @@ export default function BuildPage({ loaderData, actionData }: Route.ComponentPro
           ) : (
             <p className="mt-1 text-sm text-graphite-soft">No test record of this build is missing a spec.</p>
           )}
-          {/* OPEN RUNS: the runs helper lists this build's open runs (who, procedure, progress) here. */}
+          <BuildRuns rows={loaderData.runs} buildNumber={build.number} canStart={loaderData.canRun && build.status !== "delivered"} />
         </section>
 
         <RecordsByProcedure records={records} />
