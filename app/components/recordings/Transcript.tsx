@@ -148,10 +148,12 @@ function TranscriptLine({
       {editing ? (
         <CorrectLine recordingId={recordingId} cue={cue} onDone={() => onEdit(false)} />
       ) : (
-        <div className="flex items-start gap-1 pr-2">
+        // The actions sit beside the words where there is room (the tablet's full width) and
+        // below them in the narrow column beside the player, so the words keep their width.
+        <div className="flex flex-wrap items-start gap-x-1 pr-2">
           <button
             type="button"
-            className="flex min-h-11 flex-1 items-baseline gap-3 px-3 py-2 text-left hover:bg-paper lg:min-h-0"
+            className="flex min-h-11 min-w-[15rem] flex-1 items-baseline gap-3 px-3 py-2 text-left hover:bg-paper lg:min-h-0"
             onClick={() => onSeek(cue.start)}
             aria-label={`Play the line at ${formatTime(cue.start)}: ${cue.text}`}
             data-testid="transcript-line"
@@ -159,37 +161,41 @@ function TranscriptLine({
             <span className="num shrink-0 font-mono text-xs text-teal">{formatTime(cue.start)}</span>
             <span className="whitespace-pre-line font-serif text-[0.95rem] leading-snug">{cue.text}</span>
           </button>
-          {canMark && (
-            <button
-              type="button"
-              className="btn mt-1 px-2 py-1 text-xs"
-              disabled={mark.state !== "idle" || Boolean(marked)}
-              onClick={() =>
-                mark.submit(
-                  {
-                    tStart: cue.start,
-                    tEnd: durationS != null ? Math.min(cue.end, durationS) : cue.end,
-                    text: cue.text.replace(/\n/g, " ").slice(0, 500),
-                    tags: [],
-                    procedureId: null,
-                  },
-                  { method: "POST", action: `/api/recordings/${recordingId}/marks`, encType: "application/json" },
-                )
-              }
-              aria-label={`Make a mark from the line at ${formatTime(cue.start)}`}
-            >
-              {marked ? "Marked" : "Mark"}
-            </button>
-          )}
-          {canEdit && (
-            <button
-              type="button"
-              className="btn mt-1 px-2 py-1 text-xs"
-              onClick={() => onEdit(true)}
-              aria-label={`Correct the line at ${formatTime(cue.start)}`}
-            >
-              Correct
-            </button>
+          {(canMark || canEdit) && (
+            <span className="ml-auto flex gap-1 pb-1.5 pl-3 pt-1">
+              {canMark && (
+                <button
+                  type="button"
+                  className="btn px-2 py-1 text-xs"
+                  disabled={mark.state !== "idle" || Boolean(marked)}
+                  onClick={() =>
+                    mark.submit(
+                      {
+                        tStart: cue.start,
+                        tEnd: durationS != null ? Math.min(cue.end, durationS) : cue.end,
+                        text: cue.text.replace(/\n/g, " ").slice(0, 500),
+                        tags: [],
+                        procedureId: null,
+                      },
+                      { method: "POST", action: `/api/recordings/${recordingId}/marks`, encType: "application/json" },
+                    )
+                  }
+                  aria-label={`Make a mark from the line at ${formatTime(cue.start)}`}
+                >
+                  {marked ? "Marked" : "Mark"}
+                </button>
+              )}
+              {canEdit && (
+                <button
+                  type="button"
+                  className="btn px-2 py-1 text-xs"
+                  onClick={() => onEdit(true)}
+                  aria-label={`Correct the line at ${formatTime(cue.start)}`}
+                >
+                  Correct
+                </button>
+              )}
+            </span>
           )}
         </div>
       )}
