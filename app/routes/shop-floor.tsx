@@ -35,6 +35,12 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
   const { user, review, returned } = loaderData;
   const first = user.name.split(" ")[0];
   const tiles: Tile[] = [
+    {
+      to: "/builds",
+      title: "Builds",
+      body: "Every engine job by work order: its records, readings and sheet.",
+      show: can(user.role, "builds:read"),
+    },
     { to: "/procedures", title: "Procedures", body: "How each job is done and why, with its specs.", show: true },
     { to: "/recordings", title: "Recordings", body: "Bench-test and procedure videos with marks and readings.", show: true },
     { to: "/test-records", title: "Test records", body: "QC results filed against the procedure in force.", show: true },

@@ -93,6 +93,7 @@ function fill(path: string, p: Params): string {
   if (path === "/reset/:token") return p.reset;
   if (path === "/procedures/:slug/r/:number/edit") return `/procedures/${p.draftSlug}/r/1/edit`;
   if (path === "/procedures/:slug/compare") return `/procedures/${STUDS}/compare?from=2&to=3`;
+  if (path.startsWith("/builds/:number")) return path.replace(":number", "LEW-24-0117");
   const filled = path
     .replace(":slug", STUDS)
     .replace(":number", "2")

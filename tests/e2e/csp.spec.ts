@@ -162,6 +162,9 @@ test("every screen works under the policy: player, editor, charts, search, admin
   }
   await visit("/test-records", () => expect(page.getByRole("heading", { level: 1 })).toBeVisible());
   await visit("/test-records/new", () => expect(page.getByRole("heading", { level: 1 })).toBeVisible());
+  await visit("/builds", () => expect(page.getByRole("heading", { level: 1 })).toBeVisible());
+  await visit("/builds/LEW-24-0117", () => expect(page.getByTestId("timeline-entry").first()).toBeVisible());
+  await visit("/builds/LEW-24-0117/sheet", () => expect(page.getByTestId("build-sheet")).toBeVisible());
   await visit("/search?q=head+stud", () => expect(page.getByTestId("search-result").first()).toBeVisible());
   await visit("/search/words", () => expect(page.getByRole("heading", { level: 1 })).toBeVisible());
   await visit("/admin/people", () => expect(page.getByRole("heading", { level: 1 })).toBeVisible());

@@ -23,6 +23,9 @@ const SCREENS: Screen[] = [
   { name: "search-dropdown", path: "/", as: "jamie@larkspur.example", type: "head stud torque" },
   { name: "search-words", path: "/search/words", as: "priya@larkspur.example" },
   { name: "search-empty-editor", path: "/search", as: "priya@larkspur.example" },
+  { name: "builds", path: "/builds", as: "marcus@larkspur.example" },
+  { name: "build-out-of-spec", path: "/builds/LEW-24-0119", as: "jamie@larkspur.example" },
+  { name: "build-sheet", path: "/builds/LEW-24-0117/sheet", as: "tomas@larkspur.example" },
   ...(process.env.SCREENS_EXTRA ? (JSON.parse(process.env.SCREENS_EXTRA) as Screen[]) : []),
 ];
 

@@ -505,7 +505,7 @@ describe("the cases the outside testers found", () => {
     const base = {
       revisionId,
       title: "Bore check",
-      workOrder: "LEW-24-1234",
+      workOrder: "BADIN-24-0001",
       engineSerial: "X1",
       [`r.${specId}.0.value`]: "88",
       [`r.${specId}.0.unit`]: "mm",
@@ -570,7 +570,7 @@ describe("the cases the outside testers found", () => {
       form: {
         revisionId,
         title: "Bore check",
-        workOrder: "LEW-24-1234",
+        workOrder: "BADIN-24-0001",
         testedOn: "2024-02-29",
         [`r.${specId}.0.value`]: "1e308",
         [`r.${specId}.0.unit`]: "mm",

@@ -225,6 +225,25 @@ describe("builds", () => {
     expect((await http(`/builds/${number}`, { cookie: apprentice.cookie, form: { intent: "status", to: "finished" } })).status).toBe(403);
   });
 
+  it("a build is found by search on its number, customer, serial and engine", async () => {
+    const qc = await createUser("qc");
+    const serial = `SRCH${randomUUID().slice(0, 6).toUpperCase()}`;
+    const number = await openBuild(qc.cookie, {
+      engineSerial: serial,
+      customerName: "Marlowe Quarry Plant",
+      engine: "Twin-cylinder pump engine",
+    });
+    for (const q of [serial, number, "Marlowe Quarry", "pump engine"]) {
+      const hit = await waitFor(async () => {
+        const body = (await (await http(`/api/search?q=${encodeURIComponent(q)}`, { cookie: qc.cookie })).json()) as {
+          hits: { kind: string; url: string }[];
+        };
+        return body.hits.find((h) => h.kind === "build" && h.url === `/builds/${number}`);
+      }, 30_000);
+      expect(hit).toBeTruthy();
+    }
+  });
+
   it("bad build input is answered on its fields", async () => {
     const qc = await createUser("qc");
     const res = await http("/builds/new", {
@@ -359,5 +378,13 @@ describe("builds", () => {
       .from(testRecords)
       .where(and(eq(testRecords.buildId, by["LEW-24-0119"].id), eq(testRecords.verdict, "out")));
     expect(out).toHaveLength(1);
+    // Its sheet shows the loose main as typed, and the limits in words the PDF's fonts can draw.
+    const apprentice = await createUser("apprentice");
+    const pdf = Buffer.from(await (await http("/builds/LEW-24-0119/sheet.pdf", { cookie: apprentice.cookie })).arrayBuffer());
+    const file = path.join(os.tmpdir(), `sheet-0119-${randomUUID().slice(0, 6)}.pdf`);
+    fs.writeFileSync(file, pdf);
+    const text = execFileSync("pdftotext", ["-layout", file, "-"]).toString();
+    fs.rmSync(file);
+    expect(text).toMatch(/journal 3\s+0\.071 mm\s+0\.04 – 0\.065 mm|journal 3\s+0\.071 mm\s+above max/);
   });
 });

@@ -69,7 +69,7 @@ export function OutOfSpecList({ items }: { items: BuildPage["outOfSpec"] }) {
               {items.map((o) => (
                 <tr key={o.reading.id} className="border-t border-rule/60">
                   <td className="py-1 pr-3 font-sans font-semibold">{o.spec.label}</td>
-                  <td className="pr-3 font-sans">{o.where || "—"}</td>
+                  <td className="whitespace-nowrap pr-3 font-sans">{o.where || "—"}</td>
                   <td className="whitespace-nowrap pr-3 text-right font-semibold text-spec-red">
                     {typedReadingText(o.reading)} ({o.reading.verdict === "below" ? "below" : "above"})
                   </td>

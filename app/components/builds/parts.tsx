@@ -32,7 +32,9 @@ export function CountsLine({ counts }: { counts: { records: number; out: number;
       )}
       {counts.out > 0 && counts.incomplete > 0 && " · "}
       {counts.incomplete > 0 && <span className="text-brass">{counts.incomplete} incomplete</span>}
-      {!counts.out && !counts.incomplete && <span className="text-ok">all {counts.records} within spec</span>}
+      {!counts.out && !counts.incomplete && (
+        <span className="text-ok">{counts.records === 1 ? "1 within spec" : `all ${counts.records} within spec`}</span>
+      )}
     </span>
   );
 }

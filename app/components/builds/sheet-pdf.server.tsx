@@ -35,6 +35,9 @@ function registerFonts() {
   fontsRegistered = true;
 }
 
+/** The limits in words the fonts' Latin files can draw (they have no ≤ or ≥). */
+const pdfLimits = (spec: Parameters<typeof limitsText>[0]) => limitsText(spec).replace(/^≤ /, "max ").replace(/^≥ /, "min ");
+
 const GRAPHITE = "#2b2925";
 const SOFT = "#6b655b";
 const RULE = "#d9d1c3";
@@ -61,6 +64,8 @@ const s = StyleSheet.create({
   limits: { width: "20%", paddingRight: 4 },
   verdict: { width: "13%" },
   out: { color: RED, fontWeight: 600 },
+  // Figures stay in the regular face: the semibold file's digits went missing from the PDF's text and page.
+  outValue: { color: RED },
   caution: { fontFamily: "Lora", fontStyle: "italic", fontSize: 8, color: SOFT, marginTop: 4 },
   footer: {
     position: "absolute",
@@ -127,7 +132,7 @@ function BuildSheetDocument({ page, paper }: { page: BuildPage; paper: SheetPape
                     <Text style={s.spec}>{spec.label}</Text>
                     <Text style={s.where}>—</Text>
                     <Text style={[s.value, { color: BRASS }]}>not measured</Text>
-                    <Text style={s.limits}>{limitsText(spec)}</Text>
+                    <Text style={s.limits}>{pdfLimits(spec)}</Text>
                     <Text style={s.verdict}>—</Text>
                   </View>
                 );
@@ -137,7 +142,7 @@ function BuildSheetDocument({ page, paper }: { page: BuildPage; paper: SheetPape
                   <View key={r.id} style={s.row} wrap={false}>
                     <Text style={s.spec}>{i === 0 ? spec.label : ""}</Text>
                     <Text style={s.where}>{positionText(r, ", ") || "—"}</Text>
-                    <Text style={[s.value, bad ? s.out : {}]}>{typedReadingText(r)}</Text>
+                    <Text style={[s.value, bad ? s.outValue : {}]}>{typedReadingText(r)}</Text>
                     <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
                     <Text style={[s.verdict, bad ? s.out : {}]}>{READING_VERDICT_LABELS[r.verdict]}</Text>
                   </View>
