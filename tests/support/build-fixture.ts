@@ -5,7 +5,7 @@ import pg from "pg";
  * attached to a build by choosing it), made straight in the database. Returns its number.
  */
 export async function makeBuild(
-  number = `E2E-${String(10 + Math.floor(Math.random() * 89))}-${10_000 + Math.floor(Math.random() * 89_999)}`,
+  number = `BRW-${String(10 + Math.floor(Math.random() * 89))}-${10_000 + Math.floor(Math.random() * 89_999)}`,
 ) {
   const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
   await client.connect();
