@@ -283,6 +283,8 @@ describe("runs", () => {
     expect((await photosForTestRecord(recordId!)).map((p) => p.id)).toEqual(photos.map((p) => p.id));
     const recordPage = await http(`/test-records/${recordId}`, { cookie: apprentice.cookie });
     expect(await recordPage.text()).toContain(`src="${url}"`);
+    const buildPage = await http(`/builds/${build.number}`, { cookie: apprentice.cookie });
+    expect(await buildPage.text()).toContain(`src="${url}"`);
   });
 
   it("lets several runs be open on one build at once", async () => {

@@ -94,13 +94,19 @@ export function RunPhotos({
 }
 
 /** A run's photos on the test record it filed (and the build's pages): spec by spec, each opening full size. */
-export function RunPhotoGallery({ photos }: { photos: Pick<RunPhoto, "id" | "url" | "specKey" | "specLabel" | "takenByName">[] }) {
+export function RunPhotoGallery({
+  photos,
+  title = "Photos taken during the run",
+}: {
+  photos: Pick<RunPhoto, "id" | "url" | "specKey" | "specLabel" | "takenByName">[];
+  title?: string;
+}) {
   const bySpec = new Map<string, typeof photos>();
   for (const p of photos) bySpec.set(p.specLabel, [...(bySpec.get(p.specLabel) ?? []), p]);
   return (
     <section className="card" aria-labelledby="run-photos-h" data-testid="run-photos">
       <h2 id="run-photos-h" className="text-lg">
-        Photos taken during the run
+        {title}
       </h2>
       {[...bySpec].map(([label, list]) => (
         <div key={label} className="mt-2">

@@ -403,37 +403,39 @@ export type RunPhoto = {
 
 const photoUrl = (runId: string, id: string) => `/api/runs/${runId}/photos/${id}`;
 
-/** A run's photos, spec by spec, with the address that serves each (for the run, its record and the build sheet). */
-export async function listRunPhotos(runId: string): Promise<RunPhoto[]> {
-  if (!isId(runId)) return [];
-  const rows = await db()
+function photosWhere(where: ReturnType<typeof eq>): Promise<RunPhoto[]> {
+  return db()
     .select({ p: runPhotos, label: procedureSpecs.label, by: users.name })
     .from(runPhotos)
+    .innerJoin(runs, eq(runs.id, runPhotos.runId))
     .innerJoin(procedureSpecs, eq(procedureSpecs.id, runPhotos.specId))
     .leftJoin(users, eq(users.id, runPhotos.takenBy))
-    .where(eq(runPhotos.runId, runId))
-    .orderBy(asc(procedureSpecs.position), asc(runPhotos.createdAt));
-  return rows.map(({ p, label, by }) => ({
-    id: p.id,
-    runId: p.runId,
-    specKey: p.specKey,
-    specLabel: label,
-    url: photoUrl(p.runId, p.id),
-    takenByName: by,
-    createdAt: p.createdAt,
-  }));
+    .where(where)
+    .orderBy(asc(runs.startedAt), asc(procedureSpecs.position), asc(runPhotos.createdAt))
+    .then((rows) =>
+      rows.map(({ p, label, by }) => ({
+        id: p.id,
+        runId: p.runId,
+        specKey: p.specKey,
+        specLabel: label,
+        url: photoUrl(p.runId, p.id),
+        takenByName: by,
+        createdAt: p.createdAt,
+      })),
+    );
+}
+
+/** A run's photos, spec by spec, with the address that serves each (for the run, its record and the build sheet). */
+export function listRunPhotos(runId: string): Promise<RunPhoto[]> {
+  return isId(runId) ? photosWhere(eq(runPhotos.runId, runId)) : Promise.resolve([]);
 }
 
 /** The photos taken during the run that filed this test record ([] for a record filed by hand). */
-export async function photosForTestRecord(recordId: string): Promise<RunPhoto[]> {
-  if (!isId(recordId)) return [];
-  const [run] = await db().select({ id: runs.id }).from(runs).where(eq(runs.testRecordId, recordId));
-  return run ? listRunPhotos(run.id) : [];
+export function photosForTestRecord(recordId: string): Promise<RunPhoto[]> {
+  return isId(recordId) ? photosWhere(eq(runs.testRecordId, recordId)) : Promise.resolve([]);
 }
 
-/** Every photo of a build's runs, for the build page and sheet. */
-export async function photosForBuild(buildId: string): Promise<RunPhoto[]> {
-  if (!isId(buildId)) return [];
-  const ids = await db().select({ id: runs.id }).from(runs).where(eq(runs.buildId, buildId));
-  return (await Promise.all(ids.map((r) => listRunPhotos(r.id)))).flat();
+/** Every photo of a build's runs, run by run, for the build page and sheet. */
+export function photosForBuild(buildId: string): Promise<RunPhoto[]> {
+  return isId(buildId) ? photosWhere(eq(runs.buildId, buildId)) : Promise.resolve([]);
 }

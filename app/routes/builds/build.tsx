@@ -13,7 +13,8 @@ import { mailSheetSchema, reopenSchema, statusSchema } from "~/lib/builds/form";
 import { mailBuildSheet } from "~/lib/builds/mail.server";
 import { buildPage } from "~/lib/builds/page.server";
 import { BuildRuns } from "~/components/runs/RunList";
-import { listRunsForBuild } from "~/lib/runs/runs.server";
+import { RunPhotoGallery } from "~/components/runs/RunPhotos";
+import { listRunsForBuild, photosForBuild } from "~/lib/runs/runs.server";
 import { BUILD_STATUS_LABELS, canReopen, nextStatus } from "~/lib/builds/status";
 import { moveBuild, reopenBuild } from "~/lib/builds/write.server";
 import { CALC_CAUTION } from "~/lib/calc-kinds";
@@ -35,6 +36,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     ...page,
     canWrite: can(user.role, "builds:write"),
     runs: await listRunsForBuild(page.build.id),
+    photos: await photosForBuild(page.build.id),
     canRun: can(user.role, "run:work"),
   };
 }
@@ -194,6 +196,8 @@ export default function BuildPage({ loaderData, actionData }: Route.ComponentPro
         </section>
 
         <RecordsByProcedure records={records} />
+
+        {loaderData.photos.length > 0 && <RunPhotoGallery photos={loaderData.photos} title="Photos taken during runs" />}
 
         <section className="card space-y-3" aria-labelledby="calcs-h" id="calcs">
           <h2 id="calcs-h" className="text-lg">
