@@ -98,7 +98,8 @@ function fill(path: string, p: Params): string {
     .replace(":slug", STUDS)
     .replace(":number", "2")
     .replace(/^\/recordings\/:id/, `/recordings/${DEMO_RECORDING}`)
-    .replace(/^\/test-records\/:id/, `/test-records/${p.testRecord}`);
+    .replace(/^\/test-records\/:id/, `/test-records/${p.testRecord}`)
+    .replace(/^\/runs\/:id/, "/runs/5eed0000-0000-4000-8000-00000000a001");
   if (filled.includes(":") || filled.includes("*")) throw new Error(`accessibility.spec.ts: no demo value for the params of ${path}`);
   return filled;
 }

@@ -26,6 +26,8 @@ const SCREENS: Screen[] = [
   { name: "builds", path: "/builds", as: "marcus@larkspur.example" },
   { name: "build-out-of-spec", path: "/builds/LEW-24-0119", as: "jamie@larkspur.example" },
   { name: "build-sheet", path: "/builds/LEW-24-0117/sheet", as: "tomas@larkspur.example" },
+  { name: "run-tablet", path: "/runs/5eed0000-0000-4000-8000-00000000a001", as: "marcus@larkspur.example" },
+  { name: "run-start", path: "/runs/start", as: "marcus@larkspur.example" },
   ...(process.env.SCREENS_EXTRA ? (JSON.parse(process.env.SCREENS_EXTRA) as Screen[]) : []),
 ];
 
