@@ -201,8 +201,10 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
 test("Bore distortion on a record takes each diameter's depth and angle from its place fields; 88.010 stays 88.010", async ({ page }) => {
   const proc = await makeProcedure();
   await signIn(page, "tomas@larkspur.example");
+  // The build first: the form lists the builds there are when it opens.
+  const wo = await makeBuild();
   await page.goto(`/test-records/new?procedure=${proc.slug}`);
-  await page.getByLabel("Build (work order)").selectOption(await makeBuild());
+  await page.getByLabel("Build (work order)").selectOption(wo);
   const bore = page.getByTestId("spec-readings").filter({ hasText: "Bore diameter, plate fitted" });
   const rows: [string, string, string, string][] = [
     ["88.010", "10", "0", "plate on"],

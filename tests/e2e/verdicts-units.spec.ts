@@ -115,8 +115,10 @@ async function makeProcedure(): Promise<{ slug: string }> {
 test("Filing an out-of-spec record confirms it in red; a converted reading shows at the resolution typed", async ({ page }) => {
   const { slug } = await makeProcedure();
   await signIn(page, "tomas@larkspur.example", `/test-records/new`);
+  // The build first: the form lists the builds there are when it opens.
+  const wo = await makeBuild("LEW-24-0911");
   await page.goto(`/test-records/new?procedure=${slug}`);
-  await page.getByLabel("Build (work order)").selectOption(await makeBuild("LEW-24-0911"));
+  await page.getByLabel("Build (work order)").selectOption(wo);
   await page.getByLabel("Head stud final torque reading 1", { exact: true }).fill("90");
   await page.getByLabel("Head stud final torque reading 1 unit", { exact: true }).selectOption("ft.lbf");
   await page.getByRole("button", { name: "File the test record" }).click();
