@@ -140,6 +140,8 @@ test("every screen works under the policy: player, editor, charts, search, admin
   await visit(`${STUDS}/history`, () => expect(page.getByRole("heading", { level: 1 })).toBeVisible());
   await visit(`${STUDS}/compare?from=1&to=2`, () => expect(page.getByRole("heading", { level: 1 })).toBeVisible());
   await visit(`${STUDS}/print`, () => expect(page.locator(".proc-body")).toBeVisible());
+  // The demo's open run (scripts/seed/runs.ts): the run screen with its calculator and the device's queue.
+  await visit("/runs/5eed0000-0000-4000-8000-00000000a001", () => expect(page.getByTestId("save-state")).toBeVisible());
 
   // The player: video.js loads, sizes itself from its class and plays the seeded clip.
   await visit(`/recordings/${DEMO_RECORDING}`, async () => {
