@@ -192,7 +192,17 @@ try {
     // The app's request log and the worker's output go to files; they are printed on failure.
     const appLog = path.join(runDir, "app.log");
     const workerLog = path.join(runDir, "worker.log");
-    spawnChild(process.execPath, [...(process.env.PROF_DIR ? ["--cpu-prof", "--cpu-prof-dir", process.env.PROF_DIR] : []), "server.js", path.join(buildDir, "server/index.js")], env, "app", appLog);
+    spawnChild(
+      process.execPath,
+      [
+        ...(process.env.PROF_DIR ? ["--cpu-prof", "--cpu-prof-dir", process.env.PROF_DIR] : []),
+        "server.js",
+        path.join(buildDir, "server/index.js"),
+      ],
+      env,
+      "app",
+      appLog,
+    );
     startWorkerProcess = async () => {
       // tsx's wrapper ends when its worker does; a new one starts once it has.
       if (worker && worker.exitCode == null && worker.signalCode == null) await new Promise((resolve) => worker.once("exit", resolve));

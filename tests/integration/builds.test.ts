@@ -242,6 +242,12 @@ describe("builds", () => {
       }, 30_000);
       expect(hit).toBeTruthy();
     }
+    // The search page's "Builds" filter asks for builds alone.
+    const only = await http(`/api/search?q=${encodeURIComponent(serial)}&type=build`, { cookie: qc.cookie });
+    expect(only.status).toBe(200);
+    const kinds = ((await only.json()) as { hits: { kind: string }[] }).hits.map((h) => h.kind);
+    expect(kinds.length).toBeGreaterThan(0);
+    expect(new Set(kinds)).toEqual(new Set(["build"]));
   });
 
   it("bad build input is answered on its fields", async () => {

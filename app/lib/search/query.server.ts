@@ -7,7 +7,7 @@ import { can } from "~/lib/permissions";
 import { searchErrorMessage, searchIndex, type SearchKind } from "./client.server";
 import { HL_POST, HL_PRE } from "./highlight";
 
-export const KINDS: SearchKind[] = ["procedure", "spec", "mark", "reading", "recording", "test_record", "caption"];
+export const KINDS: SearchKind[] = ["procedure", "spec", "mark", "reading", "recording", "test_record", "caption", "build"];
 
 export const searchParamsSchema = z.object({
   q: z.string().trim().max(200, "Keep the query under 200 characters.").default(""),
