@@ -1,4 +1,4 @@
-import { useEffect, useRef, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from "react";
+import { useEffect, useRef, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from "react";
 import { useNavigation } from "react-router";
 
 type FieldProps = InputHTMLAttributes<HTMLInputElement> & { label: string; name: string; error?: string; hint?: ReactNode };
@@ -20,6 +20,38 @@ export function Field({ label, name, error, hint, id, ...rest }: FieldProps) {
         {...rest}
       />
       {hint && !error && <p className="mt-1 text-sm text-graphite-soft">{hint}</p>}
+      {error && (
+        <p id={`${fieldId}-error`} className="field-error" role="alert">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+type TextAreaProps = TextareaHTMLAttributes<HTMLTextAreaElement> & {
+  label: string;
+  name: string;
+  error?: string;
+  wrapperClassName?: string;
+};
+
+/** A labelled text area (notes and the like), its error tied to it like Field's. */
+export function TextAreaField({ label, name, error, id, wrapperClassName, ...rest }: TextAreaProps) {
+  const fieldId = id ?? `f-${name}`;
+  return (
+    <div className={wrapperClassName}>
+      <label htmlFor={fieldId} className="label">
+        {label}
+      </label>
+      <textarea
+        id={fieldId}
+        name={name}
+        className="field"
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${fieldId}-error` : undefined}
+        {...rest}
+      />
       {error && (
         <p id={`${fieldId}-error`} className="field-error" role="alert">
           {error}

@@ -7,7 +7,7 @@ describe("permissions", () => {
       .filter(([, roles]) => (roles as readonly string[]).includes("apprentice"))
       .map(([name]) => name)
       .sort();
-    expect(allowed).toEqual(["account:edit-own", "calc:use", "procedure:watch", "search:use", "shop:read"]);
+    expect(allowed).toEqual(["account:edit-own", "builds:read", "calc:use", "procedure:watch", "search:use", "shop:read"]);
   });
 
   it("only admins manage people and see the outbox", () => {

@@ -2,7 +2,11 @@
 // retried idempotency keys, a newer publish is announced and the pin kept at filing, a run
 // with specs left unmeasured files an Incomplete record, and the bad input a tablet or a
 // clumsy client can send (ids, values, oversized and non-image photos) is answered 4xx.
+import { execFileSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { builds, procedureRevisions, procedures, procedureSpecs, runEntries, runs, testRecordReadings, testRecords } from "~/db/schema";
@@ -243,12 +247,22 @@ describe("runs", () => {
   it("keeps a camera photo with an entry, refusing files that are not pictures and pictures too large", async () => {
     const { proc, build } = await fixture();
     const runId = await startRun(builder, proc.slug, build.number);
-    // The smallest PNG: a 1×1 pixel (signature, IHDR, IDAT, IEND per the PNG specification, ISO/IEC 15948).
-    const png = Buffer.from(
-      "89504e470d0a1a0a0000000d4948445200000001000000010806000000" +
-        "1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082",
-      "hex",
-    );
+    // A real picture, 8 × 6 grey pixels, as ffmpeg writes a PNG (the build sheet's PDF decodes it).
+    const png = execFileSync("/usr/bin/ffmpeg", [
+      "-v",
+      "error",
+      "-f",
+      "lavfi",
+      "-i",
+      "color=c=gray:s=8x6",
+      "-frames:v",
+      "1",
+      "-f",
+      "image2pipe",
+      "-vcodec",
+      "png",
+      "-",
+    ]);
     const send = (specKey: string, bytes: Uint8Array<ArrayBuffer>, name: string, type: string) => {
       const form = new FormData();
       form.set("specKey", specKey);
@@ -285,6 +299,23 @@ describe("runs", () => {
     expect(await recordPage.text()).toContain(`src="${url}"`);
     const buildPage = await http(`/builds/${build.number}`, { cookie: apprentice.cookie });
     expect(await buildPage.text()).toContain(`src="${url}"`);
+    // The build sheet shows it too: the print view by its address, the PDF as a picture of its own.
+    const sheet = await http(`/builds/${build.number}/sheet`, { cookie: apprentice.cookie });
+    expect(await sheet.text()).toContain(`src="${url}"`);
+    const pdf = await http(`/builds/${build.number}/sheet.pdf`, { cookie: apprentice.cookie });
+    expect(pdf.status).toBe(200);
+    const file = path.join(os.tmpdir(), `run-photo-sheet-${randomUUID()}.pdf`);
+    fs.writeFileSync(file, Buffer.from(await pdf.arrayBuffer()));
+    try {
+      expect(execFileSync("pdftotext", ["-layout", file, "-"]).toString()).toMatch(/Photos taken at the bench[\s\S]*Bore diameter/);
+      // pdfimages (poppler) lists the pictures a PDF holds, a header and a rule first, then a row
+      // each: page, num, type, width, height… (transparency would be a row of type "smask").
+      const rows = execFileSync("pdfimages", ["-list", file]).toString().trim().split("\n").slice(2);
+      const images = rows.map((l) => l.trim().split(/\s+/)).filter((c) => c[2] === "image");
+      expect(images.map((c) => [c[3], c[4]])).toEqual([["8", "6"]]);
+    } finally {
+      fs.rmSync(file, { force: true });
+    }
   });
 
   it("lets several runs be open on one build at once", async () => {

@@ -1,5 +1,5 @@
 import { Form, Link } from "react-router";
-import { Field, FormError, SelectField } from "~/components/forms";
+import { Field, FormError, SelectField, TextAreaField } from "~/components/forms";
 
 type Values = Record<string, string>;
 
@@ -105,24 +105,14 @@ export function BuildForm({
           className="field num"
           hint="e.g. 86.00"
         />
-        <div className="sm:col-span-2">
-          <label htmlFor="f-notes" className="label">
-            Notes
-          </label>
-          <textarea
-            id="f-notes"
-            name="notes"
-            rows={3}
-            className="field"
-            defaultValue={v("notes")}
-            aria-invalid={errors.notes ? true : undefined}
-          />
-          {errors.notes && (
-            <p className="field-error" role="alert">
-              {errors.notes}
-            </p>
-          )}
-        </div>
+        <TextAreaField
+          label="Notes"
+          name="notes"
+          rows={3}
+          defaultValue={v("notes")}
+          error={errors.notes}
+          wrapperClassName="sm:col-span-2"
+        />
       </fieldset>
       <div className="flex gap-2">
         <button className="btn btn-primary" type="submit" disabled={busy}>

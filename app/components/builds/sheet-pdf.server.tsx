@@ -1,6 +1,7 @@
 import { createRequire } from "node:module";
-import { Document, Font, Page, StyleSheet, Text, View, renderToBuffer } from "@react-pdf/renderer";
+import { Document, Font, Image, Page, StyleSheet, Text, View, renderToBuffer } from "@react-pdf/renderer";
 import type { BuildPage } from "~/lib/builds/page.server";
+import type { SheetPhoto } from "~/lib/runs/photos.server";
 import { calcSummary, sheetFacts, type SheetPaper, sheetSignOff } from "~/lib/builds/sheet";
 import { CALC_CAUTION } from "~/lib/calc-kinds";
 import { fmtDay } from "~/components/test-records/parts";
@@ -66,6 +67,9 @@ const s = StyleSheet.create({
   out: { color: RED, fontWeight: 600 },
   // Figures stay in the regular face: the semibold file's digits went missing from the PDF's text and page.
   outValue: { color: RED },
+  photos: { flexDirection: "row", flexWrap: "wrap" },
+  photo: { width: "33%", paddingRight: 8, marginBottom: 8 },
+  picture: { width: "100%", maxHeight: 140, objectFit: "contain", marginBottom: 2 },
   caution: { fontFamily: "Lora", fontStyle: "italic", fontSize: 8, color: SOFT, marginTop: 4 },
   footer: {
     position: "absolute",
@@ -88,7 +92,7 @@ function Fact({ label, value }: { label: string; value: string }) {
   );
 }
 
-function BuildSheetDocument({ page, paper }: { page: BuildPage; paper: SheetPaper }) {
+function BuildSheetDocument({ page, paper, photos }: { page: BuildPage; paper: SheetPaper; photos: SheetPhoto[] }) {
   const { build, records, calcs } = page;
   const signOff = sheetSignOff(page);
   return (
@@ -163,6 +167,24 @@ function BuildSheetDocument({ page, paper }: { page: BuildPage; paper: SheetPape
           </View>
         )}
 
+        {photos.length > 0 && (
+          <View>
+            <Text style={s.h2}>Photos taken at the bench</Text>
+            <View style={s.photos}>
+              {photos.map((p) => (
+                <View key={p.id} style={s.photo} wrap={false}>
+                  {p.data && <Image style={s.picture} src={{ data: p.data, format: p.mime === "image/png" ? "png" : "jpg" }} />}
+                  <Text>{p.specLabel}</Text>
+                  <Text style={s.meta}>
+                    {p.takenByName ?? "a former member of staff"}, {fmtDay(p.createdAt)}
+                    {p.data ? "" : " (the picture is on the build page)"}
+                  </Text>
+                </View>
+              ))}
+            </View>
+          </View>
+        )}
+
         <View wrap={false}>
           <Text style={s.h2}>Sign-off</Text>
           {signOff.map((line) => (
@@ -187,7 +209,7 @@ function BuildSheetDocument({ page, paper }: { page: BuildPage; paper: SheetPape
 }
 
 /** The build sheet as PDF bytes, on A4 or Letter. */
-export async function buildSheetPdf(page: BuildPage, paper: SheetPaper = "a4"): Promise<Buffer> {
+export async function buildSheetPdf(page: BuildPage, paper: SheetPaper = "a4", photos: SheetPhoto[] = []): Promise<Buffer> {
   registerFonts();
-  return renderToBuffer(<BuildSheetDocument page={page} paper={paper} />);
+  return renderToBuffer(<BuildSheetDocument page={page} paper={paper} photos={photos} />);
 }

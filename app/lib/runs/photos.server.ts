@@ -5,7 +5,7 @@
  * shows are kept, and only up to MAX_PHOTO_BYTES.
  */
 import { createReadStream } from "node:fs";
-import { mkdir, rm, stat, writeFile } from "node:fs/promises";
+import { mkdir, readFile, rm, stat, writeFile } from "node:fs/promises";
 import path from "node:path";
 import { Readable } from "node:stream";
 import { and, eq } from "drizzle-orm";
@@ -15,6 +15,7 @@ import { audit } from "~/lib/audit.server";
 import { db } from "~/lib/db.server";
 import { DomainError } from "~/lib/domain-error";
 import { uploadRoot } from "~/lib/recordings/storage.server";
+import { photosForBuild, type RunPhoto } from "./runs.server";
 
 /** A phone or tablet camera's full-size JPEG is 2–8 MB. */
 export const MAX_PHOTO_BYTES = 12 * 1024 * 1024;
@@ -78,4 +79,23 @@ export async function photoResponse(runId: string, photoId: string): Promise<Res
       "X-Content-Type-Options": "nosniff",
     },
   });
+}
+
+/** A photo on the build sheet's PDF, with its bytes when the PDF can draw it (JPEG and PNG). */
+export type SheetPhoto = RunPhoto & { data: Buffer | null };
+
+/**
+ * Every photo of a build's runs for its sheet's PDF. The PDF draws JPEG and PNG; a WebP photo is
+ * listed without its picture (the build page and the print view show it). A photo whose file is
+ * gone is listed too, without its picture, rather than failing the sheet.
+ */
+export async function sheetPhotos(buildId: string): Promise<SheetPhoto[]> {
+  const photos = await photosForBuild(buildId);
+  return Promise.all(
+    photos.map(async (p) => {
+      if (p.mime !== "image/jpeg" && p.mime !== "image/png") return { ...p, data: null };
+      const data = await readFile(photoPath(p.runId, p.id, KINDS[p.mime])).catch(() => null);
+      return { ...p, data };
+    }),
+  );
 }

@@ -397,6 +397,7 @@ export type RunPhoto = {
   specKey: string;
   specLabel: string;
   url: string;
+  mime: string;
   takenByName: string | null;
   createdAt: Date;
 };
@@ -419,6 +420,7 @@ function photosWhere(where: ReturnType<typeof eq>): Promise<RunPhoto[]> {
         specKey: p.specKey,
         specLabel: label,
         url: photoUrl(p.runId, p.id),
+        mime: p.mime,
         takenByName: by,
         createdAt: p.createdAt,
       })),

@@ -15,6 +15,7 @@ import { buildPage } from "~/lib/builds/page.server";
 import { BuildRuns } from "~/components/runs/RunList";
 import { RunPhotoGallery } from "~/components/runs/RunPhotos";
 import { listRunsForBuild, photosForBuild } from "~/lib/runs/runs.server";
+import { sheetPhotos } from "~/lib/runs/photos.server";
 import { BUILD_STATUS_LABELS, canReopen, nextStatus } from "~/lib/builds/status";
 import { moveBuild, reopenBuild } from "~/lib/builds/write.server";
 import { CALC_CAUTION } from "~/lib/calc-kinds";
@@ -63,7 +64,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const to = (parsed.data as { to: string }).to;
     const page = await buildPage(b.number);
     if (!page) notFound(request, "build");
-    await mailBuildSheet(user, b, to, await buildSheetPdf(page));
+    await mailBuildSheet(user, b, to, await buildSheetPdf(page, "a4", await sheetPhotos(b.id)));
     return redirectWithFlash(`/builds/${b.number}#timeline`, { kind: "ok", message: `The build sheet is on its way to ${to}.` });
   } catch (err) {
     return domainFailure(request, err, intent, parsed.values);

@@ -8,6 +8,8 @@ import { buildPage } from "~/lib/builds/page.server";
 import { calcSummary, sheetFacts, sheetSignOff } from "~/lib/builds/sheet";
 import { CALC_CAUTION } from "~/lib/calc-kinds";
 import { notFound } from "~/lib/edge.server";
+import { photosForBuild } from "~/lib/runs/runs.server";
+import { RunPhotoGallery } from "~/components/runs/RunPhotos";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Build sheet ${data?.build.number ?? ""} · Benchreel` }];
 
@@ -16,13 +18,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const b = await buildOr404(request, params);
   const page = await buildPage(b.number);
   if (!page) notFound(request, "build");
-  return { ...page, printedAt: new Date().toISOString() };
+  return { ...page, photos: await photosForBuild(page.build.id), printedAt: new Date().toISOString() };
 }
 
 /** The build sheet for the clipboard: fluid width, so it prints on A4 and Letter alike. */
 export default function BuildSheet({ loaderData }: Route.ComponentProps) {
   const page = loaderData;
-  const { build, records, calcs, printedAt } = page;
+  const { build, records, calcs, photos, printedAt } = page;
   return (
     <div
       className="record-sheet mx-auto max-w-4xl bg-card p-6 shadow-sm print:max-w-none print:bg-white print:p-0 print:shadow-none"
@@ -84,6 +86,11 @@ export default function BuildSheet({ loaderData }: Route.ComponentProps) {
           </ul>
           <p className="text-xs text-graphite-soft">{CALC_CAUTION}</p>
         </section>
+      )}
+      {photos.length > 0 && (
+        <div className="mt-4 break-inside-avoid-page">
+          <RunPhotoGallery photos={photos} title="Photos taken at the bench" />
+        </div>
       )}
       <section className="mt-4 break-inside-avoid-page">
         <h2 className="text-lg">Sign-off</h2>

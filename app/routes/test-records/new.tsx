@@ -3,7 +3,7 @@ import type { Route } from "./+types/new";
 import { z } from "zod";
 import { parseSearch, readForm } from "~/lib/edge.server";
 import { optionalSearch, slug as slugSchema, uuid } from "~/lib/edge";
-import { Field, FormError, SelectField } from "~/components/forms";
+import { Field, FormError, SelectField, TextAreaField } from "~/components/forms";
 import { PageHeader } from "~/components/page";
 import { SafetyNote } from "~/components/test-records/parts";
 import { ReadingsEditor, rowsFromValues } from "~/components/test-records/ReadingsEditor";
@@ -204,24 +204,14 @@ export default function NewTestRecord({ loaderData, actionData }: Route.Componen
               </div>
             </div>
           )}
-          <div className="sm:col-span-2">
-            <label htmlFor="f-notes" className="label">
-              Notes
-            </label>
-            <textarea
-              id="f-notes"
-              name="notes"
-              rows={3}
-              className="field"
-              defaultValue={v("notes")}
-              aria-invalid={errors.notes ? true : undefined}
-            />
-            {errors.notes && (
-              <p className="field-error" role="alert">
-                {errors.notes}
-              </p>
-            )}
-          </div>
+          <TextAreaField
+            label="Notes"
+            name="notes"
+            rows={3}
+            defaultValue={v("notes")}
+            error={errors.notes}
+            wrapperClassName="sm:col-span-2"
+          />
         </div>
 
         <h2 className="text-xl">Readings</h2>
