@@ -22,7 +22,8 @@ const config: KnipConfig = {
   ignoreExportsUsedInFile: true,
   // Debian's tools, called by the scripts that start PostgreSQL and measure processes.
   // pdftotext and pdfinfo: Debian's poppler-utils, with which the builds test reads the build sheet PDF.
-  ignoreBinaries: ["runuser", "ss", "pdftotext", "pdfinfo"],
+  // pdfimages: the same package, with which the runs test finds the photo inside that PDF.
+  ignoreBinaries: ["runuser", "ss", "pdftotext", "pdfinfo", "pdfimages"],
   // React Router generates the route modules' `./+types/…` at typecheck, which runs after this phase: a fresh clone has none yet.
   ignoreUnresolved: [/\+types\//],
   compilers: {
