@@ -55,44 +55,55 @@ function TimeChart({ readings, onSeek, durationS }: { readings: ReadingRow[]; on
         yTitle={`${label} (${displayUnit(unit)})`}
         xTickLabel={(v) => formatTime(v).replace(/\.0$/, "")}
       >
-        {(f) =>
-          data.map((d) => (
-            // A point is a button: a 44-unit transparent hit circle around the visible dot, so a
-            // finger finds it on the tablet (WCAG 2.5.5); the focus ring is drawn on the hit circle.
-            // biome-ignore lint/a11y/useSemanticElements: an SVG point cannot be a <button>; the role, the focus and the keys make it one
-            <g
-              key={d.r.id}
-              className="group cursor-pointer focus:outline-none"
-              role="button"
-              tabIndex={0}
-              aria-label={`Play from ${formatTime(d.t)}: ${d.r.label || label}, ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}
-              onClick={() => onSeek(d.t)}
-              onKeyDown={(e) => {
-                if (e.key === "Enter" || e.key === " ") {
-                  e.preventDefault();
-                  onSeek(d.t);
-                }
-              }}
-            >
-              <title>{`${formatTime(d.t)} · ${d.r.label || label}: ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}</title>
-              <circle
-                cx={f.x(d.t)}
-                cy={f.y(d.v)}
-                r="22"
-                fill="transparent"
-                className="stroke-transparent group-focus-visible:stroke-graphite"
-                strokeWidth="2"
-              />
-              <circle
-                cx={f.x(d.t)}
-                cy={f.y(d.v)}
-                r="4.5"
-                className="pointer-events-none fill-teal stroke-card group-hover:stroke-graphite"
-                strokeWidth="1.5"
-              />
+        {(f) => (
+          <>
+            {data.map((d) => (
+              // A point is a button: a 44-unit transparent hit circle around the visible dot, so a
+              // finger finds it on the tablet (WCAG 2.5.5); the focus ring is drawn on the hit circle.
+              // biome-ignore lint/a11y/useSemanticElements: an SVG point cannot be a <button>; the role, the focus and the keys make it one
+              <g
+                key={d.r.id}
+                className="group cursor-pointer focus:outline-none"
+                role="button"
+                tabIndex={0}
+                aria-label={`Play from ${formatTime(d.t)}: ${d.r.label || label}, ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}
+                onClick={() => onSeek(d.t)}
+                onKeyDown={(e) => {
+                  if (e.key === "Enter" || e.key === " ") {
+                    e.preventDefault();
+                    onSeek(d.t);
+                  }
+                }}
+              >
+                <title>{`${formatTime(d.t)} · ${d.r.label || label}: ${Number(d.v.toPrecision(6))} ${displayUnit(unit)}`}</title>
+                <circle
+                  cx={f.x(d.t)}
+                  cy={f.y(d.v)}
+                  r="22"
+                  fill="transparent"
+                  className="stroke-transparent group-focus-visible:stroke-graphite"
+                  strokeWidth="2"
+                />
+              </g>
+            ))}
+            {/* The dots above every hit circle: where neighbours' circles overlap, a click on a dot
+                plays that dot's moment, not the moment of a neighbour drawn later. */}
+            <g>
+              {data.map((d) => (
+                // biome-ignore lint/a11y/noStaticElementInteractions: a pointer shortcut; the focusable button of the same point, drawn beneath, has the name and the keys
+                <circle
+                  key={d.r.id}
+                  cx={f.x(d.t)}
+                  cy={f.y(d.v)}
+                  r="4.5"
+                  className="cursor-pointer fill-teal stroke-card hover:stroke-graphite"
+                  strokeWidth="1.5"
+                  onClick={() => onSeek(d.t)}
+                />
+              ))}
             </g>
-          ))
-        }
+          </>
+        )}
       </Plot>
       <figcaption className="text-xs text-graphite-soft">Click a point to play from its moment.</figcaption>
     </figure>
