@@ -5,31 +5,31 @@ const DEMO = [
     email: "dana@larkspur.example",
     name: "Dana Okafor",
     role: "Admin",
-    nav: ["Shop floor", "Procedures", "Recordings", "Test records", "Calculators", "Search", "Admin"],
+    nav: ["Shop floor", "Builds", "Procedures", "Recordings", "Test records", "Calculators", "Search", "Admin"],
   },
   {
     email: "priya@larkspur.example",
     name: "Priya Raman",
     role: "Editor",
-    nav: ["Shop floor", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
+    nav: ["Shop floor", "Builds", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
   },
   {
     email: "marcus@larkspur.example",
     name: "Marcus Lind",
     role: "Senior builder",
-    nav: ["Shop floor", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
+    nav: ["Shop floor", "Builds", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
   },
   {
     email: "tomas@larkspur.example",
     name: "Tomás Ferreira",
     role: "QC inspector",
-    nav: ["Shop floor", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
+    nav: ["Shop floor", "Builds", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
   },
   {
     email: "jamie@larkspur.example",
     name: "Jamie Cole",
     role: "Apprentice",
-    nav: ["Shop floor", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
+    nav: ["Shop floor", "Builds", "Procedures", "Recordings", "Test records", "Calculators", "Search"],
   },
 ];
 
