@@ -30,6 +30,9 @@ export const builds = pgTable(
     strokeM: doublePrecision("stroke_m"),
     strokeUnit: text("stroke_unit"),
     strokeDecimals: integer("stroke_decimals"),
+    /** How many cylinders and main journals the engine has: a run offers a row per cylinder and per journal (migration 0033). */
+    cylinders: integer("cylinders"),
+    mainJournals: integer("main_journals"),
     notes: text("notes").notNull().default(""),
     leadBuilderId: text("lead_builder_id").references(() => users.id, { onDelete: "set null" }),
     status: buildStatusEnum("status").notNull().default("open"),

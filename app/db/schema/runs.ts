@@ -7,7 +7,19 @@ import { testRecords } from "./test-records";
 // The runs area: a procedure worked step by step on a build, at the bench. The revision is
 // pinned when the run starts and never changes; finishing files a test record against it.
 // Entries are never updated: each value typed is a row of its own (with the device's
-// idempotency key), and a spec's value is its latest entry (app/lib/runs/entries.ts).
+// idempotency key), and a spec's value at a position (cylinder, journal, stud) is its latest
+// entry there (app/lib/runs/entries.ts; positions since migration 0033).
+
+/**
+ * Where an entry was measured: the one numbered place a spec is worked through on the run
+ * screen (a cylinder for a bore or a ring gap, a journal for a bearing clearance, a stud for a
+ * torque), as on test records' readings; all null for a spec measured once.
+ */
+const runPositionColumns = () => ({
+  fastener: integer("fastener"),
+  cylinder: integer("cylinder"),
+  journal: integer("journal"),
+});
 
 /** open: being worked; finished: its test record is filed; abandoned: stopped with a reason, nothing filed. */
 export const runStatusEnum = pgEnum("run_status", ["open", "finished", "abandoned"]);
@@ -53,6 +65,7 @@ export const runEntries = pgTable(
       .notNull()
       .references(() => procedureSpecs.id, { onDelete: "restrict" }),
     specKey: text("spec_key").notNull(),
+    ...runPositionColumns(),
     /** null: the value was cleared. */
     valueEntered: doublePrecision("value_entered"),
     unitEntered: text("unit_entered").notNull(),
@@ -82,11 +95,14 @@ export const runPhotos = pgTable(
       .notNull()
       .references(() => procedureSpecs.id, { onDelete: "restrict" }),
     specKey: text("spec_key").notNull(),
+    ...runPositionColumns(),
+    /** Made by the device per photo: a photo kept offline and sent again is stored once. */
+    idempotencyKey: text("idempotency_key"),
     /** image/jpeg, image/png, image/webp, image/heic: from the file's bytes, not its name. */
     mime: text("mime").notNull(),
     bytes: integer("bytes").notNull(),
     takenBy: text("taken_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("run_photos_run_idx").on(t.runId, t.specKey)],
+  (t) => [index("run_photos_run_idx").on(t.runId, t.specKey), uniqueIndex("run_photos_idempotency_key_idx").on(t.idempotencyKey)],
 );
