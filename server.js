@@ -54,7 +54,9 @@ function handle(req, res) {
       req.url = req.url.slice(assetsPrefix.length - 1);
       return assets(req, res, (err) => staticError(res, err));
     }
-    otherFiles(req, res, () =>
+    // Only a name with an extension can be a file of build/client (favicon.svg); a page's URL
+    // skips the look on disk that would find nothing.
+    const toApp = () =>
       log(req, res, () => {
         // The socket's peer, for the sign-in throttles (app/lib/client-address.server.ts); always
         // overwritten here, so a client cannot set it.
@@ -64,8 +66,9 @@ function handle(req, res) {
         // (app/lib/procedures/page-body.server.ts). Always overwritten too.
         req.headers["x-benchreel-page"] = /\.data(?:\?|$)/.test(req.url) ? "0" : "1";
         toReactRouter(req, res);
-      }),
-    );
+      });
+    if (/\.[^/]*$/.test(req.url.split("?")[0])) otherFiles(req, res, toApp);
+    else toApp();
   });
 }
 

@@ -1,5 +1,3 @@
-import { PassThrough } from "node:stream";
-
 import type { EntryContext, RouterContextProvider } from "react-router";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { isRouteErrorResponse, ServerRouter, type HandleErrorFunction } from "react-router";
@@ -9,6 +7,7 @@ import { renderToPipeableStream } from "react-dom/server";
 import { newNonce, pagePolicy } from "./lib/csp.server";
 import { noteServerError } from "./lib/outage.server";
 import { env } from "./lib/env.server";
+import { pageStream } from "./lib/page-stream.server";
 import { pageBodyContext } from "./lib/procedures/page-body.server";
 import { PageBodyHtml } from "./components/procedures/ProcedureBody";
 
@@ -17,8 +16,9 @@ import { PageBodyHtml } from "./components/procedures/ProcedureBody";
 env();
 
 // React Router's own server entry (from `react-router reveal entry.server`), with the page's
-// Content-Security-Policy nonce, the database-outage note and a procedure body handed apart
-// from the loader data (app/lib/procedures/page-body.server.ts) added.
+// Content-Security-Policy nonce, the database-outage note, a procedure body handed apart from
+// the loader data (app/lib/procedures/page-body.server.ts) and React's output sent in whole
+// pieces rather than 2 kB ones (app/lib/page-stream.server.ts) added.
 
 // Every error a loader, action or render threw, as React Router's default logs it; an error
 // that means PostgreSQL is not answering is also noted, so that the request is answered with
@@ -76,13 +76,11 @@ export default function handleRequest(
       nonce: { script: nonce, style: nonce },
       [readyOption]() {
         shellRendered = true;
-        const body = new PassThrough({
-          final(callback) {
-            // Clear the timeout to prevent retaining the closure and memory leak
-            clearTimeout(timeoutId);
-            timeoutId = undefined;
-            callback();
-          },
+        // React's pieces written in one turn travel together (app/lib/page-stream.server.ts).
+        const body = pageStream(() => {
+          // Clear the timeout to prevent retaining the closure and memory leak
+          clearTimeout(timeoutId);
+          timeoutId = undefined;
         });
         const stream = createReadableStreamFromReadable(body);
 

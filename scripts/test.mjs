@@ -192,7 +192,7 @@ try {
     // The app's request log and the worker's output go to files; they are printed on failure.
     const appLog = path.join(runDir, "app.log");
     const workerLog = path.join(runDir, "worker.log");
-    spawnChild(
+    const appProcess = spawnChild(
       process.execPath,
       [
         ...(process.env.PROF_DIR ? ["--cpu-prof", "--cpu-prof-dir", process.env.PROF_DIR] : []),
@@ -237,7 +237,13 @@ try {
       );
     }
     if (wants("bench")) {
-      await phase("benchmark", () => runWith(bin("tsx"), ["scripts/bench/run.ts", ...(only.has("bench") ? filters : [])], env));
+      // The app's pid: the benchmark reads the CPU time each response costs it (/proc).
+      await phase("benchmark", () =>
+        runWith(bin("tsx"), ["scripts/bench/run.ts", ...(only.has("bench") ? filters : [])], {
+          ...env,
+          BENCHREEL_APP_PID: String(appProcess.pid),
+        }),
+      );
     }
     if (keep) await new Promise(() => {});
   }

@@ -12,6 +12,7 @@
  *     reachable only through import(), are counted apart).
  * Every request goes to the app on 127.0.0.1; the loops are bounded.
  */
+import fs from "node:fs";
 import os from "node:os";
 import { gzipSync } from "node:zlib";
 import autocannon from "autocannon";
@@ -238,7 +239,7 @@ async function ttfbLoop(url: string, cookie: string, n: number): Promise<Stat & 
   const queries = new Set<number>();
   for (let i = 0; i < n + 10; i++) {
     const a = performance.now();
-    const res = await fetch(url, { headers: { cookie }, redirect: "manual" });
+    const res = await fetch(url, { headers: { cookie, "accept-encoding": BROWSER_ENCODINGS }, redirect: "manual" });
     const headersAt = performance.now() - a; // fetch resolves when the status line and headers are in
     await res.arrayBuffer();
     if (res.status !== 200) throw new Error(`${url} answered ${res.status}`);
@@ -249,6 +250,26 @@ async function ttfbLoop(url: string, cookie: string, n: number): Promise<Stat & 
   return { ...stat(times), queries: [...queries].sort((x, y) => x - y) };
 }
 
+/**
+ * CPU time the app's process has used so far (user + system, ms), from /proc: what a response
+ * costs the server, which moves far less than its latency when other work shares the cores.
+ * null when `npm run bench` did not say which process serves (BENCHREEL_APP_PID).
+ */
+function appCpuMs(): number | null {
+  const pid = process.env.BENCHREEL_APP_PID;
+  if (!pid) return null;
+  const stat = fs.readFileSync(`/proc/${pid}/stat`, "utf8");
+  // Fields after the command's closing parenthesis; utime and stime are the 14th and 15th.
+  const f = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+  const ticks = Number(f[11]) + Number(f[12]);
+  return (ticks * 1000) / CLOCK_TICKS;
+}
+/** Linux's USER_HZ: 100 on every architecture Debian builds for. */
+const CLOCK_TICKS = 100;
+
+/** What Debian's chromium sends: the server answers a page compressed, as a person's browser gets it. */
+const BROWSER_ENCODINGS = "gzip, deflate, br, zstd";
+
 /** 20 clients for 10 s; every response's latency (request written → response complete) is kept. */
 async function cannon(url: string, cookie: string | string[]): Promise<{ result: autocannon.Result; times: number[] }> {
   const times: number[] = [];
@@ -256,10 +277,18 @@ async function cannon(url: string, cookie: string | string[]): Promise<{ result:
   const cookies = Array.isArray(cookie) ? cookie : [cookie];
   let next = 0;
   const setupClient = (client: { setHeaders(h: Record<string, string>): void }) =>
-    client.setHeaders({ cookie: cookies[next++ % cookies.length] });
+    client.setHeaders({ cookie: cookies[next++ % cookies.length], "accept-encoding": BROWSER_ENCODINGS });
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const inst = autocannon({ url, connections: 20, duration: 10, headers: { cookie: cookies[0] }, setupClient, timeout: 20 }, (err, r) =>
-      err ? reject(err) : resolve(r),
+    const inst = autocannon(
+      {
+        url,
+        connections: 20,
+        duration: 10,
+        headers: { cookie: cookies[0], "accept-encoding": BROWSER_ENCODINGS },
+        setupClient,
+        timeout: 20,
+      },
+      (err, r) => (err ? reject(err) : resolve(r)),
     );
     inst.on("response", (_client: unknown, _status: number, _bytes: number, responseTime: number) => times.push(responseTime));
   });
@@ -367,7 +396,9 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
   );
   await cannon(readUrl, s.apprentice.cookie); // warm-up round, discarded
   const load0 = os.loadavg()[0];
+  const cpu0 = appCpuMs();
   const { result: c, times } = await cannon(readUrl, s.apprentice.cookie);
+  const cpu1 = appCpuMs();
   const load1 = os.loadavg()[0];
   if (c.non2xx) throw new Error(`autocannon saw ${c.non2xx} non-2xx answers`);
   const sorted = [...times].sort((x, y) => x - y);
@@ -382,14 +413,18 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
     errors: c.errors,
     timeouts: c.timeouts,
     loadAverage: [+load0.toFixed(2), +load1.toFixed(2)],
+    /** The app process's CPU per response at 20 clients; × 20 is the least a one-process p95 can be. */
+    cpuMsPerResponse: cpu0 == null || cpu1 == null ? null : +((cpu1 - cpu0) / c.requests.total).toFixed(2),
   };
   const p95 = concurrent.p95;
   log(
-    `read page, 20 clients (autocannon, per response): p50 ${concurrent.p50} ms, p95 ${p95} ms, p99 ${concurrent.p99} ms, ${concurrent.requestsPerSec} req/s; load average ${load0.toFixed(1)} → ${load1.toFixed(1)}`,
+    `read page, 20 clients (autocannon, per response): p50 ${concurrent.p50} ms, p95 ${p95} ms, p99 ${concurrent.p99} ms, ${concurrent.requestsPerSec} req/s; load average ${load0.toFixed(1)} → ${load1.toFixed(1)}${concurrent.cpuMsPerResponse == null ? "" : `; the app's CPU ${concurrent.cpuMsPerResponse} ms a response`}`,
   );
 
   // The floor of this stack: the same load on a light page (the calculators index, no procedure data).
+  const bCpu0 = appCpuMs();
   const { result: b, times: bt } = await cannon(`${origin}/calculators`, s.apprentice.cookie);
+  const bCpu1 = appCpuMs();
   const bs = [...bt].sort((x, y) => x - y);
   const bq = (f: number) => +bs[Math.min(bs.length - 1, Math.floor(f * bs.length))].toFixed(2);
   const baseline = {
@@ -399,8 +434,11 @@ export async function benchProcedures(opts: { log?: (s: string) => void } = {}) 
     p99: bq(0.99),
     requestsPerSec: +b.requests.average.toFixed(1),
     non2xx: b.non2xx,
+    cpuMsPerResponse: bCpu0 == null || bCpu1 == null ? null : +((bCpu1 - bCpu0) / b.requests.total).toFixed(2),
   };
-  log(`baseline /calculators, 20 clients: p50 ${baseline.p50} ms, p95 ${baseline.p95} ms, ${baseline.requestsPerSec} req/s`);
+  log(
+    `baseline /calculators, 20 clients: p50 ${baseline.p50} ms, p95 ${baseline.p95} ms, ${baseline.requestsPerSec} req/s${baseline.cpuMsPerResponse == null ? "" : `; the app's CPU ${baseline.cpuMsPerResponse} ms a response`}`,
+  );
 
   const readJs = await shippedJs(readUrl, s.apprentice.cookie);
   const editJs = await shippedJs(editUrl, s.builder.cookie);
