@@ -3,22 +3,40 @@ import { useNavigation } from "react-router";
 
 type FieldProps = InputHTMLAttributes<HTMLInputElement> & { label: string; name: string; error?: string; hint?: ReactNode };
 
-/** A labelled input with its error message tied to it for screen readers. */
-export function Field({ label, name, error, hint, id, ...rest }: FieldProps) {
+/** What a labelled control needs: its id, and the attributes that tie its error to it for screen readers. */
+function controlAttrs(name: string, id: string | undefined, error: string | undefined) {
   const fieldId = id ?? `f-${name}`;
+  return {
+    id: fieldId,
+    name,
+    className: "field",
+    "aria-invalid": error ? true : undefined,
+    "aria-describedby": error ? `${fieldId}-error` : undefined,
+  } as const;
+}
+
+/** The frame every labelled control shares: the label above, a hint or the error below. */
+function FieldFrame({
+  label,
+  fieldId,
+  error,
+  hint,
+  className,
+  children,
+}: {
+  label: string;
+  fieldId: string;
+  error?: string;
+  hint?: ReactNode;
+  className?: string;
+  children: ReactNode;
+}) {
   return (
-    <div>
+    <div className={className}>
       <label htmlFor={fieldId} className="label">
         {label}
       </label>
-      <input
-        id={fieldId}
-        name={name}
-        className="field"
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${fieldId}-error` : undefined}
-        {...rest}
-      />
+      {children}
       {hint && !error && <p className="mt-1 text-sm text-graphite-soft">{hint}</p>}
       {error && (
         <p id={`${fieldId}-error`} className="field-error" role="alert">
@@ -26,6 +44,16 @@ export function Field({ label, name, error, hint, id, ...rest }: FieldProps) {
         </p>
       )}
     </div>
+  );
+}
+
+/** A labelled input with its error message tied to it for screen readers. */
+export function Field({ label, name, error, hint, id, ...rest }: FieldProps) {
+  const attrs = controlAttrs(name, id, error);
+  return (
+    <FieldFrame label={label} fieldId={attrs.id} error={error} hint={hint}>
+      <input {...attrs} {...rest} />
+    </FieldFrame>
   );
 }
 
@@ -38,54 +66,24 @@ type TextAreaProps = TextareaHTMLAttributes<HTMLTextAreaElement> & {
 
 /** A labelled text area (notes and the like), its error tied to it like Field's. */
 export function TextAreaField({ label, name, error, id, wrapperClassName, ...rest }: TextAreaProps) {
-  const fieldId = id ?? `f-${name}`;
+  const attrs = controlAttrs(name, id, error);
   return (
-    <div className={wrapperClassName}>
-      <label htmlFor={fieldId} className="label">
-        {label}
-      </label>
-      <textarea
-        id={fieldId}
-        name={name}
-        className="field"
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${fieldId}-error` : undefined}
-        {...rest}
-      />
-      {error && (
-        <p id={`${fieldId}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      )}
-    </div>
+    <FieldFrame label={label} fieldId={attrs.id} error={error} className={wrapperClassName}>
+      <textarea {...attrs} {...rest} />
+    </FieldFrame>
   );
 }
 
 type SelectProps = SelectHTMLAttributes<HTMLSelectElement> & { label: string; name: string; error?: string; children: ReactNode };
 
 export function SelectField({ label, name, error, id, children, ...rest }: SelectProps) {
-  const fieldId = id ?? `f-${name}`;
+  const attrs = controlAttrs(name, id, error);
   return (
-    <div>
-      <label htmlFor={fieldId} className="label">
-        {label}
-      </label>
-      <select
-        id={fieldId}
-        name={name}
-        className="field"
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${fieldId}-error` : undefined}
-        {...rest}
-      >
+    <FieldFrame label={label} fieldId={attrs.id} error={error}>
+      <select {...attrs} {...rest}>
         {children}
       </select>
-      {error && (
-        <p id={`${fieldId}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      )}
-    </div>
+    </FieldFrame>
   );
 }
 
