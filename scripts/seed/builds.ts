@@ -1,11 +1,14 @@
-// Demo builds for Larkspur Engine Works (invented): one per work order the demo test records
-// name. LEW-24-0117 is delivered with a full build sheet, LEW-24-0118 is on the bench, LEW-24-0119
-// has main 3 out of spec, LEW-24-0121 is finished. Customers and addresses are made up
-// (.example). Runs after the test records and recordings: it links them by work order number
-// and the demo recording by its id. Idempotent (by number; links only rows not yet linked).
+// Demo builds for Larkspur Engine Works (invented), the three the scenario needs: LEW-24-0117
+// delivered with a full build sheet, LEW-24-0118 on the bench (with the demo's open run),
+// LEW-24-0119 with main 3 out of spec. All three are the 2.3 L aluminium block with iron liners
+// that the demo procedures are written for. Customers and addresses are made up (.example). Runs
+// after the test records and recordings: it links the records by work order number, and puts the
+// demo recordings on builds by id, as a person would by choosing the build (their marks take the
+// recording's build). Idempotent (by number; links only rows not yet linked).
 import { and, eq, isNull } from "drizzle-orm";
 import type { NodePgDatabase } from "drizzle-orm/node-postgres";
 import { buildEvents, builds, marks, recordings, testRecords } from "../../app/db/schema";
+import { BORE_CLIP_ID } from "./captions";
 import { DEMO_ID } from "./recordings";
 
 type Db = NodePgDatabase<Record<string, unknown>>;
@@ -19,6 +22,8 @@ type DemoBuild = {
   engineSerial: string;
   boreMm: [value: number, decimals: number];
   strokeMm: [value: number, decimals: number];
+  /** Cylinders and main journals: the rows a run offers per cylinder and journal. */
+  counts: [cylinders: number, mainJournals: number];
   notes: string;
   lead: string;
   receivedDaysAgo: number;
@@ -32,10 +37,11 @@ const DEMO_BUILDS: DemoBuild[] = [
     number: "LEW-24-0117",
     customerName: "Wren Valley Rally Club",
     customerContact: "workshop@wrenvalley.example",
-    engine: "Inline four, 2.3 L, iron block, turbocharged, forged pistons",
+    engine: "Inline four, 2.3 L, aluminium block with iron liners, turbocharged, forged pistons",
     engineSerial: "LX23-0412",
     boreMm: [96.0, 2],
     strokeMm: [79.5, 2],
+    counts: [4, 5],
     notes: "Stage rally engine. Bored to the first oversize, torque-plate honed, forged 2618 pistons, head studs in place of bolts.",
     lead: "demo-marcus",
     receivedDaysAgo: 16,
@@ -50,10 +56,11 @@ const DEMO_BUILDS: DemoBuild[] = [
     number: "LEW-24-0118",
     customerName: "Hollis Boatyard",
     customerContact: "engines@hollisboatyard.example",
-    engine: "Inline four, 2.3 L, iron block, marine conversion",
+    engine: "Inline four, 2.3 L, aluminium block with iron liners, marine conversion",
     engineSerial: "LX23-0415",
     boreMm: [96.0, 2],
     strokeMm: [79.5, 2],
+    counts: [4, 5],
     notes: "Raw-water cooled; head studs and gasket replaced after overheating.",
     lead: "demo-marcus",
     receivedDaysAgo: 10,
@@ -64,32 +71,16 @@ const DEMO_BUILDS: DemoBuild[] = [
     number: "LEW-24-0119",
     customerName: "A. Brennan",
     customerContact: "+44 1632 960 118",
-    engine: "Inline four, 2.3 L, iron block, naturally aspirated",
+    engine: "Inline four, 2.3 L, aluminium block with iron liners, naturally aspirated",
     engineSerial: "LX23-0419",
     boreMm: [96.0, 2],
     strokeMm: [79.5, 2],
+    counts: [4, 5],
     notes: "Spun bearing on main 3. Crank to be checked for journal size before the shells are chosen.",
     lead: "demo-tomas",
     receivedDaysAgo: 7,
     promisedDaysAhead: 10,
     moves: [["on_bench", 6]],
-  },
-  {
-    number: "LEW-24-0121",
-    customerName: "Kestrel Lane Motors",
-    customerContact: "parts@kestrellane.example",
-    engine: "Air-cooled flat four, 2.0 L",
-    engineSerial: "AC-1974-0088",
-    boreMm: [94.0, 1],
-    strokeMm: [71.0, 1],
-    notes: "Full rebuild with new 94 mm barrels and 4032 pistons.",
-    lead: "demo-marcus",
-    receivedDaysAgo: 6,
-    promisedDaysAhead: 2,
-    moves: [
-      ["on_bench", 5],
-      ["finished", 1],
-    ],
   },
 ];
 
@@ -118,6 +109,8 @@ export async function seedBuilds(db: Db): Promise<number> {
           strokeM: d.strokeMm[0] / 1000,
           strokeUnit: "mm",
           strokeDecimals: d.strokeMm[1],
+          cylinders: d.counts[0],
+          mainJournals: d.counts[1],
           notes: d.notes,
           leadBuilderId: d.lead,
           status: last?.[0] ?? "open",
@@ -141,22 +134,30 @@ export async function seedBuilds(db: Db): Promise<number> {
       ]);
       added++;
     }
+    // A demo seeded before builds held their counts (migration 0033) gets them once.
+    if (b.cylinders == null && b.mainJournals == null)
+      await db.update(builds).set({ cylinders: d.counts[0], mainJournals: d.counts[1] }).where(eq(builds.id, b.id));
     await db
       .update(testRecords)
       .set({ buildId: b.id })
       .where(and(eq(testRecords.workOrder, d.number), isNull(testRecords.buildId)));
   }
-  // The demo recording was titled with its work order before builds held it.
-  const [first] = await db.select().from(builds).where(eq(builds.number, "LEW-24-0117"));
-  if (first) {
+  // The bench recording of head studs belongs to the build whose studs were replaced; the bore
+  // gauge clip to the build that was bored and honed.
+  for (const [recordingId, number] of [
+    [DEMO_ID, "LEW-24-0118"],
+    [BORE_CLIP_ID, "LEW-24-0117"],
+  ] as const) {
+    const [b] = await db.select().from(builds).where(eq(builds.number, number));
+    if (!b) continue;
     await db
       .update(recordings)
-      .set({ buildId: first.id })
-      .where(and(eq(recordings.id, DEMO_ID), isNull(recordings.buildId)));
+      .set({ buildId: b.id })
+      .where(and(eq(recordings.id, recordingId), isNull(recordings.buildId)));
     await db
       .update(marks)
-      .set({ buildId: first.id })
-      .where(and(eq(marks.recordingId, DEMO_ID), isNull(marks.buildId)));
+      .set({ buildId: b.id })
+      .where(and(eq(marks.recordingId, recordingId), isNull(marks.buildId)));
   }
   return added;
 }

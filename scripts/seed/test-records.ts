@@ -101,27 +101,6 @@ const DEMOS: Demo[] = [
     },
   },
   {
-    slug: "air-cooled-flat-four-barrel-and-head-torque",
-    workOrder: "LEW-24-0121",
-    title: "Flat-four rebuild: 4032 piston-to-wall and head nuts",
-    engineSerial: "AC-1974-0088",
-    daysAgo: 3,
-    by: "demo-tomas",
-    notes: "94 mm barrels, new 4032 pistons.",
-    readings: {
-      "ac-ptw": [
-        [0.0019, "in", "cyl 1"],
-        [0.002, "in", "cyl 2"],
-        [0.0018, "in", "cyl 3"],
-        [0.0019, "in", "cyl 4"],
-      ],
-      "ac-stud": [
-        [32, "N.m", "cyl 1–2 head"],
-        [32, "N.m", "cyl 3–4 head"],
-      ],
-    },
-  },
-  {
     slug: "leak-down-test-after-break-in",
     workOrder: "LEW-24-0117",
     title: "Leak-down after the break-in run",

@@ -207,7 +207,7 @@ describe("builds", () => {
     expect(back.status).toBe(409);
     // …it is a reopen, which needs a reason.
     const noReason = await http(`/builds/${number}`, { cookie: builder.cookie, form: { intent: "reopen", reason: "" } });
-    expect(noReason.status).toBe(200);
+    expect(noReason.status).toBe(400);
     expect(await noReason.text()).toContain("Say why the build is reopened");
     const reopen = await http(`/builds/${number}`, {
       cookie: builder.cookie,

@@ -1,11 +1,21 @@
 // The demo shop tells one story: the head-stud procedure assumes the nut factor that its own
 // bench recording's torque / clamp-load readings fit. Both come from the seed (scripts/seed/);
 // the fit is computed again here as the watch page computes it, so the demo cannot drift.
-import { and, eq } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { pairTorqueClamp } from "~/components/recordings/ReadingsChart";
 import type { ReadingRow } from "~/components/recordings/types";
-import { captionCues, captionEdits, captionSources, procedureRevisions, procedures, readings } from "~/db/schema";
+import {
+  captionCues,
+  captionEdits,
+  captionSources,
+  marks,
+  procedureRevisions,
+  procedures,
+  readings,
+  recordings,
+  testRecords,
+} from "~/db/schema";
 import { waitFor } from "../support/app";
 import { fitNutFactor } from "~/lib/calc";
 import { db } from "~/lib/db.server";
@@ -72,6 +82,38 @@ describe("demo scenario: what is said in the recordings (issue 17)", () => {
     expect(cues[0]).toMatchObject({ startS: 0.8, endS: 4, text: "Zeroing the bore gauge in the mic first, at the nominal size." });
     const [source] = await db().select().from(captionSources).where(eq(captionSources.recordingId, BORE_CLIP));
     expect(source.kind).toBe("embedded");
+  });
+
+  it("three demo builds: one delivered, one on the bench, one out of spec; each engine the block its procedures are for", async () => {
+    const [delivered, bench, outOfSpec] = await Promise.all(["LEW-24-0117", "LEW-24-0118", "LEW-24-0119"].map((n) => getBuildByNumber(n)));
+    expect(delivered?.status).toBe("delivered");
+    expect(bench?.status).toBe("on_bench");
+    expect(await getBuildByNumber("LEW-24-0121")).toBeNull();
+    const out = await db().select().from(testRecords).where(eq(testRecords.buildId, outOfSpec!.id));
+    expect(out.some((r) => r.verdict === "out")).toBe(true);
+    // LEW-24-0117 was honed by the iron-lined aluminium block procedure: its engine says so.
+    const honed = await db()
+      .select({ slug: procedures.slug })
+      .from(testRecords)
+      .innerJoin(procedures, eq(procedures.id, testRecords.procedureId))
+      .where(eq(testRecords.buildId, delivered!.id));
+    expect(honed.map((h) => h.slug)).toContain("torque-plate-honing-iron-lined-block");
+    expect(delivered!.engine).toMatch(/aluminium block with iron liners/);
+  });
+
+  it("the demo recordings are on builds by build_id, their marks on their recording's build, titles without a work order", async () => {
+    const BORE_CLIP = "5eed0000-0000-4000-8000-0000000b04e1";
+    const bench = await getBuildByNumber("LEW-24-0118");
+    const honed = await getBuildByNumber("LEW-24-0117");
+    const recs = await db()
+      .select()
+      .from(recordings)
+      .where(inArray(recordings.id, [DEMO_RECORDING, BORE_CLIP]));
+    expect(Object.fromEntries(recs.map((r) => [r.id, r.buildId]))).toEqual({ [DEMO_RECORDING]: bench!.id, [BORE_CLIP]: honed!.id });
+    for (const r of recs) expect(r.title).not.toMatch(/WO|LEW-/);
+    const demoMarks = await db().select().from(marks).where(eq(marks.recordingId, DEMO_RECORDING));
+    expect(demoMarks.length).toBeGreaterThanOrEqual(2);
+    for (const m of demoMarks) expect(m.buildId).toBe(bench!.id);
   });
 
   it("the build on the bench has the demo's open run, partway through the head studs procedure", async () => {

@@ -131,7 +131,13 @@ const MATRIX: Entry[] = [
     note: "GET lists the caller's unfinished uploads; tus verbs are in recordings.test.ts",
   },
   { path: "/api/recordings", get: SIGNED_IN_API },
-  { path: "/api/recordings/:id", sample: "/api/recordings/00000000-0000-4000-8000-000000000000", get: { ...ALL(404), anon: 401 } },
+  {
+    path: "/api/recordings/:id",
+    sample: "/api/recordings/00000000-0000-4000-8000-000000000000",
+    get: { ...ALL(404), anon: 401 },
+    post: only(STAFF, 405, 401),
+    note: "PATCH puts the recording on a build (builds-attach.test.ts)",
+  },
   {
     path: "/api/recordings/:id/media",
     sample: "/api/recordings/00000000-0000-4000-8000-000000000000/media",

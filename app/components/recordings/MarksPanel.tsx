@@ -3,6 +3,7 @@ import { useFetcher, useFetchers } from "react-router";
 import { splitTags } from "~/lib/tags";
 import { formatTime } from "~/lib/time-format";
 import { issuesByPath, type MarkRow, type ProcedureChoice } from "./types";
+import { BuildOptions, type BuildPick } from "~/components/builds/BuildPicker";
 
 export type MarksPanelHandle = { openNew: (tStart: number, tEnd?: number | null) => void };
 
@@ -10,6 +11,10 @@ type Props = {
   recordingId: string;
   marks: MarkRow[];
   procedures: ProcedureChoice[];
+  /** The builds a mark may be put on (empty: no choice offered, the server's default stands). */
+  builds?: BuildPick[];
+  /** The recording's build, which a new mark takes unless another or none is chosen. */
+  recordingBuild?: string | null;
   currentTime: number;
   canCreate: boolean;
   canEdit: (m: MarkRow) => boolean;
@@ -64,6 +69,7 @@ export function currentMarkId(marks: MarkRow[], t: number): string | null {
 
 export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPanel(props, ref) {
   const { recordingId, marks, procedures, currentTime, canCreate, canEdit, onSeek, spanStart, durationS } = props;
+  const builds = props.builds ?? [];
   const [draft, setDraft] = useState<{ tStart: number; tEnd: number | null } | null>(null);
   const [editing, setEditing] = useState<string | null>(null);
   const textRef = useRef<HTMLInputElement>(null);
@@ -115,7 +121,15 @@ export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPane
           fetcherKey={`mark-new-${draft.tStart}-${draft.tEnd}`}
           recordingId={recordingId}
           procedures={procedures}
-          initial={{ tStart: draft.tStart, tEnd: draft.tEnd, text: "", tags: [], procedureId: null }}
+          builds={builds}
+          initial={{
+            tStart: draft.tStart,
+            tEnd: draft.tEnd,
+            text: "",
+            tags: [],
+            procedureId: null,
+            buildNumber: props.recordingBuild ?? null,
+          }}
           textRef={textRef}
           durationS={durationS}
           onDone={() => setDraft(null)}
@@ -141,6 +155,7 @@ export const MarksPanel = forwardRef<MarksPanelHandle, Props>(function MarksPane
                 <MarkForm
                   recordingId={recordingId}
                   procedures={procedures}
+                  builds={builds}
                   initial={m}
                   markId={m.id}
                   durationS={durationS}
@@ -200,7 +215,7 @@ function MarkItem({
         </span>
         <span className="text-sm">{mark.text}</span>
       </button>
-      {(mark.tags.length > 0 || mark.procedureTitle) && (
+      {(mark.tags.length > 0 || mark.procedureTitle || mark.buildNumber) && (
         <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs">
           {mark.tags.map((t) => (
             <span key={t} className="rounded-full bg-teal-soft px-2 py-0.5 font-semibold text-teal">
@@ -216,6 +231,11 @@ function MarkItem({
             ) : (
               <span className="italic">↳ {mark.procedureTitle}</span>
             ))}
+          {mark.buildNumber && (
+            <a href={`/builds/${mark.buildNumber}`} className="num font-semibold" data-testid="mark-build">
+              Build {mark.buildNumber}
+            </a>
+          )}
         </div>
       )}
       <div className="mt-1 flex items-center gap-3 text-xs text-graphite-soft">
@@ -253,6 +273,7 @@ function parseTime(s: string): number | null {
 function MarkForm({
   recordingId,
   procedures,
+  builds,
   initial,
   markId,
   textRef,
@@ -263,7 +284,8 @@ function MarkForm({
   fetcherKey?: string;
   recordingId: string;
   procedures: ProcedureChoice[];
-  initial: { tStart: number; tEnd: number | null; text: string; tags: string[]; procedureId: string | null };
+  builds: BuildPick[];
+  initial: { tStart: number; tEnd: number | null; text: string; tags: string[]; procedureId: string | null; buildNumber?: string | null };
   markId?: string;
   textRef?: React.Ref<HTMLInputElement>;
   durationS: number | null;
@@ -277,6 +299,7 @@ function MarkForm({
   const [text, setText] = useState(initial.text);
   const [tags, setTags] = useState(initial.tags.join(", "));
   const [procedureId, setProcedureId] = useState(initial.procedureId ?? "");
+  const [buildNumber, setBuildNumber] = useState(initial.buildNumber ?? "");
   const [local, setLocal] = useState<Record<string, string>>({});
   const errors = { ...(fetcher.state === "idle" ? issuesByPath(fetcher.data) : {}), ...local };
   const submitted = useRef(false);
@@ -298,7 +321,15 @@ function MarkForm({
     setLocal(errs);
     if (Object.keys(errs).length) return;
     submitted.current = true;
-    const body = { tStart, tEnd: tEnd ?? null, text, tags: splitTags(tags), procedureId: procedureId || null };
+    // Without a list to choose from the build is left out: the server keeps the mark's (or, new, its recording's).
+    const body = {
+      tStart,
+      tEnd: tEnd ?? null,
+      text,
+      tags: splitTags(tags),
+      procedureId: procedureId || null,
+      ...(builds.length ? { buildNumber: buildNumber || null } : {}),
+    };
     fetcher.submit(body, {
       method: markId ? "PATCH" : "POST",
       action: `/api/recordings/${recordingId}/marks${markId ? `/${markId}` : ""}`,
@@ -400,6 +431,27 @@ function MarkForm({
             </p>
           )}
         </div>
+        {builds.length > 0 && (
+          <div className="sm:col-span-2">
+            <label className="label text-xs" htmlFor={`mb-${id}`}>
+              Build <span className="font-normal text-graphite-soft">(the engine this moment shows)</span>
+            </label>
+            <select
+              id={`mb-${id}`}
+              className="field py-1 text-sm"
+              value={buildNumber}
+              onChange={(e) => setBuildNumber(e.target.value)}
+              aria-invalid={errors.buildNumber ? true : undefined}
+            >
+              <BuildOptions builds={builds} keep={initial.buildNumber} />
+            </select>
+            {errors.buildNumber && (
+              <p className="field-error" role="alert">
+                {errors.buildNumber}
+              </p>
+            )}
+          </div>
+        )}
       </div>
       {errors.form && (
         <p className="field-error" role="alert">

@@ -3,6 +3,8 @@ import { Link } from "react-router";
 import type { Upload as TusUpload } from "tus-js-client";
 import { StateBadge } from "./StateBadge";
 import { CaptionFileField, CaptionsSent } from "./UploadCaptions";
+import type { BuildPick } from "~/components/builds/BuildPicker";
+import { BuildField, BuildSent } from "~/components/builds/UploadBuild";
 import { formatBytes } from "~/lib/byte-format";
 import { fileNameProblem, titleFromFileName } from "~/lib/recordings/upload-names";
 import { fileFingerprint, fingerprintMetadata } from "~/lib/recordings/file-fingerprint";
@@ -33,6 +35,8 @@ export type QueueItem = {
   rec: RecState | null;
   /** An optional caption file, attached to the recording once it exists (issue 17). */
   captions?: File | null;
+  /** An optional build (its number), the recording is put on once it exists (issue 16). */
+  build?: string;
 };
 
 const CHUNK = 16 * 1024 * 1024;
@@ -79,7 +83,15 @@ async function findEarlier(file: File): Promise<Earlier | null> {
 
 const uploadIdOf = (url: string | null) => (url ? (url.replace(/\/+$/, "").split("/").pop() ?? null) : null);
 
-export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; onUploadsChange?: (uploadIds: string[]) => void }) {
+export function UploadQueue({
+  maxBytes,
+  onUploadsChange,
+  builds = [],
+}: {
+  maxBytes: number;
+  onUploadsChange?: (uploadIds: string[]) => void;
+  builds?: BuildPick[];
+}) {
   const [items, setItems] = useState<QueueItem[]>([]);
   const uploads = useRef(new Map<string, TusUpload>());
   const [dragging, setDragging] = useState(false);
@@ -313,6 +325,7 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
             <UploadRow
               key={item.key}
               item={item}
+              builds={builds}
               onChange={(p) => patch(item.key, p)}
               onStart={() => start(item)}
               onPause={() => pause(item)}
@@ -333,6 +346,7 @@ export function UploadQueue({ maxBytes, onUploadsChange }: { maxBytes: number; o
 
 function UploadRow({
   item,
+  builds,
   onChange,
   onStart,
   onPause,
@@ -340,6 +354,7 @@ function UploadRow({
   onRemove,
 }: {
   item: QueueItem;
+  builds: BuildPick[];
   onChange: (p: Partial<QueueItem>) => void;
   onStart: () => void;
   onPause: () => void;
@@ -385,6 +400,7 @@ function UploadRow({
               onChange={(e) => onChange({ tags: e.target.value })}
             />
           </div>
+          {builds.length > 0 && <BuildField id={id} builds={builds} value={item.build ?? ""} onChange={(build) => onChange({ build })} />}
           <div className="md:col-span-2">
             <label className="label" htmlFor={`d-${id}`}>
               Description <span className="font-normal text-graphite-soft">(optional)</span>
@@ -457,6 +473,7 @@ function UploadRow({
             <span className={item.rec.state === "processing" ? "text-graphite-soft" : "text-spec-red"}>{item.rec.stateReason}</span>
           )}
           {item.recordingId && item.captions && <CaptionsSent recordingId={item.recordingId} file={item.captions} />}
+          {item.recordingId && item.build && <BuildSent recordingId={item.recordingId} buildNumber={item.build} />}
           {item.recordingId && (
             <Link to={`/recordings/${item.recordingId}`} data-testid="open-recording">
               Open the recording

@@ -10,6 +10,8 @@ export type MarkRow = {
   procedureId: string | null;
   procedureTitle: string | null;
   procedureSlug: string | null;
+  /** The build the mark is on, by number (it may differ from its recording's). */
+  buildNumber?: string | null;
   createdBy: string | null;
   authorName: string | null;
   pending?: boolean;

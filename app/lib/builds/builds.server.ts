@@ -80,8 +80,10 @@ export async function buildSummaries(opts: { status?: readonly BuildStatus[]; li
   return list.map((b) => ({ ...b, counts: counts.get(b.id) ?? { records: 0, out: 0, incomplete: 0 } }));
 }
 
+type BuildChoice = { id: string; number: string; label: string; status: BuildStatus };
+
 /** Build numbers and who they are for, for the pickers that attach work to a build. */
-export async function buildChoices(): Promise<{ id: string; number: string; label: string }[]> {
+export async function buildChoices(): Promise<BuildChoice[]> {
   const rows = await db()
     .select({ id: builds.id, number: builds.number, customer: builds.customerName, engine: builds.engine, status: builds.status })
     .from(builds)
@@ -89,6 +91,7 @@ export async function buildChoices(): Promise<{ id: string; number: string; labe
   return rows.map((r) => ({
     id: r.id,
     number: r.number,
+    status: r.status,
     label: [r.number, r.customer, r.engine].filter(Boolean).join(" · ") + (r.status === "delivered" ? " (delivered)" : ""),
   }));
 }

@@ -181,6 +181,12 @@ async function attached(buildId: string) {
   return { recordings: recs, marks: mks, events };
 }
 
+/** Where an attach or detach event's recording or mark is (other events have no address). */
+function eventHref(d: Record<string, unknown>): string | undefined {
+  if (typeof d.recordingId !== "string") return undefined;
+  return d.what === "mark" && typeof d.t === "number" ? `/recordings/${d.recordingId}?t=${d.t}` : `/recordings/${d.recordingId}`;
+}
+
 /** One timeline line for a build event, in the shop's words. */
 function eventText(kind: string, d: Record<string, unknown>): string {
   switch (kind) {
@@ -194,6 +200,12 @@ function eventText(kind: string, d: Record<string, unknown>): string {
       return `Reopened it: ${d.reason}`;
     case "sheet-mailed":
       return `Mailed the build sheet to ${d.to}`;
+    case "attached":
+      return d.what === "mark"
+        ? `Attached the mark “${d.title}”${d.from ? ` (from ${d.from})` : ""}`
+        : `Attached the recording “${d.title}”${d.from ? ` (from ${d.from})` : ""}`;
+    case "detached":
+      return `Detached the ${d.what === "mark" ? "mark" : "recording"} “${d.title}”${d.to ? ` (now on ${d.to})` : ""}`;
     case "linked":
       return `Linked from the work order text on ${d.testRecords} test record(s) and ${d.recordings} recording(s)`;
     default:
@@ -207,7 +219,7 @@ export async function buildPage(number: string) {
   if (!build) return null;
   const [records, more] = await Promise.all([recordsOf(build.id), attached(build.id)]);
   const timeline: TimelineEntry[] = [
-    ...more.events.map(({ e, by }) => ({ at: e.at, who: by, what: eventText(e.kind, e.detail) })),
+    ...more.events.map(({ e, by }) => ({ at: e.at, who: by, what: eventText(e.kind, e.detail), href: eventHref(e.detail) })),
     ...records.map((v) => ({
       at: v.record.createdAt,
       who: v.filedBy,

@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, notInArray, sql } from "drizzle-orm";
-import { marks, procedures, readings, recordings, users } from "~/db/schema";
+import { builds, marks, procedures, readings, recordings, users } from "~/db/schema";
 import { db } from "../db.server";
 import { STATES_WITHOUT_READINGS } from "./reading-targets";
 
@@ -36,11 +36,13 @@ export async function listRecordings(f: LibraryFilter = {}) {
       createdAt: recordings.createdAt,
       uploadedBy: recordings.uploadedBy,
       uploaderName: users.name,
+      buildNumber: builds.number,
       markCount,
       readingCount,
     })
     .from(recordings)
     .leftJoin(users, eq(users.id, recordings.uploadedBy))
+    .leftJoin(builds, eq(builds.id, recordings.buildId))
     .where(where.length ? and(...where) : undefined)
     .orderBy(f.sort === "oldest" ? asc(recordings.createdAt) : desc(recordings.createdAt))
     .limit(200);
@@ -62,11 +64,12 @@ export async function libraryFacets() {
 export async function getRecording(id: string) {
   if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
   const [row] = await db()
-    .select({ r: recordings, uploaderName: users.name })
+    .select({ r: recordings, uploaderName: users.name, buildNumber: builds.number })
     .from(recordings)
     .leftJoin(users, eq(users.id, recordings.uploadedBy))
+    .leftJoin(builds, eq(builds.id, recordings.buildId))
     .where(eq(recordings.id, id));
-  return row ? { ...row.r, uploaderName: row.uploaderName } : null;
+  return row ? { ...row.r, uploaderName: row.uploaderName, buildNumber: row.buildNumber } : null;
 }
 
 export async function listMarks(recordingId: string) {
@@ -80,6 +83,7 @@ export async function listMarks(recordingId: string) {
       procedureId: marks.procedureId,
       procedureTitle: procedures.title,
       procedureSlug: procedures.slug,
+      buildNumber: builds.number,
       createdBy: marks.createdBy,
       authorName: users.name,
       createdAt: marks.createdAt,
@@ -87,6 +91,7 @@ export async function listMarks(recordingId: string) {
     .from(marks)
     .leftJoin(users, eq(users.id, marks.createdBy))
     .leftJoin(procedures, eq(procedures.id, marks.procedureId))
+    .leftJoin(builds, eq(builds.id, marks.buildId))
     .where(eq(marks.recordingId, recordingId))
     .orderBy(asc(marks.tStart), asc(marks.createdAt));
 }

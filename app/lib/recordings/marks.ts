@@ -4,6 +4,7 @@
  * Pure: no Node built-ins, safe in the browser.
  */
 import { z } from "zod";
+import { buildNumberInput } from "~/lib/builds/attach-form";
 import { tagsSchema } from "~/lib/tags";
 import { pastTheEnd, tooLateMessage, videoSeconds } from "./video-time";
 
@@ -18,6 +19,7 @@ export function markInputSchema(durationS: number | null) {
       text: z.string().trim().min(1, "Write what happens at this moment.").max(2000, "Keep a mark under 2000 characters."),
       tags: tagsSchema,
       procedureId,
+      buildNumber: buildNumberInput,
     })
     .superRefine((m, ctx) => {
       if (pastTheEnd(m.tStart, durationS)) ctx.addIssue({ code: "custom", path: ["tStart"], message: tooLateMessage(durationS!) });
@@ -36,6 +38,7 @@ export const markPatchSchema = (durationS: number | null) =>
       text: z.string().trim().min(1, "Write what happens at this moment.").max(2000).optional(),
       tags: tagsSchema.optional(),
       procedureId,
+      buildNumber: buildNumberInput,
     })
     .superRefine((m, ctx) => {
       if (m.tStart != null && pastTheEnd(m.tStart, durationS))

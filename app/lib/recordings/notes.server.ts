@@ -1,6 +1,6 @@
 import { and, eq } from "drizzle-orm";
 import { z } from "zod";
-import { marks, readings } from "~/db/schema";
+import { builds, marks, readings } from "~/db/schema";
 import { assertCan, forbidden, type SessionUser } from "../auth.server";
 import { db } from "../db.server";
 import { canOnOwned } from "../permissions";
@@ -13,6 +13,7 @@ import { markInputSchema, markPatchSchema } from "./marks";
 import { positionInputOf } from "./positions";
 import { readingInputSchema, toStoredSI } from "./quantities";
 import { assertTakesReadings } from "./reading-targets";
+import { moveMark, newMarkBuildId, resolveBuild } from "./build-link.server";
 
 /**
  * Marks and readings: the rules the JSON API applies (validation against the recording's
@@ -74,6 +75,9 @@ export async function createMark(request: Request, user: SessionUser, recordingI
   const parsed = markInputSchema(rec.durationS).safeParse(body);
   if (!parsed.success) return invalidInput(request, parsed.error);
   if (await procedureUnreadable(user, parsed.data.procedureId)) return unknownProcedure();
+  // Its recording's build unless the writer chose another or none (build-link.server.ts).
+  const buildId = await newMarkBuildId(db(), recordingId, parsed.data.buildNumber).catch(refusedBuild);
+  if (buildId instanceof Response) return buildId;
   const [row] = await db()
     .insert(marks)
     .values({
@@ -83,10 +87,24 @@ export async function createMark(request: Request, user: SessionUser, recordingI
       text: parsed.data.text,
       tags: parsed.data.tags,
       procedureId: parsed.data.procedureId ?? null,
+      buildId,
       createdBy: user.id,
     })
     .returning();
-  return Response.json({ mark: row }, { status: 201 });
+  return Response.json({ mark: await withBuildNumber(row) }, { status: 201 });
+}
+
+/** An unknown build number as the API's 422 on `buildNumber`; anything else goes on. */
+function refusedBuild(err: unknown): Response {
+  if (err instanceof DomainError) return domainErrorJson(err);
+  throw err;
+}
+
+/** A mark as the API answers it: its build by number (null for none), not by id. */
+async function withBuildNumber<T extends { buildId: string | null }>(row: T) {
+  const { buildId, ...rest } = row;
+  const [b] = buildId ? await db().select({ number: builds.number }).from(builds).where(eq(builds.id, buildId)) : [];
+  return { ...rest, buildNumber: b?.number ?? null };
 }
 
 async function markOr404(request: Request, recordingId: string, markId: string) {
@@ -112,12 +130,18 @@ export async function updateMark(request: Request, user: SessionUser, recordingI
   // A link kept as it was is not checked again: the author of a mark may edit its text even when
   // its procedure has since become one they may not read.
   if (parsed.data.procedureId !== m.procedureId && (await procedureUnreadable(user, parsed.data.procedureId))) return unknownProcedure();
-  const [row] = await db()
-    .update(marks)
-    .set({ tStart: next.tStart, tEnd: next.tEnd, text: next.text, tags: next.tags, procedureId: next.procedureId, updatedAt: new Date() })
-    .where(eq(marks.id, markId))
-    .returning();
-  return Response.json({ mark: row });
+  const build = parsed.data.buildNumber === undefined ? undefined : await resolveBuild(parsed.data.buildNumber).catch(refusedBuild);
+  if (build instanceof Response) return build;
+  const row = await db().transaction(async (tx) => {
+    await tx
+      .update(marks)
+      .set({ tStart: next.tStart, tEnd: next.tEnd, text: next.text, tags: next.tags, procedureId: next.procedureId, updatedAt: new Date() })
+      .where(eq(marks.id, markId));
+    if (build !== undefined) await moveMark(tx, user.id, markId, build);
+    const [after] = await tx.select().from(marks).where(eq(marks.id, markId));
+    return after;
+  });
+  return Response.json({ mark: await withBuildNumber(row) });
 }
 
 export async function deleteMark(request: Request, user: SessionUser, recordingId: string, markId: string) {

@@ -215,20 +215,22 @@ async function procedureDocs(procedureId: string): Promise<IndexChange> {
 
 async function markDocs(where: { markId?: string; recordingId?: string }, unindexable: Unindexable[]): Promise<SearchDoc[]> {
   const rows = await db()
-    .select({ mark: marks, recTitle: recordings.title, recState: recordings.state })
+    .select({ mark: marks, recTitle: recordings.title, recState: recordings.state, buildNumber: builds.number })
     .from(marks)
     .innerJoin(recordings, eq(recordings.id, marks.recordingId))
+    .leftJoin(builds, eq(builds.id, marks.buildId))
     .where(where.markId ? eq(marks.id, where.markId) : eq(marks.recordingId, where.recordingId!));
   const who = await names(rows.map((r) => r.mark.createdBy));
   return rows.flatMap(
-    ({ mark, recTitle }) =>
+    ({ mark, recTitle, buildNumber }) =>
       guarded("mark", mark.id, unindexable, (): WithGroup[] => [
         {
           id: `mark-${mark.id}`,
           group: `rec-${mark.recordingId}`,
           kind: "mark" as const,
           title: mark.text.slice(0, 120),
-          text: `${mark.text} — at ${clock(mark.tStart)}${mark.tEnd != null ? `–${clock(mark.tEnd)}` : ""} in ${recTitle}`,
+          // The build's number, so typing it finds the build's marks (issue 16).
+          text: `${mark.text} — at ${clock(mark.tStart)}${mark.tEnd != null ? `–${clock(mark.tEnd)}` : ""} in ${recTitle}${buildNumber ? ` — build ${buildNumber}` : ""}`,
           tags: mark.tags,
           visibility: ["all"],
           url: `/recordings/${mark.recordingId}?t=${mark.tStart}`,
@@ -341,7 +343,12 @@ async function captionDocs(recordingId: string): Promise<IndexChange> {
 async function recordingDocs(recordingId: string): Promise<IndexChange> {
   const change = empty();
   change.deleteGroups.push(`rec-${recordingId}`);
-  const [rec] = await db().select().from(recordings).where(eq(recordings.id, recordingId));
+  const [row] = await db()
+    .select({ rec: recordings, buildNumber: builds.number })
+    .from(recordings)
+    .leftJoin(builds, eq(builds.id, recordings.buildId))
+    .where(eq(recordings.id, recordingId));
+  const rec = row?.rec;
   if (!rec || rec.state === "rejected") return change;
   const uploader = (await names([rec.uploadedBy])).get(rec.uploadedBy ?? "") ?? "";
   change.upserts.push({
@@ -349,7 +356,8 @@ async function recordingDocs(recordingId: string): Promise<IndexChange> {
     group: `rec-${rec.id}`,
     kind: "recording",
     title: rec.title,
-    text: rec.description,
+    // The build's number, so typing it finds the build's recordings (issue 16).
+    text: [rec.description, row.buildNumber ? `build ${row.buildNumber}` : ""].filter(Boolean).join(" — "),
     tags: rec.tags,
     visibility: ["all"],
     url: `/recordings/${rec.id}`,

@@ -1,4 +1,4 @@
-import { Form, Link, useNavigation } from "react-router";
+import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/build";
 import { BuildOverview, BuildTimeline, OutOfSpecList, RecordsByProcedure } from "~/components/builds/BuildSections";
 import { StatusBadge } from "~/components/builds/parts";
@@ -9,7 +9,14 @@ import { SafetyNote } from "~/components/test-records/parts";
 import { CalcResult } from "~/components/test-records/RecordCalcs";
 import { requirePermission } from "~/lib/auth.server";
 import { buildOr404 } from "~/lib/builds/builds.server";
+import { attachRecordingSchema, detachMarkSchema, detachRecordingSchema } from "~/lib/builds/attach-form";
 import { mailSheetSchema, reopenSchema, statusSchema } from "~/lib/builds/form";
+import {
+  attachRecordingToBuild,
+  detachMarkFromBuild,
+  detachRecordingFromBuild,
+  unattachedRecordings,
+} from "~/lib/recordings/build-link.server";
 import { mailBuildSheet } from "~/lib/builds/mail.server";
 import { buildPage } from "~/lib/builds/page.server";
 import { BuildRuns } from "~/components/runs/RunList";
@@ -24,7 +31,7 @@ import { notFound, readForm } from "~/lib/edge.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { can } from "~/lib/permissions";
-import { formatTime } from "~/lib/time-format";
+import { BuildMedia } from "~/components/builds/BuildMedia";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.build.number ?? "Build"} · Builds · Benchreel` }];
 
@@ -39,6 +46,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     runs: await listRunsForBuild(page.build.id),
     photos: await photosForBuild(page.build.id),
     canRun: can(user.role, "run:work"),
+    unattached: can(user.role, "builds:write") ? await unattachedRecordings() : [],
   };
 }
 
@@ -47,10 +55,23 @@ export async function action({ request, params }: Route.ActionArgs) {
   const b = await buildOr404(request, params);
   const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
-  const schema = intent === "status" ? statusSchema : intent === "reopen" ? reopenSchema : intent === "mail" ? mailSheetSchema : null;
+  const schema =
+    intent === "status"
+      ? statusSchema
+      : intent === "reopen"
+        ? reopenSchema
+        : intent === "mail"
+          ? mailSheetSchema
+          : intent === "attach-recording"
+            ? attachRecordingSchema
+            : intent === "detach-recording"
+              ? detachRecordingSchema
+              : intent === "detach-mark"
+                ? detachMarkSchema
+                : null;
   if (!schema) return unknownAction(request, intent);
   const parsed = parseForm(schema, form);
-  if (!parsed.ok) return { intent, errors: parsed.errors, values: parsed.values };
+  if (!parsed.ok) return data({ intent, errors: parsed.errors, values: parsed.values }, { status: 400 });
   try {
     if (intent === "status") {
       const to = (parsed.data as { to: "on_bench" | "finished" | "delivered" }).to;
@@ -60,6 +81,18 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (intent === "reopen") {
       await reopenBuild(user, b.id, (parsed.data as { reason: string }).reason);
       return redirectWithFlash(`/builds/${b.number}`, { kind: "ok", message: `${b.number} is reopened and back on the bench.` });
+    }
+    if (intent === "attach-recording") {
+      const { title } = await attachRecordingToBuild(user.id, b.number, (parsed.data as { recordingId: string }).recordingId);
+      return redirectWithFlash(`/builds/${b.number}#media`, { kind: "ok", message: `“${title}” is on ${b.number}.` });
+    }
+    if (intent === "detach-recording") {
+      const { title } = await detachRecordingFromBuild(user.id, b.id, (parsed.data as { recordingId: string }).recordingId);
+      return redirectWithFlash(`/builds/${b.number}#media`, { kind: "ok", message: `“${title}” is no longer on ${b.number}.` });
+    }
+    if (intent === "detach-mark") {
+      const { text } = await detachMarkFromBuild(user.id, b.id, (parsed.data as { markId: string }).markId);
+      return redirectWithFlash(`/builds/${b.number}#media`, { kind: "ok", message: `The mark “${text}” is no longer on ${b.number}.` });
     }
     const to = (parsed.data as { to: string }).to;
     const page = await buildPage(b.number);
@@ -226,47 +259,15 @@ export default function BuildPage({ loaderData, actionData }: Route.ComponentPro
           <p className="text-xs text-graphite-soft">{CALC_CAUTION}</p>
         </section>
 
-        <section className="card" aria-labelledby="media-h">
-          <h2 id="media-h" className="text-lg">
-            Recordings and marks
-          </h2>
-          {recordings.length || marks.length ? (
-            <ul className="mt-2 space-y-2 text-sm">
-              {recordings.map((r) => (
-                <li key={r.id}>
-                  <Link to={`/recordings/${r.id}`}>{r.title}</Link>
-                  {r.durationS != null && <span className="num text-graphite-soft"> · {formatTime(r.durationS)}</span>}
-                  {marks.filter((m) => m.recordingId === r.id).length > 0 && (
-                    <ul className="mt-1 space-y-0.5 border-l border-rule pl-3">
-                      {marks
-                        .filter((m) => m.recordingId === r.id)
-                        .map((m) => (
-                          <li key={m.id}>
-                            <Link to={`/recordings/${m.recordingId}?t=${m.tStart}`} className="num">
-                              {formatTime(m.tStart)}
-                            </Link>{" "}
-                            {m.text}
-                          </li>
-                        ))}
-                    </ul>
-                  )}
-                </li>
-              ))}
-              {marks
-                .filter((m) => !recordings.some((r) => r.id === m.recordingId))
-                .map((m) => (
-                  <li key={m.id}>
-                    <Link to={`/recordings/${m.recordingId}?t=${m.tStart}`}>
-                      {m.recordingTitle} at <span className="num">{formatTime(m.tStart)}</span>
-                    </Link>
-                    : {m.text}
-                  </li>
-                ))}
-            </ul>
-          ) : (
-            <p className="mt-1 text-sm text-graphite-soft">No recording or mark is attached to this build.</p>
-          )}
-        </section>
+        <BuildMedia
+          recordings={recordings}
+          marks={marks}
+          canWrite={canWrite}
+          unattached={loaderData.unattached}
+          busy={busy}
+          errors={failed("attach-recording")}
+          refused={failed("detach-recording").form ?? failed("detach-mark").form}
+        />
 
         <BuildTimeline entries={timeline} />
         <SafetyNote />

@@ -9,17 +9,20 @@ import { requirePermission } from "~/lib/auth.server";
 import { domainFailure, unknownAction } from "~/lib/domain-error.server";
 import { env } from "~/lib/env.server";
 import { redirectWithFlash } from "~/lib/flash.server";
-import { unfinishedUploads, UPLOAD_EXPIRY_DAYS } from "~/lib/recordings/tus.server";
+import { unfinishedUploads, uploadExpiryDays } from "~/lib/recordings/tus.server";
 import { discardUnfinishedUpload } from "~/lib/recordings/uploads.server";
 import { formatBytes } from "~/lib/byte-format";
 import { formatDayMonthTime } from "~/lib/dates";
+import { buildChoices } from "~/lib/builds/builds.server";
+import { can } from "~/lib/permissions";
 
 export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Recordings · Benchreel" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "recording:upload");
   const unfinished = await unfinishedUploads(user.id);
-  return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished, expiryDays: UPLOAD_EXPIRY_DAYS };
+  const builds = can(user.role, "builds:read") ? await buildChoices() : [];
+  return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished, expiryDays: uploadExpiryDays(), builds };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -66,7 +69,7 @@ export default function UploadPage({ loaderData, actionData }: Route.ComponentPr
         }
       />
       <div className="grid gap-6 lg:grid-cols-[1fr_18rem]">
-        <UploadQueue maxBytes={loaderData.maxBytes} onUploadsChange={onUploadsChange} />
+        <UploadQueue maxBytes={loaderData.maxBytes} onUploadsChange={onUploadsChange} builds={loaderData.builds} />
         <aside className="space-y-4">
           <section className="card text-sm">
             <h2 className="text-lg">After the upload</h2>

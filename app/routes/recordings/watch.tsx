@@ -15,7 +15,7 @@ import { StateBadge } from "~/components/recordings/StateBadge";
 import type { MarkRow, ReadingRow } from "~/components/recordings/types";
 import { useWatchKeys, WatchKeyHelp } from "~/components/recordings/useWatchKeys";
 import { assertCan, forbidden, requirePermission } from "~/lib/auth.server";
-import { domainFailure, unknownAction } from "~/lib/domain-error.server";
+import { domainFailure, formValues, unknownAction } from "~/lib/domain-error.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { can, canOnOwned } from "~/lib/permissions";
@@ -27,6 +27,10 @@ import { formatDuration } from "~/lib/time-format";
 import { formatDay } from "~/lib/dates";
 import { Transcript, type TranscriptCue, type TranscriptSource } from "~/components/recordings/Transcript";
 import { captionsFor } from "~/lib/captions/captions.server";
+import { BuildLink, BuildOptions } from "~/components/builds/BuildPicker";
+import { buildChoices } from "~/lib/builds/builds.server";
+import { buildNumberField } from "~/lib/builds/attach-form";
+import { setRecordingBuild } from "~/lib/recordings/build-link.server";
 
 const Player = lazy(() => import("~/components/recordings/Player.client"));
 
@@ -42,12 +46,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     procedureChoicesFor(user),
     captionsFor(recording.id),
   ]);
+  // The builds a recording or a mark may be put on, for those who may change one (mark:create
+  // is every mark's writer; recording:edit this recording's details) and read builds.
+  const mayAttach =
+    can(user.role, "builds:read") && (can(user.role, "mark:create") || canOnOwned(user, "recording:edit", recording.uploadedBy));
   return {
     recording,
     marks,
     readings,
     procedures,
     captions,
+    builds: mayAttach ? await buildChoices() : [],
     me: { id: user.id, role: user.role },
     can: {
       edit: canOnOwned(user, "recording:edit", recording.uploadedBy),
@@ -75,9 +84,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     if (!canOnOwned(user, "recording:edit", rec.uploadedBy)) forbidden(request, "You can change only recordings you uploaded.");
     if (intent === "details") {
-      const parsed = parseForm(recordingDetailsSchema, form);
+      const parsed = parseForm(recordingDetailsSchema.merge(buildNumberField), form);
       if (!parsed.ok) return data({ intent, errors: parsed.errors, values: parsed.values }, { status: 400 });
-      await saveRecordingDetails(user.id, rec.id, parsed.data);
+      const { buildNumber, ...details } = parsed.data;
+      if (buildNumber !== rec.buildNumber) assertCan(request, user, "builds:read");
+      // The build first: an unknown number is refused before anything is saved.
+      await setRecordingBuild(user.id, rec.id, buildNumber);
+      await saveRecordingDetails(user.id, rec.id, details);
       return redirectWithFlash(`/recordings/${rec.id}`, { kind: "ok", message: "Details saved." });
     }
     if (intent === "delete") {
@@ -85,7 +98,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       return redirectWithFlash("/recordings", { kind: "ok", message: `Deleted “${rec.title}” with its marks and readings.` });
     }
   } catch (err) {
-    return domainFailure(request, err, String(intent ?? ""));
+    return domainFailure(request, err, String(intent ?? ""), intent === "details" ? formValues(form) : undefined);
   }
   return unknownAction(request, intent);
 }
@@ -181,6 +194,7 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
             {r.uploaderName ?? "Former staff"} · {formatDay(r.createdAt)}
           </span>
           <span className="num">{facts.join(" · ")}</span>
+          <BuildLink number={r.buildNumber} none="On no build" />
         </span>
       </PageHeader>
       <FormError message={actionData?.intent !== "details" ? errors.form : undefined} />
@@ -202,6 +216,28 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
             defaultValue={actionData?.values?.tags ?? r.tags.join(", ")}
             error={errors.tags}
           />
+          {loaderData.builds.length > 0 && (
+            <div>
+              <label className="label" htmlFor="f-buildNumber">
+                Build <span className="font-normal text-graphite-soft">(the engine this recording shows)</span>
+              </label>
+              <select
+                id="f-buildNumber"
+                name="buildNumber"
+                className="field"
+                defaultValue={actionData?.values?.buildNumber ?? r.buildNumber ?? ""}
+                aria-invalid={errors.buildNumber ? true : undefined}
+                aria-describedby={errors.buildNumber ? "f-buildNumber-error" : undefined}
+              >
+                <BuildOptions builds={loaderData.builds} keep={r.buildNumber} />
+              </select>
+              {errors.buildNumber && (
+                <p id="f-buildNumber-error" className="field-error" role="alert">
+                  {errors.buildNumber}
+                </p>
+              )}
+            </div>
+          )}
           <div className="md:col-span-2">
             <label className="label" htmlFor="f-description">
               Description
@@ -279,6 +315,8 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
                 recordingId={r.id}
                 marks={marks}
                 procedures={procedures}
+                builds={loaderData.builds}
+                recordingBuild={r.buildNumber}
                 currentTime={time}
                 canCreate={perms.mark}
                 canEdit={canEditMark}

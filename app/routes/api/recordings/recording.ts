@@ -1,7 +1,11 @@
 import type { Route } from "./+types/recording";
-import { requirePermission } from "~/lib/auth.server";
+import { assertCan, forbidden, requirePermission } from "~/lib/auth.server";
+import { recordingBuildPatch } from "~/lib/builds/attach-form";
+import { domainFailure } from "~/lib/domain-error.server";
 import { idParams } from "~/lib/edge";
-import { parseParams } from "~/lib/edge.server";
+import { invalidInput, methodNotAllowed, parseParams, readJsonObject } from "~/lib/edge.server";
+import { canOnOwned } from "~/lib/permissions";
+import { setRecordingBuild } from "~/lib/recordings/build-link.server";
 import { recordingOr404 } from "~/lib/recordings/notes.server";
 
 /** GET /api/recordings/:id — state and probed facts, polled by the upload page. */
@@ -29,6 +33,25 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       originalSize: r.originalSize,
       uploadedBy: r.uploadedBy,
       createdAt: r.createdAt,
+      buildNumber: r.buildNumber,
     },
   });
+}
+
+/** PATCH /api/recordings/:id `{ buildNumber }` — puts the recording on a build, or on none (null). */
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requirePermission(request, "recording:edit:own");
+  const { id } = parseParams(request, idParams, params, "recording");
+  if (request.method !== "PATCH") return methodNotAllowed("GET, PATCH");
+  const rec = await recordingOr404(request, id);
+  if (!canOnOwned(user, "recording:edit", rec.uploadedBy)) forbidden(request, "You can change only recordings you uploaded.");
+  assertCan(request, user, "builds:read");
+  const parsed = recordingBuildPatch.safeParse(await readJsonObject(request));
+  if (!parsed.success) return invalidInput(request, parsed.error);
+  try {
+    await setRecordingBuild(user.id, rec.id, parsed.data.buildNumber);
+  } catch (err) {
+    return domainFailure(request, err);
+  }
+  return Response.json({ recording: { id: rec.id, buildNumber: parsed.data.buildNumber } });
 }
