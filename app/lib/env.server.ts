@@ -54,6 +54,15 @@ export const envSchema = z.object({
     .int()
     .positive()
     .default(20 * 1024 ** 3),
+  /**
+   * An unfinished upload with no new bytes for this many days is discarded, its bytes swept by
+   * the worker (app/lib/recordings/tus.server.ts); a fraction is allowed (tests, a tight disk).
+   */
+  UPLOAD_EXPIRY_DAYS: z.coerce
+    .number({ error: "must be a number of days" })
+    .positive("must be more than 0 days")
+    .max(365, "must be at most 365 days")
+    .default(14),
   FFPROBE_PATH: z.string().min(1).default("/usr/bin/ffprobe"),
   FFMPEG_PATH: z.string().min(1).default("/usr/bin/ffmpeg"),
   /**

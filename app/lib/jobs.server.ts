@@ -2,7 +2,6 @@ import { env } from "./env.server";
 import { createTransport, drainOutbox } from "./mail.server";
 import { pool } from "./db.server";
 import { ensureRecordingJobs } from "./recordings/processing.server";
-import { cleanUpExpiredUploads } from "./recordings/tus.server";
 import { drainSearchOutbox, repairIndex } from "./search/indexer.server";
 
 /**
@@ -18,8 +17,7 @@ export function periodicTasks(): PeriodicTask[] {
     { name: "mail-outbox", everyMs: env().MAIL_POLL_MS, run: () => drainOutbox({ transport, retryBaseMs }) },
     // recordings: starts the pg-boss worker for the processing queue (once; again after a failure)
     { name: "recordings-queue", everyMs: 5000, run: ensureRecordingJobs },
-    // recordings: unfinished uploads with no new bytes for 14 days (UPLOAD_EXPIRY_DAYS) are discarded
-    { name: "recordings-expired-uploads", everyMs: 3_600_000, run: () => cleanUpExpiredUploads() },
+    // (the sweep of abandoned uploads is a pg-boss schedule the recordings queue's worker registers: tus-sweep.server.ts)
     ...(env().MEILI_HOST
       ? [
           { name: "search-outbox", everyMs: env().SEARCH_POLL_MS, run: () => drainSearchOutbox() },

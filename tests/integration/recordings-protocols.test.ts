@@ -11,7 +11,7 @@ import { eq } from "drizzle-orm";
 import { recordings, uploads } from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { tusFilePath } from "~/lib/recordings/storage.server";
-import { UPLOAD_EXPIRY_DAYS, receivedBytes } from "~/lib/recordings/tus.server";
+import { receivedBytes, uploadExpiryDays } from "~/lib/recordings/tus.server";
 import { fileFingerprint, fingerprintMetadata, type FileFingerprint } from "~/lib/recordings/file-fingerprint";
 import { BASE_URL, createUser, http, waitFor, type TestUser } from "../support/app";
 
@@ -182,17 +182,17 @@ describe("tus 1.0.0", () => {
   it("sends Upload-Expires (the last byte plus the stated time) on creation, PATCH and HEAD; an expired upload is gone (410)", async () => {
     const { id, res } = await create(builder, "expiry.mp4", 20);
     const expires = (r: Response) => Date.parse(r.headers.get("upload-expires") ?? "");
-    expect(expires(res)).toBeGreaterThan(Date.now() + (UPLOAD_EXPIRY_DAYS - 1) * DAY);
+    expect(expires(res)).toBeGreaterThan(Date.now() + (uploadExpiryDays() - 1) * DAY);
     const p = await patch(builder, id, 0, "0123456789");
     expect(p.status).toBe(204);
     const mtime = fs.statSync(tusFilePath(id)).mtimeMs;
-    expect(Math.abs(expires(p) - (mtime + UPLOAD_EXPIRY_DAYS * DAY))).toBeLessThan(1000);
+    expect(Math.abs(expires(p) - (mtime + uploadExpiryDays() * DAY))).toBeLessThan(1000);
     const h = await head(builder, id);
     expect(h.headers.get("upload-offset")).toBe("10");
     expect(expires(h)).toBe(expires(p));
 
     // No bytes for longer than the stated time: HEAD says 410 Gone and the bytes are removed.
-    const old = new Date(Date.now() - (UPLOAD_EXPIRY_DAYS + 1) * DAY);
+    const old = new Date(Date.now() - (uploadExpiryDays() + 1) * DAY);
     await db().update(uploads).set({ createdAt: old }).where(eq(uploads.id, id));
     fs.utimesSync(tusFilePath(id), old, old);
     const gone = await head(builder, id);
@@ -298,7 +298,7 @@ describe("continuing an upload from another browser", () => {
     const mine = await found(builder, fileQueryOf(file, fp));
     expect(mine).toHaveLength(1);
     expect(mine[0]).toMatchObject({ id, received: 400, title: "Head gasket retorque, pass 2" });
-    expect(Date.parse(mine[0].expiresAt)).toBeGreaterThan(Date.now() + (UPLOAD_EXPIRY_DAYS - 1) * DAY);
+    expect(Date.parse(mine[0].expiresAt)).toBeGreaterThan(Date.now() + (uploadExpiryDays() - 1) * DAY);
     // The same file copied to another machine keeps its bytes but may get a new time: the sample decides.
     expect(
       await found(builder, fileQueryOf(new File([file], name, { lastModified: Date.now() }), { ...fp, lastModified: String(Date.now()) })),

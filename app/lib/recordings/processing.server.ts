@@ -10,10 +10,20 @@ import { attachEmbeddedCaptions } from "../captions/captions.server";
 import { db } from "../db.server";
 import { formatTime } from "../time-format";
 import { env } from "../env.server";
-import { boss, DECODE_QUEUE, enqueueDecodeCheck, enqueueProcessing, listenForJobs, PROCESS_QUEUE, stopBoss } from "./queue.server";
+import {
+  boss,
+  DECODE_QUEUE,
+  enqueueDecodeCheck,
+  enqueueProcessing,
+  listenForJobs,
+  PROCESS_QUEUE,
+  stopBoss,
+  UPLOAD_SWEEP_QUEUE,
+} from "./queue.server";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
 import { dropScratch, fetchOriginal, publishOutput, removeStored } from "../storage/recordings.server";
 import { holdingJobLock, watchForOrphans } from "./job-liveness.server";
+import { scheduleUploadSweep } from "./tus-sweep.server";
 
 export type Probe = {
   formatName: string;
@@ -356,6 +366,19 @@ async function reject(id: string, reason: string) {
  * back and it lasts as long as the source (docs/decisions/003).
  */
 export async function processRecording(id: string): Promise<"ready" | "rejected" | "damaged" | "skipped"> {
+  // Work started beside the main line (the poster, embedded captions) reads the scratch copy too.
+  const beside: Promise<unknown>[] = [];
+  try {
+    return await processOnce(id, beside);
+  } finally {
+    // The scratch copy of an original kept in object storage leaves the worker's disk in every
+    // outcome (ready, rejected, damaged, failed, a retry to come: it streams the original again).
+    await Promise.allSettled(beside);
+    await dropScratch(id).catch((err) => console.warn(`[recordings] ${id}: scratch copy not removed: ${(err as Error).message}`));
+  }
+}
+
+async function processOnce(id: string, beside: Promise<unknown>[]): Promise<"ready" | "rejected" | "damaged" | "skipped"> {
   const [rec] = await db().select().from(recordings).where(eq(recordings.id, id));
   if (!rec || rec.state === "ready" || rec.state === "rejected" || rec.state === "damaged") return "skipped";
   await killLeftovers(id);
@@ -416,12 +439,14 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
   // The poster (one frame) is made while the long work runs and shown as soon as it is there.
   const poster = makePoster(id, src, p.durationS, attemptTemp(posterPath(id), attempt, ".jpg"));
   poster.catch(() => {}); // awaited below; never an unhandled rejection meanwhile
+  beside.push(poster);
   // A subtitle track inside the file becomes the recording's captions, read out beside the long work.
   const captions = p.subtitle
     ? attachEmbeddedCaptions(id, src, p.durationS, p.subtitle.codec, (args) => run(env().FFMPEG_PATH, args)).catch((err) =>
         console.warn(`[captions] ${id}: ${err instanceof Error ? err.message : err}`),
       )
     : undefined;
+  if (captions) beside.push(captions);
   const tmp = attemptTemp(renditionPath(id), attempt, ".mp4");
   let made = plan === "transcode" ? await transcodeChecked(id, src, expectedS, tmp) : await decodeAndCopy(src, expectedS, plan, tmp);
   if (!("damage" in made) && plan !== "as-is") {
@@ -458,7 +483,6 @@ export async function processRecording(id: string): Promise<"ready" | "rejected"
     .update(recordings)
     .set({ state: "ready", stateReason: null, progress: 1, hasRendition: plan !== "as-is", readyAt: new Date(), updatedAt: new Date() })
     .where(eq(recordings.id, id));
-  if (plan === "transcode") await dropScratch(id);
   return "ready";
 }
 
@@ -504,9 +528,13 @@ export async function checkDecodeAfterReady(id: string, expectedS: number): Prom
   // The job is sent a moment before "Ready" is written; one that starts in that moment is retried.
   if (rec?.state === "processing") throw new Error("not ready yet");
   if (rec?.state !== "ready") return "skipped";
-  if (!(await fetchOriginal(id))) return "skipped";
-  const damage = damageReason(await decodeCheck(originalPath(id)), expectedS);
-  await dropScratch(id);
+  let damage: string | null;
+  try {
+    if (!(await fetchOriginal(id))) return "skipped";
+    damage = damageReason(await decodeCheck(originalPath(id)), expectedS);
+  } finally {
+    await dropScratch(id);
+  }
   if (!damage) return "ok";
   await db()
     .update(recordings)
@@ -595,6 +623,7 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
     const outcome = await holdingJobLock(job.id, () => checkDecodeAfterReady(job.data.recordingId, job.data.expectedS));
     if (outcome === "damaged") console.log(`[recordings] ${job.data.recordingId}: damaged (found after ready)`);
   });
+  await scheduleUploadSweep(b);
   const listener = listenForJobs(() => b.notifyWorker(workerId));
   return {
     async stop() {
@@ -602,6 +631,7 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
       await listener.stop();
       await b.offWork(PROCESS_QUEUE);
       await b.offWork(DECODE_QUEUE);
+      await b.offWork(UPLOAD_SWEEP_QUEUE);
       await stopBoss();
     },
   };

@@ -13,7 +13,9 @@ export const JOB_OPTIONS = { retryLimit: 3, retryDelay: 5, retryBackoff: true, e
  * that dies during it leaves the job to the next worker instead of the file unchecked.
  */
 export const DECODE_QUEUE = "recording-decode-check";
-const QUEUES = [PROCESS_QUEUE, DECODE_QUEUE];
+/** The hourly sweep of abandoned uploads (tus-sweep.server.ts), made with the others so no two processes make queues at odd times. */
+export const UPLOAD_SWEEP_QUEUE = "uploads-sweep";
+const QUEUES = [PROCESS_QUEUE, DECODE_QUEUE, UPLOAD_SWEEP_QUEUE];
 
 const g = globalThis as unknown as { __benchreelBoss?: Promise<PgBoss> };
 
@@ -25,7 +27,7 @@ export function boss(opts: { worker?: boolean } = {}): Promise<PgBoss> {
       max: opts.worker ? 4 : 2,
       // Only the worker does maintenance and scheduling; the app just sends.
       supervise: Boolean(opts.worker),
-      schedule: false,
+      schedule: Boolean(opts.worker),
     });
     b.on("error", (err) => console.error("[queue]", err.message));
     await b.start();

@@ -4,7 +4,7 @@ import path from "node:path";
 import type { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 import { randomBytes } from "node:crypto";
-import { FileStore } from "@tus/file-store";
+import { FileConfigstore, FileStore } from "@tus/file-store";
 import { S3Store } from "@tus/s3-store";
 import { Server, type Upload } from "@tus/server";
 import { and, desc, eq, isNull, lt } from "drizzle-orm";
@@ -75,35 +75,45 @@ async function onUploadCreate(req: Request, upload: Upload) {
   return {};
 }
 
+/**
+ * The last byte arrived: the recording's row, where its bytes are, and the upload's link to it
+ * are written in one transaction, so a recording row exists exactly when its upload is finished
+ * (the sweep of abandoned uploads relies on it). tus's own sidecar goes after the commit: until
+ * then a failure leaves the upload as it was, to be finished again or swept.
+ */
 async function onUploadFinish(_req: Request, upload: Upload) {
   const [row] = await db().select().from(uploads).where(eq(uploads.id, upload.id));
   if (!row) throw new UploadRefusal(404, "This upload is not known to the shop.");
   if (row.recordingId) return { headers: { "Benchreel-Recording": row.recordingId } };
-  const [rec] = await db()
-    .insert(recordings)
-    .values({
-      title: row.title,
-      description: row.description,
-      tags: row.tags,
-      state: "processing",
-      uploadId: row.id,
-      originalName: row.fileName,
-      originalSize: row.size,
-      uploadedBy: row.userId,
-    })
-    .returning({ id: recordings.id });
-  if (configuredBackend() === "s3") {
-    // The finished object stays where tus wrote it (no copy of gigabytes); the row says where.
-    await placeRecording(rec.id, "s3", upload.id);
-    await storeOf("s3").remove(`${upload.id}.info`);
-  } else {
-    await fs.mkdir(recordingDir(rec.id), { recursive: true });
-    await fs.rename(tusFilePath(upload.id), originalPath(rec.id));
-    await fs.rm(`${tusFilePath(upload.id)}.json`, { force: true });
-  }
-  await db().update(uploads).set({ recordingId: rec.id, finishedAt: new Date() }).where(eq(uploads.id, upload.id));
-  await enqueueProcessing(rec.id);
-  return { headers: { "Benchreel-Recording": rec.id } };
+  const backend = configuredBackend();
+  const recId = await db().transaction(async (tx) => {
+    const [rec] = await tx
+      .insert(recordings)
+      .values({
+        title: row.title,
+        description: row.description,
+        tags: row.tags,
+        state: "processing",
+        uploadId: row.id,
+        originalName: row.fileName,
+        originalSize: row.size,
+        uploadedBy: row.userId,
+      })
+      .returning({ id: recordings.id });
+    if (backend === "s3") {
+      // The finished object stays where tus wrote it (no copy of gigabytes); the row says where.
+      await placeRecording(rec.id, "s3", upload.id, null, tx);
+    } else {
+      await fs.mkdir(recordingDir(rec.id), { recursive: true });
+      await fs.rename(tusFilePath(upload.id), originalPath(rec.id));
+    }
+    await tx.update(uploads).set({ recordingId: rec.id, finishedAt: new Date() }).where(eq(uploads.id, upload.id));
+    return rec.id;
+  });
+  if (backend === "s3") await storeOf("s3").remove(`${upload.id}.info`);
+  else await fs.rm(`${tusFilePath(upload.id)}.json`, { force: true });
+  await enqueueProcessing(recId);
+  return { headers: { "Benchreel-Recording": recId } };
 }
 
 /**
@@ -246,16 +256,22 @@ export function protocolRefusal(request: Request): Response | null {
   return null;
 }
 
-/** An unfinished upload expires this many days after its last byte arrived (docs/decisions/003). */
-export const UPLOAD_EXPIRY_DAYS = 14;
-const EXPIRY_MS = UPLOAD_EXPIRY_DAYS * 24 * 3600 * 1000;
+/**
+ * An unfinished upload expires this many days after its last byte arrived (docs/decisions/003;
+ * `UPLOAD_EXPIRY_DAYS`, 14 unless the shop sets it): within it an upload resumes from any
+ * browser, after it it is gone (410) and its bytes are swept.
+ */
+export function uploadExpiryDays(): number {
+  return env().UPLOAD_EXPIRY_DAYS;
+}
+const expiryMs = () => uploadExpiryDays() * 24 * 3600 * 1000;
 
 type UploadRow = typeof uploads.$inferSelect;
 
 /** When an unfinished upload expires: its last byte (the file's mtime) or its creation, plus the expiry time. */
 export async function expiresAt(row: Pick<UploadRow, "id" | "createdAt">): Promise<Date> {
   const mtime = await lastByteAt(row.id);
-  return new Date(Math.max(row.createdAt.getTime(), mtime) + EXPIRY_MS);
+  return new Date(Math.max(row.createdAt.getTime(), mtime) + expiryMs());
 }
 
 /** When the last bytes of an unfinished upload arrived (0 when none): the file's mtime, or the store's activity row. */
@@ -313,12 +329,15 @@ export async function handleTus(request: Request, user: SessionUser | null): Pro
   let row: UploadRow | undefined;
   if (id && request.method !== "OPTIONS" && request.method !== "POST") {
     [row] = await db().select().from(uploads).where(eq(uploads.id, id));
-    if (row?.recordingId) return finishedAnswer(request, row);
-    if (row && (await expiresAt(row)) < new Date()) {
+    // Every upload has its row from its creation on; without one it was discarded (by a person,
+    // or swept by another process, whose work tus's per-instance cache of the store would not see).
+    if (!row) return tusAnswer(404, "This upload is not known to the shop: it was discarded, or never begun.");
+    if (row.recordingId) return finishedAnswer(request, row);
+    if ((await expiresAt(row)) < new Date()) {
       await discardUpload(row.id);
       return tusAnswer(
         410,
-        `This unfinished upload expired (no bytes for ${UPLOAD_EXPIRY_DAYS} days) and was discarded; start the upload again.`,
+        `This unfinished upload expired (no bytes for ${uploadExpiryDays()} days) and was discarded; start the upload again.`,
       );
     }
   }
@@ -407,49 +426,123 @@ export async function unfinishedUploads(userId: string, file?: { fileName: strin
   return Promise.all(rows.map(async (r) => ({ ...r, received: await receivedBytes(r.id), expiresAt: await expiresAt(r) })));
 }
 
-/** Discard an unfinished upload: its bytes, its sidecar and its row. */
+/**
+ * Discard an unfinished upload: its bytes, its sidecar and its row (its activity row goes with
+ * it). In a store, tus removes the multipart upload and its .info; the .part object (bytes short
+ * of a whole part) and anything a half-finished upload left are removed by key as well.
+ */
 export async function discardUpload(uploadId: string): Promise<void> {
-  if (configuredBackend() === "s3")
+  if (configuredBackend() === "s3") {
     await tusServer()
       .datastore.remove(uploadId)
       .catch(() => {});
+    const store = storeOf("s3");
+    for (const key of [`${uploadId}.part`, `${uploadId}.info`]) await store.remove(key).catch(() => {});
+    // The object at the id itself is a finished upload: a recording's original once a recording names it.
+    const [rec] = await db().select({ id: recordings.id }).from(recordings).where(eq(recordings.uploadId, uploadId));
+    if (!rec) await store.remove(uploadId).catch(() => {});
+  }
   await fs.rm(tusFilePath(uploadId), { force: true });
   await fs.rm(`${tusFilePath(uploadId)}.json`, { force: true });
   await db().delete(uploads).where(eq(uploads.id, uploadId));
 }
 
+/** tus's upload ids (namingFunction): nothing else in the store or tus's folder is the sweep's. */
+const ID = /^[0-9a-f]{32}$/;
+
 /**
- * The worker's clean-up (hourly): unfinished uploads past their expiry are discarded, bytes
- * and row; so are files in tus's folder that no upload row knows, once as old.
+ * The sweep of abandoned uploads (the worker, hourly: tus-sweep.server.ts). First the uploads
+ * the shop knows: an unfinished one with no bytes for the expiry time is discarded, bytes, row
+ * and activity together; one still receiving bytes is kept, however long ago it began. A row
+ * whose recording exists (a finish interrupted after its commit) is linked to it, never
+ * discarded. Then tus's own expiration (`deleteExpired` of the store, with the stores'
+ * `expirationPeriodInMilliseconds`) for bytes no row knows, which tus counts from their start:
+ * left behind by a failed creation, a lost row or a crash, they are removed once as old.
+ * Returns how many uploads went.
  */
 export async function cleanUpExpiredUploads(now = new Date()): Promise<number> {
   const candidates = await db()
-    .select()
+    .select({ upload: uploads, recordingId: recordings.id })
     .from(uploads)
-    .where(and(isNull(uploads.recordingId), lt(uploads.createdAt, new Date(now.getTime() - EXPIRY_MS))))
+    .leftJoin(recordings, eq(recordings.uploadId, uploads.id))
+    .where(and(isNull(uploads.recordingId), lt(uploads.createdAt, new Date(now.getTime() - expiryMs()))))
     .limit(500);
   let n = 0;
-  for (const u of candidates) {
+  for (const { upload: u, recordingId } of candidates) {
+    if (recordingId) {
+      await db()
+        .update(uploads)
+        .set({ recordingId, finishedAt: u.finishedAt ?? now })
+        .where(eq(uploads.id, u.id));
+      continue;
+    }
     if ((await expiresAt(u)) >= now) continue;
     await discardUpload(u.id);
     n++;
   }
-  // Objects in a store that no upload row knows are the store's lifecycle rules' to remove (docs/deploying.md).
-  if (configuredBackend() === "s3") return n;
-  const names = await fs.readdir(tusDir());
-  const ids = [...new Set(names.map((f) => f.replace(/\.json$/, "")))].filter((f) => /^[0-9a-f]{32}$/.test(f));
-  for (const id of ids) {
-    const [known] = await db().select({ id: uploads.id }).from(uploads).where(eq(uploads.id, id));
-    if (known) continue;
-    const mtime = await fs.stat(tusFilePath(id)).then(
-      (s) => s.mtimeMs,
-      () =>
-        fs.stat(`${tusFilePath(id)}.json`).then(
-          (s) => s.mtimeMs,
-          () => now.getTime(),
-        ),
+  return n + (await sweepUnknownBytes(now));
+}
+
+/** Ids of every upload the shop has a row for (tus's sweep must not touch those: their expiry is by last byte). */
+async function knownUploadIds(): Promise<Set<string>> {
+  const rows = await db().select({ id: uploads.id }).from(uploads).where(isNull(uploads.recordingId));
+  return new Set(rows.map((r) => r.id));
+}
+
+/** tus's S3 store for the sweep, seeing only the multipart uploads `only` lets through. */
+class SweepingS3Store extends S3Store {
+  constructor(options: ConstructorParameters<typeof S3Store>[0], only: (key: string) => boolean) {
+    super(options);
+    const list = this.client.listMultipartUploads.bind(this.client);
+    this.client.listMultipartUploads = (async (args: Parameters<typeof list>[0]) => {
+      const page = await list(args);
+      return { ...page, Uploads: (page.Uploads ?? []).filter((u) => u.Key && only(u.Key)) };
+    }) as typeof this.client.listMultipartUploads;
+  }
+}
+
+/**
+ * tus's own expiration over the bytes no upload row knows. tus measures an upload's age from its
+ * creation and would take any upload that old, so the sweeping store is a second instance (the
+ * serving one keeps no creation-based expiry, which would refuse an upload still receiving
+ * bytes) that sees only the unknown ones: the file store through a config store listing only
+ * them, the S3 store through a listing of multipart uploads without the known ones.
+ */
+async function sweepUnknownBytes(now: Date): Promise<number> {
+  const known = await knownUploadIds();
+  const unknown = (id: string) => ID.test(id) && !known.has(id);
+  const expirationPeriodInMilliseconds = expiryMs();
+  const c = storeConfigFrom(env());
+  if (typeof c !== "string" && c.kind === "s3") {
+    const sweeper = new SweepingS3Store(
+      {
+        s3ClientConfig: { ...s3ClientConfig(c), bucket: c.bucket },
+        expirationPeriodInMilliseconds,
+        // Tags mark finished uploads for a lifecycle rule; the sweep needs none.
+        useTags: false,
+      },
+      unknown,
     );
-    if (mtime + EXPIRY_MS >= now.getTime()) continue;
+    // deleteExpired counts the objects it deleted (.info and .part): two per upload.
+    return Math.ceil((await sweeper.deleteExpired()) / 2);
+  }
+  const dir = tusDir();
+  const configs = new FileConfigstore(dir);
+  const listAll = configs.list.bind(configs);
+  configs.list = async () => (await listAll()).filter(unknown);
+  const sweeper = new FileStore({ directory: dir, configstore: configs, expirationPeriodInMilliseconds });
+  let n = await sweeper.deleteExpired();
+  // A file without its sidecar or a sidecar without its file (a crash between the two writes)
+  // is not an upload to tus at all: removed here once as old, by its time on disk.
+  const names = await fs.readdir(dir);
+  for (const id of new Set(names.map((f) => f.replace(/\.json$/, "")))) {
+    if (!unknown(id) || (names.includes(id) && names.includes(`${id}.json`))) continue;
+    const [file] = names.includes(id) ? [tusFilePath(id)] : [`${tusFilePath(id)}.json`];
+    const mtime = await fs.stat(file).then(
+      (st) => st.mtimeMs,
+      () => now.getTime(),
+    );
+    if (mtime + expirationPeriodInMilliseconds >= now.getTime()) continue;
     await discardUpload(id);
     n++;
   }

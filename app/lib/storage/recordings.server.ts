@@ -2,7 +2,7 @@ import fs from "node:fs/promises";
 import path from "node:path";
 import { eq } from "drizzle-orm";
 import { recordingStorage } from "~/db/schema";
-import { db } from "../db.server";
+import { type DbOrTx, db } from "../db.server";
 import { env } from "../env.server";
 import { originalPath, recordingDir, uploadRoot } from "../recordings/storage.server";
 import { storeConfigFrom } from "./config";
@@ -54,8 +54,14 @@ export async function placementOf(id: string): Promise<Placement> {
 }
 
 /** Says where a new recording's original is, when that is not the folder's usual place. */
-export async function placeRecording(id: string, backend: Backend, originalKey: string, movedAt: Date | null = null): Promise<void> {
-  await db()
+export async function placeRecording(
+  id: string,
+  backend: Backend,
+  originalKey: string,
+  movedAt: Date | null = null,
+  tx: DbOrTx = db(),
+): Promise<void> {
+  await tx
     .insert(recordingStorage)
     .values({ recordingId: id, backend, originalKey, movedAt })
     .onConflictDoUpdate({ target: recordingStorage.recordingId, set: { backend, originalKey, movedAt } });

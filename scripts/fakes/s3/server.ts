@@ -1,8 +1,9 @@
 // The local S3-compatible stand-in for tests, the benchmark and development: s3rver (from
 // npm) on loopback, keeping objects under --dir, with the multipart calls s3rver 3.7 lacks and
 // tus's S3 store needs answered here from s3rver's own folder of parts: ListParts
-// (GET ?uploadId) and AbortMultipartUpload (DELETE ?uploadId). Its one account is s3rver's
-// built-in S3RVER / S3RVER.
+// (GET ?uploadId), AbortMultipartUpload (DELETE ?uploadId) and ListMultipartUploads (GET on
+// the bucket with ?uploads, which tus's expiration sweep reads; an upload's Initiated is its
+// folder's `key` file's time). Its one account is s3rver's built-in S3RVER / S3RVER.
 //
 //   tsx scripts/fakes/s3/server.ts --port 9100 --dir .data/s3 --bucket benchreel
 import fs from "node:fs/promises";
@@ -58,12 +59,36 @@ async function listParts(res: http.ServerResponse, bucket: string, key: string, 
   );
 }
 
+/** Every unfinished multipart upload of the bucket (one page: a stand-in holds few). */
+async function listUploads(res: http.ServerResponse, bucket: string, prefix: string) {
+  const root = s3.store.getResourcePath(bucket, undefined, "uploads");
+  const ids = (await fs.readdir(root).catch(() => [] as string[])).filter((n) => /^[0-9a-f]{32}$/.test(n)).sort();
+  const uploads = (
+    await Promise.all(
+      ids.map(async (id) => {
+        const keyFile = path.join(root, id, "key");
+        const [key, stat] = await Promise.all([fs.readFile(keyFile, "utf8"), fs.stat(keyFile)]).catch(() => [null, null] as const);
+        if (key === null || stat === null || !key.startsWith(prefix)) return "";
+        return `<Upload><Key>${esc(key)}</Key><UploadId>${id}</UploadId><Initiated>${stat.mtime.toISOString()}</Initiated><StorageClass>STANDARD</StorageClass></Upload>`;
+      }),
+    )
+  ).join("");
+  res.writeHead(200, { "content-type": "application/xml" });
+  res.end(
+    xml(
+      `<ListMultipartUploadsResult><Bucket>${esc(bucket)}</Bucket><KeyMarker></KeyMarker><UploadIdMarker></UploadIdMarker><Prefix>${esc(prefix)}</Prefix><MaxUploads>1000</MaxUploads><IsTruncated>false</IsTruncated>${uploads}</ListMultipartUploadsResult>`,
+    ),
+  );
+}
+
 http
   .createServer((req, res) => {
     const url = new URL(req.url ?? "/", "http://s3.local");
     const [, bucket, ...rest] = url.pathname.split("/");
     const key = decodeURIComponent(rest.join("/"));
     const uploadId = url.searchParams.get("uploadId");
+    if (bucket && !key && url.searchParams.has("uploads") && req.method === "GET")
+      return void listUploads(res, bucket, url.searchParams.get("prefix") ?? "");
     if (bucket && key && uploadId && req.method === "GET") return void listParts(res, bucket, key, uploadId);
     if (bucket && key && uploadId && req.method === "DELETE") {
       const dir = partsDir(bucket, uploadId);
