@@ -1,7 +1,9 @@
 // `npm run storage:migrate`: a shop's recordings move from the folder into the object store,
 // each object's checksum verified, the records switched over; interrupted (one object already
-// copied) and run again, nothing is copied twice. Then an instance on the store plays them.
+// copied) and run again, nothing is copied twice; a run photo goes the same way. Then an
+// instance on the store plays them.
 import { execFileSync } from "node:child_process";
+import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import pg from "pg";
@@ -22,7 +24,8 @@ let person: { email: string; password: string };
 const ids: string[] = [];
 const clips: Buffer[] = [];
 
-function migrate(args: string[] = []): { recordings: number; switched: number; copied: number; alreadyThere: number; failed: number } {
+type Summary = { recordings: number; switched: number; photos: number; copied: number; alreadyThere: number; failed: number };
+function migrate(args: string[] = []): Summary {
   if (!folderStack) throw new Error("no stack");
   const out = execFileSync(path.join(ROOT, "node_modules/.bin/tsx"), ["scripts/storage-migrate.ts", ...args], {
     cwd: ROOT,
@@ -74,15 +77,24 @@ it("copies each recording into the store, verifies it, switches it over, and a s
   // An earlier run stopped after copying the second recording's original.
   const early = `recordings/${ids[1]}/original`;
   await store.putFile(early, path.join(folderStack.uploadDir, early));
+  // A photo taken during a run, in the folder where the app kept photos before a store.
+  const photo = `run-photos/${randomUUID()}/${randomUUID()}.png`;
+  const photoBytes = execFileSync("/usr/bin/ffmpeg", [
+    ...["-v", "error", "-f", "lavfi", "-i", "color=c=gray:s=8x6", "-frames:v", "1", "-f", "image2pipe", "-vcodec", "png", "-"],
+  ]);
+  fs.mkdirSync(path.dirname(path.join(folderStack.uploadDir, photo)), { recursive: true });
+  fs.writeFileSync(path.join(folderStack.uploadDir, photo), photoBytes);
 
   const dry = migrate(["--dry-run"]);
-  expect(dry).toMatchObject({ recordings: 2, switched: 0, copied: 0, failed: 0 });
+  expect(dry).toMatchObject({ recordings: 2, switched: 0, photos: 1, copied: 0, failed: 0 });
+  expect(await store.head(photo)).toBeNull();
 
   const first = migrate();
   const files = ids.flatMap((id) =>
     ["original", "web.mp4", "poster.jpg"].filter((f) => fs.existsSync(path.join(folderStack!.uploadDir, "recordings", id, f))),
   );
-  expect(first).toEqual({ recordings: 2, switched: 2, copied: files.length - 1, alreadyThere: 1, failed: 0 });
+  expect(first).toEqual({ recordings: 2, switched: 2, photos: 1, copied: files.length - 1 + 1, alreadyThere: 1, failed: 0 });
+  expect(await sha256Of(await store.read(photo))).toBe(sha256(photoBytes));
   for (const id of ids) {
     for (const f of ["original", "poster.jpg"]) {
       const local = sha256(fs.readFileSync(path.join(folderStack.uploadDir, "recordings", id, f)));
@@ -95,7 +107,8 @@ it("copies each recording into the store, verifies it, switches it over, and a s
   await client.end();
   expect(rows.map((r) => r.backend).sort()).toEqual(["s3", "s3"]);
 
-  expect(migrate()).toEqual({ recordings: 0, switched: 0, copied: 0, alreadyThere: 0, failed: 0 });
+  // Again: no recording left to move, and the photo, already there with its checksum, is not copied twice.
+  expect(migrate()).toEqual({ recordings: 0, switched: 0, photos: 1, copied: 0, alreadyThere: 1, failed: 0 });
 });
 
 it("an instance on the store (with an empty folder of its own) plays the moved recordings with Range", async () => {

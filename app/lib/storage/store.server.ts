@@ -35,6 +35,8 @@ export interface ObjectStore {
   read(key: string, range?: { start: number; end: number }): Promise<Readable>;
   /** Stores a local file under the key (replacing what was there). */
   putFile(key: string, file: string): Promise<void>;
+  /** Stores bytes held in memory (a photo) under the key, whole or not at all. */
+  put(key: string, bytes: Uint8Array): Promise<void>;
   /** Writes the object to a local file, through a temporary name, so a half copy is never taken for the file. */
   getFile(key: string, file: string): Promise<void>;
   /** Removes every object whose key starts with the prefix. */
@@ -75,6 +77,17 @@ export function folderStore(root: string): ObjectStore {
       const tmp = `${dest}.${randomBytes(4).toString("hex")}.tmp`;
       await fs.copyFile(file, tmp);
       await fs.rename(tmp, dest);
+    },
+    async put(key, bytes) {
+      const dest = at(key);
+      await fs.mkdir(path.dirname(dest), { recursive: true });
+      const tmp = `${dest}.${randomBytes(4).toString("hex")}.tmp`;
+      try {
+        await fs.writeFile(tmp, bytes);
+        await fs.rename(tmp, dest);
+      } finally {
+        await fs.rm(tmp, { force: true });
+      }
     },
     async getFile(key, file) {
       if (path.resolve(file) === path.resolve(at(key))) return;
@@ -169,6 +182,9 @@ export function s3Store(c: Extract<StoreConfig, { kind: "s3" }>): ObjectStore & 
         await client.send(new AbortMultipartUploadCommand({ Bucket, Key, UploadId })).catch(() => {});
         throw err;
       }
+    },
+    async put(key, bytes) {
+      await client.send(new PutObjectCommand({ Bucket, Key: checkedKey(key), Body: bytes, ContentLength: bytes.byteLength }));
     },
     async getFile(key, file) {
       const tmp = `${file}.${randomBytes(4).toString("hex")}.tmp`;

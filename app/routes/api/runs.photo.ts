@@ -11,5 +11,5 @@ const photoParams = z.object({ id: uuid, photoId: uuid });
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, "shop:read");
   const p = parseParams(request, photoParams, params, "photo");
-  return (await photoResponse(p.id, p.photoId)) ?? notFound(request, "photo");
+  return (await photoResponse(request, p.id, p.photoId)) ?? notFound(request, "photo");
 }
