@@ -1,8 +1,10 @@
 // Builds in the browser (issue 16), at the desktop and the tablet width: a builder opens a build,
 // moves it on the bench and files a test record for it by choosing it; the build page shows the
 // record, out-of-spec readings first, and the timeline; an apprentice reads the demo build with
-// main 3 out of spec and cannot change it; the build sheet shows the engine's identity.
+// main 3 out of spec and cannot change it; the build sheet shows the engine's identity; a
+// recording is put on a build from its own page and shows on the build page.
 import { expect, type Page, test } from "@playwright/test";
+import { makeBuild, makeRecording } from "../support/build-fixture";
 import { signIn } from "../support/browser";
 
 const WIDTHS = [
@@ -89,6 +91,32 @@ for (const [label, viewport] of WIDTHS) {
     await expect(sheet).toContainText("Delivered");
     await expect(sheet).toContainText("Sign-off");
     await fitsTheWidth(page);
+    await ctx.close();
+  });
+
+  test(`${label}: on a recording's page a builder chooses its build, and the build page lists the recording`, async ({ browser }) => {
+    const number = await makeBuild();
+    const title = `Deck flatness check ${label} ${Math.random().toString(36).slice(2, 7)}`;
+    const recordingId = await makeRecording(title);
+    const ctx = await browser.newContext({ viewport });
+    const page = await ctx.newPage();
+    await signIn(page, "marcus@larkspur.example");
+    await page.goto(`/recordings/${recordingId}`);
+    await expect(page.getByText("On no build")).toBeVisible();
+    await page.getByRole("button", { name: "Edit details" }).click();
+    await page.getByLabel(/^Build/).selectOption(number);
+    await fitsTheWidth(page);
+    await page.getByRole("button", { name: "Save details" }).click();
+    await expect(page.getByText("Details saved.")).toBeVisible();
+    await page.getByRole("link", { name: `Build ${number}` }).click();
+    await expect(page.getByRole("heading", { level: 1, name: number })).toBeVisible();
+    await expect(page.getByTestId("build-recording").filter({ hasText: title })).toHaveCount(1);
+    await expect(page.getByTestId("timeline-entry").first()).toContainText(`Attached the recording “${title}”`);
+    await fitsTheWidth(page);
+    // Detached from the build page, it is offered there again to attach.
+    await page.getByRole("button", { name: `Detach the recording “${title}”` }).click();
+    await expect(page.getByTestId("build-recording")).toHaveCount(0);
+    await expect(page.getByLabel(/^Attach a recording/).locator("option", { hasText: title })).toHaveCount(1);
     await ctx.close();
   });
 }

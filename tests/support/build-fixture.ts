@@ -19,3 +19,21 @@ export async function makeBuild(
     await client.end();
   }
 }
+
+/**
+ * A recording uploaded by the demo builder, on no build, made straight in the database; its
+ * processing "failed" so that its page needs no media file. Returns its id.
+ */
+export async function makeRecording(title: string) {
+  const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+  await client.connect();
+  try {
+    const { rows } = await client.query(
+      `insert into recordings (title, original_name, original_size, state, state_reason, uploaded_by) values ($1, 'deck.mp4', 1, 'failed', 'Browser test fixture', 'demo-marcus') returning id`,
+      [title],
+    );
+    return rows[0].id as string;
+  } finally {
+    await client.end();
+  }
+}
