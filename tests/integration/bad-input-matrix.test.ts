@@ -436,6 +436,24 @@ describe("the cases the outside testers found", () => {
     for (const method of ["GET", "HEAD"]) expect((await http("/api/search?q=%00", { method, cookie: qc.cookie })).status, method).toBe(422);
   });
 
+  it("a build number that is not one (NUL, too long, a number, an unknown one) is a 4xx where recordings and marks take it", async () => {
+    const bad: unknown[] = ["LEW-24-\u00000117", `LEW-24-${"9".repeat(5000)}`, 117, { number: "LEW-24-0117" }, "ZZ-99-99995"];
+    for (const buildNumber of bad) {
+      const what = JSON.stringify(buildNumber).slice(0, 40);
+      const mark = await http(`/api/recordings/${recordingId}/marks`, {
+        cookie: qc.cookie,
+        json: { tStart: 1, text: "a mark", buildNumber },
+      });
+      expect(mark.status, `mark ${what}`).toBe(422);
+      expect(((await mark.json()) as { issues: { path: string }[] }).issues[0].path, `mark ${what}`).toBe("buildNumber");
+      const rec = await http(`/api/recordings/${recordingId}`, { method: "PATCH", cookie: qc.cookie, json: { buildNumber } });
+      expect(rec.status, `recording ${what}`).toBeGreaterThanOrEqual(400);
+      expect(rec.status, `recording ${what}`).toBeLessThan(500);
+    }
+    const page = await http("/builds/LEW-24-0117", { cookie: qc.cookie, form: { intent: "attach-recording", recordingId: "x\u0000" } });
+    expect(page.status).toBe(400);
+  });
+
   it("ids that are not UUIDs are a 404 on pages and the API", async () => {
     const admin = await createUser("admin");
     for (const url of [
