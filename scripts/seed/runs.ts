@@ -1,6 +1,6 @@
 // The demo's open run (issue 16): Marcus is partway through the head studs procedure on the
-// build that is on the bench, with the final torque typed for the last step and the stud
-// protrusion still to measure. Needs the demo procedures and a build On the bench; skipped
+// build that is on the bench, with the final torque typed stud by stud for six of the head's
+// studs (the rest still to come) and the stud protrusion still to measure. Needs the demo procedures and a build On the bench; skipped
 // without them. Idempotent (a fixed run id).
 import { asc, eq } from "drizzle-orm";
 import type { NodePgDatabase } from "drizzle-orm/node-postgres";
@@ -13,10 +13,10 @@ type Db = NodePgDatabase<Record<string, unknown>>;
 
 const RUN_ID = "5eed0000-0000-4000-8000-00000000a001";
 const STUDS = "1a000000-0000-4000-8000-000000000001";
-/** Each demo entry: the spec, what was typed, and how long ago (minutes). */
-const TYPED: { specKey: string; value: number; decimals: number; minutesAgo: number }[] = [
-  { specKey: "studs-final", value: 110, decimals: 0, minutesAgo: 12 },
-];
+/** Each demo entry: the spec, the stud, what was typed, and how long ago (minutes). */
+const TYPED: { specKey: string; fastener: number; value: number; decimals: number; minutesAgo: number }[] = [
+  110, 111, 110, 109, 110, 111,
+].map((value, i) => ({ specKey: "studs-final", fastener: i + 1, value, decimals: 0, minutesAgo: 17 - i }));
 
 export async function seedRuns(db: Db): Promise<number | "skipped"> {
   const [have] = await db.select({ id: runs.id }).from(runs).where(eq(runs.id, RUN_ID));
@@ -51,6 +51,7 @@ export async function seedRuns(db: Db): Promise<number | "skipped"> {
         runId: RUN_ID,
         specId: spec.id,
         specKey: spec.specKey,
+        fastener: t.fastener,
         valueEntered: t.value,
         unitEntered: spec.unit,
         valueDecimals: t.decimals,

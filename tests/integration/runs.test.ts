@@ -2,6 +2,9 @@
 // retried idempotency keys, a newer publish is announced and the pin kept at filing, a run
 // with specs left unmeasured files an Incomplete record, and the bad input a tablet or a
 // clumsy client can send (ids, values, oversized and non-image photos) is answered 4xx.
+// The fixture's bore is measured per cylinder and its torque per stud (positionFieldsForSpec):
+// entries carry their place, the latest per spec and place counts, finishing files a reading
+// per place, and a cylinder of the engine left unmeasured makes the record Incomplete.
 import { execFileSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import fs from "node:fs";
@@ -11,7 +14,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { builds, procedureRevisions, procedures, procedureSpecs, runEntries, runs, testRecordReadings, testRecords } from "~/db/schema";
 import { db } from "~/lib/db.server";
-import { listRunPhotos, listRunsForBuild, photosForTestRecord } from "~/lib/runs/runs.server";
+import { getRun, listRunPhotos, listRunsForBuild, photosForTestRecord } from "~/lib/runs/runs.server";
 import { createUser, http, type TestUser } from "../support/app";
 
 const t = (text: string) => ({ type: "text", text });
@@ -53,7 +56,7 @@ async function publishRevision(procedureId: string, number: number, title: strin
   return rev;
 }
 
-async function fixture() {
+async function fixture(counts: { cylinders?: number; mainJournals?: number } = {}) {
   const tag = randomUUID().slice(0, 8);
   const [proc] = await db()
     .insert(procedures)
@@ -64,7 +67,7 @@ async function fixture() {
   const number = `RUN-26-${String(Math.floor(Math.random() * 90000) + 10000)}`;
   const [build] = await db()
     .insert(builds)
-    .values({ number, customerName: "Test customer", engine: "Test four", engineSerial: `SN-${tag}`, status: "on_bench" })
+    .values({ number, customerName: "Test customer", engine: "Test four", engineSerial: `SN-${tag}`, status: "on_bench", ...counts })
     .returning();
   return { proc, rev, build };
 }
@@ -77,9 +80,13 @@ async function startRun(user: TestUser, slug: string, build: string): Promise<st
   return id;
 }
 
+/** Where the fixture's specs are measured unless a test says otherwise: the bore per cylinder, the torque per stud. */
+const FIRST_PLACE: Record<string, Record<string, number>> = { bore: { cylinder: 1 }, final: { fastener: 1 } };
+
 const entry = (specKey: string, value: number | null, unit: string, extra: Record<string, unknown> = {}) => ({
   key: randomUUID(),
   specKey,
+  position: FIRST_PLACE[specKey],
   value,
   unit,
   decimals: value == null ? null : 3,
@@ -87,6 +94,24 @@ const entry = (specKey: string, value: number | null, unit: string, extra: Recor
   device: "test tablet",
   ...extra,
 });
+
+/** A real picture, 8 × 6 grey pixels, as ffmpeg writes a PNG (the build sheet's PDF decodes it). */
+const grayPng = () =>
+  execFileSync("/usr/bin/ffmpeg", [
+    "-v",
+    "error",
+    "-f",
+    "lavfi",
+    "-i",
+    "color=c=gray:s=8x6",
+    "-frames:v",
+    "1",
+    "-f",
+    "image2pipe",
+    "-vcodec",
+    "png",
+    "-",
+  ]);
 
 const post = (user: TestUser, runId: string, json: unknown) =>
   http(`/api/runs/${runId}/entries`, { method: "POST", cookie: user.cookie, json });
@@ -247,25 +272,11 @@ describe("runs", () => {
   it("keeps a camera photo with an entry, refusing files that are not pictures and pictures too large", async () => {
     const { proc, build } = await fixture();
     const runId = await startRun(builder, proc.slug, build.number);
-    // A real picture, 8 × 6 grey pixels, as ffmpeg writes a PNG (the build sheet's PDF decodes it).
-    const png = execFileSync("/usr/bin/ffmpeg", [
-      "-v",
-      "error",
-      "-f",
-      "lavfi",
-      "-i",
-      "color=c=gray:s=8x6",
-      "-frames:v",
-      "1",
-      "-f",
-      "image2pipe",
-      "-vcodec",
-      "png",
-      "-",
-    ]);
+    const png = grayPng();
     const send = (specKey: string, bytes: Uint8Array<ArrayBuffer>, name: string, type: string) => {
       const form = new FormData();
       form.set("specKey", specKey);
+      form.set("cylinder", "1");
       form.set("photo", new File([new Uint8Array(bytes)], name, { type }));
       return http(`/api/runs/${runId}/photos`, { method: "POST", cookie: builder.cookie, body: form });
     };
@@ -289,7 +300,7 @@ describe("runs", () => {
     expect(((await tooBig.json()) as { reason: string }).reason).toMatch(/up to 12 MB/);
 
     const photos = await listRunPhotos(runId);
-    expect(photos.map((p) => [p.specKey, p.specLabel])).toEqual([["bore", "Bore diameter"]]);
+    expect(photos.map((p) => [p.specKey, p.specLabel, p.where])).toEqual([["bore", "Bore diameter", "cyl 1"]]);
     // Once the run files its record, the record's photos are the run's.
     expect((await post(builder, runId, { entries: [entry("bore", 88.006, "mm")] })).status).toBe(200);
     const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
@@ -341,5 +352,154 @@ describe("runs", () => {
     expect(page).toContain(`href="/runs/${a}"`);
     expect(page).toContain(`href="/runs/${b}"`);
     expect(page.match(/data-testid="run-row-progress">(\d+)(?:<!-- -->)? of (?:<!-- -->)?(\d+)/g)?.length).toBe(2);
+  });
+
+  it("stores per-cylinder and per-stud entries exactly once under retries, and keeps the latest at each place", async () => {
+    const { proc, build } = await fixture({ cylinders: 4 });
+    const runId = await startRun(builder, proc.slug, build.number);
+    const at = (specKey: string, place: Record<string, number>, value: number | null, unit: string, typedAt: string) =>
+      entry(specKey, value, unit, { position: place, typedAt });
+    const batch = [
+      at("bore", { cylinder: 1 }, 88.004, "mm", "2026-01-01T10:00:01.000Z"),
+      at("bore", { cylinder: 2 }, 88.011, "mm", "2026-01-01T10:00:02.000Z"),
+      at("bore", { cylinder: 3 }, 88.006, "mm", "2026-01-01T10:00:03.000Z"),
+      at("final", { fastener: 1 }, 110, "N.m", "2026-01-01T10:00:04.000Z"),
+      at("final", { fastener: 2 }, 111, "N.m", "2026-01-01T10:00:05.000Z"),
+    ];
+    // The same batch four times at once and once more (answers lost on the way back).
+    const sends = await Promise.all([1, 2, 3, 4].map(() => post(builder, runId, { entries: batch })));
+    for (const r of sends) expect(r.status).toBe(200);
+    expect((await post(builder, runId, { entries: [...batch].reverse() })).status).toBe(200);
+    expect(await db().select().from(runEntries).where(eq(runEntries.runId, runId))).toHaveLength(5);
+    // The same key at another place is the device's mistake, not a new entry.
+    expect((await post(builder, runId, { entries: [{ ...batch[0], position: { cylinder: 2 } }] })).status).toBe(409);
+
+    // Cylinder 2 retyped later; an earlier typing of cylinder 3 arriving late does not replace its value.
+    const retyped = at("bore", { cylinder: 2 }, 88.007, "mm", "2026-01-01T10:01:00.000Z");
+    const stale = at("bore", { cylinder: 3 }, 88.002, "mm", "2026-01-01T09:59:00.000Z");
+    expect((await post(builder, runId, { entries: [retyped, stale] })).status).toBe(200);
+    const view = await getRun(runId);
+    expect(view?.values["bore@cylinder1"]?.value).toBe(88.004);
+    expect(view?.values["bore@cylinder2"]?.value).toBe(88.007);
+    expect(view?.values["bore@cylinder3"]?.value).toBe(88.006);
+    expect(view?.values["final@fastener2"]?.value).toBe(111);
+    // Places, counted by hand: cylinders 1–3 of the engine's 4, studs 1–2 of 2 typed → 5 of 6.
+    expect(view?.progress).toEqual({ measured: 5, total: 6 });
+    expect(view?.specs.map((sp) => [sp.key, sp.field, sp.offered])).toEqual([
+      ["bore", "cylinder", [1, 2, 3, 4]],
+      ["final", "fastener", [1, 2]],
+    ]);
+    expect((await listRunsForBuild(build.id)).find((r) => r.id === runId)).toMatchObject({ measured: 5, total: 6 });
+  });
+
+  it("files a reading per cylinder and stud, Incomplete while a cylinder of the engine is missing, and the build shows each place", async () => {
+    const { proc, build } = await fixture({ cylinders: 4 });
+    const first = await startRun(builder, proc.slug, build.number);
+    const bores = [88.004, 88.006, null, 88.008];
+    const entries = [
+      ...bores.flatMap((v, i) => (v == null ? [] : [entry("bore", v, "mm", { position: { cylinder: i + 1 } })])),
+      entry("final", 110, "N.m", { position: { fastener: 1 } }),
+      entry("final", 109, "N.m", { position: { fastener: 2 } }),
+    ];
+    expect((await post(builder, first, { entries })).status).toBe(200);
+    const done = await http(`/runs/${first}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    expect(done.status).toBe(302);
+    const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId!));
+    // Every value is within its limits, but cylinder 3 was never measured.
+    expect(rec.verdict).toBe("incomplete");
+    expect(rec.notes).toContain("Bore diameter: Cyl 3");
+    const readings = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, rec.id));
+    const placed = readings.map((r) => [r.specKey, r.cylinder, r.fastener, r.valueEntered]).sort();
+    expect(placed).toEqual(
+      [
+        ["bore", 1, null, 88.004],
+        ["bore", 2, null, 88.006],
+        ["bore", 4, null, 88.008],
+        ["final", null, 1, 110],
+        ["final", null, 2, 109],
+      ].sort(),
+    );
+
+    // A second run measures all four: Within spec.
+    const second = await startRun(builder, proc.slug, build.number);
+    const all = [88.004, 88.006, 88.005, 88.008].map((v, i) => entry("bore", v, "mm", { position: { cylinder: i + 1 } }));
+    expect((await post(builder, second, { entries: [...all, entry("final", 110, "N.m", { position: { fastener: 1 } })] })).status).toBe(
+      200,
+    );
+    const done2 = await http(`/runs/${second}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const record2 = /\/test-records\/([0-9a-f-]{36})/.exec(done2.headers.get("location") ?? "")?.[1];
+    const [rec2] = await db().select().from(testRecords).where(eq(testRecords.id, record2!));
+    expect(rec2.verdict).toBe("within");
+
+    // The build page and its sheet say where each reading was taken, beside its spec.
+    for (const where of [`/builds/${build.number}`, `/builds/${build.number}/sheet`]) {
+      const html = await (await http(where, { cookie: apprentice.cookie })).text();
+      for (const words of ["cyl 1", "cyl 3", "cyl 4", "stud 2"]) expect(html, `${where}: ${words}`).toContain(words);
+    }
+    const pdf = await http(`/builds/${build.number}/sheet.pdf`, { cookie: apprentice.cookie });
+    const file = path.join(os.tmpdir(), `run-places-${randomUUID()}.pdf`);
+    fs.writeFileSync(file, Buffer.from(await pdf.arrayBuffer()));
+    try {
+      const text = execFileSync("pdftotext", ["-layout", file, "-"]).toString();
+      expect(text).toMatch(/cyl 4/);
+      expect(text).toMatch(/stud 2/);
+    } finally {
+      fs.rmSync(file, { force: true });
+    }
+  });
+
+  it("refuses a place out of the engine's range, a place the spec is not measured at, and fields a place does not have", async () => {
+    const { proc, build } = await fixture({ cylinders: 4 });
+    const runId = await startRun(builder, proc.slug, build.number);
+    const cases: [unknown, number, string | null][] = [
+      [{ entries: [entry("bore", 88, "mm", { position: { cylinder: 5 } })] }, 422, "entries.0.position"],
+      [{ entries: [entry("bore", 88, "mm", { position: { cylinder: 0 } })] }, 422, "entries.0.position.cylinder"],
+      [{ entries: [entry("bore", 88, "mm", { position: { cylinder: 2.5 } })] }, 422, "entries.0.position.cylinder"],
+      [{ entries: [entry("bore", 88, "mm", { position: { cylinder: "3" } })] }, 422, "entries.0.position.cylinder"],
+      [{ entries: [entry("bore", 88, "mm", { position: { journal: 2 } })] }, 422, "entries.0.position"],
+      [{ entries: [entry("bore", 88, "mm", { position: { depth: 20 } })] }, 422, "entries.0.position"],
+      [{ entries: [entry("bore", 88, "mm", { position: undefined })] }, 422, "entries.0.position"],
+      [{ entries: [entry("final", 110, "N.m", { position: { fastener: 201 } })] }, 422, "entries.0.position.fastener"],
+      [{ entries: [entry("final", 110, "N.m", { position: { cylinder: 1 } })] }, 422, "entries.0.position"],
+      [{ entries: [entry("final", 110, "N.m", { position: { fastener: 1, cylinder: 1 } })] }, 422, "entries.0.position"],
+    ];
+    for (const [body, status, where] of cases) {
+      const res = await post(builder, runId, body);
+      expect(res.status, JSON.stringify(body)).toBe(status);
+      const out = (await res.json()) as { issues?: { path: string }[]; field?: string };
+      const paths = [...(out.issues ?? []).map((i) => i.path), out.field].filter(Boolean);
+      expect(
+        paths.some((p) => p?.startsWith(where ?? "")),
+        `${JSON.stringify(body)} → ${JSON.stringify(out)}`,
+      ).toBe(true);
+    }
+    expect(await db().select().from(runEntries).where(eq(runEntries.runId, runId))).toHaveLength(0);
+  });
+
+  it("keeps a photo at its place once however often the device sends it again", async () => {
+    const { proc, build } = await fixture({ cylinders: 4 });
+    const runId = await startRun(builder, proc.slug, build.number);
+    const png = grayPng();
+    const send = (fields: Record<string, string>) => {
+      const form = new FormData();
+      for (const [k, v] of Object.entries(fields)) form.set(k, v);
+      form.set("photo", new File([new Uint8Array(png)], "gauge.png", { type: "image/png" }));
+      return http(`/api/runs/${runId}/photos`, { method: "POST", cookie: builder.cookie, body: form });
+    };
+    const key = `photo-${randomUUID()}`;
+    const sent = await Promise.all([1, 2, 3].map(() => send({ specKey: "bore", cylinder: "3", key })));
+    expect(sent.map((r) => r.status).sort()).toEqual([200, 200, 201]);
+    const ids = new Set(await Promise.all(sent.map(async (r) => ((await r.json()) as { id: string }).id)));
+    expect(ids.size).toBe(1);
+    expect((await listRunPhotos(runId)).map((p) => [p.where, p.placeKey])).toEqual([["cyl 3", "bore@cylinder3"]]);
+    // The same key for another place is refused; places out of range, or that the spec has not, are 4xx.
+    expect((await send({ specKey: "bore", cylinder: "2", key })).status).toBe(409);
+    expect((await send({ specKey: "bore", cylinder: "9" })).status).toBe(422);
+    expect((await send({ specKey: "bore", journal: "1" })).status).toBe(422);
+    expect((await send({ specKey: "bore" })).status).toBe(422);
+    expect((await send({ specKey: "bore", cylinder: "three" })).status).toBe(422);
+    expect((await send({ specKey: "bore", cylinder: "1", key: "no" })).status).toBe(422);
+    expect(await listRunPhotos(runId)).toHaveLength(1);
   });
 });

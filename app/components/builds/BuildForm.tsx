@@ -105,6 +105,24 @@ export function BuildForm({
           className="field num"
           hint="e.g. 86.00"
         />
+        <Field
+          label="Cylinders"
+          name="cylinders"
+          inputMode="numeric"
+          defaultValue={v("cylinders")}
+          error={errors.cylinders}
+          className="field num"
+          hint="A run offers a row per cylinder"
+        />
+        <Field
+          label="Main journals"
+          name="mainJournals"
+          inputMode="numeric"
+          defaultValue={v("mainJournals")}
+          error={errors.mainJournals}
+          className="field num"
+          hint="A run offers a row per journal"
+        />
         <TextAreaField
           label="Notes"
           name="notes"

@@ -174,7 +174,7 @@ function BuildSheetDocument({ page, paper, photos }: { page: BuildPage; paper: S
               {photos.map((p) => (
                 <View key={p.id} style={s.photo} wrap={false}>
                   {p.data && <Image style={s.picture} src={{ data: p.data, format: p.mime === "image/png" ? "png" : "jpg" }} />}
-                  <Text>{p.specLabel}</Text>
+                  <Text>{p.where ? `${p.specLabel}, ${p.where}` : p.specLabel}</Text>
                   <Text style={s.meta}>
                     {p.takenByName ?? "a former member of staff"}, {fmtDay(p.createdAt)}
                     {p.data ? "" : " (the picture is on the build page)"}

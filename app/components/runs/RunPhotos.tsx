@@ -1,72 +1,110 @@
-import { useState } from "react";
+import { useEffect, useState } from "react";
 import type { RunPhoto } from "~/lib/runs/runs.server";
 
-type Shown = Pick<RunPhoto, "id" | "url"> & { takenByName?: string | null };
+type Shown = Pick<RunPhoto, "id" | "url" | "placeKey" | "where"> & { takenByName?: string | null };
+type Waiting = { key: string; blob: Blob; position: unknown; refused?: string; specKey: string };
+
+/** An object URL for a photo waiting on the device, revoked when it is no longer shown. */
+function useObjectUrl(blob: Blob): string | null {
+  const [url, setUrl] = useState<string | null>(null);
+  useEffect(() => {
+    const u = URL.createObjectURL(blob);
+    setUrl(u);
+    return () => URL.revokeObjectURL(u);
+  }, [blob]);
+  return url;
+}
+
+function WaitingPhoto({ photo, label }: { photo: Waiting; label: string }) {
+  const url = useObjectUrl(photo.blob);
+  return (
+    <li className="flex flex-col items-center text-xs" data-testid="photo-waiting">
+      {url && (
+        <img
+          src={url}
+          alt={`${label}, waiting on this device`}
+          className="h-24 w-24 rounded border border-dashed border-brass object-cover"
+        />
+      )}
+      <span className={photo.refused ? "field-error" : "text-graphite-soft"}>{photo.refused ?? "waiting to send"}</span>
+    </li>
+  );
+}
 
 /**
- * A spec's photos (the gauge, the wrench's display) and the camera button. A photo goes up at
- * once; without a network it is not kept on the device (they are large): the person is told to
- * take it again when the network is back.
+ * A spec's photos (the gauge, the wrench's display) and the camera button. A photo is kept on
+ * the device first (the run screen's queue, IndexedDB) and sent from there, so one taken
+ * without a network waits and goes when it is back. For a spec measured per place, the photo
+ * belongs to the place chosen beside the button (the one last typed at, to begin with).
  */
 export function RunPhotos({
-  runId,
   specKey,
   specLabel,
+  slots,
+  defaultSlot,
   photos,
+  waiting,
   canAdd,
+  onPhoto,
 }: {
-  runId: string;
   specKey: string;
   specLabel: string;
+  /** The places a photo can belong to; one entry (the spec itself) for a spec measured once. */
+  slots: { key: string; label: string }[];
+  defaultSlot: string;
   photos: Shown[];
+  waiting: Waiting[];
   canAdd: boolean;
+  onPhoto: (slotKey: string, file: File) => void;
 }) {
-  const [added, setAdded] = useState<Shown[]>([]);
-  const [state, setState] = useState<{ busy: boolean; message: string | null }>({ busy: false, message: null });
-  const all = [...photos, ...added];
+  const [chosen, setChosen] = useState<string | null>(null);
+  const slot = chosen && slots.some((s) => s.key === chosen) ? chosen : defaultSlot;
   const inputId = `photo-${specKey}`;
+  const perPlace = slots.length > 1 || slots[0]?.key !== specKey;
+  const waitingLabel = (w: Waiting) => {
+    const at = slots.find((s) => s.key === (w.position ? `${specKey}@${Object.entries(w.position as object)[0]?.join("")}` : specKey));
+    return perPlace && at ? `${specLabel}, ${at.label}` : specLabel;
+  };
 
-  async function upload(file: File) {
-    setState({ busy: true, message: null });
-    const body = new FormData();
-    body.set("specKey", specKey);
-    body.set("photo", file);
-    try {
-      const res = await fetch(`/api/runs/${runId}/photos`, { method: "POST", body });
-      const out = (await res.json().catch(() => ({}))) as { id?: string; url?: string; reason?: string };
-      if (res.ok && out.id && out.url) {
-        const shown = { id: out.id, url: out.url };
-        setAdded((a) => [...a, shown]);
-        setState({ busy: false, message: "Photo kept with this entry." });
-      } else setState({ busy: false, message: out.reason ?? "The photo was refused." });
-    } catch {
-      setState({ busy: false, message: "No network: the photo was not kept. Take it again when the network is back." });
-    }
-  }
-
-  if (!all.length && !canAdd) return null;
+  if (!photos.length && !waiting.length && !canAdd) return null;
   return (
     <div className="mt-3" data-testid="entry-photos">
-      {all.length > 0 && (
+      {(photos.length > 0 || waiting.length > 0) && (
         <ul className="mb-2 flex flex-wrap gap-2">
-          {all.map((p, i) => (
-            <li key={p.id}>
+          {photos.map((p, i) => (
+            <li key={p.id} className="flex flex-col items-center text-xs" data-testid="photo-sent">
               <a href={p.url} target="_blank" rel="noreferrer">
                 <img
                   src={p.url}
-                  alt={`${specLabel}, shot ${i + 1} of ${all.length}`}
+                  alt={`${specLabel}${p.where ? `, ${p.where}` : ""}, shot ${i + 1} of ${photos.length}`}
                   className="h-24 w-24 rounded border border-rule object-cover"
                   loading="lazy"
                 />
               </a>
+              {p.where && <span className="num text-graphite-soft">{p.where}</span>}
             </li>
+          ))}
+          {waiting.map((w) => (
+            <WaitingPhoto key={w.key} photo={w} label={waitingLabel(w)} />
           ))}
         </ul>
       )}
       {canAdd && (
-        <>
+        <div className="flex flex-wrap items-center gap-2">
+          {perPlace && (
+            <label className="flex items-center gap-2 text-sm">
+              Photo of
+              <select className="field min-h-11 w-auto" value={slot} onChange={(e) => setChosen(e.target.value)}>
+                {slots.map((s) => (
+                  <option key={s.key} value={s.key}>
+                    {s.label}
+                  </option>
+                ))}
+              </select>
+            </label>
+          )}
           <label htmlFor={inputId} className="btn min-h-11 cursor-pointer">
-            {state.busy ? "Sending the photo…" : "Add a photo"}
+            Add a photo
             <span className="sr-only"> for {specLabel}</span>
           </label>
           <input
@@ -75,19 +113,13 @@ export function RunPhotos({
             accept="image/*"
             capture="environment"
             className="sr-only"
-            disabled={state.busy}
             onChange={(e) => {
               const f = e.target.files?.[0];
               e.target.value = "";
-              if (f) void upload(f);
+              if (f) onPhoto(slot, f);
             }}
           />
-          {state.message && (
-            <p className="mt-1 text-sm text-graphite-soft" role="status">
-              {state.message}
-            </p>
-          )}
-        </>
+        </div>
       )}
     </div>
   );
@@ -98,7 +130,7 @@ export function RunPhotoGallery({
   photos,
   title = "Photos taken during the run",
 }: {
-  photos: Pick<RunPhoto, "id" | "url" | "specKey" | "specLabel" | "takenByName">[];
+  photos: Pick<RunPhoto, "id" | "url" | "specKey" | "specLabel" | "takenByName" | "where">[];
   title?: string;
 }) {
   const bySpec = new Map<string, typeof photos>();
@@ -117,11 +149,12 @@ export function RunPhotoGallery({
                 <a href={p.url} target="_blank" rel="noreferrer">
                   <img
                     src={p.url}
-                    alt={`${label}, shot ${i + 1} of ${list.length}${p.takenByName ? `, by ${p.takenByName}` : ""}`}
+                    alt={`${label}${p.where ? `, ${p.where}` : ""}, shot ${i + 1} of ${list.length}${p.takenByName ? `, by ${p.takenByName}` : ""}`}
                     className="h-28 w-28 rounded border border-rule object-cover"
                     loading="lazy"
                   />
                 </a>
+                {p.where && <span className="num block text-center text-xs text-graphite-soft">{p.where}</span>}
               </li>
             ))}
           </ul>

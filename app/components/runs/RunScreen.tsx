@@ -6,17 +6,40 @@ import { CALC_CAUTION, calcLabel } from "~/lib/calc-kinds";
 import { parseNumber, unitLabel } from "~/lib/calc-ui/units";
 import type { UnitCode } from "~/lib/calc";
 import { specLimitsText } from "~/lib/procedures/reader-blocks";
-import type { EntryInput } from "~/lib/runs/entries";
+import { type EntryInput, type Place, placeKey, placeLabel, placesBySpec, placeWord, progressOf } from "~/lib/runs/entries";
 import { prefillCalculator, type StepValue } from "~/lib/runs/prefill";
 import type { RunView } from "~/lib/runs/runs.server";
 import { stepTitle } from "~/lib/runs/steps";
 import { READING_VERDICT_LABELS, type ReadingVerdict } from "~/lib/test-records/labels";
 import { evaluateRecord, readingVerdict } from "~/lib/test-records/verdict";
 import { typedDecimals, typedText } from "~/lib/typed-number";
-import { addWaiting, type QueuedEntry, removeWaiting, sendWaiting, waitingEntries } from "./queue";
+import {
+  addWaiting,
+  addWaitingPhoto,
+  type QueuedEntry,
+  type QueuedPhoto,
+  removeWaiting,
+  sendPhoto,
+  sendWaiting,
+  settlePhoto,
+  waitingEntries,
+  waitingPhotos,
+} from "./queue";
 import { RunPhotos } from "./RunPhotos";
 
 type Spec = RunView["specs"][number];
+/** One entry field: a spec, at its place when it is measured per cylinder, journal or stud. */
+type Slot = { spec: Spec; place: Place | null; key: string; label: string };
+
+const slotOf = (spec: Spec, n: number | null): Slot => {
+  const place = spec.field && n != null ? { [spec.field]: n } : null;
+  return { spec, place, key: placeKey(spec.key, place), label: spec.field && n != null ? placeLabel(spec.field, n) : spec.label };
+};
+const placeOfKey = (key: string): { specKey: string; place: Place | null } => {
+  const [specKey, at] = key.split("@");
+  const m = at ? /^(cylinder|journal|fastener)(\d+)$/.exec(at) : null;
+  return { specKey, place: m ? { [m[1]]: Number(m[2]) } : null };
+};
 type Props = {
   view: RunView;
   canWork: boolean;
@@ -62,10 +85,17 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   const open = run.status === "open" && canWork;
   const specByKey = new Map(specs.map((s) => [s.key, s]));
   const [stepAt, setStepAt] = useState(Math.min(run.currentStep, Math.max(0, steps.length - 1)));
+  // Keyed by spec and place (placeKey): "bore@cylinder3", or the spec's key for a spec measured once.
   const [texts, setTexts] = useState<Record<string, string>>(() =>
     Object.fromEntries(Object.entries(view.values).map(([k, v]) => [k, v.value == null ? "" : typedText(v.value, v.decimals)])),
   );
+  // Rows added with "Next stud" (or "Next cylinder" where the build does not say how many).
+  const [addedRows, setAddedRows] = useState<Record<string, number>>({});
+  // The place last typed at, per spec: its value feeds the step's calculators and a photo belongs there.
+  const [lastPlace, setLastPlace] = useState<Record<string, number>>({});
   const [waiting, setWaiting] = useState<QueuedEntry[]>([]);
+  const [photosWaiting, setPhotosWaiting] = useState<QueuedPhoto[]>([]);
+  const [sentPhotos, setSentPhotos] = useState<RunView["photos"]>([]);
   const [sending, setSending] = useState(false);
   const [online, setOnline] = useState(true);
   const [refusals, setRefusals] = useState<Record<string, string>>({});
@@ -74,6 +104,40 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   const [typing, setTyping] = useState<ReadonlySet<string>>(new Set());
   const timers = useRef(new Map<string, ReturnType<typeof setTimeout>>());
   const flushing = useRef(false);
+  const specByKeyRef = useRef(specByKey);
+  specByKeyRef.current = specByKey;
+
+  const flushPhotos = useCallback(async () => {
+    for (const p of (await waitingPhotos(run.id)).filter((x) => !x.refused)) {
+      const out = await sendPhoto(run.id, p);
+      if (out.kind === "offline") break;
+      if (out.kind === "closed") {
+        setClosed(out.reason);
+        break;
+      }
+      const spec = specByKeyRef.current.get(p.specKey);
+      if (out.kind === "sent" && out.url && spec) {
+        const at = slotOf(spec, p.position ? (Object.values(p.position)[0] ?? null) : null);
+        const id = out.url.split("/").pop() ?? p.key;
+        setSentPhotos((list) => [
+          ...list,
+          {
+            id,
+            runId: run.id,
+            specKey: p.specKey,
+            specLabel: spec.label,
+            where: at.place ? at.label : "",
+            placeKey: at.key,
+            url: out.url as string,
+            mime: p.blob.type,
+            takenByName: null,
+            createdAt: new Date(p.takenAt),
+          },
+        ]);
+      }
+      setPhotosWaiting(await settlePhoto(run.id, p.key, out.kind === "refused" ? out.reason : undefined));
+    }
+  }, [run.id]);
 
   const flush = useCallback(async () => {
     if (flushing.current) return;
@@ -94,36 +158,38 @@ export function RunScreen({ view, canWork, actionData }: Props) {
           for (const e of batch) {
             const one = await sendWaiting(run.id, [e]);
             if (one.kind === "offline") break;
-            if (one.kind === "refused") setRefusals((r) => ({ ...r, [e.specKey]: one.reason }));
+            if (one.kind === "refused") setRefusals((r) => ({ ...r, [placeKey(e.specKey, e.position)]: one.reason }));
             if (one.kind !== "closed") setWaiting(await removeWaiting(run.id, new Set([e.key])));
           }
           break;
         }
-        if (out.kind === "refused") setRefusals((r) => ({ ...r, [batch[0].specKey]: out.reason }));
+        if (out.kind === "refused") setRefusals((r) => ({ ...r, [placeKey(batch[0].specKey, batch[0].position)]: out.reason }));
         list = await removeWaiting(run.id, new Set(out.keys));
         setWaiting(list);
       }
       setWaiting(await waitingEntries(run.id));
+      await flushPhotos();
     } finally {
       flushing.current = false;
       setSending(false);
     }
-  }, [run.id]);
+  }, [run.id, flushPhotos]);
 
-  // The device's queue outlives the page: entries typed before a reload or while offline are shown and sent.
+  // The device's queue outlives the page: entries and photos taken before a reload or while offline are shown and sent.
   useEffect(() => {
     let live = true;
-    waitingEntries(run.id).then((list) => {
+    Promise.all([waitingEntries(run.id), waitingPhotos(run.id)]).then(([list, photos]) => {
       if (!live) return;
       setWaiting(list);
+      setPhotosWaiting(photos);
       if (list.length) {
         setTexts((t) => {
           const next = { ...t };
-          for (const e of list) next[e.specKey] = e.value == null ? "" : typedText(e.value, e.decimals);
+          for (const e of list) next[placeKey(e.specKey, e.position)] = e.value == null ? "" : typedText(e.value, e.decimals);
           return next;
         });
-        void flush();
       }
+      if (list.length || photos.length) void flush();
     });
     setOnline(navigator.onLine);
     const up = () => {
@@ -144,19 +210,20 @@ export function RunScreen({ view, canWork, actionData }: Props) {
     };
   }, [run.id, flush]);
 
-  function keep(spec: Spec, text: string) {
+  function keep(slot: Slot, text: string) {
     setTyping((t) => {
       const next = new Set(t);
-      next.delete(spec.key);
+      next.delete(slot.key);
       return next;
     });
     const value = parseNumber(text);
     if (value !== undefined && Number.isNaN(value)) return;
     const entry: QueuedEntry = {
       key: newKey(),
-      specKey: spec.key,
+      specKey: slot.spec.key,
+      ...(slot.place ? { position: slot.place as NonNullable<EntryInput["position"]> } : {}),
       value: value ?? null,
-      unit: spec.unit as EntryInput["unit"],
+      unit: slot.spec.unit as EntryInput["unit"],
       decimals: value == null ? null : typedDecimals(text),
       typedAt: new Date().toISOString(),
       device: deviceName(),
@@ -167,19 +234,36 @@ export function RunScreen({ view, canWork, actionData }: Props) {
     });
   }
 
-  function onType(spec: Spec, text: string) {
-    setTexts((t) => ({ ...t, [spec.key]: text }));
-    setTyping((t) => new Set(t).add(spec.key));
+  function onType(slot: Slot, text: string) {
+    setTexts((t) => ({ ...t, [slot.key]: text }));
+    setTyping((t) => new Set(t).add(slot.key));
+    if (slot.place && slot.spec.field) setLastPlace((l) => ({ ...l, [slot.spec.key]: slot.place?.[slot.spec.field!] as number }));
     setRefusals((r) => {
-      const { [spec.key]: _gone, ...rest } = r;
+      const { [slot.key]: _gone, ...rest } = r;
       return rest;
     });
-    const timer = timers.current.get(spec.key);
+    const timer = timers.current.get(slot.key);
     if (timer) clearTimeout(timer);
     timers.current.set(
-      spec.key,
-      setTimeout(() => keep(spec, text), SAVE_AFTER_MS),
+      slot.key,
+      setTimeout(() => keep(slot, text), SAVE_AFTER_MS),
     );
+  }
+
+  function takePhoto(slot: Slot, file: File) {
+    const photo: QueuedPhoto = {
+      key: newKey(),
+      specKey: slot.spec.key,
+      position: slot.place,
+      blob: file,
+      name: file.name || "photo.jpg",
+      takenAt: new Date().toISOString(),
+    };
+    // Kept on the device first, like an entry: a photo taken without a network goes when it is back.
+    void addWaitingPhoto(run.id, photo).then((list) => {
+      setPhotosWaiting(list);
+      if (navigator.onLine) void flush();
+    });
   }
 
   function go(to: number) {
@@ -195,26 +279,65 @@ export function RunScreen({ view, canWork, actionData }: Props) {
     }).catch(() => {});
   }
 
+  /** The rows a spec shows: its offered places, the rows it starts with, those added, and any typed. */
+  function slotsOf(spec: Spec): Slot[] {
+    if (!spec.field) return [slotOf(spec, null)];
+    const typed = Object.keys(texts)
+      .map(placeOfKey)
+      .filter((k) => k.specKey === spec.key && k.place)
+      .map((k) => Object.values(k.place as Place)[0] as number);
+    const rows = Math.max(spec.startRows, spec.offered.length, ...typed, 0) + (addedRows[spec.key] ?? 0);
+    return Array.from({ length: rows }, (_, i) => slotOf(spec, i + 1));
+  }
+  /** A spec measured per cylinder or journal whose count the build gives has exactly those rows. */
+  const fixedRows = (spec: Spec) =>
+    (spec.field === "cylinder" && view.build.cylinders != null) || (spec.field === "journal" && view.build.mainJournals != null);
+
+  // What is typed, as the server's latest-per-place map: progress and the verdict count places as finishing will.
+  const typedLatest = new Map<string, { valueEntered: number | null } & Place>();
+  const typedBySpec: Record<string, { value: number; unit: string }[]> = {};
+  for (const [k, text] of Object.entries(texts)) {
+    const v = parseNumber(text);
+    const { specKey, place } = placeOfKey(k);
+    const spec = specByKey.get(specKey);
+    if (!spec) continue;
+    const ok = v !== undefined && !Number.isNaN(v);
+    typedLatest.set(k, { valueEntered: ok ? v : null, ...(place ?? {}) });
+    if (ok) typedBySpec[spec.id] = [...(typedBySpec[spec.id] ?? []), { value: v, unit: spec.unit }];
+  }
+  const places = placesBySpec(specs, view.build, typedLatest);
+  const progress = progressOf(places);
+  const missingPlaces = places.reduce((n, p) => n + (p.offered.length && p.missing.length < p.offered.length ? p.missing.length : 0), 0);
+
   const step = steps[stepAt];
   const stepSpecs = (step?.specKeys ?? []).map((k) => specByKey.get(k)).filter((s): s is Spec => Boolean(s));
   const stepValues: StepValue[] = stepSpecs.flatMap((s) => {
-    const v = parseNumber(texts[s.key]);
-    return v === undefined || Number.isNaN(v) ? [] : [{ label: s.label, quantity: s.quantity, value: v, unit: s.unit }];
+    // A per-place spec feeds its calculators the place last typed at (else the highest typed).
+    const slots = slotsOf(s).filter((sl) => {
+      const v = parseNumber(texts[sl.key]);
+      return v !== undefined && !Number.isNaN(v);
+    });
+    const last = lastPlace[s.key];
+    const slot = slots.find((sl) => sl.place && s.field && sl.place[s.field] === last) ?? slots.at(-1);
+    if (!slot) return [];
+    const v = parseNumber(texts[slot.key]) as number;
+    return [{ label: slot.place ? `${s.label} (${slot.label})` : s.label, quantity: s.quantity, value: v, unit: s.unit }];
   });
-  const typedBySpec = Object.fromEntries(
-    specs.flatMap((s) => {
-      const v = parseNumber(texts[s.key]);
-      return v === undefined || Number.isNaN(v) ? [] : [[s.id, [{ value: v, unit: s.unit }]]];
-    }),
-  );
   let evaluation: ReturnType<typeof evaluateRecord> | null = null;
   try {
     evaluation = evaluateRecord(specs, typedBySpec);
+    if (evaluation.verdict === "within" && missingPlaces) evaluation = { ...evaluation, verdict: "incomplete" };
   } catch {
     evaluation = null;
   }
-  const measured = specs.filter((s) => typedBySpec[s.id]).length;
   const unsent = waiting.filter((e) => !e.refused).length;
+  const unsentPhotos = photosWaiting.filter((p) => !p.refused).length;
+  const allPhotos = [...view.photos, ...sentPhotos];
+  const stepProgress = (keys: string[]) => {
+    const mine = places.filter((p) => keys.includes(p.key));
+    const p = progressOf(mine);
+    return keys.length ? ` (${p.measured}/${p.total})` : "";
+  };
 
   return (
     <div className="mx-auto max-w-3xl" data-testid="run-screen" data-run-status={run.status}>
@@ -227,7 +350,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
         <p className="num mt-1 text-graphite-soft">
           Revision {view.revision.number} · started by {view.startedByName ?? "someone no longer here"} ·{" "}
           <span data-testid="run-progress">
-            {measured} of {specs.length} specs measured
+            {progress.measured} of {progress.total} measured
           </span>
         </p>
       </header>
@@ -242,7 +365,16 @@ export function RunScreen({ view, canWork, actionData }: Props) {
       {run.status !== "open" && <ClosedNote view={view} />}
       {closed && <FormError message={closed} />}
 
-      {open && <SaveState online={online} unsent={unsent} typing={typing.size} sending={sending} refused={Object.keys(refusals).length} />}
+      {open && (
+        <SaveState
+          online={online}
+          unsent={unsent}
+          photos={unsentPhotos}
+          typing={typing.size}
+          sending={sending}
+          refused={Object.keys(refusals).length + photosWaiting.filter((p) => p.refused).length}
+        />
+      )}
 
       {step ? (
         <section aria-labelledby="step-h" className="card mt-4 space-y-5 p-5" data-testid="run-step" data-step={stepAt}>
@@ -266,20 +398,39 @@ export function RunScreen({ view, canWork, actionData }: Props) {
               {t}
             </p>
           ))}
-          {stepSpecs.map((s) => (
-            <EntryField
-              key={s.key}
-              spec={s}
-              text={texts[s.key] ?? ""}
-              onType={(t) => onType(s, t)}
-              disabled={!open}
-              refused={refusals[s.key]}
-              waiting={waiting.some((e) => e.specKey === s.key)}
-              photos={view.photos.filter((p) => p.specKey === s.key)}
-              runId={run.id}
-              canPhoto={open}
-            />
-          ))}
+          {stepSpecs.map((s) => {
+            const slots = slotsOf(s);
+            const last = s.field ? (slots.find((sl) => sl.place?.[s.field!] === lastPlace[s.key]) ?? slots[0]) : slots[0];
+            return (
+              <EntryGroup
+                key={s.key}
+                spec={s}
+                slots={slots}
+                texts={texts}
+                onType={onType}
+                disabled={!open}
+                refusals={refusals}
+                waitingKeys={new Set(waiting.map((e) => placeKey(e.specKey, e.position)))}
+                onAddRow={
+                  open && s.field && !fixedRows(s) ? () => setAddedRows((a) => ({ ...a, [s.key]: (a[s.key] ?? 0) + 1 })) : undefined
+                }
+              >
+                <RunPhotos
+                  specKey={s.key}
+                  specLabel={s.label}
+                  slots={slots.map((sl) => ({ key: sl.key, label: sl.label }))}
+                  defaultSlot={last.key}
+                  photos={allPhotos.filter((p) => p.specKey === s.key)}
+                  waiting={photosWaiting.filter((p) => p.specKey === s.key)}
+                  canAdd={open}
+                  onPhoto={(slotKey, file) => {
+                    const slot = slots.find((sl) => sl.key === slotKey) ?? last;
+                    takePhoto(slot, file);
+                  }}
+                />
+              </EntryGroup>
+            );
+          })}
           {step.calculators.map((c, i) => (
             // biome-ignore lint/suspicious/noArrayIndexKey: a step's calculators keep their document order
             <StepCalculator key={i} prefilled={prefillCalculator(c, stepValues)} />
@@ -299,7 +450,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
             {steps.map((s) => (
               <option key={s.index} value={s.index}>
                 {s.index + 1}. {stepTitle(s)}
-                {s.specKeys.length ? ` (${s.specKeys.filter((k) => parseNumber(texts[k]) !== undefined).length}/${s.specKeys.length})` : ""}
+                {stepProgress(s.specKeys)}
               </option>
             ))}
           </select>
@@ -316,11 +467,11 @@ export function RunScreen({ view, canWork, actionData }: Props) {
 
       {open && (
         <FinishPanel
-          measured={measured}
+          measured={progress.measured}
           typing={typing.size}
-          total={specs.length}
+          total={progress.total}
           evaluation={evaluation}
-          unsent={unsent}
+          unsent={unsent + unsentPhotos}
           actionData={actionData}
         />
       )}
@@ -331,112 +482,195 @@ export function RunScreen({ view, canWork, actionData }: Props) {
 function SaveState({
   online,
   unsent,
+  photos,
   typing,
   sending,
   refused,
 }: {
   online: boolean;
   unsent: number;
+  photos: number;
   typing: number;
   sending: boolean;
   refused: number;
 }) {
+  const parts = [
+    unsent ? `${unsent} ${unsent === 1 ? "entry" : "entries"}` : "",
+    photos ? `${photos} ${photos === 1 ? "photo" : "photos"}` : "",
+  ].filter(Boolean);
+  const what = parts.join(" and ");
+  const are = unsent + photos === 1 ? "is" : "are";
   const words =
-    unsent === 0
+    unsent + photos === 0
       ? typing > 0
         ? "Keeping what you type…"
         : "Every entry is saved on the server."
       : !online
-        ? `No network: ${unsent} ${unsent === 1 ? "entry is" : "entries are"} waiting on this device and will be sent when the network is back. Keep working.`
+        ? `No network: ${what} ${are} waiting on this device and will be sent when the network is back. Keep working.`
         : sending
-          ? `Sending ${unsent} ${unsent === 1 ? "entry" : "entries"}…`
-          : `${unsent} ${unsent === 1 ? "entry is" : "entries are"} waiting on this device; trying again…`;
-  const tone = unsent === 0 && typing === 0 ? "border-ok/40 bg-ok-soft text-ok" : "border-brass bg-brass-soft text-graphite";
+          ? `Sending ${what}…`
+          : `${what} ${are} waiting on this device; trying again…`;
+  const tone = unsent + photos === 0 && typing === 0 ? "border-ok/40 bg-ok-soft text-ok" : "border-brass bg-brass-soft text-graphite";
   return (
     <p
       className={`rounded-md border px-4 py-2 text-base font-semibold ${tone}`}
       role="status"
       data-testid="save-state"
       data-waiting={unsent}
+      data-waiting-photos={photos}
     >
-      {words}
-      {refused > 0 && <span className="block font-normal">Some values were refused: see the fields marked below.</span>}
+      {words.charAt(0).toUpperCase() + words.slice(1)}
+      {refused > 0 && <span className="block font-normal">Some values or photos were refused: see the fields marked below.</span>}
     </p>
   );
 }
 
-function EntryField({
+function VerdictTag({ verdict, short }: { verdict: ReadingVerdict; short?: boolean }) {
+  return (
+    <span className={`inline-block rounded border px-2 py-1 text-base font-semibold ${VERDICT_CLASS[verdict]}`} data-testid="entry-verdict">
+      {verdict === "within"
+        ? short
+          ? "Within"
+          : "Within spec"
+        : verdict === "unchecked"
+          ? "Recorded"
+          : `${short ? "Out:" : "Out of spec:"} ${READING_VERDICT_LABELS[verdict]}`}
+    </span>
+  );
+}
+
+/**
+ * A spec's entry fields: one for a spec measured once; for one measured per cylinder, journal
+ * or stud, a compact list of its places, each with its own field and verdict as typed.
+ */
+function EntryGroup({
   spec,
-  text,
+  slots,
+  texts,
   onType,
   disabled,
-  refused,
-  waiting,
-  photos,
-  runId,
-  canPhoto,
+  refusals,
+  waitingKeys,
+  onAddRow,
+  children,
 }: {
   spec: Spec;
-  text: string;
-  onType: (t: string) => void;
+  slots: Slot[];
+  texts: Record<string, string>;
+  onType: (slot: Slot, t: string) => void;
   disabled: boolean;
-  refused?: string;
-  waiting: boolean;
-  photos: RunView["photos"];
-  runId: string;
-  canPhoto: boolean;
+  refusals: Record<string, string>;
+  waitingKeys: ReadonlySet<string>;
+  onAddRow?: () => void;
+  children: React.ReactNode;
 }) {
   const id = `entry-${spec.key}`;
-  const live = liveVerdict(spec, text);
   const unit = unitLabel(spec.unit as UnitCode);
-  const problem = refused ?? live.problem;
-  return (
-    <div className="rounded-lg border border-rule bg-paper/60 p-4" data-testid="entry" data-spec={spec.key}>
-      <label htmlFor={id} className="block text-lg font-semibold">
-        {spec.label}
-      </label>
-      <p className="num text-graphite-soft" id={`${id}-limits`}>
-        {specLimitsText({ ...spec, nominal: spec.nominal ?? null }) || "no limits: recorded only"}
-        {spec.note ? ` · ${spec.note}` : ""}
-      </p>
-      <div className="mt-2 flex flex-wrap items-center gap-3">
-        <div className="flex items-center gap-2">
-          <input
-            id={id}
-            className="field num w-44 text-2xl"
-            inputMode="decimal"
-            autoComplete="off"
-            value={text}
-            disabled={disabled}
-            onChange={(e) => onType(e.target.value)}
-            aria-describedby={`${id}-limits ${id}-verdict${problem ? ` ${id}-error` : ""}`}
-            aria-invalid={problem ? true : undefined}
-          />
-          <span className="text-xl">{unit}</span>
+  const limits = (
+    <p className="num text-graphite-soft" id={`${id}-limits`}>
+      {specLimitsText({ ...spec, nominal: spec.nominal ?? null }) || "no limits: recorded only"}
+      {spec.note ? ` · ${spec.note}` : ""}
+    </p>
+  );
+  if (!spec.field) {
+    const slot = slots[0];
+    const text = texts[slot.key] ?? "";
+    const live = liveVerdict(spec, text);
+    const problem = refusals[slot.key] ?? live.problem;
+    return (
+      <div className="rounded-lg border border-rule bg-paper/60 p-4" data-testid="entry" data-spec={spec.key}>
+        <label htmlFor={id} className="block text-lg font-semibold">
+          {spec.label}
+        </label>
+        {limits}
+        <div className="mt-2 flex flex-wrap items-center gap-3">
+          <div className="flex items-center gap-2">
+            <input
+              id={id}
+              className="field num w-44 text-2xl"
+              inputMode="decimal"
+              autoComplete="off"
+              value={text}
+              disabled={disabled}
+              onChange={(e) => onType(slot, e.target.value)}
+              aria-describedby={`${id}-limits ${id}-verdict${problem ? ` ${id}-error` : ""}`}
+              aria-invalid={problem ? true : undefined}
+            />
+            <span className="text-xl">{unit}</span>
+          </div>
+          <span id={`${id}-verdict`} aria-live="polite" className="min-h-8">
+            {live.verdict && <VerdictTag verdict={live.verdict} />}
+            {waitingKeys.has(slot.key) && <span className="ml-2 text-sm text-graphite-soft">waiting to send</span>}
+          </span>
         </div>
-        <span id={`${id}-verdict`} aria-live="polite" className="min-h-8">
-          {live.verdict && (
-            <span
-              className={`inline-block rounded border px-2 py-1 text-base font-semibold ${VERDICT_CLASS[live.verdict]}`}
-              data-testid="entry-verdict"
-            >
-              {live.verdict === "within"
-                ? "Within spec"
-                : live.verdict === "unchecked"
-                  ? "Recorded"
-                  : `Out of spec: ${READING_VERDICT_LABELS[live.verdict]}`}
-            </span>
-          )}
-          {waiting && <span className="ml-2 text-sm text-graphite-soft">waiting to send</span>}
-        </span>
+        {problem && (
+          <p id={`${id}-error`} className="field-error" role="alert">
+            {problem}
+          </p>
+        )}
+        {children}
       </div>
-      {problem && (
-        <p id={`${id}-error`} className="field-error" role="alert">
-          {problem}
-        </p>
+    );
+  }
+  const word = placeWord(spec.field);
+  return (
+    <fieldset className="rounded-lg border border-rule bg-paper/60 p-4" data-testid="entry" data-spec={spec.key}>
+      <legend className="px-1 text-lg font-semibold">{spec.label}</legend>
+      {limits}
+      <p className="text-sm text-graphite-soft">
+        {`One value per ${word}, in ${unit}.`}
+        {onAddRow ? ` Add a row with “Next ${word}” as you go; a ${word} skipped in the numbering is filed as not measured.` : ""}
+      </p>
+      <ol className="mt-3 grid gap-2 sm:grid-cols-2" data-testid="entry-places">
+        {slots.map((slot) => {
+          const text = texts[slot.key] ?? "";
+          const live = liveVerdict(spec, text);
+          const problem = refusals[slot.key] ?? live.problem;
+          const fid = `${id}-${slot.key.split("@")[1]}`;
+          return (
+            <li
+              key={slot.key}
+              className="rounded-md border border-rule/70 bg-card px-3 py-2"
+              data-testid="entry-place"
+              data-place={slot.label}
+            >
+              <div className="flex flex-wrap items-center gap-x-3 gap-y-1">
+                <label htmlFor={fid} className="num w-16 shrink-0 font-semibold">
+                  {slot.label}
+                  <span className="sr-only">, {spec.label}</span>
+                </label>
+                <input
+                  id={fid}
+                  className="field num w-28 text-xl"
+                  inputMode="decimal"
+                  autoComplete="off"
+                  value={text}
+                  disabled={disabled}
+                  onChange={(e) => onType(slot, e.target.value)}
+                  aria-describedby={`${id}-limits ${fid}-verdict${problem ? ` ${fid}-error` : ""}`}
+                  aria-invalid={problem ? true : undefined}
+                />
+                <span id={`${fid}-verdict`} aria-live="polite" className="min-h-8">
+                  {live.verdict && <VerdictTag verdict={live.verdict} short />}
+                  {waitingKeys.has(slot.key) && <span className="ml-2 text-sm text-graphite-soft">waiting</span>}
+                </span>
+              </div>
+              {problem && (
+                <p id={`${fid}-error`} className="field-error" role="alert">
+                  {problem}
+                </p>
+              )}
+            </li>
+          );
+        })}
+      </ol>
+      {onAddRow && (
+        <button type="button" className="btn mt-3 min-h-11" onClick={onAddRow}>
+          {`Next ${word}`}
+        </button>
       )}
-      <RunPhotos runId={runId} specKey={spec.key} specLabel={spec.label} photos={photos} canAdd={canPhoto} />
-    </div>
+      {children}
+    </fieldset>
   );
 }
 
@@ -505,8 +739,8 @@ function FinishPanel({
       <p>
         Finishing files the test record against this run's revision.{" "}
         {missing > 0
-          ? `${missing} ${missing === 1 ? "spec has" : "specs have"} no value yet: the record will be Incomplete, never Within spec.`
-          : "Every spec has a value."}{" "}
+          ? `${missing} ${missing === 1 ? "place has" : "places have"} no value yet: the record will be Incomplete, never Within spec.`
+          : "Every spec has a value at every place offered."}{" "}
         Now: <VerdictBadge verdict={evaluation?.verdict ?? null} notMeasured={evaluation?.counts.notMeasured ?? 0} />
       </p>
       <Form method="post" className="space-y-3" noValidate>
@@ -523,7 +757,7 @@ function FinishPanel({
         >
           {busy ? "Filing…" : "Finish and file the test record"}
         </button>
-        {unsent > 0 && <p className="text-sm text-graphite-soft">Wait until the entries waiting on this device are sent.</p>}
+        {unsent > 0 && <p className="text-sm text-graphite-soft">Wait until the entries and photos waiting on this device are sent.</p>}
       </Form>
       <details>
         <summary className="cursor-pointer py-2 text-graphite-soft">Stop this run without filing</summary>

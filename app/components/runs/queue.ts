@@ -2,10 +2,11 @@
  * The run screen's outbox on the device: every entry is written here first (IndexedDB, through
  * idb-keyval) and leaves only when the server has answered for it, so a dropped connection, a
  * reload or a tablet that sleeps loses nothing. Each entry carries its own idempotency key: a
- * batch sent twice (the answer lost on the way back) is stored once on the server.
+ * batch sent twice (the answer lost on the way back) is stored once on the server. Photos wait
+ * the same way, as Blobs in a store of their own, each with its key (sent once, like entries).
  */
 import { createStore, get, set, type UseStore } from "idb-keyval";
-import type { EntryInput } from "~/lib/runs/entries";
+import type { EntryInput, Place } from "~/lib/runs/entries";
 
 export type QueuedEntry = EntryInput & { refused?: string };
 
@@ -13,6 +14,12 @@ let store: UseStore | null = null;
 const db = () => {
   store ??= createStore("benchreel-runs", "waiting-entries");
   return store;
+};
+// A database of its own: idb-keyval's createStore opens one object store per database.
+let photoStore: UseStore | null = null;
+const photoDb = () => {
+  photoStore ??= createStore("benchreel-run-photos", "waiting-photos");
+  return photoStore;
 };
 const keyOf = (runId: string) => `run:${runId}`;
 
@@ -59,4 +66,53 @@ export async function sendWaiting(runId: string, entries: QueuedEntry[]): Promis
   const reason = body.reason ?? body.issues?.[0]?.message ?? "The server refused these entries.";
   if (res.status === 409 && /finished|abandoned|closed/i.test(reason)) return { kind: "closed", reason };
   return { kind: "refused", keys: entries.map((e) => e.key), reason, field: body.issues?.[0]?.path };
+}
+
+/** A photo taken on the run screen, kept on the device until the server has it. */
+export type QueuedPhoto = {
+  key: string;
+  specKey: string;
+  position: Place | null;
+  blob: Blob;
+  name: string;
+  takenAt: string;
+  refused?: string;
+};
+
+export async function waitingPhotos(runId: string): Promise<QueuedPhoto[]> {
+  return (await get<QueuedPhoto[]>(keyOf(runId), photoDb())) ?? [];
+}
+
+export async function addWaitingPhoto(runId: string, photo: QueuedPhoto): Promise<QueuedPhoto[]> {
+  const list = [...(await waitingPhotos(runId)), photo];
+  await set(keyOf(runId), list, photoDb());
+  return list;
+}
+
+/** Takes a photo out of the queue once the server answered for it, or marks it refused (kept, to be seen). */
+export async function settlePhoto(runId: string, key: string, refused?: string): Promise<QueuedPhoto[]> {
+  const list = (await waitingPhotos(runId)).flatMap((p) => (p.key !== key ? [p] : refused ? [{ ...p, refused }] : []));
+  await set(keyOf(runId), list, photoDb());
+  return list;
+}
+
+/** Sends one waiting photo under its key (a resend after a lost answer is stored once). */
+export async function sendPhoto(runId: string, p: QueuedPhoto): Promise<SendOutcome & { url?: string }> {
+  const body = new FormData();
+  body.set("specKey", p.specKey);
+  body.set("key", p.key);
+  for (const [field, n] of Object.entries(p.position ?? {})) if (n != null) body.set(field, String(n));
+  body.set("photo", new File([p.blob], p.name, { type: p.blob.type }));
+  let res: Response;
+  try {
+    res = await fetch(`/api/runs/${runId}/photos`, { method: "POST", body });
+  } catch {
+    return { kind: "offline" };
+  }
+  const out = (await res.json().catch(() => ({}))) as { url?: string; reason?: string; issues?: { message: string }[] };
+  if (res.ok) return { kind: "sent", keys: [p.key], url: out.url };
+  if (res.status >= 500 || res.status === 401 || res.status === 429) return { kind: "offline" };
+  const reason = out.reason ?? out.issues?.[0]?.message ?? "The photo was refused.";
+  if (res.status === 409 && /closed|finished|abandoned/i.test(reason)) return { kind: "closed", reason };
+  return { kind: "refused", keys: [p.key], reason };
 }

@@ -49,6 +49,17 @@ function sizeField(what: "bore" | "stroke") {
     });
 }
 
+/** How many cylinders or main journals: a whole number the run screen offers that many rows for, or nothing. */
+function countField(what: string, max: number) {
+  const message = `The number of ${what}, from 1 to ${max}.`;
+  return z
+    .string()
+    .trim()
+    .default("")
+    .transform((s) => (s === "" ? null : Number(s)))
+    .pipe(z.number({ error: message }).int(message).min(1, message).max(max, message).nullable());
+}
+
 export const buildFields = z
   .object({
     customerName: z.string().trim().min(1, { message: "Name the customer." }).max(120, { message: "At most 120 characters." }),
@@ -58,6 +69,8 @@ export const buildFields = z
     bore: sizeField("bore"),
     stroke: sizeField("stroke"),
     sizeUnit: z.enum(SIZE_UNITS, { message: "Choose mm or in." }).default("mm"),
+    cylinders: countField("cylinders", 16),
+    mainJournals: countField("main journals", 12),
     notes: text(5000),
     leadBuilderId: z.string().trim().max(100).default(""),
     receivedOn: optionalDay,

@@ -54,6 +54,8 @@ function columns(f: BuildFields) {
     promisedOn: f.promisedOn,
     ...sizeColumns("bore", f.bore),
     ...sizeColumns("stroke", f.stroke),
+    cylinders: f.cylinders,
+    mainJournals: f.mainJournals,
   };
 }
 
@@ -95,6 +97,8 @@ const FIELD_WORDS: Record<string, string> = {
   promisedOn: "promised",
   boreM: "bore",
   strokeM: "stroke",
+  cylinders: "cylinders",
+  mainJournals: "main journals",
   leadBuilderId: "lead builder",
 };
 

@@ -5,7 +5,8 @@
  */
 import { z } from "zod";
 import { isUnitCode } from "~/lib/calc";
-import { quantityProblem } from "~/lib/edge";
+import { POSITION_RANGES, quantityProblem } from "~/lib/edge";
+import { positionFieldsForSpec } from "~/lib/recordings/positions";
 import { MAX_TYPED_DECIMALS } from "~/lib/typed-number";
 
 /** Made on the device (crypto.randomUUID or the like); letters, digits, - and _ only. */
@@ -14,10 +15,67 @@ const SPEC_KEY = /^[A-Za-z0-9_-]{1,40}$/;
 /** One offline stretch's entries fit in a page's body (64 kB) many times over at this count. */
 export const MAX_ENTRIES_PER_POST = 100;
 
+/** The numbered places a run works a spec through, one row each on the screen. */
+export const RUN_PLACE_FIELDS = ["cylinder", "journal", "fastener"] as const;
+export type RunPlaceField = (typeof RUN_PLACE_FIELDS)[number];
+
+/**
+ * Which numbered place a spec is measured at on a run: a cylinder for a bore, a piston or a
+ * ring gap, a journal for a bearing, a stud for a torque (the first of the spec's position
+ * fields that is a number; depth and angle are not asked on a run). null: measured once.
+ */
+export function runPlaceField(spec: { quantity: string; label: string }): RunPlaceField | null {
+  return positionFieldsForSpec(spec).find((f): f is RunPlaceField => (RUN_PLACE_FIELDS as readonly string[]).includes(f)) ?? null;
+}
+
+const placeNumber = (field: RunPlaceField, what: string) =>
+  z
+    .number({ error: `A ${what} number from ${POSITION_RANGES[field].min} to ${POSITION_RANGES[field].max}.` })
+    .int(`A ${what} number is a whole number.`)
+    .min(POSITION_RANGES[field].min, `A ${what} number from ${POSITION_RANGES[field].min} to ${POSITION_RANGES[field].max}.`)
+    .max(POSITION_RANGES[field].max, `A ${what} number from ${POSITION_RANGES[field].min} to ${POSITION_RANGES[field].max}.`);
+
+/** Where the entry was measured: `{ cylinder: 3 }`; nothing for a spec measured once. Other fields are refused. */
+export const placeSchema = z
+  .strictObject(
+    {
+      cylinder: placeNumber("cylinder", "cylinder"),
+      journal: placeNumber("journal", "journal"),
+      fastener: placeNumber("fastener", "stud"),
+    },
+    { error: "A position names only a cylinder, a journal or a stud." },
+  )
+  .partial()
+  .refine((p) => Object.values(p).filter((v) => v != null).length <= 1, { message: "An entry is measured at one place." });
+export type Place = { cylinder?: number | null; journal?: number | null; fastener?: number | null };
+
+/** The place's field and number, or null for an entry without one. */
+export function placeOf(p: Place | null | undefined): { field: RunPlaceField; n: number } | null {
+  for (const f of RUN_PLACE_FIELDS) if (p?.[f] != null) return { field: f, n: p[f] as number };
+  return null;
+}
+
+/** "bore@cylinder3", "final": one value per spec and place. */
+export const placeKey = (specKey: string, p?: Place | null) => {
+  const at = placeOf(p);
+  return at ? `${specKey}@${at.field}${at.n}` : specKey;
+};
+
+const PLACE_WORDS: Record<RunPlaceField, { short: string; row: string }> = {
+  cylinder: { short: "Cyl", row: "cylinder" },
+  journal: { short: "Main", row: "journal" },
+  fastener: { short: "Stud", row: "stud" },
+};
+/** "Cyl 3", "Main 2", "Stud 7". */
+export const placeLabel = (field: RunPlaceField, n: number) => `${PLACE_WORDS[field].short} ${n}`;
+/** "cylinder", "journal", "stud": the word a row is, as in "Next stud". */
+export const placeWord = (field: RunPlaceField) => PLACE_WORDS[field].row;
+
 export const entrySchema = z
   .object({
     key: z.string().regex(ENTRY_KEY, { message: "An entry key is 8–80 letters, digits, - or _." }),
     specKey: z.string().regex(SPEC_KEY, { message: "That is not a spec of this procedure." }),
+    position: placeSchema.optional(),
     /** null clears the spec's value (a slip typed and then deleted). */
     value: z.number().nullable(),
     unit: z.string().max(16).refine(isUnitCode, { message: "That is not a unit Benchreel knows." }),
@@ -43,20 +101,69 @@ export const entriesBodySchema = z
   })
   .refine((b) => b.entries.length > 0 || b.step != null, { message: "Send at least one entry or the step.", path: ["entries"] });
 
-/** The latest value of each spec: later typing wins; on the same instant, the later arrival. */
-export function latestBySpec<E extends { specKey: string; typedAt: Date | string; receivedOrder: number }>(entries: E[]): Map<string, E> {
+/** The latest value at each spec and place: later typing wins; on the same instant, the later arrival. Keyed by `placeKey`. */
+export function latestByPlace<E extends { specKey: string; typedAt: Date | string; receivedOrder: number } & Place>(
+  entries: E[],
+): Map<string, E> {
   const out = new Map<string, E>();
   for (const e of entries) {
-    const cur = out.get(e.specKey);
+    const k = placeKey(e.specKey, e);
+    const cur = out.get(k);
     const t = new Date(e.typedAt).getTime();
     const ct = cur ? new Date(cur.typedAt).getTime() : Number.NEGATIVE_INFINITY;
-    if (!cur || t > ct || (t === ct && e.receivedOrder > cur.receivedOrder)) out.set(e.specKey, e);
+    if (!cur || t > ct || (t === ct && e.receivedOrder > cur.receivedOrder)) out.set(k, e);
   }
   return out;
 }
 
-/** A run's progress: specs with a value out of all its specs (a spec cleared again counts as open). */
-export function progressOf(specKeys: string[], latest: Map<string, { valueEntered: number | null }>) {
-  const measured = specKeys.filter((k) => latest.get(k)?.valueEntered != null).length;
-  return { measured, total: specKeys.length };
+/** The engine's counts, which say how many cylinders and main journals a run offers. */
+export type EngineCounts = { cylinders: number | null; mainJournals: number | null };
+
+/**
+ * The places a spec is offered at on a run, each of which must have a value for the record to
+ * be complete: every cylinder (or main journal) of the engine when the build says how many;
+ * otherwise, and always for studs (added row by row as the person works), 1 up to the highest
+ * number given a value, so a stud skipped in the sequence is missing. A spec without a place
+ * is offered once ([null]).
+ */
+export function offeredPlaces(field: RunPlaceField | null, counts: EngineCounts, valued: number[]): (number | null)[] {
+  if (!field) return [null];
+  const count = field === "cylinder" ? counts.cylinders : field === "journal" ? counts.mainJournals : null;
+  const top = Math.max(count ?? 0, ...valued, 0);
+  return Array.from({ length: top }, (_, i) => i + 1);
+}
+
+type SpecLike = { key: string; quantity: string; label: string };
+type LatestLike = { valueEntered: number | null } & Place;
+
+/** Each spec's offered places and which of them have no value yet (a cleared value counts as open). */
+export function placesBySpec(specs: SpecLike[], counts: EngineCounts, latest: Map<string, LatestLike>) {
+  const bySpec = new Map<string, LatestLike[]>();
+  for (const [k, e] of latest) {
+    const specKey = k.split("@")[0];
+    bySpec.set(specKey, [...(bySpec.get(specKey) ?? []), e]);
+  }
+  return specs.map((s) => {
+    const field = runPlaceField(s);
+    const mine = bySpec.get(s.key) ?? [];
+    const valued = field ? mine.filter((e) => e.valueEntered != null && e[field] != null).map((e) => e[field] as number) : [];
+    const offered = offeredPlaces(field, counts, valued);
+    const missing = offered.filter((n) => latest.get(placeKey(s.key, field && n != null ? { [field]: n } : null))?.valueEntered == null);
+    return { key: s.key, field, offered, missing };
+  });
+}
+
+/**
+ * A run's progress in places: each offered place with a value out of all offered; a spec with
+ * no place, or a stud or cylinder spec with nothing yet, counts as one.
+ */
+export function progressOf(places: ReturnType<typeof placesBySpec>) {
+  let measured = 0;
+  let total = 0;
+  for (const p of places) {
+    const offered = Math.max(1, p.offered.length);
+    total += offered;
+    measured += p.offered.length ? p.offered.length - p.missing.length : 0;
+  }
+  return { measured, total };
 }

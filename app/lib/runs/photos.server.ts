@@ -7,18 +7,26 @@
  */
 import { and, eq } from "drizzle-orm";
 import { fileTypeFromBuffer } from "file-type";
-import { procedureSpecs, runPhotos, runs } from "~/db/schema";
+import { runPhotos } from "~/db/schema";
 import { audit } from "~/lib/audit.server";
 import { db } from "~/lib/db.server";
 import { DomainError } from "~/lib/domain-error";
 import { dropPhoto, keepPhoto, photoBytes, photoKey, servePhoto } from "~/lib/storage/photos.server";
-import { photosForBuild, type RunPhoto } from "./runs.server";
+import type { Place } from "./entries";
+import { photosForBuild, photoTarget, type RunPhoto } from "./runs.server";
 
 /** A phone or tablet camera's full-size JPEG is 2–8 MB. */
 export const MAX_PHOTO_BYTES = 12 * 1024 * 1024;
 const KINDS: Record<string, string> = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" };
 
-export async function savePhoto(actor: { id: string }, runId: string, specKey: string, file: File) {
+/** Keeps a photo for a spec (at its place, for a per-cylinder, journal or stud spec); `sent.key` makes a resend a no-op. */
+export async function savePhoto(
+  actor: { id: string },
+  runId: string,
+  specKey: string,
+  file: File,
+  sent: { key?: string | null; position?: Place } = {},
+) {
   if (file.size === 0) throw new DomainError("The photo is empty; take it again.", { status: 422, field: "photo" });
   if (file.size > MAX_PHOTO_BYTES)
     throw new DomainError(`A photo may be up to ${MAX_PHOTO_BYTES / 1024 / 1024} MB.`, { status: 413, field: "photo" });
@@ -28,17 +36,20 @@ export async function savePhoto(actor: { id: string }, runId: string, specKey: s
   if (!type || !ext)
     throw new DomainError("That file is not a photo Benchreel keeps (JPEG, PNG or WebP).", { status: 415, field: "photo" });
   return db().transaction(async (tx) => {
-    const [run] = await tx.select().from(runs).where(eq(runs.id, runId)).for("update");
-    if (!run) throw new DomainError("There is no such run.", { status: 404 });
-    if (run.status !== "open") throw new DomainError("This run is closed; photos can no longer be added.", { field: "photo" });
-    const [spec] = await tx
-      .select({ id: procedureSpecs.id })
-      .from(procedureSpecs)
-      .where(and(eq(procedureSpecs.revisionId, run.revisionId), eq(procedureSpecs.specKey, specKey)));
-    if (!spec) throw new DomainError("The revision this run follows has no such spec.", { status: 422, field: "specKey" });
+    const target = await photoTarget(tx, runId, specKey, sent);
+    if (target.earlier) return target.earlier;
     const [row] = await tx
       .insert(runPhotos)
-      .values({ runId, specId: spec.id, specKey, mime: type.mime, bytes: bytes.byteLength, takenBy: actor.id })
+      .values({
+        runId,
+        specId: target.spec.id,
+        specKey,
+        ...target.place,
+        idempotencyKey: sent.key ?? null,
+        mime: type.mime,
+        bytes: bytes.byteLength,
+        takenBy: actor.id,
+      })
       .returning({ id: runPhotos.id });
     const key = photoKey(runId, row.id, ext);
     try {
@@ -48,7 +59,7 @@ export async function savePhoto(actor: { id: string }, runId: string, specKey: s
       await dropPhoto(key).catch(() => {});
       throw err;
     }
-    return { id: row.id, url: `/api/runs/${runId}/photos/${row.id}` };
+    return { id: row.id, url: `/api/runs/${runId}/photos/${row.id}`, duplicate: false };
   });
 }
 

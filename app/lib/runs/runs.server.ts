@@ -4,7 +4,7 @@
  * under its idempotency key; finishing files the test record through the test-records domain,
  * pinned to the run's revision, in the same transaction that closes the run.
  */
-import { asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, max, ne, sql } from "drizzle-orm";
 import { builds, procedureRevisions, procedures, procedureSpecs, runEntries, runPhotos, runs, users } from "~/db/schema";
 import { audit } from "~/lib/audit.server";
 import { getBuild, getBuildByNumber } from "~/lib/builds/builds.server";
@@ -12,11 +12,23 @@ import { toSI, type UnitCode } from "~/lib/calc";
 import { db, type DbOrTx } from "~/lib/db.server";
 import { DomainError } from "~/lib/domain-error";
 import type { JSONNode } from "~/lib/procedures/document";
-import { NO_POSITION } from "~/lib/recordings/positions";
+import { NO_POSITION, positionText } from "~/lib/recordings/positions";
 import type { TypedReading } from "~/lib/test-records/form";
 import { createTestRecord, limitsOf } from "~/lib/test-records/records.server";
 import { evaluateRecord } from "~/lib/test-records/verdict";
-import { latestBySpec, progressOf, type EntryInput } from "./entries";
+import {
+  type EngineCounts,
+  type EntryInput,
+  latestByPlace,
+  type Place,
+  placeKey,
+  placeLabel,
+  placeOf,
+  placesBySpec,
+  placeWord,
+  progressOf,
+  runPlaceField,
+} from "./entries";
 import { runSteps } from "./steps";
 
 type Actor = { id: string; name?: string };
@@ -94,7 +106,15 @@ export async function getRun(id: string) {
       run: runs,
       procedure: { id: procedures.id, slug: procedures.slug, title: procedures.title, publishedRevisionId: procedures.publishedRevisionId },
       revision: { id: procedureRevisions.id, number: procedureRevisions.number, doc: procedureRevisions.doc },
-      build: { id: builds.id, number: builds.number, engine: builds.engine, engineSerial: builds.engineSerial, status: builds.status },
+      build: {
+        id: builds.id,
+        number: builds.number,
+        engine: builds.engine,
+        engineSerial: builds.engineSerial,
+        status: builds.status,
+        cylinders: builds.cylinders,
+        mainJournals: builds.mainJournals,
+      },
       startedByName: users.name,
     })
     .from(runs)
@@ -104,10 +124,11 @@ export async function getRun(id: string) {
     .leftJoin(users, eq(users.id, runs.startedBy))
     .where(eq(runs.id, id));
   if (!row) return null;
-  const [specs, entries, photos, newer] = await Promise.all([
+  const [specs, entries, photos, lastStuds, newer] = await Promise.all([
     specsOf(db(), row.revision.id),
     entriesOf(db(), id),
     listRunPhotos(id),
+    studsOfLastRun(row.run.procedureId, id),
     row.procedure.publishedRevisionId && row.procedure.publishedRevisionId !== row.revision.id
       ? db()
           .select({ number: procedureRevisions.number })
@@ -115,8 +136,13 @@ export async function getRun(id: string) {
           .where(eq(procedureRevisions.id, row.procedure.publishedRevisionId))
       : Promise.resolve([]),
   ]);
-  const latest = latestBySpec(entries);
+  const latest = latestByPlace(entries);
   const steps = runSteps(row.revision.doc as JSONNode);
+  const places = placesBySpec(
+    specs.map((s) => ({ key: s.specKey, quantity: s.quantity, label: s.label })),
+    row.build,
+    latest,
+  );
   return {
     run: row.run,
     startedByName: row.startedByName,
@@ -126,7 +152,20 @@ export async function getRun(id: string) {
     newerRevision: newer[0]?.number ?? null,
     build: row.build,
     steps,
-    specs: specs.map((s) => ({ ...limitsOf(s), key: s.specKey, note: s.note })),
+    specs: specs.map((s, i) => {
+      const { field, offered } = places[i];
+      return {
+        ...limitsOf(s),
+        key: s.specKey,
+        note: s.note,
+        /** The place each of its values is measured at (null: measured once). */
+        field,
+        offered,
+        /** Rows shown before any is typed: studs from the last run of this procedure or the spec's words, else one. */
+        startRows: field ? Math.max(offered.length, field === "fastener" ? (lastStuds.get(s.specKey) ?? studsInWords(s)) : 1, 1) : 1,
+      };
+    }),
+    /** Keyed by spec and place (`placeKey`). */
     values: Object.fromEntries(
       [...latest].map(([k, e]) => [
         k,
@@ -135,11 +174,31 @@ export async function getRun(id: string) {
     ),
     entryCount: entries.length,
     photos,
-    progress: progressOf(
-      specs.map((s) => s.specKey),
-      latest,
-    ),
+    progress: progressOf(places),
   };
+}
+
+/** "Head stud final torque (10 studs)" → 10: a spec that says how many studs it covers. */
+function studsInWords(s: { label: string; note: string }): number {
+  const m = /\b(\d{1,3})\s*(?:studs|bolts|fasteners)\b/i.exec(`${s.label} ${s.note}`);
+  return m ? Math.min(Number(m[1]), 200) : 1;
+}
+
+/** The highest stud given a value per spec in the last finished run of the procedure (another engine of the same head, likely). */
+async function studsOfLastRun(procedureId: string, notRun: string): Promise<Map<string, number>> {
+  const [last] = await db()
+    .select({ id: runs.id })
+    .from(runs)
+    .where(and(eq(runs.procedureId, procedureId), eq(runs.status, "finished"), ne(runs.id, notRun)))
+    .orderBy(desc(runs.endedAt))
+    .limit(1);
+  if (!last) return new Map();
+  const rows = await db()
+    .select({ specKey: runEntries.specKey, top: max(runEntries.fastener) })
+    .from(runEntries)
+    .where(and(eq(runEntries.runId, last.id), sql`${runEntries.fastener} is not null`, sql`${runEntries.valueEntered} is not null`))
+    .groupBy(runEntries.specKey);
+  return new Map(rows.flatMap((r) => (r.top == null ? [] : [[r.specKey, r.top] as [string, number]])));
 }
 
 export type RunView = NonNullable<Awaited<ReturnType<typeof getRun>>>;
@@ -173,7 +232,10 @@ function closedReason(run: typeof runs.$inferSelect): string {
 export async function saveEntries(actor: Actor, runId: string, entries: EntryInput[], device = "") {
   return db().transaction(async (tx) => {
     const run = await openRunForUpdate(tx, runId);
-    const specs = await specsOf(tx, run.revisionId);
+    const [specs, [counts]] = await Promise.all([
+      specsOf(tx, run.revisionId),
+      tx.select({ cylinders: builds.cylinders, mainJournals: builds.mainJournals }).from(builds).where(eq(builds.id, run.buildId)),
+    ]);
     const byKey = new Map(specs.map((s) => [s.specKey, s]));
     const keys = entries.map((e) => e.key);
     if (new Set(keys).size !== keys.length)
@@ -185,7 +247,12 @@ export async function saveEntries(actor: Actor, runId: string, entries: EntryInp
     for (const [i, e] of entries.entries()) {
       const before = known.get(e.key);
       if (before) {
-        if (before.runId !== runId || before.specKey !== e.specKey || before.valueEntered !== e.value || before.unitEntered !== e.unit)
+        if (
+          before.runId !== runId ||
+          placeKey(before.specKey, before) !== placeKey(e.specKey, e.position) ||
+          before.valueEntered !== e.value ||
+          before.unitEntered !== e.unit
+        )
           throw new DomainError("That entry key was already used for a different entry; the device must make a new key per entry.", {
             status: 409,
             field: `entries.${i}.key`,
@@ -200,6 +267,7 @@ export async function saveEntries(actor: Actor, runId: string, entries: EntryInp
           status: 422,
           field: `entries.${i}.specKey`,
         });
+      const place = entryPlace(spec, e.position, counts, `entries.${i}.position`);
       if (e.value != null) {
         try {
           evaluateRecord([limitsOf(spec)], { [spec.id]: [{ value: e.value, unit: e.unit }] });
@@ -214,6 +282,7 @@ export async function saveEntries(actor: Actor, runId: string, entries: EntryInp
         runId,
         specId: spec.id,
         specKey: spec.specKey,
+        ...place,
         valueEntered: e.value,
         unitEntered: e.unit,
         valueDecimals: e.value == null ? null : e.decimals,
@@ -233,6 +302,73 @@ export async function saveEntries(actor: Actor, runId: string, entries: EntryInp
     }
     return { saved };
   });
+}
+
+/**
+ * The place columns of an entry, checked against its spec and the engine: a per-cylinder spec
+ * needs its cylinder (within the build's count when it has one), a spec measured once takes
+ * none, and a place the spec is not measured at (a journal on a torque) is refused.
+ */
+function entryPlace(
+  spec: { label: string; quantity: string },
+  position: Place | undefined,
+  counts: EngineCounts,
+  field: string,
+): { fastener: number | null; cylinder: number | null; journal: number | null } {
+  const want = runPlaceField(spec);
+  const got = placeOf(position);
+  // The API answers with the field's path as well as the reason, as for a schema refusal.
+  const refuse = (message: string) => new DomainError(message, { status: 422, field, issues: [{ path: field, message }] });
+  if (got && got.field !== want)
+    throw refuse(
+      want
+        ? `${spec.label} is measured per ${placeWord(want)}, not per ${placeWord(got.field)}.`
+        : `${spec.label} is measured once; it has no ${placeWord(got.field)}.`,
+    );
+  if (want && !got) throw refuse(`Say which ${placeWord(want)} this ${spec.label.toLowerCase()} was measured at.`);
+  if (got) {
+    const count = got.field === "cylinder" ? counts.cylinders : got.field === "journal" ? counts.mainJournals : null;
+    if (count != null && got.n > count)
+      throw refuse(
+        `This engine has ${count} ${got.field === "cylinder" ? "cylinders" : "main journals"}; there is no ${placeLabel(got.field, got.n)}.`,
+      );
+  }
+  return {
+    fastener: got?.field === "fastener" ? got.n : null,
+    cylinder: got?.field === "cylinder" ? got.n : null,
+    journal: got?.field === "journal" ? got.n : null,
+  };
+}
+
+/**
+ * The run, spec and place a photo is for, checked as an entry's are, under the run's lock. A
+ * photo whose device key was stored before is answered as it was (`earlier`), even once the run
+ * is closed: the device lost the answer and sent it again; a key used for another spec or
+ * place is a conflict.
+ */
+export async function photoTarget(tx: DbOrTx, runId: string, specKey: string, sent: { key?: string | null; position?: Place }) {
+  const run = await openRunForUpdate(tx, runId);
+  if (sent.key) {
+    const [before] = await tx.select().from(runPhotos).where(eq(runPhotos.idempotencyKey, sent.key));
+    if (before) {
+      if (before.runId !== runId || placeKey(before.specKey, before) !== placeKey(specKey, sent.position))
+        throw new DomainError("That photo key was already used for another photo; the device must make a new key per photo.", {
+          status: 409,
+          field: "key",
+        });
+      return { earlier: { id: before.id, url: photoUrl(runId, before.id), duplicate: true } } as const;
+    }
+  }
+  if (run.status !== "open") throw new DomainError("This run is closed; photos can no longer be added.", { field: "photo" });
+  const [[spec], [counts]] = await Promise.all([
+    tx
+      .select()
+      .from(procedureSpecs)
+      .where(and(eq(procedureSpecs.revisionId, run.revisionId), eq(procedureSpecs.specKey, specKey))),
+    tx.select({ cylinders: builds.cylinders, mainJournals: builds.mainJournals }).from(builds).where(eq(builds.id, run.buildId)),
+  ]);
+  if (!spec) throw new DomainError("The revision this run follows has no such spec.", { status: 422, field: "specKey" });
+  return { spec, place: entryPlace(spec, sent.position, counts, "position"), earlier: null } as const;
 }
 
 /** Where the run was left, so another device opens there. */
@@ -270,21 +406,33 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
       specsOf(tx, run.revisionId),
       entriesOf(tx, runId),
     ]);
-    const latest = latestBySpec(entries);
+    const latest = latestByPlace(entries);
+    const places = placesBySpec(
+      specs.map((s) => ({ key: s.specKey, quantity: s.quantity, label: s.label })),
+      build,
+      latest,
+    );
     const readings: Record<string, TypedReading[]> = {};
-    for (const s of specs) {
-      const e = latest.get(s.specKey);
-      if (e?.valueEntered == null) continue;
-      readings[s.id] = [
-        {
+    const missing: string[] = [];
+    for (const [i, s] of specs.entries()) {
+      const { field, offered, missing: open } = places[i];
+      // A spec with nothing at all is the verdict function's "not measured"; a spec measured
+      // at some places and not at others is listed here and makes the record Incomplete.
+      if (field && open.length && open.length < offered.length)
+        missing.push(`${s.label}: ${open.map((n) => placeLabel(field, n as number)).join(", ")}`);
+      for (const n of offered) {
+        const e = latest.get(placeKey(s.specKey, field && n != null ? { [field]: n } : null));
+        if (e?.valueEntered == null) continue;
+        readings[s.id] = readings[s.id] ?? [];
+        readings[s.id].push({
           value: e.valueEntered,
           decimals: e.valueDecimals ?? 0,
           unit: e.unitEntered,
           note: e.device ? `entered on ${e.device}` : "",
-          position: { ...NO_POSITION },
+          position: { ...NO_POSITION, fastener: e.fastener, cylinder: e.cylinder, journal: e.journal },
           sourceReadingId: null,
-        },
-      ];
+        });
+      }
     }
     if (!Object.keys(readings).length)
       throw new DomainError("Nothing has been measured yet: enter at least one value before finishing the run.", { status: 400 });
@@ -297,13 +445,15 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
         revisionId: run.revisionId,
         engineSerial: build.engineSerial,
         testedOn: todayIso(),
-        notes: input.notes,
+        notes: missing.length
+          ? [input.notes.trim(), `Not measured on the run: ${missing.join("; ")}.`].filter(Boolean).join("\n\n")
+          : input.notes,
         recordingId: null,
         recordingStartS: null,
         recordingEndS: null,
         readings,
       },
-      { tx, pinned: true },
+      { tx, pinned: true, unmeasuredPlaces: missing.length },
     );
     const now = new Date();
     await tx
@@ -342,12 +492,9 @@ const runListColumns = {
   startedAt: runs.startedAt,
   updatedAt: runs.updatedAt,
   testRecordId: runs.testRecordId,
-  total: sql<number>`(select count(*)::int from ${procedureSpecs} s where s.revision_id = ${runs.revisionId})`,
-  // A spec counts as measured when its latest entry holds a value (latestBySpec's rule, in SQL).
-  measured: sql<number>`(select count(*)::int from (
-      select distinct on (e.spec_key) e.value_entered from ${runEntries} e
-      where e.run_id = ${runs.id} order by e.spec_key, e.typed_at desc, e.seq desc
-    ) l where l.value_entered is not null)`,
+  revisionId: runs.revisionId,
+  cylinders: builds.cylinders,
+  mainJournals: builds.mainJournals,
 };
 
 export type RunListItem = {
@@ -366,8 +513,12 @@ export type RunListItem = {
   measured: number;
 };
 
-function runList(where: ReturnType<typeof eq>): Promise<RunListItem[]> {
-  return db()
+/**
+ * Runs with their progress in places, by the same rule as the run screen (`placesBySpec`): the
+ * runs, then the latest entry per spec and place of all of them, then their revisions' specs.
+ */
+async function runList(where: ReturnType<typeof eq>): Promise<RunListItem[]> {
+  const rows = await db()
     .select(runListColumns)
     .from(runs)
     .innerJoin(builds, eq(builds.id, runs.buildId))
@@ -376,6 +527,48 @@ function runList(where: ReturnType<typeof eq>): Promise<RunListItem[]> {
     .leftJoin(users, eq(users.id, runs.startedBy))
     .where(where)
     .orderBy(sql`${runs.status} <> 'open'`, desc(runs.updatedAt));
+  if (!rows.length) return [];
+  const [latestRows, specRows] = await Promise.all([
+    db()
+      .selectDistinctOn([runEntries.runId, runEntries.specKey, runEntries.fastener, runEntries.cylinder, runEntries.journal], {
+        runId: runEntries.runId,
+        specKey: runEntries.specKey,
+        fastener: runEntries.fastener,
+        cylinder: runEntries.cylinder,
+        journal: runEntries.journal,
+        valueEntered: runEntries.valueEntered,
+      })
+      .from(runEntries)
+      .where(
+        inArray(
+          runEntries.runId,
+          rows.map((r) => r.id),
+        ),
+      )
+      .orderBy(
+        runEntries.runId,
+        runEntries.specKey,
+        runEntries.fastener,
+        runEntries.cylinder,
+        runEntries.journal,
+        desc(runEntries.typedAt),
+        desc(runEntries.seq),
+      ),
+    db()
+      .select({
+        revisionId: procedureSpecs.revisionId,
+        key: procedureSpecs.specKey,
+        quantity: procedureSpecs.quantity,
+        label: procedureSpecs.label,
+      })
+      .from(procedureSpecs)
+      .where(inArray(procedureSpecs.revisionId, [...new Set(rows.map((r) => r.revisionId))])),
+  ]);
+  return rows.map(({ revisionId, cylinders, mainJournals, ...r }) => {
+    const latest = new Map(latestRows.filter((e) => e.runId === r.id).map((e) => [placeKey(e.specKey, e), e]));
+    const specs = specRows.filter((sp) => sp.revisionId === revisionId);
+    return { ...r, ...progressOf(placesBySpec(specs, { cylinders, mainJournals }, latest)) };
+  });
 }
 
 /** Every run of a build with its progress (open ones first), for the build page. */
@@ -396,6 +589,10 @@ export type RunPhoto = {
   runId: string;
   specKey: string;
   specLabel: string;
+  /** The place it shows ("stud 4", "cyl 2"); "" for a spec measured once. */
+  where: string;
+  /** Its entry's key on the run screen (`placeKey`). */
+  placeKey: string;
   url: string;
   mime: string;
   takenByName: string | null;
@@ -412,13 +609,22 @@ function photosWhere(where: ReturnType<typeof eq>): Promise<RunPhoto[]> {
     .innerJoin(procedureSpecs, eq(procedureSpecs.id, runPhotos.specId))
     .leftJoin(users, eq(users.id, runPhotos.takenBy))
     .where(where)
-    .orderBy(asc(runs.startedAt), asc(procedureSpecs.position), asc(runPhotos.createdAt))
+    .orderBy(
+      asc(runs.startedAt),
+      asc(procedureSpecs.position),
+      asc(runPhotos.fastener),
+      asc(runPhotos.cylinder),
+      asc(runPhotos.journal),
+      asc(runPhotos.createdAt),
+    )
     .then((rows) =>
       rows.map(({ p, label, by }) => ({
         id: p.id,
         runId: p.runId,
         specKey: p.specKey,
         specLabel: label,
+        where: positionText(p),
+        placeKey: placeKey(p.specKey, p),
         url: photoUrl(p.runId, p.id),
         mime: p.mime,
         takenByName: by,

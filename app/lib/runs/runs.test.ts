@@ -1,7 +1,7 @@
 import { evaluate } from "mathjs";
 import { describe, expect, it } from "vitest";
 import type { JSONNode } from "~/lib/procedures/document";
-import { entriesBodySchema, entrySchema, latestBySpec, progressOf } from "./entries";
+import { entriesBodySchema, entrySchema, latestByPlace, placesBySpec, progressOf, runPlaceField } from "./entries";
 import { prefillCalculator } from "./prefill";
 import { runSteps, stepTitle } from "./steps";
 
@@ -132,7 +132,7 @@ describe("entries", () => {
   });
 
   it("keeps the latest typing per spec, whenever it arrived, and counts a cleared value as open", () => {
-    const latest = latestBySpec([
+    const latest = latestByPlace([
       { specKey: "a", typedAt: "2026-03-02T10:00:05Z", receivedOrder: 1, valueEntered: 2 as number | null },
       { specKey: "a", typedAt: "2026-03-02T10:00:01Z", receivedOrder: 2, valueEntered: 1 },
       { specKey: "b", typedAt: "2026-03-02T10:00:00Z", receivedOrder: 3, valueEntered: 5 },
@@ -140,6 +140,55 @@ describe("entries", () => {
     ]);
     expect(latest.get("a")?.valueEntered).toBe(2);
     expect(latest.get("b")?.valueEntered).toBeNull();
-    expect(progressOf(["a", "b", "c"], latest)).toEqual({ measured: 1, total: 3 });
+    const once = (key: string) => ({ key, quantity: "temperature", label: key });
+    expect(progressOf(placesBySpec([once("a"), once("b"), once("c")], { cylinders: null, mainJournals: null }, latest))).toEqual({
+      measured: 1,
+      total: 3,
+    });
+  });
+
+  it("takes a place the spec is measured at, one at a time, and refuses other fields", () => {
+    expect(entrySchema.safeParse({ ...base, position: { fastener: 7 } }).success).toBe(true);
+    expect(entrySchema.safeParse({ ...base, position: { cylinder: 0 } }).success).toBe(false);
+    expect(entrySchema.safeParse({ ...base, position: { cylinder: 2.5 } }).success).toBe(false);
+    expect(entrySchema.safeParse({ ...base, position: { depth: 20 } }).success).toBe(false);
+    expect(entrySchema.safeParse({ ...base, position: { cylinder: 1, journal: 1 } }).success).toBe(false);
+  });
+
+  it("works a bore per cylinder, a bearing per journal, a torque per stud and a temperature once", () => {
+    expect(runPlaceField({ quantity: "length", label: "Bore diameter" })).toBe("cylinder");
+    expect(runPlaceField({ quantity: "length", label: "Main bearing clearance" })).toBe("journal");
+    expect(runPlaceField({ quantity: "torque", label: "Head stud final torque" })).toBe("fastener");
+    expect(runPlaceField({ quantity: "temperature", label: "Oil temperature" })).toBeNull();
+  });
+
+  it("keeps the latest value per spec and place, and offers every cylinder of the engine and studs up to the highest typed", () => {
+    const e = (specKey: string, at: Record<string, number>, valueEntered: number | null, s: number, order: number) => ({
+      specKey,
+      ...at,
+      valueEntered,
+      typedAt: `2026-03-02T10:00:${String(s).padStart(2, "0")}Z`,
+      receivedOrder: order,
+    });
+    const latest = latestByPlace([
+      e("bore", { cylinder: 1 }, 88.004, 1, 1),
+      e("bore", { cylinder: 1 }, 88.006, 2, 2), // retyped: the later one is cylinder 1's value
+      e("bore", { cylinder: 2 }, 88.005, 3, 3),
+      e("torque", { fastener: 1 }, 110, 4, 4),
+      e("torque", { fastener: 3 }, 111, 5, 5), // stud 2 skipped
+    ]);
+    expect(latest.get("bore@cylinder1")?.valueEntered).toBe(88.006);
+    const places = placesBySpec(
+      [
+        { key: "bore", quantity: "length", label: "Bore diameter" },
+        { key: "torque", quantity: "torque", label: "Head stud final torque" },
+      ],
+      { cylinders: 4, mainJournals: 5 },
+      latest,
+    );
+    expect(places[0]).toMatchObject({ field: "cylinder", offered: [1, 2, 3, 4], missing: [3, 4] });
+    expect(places[1]).toMatchObject({ field: "fastener", offered: [1, 2, 3], missing: [2] });
+    // Hand count: cylinders 1, 2 of 4 and studs 1, 3 of 3 → 4 of 7 places.
+    expect(progressOf(places)).toEqual({ measured: 4, total: 7 });
   });
 });

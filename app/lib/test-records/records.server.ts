@@ -168,7 +168,9 @@ export async function createTestRecord(
   input: NewRecordInput,
   // A run files inside its own transaction (the run closes with the filing), against the
   // revision it was pinned to when it started, which may have been superseded since.
-  opts: { tx?: DbOrTx; pinned?: boolean } = {},
+  // unmeasuredPlaces: cylinders, journals or studs the run offered and left without a value
+  // (its specs have readings elsewhere): the record is then Incomplete, never Within spec.
+  opts: { tx?: DbOrTx; pinned?: boolean; unmeasuredPlaces?: number } = {},
 ): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number }> {
   return (opts.tx ?? db()).transaction(async (tx) => {
     const [rev] = await tx.select().from(procedureRevisions).where(eq(procedureRevisions.id, input.revisionId));
@@ -192,6 +194,7 @@ export async function createTestRecord(
     const specs = await specsOfRevision(tx, rev.id);
     const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
     if (!evaluation.verdict) throw new DomainError("Type at least one reading.", { status: 400, field: "readings" });
+    if (evaluation.verdict === "within" && opts.unmeasuredPlaces) evaluation.verdict = "incomplete";
     if (input.recordingId) {
       const [r] = await tx.select({ id: recordings.id }).from(recordings).where(eq(recordings.id, input.recordingId));
       if (!r) throw new DomainError("That recording does not exist.", { status: 400, field: "recordingId" });
@@ -223,7 +226,7 @@ export async function createTestRecord(
       verdict: evaluation.verdict,
       readings: Object.values(input.readings).flat().length,
     });
-    return { id: rec.id, verdict: evaluation.verdict, notMeasured: evaluation.notMeasured.length };
+    return { id: rec.id, verdict: evaluation.verdict, notMeasured: evaluation.notMeasured.length + (opts.unmeasuredPlaces ?? 0) };
   });
 }
 

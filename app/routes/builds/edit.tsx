@@ -30,6 +30,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       sizeUnit: b.boreUnit ?? b.strokeUnit ?? "mm",
       bore: sizeFieldText(bore),
       stroke: sizeFieldText(stroke),
+      cylinders: b.cylinders == null ? "" : String(b.cylinders),
+      mainJournals: b.mainJournals == null ? "" : String(b.mainJournals),
       notes: b.notes,
       leadBuilderId: b.leadBuilderId ?? "",
       receivedOn: b.receivedOn ?? "",
