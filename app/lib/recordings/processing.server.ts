@@ -21,7 +21,7 @@ import {
   UPLOAD_SWEEP_QUEUE,
 } from "./queue.server";
 import { originalPath, posterPath, recordingDir, renditionPath } from "./storage.server";
-import { dropScratch, fetchOriginal, publishOutput, removeStored } from "../storage/recordings.server";
+import { dropScratch, fetchOriginal, publishOutput, removeStored, withOriginalFile } from "../storage/recordings.server";
 import { holdingJobLock, watchForOrphans } from "./job-liveness.server";
 import { scheduleUploadSweep } from "./tus-sweep.server";
 
@@ -528,13 +528,10 @@ export async function checkDecodeAfterReady(id: string, expectedS: number): Prom
   // The job is sent a moment before "Ready" is written; one that starts in that moment is retried.
   if (rec?.state === "processing") throw new Error("not ready yet");
   if (rec?.state !== "ready") return "skipped";
-  let damage: string | null;
-  try {
-    if (!(await fetchOriginal(id))) return "skipped";
-    damage = damageReason(await decodeCheck(originalPath(id)), expectedS);
-  } finally {
-    await dropScratch(id);
-  }
+  // A copy of its own (in object storage): the processing job removes its scratch copy as it ends.
+  const checked = await withOriginalFile(id, async (file) => ({ damage: damageReason(await decodeCheck(file), expectedS) }));
+  if (!checked) return "skipped";
+  const { damage } = checked;
   if (!damage) return "ok";
   await db()
     .update(recordings)

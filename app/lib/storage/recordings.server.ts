@@ -1,3 +1,4 @@
+import { randomBytes } from "node:crypto";
 import fs from "node:fs/promises";
 import path from "node:path";
 import { eq } from "drizzle-orm";
@@ -85,6 +86,27 @@ export async function fetchOriginal(id: string): Promise<boolean> {
   if (!(await where.store.head(where.original))) return false;
   await where.store.getFile(where.original, local);
   return true;
+}
+
+/**
+ * Runs `work` on a local file of the recording's original: the folder's own file, or, for a
+ * recording in object storage, a private copy streamed into the worker's scratch space
+ * (`UPLOAD_DIR/scratch/<random>/original`) and removed when `work` ends, however it ends. Private,
+ * so a job working beside the processing job (the decode check after "Ready") never reads a
+ * copy that the other removes. Null when the store holds no original.
+ */
+export async function withOriginalFile<T>(id: string, work: (file: string) => Promise<T>): Promise<T | null> {
+  const where = await placementOf(id);
+  if (where.backend === "folder") return work(originalPath(id));
+  if (!(await where.store.head(where.original))) return null;
+  const dir = path.join(uploadRoot(), "scratch", randomBytes(8).toString("hex"));
+  try {
+    const file = path.join(dir, "original");
+    await where.store.getFile(where.original, file);
+    return await work(file);
+  } finally {
+    await fs.rm(dir, { recursive: true, force: true });
+  }
 }
 
 /** A finished output (web.mp4, poster.jpg) of the scratch folder copied to the recording's store. */
