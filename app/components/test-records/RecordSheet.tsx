@@ -99,10 +99,12 @@ export function ReadingsTable({
                   </td>
                   <td className="px-3 py-1 font-sans text-graphite-soft">
                     {positionText(r) && (
-                      <span className="num font-semibold text-graphite" data-testid="reading-where">
-                        {positionText(r)}
+                      <>
+                        <span className="num font-semibold text-graphite" data-testid="reading-where">
+                          {positionText(r)}
+                        </span>
                         {r.note ? " · " : ""}
-                      </span>
+                      </>
                     )}
                     {r.note}
                     {r.sourceReadingId && recording && (
