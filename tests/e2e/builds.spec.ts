@@ -117,6 +117,11 @@ for (const [label, viewport] of WIDTHS) {
     await page.getByRole("button", { name: `Detach the recording “${title}”` }).click();
     await expect(page.getByTestId("build-recording")).toHaveCount(0);
     await expect(page.getByLabel(/^Attach a recording/).locator("option", { hasText: title })).toHaveCount(1);
+    // From the build page, the upload form has the build chosen for the files added.
+    await page.getByRole("link", { name: "Upload videos for this build" }).click();
+    await page.getByTestId("file-input").setInputFiles({ name: "deck.mp4", mimeType: "video/mp4", buffer: Buffer.alloc(1024, 1) });
+    await expect(page.getByTestId("upload-build")).toHaveValue(number);
+    await fitsTheWidth(page);
     await ctx.close();
   });
 }

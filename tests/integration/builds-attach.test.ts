@@ -135,6 +135,9 @@ describe("a recording's build", () => {
     // The options are rendered by the queue for each file; the page carries the list to choose from.
     expect(html).toContain(bench.number);
     expect(html).toContain(gone.number);
+    // Opened from a build's page with its number; anything else there is a 400.
+    expect((await http(`/recordings/upload?build=${bench.number.toLowerCase()}`, { cookie: builder.cookie })).status).toBe(200);
+    expect((await http("/recordings/upload?build=not-a-build", { cookie: builder.cookie })).status).toBe(400);
   });
 });
 

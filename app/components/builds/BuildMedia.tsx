@@ -28,6 +28,8 @@ export function BuildMedia({
   recordings,
   marks,
   canWrite,
+  canUpload,
+  buildNumber,
   unattached,
   busy,
   errors,
@@ -36,6 +38,8 @@ export function BuildMedia({
   recordings: BuildPage["recordings"];
   marks: BuildPage["marks"];
   canWrite: boolean;
+  canUpload: boolean;
+  buildNumber: string;
   unattached: Unattached[];
   busy: boolean;
   errors: Record<string, string>;
@@ -122,6 +126,11 @@ export function BuildMedia({
             Attach
           </button>
         </Form>
+      )}
+      {canUpload && (
+        <p className="mt-3 text-sm">
+          <Link to={`/recordings/upload?build=${buildNumber}`}>Upload videos for this build</Link>
+        </p>
       )}
     </section>
   );

@@ -87,10 +87,13 @@ export function UploadQueue({
   maxBytes,
   onUploadsChange,
   builds = [],
+  forBuild = "",
 }: {
   maxBytes: number;
   onUploadsChange?: (uploadIds: string[]) => void;
   builds?: BuildPick[];
+  /** The build new files are for unless changed (the upload page opened from a build's page). */
+  forBuild?: string;
 }) {
   const [items, setItems] = useState<QueueItem[]>([]);
   const uploads = useRef(new Map<string, TusUpload>());
@@ -127,6 +130,7 @@ export function UploadQueue({
           checking: !(problem || tooBig || empty),
           recordingId: null,
           rec: null,
+          build: forBuild,
         });
       }
       setItems((list) => [...list, ...next]);
@@ -153,7 +157,7 @@ export function UploadQueue({
         });
       }
     },
-    [maxBytes, patch],
+    [maxBytes, patch, forBuild],
   );
 
   const start = useCallback(

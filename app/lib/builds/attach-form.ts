@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuid } from "~/lib/edge";
+import { optionalSearch, uuid } from "~/lib/edge";
 import { workOrderNumber } from "./form";
 
 // What attaching a recording or a mark to a build takes at the edge (issue 16). Pure: shared by
@@ -21,6 +21,9 @@ export const recordingBuildPatch = z.object({
 
 /** The same in a page's form, where "" (the "No build" option) is no build. */
 export const buildNumberField = z.object({ buildNumber: z.union([z.literal("").transform(() => null), workOrderNumber]).default("") });
+
+/** The upload page's `?build=LEW-24-0119`: the build its files are for, chosen beforehand (from the build page). */
+export const uploadSearch = z.object({ build: optionalSearch(workOrderNumber) });
 
 /** The build page's "Attach a recording" and its Detach buttons. */
 export const attachRecordingSchema = z.object({ recordingId: z.string().min(1, { message: "Choose a recording to attach." }).pipe(uuid) });

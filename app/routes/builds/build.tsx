@@ -47,6 +47,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     photos: await photosForBuild(page.build.id),
     canRun: can(user.role, "run:work"),
     unattached: can(user.role, "builds:write") ? await unattachedRecordings() : [],
+    canUpload: can(user.role, "recording:upload"),
   };
 }
 
@@ -263,6 +264,8 @@ export default function BuildPage({ loaderData, actionData }: Route.ComponentPro
           recordings={recordings}
           marks={marks}
           canWrite={canWrite}
+          canUpload={loaderData.canUpload}
+          buildNumber={build.number}
           unattached={loaderData.unattached}
           busy={busy}
           errors={failed("attach-recording")}

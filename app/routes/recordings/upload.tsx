@@ -14,6 +14,8 @@ import { discardUnfinishedUpload } from "~/lib/recordings/uploads.server";
 import { formatBytes } from "~/lib/byte-format";
 import { formatDayMonthTime } from "~/lib/dates";
 import { buildChoices } from "~/lib/builds/builds.server";
+import { uploadSearch } from "~/lib/builds/attach-form";
+import { parseSearch } from "~/lib/edge.server";
 import { can } from "~/lib/permissions";
 
 export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Recordings · Benchreel" }];
@@ -21,8 +23,11 @@ export const meta: Route.MetaFunction = () => [{ title: "Upload videos · Record
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requirePermission(request, "recording:upload");
   const unfinished = await unfinishedUploads(user.id);
+  const { build } = parseSearch(request, uploadSearch);
   const builds = can(user.role, "builds:read") ? await buildChoices() : [];
-  return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished, expiryDays: uploadExpiryDays(), builds };
+  // Coming from a build's page, its files are for that build unless changed.
+  const forBuild = builds.find((b) => b.number === build)?.number ?? "";
+  return { maxBytes: env().MAX_UPLOAD_BYTES, unfinished, expiryDays: uploadExpiryDays(), builds, forBuild };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -69,7 +74,12 @@ export default function UploadPage({ loaderData, actionData }: Route.ComponentPr
         }
       />
       <div className="grid gap-6 lg:grid-cols-[1fr_18rem]">
-        <UploadQueue maxBytes={loaderData.maxBytes} onUploadsChange={onUploadsChange} builds={loaderData.builds} />
+        <UploadQueue
+          maxBytes={loaderData.maxBytes}
+          onUploadsChange={onUploadsChange}
+          builds={loaderData.builds}
+          forBuild={loaderData.forBuild}
+        />
         <aside className="space-y-4">
           <section className="card text-sm">
             <h2 className="text-lg">After the upload</h2>
