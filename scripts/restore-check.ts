@@ -2,8 +2,8 @@
 // by DATABASE_URL with pg_dump, restores the dump into a new database with pg_restore, compares
 // every table's row count, and checks that each recording the restored database names has its
 // original in the store it says (the folder or STORAGE_URL's bucket) with the size the row
-// expects. Prints a JSON summary; exits 1 on any difference. The restored copy is dropped
-// afterwards (`--keep` leaves it).
+// expects, and each run photo it names its object with the row's size. Prints a JSON summary;
+// exits 1 on any difference. The restored copy is dropped afterwards (`--keep` leaves it).
 //
 //   npm run restore:check
 import { execFileSync } from "node:child_process";
@@ -13,6 +13,7 @@ import os from "node:os";
 import path from "node:path";
 import pg from "pg";
 import { env } from "../app/lib/env.server";
+import { storedPhoto } from "../app/lib/storage/photos.server";
 import { configuredBackend, recordingKeys, storeOf } from "../app/lib/storage/recordings.server";
 
 const keep = process.argv.includes("--keep");
@@ -34,7 +35,7 @@ restoredUrl.pathname = `/${restoredName}`;
 const admin = new pg.Client({ connectionString: source });
 await admin.connect();
 const problems: string[] = [];
-const summary = { tables: 0, rows: 0, recordings: 0, objectsChecked: 0, problems };
+const summary = { tables: 0, rows: 0, recordings: 0, objectsChecked: 0, photos: 0, problems };
 try {
   execFileSync(pgTool("pg_dump"), ["--format=custom", `--file=${dumpFile}`, source], { stdio: ["ignore", "ignore", "inherit"] });
   await admin.query(`create database ${restoredName}`);
@@ -75,6 +76,15 @@ try {
       if (!head) problems.push(`${r.id}: original ${key} is missing from the ${backend}`);
       else if (head.size !== Number(r.original_size))
         problems.push(`${r.id}: original is ${head.size} bytes, the row says ${r.original_size}`);
+    }
+    const { rows: photos } = await restored.query<{ id: string; run_id: string; bytes: string }>(
+      "select id, run_id, bytes from run_photos order by created_at",
+    );
+    for (const p of photos) {
+      summary.photos++;
+      const stored = await storedPhoto(p.run_id, p.id);
+      if (!stored) problems.push(`photo ${p.id} of run ${p.run_id} is missing from the store`);
+      else if (stored.size !== Number(p.bytes)) problems.push(`photo ${p.id}: ${stored.size} bytes, the row says ${p.bytes}`);
     }
   } finally {
     await restored.end();

@@ -5,7 +5,8 @@
 // and deletion leaving no object behind; abandoned uploads swept by the worker (bytes and rows,
 // with tus's own expiration for bytes no row knows) while one within its age still resumes; a
 // damaged recording leaving no temp copy on the worker's disk; and run photos kept in the store,
-// taken through one instance and served (and drawn in the build sheet) by another.
+// taken through one instance and served (and drawn in the build sheet) by another, and held by
+// the restore check.
 import { execFileSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import fs from "node:fs";
@@ -24,6 +25,7 @@ import { BASE_URL, createUser, waitFor } from "../support/app";
 import { addPerson, fakeStoreUrl, type Stack, startStack } from "../support/stacks";
 import { call, createUpload, offsetOf, patch, sha256, signIn, type Target, waitReady } from "../support/tus-raw";
 
+const ROOT = path.resolve(__dirname, "../..");
 const runDir = process.env.BENCHREEL_RUN_DIR ?? fs.mkdtempSync("/tmp/br-storage-");
 const work = path.join(runDir, "storage-test");
 fs.mkdirSync(work, { recursive: true });
@@ -352,5 +354,27 @@ describe("a run photo kept in the store", () => {
     } finally {
       fs.rmSync(file, { force: true });
     }
-  }, 120_000);
+
+    // The restore check (a dump restored into a new database) finds the photo's object in the
+    // store with the row's size, and names the photo once the store has lost it.
+    const restoreCheck = (): { photos: number; problems: string[] } => {
+      let out: string;
+      try {
+        out = execFileSync(path.join(ROOT, "node_modules/.bin/tsx"), ["scripts/restore-check.ts"], {
+          cwd: ROOT,
+          env: { ...process.env, STORAGE_URL: fakeStoreUrl() },
+          encoding: "utf8",
+        });
+      } catch (err) {
+        // Exit 1 names problems; on the shared database some may be other suites' half-made data.
+        out = (err as { stdout?: string }).stdout ?? "";
+      }
+      return JSON.parse(out.trim().split("\n").pop() ?? "{}");
+    };
+    const before = restoreCheck();
+    expect(before.photos).toBeGreaterThanOrEqual(1);
+    expect(before.problems.filter((p) => p.includes(id))).toEqual([]);
+    await store.remove(`run-photos/${runId}/${id}.png`);
+    expect(restoreCheck().problems).toContain(`photo ${id} of run ${runId} is missing from the store`);
+  }, 180_000);
 });

@@ -50,6 +50,23 @@ export async function servePhoto(request: Request, key: string, mime: string): P
   return res;
 }
 
+/**
+ * Where a run's photo is stored and how large it is, found by its ids alone (the restore check
+ * reads rows, not the app's mime table): the key under the run that names the photo, in the
+ * configured store, else the folder. Null when neither holds it.
+ */
+export async function storedPhoto(runId: string, photoId: string): Promise<{ key: string; size: number } | null> {
+  const order: Backend[] = configuredBackend() === "s3" ? ["s3", "folder"] : ["folder"];
+  const prefix = `${PHOTO_PREFIX}${runId}/`;
+  for (const backend of order) {
+    const store = storeOf(backend);
+    const key = (await store.list(prefix)).find((k) => k.startsWith(`${prefix}${photoId}.`) && !k.endsWith(".tmp"));
+    const info = key ? await store.head(key) : null;
+    if (key && info) return { key, size: info.size };
+  }
+  return null;
+}
+
 async function bytesOf(stream: Readable): Promise<Buffer> {
   const chunks: Buffer[] = [];
   for await (const chunk of stream) chunks.push(chunk as Buffer);
