@@ -502,4 +502,24 @@ describe("runs", () => {
     expect((await send({ specKey: "bore", cylinder: "1", key: "no" })).status).toBe(422);
     expect(await listRunPhotos(runId)).toHaveLength(1);
   });
+
+  it("takes a build's count of cylinders and main journals on its form, refusing counts no engine has", async () => {
+    const { proc, build } = await fixture();
+    const edit = (fields: Record<string, string>) =>
+      http(`/builds/${build.number}/edit`, { cookie: builder.cookie, form: { customerName: "Test customer", ...fields } });
+    const bads: Record<string, string>[] = [
+      { cylinders: "17" },
+      { cylinders: "0" },
+      { cylinders: "four" },
+      { mainJournals: "13" },
+      { mainJournals: "2.5" },
+    ];
+    for (const bad of bads) expect((await edit(bad)).status, JSON.stringify(bad)).toBe(400);
+    expect((await edit({ cylinders: "6", mainJournals: "7" })).status).toBe(302);
+    const [b] = await db().select().from(builds).where(eq(builds.id, build.id));
+    expect([b.cylinders, b.mainJournals]).toEqual([6, 7]);
+    // A run on it now offers six cylinders.
+    const runId = await startRun(builder, proc.slug, build.number);
+    expect((await getRun(runId))?.specs.find((sp) => sp.key === "bore")?.offered).toEqual([1, 2, 3, 4, 5, 6]);
+  });
 });
