@@ -29,6 +29,7 @@ export function BuildOverview({ build }: { build: Build }) {
         <Fact label="Serial">{build.engineSerial || "—"}</Fact>
         <Fact label="Bore">{sizeText(boreOf(build)) ?? "—"}</Fact>
         <Fact label="Stroke">{sizeText(strokeOf(build)) ?? "—"}</Fact>
+        <Fact label="Cylinders · main journals">{`${build.cylinders ?? "—"} · ${build.mainJournals ?? "—"}`}</Fact>
         <Fact label="Came in">{build.receivedOn ? fmtDay(build.receivedOn) : "—"}</Fact>
         <Fact label="Promised for">{build.promisedOn ? fmtDay(build.promisedOn) : "—"}</Fact>
       </dl>
