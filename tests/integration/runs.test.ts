@@ -409,6 +409,10 @@ describe("runs", () => {
     // Every value is within its limits, but cylinder 3 was never measured.
     expect(rec.verdict).toBe("incomplete");
     expect(rec.notes).toContain("Bore diameter: Cyl 3");
+    // The record's page says so too, though every spec has readings.
+    const recordPage = await (await http(`/test-records/${recordId}`, { cookie: apprentice.cookie })).text();
+    expect(recordPage).toContain('data-verdict="incomplete"');
+    expect(recordPage).not.toContain('data-verdict="within"');
     const readings = await db().select().from(testRecordReadings).where(eq(testRecordReadings.recordId, rec.id));
     const placed = readings.map((r) => [r.specKey, r.cylinder, r.fastener, r.valueEntered]).sort();
     expect(placed).toEqual(

@@ -1,5 +1,4 @@
 import { Link } from "react-router";
-import { type Position, positionText } from "~/lib/recordings/positions";
 import type { SpecVerdict } from "~/lib/test-records/verdict";
 import { fmtDay, ReadingVerdictTag, SpecVerdictTag } from "./parts";
 import { inSpecUnitText, limitsText, typedReadingText } from "./units";
@@ -25,7 +24,7 @@ type Reading = {
   verdict: "within" | "below" | "above" | "unchecked";
   note: string;
   sourceReadingId: string | null;
-} & Partial<Position>;
+};
 
 /** Readings grouped by spec, each with its verdict; specs without readings say "Not measured". */
 export function ReadingsTable({
@@ -98,14 +97,6 @@ export function ReadingsTable({
                     <ReadingVerdictTag verdict={r.verdict} />
                   </td>
                   <td className="px-3 py-1 font-sans text-graphite-soft">
-                    {positionText(r) && (
-                      <>
-                        <span className="num font-semibold text-graphite" data-testid="reading-where">
-                          {positionText(r)}
-                        </span>
-                        {r.note ? " · " : ""}
-                      </>
-                    )}
                     {r.note}
                     {r.sourceReadingId && recording && (
                       <>

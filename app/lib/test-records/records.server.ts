@@ -465,7 +465,12 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
     // inspector's own words ("cyl 2, 20 mm down, 90°, plate on"); `noteText` is those words alone.
     readings: inForce.map((r) => ({ ...r, note: whereText(r, r.note), noteText: r.note })),
     evaluation: {
-      verdict: evaluation.verdict,
+      // A run files Incomplete when a cylinder, journal or stud it offered has no reading, which
+      // the readings alone cannot tell: the filed verdict of the version in force stands then.
+      verdict:
+        evaluation.verdict === "within" && rec.verdict === "incomplete" && version === rec.currentVersion
+          ? "incomplete"
+          : evaluation.verdict,
       specs: evaluation.specs.map((e) => ({ specId: e.spec.id, verdict: e.verdict })),
       notMeasured: evaluation.notMeasured.map((s) => s.id),
     },
