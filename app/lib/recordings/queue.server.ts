@@ -31,18 +31,37 @@ export function boss(opts: { worker?: boolean } = {}): Promise<PgBoss> {
     });
     b.on("error", (err) => console.error("[queue]", err.message));
     await b.start();
-    for (const name of QUEUES) {
-      if (await b.getQueue(name)) continue;
-      await b.createQueue(name, { name, ...JOB_OPTIONS }).catch(async (err) => {
-        if (!(await b.getQueue(name))) throw err; // lost a race with the other process: fine
-      });
-    }
+    await createMissingQueues(b);
     return b;
   })().catch((err) => {
     g.__benchreelBoss = undefined;
     throw err;
   });
   return g.__benchreelBoss;
+}
+
+/** The advisory lock under which one process at a time makes queues ("que" in ASCII, apart from the others' classes). */
+const QUEUE_LOCK: [number, number] = [0x717565, 1];
+
+/**
+ * Makes the queues that do not exist yet, one process at a time: pg-boss makes a queue as a
+ * partition of its job table, and two processes doing that at once (an app finishing its first
+ * upload while a worker starts, two workers starting) can deadlock in PostgreSQL, which failed
+ * the upload. Once the queues exist, nothing is locked.
+ */
+async function createMissingQueues(b: PgBoss) {
+  const missing = async () =>
+    (await Promise.all(QUEUES.map(async (name) => ((await b.getQueue(name)) ? null : name)))).filter((n) => n !== null);
+  if (!(await missing()).length) return;
+  const client = new pg.Client({ connectionString: env().DATABASE_URL, application_name: "benchreel-queues" });
+  await client.connect();
+  try {
+    await client.query("select pg_advisory_lock($1, $2)", QUEUE_LOCK);
+    for (const name of await missing()) await b.createQueue(name, { name, ...JOB_OPTIONS });
+  } finally {
+    await client.query("select pg_advisory_unlock($1, $2)", QUEUE_LOCK).catch(() => {});
+    await client.end().catch(() => {});
+  }
 }
 
 /** Wakes the worker when a job is sent (it polls once a second as well, in case it missed one). */
