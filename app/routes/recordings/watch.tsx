@@ -141,8 +141,12 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
     return () => clearInterval(t);
   }, [r.state, revalidator]);
 
+  // A moment chosen before the player has loaded (a busy tablet, a slow network) is kept and
+  // played once it is ready, instead of being lost.
+  const pendingSeek = useRef<number | null>(null);
   const seek = useCallback((t: number) => {
-    api.current?.seek(t);
+    if (api.current) api.current.seek(t);
+    else pendingSeek.current = t;
     setTime(t);
     document.getElementById("player-region")?.scrollIntoView({ block: "nearest", behavior: reducedMotion() ? "auto" : "smooth" });
   }, []);
@@ -289,6 +293,8 @@ export default function Watch({ loaderData, actionData }: Route.ComponentProps) 
                     activeMarkId={activeMark}
                     onReady={(p) => {
                       api.current = p;
+                      if (pendingSeek.current != null) p.seek(pendingSeek.current);
+                      pendingSeek.current = null;
                     }}
                     onTime={setTime}
                     captionsSrc={captionsSrc}
