@@ -12,7 +12,6 @@
  *     reachable only through import(), are counted apart).
  * Every request goes to the app on 127.0.0.1; the loops are bounded.
  */
-import fs from "node:fs";
 import os from "node:os";
 import { gzipSync } from "node:zlib";
 import autocannon from "autocannon";
@@ -22,6 +21,7 @@ import type { JSONNode } from "~/lib/procedures/document";
 import { createProcedure, saveDraft, startDraftFrom } from "~/lib/procedures/drafts.server";
 import { publishRevision, submitRevision } from "~/lib/procedures/transitions.server";
 import { createUser, type TestUser } from "../../tests/support/app";
+import { cpuMs } from "./proc";
 
 type Stat = { p50: number; p95: number; samples: number };
 const stat = (xs: number[]): Stat => {
@@ -250,22 +250,11 @@ async function ttfbLoop(url: string, cookie: string, n: number): Promise<Stat & 
   return { ...stat(times), queries: [...queries].sort((x, y) => x - y) };
 }
 
-/**
- * CPU time the app's process has used so far (user + system, ms), from /proc: what a response
- * costs the server, which moves far less than its latency when other work shares the cores.
- * null when `npm run bench` did not say which process serves (BENCHREEL_APP_PID).
- */
+/** CPU time the app's process has used so far (ms); null when `npm run bench` did not name it. */
 function appCpuMs(): number | null {
   const pid = process.env.BENCHREEL_APP_PID;
-  if (!pid) return null;
-  const stat = fs.readFileSync(`/proc/${pid}/stat`, "utf8");
-  // Fields after the command's closing parenthesis; utime and stime are the 14th and 15th.
-  const f = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
-  const ticks = Number(f[11]) + Number(f[12]);
-  return (ticks * 1000) / CLOCK_TICKS;
+  return pid ? cpuMs(Number(pid)) : null;
 }
-/** Linux's USER_HZ: 100 on every architecture Debian builds for. */
-const CLOCK_TICKS = 100;
 
 /** What Debian's chromium sends: the server answers a page compressed, as a person's browser gets it. */
 const BROWSER_ENCODINGS = "gzip, deflate, br, zstd";

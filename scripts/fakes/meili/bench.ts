@@ -49,7 +49,7 @@ export type BenchResult = {
 };
 
 /** Deterministic PRNG (mulberry32). */
-function rng(seed: number) {
+export function rng(seed: number) {
   let a = seed >>> 0;
   return () => {
     a = (a + 0x6d2b79f5) >>> 0;
