@@ -8,3 +8,4 @@ export * from "./captions";
 export * from "./storage";
 export * from "./runs";
 export * from "./mail-attachments";
+export * from "./test-record-missing";
