@@ -8,7 +8,8 @@ import { testRecords } from "./test-records";
 // pinned when the run starts and never changes; finishing files a test record against it.
 // Entries are never updated: each value typed is a row of its own (with the device's
 // idempotency key), and a spec's value at a position (cylinder, journal, stud) is its latest
-// entry there (app/lib/runs/entries.ts; positions since migration 0033).
+// entry there (app/lib/runs/entries.ts; positions since migration 0033, a grid's depth and angle
+// since 0035).
 
 /**
  * Where an entry was measured: the one numbered place a spec is worked through on the run
@@ -66,6 +67,13 @@ export const runEntries = pgTable(
       .references(() => procedureSpecs.id, { onDelete: "restrict" }),
     specKey: text("spec_key").notNull(),
     ...runPositionColumns(),
+    /**
+     * A bore read for a step's Bore distortion grid: its depth below the deck (metres, with the
+     * unit typed) and angle, as on readings (migration 0035); null for every other entry.
+     */
+    depthM: doublePrecision("depth_m"),
+    depthUnit: text("depth_unit"),
+    angleDeg: doublePrecision("angle_deg"),
     /** null: the value was cleared. */
     valueEntered: doublePrecision("value_entered"),
     unitEntered: text("unit_entered").notNull(),
