@@ -15,8 +15,21 @@ function useObjectUrl(blob: Blob): string | null {
   return url;
 }
 
-function WaitingPhoto({ photo, label }: { photo: Waiting; label: string }) {
+function WaitingPhoto({ photo, label, onDiscard }: { photo: Waiting; label: string; onDiscard?: (key: string) => void }) {
   const url = useObjectUrl(photo.blob);
+  if (photo.refused)
+    return (
+      <li className="flex max-w-xs flex-col gap-1 text-sm" data-testid="photo-refused" role="alert">
+        {url && <img src={url} alt={`${label}, refused by the server`} className="h-24 w-24 rounded border border-spec-red object-cover" />}
+        <span className="field-error">{`Not kept: ${photo.refused}`}</span>
+        <span className="text-graphite-soft">It is still on this tablet; sending it again will be refused again.</span>
+        {onDiscard && (
+          <button type="button" className="btn btn-danger min-h-11 self-start" onClick={() => onDiscard(photo.key)}>
+            Discard from this tablet
+          </button>
+        )}
+      </li>
+    );
   return (
     <li className="flex flex-col items-center text-xs" data-testid="photo-waiting">
       {url && (
@@ -26,7 +39,7 @@ function WaitingPhoto({ photo, label }: { photo: Waiting; label: string }) {
           className="h-24 w-24 rounded border border-dashed border-brass object-cover"
         />
       )}
-      <span className={photo.refused ? "field-error" : "text-graphite-soft"}>{photo.refused ?? "waiting to send"}</span>
+      <span className="text-graphite-soft">waiting to send</span>
     </li>
   );
 }
@@ -46,6 +59,7 @@ export function RunPhotos({
   waiting,
   canAdd,
   onPhoto,
+  onDiscard,
 }: {
   specKey: string;
   specLabel: string;
@@ -56,6 +70,8 @@ export function RunPhotos({
   waiting: Waiting[];
   canAdd: boolean;
   onPhoto: (slotKey: string, file: File) => void;
+  /** Takes a refused photo off the device. */
+  onDiscard?: (key: string) => void;
 }) {
   const [chosen, setChosen] = useState<string | null>(null);
   const slot = chosen && slots.some((s) => s.key === chosen) ? chosen : defaultSlot;
@@ -85,7 +101,7 @@ export function RunPhotos({
             </li>
           ))}
           {waiting.map((w) => (
-            <WaitingPhoto key={w.key} photo={w} label={waitingLabel(w)} />
+            <WaitingPhoto key={w.key} photo={w} label={waitingLabel(w)} onDiscard={onDiscard} />
           ))}
         </ul>
       )}

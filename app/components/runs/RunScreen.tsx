@@ -6,8 +6,20 @@ import { CALC_CAUTION, calcLabel } from "~/lib/calc-kinds";
 import { parseNumber, unitLabel } from "~/lib/calc-ui/units";
 import type { UnitCode } from "~/lib/calc";
 import { specLimitsText } from "~/lib/procedures/reader-blocks";
-import { type EntryInput, type Place, placeKey, placeLabel, placesBySpec, placeWord, progressOf } from "~/lib/runs/entries";
-import { prefillCalculator, type StepValue } from "~/lib/runs/prefill";
+import {
+  type EntryInput as SentEntry,
+  type Place,
+  parsePlaceKey,
+  placeKey,
+  placeOf,
+  placeLabel,
+  placesBySpec,
+  placeWord,
+  progressOf,
+} from "~/lib/runs/entries";
+import { type DistortionGrid, type GridReading, gridCells, prefillDistortion, stepGrid, takesGrid } from "~/lib/runs/grid";
+import { prefillCalculator, type Prefilled, type StepValue } from "~/lib/runs/prefill";
+import type { RunCalculator } from "~/lib/runs/steps";
 import type { RunView } from "~/lib/runs/runs.server";
 import { stepTitle } from "~/lib/runs/steps";
 import { READING_VERDICT_LABELS, type ReadingVerdict } from "~/lib/test-records/labels";
@@ -16,6 +28,7 @@ import { typedDecimals, typedText } from "~/lib/typed-number";
 import {
   addWaiting,
   addWaitingPhoto,
+  discardPhoto,
   type QueuedEntry,
   type QueuedPhoto,
   removeWaiting,
@@ -35,11 +48,13 @@ const slotOf = (spec: Spec, n: number | null): Slot => {
   const place = spec.field && n != null ? { [spec.field]: n } : null;
   return { spec, place, key: placeKey(spec.key, place), label: spec.field && n != null ? placeLabel(spec.field, n) : spec.label };
 };
-const placeOfKey = (key: string): { specKey: string; place: Place | null } => {
-  const [specKey, at] = key.split("@");
-  const m = at ? /^(cylinder|journal|fastener)(\d+)$/.exec(at) : null;
-  return { specKey, place: m ? { [m[1]]: Number(m[2]) } : null };
-};
+/** A cell of a bore's distortion grid: the cylinder's diameter at a depth and an angle. */
+const gridSlotOf = (spec: Spec, cylinder: number, place: Place, words: string): Slot => ({
+  spec,
+  place,
+  key: placeKey(spec.key, place),
+  label: `${placeLabel("cylinder", cylinder)}, ${words}`,
+});
 type Props = {
   view: RunView;
   canWork: boolean;
@@ -117,7 +132,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
       }
       const spec = specByKeyRef.current.get(p.specKey);
       if (out.kind === "sent" && out.url && spec) {
-        const at = slotOf(spec, p.position ? (Object.values(p.position)[0] ?? null) : null);
+        const at = slotOf(spec, placeOf(p.position)?.n ?? null);
         const id = out.url.split("/").pop() ?? p.key;
         setSentPhotos((list) => [
           ...list,
@@ -221,9 +236,9 @@ export function RunScreen({ view, canWork, actionData }: Props) {
     const entry: QueuedEntry = {
       key: newKey(),
       specKey: slot.spec.key,
-      ...(slot.place ? { position: slot.place as NonNullable<EntryInput["position"]> } : {}),
+      ...(slot.place ? { position: slot.place as NonNullable<SentEntry["position"]> } : {}),
       value: value ?? null,
-      unit: slot.spec.unit as EntryInput["unit"],
+      unit: slot.spec.unit as SentEntry["unit"],
       decimals: value == null ? null : typedDecimals(text),
       typedAt: new Date().toISOString(),
       device: deviceName(),
@@ -283,7 +298,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   function slotsOf(spec: Spec): Slot[] {
     if (!spec.field) return [slotOf(spec, null)];
     const typed = Object.keys(texts)
-      .map(placeOfKey)
+      .map(parsePlaceKey)
       .filter((k) => k.specKey === spec.key && k.place)
       .map((k) => Object.values(k.place as Place)[0] as number);
     const rows = Math.max(spec.startRows, spec.offered.length, ...typed, 0) + (addedRows[spec.key] ?? 0);
@@ -298,7 +313,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   const typedBySpec: Record<string, { value: number; unit: string }[]> = {};
   for (const [k, text] of Object.entries(texts)) {
     const v = parseNumber(text);
-    const { specKey, place } = placeOfKey(k);
+    const { specKey, place } = parsePlaceKey(k);
     const spec = specByKey.get(specKey);
     if (!spec) continue;
     const ok = v !== undefined && !Number.isNaN(v);
@@ -311,6 +326,9 @@ export function RunScreen({ view, canWork, actionData }: Props) {
 
   const step = steps[stepAt];
   const stepSpecs = (step?.specKeys ?? []).map((k) => specByKey.get(k)).filter((s): s is Spec => Boolean(s));
+  // A bore measured per cylinder beside a Bore distortion calculator is read in that calculator's grid.
+  const grid = step ? stepGrid(step.calculators) : null;
+  const inGrid = (s: Spec) => Boolean(grid) && s.field === "cylinder" && takesGrid(s);
   const stepValues: StepValue[] = stepSpecs.flatMap((s) => {
     // A per-place spec feeds its calculators the place last typed at (else the highest typed).
     const slots = slotsOf(s).filter((sl) => {
@@ -400,6 +418,36 @@ export function RunScreen({ view, canWork, actionData }: Props) {
           ))}
           {stepSpecs.map((s) => {
             const slots = slotsOf(s);
+            const photos = (defaultSlot: string, chosenSlots: Slot[]) => (
+              <RunPhotos
+                specKey={s.key}
+                specLabel={s.label}
+                slots={chosenSlots.map((sl) => ({ key: sl.key, label: sl.label }))}
+                defaultSlot={defaultSlot}
+                photos={allPhotos.filter((p) => p.specKey === s.key)}
+                waiting={photosWaiting.filter((p) => p.specKey === s.key)}
+                canAdd={open}
+                onPhoto={(slotKey, file) => takePhoto(chosenSlots.find((sl) => sl.key === slotKey) ?? chosenSlots[0], file)}
+                onDiscard={(key) => void discardPhoto(run.id, key).then(setPhotosWaiting)}
+              />
+            );
+            if (grid && inGrid(s))
+              return (
+                <BoreGrid
+                  key={s.key}
+                  spec={s}
+                  cylinders={slots}
+                  grid={grid.grid}
+                  calculator={grid.calculator}
+                  texts={texts}
+                  onType={onType}
+                  disabled={!open}
+                  refusals={refusals}
+                  waitingKeys={new Set(waiting.map((e) => placeKey(e.specKey, e.position)))}
+                  onAddRow={open && !fixedRows(s) ? () => setAddedRows((a) => ({ ...a, [s.key]: (a[s.key] ?? 0) + 1 })) : undefined}
+                  photos={photos}
+                />
+              );
             const last = s.field ? (slots.find((sl) => sl.place?.[s.field!] === lastPlace[s.key]) ?? slots[0]) : slots[0];
             return (
               <EntryGroup
@@ -415,26 +463,17 @@ export function RunScreen({ view, canWork, actionData }: Props) {
                   open && s.field && !fixedRows(s) ? () => setAddedRows((a) => ({ ...a, [s.key]: (a[s.key] ?? 0) + 1 })) : undefined
                 }
               >
-                <RunPhotos
-                  specKey={s.key}
-                  specLabel={s.label}
-                  slots={slots.map((sl) => ({ key: sl.key, label: sl.label }))}
-                  defaultSlot={last.key}
-                  photos={allPhotos.filter((p) => p.specKey === s.key)}
-                  waiting={photosWaiting.filter((p) => p.specKey === s.key)}
-                  canAdd={open}
-                  onPhoto={(slotKey, file) => {
-                    const slot = slots.find((sl) => sl.key === slotKey) ?? last;
-                    takePhoto(slot, file);
-                  }}
-                />
+                {photos(last.key, slots)}
               </EntryGroup>
             );
           })}
-          {step.calculators.map((c, i) => (
-            // biome-ignore lint/suspicious/noArrayIndexKey: a step's calculators keep their document order
-            <StepCalculator key={i} prefilled={prefillCalculator(c, stepValues)} />
-          ))}
+          {step.calculators.map((c, i) =>
+            // The grid's calculator is shown inside the bore's grid, per cylinder.
+            c === grid?.calculator && stepSpecs.some(inGrid) ? null : (
+              // biome-ignore lint/suspicious/noArrayIndexKey: a step's calculators keep their document order
+              <StepCalculator key={i} prefilled={prefillCalculator(c, stepValues)} />
+            ),
+          )}
         </section>
       ) : (
         <p className="card mt-4">This revision has no steps to work through.</p>
@@ -525,9 +564,12 @@ function SaveState({
   );
 }
 
-function VerdictTag({ verdict, short }: { verdict: ReadingVerdict; short?: boolean }) {
+function VerdictTag({ verdict, short, small }: { verdict: ReadingVerdict; short?: boolean; small?: boolean }) {
   return (
-    <span className={`inline-block rounded border px-2 py-1 text-base font-semibold ${VERDICT_CLASS[verdict]}`} data-testid="entry-verdict">
+    <span
+      className={`inline-block rounded border font-semibold ${small ? "px-1 text-xs" : "px-2 py-1 text-base"} ${VERDICT_CLASS[verdict]}`}
+      data-testid="entry-verdict"
+    >
       {verdict === "within"
         ? short
           ? "Within"
@@ -543,6 +585,27 @@ function VerdictTag({ verdict, short }: { verdict: ReadingVerdict; short?: boole
  * A spec's entry fields: one for a spec measured once; for one measured per cylinder, journal
  * or stud, a compact list of its places, each with its own field and verdict as typed.
  */
+/** What every spec's entry fields are given: its typed texts, the typing handler, refusals and what waits. */
+type EntryFieldsProps = {
+  spec: Spec;
+  texts: Record<string, string>;
+  onType: (slot: Slot, t: string) => void;
+  disabled: boolean;
+  refusals: Record<string, string>;
+  waitingKeys: ReadonlySet<string>;
+  onAddRow?: () => void;
+};
+
+/** The spec's limits and note under its name, which each of its fields is described by. */
+function LimitsLine({ spec, id }: { spec: Spec; id: string }) {
+  return (
+    <p className="num text-graphite-soft" id={id}>
+      {specLimitsText({ ...spec, nominal: spec.nominal ?? null }) || "no limits: recorded only"}
+      {spec.note ? ` · ${spec.note}` : ""}
+    </p>
+  );
+}
+
 function EntryGroup({
   spec,
   slots,
@@ -553,25 +616,10 @@ function EntryGroup({
   waitingKeys,
   onAddRow,
   children,
-}: {
-  spec: Spec;
-  slots: Slot[];
-  texts: Record<string, string>;
-  onType: (slot: Slot, t: string) => void;
-  disabled: boolean;
-  refusals: Record<string, string>;
-  waitingKeys: ReadonlySet<string>;
-  onAddRow?: () => void;
-  children: React.ReactNode;
-}) {
+}: EntryFieldsProps & { slots: Slot[]; children: React.ReactNode }) {
   const id = `entry-${spec.key}`;
   const unit = unitLabel(spec.unit as UnitCode);
-  const limits = (
-    <p className="num text-graphite-soft" id={`${id}-limits`}>
-      {specLimitsText({ ...spec, nominal: spec.nominal ?? null }) || "no limits: recorded only"}
-      {spec.note ? ` · ${spec.note}` : ""}
-    </p>
-  );
+  const limits = <LimitsLine spec={spec} id={`${id}-limits`} />;
   if (!spec.field) {
     const slot = slots[0];
     const text = texts[slot.key] ?? "";
@@ -585,17 +633,7 @@ function EntryGroup({
         {limits}
         <div className="mt-2 flex flex-wrap items-center gap-3">
           <div className="flex items-center gap-2">
-            <input
-              id={id}
-              className="field num w-44 text-2xl"
-              inputMode="decimal"
-              autoComplete="off"
-              value={text}
-              disabled={disabled}
-              onChange={(e) => onType(slot, e.target.value)}
-              aria-describedby={`${id}-limits ${id}-verdict${problem ? ` ${id}-error` : ""}`}
-              aria-invalid={problem ? true : undefined}
-            />
+            <EntryInput id={id} limitsId={`${id}-limits`} className="w-44 text-2xl" {...{ slot, text, disabled, onType, problem }} />
             <span className="text-xl">{unit}</span>
           </div>
           <span id={`${id}-verdict`} aria-live="polite" className="min-h-8">
@@ -639,17 +677,7 @@ function EntryGroup({
                   {slot.label}
                   <span className="sr-only">, {spec.label}</span>
                 </label>
-                <input
-                  id={fid}
-                  className="field num w-28 text-xl"
-                  inputMode="decimal"
-                  autoComplete="off"
-                  value={text}
-                  disabled={disabled}
-                  onChange={(e) => onType(slot, e.target.value)}
-                  aria-describedby={`${id}-limits ${fid}-verdict${problem ? ` ${fid}-error` : ""}`}
-                  aria-invalid={problem ? true : undefined}
-                />
+                <EntryInput id={fid} limitsId={`${id}-limits`} className="w-28 text-xl" {...{ slot, text, disabled, onType, problem }} />
                 <span id={`${fid}-verdict`} aria-live="polite" className="min-h-8">
                   {live.verdict && <VerdictTag verdict={live.verdict} short />}
                   {waitingKeys.has(slot.key) && <span className="ml-2 text-sm text-graphite-soft">waiting</span>}
@@ -674,7 +702,194 @@ function EntryGroup({
   );
 }
 
-function StepCalculator({ prefilled }: { prefilled: ReturnType<typeof prefillCalculator> }) {
+/**
+ * One entry field, the same wherever a value is typed (once, per place, in a bore's grid): the
+ * decimal keypad, and the spec's limits, the field's verdict and any problem read out with it.
+ */
+function EntryInput({
+  id,
+  limitsId,
+  className,
+  slot,
+  text,
+  disabled,
+  onType,
+  problem,
+}: {
+  id: string;
+  limitsId: string;
+  className: string;
+  slot: Slot;
+  text: string;
+  disabled: boolean;
+  onType: (slot: Slot, t: string) => void;
+  problem: string | null;
+}) {
+  return (
+    <input
+      id={id}
+      className={`field num ${className}`}
+      inputMode="decimal"
+      autoComplete="off"
+      value={text}
+      disabled={disabled}
+      onChange={(e) => onType(slot, e.target.value)}
+      aria-describedby={`${limitsId} ${id}-verdict${problem ? ` ${id}-error` : ""}`}
+      aria-invalid={problem ? true : undefined}
+    />
+  );
+}
+
+/**
+ * A bore read per cylinder in its step's Bore distortion grid: one cylinder at a time (the
+ * tablet is held in one hand), a diameter at each of the calculator's depths and angles, each
+ * judged against the bore's limits as typed, and the cylinder's distortion from those numbers.
+ */
+function BoreGrid({
+  spec,
+  cylinders,
+  grid,
+  calculator,
+  texts,
+  onType,
+  disabled,
+  refusals,
+  waitingKeys,
+  onAddRow,
+  photos,
+}: EntryFieldsProps & {
+  cylinders: Slot[];
+  grid: DistortionGrid;
+  calculator: RunCalculator;
+  photos: (defaultSlot: string, slots: Slot[]) => React.ReactNode;
+}) {
+  const [at, setAt] = useState(0);
+  const i = Math.max(0, Math.min(at, cylinders.length - 1));
+  const id = `entry-${spec.key}`;
+  const unit = unitLabel(spec.unit as UnitCode);
+  const depthWords = (d: { value: number; unit: string }) => `${d.value} ${d.unit}`;
+  const cellsOf = (slot: Slot) => {
+    const n = slot.place?.cylinder as number;
+    return gridCells(grid, n).map((c) => ({ ...c, slot: gridSlotOf(spec, n, c.place, `${depthWords(c.depth)} down, ${c.angle}°`) }));
+  };
+  const typedIn = (slot: Slot) =>
+    cellsOf(slot).filter((c) => {
+      const v = parseNumber(texts[c.slot.key]);
+      return v !== undefined && !Number.isNaN(v);
+    });
+  const current = cylinders[i];
+  const n = current.place?.cylinder as number;
+  const cells = cellsOf(current);
+  const readings: GridReading[] = typedIn(current).map((c) => ({
+    depth: c.depth,
+    angle: c.angle,
+    value: parseNumber(texts[c.slot.key]) as number,
+    unit: spec.unit,
+  }));
+  const last = i === cylinders.length - 1;
+  return (
+    <fieldset className="rounded-lg border border-rule bg-paper/60 p-4" data-testid="entry" data-spec={spec.key}>
+      <legend className="px-1 text-lg font-semibold">{spec.label}</legend>
+      <LimitsLine spec={spec} id={`${id}-limits`} />
+      <p className="text-sm text-graphite-soft">
+        {`Each cylinder at ${grid.depths.length} ${grid.depths.length === 1 ? "depth" : "depths"} below the deck and ${grid.angles.length} ${grid.angles.length === 1 ? "angle" : "angles"}, in ${unit}; every diameter is judged against the bore's limits.`}
+      </p>
+      <fieldset className="mt-3 flex flex-wrap gap-2">
+        <legend className="sr-only">Cylinders</legend>
+        {cylinders.map((c, j) => (
+          <button
+            key={c.key}
+            type="button"
+            className={`btn min-h-11 num ${j === i ? "btn-primary" : ""}`}
+            aria-pressed={j === i}
+            onClick={() => setAt(j)}
+          >
+            {`${c.label} · ${typedIn(c).length}/${cells.length}`}
+          </button>
+        ))}
+      </fieldset>
+      <div className="mt-3 overflow-x-auto" data-testid="bore-grid" data-cylinder={n}>
+        <table className="w-full min-w-[28rem] table-fixed border-separate border-spacing-1">
+          <caption className="text-left font-serif text-xl">{`${placeLabel("cylinder", n)}: diameters in ${unit}`}</caption>
+          <thead>
+            <tr>
+              <th scope="col" className="w-20 text-left text-sm font-semibold">
+                Depth
+              </th>
+              {grid.angles.map((a) => (
+                <th key={a} scope="col" className="num text-sm font-semibold">{`${a}°`}</th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {grid.depths.map((d, di) => (
+              <tr key={`${d.value}${d.unit}`}>
+                <th scope="row" className="num text-left text-sm font-semibold">
+                  {depthWords(d)}
+                </th>
+                {grid.angles.map((a, ai) => {
+                  const cell = cells[di * grid.angles.length + ai];
+                  const text = texts[cell.slot.key] ?? "";
+                  const live = liveVerdict(spec, text);
+                  const problem = refusals[cell.slot.key] ?? live.problem;
+                  const cid = `${id}-c${n}-d${di}-a${ai}`;
+                  return (
+                    <td key={a} className="align-top" data-testid="grid-cell" data-place={cell.slot.label}>
+                      <label htmlFor={cid} className="sr-only">
+                        {`${cell.slot.label}, ${spec.label}`}
+                      </label>
+                      <EntryInput
+                        id={cid}
+                        limitsId={`${id}-limits`}
+                        className="min-h-12 w-full px-2 text-xl"
+                        {...{ slot: cell.slot, text, disabled, onType, problem }}
+                      />
+                      <span id={`${cid}-verdict`} aria-live="polite" className="block min-h-6 text-center">
+                        {live.verdict && <VerdictTag verdict={live.verdict} short small />}
+                        {waitingKeys.has(cell.slot.key) && <span className="block text-xs text-graphite-soft">waiting</span>}
+                      </span>
+                      {problem && (
+                        <p id={`${cid}-error`} className="field-error text-xs" role="alert">
+                          {problem}
+                        </p>
+                      )}
+                    </td>
+                  );
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <div className="mt-3 flex flex-wrap justify-between gap-2">
+        <button type="button" className="btn min-h-12 px-4" disabled={i === 0} onClick={() => setAt(i - 1)}>
+          ← Previous cylinder
+        </button>
+        {(!last || onAddRow) && (
+          <button
+            type="button"
+            className="btn min-h-12 px-4"
+            onClick={() => {
+              if (last) onAddRow?.();
+              setAt(i + 1);
+            }}
+          >
+            Next cylinder →
+          </button>
+        )}
+      </div>
+      <div className="mt-3">
+        <StepCalculator
+          title={`${calcLabel(calculator.kind)} — ${placeLabel("cylinder", n)}`}
+          prefilled={prefillDistortion(calculator, `${spec.label}, ${placeLabel("cylinder", n)}`, readings, cells.length)}
+        />
+      </div>
+      {photos(current.key, cylinders)}
+    </fieldset>
+  );
+}
+
+function StepCalculator({ prefilled, title }: { prefilled: Prefilled; title?: string }) {
   const { calculator, filled, outcome } = prefilled;
   return (
     <section
@@ -682,9 +897,7 @@ function StepCalculator({ prefilled }: { prefilled: ReturnType<typeof prefillCal
       aria-label={`${calcLabel(calculator.kind)} calculator`}
       data-testid="step-calculator"
     >
-      <h3 className="text-base font-semibold">
-        {calcLabel(calculator.kind)} — {calculator.title}
-      </h3>
+      <h3 className="text-base font-semibold">{title ?? `${calcLabel(calculator.kind)} — ${calculator.title}`}</h3>
       {filled.length > 0 ? (
         <p className="text-sm text-graphite-soft">From this step: {filled.map((f) => `${f.input} ← ${f.from}`).join("; ")}</p>
       ) : (

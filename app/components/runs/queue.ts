@@ -96,6 +96,16 @@ export async function settlePhoto(runId: string, key: string, refused?: string):
   return list;
 }
 
+/**
+ * Takes a photo off the device for good: one the server refused (too large, not a picture, the
+ * run closed) would otherwise wait there for ever, since sending it again is refused again.
+ */
+export async function discardPhoto(runId: string, key: string): Promise<QueuedPhoto[]> {
+  const list = (await waitingPhotos(runId)).filter((p) => p.key !== key);
+  await set(keyOf(runId), list, photoDb());
+  return list;
+}
+
 /** Sends one waiting photo under its key (a resend after a lost answer is stored once). */
 export async function sendPhoto(runId: string, p: QueuedPhoto): Promise<SendOutcome & { url?: string }> {
   const body = new FormData();

@@ -4,9 +4,9 @@
  * stored once. Pure (zod only): the API parses with it and the screen builds its queue from it.
  */
 import { z } from "zod";
-import { isUnitCode } from "~/lib/calc";
+import { isUnitCode, toSI } from "~/lib/calc";
 import { POSITION_RANGES, quantityProblem } from "~/lib/edge";
-import { positionFieldsForSpec } from "~/lib/recordings/positions";
+import { DEPTH_UNITS, type DepthUnit, positionFieldsForSpec } from "~/lib/recordings/positions";
 import { MAX_TYPED_DECIMALS } from "~/lib/typed-number";
 
 /** Made on the device (crypto.randomUUID or the like); letters, digits, - and _ only. */
@@ -35,19 +35,59 @@ const placeNumber = (field: RunPlaceField, what: string) =>
     .min(POSITION_RANGES[field].min, `A ${what} number from ${POSITION_RANGES[field].min} to ${POSITION_RANGES[field].max}.`)
     .max(POSITION_RANGES[field].max, `A ${what} number from ${POSITION_RANGES[field].min} to ${POSITION_RANGES[field].max}.`);
 
-/** Where the entry was measured: `{ cylinder: 3 }`; nothing for a spec measured once. Other fields are refused. */
+/**
+ * Where the entry was measured: `{ cylinder: 3 }`; nothing for a spec measured once. A bore
+ * read for a step's Bore distortion grid also says where in the cylinder:
+ * `{ cylinder: 3, depth: { value: 10, unit: "mm" }, angle: 45 }` (both or neither). Other
+ * fields are refused.
+ */
 export const placeSchema = z
   .strictObject(
     {
       cylinder: placeNumber("cylinder", "cylinder"),
       journal: placeNumber("journal", "journal"),
       fastener: placeNumber("fastener", "stud"),
+      depth: z.strictObject({
+        value: z.number({ error: "Enter the depth below the deck as a number." }).min(0, "A depth below the deck cannot be negative."),
+        unit: z.enum(DEPTH_UNITS, { error: "A depth is in mm or in." }),
+      }),
+      angle: z
+        .number({ error: "Enter the angle in degrees." })
+        .min(POSITION_RANGES.angleDeg.min, "An angle runs from 0 to 360°.")
+        .max(POSITION_RANGES.angleDeg.max, "An angle runs from 0 to 360°."),
     },
-    { error: "A position names only a cylinder, a journal or a stud." },
+    { error: "A position names only a cylinder, a journal or a stud, and for a bore a depth and an angle." },
   )
   .partial()
-  .refine((p) => Object.values(p).filter((v) => v != null).length <= 1, { message: "An entry is measured at one place." });
-export type Place = { cylinder?: number | null; journal?: number | null; fastener?: number | null };
+  .refine((p) => [p.cylinder, p.journal, p.fastener].filter((v) => v != null).length <= 1, {
+    message: "An entry is measured at one place.",
+  })
+  .refine((p) => (p.depth == null) === (p.angle == null), { message: "A bore reading in a grid names both its depth and its angle." })
+  .refine((p) => p.depth == null || p.cylinder != null, { message: "A depth and an angle are taken in a cylinder: name it." })
+  .refine((p) => p.depth == null || toSI(p.depth.value, p.depth.unit) <= POSITION_RANGES.depthM.max, {
+    message: "That is deeper than any bore (1 m); check the number and the unit.",
+  });
+/** Where in a cylinder a grid reading was taken, as typed (depth) and as stored (depthM). */
+type GridPart = {
+  depth?: { value: number; unit: DepthUnit } | null;
+  angle?: number | null;
+  depthM?: number | null;
+  depthUnit?: string | null;
+  angleDeg?: number | null;
+};
+export type Place = { cylinder?: number | null; journal?: number | null; fastener?: number | null } & GridPart;
+
+/** The depth (metres, and the unit typed) and angle of a grid reading, from a typed or a stored place; null off the grid. */
+export function gridOf(p: Place | null | undefined): { depthM: number; depthUnit: DepthUnit; angleDeg: number } | null {
+  if (!p) return null;
+  const depthM = p.depthM ?? (p.depth ? toSI(p.depth.value, p.depth.unit) : null);
+  const angleDeg = p.angleDeg ?? p.angle ?? null;
+  if (depthM == null || angleDeg == null) return null;
+  return { depthM, depthUnit: (p.depthUnit ?? p.depth?.unit) === "in" ? "in" : "mm", angleDeg };
+}
+
+// Nine significant digits: the same depth converted twice (screen and server) keys the same.
+const keyNumber = (x: number) => String(Number(x.toPrecision(9)));
 
 /** The place's field and number, or null for an entry without one. */
 export function placeOf(p: Place | null | undefined): { field: RunPlaceField; n: number } | null {
@@ -55,11 +95,22 @@ export function placeOf(p: Place | null | undefined): { field: RunPlaceField; n:
   return null;
 }
 
-/** "bore@cylinder3", "final": one value per spec and place. */
+/** "bore@cylinder3", "final", "bore@cylinder3@d0.01a45" (a grid reading): one value per spec and full place. */
 export const placeKey = (specKey: string, p?: Place | null) => {
   const at = placeOf(p);
-  return at ? `${specKey}@${at.field}${at.n}` : specKey;
+  if (!at) return specKey;
+  const grid = gridOf(p);
+  return `${specKey}@${at.field}${at.n}${grid ? `@d${keyNumber(grid.depthM)}a${keyNumber(grid.angleDeg)}` : ""}`;
 };
+
+/** The spec and place a `placeKey` names (a grid reading's depth in metres). */
+export function parsePlaceKey(key: string): { specKey: string; place: Place | null } {
+  const [specKey, at, grid] = key.split("@");
+  const m = at ? /^(cylinder|journal|fastener)(\d+)$/.exec(at) : null;
+  if (!m) return { specKey, place: null };
+  const g = grid ? /^d([0-9.e+-]+)a([0-9.e+-]+)$/.exec(grid) : null;
+  return { specKey, place: { [m[1]]: Number(m[2]), ...(g ? { depthM: Number(g[1]), angleDeg: Number(g[2]) } : {}) } };
+}
 
 const PLACE_WORDS: Record<RunPlaceField, { short: string; row: string }> = {
   cylinder: { short: "Cyl", row: "cylinder" },
@@ -116,6 +167,31 @@ export function latestByPlace<E extends { specKey: string; typedAt: Date | strin
   return out;
 }
 
+/**
+ * The latest entries of a spec at its offered places, place by place: the place's own value,
+ * then its grid readings (a Bore distortion grid's depths and angles), shallowest first.
+ */
+export function latestAtPlaces<E extends Place>(
+  latest: Map<string, E>,
+  specKey: string,
+  field: RunPlaceField | null,
+  offered: (number | null)[],
+): E[] {
+  const out: E[] = [];
+  for (const n of offered) {
+    const plain = placeKey(specKey, field && n != null ? { [field]: n } : null);
+    const own = latest.get(plain);
+    if (own) out.push(own);
+    if (!field || n == null) continue;
+    const grid = [...latest]
+      .filter(([k]) => k.startsWith(`${plain}@`))
+      .map(([, e]) => e)
+      .sort((a, b) => (gridOf(a)?.depthM ?? 0) - (gridOf(b)?.depthM ?? 0) || (gridOf(a)?.angleDeg ?? 0) - (gridOf(b)?.angleDeg ?? 0));
+    out.push(...grid);
+  }
+  return out;
+}
+
 /** The engine's counts, which say how many cylinders and main journals a run offers. */
 export type EngineCounts = { cylinders: number | null; mainJournals: number | null };
 
@@ -148,7 +224,10 @@ export function placesBySpec(specs: SpecLike[], counts: EngineCounts, latest: Ma
     const mine = bySpec.get(s.key) ?? [];
     const valued = field ? mine.filter((e) => e.valueEntered != null && e[field] != null).map((e) => e[field] as number) : [];
     const offered = offeredPlaces(field, counts, valued);
-    const missing = offered.filter((n) => latest.get(placeKey(s.key, field && n != null ? { [field]: n } : null))?.valueEntered == null);
+    // A cylinder read only in a Bore distortion grid (depths × angles) is measured there too.
+    const missing = field
+      ? offered.filter((n) => !valued.includes(n as number))
+      : offered.filter(() => latest.get(s.key)?.valueEntered == null);
     return { key: s.key, field, offered, missing };
   });
 }

@@ -12,7 +12,7 @@ import { toSI, type UnitCode } from "~/lib/calc";
 import { db, type DbOrTx } from "~/lib/db.server";
 import { DomainError } from "~/lib/domain-error";
 import type { JSONNode } from "~/lib/procedures/document";
-import { NO_POSITION, positionText } from "~/lib/recordings/positions";
+import { NO_POSITION, type Position, positionFieldsForSpec, positionText } from "~/lib/recordings/positions";
 import type { TypedReading } from "~/lib/test-records/form";
 import { createTestRecord, limitsOf } from "~/lib/test-records/records.server";
 import { evaluateRecord } from "~/lib/test-records/verdict";
@@ -20,6 +20,8 @@ import {
   type EngineCounts,
   type EntryInput,
   latestByPlace,
+  gridOf,
+  latestAtPlaces,
   type Place,
   placeKey,
   placeLabel,
@@ -307,14 +309,10 @@ export async function saveEntries(actor: Actor, runId: string, entries: EntryInp
 /**
  * The place columns of an entry, checked against its spec and the engine: a per-cylinder spec
  * needs its cylinder (within the build's count when it has one), a spec measured once takes
- * none, and a place the spec is not measured at (a journal on a torque) is refused.
+ * none, and a place the spec is not measured at (a journal on a torque) is refused. A depth and
+ * an angle (a Bore distortion grid's reading) are taken only by a spec read at them: a bore.
  */
-function entryPlace(
-  spec: { label: string; quantity: string },
-  position: Place | undefined,
-  counts: EngineCounts,
-  field: string,
-): { fastener: number | null; cylinder: number | null; journal: number | null } {
+function entryPlace(spec: { label: string; quantity: string }, position: Place | undefined, counts: EngineCounts, field: string): Position {
   const want = runPlaceField(spec);
   const got = placeOf(position);
   // The API answers with the field's path as well as the reason, as for a schema refusal.
@@ -333,10 +331,16 @@ function entryPlace(
         `This engine has ${count} ${got.field === "cylinder" ? "cylinders" : "main journals"}; there is no ${placeLabel(got.field, got.n)}.`,
       );
   }
+  const grid = gridOf(position);
+  if (grid && !positionFieldsForSpec(spec).includes("angle"))
+    throw refuse(`${spec.label} is not read at a depth and an angle; only a bore diameter is.`);
   return {
     fastener: got?.field === "fastener" ? got.n : null,
     cylinder: got?.field === "cylinder" ? got.n : null,
     journal: got?.field === "journal" ? got.n : null,
+    depthM: grid?.depthM ?? null,
+    depthUnit: grid?.depthUnit ?? null,
+    angleDeg: grid?.angleDeg ?? null,
   };
 }
 
@@ -368,7 +372,9 @@ export async function photoTarget(tx: DbOrTx, runId: string, specKey: string, se
     tx.select({ cylinders: builds.cylinders, mainJournals: builds.mainJournals }).from(builds).where(eq(builds.id, run.buildId)),
   ]);
   if (!spec) throw new DomainError("The revision this run follows has no such spec.", { status: 422, field: "specKey" });
-  return { spec, place: entryPlace(spec, sent.position, counts, "position"), earlier: null } as const;
+  // A photo belongs to the cylinder, not to one reading of its grid.
+  const { fastener, cylinder, journal } = entryPlace(spec, sent.position, counts, "position");
+  return { spec, place: { fastener, cylinder, journal }, earlier: null } as const;
 }
 
 /** Where the run was left, so another device opens there. */
@@ -420,8 +426,7 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
       // at some places and not at others is listed here and makes the record Incomplete.
       if (field && open.length && open.length < offered.length)
         missing.push(`${s.label}: ${open.map((n) => placeLabel(field, n as number)).join(", ")}`);
-      for (const n of offered) {
-        const e = latest.get(placeKey(s.specKey, field && n != null ? { [field]: n } : null));
+      for (const e of latestAtPlaces(latest, s.specKey, field, offered)) {
         if (e?.valueEntered == null) continue;
         readings[s.id] = readings[s.id] ?? [];
         readings[s.id].push({
@@ -429,7 +434,15 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
           decimals: e.valueDecimals ?? 0,
           unit: e.unitEntered,
           note: e.device ? `entered on ${e.device}` : "",
-          position: { ...NO_POSITION, fastener: e.fastener, cylinder: e.cylinder, journal: e.journal },
+          position: {
+            ...NO_POSITION,
+            fastener: e.fastener,
+            cylinder: e.cylinder,
+            journal: e.journal,
+            depthM: e.depthM,
+            depthUnit: e.depthUnit,
+            angleDeg: e.angleDeg,
+          },
           sourceReadingId: null,
         });
       }
@@ -513,6 +526,17 @@ export type RunListItem = {
   measured: number;
 };
 
+/** An entry's run, spec and full place (a grid reading's depth and angle too): its latest typing is its value. */
+const latestPerPlace = [
+  runEntries.runId,
+  runEntries.specKey,
+  runEntries.fastener,
+  runEntries.cylinder,
+  runEntries.journal,
+  runEntries.depthM,
+  runEntries.angleDeg,
+];
+
 /**
  * Runs with their progress in places, by the same rule as the run screen (`placesBySpec`): the
  * runs, then the latest entry per spec and place of all of them, then their revisions' specs.
@@ -530,12 +554,14 @@ async function runList(where: ReturnType<typeof eq>): Promise<RunListItem[]> {
   if (!rows.length) return [];
   const [latestRows, specRows] = await Promise.all([
     db()
-      .selectDistinctOn([runEntries.runId, runEntries.specKey, runEntries.fastener, runEntries.cylinder, runEntries.journal], {
+      .selectDistinctOn(latestPerPlace, {
         runId: runEntries.runId,
         specKey: runEntries.specKey,
         fastener: runEntries.fastener,
         cylinder: runEntries.cylinder,
         journal: runEntries.journal,
+        depthM: runEntries.depthM,
+        angleDeg: runEntries.angleDeg,
         valueEntered: runEntries.valueEntered,
       })
       .from(runEntries)
@@ -545,15 +571,7 @@ async function runList(where: ReturnType<typeof eq>): Promise<RunListItem[]> {
           rows.map((r) => r.id),
         ),
       )
-      .orderBy(
-        runEntries.runId,
-        runEntries.specKey,
-        runEntries.fastener,
-        runEntries.cylinder,
-        runEntries.journal,
-        desc(runEntries.typedAt),
-        desc(runEntries.seq),
-      ),
+      .orderBy(...latestPerPlace, desc(runEntries.typedAt), desc(runEntries.seq)),
     db()
       .select({
         revisionId: procedureSpecs.revisionId,
