@@ -154,12 +154,13 @@ try {
     let killWorker = () => [];
     const startMeili = async () => {
       if (meili && meili.exitCode == null) return;
-      meili = tsx(
-        "scripts/fakes/meili/server.ts",
-        ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY],
-        env,
-        path.join(runDir, "meili.log"),
-      );
+      const script = "scripts/fakes/meili/server.ts";
+      const args = ["--port", String(meiliPort), "--data", path.join(runDir, "meili"), "--key", env.MEILI_API_KEY];
+      const logFile = path.join(runDir, "meili.log");
+      // PROF_DIR: a CPU profile of the search fake too, beside the app's (node itself, with tsx as a loader).
+      meili = process.env.PROF_DIR
+        ? spawnChild(process.execPath, ["--cpu-prof", "--cpu-prof-dir", process.env.PROF_DIR, "--import", "tsx", script, ...args], env, "meili", logFile)
+        : tsx(script, args, env, logFile);
       await waitForPort(meiliPort, 30_000, "fake search");
     };
     const stopMeili = () =>
