@@ -12,10 +12,22 @@ import os from "node:os";
 import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { builds, procedureRevisions, procedures, procedureSpecs, runEntries, runs, testRecordReadings, testRecords } from "~/db/schema";
+import {
+  builds,
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  runEntries,
+  runs,
+  testRecordAmendments,
+  testRecordMissingPlaces,
+  testRecordReadings,
+  testRecords,
+} from "~/db/schema";
 import { db } from "~/lib/db.server";
 import { getRun, listRunPhotos, listRunsForBuild, photosForTestRecord } from "~/lib/runs/runs.server";
 import { createUser, http, type TestUser } from "../support/app";
+import { parse } from "../support/csv";
 
 const t = (text: string) => ({ type: "text", text });
 const p = (text: string) => ({ type: "paragraph", content: [t(text)] });
@@ -408,7 +420,8 @@ describe("runs", () => {
     const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId!));
     // Every value is within its limits, but cylinder 3 was never measured.
     expect(rec.verdict).toBe("incomplete");
-    expect(rec.notes).toContain("Bore diameter: Cyl 3");
+    const empty = await db().select().from(testRecordMissingPlaces).where(eq(testRecordMissingPlaces.recordId, rec.id));
+    expect(empty.map((m) => [m.version, m.specKey, m.cylinder])).toEqual([[0, "bore", 3]]);
     // The record's page says so too, though every spec has readings.
     const recordPage = await (await http(`/test-records/${recordId}`, { cookie: apprentice.cookie })).text();
     expect(recordPage).toContain('data-verdict="incomplete"');
@@ -451,6 +464,132 @@ describe("runs", () => {
     } finally {
       fs.rmSync(file, { force: true });
     }
+  });
+
+  it("keeps a place a run left empty with the record: amending another value stays Incomplete, filling it reads Within spec", async () => {
+    const { proc, rev, build } = await fixture({ cylinders: 4 });
+    const runId = await startRun(builder, proc.slug, build.number);
+    const entries = [
+      ...[1, 2, 4].map((c) => entry("bore", 88.004 + c / 1000, "mm", { position: { cylinder: c } })),
+      entry("final", 110, "N.m", { position: { fastener: 1 } }),
+      entry("final", 109, "N.m", { position: { fastener: 2 } }),
+    ];
+    expect((await post(builder, runId, { entries })).status).toBe(200);
+    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const id = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1] ?? "";
+    const words = async (where: string, user: TestUser = apprentice) =>
+      (await (await http(where, { cookie: user.cookie })).text())
+        .replaceAll("<!-- -->", "")
+        .replace(/<[^>]+>/g, " ")
+        .replace(/\s+/g, " ");
+    expect(await words(`/test-records/${id}`)).toContain("Incomplete: 1 place not measured");
+    expect(await words(`/test-records/${id}`)).toContain("Left empty on the run: Bore diameter: Cyl 3.");
+
+    const qc = await createUser("qc");
+    const specs = await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, rev.id));
+    const bore = specs.find((s) => s.specKey === "bore")!.id;
+    const torque = specs.find((s) => s.specKey === "final")!.id;
+    // The amend form offers cylinder 3 as an empty row between cylinders 2 and 4.
+    const form = await (await http(`/test-records/${id}/amend`, { cookie: qc.cookie })).text();
+    expect(form).toMatch(new RegExp(`name="r\\.${bore}\\.2\\.cylinder"[^>]*value="3"`));
+    expect(form).toMatch(new RegExp(`name="r\\.${bore}\\.2\\.value"[^>]*value=""`));
+    expect(form).toMatch(new RegExp(`name="r\\.${bore}\\.3\\.cylinder"[^>]*value="4"`));
+    const [filed] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    const amend = (reason: string, bores: [number, string][], stud2: string) =>
+      http(`/test-records/${id}/amend`, {
+        cookie: qc.cookie,
+        form: {
+          reason,
+          title: filed.title,
+          engineSerial: filed.engineSerial,
+          testedOn: filed.testedOn,
+          notes: filed.notes,
+          ...Object.fromEntries(
+            bores.flatMap(([c, v], i) => [
+              [`r.${bore}.${i}.value`, v],
+              [`r.${bore}.${i}.unit`, "mm"],
+              [`r.${bore}.${i}.cylinder`, String(c)],
+            ]),
+          ),
+          [`r.${torque}.0.value`]: "110",
+          [`r.${torque}.0.unit`]: "N.m",
+          [`r.${torque}.0.fastener`]: "1",
+          [`r.${torque}.1.value`]: stud2,
+          [`r.${torque}.1.unit`]: "N.m",
+          [`r.${torque}.1.fastener`]: "2",
+        },
+      });
+    const three: [number, string][] = [
+      [1, "88.005"],
+      [2, "88.006"],
+      [4, "88.008"],
+    ];
+    // Amending another value: the place is still empty, so the record stays Incomplete.
+    expect((await amend("stud 2 re-read on the wrench's display", three, "108")).status).toBe(302);
+    const [once] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    expect([once.currentVersion, once.verdict]).toEqual([1, "incomplete"]);
+    const kept = await db().select().from(testRecordMissingPlaces).where(eq(testRecordMissingPlaces.recordId, id));
+    expect(kept.map((m) => [m.version, m.cylinder]).sort()).toEqual([
+      [0, 3],
+      [1, 3],
+    ]);
+    expect(await words(`/test-records/${id}`)).toContain("Incomplete: 1 place not measured");
+    expect(await words(`/test-records?workOrder=${build.number}`)).toContain("Incomplete: 1 place not measured");
+    const buildWords = await words(`/builds/${build.number}`);
+    expect(buildWords).toContain("Left empty on the run: Bore diameter: Cyl 3.");
+    expect(buildWords).toContain("cyl 3, left empty on the run");
+    expect(await words(`/builds/${build.number}/sheet`)).toContain("cyl 3, left empty on the run");
+    const csv = parse(await (await http(`/builds/${build.number}/readings.csv`, { cookie: apprentice.cookie })).text(), {
+      columns: true,
+      bom: true,
+    });
+    expect(csv.filter((r) => r.reading_verdict === "Not measured").map((r) => [r.spec, r.cylinder, r.note])).toEqual([
+      ["Bore diameter", "3", "left empty on the run"],
+    ]);
+    const recordsCsv = parse(await (await http(`/test-records/export.csv?workOrder=${build.number}`, { cookie: qc.cookie })).text(), {
+      columns: true,
+      bom: true,
+    });
+    expect(recordsCsv.filter((r) => r.reading_verdict === "not measured").map((r) => [r.spec, r.reading_note])).toEqual([
+      ["Bore diameter", "Cyl 3"],
+    ]);
+    const api = await (await http(`/api/builds/${build.number}`, { cookie: apprentice.cookie })).json();
+    expect(api.incomplete).toBe(1);
+    expect(api.testRecords[0]).toMatchObject({
+      verdict: "incomplete",
+      notMeasured: [],
+      placesNotMeasured: [{ spec: "Bore diameter", place: "Cyl 3", position: { cylinder: 3, fastener: null, journal: null } }],
+    });
+    const pdf = path.join(os.tmpdir(), `left-empty-${randomUUID()}.pdf`);
+    fs.writeFileSync(
+      pdf,
+      Buffer.from(await (await http(`/builds/${build.number}/sheet.pdf`, { cookie: apprentice.cookie })).arrayBuffer()),
+    );
+    try {
+      const text = execFileSync("pdftotext", ["-layout", pdf, "-"]).toString();
+      expect(text).toContain("Incomplete: 1 place not measured");
+      expect(text).toMatch(/cyl 3\s+not measured\s+left empty/);
+    } finally {
+      fs.rmSync(pdf, { force: true });
+    }
+
+    // Typing cylinder 3 fills the place: Within spec, and nothing is carried forward.
+    const four: [number, string][] = [...three.slice(0, 2), [3, "88.007"], three[2]];
+    expect((await amend("cylinder 3 measured after the plate came off", four, "108")).status).toBe(302);
+    const [twice] = await db().select().from(testRecords).where(eq(testRecords.id, id));
+    expect([twice.currentVersion, twice.verdict]).toEqual([2, "within"]);
+    const after = await db().select().from(testRecordMissingPlaces).where(eq(testRecordMissingPlaces.recordId, id));
+    expect(after.filter((m) => m.version === 2)).toEqual([]);
+    const amendments = await db().select().from(testRecordAmendments).where(eq(testRecordAmendments.recordId, id));
+    expect(amendments.map((a) => [a.version, a.verdictBefore, a.verdictAfter]).sort()).toEqual([
+      [1, "incomplete", "incomplete"],
+      [2, "incomplete", "within"],
+    ]);
+    expect(await words(`/test-records/${id}`)).not.toContain("left empty on the run");
+    // The version as first filed still says what it lacked.
+    expect(await words(`/test-records/${id}?v=0`)).toContain("Incomplete: 1 place not measured");
+    const api2 = await (await http(`/api/builds/${build.number}`, { cookie: apprentice.cookie })).json();
+    expect(api2.testRecords[0]).toMatchObject({ verdict: "within", placesNotMeasured: [] });
   });
 
   it("refuses a place out of the engine's range, a place the spec is not measured at, and fields a place does not have", async () => {

@@ -118,10 +118,20 @@ export function RecordsByProcedure({ records }: { records: BuildPage["records"] 
                       <FiledLine testedOn={v.record.testedOn} by={v.filedBy} createdAt={v.record.createdAt} />
                     </p>
                   </div>
-                  <VerdictBadge verdict={v.evaluation.verdict} notMeasured={v.evaluation.notMeasured.length} />
+                  <VerdictBadge
+                    verdict={v.evaluation.verdict}
+                    notMeasured={v.evaluation.notMeasured.length}
+                    places={v.evaluation.missingPlaces.length}
+                  />
                 </header>
                 <div className="mt-2 overflow-x-auto">
-                  <ReadingsTable specs={v.specs} readings={v.readings} specVerdicts={v.evaluation.specs} recording={v.recording} />
+                  <ReadingsTable
+                    specs={v.specs}
+                    readings={v.readings}
+                    specVerdicts={v.evaluation.specs}
+                    recording={v.recording}
+                    missingPlaces={v.evaluation.missingPlaces}
+                  />
                 </div>
               </article>
             ))}

@@ -6,7 +6,7 @@ import { calcSummary, sheetFacts, type SheetPaper, sheetSignOff } from "~/lib/bu
 import { CALC_CAUTION } from "~/lib/calc-kinds";
 import { fmtDay } from "~/components/test-records/parts";
 import { limitsText, typedReadingText } from "~/components/test-records/units";
-import { RECORD_VERDICT_LABELS, READING_VERDICT_LABELS } from "~/lib/test-records/labels";
+import { READING_VERDICT_LABELS, recordVerdictText } from "~/lib/test-records/labels";
 import { positionText } from "~/lib/recordings/positions";
 
 // The build sheet as a PDF (@react-pdf/renderer), in the app's own fonts: Lora for headings and
@@ -114,7 +114,13 @@ function BuildSheetDocument({ page, paper, photos }: { page: BuildPage; paper: S
           <View key={v.record.id} wrap>
             <View style={s.recordHead} minPresenceAhead={40}>
               <Text style={s.recordTitle}>{v.record.title}</Text>
-              <Text style={v.record.verdict === "out" ? s.out : {}}>{RECORD_VERDICT_LABELS[v.record.verdict]}</Text>
+              <Text style={v.record.verdict === "out" ? s.out : {}}>
+                {recordVerdictText(
+                  v.evaluation.verdict ?? v.record.verdict,
+                  v.evaluation.notMeasured.length,
+                  v.evaluation.missingPlaces.length,
+                )}
+              </Text>
             </View>
             <Text style={s.meta}>
               {v.procedure.title}, revision {v.revision.number} · tested {fmtDay(v.record.testedOn)} · signed off by{" "}
@@ -140,18 +146,29 @@ function BuildSheetDocument({ page, paper, photos }: { page: BuildPage; paper: S
                     <Text style={s.verdict}>—</Text>
                   </View>
                 );
-              return rs.map((r, i) => {
+              const empty = v.evaluation.missingPlaces.filter((p) => p.specId === spec.id);
+              const left = empty.map((p) => (
+                <View key={`${spec.id}-${p.field}${p.n}`} style={s.row} wrap={false}>
+                  <Text style={s.spec}>{""}</Text>
+                  <Text style={s.where}>{positionText({ [p.field]: p.n })}</Text>
+                  <Text style={[s.value, { color: BRASS }]}>not measured</Text>
+                  <Text style={s.limits}>{""}</Text>
+                  <Text style={s.verdict}>left empty</Text>
+                </View>
+              ));
+              const measured = rs.map((r, i) => {
                 const bad = r.verdict === "below" || r.verdict === "above";
                 return (
                   <View key={r.id} style={s.row} wrap={false}>
                     <Text style={s.spec}>{i === 0 ? spec.label : ""}</Text>
                     <Text style={s.where}>{positionText(r, ", ") || "—"}</Text>
                     <Text style={[s.value, bad ? s.outValue : {}]}>{typedReadingText(r)}</Text>
-                    <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
+                    <Text style={s.limits}>{i === 0 ? pdfLimits(spec) : ""}</Text>
                     <Text style={[s.verdict, bad ? s.out : {}]}>{READING_VERDICT_LABELS[r.verdict]}</Text>
                   </View>
                 );
               });
+              return [...measured, ...left];
             })}
           </View>
         ))}

@@ -9,7 +9,9 @@ import {
   type PositionField,
 } from "~/lib/recordings/positions";
 import { quantityDef } from "~/lib/recordings/quantities";
-import { evaluateRecord, readingVerdict, type SpecLimits } from "~/lib/test-records/verdict";
+import { evaluateRecord, readingVerdict, type MissingPlace, type ReadingInput, type SpecLimits } from "~/lib/test-records/verdict";
+import { placesText } from "~/lib/test-records/labels";
+import { placeOf } from "~/lib/runs/entries";
 import { PLACE_KEYS, placeFields, type PlaceKey } from "~/lib/test-records/form";
 import { typedText } from "~/lib/typed-number";
 import { ReadingVerdictTag, SpecVerdictTag, VerdictBadge } from "./parts";
@@ -40,6 +42,12 @@ const blankRow = (unit: string, keep?: Partial<Row>): Row => ({
   angle: "",
 });
 
+/** A row's typed place as numbers, so a value typed at a place a run left empty fills it in the preview. */
+const rowPlace = (r: Row) => {
+  const n = (x: string) => (/^\d+$/.test(x.trim()) ? Number(x) : null);
+  return { fastener: n(r.fastener), cylinder: n(r.cylinder), journal: n(r.journal) };
+};
+
 const PLACE_WIDTH: Record<PositionField, string> = { fastener: "w-16", cylinder: "w-16", journal: "w-16", depth: "w-20", angle: "w-16" };
 
 /** Rows from posted values (r.<specId>.<i>.value …) or from stored readings. */
@@ -69,11 +77,14 @@ export function ReadingsEditor({
   initial,
   errors,
   pull,
+  missingPlaces = [],
 }: {
   specs: EditorSpec[];
   initial: Record<string, Row[]>;
   errors: Record<string, string>;
   pull?: PullReading[];
+  /** Places a run left empty on the record being amended: Incomplete until a value fills them. */
+  missingPlaces?: MissingPlace[];
 }) {
   const [rows, setRows] = useState<Record<string, Row[]>>(() =>
     Object.fromEntries(specs.map((s) => [s.id, initial[s.id]?.length ? initial[s.id] : [blankRow(s.unit)]])),
@@ -105,21 +116,27 @@ export function ReadingsEditor({
     });
 
   const evaluation = useMemo(() => {
-    const typed: Record<string, { value: number; unit: string }[]> = {};
+    const typed: Record<string, ReadingInput[]> = {};
     for (const s of specs) {
       for (const r of rows[s.id] ?? []) {
         const v = Number(r.value.replace(",", "."));
         if (r.value.trim() === "" || !Number.isFinite(v)) continue;
         try {
           readingVerdict(s, { value: v, unit: r.unit });
-          typed[s.id] = [...(typed[s.id] ?? []), { value: v, unit: r.unit }];
+          typed[s.id] = [...(typed[s.id] ?? []), { value: v, unit: r.unit, position: rowPlace(r) }];
         } catch {
           /* shown at the field on submit */
         }
       }
     }
-    return evaluateRecord(specs, typed);
-  }, [rows, specs]);
+    return evaluateRecord(specs, typed, missingPlaces);
+  }, [rows, specs, missingPlaces]);
+  const leftEmpty = (specId: string, r: Row) =>
+    r.value.trim() === "" &&
+    missingPlaces.some((p) => {
+      const at = placeOf(p);
+      return p.specId === specId && at != null && rowPlace(r)[at.field] === at.n;
+    });
 
   return (
     <div className="space-y-4">
@@ -287,6 +304,8 @@ export function ReadingsEditor({
                         <span className="inline-block w-20 text-right">
                           {verdict ? (
                             <ReadingVerdictTag verdict={verdict.verdict} />
+                          ) : leftEmpty(s.id, r) ? (
+                            <span className="text-sm italic text-brass">left empty</span>
                           ) : (
                             <span className="text-sm text-graphite-soft">—</span>
                           )}
@@ -328,9 +347,21 @@ export function ReadingsEditor({
           <p className="num text-sm text-graphite-soft">
             {evaluation.counts.within} within · {evaluation.counts.out} out · {evaluation.counts.notMeasured} not measured
             {evaluation.notMeasured.length > 0 && <> ({evaluation.notMeasured.map((s) => s.label).join(", ")})</>}
+            {evaluation.missingPlaces.length > 0 && (
+              <>
+                {" "}
+                · {evaluation.missingPlaces.length} left empty (
+                {placesText(evaluation.missingPlaces.map((p) => ({ ...p, specLabel: specs.find((s) => s.id === p.specId)?.label ?? "" })))})
+              </>
+            )}
           </p>
         </div>
-        <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
+        <VerdictBadge
+          verdict={evaluation.verdict}
+          notMeasured={evaluation.notMeasured.length}
+          places={evaluation.missingPlaces.length}
+          size="lg"
+        />
       </div>
     </div>
   );

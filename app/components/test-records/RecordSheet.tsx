@@ -1,4 +1,5 @@
 import { Link } from "react-router";
+import { positionText } from "~/lib/recordings/positions";
 import type { SpecVerdict } from "~/lib/test-records/verdict";
 import { fmtDay, ReadingVerdictTag, SpecVerdictTag } from "./parts";
 import { inSpecUnitText, limitsText, typedReadingText } from "./units";
@@ -26,7 +27,10 @@ type Reading = {
   sourceReadingId: string | null;
 };
 
-/** Readings grouped by spec, each with its verdict; specs without readings say "Not measured". */
+/**
+ * Readings grouped by spec, each with its verdict; specs without readings say "Not measured",
+ * and each place a run left empty is a row of its spec that says so.
+ */
 export function ReadingsTable({
   specs,
   readings,
@@ -34,6 +38,7 @@ export function ReadingsTable({
   currentSpecs,
   currentNumber,
   recording,
+  missingPlaces = [],
 }: {
   specs: Spec[];
   readings: Reading[];
@@ -41,6 +46,7 @@ export function ReadingsTable({
   currentSpecs?: Spec[] | null;
   currentNumber?: number | null;
   recording?: { id: string } | null;
+  missingPlaces?: { specId: string; field: "cylinder" | "journal" | "fastener"; n: number }[];
 }) {
   return (
     <table className="readings-table w-full text-left text-sm" data-testid="readings-table">
@@ -58,24 +64,23 @@ export function ReadingsTable({
       {specs.map((s) => {
         const rs = readings.filter((r) => r.specId === s.id).sort((a, b) => a.position - b.position);
         const sv = specVerdicts.find((v) => v.specId === s.id)?.verdict ?? "not-measured";
+        const empty = rs.length ? missingPlaces.filter((p) => p.specId === s.id) : [];
+        const span = Math.max(rs.length + empty.length, 1);
         const now = currentSpecs?.find((c) => c.specKey === s.specKey);
         const changed = now && (now.min !== s.min || now.max !== s.max || now.unit !== s.unit);
         const head = (
           <>
-            <td className="px-3 py-1.5 align-top font-semibold" rowSpan={Math.max(rs.length, 1)}>
+            <td className="px-3 py-1.5 align-top font-semibold" rowSpan={span}>
               {s.label}
               <div className="font-normal">
                 <SpecVerdictTag verdict={sv} />
               </div>
             </td>
-            <td className="num whitespace-nowrap px-3 py-1.5 align-top" rowSpan={Math.max(rs.length, 1)}>
+            <td className="num whitespace-nowrap px-3 py-1.5 align-top" rowSpan={span}>
               {limitsText(s)}
             </td>
             {currentSpecs && (
-              <td
-                className={`num px-3 py-1.5 align-top ${changed ? "font-semibold text-brass" : "text-graphite-soft"}`}
-                rowSpan={Math.max(rs.length, 1)}
-              >
+              <td className={`num px-3 py-1.5 align-top ${changed ? "font-semibold text-brass" : "text-graphite-soft"}`} rowSpan={span}>
                 {now ? `${limitsText(now)}${changed ? " (changed)" : ""}` : "no longer in the procedure"}
               </td>
             )}
@@ -83,34 +88,43 @@ export function ReadingsTable({
         );
         return (
           <tbody key={s.id} className="num border-b border-rule/70" data-testid="spec-row" data-spec={s.label}>
-            {rs.length ? (
-              rs.map((r, i) => (
-                <tr key={r.id}>
-                  {i === 0 && head}
-                  <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">
-                    {typedReadingText(r)}
-                  </td>
-                  <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">
-                    {r.unitEntered === s.unit ? "" : inSpecUnitText(r, s)}
-                  </td>
-                  <td className="px-3 py-1">
-                    <ReadingVerdictTag verdict={r.verdict} />
-                  </td>
-                  <td className="px-3 py-1 font-sans text-graphite-soft">
-                    {r.note}
-                    {r.sourceReadingId && recording && (
-                      <>
-                        {" "}
-                        ·{" "}
-                        <Link to={`/recordings/${recording.id}`} className="no-print">
-                          from the recording
-                        </Link>
-                      </>
-                    )}
-                  </td>
-                </tr>
-              ))
-            ) : (
+            {rs.length
+              ? rs.map((r, i) => (
+                  <tr key={r.id}>
+                    {i === 0 && head}
+                    <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">
+                      {typedReadingText(r)}
+                    </td>
+                    <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">
+                      {r.unitEntered === s.unit ? "" : inSpecUnitText(r, s)}
+                    </td>
+                    <td className="px-3 py-1">
+                      <ReadingVerdictTag verdict={r.verdict} />
+                    </td>
+                    <td className="px-3 py-1 font-sans text-graphite-soft">
+                      {r.note}
+                      {r.sourceReadingId && recording && (
+                        <>
+                          {" "}
+                          ·{" "}
+                          <Link to={`/recordings/${recording.id}`} className="no-print">
+                            from the recording
+                          </Link>
+                        </>
+                      )}
+                    </td>
+                  </tr>
+                ))
+              : null}
+            {empty.map((p) => (
+              <tr key={`${p.field}${p.n}`} data-testid="left-empty">
+                <td className="px-3 py-1 text-right italic text-brass" colSpan={3}>
+                  not measured
+                </td>
+                <td className="px-3 py-1 font-sans text-graphite-soft">{positionText({ [p.field]: p.n })}, left empty on the run</td>
+              </tr>
+            ))}
+            {rs.length ? null : (
               <tr>
                 {head}
                 <td className="px-3 py-1 text-right italic text-brass" colSpan={4}>

@@ -25,16 +25,20 @@ const VERDICT_LOOK: Record<RecordVerdict, { cls: string; mark: string }> = {
 };
 
 /**
- * The record's verdict, saying what is missing ("Incomplete: 1 spec not measured"): calm for
+ * The record's verdict, saying what is missing, specs and places a run left empty counted apart
+ * ("Incomplete: 1 spec and 2 places not measured"): calm for
  * within, brass for incomplete; red is kept for "Out of spec".
  */
 export function VerdictBadge({
   verdict,
   notMeasured = 0,
+  places = 0,
   size = "sm",
 }: {
   verdict: RecordVerdict | null;
   notMeasured?: number;
+  /** Places (a cylinder, a main journal, a stud) a run left empty, of specs measured elsewhere. */
+  places?: number;
   size?: "sm" | "lg";
 }) {
   const big = size === "lg" ? "px-3 py-1 text-base" : "px-1.5 py-0.5 text-xs";
@@ -48,7 +52,7 @@ export function VerdictBadge({
       </span>
     );
   const look = VERDICT_LOOK[verdict];
-  const [head, tail] = recordVerdictParts(verdict, notMeasured);
+  const [head, tail] = recordVerdictParts(verdict, notMeasured, places);
   // Each part stays on one line; in a narrow column what is missing goes under the verdict.
   return (
     <span
@@ -97,6 +101,8 @@ export type RecordRow = {
   testedOn: string;
   verdict: RecordVerdict;
   notMeasured: number;
+  /** Places a run left empty in the version in force (records.server.ts listColumns). */
+  placesMissing?: number;
   currentVersion: number;
   procedureTitle: string;
   slug: string;
@@ -121,7 +127,7 @@ export function RecordMiniList({ rows, showProcedure = false }: { rows: RecordRo
             </span>
             {showProcedure && <span className="block truncate text-sm text-graphite-soft">{r.procedureTitle}</span>}
           </span>
-          <VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} />
+          <VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} places={r.placesMissing} />
         </li>
       ))}
     </ul>

@@ -35,7 +35,10 @@ export const BUILD_CSV_COLUMNS = [
 
 type Cell = string | number | null;
 
-/** One row per reading in force, one per spec not measured (reading empty, verdict "Not measured"). */
+/**
+ * One row per reading in force, one per spec not measured, and one per place a run left empty
+ * (its place in the place columns; reading empty, verdict "Not measured", note "left empty on the run").
+ */
 export function buildCsvRows(page: BuildPage): Cell[][] {
   const rows: Cell[][] = [];
   for (const v of page.records) {
@@ -71,6 +74,11 @@ export function buildCsvRows(page: BuildPage): Cell[][] {
           r.noteText,
           v.filedBy,
         ]);
+      }
+      for (const p of v.evaluation.missingPlaces.filter((x) => x.specId === s.id)) {
+        const at = { cylinder: null, fastener: null, journal: null, [p.field]: p.n };
+        const where = [at.cylinder, at.fastener, at.journal, null, null, null];
+        rows.push([...base, ...spec, ...where, null, null, null, "Not measured", "left empty on the run", v.filedBy]);
       }
     }
   }
@@ -109,6 +117,11 @@ export function buildJson(page: BuildPage) {
       filedAt: v.record.createdAt,
       verdict: v.evaluation.verdict,
       notMeasured: v.specs.filter((s) => v.evaluation.notMeasured.includes(s.id)).map((s) => s.label),
+      placesNotMeasured: v.evaluation.missingPlaces.map((p) => ({
+        spec: p.specLabel,
+        place: p.label,
+        position: { cylinder: null, fastener: null, journal: null, [p.field]: p.n },
+      })),
       readings: v.readings.map((r) => {
         const s = v.specs.find((x) => x.id === r.specId);
         return {

@@ -248,6 +248,8 @@ export async function buildPage(number: string) {
       recordId: v.record.id,
       title: v.record.title,
       notMeasured: v.specs.filter((s) => v.evaluation.notMeasured.includes(s.id)).map((s) => s.label),
+      /** Specs not measured and places a run left empty, in sentences. */
+      missing: v.evaluation.missing,
     }));
   return {
     build,

@@ -15,7 +15,7 @@ import type { JSONNode } from "~/lib/procedures/document";
 import { NO_POSITION, type Position, positionFieldsForSpec, positionText } from "~/lib/recordings/positions";
 import type { TypedReading } from "~/lib/test-records/form";
 import { createTestRecord, limitsOf } from "~/lib/test-records/records.server";
-import { evaluateRecord } from "~/lib/test-records/verdict";
+import { evaluateRecord, type MissingPlace } from "~/lib/test-records/verdict";
 import {
   type EngineCounts,
   type EntryInput,
@@ -419,13 +419,14 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
       latest,
     );
     const readings: Record<string, TypedReading[]> = {};
-    const missing: string[] = [];
+    const missingPlaces: MissingPlace[] = [];
     for (const [i, s] of specs.entries()) {
       const { field, offered, missing: open } = places[i];
       // A spec with nothing at all is the verdict function's "not measured"; a spec measured
-      // at some places and not at others is listed here and makes the record Incomplete.
+      // at some places and not at others keeps those places with the record (Incomplete until
+      // an amendment fills them).
       if (field && open.length && open.length < offered.length)
-        missing.push(`${s.label}: ${open.map((n) => placeLabel(field, n as number)).join(", ")}`);
+        for (const n of open) missingPlaces.push({ specId: s.id, [field]: n as number });
       for (const e of latestAtPlaces(latest, s.specKey, field, offered)) {
         if (e?.valueEntered == null) continue;
         readings[s.id] = readings[s.id] ?? [];
@@ -458,22 +459,25 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
         revisionId: run.revisionId,
         engineSerial: build.engineSerial,
         testedOn: todayIso(),
-        notes: missing.length
-          ? [input.notes.trim(), `Not measured on the run: ${missing.join("; ")}.`].filter(Boolean).join("\n\n")
-          : input.notes,
+        notes: input.notes,
         recordingId: null,
         recordingStartS: null,
         recordingEndS: null,
         readings,
       },
-      { tx, pinned: true, unmeasuredPlaces: missing.length },
+      { tx, pinned: true, missingPlaces },
     );
     const now = new Date();
     await tx
       .update(runs)
       .set({ status: "finished", testRecordId: filed.id, endedBy: actor.id, endedAt: now, updatedAt: now })
       .where(eq(runs.id, runId));
-    await audit(tx, actor.id, "finish", "run", runId, { testRecordId: filed.id, verdict: filed.verdict, notMeasured: filed.notMeasured });
+    await audit(tx, actor.id, "finish", "run", runId, {
+      testRecordId: filed.id,
+      verdict: filed.verdict,
+      notMeasured: filed.notMeasured,
+      placesMissing: filed.placesMissing,
+    });
     return filed;
   });
 }

@@ -235,15 +235,34 @@ export function amendFormValues(
     noteText: string;
     sourceReadingId: string | null;
   } & Partial<Position>)[],
+  // Places a run left empty: each an empty row of its spec, with its place filled in, among the
+  // spec's rows where its number falls (Cyl 3 between Cyl 2 and Cyl 4), so typing the value fills it.
+  missingPlaces: { specId: string; field: "cylinder" | "journal" | "fastener"; n: number }[] = [],
 ): Record<string, string> {
   const values: Record<string, string> = {};
-  for (const r of readings) {
-    const base = `r.${r.specId}.${r.position}`;
-    values[`${base}.value`] = typedText(r.valueEntered, r.valueDecimals);
-    values[`${base}.unit`] = r.unitEntered;
-    values[`${base}.note`] = r.noteText;
-    for (const [k, v] of Object.entries(placeFields(r))) values[`${base}.${k}`] = v;
-    if (r.sourceReadingId) values[`${base}.src`] = r.sourceReadingId;
+  const specIds = [...new Set([...readings, ...missingPlaces].map((r) => r.specId))];
+  for (const specId of specIds) {
+    const mine = readings.filter((r) => r.specId === specId).sort((a, b) => a.position - b.position);
+    type Slot = { reading: (typeof mine)[number] } | { place: (typeof missingPlaces)[number] };
+    const slots: Slot[] = mine.map((reading) => ({ reading }));
+    for (const place of missingPlaces.filter((p) => p.specId === specId)) {
+      const after = slots.findIndex((x) => "reading" in x && (x.reading[place.field] ?? -1) > place.n);
+      slots.splice(after < 0 ? slots.length : after, 0, { place });
+    }
+    slots.forEach((slot, i) => {
+      const base = `r.${specId}.${i}`;
+      if ("place" in slot) {
+        values[`${base}.value`] = "";
+        values[`${base}.${slot.place.field}`] = String(slot.place.n);
+        return;
+      }
+      const r = slot.reading;
+      values[`${base}.value`] = typedText(r.valueEntered, r.valueDecimals);
+      values[`${base}.unit`] = r.unitEntered;
+      values[`${base}.note`] = r.noteText;
+      for (const [k, v] of Object.entries(placeFields(r))) values[`${base}.${k}`] = v;
+      if (r.sourceReadingId) values[`${base}.src`] = r.sourceReadingId;
+    });
   }
   return values;
 }

@@ -12,6 +12,7 @@ import {
   recordings,
   testRecordAmendments,
   testRecordCalcs,
+  testRecordMissingPlaces,
   testRecordReadings,
   testRecords,
   users,
@@ -25,8 +26,16 @@ import { toSI, type UnitCode } from "~/lib/calc";
 import { positionText, type Position } from "~/lib/recordings/positions";
 import type { TypedReading } from "./form";
 import { diffAmendment, readingsAtVersion, type HeaderFields } from "./history";
-import { evaluateRecord, readingVerdict, type RecordVerdict } from "./verdict";
-import { RECORD_VERDICT_LABELS, RECORD_VERDICTS } from "./labels";
+import {
+  evaluateRecord,
+  missingPlaceLabel,
+  openPlaces,
+  readingVerdict,
+  type MissingPlace,
+  type ReadingInput,
+  type RecordVerdict,
+} from "./verdict";
+import { missingSentences, RECORD_VERDICT_LABELS, RECORD_VERDICTS } from "./labels";
 
 type Actor = { id: string; name?: string };
 export type SpecRow = typeof procedureSpecs.$inferSelect;
@@ -36,6 +45,31 @@ import { limitsOf } from "./limits";
 
 async function specsOfRevision(tx: DbOrTx, revisionId: string): Promise<SpecRow[]> {
   return tx.select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, revisionId)).orderBy(asc(procedureSpecs.position));
+}
+
+/** The places left empty in one version of a record's readings. */
+async function missingPlacesAt(tx: DbOrTx, recordId: string, version: number) {
+  return tx
+    .select()
+    .from(testRecordMissingPlaces)
+    .where(and(eq(testRecordMissingPlaces.recordId, recordId), eq(testRecordMissingPlaces.version, version)));
+}
+
+/** Keeps a version's empty places (only those of the revision's specs, each once). */
+async function insertMissingPlaces(tx: DbOrTx, recordId: string, version: number, specs: SpecRow[], places: MissingPlace[]) {
+  const keyOf = new Map(specs.map((s) => [s.id, s.specKey]));
+  const rows = places
+    .filter((p) => keyOf.has(p.specId))
+    .map((p) => ({
+      recordId,
+      version,
+      specId: p.specId,
+      specKey: keyOf.get(p.specId)!,
+      fastener: p.fastener ?? null,
+      cylinder: p.cylinder ?? null,
+      journal: p.journal ?? null,
+    }));
+  if (rows.length) await tx.insert(testRecordMissingPlaces).values(rows).onConflictDoNothing();
 }
 
 // ---- filing -----------------------------------------------------------------------------------
@@ -168,10 +202,10 @@ export async function createTestRecord(
   input: NewRecordInput,
   // A run files inside its own transaction (the run closes with the filing), against the
   // revision it was pinned to when it started, which may have been superseded since.
-  // unmeasuredPlaces: cylinders, journals or studs the run offered and left without a value
-  // (its specs have readings elsewhere): the record is then Incomplete, never Within spec.
-  opts: { tx?: DbOrTx; pinned?: boolean; unmeasuredPlaces?: number } = {},
-): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number }> {
+  // missingPlaces: cylinders, journals or studs the run offered and left without a value (their
+  // specs have readings elsewhere): kept with the record, which is then Incomplete, never Within spec.
+  opts: { tx?: DbOrTx; pinned?: boolean; missingPlaces?: MissingPlace[] } = {},
+): Promise<{ id: string; verdict: RecordVerdict; notMeasured: number; placesMissing: number }> {
   return (opts.tx ?? db()).transaction(async (tx) => {
     const [rev] = await tx.select().from(procedureRevisions).where(eq(procedureRevisions.id, input.revisionId));
     if (!rev) throw new DomainError("That procedure revision does not exist.", { status: 400, field: "revisionId" });
@@ -192,9 +226,8 @@ export async function createTestRecord(
       );
     }
     const specs = await specsOfRevision(tx, rev.id);
-    const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
+    const evaluation = evaluateRecord(specs.map(limitsOf), input.readings, opts.missingPlaces);
     if (!evaluation.verdict) throw new DomainError("Type at least one reading.", { status: 400, field: "readings" });
-    if (evaluation.verdict === "within" && opts.unmeasuredPlaces) evaluation.verdict = "incomplete";
     if (input.recordingId) {
       const [r] = await tx.select({ id: recordings.id }).from(recordings).where(eq(recordings.id, input.recordingId));
       if (!r) throw new DomainError("That recording does not exist.", { status: 400, field: "recordingId" });
@@ -219,14 +252,21 @@ export async function createTestRecord(
       .returning({ id: testRecords.id });
     await assertSourceReadings(tx, input.readings);
     await tx.insert(testRecordReadings).values(rowsFor(rec.id, 0, specs, input.readings));
+    await insertMissingPlaces(tx, rec.id, 0, specs, openPlaces(opts.missingPlaces ?? [], input.readings));
     await audit(tx, actor.id, "create", "test_record", rec.id, {
       workOrder: input.workOrder,
       revisionId: rev.id,
       revision: rev.number,
       verdict: evaluation.verdict,
       readings: Object.values(input.readings).flat().length,
+      placesMissing: evaluation.missingPlaces.map((p) => `${p.specId}@${p.field}${p.n}`),
     });
-    return { id: rec.id, verdict: evaluation.verdict, notMeasured: evaluation.notMeasured.length + (opts.unmeasuredPlaces ?? 0) };
+    return {
+      id: rec.id,
+      verdict: evaluation.verdict,
+      notMeasured: evaluation.counts.notMeasured,
+      placesMissing: evaluation.counts.missingPlaces,
+    };
   });
 }
 
@@ -238,7 +278,7 @@ export async function amendTestRecord(
   actor: Actor,
   recordId: string,
   input: AmendInput,
-): Promise<{ version: number; verdict: RecordVerdict; notMeasured: number; changes: AmendmentChange[] }> {
+): Promise<{ version: number; verdict: RecordVerdict; notMeasured: number; placesMissing: number; changes: AmendmentChange[] }> {
   return db().transaction(async (tx) => {
     const [rec] = await tx.select().from(testRecords).where(eq(testRecords.id, recordId)).for("update");
     if (!rec) throw new DomainError("No such test record.", { status: 404 });
@@ -248,7 +288,9 @@ export async function amendTestRecord(
       .from(testRecordReadings)
       .where(and(eq(testRecordReadings.recordId, rec.id), eq(testRecordReadings.version, rec.currentVersion)))
       .orderBy(asc(testRecordReadings.position));
-    const evaluation = evaluateRecord(specs.map(limitsOf), input.readings);
+    // The places the version in force left empty stay so unless this amendment fills them.
+    const stillOpen = openPlaces(await missingPlacesAt(tx, rec.id, rec.currentVersion), input.readings);
+    const evaluation = evaluateRecord(specs.map(limitsOf), input.readings, stillOpen);
     if (!evaluation.verdict)
       throw new DomainError("An amended record still needs at least one reading.", { status: 400, field: "readings" });
     const order = new Map(specs.map((s, i) => [s.id, i]));
@@ -326,6 +368,7 @@ export async function amendTestRecord(
         })),
       );
     }
+    await insertMissingPlaces(tx, rec.id, version, specs, stillOpen);
     await tx.insert(testRecordAmendments).values({
       recordId: rec.id,
       version,
@@ -356,7 +399,13 @@ export async function amendTestRecord(
       verdictBefore: rec.verdict,
       verdictAfter: evaluation.verdict,
     });
-    return { version, verdict: evaluation.verdict, notMeasured: evaluation.notMeasured.length, changes };
+    return {
+      version,
+      verdict: evaluation.verdict,
+      notMeasured: evaluation.counts.notMeasured,
+      placesMissing: evaluation.counts.missingPlaces,
+      changes,
+    };
   });
 }
 
@@ -406,7 +455,7 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
   if (!row) return null;
   const { rec, rev } = row;
   const version = opts.version != null && opts.version >= 0 && opts.version <= rec.currentVersion ? opts.version : rec.currentVersion;
-  const [specs, allReadings, amendments, calcs, recording] = await Promise.all([
+  const [specs, allReadings, amendments, calcs, recording, missingPlaces] = await Promise.all([
     specsOfRevision(db(), rev.id),
     db()
       .select()
@@ -428,14 +477,17 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
     rec.recordingId
       ? db().select({ id: recordings.id, title: recordings.title }).from(recordings).where(eq(recordings.id, rec.recordingId))
       : Promise.resolve([]),
+    missingPlacesAt(db(), rec.id, version),
   ]);
   const inForce = readingsAtVersion(allReadings, version);
-  const typed: Record<string, { value: number; unit: string }[]> = {};
+  const typed: Record<string, ReadingInput[]> = {};
   for (const r of inForce) {
     typed[r.specId] ??= [];
-    typed[r.specId].push({ value: r.valueEntered, unit: r.unitEntered });
+    typed[r.specId].push({ value: r.valueEntered, unit: r.unitEntered, position: r });
   }
-  const evaluation = evaluateRecord(specs.map(limitsOf), typed);
+  const evaluation = evaluateRecord(specs.map(limitsOf), typed, missingPlaces);
+
+  const places = evaluation.missingPlaces.map((p) => ({ ...p, specLabel: specs.find((s) => s.id === p.specId)?.label ?? "" }));
 
   // A revision superseded since filing: show the limits now in force beside the pinned ones.
   let current: { number: number; specs: SpecRow[] } | null = null;
@@ -465,14 +517,16 @@ export async function getTestRecord(id: string, opts: { version?: number } = {})
     // inspector's own words ("cyl 2, 20 mm down, 90°, plate on"); `noteText` is those words alone.
     readings: inForce.map((r) => ({ ...r, note: whereText(r, r.note), noteText: r.note })),
     evaluation: {
-      // A run files Incomplete when a cylinder, journal or stud it offered has no reading, which
-      // the readings alone cannot tell: the filed verdict of the version in force stands then.
-      verdict:
-        evaluation.verdict === "within" && rec.verdict === "incomplete" && version === rec.currentVersion
-          ? "incomplete"
-          : evaluation.verdict,
+      verdict: evaluation.verdict,
       specs: evaluation.specs.map((e) => ({ specId: e.spec.id, verdict: e.verdict })),
       notMeasured: evaluation.notMeasured.map((s) => s.id),
+      /** Places a run left empty, of specs measured elsewhere: "Cyl 3" of the bore spec. */
+      missingPlaces: places,
+      /** What is missing in sentences, for the record page, its print view and the build sheet. */
+      missing: missingSentences(
+        evaluation.notMeasured.map((s) => s.label),
+        places,
+      ),
     },
     amendments: amendments.map(({ a, by }) => ({ ...a, by })),
     calcs: calcs.map(({ c, by }) => ({ ...c, by })),
@@ -514,6 +568,8 @@ const listColumns = {
   verdict: testRecords.verdict,
   /** Specs of the filed revision without a reading in the version in force: what "Incomplete" lacks. */
   notMeasured: sql<number>`(select count(*) from procedure_specs ps where ps.revision_id = ${testRecords.revisionId} and not exists (select 1 from test_record_readings tr where tr.record_id = ${testRecords.id} and tr.version = ${testRecords.currentVersion} and tr.spec_id = ps.id))::int`,
+  /** Places a run left empty in the version in force, of specs measured there (a spec with no reading is counted above). */
+  placesMissing: sql<number>`(select count(*) from test_record_missing_places mp where mp.record_id = ${testRecords.id} and mp.version = ${testRecords.currentVersion} and exists (select 1 from test_record_readings tr where tr.record_id = mp.record_id and tr.version = mp.version and tr.spec_id = mp.spec_id))::int`,
   currentVersion: testRecords.currentVersion,
   procedureTitle: procedures.title,
   slug: procedures.slug,
@@ -565,6 +621,11 @@ export async function recentTestRecords(limit = 6) {
     .limit(limit);
 }
 
+/** Rows of these records' versions in force (readings or places left empty). */
+function inForce(t: typeof testRecordReadings | typeof testRecordMissingPlaces, ids: string[]) {
+  return and(inArray(t.recordId, ids), sql`${t.version} = (select current_version from test_records t where t.id = ${t.recordId})`);
+}
+
 // ---- CSV --------------------------------------------------------------------------------------
 
 export const CSV_COLUMNS = [
@@ -589,7 +650,10 @@ export const CSV_COLUMNS = [
   "filed_by",
 ] as const;
 
-/** One row per reading in force (records' current versions), plus one per spec not measured. */
+/**
+ * One row per reading in force (records' current versions), plus one per spec not measured and
+ * one per place a run left empty (reading empty, "not measured", the place in reading_note).
+ */
 export async function csvRows(f: ListFilters): Promise<(string | number | null)[][]> {
   const recs = await listTestRecords(f, 5000);
   if (!recs.length) return [];
@@ -605,16 +669,8 @@ export async function csvRows(f: ListFilters): Promise<(string | number | null)[
     .from(procedureSpecs)
     .where(inArray(procedureSpecs.revisionId, revIds))
     .orderBy(asc(procedureSpecs.position));
-  const rs = await db()
-    .select()
-    .from(testRecordReadings)
-    .where(
-      and(
-        inArray(testRecordReadings.recordId, ids),
-        sql`${testRecordReadings.version} = (select current_version from test_records t where t.id = ${testRecordReadings.recordId})`,
-      ),
-    )
-    .orderBy(asc(testRecordReadings.position));
+  const rs = await db().select().from(testRecordReadings).where(inForce(testRecordReadings, ids)).orderBy(asc(testRecordReadings.position));
+  const empty = await db().select().from(testRecordMissingPlaces).where(inForce(testRecordMissingPlaces, ids));
   const out: (string | number | null)[][] = [];
   for (const r of recs) {
     const meta = revOf.get(r.id)!;
@@ -644,6 +700,12 @@ export async function csvRows(f: ListFilters): Promise<(string | number | null)[
           x.note,
           r.by ?? "",
         ]);
+      if (mine.length)
+        for (const p of openPlaces(
+          empty.filter((x) => x.recordId === r.id && x.specId === s.id),
+          { [s.id]: mine.map((x) => ({ value: x.valueEntered, unit: x.unitEntered, position: x })) },
+        ))
+          out.push([...base, ...specCols, null, null, null, "not measured", missingPlaceLabel(p), r.by ?? ""]);
     }
   }
   return out;

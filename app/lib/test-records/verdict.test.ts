@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { evaluateRecord, readingVerdict, recordVerdictText, specVerdict, VerdictInputError, type SpecLimits } from "./verdict";
+import { evaluateRecord, openPlaces, readingVerdict, recordVerdictText, specVerdict, VerdictInputError, type SpecLimits } from "./verdict";
 
 const bore: SpecLimits = { id: "bore", label: "Bore diameter", quantity: "length", unit: "mm", min: 88.0, max: 88.012, nominal: 88.006 };
 const ringGap: SpecLimits = { id: "gap", label: "Top ring end gap", quantity: "length", unit: "mm", min: 0.45, max: null };
@@ -89,7 +89,7 @@ describe("specVerdict and evaluateRecord", () => {
     expect(recordVerdictText(e.verdict!, e.notMeasured.length)).toBe("Incomplete: 1 spec not measured");
     expect(e.notMeasured.map((s) => s.id)).toEqual(["oor"]);
     expect(e.specs.find((s) => s.spec.id === "oor")!.verdict).toBe("not-measured");
-    expect(e.counts).toEqual({ within: 2, out: 0, notMeasured: 1 });
+    expect(e.counts).toEqual({ within: 2, out: 0, notMeasured: 1, missingPlaces: 0 });
   });
 
   it("is out when one reading of one spec is out", () => {
@@ -109,6 +109,55 @@ describe("specVerdict and evaluateRecord", () => {
     const e = evaluateRecord([bore, ringGap, oor], { bore: [{ value: 88.015, unit: "mm" }] });
     expect(e.verdict).toBe("out");
     expect(recordVerdictText(e.verdict!, e.notMeasured.length)).toBe("Out of spec; 2 specs not measured");
+  });
+
+  const atCyl = (cylinder: number, value: number) => ({ value, unit: "mm", position: { cylinder } });
+
+  it("is incomplete, never within, when a run left places of a measured spec empty, and names them", () => {
+    const e = evaluateRecord([bore, ringGap], { bore: [atCyl(1, 88.004), atCyl(2, 88.006)], gap: [{ value: 0.5, unit: "mm" }] }, [
+      { specId: "bore", cylinder: 4 },
+      { specId: "bore", cylinder: 3 },
+    ]);
+    expect(e.verdict).toBe("incomplete");
+    expect(e.notMeasured).toEqual([]);
+    expect(e.missingPlaces).toEqual([
+      { specId: "bore", field: "cylinder", n: 3, label: "Cyl 3" },
+      { specId: "bore", field: "cylinder", n: 4, label: "Cyl 4" },
+    ]);
+    expect(recordVerdictText(e.verdict!, e.counts.notMeasured, e.counts.missingPlaces)).toBe("Incomplete: 2 places not measured");
+  });
+
+  it("clears a place a reading at that place fills, and keeps the others", () => {
+    const e = evaluateRecord([bore], { bore: [atCyl(1, 88.004), atCyl(3, 88.006)] }, [
+      { specId: "bore", cylinder: 3 },
+      { specId: "bore", cylinder: 4 },
+    ]);
+    expect(e.missingPlaces.map((p) => p.label)).toEqual(["Cyl 4"]);
+    expect(openPlaces([{ specId: "bore", cylinder: 3 }], { bore: [atCyl(3, 88.0)] })).toEqual([]);
+    const filled = evaluateRecord([bore], { bore: [atCyl(1, 88.004), atCyl(3, 88.006), atCyl(4, 88.008)] }, [
+      { specId: "bore", cylinder: 3 },
+      { specId: "bore", cylinder: 4 },
+    ]);
+    expect(filled.verdict).toBe("within");
+  });
+
+  it("counts a spec with no reading once, not again for its places, and says specs and places apart", () => {
+    const e = evaluateRecord([bore, ringGap, oor], { bore: [atCyl(1, 88.004)], gap: [{ value: 0.5, unit: "mm" }] }, [
+      { specId: "bore", cylinder: 2 },
+      { specId: "bore", cylinder: 3 },
+      { specId: "oor", cylinder: 2 },
+    ]);
+    expect(e.counts).toEqual({ within: 2, out: 0, notMeasured: 1, missingPlaces: 2 });
+    expect(recordVerdictText(e.verdict!, e.counts.notMeasured, e.counts.missingPlaces)).toBe(
+      "Incomplete: 1 spec and 2 places not measured",
+    );
+  });
+
+  it("says one place and one spec in the singular, and stays out of spec with places missing", () => {
+    expect(recordVerdictText("incomplete", 0, 1)).toBe("Incomplete: 1 place not measured");
+    expect(recordVerdictText("incomplete", 2, 1)).toBe("Incomplete: 2 specs and 1 place not measured");
+    expect(recordVerdictText("out", 0, 3)).toBe("Out of spec; 3 places not measured");
+    expect(recordVerdictText("within")).toBe("Within spec");
   });
 
   it("has no verdict at all when nothing was measured", () => {

@@ -6,6 +6,7 @@
  * "not measured" and never counts as passed.
  */
 import { convert, unitKind, type UnitKind } from "~/lib/calc";
+import { placeLabel, placeOf, type Place, type RunPlaceField } from "~/lib/runs/entries";
 
 import type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
 export type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
@@ -22,7 +23,27 @@ export type SpecLimits = {
   nominal?: number | null;
 };
 
-export type ReadingInput = { value: number; unit: string };
+/** `position`: where it was measured; a reading at a place a run left empty fills that place. */
+export type ReadingInput = { value: number; unit: string; position?: Place | null };
+
+/** A place (cylinder, main journal, stud) a run offered for a spec and left without a value. */
+export type MissingPlace = { specId: string } & Place;
+
+/** The places still empty once these readings are in: a reading of the spec at the place fills it. */
+export function openPlaces<T extends MissingPlace>(places: T[], readingsBySpec: Record<string, ReadingInput[]>): T[] {
+  return places.filter((p) => {
+    const at = placeOf(p);
+    return at && !(readingsBySpec[p.specId] ?? []).some((r) => r.position?.[at.field] === at.n);
+  });
+}
+
+/** "Cyl 3", as the run screen names the place. */
+export function missingPlaceLabel(p: Place): string {
+  const at = placeOf(p);
+  return at ? placeLabel(at.field, at.n) : "";
+}
+
+export type MissingPlaceView = { specId: string; field: RunPlaceField; n: number; label: string };
 
 export class VerdictInputError extends Error {
   constructor(
@@ -73,26 +94,48 @@ export type Evaluation = {
   /** null when nothing at all was measured: such a record cannot be filed. "incomplete" when a spec was left unmeasured. */
   verdict: RecordVerdict | null;
   notMeasured: SpecLimits[];
-  counts: { within: number; out: number; notMeasured: number };
+  /** Places left empty of specs measured elsewhere (a spec with no reading at all is in notMeasured instead). */
+  missingPlaces: MissingPlaceView[];
+  counts: { within: number; out: number; notMeasured: number; missingPlaces: number };
 };
 
 /**
- * The record: "within" only when every spec was measured and each is within (or has no limit);
- * any reading outside its limits makes it "out"; otherwise a spec left without readings makes
- * it "incomplete". Specs left without readings are listed, never silently passed.
+ * The record: "within" only when every spec was measured, at every place a run offered, and
+ * each is within (or has no limit); any reading outside its limits makes it "out"; otherwise a
+ * spec left without readings, or a place left empty (`missingPlaces`, kept with the record's
+ * version), makes it "incomplete". What is missing is listed, never silently passed.
  */
-export function evaluateRecord(specs: SpecLimits[], readingsBySpec: Record<string, ReadingInput[]>): Evaluation {
+export function evaluateRecord(
+  specs: SpecLimits[],
+  readingsBySpec: Record<string, ReadingInput[]>,
+  missingPlaces: MissingPlace[] = [],
+): Evaluation {
   const evaluated: EvaluatedSpec[] = specs.map((spec) => {
-    const rs = (readingsBySpec[spec.id] ?? []).map((r) => ({ ...r, ...readingVerdict(spec, r) }));
+    const rs = (readingsBySpec[spec.id] ?? []).map((r) => ({ value: r.value, unit: r.unit, ...readingVerdict(spec, r) }));
     return { spec, readings: rs, verdict: specVerdict(rs.map((r) => r.verdict)) };
   });
   const measured = evaluated.filter((e) => e.verdict !== "not-measured");
   const out = evaluated.filter((e) => e.verdict === "out").length;
   const notMeasured = evaluated.filter((e) => e.verdict === "not-measured").map((e) => e.spec);
+  const order = new Map(specs.map((s, i) => [s.id, i]));
+  const places = openPlaces(missingPlaces, readingsBySpec)
+    .filter((p) => measured.some((e) => e.spec.id === p.specId))
+    .map((p) => {
+      const at = placeOf(p)!;
+      return { specId: p.specId, field: at.field, n: at.n, label: placeLabel(at.field, at.n) };
+    })
+    .sort((a, b) => (order.get(a.specId) ?? 0) - (order.get(b.specId) ?? 0) || a.n - b.n);
+  const missing = notMeasured.length + places.length;
   return {
     specs: evaluated,
-    verdict: measured.length === 0 ? null : out > 0 ? "out" : notMeasured.length > 0 ? "incomplete" : "within",
+    verdict: measured.length === 0 ? null : out > 0 ? "out" : missing > 0 ? "incomplete" : "within",
     notMeasured,
-    counts: { within: evaluated.filter((e) => e.verdict === "within").length, out, notMeasured: notMeasured.length },
+    missingPlaces: places,
+    counts: {
+      within: evaluated.filter((e) => e.verdict === "within").length,
+      out,
+      notMeasured: notMeasured.length,
+      missingPlaces: places.length,
+    },
   };
 }

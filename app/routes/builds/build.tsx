@@ -220,7 +220,7 @@ export default function BuildPage({ loaderData, actionData }: Route.ComponentPro
             <ul className="mt-2 space-y-1 text-sm">
               {incomplete.map((i) => (
                 <li key={i.recordId}>
-                  <Link to={`/test-records/${i.recordId}`}>{i.title}</Link>: not measured {i.notMeasured.join(", ")}
+                  <Link to={`/test-records/${i.recordId}`}>{i.title}</Link>: {i.missing.join(" ")}
                 </li>
               ))}
             </ul>

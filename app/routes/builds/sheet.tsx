@@ -64,14 +64,25 @@ export default function BuildSheet({ loaderData }: Route.ComponentProps) {
         <section key={v.record.id} className="mt-3 break-inside-avoid-page">
           <div className="flex flex-wrap items-end justify-between gap-2">
             <h3 className="text-base">{v.record.title}</h3>
-            <VerdictBadge verdict={v.evaluation.verdict} notMeasured={v.evaluation.notMeasured.length} />
+            <VerdictBadge
+              verdict={v.evaluation.verdict}
+              notMeasured={v.evaluation.notMeasured.length}
+              places={v.evaluation.missingPlaces.length}
+            />
           </div>
+          {v.evaluation.missing.length > 0 && <p className="text-sm">{v.evaluation.missing.join(" ")}</p>}
           <p className="num text-xs text-graphite-soft">
             {v.procedure.title}, revision {v.revision.number} · tested {fmtDay(v.record.testedOn)} · signed off by{" "}
             {v.filedBy ?? "a former member of staff"} on {fmtDay(v.record.createdAt)}
           </p>
           <div className="overflow-x-auto">
-            <ReadingsTable specs={v.specs} readings={v.readings} specVerdicts={v.evaluation.specs} recording={null} />
+            <ReadingsTable
+              specs={v.specs}
+              readings={v.readings}
+              specVerdicts={v.evaluation.specs}
+              recording={null}
+              missingPlaces={v.evaluation.missingPlaces}
+            />
           </div>
         </section>
       ))}

@@ -43,7 +43,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       const filed = await finishRun(user, id, parsed.data);
       return redirectWithFlash(`/test-records/${filed.id}`, {
         kind: flashKindOf(filed.verdict),
-        message: `Run finished and its test record filed: ${recordVerdictText(filed.verdict, filed.notMeasured)}.`,
+        message: `Run finished and its test record filed: ${recordVerdictText(filed.verdict, filed.notMeasured, filed.placesMissing)}.`,
       });
     }
     if (intent === "abandon") {

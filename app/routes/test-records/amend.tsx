@@ -25,7 +25,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     specs: view.specs.map((s) => ({ ...limitsOf(s), note: s.note })),
     verdict: view.evaluation.verdict,
     notMeasured: view.evaluation.notMeasured.length,
-    readingValues: amendFormValues(view.readings),
+    missingPlaces: view.evaluation.missingPlaces,
+    missing: view.evaluation.missing,
+    readingValues: amendFormValues(view.readings, view.evaluation.missingPlaces),
   };
 }
 
@@ -39,7 +41,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const out = await amendTestRecord(user, view.record.id, { ...parsed.data, readings: parsed.readings });
     return redirectWithFlash(`/test-records/${view.record.id}`, {
       kind: flashKindOf(out.verdict),
-      message: `Amendment ${out.version} saved (${out.changes.length} change${out.changes.length === 1 ? "" : "s"}); the record is ${recordVerdictText(out.verdict, out.notMeasured)}. The original stays in the history.`,
+      message: `Amendment ${out.version} saved (${out.changes.length} change${out.changes.length === 1 ? "" : "s"}); the record is ${recordVerdictText(out.verdict, out.notMeasured, out.placesMissing)}. The original stays in the history.`,
     });
   } catch (err) {
     return domainFailure(request, err, "", parsed.values);
@@ -47,7 +49,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function AmendTestRecord({ loaderData, actionData }: Route.ComponentProps) {
-  const { record, procedure, revision, specs, verdict, notMeasured, readingValues } = loaderData;
+  const { record, procedure, revision, specs, verdict, notMeasured, missingPlaces, missing, readingValues } = loaderData;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const values: Record<string, string> = actionData?.values ?? {};
   const v = (k: string, d: string | number | null) => values[k] ?? (d == null ? "" : String(d));
@@ -57,7 +59,7 @@ export default function AmendTestRecord({ loaderData, actionData }: Route.Compon
     <>
       <PageHeader title={`Amend ${record.workOrder}`} kicker="Test record amendment">
         {record.title} · {procedure.title}, <span className="num">revision {revision.number}</span> · now{" "}
-        <VerdictBadge verdict={verdict} notMeasured={notMeasured} />
+        <VerdictBadge verdict={verdict} notMeasured={notMeasured} places={missingPlaces.length} />
       </PageHeader>
       <p className="mb-4 max-w-3xl text-sm text-graphite-soft">
         A filed record is not edited in place. An amendment keeps the record as it was, saves the corrected readings as a new version, and
@@ -140,7 +142,13 @@ export default function AmendTestRecord({ loaderData, actionData }: Route.Compon
             {errors.readings}
           </p>
         )}
-        <ReadingsEditor specs={specs} initial={initial} errors={errors} />
+        {missingPlaces.length > 0 && (
+          <p className="max-w-3xl rounded-md border border-brass/50 bg-brass-soft/40 px-4 py-2 text-sm" data-testid="left-empty-note">
+            {missing.join(" ")} Each waits as an empty row under its spec: type its value to fill it. A place left empty keeps the record
+            Incomplete.
+          </p>
+        )}
+        <ReadingsEditor specs={specs} initial={initial} errors={errors} missingPlaces={missingPlaces} />
         <div className="flex gap-2">
           <button className="btn btn-primary" type="submit" disabled={busy}>
             {busy ? "Saving…" : "Save the amendment"}

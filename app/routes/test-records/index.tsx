@@ -129,7 +129,7 @@ export default function TestRecords({ loaderData }: Route.ComponentProps) {
                       </span>
                     </td>
                     <td className="px-3 py-2">
-                      <VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} />
+                      <VerdictBadge verdict={r.verdict} notMeasured={r.notMeasured} places={r.placesMissing} />
                     </td>
                     <td className="px-4 py-2 font-sans text-graphite-soft max-md:hidden">{r.by ?? "—"}</td>
                   </tr>

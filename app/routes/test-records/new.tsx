@@ -87,7 +87,7 @@ export async function action({ request }: Route.ActionArgs) {
     });
     return redirectWithFlash(`/test-records/${rec.id}`, {
       kind: flashKindOf(rec.verdict),
-      message: `Test record filed for ${d.workOrder}: ${recordVerdictText(rec.verdict, rec.notMeasured)}.`,
+      message: `Test record filed for ${d.workOrder}: ${recordVerdictText(rec.verdict, rec.notMeasured, rec.placesMissing)}.`,
     });
   } catch (err) {
     return domainFailure(request, err, "", parsed.values);

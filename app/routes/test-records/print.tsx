@@ -37,7 +37,12 @@ export default function RecordSheetPrint({ loaderData }: Route.ComponentProps) {
         <p className="text-xs font-semibold uppercase tracking-[0.14em] text-brass">Larkspur Engine Works · Test record</p>
         <div className="flex flex-wrap items-end justify-between gap-3">
           <h1 className="text-2xl leading-tight">{record.title}</h1>
-          <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
+          <VerdictBadge
+            verdict={evaluation.verdict}
+            notMeasured={evaluation.notMeasured.length}
+            places={evaluation.missingPlaces.length}
+            size="lg"
+          />
         </div>
         <dl className="num mt-2 grid grid-cols-2 gap-x-6 gap-y-0.5 text-sm sm:grid-cols-4">
           <div>
@@ -76,12 +81,9 @@ export default function RecordSheetPrint({ loaderData }: Route.ComponentProps) {
         currentSpecs={current?.specs ?? null}
         currentNumber={current?.number}
         recording={null}
+        missingPlaces={evaluation.missingPlaces}
       />
-      {evaluation.notMeasured.length > 0 && (
-        <p className="mt-2 text-sm">
-          Not measured: {evaluation.notMeasured.map((id) => specs.find((s) => s.id === id)?.label).join(", ")}.
-        </p>
-      )}
+      {evaluation.missing.length > 0 && <p className="mt-2 text-sm">{evaluation.missing.join(" ")}</p>}
       {calcs.filter((c) => c.version <= version).length > 0 && (
         <p className="mt-2 text-sm">
           Calculations kept with the record:{" "}

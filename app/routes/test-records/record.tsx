@@ -87,11 +87,14 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
         <div className="min-w-0 space-y-5">
           <section className="card flex flex-wrap items-center justify-between gap-3" aria-label="Verdict">
             <div>
-              <VerdictBadge verdict={evaluation.verdict} notMeasured={evaluation.notMeasured.length} size="lg" />
-              <p className="mt-1 text-sm text-graphite-soft">
-                {evaluation.notMeasured.length
-                  ? `Not measured: ${evaluation.notMeasured.map((id) => specs.find((s) => s.id === id)?.label).join(", ")}.`
-                  : "Every spec of the revision was measured."}
+              <VerdictBadge
+                verdict={evaluation.verdict}
+                notMeasured={evaluation.notMeasured.length}
+                places={evaluation.missingPlaces.length}
+                size="lg"
+              />
+              <p className="mt-1 text-sm text-graphite-soft" data-testid="missing">
+                {evaluation.missing.length ? evaluation.missing.join(" ") : "Every spec of the revision was measured."}
               </p>
             </div>
             <dl className="num grid grid-cols-[auto_1fr] gap-x-3 text-sm">
@@ -123,6 +126,7 @@ export default function TestRecordPage({ loaderData, actionData }: Route.Compone
                 currentSpecs={current?.specs ?? null}
                 currentNumber={current?.number}
                 recording={recording}
+                missingPlaces={evaluation.missingPlaces}
               />
             </div>
           </section>
