@@ -1,9 +1,11 @@
 // A run worked on the tablet (768×1024): started from the procedure's page, stepped through
 // one screen at a time, values kept as they are typed; the network cut in the middle
 // (Playwright's offline mode), entries typed meanwhile wait on the device and the screen says
-// so; the network back, they are sent once; finishing files the test record. A bore is
-// measured per cylinder: four cylinders' values and a photo taken with the network cut wait
-// on the tablet, go once, and the filed record and the build sheet say where each was taken.
+// so; the network back, they are sent once; finishing files the test record. A bore beside a
+// Bore distortion calculator is read in its grid, cylinder by cylinder, with the cylinder's
+// distortion shown as typed; a cylinder's diameters and a photo taken with the network cut
+// wait on the tablet and go once; a photo the server refuses is discarded from the tablet; the
+// filed record and the build sheet say where each diameter was read.
 import { randomUUID } from "node:crypto";
 import { expect, test } from "@playwright/test";
 import pg from "pg";
@@ -102,7 +104,7 @@ test("a whole run on the tablet, with the network cut in the middle", async ({ p
   await expect(page.locator("main")).toContainText("Worked on the bench tablet.");
 });
 
-test("a bore measured per cylinder with the network cut, a photo taken offline, and the positions on the record and the sheet", async ({
+test("a bore read in its Bore distortion grid cylinder by cylinder, with the network cut, a photo refused and discarded, and the places on the record and the sheet", async ({
   page,
   context,
 }) => {
@@ -114,49 +116,86 @@ test("a bore measured per cylinder with the network cut, a photo taken offline, 
   await page.getByRole("button", { name: "Start the run" }).click();
   await expect(page).toHaveURL(/\/runs\/[0-9a-f-]{36}$/);
   const runId = page.url().split("/").pop()!;
-  const cyl = (n: number) => page.getByLabel(`Cyl ${n}, Bore diameter, plate fitted`, { exact: true });
-  for (let i = 0; i < 20 && !(await cyl(1).isVisible()); i++) await page.getByRole("button", { name: "Next →" }).click();
+  // The step holds the bore and a Bore distortion calculator: the bore is asked in the
+  // calculator's grid, 10 and 50 mm down at 0°, 45°, 90° and 135°, one cylinder at a time.
+  const cell = (n: number, depth: number, angle: number) =>
+    page.getByLabel(`Cyl ${n}, ${depth} mm down, ${angle}°, Bore diameter, plate fitted`, { exact: true });
+  for (let i = 0; i < 20 && !(await cell(1, 10, 0).isVisible()); i++) await page.getByRole("button", { name: "Next →" }).click();
+  const bore = page.getByTestId("entry").filter({ has: page.getByTestId("bore-grid") });
+  await expect(bore.getByTestId("bore-grid")).toHaveAttribute("data-cylinder", "1");
+  await expect(bore.getByTestId("grid-cell")).toHaveCount(8);
 
-  // One row per cylinder of the engine (the build says 4), each with its own verdict.
-  const bore = page.getByTestId("entry").filter({ has: cyl(1) });
-  await expect(bore.getByTestId("entry-place")).toHaveCount(4);
-  await cyl(1).fill("88.004");
-  await cyl(2).fill("88.012");
-  await expect(bore.getByTestId("entry-place").nth(1).getByTestId("entry-verdict")).toHaveText(/Out: above max/);
-  await cyl(2).fill("88.009");
-  await expect(bore.getByTestId("entry-place").nth(1).getByTestId("entry-verdict")).toHaveText("Within");
+  // Each diameter is judged against the bore's limits as it is typed.
+  await cell(1, 10, 45).fill("88.012");
+  await expect(bore.getByTestId("grid-cell").nth(1).getByTestId("entry-verdict")).toHaveText(/Out: above max/);
+  // Kept as typed (then corrected below: the later typing at that place wins).
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
+  const typeCylinder = async (n: number, top: number[], low: number[]) => {
+    for (const [j, a] of [0, 45, 90, 135].entries()) {
+      await cell(n, 10, a).fill(top[j].toFixed(3));
+      await cell(n, 50, a).fill(low[j].toFixed(3));
+    }
+  };
+  await typeCylinder(1, [88.006, 88.009, 88.008, 88.003], [88.004, 88.008, 88.007, 88.001]);
+  await expect(bore.getByTestId("grid-cell").nth(1).getByTestId("entry-verdict")).toHaveText("Within");
+  // The cylinder's distortion from these numbers: out-of-round is the largest minus the smallest
+  // diameter at a depth (88.009 − 88.003, 88.008 − 88.001), taper the spread of the depths' means.
+  const result = bore.getByTestId("step-calculator");
+  await expect(result).toContainText("Bore distortion — Cyl 1");
+  await expect(result).toContainText("Diameters (8 of 8) ← Bore diameter, plate fitted, Cyl 1");
+  await expect(result).toContainText(/Out-of-round at 10 mm\s*6 µm/);
+  await expect(result).toContainText(/Out-of-round at 50 mm\s*7 µm/);
+  await expect(result).toContainText(/Taper\s*1\.5 µm/);
+  await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
+  expect(await entriesOf(runId, "bore-dia")).toBe(9);
 
-  // The network goes: two more cylinders and a photo of cylinder 3's gauge wait on the tablet.
+  // Next cylinder. The network goes: its diameters and a photo of cylinder 3's gauge wait on the tablet.
+  await bore.getByRole("button", { name: "Next cylinder →" }).click();
+  await expect(bore.getByTestId("bore-grid")).toHaveAttribute("data-cylinder", "2");
+  await expect(result).toContainText("Type this cylinder's diameters");
   await context.setOffline(true);
-  await cyl(3).fill("88.006");
-  await cyl(4).fill("88.008");
+  await typeCylinder(2, [88.005, 88.008, 88.006, 88.003], [88.004, 88.007, 88.006, 88.002]);
   await bore.getByLabel("Photo of").selectOption({ label: "Cyl 3" });
   await bore.locator('input[type="file"]').setInputFiles({ name: "gauge.png", mimeType: "image/png", buffer: GRAY_PNG });
-  await expect(page.getByTestId("save-state")).toContainText("No network: 2 entries and 1 photo are waiting on this device");
+  await expect(page.getByTestId("save-state")).toContainText("No network: 8 entries and 1 photo are waiting on this device");
   await expect(bore.getByTestId("photo-waiting")).toHaveCount(1);
-  expect(await entriesOf(runId, "bore-dia")).toBe(2);
+  expect(await entriesOf(runId, "bore-dia")).toBe(9);
 
   // Back: everything goes, once.
   await context.setOffline(false);
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
   await expect(bore.getByTestId("photo-sent")).toHaveCount(1);
-  expect(await entriesOf(runId, "bore-dia")).toBe(4);
+  expect(await entriesOf(runId, "bore-dia")).toBe(17);
   expect(await count("select count(*)::int as n from run_photos where run_id = $1 and cylinder = 3", [runId])).toBe(1);
-  await page.reload();
-  await expect(cyl(4)).toHaveValue("88.008");
-  expect(await entriesOf(runId, "bore-dia")).toBe(4);
 
-  // The out-of-round was not measured: the record is filed Incomplete, with every cylinder's bore.
+  // A file that is not a picture is refused by the server: the screen says why and it can be discarded from the tablet.
+  await bore
+    .locator('input[type="file"]')
+    .setInputFiles({ name: "notes.png", mimeType: "image/png", buffer: Buffer.from("not a picture") });
+  const refused = bore.getByTestId("photo-refused");
+  await expect(refused).toContainText("Not kept:", { timeout: 15_000 });
+  await expect(page.getByTestId("save-state")).toContainText("Some values or photos were refused");
+  await refused.getByRole("button", { name: "Discard from this tablet" }).click();
+  await expect(refused).toHaveCount(0);
+  await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.");
+
+  await page.reload();
+  await expect(bore.getByTestId("photo-refused")).toHaveCount(0);
+  await bore.getByRole("button", { name: /^Cyl 2 · 8\/8$/ }).click();
+  await expect(cell(2, 50, 135)).toHaveValue("88.002");
+  expect(await entriesOf(runId, "bore-dia")).toBe(17);
+
+  // Cylinders 3 and 4 and the out-of-round were not measured: the record is filed Incomplete,
+  // each diameter with its cylinder, depth and angle, on the record and on the build sheet.
   await page.getByRole("button", { name: "Finish and file the test record" }).click();
   await expect(page).toHaveURL(/\/test-records\/[0-9a-f-]{36}$/);
   await expect(page.getByTestId("verdict").first()).toHaveText(/Incomplete/);
-  // Each reading says where it was taken, beside its spec, on the record and on the build sheet.
   const boreRows = () => page.getByTestId("spec-row").filter({ hasText: "Bore diameter, plate fitted" }).locator("tr");
-  await expect(boreRows()).toHaveCount(4);
-  for (let n = 1; n <= 4; n++) await expect(boreRows().nth(n - 1)).toContainText(`cyl ${n}`);
-  await page.goto(`/builds/${build}/sheet`);
-  await expect(boreRows()).toHaveCount(4);
-  for (let n = 1; n <= 4; n++) await expect(boreRows().nth(n - 1)).toContainText(`cyl ${n}`);
-  await expect(page.locator("main")).toContainText("88.009");
+  for (const where of ["record", "sheet"]) {
+    if (where === "sheet") await page.goto(`/builds/${build}/sheet`);
+    await expect(boreRows().filter({ hasText: "cyl 1" })).toHaveCount(8);
+    await expect(boreRows().filter({ hasText: "cyl 2" }).filter({ hasText: "50 mm down" }).filter({ hasText: "135°" })).toContainText(
+      "88.002",
+    );
+  }
 });
