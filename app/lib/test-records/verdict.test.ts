@@ -121,9 +121,11 @@ describe("specVerdict and evaluateRecord", () => {
     expect(e.verdict).toBe("incomplete");
     expect(e.notMeasured).toEqual([]);
     expect(e.missingPlaces).toEqual([
-      { specId: "bore", field: "cylinder", n: 3, label: "Cyl 3" },
-      { specId: "bore", field: "cylinder", n: 4, label: "Cyl 4" },
+      { specId: "bore", fastener: null, cylinder: 3, journal: null, field: "cylinder", n: 3, label: "Cyl 3" },
+      { specId: "bore", fastener: null, cylinder: 4, journal: null, field: "cylinder", n: 4, label: "Cyl 4" },
     ]);
+    // The places it lists are a form's input again (the amend form's preview): still open by the same rule.
+    expect(openPlaces(e.missingPlaces, { bore: [atCyl(1, 88.004)] })).toHaveLength(2);
     expect(recordVerdictText(e.verdict!, e.counts.notMeasured, e.counts.missingPlaces)).toBe("Incomplete: 2 places not measured");
   });
 

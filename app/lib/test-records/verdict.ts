@@ -43,7 +43,16 @@ export function missingPlaceLabel(p: Place): string {
   return at ? placeLabel(at.field, at.n) : "";
 }
 
-export type MissingPlaceView = { specId: string; field: RunPlaceField; n: number; label: string };
+/** A place left empty, with its field and number named as well, and its words ("Cyl 3"). */
+export type MissingPlaceView = {
+  specId: string;
+  fastener: number | null;
+  cylinder: number | null;
+  journal: number | null;
+  field: RunPlaceField;
+  n: number;
+  label: string;
+};
 
 export class VerdictInputError extends Error {
   constructor(
@@ -122,7 +131,8 @@ export function evaluateRecord(
     .filter((p) => measured.some((e) => e.spec.id === p.specId))
     .map((p) => {
       const at = placeOf(p)!;
-      return { specId: p.specId, field: at.field, n: at.n, label: placeLabel(at.field, at.n) };
+      const where = { fastener: null, cylinder: null, journal: null, [at.field]: at.n };
+      return { specId: p.specId, ...where, field: at.field, n: at.n, label: placeLabel(at.field, at.n) };
     })
     .sort((a, b) => (order.get(a.specId) ?? 0) - (order.get(b.specId) ?? 0) || a.n - b.n);
   const missing = notMeasured.length + places.length;
