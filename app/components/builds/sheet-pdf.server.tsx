@@ -7,6 +7,7 @@ import { CALC_CAUTION } from "~/lib/calc-kinds";
 import { fmtDay } from "~/components/test-records/parts";
 import { limitsText, typedReadingText } from "~/components/test-records/units";
 import { READING_VERDICT_LABELS, recordVerdictText } from "~/lib/test-records/labels";
+import { withEmptyPlaces } from "~/lib/test-records/verdict";
 import { positionText } from "~/lib/recordings/positions";
 
 // The build sheet as a PDF (@react-pdf/renderer), in the app's own fonts: Lora for headings and
@@ -147,28 +148,29 @@ function BuildSheetDocument({ page, paper, photos }: { page: BuildPage; paper: S
                   </View>
                 );
               const empty = v.evaluation.missingPlaces.filter((p) => p.specId === spec.id);
-              const left = empty.map((p) => (
-                <View key={`${spec.id}-${p.field}${p.n}`} style={s.row} wrap={false}>
-                  <Text style={s.spec}>{""}</Text>
-                  <Text style={s.where}>{positionText({ [p.field]: p.n })}</Text>
-                  <Text style={[s.value, { color: BRASS }]}>not measured</Text>
-                  <Text style={s.limits}>{""}</Text>
-                  <Text style={s.verdict}>left empty</Text>
-                </View>
-              ));
-              const measured = rs.map((r, i) => {
+              return withEmptyPlaces(rs, empty).map((item, i) => {
+                if ("place" in item)
+                  return (
+                    <View key={`${spec.id}-${item.place.field}${item.place.n}`} style={s.row} wrap={false}>
+                      <Text style={s.spec}>{i === 0 ? spec.label : ""}</Text>
+                      <Text style={s.where}>{positionText({ [item.place.field]: item.place.n })}</Text>
+                      <Text style={[s.value, { color: BRASS }]}>not measured</Text>
+                      <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
+                      <Text style={s.verdict}>left empty</Text>
+                    </View>
+                  );
+                const r = item.r;
                 const bad = r.verdict === "below" || r.verdict === "above";
                 return (
                   <View key={r.id} style={s.row} wrap={false}>
                     <Text style={s.spec}>{i === 0 ? spec.label : ""}</Text>
                     <Text style={s.where}>{positionText(r, ", ") || "—"}</Text>
                     <Text style={[s.value, bad ? s.outValue : {}]}>{typedReadingText(r)}</Text>
-                    <Text style={s.limits}>{i === 0 ? pdfLimits(spec) : ""}</Text>
+                    <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
                     <Text style={[s.verdict, bad ? s.out : {}]}>{READING_VERDICT_LABELS[r.verdict]}</Text>
                   </View>
                 );
               });
-              return [...measured, ...left];
             })}
           </View>
         ))}

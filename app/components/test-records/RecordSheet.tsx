@@ -1,5 +1,6 @@
 import { Link } from "react-router";
 import { positionText } from "~/lib/recordings/positions";
+import { withEmptyPlaces } from "~/lib/test-records/verdict";
 import type { SpecVerdict } from "~/lib/test-records/verdict";
 import { fmtDay, ReadingVerdictTag, SpecVerdictTag } from "./parts";
 import { inSpecUnitText, limitsText, typedReadingText } from "./units";
@@ -25,7 +26,13 @@ type Reading = {
   verdict: "within" | "below" | "above" | "unchecked";
   note: string;
   sourceReadingId: string | null;
+  /** Its place, among which a place left empty is listed. */
+  fastener?: number | null;
+  cylinder?: number | null;
+  journal?: number | null;
 };
+
+type EmptyPlace = { specId: string; field: "cylinder" | "journal" | "fastener"; n: number };
 
 /**
  * Readings grouped by spec, each with its verdict; specs without readings say "Not measured",
@@ -46,7 +53,7 @@ export function ReadingsTable({
   currentSpecs?: Spec[] | null;
   currentNumber?: number | null;
   recording?: { id: string } | null;
-  missingPlaces?: { specId: string; field: "cylinder" | "journal" | "fastener"; n: number }[];
+  missingPlaces?: EmptyPlace[];
 }) {
   return (
     <table className="readings-table w-full text-left text-sm" data-testid="readings-table">
@@ -88,42 +95,44 @@ export function ReadingsTable({
         );
         return (
           <tbody key={s.id} className="num border-b border-rule/70" data-testid="spec-row" data-spec={s.label}>
-            {rs.length
-              ? rs.map((r, i) => (
-                  <tr key={r.id}>
-                    {i === 0 && head}
-                    <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">
-                      {typedReadingText(r)}
-                    </td>
-                    <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">
-                      {r.unitEntered === s.unit ? "" : inSpecUnitText(r, s)}
-                    </td>
-                    <td className="px-3 py-1">
-                      <ReadingVerdictTag verdict={r.verdict} />
-                    </td>
-                    <td className="px-3 py-1 font-sans text-graphite-soft">
-                      {r.note}
-                      {r.sourceReadingId && recording && (
-                        <>
-                          {" "}
-                          ·{" "}
-                          <Link to={`/recordings/${recording.id}`} className="no-print">
-                            from the recording
-                          </Link>
-                        </>
-                      )}
-                    </td>
-                  </tr>
-                ))
-              : null}
-            {empty.map((p) => (
-              <tr key={`${p.field}${p.n}`} data-testid="left-empty">
-                <td className="px-3 py-1 text-right italic text-brass" colSpan={3}>
-                  not measured
-                </td>
-                <td className="px-3 py-1 font-sans text-graphite-soft">{positionText({ [p.field]: p.n })}, left empty on the run</td>
-              </tr>
-            ))}
+            {withEmptyPlaces(rs, empty).map((item, i) =>
+              "place" in item ? (
+                <tr key={`${item.place.field}${item.place.n}`} data-testid="left-empty">
+                  {i === 0 && head}
+                  <td className="px-3 py-1 text-right italic text-brass" colSpan={3}>
+                    not measured
+                  </td>
+                  <td className="px-3 py-1 font-sans text-graphite-soft">
+                    {positionText({ [item.place.field]: item.place.n })}, left empty on the run
+                  </td>
+                </tr>
+              ) : (
+                <tr key={item.r.id}>
+                  {i === 0 && head}
+                  <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">
+                    {typedReadingText(item.r)}
+                  </td>
+                  <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">
+                    {item.r.unitEntered === s.unit ? "" : inSpecUnitText(item.r, s)}
+                  </td>
+                  <td className="px-3 py-1">
+                    <ReadingVerdictTag verdict={item.r.verdict} />
+                  </td>
+                  <td className="px-3 py-1 font-sans text-graphite-soft">
+                    {item.r.note}
+                    {item.r.sourceReadingId && recording && (
+                      <>
+                        {" "}
+                        ·{" "}
+                        <Link to={`/recordings/${recording.id}`} className="no-print">
+                          from the recording
+                        </Link>
+                      </>
+                    )}
+                  </td>
+                </tr>
+              ),
+            )}
             {rs.length ? null : (
               <tr>
                 {head}

@@ -18,7 +18,7 @@ import {
   type PositionField,
 } from "~/lib/recordings/positions";
 import { typedDecimals, typedText } from "~/lib/typed-number";
-import { readingVerdict, VerdictInputError, type SpecLimits } from "./verdict";
+import { readingVerdict, VerdictInputError, withEmptyPlaces, type SpecLimits } from "./verdict";
 
 /** `decimals`: as many as were typed ("88.010" → 3), kept beside the value (migration 0026). */
 export type TypedReading = {
@@ -243,12 +243,10 @@ export function amendFormValues(
   const specIds = [...new Set([...readings, ...missingPlaces].map((r) => r.specId))];
   for (const specId of specIds) {
     const mine = readings.filter((r) => r.specId === specId).sort((a, b) => a.position - b.position);
-    type Slot = { reading: (typeof mine)[number] } | { place: (typeof missingPlaces)[number] };
-    const slots: Slot[] = mine.map((reading) => ({ reading }));
-    for (const place of missingPlaces.filter((p) => p.specId === specId)) {
-      const after = slots.findIndex((x) => "reading" in x && (x.reading[place.field] ?? -1) > place.n);
-      slots.splice(after < 0 ? slots.length : after, 0, { place });
-    }
+    const slots = withEmptyPlaces(
+      mine,
+      missingPlaces.filter((p) => p.specId === specId),
+    );
     slots.forEach((slot, i) => {
       const base = `r.${specId}.${i}`;
       if ("place" in slot) {
@@ -256,7 +254,7 @@ export function amendFormValues(
         values[`${base}.${slot.place.field}`] = String(slot.place.n);
         return;
       }
-      const r = slot.reading;
+      const r = slot.r;
       values[`${base}.value`] = typedText(r.valueEntered, r.valueDecimals);
       values[`${base}.unit`] = r.unitEntered;
       values[`${base}.note`] = r.noteText;

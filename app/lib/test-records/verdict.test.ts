@@ -1,5 +1,14 @@
 import { describe, expect, it } from "vitest";
-import { evaluateRecord, openPlaces, readingVerdict, recordVerdictText, specVerdict, VerdictInputError, type SpecLimits } from "./verdict";
+import {
+  evaluateRecord,
+  openPlaces,
+  readingVerdict,
+  recordVerdictText,
+  specVerdict,
+  VerdictInputError,
+  withEmptyPlaces,
+  type SpecLimits,
+} from "./verdict";
 
 const bore: SpecLimits = { id: "bore", label: "Bore diameter", quantity: "length", unit: "mm", min: 88.0, max: 88.012, nominal: 88.006 };
 const ringGap: SpecLimits = { id: "gap", label: "Top ring end gap", quantity: "length", unit: "mm", min: 0.45, max: null };
@@ -160,6 +169,15 @@ describe("specVerdict and evaluateRecord", () => {
     expect(recordVerdictText("incomplete", 2, 1)).toBe("Incomplete: 2 specs and 1 place not measured");
     expect(recordVerdictText("out", 0, 3)).toBe("Out of spec; 3 places not measured");
     expect(recordVerdictText("within")).toBe("Within spec");
+  });
+
+  it("lists each place left empty among the readings where its number falls", () => {
+    const rs = [1, 2, 4].map((cylinder) => ({ id: `r${cylinder}`, cylinder }));
+    const order = (empty: { field: "cylinder"; n: number }[]) =>
+      withEmptyPlaces(rs, empty).map((x) => ("r" in x ? x.r.id : `empty ${x.place.n}`));
+    expect(order([{ field: "cylinder", n: 3 }])).toEqual(["r1", "r2", "empty 3", "r4"]);
+    expect(order([{ field: "cylinder", n: 5 }])).toEqual(["r1", "r2", "r4", "empty 5"]);
+    expect(order([{ field: "cylinder", n: 0 }])).toEqual(["empty 0", "r1", "r2", "r4"]);
   });
 
   it("has no verdict at all when nothing was measured", () => {

@@ -37,6 +37,22 @@ export function openPlaces<T extends MissingPlace>(places: T[], readingsBySpec: 
   });
 }
 
+/**
+ * A spec's readings in their order with each place left empty among them where its number falls
+ * (stud 2 between studs 1 and 3), for the tables and the amend form that list them.
+ */
+export function withEmptyPlaces<R extends Place, P extends { field: RunPlaceField; n: number }>(
+  readings: R[],
+  empty: P[],
+): ({ r: R } | { place: P })[] {
+  const items: ({ r: R } | { place: P })[] = readings.map((r) => ({ r }));
+  for (const place of empty) {
+    const at = items.findIndex((x) => "r" in x && (x.r[place.field] ?? -1) > place.n);
+    items.splice(at < 0 ? items.length : at, 0, { place });
+  }
+  return items;
+}
+
 /** "Cyl 3", as the run screen names the place. */
 export function missingPlaceLabel(p: Place): string {
   const at = placeOf(p);
