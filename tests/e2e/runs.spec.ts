@@ -7,6 +7,7 @@
 // wait on the tablet and go once; a photo the server refuses is discarded from the tablet; the
 // filed record and the build sheet say where each diameter was read.
 import { randomUUID } from "node:crypto";
+import AxeBuilder from "@axe-core/playwright";
 import { expect, test } from "@playwright/test";
 import pg from "pg";
 import { DEMO_PEOPLE, DEMO_PROCEDURE, signIn } from "../support/browser";
@@ -148,6 +149,12 @@ test("a bore read in its Bore distortion grid cylinder by cylinder, with the net
   await expect(result).toContainText(/Taper\s*1\.5 µm/);
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
   expect(await entriesOf(runId, "bore-dia")).toBe(9);
+  // The grid and its result are read out as a table with named fields (WCAG 2.1 A and AA, as the accessibility suite checks pages).
+  const axe = await new AxeBuilder({ page })
+    .include('[data-testid="run-step"]')
+    .withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"])
+    .analyze();
+  expect(axe.violations.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`)).toEqual([]);
 
   // Next cylinder. The network goes: its diameters and a photo of cylinder 3's gauge wait on the tablet.
   await bore.getByRole("button", { name: "Next cylinder →" }).click();
