@@ -1,7 +1,9 @@
 // Demo builds for Larkspur Engine Works (invented), the three the scenario needs: LEW-24-0117
 // delivered with a full build sheet, LEW-24-0118 on the bench (with the demo's open run),
 // LEW-24-0119 with main 3 out of spec. All three are the 2.3 L aluminium block with iron liners
-// that the demo procedures are written for. Customers and addresses are made up (.example). Runs
+// that the demo procedures are written for: bore 88.00 mm (the honing procedure's size) and
+// stroke 94.60 mm, so 4 × π/4 × (8.8 cm)² × 9.46 cm = 2301.5 cm³, the 2.3 L the engine is called.
+// Customers and addresses are made up (.example). Runs
 // after the test records and recordings: it links the records by work order number, and puts the
 // demo recordings on builds by id, as a person would by choosing the build (their marks take the
 // recording's build). Idempotent (by number; links only rows not yet linked).
@@ -39,8 +41,8 @@ const DEMO_BUILDS: DemoBuild[] = [
     customerContact: "workshop@wrenvalley.example",
     engine: "Inline four, 2.3 L, aluminium block with iron liners, turbocharged, forged pistons",
     engineSerial: "LX23-0412",
-    boreMm: [96.0, 2],
-    strokeMm: [79.5, 2],
+    boreMm: [88.0, 2],
+    strokeMm: [94.6, 2],
     counts: [4, 5],
     notes: "Stage rally engine. Bored to the first oversize, torque-plate honed, forged 2618 pistons, head studs in place of bolts.",
     lead: "demo-marcus",
@@ -58,8 +60,8 @@ const DEMO_BUILDS: DemoBuild[] = [
     customerContact: "engines@hollisboatyard.example",
     engine: "Inline four, 2.3 L, aluminium block with iron liners, marine conversion",
     engineSerial: "LX23-0415",
-    boreMm: [96.0, 2],
-    strokeMm: [79.5, 2],
+    boreMm: [88.0, 2],
+    strokeMm: [94.6, 2],
     counts: [4, 5],
     notes: "Raw-water cooled; head studs and gasket replaced after overheating.",
     lead: "demo-marcus",
@@ -73,8 +75,8 @@ const DEMO_BUILDS: DemoBuild[] = [
     customerContact: "+44 1632 960 118",
     engine: "Inline four, 2.3 L, aluminium block with iron liners, naturally aspirated",
     engineSerial: "LX23-0419",
-    boreMm: [96.0, 2],
-    strokeMm: [79.5, 2],
+    boreMm: [88.0, 2],
+    strokeMm: [94.6, 2],
     counts: [4, 5],
     notes: "Spun bearing on main 3. Crank to be checked for journal size before the shells are chosen.",
     lead: "demo-tomas",

@@ -21,27 +21,56 @@ type Demo = {
   readings: Record<string, R[]>;
 };
 
+/** One cylinder as the honing procedure asks it measured: at 10, 50 and 90 mm down, each at 0°, 45°, 90° and 135°. */
 const bores = (cyl: number, d: number[]): R[] =>
-  [10, 60].flatMap((depth, li) => [0, 45, 90, 135].map((a, ai): R => [d[li * 4 + ai], "mm", `cyl ${cyl}, ${depth} mm down, ${a}°`]));
+  [10, 50, 90].flatMap((depth, li) => [0, 45, 90, 135].map((a, ai): R => [d[li * 4 + ai], "mm", `cyl ${cyl}, ${depth} mm down, ${a}°`]));
+
+/** A value per place, "stud 1" … or "main 1" …, in order. */
+const each = (place: string, unit: string, values: number[]): R[] => values.map((v, i): R => [v, unit, `${place} ${i + 1}`]);
 
 const DEMOS: Demo[] = [
   {
     slug: "torque-plate-honing-iron-lined-block",
     workOrder: "LEW-24-0117",
-    title: "Bore finish after torque-plate honing, cylinders 1–2",
+    title: "Bore finish after torque-plate honing, all four cylinders",
     engineSerial: "LX23-0412",
     daysAgo: 9,
     by: "demo-tomas",
     notes: "Plate torqued to the head stud figure, block at 21 °C. Two-point gauge zeroed on the 88.000 ring.",
     readings: {
+      // Largest minus smallest at any depth is 0.003 mm in every cylinder: the out-of-round below.
       "bore-dia": [
-        ...bores(1, [88.006, 88.004, 88.003, 88.005, 88.005, 88.004, 88.004, 88.005]),
-        ...bores(2, [88.007, 88.005, 88.004, 88.005, 88.006, 88.005, 88.005, 88.006]),
+        ...bores(1, [88.006, 88.004, 88.003, 88.005, 88.005, 88.004, 88.004, 88.005, 88.004, 88.003, 88.003, 88.004]),
+        ...bores(2, [88.007, 88.005, 88.004, 88.005, 88.006, 88.005, 88.005, 88.006, 88.005, 88.004, 88.004, 88.005]),
+        ...bores(3, [88.006, 88.005, 88.003, 88.004, 88.005, 88.004, 88.003, 88.004, 88.004, 88.004, 88.003, 88.003]),
+        ...bores(4, [88.005, 88.004, 88.002, 88.004, 88.004, 88.004, 88.003, 88.004, 88.004, 88.003, 88.003, 88.003]),
       ],
-      "bore-oor": [
-        [0.003, "mm", "cyl 1"],
-        [0.003, "mm", "cyl 2"],
-      ],
+      "bore-oor": each("cyl", "mm", [0.003, 0.003, 0.003, 0.003]),
+    },
+  },
+  {
+    slug: "main-bearing-oil-clearance",
+    workOrder: "LEW-24-0117",
+    title: "Main bearing oil clearance, all five journals",
+    engineSerial: "LX23-0412",
+    daysAgo: 7,
+    by: "demo-tomas",
+    notes: "Crank measured in two planes per journal; shells from the standard-size set.",
+    readings: {
+      "main-oil": each("main", "mm", [0.048, 0.051, 0.05, 0.049, 0.052]),
+    },
+  },
+  {
+    slug: "head-stud-installation-and-torque-sequence",
+    workOrder: "LEW-24-0117",
+    title: "Head studs: protrusion and final torque, all ten",
+    engineSerial: "LX23-0412",
+    daysAgo: 6,
+    by: "demo-marcus",
+    notes: "Moly on threads and washer faces; three passes in the spiral sequence, each nut paint-marked after its final pass.",
+    readings: {
+      "studs-protrusion": each("stud", "mm", [52.0, 52.1, 51.9, 52.0, 52.1, 52.0, 51.9, 52.0, 52.1, 52.0]),
+      "studs-final": each("stud", "N.m", [110, 111, 109, 110, 112, 110, 109, 111, 110, 110]),
     },
   },
   {
