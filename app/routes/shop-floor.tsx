@@ -23,7 +23,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     // Only an author's own drafts come back to them; a role that cannot write has none.
     can(user.role, "procedure:draft") ? returnedDraftsOf(user.id) : [],
     recentTestRecords(),
-    can(user.role, "builds:read") ? buildSummaries({ status: IN_PROGRESS, limit: 12 }) : [],
+    can(user.role, "builds:read") ? buildSummaries({ status: IN_PROGRESS, limit: 12, outOfSpecFirst: true }) : [],
   ]);
   const openRuns = await listOpenRuns();
   return { user, review, returned, testRecords, builds, openRuns };
@@ -112,7 +112,7 @@ export default function ShopFloor({ loaderData }: Route.ComponentProps) {
           )}
         </section>
       )}
-      {loaderData.builds.length > 0 && <BuildsInProgress rows={loaderData.builds} />}
+      {loaderData.builds.length > 0 && <BuildsInProgress rows={loaderData.builds} openRuns={loaderData.openRuns} />}
       {loaderData.openRuns.length > 0 && <OpenRuns rows={loaderData.openRuns} />}
       {loaderData.testRecords.length > 0 && (
         <section aria-labelledby="recent-tests-h" className="card mb-6" data-testid="recent-test-records">

@@ -8,8 +8,14 @@ import os from "node:os";
 import path from "node:path";
 import { and, eq, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
-import { buildEvents, builds, marks, recordings, testRecords } from "~/db/schema";
+import { max, min, subtract } from "mathjs";
+import { buildEvents, builds, marks, procedureRevisions, procedures, recordings, testRecords } from "~/db/schema";
+import { buildCalcs, buildPage } from "~/lib/builds/page.server";
+import { calcSummary } from "~/lib/builds/sheet";
+import { boreOf, sizeText, strokeOf } from "~/lib/builds/sizes";
 import { db } from "~/lib/db.server";
+import { walk, type JSONNode } from "~/lib/procedures/document";
+import type { TestRecordView } from "~/lib/test-records/records.server";
 import { createUser, http, mailbox, waitFor } from "../support/app";
 import { demoBoreSpec } from "../support/builds";
 import { parse } from "../support/csv";
@@ -392,5 +398,136 @@ describe("builds", () => {
     const text = execFileSync("pdftotext", ["-layout", file, "-"]).toString();
     fs.rmSync(file);
     expect(text).toMatch(/journal 3\s+0\.071 mm\s+0\.04 – 0\.065 mm|journal 3\s+0\.071 mm\s+above max/);
+  });
+
+  it("the delivered demo build is a full build sheet: every cylinder at the honing depths, a torque per stud, a clearance per main journal, all within spec", async () => {
+    const page = (await buildPage("LEW-24-0117"))!;
+    expect(page.build).toMatchObject({ status: "delivered", cylinders: 4, mainJournals: 5 });
+    expect(sizeText(boreOf(page.build))).toBe("88.00 mm (3.4646 in)");
+    expect(sizeText(strokeOf(page.build))).toBe("94.60 mm (3.7244 in)");
+    // 4 × π/4 × bore² × stroke is the 2.3 L the engine is called.
+    const litres = (4 * (Math.PI / 4) * page.build.boreM! ** 2 * page.build.strokeM! * 1000).toFixed(1);
+    expect(page.build.engine).toContain(`${litres} L`);
+    expect(page.outOfSpec).toEqual([]);
+    expect(page.incomplete).toEqual([]);
+    for (const v of page.records) expect(v.evaluation.verdict).toBe("within");
+    const readingsOf = (key: string) => page.records.flatMap((v) => v.readings.filter((r) => r.specKey === key));
+    // The honing procedure's own words say where each bore is measured.
+    const honing = page.records.find((v) => v.procedure.slug === "torque-plate-honing-iron-lined-block")!;
+    const [rev] = await db()
+      .select({ doc: procedureRevisions.doc })
+      .from(procedureRevisions)
+      .where(eq(procedureRevisions.id, honing.revision.id));
+    let asked = "";
+    walk(rev.doc as JSONNode, (n) => {
+      if (n.type === "text" && typeof n.text === "string" && /Measure each bore/.test(n.text)) asked = n.text;
+    });
+    expect(asked).toMatch(/at 10, 50 and 90 mm down at 0°, 45°, 90° and 135°/);
+    const places = readingsOf("bore-dia").map((r) => `${r.cylinder}@${Math.round(r.depthM! * 1000)}@${r.angleDeg}`);
+    const wanted = [1, 2, 3, 4].flatMap((c) => [10, 50, 90].flatMap((d) => [0, 45, 90, 135].map((a) => `${c}@${d}@${a}`)));
+    expect(places.sort()).toEqual(wanted.sort());
+    expect(readingsOf("studs-final").map((r) => r.fastener)).toEqual([1, 2, 3, 4, 5, 6, 7, 8, 9, 10]);
+    expect(readingsOf("studs-protrusion").map((r) => r.fastener)).toEqual([1, 2, 3, 4, 5, 6, 7, 8, 9, 10]);
+    expect(readingsOf("main-oil").map((r) => r.journal)).toEqual([1, 2, 3, 4, 5]);
+    // Each record against the revision in force.
+    for (const v of page.records) {
+      const [p] = await db().select().from(procedures).where(eq(procedures.slug, v.procedure.slug));
+      expect(p.publishedRevisionId).toBe(v.revision.id);
+    }
+  });
+
+  it("the build's calculators: bore distortion per cylinder and the clamp load of each stud's torque, on the page and the sheet", async () => {
+    const page = (await buildPage("LEW-24-0117"))!;
+    const distortion = page.calcs.filter((c) => c.kind === "distortion");
+    expect(distortion.map((c) => c.label)).toEqual([1, 2, 3, 4].map((c) => `Bore distortion, Bore diameter, plate fitted, cylinder ${c}`));
+    const bores = page.records.flatMap((v) => v.readings.filter((r) => r.specKey === "bore-dia"));
+    for (const c of distortion) {
+      if (!c.ok || c.kind !== "distortion") throw new Error(`${c.label} refused`);
+      const cyl = Number(c.label.split(" ").at(-1));
+      expect(c.result.levels.map((l) => l.depth_mm)).toEqual([10, 50, 90]);
+      for (const l of c.result.levels) {
+        // docs/calculations.md (Bore distortion): out-of-round at a depth is max − min diameter;
+        // mathjs max/min/subtract on the readings as typed.
+        const at = bores.filter((r) => r.cylinder === cyl && Math.round(r.depthM! * 1000) === l.depth_mm).map((r) => r.valueEntered);
+        expect(at).toHaveLength(4);
+        expect(l.outOfRound_mm).toBeCloseTo(Number(subtract(max(at), min(at))), 9);
+      }
+    }
+
+    const loads = page.calcs.filter((c) => c.kind === "preload");
+    expect(loads).toHaveLength(10);
+    const studs = page.records.find((v) => v.procedure.slug === "head-stud-installation-and-torque-sequence")!;
+    const torques = studs.readings.filter((r) => r.specKey === "studs-final");
+    for (const c of loads) {
+      if (!c.ok || c.kind !== "preload") throw new Error(`${c.label} refused`);
+      const t = torques.find((r) => `stud ${r.fastener}` === c.where)!;
+      expect(c.result.torque_Nm).toBe(t.valueEntered);
+      // Nut-factor short form T = K·F·d (VDI 2230 / ISO 16047), K = 0.18 from the procedure's
+      // preset, d = 12 mm for M12×1.5: F = T / (0.18 × 0.012 m).
+      expect(c.result.preload_N).toBeCloseTo(t.valueEntered / (0.18 * 0.012), 6);
+      expect(c.calculator).toBe("M12×1.5 head studs, moly");
+    }
+    // 110 N·m / (0.18 × 0.012 m) = 50 925.9 N.
+    const stud1 = loads.find((c) => c.label.endsWith("stud 1"))!;
+    expect(calcSummary(stud1)).toBe(
+      "Clamp load, Head stud final torque, stud 1: 110 N·m gives a clamp load of 50.9 kN (M12×1.5 head studs, moly)",
+    );
+
+    const apprentice = await createUser("apprentice");
+    const html = await (await http("/builds/LEW-24-0117", { cookie: apprentice.cookie })).text();
+    expect(html.match(/data-testid="clamp-load"/g)).toHaveLength(10);
+    expect(html).toContain("50.93 kN");
+    expect(html.match(/data-testid="build-calc"/g)).toHaveLength(4);
+    const sheet = await (await http("/builds/LEW-24-0117/sheet", { cookie: apprentice.cookie })).text();
+    expect(sheet).toContain("stud 1: 110 N·m gives a clamp load of 50.9 kN");
+    const pdf = Buffer.from(await (await http("/builds/LEW-24-0117/sheet.pdf", { cookie: apprentice.cookie })).arrayBuffer());
+    const file = path.join(os.tmpdir(), `sheet-0117-${randomUUID().slice(0, 6)}.pdf`);
+    fs.writeFileSync(file, pdf);
+    const text = execFileSync("pdftotext", [file, "-"]).toString().replace(/\s+/g, " ");
+    fs.rmSync(file);
+    expect(text).toContain("gives a clamp load of 50.9 kN");
+  });
+
+  it("piston-to-wall per cylinder from the tightest bore and the piston measured for it", () => {
+    const spec = (id: string, label: string, lo: number | null, hi: number | null) => ({
+      id,
+      label,
+      quantity: "length",
+      unit: "mm",
+      min: lo,
+      max: hi,
+      nominal: null,
+    });
+    const reading = (id: string, specId: string, value: number, cylinder: number) => ({
+      id,
+      specId,
+      valueEntered: value,
+      unitEntered: "mm",
+      noteText: "",
+      cylinder,
+    });
+    const view = {
+      record: { id: "r1" },
+      specs: [
+        spec("b", "Bore diameter", 87.995, 88.01),
+        spec("p", "Piston skirt diameter", null, null),
+        spec("c", "Piston-to-wall clearance", 0.06, 0.08),
+      ],
+      readings: [
+        reading("1", "b", 88.006, 1),
+        reading("2", "b", 88.004, 1),
+        reading("3", "p", 87.934, 1),
+        reading("4", "b", 88.007, 2),
+        reading("5", "p", 87.95, 2),
+      ],
+    } as unknown as TestRecordView;
+    const ptw = buildCalcs([view]).filter((c) => c.kind === "piston-to-wall");
+    expect(ptw.map((c) => c.label)).toEqual(["Piston-to-wall, cylinder 1", "Piston-to-wall, cylinder 2"]);
+    const [one, two] = ptw.map((c) => (c.ok && c.kind === "piston-to-wall" ? c.result : null));
+    // docs/calculations.md (Clearances): clearance = bore − piston; mathjs subtract on the readings.
+    expect(one!.clearance_mm).toBeCloseTo(Number(subtract(88.004, 87.934)), 9);
+    expect(one!.verdict).toBe("within");
+    expect(two!.clearance_mm).toBeCloseTo(Number(subtract(88.007, 87.95)), 9);
+    expect(two!.verdict).toBe("below");
   });
 });

@@ -162,3 +162,62 @@ export function BuildTimeline({ entries }: { entries: BuildPage["timeline"] }) {
     </section>
   );
 }
+
+/**
+ * Each torque reading through the Preload calculator its procedure puts beside the spec: one
+ * table per calculator, a row per fastener, the columns the calculator's own result rows.
+ */
+export function ClampLoads({ calcs }: { calcs: BuildPage["calcs"] }) {
+  const loads = calcs.filter((c) => c.kind === "preload");
+  if (!loads.length) return null;
+  const refused = loads.filter((c) => !c.ok);
+  const groups = new Map<string, Extract<BuildPage["calcs"][number], { kind: "preload"; ok: true }>[]>();
+  for (const c of loads) if (c.ok && c.kind === "preload") groups.set(c.calculator, [...(groups.get(c.calculator) ?? []), c]);
+  return (
+    <div className="border-b border-rule/60 pb-3" data-testid="clamp-loads">
+      <h3 className="font-semibold">Clamp loads from the torques read</h3>
+      {[...groups].map(([title, rows]) => {
+        const columns = rows[0].rows.map((r) => r.label);
+        return (
+          <div key={title} className="mt-2 overflow-x-auto">
+            <p className="text-sm text-graphite-soft">
+              {title}, with the procedure's own preset · <Link to={`/test-records/${rows[0].recordId}`}>from its test record</Link>
+            </p>
+            <table className="num mt-1 w-full text-left text-sm">
+              <thead className="text-xs uppercase tracking-wide text-graphite-soft">
+                <tr>
+                  <th className="py-1 pr-3">Where</th>
+                  {columns.map((c) => (
+                    <th key={c} className="pr-3 text-right">
+                      {c}
+                    </th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {rows.map((c) => (
+                  <tr key={c.label} className="border-t border-rule/60" data-testid="clamp-load">
+                    <td className="py-1 pr-3">{c.where || "—"}</td>
+                    {columns.map((col) => {
+                      const cell = c.rows.find((r) => r.label === col);
+                      return (
+                        <td key={col} className={`pr-3 text-right ${cell?.tone === "bad" ? "font-semibold text-spec-red" : ""}`}>
+                          {cell?.value ?? "—"}
+                        </td>
+                      );
+                    })}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        );
+      })}
+      {refused.map((c) => (
+        <p key={c.label} className="text-sm text-brass">
+          {c.label}: {c.ok ? "" : c.reason}
+        </p>
+      ))}
+    </div>
+  );
+}

@@ -20,21 +20,46 @@ export function StatusBadge({ status }: { status: BuildStatus }) {
   );
 }
 
-/** "2 out of spec · 1 incomplete", or a calm "all within spec" / "nothing filed yet". */
+/**
+ * The build's test records by verdict: "1 record within spec", "3 records: 2 within, 1 out of
+ * spec", "1 record out of spec", or "no test record filed yet".
+ */
 export function CountsLine({ counts }: { counts: { records: number; out: number; incomplete: number } }) {
-  if (!counts.records) return <span className="text-graphite-soft">nothing filed yet</span>;
+  if (!counts.records) return <span className="text-graphite-soft">no test record filed yet</span>;
+  const within = counts.records - counts.out - counts.incomplete;
+  const records = counts.records === 1 ? "1 record" : `${counts.records} records`;
+  if (!counts.out && !counts.incomplete)
+    return (
+      <span className="num whitespace-nowrap text-ok" data-testid="counts-line">
+        {counts.records === 1 ? "1 record within spec" : `${records}, all within spec`}
+      </span>
+    );
+  if (counts.records === 1)
+    return counts.out ? (
+      <strong className="num whitespace-nowrap text-spec-red" data-testid="out-count">
+        1 record out of spec
+      </strong>
+    ) : (
+      <span className="num whitespace-nowrap text-brass" data-testid="counts-line">
+        1 record incomplete
+      </span>
+    );
+  const parts = [
+    within > 0 && <span key="within">{within} within</span>,
+    counts.out > 0 && (
+      <strong key="out" className="text-spec-red" data-testid="out-count">
+        {counts.out} out of spec
+      </strong>
+    ),
+    counts.incomplete > 0 && (
+      <span key="incomplete" className="text-brass">
+        {counts.incomplete} incomplete
+      </span>
+    ),
+  ].filter(Boolean);
   return (
-    <span className="num whitespace-nowrap">
-      {counts.out > 0 && (
-        <strong className="text-spec-red" data-testid="out-count">
-          {counts.out} out of spec
-        </strong>
-      )}
-      {counts.out > 0 && counts.incomplete > 0 && " · "}
-      {counts.incomplete > 0 && <span className="text-brass">{counts.incomplete} incomplete</span>}
-      {!counts.out && !counts.incomplete && (
-        <span className="text-ok">{counts.records === 1 ? "1 within spec" : `all ${counts.records} within spec`}</span>
-      )}
+    <span className="num whitespace-nowrap" data-testid="counts-line">
+      {records}: {parts.flatMap((p, i) => (i ? [", ", p] : [p]))}
     </span>
   );
 }

@@ -40,17 +40,32 @@ export async function getBuild(id: string, h: DbOrTx = db()): Promise<BuildWithL
   return r ? flat(r) : null;
 }
 
+type ListOptions = {
+  status?: readonly BuildStatus[];
+  limit?: number;
+  /** Builds with more test records out of spec first, before the limit cuts the list. */
+  outOfSpecFirst?: boolean;
+};
+
+/** Test records of the build out of spec, for ordering in SQL (the limit comes after it). */
+const outCount = sql`(select count(*) from ${testRecords} where ${testRecords.buildId} = ${builds.id} and ${testRecords.verdict} = 'out')`;
+
 /**
  * Builds, the ones still in the shop first (Open, On the bench, Finished), each group most
  * recently changed first. `status` narrows to those states.
  */
-export async function listBuilds(opts: { status?: readonly BuildStatus[]; limit?: number } = {}): Promise<BuildWithLead[]> {
+export async function listBuilds(opts: ListOptions = {}): Promise<BuildWithLead[]> {
   const rows = await db()
     .select(withLead)
     .from(builds)
     .leftJoin(users, eq(users.id, builds.leadBuilderId))
     .where(opts.status?.length ? inArray(builds.status, [...opts.status]) : undefined)
-    .orderBy(sql`${builds.status} = 'delivered'`, desc(builds.updatedAt), asc(builds.number))
+    .orderBy(
+      ...(opts.outOfSpecFirst ? [desc(outCount)] : []),
+      sql`${builds.status} = 'delivered'`,
+      desc(builds.updatedAt),
+      asc(builds.number),
+    )
     .limit(opts.limit ?? 500);
   return rows.map(flat);
 }
@@ -74,7 +89,7 @@ export async function recordCounts(buildIds: string[]): Promise<Map<string, { re
 }
 
 /** Builds with their record counts, for the list and the Shop floor. */
-export async function buildSummaries(opts: { status?: readonly BuildStatus[]; limit?: number } = {}) {
+export async function buildSummaries(opts: ListOptions = {}) {
   const list = await listBuilds(opts);
   const counts = await recordCounts(list.map((b) => b.id));
   return list.map((b) => ({ ...b, counts: counts.get(b.id) ?? { records: 0, out: 0, incomplete: 0 } }));

@@ -1,8 +1,13 @@
-import { asc, desc, eq } from "drizzle-orm";
-import { buildEvents, marks, recordings, testRecords, users } from "~/db/schema";
-import type { ClearanceResult, DistortionResult } from "~/lib/calc";
+import { asc, desc, eq, inArray } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { buildEvents, marks, procedureRevisions, procedures, recordings, runs, testRecords, users } from "~/db/schema";
+import { calculatePreload, type ClearanceResult, type DistortionResult, type PreloadInput, type PreloadResult } from "~/lib/calc";
 import { db } from "~/lib/db.server";
+import type { ResultRow } from "~/lib/procedures/calc-presets";
+import type { JSONNode } from "~/lib/procedures/document";
 import { positionText } from "~/lib/recordings/positions";
+import { prefillCalculator } from "~/lib/runs/prefill";
+import { type RunCalculator, runSteps } from "~/lib/runs/steps";
 import {
   boreGroups,
   distortionPlaces,
@@ -38,7 +43,21 @@ export type OutOfSpec = {
 export type BuildCalc =
   | { kind: "distortion"; label: string; recordId: string; ok: true; result: DistortionResult }
   | { kind: "piston-to-wall"; label: string; recordId: string; ok: true; result: ClearanceResult }
-  | { kind: "distortion" | "piston-to-wall"; label: string; recordId: string; ok: false; reason: string };
+  | {
+      kind: "preload";
+      label: string;
+      recordId: string;
+      ok: true;
+      result: PreloadResult;
+      /** Where the torque was read ("stud 4") and the calculator block it went through. */
+      where: string;
+      calculator: string;
+      rows: ResultRow[];
+    }
+  | { kind: "distortion" | "piston-to-wall" | "preload"; label: string; recordId: string; ok: false; reason: string };
+
+/** Per spec id: the Preload calculator its procedure revision puts beside it. */
+type PreloadCalculators = Map<string, RunCalculator>;
 
 export type TimelineEntry = { at: Date; who: string | null; what: string; href?: string };
 
@@ -58,11 +77,58 @@ function stored(r: RecordReading): StoredReading & RecordReading {
 }
 
 /**
- * The build's calculators on its own readings: Bore distortion per cylinder of each bore spec
- * whose diameters carry a depth and an angle, and piston-to-wall per cylinder from the tightest
- * bore (the smallest diameter measured in that cylinder) and the piston measured for it.
+ * The Preload calculator each torque spec of these records is worked with: the one in the step
+ * that measures it (app/lib/runs/steps.ts cuts the revision as a run does), else the revision's
+ * only one. A calculator that turns a preload into a torque has no clamp load to show.
  */
-export function buildCalcs(records: TestRecordView[]): BuildCalc[] {
+async function preloadCalculators(records: TestRecordView[]): Promise<PreloadCalculators> {
+  const out: PreloadCalculators = new Map();
+  const revisionIds = [...new Set(records.filter((v) => v.specs.some((s) => s.quantity === "torque")).map((v) => v.revision.id))];
+  if (!revisionIds.length) return out;
+  const docs = await db()
+    .select({ id: procedureRevisions.id, doc: procedureRevisions.doc })
+    .from(procedureRevisions)
+    .where(inArray(procedureRevisions.id, revisionIds));
+  for (const { id, doc } of docs) {
+    const steps = runSteps(doc as JSONNode);
+    const isPreload = (c: RunCalculator) => c.kind === "preload" && c.preset.direction === "torque-to-preload";
+    const all = steps.flatMap((st) => st.calculators).filter(isPreload);
+    for (const v of records.filter((r) => r.revision.id === id))
+      for (const spec of v.specs.filter((s) => s.quantity === "torque")) {
+        const inStep = steps.find((st) => st.specKeys.includes(spec.specKey))?.calculators.find(isPreload);
+        const calc = inStep ?? (all.length === 1 ? all[0] : undefined);
+        if (calc) out.set(spec.id, calc);
+      }
+  }
+  return out;
+}
+
+/** A torque reading through its Preload calculator: the block's own preset, the torque as read. */
+function preloadCalc(v: TestRecordView, spec: SpecLimits, r: StoredReading, calculator: RunCalculator): BuildCalc {
+  const where = positionText(r, ", ");
+  const label = `Clamp load, ${spec.label}${where ? `, ${where}` : ""}`;
+  const filled = prefillCalculator(calculator, [{ label: spec.label, quantity: "torque", value: r.valueEntered, unit: r.unitEntered }]);
+  const base = { kind: "preload" as const, label, recordId: v.record.id };
+  if (!filled.filled.length) return { ...base, ok: false, reason: "The calculator has no torque to take this reading." };
+  if (!filled.outcome.ok) return { ...base, ok: false, reason: filled.outcome.message };
+  return {
+    ...base,
+    ok: true,
+    // The preset has just passed the calculator's schema in runCalculator.
+    result: calculatePreload(filled.calculator.preset as PreloadInput),
+    where,
+    calculator: calculator.title,
+    rows: filled.outcome.rows,
+  };
+}
+
+/**
+ * The build's calculators on its own readings: Bore distortion per cylinder of each bore spec
+ * whose diameters carry a depth and an angle, piston-to-wall per cylinder from the tightest
+ * bore (the smallest diameter measured in that cylinder) and the piston measured for it, and
+ * the clamp load of each torque reading whose spec has a Preload calculator (`preloads`).
+ */
+export function buildCalcs(records: TestRecordView[], preloads: PreloadCalculators = new Map()): BuildCalc[] {
   const out: BuildCalc[] = [];
   const bores: { r: StoredReading; recordId: string }[] = [];
   const pistons: { r: StoredReading; recordId: string; clearance: SpecLimits | null }[] = [];
@@ -100,6 +166,8 @@ export function buildCalcs(records: TestRecordView[]): BuildCalc[] {
       const s = specs.find((x) => x.id === r.specId);
       if (s && isBoreSpec(s)) bores.push({ r, recordId: v.record.id });
       if (s && isPistonSpec(s)) pistons.push({ r, recordId: v.record.id, clearance });
+      const preload = s && preloads.get(s.id);
+      if (s && preload) out.push(preloadCalc(v, s, r, preload));
     }
   }
   const cylinders = [...new Set(pistons.map((p) => p.r.cylinder ?? null))].sort((a, b) => (a ?? Infinity) - (b ?? Infinity));
@@ -141,8 +209,57 @@ function outOfSpec(records: TestRecordView[]): OutOfSpec[] {
   );
 }
 
+const runEnder = alias(users, "run_ender");
+
+/** The build's runs with who started and who ended each, for the timeline. */
+function runsOf(buildId: string) {
+  return db()
+    .select({
+      id: runs.id,
+      status: runs.status,
+      startedAt: runs.startedAt,
+      endedAt: runs.endedAt,
+      abandonReason: runs.abandonReason,
+      testRecordId: runs.testRecordId,
+      procedureTitle: procedures.title,
+      revisionNumber: procedureRevisions.number,
+      startedBy: users.name,
+      endedBy: runEnder.name,
+    })
+    .from(runs)
+    .innerJoin(procedures, eq(procedures.id, runs.procedureId))
+    .innerJoin(procedureRevisions, eq(procedureRevisions.id, runs.revisionId))
+    .leftJoin(users, eq(users.id, runs.startedBy))
+    .leftJoin(runEnder, eq(runEnder.id, runs.endedBy))
+    .where(eq(runs.buildId, buildId));
+}
+
+type RunRow = Awaited<ReturnType<typeof runsOf>>[number];
+
+/** A run's start and, once it has one, its end: who, when, which procedure (and revision). */
+function runTimeline(r: RunRow): TimelineEntry[] {
+  const which = `${r.procedureTitle} (revision ${r.revisionNumber})`;
+  const href = `/runs/${r.id}`;
+  const out: TimelineEntry[] = [{ at: r.startedAt, who: r.startedBy, what: `Started a run of ${which}`, href }];
+  if (r.endedAt && r.status === "finished")
+    out.push({
+      at: r.endedAt,
+      who: r.endedBy,
+      what: `Finished the run of ${which}, filing its test record`,
+      href: r.testRecordId ? `/test-records/${r.testRecordId}` : href,
+    });
+  if (r.endedAt && r.status === "abandoned")
+    out.push({
+      at: r.endedAt,
+      who: r.endedBy,
+      what: `Stopped the run of ${which}${r.abandonReason ? `: ${r.abandonReason}` : ""}`,
+      href,
+    });
+  return out;
+}
+
 async function attached(buildId: string) {
-  const [recs, mks, events] = await Promise.all([
+  const [recs, mks, events, runRows] = await Promise.all([
     db()
       .select({
         id: recordings.id,
@@ -177,8 +294,9 @@ async function attached(buildId: string) {
       .leftJoin(users, eq(users.id, buildEvents.actorId))
       .where(eq(buildEvents.buildId, buildId))
       .orderBy(desc(buildEvents.at)),
+    runsOf(buildId),
   ]);
-  return { recordings: recs, marks: mks, events };
+  return { recordings: recs, marks: mks, events, runs: runRows };
 }
 
 /** Where an attach or detach event's recording or mark is (other events have no address). */
@@ -218,6 +336,7 @@ export async function buildPage(number: string) {
   const build = await getBuildByNumber(number);
   if (!build) return null;
   const [records, more] = await Promise.all([recordsOf(build.id), attached(build.id)]);
+  const preloads = await preloadCalculators(records);
   const timeline: TimelineEntry[] = [
     ...more.events.map(({ e, by }) => ({ at: e.at, who: by, what: eventText(e.kind, e.detail), href: eventHref(e.detail) })),
     ...records.map((v) => ({
@@ -235,6 +354,7 @@ export async function buildPage(number: string) {
       })),
     ),
     ...more.recordings.map((r) => ({ at: r.createdAt, who: r.by, what: `Recorded “${r.title}”`, href: `/recordings/${r.id}` })),
+    ...more.runs.flatMap(runTimeline),
     ...more.marks.map((m) => ({
       at: m.createdAt,
       who: m.by,
@@ -256,7 +376,7 @@ export async function buildPage(number: string) {
     records,
     outOfSpec: outOfSpec(records),
     incomplete,
-    calcs: buildCalcs(records),
+    calcs: buildCalcs(records, preloads),
     recordings: more.recordings,
     marks: more.marks,
     timeline,

@@ -47,6 +47,8 @@ export function calcSummary(c: BuildPage["calcs"][number]): string | null {
     const worst = Math.max(...c.result.levels.map((l) => l.outOfRound_mm));
     return `${c.label}: out-of-round up to ${worst.toFixed(4)} mm over ${c.result.levels.length} depth(s)`;
   }
+  if (c.kind === "preload")
+    return `${c.label}: ${c.result.torque_Nm.toFixed(0)} N·m gives a clamp load of ${(c.result.preload_N / 1000).toFixed(1)} kN (${c.calculator})`;
   const v = c.result.verdict;
   return `${c.label}: clearance ${c.result.clearance_mm.toFixed(4)} mm${v ? ` (${v === "within" ? "within its spec" : `${v} its spec`})` : ""}`;
 }

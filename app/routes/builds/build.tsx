@@ -1,6 +1,6 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/build";
-import { BuildOverview, BuildTimeline, OutOfSpecList, RecordsByProcedure } from "~/components/builds/BuildSections";
+import { BuildOverview, BuildTimeline, ClampLoads, OutOfSpecList, RecordsByProcedure } from "~/components/builds/BuildSections";
 import { StatusBadge } from "~/components/builds/parts";
 import { buildSheetPdf } from "~/components/builds/sheet-pdf.server";
 import { FormError } from "~/components/forms";
@@ -239,24 +239,27 @@ export default function BuildPage({ loaderData, actionData }: Route.ComponentPro
             Calculators on this build's readings
           </h2>
           {calcs.length ? (
-            calcs.map((c) => (
-              <div key={c.label} className="border-b border-rule/60 pb-3 last:border-0" data-testid="build-calc">
-                <p className="font-semibold">
-                  {c.label} · <Link to={`/test-records/${c.recordId}`}>from its test record</Link>
-                </p>
-                {c.ok ? (
-                  <CalcResult kind={c.kind === "distortion" ? "distortion" : "clearance"} result={c.result} />
-                ) : (
-                  <p className="text-sm text-brass">{c.reason}</p>
-                )}
-              </div>
-            ))
+            calcs.map((c) =>
+              c.kind === "preload" ? null : (
+                <div key={c.label} className="border-b border-rule/60 pb-3 last:border-0" data-testid="build-calc">
+                  <p className="font-semibold">
+                    {c.label} · <Link to={`/test-records/${c.recordId}`}>from its test record</Link>
+                  </p>
+                  {c.ok ? (
+                    <CalcResult kind={c.kind === "distortion" ? "distortion" : "clearance"} result={c.result} />
+                  ) : (
+                    <p className="text-sm text-brass">{c.reason}</p>
+                  )}
+                </div>
+              ),
+            )
           ) : (
             <p className="text-sm text-graphite-soft">
               No calculator applies yet: Bore distortion needs three or more bore diameters of a cylinder with their depth and angle,
               piston-to-wall a bore and a piston reading of the same cylinder.
             </p>
           )}
+          <ClampLoads calcs={calcs} />
           <p className="text-xs text-graphite-soft">{CALC_CAUTION}</p>
         </section>
 
