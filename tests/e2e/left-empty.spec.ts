@@ -78,6 +78,9 @@ test("a stud left empty on the run: the record says which, stays Incomplete, and
   await page.goto(`/builds/${number}/sheet`);
   await expect(page.getByTestId("left-empty")).toHaveText(/stud 2, left empty on the run/);
   await lookAt(page, "sheet-left-empty");
+  const pdf = await page.request.get(`/builds/${number}/sheet.pdf`);
+  expect(pdf.headers()["content-type"]).toContain("application/pdf");
+  if (process.env.SCREENSHOTS) fs.writeFileSync(`${process.env.SCREENSHOTS}/sheet-left-empty.pdf`, await pdf.body());
 
   // QC amends: the empty stud waits as its own row; typing its value fills it.
   const qc = await context.browser()!.newContext({ viewport: { width: 768, height: 1024 } });
