@@ -177,7 +177,12 @@ describe("specVerdict and evaluateRecord", () => {
       withEmptyPlaces(rs, empty).map((x) => ("r" in x ? x.r.id : `empty ${x.place.n}`));
     expect(order([{ field: "cylinder", n: 3 }])).toEqual(["r1", "r2", "empty 3", "r4"]);
     expect(order([{ field: "cylinder", n: 5 }])).toEqual(["r1", "r2", "r4", "empty 5"]);
-    expect(order([{ field: "cylinder", n: 0 }])).toEqual(["empty 0", "r1", "r2", "r4"]);
+    const from2 = [2, 3].map((cylinder) => ({ id: `r${cylinder}`, cylinder }));
+    expect(withEmptyPlaces(from2, [{ field: "cylinder", n: 1 }]).map((x) => ("r" in x ? x.r.id : "empty 1"))).toEqual([
+      "empty 1",
+      "r2",
+      "r3",
+    ]);
   });
 
   it("has no verdict at all when nothing was measured", () => {
