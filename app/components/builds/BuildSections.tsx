@@ -177,7 +177,8 @@ export function ClampLoads({ calcs }: { calcs: BuildPage["calcs"] }) {
     <div className="border-b border-rule/60 pb-3" data-testid="clamp-loads">
       <h3 className="font-semibold">Clamp loads from the torques read</h3>
       {[...groups].map(([title, rows]) => {
-        const columns = rows[0].rows.map((r) => r.label);
+        // The torque is what was read, so it comes first; the calculator's figures follow it.
+        const columns = rows[0].rows.map((r) => r.label).sort((a, b) => Number(b === "Torque") - Number(a === "Torque"));
         return (
           <div key={title} className="mt-2 overflow-x-auto">
             <p className="text-sm text-graphite-soft">
@@ -213,6 +214,10 @@ export function ClampLoads({ calcs }: { calcs: BuildPage["calcs"] }) {
           </div>
         );
       })}
+      <p className="mt-1 text-xs text-graphite-soft">
+        Worked from each torque as read, with the nut factor the procedure assumes: another lubricant or a dirty thread gives a different
+        clamp load at the same torque.
+      </p>
       {refused.map((c) => (
         <p key={c.label} className="text-sm text-brass">
           {c.label}: {c.ok ? "" : c.reason}

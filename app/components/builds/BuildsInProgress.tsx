@@ -43,7 +43,7 @@ export function BuildsInProgress({ rows, openRuns }: { rows: Row[]; openRuns: Ru
         Builds in progress
       </h2>
       <p className="text-sm text-graphite-soft">
-        Engines in the shop, those with readings out of spec first. <Link to="/builds">All builds</Link>
+        Engines in the shop, those with most records out of spec first, with their open runs. <Link to="/builds">All builds</Link>
       </p>
       <ul className="mt-2 divide-y divide-rule/60">
         {rows.map((b) => (
