@@ -184,7 +184,7 @@ test("QC files a test record from a procedure, sees the verdict, and the procedu
       await honing.first().click();
       const d = page
         .locator("details")
-        .filter({ has: page.locator("summary", { hasText: /Bore distortion from the 8 readings of .*, cyl 1$/ }) });
+        .filter({ has: page.locator("summary", { hasText: /Bore distortion from the 12 readings of .*, cyl 1$/ }) });
       await d.locator("summary").click();
       await d.getByRole("button", { name: "Run Bore distortion" }).click();
       await expect(page.getByTestId("flash")).toContainText("Bore distortion computed");

@@ -241,7 +241,7 @@ describe("migration 0022: the place out of an old label", () => {
     const [rec] = await db()
       .select()
       .from(testRecords)
-      .where(eq(testRecords.title, "Bore finish after torque-plate honing, cylinders 1–2"));
+      .where(eq(testRecords.title, "Bore finish after torque-plate honing, all four cylinders"));
     const [first] = await db()
       .select()
       .from(testRecordReadings)
