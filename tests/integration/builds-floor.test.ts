@@ -90,7 +90,8 @@ describe("builds on the Shop floor and runs on the timeline", () => {
     expect(filed.status).toBe(302);
     await db().update(builds).set({ updatedAt: sql`now() - interval '2 years'` }).where(eq(builds.id, old.id));
 
-    const rows = floorRows(await (await http("/", { cookie: qc.cookie })).text());
+    const html = await (await http("/", { cookie: qc.cookie })).text();
+    const rows = floorRows(html);
     expect(rows).toHaveLength(12);
     // Out of spec first, in the order shown…
     for (let i = 1; i < rows.length; i++) expect(rows[i - 1].out).toBeGreaterThanOrEqual(rows[i].out);
@@ -106,7 +107,10 @@ describe("builds on the Shop floor and runs on the timeline", () => {
     expect(counts.get(old.id)?.out).toBe(1);
     // With fewer than twelve builds out of spec in the shop, every one of them is on the list.
     const outInShop = inShop.filter((x) => (counts.get(x.id)?.out ?? 0) > 0).map((x) => x.number);
-    if (outInShop.length < 12) expect(rows.map((r) => r.number)).toEqual(expect.arrayContaining(outInShop));
+    if (outInShop.length < 12) {
+      expect(rows.map((r) => r.number)).toEqual(expect.arrayContaining(outInShop));
+      expect(floorRow(html, old.number)).toContain("1 record out of spec");
+    }
   });
 
   it("each build in progress shows its open runs and how much of them is measured; a run's start, finish and stop are on the timeline", async () => {
@@ -149,6 +153,8 @@ describe("builds on the Shop floor and runs on the timeline", () => {
     const floor = await (await http("/", { cookie: qc.cookie })).text();
     const row = floorRow(floor, build.number);
     expect(row).toContain(`2 runs open · ${measured} of ${total} measured`);
+    // The counts speak of records: the finished run filed one, Incomplete (one stud of ten measured).
+    expect(row).toContain("1 record incomplete");
 
     const all = await listRunsForBuild(build.id);
     const which = (id: string) => {
