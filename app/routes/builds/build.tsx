@@ -256,7 +256,8 @@ export default function BuildPage({ loaderData, actionData }: Route.ComponentPro
           ) : (
             <p className="text-sm text-graphite-soft">
               No calculator applies yet: Bore distortion needs three or more bore diameters of a cylinder with their depth and angle,
-              piston-to-wall a bore and a piston reading of the same cylinder.
+              piston-to-wall a bore and a piston reading of the same cylinder, a clamp load a torque read where the procedure has a Preload
+              calculator.
             </p>
           )}
           <ClampLoads calcs={calcs} />
