@@ -129,6 +129,7 @@ test("a bore read in its Bore distortion grid cylinder by cylinder, with the net
   // Each diameter is judged against the bore's limits as it is typed.
   await cell(1, 10, 45).fill("88.012");
   await expect(bore.getByTestId("grid-cell").nth(1).getByTestId("entry-verdict")).toHaveText(/Out: above max/);
+  await expect(page.getByTestId("partial-grids")).toContainText("Bore diameter, plate fitted, Cyl 1 (1 of 8)");
   // Kept as typed (then corrected below: the later typing at that place wins).
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
   const typeCylinder = async (n: number, top: number[], low: number[]) => {
@@ -139,6 +140,7 @@ test("a bore read in its Bore distortion grid cylinder by cylinder, with the net
   };
   await typeCylinder(1, [88.006, 88.009, 88.008, 88.003], [88.004, 88.008, 88.007, 88.001]);
   await expect(bore.getByTestId("grid-cell").nth(1).getByTestId("entry-verdict")).toHaveText("Within");
+  await expect(page.getByTestId("partial-grids")).toHaveCount(0);
   // The cylinder's distortion from these numbers: out-of-round is the largest minus the smallest
   // diameter at a depth (88.009 − 88.003, 88.008 − 88.001), taper the spread of the depths' means.
   const result = bore.getByTestId("step-calculator");

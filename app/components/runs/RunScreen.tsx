@@ -226,13 +226,22 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   }, [run.id, flush]);
 
   function keep(slot: Slot, text: string) {
-    setTyping((t) => {
-      const next = new Set(t);
-      next.delete(slot.key);
-      return next;
-    });
+    timers.current.delete(slot.key);
+    // The field stops being "typed in" only once its entry is in the device's queue, in the same
+    // render: in between, the screen would say every entry is saved while this one is not kept yet.
+    // A field typed in again meanwhile has a new pause running and stays "typed in".
+    const kept = () =>
+      setTyping((t) => {
+        if (timers.current.has(slot.key)) return t;
+        const next = new Set(t);
+        next.delete(slot.key);
+        return next;
+      });
     const value = parseNumber(text);
-    if (value !== undefined && Number.isNaN(value)) return;
+    if (value !== undefined && Number.isNaN(value)) {
+      kept();
+      return;
+    }
     const entry: QueuedEntry = {
       key: newKey(),
       specKey: slot.spec.key,
@@ -245,6 +254,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
     };
     void addWaiting(run.id, entry).then((list) => {
       setWaiting(list);
+      kept();
       if (navigator.onLine) void flush();
     });
   }
@@ -322,6 +332,24 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   }
   const places = placesBySpec(specs, view.build, typedLatest);
   const progress = progressOf(places);
+  // Cylinders whose distortion grid is begun and not full: filed as they are, and said before finishing.
+  const partialGrids = steps.flatMap((st) => {
+    const g = stepGrid(st.calculators);
+    if (!g) return [];
+    return st.specKeys
+      .map((k) => specByKey.get(k))
+      .filter((s): s is Spec => Boolean(s) && s?.field === "cylinder" && takesGrid(s))
+      .flatMap((s) =>
+        slotsOf(s).flatMap((sl) => {
+          const cells = gridCells(g.grid, sl.place?.cylinder as number);
+          const typed = cells.filter((c) => {
+            const v = parseNumber(texts[placeKey(s.key, c.place)]);
+            return v !== undefined && !Number.isNaN(v);
+          }).length;
+          return typed > 0 && typed < cells.length ? [`${s.label}, ${sl.label} (${typed} of ${cells.length})`] : [];
+        }),
+      );
+  });
   const missingPlaces = places.reduce((n, p) => n + (p.offered.length && p.missing.length < p.offered.length ? p.missing.length : 0), 0);
 
   const step = steps[stepAt];
@@ -511,6 +539,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
           total={progress.total}
           evaluation={evaluation}
           unsent={unsent + unsentPhotos}
+          partialGrids={partialGrids}
           actionData={actionData}
         />
       )}
@@ -932,6 +961,7 @@ function FinishPanel({
   total,
   evaluation,
   unsent,
+  partialGrids,
   actionData,
 }: {
   measured: number;
@@ -939,6 +969,7 @@ function FinishPanel({
   total: number;
   evaluation: ReturnType<typeof evaluateRecord> | null;
   unsent: number;
+  partialGrids: string[];
   actionData: Props["actionData"];
 }) {
   const busy = useNavigation().state === "submitting";
@@ -956,6 +987,11 @@ function FinishPanel({
           : "Every spec has a value at every place offered."}{" "}
         Now: <VerdictBadge verdict={evaluation?.verdict ?? null} notMeasured={evaluation?.counts.notMeasured ?? 0} />
       </p>
+      {partialGrids.length > 0 && (
+        <p className="text-sm" data-testid="partial-grids">
+          {`Distortion grids not full, filed with the diameters typed: ${partialGrids.join("; ")}.`}
+        </p>
+      )}
       <Form method="post" className="space-y-3" noValidate>
         <input type="hidden" name="intent" value="finish" />
         {actionData?.intent === "finish" && <FormError message={errors.form} />}

@@ -5,7 +5,7 @@
  * batch sent twice (the answer lost on the way back) is stored once on the server. Photos wait
  * the same way, as Blobs in a store of their own, each with its key (sent once, like entries).
  */
-import { createStore, get, set, type UseStore } from "idb-keyval";
+import { createStore, get, type UseStore, update } from "idb-keyval";
 import type { EntryInput, Place } from "~/lib/runs/entries";
 
 export type QueuedEntry = EntryInput & { refused?: string };
@@ -23,21 +23,35 @@ const photoDb = () => {
 };
 const keyOf = (runId: string) => `run:${runId}`;
 
+/**
+ * Changes a run's list in one IndexedDB transaction (idb-keyval's update). A read, then a write,
+ * would lose an entry: two fields kept a moment apart, or a send's removal while a field is
+ * kept, each read the same list and the later write drops the other's change.
+ */
+async function change<T>(runId: string, store: UseStore, fn: (list: T[]) => T[]): Promise<T[]> {
+  let out: T[] = [];
+  await update<T[]>(
+    keyOf(runId),
+    (old) => {
+      out = fn(old ?? []);
+      return out;
+    },
+    store,
+  );
+  return out;
+}
+
 export async function waitingEntries(runId: string): Promise<QueuedEntry[]> {
   return (await get<QueuedEntry[]>(keyOf(runId), db())) ?? [];
 }
 
-export async function addWaiting(runId: string, entry: QueuedEntry): Promise<QueuedEntry[]> {
-  const list = [...(await waitingEntries(runId)), entry];
-  await set(keyOf(runId), list, db());
-  return list;
+export function addWaiting(runId: string, entry: QueuedEntry): Promise<QueuedEntry[]> {
+  return change<QueuedEntry>(runId, db(), (list) => [...list, entry]);
 }
 
 /** Takes the entries the server answered for out of the queue (others may have been added meanwhile). */
-export async function removeWaiting(runId: string, keys: Set<string>): Promise<QueuedEntry[]> {
-  const list = (await waitingEntries(runId)).filter((e) => !keys.has(e.key));
-  await set(keyOf(runId), list, db());
-  return list;
+export function removeWaiting(runId: string, keys: Set<string>): Promise<QueuedEntry[]> {
+  return change<QueuedEntry>(runId, db(), (list) => list.filter((e) => !keys.has(e.key)));
 }
 
 export type SendOutcome =
@@ -83,27 +97,21 @@ export async function waitingPhotos(runId: string): Promise<QueuedPhoto[]> {
   return (await get<QueuedPhoto[]>(keyOf(runId), photoDb())) ?? [];
 }
 
-export async function addWaitingPhoto(runId: string, photo: QueuedPhoto): Promise<QueuedPhoto[]> {
-  const list = [...(await waitingPhotos(runId)), photo];
-  await set(keyOf(runId), list, photoDb());
-  return list;
+export function addWaitingPhoto(runId: string, photo: QueuedPhoto): Promise<QueuedPhoto[]> {
+  return change<QueuedPhoto>(runId, photoDb(), (list) => [...list, photo]);
 }
 
 /** Takes a photo out of the queue once the server answered for it, or marks it refused (kept, to be seen). */
-export async function settlePhoto(runId: string, key: string, refused?: string): Promise<QueuedPhoto[]> {
-  const list = (await waitingPhotos(runId)).flatMap((p) => (p.key !== key ? [p] : refused ? [{ ...p, refused }] : []));
-  await set(keyOf(runId), list, photoDb());
-  return list;
+export function settlePhoto(runId: string, key: string, refused?: string): Promise<QueuedPhoto[]> {
+  return change<QueuedPhoto>(runId, photoDb(), (list) => list.flatMap((p) => (p.key !== key ? [p] : refused ? [{ ...p, refused }] : [])));
 }
 
 /**
  * Takes a photo off the device for good: one the server refused (too large, not a picture, the
  * run closed) would otherwise wait there for ever, since sending it again is refused again.
  */
-export async function discardPhoto(runId: string, key: string): Promise<QueuedPhoto[]> {
-  const list = (await waitingPhotos(runId)).filter((p) => p.key !== key);
-  await set(keyOf(runId), list, photoDb());
-  return list;
+export function discardPhoto(runId: string, key: string): Promise<QueuedPhoto[]> {
+  return change<QueuedPhoto>(runId, photoDb(), (list) => list.filter((p) => p.key !== key));
 }
 
 /** Sends one waiting photo under its key (a resend after a lost answer is stored once). */
