@@ -190,6 +190,8 @@ describe("test records", () => {
     expect(page).toContain("Out of spec");
     expect(page).toContain("Not measured: Out-of-round");
     expect(page).toContain("above max");
+    // A reading typed in inches: the table gains its "In spec unit" column.
+    expect(page).toContain("In spec unit");
   });
 
   it("answers bad input with field messages and keeps what was typed", async () => {
@@ -225,9 +227,11 @@ describe("test records", () => {
     const complete = idFrom(await file(qc, form(fx.rev.id, all)));
     const [done] = await db().select().from(testRecords).where(eq(testRecords.id, complete));
     expect(done.verdict).toBe("within");
-    expect(await textOf(await http(`/test-records/${complete}`, { cookie: qc.cookie }))).toContain(
-      "Every spec of the revision was measured.",
-    );
+    const completePage = await textOf(await http(`/test-records/${complete}`, { cookie: qc.cookie }));
+    expect(completePage).toContain("Every spec of the revision was measured.");
+    // Every reading in its spec's own unit: no empty "In spec unit" column squeezing "Where".
+    expect(completePage).toContain("Limits (filed revision)");
+    expect(completePage).not.toContain("In spec unit");
 
     const partial = Object.fromEntries(Object.entries(all).filter(([k]) => !k.startsWith(`r.${fx.specs.gap.id}.`)));
     const wo = workOrder();

@@ -210,7 +210,7 @@ export function ReadingsEditor({
                   {s.note && <> · {s.note}</>}
                 </p>
               </div>
-              <SpecVerdictTag verdict={ev.verdict} />
+              <SpecVerdictTag verdict={ev.verdict} places={ev.emptyPlaces} />
             </div>
             <div className="mt-2 space-y-2">
               {(rows[s.id] ?? []).map((r, i) => {

@@ -55,6 +55,10 @@ export function ReadingsTable({
   recording?: { id: string } | null;
   missingPlaces?: EmptyPlace[];
 }) {
+  // Its own column only when some reading was typed in another unit than its spec's: otherwise
+  // it stays empty and squeezes "Where" at tablet width.
+  const converted = readings.some((r) => r.unitEntered !== specs.find((s) => s.id === r.specId)?.unit);
+  const valueCols = converted ? 3 : 2;
   return (
     <table className="readings-table w-full text-left text-sm" data-testid="readings-table">
       <thead className="border-y border-rule bg-paper-deep/60 text-xs uppercase tracking-wide text-graphite-soft">
@@ -63,7 +67,7 @@ export function ReadingsTable({
           <th className="px-3 py-1.5">Limits (filed revision)</th>
           {currentSpecs && <th className="px-3 py-1.5">Limits now (rev. {currentNumber})</th>}
           <th className="px-3 py-1.5 text-right">Reading</th>
-          <th className="px-3 py-1.5 text-right">In spec unit</th>
+          {converted && <th className="px-3 py-1.5 text-right">In spec unit</th>}
           <th className="px-3 py-1.5">Verdict</th>
           <th className="px-3 py-1.5">Where</th>
         </tr>
@@ -80,7 +84,7 @@ export function ReadingsTable({
             <td className="px-3 py-1.5 align-top font-semibold" rowSpan={span}>
               {s.label}
               <div className="font-normal">
-                <SpecVerdictTag verdict={sv} />
+                <SpecVerdictTag verdict={sv} places={empty.length} />
               </div>
             </td>
             <td className="num whitespace-nowrap px-3 py-1.5 align-top" rowSpan={span}>
@@ -99,7 +103,7 @@ export function ReadingsTable({
               "place" in item ? (
                 <tr key={`${item.place.field}${item.place.n}`} data-testid="left-empty">
                   {i === 0 && head}
-                  <td className="px-3 py-1 text-right italic text-brass" colSpan={3}>
+                  <td className="px-3 py-1 text-right italic text-brass" colSpan={valueCols}>
                     not measured
                   </td>
                   <td className="px-3 py-1 font-sans text-graphite-soft">
@@ -112,9 +116,11 @@ export function ReadingsTable({
                   <td className="whitespace-nowrap px-3 py-1 text-right" data-testid="reading-typed">
                     {typedReadingText(item.r)}
                   </td>
-                  <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">
-                    {item.r.unitEntered === s.unit ? "" : inSpecUnitText(item.r, s)}
-                  </td>
+                  {converted && (
+                    <td className="whitespace-nowrap px-3 py-1 text-right text-graphite-soft">
+                      {item.r.unitEntered === s.unit ? "" : inSpecUnitText(item.r, s)}
+                    </td>
+                  )}
                   <td className="px-3 py-1">
                     <ReadingVerdictTag verdict={item.r.verdict} />
                   </td>
@@ -136,7 +142,7 @@ export function ReadingsTable({
             {rs.length ? null : (
               <tr>
                 {head}
-                <td className="px-3 py-1 text-right italic text-brass" colSpan={4}>
+                <td className="px-3 py-1 text-right italic text-brass" colSpan={valueCols + 1}>
                   not measured
                 </td>
               </tr>

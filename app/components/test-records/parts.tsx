@@ -2,7 +2,7 @@ import { Link } from "react-router";
 import {
   READING_VERDICT_LABELS,
   recordVerdictParts,
-  SPEC_VERDICT_LABELS,
+  specVerdictText,
   type ReadingVerdict,
   type RecordVerdict,
   type SpecVerdict,
@@ -68,18 +68,19 @@ export function VerdictBadge({
   );
 }
 
-export function SpecVerdictTag({ verdict }: { verdict: SpecVerdict }) {
+/** `places`: places of the spec a run left empty; readings within beside them are within so far (brass). */
+export function SpecVerdictTag({ verdict, places = 0 }: { verdict: SpecVerdict; places?: number }) {
   const cls =
     verdict === "out"
       ? "text-spec-red"
-      : verdict === "within"
-        ? "text-ok"
-        : verdict === "not-measured"
-          ? "text-brass italic"
+      : verdict === "not-measured" || places > 0
+        ? "text-brass italic"
+        : verdict === "within"
+          ? "text-ok"
           : "text-graphite-soft";
   return (
     <span className={`text-sm font-semibold ${cls}`} data-testid="spec-verdict">
-      {SPEC_VERDICT_LABELS[verdict]}
+      {specVerdictText(verdict, places)}
     </span>
   );
 }

@@ -41,6 +41,19 @@ export function missingText(notMeasured: number, places: number): string | null 
   return parts.length ? `${parts.join(" and ")} not measured` : null;
 }
 
+/**
+ * A spec's verdict in words beside its rows (emptyPlaces from evaluateRecord): readings all
+ * within with a place left empty are within *so far*, never plainly "Within spec", as the
+ * record over them is Incomplete.
+ */
+export function specVerdictText(verdict: SpecVerdict, emptyPlaces = 0): string {
+  const missing = missingText(0, emptyPlaces);
+  if (!missing || verdict === "not-measured") return SPEC_VERDICT_LABELS[verdict];
+  if (verdict === "within") return `Within spec so far; ${missing}`;
+  if (verdict === "unchecked") return `Recorded so far; ${missing}`;
+  return `${SPEC_VERDICT_LABELS[verdict]}; ${missing}`;
+}
+
 /** recordVerdictText in two parts, so a badge can keep each part on one line: ["Incomplete:", "2 places not measured"]. */
 export function recordVerdictParts(verdict: RecordVerdict, notMeasured = 0, places = 0): [string, string | null] {
   const missing = missingText(notMeasured, places);

@@ -5,6 +5,7 @@ import {
   readingVerdict,
   recordVerdictText,
   specVerdict,
+  specVerdictText,
   VerdictInputError,
   withEmptyPlaces,
   type SpecLimits,
@@ -162,6 +163,20 @@ describe("specVerdict and evaluateRecord", () => {
     expect(recordVerdictText(e.verdict!, e.counts.notMeasured, e.counts.missingPlaces)).toBe(
       "Incomplete: 1 spec and 2 places not measured",
     );
+  });
+
+  it("says a spec whose readings are all within but has a place left empty is within so far, not within spec", () => {
+    const e = evaluateRecord([bore, ringGap], { bore: [atCyl(1, 88.004), atCyl(2, 88.006)], gap: [{ value: 0.5, unit: "mm" }] }, [
+      { specId: "bore", cylinder: 3 },
+    ]);
+    const [b, g] = e.specs;
+    expect([b.verdict, b.emptyPlaces, g.emptyPlaces]).toEqual(["within", 1, 0]);
+    expect(specVerdictText(b.verdict, b.emptyPlaces)).toBe("Within spec so far; 1 place not measured");
+    expect(specVerdictText(g.verdict, g.emptyPlaces)).toBe("Within spec");
+    expect(specVerdictText("out", 2)).toBe("Out of spec; 2 places not measured");
+    expect(specVerdictText("unchecked", 1)).toBe("Recorded so far; 1 place not measured");
+    // A spec with no reading at all is "Not measured" and its places are not counted again.
+    expect(specVerdictText("not-measured", 3)).toBe("Not measured");
   });
 
   it("says one place and one spec in the singular, and stays out of spec with places missing", () => {

@@ -10,7 +10,7 @@ import { placeLabel, placeOf, type Place, type RunPlaceField } from "~/lib/runs/
 
 import type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
 export type { ReadingVerdict, RecordVerdict, SpecVerdict } from "./labels";
-export { recordVerdictText } from "./labels";
+export { recordVerdictText, specVerdictText } from "./labels";
 
 export type SpecLimits = {
   id: string;
@@ -112,6 +112,8 @@ export type EvaluatedSpec = {
   spec: SpecLimits;
   readings: { value: number; unit: string; verdict: ReadingVerdict; valueInSpecUnit: number }[];
   verdict: SpecVerdict;
+  /** Places a run offered for this spec and left empty while others of it were measured. */
+  emptyPlaces: number;
 };
 
 export type Evaluation = {
@@ -137,7 +139,7 @@ export function evaluateRecord(
 ): Evaluation {
   const evaluated: EvaluatedSpec[] = specs.map((spec) => {
     const rs = (readingsBySpec[spec.id] ?? []).map((r) => ({ value: r.value, unit: r.unit, ...readingVerdict(spec, r) }));
-    return { spec, readings: rs, verdict: specVerdict(rs.map((r) => r.verdict)) };
+    return { spec, readings: rs, verdict: specVerdict(rs.map((r) => r.verdict)), emptyPlaces: 0 };
   });
   const measured = evaluated.filter((e) => e.verdict !== "not-measured");
   const out = evaluated.filter((e) => e.verdict === "out").length;
@@ -151,6 +153,7 @@ export function evaluateRecord(
       return { specId: p.specId, ...where, field: at.field, n: at.n, label: placeLabel(at.field, at.n) };
     })
     .sort((a, b) => (order.get(a.specId) ?? 0) - (order.get(b.specId) ?? 0) || a.n - b.n);
+  for (const e of evaluated) e.emptyPlaces = places.filter((p) => p.specId === e.spec.id).length;
   const missing = notMeasured.length + places.length;
   return {
     specs: evaluated,
