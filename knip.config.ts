@@ -21,9 +21,9 @@ const config: KnipConfig = {
   // An export that its own module uses is not dead code.
   ignoreExportsUsedInFile: true,
   // Debian's tools, called by the scripts that start PostgreSQL and measure processes.
-  // pdftotext and pdfinfo: Debian's poppler-utils, with which the builds test reads the build sheet PDF.
+  // pdftotext, pdfinfo and pdffonts: Debian's poppler-utils, with which the builds test reads the build sheet PDF.
   // pdfimages: the same package, with which the runs test finds the photo inside that PDF.
-  ignoreBinaries: ["runuser", "ss", "pdftotext", "pdfinfo", "pdfimages"],
+  ignoreBinaries: ["runuser", "ss", "pdftotext", "pdfinfo", "pdfimages", "pdffonts"],
   // React Router generates the route modules' `./+types/…` at typecheck, which runs after this phase: a fresh clone has none yet.
   ignoreUnresolved: [/\+types\//],
   compilers: {

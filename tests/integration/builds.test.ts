@@ -436,6 +436,51 @@ describe("builds", () => {
     }
   });
 
+  it("the delivered build's PDF reads well on A4 and Letter: embedded fonts only, ≤ drawn, headed tables on every page, short records whole, signature lines", async () => {
+    const apprentice = await createUser("apprentice");
+    const { records } = (await buildPage("LEW-24-0117"))!;
+    for (const paper of ["", "?paper=letter"]) {
+      const file = path.join(os.tmpdir(), `sheet-0117-${randomUUID().slice(0, 6)}.pdf`);
+      fs.writeFileSync(
+        file,
+        Buffer.from(await (await http(`/builds/LEW-24-0117/sheet.pdf${paper}`, { cookie: apprentice.cookie })).arrayBuffer()),
+      );
+      try {
+        // pdffonts: a header, a rule, then one font a line with its "emb" column; all embedded, no stand-in Helvetica.
+        const fonts = execFileSync("pdffonts", [file]).toString().trim().split("\n").slice(2);
+        expect(fonts.length).toBeGreaterThan(0);
+        for (const font of fonts) expect(font, paper).toMatch(/^\S+\s+CID TrueType\s+Identity-H\s+yes/);
+        expect(fonts.join("\n")).not.toContain("Helvetica");
+        const text = execFileSync("pdftotext", ["-layout", file, "-"]).toString();
+        // The out-of-round limit has no min: "≤ 0.008 mm", never the "d0.008" a non-embedded font drew.
+        expect(text).toMatch(/0\.003 mm\s+≤ 0\.008 mm/);
+        expect(text).not.toMatch(/\sd0\./);
+        const pages = text.split("\f").filter((p) => p.trim());
+        expect(pages.length).toBeGreaterThan(1);
+        const verdictAtEnd = /\s(within|below min|above max|no limit|left empty)\s*$/;
+        for (const [i, p] of pages.entries()) {
+          // A page that goes on with a table (a row before any record's title) starts with its header row.
+          const lines = p.split("\n").filter((l) => l.trim());
+          const row = lines.findIndex((l) => verdictAtEnd.test(l));
+          const title = lines.findIndex((l) => records.some((v) => l.includes(v.record.title)));
+          if (row >= 0 && (title < 0 || row < title))
+            expect(lines[0], `page ${i + 1}${paper}`).toMatch(/^\s*SPEC\s+WHERE\s+READING\s+LIMITS\s+VERDICT/);
+        }
+        for (const v of records) {
+          const at = pages.find((p) => p.includes(v.record.title))!;
+          const rows = (at.slice(at.indexOf(v.record.title)).match(new RegExp(verdictAtEnd.source, "gm")) ?? []).length;
+          // A record of up to 12 rows is whole on its title's page; a longer one has at least three rows under its title.
+          if (v.readings.length <= 12) expect(rows, v.record.title).toBeGreaterThanOrEqual(v.readings.length);
+          else expect(rows, v.record.title).toBeGreaterThanOrEqual(3);
+        }
+        expect(text).toMatch(/Lead builder · Marcus Lind\s+Received by the customer · Wren Valley Rally Club/);
+        expect(text.match(/Signature and date/g)).toHaveLength(2);
+      } finally {
+        fs.rmSync(file, { force: true });
+      }
+    }
+  });
+
   it("the build's calculators: bore distortion per cylinder and the clamp load of each stud's torque, on the page and the sheet", async () => {
     const page = (await buildPage("LEW-24-0117"))!;
     const distortion = page.calcs.filter((c) => c.kind === "distortion");

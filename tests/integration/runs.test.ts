@@ -484,6 +484,9 @@ describe("runs", () => {
         .replace(/\s+/g, " ");
     expect(await words(`/test-records/${id}`)).toContain("Incomplete: 1 place not measured");
     expect(await words(`/test-records/${id}`)).toContain("Left empty on the run: Bore diameter: Cyl 3.");
+    // Its spec's tag says within so far, never plainly "Within spec", beside the empty place (the record page, the build page, the sheet).
+    for (const where of [`/test-records/${id}`, `/builds/${build.number}`, `/builds/${build.number}/sheet`])
+      expect(await words(where), where).toContain("Bore diameter Within spec so far; 1 place not measured");
 
     const qc = await createUser("qc");
     const specs = await db().select().from(procedureSpecs).where(eq(procedureSpecs.revisionId, rev.id));
@@ -569,6 +572,8 @@ describe("runs", () => {
       const text = execFileSync("pdftotext", ["-layout", pdf, "-"]).toString();
       expect(text).toContain("Incomplete: 1 place not measured");
       expect(text).toMatch(/cyl 3\s+not measured\s+left empty/);
+      const plain = execFileSync("pdftotext", [pdf, "-"]).toString().replace(/\s+/g, " ");
+      expect(plain).toContain("Within spec so far; 1 place not measured");
     } finally {
       fs.rmSync(pdf, { force: true });
     }

@@ -6,39 +6,46 @@ import { calcSummary, sheetFacts, type SheetPaper, sheetSignOff } from "~/lib/bu
 import { CALC_CAUTION } from "~/lib/calc-kinds";
 import { fmtDay } from "~/components/test-records/parts";
 import { limitsText, typedReadingText } from "~/components/test-records/units";
-import { READING_VERDICT_LABELS, recordVerdictText } from "~/lib/test-records/labels";
+import { READING_VERDICT_LABELS, recordVerdictText, specVerdictText } from "~/lib/test-records/labels";
 import { withEmptyPlaces } from "~/lib/test-records/verdict";
 import { positionText } from "~/lib/recordings/positions";
 
 // The build sheet as a PDF (@react-pdf/renderer), in the app's own fonts: Lora for headings and
 // words, Source Sans 3 for the tables, as on screen. Figures are tabular where the font has them.
+// Every text names a list of embedded families: a character missing from the first is looked up
+// in the next, and only one missing from all falls to react-pdf's own Helvetica, which is not
+// embedded and draws "≤" as "d". The Latin files lack ≤ and ≥ (Lora's "math" file has them) and
+// letters such as ł or ő (the "latin-ext" files).
 
 const fontFile = (pkg: string, file: string) => createRequire(import.meta.url).resolve(`@fontsource/${pkg}/files/${file}`);
+const faces = (pkg: string, subset: string, variants: { weight: number; italic?: boolean }[]) =>
+  variants.map(({ weight, italic }) => ({
+    src: fontFile(pkg, `${pkg}-${subset}-${weight}-${italic ? "italic" : "normal"}.woff`),
+    fontWeight: weight,
+    ...(italic ? { fontStyle: "italic" as const } : {}),
+  }));
+const LORA_FACES = [{ weight: 400 }, { weight: 600 }, { weight: 400, italic: true }];
+const SANS_FACES = [{ weight: 400 }, { weight: 600 }];
+const SERIF = ["Lora", "Lora Ext", "Lora Math"];
+const SANS = ["Source Sans 3", "Source Sans 3 Ext", "Lora Math"];
+
 let fontsRegistered = false;
 function registerFonts() {
   if (fontsRegistered) return;
-  Font.register({
-    family: "Lora",
-    fonts: [
-      { src: fontFile("lora", "lora-latin-400-normal.woff"), fontWeight: 400 },
-      { src: fontFile("lora", "lora-latin-600-normal.woff"), fontWeight: 600 },
-      { src: fontFile("lora", "lora-latin-400-italic.woff"), fontWeight: 400, fontStyle: "italic" },
-    ],
-  });
-  Font.register({
-    family: "Source Sans 3",
-    fonts: [
-      { src: fontFile("source-sans-3", "source-sans-3-latin-400-normal.woff"), fontWeight: 400 },
-      { src: fontFile("source-sans-3", "source-sans-3-latin-600-normal.woff"), fontWeight: 600 },
-    ],
-  });
+  Font.register({ family: "Lora", fonts: faces("lora", "latin", LORA_FACES) });
+  Font.register({ family: "Lora Ext", fonts: faces("lora", "latin-ext", LORA_FACES) });
+  Font.register({ family: "Lora Math", fonts: faces("lora", "math", LORA_FACES) });
+  Font.register({ family: "Source Sans 3", fonts: faces("source-sans-3", "latin", SANS_FACES) });
+  Font.register({ family: "Source Sans 3 Ext", fonts: faces("source-sans-3", "latin-ext", SANS_FACES) });
   // Long words in the tables wrap where they must rather than by a hyphenation dictionary.
   Font.registerHyphenationCallback((word) => [word]);
   fontsRegistered = true;
 }
 
-/** The limits in words the fonts' Latin files can draw (they have no ≤ or ≥). */
-const pdfLimits = (spec: Parameters<typeof limitsText>[0]) => limitsText(spec).replace(/^≤ /, "max ").replace(/^≥ /, "min ");
+/** A record of at most this many table rows is kept whole on one page; a longer one repeats its header row. */
+const WHOLE_RECORD_ROWS = 12;
+/** Points of a long record's table that must follow its title on the same page: the header row and three rows. */
+const TITLE_PRESENCE = 70;
 
 const GRAPHITE = "#2b2925";
 const SOFT = "#6b655b";
@@ -47,15 +54,15 @@ const BRASS = "#8a6a2c";
 const RED = "#a32020";
 
 const s = StyleSheet.create({
-  page: { fontFamily: "Source Sans 3", fontSize: 9, color: GRAPHITE, paddingTop: 36, paddingBottom: 48, paddingHorizontal: 40 },
+  page: { fontFamily: SANS, fontSize: 9, color: GRAPHITE, paddingTop: 36, paddingBottom: 48, paddingHorizontal: 40 },
   kicker: { fontSize: 8, color: BRASS, letterSpacing: 1.2, textTransform: "uppercase", fontWeight: 600 },
-  title: { fontFamily: "Lora", fontSize: 20, fontWeight: 600, marginTop: 2 },
+  title: { fontFamily: SERIF, fontSize: 20, fontWeight: 600, marginTop: 2 },
   facts: { flexDirection: "row", flexWrap: "wrap", marginTop: 8, borderBottomWidth: 1.5, borderBottomColor: GRAPHITE, paddingBottom: 8 },
   fact: { width: "25%", marginBottom: 4, paddingRight: 6 },
   factLabel: { fontSize: 7.5, color: SOFT },
-  h2: { fontFamily: "Lora", fontSize: 12.5, fontWeight: 600, marginTop: 14, marginBottom: 4 },
+  h2: { fontFamily: SERIF, fontSize: 12.5, fontWeight: 600, marginTop: 14, marginBottom: 4 },
   recordHead: { flexDirection: "row", justifyContent: "space-between", marginTop: 8 },
-  recordTitle: { fontFamily: "Lora", fontSize: 10.5, fontWeight: 600 },
+  recordTitle: { fontFamily: SERIF, fontSize: 10.5, fontWeight: 600 },
   meta: { fontSize: 8, color: SOFT, marginBottom: 3 },
   row: { flexDirection: "row", borderBottomWidth: 0.5, borderBottomColor: RULE, paddingVertical: 2 },
   headRow: { flexDirection: "row", borderBottomWidth: 0.8, borderBottomColor: GRAPHITE, paddingBottom: 2 },
@@ -71,7 +78,11 @@ const s = StyleSheet.create({
   photos: { flexDirection: "row", flexWrap: "wrap" },
   photo: { width: "33%", paddingRight: 8, marginBottom: 8 },
   picture: { width: "100%", maxHeight: 140, objectFit: "contain", marginBottom: 2 },
-  caution: { fontFamily: "Lora", fontStyle: "italic", fontSize: 8, color: SOFT, marginTop: 4 },
+  specTag: { fontSize: 7.5, color: SOFT, marginTop: 1 },
+  signatures: { flexDirection: "row", marginTop: 28 },
+  signature: { width: "50%", paddingRight: 24 },
+  signLine: { borderBottomWidth: 0.8, borderBottomColor: GRAPHITE, height: 22, marginBottom: 3 },
+  caution: { fontFamily: SERIF, fontStyle: "italic", fontSize: 8, color: SOFT, marginTop: 4 },
   footer: {
     position: "absolute",
     bottom: 22,
@@ -89,6 +100,132 @@ function Fact({ label, value }: { label: string; value: string }) {
     <View style={s.fact}>
       <Text style={s.factLabel}>{label}</Text>
       <Text>{value}</Text>
+    </View>
+  );
+}
+
+type RecordView = BuildPage["records"][number];
+
+/** Rows a record's table takes: a reading or a place left empty each, a spec with neither one. */
+function tableRows(v: RecordView): number {
+  return v.specs.reduce((n, spec) => {
+    const rs = v.readings.filter((r) => r.specId === spec.id).length;
+    return n + (rs ? rs + v.evaluation.missingPlaces.filter((p) => p.specId === spec.id).length : 1);
+  }, 0);
+}
+
+// react-pdf takes any `fixed` prop, false included, for fixed: the prop is there only when repeated.
+function HeadRow({ repeat }: { repeat: boolean }) {
+  return (
+    <View style={s.headRow} {...(repeat ? { fixed: true } : {})}>
+      <Text style={[s.th, s.spec]}>Spec</Text>
+      <Text style={[s.th, s.where]}>Where</Text>
+      <Text style={[s.th, s.value]}>Reading</Text>
+      <Text style={[s.th, s.limits]}>Limits</Text>
+      <Text style={[s.th, s.verdict]}>Verdict</Text>
+    </View>
+  );
+}
+
+/** The spec's name and, under it, its verdict in the words the screen uses ("Within spec so far; …"). */
+function SpecCell({ label, tag, out }: { label: string; tag: string | null; out: boolean }) {
+  return (
+    <View style={s.spec}>
+      <Text>{label}</Text>
+      {tag && <Text style={out ? [s.specTag, s.out] : s.specTag}>{tag}</Text>}
+    </View>
+  );
+}
+
+/**
+ * One test record: whole on one page when short; a long one breaks between rows and repeats its
+ * header row on the next page. Its title never stands alone at the foot of a page: react-pdf
+ * weighs `minPresenceAhead` only against the title's following siblings when it has earlier
+ * ones, so the title of a long record stands beside its table, not inside it.
+ */
+function RecordTable({ v }: { v: RecordView }) {
+  const title = (
+    <View minPresenceAhead={TITLE_PRESENCE}>
+      <View style={s.recordHead}>
+        <Text style={s.recordTitle}>{v.record.title}</Text>
+        <Text style={v.evaluation.verdict === "out" ? s.out : {}}>
+          {recordVerdictText(v.evaluation.verdict ?? v.record.verdict, v.evaluation.notMeasured.length, v.evaluation.missingPlaces.length)}
+        </Text>
+      </View>
+      <Text style={s.meta}>
+        {v.procedure.title}, revision {v.revision.number} · tested {fmtDay(v.record.testedOn)} · signed off by{" "}
+        {v.filedBy ?? "a former member of staff"} on {fmtDay(v.record.createdAt)}
+        {v.amendments.length ? ` · amended ${v.amendments.length}×` : ""}
+      </Text>
+    </View>
+  );
+  const rows = v.specs.map((spec) => {
+    const rs = v.readings.filter((r) => r.specId === spec.id).sort((a, b) => a.position - b.position);
+    const sv = v.evaluation.specs.find((e) => e.specId === spec.id)?.verdict ?? "not-measured";
+    if (!rs.length)
+      return (
+        <View key={spec.id} style={s.row} wrap={false}>
+          <SpecCell label={spec.label} tag={null} out={false} />
+          <Text style={s.where}>—</Text>
+          <Text style={[s.value, { color: BRASS }]}>not measured</Text>
+          <Text style={s.limits}>{limitsText(spec)}</Text>
+          <Text style={s.verdict}>—</Text>
+        </View>
+      );
+    const empty = v.evaluation.missingPlaces.filter((p) => p.specId === spec.id);
+    const first = (i: number) => (
+      <SpecCell label={i === 0 ? spec.label : ""} tag={i === 0 ? specVerdictText(sv, empty.length) : null} out={sv === "out"} />
+    );
+    return withEmptyPlaces(rs, empty).map((item, i) => {
+      if ("place" in item)
+        return (
+          <View key={`${spec.id}-${item.place.field}${item.place.n}`} style={s.row} wrap={false}>
+            {first(i)}
+            <Text style={s.where}>{positionText({ [item.place.field]: item.place.n })}</Text>
+            <Text style={[s.value, { color: BRASS }]}>not measured</Text>
+            <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
+            <Text style={s.verdict}>left empty</Text>
+          </View>
+        );
+      const r = item.r;
+      const bad = r.verdict === "below" || r.verdict === "above";
+      return (
+        <View key={r.id} style={s.row} wrap={false}>
+          {first(i)}
+          <Text style={s.where}>{positionText(r, ", ") || "—"}</Text>
+          <Text style={[s.value, bad ? s.outValue : {}]}>{typedReadingText(r)}</Text>
+          <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
+          <Text style={[s.verdict, bad ? s.out : {}]}>{READING_VERDICT_LABELS[r.verdict]}</Text>
+        </View>
+      );
+    });
+  });
+  if (tableRows(v) > WHOLE_RECORD_ROWS)
+    return (
+      <>
+        {title}
+        <View>
+          <HeadRow repeat />
+          {rows}
+        </View>
+      </>
+    );
+  return (
+    <View wrap={false}>
+      {title}
+      <HeadRow repeat={false} />
+      {rows}
+    </View>
+  );
+}
+
+/** A line to sign on, with who signs under it; the date beside the signature. */
+function Signature({ duty, name }: { duty: string; name: string | null }) {
+  return (
+    <View style={s.signature}>
+      <View style={s.signLine} />
+      <Text>{name ? `${duty} · ${name}` : duty}</Text>
+      <Text style={s.meta}>Signature and date</Text>
     </View>
   );
 }
@@ -112,67 +249,7 @@ function BuildSheetDocument({ page, paper, photos }: { page: BuildPage; paper: S
         <Text style={s.h2}>Measured</Text>
         {records.length === 0 && <Text>No test record is filed for this build.</Text>}
         {records.map((v) => (
-          <View key={v.record.id} wrap>
-            <View style={s.recordHead} minPresenceAhead={40}>
-              <Text style={s.recordTitle}>{v.record.title}</Text>
-              <Text style={v.record.verdict === "out" ? s.out : {}}>
-                {recordVerdictText(
-                  v.evaluation.verdict ?? v.record.verdict,
-                  v.evaluation.notMeasured.length,
-                  v.evaluation.missingPlaces.length,
-                )}
-              </Text>
-            </View>
-            <Text style={s.meta}>
-              {v.procedure.title}, revision {v.revision.number} · tested {fmtDay(v.record.testedOn)} · signed off by{" "}
-              {v.filedBy ?? "a former member of staff"} on {fmtDay(v.record.createdAt)}
-              {v.amendments.length ? ` · amended ${v.amendments.length}×` : ""}
-            </Text>
-            <View style={s.headRow} fixed={false}>
-              <Text style={[s.th, s.spec]}>Spec</Text>
-              <Text style={[s.th, s.where]}>Where</Text>
-              <Text style={[s.th, s.value]}>Reading</Text>
-              <Text style={[s.th, s.limits]}>Limits</Text>
-              <Text style={[s.th, s.verdict]}>Verdict</Text>
-            </View>
-            {v.specs.map((spec) => {
-              const rs = v.readings.filter((r) => r.specId === spec.id).sort((a, b) => a.position - b.position);
-              if (!rs.length)
-                return (
-                  <View key={spec.id} style={s.row} wrap={false}>
-                    <Text style={s.spec}>{spec.label}</Text>
-                    <Text style={s.where}>—</Text>
-                    <Text style={[s.value, { color: BRASS }]}>not measured</Text>
-                    <Text style={s.limits}>{pdfLimits(spec)}</Text>
-                    <Text style={s.verdict}>—</Text>
-                  </View>
-                );
-              const empty = v.evaluation.missingPlaces.filter((p) => p.specId === spec.id);
-              return withEmptyPlaces(rs, empty).map((item, i) => {
-                if ("place" in item)
-                  return (
-                    <View key={`${spec.id}-${item.place.field}${item.place.n}`} style={s.row} wrap={false}>
-                      <Text style={s.spec}>{i === 0 ? spec.label : ""}</Text>
-                      <Text style={s.where}>{positionText({ [item.place.field]: item.place.n })}</Text>
-                      <Text style={[s.value, { color: BRASS }]}>not measured</Text>
-                      <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
-                      <Text style={s.verdict}>left empty</Text>
-                    </View>
-                  );
-                const r = item.r;
-                const bad = r.verdict === "below" || r.verdict === "above";
-                return (
-                  <View key={r.id} style={s.row} wrap={false}>
-                    <Text style={s.spec}>{i === 0 ? spec.label : ""}</Text>
-                    <Text style={s.where}>{positionText(r, ", ") || "—"}</Text>
-                    <Text style={[s.value, bad ? s.outValue : {}]}>{typedReadingText(r)}</Text>
-                    <Text style={s.limits}>{i === 0 ? limitsText(spec) : ""}</Text>
-                    <Text style={[s.verdict, bad ? s.out : {}]}>{READING_VERDICT_LABELS[r.verdict]}</Text>
-                  </View>
-                );
-              });
-            })}
-          </View>
+          <RecordTable key={v.record.id} v={v} />
         ))}
 
         {calcs.some((c) => c.ok) && (
@@ -209,6 +286,10 @@ function BuildSheetDocument({ page, paper, photos }: { page: BuildPage; paper: S
           {signOff.map((line) => (
             <Text key={line}>{line}</Text>
           ))}
+          <View style={s.signatures}>
+            <Signature duty="Lead builder" name={build.leadBuilderName} />
+            <Signature duty="Received by the customer" name={build.customerName} />
+          </View>
           <Text style={s.caution}>
             Limits are those of the procedure revision each test followed. For torque, fastener and machining values the fastener maker's
             and the engine maker's published values take precedence; follow local codes and licensed practice. Re-torque and run-in as the

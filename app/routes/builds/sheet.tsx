@@ -111,9 +111,15 @@ export default function BuildSheet({ loaderData }: Route.ComponentProps) {
           ))}
         </ul>
       </section>
-      <footer className="mt-6 grid grid-cols-2 gap-8 text-sm">
-        <div className="border-t border-graphite pt-1">Lead builder</div>
-        <div className="border-t border-graphite pt-1">Received by the customer</div>
+      <footer className="mt-10 grid grid-cols-2 gap-8 text-sm" data-testid="signatures">
+        <div className="border-t border-graphite pt-1">
+          Lead builder{build.leadBuilderName && ` · ${build.leadBuilderName}`}
+          <span className="block text-xs text-graphite-soft">Signature and date</span>
+        </div>
+        <div className="border-t border-graphite pt-1">
+          Received by the customer · {build.customerName}
+          <span className="block text-xs text-graphite-soft">Signature and date</span>
+        </div>
       </footer>
       <div className="mt-4">
         <SafetyNote />
