@@ -29,6 +29,9 @@ async function lookAt(page: Page, name: string) {
   }
 }
 
+/** The spec-level verdict of the head stud torque in a readings table. */
+const torqueTag = (page: Page) => page.getByTestId("spec-row").filter({ hasText: "Head stud final torque" }).getByTestId("spec-verdict");
+
 test("a stud left empty on the run: the record says which, stays Incomplete, and the amend form offers the stud to fill", async ({
   page,
   context,
@@ -70,13 +73,17 @@ test("a stud left empty on the run: the record says which, stays Incomplete, and
   await expect(torqueRows).toHaveCount(3);
   for (const [i, words] of ["stud 1", "stud 2, left empty on the run", "stud 3"].entries())
     await expect(torqueRows.nth(i)).toContainText(words);
+  // The spec's own tag says what is missing, as the record's badge does.
+  await expect(torqueTag(page)).toHaveText("Within spec so far; 1 place not measured");
   await lookAt(page, "record-left-empty");
   // The build page lists it under Incomplete, and the sheet shows the stud's empty row.
   await page.goto(`/builds/${number}`);
   await expect(page.getByRole("region", { name: "Incomplete" })).toContainText("Left empty on the run: Head stud final torque: Stud 2.");
+  await expect(torqueTag(page)).toHaveText("Within spec so far; 1 place not measured");
   await lookAt(page, "build-left-empty");
   await page.goto(`/builds/${number}/sheet`);
   await expect(page.getByTestId("left-empty")).toHaveText(/stud 2, left empty on the run/);
+  await expect(torqueTag(page)).toHaveText("Within spec so far; 1 place not measured");
   await lookAt(page, "sheet-left-empty");
   const pdf = await page.request.get(`/builds/${number}/sheet.pdf`);
   expect(pdf.headers()["content-type"]).toContain("application/pdf");

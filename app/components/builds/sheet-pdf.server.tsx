@@ -128,11 +128,11 @@ function HeadRow({ repeat }: { repeat: boolean }) {
 }
 
 /** The spec's name and, under it, its verdict in the words the screen uses ("Within spec so far; …"). */
-function SpecCell({ label, tag, out }: { label: string; tag: string | null; out: boolean }) {
+function SpecCell({ label, tag, tone }: { label: string; tag: string | null; tone: "out" | "short" | "plain" }) {
   return (
     <View style={s.spec}>
       <Text>{label}</Text>
-      {tag && <Text style={out ? [s.specTag, s.out] : s.specTag}>{tag}</Text>}
+      {tag && <Text style={[s.specTag, tone === "out" ? s.out : tone === "short" ? { color: BRASS } : {}]}>{tag}</Text>}
     </View>
   );
 }
@@ -165,7 +165,7 @@ function RecordTable({ v }: { v: RecordView }) {
     if (!rs.length)
       return (
         <View key={spec.id} style={s.row} wrap={false}>
-          <SpecCell label={spec.label} tag={null} out={false} />
+          <SpecCell label={spec.label} tag={null} tone="plain" />
           <Text style={s.where}>—</Text>
           <Text style={[s.value, { color: BRASS }]}>not measured</Text>
           <Text style={s.limits}>{limitsText(spec)}</Text>
@@ -174,7 +174,11 @@ function RecordTable({ v }: { v: RecordView }) {
       );
     const empty = v.evaluation.missingPlaces.filter((p) => p.specId === spec.id);
     const first = (i: number) => (
-      <SpecCell label={i === 0 ? spec.label : ""} tag={i === 0 ? specVerdictText(sv, empty.length) : null} out={sv === "out"} />
+      <SpecCell
+        label={i === 0 ? spec.label : ""}
+        tag={i === 0 ? specVerdictText(sv, empty.length) : null}
+        tone={sv === "out" ? "out" : empty.length ? "short" : "plain"}
+      />
     );
     return withEmptyPlaces(rs, empty).map((item, i) => {
       if ("place" in item)
