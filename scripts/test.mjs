@@ -159,7 +159,13 @@ try {
       const logFile = path.join(runDir, "meili.log");
       // PROF_DIR: a CPU profile of the search fake too, beside the app's (node itself, with tsx as a loader).
       meili = process.env.PROF_DIR
-        ? spawnChild(process.execPath, ["--cpu-prof", "--cpu-prof-dir", process.env.PROF_DIR, "--import", "tsx", script, ...args], env, "meili", logFile)
+        ? spawnChild(
+            process.execPath,
+            ["--cpu-prof", "--cpu-prof-dir", process.env.PROF_DIR, "--import", "tsx", script, ...args],
+            env,
+            "meili",
+            logFile,
+          )
         : tsx(script, args, env, logFile);
       await waitForPort(meiliPort, 30_000, "fake search");
     };
