@@ -60,6 +60,15 @@ test("a stud left empty on the run: the record says which, stays Incomplete, and
   await stud(3).fill("111");
   await page.getByLabel("Stud 1, Stud protrusion above deck", { exact: true }).fill("52.10");
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
+  // How many studs each spec covers is asked before finishing; left blank, finishing is refused by name.
+  const covers = (spec: string) => page.getByLabel(`How many studs does “${spec}” cover?`);
+  await covers("Head stud final torque").fill("");
+  await page.getByRole("button", { name: "Finish and file the test record" }).click();
+  await expect(
+    page.getByRole("alert").filter({ hasText: "How many studs does “Head stud final torque” cover? Enter the number" }),
+  ).toBeVisible();
+  await covers("Head stud final torque").fill("3");
+  await covers("Stud protrusion above deck").fill("1");
   await page.getByRole("button", { name: "Finish and file the test record" }).click();
   await expect(page).toHaveURL(/\/test-records\/[0-9a-f-]{36}$/);
   const recordUrl = page.url();

@@ -97,6 +97,8 @@ test("a whole run on the tablet, with the network cut in the middle", async ({ p
   // Finishing files the record against the run's revision.
   await expect(page.getByTestId("run-progress")).toHaveText("2 of 2 measured");
   await page.getByLabel("Notes for the record (optional)").fill("Worked on the bench tablet.");
+  // Each per-stud spec covers as many studs as were worked here: one.
+  for (const count of await page.getByTestId("stud-count").getByRole("spinbutton").all()) await count.fill("1");
   await page.getByRole("button", { name: "Finish and file the test record" }).click();
   await expect(page).toHaveURL(/\/test-records\/[0-9a-f-]{36}$/);
   await expect(page.getByTestId("verdict").first()).toHaveText(/Within spec/);

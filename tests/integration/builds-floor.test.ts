@@ -124,7 +124,14 @@ describe("builds on the Shop floor and runs on the timeline", () => {
       (await http(`/api/runs/${finished}/entries`, { method: "POST", cookie: builder.cookie, json: { entries: [torqueAt(1, 110)] } }))
         .status,
     ).toBe(200);
-    expect((await http(`/runs/${finished}`, { cookie: builder.cookie, form: { intent: "finish" } })).status).toBe(302);
+    expect(
+      (
+        await http(`/runs/${finished}`, {
+          cookie: builder.cookie,
+          form: { intent: "finish", "studs.studs-final": "1", "studs.studs-protrusion": "1", "studs.studs-stretch": "1" },
+        })
+      ).status,
+    ).toBe(302);
     // Stopped with a reason.
     const stopped = await startRun(builder, HONING, build.number);
     expect(

@@ -7,7 +7,16 @@ import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { evaluate } from "mathjs";
 import { beforeAll, describe, expect, it } from "vitest";
-import { builds, procedureRevisions, procedures, procedureSpecs, runEntries, testRecordReadings } from "~/db/schema";
+import {
+  builds,
+  procedureRevisions,
+  procedures,
+  procedureSpecs,
+  runEntries,
+  testRecordMissingPlaces,
+  testRecordReadings,
+  testRecords,
+} from "~/db/schema";
 import { calculateDistortion, type DistortionResult } from "~/lib/calc";
 import { buildCalcs } from "~/lib/builds/page.server";
 import { db } from "~/lib/db.server";
@@ -219,5 +228,38 @@ describe("a run's Bore distortion grid", () => {
     expect(page).not.toContain("without a depth or an angle");
     const sheet = await (await http(`/builds/${build.number}/sheet`, { cookie: apprentice.cookie })).text();
     expect(sheet).toContain("cyl 2, 10 mm down, 45°");
+  });
+  it("files a half-filled grid Incomplete with its cylinder missing, and Within spec only when every diameter is typed", async () => {
+    const { proc, build } = await fixture();
+    const finish = async (entries: unknown[]) => {
+      const runId = await startRun(proc.slug, build.number);
+      expect((await post(runId, { entries })).status).toBe(200);
+      const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
+      expect(done.status).toBe(302);
+      const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1] as string;
+      const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId));
+      const empty = await db().select().from(testRecordMissingPlaces).where(eq(testRecordMissingPlaces.recordId, recordId));
+      return { verdict: rec.verdict, missing: empty.map((m) => [m.specKey, m.cylinder]).sort() };
+    };
+    // Every diameter within 87.995–88.010 mm, so only an empty place can keep the record from Within spec.
+    const within = [
+      [88.004, 88.006, 88.005, 88.003],
+      [88.004, 88.005, 88.006, 88.002],
+    ];
+    // Each run gets entries with keys of its own (a key names one entry of one run).
+    const top2 = () => gridOf(2, within).slice(0, ANGLES.length); // 10 mm down only: four of the eight diameters
+    const full1 = () => gridOf(1, within);
+    // Cylinder 1 whole, cylinder 2's top row only: every diameter typed is within its limits.
+    expect(await finish([...full1(), ...top2()])).toEqual({ verdict: "incomplete", missing: [["bore", 2]] });
+    // Both cylinders begun and neither full: still Incomplete, both named.
+    expect(await finish([...full1().slice(0, 3), ...top2()])).toEqual({
+      verdict: "incomplete",
+      missing: [
+        ["bore", 1],
+        ["bore", 2],
+      ],
+    });
+    // Every place of both grids typed: Within spec, nothing missing.
+    expect(await finish([...gridOf(1, within), ...gridOf(2, within)])).toEqual({ verdict: "within", missing: [] });
   });
 });

@@ -193,7 +193,10 @@ describe("runs", () => {
     const page = await http(`/runs/${runId}`, { cookie: builder.cookie });
     expect(await page.text()).toContain("Revision 2 of this procedure was published after this run began");
 
-    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish", notes: "Plate on." } });
+    const done = await http(`/runs/${runId}`, {
+      cookie: builder.cookie,
+      form: { intent: "finish", notes: "Plate on.", "studs.final": "1" },
+    });
     expect(done.status).toBe(302);
     const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
     expect(recordId).toBeTruthy();
@@ -215,7 +218,7 @@ describe("runs", () => {
     const cleared = entry("bore", 88.006, "mm", { typedAt: "2026-01-01T10:00:00.000Z" });
     const clear = entry("bore", null, "mm", { typedAt: "2026-01-01T10:00:09.000Z" });
     expect((await post(builder, runId, { entries: [typed, cleared, clear] })).status).toBe(200);
-    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish", "studs.final": "1" } });
     expect(done.status).toBe(302);
     const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
     const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId!));
@@ -315,7 +318,7 @@ describe("runs", () => {
     expect(photos.map((p) => [p.specKey, p.specLabel, p.where])).toEqual([["bore", "Bore diameter", "cyl 1"]]);
     // Once the run files its record, the record's photos are the run's.
     expect((await post(builder, runId, { entries: [entry("bore", 88.006, "mm")] })).status).toBe(200);
-    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish", "studs.final": "1" } });
     const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
     expect((await photosForTestRecord(recordId!)).map((p) => p.id)).toEqual(photos.map((p) => p.id));
     const recordPage = await http(`/test-records/${recordId}`, { cookie: apprentice.cookie });
@@ -414,7 +417,7 @@ describe("runs", () => {
       entry("final", 109, "N.m", { position: { fastener: 2 } }),
     ];
     expect((await post(builder, first, { entries })).status).toBe(200);
-    const done = await http(`/runs/${first}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const done = await http(`/runs/${first}`, { cookie: builder.cookie, form: { intent: "finish", "studs.final": "2" } });
     expect(done.status).toBe(302);
     const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1];
     const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId!));
@@ -444,7 +447,7 @@ describe("runs", () => {
     expect((await post(builder, second, { entries: [...all, entry("final", 110, "N.m", { position: { fastener: 1 } })] })).status).toBe(
       200,
     );
-    const done2 = await http(`/runs/${second}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const done2 = await http(`/runs/${second}`, { cookie: builder.cookie, form: { intent: "finish", "studs.final": "1" } });
     const record2 = /\/test-records\/([0-9a-f-]{36})/.exec(done2.headers.get("location") ?? "")?.[1];
     const [rec2] = await db().select().from(testRecords).where(eq(testRecords.id, record2!));
     expect(rec2.verdict).toBe("within");
@@ -475,7 +478,7 @@ describe("runs", () => {
       entry("final", 109, "N.m", { position: { fastener: 2 } }),
     ];
     expect((await post(builder, runId, { entries })).status).toBe(200);
-    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish" } });
+    const done = await http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish", "studs.final": "2" } });
     const id = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1] ?? "";
     const words = async (where: string, user: TestUser = apprentice) =>
       (await (await http(where, { cookie: user.cookie })).text())
@@ -595,6 +598,50 @@ describe("runs", () => {
     expect(await words(`/test-records/${id}?v=0`)).toContain("Incomplete: 1 place not measured");
     const api2 = await (await http(`/api/builds/${build.number}`, { cookie: apprentice.cookie })).json();
     expect(api2.testRecords[0]).toMatchObject({ verdict: "within", placesNotMeasured: [] });
+  });
+
+  it("asks how many studs a per-stud spec covers before finishing, and files the studs never torqued as missing places", async () => {
+    const { proc, build } = await fixture();
+    const finish = (runId: string, studs?: string) =>
+      http(`/runs/${runId}`, { cookie: builder.cookie, form: { intent: "finish", ...(studs == null ? {} : { "studs.final": studs }) } });
+    const torqued = (n: number) => Array.from({ length: n }, (_, i) => entry("final", 110, "N.m", { position: { fastener: i + 1 } }));
+    const bores = [1, 2, 3, 4].map((c) => entry("bore", 88.006, "mm", { position: { cylinder: c } }));
+
+    // A head of ten studs, torqued 1–6: every value within, four studs never touched.
+    const runId = await startRun(builder, proc.slug, build.number);
+    expect((await post(builder, runId, { entries: [...bores, ...torqued(6)] })).status).toBe(200);
+    const unanswered = await finish(runId);
+    expect(unanswered.status).toBe(400);
+    expect(await unanswered.text()).toContain("How many studs does “Stud final torque” cover? Enter the number before finishing.");
+    const fewer = await finish(runId, "4");
+    expect(fewer.status).toBe(400);
+    expect(await fewer.text()).toContain("has a value at stud 6: it covers at least 6 studs.");
+    expect((await finish(runId, "ten")).status).toBe(400);
+    expect(await db().select().from(testRecords).where(eq(testRecords.buildId, build.id))).toHaveLength(0);
+
+    const done = await finish(runId, "10");
+    expect(done.status).toBe(302);
+    const recordId = /\/test-records\/([0-9a-f-]{36})/.exec(done.headers.get("location") ?? "")?.[1] as string;
+    const [rec] = await db().select().from(testRecords).where(eq(testRecords.id, recordId));
+    expect(rec.verdict).toBe("incomplete");
+    const empty = await db().select().from(testRecordMissingPlaces).where(eq(testRecordMissingPlaces.recordId, recordId));
+    expect(empty.map((m) => [m.specKey, m.fastener]).sort((a, b) => Number(a[1]) - Number(b[1]))).toEqual([
+      ["final", 7],
+      ["final", 8],
+      ["final", 9],
+      ["final", 10],
+    ]);
+
+    // All ten torqued and the count answered: Within spec.
+    const second = await startRun(builder, proc.slug, build.number);
+    expect((await post(builder, second, { entries: [...bores.map((b) => ({ ...b, key: randomUUID() })), ...torqued(10)] })).status).toBe(
+      200,
+    );
+    const done2 = await finish(second, "10");
+    expect(done2.status).toBe(302);
+    const record2 = /\/test-records\/([0-9a-f-]{36})/.exec(done2.headers.get("location") ?? "")?.[1] as string;
+    const [rec2] = await db().select().from(testRecords).where(eq(testRecords.id, record2));
+    expect(rec2.verdict).toBe("within");
   });
 
   it("refuses a place out of the engine's range, a place the spec is not measured at, and fields a place does not have", async () => {

@@ -16,8 +16,9 @@ import {
   placesBySpec,
   placeWord,
   progressOf,
+  studsField,
 } from "~/lib/runs/entries";
-import { type DistortionGrid, type GridReading, gridCells, prefillDistortion, stepGrid, takesGrid } from "~/lib/runs/grid";
+import { type DistortionGrid, type GridReading, gridCells, gridCellsBySpec, prefillDistortion, stepGrid, takesGrid } from "~/lib/runs/grid";
 import { prefillCalculator, type Prefilled, type StepValue } from "~/lib/runs/prefill";
 import type { RunCalculator } from "~/lib/runs/steps";
 import type { RunView } from "~/lib/runs/runs.server";
@@ -330,7 +331,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
     typedLatest.set(k, { valueEntered: ok ? v : null, ...(place ?? {}) });
     if (ok) typedBySpec[spec.id] = [...(typedBySpec[spec.id] ?? []), { value: v, unit: spec.unit }];
   }
-  const places = placesBySpec(specs, view.build, typedLatest);
+  const places = placesBySpec(specs, view.build, typedLatest, gridCellsBySpec(steps, specs));
   const progress = progressOf(places);
   // Cylinders whose distortion grid is begun and not full: filed as they are, and said before finishing.
   const partialGrids = steps.flatMap((st) => {
@@ -540,6 +541,7 @@ export function RunScreen({ view, canWork, actionData }: Props) {
           evaluation={evaluation}
           unsent={unsent + unsentPhotos}
           partialGrids={partialGrids}
+          studSpecs={specs.filter((s) => s.field === "fastener").map((s) => ({ key: s.key, label: s.label, prefill: slotsOf(s).length }))}
           actionData={actionData}
         />
       )}
@@ -962,6 +964,7 @@ function FinishPanel({
   evaluation,
   unsent,
   partialGrids,
+  studSpecs,
   actionData,
 }: {
   measured: number;
@@ -970,6 +973,8 @@ function FinishPanel({
   evaluation: ReturnType<typeof evaluateRecord> | null;
   unsent: number;
   partialGrids: string[];
+  /** Per-stud specs and the count offered (the last run's or the spec's own, or the rows shown). */
+  studSpecs: { key: string; label: string; prefill: number }[];
   actionData: Props["actionData"];
 }) {
   const busy = useNavigation().state === "submitting";
@@ -995,6 +1000,37 @@ function FinishPanel({
       <Form method="post" className="space-y-3" noValidate>
         <input type="hidden" name="intent" value="finish" />
         {actionData?.intent === "finish" && <FormError message={errors.form} />}
+        {studSpecs.map((sp) => {
+          const name = studsField(sp.key);
+          const error = actionData?.intent === "finish" ? errors[name] : undefined;
+          return (
+            <div key={sp.key} className="space-y-1" data-testid="stud-count">
+              <label htmlFor={`f-${name}`} className="label">
+                {`How many studs does “${sp.label}” cover?`}
+              </label>
+              <input
+                id={`f-${name}`}
+                name={name}
+                type="number"
+                inputMode="numeric"
+                min={1}
+                max={200}
+                defaultValue={sp.prefill}
+                className="field w-28 tabular-nums"
+                aria-invalid={error ? true : undefined}
+                aria-describedby={`f-${name}-hint`}
+              />
+              <p id={`f-${name}-hint`} className="text-sm text-graphite-soft">
+                Every stud up to this number without a torque makes the record Incomplete.
+              </p>
+              {error && (
+                <p className="field-error" role="alert">
+                  {error}
+                </p>
+              )}
+            </div>
+          );
+        })}
         <label htmlFor="f-notes" className="label">
           Notes for the record (optional)
         </label>

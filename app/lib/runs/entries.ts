@@ -198,13 +198,13 @@ export type EngineCounts = { cylinders: number | null; mainJournals: number | nu
 /**
  * The places a spec is offered at on a run, each of which must have a value for the record to
  * be complete: every cylinder (or main journal) of the engine when the build says how many;
- * otherwise, and always for studs (added row by row as the person works), 1 up to the highest
- * number given a value, so a stud skipped in the sequence is missing. A spec without a place
- * is offered once ([null]).
+ * for studs, every stud up to the count the person gave on finishing (`studs`); otherwise 1 up
+ * to the highest number given a value, so a stud skipped in the sequence is missing. A spec
+ * without a place is offered once ([null]).
  */
-export function offeredPlaces(field: RunPlaceField | null, counts: EngineCounts, valued: number[]): (number | null)[] {
+export function offeredPlaces(field: RunPlaceField | null, counts: EngineCounts, valued: number[], studs?: number): (number | null)[] {
   if (!field) return [null];
-  const count = field === "cylinder" ? counts.cylinders : field === "journal" ? counts.mainJournals : null;
+  const count = field === "cylinder" ? counts.cylinders : field === "journal" ? counts.mainJournals : (studs ?? null);
   const top = Math.max(count ?? 0, ...valued, 0);
   return Array.from({ length: top }, (_, i) => i + 1);
 }
@@ -212,8 +212,19 @@ export function offeredPlaces(field: RunPlaceField | null, counts: EngineCounts,
 type SpecLike = { key: string; quantity: string; label: string };
 type LatestLike = { valueEntered: number | null } & Place;
 
-/** Each spec's offered places and which of them have no value yet (a cleared value counts as open). */
-export function placesBySpec(specs: SpecLike[], counts: EngineCounts, latest: Map<string, LatestLike>) {
+/**
+ * Each spec's offered places and which of them have no value yet (a cleared value counts as open).
+ * `gridCells` (from `gridCellsBySpec`): for a bore read in a Bore distortion grid, the cells each
+ * cylinder's grid has; such a cylinder is measured only when every cell has a value, so a
+ * half-filled grid leaves its cylinder missing (a begun cylinder is still offered).
+ */
+export function placesBySpec(
+  specs: SpecLike[],
+  counts: EngineCounts,
+  latest: Map<string, LatestLike>,
+  gridCells: ReadonlyMap<string, number> = new Map(),
+  studs: Readonly<Record<string, number>> = {},
+) {
   const bySpec = new Map<string, LatestLike[]>();
   for (const [k, e] of latest) {
     const specKey = k.split("@")[0];
@@ -223,10 +234,14 @@ export function placesBySpec(specs: SpecLike[], counts: EngineCounts, latest: Ma
     const field = runPlaceField(s);
     const mine = bySpec.get(s.key) ?? [];
     const valued = field ? mine.filter((e) => e.valueEntered != null && e[field] != null).map((e) => e[field] as number) : [];
-    const offered = offeredPlaces(field, counts, valued);
-    // A cylinder read only in a Bore distortion grid (depths × angles) is measured there too.
+    const offered = offeredPlaces(field, counts, valued, studs[s.key]);
+    const cells = field === "cylinder" ? gridCells.get(s.key) : undefined;
+    // A cylinder read in a Bore distortion grid is measured when all its depths × angles are.
+    const measured = cells
+      ? valued.filter((n) => mine.filter((e) => e.valueEntered != null && e.cylinder === n && gridOf(e)).length >= cells)
+      : valued;
     const missing = field
-      ? offered.filter((n) => !valued.includes(n as number))
+      ? offered.filter((n) => !measured.includes(n as number))
       : offered.filter(() => latest.get(s.key)?.valueEntered == null);
     return { key: s.key, field, offered, missing };
   });
@@ -246,3 +261,32 @@ export function progressOf(places: ReturnType<typeof placesBySpec>) {
   }
   return { measured, total };
 }
+
+/** The finish form's field holding how many studs a per-stud spec covers: `studs.<spec key>`. */
+export const studsField = (specKey: string) => `studs.${specKey}`;
+const studCount = z.coerce
+  .number({ error: "Enter how many studs this spec covers, as a whole number." })
+  .int("Enter how many studs this spec covers, as a whole number.")
+  .min(POSITION_RANGES.fastener.min, `From ${POSITION_RANGES.fastener.min} to ${POSITION_RANGES.fastener.max} studs.`)
+  .max(POSITION_RANGES.fastener.max, `From ${POSITION_RANGES.fastener.min} to ${POSITION_RANGES.fastener.max} studs.`);
+
+/**
+ * Finishing a run: its notes, and for each per-stud spec the number of studs it covers
+ * (`studs.<spec key>` fields; an empty one is left out, for finishRun to ask for by name).
+ */
+export const finishFormSchema = z
+  .looseObject({ intent: z.literal("finish"), notes: z.string().max(4000).default("") })
+  .superRefine((form, ctx) => {
+    for (const [k, v] of Object.entries(form)) {
+      if (!k.startsWith("studs.") || v === "") continue;
+      const parsed = SPEC_KEY.test(k.slice(6)) ? studCount.safeParse(v) : null;
+      if (!parsed?.success)
+        ctx.addIssue({ code: "custom", path: [k], message: parsed?.error.issues[0].message ?? "That is not a spec of this procedure." });
+    }
+  })
+  .transform((form) => ({
+    notes: form.notes,
+    studs: Object.fromEntries(
+      Object.entries(form).flatMap(([k, v]) => (k.startsWith("studs.") && v !== "" ? [[k.slice(6), Number(v)] as [string, number]] : [])),
+    ),
+  }));

@@ -11,7 +11,7 @@ import { runCalculator } from "~/lib/procedures/calc-presets";
 import { DEPTH_UNITS, type DepthUnit, positionFieldsForSpec } from "~/lib/recordings/positions";
 import type { Place } from "./entries";
 import type { Prefilled } from "./prefill";
-import type { RunCalculator } from "./steps";
+import type { RunCalculator, RunStep } from "./steps";
 
 export type GridDepth = { value: number; unit: DepthUnit };
 export type DistortionGrid = { depths: GridDepth[]; angles: number[] };
@@ -85,4 +85,25 @@ export function prefillDistortion(calculator: RunCalculator, from: string, readi
       outcome: { ok: false, message: "Type this cylinder's diameters to see its distortion." },
     };
   return { calculator: { ...calculator, preset }, filled, outcome: runCalculator("distortion", preset) };
+}
+
+/**
+ * For each bore spec read in a step's Bore distortion grid, the cells of one cylinder's grid
+ * (depths × angles): what finishing a run needs to tell a full grid from a half-filled one.
+ */
+export function gridCellsBySpec(
+  steps: Pick<RunStep, "specKeys" | "calculators">[],
+  specs: { key: string; quantity: string; label: string }[],
+): Map<string, number> {
+  const byKey = new Map(specs.map((s) => [s.key, s]));
+  const out = new Map<string, number>();
+  for (const st of steps) {
+    const g = stepGrid(st.calculators);
+    if (!g) continue;
+    for (const k of st.specKeys) {
+      const s = byKey.get(k);
+      if (s && takesGrid(s) && !out.has(k)) out.set(k, g.grid.depths.length * g.grid.angles.length);
+    }
+  }
+  return out;
 }

@@ -30,7 +30,9 @@ import {
   placeWord,
   progressOf,
   runPlaceField,
+  studsField,
 } from "./entries";
+import { gridCellsBySpec } from "./grid";
 import { runSteps } from "./steps";
 
 type Actor = { id: string; name?: string };
@@ -140,11 +142,8 @@ export async function getRun(id: string) {
   ]);
   const latest = latestByPlace(entries);
   const steps = runSteps(row.revision.doc as JSONNode);
-  const places = placesBySpec(
-    specs.map((s) => ({ key: s.specKey, quantity: s.quantity, label: s.label })),
-    row.build,
-    latest,
-  );
+  const specLikes = specs.map((s) => ({ key: s.specKey, quantity: s.quantity, label: s.label }));
+  const places = placesBySpec(specLikes, row.build, latest, gridCellsBySpec(steps, specLikes));
   return {
     run: row.run,
     startedByName: row.startedByName,
@@ -402,31 +401,42 @@ const todayIso = () => new Date().toISOString().slice(0, 10);
  * transaction. Specs left without a value make the record Incomplete (the verdict function's
  * rule), never Within spec; a run with nothing measured cannot be filed.
  */
-export async function finishRun(actor: Actor, runId: string, input: { notes: string }) {
+export async function finishRun(actor: Actor, runId: string, input: { notes: string; studs?: Record<string, number> }) {
   return db().transaction(async (tx) => {
     const run = await openRunForUpdate(tx, runId);
     if (run.status !== "open") throw new DomainError(closedReason(run), { field: "form" });
-    const [[proc], [build], specs, entries] = await Promise.all([
+    const [[proc], [build], [rev], specs, entries] = await Promise.all([
       tx.select().from(procedures).where(eq(procedures.id, run.procedureId)),
       tx.select().from(builds).where(eq(builds.id, run.buildId)),
+      tx.select({ doc: procedureRevisions.doc }).from(procedureRevisions).where(eq(procedureRevisions.id, run.revisionId)),
       specsOf(tx, run.revisionId),
       entriesOf(tx, runId),
     ]);
     const latest = latestByPlace(entries);
-    const places = placesBySpec(
-      specs.map((s) => ({ key: s.specKey, quantity: s.quantity, label: s.label })),
-      build,
-      latest,
-    );
+    const specLikes = specs.map((s) => ({ key: s.specKey, quantity: s.quantity, label: s.label }));
+    // How many studs each per-stud spec covers is asked, never guessed from the highest typed:
+    // a head torqued 1–6 of ten must not file Within spec with four studs never torqued.
+    const studs = input.studs ?? {};
+    for (const s of specs) {
+      if (runPlaceField(s) !== "fastener") continue;
+      const field = studsField(s.specKey);
+      const count = studs[s.specKey];
+      if (count == null)
+        throw new DomainError(`How many studs does “${s.label}” cover? Enter the number before finishing.`, { status: 400, field });
+      const top = Math.max(0, ...entries.filter((e) => e.specKey === s.specKey && e.valueEntered != null).map((e) => e.fastener ?? 0));
+      if (count < top)
+        throw new DomainError(`“${s.label}” has a value at stud ${top}: it covers at least ${top} studs.`, { status: 400, field });
+    }
+    const places = placesBySpec(specLikes, build, latest, gridCellsBySpec(runSteps(rev.doc as JSONNode), specLikes), studs);
     const readings: Record<string, TypedReading[]> = {};
     const missingPlaces: MissingPlace[] = [];
     for (const [i, s] of specs.entries()) {
       const { field, offered, missing: open } = places[i];
       // A spec with nothing at all is the verdict function's "not measured"; a spec measured
       // at some places and not at others keeps those places with the record (Incomplete until
-      // an amendment fills them).
-      if (field && open.length && open.length < offered.length)
-        for (const n of open) missingPlaces.push({ specId: s.id, [field]: n as number });
+      // an amendment fills them). A missing place names no depth or angle (the table has
+      // none): a cylinder whose distortion grid is half filled is kept as that cylinder missing,
+      // beside the diameters it has.
       for (const e of latestAtPlaces(latest, s.specKey, field, offered)) {
         if (e?.valueEntered == null) continue;
         readings[s.id] = readings[s.id] ?? [];
@@ -447,6 +457,9 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
           sourceReadingId: null,
         });
       }
+      // Asked after the readings: every cylinder's grid half filled leaves all of them open
+      // though the spec has values, and that record must not read Within spec.
+      if (field && open.length && readings[s.id]?.length) for (const n of open) missingPlaces.push({ specId: s.id, [field]: n as number });
     }
     if (!Object.keys(readings).length)
       throw new DomainError("Nothing has been measured yet: enter at least one value before finishing the run.", { status: 400 });
@@ -477,6 +490,7 @@ export async function finishRun(actor: Actor, runId: string, input: { notes: str
       verdict: filed.verdict,
       notMeasured: filed.notMeasured,
       placesMissing: filed.placesMissing,
+      studCounts: studs,
     });
     return filed;
   });

@@ -29,11 +29,16 @@ export type ReadingInput = { value: number; unit: string; position?: Place | nul
 /** A place (cylinder, main journal, stud) a run offered for a spec and left without a value. */
 export type MissingPlace = { specId: string } & Place;
 
-/** The places still empty once these readings are in: a reading of the spec at the place fills it. */
+/**
+ * The places still empty once these readings are in: a reading of the spec at the place fills it.
+ * A reading taken at a depth and an angle (one cell of a Bore distortion grid) does not: a missing
+ * place names no depth or angle, so a cylinder kept missing beside its grid readings is one whose
+ * grid a run left half filled, and only a value for the cylinder itself fills it.
+ */
 export function openPlaces<T extends MissingPlace>(places: T[], readingsBySpec: Record<string, ReadingInput[]>): T[] {
   return places.filter((p) => {
     const at = placeOf(p);
-    return at && !(readingsBySpec[p.specId] ?? []).some((r) => r.position?.[at.field] === at.n);
+    return at && !(readingsBySpec[p.specId] ?? []).some((r) => r.position?.[at.field] === at.n && r.position?.depthM == null);
   });
 }
 

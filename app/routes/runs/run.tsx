@@ -9,6 +9,7 @@ import { notFound, parseParams, readForm } from "~/lib/edge.server";
 import { redirectWithFlash } from "~/lib/flash.server";
 import { parseForm } from "~/lib/forms";
 import { can } from "~/lib/permissions";
+import { finishFormSchema } from "~/lib/runs/entries";
 import { abandonRun, finishRun, getRun, runExists } from "~/lib/runs/runs.server";
 import { flashKindOf, recordVerdictText } from "~/lib/test-records/labels";
 
@@ -16,7 +17,6 @@ export const meta: Route.MetaFunction = ({ data }) => [
   { title: data ? `${data.view.procedure.title} on ${data.view.build.number} · Run · Benchreel` : "Run · Benchreel" },
 ];
 
-const finishForm = z.object({ intent: z.literal("finish"), notes: z.string().max(4000).default("") });
 const abandonForm = z.object({
   intent: z.literal("abandon"),
   reason: z.string().trim().min(3, { message: "Say why the run is stopped (a few words)." }).max(1000),
@@ -38,7 +38,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const intent = form.get("intent");
   try {
     if (intent === "finish") {
-      const parsed = parseForm(finishForm, form);
+      const parsed = parseForm(finishFormSchema, form);
       if (!parsed.ok) return data({ intent, errors: parsed.errors, values: parsed.values }, { status: 400 });
       const filed = await finishRun(user, id, parsed.data);
       return redirectWithFlash(`/test-records/${filed.id}`, {
