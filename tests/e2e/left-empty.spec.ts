@@ -67,6 +67,7 @@ test("a stud left empty on the run: the record says which, stays Incomplete, and
   await expect(
     page.getByRole("alert").filter({ hasText: "How many studs does “Head stud final torque” cover? Enter the number" }),
   ).toBeVisible();
+  await lookAt(page, "run-finish-stud-count");
   await covers("Head stud final torque").fill("3");
   await covers("Stud protrusion above deck").fill("1");
   await page.getByRole("button", { name: "Finish and file the test record" }).click();

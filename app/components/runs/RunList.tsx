@@ -25,7 +25,7 @@ export function RunList({ rows, showBuild = false }: { rows: RunListItem[]; show
               {r.status === "open" ? (
                 <>
                   <span className="num" data-testid="run-row-progress">
-                    {r.measured} of {r.total} specs
+                    {r.measured} of {r.total} measured
                   </span>
                   <span className="inline-block h-2 w-20 overflow-hidden rounded bg-paper-deep" aria-hidden="true">
                     <span className="block h-full bg-brass" style={{ width: `${pct}%` }} />

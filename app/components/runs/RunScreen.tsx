@@ -1021,7 +1021,7 @@ function FinishPanel({
                 aria-describedby={`f-${name}-hint`}
               />
               <p id={`f-${name}-hint`} className="text-sm text-graphite-soft">
-                Every stud up to this number without a torque makes the record Incomplete.
+                Every stud up to this number left without a value makes the record Incomplete.
               </p>
               {error && (
                 <p className="field-error" role="alert">

@@ -41,7 +41,9 @@ describe("runSteps", () => {
   const steps = runSteps(doc);
 
   it("makes each numbered item a step and a section without a list one step", () => {
-    expect(steps.map(stepTitle)).toEqual(["Why", "Steps · step 1", "Steps · step 2", "Steps · step 3", "Checks"]);
+    expect(steps.map(stepTitle)).toEqual(["Why", "Step 1", "Step 2", "Step 3", "Checks"]);
+    // Only a section called Steps drops its name; another keeps it beside the step's number.
+    expect(stepTitle({ section: "Assembly", number: 2 })).toBe("Assembly · step 2");
   });
 
   it("gives the text before the list to the first step and the specs and calculators after it to the last", () => {

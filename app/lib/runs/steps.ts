@@ -127,7 +127,11 @@ export function runSteps(doc: JSONNode): RunStep[] {
   return steps;
 }
 
-/** The step's heading as the screen and the progress line say it: "Steps · 4", "Checks". */
+/**
+ * The step's heading as the screen and the progress line say it: "Step 4" in a section called
+ * Steps (not "Steps · step 4"), "Assembly · step 2" in another, "Checks" for a section taken whole.
+ */
 export function stepTitle(step: Pick<RunStep, "section" | "number">): string {
-  return step.number ? `${step.section} · step ${step.number}` : step.section;
+  if (!step.number) return step.section;
+  return /^steps?$/i.test(step.section.trim()) ? `Step ${step.number}` : `${step.section} · step ${step.number}`;
 }
