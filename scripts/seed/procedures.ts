@@ -135,14 +135,15 @@ function honingDoc(): N {
       ),
       spec("bore-dia", "Bore diameter, plate fitted", "length", "mm", 88.0, 87.995, 88.01),
       spec("bore-oor", "Out-of-round at any depth", "length", "mm", null, null, 0.008),
-      calc("distortion", "Cylinder 2, plate fitted, 10 mm down", {
+      // The same three depths the step names, so a run asks for each of them in the grid.
+      calc("distortion", "Cylinder 2, plate fitted", {
         mode: "diametral",
         reference: { value: 88.0, unit: "mm" },
         readings: [0, 45, 90, 135].flatMap((a, i) =>
-          [10, 50].map((d) => ({
+          [10, 50, 90].map((d) => ({
             depth: { value: d, unit: "mm" },
             angleDeg: a,
-            diameter: { value: [88.004, 88.007, 88.005, 88.002][i] + (d === 50 ? -0.001 : 0), unit: "mm" },
+            diameter: { value: [88.004, 88.007, 88.005, 88.002][i] + (d === 10 ? 0 : -0.001), unit: "mm" },
           })),
         ),
       }),

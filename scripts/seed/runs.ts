@@ -17,11 +17,13 @@ const RUN_ID = "5eed0000-0000-4000-8000-00000000a001";
 const STUDS = "1a000000-0000-4000-8000-000000000001";
 const HONING_RUN_ID = "5eed0000-0000-4000-8000-00000000a002";
 const HONING = "1a000000-0000-4000-8000-000000000002";
-/** The honed bores as read with the plate fitted, mm: per cylinder, 10 mm down then 50 mm down, at 0°, 45°, 90°, 135°. */
+/** The honed bores as read with the plate fitted, mm: per cylinder, 10, 50 then 90 mm down, at 0°, 45°, 90°, 135°. */
+const BORE_DEPTHS_MM = [10, 50, 90];
 const BORES: Record<number, number[][]> = {
   1: [
     [88.006, 88.009, 88.007, 88.004],
     [88.005, 88.007, 88.006, 88.004],
+    [88.005, 88.006, 88.006, 88.003],
   ],
   2: [[88.005, 88.008, 88.006, 88.003]],
 };
@@ -124,7 +126,7 @@ async function seedHoningRun(db: Db): Promise<number | "skipped"> {
           specId: spec.id,
           specKey: spec.specKey,
           cylinder: Number(cylinder),
-          depthM: toSI([10, 50][d], "mm"),
+          depthM: toSI(BORE_DEPTHS_MM[d], "mm"),
           depthUnit: "mm",
           angleDeg: [0, 45, 90, 135][a],
           valueEntered: value,

@@ -108,8 +108,8 @@ test("a bore distortion block shows its readings as depth × angle, and a reader
   const calc = page.locator("[data-calc-kind='distortion']");
   const grid = calc.getByTestId("readings-grid");
   await expect(grid.getByRole("columnheader")).toHaveText(["depth", "0°", "45°", "90°", "135°"]);
-  await expect(grid.getByRole("rowheader")).toHaveText(["10 mm", "50 mm"]);
-  await expect(grid.getByRole("cell")).toHaveCount(8);
+  await expect(grid.getByRole("rowheader")).toHaveText(["10 mm", "50 mm", "90 mm"]);
+  await expect(grid.getByRole("cell")).toHaveCount(12);
   const before = (await calc.getByTestId("calc-result").textContent()) ?? "";
   await calc.getByRole("button", { name: "Try your numbers" }).click();
   await calc.getByLabel("Bore diameter, mm, at 10 mm depth, 90°").fill("88.03");

@@ -120,39 +120,42 @@ test("a bore read in its Bore distortion grid cylinder by cylinder, with the net
   await expect(page).toHaveURL(/\/runs\/[0-9a-f-]{36}$/);
   const runId = page.url().split("/").pop()!;
   // The step holds the bore and a Bore distortion calculator: the bore is asked in the
-  // calculator's grid, 10 and 50 mm down at 0°, 45°, 90° and 135°, one cylinder at a time.
+  // calculator's grid, 10, 50 and 90 mm down at 0°, 45°, 90° and 135°, one cylinder at a time.
   const cell = (n: number, depth: number, angle: number) =>
     page.getByLabel(`Cyl ${n}, ${depth} mm down, ${angle}°, Bore diameter, plate fitted`, { exact: true });
   for (let i = 0; i < 20 && !(await cell(1, 10, 0).isVisible()); i++) await page.getByRole("button", { name: "Next →" }).click();
   const bore = page.getByTestId("entry").filter({ has: page.getByTestId("bore-grid") });
   await expect(bore.getByTestId("bore-grid")).toHaveAttribute("data-cylinder", "1");
-  await expect(bore.getByTestId("grid-cell")).toHaveCount(8);
+  await expect(bore.getByTestId("grid-cell")).toHaveCount(12);
 
   // Each diameter is judged against the bore's limits as it is typed.
   await cell(1, 10, 45).fill("88.012");
   await expect(bore.getByTestId("grid-cell").nth(1).getByTestId("entry-verdict")).toHaveText(/Out: above max/);
-  await expect(page.getByTestId("partial-grids")).toContainText("Bore diameter, plate fitted, Cyl 1 (1 of 8)");
+  await expect(page.getByTestId("partial-grids")).toContainText("Bore diameter, plate fitted, Cyl 1 (1 of 12)");
   // Kept as typed (then corrected below: the later typing at that place wins).
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
-  const typeCylinder = async (n: number, top: number[], low: number[]) => {
+  const typeCylinder = async (n: number, top: number[], mid: number[], low: number[]) => {
     for (const [j, a] of [0, 45, 90, 135].entries()) {
       await cell(n, 10, a).fill(top[j].toFixed(3));
-      await cell(n, 50, a).fill(low[j].toFixed(3));
+      await cell(n, 50, a).fill(mid[j].toFixed(3));
+      await cell(n, 90, a).fill(low[j].toFixed(3));
     }
   };
-  await typeCylinder(1, [88.006, 88.009, 88.008, 88.003], [88.004, 88.008, 88.007, 88.001]);
+  await typeCylinder(1, [88.006, 88.009, 88.008, 88.003], [88.004, 88.008, 88.007, 88.001], [88.005, 88.007, 88.006, 88.004]);
   await expect(bore.getByTestId("grid-cell").nth(1).getByTestId("entry-verdict")).toHaveText("Within");
   await expect(page.getByTestId("partial-grids")).toHaveCount(0);
   // The cylinder's distortion from these numbers: out-of-round is the largest minus the smallest
-  // diameter at a depth (88.009 − 88.003, 88.008 − 88.001), taper the spread of the depths' means.
+  // diameter at a depth (88.009 − 88.003, 88.008 − 88.001, 88.007 − 88.004), taper the spread of the
+  // depths' means (88.0065 at 10 mm − 88.005 at 50 mm; 88.0055 at 90 mm lies between).
   const result = bore.getByTestId("step-calculator");
   await expect(result).toContainText("Bore distortion — Cyl 1");
-  await expect(result).toContainText("Diameters (8 of 8) ← Bore diameter, plate fitted, Cyl 1");
+  await expect(result).toContainText("Diameters (12 of 12) ← Bore diameter, plate fitted, Cyl 1");
   await expect(result).toContainText(/Out-of-round at 10 mm\s*6 µm/);
   await expect(result).toContainText(/Out-of-round at 50 mm\s*7 µm/);
+  await expect(result).toContainText(/Out-of-round at 90 mm\s*3 µm/);
   await expect(result).toContainText(/Taper\s*1\.5 µm/);
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
-  expect(await entriesOf(runId, "bore-dia")).toBe(9);
+  expect(await entriesOf(runId, "bore-dia")).toBe(13);
   // The grid and its result are read out as a table with named fields (WCAG 2.1 A and AA, as the accessibility suite checks pages).
   const axe = await new AxeBuilder({ page })
     .include('[data-testid="run-step"]')
@@ -165,18 +168,18 @@ test("a bore read in its Bore distortion grid cylinder by cylinder, with the net
   await expect(bore.getByTestId("bore-grid")).toHaveAttribute("data-cylinder", "2");
   await expect(result).toContainText("Type this cylinder's diameters");
   await context.setOffline(true);
-  await typeCylinder(2, [88.005, 88.008, 88.006, 88.003], [88.004, 88.007, 88.006, 88.002]);
+  await typeCylinder(2, [88.005, 88.008, 88.006, 88.003], [88.004, 88.007, 88.006, 88.002], [88.004, 88.006, 88.005, 88.003]);
   await bore.getByLabel("Photo of").selectOption({ label: "Cyl 3" });
   await bore.locator('input[type="file"]').setInputFiles({ name: "gauge.png", mimeType: "image/png", buffer: GRAY_PNG });
-  await expect(page.getByTestId("save-state")).toContainText("No network: 8 entries and 1 photo are waiting on this device");
+  await expect(page.getByTestId("save-state")).toContainText("No network: 12 entries and 1 photo are waiting on this device");
   await expect(bore.getByTestId("photo-waiting")).toHaveCount(1);
-  expect(await entriesOf(runId, "bore-dia")).toBe(9);
+  expect(await entriesOf(runId, "bore-dia")).toBe(13);
 
   // Back: everything goes, once.
   await context.setOffline(false);
   await expect(page.getByTestId("save-state")).toHaveText("Every entry is saved on the server.", { timeout: 15_000 });
   await expect(bore.getByTestId("photo-sent")).toHaveCount(1);
-  expect(await entriesOf(runId, "bore-dia")).toBe(17);
+  expect(await entriesOf(runId, "bore-dia")).toBe(25);
   expect(await count("select count(*)::int as n from run_photos where run_id = $1 and cylinder = 3", [runId])).toBe(1);
 
   // A file that is not a picture is refused by the server: the screen says why and it can be discarded from the tablet.
@@ -192,9 +195,9 @@ test("a bore read in its Bore distortion grid cylinder by cylinder, with the net
 
   await page.reload();
   await expect(bore.getByTestId("photo-refused")).toHaveCount(0);
-  await bore.getByRole("button", { name: /^Cyl 2 · 8\/8$/ }).click();
+  await bore.getByRole("button", { name: /^Cyl 2 · 12\/12$/ }).click();
   await expect(cell(2, 50, 135)).toHaveValue("88.002");
-  expect(await entriesOf(runId, "bore-dia")).toBe(17);
+  expect(await entriesOf(runId, "bore-dia")).toBe(25);
 
   // Cylinders 3 and 4 and the out-of-round were not measured: the record is filed Incomplete,
   // each diameter with its cylinder, depth and angle, on the record and on the build sheet.
@@ -204,7 +207,7 @@ test("a bore read in its Bore distortion grid cylinder by cylinder, with the net
   const boreRows = () => page.getByTestId("spec-row").filter({ hasText: "Bore diameter, plate fitted" }).locator("tr");
   for (const where of ["record", "sheet"]) {
     if (where === "sheet") await page.goto(`/builds/${build}/sheet`);
-    await expect(boreRows().filter({ hasText: "cyl 1" })).toHaveCount(8);
+    await expect(boreRows().filter({ hasText: "cyl 1" })).toHaveCount(12);
     await expect(boreRows().filter({ hasText: "cyl 2" }).filter({ hasText: "50 mm down" }).filter({ hasText: "135°" })).toContainText(
       "88.002",
     );
