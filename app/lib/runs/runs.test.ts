@@ -43,7 +43,7 @@ describe("runSteps", () => {
   it("makes each numbered item a step and a section without a list one step", () => {
     expect(steps.map(stepTitle)).toEqual(["Why", "Step 1", "Step 2", "Step 3", "Checks"]);
     // Only a section called Steps drops its name; another keeps it beside the step's number.
-    expect(stepTitle({ section: "Assembly", number: 2 })).toBe("Assembly · step 2");
+    expect(stepTitle({ section: "Assembly", number: "2" })).toBe("Assembly · step 2");
   });
 
   it("gives the text before the list to the first step and the specs and calculators after it to the last", () => {
