@@ -45,6 +45,10 @@ const wants = (phase) => (phase === "bench" ? only.has("bench") : only.size === 
 const needsServices = wants("integration") || wants("e2e") || wants("bench");
 
 const results = [];
+// Each test phase also writes a JSON report here; a failed run ends by naming the failed tests and
+// the first lines of their errors, so that the last lines of a CI log say what broke.
+fs.mkdirSync(path.join(ROOT, "test-results"), { recursive: true });
+const reportDir = fs.mkdtempSync(path.join(ROOT, "test-results", ".reports-"));
 let pgDir = null;
 let runDir = null;
 let exiting = false;
@@ -67,17 +71,75 @@ async function teardown(code) {
       console.log(`\n--- last lines of ${path.basename(f)} (request lines left out) ---\n${lines.slice(-60).join("\n")}`);
     }
   }
+  if (failedAny && pgDir) printDeadlocks(path.join(path.dirname(pgDir), "postgres.log"));
   if (pgDir) stopPostgres(pgDir);
   if (pgDir) fs.rmSync(path.dirname(pgDir), { recursive: true, force: true });
   if (runDir) fs.rmSync(runDir, { recursive: true, force: true });
   console.log(`\n${"-".repeat(60)}`);
   for (const r of results) console.log(`${r.code === 0 ? "ok  " : "FAIL"}  ${r.phase}`);
   const failed = results.filter((r) => r.code !== 0).length;
+  if (failed) printFailedTests(reportDir);
+  fs.rmSync(reportDir, { recursive: true, force: true });
   console.log(`phases: ${results.length - failed} passed, ${failed} failed`);
   process.exit(code ?? (failed ? 1 : 0));
 }
 process.on("SIGINT", () => teardown(130));
 process.on("SIGTERM", () => teardown(143));
+
+/** PostgreSQL's own account of each deadlock it broke (which statements waited on which), if any. */
+function printDeadlocks(logFile) {
+  if (!fs.existsSync(logFile)) return;
+  const lines = fs.readFileSync(logFile, "utf8").split("\n");
+  const out = [];
+  lines.forEach((l, i) => {
+    if (l.includes("deadlock detected")) out.push(...lines.slice(i, i + 12));
+  });
+  if (out.length) console.log(`\n--- deadlocks in postgres.log ---\n${out.slice(-80).join("\n")}`);
+}
+
+/** Failed tests named in the phases' JSON reports (Vitest's and Playwright's), with the first lines of each error. */
+function printFailedTests(dir) {
+  const failures = [];
+  const firstLines = (text) =>
+    String(text ?? "")
+      .replace(/\x1b\[[0-9;]*m/g, "")
+      .split("\n")
+      .filter((l) => l.trim() && !/node_modules|node:internal|<anonymous>/.test(l))
+      .slice(0, 6)
+      .map((l) => `      ${l.slice(0, 200)}`)
+      .join("\n");
+  for (const file of fs.existsSync(dir) ? fs.readdirSync(dir) : []) {
+    let report;
+    try {
+      report = JSON.parse(fs.readFileSync(path.join(dir, file), "utf8"));
+    } catch {
+      continue;
+    }
+    // Vitest: testResults[].assertionResults[]
+    for (const suite of report.testResults ?? []) {
+      const rel = path.relative(ROOT, suite.name ?? "");
+      const failedTests = (suite.assertionResults ?? []).filter((t) => t.status === "failed");
+      for (const t of failedTests) failures.push(`  ${rel} › ${t.fullName}\n${firstLines(t.failureMessages?.join("\n"))}`);
+      if (suite.status === "failed" && failedTests.length === 0) failures.push(`  ${rel}\n${firstLines(suite.message)}`);
+    }
+    // Playwright: suites[] (nested) › specs[] › tests[] › results[]
+    const walk = (suite, trail) => {
+      for (const child of suite.suites ?? []) walk(child, [...trail, child.title]);
+      for (const spec of suite.specs ?? []) {
+        for (const t of spec.tests ?? []) {
+          if (t.status !== "unexpected" && t.status !== "flaky") continue;
+          const last = t.results?.at(-1);
+          const tag = t.status === "flaky" ? " (passed on retry)" : "";
+          failures.push(`  ${[...trail, spec.title].filter(Boolean).join(" › ")}${tag}\n${firstLines(last?.error?.message)}`);
+        }
+      }
+    };
+    for (const s of report.suites ?? []) walk(s, [s.title]);
+  }
+  if (failures.length) console.log(`failed tests (${failures.length}):\n${failures.slice(0, 20).join("\n")}`);
+}
+
+const vitestReport = (name) => ["--reporter=default", "--reporter=json", `--outputFile.json=${path.join(reportDir, `${name}.json`)}`];
 
 async function phase(name, fn) {
   log(`── ${name}`);
@@ -99,7 +161,9 @@ try {
   if (wants("typecheck")) await phase("typecheck", () => runWith("npm", ["run", "-s", "typecheck"]));
   if (wants("unit")) {
     await phase("unit (vitest)", () =>
-      runWith(bin("vitest"), ["run", "--project", "unit", ...(only.has("unit") ? filters : [])], { NODE_ENV: "test" }),
+      runWith(bin("vitest"), ["run", "--project", "unit", ...vitestReport("unit"), ...(only.has("unit") ? filters : [])], {
+        NODE_ENV: "test",
+      }),
     );
   }
 
@@ -235,12 +299,19 @@ try {
     }
     if (wants("integration")) {
       await phase("integration (vitest)", () =>
-        runWith(bin("vitest"), ["run", "--project", "integration", ...(only.has("integration") ? filters : [])], env),
+        runWith(
+          bin("vitest"),
+          ["run", "--project", "integration", ...vitestReport("integration"), ...(only.has("integration") ? filters : [])],
+          env,
+        ),
       );
     }
     if (wants("e2e")) {
       await phase("browser (playwright)", () =>
-        runWith(bin("playwright"), ["test", "-c", "tests/playwright.config.ts", ...(only.has("e2e") ? filters : [])], env),
+        runWith(bin("playwright"), ["test", "-c", "tests/playwright.config.ts", ...(only.has("e2e") ? filters : [])], {
+          ...env,
+          BENCHREEL_JSON_REPORT: path.join(reportDir, "browser.json"),
+        }),
       );
     }
     if (wants("bench")) {

@@ -12,7 +12,8 @@ export default defineConfig({
   retries: process.env.CI ? 1 : 0,
   timeout: 60_000,
   expect: { timeout: 10_000 },
-  reporter: [["list"]],
+  // `npm test` also asks for a JSON report, from which it names the failed tests at the end of its output.
+  reporter: process.env.BENCHREEL_JSON_REPORT ? [["list"], ["json", { outputFile: process.env.BENCHREEL_JSON_REPORT }]] : [["list"]],
   outputDir: `../test-results/${runId}`,
   use: {
     baseURL: process.env.BENCHREEL_URL,
