@@ -30,7 +30,10 @@ const findings: Finding[] = [];
 async function mailedLink(to: string, kind: "invite" | "reset"): Promise<string> {
   let link = "";
   await expect(async () => {
-    const stored = (await (await fetch(`${process.env.SMTP_CONTROL_URL}/messages`)).json()) as { to: string[]; links: string[] }[];
+    const stored = (await (await fetch(`${process.env.SMTP_CONTROL_URL}/messages?to=${encodeURIComponent(to)}`)).json()) as {
+      to: string[];
+      links: string[];
+    }[];
     link =
       stored
         .filter((m) => m.to.includes(to))

@@ -89,7 +89,10 @@ test("admin invites a person; the invitee follows the e-mailed link and is signe
   }).toPass({ timeout: 20_000 });
 
   // The link as stored by the fake, read from its store.
-  const stored = (await (await fetch(`${process.env.SMTP_CONTROL_URL}/messages`)).json()) as { to: string[]; links: string[] }[];
+  const stored = (await (await fetch(`${process.env.SMTP_CONTROL_URL}/messages?to=${encodeURIComponent(email)}`)).json()) as {
+    to: string[];
+    links: string[];
+  }[];
   expect(stored.find((m) => m.to.includes(email))?.links).toContain(link);
 
   const invitee = await browser.newContext();

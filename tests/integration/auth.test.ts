@@ -429,7 +429,7 @@ describe("reset mail limits", () => {
     expect(refused.status).toBe(429);
     expect(await refused.text()).toContain("Enough reset links have been asked for this address for now");
     const mails = await waitFor(async () => {
-      const m = (await mailbox()).filter((x) => x.to.includes(u.email) && x.subject.includes("Reset"));
+      const m = (await mailbox(u.email)).filter((x) => x.subject.includes("Reset"));
       return m.length >= RESET_LIMITS.account.max ? m : null;
     });
     expect(mails).toHaveLength(RESET_LIMITS.account.max);
@@ -452,7 +452,7 @@ describe("reset mail limits", () => {
 describe("password lifecycle", () => {
   async function resetTokensFor(email: string, count: number) {
     const mails = await waitFor(async () => {
-      const m = (await mailbox()).filter((x) => x.to.includes(email) && x.subject.includes("Reset"));
+      const m = (await mailbox(email)).filter((x) => x.subject.includes("Reset"));
       return m.length >= count ? m : null;
     });
     return mails.map((m) => tokenFromLink(m.links.find((l) => l.includes("/reset/"))!, "/reset"));

@@ -363,7 +363,7 @@ describe("builds", () => {
     const to = `owner-${randomUUID().slice(0, 6)}@fernhill.example`;
     const res = await http(`/builds/${number}`, { cookie: qc.cookie, form: { intent: "mail", to } });
     expect(res.status).toBe(302);
-    const msg = await waitFor(async () => (await mailbox()).find((m) => m.to.includes(to)), 30_000);
+    const msg = await waitFor(async () => (await mailbox(to)).find((m) => m.to.includes(to)), 30_000);
     expect(msg.subject).toContain(number);
     expect(msg.attachments).toHaveLength(1);
     const att = msg.attachments![0];

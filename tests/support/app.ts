@@ -77,8 +77,9 @@ export type Captured = {
   attachments?: { filename: string; contentType: string; size: number; contentBase64: string }[];
 };
 
-export async function mailbox(): Promise<Captured[]> {
-  const res = await fetch(`${process.env.SMTP_CONTROL_URL}/messages`);
+/** The fake's messages, newest first; only those to one address when `to` is given. */
+export async function mailbox(to?: string): Promise<Captured[]> {
+  const res = await fetch(`${process.env.SMTP_CONTROL_URL}/messages${to ? `?to=${encodeURIComponent(to)}` : ""}`);
   return (await res.json()) as Captured[];
 }
 
@@ -103,5 +104,5 @@ export async function waitFor<T>(fn: () => Promise<T | null | undefined | false>
 }
 
 export async function mailTo(email: string, subjectPart: string, timeoutMs = 15_000): Promise<Captured> {
-  return waitFor(async () => (await mailbox()).find((m) => m.to.includes(email) && m.subject.includes(subjectPart)), timeoutMs);
+  return waitFor(async () => (await mailbox(email)).find((m) => m.subject.includes(subjectPart)), timeoutMs);
 }

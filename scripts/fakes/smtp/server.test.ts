@@ -60,6 +60,25 @@ describe("fake SMTP server", () => {
     expect((await listMessages(dir)).map((m) => m.subject)).toContain("back");
   });
 
+  it("lists the messages to one address, newest first, and keeps those of an earlier start", async () => {
+    await transport().sendMail({ from: "a@larkspur.example", to: "kit@larkspur.example", subject: "first", text: "x" });
+    await transport().sendMail({ from: "a@larkspur.example", to: "other@larkspur.example", subject: "not kit's", text: "x" });
+    await transport().sendMail({ from: "a@larkspur.example", to: "kit@larkspur.example", subject: "second", text: "x" });
+    const kits = async (url: string | null) =>
+      ((await (await fetch(`${url}/messages?to=${encodeURIComponent("kit@larkspur.example")}`)).json()) as { subject: string }[]).map(
+        (m) => m.subject,
+      );
+    expect(await kits(fake.controlUrl)).toEqual(["second", "first"]);
+    // a fake started again on the same folder lists what the first one received
+    const again = await startSmtpFake({ smtpPort: await freePort(), controlPort: await freePort(), dir });
+    try {
+      expect(await kits(again.controlUrl)).toEqual(["second", "first"]);
+      expect(((await (await fetch(`${again.controlUrl}/messages`)).json()) as unknown[]).length).toBe((await listMessages(dir)).length);
+    } finally {
+      await again.close();
+    }
+  });
+
   it("finds links in text and html and trims punctuation", () => {
     expect(extractLinks("See http://h/a/b.", '<a href="https://h/c?d=1">')).toEqual(["http://h/a/b", "https://h/c?d=1"]);
   });

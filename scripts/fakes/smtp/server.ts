@@ -1,8 +1,9 @@
 /**
  * A stand-in for the shop's mail provider: an SMTP server on loopback that keeps every
  * message it receives as a JSON file (the app's admin Outbox page and the tests read them).
- * An HTTP control port lets tests list messages and stop/start the SMTP listener to
- * simulate an outage.
+ * An HTTP control port lets tests list messages (all, or those to one address: `?to=`) and
+ * stop/start the SMTP listener to simulate an outage. The list is kept in memory as well, so
+ * that a test polling for its message does not read every file of the run again each time.
  */
 import { mkdir, readdir, readFile, writeFile } from "node:fs/promises";
 import http from "node:http";
@@ -45,6 +46,8 @@ export async function startSmtpFake(opts: { smtpPort: number; controlPort?: numb
   const host = opts.host ?? "127.0.0.1";
   await mkdir(opts.dir, { recursive: true });
   let seq = 0;
+  // Newest first, as listMessages gives them; read from the folder once, then kept up to date.
+  const received: StoredMessage[] = await listMessages(opts.dir);
 
   const makeServer = () =>
     new SMTPServer({
@@ -75,6 +78,7 @@ export async function startSmtpFake(opts: { smtpPort: number; controlPort?: numb
             };
             const name = `${Date.now().toString().padStart(15, "0")}-${String(seq++).padStart(6, "0")}.json`;
             await writeFile(path.join(opts.dir, name), JSON.stringify(msg, null, 2));
+            received.unshift(msg);
             callback();
           })
           .catch((err) => callback(err));
@@ -111,16 +115,20 @@ export async function startSmtpFake(opts: { smtpPort: number; controlPort?: numb
         res.end(JSON.stringify(body));
       };
       try {
-        if (req.method === "GET" && req.url === "/messages") return send(200, await listMessages(opts.dir));
-        if (req.method === "POST" && req.url === "/smtp/stop") {
+        const url = new URL(req.url ?? "/", "http://control");
+        if (req.method === "GET" && url.pathname === "/messages") {
+          const to = url.searchParams.get("to");
+          return send(200, to === null ? received : received.filter((m) => m.to.includes(to)));
+        }
+        if (req.method === "POST" && url.pathname === "/smtp/stop") {
           await unlisten();
           return send(200, { listening: false });
         }
-        if (req.method === "POST" && req.url === "/smtp/start") {
+        if (req.method === "POST" && url.pathname === "/smtp/start") {
           await listen();
           return send(200, { listening: true });
         }
-        if (req.method === "GET" && req.url === "/health") return send(200, { listening: Boolean(smtp) });
+        if (req.method === "GET" && url.pathname === "/health") return send(200, { listening: Boolean(smtp) });
         send(404, { error: "not found" });
       } catch (err) {
         send(500, { error: String(err) });
