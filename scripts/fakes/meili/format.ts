@@ -53,21 +53,42 @@ function atBoundaries(s: string, i: number, j: number): boolean {
   return true;
 }
 
-/** Sorted, non-overlapping spans of the query's terms in a text (fast path). */
+/** Terms sharing their first letters are looked for with one scan of the text (a prefix's many words). */
+const SCAN_PREFIX = 3;
+
+/**
+ * Sorted, non-overlapping spans of the query's terms in a text (fast path). The terms that begin
+ * alike are found together: one `indexOf` pass for their shared first letters, then each term is
+ * compared where those letters occur, which finds exactly the occurrences a scan per term finds.
+ */
 function findSpans(norm: string, match: HitMatch): Span[] {
   const spans: Span[] = [];
+  const groups = new Map<string, [string, number][]>();
   for (const [term, prefix] of match) {
     if (!term) continue;
-    for (let i = norm.indexOf(term); i >= 0; i = norm.indexOf(term, i + 1)) {
-      const j = i + term.length;
-      if (!atBoundaries(norm, i, j)) continue;
-      spans.push({ start: i, end: prefix > 0 && prefix < term.length ? i + prefix : j, term });
+    const key = term.slice(0, SCAN_PREFIX);
+    const group = groups.get(key);
+    if (group) group.push([term, prefix]);
+    else groups.set(key, [[term, prefix]]);
+  }
+  for (const [key, group] of groups) {
+    for (let i = norm.indexOf(key); i >= 0; i = norm.indexOf(key, i + 1)) {
+      for (const [term, prefix] of group) {
+        if (term.length > key.length && !norm.startsWith(term, i)) continue;
+        const j = i + term.length;
+        if (!atBoundaries(norm, i, j)) continue;
+        spans.push({ start: i, end: prefix > 0 && prefix < term.length ? i + prefix : j, term });
+      }
     }
-    // "nm" also stands for "n·m"
-    if (!term.includes("·") && norm.includes("·"))
-      for (const m of norm.matchAll(/[\p{L}\p{N}]+(?:·[\p{L}\p{N}]+)+/gu))
-        if (m[0].replace(/·/g, "") === term && atBoundaries(norm, m.index!, m.index! + m[0].length))
-          spans.push({ start: m.index!, end: m.index! + m[0].length, term });
+  }
+  // "nm" also stands for "n·m"
+  if (norm.includes("·")) {
+    const dotted = [...norm.matchAll(/[\p{L}\p{N}]+(?:·[\p{L}\p{N}]+)+/gu)];
+    for (const term of match.keys())
+      if (term && !term.includes("·"))
+        for (const m of dotted)
+          if (m[0].replace(/·/g, "") === term && atBoundaries(norm, m.index!, m.index! + m[0].length))
+            spans.push({ start: m.index!, end: m.index! + m[0].length, term });
   }
   spans.sort((a, b) => a.start - b.start || b.end - a.end);
   const out: Span[] = [];

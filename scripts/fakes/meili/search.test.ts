@@ -272,6 +272,25 @@ describe("formatting", () => {
     expect(r.hits[0]._formatted?.title).toBe("Oil pressure…");
   });
 
+  it("highlights every word a typed prefix completes, and none it sits inside", async () => {
+    // The words that begin alike are looked for in one scan (format.ts): each must still be
+    // found wherever it stands, and "arbor" or "harbored", which hold the letters, must not be.
+    const body = "Check the bore, then the boring bar; the arbor stays. The borescope shows the bore harbored no scoring.";
+    await idx.addDocuments([{ id: 51, kind: "procedure", title: "Prefix scan", body }]).waitTask();
+    try {
+      const r = await idx.search("bor", { attributesToHighlight: ["body"], filter: "kind = procedure" });
+      expect(r.hits.find((h) => h.id === 51)?._formatted?.body).toBe(
+        "Check the <em>bor</em>e, then the <em>bor</em>ing bar; the arbor stays. The <em>bor</em>escope shows the <em>bor</em>e harbored no scoring.",
+      );
+      const whole = await idx.search("bore", { attributesToHighlight: ["body"], filter: "kind = procedure" });
+      expect(whole.hits.find((h) => h.id === 51)?._formatted?.body).toBe(
+        "Check the <em>bore</em>, then the boring bar; the arbor stays. The <em>bore</em>scope shows the <em>bore</em> harbored no scoring.",
+      );
+    } finally {
+      await idx.deleteDocument(51).waitTask();
+    }
+  });
+
   it("reports match positions", async () => {
     const r = await idx.search("dyno", { showMatchesPosition: true });
     expect(r.hits[0]._matchesPosition).toEqual({ body: [{ start: 32, length: 4 }] });
