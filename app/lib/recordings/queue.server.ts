@@ -43,6 +43,27 @@ export function boss(opts: { worker?: boolean } = {}): Promise<PgBoss> {
 /** The advisory lock under which one process at a time makes queues ("que" in ASCII, apart from the others' classes). */
 const QUEUE_LOCK: [number, number] = [0x717565, 1];
 
+/** PostgreSQL's code for the transaction it chose to end to break a deadlock. */
+const DEADLOCK = "40P01";
+
+/**
+ * Runs `fn` again (up to `attempts` times in all, after a short random pause) when PostgreSQL
+ * ended it to break a deadlock, as PostgreSQL's manual advises; any other error is thrown at once.
+ * pg-boss makes a queue as a partition of its job table, and its own queue for schedules
+ * (made by a worker as it starts, outside the lock below) can deadlock with a job being sent
+ * on a new database: the sender that loses tries again.
+ */
+export async function retryOnDeadlock<T>(fn: () => Promise<T>, attempts = 4, pauseMs = 100): Promise<T> {
+  for (let i = 1; ; i++) {
+    try {
+      return await fn();
+    } catch (err) {
+      if ((err as { code?: string }).code !== DEADLOCK || i >= attempts) throw err;
+      await new Promise((r) => setTimeout(r, pauseMs * (0.5 + Math.random())));
+    }
+  }
+}
+
 /**
  * Makes the queues that do not exist yet, one process at a time: pg-boss makes a queue as a
  * partition of its job table, and two processes doing that at once (an app finishing its first
@@ -57,7 +78,7 @@ async function createMissingQueues(b: PgBoss) {
   await client.connect();
   try {
     await client.query("select pg_advisory_lock($1, $2)", QUEUE_LOCK);
-    for (const name of await missing()) await b.createQueue(name, { name, ...JOB_OPTIONS });
+    for (const name of await missing()) await retryOnDeadlock(() => b.createQueue(name, { name, ...JOB_OPTIONS }));
   } finally {
     await client.query("select pg_advisory_unlock($1, $2)", QUEUE_LOCK).catch(() => {});
     await client.end().catch(() => {});
@@ -68,14 +89,15 @@ async function createMissingQueues(b: PgBoss) {
 export const WAKE_CHANNEL = "benchreel_recording_jobs";
 
 export async function enqueueProcessing(recordingId: string): Promise<void> {
-  const b = await boss();
-  await b.send(PROCESS_QUEUE, { recordingId }, JOB_OPTIONS);
+  const b = await retryOnDeadlock(() => boss());
+  await retryOnDeadlock(() => b.send(PROCESS_QUEUE, { recordingId }, JOB_OPTIONS));
   await b.getDb().executeSql("select pg_notify($1, '')", [WAKE_CHANNEL]);
 }
 
 /** Sent by the worker just before it marks the recording ready; a job that starts earlier is retried. */
 export async function enqueueDecodeCheck(recordingId: string, expectedS: number): Promise<void> {
-  await (await boss()).send(DECODE_QUEUE, { recordingId, expectedS }, JOB_OPTIONS);
+  const b = await retryOnDeadlock(() => boss());
+  await retryOnDeadlock(() => b.send(DECODE_QUEUE, { recordingId, expectedS }, JOB_OPTIONS));
 }
 
 /**

@@ -112,7 +112,11 @@ async function onUploadFinish(_req: Request, upload: Upload) {
   });
   if (backend === "s3") await storeOf("s3").remove(`${upload.id}.info`);
   else await fs.rm(`${tusFilePath(upload.id)}.json`, { force: true });
-  await enqueueProcessing(recId);
+  // The upload is finished and its recording kept whatever happens here: a job that cannot be
+  // sent now is sent by the worker's check for recordings waiting without one.
+  await enqueueProcessing(recId).catch((err) =>
+    console.error(`[uploads] ${recId}: the processing job could not be sent yet (${(err as Error).message}); the worker will send it`),
+  );
   return { headers: { "Benchreel-Recording": recId } };
 }
 
