@@ -64,15 +64,24 @@ export function retryDelayMs(attempts: number, baseMs: number): number {
 }
 
 /**
- * Sends what is due, one row at a time under a row lock (several workers never send one
- * message twice). A failure leaves the row pending with a later next attempt.
+ * Sends what is due, each row under a row lock that the others skip (several workers, or the
+ * lanes of one, never send one message twice), `lanes` messages at a time: a change that
+ * notifies every editor queues one message each, and one at a time they kept a message behind
+ * them waiting. A failure leaves the row pending with a later next attempt.
  */
-export async function drainOutbox(opts: { transport: Transporter; from?: string; retryBaseMs?: number; limit?: number }) {
+export async function drainOutbox(opts: { transport: Transporter; from?: string; retryBaseMs?: number; limit?: number; lanes?: number }) {
+  const lanes = Math.max(1, opts.lanes ?? 4);
+  const limit = opts.limit ?? 50;
+  const each = await Promise.all(Array.from({ length: lanes }, (_, i) => drainLane({ ...opts, limit: Math.ceil((limit - i) / lanes) })));
+  return { sent: each.reduce((n, r) => n + r.sent, 0), failed: each.reduce((n, r) => n + r.failed, 0) };
+}
+
+async function drainLane(opts: { transport: Transporter; from?: string; retryBaseMs?: number; limit: number }) {
   const from = opts.from ?? env().MAIL_FROM;
   const base = opts.retryBaseMs ?? 5000;
   let sent = 0;
   let failed = 0;
-  for (let i = 0; i < (opts.limit ?? 50); i++) {
+  for (let i = 0; i < opts.limit; i++) {
     const outcome = await db().transaction(async (tx) => {
       const [row] = await tx
         .select()

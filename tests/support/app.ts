@@ -103,6 +103,6 @@ export async function waitFor<T>(fn: () => Promise<T | null | undefined | false>
   throw new Error(`waitFor timed out${last ? `: ${String(last)}` : ""}`);
 }
 
-export async function mailTo(email: string, subjectPart: string, timeoutMs = 15_000): Promise<Captured> {
+export async function mailTo(email: string, subjectPart: string, timeoutMs = 25_000): Promise<Captured> {
   return waitFor(async () => (await mailbox(email)).find((m) => m.subject.includes(subjectPart)), timeoutMs);
 }
