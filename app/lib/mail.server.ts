@@ -64,10 +64,12 @@ export function retryDelayMs(attempts: number, baseMs: number): number {
 }
 
 /**
- * Sends what is due, each row under a row lock that the others skip (several workers, or the
- * lanes of one, never send one message twice), `lanes` messages at a time: a change that
- * notifies every editor queues one message each, and one at a time they kept a message behind
- * them waiting. A failure leaves the row pending with a later next attempt.
+ * Sends what is due, `lanes` messages at a time, each row under a row lock that the other lanes
+ * and workers skip, so no two take the same message (one that SMTP accepted just before a crash
+ * is sent again: at least once, never twice at once). A change that notifies every editor
+ * queues one message each; sent one at a time they kept the messages behind them waiting.
+ * Messages to one person may therefore arrive out of order. A failure leaves the row pending
+ * with a later next attempt; while SMTP is down, each lane's first row of a tick counts one.
  */
 export async function drainOutbox(opts: { transport: Transporter; from?: string; retryBaseMs?: number; limit?: number; lanes?: number }) {
   const lanes = Math.max(1, opts.lanes ?? 4);

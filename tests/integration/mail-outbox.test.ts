@@ -1,5 +1,5 @@
 // The outbox under load: a change that notifies many people queues one message each; the
-// worker's lanes and a second sender (another worker) drain it together, and every message
+// worker's lanes and two more senders (as other workers) drain it together, and every message
 // is delivered exactly once.
 import { randomUUID } from "node:crypto";
 import { like } from "drizzle-orm";

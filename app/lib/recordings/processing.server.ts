@@ -576,30 +576,36 @@ function throttled(id: string, toProgress: (sec: number) => number): (sec: numbe
   };
 }
 
-/** The worker side: work the queue; a throw is retried by pg-boss, the last failure is shown. */
 /** How long a recording may be in "processing" with no job before the worker gives it one, and how often it looks. */
 const UNQUEUED_AFTER_S = 60;
 const UNQUEUED_EVERY_MS = 30_000;
+/** The advisory lock under which one worker at a time looks ("unq" in ASCII, apart from the others' classes). */
+const UNQUEUED_LOCK = 0x756e71;
 
 /**
- * Gives a fresh job to each recording in "processing" that has none waiting or running and
- * has not changed for `olderThanS` seconds: its worker died mid-job, or the app committed the
- * finished upload but could not send the job (the database refused it, or the app stopped in
- * between). Processing is idempotent and skips a recording that is already ready, so the
- * orphaned active job, when pg-boss expires and retries it, costs nothing. Returns the ids.
+ * Gives a fresh job to each recording in "processing" that has no job waiting or running and
+ * has not changed for `olderThanS` seconds: the app committed the finished upload but could not
+ * send its job (the database refused it, or the app stopped in between), or it was enqueued
+ * while the queue was down. One worker looks at a time (an advisory lock held while it sends),
+ * so two never send a job for the same recording. Returns the ids it sent jobs for.
  */
 export async function enqueueUnqueued(olderThanS: number): Promise<string[]> {
-  const { rows } = await db().execute<{ id: string }>(sql`
-    select r.id from recordings r
-    where r.state = 'processing'
-      and r.updated_at <= now() - make_interval(secs => ${olderThanS})
-      and not exists (select 1 from pgboss.job j where j.name = ${PROCESS_QUEUE} and j.data->>'recordingId' = r.id::text and j.state in ('created','retry','active'))`);
-  for (const r of rows) await enqueueProcessing(r.id);
-  if (rows.length && olderThanS > 0)
-    console.warn(`[recordings] sent the jobs missing for ${rows.length} recording(s): ${rows.map((r) => r.id).join(", ")}`);
-  return rows.map((r) => r.id);
+  return db().transaction(async (tx) => {
+    const { rows: lock } = await tx.execute<{ ok: boolean }>(sql`select pg_try_advisory_xact_lock(${UNQUEUED_LOCK}) as ok`);
+    if (!lock[0]?.ok) return [];
+    const { rows } = await tx.execute<{ id: string }>(sql`
+      select r.id from recordings r
+      where r.state = 'processing'
+        and r.updated_at <= now() - make_interval(secs => ${olderThanS})
+        and not exists (select 1 from pgboss.job j where j.name = ${PROCESS_QUEUE} and j.data->>'recordingId' = r.id::text and j.state in ('created','retry','active'))`);
+    for (const r of rows) await enqueueProcessing(r.id);
+    if (rows.length && olderThanS > 0)
+      console.warn(`[recordings] sent the jobs missing for ${rows.length} recording(s): ${rows.map((r) => r.id).join(", ")}`);
+    return rows.map((r) => r.id);
+  });
 }
 
+/** The worker side: work the queue; a throw is retried by pg-boss, the last failure is shown. */
 export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> }> {
   const b = await boss({ worker: true });
   const workerId = await b.work<{ recordingId: string }>(
@@ -626,14 +632,10 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
       }
     },
   );
-  // At start-up, every recording left in "processing" with no waiting job gets a fresh one;
-  // afterwards, every half minute, those that have waited so for a while (see enqueueUnqueued).
+  // At start-up, every recording left in "processing" with no waiting job gets a fresh one
+  // (processing is idempotent and skips a recording that is already ready); afterwards, every
+  // half minute, those that have waited so for a while (see enqueueUnqueued).
   await enqueueUnqueued(0);
-  const unqueued = setInterval(
-    () => void enqueueUnqueued(UNQUEUED_AFTER_S).catch((err) => console.error("[recordings] unqueued check:", (err as Error).message)),
-    UNQUEUED_EVERY_MS,
-  );
-  unqueued.unref();
   // A job still active whose worker died (no live worker holds its lock, with several workers
   // on one database too) is failed into pg-boss's retry now instead of at its expiry, and
   // another worker takes it over (job-liveness.server.ts).
@@ -644,6 +646,11 @@ export async function startRecordingJobs(): Promise<{ stop: () => Promise<void> 
   });
   await scheduleUploadSweep(b);
   const listener = listenForJobs(() => b.notifyWorker(workerId));
+  const unqueued = setInterval(
+    () => void enqueueUnqueued(UNQUEUED_AFTER_S).catch((err) => console.error("[recordings] unqueued check:", (err as Error).message)),
+    UNQUEUED_EVERY_MS,
+  );
+  unqueued.unref();
   return {
     async stop() {
       orphans.stop();

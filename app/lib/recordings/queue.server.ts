@@ -15,7 +15,12 @@ export const JOB_OPTIONS = { retryLimit: 3, retryDelay: 5, retryBackoff: true, e
 export const DECODE_QUEUE = "recording-decode-check";
 /** The hourly sweep of abandoned uploads (tus-sweep.server.ts), made with the others so no two processes make queues at odd times. */
 export const UPLOAD_SWEEP_QUEUE = "uploads-sweep";
-const QUEUES = [PROCESS_QUEUE, DECODE_QUEUE, UPLOAD_SWEEP_QUEUE];
+/**
+ * pg-boss's own queue for schedules: its timekeeper makes it as a worker starts, outside the lock
+ * below, and gives up silently if that fails; listed here, a missing one is made under the lock.
+ */
+const SCHEDULES_QUEUE = "__pgboss__send-it";
+const QUEUES = [PROCESS_QUEUE, DECODE_QUEUE, UPLOAD_SWEEP_QUEUE, SCHEDULES_QUEUE];
 
 const g = globalThis as unknown as { __benchreelBoss?: Promise<PgBoss> };
 
@@ -30,9 +35,15 @@ export function boss(opts: { worker?: boolean } = {}): Promise<PgBoss> {
       schedule: Boolean(opts.worker),
     });
     b.on("error", (err) => console.error("[queue]", err.message));
-    await b.start();
-    await createMissingQueues(b);
-    return b;
+    try {
+      await b.start();
+      await createMissingQueues(b);
+      return b;
+    } catch (err) {
+      // A half-started pg-boss keeps its pool and timers: stopped, so that a retry leaves none behind.
+      await b.stop({ graceful: false, wait: false }).catch(() => {});
+      throw err;
+    }
   })().catch((err) => {
     g.__benchreelBoss = undefined;
     throw err;
@@ -78,7 +89,8 @@ async function createMissingQueues(b: PgBoss) {
   await client.connect();
   try {
     await client.query("select pg_advisory_lock($1, $2)", QUEUE_LOCK);
-    for (const name of await missing()) await retryOnDeadlock(() => b.createQueue(name, { name, ...JOB_OPTIONS }));
+    for (const name of await missing())
+      await retryOnDeadlock(() => b.createQueue(name, name === SCHEDULES_QUEUE ? { name } : { name, ...JOB_OPTIONS }));
   } finally {
     await client.query("select pg_advisory_unlock($1, $2)", QUEUE_LOCK).catch(() => {});
     await client.end().catch(() => {});
@@ -91,7 +103,11 @@ export const WAKE_CHANNEL = "benchreel_recording_jobs";
 export async function enqueueProcessing(recordingId: string): Promise<void> {
   const b = await retryOnDeadlock(() => boss());
   await retryOnDeadlock(() => b.send(PROCESS_QUEUE, { recordingId }, JOB_OPTIONS));
-  await b.getDb().executeSql("select pg_notify($1, '')", [WAKE_CHANNEL]);
+  // Best effort: the worker polls every second as well.
+  await b
+    .getDb()
+    .executeSql("select pg_notify($1, '')", [WAKE_CHANNEL])
+    .catch(() => {});
 }
 
 /** Sent by the worker just before it marks the recording ready; a job that starts earlier is retried. */

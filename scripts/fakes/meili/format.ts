@@ -64,8 +64,12 @@ const SCAN_PREFIX = 3;
 function findSpans(norm: string, match: HitMatch): Span[] {
   const spans: Span[] = [];
   const groups = new Map<string, [string, number][]>();
+  // Two terms can cover the same letters ("12" and a prefix of "12x5"): the one first in the
+  // match keeps the span, as when each term was scanned in turn.
+  const rank = new Map<string, number>();
   for (const [term, prefix] of match) {
     if (!term) continue;
+    rank.set(term, rank.size);
     const key = term.slice(0, SCAN_PREFIX);
     const group = groups.get(key);
     if (group) group.push([term, prefix]);
@@ -90,7 +94,7 @@ function findSpans(norm: string, match: HitMatch): Span[] {
           if (m[0].replace(/·/g, "") === term && atBoundaries(norm, m.index!, m.index! + m[0].length))
             spans.push({ start: m.index!, end: m.index! + m[0].length, term });
   }
-  spans.sort((a, b) => a.start - b.start || b.end - a.end);
+  spans.sort((a, b) => a.start - b.start || b.end - a.end || rank.get(a.term)! - rank.get(b.term)!);
   const out: Span[] = [];
   for (const s of spans) if (!out.length || s.start >= out[out.length - 1].end) out.push(s);
   return out;

@@ -38,7 +38,15 @@ export async function listMessages(dir: string): Promise<StoredMessage[]> {
   } catch {
     return [];
   }
-  const msgs = await Promise.all(names.map(async (n) => JSON.parse(await readFile(path.join(dir, n), "utf8")) as StoredMessage));
+  // A file cut short (the fake killed while writing it) is left out rather than stopping the list.
+  const read = async (n: string) => {
+    try {
+      return JSON.parse(await readFile(path.join(dir, n), "utf8")) as StoredMessage;
+    } catch {
+      return null;
+    }
+  };
+  const msgs = (await Promise.all(names.map(read))).filter((m): m is StoredMessage => m !== null);
   return msgs.sort((a, b) => (a.receivedAt < b.receivedAt ? 1 : -1));
 }
 
