@@ -68,8 +68,13 @@ test("a stud left empty on the run: the record says which, stays Incomplete, and
     page.getByRole("alert").filter({ hasText: "How many studs does “Head stud final torque” cover? Enter the number" }),
   ).toBeVisible();
   await lookAt(page, "run-finish-stud-count");
-  await covers("Head stud final torque").fill("3");
+  // The panel counts the studs up to the number typed, as filing will: 5 leaves studs 2, 4 and 5.
+  const finish = page.getByTestId("finish-panel");
   await covers("Stud protrusion above deck").fill("1");
+  await covers("Head stud final torque").fill("5");
+  await expect(finish).toContainText("3 places have no value yet: the record will be Incomplete, never Within spec.");
+  await covers("Head stud final torque").fill("3");
+  await expect(finish).toContainText("1 place has no value yet: the record will be Incomplete, never Within spec.");
   await page.getByRole("button", { name: "Finish and file the test record" }).click();
   await expect(page).toHaveURL(/\/test-records\/[0-9a-f-]{36}$/);
   const recordUrl = page.url();

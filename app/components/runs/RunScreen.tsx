@@ -118,6 +118,8 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   const [closed, setClosed] = useState<string | null>(null);
   // Fields typed in whose pause has not come yet: not kept anywhere, so not "saved" either.
   const [typing, setTyping] = useState<ReadonlySet<string>>(new Set());
+  /** What is typed in the finish panel's "How many studs…" fields, by spec key. */
+  const [studCounts, setStudCounts] = useState<Record<string, string>>({});
   const timers = useRef(new Map<string, ReturnType<typeof setTimeout>>());
   const flushing = useRef(false);
   const specByKeyRef = useRef(specByKey);
@@ -333,6 +335,17 @@ export function RunScreen({ view, canWork, actionData }: Props) {
   }
   const places = placesBySpec(specs, view.build, typedLatest, gridCellsBySpec(steps, specs));
   const progress = progressOf(places);
+  // Finishing counts each per-stud spec's studs up to the number asked for in the finish panel
+  // (its rows until one is typed): the panel's count and verdict say what filing will.
+  const studSpecs = specs.filter((s) => s.field === "fastener").map((s) => ({ key: s.key, label: s.label, prefill: slotsOf(s).length }));
+  const studs = Object.fromEntries(
+    studSpecs.map((sp) => {
+      const n = Number(studCounts[sp.key]);
+      return [sp.key, Number.isInteger(n) && n >= 1 && n <= 200 ? n : sp.prefill];
+    }),
+  );
+  const finishPlaces = placesBySpec(specs, view.build, typedLatest, gridCellsBySpec(steps, specs), studs);
+  const finishProgress = progressOf(finishPlaces);
   // Cylinders whose distortion grid is begun and not full: filed as they are, and said before finishing.
   const partialGrids = steps.flatMap((st) => {
     const g = stepGrid(st.calculators);
@@ -351,7 +364,10 @@ export function RunScreen({ view, canWork, actionData }: Props) {
         }),
       );
   });
-  const missingPlaces = places.reduce((n, p) => n + (p.offered.length && p.missing.length < p.offered.length ? p.missing.length : 0), 0);
+  const missingPlaces = finishPlaces.reduce(
+    (n, p) => n + (p.offered.length && p.missing.length < p.offered.length ? p.missing.length : 0),
+    0,
+  );
 
   const step = steps[stepAt];
   const stepSpecs = (step?.specKeys ?? []).map((k) => specByKey.get(k)).filter((s): s is Spec => Boolean(s));
@@ -535,13 +551,15 @@ export function RunScreen({ view, canWork, actionData }: Props) {
 
       {open && (
         <FinishPanel
-          measured={progress.measured}
+          measured={finishProgress.measured}
           typing={typing.size}
-          total={progress.total}
+          total={finishProgress.total}
           evaluation={evaluation}
           unsent={unsent + unsentPhotos}
           partialGrids={partialGrids}
-          studSpecs={specs.filter((s) => s.field === "fastener").map((s) => ({ key: s.key, label: s.label, prefill: slotsOf(s).length }))}
+          studSpecs={studSpecs}
+          studCounts={studCounts}
+          onStudCount={(key, text) => setStudCounts((c) => ({ ...c, [key]: text }))}
           actionData={actionData}
         />
       )}
@@ -965,6 +983,8 @@ function FinishPanel({
   unsent,
   partialGrids,
   studSpecs,
+  studCounts,
+  onStudCount,
   actionData,
 }: {
   measured: number;
@@ -975,6 +995,8 @@ function FinishPanel({
   partialGrids: string[];
   /** Per-stud specs and the count offered (the last run's or the spec's own, or the rows shown). */
   studSpecs: { key: string; label: string; prefill: number }[];
+  studCounts: Record<string, string>;
+  onStudCount: (key: string, text: string) => void;
   actionData: Props["actionData"];
 }) {
   const busy = useNavigation().state === "submitting";
@@ -1015,7 +1037,8 @@ function FinishPanel({
                 inputMode="numeric"
                 min={1}
                 max={200}
-                defaultValue={sp.prefill}
+                value={studCounts[sp.key] ?? String(sp.prefill)}
+                onChange={(e) => onStudCount(sp.key, e.currentTarget.value)}
                 className="field w-28 tabular-nums"
                 aria-invalid={error ? true : undefined}
                 aria-describedby={`f-${name}-hint`}
