@@ -470,8 +470,19 @@ describe("password lifecycle", () => {
     expect(await (await http(`/reset/${first}`)).text()).toContain("This reset link has expired.");
     const old = await http(`/reset/${first}`, { form: { password: "another-password", confirm: "another-password" } });
     expect(old.status).toBe(409);
-    expect((await http("/api/me", { cookie: u.cookie })).status).toBe(401);
-    expect((await http("/api/me", { cookie: otherSession })).status).toBe(401);
+    // (Seen once under load: the old session still answered 200. Should it again, the message says what the database held.)
+    for (const cookie of [u.cookie, otherSession]) {
+      const me = await http("/api/me", { cookie });
+      if (me.status === 401) continue;
+      const left = await db().select({ id: sessions.id }).from(sessions).where(eq(sessions.userId, u.id));
+      const links = await db()
+        .select({ usedAt: passwordResets.usedAt, expiresAt: passwordResets.expiresAt })
+        .from(passwordResets)
+        .where(eq(passwordResets.userId, u.id));
+      expect.fail(
+        `an old session answered ${me.status} (${(await me.text()).slice(0, 200)}); sessions left for the person: ${left.length}; their reset links: ${JSON.stringify(links)}`,
+      );
+    }
     expect((await signInFrom(newClientAddress(), u.email, "brand-new-password")).status).toBe(302);
   });
 
